@@ -1,0 +1,41 @@
+import { benchFft } from './fft.bench.ts';
+import type { BenchRow } from './timing.ts';
+
+/**
+ * `npm run bench`: every benchmark group in turn, one table of medians from this one run.
+ * Groups are optional modules so a missing engine only drops its rows.
+ */
+type Group = { title: string; run: () => Promise<BenchRow[]> };
+
+async function optional(title: string, path: string, exportName: string): Promise<Group | null> {
+  try {
+    const mod = (await import(path)) as Record<string, () => Promise<BenchRow[]>>;
+    const run = mod[exportName];
+    return typeof run === 'function' ? { title, run } : null;
+  } catch (error) {
+    console.error(`(${title}: not run — ${(error as Error).message})`);
+    return null;
+  }
+}
+
+const groups: Group[] = [{ title: 'FFT', run: benchFft }];
+for (const [title, path, name] of [
+  ['metrics', './metrics.bench.ts', 'benchMetrics'],
+  ['sampling', './sampling.bench.ts', 'benchSampling'],
+  ['reconstruction', './recon.bench.ts', 'benchRecon'],
+  ['planning', './plan.bench.ts', 'benchPlan'],
+  ['service', './service.bench.ts', 'benchService'],
+] as const) {
+  const group = await optional(title, path, name);
+  if (group) groups.push(group);
+}
+
+console.log(`k-space planner benchmarks — node ${process.version}, ${new Date().toISOString()}`);
+console.log('| group | benchmark | median ms | note |');
+console.log('|---|---|---|---|');
+for (const group of groups) {
+  const rows = await group.run();
+  for (const row of rows) {
+    console.log(`| ${group.title} | ${row.name} | ${row.medianMs.toFixed(2)} | ${row.note ?? ''} |`);
+  }
+}
