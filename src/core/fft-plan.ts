@@ -3,9 +3,12 @@ import FFT from 'fft.js';
 /**
  * One-dimensional unnormalised forward DFT of any length N,
  *   X[k] = Σ_n x[n] e^(−i2π nk/N),
- * on interleaved complex buffers. Powers of two go straight to fft.js (radix-4); every other
- * length uses Bluestein's chirp-z identity nk = (n² + k² − (k − n)²)/2, which turns the DFT into
- * a linear convolution done with a power-of-two fft.js transform of length M ≥ 2N − 1
+ * on interleaved complex buffers. Powers of two go straight to fft.js (radix-4). A length
+ * N = P·Q with P a power of two and Q odd is split once, Cooley–Tukey style, into Q transforms of
+ * length P, twiddles, and P transforms of length Q (so the common MR sizes 320 = 64·5 and
+ * 384 = 128·3 cost little more than a power of two). Odd lengths up to 32 use a direct table;
+ * longer odd lengths use Bluestein's chirp-z identity nk = (n² + k² − (k − n)²)/2, which turns the
+ * DFT into a linear convolution done with a power-of-two fft.js transform of length M ≥ 2N − 1
  * (Bluestein 1970). Chirp exponents use n² mod 2N so they stay exact for large N.
  * A plan owns its scratch buffers: it is not re-entrant, which is fine on one thread.
  */
@@ -98,6 +101,122 @@ function bluesteinPlan(size: number): FftPlan {
   };
 }
 
+/** Direct O(N²) DFT with a precomputed table of the N distinct twiddles, for short odd lengths. */
+function directPlan(size: number): FftPlan {
+  const cos = new Float64Array(size);
+  const sin = new Float64Array(size);
+  for (let j = 0; j < size; j++) {
+    cos[j] = Math.cos((-2 * Math.PI * j) / size);
+    sin[j] = Math.sin((-2 * Math.PI * j) / size);
+  }
+  return {
+    size,
+    forward(output, input) {
+      for (let k = 0; k < size; k++) {
+        let re = 0;
+        let im = 0;
+        for (let n = 0, t = 0; n < size; n++, t = (t + k) % size) {
+          const xr = input[2 * n];
+          const xi = input[2 * n + 1];
+          re += xr * cos[t] - xi * sin[t];
+          im += xr * sin[t] + xi * cos[t];
+        }
+        output[2 * k] = re;
+        output[2 * k + 1] = im;
+      }
+    },
+  };
+}
+
+/**
+ * N = P·Q split: with n = Q·n1 + n2 and k = k1 + P·k2,
+ *   X[k1 + P·k2] = Σ_{n2} W_Q^{n2·k2} · W_N^{n2·k1} · Σ_{n1} x[Q·n1 + n2] W_P^{n1·k1}.
+ */
+function splitPlan(size: number, p: number, q: number): FftPlan {
+  const inner = fftPlan(p);
+  const outer = q <= 32 ? null : fftPlan(q);
+  const twiddle = new Float64Array(2 * size);
+  for (let n2 = 0; n2 < q; n2++) {
+    for (let k1 = 0; k1 < p; k1++) {
+      const phase = (-2 * Math.PI * ((n2 * k1) % size)) / size;
+      twiddle[2 * (n2 * p + k1)] = Math.cos(phase);
+      twiddle[2 * (n2 * p + k1) + 1] = Math.sin(phase);
+    }
+  }
+  const smallQ = q <= 32;
+  const qCos = new Float64Array(q);
+  const qSin = new Float64Array(q);
+  for (let j = 0; j < q; j++) {
+    qCos[j] = Math.cos((-2 * Math.PI * j) / q);
+    qSin[j] = Math.sin((-2 * Math.PI * j) / q);
+  }
+  const y = new Float64Array(2 * size);
+  const inP = new Float64Array(2 * p);
+  const outP = new Float64Array(2 * p);
+  const inQ = new Float64Array(2 * q);
+  const outQ = new Float64Array(2 * q);
+  return {
+    size,
+    forward(output, input) {
+      for (let n2 = 0; n2 < q; n2++) {
+        for (let n1 = 0; n1 < p; n1++) {
+          inP[2 * n1] = input[2 * (q * n1 + n2)];
+          inP[2 * n1 + 1] = input[2 * (q * n1 + n2) + 1];
+        }
+        inner.forward(outP, inP);
+        const base = 2 * n2 * p;
+        for (let k1 = 0; k1 < p; k1++) {
+          const vr = outP[2 * k1];
+          const vi = outP[2 * k1 + 1];
+          const tr = twiddle[base + 2 * k1];
+          const ti = twiddle[base + 2 * k1 + 1];
+          y[base + 2 * k1] = vr * tr - vi * ti;
+          y[base + 2 * k1 + 1] = vr * ti + vi * tr;
+        }
+      }
+      if (smallQ) {
+        // Short odd factor: the length-Q DFTs run across all k1 at once (contiguous inner loop).
+        for (let k2 = 0; k2 < q; k2++) {
+          const out = 2 * p * k2;
+          for (let i = 0; i < 2 * p; i++) output[out + i] = 0;
+          for (let n2 = 0; n2 < q; n2++) {
+            const t = (n2 * k2) % q;
+            const wr = qCos[t];
+            const wi = qSin[t];
+            const base = 2 * n2 * p;
+            for (let k1 = 0; k1 < 2 * p; k1 += 2) {
+              const vr = y[base + k1];
+              const vi = y[base + k1 + 1];
+              output[out + k1] += vr * wr - vi * wi;
+              output[out + k1 + 1] += vr * wi + vi * wr;
+            }
+          }
+        }
+        return;
+      }
+      for (let k1 = 0; k1 < p; k1++) {
+        for (let n2 = 0; n2 < q; n2++) {
+          inQ[2 * n2] = y[2 * (n2 * p + k1)];
+          inQ[2 * n2 + 1] = y[2 * (n2 * p + k1) + 1];
+        }
+        outer!.forward(outQ, inQ);
+        for (let k2 = 0; k2 < q; k2++) {
+          output[2 * (k1 + p * k2)] = outQ[2 * k2];
+          output[2 * (k1 + p * k2) + 1] = outQ[2 * k2 + 1];
+        }
+      }
+    },
+  };
+}
+
+function makePlan(size: number): FftPlan {
+  if (size === 1) return trivialPlan();
+  if (isPowerOfTwo(size)) return radixPlan(size);
+  const p = size & -size; // largest power-of-two factor
+  if (p > 1) return splitPlan(size, p, size / p);
+  return size <= 32 ? directPlan(size) : bluesteinPlan(size);
+}
+
 const plans = new Map<number, FftPlan>();
 
 /** The cached plan for length `size` (twiddles, chirps and scratch made once per length). */
@@ -106,7 +225,7 @@ export function fftPlan(size: number): FftPlan {
     throw new RangeError(`size must be a positive integer, got ${size}`);
   let plan = plans.get(size);
   if (!plan) {
-    plan = size === 1 ? trivialPlan() : isPowerOfTwo(size) ? radixPlan(size) : bluesteinPlan(size);
+    plan = makePlan(size);
     plans.set(size, plan);
   }
   return plan;

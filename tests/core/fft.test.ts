@@ -40,7 +40,7 @@ function relativeMaxError(a: Float64Array, b: Float64Array): number {
 }
 
 describe('1D plans against the direct DFT (definition, REFERENCES.md §2.1–2.2)', () => {
-  const lengths = [...Array.from({ length: 64 }, (_, i) => i + 1), 218, 320, 384, 509];
+  const lengths = [...Array.from({ length: 64 }, (_, i) => i + 1), 97, 182, 218, 320, 384, 509, 1000];
   it.each(lengths)('N = %i: relative max error ≤ 1e-10', (n) => {
     const x = randomComplex(n, n);
     const got = new Float64Array(2 * n);
