@@ -1,0 +1,132 @@
+import { ValidationError } from '../core/errors.ts';
+import { formatDuration } from './format-duration.ts';
+import { type Protocol, type ProtocolInput, protocolSchema } from './schema.ts';
+import { parseOrThrow } from './zod-problems.ts';
+
+/** What the scan-time model reads from a sampled mask (a sampling/ SampledMask satisfies it). */
+export interface ScanTimeSampling {
+  nx: number;
+  ny: number;
+  mask: Uint8Array;
+  acquired: { count: number; unit: string };
+  representation: 'cartesian' | 'radial-rasterised';
+}
+
+export interface ScanTime {
+  seconds: number;
+  /** `m:ss(.s)`, see formatDuration. */
+  formatted: string;
+  /** Acquired count that costs time: phase-encode lines (2D), ky–kz points (3D) or spokes (radial). */
+  acquired: number;
+  unit: 'lines' | 'points' | 'spokes';
+  /** ⌈acquired / echoTrainLength⌉: TRs per pass and excitation. */
+  shots: number;
+  /** ⌈slices / slicesPerPass⌉ (2D); 1 in 3D. */
+  passes: number;
+}
+
+/**
+ * Acquisition time (REFERENCES.md §8; prescan and dummy scans excluded):
+ *   2D Cartesian  TA = TR × ⌈lines / ETL⌉ × NEX × passes
+ *   3D Cartesian  TA = TR × ⌈points(ky,kz) / ETL⌉ × NEX           (matrix ny×nx = ky×kz)
+ *   radial        TA = TR × ⌈spokes / ETL⌉ × NEX × passes         (ETL > 1: several spokes per TR)
+ *
+ * Counting with a mask: in 2D every phase-encode row with at least one sampled point costs a whole
+ * line (the readout direction kx is free), so a 2D point mask counts its occupied rows; in 3D every
+ * sampled ky–kz point costs one readout.
+ *
+ * Partial Fourier p keeps the ⌈p·ny⌉ rows `ny − ⌈p·ny⌉ … ny − 1` (one half of ky plus the centre row
+ * ⌊ny/2⌋ and the extra rows beyond it); rows outside that band are skipped even where the mask
+ * samples them. Without a mask this is the handbook ⌈p·N_pe⌉. The simulated reconstruction does not
+ * model partial Fourier: image errors are those of the mask alone. Radial sampling takes p = 1.
+ */
+export function scanTime(
+  matrix: { nx: number; ny: number },
+  protocolInput: ProtocolInput | Protocol,
+  sampled?: ScanTimeSampling,
+): ScanTime {
+  checkMatrix(matrix);
+  const protocol = parseOrThrow(protocolSchema, protocolInput, 'protocol');
+  const { nx, ny } = matrix;
+  if (sampled && (sampled.nx !== nx || sampled.ny !== ny)) {
+    throw new ValidationError({
+      field: 'matrix',
+      message: `the sampled mask is ${sampled.ny}×${sampled.nx} but the matrix is ${ny}×${nx}`,
+      allowed: 'the mask size equal to the matrix',
+    });
+  }
+  const passes =
+    protocol.dimensions === '2d'
+      ? Math.ceil(protocol.slices / (protocol.slicesPerPass ?? protocol.slices))
+      : 1;
+
+  let acquired: number;
+  let unit: ScanTime['unit'];
+  if (sampled?.representation === 'radial-rasterised') {
+    if (protocol.dimensions !== '2d') {
+      throw new ValidationError({
+        field: 'protocol.dimensions',
+        message: 'radial sampling is modelled as 2D spokes',
+        allowed: "'2d' for radial sampling",
+      });
+    }
+    if (protocol.partialFourier !== 1) {
+      throw new ValidationError({
+        field: 'protocol.partialFourier',
+        message: 'partial Fourier is not modelled for radial sampling',
+        allowed: '1 for radial sampling',
+      });
+    }
+    acquired = sampled.acquired.count;
+    unit = 'spokes';
+  } else {
+    const keptRows = Math.ceil(protocol.partialFourier * ny - 1e-9);
+    const firstRow = ny - keptRows;
+    if (protocol.dimensions === '2d') {
+      acquired = sampled ? occupiedRows(sampled.mask, nx, firstRow, ny) : keptRows;
+      unit = 'lines';
+    } else {
+      acquired = sampled ? sampledPoints(sampled.mask, nx, firstRow, ny) : keptRows * nx;
+      unit = 'points';
+    }
+  }
+  const shots = Math.ceil(acquired / protocol.echoTrainLength);
+  // Integer product first, one division last: 10 ms × 16384 gives exactly 163.84 s.
+  const seconds = (protocol.trMs * shots * protocol.nex * passes) / 1000;
+  return { seconds, formatted: formatDuration(seconds), acquired, unit, shots, passes };
+}
+
+function checkMatrix(matrix: { nx: number; ny: number }): void {
+  for (const key of ['nx', 'ny'] as const) {
+    const value = matrix?.[key];
+    if (!Number.isInteger(value) || value < 1) {
+      throw new ValidationError({
+        field: `matrix.${key}`,
+        message: `got ${value}`,
+        allowed: 'an integer ≥ 1',
+      });
+    }
+  }
+}
+
+/** Rows in [firstRow, lastRow) with at least one sampled point. */
+function occupiedRows(mask: Uint8Array, nx: number, firstRow: number, lastRow: number): number {
+  let rows = 0;
+  for (let row = firstRow; row < lastRow; row++) {
+    const start = row * nx;
+    for (let col = 0; col < nx; col++) {
+      if (mask[start + col] !== 0) {
+        rows++;
+        break;
+      }
+    }
+  }
+  return rows;
+}
+
+/** Sampled points in rows [firstRow, lastRow). */
+function sampledPoints(mask: Uint8Array, nx: number, firstRow: number, lastRow: number): number {
+  let points = 0;
+  for (let i = firstRow * nx; i < lastRow * nx; i++) if (mask[i] !== 0) points++;
+  return points;
+}

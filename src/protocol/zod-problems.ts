@@ -1,0 +1,57 @@
+import type { z } from 'zod';
+import { type FieldProblem, ValidationError } from '../core/errors.ts';
+
+/**
+ * Turns zod issues into the engine's field problems: a dotted/bracketed path under the request's
+ * names (`protocol.trMs`, `accelerations[2]`) and, where zod knows it, the allowed range or set.
+ * Refinements pass their allowed range through `params.allowed`.
+ */
+export function problemsFromIssues(issues: readonly z.core.$ZodIssue[], prefix: string): FieldProblem[] {
+  return issues.map((issue) => {
+    const field = fieldPath(prefix, issue.path);
+    const allowed = allowedText(issue);
+    return allowed === undefined
+      ? { field, message: issue.message }
+      : { field, message: issue.message, allowed };
+  });
+}
+
+/** Parses `value` with `schema` or throws a ValidationError naming each bad field under `prefix`. */
+export function parseOrThrow<S extends z.ZodType>(schema: S, value: unknown, prefix: string): z.output<S> {
+  const result = schema.safeParse(value);
+  if (!result.success) throw new ValidationError(problemsFromIssues(result.error.issues, prefix));
+  return result.data;
+}
+
+/** `prefix` + path in the request's notation: object keys dotted, array indices in brackets. */
+export function fieldPath(prefix: string, path: readonly PropertyKey[]): string {
+  let out = prefix;
+  for (const key of path) {
+    if (typeof key === 'number') out += `[${key}]`;
+    else out += out === '' ? String(key) : `.${String(key)}`;
+  }
+  return out;
+}
+
+function allowedText(issue: z.core.$ZodIssue): string | undefined {
+  switch (issue.code) {
+    case 'too_small':
+      if (issue.origin === 'array') return `at least ${issue.minimum} item(s)`;
+      return `${issue.inclusive === false ? '>' : '≥'} ${issue.minimum}`;
+    case 'too_big':
+      if (issue.origin === 'array') return `at most ${issue.maximum} item(s)`;
+      return `${issue.inclusive === false ? '<' : '≤'} ${issue.maximum}`;
+    case 'invalid_type':
+      return issue.expected === 'int' ? 'an integer' : `a value of type ${issue.expected}`;
+    case 'invalid_value':
+      return `one of ${issue.values.map((v) => JSON.stringify(v)).join(', ')}`;
+    case 'unrecognized_keys':
+      return 'only the documented fields';
+    case 'custom': {
+      const allowed = (issue.params as { allowed?: unknown } | undefined)?.allowed;
+      return typeof allowed === 'string' ? allowed : undefined;
+    }
+    default:
+      return undefined;
+  }
+}
