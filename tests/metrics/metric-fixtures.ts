@@ -1,0 +1,51 @@
+import { readFileSync } from 'node:fs';
+import type { RealImage } from '../../src/core/real-image.ts';
+
+/**
+ * Loader for tests/reference/fixtures/metrics.json, written by tests/reference/generate_fixtures.py
+ * with Debian's python3-numpy / python3-scipy / python3-skimage. Images are stored as integers
+ * times `imageScale` (a power of two), so the float64 values here equal the ones Python scored.
+ */
+export interface MetricCase {
+  name: string;
+  ny: number;
+  nx: number;
+  reference: number[];
+  estimate: number[];
+  ssimDataRange: number;
+  ssim: number;
+  psnrPeak: number;
+  psnr: number;
+  nrmse: number;
+  hfen: number;
+  hfenGaussianLaplace: number;
+  ssimExplicit?: { dataRange: number; ssim: number };
+  mask?: number[];
+  masked?: { ssim: number; psnr: number; nrmse: number; hfen: number };
+}
+
+export interface MetricFixtures {
+  versions: Record<string, string>;
+  imageScale: number;
+  logKernelSum: number;
+  cases: MetricCase[];
+  logFilter: { ny: number; nx: number; image: number[]; gaussianLaplace: number[]; zeroSum: number[] };
+}
+
+export const fixtures: MetricFixtures = JSON.parse(
+  readFileSync(new URL('../reference/fixtures/metrics.json', import.meta.url), 'utf8'),
+);
+
+export function fixtureImage(values: number[], nx: number, ny: number): RealImage {
+  return { nx, ny, data: Float64Array.from(values, (v) => v * fixtures.imageScale) };
+}
+
+export function caseImages(c: MetricCase): { estimate: RealImage; reference: RealImage; mask?: Uint8Array } {
+  return {
+    estimate: fixtureImage(c.estimate, c.nx, c.ny),
+    reference: fixtureImage(c.reference, c.nx, c.ny),
+    mask: c.mask ? Uint8Array.from(c.mask) : undefined,
+  };
+}
+
+export const maskedCases = fixtures.cases.filter((c) => c.mask && c.masked);

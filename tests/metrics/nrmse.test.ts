@@ -1,0 +1,41 @@
+import { describe, expect, it } from 'vitest';
+import { nrmse } from '../../src/metrics/index.ts';
+import { caseImages, fixtures, maskedCases } from './metric-fixtures.ts';
+
+describe('nrmse against scikit-image (fixture by tests/reference/generate_fixtures.py)', () => {
+  // skimage.metrics.normalized_root_mse(reference, estimate, normalization='euclidean').
+  for (const c of fixtures.cases) {
+    it(`${c.name}: matches skimage to 1e-10`, () => {
+      const { estimate, reference } = caseImages(c);
+      expect(Math.abs(nrmse(estimate, reference) - c.nrmse)).toBeLessThanOrEqual(1e-10);
+    });
+  }
+  for (const c of maskedCases) {
+    it(`${c.name}: over the mask matches skimage on the masked pixels to 1e-10`, () => {
+      const { estimate, reference, mask } = caseImages(c);
+      const value = nrmse(estimate, reference, mask);
+      expect(Math.abs(value - c.masked!.nrmse)).toBeLessThanOrEqual(1e-10);
+      expect(Math.abs(value - c.nrmse)).toBeGreaterThan(1e-4);
+    });
+  }
+});
+
+describe('nrmse worked values (REFERENCES.md §6)', () => {
+  it('x = [3, 4], x̂ = [3, 5] → 0.2, NMSE 0.04', () => {
+    const reference = { nx: 2, ny: 1, data: Float64Array.of(3, 4) };
+    const estimate = { nx: 2, ny: 1, data: Float64Array.of(3, 5) };
+    expect(nrmse(estimate, reference)).toBeCloseTo(0.2, 15);
+    expect(nrmse(estimate, reference) ** 2).toBeCloseTo(0.04, 15);
+  });
+
+  it('a mask restricts both norms: pixels [3, 4, 10] vs [3, 5, 0] with the last one masked out → 0.2', () => {
+    const reference = { nx: 3, ny: 1, data: Float64Array.of(3, 4, 10) };
+    const estimate = { nx: 3, ny: 1, data: Float64Array.of(3, 5, 0) };
+    expect(nrmse(estimate, reference, Uint8Array.of(1, 1, 0))).toBeCloseTo(0.2, 15);
+  });
+
+  it('nrmse(x, x) = 0', () => {
+    const x = { nx: 2, ny: 2, data: Float64Array.of(1, 2, 3, 4) };
+    expect(nrmse(x, x)).toBe(0);
+  });
+});
