@@ -1,5 +1,5 @@
 import { gaussianKernel, gaussianSecondDerivativeKernel } from './gaussian-kernels.ts';
-import { correlateSeparableReflect } from './reflect-correlation.ts';
+import { correlateColumnsReflect, correlateRowsReflect } from './reflect-correlation.ts';
 import { scratch } from './scratch.ts';
 
 /** HFEN's filter width: the 15×15 Laplacian of Gaussian of Ravishankar & Bresler 2011, σ = 1.5 px. */
@@ -55,9 +55,17 @@ export function laplacianOfGaussian(
   zeroSum: boolean,
 ): Float64Array {
   const k = logKernels();
-  const temp = scratch('log-temp', nx * ny);
-  correlateSeparableReflect(target, source, nx, ny, k.secondDerivative, k.gaussian, temp, false);
-  correlateSeparableReflect(target, source, nx, ny, k.gaussian, k.secondDerivative, temp, true);
-  if (zeroSum) correlateSeparableReflect(target, source, nx, ny, k.ones, k.meanCorrection, temp, true);
+  const n = nx * ny;
+  const rowsSecond = scratch('log-rows-second', n);
+  const rowsGaussian = scratch('log-rows-gaussian', n);
+  correlateRowsReflect(rowsSecond, source, nx, ny, k.secondDerivative);
+  correlateRowsReflect(rowsGaussian, source, nx, ny, k.gaussian);
+  correlateColumnsReflect(target, rowsSecond, nx, ny, k.gaussian, false);
+  correlateColumnsReflect(target, rowsGaussian, nx, ny, k.secondDerivative, true);
+  if (zeroSum) {
+    const rowsOnes = scratch('log-rows-ones', n);
+    correlateRowsReflect(rowsOnes, source, nx, ny, k.ones);
+    correlateColumnsReflect(target, rowsOnes, nx, ny, k.meanCorrection, true);
+  }
   return target;
 }

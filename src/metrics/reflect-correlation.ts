@@ -1,54 +1,66 @@
 import { scratch } from './scratch.ts';
 
 /**
- * Correlates one line of a flat array with a symmetric-or-not kernel of odd length 2r + 1:
- *   target[start + j·step] (+)= Σ_{t=−r}^{r} kernel[t + r] · source[start + reflect(j + t)·step],  j = 0…size−1
- * with the 'reflect' boundary (half-sample symmetric extension … c b a | a b c … x y z | z y x …,
- * repeated with period 2·size for lines shorter than r) — scipy.ndimage's mode='reflect'.
- * `accumulate` adds to target instead of overwriting it. Rows use step 1, columns step = width.
+ * scipy.ndimage's mode='reflect' (half-sample symmetric extension … c b a | a b c … z | z y …):
+ * the in-range index that out-of-range index i of a line of length n reads, repeating with
+ * period 2n so lines shorter than the kernel radius are extended correctly too.
  */
-export function correlateLineReflect(
-  target: Float64Array,
-  source: Float64Array,
-  start: number,
-  size: number,
-  step: number,
-  kernel: Float64Array,
-  accumulate: boolean,
-): void {
-  const r = (kernel.length - 1) >> 1;
-  const padded = scratch('reflect-line', size + 2 * r);
-  const period = 2 * size;
-  for (let p = 0; p < size + 2 * r; p++) {
-    let i = (p - r) % period;
-    if (i < 0) i += period;
-    if (i >= size) i = period - 1 - i;
-    padded[p] = source[start + i * step];
-  }
-  const taps = kernel.length;
-  for (let j = 0; j < size; j++) {
-    let sum = 0;
-    for (let t = 0; t < taps; t++) sum += kernel[t] * padded[j + t];
-    const at = start + j * step;
-    target[at] = accumulate ? target[at] + sum : sum;
-  }
+export function reflectIndex(i: number, n: number): number {
+  const period = 2 * n;
+  let k = i % period;
+  if (k < 0) k += period;
+  return k >= n ? period - 1 - k : k;
 }
 
 /**
- * Separable 2D correlation of a row-major ny×nx image with rowKernel ⊗ colKernel (rowKernel along
- * each row, then colKernel down each column), 'reflect' boundary on both axes. `temp` holds the
- * row pass (length nx·ny, distinct from source and target); `accumulate` adds into target.
+ * Correlates every row of a row-major ny×nx image with a kernel of odd length 2r + 1:
+ *   target[row·nx + j] = Σ_{t=−r}^{r} kernel[t + r] · source[row·nx + reflect(j + t)]
+ * 'reflect' boundary (see reflectIndex). target and source must be distinct arrays.
  */
-export function correlateSeparableReflect(
+export function correlateRowsReflect(
   target: Float64Array,
   source: Float64Array,
   nx: number,
   ny: number,
-  rowKernel: Float64Array,
-  colKernel: Float64Array,
-  temp: Float64Array,
+  kernel: Float64Array,
+): void {
+  const taps = kernel.length;
+  const r = (taps - 1) >> 1;
+  const padded = scratch('reflect-row', nx + 2 * r);
+  for (let row = 0; row < ny; row++) {
+    const base = row * nx;
+    for (let p = 0; p < nx + 2 * r; p++) padded[p] = source[base + reflectIndex(p - r, nx)];
+    for (let j = 0; j < nx; j++) {
+      let sum = 0;
+      for (let t = 0; t < taps; t++) sum += kernel[t] * padded[j + t];
+      target[base + j] = sum;
+    }
+  }
+}
+
+/**
+ * Correlates every column with the kernel, adding into target when `accumulate`:
+ *   target[i·nx + col] (+)= Σ_{t=−r}^{r} kernel[t + r] · source[reflect(i + t)·nx + col]
+ * Swept a whole row at a time (contiguous reads) rather than column by column.
+ * target and source must be distinct arrays.
+ */
+export function correlateColumnsReflect(
+  target: Float64Array,
+  source: Float64Array,
+  nx: number,
+  ny: number,
+  kernel: Float64Array,
   accumulate: boolean,
 ): void {
-  for (let row = 0; row < ny; row++) correlateLineReflect(temp, source, row * nx, nx, 1, rowKernel, false);
-  for (let col = 0; col < nx; col++) correlateLineReflect(target, temp, col, ny, nx, colKernel, accumulate);
+  const taps = kernel.length;
+  const r = (taps - 1) >> 1;
+  for (let i = 0; i < ny; i++) {
+    const out = i * nx;
+    if (!accumulate) target.fill(0, out, out + nx);
+    for (let t = 0; t < taps; t++) {
+      const w = kernel[t];
+      const from = reflectIndex(i + t - r, ny) * nx;
+      for (let j = 0; j < nx; j++) target[out + j] += w * source[from + j];
+    }
+  }
 }

@@ -66,14 +66,17 @@ export function ssim(estimate: RealImage, reference: RealImage, options: SsimOpt
   const a = estimate.data;
   const b = reference.data;
 
-  // Row pass, valid part only: five weighted sums per (row, valid column).
-  const hA = scratch('ssim-a', ny * vx);
-  const hB = scratch('ssim-b', ny * vx);
-  const hAA = scratch('ssim-aa', ny * vx);
-  const hBB = scratch('ssim-bb', ny * vx);
-  const hAB = scratch('ssim-ab', ny * vx);
-  for (let row = 0; row < ny; row++) {
+  // Row sums (valid columns only) of the last 11 rows live in a ring of 11 slots per quantity, so the
+  // working memory is 5·11·(nx − 10) numbers whatever ny is.
+  const ring = width * vx;
+  const hA = scratch('ssim-a', ring);
+  const hB = scratch('ssim-b', ring);
+  const hAA = scratch('ssim-aa', ring);
+  const hBB = scratch('ssim-bb', ring);
+  const hAB = scratch('ssim-ab', ring);
+  const rowSums = (row: number): void => {
     const base = row * nx;
+    const slot = (row % width) * vx;
     for (let j = 0; j < vx; j++) {
       let sa = 0;
       let sb = 0;
@@ -90,16 +93,15 @@ export function ssim(estimate: RealImage, reference: RealImage, options: SsimOpt
         sbb += wt * q * q;
         sab += wt * p * q;
       }
-      const at = row * vx + j;
-      hA[at] = sa;
-      hB[at] = sb;
-      hAA[at] = saa;
-      hBB[at] = sbb;
-      hAB[at] = sab;
+      hA[slot + j] = sa;
+      hB[slot + j] = sb;
+      hAA[slot + j] = saa;
+      hBB[slot + j] = sbb;
+      hAB[slot + j] = sab;
     }
-  }
+  };
 
-  // Column pass, one output row at a time, then the SSIM of each window.
+  // Column sums for one output row at a time, then the SSIM of each window.
   const mA = scratch('ssim-row-a', vx);
   const mB = scratch('ssim-row-b', vx);
   const mAA = scratch('ssim-row-aa', vx);
@@ -107,7 +109,9 @@ export function ssim(estimate: RealImage, reference: RealImage, options: SsimOpt
   const mAB = scratch('ssim-row-ab', vx);
   let sum = 0;
   let count = 0;
+  for (let row = 0; row < width - 1; row++) rowSums(row);
   for (let i = 0; i < vy; i++) {
+    rowSums(i + width - 1);
     mA.fill(0);
     mB.fill(0);
     mAA.fill(0);
@@ -115,13 +119,13 @@ export function ssim(estimate: RealImage, reference: RealImage, options: SsimOpt
     mAB.fill(0);
     for (let t = 0; t < width; t++) {
       const wt = w[t];
-      const base = (i + t) * vx;
+      const slot = ((i + t) % width) * vx;
       for (let j = 0; j < vx; j++) {
-        mA[j] += wt * hA[base + j];
-        mB[j] += wt * hB[base + j];
-        mAA[j] += wt * hAA[base + j];
-        mBB[j] += wt * hBB[base + j];
-        mAB[j] += wt * hAB[base + j];
+        mA[j] += wt * hA[slot + j];
+        mB[j] += wt * hB[slot + j];
+        mAA[j] += wt * hAA[slot + j];
+        mBB[j] += wt * hBB[slot + j];
+        mAB[j] += wt * hAB[slot + j];
       }
     }
     const maskRow = (i + SSIM_RADIUS) * nx + SSIM_RADIUS;
