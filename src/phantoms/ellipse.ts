@@ -1,0 +1,95 @@
+import { discTransform } from './disc-transform.ts';
+import { addShifted, degreesCosSin, type Placement, type Shape } from './shape.ts';
+import { checkFinite } from './validate.ts';
+
+/** Ellipse with semi-axes a (along x before rotation) and b, rotated by θ about its centre. */
+export interface EllipseParams extends Placement {
+  a: number;
+  b: number;
+}
+
+/**
+ * A filled ellipse (REFERENCES.md §1.1–1.2). A point is inside when (x′/a)² + (y′/b)² ≤ 1 with
+ *   x′ =  (x − x0)cosθ + (y − y0)sinθ,   y′ = −(x − x0)sinθ + (y − y0)cosθ.
+ * Its transform (shift and rotation theorems applied to the scaled unit disc):
+ *   k′x = kx cosθ + ky sinθ,  k′y = −kx sinθ + ky cosθ,  q = √((a k′x)² + (b k′y)²)
+ *   E(k) = ρ·a·b·J1(2πq)/q · e^(−i2π(kx x0 + ky y0)),   E(0) = ρπab.
+ */
+export class Ellipse implements Shape {
+  readonly kind = 'ellipse';
+  readonly x0: number;
+  readonly y0: number;
+  readonly a: number;
+  readonly b: number;
+  readonly thetaDeg: number;
+  readonly intensity: number;
+  private readonly cos: number;
+  private readonly sin: number;
+  // Quadratic A·dx² + B·dx + C ≤ 0 on a horizontal line: A fixed, B = dy·bPerDy, C = dy²·cPerDy2 − 1.
+  private readonly quadA: number;
+  private readonly bPerDy: number;
+  private readonly cPerDy2: number;
+  private readonly halfHeight: number;
+
+  constructor(p: EllipseParams) {
+    checkFinite(p.x0, 'ellipse.x0');
+    checkFinite(p.y0, 'ellipse.y0');
+    checkFinite(p.a, 'ellipse.a', true);
+    checkFinite(p.b, 'ellipse.b', true);
+    checkFinite(p.thetaDeg ?? 0, 'ellipse.thetaDeg');
+    checkFinite(p.intensity, 'ellipse.intensity');
+    this.x0 = p.x0;
+    this.y0 = p.y0;
+    this.a = p.a;
+    this.b = p.b;
+    this.thetaDeg = p.thetaDeg ?? 0;
+    this.intensity = p.intensity;
+    [this.cos, this.sin] = degreesCosSin(this.thetaDeg);
+    const ia2 = 1 / (p.a * p.a);
+    const ib2 = 1 / (p.b * p.b);
+    const c = this.cos;
+    const s = this.sin;
+    this.quadA = c * c * ia2 + s * s * ib2;
+    this.bPerDy = 2 * c * s * (ia2 - ib2);
+    this.cPerDy2 = s * s * ia2 + c * c * ib2;
+    this.halfHeight = Math.sqrt(p.a * p.a * s * s + p.b * p.b * c * c);
+  }
+
+  contains(x: number, y: number): boolean {
+    const dx = x - this.x0;
+    const dy = y - this.y0;
+    const u = (dx * this.cos + dy * this.sin) / this.a;
+    const v = (-dx * this.sin + dy * this.cos) / this.b;
+    return u * u + v * v <= 1;
+  }
+
+  yRange(out: Float64Array): void {
+    out[0] = this.y0 - this.halfHeight;
+    out[1] = this.y0 + this.halfHeight;
+  }
+
+  spanAtY(y: number, out: Float64Array): boolean {
+    const dy = y - this.y0;
+    const b = dy * this.bPerDy;
+    const c = dy * dy * this.cPerDy2 - 1;
+    const disc = b * b - 4 * this.quadA * c;
+    if (disc < 0) return false;
+    const root = Math.sqrt(disc);
+    out[0] = this.x0 + (-b - root) / (2 * this.quadA);
+    out[1] = this.x0 + (-b + root) / (2 * this.quadA);
+    return true;
+  }
+
+  addTransform(kx: ArrayLike<number>, ky: ArrayLike<number>, out: Float64Array): void {
+    const { a, b, x0, y0, cos, sin } = this;
+    const scale = this.intensity * a * b;
+    const n = kx.length;
+    for (let i = 0; i < n; i++) {
+      const fx = kx[i];
+      const fy = ky[i];
+      const u = a * (fx * cos + fy * sin);
+      const v = b * (-fx * sin + fy * cos);
+      addShifted(out, i, scale * discTransform(Math.sqrt(u * u + v * v)), fx * x0 + fy * y0);
+    }
+  }
+}

@@ -1,0 +1,11 @@
+export { getPhantom, listPhantoms } from './catalog.ts';
+export { besselJ1, discTransform } from './disc-transform.ts';
+export { Ellipse, type EllipseParams } from './ellipse.ts';
+export { gridKx, gridKy, gridScale, pixelX, pixelY } from './grid.ts';
+export { phantomGridKspace } from './grid-kspace.ts';
+export { type Phantom, type PhantomInfo, ShapePhantom } from './phantom.ts';
+export { Rectangle, type RectangleParams, sinc } from './rectangle.ts';
+export { RESOLUTION_CONTRAST_LAYOUT, resolutionContrast } from './resolution-contrast.ts';
+export type { Shape } from './shape.ts';
+export { sheppLogan, sheppLoganModified } from './shepp-logan.ts';
+export { MAX_PHANTOM_SIDE, MAX_SUPERSAMPLE } from './validate.ts';

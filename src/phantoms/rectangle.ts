@@ -1,0 +1,98 @@
+import { addShifted, degreesCosSin, type Placement, type Shape } from './shape.ts';
+import { checkFinite } from './validate.ts';
+
+/** Rectangle of full widths wx (along x before rotation) and wy, rotated by θ about its centre. */
+export interface RectangleParams extends Placement {
+  wx: number;
+  wy: number;
+}
+
+/** sin(πt)/(πt), with sin(πt) taken after reducing t to [−½, ½] so zeros at integers are exact. */
+export function sinc(t: number): number {
+  if (t === 0) return 1;
+  const n = Math.round(t);
+  const s = Math.sin(Math.PI * (t - n));
+  return (n % 2 === 0 ? s : -s) / (Math.PI * t);
+}
+
+/**
+ * A filled rectangle (REFERENCES.md §1.5). Inside when |x′| ≤ wx/2 and |y′| ≤ wy/2 with x′, y′ the
+ * rotated offsets of an ellipse (§1.1). Transform (standard pair, shift and rotation theorems):
+ *   R(k) = ρ·wx·wy·sinc(wx k′x)·sinc(wy k′y)·e^(−i2π(kx x0 + ky y0)),  sinc(t) = sin(πt)/(πt).
+ */
+export class Rectangle implements Shape {
+  readonly kind = 'rectangle';
+  readonly x0: number;
+  readonly y0: number;
+  readonly wx: number;
+  readonly wy: number;
+  readonly thetaDeg: number;
+  readonly intensity: number;
+  private readonly cos: number;
+  private readonly sin: number;
+  private readonly halfHeight: number;
+
+  constructor(p: RectangleParams) {
+    checkFinite(p.x0, 'rectangle.x0');
+    checkFinite(p.y0, 'rectangle.y0');
+    checkFinite(p.wx, 'rectangle.wx', true);
+    checkFinite(p.wy, 'rectangle.wy', true);
+    checkFinite(p.thetaDeg ?? 0, 'rectangle.thetaDeg');
+    checkFinite(p.intensity, 'rectangle.intensity');
+    this.x0 = p.x0;
+    this.y0 = p.y0;
+    this.wx = p.wx;
+    this.wy = p.wy;
+    this.thetaDeg = p.thetaDeg ?? 0;
+    this.intensity = p.intensity;
+    [this.cos, this.sin] = degreesCosSin(this.thetaDeg);
+    this.halfHeight = 0.5 * (p.wx * Math.abs(this.sin) + p.wy * Math.abs(this.cos));
+  }
+
+  contains(x: number, y: number): boolean {
+    const dx = x - this.x0;
+    const dy = y - this.y0;
+    const u = dx * this.cos + dy * this.sin;
+    const v = -dx * this.sin + dy * this.cos;
+    return Math.abs(u) <= 0.5 * this.wx && Math.abs(v) <= 0.5 * this.wy;
+  }
+
+  yRange(out: Float64Array): void {
+    out[0] = this.y0 - this.halfHeight;
+    out[1] = this.y0 + this.halfHeight;
+  }
+
+  spanAtY(y: number, out: Float64Array): boolean {
+    const dy = y - this.y0;
+    out[0] = Number.NEGATIVE_INFINITY;
+    out[1] = Number.POSITIVE_INFINITY;
+    // |dx·cos + dy·sin| ≤ wx/2 and |−dx·sin + dy·cos| ≤ wy/2: two slabs in dx.
+    if (!clipSlab(this.cos, dy * this.sin, 0.5 * this.wx, out)) return false;
+    if (!clipSlab(-this.sin, dy * this.cos, 0.5 * this.wy, out)) return false;
+    out[0] += this.x0;
+    out[1] += this.x0;
+    return true;
+  }
+
+  addTransform(kx: ArrayLike<number>, ky: ArrayLike<number>, out: Float64Array): void {
+    const { wx, wy, x0, y0, cos, sin } = this;
+    const scale = this.intensity * wx * wy;
+    const n = kx.length;
+    for (let i = 0; i < n; i++) {
+      const fx = kx[i];
+      const fy = ky[i];
+      const mag = scale * sinc(wx * (fx * cos + fy * sin)) * sinc(wy * (-fx * sin + fy * cos));
+      addShifted(out, i, mag, fx * x0 + fy * y0);
+    }
+  }
+}
+
+/** Narrows [out[0], out[1]] to the dx with |slope·dx + offset| ≤ half; false when nothing is left. */
+function clipSlab(slope: number, offset: number, half: number, out: Float64Array): boolean {
+  if (slope === 0) return Math.abs(offset) <= half;
+  const t1 = (-half - offset) / slope;
+  const t2 = (half - offset) / slope;
+  out[0] = Math.max(out[0], Math.min(t1, t2));
+  out[1] = Math.min(out[1], Math.max(t1, t2));
+  return out[0] <= out[1];
+}

@@ -1,0 +1,63 @@
+/**
+ * What a phantom needs from each of its primitives. A shape is a closed convex set with a constant
+ * intensity; intensities of overlapping shapes add. Everything works on flat arrays so that a
+ * phantom can be rasterised and transformed without per-pixel or per-point objects.
+ */
+export interface Shape {
+  readonly kind: 'ellipse' | 'rectangle';
+  /** Intensity added inside the shape. */
+  readonly intensity: number;
+  /** Whether the point (x, y) lies in the closed shape (published y-up frame). */
+  contains(x: number, y: number): boolean;
+  /** Lowest and highest y the shape reaches, written to out[0], out[1]. */
+  yRange(out: Float64Array): void;
+  /**
+   * The closed x interval [out[0], out[1]] where the horizontal line at y crosses the shape
+   * (one interval, since the shape is convex); returns false when the line misses it.
+   */
+  spanAtY(y: number, out: Float64Array): boolean;
+  /**
+   * Adds intensity × the exact continuous Fourier transform ∫ e^(−i2π(kx·x + ky·y)) dx dy over the
+   * shape at the points (kx[i], ky[i]), cycles per unit, to out[2i] (re) and out[2i + 1] (im).
+   */
+  addTransform(kx: ArrayLike<number>, ky: ArrayLike<number>, out: Float64Array): void;
+}
+
+/** Parameters shared by the primitives: centre, counter-clockwise rotation from +x in degrees, intensity. */
+export interface Placement {
+  x0: number;
+  y0: number;
+  /** Counter-clockwise from +x, degrees (0 when absent). */
+  thetaDeg?: number;
+  intensity: number;
+}
+
+/** cos and sin of an angle in degrees, exact at multiples of 90° so axis-aligned shapes stay exact. */
+export function degreesCosSin(deg: number): [number, number] {
+  const quarter = deg / 90;
+  if (Number.isInteger(quarter)) {
+    const k = ((quarter % 4) + 4) % 4;
+    return [
+      [1, 0],
+      [0, 1],
+      [-1, 0],
+      [0, -1],
+    ][k] as [number, number];
+  }
+  const rad = (deg * Math.PI) / 180;
+  return [Math.cos(rad), Math.sin(rad)];
+}
+
+/**
+ * Adds magnitude·e^(−i2π(kx·x0 + ky·y0)) to out[2i], out[2i+1] — the shift theorem's phase.
+ * The phase is reduced to one turn before multiplying by 2π, so large frequencies keep their accuracy.
+ */
+export function addShifted(out: Float64Array, i: number, magnitude: number, turns: number): void {
+  if (turns === 0) {
+    out[2 * i] += magnitude;
+    return;
+  }
+  const phase = -2 * Math.PI * (turns - Math.round(turns));
+  out[2 * i] += magnitude * Math.cos(phase);
+  out[2 * i + 1] += magnitude * Math.sin(phase);
+}

@@ -1,0 +1,161 @@
+import { describe, expect, it } from 'vitest';
+import { ValidationError } from '../../src/core/errors.ts';
+import { Ellipse, type EllipseParams } from '../../src/phantoms/ellipse.ts';
+import { ellipseTransformByQuadrature } from './quadrature.ts';
+
+function transformAt(e: Ellipse, kx: number, ky: number): [number, number] {
+  const out = new Float64Array(2);
+  e.addTransform([kx], [ky], out);
+  return [out[0], out[1]];
+}
+
+function distance(a: [number, number], b: [number, number]): number {
+  return Math.hypot(a[0] - b[0], a[1] - b[1]);
+}
+
+const ELLIPSE_3: EllipseParams = { x0: 0.22, y0: 0, a: 0.11, b: 0.31, thetaDeg: -18, intensity: 1 };
+const TILTED: EllipseParams = { x0: 0.3, y0: -0.2, a: 0.25, b: 0.1, thetaDeg: 37, intensity: 1.5 };
+const FREQUENCIES: [number, number][] = [
+  [0, 0],
+  [1.5, 0],
+  [0.7, -2.3],
+  [-3.1, 1.2],
+  [4, 4],
+  [0, -6.5],
+];
+
+describe('ellipse transform', () => {
+  it('single Shepp–Logan ellipse #3 at (1.5, 0) equals the 4000² brute-force sum (REFERENCES.md §1.2, tol 2e-6)', () => {
+    const value = transformAt(new Ellipse(ELLIPSE_3), 1.5, 0);
+    expect(distance(value, [-0.040907, -0.074409])).toBeLessThan(2e-6);
+  });
+
+  it('equals ρπab at k = 0 (REFERENCES.md §1.2 limit)', () => {
+    const value = transformAt(new Ellipse(TILTED), 0, 0);
+    expect(value[0]).toBeCloseTo(1.5 * Math.PI * 0.25 * 0.1, 15);
+    expect(value[1]).toBe(0);
+  });
+
+  it('agrees with direct Gauss–Legendre × trapezoid integration over the ellipse (tests/phantoms/quadrature.ts, 1e-13)', () => {
+    for (const p of [ELLIPSE_3, TILTED]) {
+      const e = new Ellipse(p);
+      const geometry = { x0: p.x0, y0: p.y0, a: p.a, b: p.b, theta: ((p.thetaDeg ?? 0) * Math.PI) / 180 };
+      for (const [kx, ky] of FREQUENCIES) {
+        const [re, im] = ellipseTransformByQuadrature(geometry, kx, ky);
+        const expected: [number, number] = [p.intensity * re, p.intensity * im];
+        expect(distance(transformAt(e, kx, ky), expected)).toBeLessThan(1e-13);
+      }
+    }
+  });
+
+  it('obeys the shift theorem: moving the ellipse by d multiplies its transform by e^(−i2πk·d) (Bracewell, common practice)', () => {
+    const d = [0.137, -0.41];
+    const base = new Ellipse(TILTED);
+    const moved = new Ellipse({ ...TILTED, x0: TILTED.x0 + d[0], y0: TILTED.y0 + d[1] });
+    for (const [kx, ky] of FREQUENCIES) {
+      const [re, im] = transformAt(base, kx, ky);
+      const phase = -2 * Math.PI * (kx * d[0] + ky * d[1]);
+      const expected: [number, number] = [
+        re * Math.cos(phase) - im * Math.sin(phase),
+        re * Math.sin(phase) + im * Math.cos(phase),
+      ];
+      expect(distance(transformAt(moved, kx, ky), expected)).toBeLessThan(1e-13);
+    }
+  });
+
+  it('obeys the rotation theorem: rotating the object by φ rotates its transform by φ (common practice)', () => {
+    const phi = 23;
+    const centred: EllipseParams = { ...TILTED, x0: 0, y0: 0 };
+    const base = new Ellipse(centred);
+    const turned = new Ellipse({ ...centred, thetaDeg: (centred.thetaDeg ?? 0) + phi });
+    const c = Math.cos((phi * Math.PI) / 180);
+    const s = Math.sin((phi * Math.PI) / 180);
+    for (const [kx, ky] of FREQUENCIES) {
+      const rotated = transformAt(turned, c * kx - s * ky, s * kx + c * ky);
+      expect(distance(rotated, transformAt(base, kx, ky))).toBeLessThan(1e-13);
+    }
+  });
+
+  it('treats the swapped-axis variants of REFERENCES.md §1.1 (a ↔ b, θ + 90°) as the same shape', () => {
+    const pairs: [EllipseParams, EllipseParams][] = [
+      [ELLIPSE_3, { ...ELLIPSE_3, a: 0.31, b: 0.11, thetaDeg: 72 }],
+      [
+        { x0: -0.22, y0: 0, a: 0.16, b: 0.41, thetaDeg: 18, intensity: 1 },
+        { x0: -0.22, y0: 0, a: 0.41, b: 0.16, thetaDeg: 108, intensity: 1 },
+      ],
+      [
+        { x0: 0.06, y0: -0.605, a: 0.023, b: 0.046, intensity: 1 },
+        { x0: 0.06, y0: -0.605, a: 0.046, b: 0.023, thetaDeg: 90, intensity: 1 },
+      ],
+    ];
+    for (const [p, q] of pairs) {
+      const e1 = new Ellipse(p);
+      const e2 = new Ellipse(q);
+      for (const [kx, ky] of FREQUENCIES) {
+        expect(distance(transformAt(e1, kx, ky), transformAt(e2, kx, ky))).toBeLessThan(1e-14);
+      }
+    }
+  });
+
+  it('is Hermitian for a real shape: E(−k) = conj E(k) (REFERENCES.md §1.2, 1e-15)', () => {
+    const e = new Ellipse(TILTED);
+    for (const [kx, ky] of FREQUENCIES) {
+      const [re, im] = transformAt(e, kx, ky);
+      expect(distance(transformAt(e, -kx, -ky), [re, -im])).toBeLessThan(1e-15);
+    }
+  });
+});
+
+describe('ellipse geometry', () => {
+  it('contains its centre and the tips of its rotated axes, and not points just beyond them (REFERENCES.md §1.1 inside test)', () => {
+    const e = new Ellipse(TILTED);
+    const t = (37 * Math.PI) / 180;
+    const along = (scale: number): [number, number] => [
+      TILTED.x0 + scale * 0.25 * Math.cos(t),
+      TILTED.y0 + scale * 0.25 * Math.sin(t),
+    ];
+    const across = (scale: number): [number, number] => [
+      TILTED.x0 - scale * 0.1 * Math.sin(t),
+      TILTED.y0 + scale * 0.1 * Math.cos(t),
+    ];
+    expect(e.contains(TILTED.x0, TILTED.y0)).toBe(true);
+    expect(e.contains(...along(0.999))).toBe(true);
+    expect(e.contains(...along(1.001))).toBe(false);
+    expect(e.contains(...across(-0.999))).toBe(true);
+    expect(e.contains(...across(-1.001))).toBe(false);
+  });
+
+  it('reports per-line spans whose inside and outside agree with the point test', () => {
+    const e = new Ellipse(TILTED);
+    const range = new Float64Array(2);
+    const span = new Float64Array(2);
+    e.yRange(range);
+    let lines = 0;
+    for (let y = range[0] - 0.01; y <= range[1] + 0.01; y += 0.0037) {
+      if (!e.spanAtY(y, span)) {
+        expect(e.contains(TILTED.x0, y)).toBe(false);
+        continue;
+      }
+      lines++;
+      const width = span[1] - span[0];
+      expect(e.contains(span[0] + 1e-9 * width + 1e-12, y)).toBe(true);
+      expect(e.contains(span[1] - 1e-9 * width - 1e-12, y)).toBe(true);
+      expect(e.contains(span[0] - 1e-6, y)).toBe(false);
+      expect(e.contains(span[1] + 1e-6, y)).toBe(false);
+    }
+    expect(lines).toBeGreaterThan(50);
+  });
+
+  it('rejects a non-positive semi-axis with a ValidationError naming ellipse.a', () => {
+    for (const a of [0, -1]) {
+      let caught: unknown;
+      try {
+        new Ellipse({ ...TILTED, a });
+      } catch (error) {
+        caught = error;
+      }
+      expect(caught).toBeInstanceOf(ValidationError);
+      expect((caught as ValidationError).problems[0].field).toBe('ellipse.a');
+    }
+  });
+});

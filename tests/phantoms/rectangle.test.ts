@@ -1,0 +1,140 @@
+import { describe, expect, it } from 'vitest';
+import { ValidationError } from '../../src/core/errors.ts';
+import { Rectangle, type RectangleParams, sinc } from '../../src/phantoms/rectangle.ts';
+import { rectangleTransformByQuadrature } from './quadrature.ts';
+
+function transformAt(r: Rectangle, kx: number, ky: number): [number, number] {
+  const out = new Float64Array(2);
+  r.addTransform([kx], [ky], out);
+  return [out[0], out[1]];
+}
+
+function distance(a: [number, number], b: [number, number]): number {
+  return Math.hypot(a[0] - b[0], a[1] - b[1]);
+}
+
+// The check rectangle of REFERENCES.md §1.5: ρ = 1, w = (0.4, 0.2), centre (0.1, −0.3).
+const CHECK: RectangleParams = { x0: 0.1, y0: -0.3, wx: 0.4, wy: 0.2, intensity: 1 };
+const TILTED: RectangleParams = { x0: -0.25, y0: 0.4, wx: 0.3, wy: 0.07, thetaDeg: 30, intensity: 0.8 };
+const FREQUENCIES: [number, number][] = [
+  [0, 0],
+  [1, 0],
+  [0.7, -2.3],
+  [-3.1, 1.2],
+  [5, 5],
+  [0, -9.5],
+];
+
+describe('sinc', () => {
+  it('is sin(πt)/(πt): 1 at 0, 2/π at ½, exactly 0 at non-zero integers (definition, REFERENCES.md §1.5)', () => {
+    expect(sinc(0)).toBe(1);
+    expect(sinc(0.5)).toBeCloseTo(2 / Math.PI, 15);
+    expect(sinc(-1.5)).toBeCloseTo(-2 / (3 * Math.PI), 15);
+    for (const n of [1, -2, 3, 1e6]) expect(Math.abs(sinc(n))).toBe(0);
+  });
+});
+
+describe('rectangle transform', () => {
+  it('reproduces the REFERENCES.md §1.5 check values (tol 1e-9)', () => {
+    const r = new Rectangle(CHECK);
+    expect(distance(transformAt(r, 0, 0), [0.08, 0])).toBeLessThan(1e-12);
+    expect(distance(transformAt(r, 1, 0), [0.0489828548, -0.0355881272])).toBeLessThan(1e-9);
+    expect(distance(transformAt(r, 1, 2), [-0.0458229358, 0])).toBeLessThan(1e-9);
+  });
+
+  it('vanishes on the line kx = 1/wx = 2.5 for every ky (REFERENCES.md §1.5)', () => {
+    const r = new Rectangle(CHECK);
+    for (const ky of [-3.3, 0, 0.25, 1.7, 8]) {
+      const [re, im] = transformAt(r, 2.5, ky);
+      expect(Math.hypot(re, im)).toBeLessThan(1e-16);
+    }
+  });
+
+  it('agrees with direct 2D Gauss–Legendre integration over the rotated rectangle (tests/phantoms/quadrature.ts, 1e-13)', () => {
+    for (const p of [CHECK, TILTED]) {
+      const r = new Rectangle(p);
+      const geometry = { x0: p.x0, y0: p.y0, wx: p.wx, wy: p.wy, theta: ((p.thetaDeg ?? 0) * Math.PI) / 180 };
+      for (const [kx, ky] of FREQUENCIES) {
+        const [re, im] = rectangleTransformByQuadrature(geometry, kx, ky);
+        expect(distance(transformAt(r, kx, ky), [p.intensity * re, p.intensity * im])).toBeLessThan(1e-13);
+      }
+    }
+  });
+
+  it('obeys the shift theorem (phase e^(−i2πk·d), common practice)', () => {
+    const d = [-0.31, 0.077];
+    const base = new Rectangle(TILTED);
+    const moved = new Rectangle({ ...TILTED, x0: TILTED.x0 + d[0], y0: TILTED.y0 + d[1] });
+    for (const [kx, ky] of FREQUENCIES) {
+      const [re, im] = transformAt(base, kx, ky);
+      const phase = -2 * Math.PI * (kx * d[0] + ky * d[1]);
+      const expected: [number, number] = [
+        re * Math.cos(phase) - im * Math.sin(phase),
+        re * Math.sin(phase) + im * Math.cos(phase),
+      ];
+      expect(distance(transformAt(moved, kx, ky), expected)).toBeLessThan(1e-14);
+    }
+  });
+
+  it('obeys the rotation theorem, and a 90° turn equals swapping the widths (common practice)', () => {
+    const centred: RectangleParams = { ...TILTED, x0: 0, y0: 0 };
+    const base = new Rectangle(centred);
+    const phi = -41;
+    const turned = new Rectangle({ ...centred, thetaDeg: 30 + phi });
+    const c = Math.cos((phi * Math.PI) / 180);
+    const s = Math.sin((phi * Math.PI) / 180);
+    const upright = new Rectangle({ ...CHECK, thetaDeg: 90 });
+    const swapped = new Rectangle({ ...CHECK, wx: CHECK.wy, wy: CHECK.wx });
+    for (const [kx, ky] of FREQUENCIES) {
+      expect(
+        distance(transformAt(turned, c * kx - s * ky, s * kx + c * ky), transformAt(base, kx, ky)),
+      ).toBeLessThan(1e-14);
+      expect(distance(transformAt(upright, kx, ky), transformAt(swapped, kx, ky))).toBeLessThan(1e-15);
+    }
+  });
+
+  it('is Hermitian: R(−k) = conj R(k) (REFERENCES.md §1.2 property, 1e-15)', () => {
+    const r = new Rectangle(TILTED);
+    for (const [kx, ky] of FREQUENCIES) {
+      const [re, im] = transformAt(r, kx, ky);
+      expect(distance(transformAt(r, -kx, -ky), [re, -im])).toBeLessThan(1e-15);
+    }
+  });
+});
+
+describe('rectangle geometry', () => {
+  it('spans agree with the inside test on every line, rotated or not', () => {
+    for (const p of [CHECK, TILTED]) {
+      const r = new Rectangle(p);
+      const range = new Float64Array(2);
+      const span = new Float64Array(2);
+      r.yRange(range);
+      let lines = 0;
+      for (let y = range[0] - 0.01; y <= range[1] + 0.01; y += 0.0031) {
+        if (!r.spanAtY(y, span)) {
+          for (let x = -1; x <= 1; x += 0.01) expect(r.contains(x, y)).toBe(false);
+          continue;
+        }
+        lines++;
+        const mid = 0.5 * (span[0] + span[1]);
+        expect(r.contains(mid, y)).toBe(true);
+        expect(r.contains(span[0] + 1e-9, y)).toBe(true);
+        expect(r.contains(span[1] - 1e-9, y)).toBe(true);
+        expect(r.contains(span[0] - 1e-6, y)).toBe(false);
+        expect(r.contains(span[1] + 1e-6, y)).toBe(false);
+      }
+      expect(lines).toBeGreaterThan(20);
+    }
+  });
+
+  it('rejects a non-finite width with a ValidationError naming rectangle.wy', () => {
+    let caught: unknown;
+    try {
+      new Rectangle({ ...CHECK, wy: Number.NaN });
+    } catch (error) {
+      caught = error;
+    }
+    expect(caught).toBeInstanceOf(ValidationError);
+    expect((caught as ValidationError).problems[0].field).toBe('rectangle.wy');
+  });
+});
