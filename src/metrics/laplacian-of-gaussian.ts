@@ -40,9 +40,10 @@ function logKernels(): LogKernels {
 
 /**
  * Laplacian of Gaussian (σ 1.5 px, 15×15 support) of a row-major ny×nx image into `target`:
- *   K = g ⊗ g'' + g'' ⊗ g  (sampled as scipy.ndimage.gaussian_laplace samples it, radius 7)
+ *   K[u][v] = g[u]·g''[v] + g''[u]·g[v]   (u row offset, v column offset, both −7…7; sampled as
+ *                                          scipy.ndimage.gaussian_laplace samples it)
  *   zeroSum: K − mean(K) over the 15×15 support, so constants map to 0 (the usual discrete LoG)
- * applied as three separable passes with the 'reflect' boundary (half-sample symmetric, as
+ * applied separably (one row sweep, one column sweep) with the 'reflect' boundary (half-sample symmetric, as
  * scipy.ndimage mode='reflect'). With zeroSum false this is gaussian_laplace(sigma=1.5,
  * truncate=4.8, mode='reflect') itself; with zeroSum true it is that minus sum(K) times the
  * 15×15 moving average (scipy.ndimage.uniform_filter(size=15, mode='reflect')).
@@ -54,18 +55,29 @@ export function laplacianOfGaussian(
   ny: number,
   zeroSum: boolean,
 ): Float64Array {
-  const k = logKernels();
   const n = nx * ny;
+  if (source.length !== n || target.length !== n || target === source) {
+    throw new RangeError(`laplacianOfGaussian needs distinct source and target of length nx·ny = ${n}`);
+  }
+  const k = logKernels();
+  // K's rank-one terms (column kernel × row kernel): g × g'', g'' × g and, for zeroSum, −mean × 1.
   const rowsSecond = scratch('log-rows-second', n);
   const rowsGaussian = scratch('log-rows-gaussian', n);
-  correlateRowsReflect(rowsSecond, source, nx, ny, k.secondDerivative);
-  correlateRowsReflect(rowsGaussian, source, nx, ny, k.gaussian);
-  correlateColumnsReflect(target, rowsSecond, nx, ny, k.gaussian, false);
-  correlateColumnsReflect(target, rowsGaussian, nx, ny, k.secondDerivative, true);
   if (zeroSum) {
     const rowsOnes = scratch('log-rows-ones', n);
-    correlateRowsReflect(rowsOnes, source, nx, ny, k.ones);
-    correlateColumnsReflect(target, rowsOnes, nx, ny, k.meanCorrection, true);
+    correlateRowsReflect([rowsSecond, rowsGaussian, rowsOnes], source, nx, ny, [
+      k.secondDerivative,
+      k.gaussian,
+      k.ones,
+    ]);
+    correlateColumnsReflect(target, [rowsSecond, rowsGaussian, rowsOnes], nx, ny, [
+      k.gaussian,
+      k.secondDerivative,
+      k.meanCorrection,
+    ]);
+  } else {
+    correlateRowsReflect([rowsSecond, rowsGaussian], source, nx, ny, [k.secondDerivative, k.gaussian]);
+    correlateColumnsReflect(target, [rowsSecond, rowsGaussian], nx, ny, [k.gaussian, k.secondDerivative]);
   }
   return target;
 }
