@@ -1,0 +1,42 @@
+// Entry point of the planner page: wires the setup form, the single acquisition and the plan sections.
+
+import { apiKey, setApiKey } from './api.js';
+import { PlanRun } from './plan-run.js';
+import { SetupForm } from './setup-form.js';
+import { SingleRun } from './single-run.js';
+import { showProblem, showStatus } from './status.js';
+
+const byId = (id) => document.getElementById(id);
+
+async function main() {
+  const setup = new SetupForm(byId('setup'));
+  const single = new SingleRun(setup);
+  const plan = new PlanRun(setup);
+
+  const keyInput = byId('apiKey');
+  keyInput.value = apiKey();
+  keyInput.addEventListener('change', () => setApiKey(keyInput.value.trim()));
+
+  byId('uploadFile').addEventListener('change', async (event) => {
+    const file = event.target.files?.[0];
+    const info = byId('uploadInfo');
+    if (!file) return;
+    showStatus(info, `Uploading ${file.name}…`, true);
+    try {
+      const image = await setup.upload(file);
+      showStatus(info, `Uploaded ${image.format ?? 'image'} ${image.nx}×${image.ny} as ${image.id}.`);
+    } catch (error) {
+      showProblem(info, byId('singleProblems'), error, setup);
+    }
+  });
+
+  try {
+    await setup.loadPhantoms();
+  } catch (error) {
+    showProblem(single.status, single.problems, error, setup);
+  }
+  document.body.dataset.ready = 'true';
+  return { setup, single, plan };
+}
+
+main();

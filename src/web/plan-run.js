@@ -1,0 +1,218 @@
+// Plan a sweep: post the grid, follow its progress on the Server-Sent Events stream, then show the
+// tradeoff plot and table the service computed (Pareto front and recommendation included).
+
+import { apiKey, deleteResource, getBlob, getJson, pageRelative, postJson } from './api.js';
+import { planPoints, renderPlanTable } from './plan-table.js';
+import { showProblem, showStatus } from './status.js';
+import { drawTradeoffPlot } from './tradeoff-plot.js';
+
+const byId = (id) => document.getElementById(id);
+const terminal = new Set(['done', 'failed', 'cancelled']);
+const higherIsBetter = { nrmse: false, psnr: true, ssim: true, hfen: false };
+
+function parseAccelerations(text) {
+  return text
+    .split(/[\s,;]+/)
+    .filter(Boolean)
+    .map(Number);
+}
+
+export class PlanRun {
+  constructor(setup) {
+    this.setup = setup;
+    this.status = byId('planStatus');
+    this.problems = byId('planProblems');
+    this.progress = byId('planProgress');
+    this.progressText = byId('planProgressText');
+    this.planButton = byId('planButton');
+    this.cancelButton = byId('cancelButton');
+    this.plot = null;
+    this.plan = null;
+    this.planButton.addEventListener('click', () => this.start());
+    this.cancelButton.addEventListener('click', () => this.cancel());
+    byId('plotMetric').addEventListener('change', () => this.redrawPlot());
+    byId('targetMetric').addEventListener('change', () => this.suggestTarget());
+  }
+
+  /** A sensible threshold when the target metric changes (SSIM 0.9, PSNR 30 dB, NRMSE 0.1, HFEN 0.2). */
+  suggestTarget() {
+    const suggestions = { ssim: 0.9, psnr: 30, nrmse: 0.1, hfen: 0.2 };
+    byId('targetValue').value = String(suggestions[byId('targetMetric').value]);
+  }
+
+  body() {
+    const setup = this.setup;
+    const form = byId('planForm');
+    const patterns = [...form.querySelectorAll('input[name="planPattern"]:checked')].map((box) =>
+      setup.sampling(box.value, { forPlan: true }),
+    );
+    const methods = [...form.querySelectorAll('input[name="planMethod"]:checked')].map((box) =>
+      setup.method(box.value),
+    );
+    const metric = byId('targetMetric').value;
+    const threshold = Number(byId('targetValue').value);
+    const body = {
+      source: setup.source(),
+      matrix: setup.matrix(),
+      protocol: setup.protocol(),
+      patterns,
+      accelerations: parseAccelerations(byId('planAccelerations').value),
+      methods,
+      seeds: Number(byId('planSeeds').value),
+      target: higherIsBetter[metric] ? { metric, atLeast: threshold } : { metric, atMost: threshold },
+    };
+    const noise = setup.noise();
+    if (noise) body.noise = noise;
+    return body;
+  }
+
+  setRunning(running) {
+    this.planButton.disabled = running;
+    this.cancelButton.disabled = !running;
+  }
+
+  showProgress(done, total, etaSeconds) {
+    this.progress.max = Math.max(1, total);
+    this.progress.value = done;
+    const eta =
+      typeof etaSeconds === 'number' && done < total ? `, about ${Math.ceil(etaSeconds)} s left` : '';
+    this.progressText.textContent = `${done} / ${total} cells${eta}`;
+    this.progressText.dataset.done = String(done);
+    this.progressText.dataset.total = String(total);
+  }
+
+  async start() {
+    this.problems.hidden = true;
+    this.setup.markProblems([]);
+    this.stopFollowing();
+    this.setRunning(true);
+    try {
+      const body = this.body();
+      showStatus(this.status, 'Submitting the plan…', true);
+      const accepted = await postJson('v1/plans', body);
+      this.planId = accepted.id;
+      this.showProgress(0, accepted.progress?.total ?? 0);
+      showStatus(this.status, `Plan ${accepted.id} ${accepted.status ?? 'queued'}…`, true);
+      const final = await this.follow(accepted.id);
+      await this.finish(final);
+    } catch (error) {
+      showProblem(this.status, this.problems, error, this.setup);
+    } finally {
+      this.stopFollowing();
+      this.setRunning(false);
+    }
+  }
+
+  /** Resolves with the finished plan. Progress comes from the SSE stream; with an API key (EventSource cannot send one) by polling. */
+  follow(id) {
+    return new Promise((resolve, reject) => {
+      const settle = async () => {
+        try {
+          const plan = await getJson(`v1/plans/${encodeURIComponent(id)}`);
+          if (plan.progress) this.showProgress(plan.progress.done, plan.progress.total);
+          if (terminal.has(plan.status)) {
+            this.stopFollowing();
+            resolve(plan);
+          }
+          return plan;
+        } catch (error) {
+          this.stopFollowing();
+          reject(error);
+          return null;
+        }
+      };
+      if (apiKey()) {
+        this.poller = setInterval(settle, 500);
+        return;
+      }
+      const source = new EventSource(`v1/plans/${encodeURIComponent(id)}/events`);
+      this.events = source;
+      const onEvent = (event) => {
+        let data = null;
+        try {
+          data = JSON.parse(event.data);
+        } catch {
+          return;
+        }
+        const progress = data.progress ?? data;
+        if (typeof progress.done === 'number' && typeof progress.total === 'number') {
+          this.showProgress(progress.done, progress.total, progress.etaSeconds ?? data.etaSeconds);
+        }
+        if (terminal.has(data.status) || terminal.has(event.type)) settle();
+      };
+      for (const type of ['message', 'progress', 'status', 'cell', 'done', 'failed', 'cancelled', 'end']) {
+        source.addEventListener(type, onEvent);
+      }
+      // The stream ends when the plan does; the browser then reports an error and retries. Ask the plan instead.
+      source.addEventListener('error', (event) => {
+        if (event.data) onEvent(event);
+        else settle();
+      });
+    });
+  }
+
+  stopFollowing() {
+    if (this.events) this.events.close();
+    this.events = null;
+    if (this.poller) clearInterval(this.poller);
+    this.poller = null;
+  }
+
+  async cancel() {
+    if (!this.planId) return;
+    try {
+      await deleteResource(`v1/plans/${encodeURIComponent(this.planId)}`);
+      showStatus(this.status, `Cancelling plan ${this.planId}…`, true);
+    } catch (error) {
+      showProblem(this.status, this.problems, error, this.setup);
+    }
+  }
+
+  async finish(plan) {
+    this.plan = plan;
+    if (plan.status !== 'done') {
+      const reason = plan.error?.detail ?? plan.error?.title ?? plan.error?.message ?? '';
+      showStatus(this.status, `Plan ${plan.id ?? this.planId} ${plan.status}${reason ? `: ${reason}` : ''}.`);
+      return;
+    }
+    const metric = plan.table?.paretoMetric ?? byId('targetMetric').value;
+    byId('plotMetric').value = metric;
+    renderPlanTable(byId('planTable'), plan);
+    this.redrawPlot();
+    this.showRecommendation(plan);
+    await this.offerCsv(plan);
+    showStatus(this.status, `Plan ${plan.id ?? this.planId} done.`);
+  }
+
+  redrawPlot() {
+    if (!this.plan?.table) return;
+    this.plot?.stopResizing?.();
+    this.plot?.destroy();
+    const metric = byId('plotMetric').value;
+    this.plot = drawTradeoffPlot(byId('tradeoffPlot'), planPoints(this.plan, metric), metric);
+  }
+
+  /** The service's own sentence (its numbers, its rounding); the table row it names is highlighted. */
+  showRecommendation(plan) {
+    const element = byId('recommendation');
+    const rec = plan.table?.recommendation ?? plan.recommendation ?? null;
+    element.textContent = rec?.statement ?? 'The service gave no recommendation for this plan.';
+    element.hidden = false;
+  }
+
+  async offerCsv(plan) {
+    const link = byId('csvLink');
+    const path = pageRelative(
+      plan.links?.csv ?? `v1/plans/${encodeURIComponent(plan.id ?? this.planId)}/table.csv`,
+    );
+    if (apiKey()) {
+      const blob = await getBlob(path, 'text/csv');
+      if (link.href.startsWith('blob:')) URL.revokeObjectURL(link.href);
+      link.href = URL.createObjectURL(blob);
+    } else {
+      link.href = path;
+    }
+    link.download = `plan-${plan.id ?? this.planId}.csv`;
+    link.hidden = false;
+  }
+}

@@ -1,0 +1,200 @@
+// The acquisition setup form: turns the controls into the request pieces of the HTTP contract
+// (source, matrix, sampling, method, noise, protocol) and shows field errors next to their controls.
+
+import { getJson, uploadImage } from './api.js';
+
+/** Draft protocols of the invented demo site (values are plausible, not taken from any real protocol). */
+export const protocolPresets = [
+  {
+    label: 'Knee PD sagittal, draft A',
+    protocol: { dimensions: '2d', trMs: 2800, nex: 1, echoTrainLength: 8, slices: 28, partialFourier: 1 },
+  },
+  {
+    label: 'Knee T1 coronal, draft B',
+    protocol: { dimensions: '2d', trMs: 550, nex: 1, echoTrainLength: 3, slices: 24, partialFourier: 1 },
+  },
+  {
+    label: 'Knee 3D isotropic, draft C',
+    protocol: { dimensions: '3d', trMs: 12, nex: 1, echoTrainLength: 1, slices: 1, partialFourier: 0.75 },
+  },
+];
+
+const byId = (id) => document.getElementById(id);
+
+function numberOf(id) {
+  const raw = byId(id).value.trim();
+  return raw === '' ? undefined : Number(raw);
+}
+
+export class SetupForm {
+  constructor(form) {
+    this.form = form;
+    this.uploaded = null;
+    this.fillPresets();
+    this.applyPreset(0);
+    form.addEventListener('change', (event) => this.onChange(event));
+    this.syncVisibility();
+  }
+
+  fillPresets() {
+    const select = byId('preset');
+    protocolPresets.forEach((preset, index) => {
+      select.add(new Option(preset.label, String(index)));
+    });
+    select.add(new Option('custom (edited)', 'custom'));
+  }
+
+  applyPreset(index) {
+    const preset = protocolPresets[index];
+    if (!preset) return;
+    byId('preset').value = String(index);
+    for (const [key, value] of Object.entries(preset.protocol)) byId(key).value = String(value);
+    this.syncSlices();
+  }
+
+  /** In 3D the matrix plane is ky×kz, so there is exactly one slab (the service requires slices = 1). */
+  syncSlices() {
+    const slices = byId('slices');
+    const threeD = byId('dimensions').value === '3d';
+    if (threeD) slices.value = '1';
+    slices.disabled = threeD;
+  }
+
+  onChange(event) {
+    const target = event.target;
+    if (target.id === 'preset') this.applyPreset(Number(target.value));
+    else if (target.closest('fieldset')?.querySelector('#trMs')) byId('preset').value = 'custom';
+    if (target.id === 'dimensions') this.syncSlices();
+    if (target.id === 'noiseOn') byId('snr').disabled = !target.checked;
+    if (target.name === 'sourceKind' || target.id === 'pattern' || target.id === 'method')
+      this.syncVisibility();
+    if (target.getAttribute?.('aria-invalid') === 'true') target.removeAttribute('aria-invalid');
+  }
+
+  /** Shows only the parameters that apply to the chosen source, pattern and method. */
+  syncVisibility() {
+    const kind = this.form.querySelector('input[name="sourceKind"]:checked').value;
+    for (const el of this.form.querySelectorAll('[data-source]')) el.hidden = el.dataset.source !== kind;
+    const pattern = byId('pattern').value;
+    for (const el of this.form.querySelectorAll('[data-pattern]')) {
+      el.hidden = !el.dataset.pattern.split(' ').includes(pattern);
+    }
+    const method = byId('method').value;
+    for (const el of this.form.querySelectorAll('[data-method]')) {
+      el.hidden = !el.dataset.method.split(' ').includes(method);
+    }
+  }
+
+  async loadPhantoms() {
+    const select = byId('phantom');
+    const list = await getJson('v1/phantoms');
+    const phantoms = Array.isArray(list) ? list : (list.phantoms ?? list.items ?? []);
+    select.replaceChildren();
+    for (const phantom of phantoms) {
+      const option = new Option(phantom.name, phantom.name);
+      option.title = phantom.description ?? '';
+      select.add(option);
+    }
+    const preferred = phantoms.find((p) => p.name === 'shepp-logan-modified');
+    if (preferred) select.value = preferred.name;
+    return phantoms;
+  }
+
+  async upload(file) {
+    const info = await uploadImage(file);
+    this.uploaded = info;
+    if (Number.isInteger(info.nx) && Number.isInteger(info.ny)) {
+      byId('nx').value = String(info.nx);
+      byId('ny').value = String(info.ny);
+    }
+    return info;
+  }
+
+  source() {
+    const kind = this.form.querySelector('input[name="sourceKind"]:checked').value;
+    if (kind === 'upload') return { imageId: this.uploaded?.id ?? '' };
+    return { phantom: byId('phantom').value, kspace: byId('phantomKspace').value };
+  }
+
+  matrix() {
+    return { nx: numberOf('nx'), ny: numberOf('ny') };
+  }
+
+  /**
+   * The sampling piece for one pattern. A plan pattern (forPlan) carries neither R nor seed: the plan's
+   * accelerations and its seeds 1…n set them.
+   */
+  sampling(pattern = byId('pattern').value, { forPlan = false } = {}) {
+    const spec = { pattern };
+    if (!forPlan) spec.acceleration = numberOf('acceleration');
+    if (pattern !== 'radial') spec.acs = numberOf('acs');
+    if (pattern === 'cartesian-random' || pattern === 'poisson-disc')
+      spec.density = { power: numberOf('densityPower') };
+    if (pattern === 'radial') spec.angles = byId('angles').value;
+    if (!forPlan) spec.seed = numberOf('seed');
+    return spec;
+  }
+
+  method(name = byId('method').value) {
+    if (name === 'cs-tv') {
+      const spec = { name, iterations: numberOf('iterations') };
+      const lambda = numberOf('lambda');
+      if (lambda !== undefined) spec.lambda = lambda;
+      return spec;
+    }
+    if (name === 'lowrank-hankel') {
+      const spec = { name, kernel: numberOf('kernel'), iterations: numberOf('iterations') };
+      const rank = numberOf('rank');
+      if (rank !== undefined) spec.rank = rank;
+      return spec;
+    }
+    return { name };
+  }
+
+  noise() {
+    return byId('noiseOn').checked ? { snr: numberOf('snr') } : undefined;
+  }
+
+  protocol() {
+    return {
+      dimensions: byId('dimensions').value,
+      trMs: numberOf('trMs'),
+      nex: numberOf('nex'),
+      echoTrainLength: numberOf('echoTrainLength'),
+      slices: numberOf('slices'),
+      partialFourier: numberOf('partialFourier'),
+    };
+  }
+
+  /** Marks the controls named by a problem's field paths; returns the paths it could not place. */
+  markProblems(fieldErrors) {
+    for (const el of document.querySelectorAll('[aria-invalid="true"]')) el.removeAttribute('aria-invalid');
+    const unplaced = [];
+    for (const { field } of fieldErrors ?? []) {
+      const control = controlForField(field);
+      if (control) control.setAttribute('aria-invalid', 'true');
+      else unplaced.push(field);
+    }
+    return unplaced;
+  }
+}
+
+/** Maps "sampling.acceleration", "patterns[0].acs" or "/methods/1/lambda" to the control that edits it. */
+function controlForField(field) {
+  const dotted = String(field)
+    .replace(/^\//, '')
+    .replaceAll('/', '.')
+    .replace(/\[(\d+)\]/g, '.$1');
+  const candidates = [
+    dotted,
+    dotted.replace(/^patterns\.\d+\./, 'sampling.'),
+    dotted.replace(/^methods\.\d+\./, 'method.'),
+    dotted.replace(/^accelerations\.\d+$/, 'accelerations'),
+    dotted.replace(/^target\..*$/, 'target'),
+  ];
+  for (const candidate of candidates) {
+    const control = document.querySelector(`[data-field="${CSS.escape(candidate)}"]`);
+    if (control) return control;
+  }
+  return null;
+}
