@@ -8,7 +8,7 @@ import { type FieldProblem, ValidationError } from '../core/errors.ts';
  */
 export function problemsFromIssues(issues: readonly z.core.$ZodIssue[], prefix: string): FieldProblem[] {
   return issues.map((issue) => {
-    const field = fieldPath(prefix, issue.path);
+    const field = fieldPath(prefix, issue.path) || '(body)';
     const allowed = allowedText(issue);
     return allowed === undefined
       ? { field, message: issue.message }
@@ -33,7 +33,8 @@ export function fieldPath(prefix: string, path: readonly PropertyKey[]): string 
   return out;
 }
 
-function allowedText(issue: z.core.$ZodIssue): string | undefined {
+/** The allowed range or set an issue implies, in words, where zod knows it. */
+export function allowedText(issue: z.core.$ZodIssue): string | undefined {
   switch (issue.code) {
     case 'too_small':
       if (issue.origin === 'array') return `at least ${issue.minimum} item(s)`;

@@ -1,0 +1,150 @@
+import { ValidationError } from '../core/errors.ts';
+import { formatDuration } from '../protocol/format-duration.ts';
+import { scanTime } from '../protocol/scan-time.ts';
+import type { CellResult } from './cell-result.ts';
+import { specLabels } from './labels.ts';
+import { metricNames } from './metric-direction.ts';
+import { paretoFront } from './pareto.ts';
+import { patternSpecs } from './pattern-specs.ts';
+import type { PlanRow, PlanTable } from './plan-table.ts';
+import { meetsTarget, recommend } from './recommend.ts';
+import { type GridPosition, rowKey } from './row-key.ts';
+import type { Plan } from './schema.ts';
+import { mean, summarize } from './statistics.ts';
+
+export const referencePatternLabel = 'fully sampled';
+export const referenceMethodLabel = 'zero-filled';
+
+/** The parts of a validated plan the table reads. */
+export type TablePlan = Pick<
+  Plan,
+  'matrix' | 'protocol' | 'patterns' | 'accelerations' | 'methods' | 'seeds'
+> & {
+  target?: Plan['target'];
+};
+
+/**
+ * Aggregates cell results into the tradeoff table: one row per pattern × R × method that has results
+ * (so a partial table can be shown while a plan runs), the reference row first, Pareto flags, the
+ * recommendation. Rows follow plan order whatever order the cells finished in, so the same results
+ * give the same table.
+ */
+export function buildTable(plan: TablePlan, cellResults: readonly CellResult[]): PlanTable {
+  const groups = groupResults(cellResults);
+  const full = scanTime(plan.matrix, plan.protocol);
+  const patternLabels = specLabels(plan.patterns, 'pattern');
+  const methodLabels = specLabels(plan.methods as Record<string, unknown>[], 'name');
+
+  const positions: GridPosition[] = [
+    { reference: true, patternIndex: null, accelerationIndex: null, methodIndex: null },
+  ];
+  plan.patterns.forEach((pattern, patternIndex) => {
+    for (const [accelerationIndex] of patternSpecs(pattern, plan.accelerations)) {
+      plan.methods.forEach((_, methodIndex) => {
+        positions.push({ reference: false, patternIndex, accelerationIndex, methodIndex });
+      });
+    }
+  });
+
+  const paretoMetric = plan.target?.metric ?? 'nrmse';
+  const target = plan.target ?? null;
+  const rows: PlanRow[] = [];
+  for (const position of positions) {
+    const results = groups.get(rowKey(position));
+    if (!results) continue;
+    const scanSeconds = mean(results.map((r) => r.scanSeconds));
+    const metrics = Object.fromEntries(
+      metricNames.map((m) => [m, summarize(results.map((r) => r.metrics[m]))]),
+    ) as PlanRow['metrics'];
+    const requestedR = position.reference
+      ? 1
+      : position.accelerationIndex === null
+        ? null
+        : plan.accelerations[position.accelerationIndex];
+    rows.push({
+      ...position,
+      key: rowKey(position),
+      pattern: position.reference ? referencePatternLabel : patternLabels[position.patternIndex as number],
+      method: position.reference ? referenceMethodLabel : methodLabels[position.methodIndex as number],
+      requestedR,
+      actualR: mean(results.map((r) => r.actualR)),
+      acquired: mean(results.map((r) => r.acquired)),
+      acquiredUnit: results[0].acquiredUnit,
+      scanSeconds,
+      scanFormatted: formatDuration(scanSeconds),
+      timeSavedPct: full.seconds > 0 ? 100 * (1 - scanSeconds / full.seconds) : 0,
+      metrics,
+      reconMs: mean(results.map((r) => r.reconMs)),
+      seeds: results.length,
+      pareto: false,
+      meetsTarget: target === null ? null : meetsTarget(metrics[target.metric].mean, target),
+    });
+  }
+
+  const front = paretoFront(
+    rows.map((row) => ({ scanSeconds: row.scanSeconds, value: row.metrics[paretoMetric].mean })),
+    paretoMetric,
+  );
+  rows.forEach((row, i) => {
+    row.pareto = front[i];
+  });
+
+  return {
+    rows,
+    fullySampled: full,
+    paretoMetric,
+    recommendation: recommend(rows, target, methodLabels, paretoMetric),
+    cells: { done: cellResults.length, total: positions.length * plan.seeds },
+    notes: tableNotes(plan, rows, cellResults),
+  };
+}
+
+function groupResults(cellResults: readonly CellResult[]): Map<string, CellResult[]> {
+  const seen = new Set<number>();
+  const groups = new Map<string, CellResult[]>();
+  for (const result of [...cellResults].sort((a, b) => a.index - b.index)) {
+    if (seen.has(result.index)) {
+      throw new ValidationError({
+        field: 'cellResults',
+        message: `cell ${result.index} appears twice`,
+        allowed: 'one result per cell',
+      });
+    }
+    seen.add(result.index);
+    const key = rowKey(result);
+    const list = groups.get(key);
+    if (list) list.push(result);
+    else groups.set(key, [result]);
+  }
+  return groups;
+}
+
+function tableNotes(plan: TablePlan, rows: readonly PlanRow[], cellResults: readonly CellResult[]): string[] {
+  const notes = [
+    "Each row aggregates the plan's seeds (seed s draws the mask and the noise of repetition s): " +
+      'means over seeds, sd = sample standard deviation (n − 1), 0 for a single seed.',
+    'Time saved is against the fully sampled Cartesian scan of the same protocol (the reference row).',
+    'The recommendation uses the mean target metric over seeds; ties go to the shorter scan, then the ' +
+      'better metric, then plan order.',
+  ];
+  if (plan.protocol.partialFourier < 1) {
+    notes.push(
+      `Partial Fourier ${plan.protocol.partialFourier}: scan times count only the kept phase-encode rows; ` +
+        'the simulated reconstruction does not model partial Fourier, so errors are those of the mask alone.',
+    );
+  }
+  if (rows.some((row) => row.acquiredUnit === 'spokes')) {
+    notes.push(
+      'Radial rows count spokes; Nyquist radial sampling needs ⌈π/2·N⌉ spokes, more than the N Cartesian lines, ' +
+        'so a radial row at low R can take longer than the fully sampled Cartesian scan.',
+    );
+  }
+  if (rows.some((row) => row.metrics.psnr.mean === null)) {
+    notes.push(
+      'PSNR is +∞ (null in JSON, Infinity in CSV) where a reconstruction equals the reference exactly.',
+    );
+  }
+  for (const result of cellResults)
+    for (const note of result.notes) if (!notes.includes(note)) notes.push(note);
+  return notes;
+}

@@ -1,0 +1,15 @@
+/** Where a cell or row sits in a plan's grid. The reference row has no pattern or method index. */
+export interface GridPosition {
+  reference: boolean;
+  patternIndex: number | null;
+  /** Index into the plan's accelerations; null for the reference row and custom masks. */
+  accelerationIndex: number | null;
+  methodIndex: number | null;
+}
+
+/** Stable row id: 'reference', 'p0-r2-m1' (pattern 0, accelerations[2], methods[1]) or 'p3-m0' (custom mask). */
+export function rowKey(position: GridPosition): string {
+  if (position.reference) return 'reference';
+  const r = position.accelerationIndex === null ? '' : `-r${position.accelerationIndex}`;
+  return `p${position.patternIndex}${r}-m${position.methodIndex}`;
+}

@@ -1,0 +1,55 @@
+import type { PlanRow, PlanTable } from './plan-table.ts';
+
+/** One CSV column: header name (units in the name) and how a row fills it. */
+interface Column {
+  name: string;
+  value(row: PlanRow): string;
+}
+
+/**
+ * Fixed decimals with '.' whatever the locale (toFixed ignores it); null (+∞, see
+ * metric-direction.ts) is written `Infinity`, which JavaScript's Number() and Python's float() read.
+ */
+function fixed(decimals: number, read: (row: PlanRow) => number | null): (row: PlanRow) => string {
+  return (row) => {
+    const value = read(row);
+    return value === null ? 'Infinity' : value.toFixed(decimals);
+  };
+}
+
+export const csvColumns: readonly Column[] = [
+  { name: 'pattern', value: (r) => r.pattern },
+  { name: 'method', value: (r) => r.method },
+  { name: 'reference', value: (r) => String(r.reference) },
+  { name: 'requested_r', value: (r) => (r.requestedR === null ? '' : r.requestedR.toFixed(2)) },
+  { name: 'actual_r', value: fixed(3, (r) => r.actualR) },
+  { name: 'acquired', value: fixed(2, (r) => r.acquired) },
+  { name: 'acquired_unit', value: (r) => r.acquiredUnit },
+  { name: 'scan_s', value: fixed(3, (r) => r.scanSeconds) },
+  { name: 'scan_mmss', value: (r) => r.scanFormatted },
+  { name: 'time_saved_pct', value: fixed(2, (r) => r.timeSavedPct) },
+  { name: 'nrmse_mean', value: fixed(6, (r) => r.metrics.nrmse.mean) },
+  { name: 'nrmse_sd', value: fixed(6, (r) => r.metrics.nrmse.sd) },
+  { name: 'psnr_db_mean', value: fixed(3, (r) => r.metrics.psnr.mean) },
+  { name: 'psnr_db_sd', value: fixed(3, (r) => r.metrics.psnr.sd) },
+  { name: 'ssim_mean', value: fixed(6, (r) => r.metrics.ssim.mean) },
+  { name: 'ssim_sd', value: fixed(6, (r) => r.metrics.ssim.sd) },
+  { name: 'hfen_mean', value: fixed(6, (r) => r.metrics.hfen.mean) },
+  { name: 'hfen_sd', value: fixed(6, (r) => r.metrics.hfen.sd) },
+  { name: 'recon_ms', value: fixed(1, (r) => r.reconMs) },
+  { name: 'seeds', value: (r) => String(r.seeds) },
+  { name: 'pareto', value: (r) => String(r.pareto) },
+  { name: 'meets_target', value: (r) => (r.meetsTarget === null ? '' : String(r.meetsTarget)) },
+];
+
+/** RFC 4180 field: quoted when it holds a comma, a double quote, CR or LF; inner quotes doubled. */
+export function csvField(text: string): string {
+  return /[",\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
+}
+
+/** The tradeoff table as RFC 4180 CSV: header row, one record per table row, every record ends in CRLF. */
+export function tableToCsv(table: PlanTable): string {
+  const lines = [csvColumns.map((c) => csvField(c.name)).join(',')];
+  for (const row of table.rows) lines.push(csvColumns.map((c) => csvField(c.value(row))).join(','));
+  return `${lines.join('\r\n')}\r\n`;
+}

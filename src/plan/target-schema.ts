@@ -1,0 +1,42 @@
+import { z } from 'zod';
+import { higherIsBetter, metricNames } from './metric-direction.ts';
+
+/**
+ * The image-quality target of a plan: `{ metric, atLeast }` for higher-is-better metrics (ssim,
+ * psnr) or `{ metric, atMost }` for lower-is-better ones (nrmse, hfen). Exactly one bound.
+ */
+export const targetSchema = z
+  .strictObject({
+    metric: z.enum(metricNames).describe('metric the recommendation and the Pareto front use'),
+    atLeast: z.number().optional().describe('lowest acceptable mean value (ssim, psnr)'),
+    atMost: z.number().optional().describe('highest acceptable mean value (nrmse, hfen)'),
+  })
+  .superRefine((t, ctx) => {
+    const wanted = higherIsBetter[t.metric] ? 'atLeast' : 'atMost';
+    const other = wanted === 'atLeast' ? 'atMost' : 'atLeast';
+    if (t[other] !== undefined) {
+      ctx.addIssue({
+        code: 'custom',
+        path: [other],
+        message: `${t.metric} is ${wanted === 'atLeast' ? 'higher' : 'lower'}-is-better: give ${wanted}`,
+        params: { allowed: `${wanted} for ${t.metric}` },
+      });
+    } else if (t[wanted] === undefined) {
+      ctx.addIssue({
+        code: 'custom',
+        path: [wanted],
+        message: `a ${t.metric} target needs ${wanted}`,
+        params: { allowed: `a number (${wanted} for ${t.metric})` },
+      });
+    }
+  })
+  .describe('Image-quality target, e.g. { "metric": "ssim", "atLeast": 0.95 }');
+
+export type Target = z.output<typeof targetSchema>;
+
+/** The bound of a validated target and whether values must lie above it. */
+export function targetBound(target: Target): { threshold: number; atLeast: boolean } {
+  return target.atLeast !== undefined
+    ? { threshold: target.atLeast, atLeast: true }
+    : { threshold: target.atMost as number, atLeast: false };
+}

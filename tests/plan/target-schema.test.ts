@@ -1,0 +1,41 @@
+import { describe, expect, it } from 'vitest';
+import { ValidationError } from '../../src/core/errors.ts';
+import { targetSchema } from '../../src/plan/target-schema.ts';
+import { parseOrThrow } from '../../src/protocol/zod-problems.ts';
+
+function problem(value: unknown) {
+  try {
+    parseOrThrow(targetSchema, value, 'target');
+  } catch (error) {
+    expect(error).toBeInstanceOf(ValidationError);
+    return (error as ValidationError).problems[0];
+  }
+  throw new Error('expected a ValidationError');
+}
+
+// Metric directions per DESIGN.md: SSIM and PSNR higher is better, NRMSE and HFEN lower is better.
+describe('plan target', () => {
+  it('accepts { ssim, atLeast } and { nrmse, atMost }', () => {
+    expect(parseOrThrow(targetSchema, { metric: 'ssim', atLeast: 0.95 }, 'target')).toEqual({
+      metric: 'ssim',
+      atLeast: 0.95,
+    });
+    expect(parseOrThrow(targetSchema, { metric: 'nrmse', atMost: 0.1 }, 'target').atMost).toBe(0.1);
+  });
+
+  it('refuses a bound against the metric direction, naming the field', () => {
+    expect(problem({ metric: 'ssim', atMost: 0.9 })).toMatchObject({
+      field: 'target.atMost',
+      allowed: 'atLeast for ssim',
+    });
+    expect(problem({ metric: 'hfen', atLeast: 0.2 })).toMatchObject({ field: 'target.atLeast' });
+  });
+
+  it('needs the bound and a known metric', () => {
+    expect(problem({ metric: 'psnr' })).toMatchObject({ field: 'target.atLeast' });
+    expect(problem({ metric: 'mse', atMost: 1 })).toMatchObject({
+      field: 'target.metric',
+      allowed: 'one of "nrmse", "psnr", "ssim", "hfen"',
+    });
+  });
+});
