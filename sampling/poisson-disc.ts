@@ -1,0 +1,284 @@
+import { type FieldProblem, ValidationError } from '../src/core/errors.ts';
+import { SeededRandom } from '../src/core/random.ts';
+import type { Matrix } from './matrix.ts';
+import { centredBlockStart, type SampledMask } from './sampled-mask.ts';
+import type { PoissonDiscSpec } from './schema.ts';
+import { requireSeed } from './seed.ts';
+import { inclusionProbabilities } from './unequal-probability-sampling.ts';
+
+export const DEFAULT_POISSON_POWER = 2;
+/** Candidates tried around an active sample before it is retired (Bridson 2007: k = 30 typical). */
+export const CANDIDATES_PER_SAMPLE = 30;
+/** The radius scale is searched until the actual R is within this relative error of the request. */
+export const TARGET_RELATIVE_ERROR = 0.01;
+const MAX_SCALE_STEPS = 30;
+/** Points per r² of a saturated 2D random disc packing, the starting guess of the scale search. */
+const PACKING_DENSITY = 0.65;
+
+/**
+ * Radius law of the variable-density Poisson-disc pattern, in grid units:
+ *   r(k) = s · g(k),   g(k) = (1 + ρ)^(p/2),   ρ = √(((u − ⌊nx/2⌋)/(nx/2))² + ((v − ⌊ny/2⌋)/(ny/2))²)
+ * (u column, v row; ρ = 1 at the middle of each edge, √2 in the corners). The local density of
+ * samples goes as 1/r² ∝ (1 + ρ)^(−p), so p is the fall-off power (p = 0: uniform Poisson-disc).
+ * Two samples a and b are never closer than (r(a) + r(b))/2 (discs of radius r/2 do not overlap);
+ * ACS points count as samples for the samples around them but not among themselves.
+ */
+export function poissonRadiusProfile(nx: number, ny: number, power: number): Float64Array {
+  const g = new Float64Array(nx * ny);
+  const cx = Math.floor(nx / 2);
+  const cy = Math.floor(ny / 2);
+  for (let v = 0; v < ny; v++) {
+    const dy = (v - cy) / (ny / 2);
+    for (let u = 0; u < nx; u++) {
+      const dx = (u - cx) / (nx / 2);
+      g[v * nx + u] = (1 + Math.sqrt(dx * dx + dy * dy)) ** (power / 2);
+    }
+  }
+  return g;
+}
+
+/** Integer offsets (dx, dy) with dx² + dy² < reach², sorted by distance, nearest first. */
+function neighbourOffsets(reach: number): { dx: Int32Array; dy: Int32Array; d2: Float64Array } {
+  const m = Math.ceil(reach);
+  const list: [number, number, number][] = [];
+  for (let dy = -m; dy <= m; dy++) {
+    for (let dx = -m; dx <= m; dx++) {
+      const d2 = dx * dx + dy * dy;
+      if (d2 > 0 && d2 < reach * reach) list.push([dx, dy, d2]);
+    }
+  }
+  list.sort((a, b) => a[2] - b[2]);
+  return {
+    dx: Int32Array.from(list, (e) => e[0]),
+    dy: Int32Array.from(list, (e) => e[1]),
+    d2: Float64Array.from(list, (e) => e[2]),
+  };
+}
+
+/** Reusable state of one dart-throwing run on a fixed matrix, radius profile and ACS. */
+class DartThrower {
+  readonly mask: Uint8Array;
+  private readonly active: Int32Array;
+  private readonly gMax: number;
+
+  constructor(
+    private readonly nx: number,
+    private readonly ny: number,
+    private readonly g: Float64Array,
+    private readonly acs: number,
+  ) {
+    this.mask = new Uint8Array(nx * ny);
+    this.active = new Int32Array(nx * ny);
+    let gMax = 0;
+    for (let i = 0; i < g.length; i++) if (g[i] > gMax) gMax = g[i];
+    this.gMax = gMax;
+  }
+
+  /**
+   * Bridson 2007 dart throwing on the integer grid with the radius law above and scale s: an active
+   * sample p proposes up to k candidates uniformly (by area) in the annulus [r(p), 2r(p)], rounded to
+   * the nearest grid point; a candidate c is accepted if no sample q lies closer than (r(c) + r(q))/2.
+   * Starts from the ACS square's border (or the k-space centre when there is no ACS). Returns the
+   * number of sampled points, ACS included; the mask is left in `this.mask`.
+   */
+  run(scale: number, seed: number): number {
+    const { nx, ny, g, mask, active } = this;
+    const rng = new SeededRandom(seed);
+    const offsets = neighbourOffsets(scale * this.gMax);
+    const { dx: offX, dy: offY, d2: offD2 } = offsets;
+    const nOffsets = offD2.length;
+    const rMax = scale * this.gMax;
+    mask.fill(0);
+    let activeCount = 0;
+    let count = 0;
+    const acs = this.acs;
+    if (acs > 0) {
+      const r0 = centredBlockStart(ny, acs);
+      const c0 = centredBlockStart(nx, acs);
+      for (let v = r0; v < r0 + acs; v++) {
+        for (let u = c0; u < c0 + acs; u++) {
+          const i = v * nx + u;
+          mask[i] = 1;
+          count++;
+          if (v === r0 || v === r0 + acs - 1 || u === c0 || u === c0 + acs - 1) active[activeCount++] = i;
+        }
+      }
+    } else {
+      const centre = Math.floor(ny / 2) * nx + Math.floor(nx / 2);
+      mask[centre] = 1;
+      count = 1;
+      active[activeCount++] = centre;
+    }
+    while (activeCount > 0) {
+      const slot = rng.integer(activeCount);
+      const p = active[slot];
+      const px = p % nx;
+      const py = (p - px) / nx;
+      const rp = scale * g[p];
+      let accepted = false;
+      for (let attempt = 0; attempt < CANDIDATES_PER_SAMPLE; attempt++) {
+        const distance = rp * Math.sqrt(1 + 3 * rng.uniform());
+        const angle = 2 * Math.PI * rng.uniform();
+        const cu = Math.round(px + distance * Math.cos(angle));
+        const cv = Math.round(py + distance * Math.sin(angle));
+        if (cu < 0 || cu >= nx || cv < 0 || cv >= ny) continue;
+        const c = cv * nx + cu;
+        if (mask[c] !== 0) continue;
+        const rc = scale * g[c];
+        const reach = (rc + rMax) / 2;
+        const reach2 = reach * reach;
+        let free = true;
+        for (let o = 0; o < nOffsets; o++) {
+          const d2 = offD2[o];
+          if (d2 >= reach2) break;
+          const qu = cu + offX[o];
+          const qv = cv + offY[o];
+          if (qu < 0 || qu >= nx || qv < 0 || qv >= ny) continue;
+          const q = qv * nx + qu;
+          if (mask[q] === 0) continue;
+          const limit = (rc + scale * g[q]) / 2;
+          if (d2 < limit * limit) {
+            free = false;
+            break;
+          }
+        }
+        if (free) {
+          mask[c] = 1;
+          count++;
+          active[activeCount++] = c;
+          accepted = true;
+          break;
+        }
+      }
+      if (!accepted) active[slot] = active[--activeCount];
+    }
+    return count;
+  }
+}
+
+function checkPoissonRequest(nx: number, ny: number, R: number, acs: number): number {
+  const total = nx * ny;
+  if (R > total) {
+    throw new ValidationError({
+      field: 'sampling.acceleration',
+      message: `${R} leaves less than one of the ${total} grid points`,
+      allowed: `1 ≤ acceleration ≤ ${total} (nx·ny)`,
+    });
+  }
+  const side = Math.min(nx, ny);
+  if (acs > side) {
+    throw new ValidationError({
+      field: 'sampling.acs',
+      message: `an ${acs}×${acs} ACS square does not fit in ${ny}×${nx}`,
+      allowed: `0 ≤ acs ≤ ${side} (min(nx, ny))`,
+    });
+  }
+  const target = Math.round(total / R);
+  if (target < total && acs * acs >= target) {
+    const maxAcs = Math.floor(Math.sqrt(target - 1));
+    const problems: FieldProblem[] = [
+      {
+        field: 'sampling.acs',
+        message: `the ${acs}×${acs} ACS square uses all round(nx·ny / R) = ${target} points, leaving none to draw`,
+        allowed: `0 ≤ acs ≤ ${maxAcs} (acs² < round(nx·ny / R))`,
+      },
+      {
+        field: 'sampling.acceleration',
+        message: `R = ${R} leaves no points outside the ACS square`,
+        allowed: `1 ≤ acceleration < ${(total / (acs * acs + 0.5)).toPrecision(4)} with acs = ${acs}`,
+      },
+    ];
+    throw new ValidationError(problems);
+  }
+  return target;
+}
+
+/**
+ * Variable-density Poisson-disc sampling of the whole ny×nx plane (the phase-encode plane of a 3D
+ * acquisition) with a fully sampled central acs×acs square. The radius scale s is searched — a
+ * power-law secant step count ∝ s⁻² inside a bisection bracket — until the acquired count is within
+ * TARGET_RELATIVE_ERROR of round(nx·ny / R); the closest run found is kept. Every run is seeded with
+ * the request's seed, so the same request gives the same mask.
+ */
+export function poissonDiscMask(matrix: Matrix, spec: PoissonDiscSpec): SampledMask {
+  const { nx, ny } = matrix;
+  const R = spec.acceleration;
+  const acs = spec.acs ?? 0;
+  const seed = requireSeed(spec.seed, 'poisson-disc');
+  const power = spec.density?.power ?? DEFAULT_POISSON_POWER;
+  const target = checkPoissonRequest(nx, ny, R, acs);
+  const total = nx * ny;
+  const g = poissonRadiusProfile(nx, ny, power);
+
+  let mask: Uint8Array;
+  let count: number;
+  let scale = 0;
+  let steps = 0;
+  if (target >= total) {
+    mask = new Uint8Array(total).fill(1);
+    count = total;
+  } else {
+    const thrower = new DartThrower(nx, ny, g, acs);
+    let inverseSquareSum = 0;
+    for (let i = 0; i < total; i++) inverseSquareSum += 1 / (g[i] * g[i]);
+    scale = Math.sqrt((PACKING_DENSITY * inverseSquareSum) / target);
+    let low = 0; // largest scale known to give too many points
+    let high = Number.POSITIVE_INFINITY; // smallest scale known to give too few
+    let bestScale = scale;
+    let bestError = Number.POSITIVE_INFINITY;
+    let best = new Uint8Array(0);
+    let bestCount = 0;
+    for (steps = 1; steps <= MAX_SCALE_STEPS; steps++) {
+      const n = thrower.run(scale, seed);
+      const error = n / target - 1;
+      if (Math.abs(error) < Math.abs(bestError)) {
+        bestError = error;
+        bestScale = scale;
+        bestCount = n;
+        best = thrower.mask.slice();
+      }
+      if (Math.abs(error) <= TARGET_RELATIVE_ERROR) break;
+      if (error > 0) low = Math.max(low, scale);
+      else high = Math.min(high, scale);
+      let next = scale * Math.sqrt(n / target);
+      if (!(next > low && next < high)) next = Number.isFinite(high) ? (low + high) / 2 : 2 * scale;
+      scale = next;
+    }
+    steps = Math.min(steps, MAX_SCALE_STEPS);
+    scale = bestScale;
+    count = bestCount;
+    mask = best;
+  }
+
+  // Expected local sampling probability ∝ 1/r², scaled to the drawn count, 1 inside the ACS.
+  const density = new Float64Array(total);
+  const weights = new Float64Array(total);
+  for (let i = 0; i < total; i++) weights[i] = 1 / (g[i] * g[i]);
+  const acsRow = centredBlockStart(ny, acs);
+  const acsCol = centredBlockStart(nx, acs);
+  for (let v = acsRow; v < acsRow + acs; v++) weights.fill(0, v * nx + acsCol, v * nx + acsCol + acs);
+  const outerProbabilities = inclusionProbabilities(weights, Math.min(count - acs * acs, total - acs * acs));
+  density.set(outerProbabilities);
+  for (let v = acsRow; v < acsRow + acs; v++) density.fill(1, v * nx + acsCol, v * nx + acsCol + acs);
+
+  return {
+    nx,
+    ny,
+    mask,
+    pattern: 'poisson-disc',
+    acceleration: { requested: R, actual: total / count },
+    acquired: { count, unit: 'points' },
+    total,
+    fraction: count / total,
+    acs: acs > 0 ? { size: [acs, acs] } : null,
+    representation: 'cartesian',
+    density,
+    seed,
+    details: {
+      radiusLaw: 'r = s*(1 + rho)^(p/2) grid units; rho = normalised |k|; min distance (r(a) + r(b))/2',
+      radiusScale: scale,
+      densityPower: power,
+      scaleSearchSteps: steps,
+    },
+  };
+}

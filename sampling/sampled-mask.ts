@@ -1,0 +1,42 @@
+/**
+ * A generated k-space sampling mask and its bookkeeping. The mask is ny×nx row-major (rows = phase
+ * encode ky, columns = readout kx), 1 = acquired, with the k-space centre at (⌊ny/2⌋, ⌊nx/2⌋).
+ */
+export interface SampledMask {
+  nx: number;
+  ny: number;
+  /** ny·nx, 1 = acquired (radial: the grid points nearest the spokes' samples). */
+  mask: Uint8Array;
+  pattern: string;
+  /** R = total / acquired.count; requested is null for custom masks. */
+  acceleration: { requested: number | null; actual: number };
+  acquired: { count: number; unit: 'lines' | 'points' | 'spokes' };
+  /** Nyquist count in the same unit: ny lines, ny·nx points, or ⌈π/2·max(nx, ny)⌉ spokes. */
+  total: number;
+  /** Acquired grid points / (nx·ny). */
+  fraction: number;
+  acs: { lines?: number; size?: [number, number] } | null;
+  representation: 'cartesian' | 'radial-rasterised';
+  /** Spoke angles in radians, measured from +kx towards +ky (radial only). */
+  spokeAngles?: Float64Array;
+  /** Per grid point sampling probability of the variable-density patterns (ny·nx), for density compensation. */
+  density?: Float64Array;
+  seed: number | null;
+  /** Pattern-specific facts worth reporting (radius law and scale, acceleration basis, …). */
+  details?: Record<string, number | string>;
+}
+
+/** Number of acquired grid points. */
+export function countSampled(mask: Uint8Array): number {
+  let n = 0;
+  for (let i = 0; i < mask.length; i++) if (mask[i] !== 0) n++;
+  return n;
+}
+
+/**
+ * First index of a centred block of `size` positions in a line of `n`, so that the centre
+ * ⌊n/2⌋ lies inside it (positions ⌊n/2⌋ − ⌊size/2⌋ … ⌊n/2⌋ + ⌈size/2⌉ − 1). Requires size ≤ n.
+ */
+export function centredBlockStart(n: number, size: number): number {
+  return Math.floor(n / 2) - Math.floor(size / 2);
+}

@@ -1,0 +1,156 @@
+import { z } from 'zod';
+import { type FieldProblem, ValidationError } from '../src/core/errors.ts';
+
+/**
+ * The "sampling" piece of a request (DESIGN.md): one object per mask family, told apart by `pattern`.
+ * Matrix-dependent limits (R too high for the matrix, ACS larger than the matrix) are checked by the
+ * generators, which know the matrix; this schema checks what can be checked on its own.
+ */
+
+export const SAMPLING_PATTERNS = [
+  'cartesian-uniform',
+  'cartesian-random',
+  'poisson-disc',
+  'radial',
+  'custom',
+] as const;
+export type SamplingPattern = (typeof SAMPLING_PATTERNS)[number];
+
+/** Largest seed: the generator state is seeded from 32 bits. */
+export const MAX_SEED = 4294967295;
+/** Largest polynomial power accepted for variable density (Lustig 2007 calls d ≈ 50 "weak"). */
+export const MAX_DENSITY_POWER = 64;
+
+const acceleration = z
+  .number()
+  .min(1)
+  .describe('Requested acceleration R = Nyquist count / acquired count; fractional values allowed, R ≥ 1.');
+
+const acs = z
+  .number()
+  .int()
+  .min(0)
+  .optional()
+  .describe(
+    'Fully sampled calibration region: central lines (Cartesian lines) or an acs×acs square (Poisson-disc); ' +
+      'counted in the acquired total. Default 0.',
+  );
+
+const seed = z
+  .number()
+  .int()
+  .min(0)
+  .max(MAX_SEED)
+  .optional()
+  .describe('Seed of every random choice; required by cartesian-random and poisson-disc.');
+
+const density = z
+  .object({
+    power: z
+      .number()
+      .min(0)
+      .max(MAX_DENSITY_POWER)
+      .optional()
+      .describe('Polynomial fall-off of the sampling density with |k| (default 2).'),
+  })
+  .optional()
+  .describe('Variable-density law (cartesian-random, poisson-disc).');
+
+export const cartesianUniformSchema = z.object({
+  pattern: z.literal('cartesian-uniform'),
+  acceleration,
+  acs,
+  seed,
+});
+
+export const cartesianRandomSchema = z.object({
+  pattern: z.literal('cartesian-random'),
+  acceleration,
+  acs,
+  seed,
+  density,
+});
+
+export const poissonDiscSchema = z.object({
+  pattern: z.literal('poisson-disc'),
+  acceleration,
+  acs,
+  seed,
+  density,
+});
+
+export const radialSchema = z.object({
+  pattern: z.literal('radial'),
+  acceleration,
+  angles: z
+    .enum(['uniform', 'golden'])
+    .optional()
+    .describe('Spoke angles: equally spaced over 180°, or golden-angle increments 180°/φ (default uniform).'),
+  seed,
+});
+
+/** Standard base64 alphabet with optional padding (RFC 4648 §4); whitespace is not accepted. */
+const BASE64 = /^[A-Za-z0-9+/]*={0,2}$/;
+
+export const customSchema = z.object({
+  pattern: z.literal('custom'),
+  maskPng: z
+    .string()
+    .min(1)
+    .regex(BASE64, 'must be standard base64 (RFC 4648) without whitespace')
+    .describe('Base64 PNG of exactly ny×nx pixels; a pixel with any non-zero colour channel is sampled.'),
+  seed,
+});
+
+export const samplingSchema = z.discriminatedUnion('pattern', [
+  cartesianUniformSchema,
+  cartesianRandomSchema,
+  poissonDiscSchema,
+  radialSchema,
+  customSchema,
+]);
+
+export type SamplingSpec = z.infer<typeof samplingSchema>;
+export type CartesianUniformSpec = z.infer<typeof cartesianUniformSchema>;
+export type CartesianRandomSpec = z.infer<typeof cartesianRandomSchema>;
+export type PoissonDiscSpec = z.infer<typeof poissonDiscSchema>;
+export type RadialSpec = z.infer<typeof radialSchema>;
+export type CustomSpec = z.infer<typeof customSchema>;
+
+/** Human-readable allowed range or set for one zod issue, where zod tells it. */
+function allowedFor(issue: z.core.$ZodIssue): string | undefined {
+  switch (issue.code) {
+    case 'too_small':
+      return `${issue.inclusive ? '≥' : '>'} ${String(issue.minimum)}`;
+    case 'too_big':
+      return `${issue.inclusive ? '≤' : '<'} ${String(issue.maximum)}`;
+    case 'invalid_union': {
+      const options = (issue as { options?: unknown[] }).options;
+      return options ? `one of ${options.map((o) => `'${String(o)}'`).join(', ')}` : undefined;
+    }
+    case 'invalid_value':
+      return `one of ${issue.values.map((v) => `'${String(v)}'`).join(', ')}`;
+    case 'invalid_type':
+      return issue.expected === 'int' ? 'an integer' : `a ${issue.expected}`;
+    default:
+      return undefined;
+  }
+}
+
+/** zod issues → field problems whose paths start with `prefix` (e.g. "sampling"). */
+export function zodProblems(error: z.ZodError, prefix: string): FieldProblem[] {
+  return error.issues.map((issue) => {
+    const path = [prefix, ...issue.path.map(String)].join('.');
+    const allowed = allowedFor(issue);
+    return allowed === undefined
+      ? { field: path, message: issue.message }
+      : { field: path, message: issue.message, allowed };
+  });
+}
+
+/** Validates a sampling spec; throws ValidationError with `sampling.*` field paths. */
+export function parseSampling(spec: unknown): SamplingSpec {
+  const result = samplingSchema.safeParse(spec);
+  if (!result.success) throw new ValidationError(zodProblems(result.error, 'sampling'));
+  return result.data;
+}
