@@ -1,0 +1,16 @@
+import type { ComplexImage } from '../core/complex-image.ts';
+import type { RealImage } from '../core/real-image.ts';
+
+/** Fully sampled, noiseless data of one source and the reference every metric compares against. */
+export interface FullAcquisition {
+  /** Full grid k-space (orthonormal centred DFT convention). */
+  kspace: ComplexImage;
+  /** The fully sampled noiseless image, F_cᴴ(kspace) — the metric reference (DESIGN.md). */
+  reference: ComplexImage;
+  /** The phantom raster, for comparison (phantom sources only). */
+  raster?: RealImage;
+  /** True when k-space is the DFT of the same raster the reconstruction inverts (REFERENCES §1.4). */
+  inverseCrime: boolean;
+  /** Pixels of |reference| above OBJECT_THRESHOLD of its maximum (the SNR is defined over these). */
+  objectMask: Uint8Array;
+}

@@ -1,0 +1,78 @@
+import { LimitError, ValidationError } from '../core/errors.ts';
+import type { Limits } from '../core/limits.ts';
+
+/**
+ * Range checks shared by the reconstruction methods. Each throws a ValidationError naming the
+ * request field (`method.lambda`, …) and the allowed range, so callers that bypass the zod schema
+ * (plans, tests, workers) get the same answer as the HTTP layer.
+ */
+export interface NumberRule {
+  min: number;
+  max: number;
+  integer?: boolean;
+  /** Exclude the lower end (min < value). */
+  minExclusive?: boolean;
+  /** Exclude the upper end (value < max). */
+  maxExclusive?: boolean;
+}
+
+export function describeRange(rule: NumberRule, field: string): string {
+  const name = field.split('.').pop();
+  const lo = rule.minExclusive ? '<' : '≤';
+  const hi = rule.maxExclusive ? '<' : '≤';
+  return `${rule.integer ? 'integer ' : ''}${rule.min} ${lo} ${name} ${hi} ${rule.max}`;
+}
+
+/** `value` if given and inside `rule`, `fallback` if undefined; otherwise a ValidationError. */
+export function checkedNumber(value: unknown, field: string, rule: NumberRule, fallback: number): number {
+  if (value === undefined) return fallback;
+  const ok =
+    typeof value === 'number' &&
+    Number.isFinite(value) &&
+    (!rule.integer || Number.isInteger(value)) &&
+    (rule.minExclusive ? value > rule.min : value >= rule.min) &&
+    (rule.maxExclusive ? value < rule.max : value <= rule.max);
+  if (!ok) {
+    throw new ValidationError({
+      field,
+      message: `must be ${rule.integer ? 'an integer' : 'a number'} in range, got ${JSON.stringify(value)}`,
+      allowed: describeRange(rule, field),
+    });
+  }
+  return value as number;
+}
+
+/** Iteration counts above the configured limit are refused as a LimitError (not silently clipped). */
+export function checkedIterations(value: unknown, fallback: number, limits: Limits): number {
+  const iterations = checkedNumber(
+    value,
+    'method.iterations',
+    { min: 1, max: Number.MAX_SAFE_INTEGER, integer: true },
+    Math.min(fallback, limits.maxIterations),
+  );
+  if (iterations > limits.maxIterations) {
+    throw new LimitError({
+      field: 'method.iterations',
+      message: `${iterations} iterations exceed the configured limit`,
+      allowed: `1 ≤ iterations ≤ ${limits.maxIterations}`,
+    });
+  }
+  return iterations;
+}
+
+export function checkedChoice<T extends string>(
+  value: unknown,
+  field: string,
+  choices: readonly T[],
+  fallback: T,
+): T {
+  if (value === undefined) return fallback;
+  if (typeof value !== 'string' || !choices.includes(value as T)) {
+    throw new ValidationError({
+      field,
+      message: `unknown value ${JSON.stringify(value)}`,
+      allowed: choices.join(' | '),
+    });
+  }
+  return value as T;
+}

@@ -1,0 +1,83 @@
+import { fft2c } from '../../src/core/centered-fft.ts';
+import { type ComplexImage, createComplexImage } from '../../src/core/complex-image.ts';
+import { SeededRandom } from '../../src/core/random.ts';
+
+/** Random complex ny×nx image (standard normal parts). */
+export function randomComplexImage(nx: number, ny: number, seed: number): ComplexImage {
+  const rng = new SeededRandom(seed);
+  const image = createComplexImage(nx, ny);
+  for (let i = 0; i < image.data.length; i++) image.data[i] = rng.normal();
+  return image;
+}
+
+/** Acquired k-space M ⊙ F_c(image) for a mask. */
+export function sampledKspace(image: ComplexImage, mask: Uint8Array): ComplexImage {
+  const k = fft2c(image);
+  for (let i = 0; i < mask.length; i++) {
+    if (!mask[i]) {
+      k.data[2 * i] = 0;
+      k.data[2 * i + 1] = 0;
+    }
+  }
+  return k;
+}
+
+export function fullMask(nx: number, ny: number): Uint8Array {
+  return new Uint8Array(nx * ny).fill(1);
+}
+
+/** ‖a − b‖₂ / ‖b‖₂ over interleaved complex (or real) arrays. */
+export function relativeError(a: ArrayLike<number>, b: ArrayLike<number>): number {
+  let num = 0;
+  let den = 0;
+  for (let i = 0; i < b.length; i++) {
+    num += (a[i] - b[i]) ** 2;
+    den += b[i] ** 2;
+  }
+  return Math.sqrt(num / den);
+}
+
+export function maxAbsDifference(a: ArrayLike<number>, b: ArrayLike<number>): number {
+  let m = 0;
+  for (let i = 0; i < b.length; i++) m = Math.max(m, Math.abs(a[i] - b[i]));
+  return m;
+}
+
+/**
+ * k-space of K point sources (Diracs) at (X_k, Y_k) in the phantom frame [−1, 1]², y up, with
+ * complex amplitudes c_k, on the grid of DEVELOPERS.md: F(kx, ky) = Σ c_k e^(−i2π(kx X_k + ky Y_k)),
+ * kx = (u − ⌊nx/2⌋)/2, ky = −(v − ⌊ny/2⌋)/2. Off-grid positions: a sum of K 2-D exponentials.
+ */
+export function pointSourceKspace(
+  nx: number,
+  ny: number,
+  sources: ReadonlyArray<{ x: number; y: number; re: number; im: number }>,
+): ComplexImage {
+  const k = createComplexImage(nx, ny);
+  for (let v = 0; v < ny; v++) {
+    for (let u = 0; u < nx; u++) {
+      const kx = (u - Math.floor(nx / 2)) / 2;
+      const ky = -(v - Math.floor(ny / 2)) / 2;
+      let re = 0;
+      let im = 0;
+      for (const s of sources) {
+        const phase = -2 * Math.PI * (kx * s.x + ky * s.y);
+        const c = Math.cos(phase);
+        const sn = Math.sin(phase);
+        re += s.re * c - s.im * sn;
+        im += s.re * sn + s.im * c;
+      }
+      k.data[2 * (v * nx + u)] = re;
+      k.data[2 * (v * nx + u) + 1] = im;
+    }
+  }
+  return k;
+}
+
+/** Random mask with each point kept with probability `fraction`. */
+export function randomPointMask(nx: number, ny: number, fraction: number, seed: number): Uint8Array {
+  const rng = new SeededRandom(seed);
+  const mask = new Uint8Array(nx * ny);
+  for (let i = 0; i < mask.length; i++) if (rng.uniform() < fraction) mask[i] = 1;
+  return mask;
+}

@@ -1,0 +1,185 @@
+import { describe, expect, it } from 'vitest';
+import { SeededRandom } from '../../src/core/random.ts';
+import { HermitianEigenSolver } from '../../src/recon/hermitian-eigen.ts';
+
+/** Random unitary n×n (interleaved, row-major) by Gram–Schmidt on random complex columns. */
+function randomUnitary(n: number, seed: number): Float64Array {
+  const rng = new SeededRandom(seed);
+  const q = new Float64Array(2 * n * n);
+  for (let i = 0; i < q.length; i++) q[i] = rng.normal();
+  for (let k = 0; k < n; k++) {
+    for (let j = 0; j < k; j++) {
+      let re = 0;
+      let im = 0;
+      for (let i = 0; i < n; i++) {
+        const ar = q[2 * (i * n + j)];
+        const ai = q[2 * (i * n + j) + 1];
+        const br = q[2 * (i * n + k)];
+        const bi = q[2 * (i * n + k) + 1];
+        re += ar * br + ai * bi;
+        im += ar * bi - ai * br;
+      }
+      for (let i = 0; i < n; i++) {
+        const ar = q[2 * (i * n + j)];
+        const ai = q[2 * (i * n + j) + 1];
+        q[2 * (i * n + k)] -= re * ar - im * ai;
+        q[2 * (i * n + k) + 1] -= re * ai + im * ar;
+      }
+    }
+    let norm = 0;
+    for (let i = 0; i < n; i++) norm += q[2 * (i * n + k)] ** 2 + q[2 * (i * n + k) + 1] ** 2;
+    norm = Math.sqrt(norm);
+    for (let i = 0; i < n; i++) {
+      q[2 * (i * n + k)] /= norm;
+      q[2 * (i * n + k) + 1] /= norm;
+    }
+  }
+  return q;
+}
+
+/** U diag(λ) Uᴴ. */
+function withSpectrum(u: Float64Array, values: number[]): Float64Array {
+  const n = values.length;
+  const a = new Float64Array(2 * n * n);
+  for (let i = 0; i < n; i++) {
+    for (let j = 0; j < n; j++) {
+      let re = 0;
+      let im = 0;
+      for (let k = 0; k < n; k++) {
+        const ar = u[2 * (i * n + k)];
+        const ai = u[2 * (i * n + k) + 1];
+        const br = u[2 * (j * n + k)];
+        const bi = -u[2 * (j * n + k) + 1];
+        re += values[k] * (ar * br - ai * bi);
+        im += values[k] * (ar * bi + ai * br);
+      }
+      a[2 * (i * n + j)] = re;
+      a[2 * (i * n + j) + 1] = im;
+    }
+  }
+  return a;
+}
+
+/** max_k ‖A v_k − λ_k v_k‖ and max |V ᴴV − I|. */
+function residuals(a: Float64Array, solver: HermitianEigenSolver): { eig: number; orth: number } {
+  const n = solver.n;
+  const v = solver.vectors;
+  let eig = 0;
+  let orth = 0;
+  for (let k = 0; k < n; k++) {
+    for (let i = 0; i < n; i++) {
+      let re = 0;
+      let im = 0;
+      for (let j = 0; j < n; j++) {
+        const ar = a[2 * (i * n + j)];
+        const ai = a[2 * (i * n + j) + 1];
+        const vr = v[2 * (j * n + k)];
+        const vi = v[2 * (j * n + k) + 1];
+        re += ar * vr - ai * vi;
+        im += ar * vi + ai * vr;
+      }
+      eig = Math.max(
+        eig,
+        Math.hypot(
+          re - solver.values[k] * v[2 * (i * n + k)],
+          im - solver.values[k] * v[2 * (i * n + k) + 1],
+        ),
+      );
+    }
+    for (let l = 0; l < n; l++) {
+      let re = 0;
+      let im = 0;
+      for (let i = 0; i < n; i++) {
+        const ar = v[2 * (i * n + k)];
+        const ai = -v[2 * (i * n + k) + 1];
+        const br = v[2 * (i * n + l)];
+        const bi = v[2 * (i * n + l) + 1];
+        re += ar * br - ai * bi;
+        im += ar * bi + ai * br;
+      }
+      orth = Math.max(orth, Math.hypot(re - (k === l ? 1 : 0), im));
+    }
+  }
+  return { eig, orth };
+}
+
+describe('Hermitian eigendecomposition by cyclic Jacobi', () => {
+  it('recovers a prescribed spectrum of U diag(λ) Uᴴ with a random unitary U (construction, common practice)', () => {
+    const values = [9, 4.5, 3, 3, 1e-3, 0, -0.5, -2, 7, 2.25, 1, 0.1];
+    const n = values.length;
+    const a = withSpectrum(randomUnitary(n, 2), values);
+    const solver = new HermitianEigenSolver(n);
+    solver.solve(a);
+    const sorted = [...values].sort((x, y) => y - x);
+    for (let k = 0; k < n; k++) expect(Math.abs(solver.values[k] - sorted[k])).toBeLessThan(1e-13 * 9);
+    const { eig, orth } = residuals(a, solver);
+    expect(eig).toBeLessThan(1e-13 * 9);
+    expect(orth).toBeLessThan(1e-13);
+  });
+
+  it('tridiagonal Toeplitz with complex off-diagonals: λ_k = α + 2|β| cos(kπ/(n+1)) (handbook closed form, from memory)', () => {
+    // Diagonal unitary similarity removes the off-diagonal phases, leaving the real Toeplitz case.
+    const n = 20;
+    const alpha = 1.5;
+    const beta = 0.8;
+    const rng = new SeededRandom(4);
+    const a = new Float64Array(2 * n * n);
+    for (let i = 0; i < n; i++) {
+      a[2 * (i * n + i)] = alpha;
+      if (i + 1 < n) {
+        const phase = 2 * Math.PI * rng.uniform();
+        a[2 * (i * n + i + 1)] = beta * Math.cos(phase);
+        a[2 * (i * n + i + 1) + 1] = beta * Math.sin(phase);
+        a[2 * ((i + 1) * n + i)] = beta * Math.cos(phase);
+        a[2 * ((i + 1) * n + i) + 1] = -beta * Math.sin(phase);
+      }
+    }
+    const solver = new HermitianEigenSolver(n);
+    solver.solve(a);
+    for (let k = 1; k <= n; k++) {
+      expect(
+        Math.abs(solver.values[k - 1] - (alpha + 2 * beta * Math.cos((k * Math.PI) / (n + 1)))),
+      ).toBeLessThan(1e-13);
+    }
+    expect(residuals(a, solver).eig).toBeLessThan(1e-13);
+  });
+
+  it('a rank-2 Gram matrix of size 49 has exactly two non-zero eigenvalues, equal to the column energies of orthogonal vectors', () => {
+    const n = 49;
+    const x = new Float64Array(2 * n);
+    const y = new Float64Array(2 * n);
+    for (let i = 0; i < n; i++) {
+      x[2 * i] = Math.cos(0.3 * i);
+      x[2 * i + 1] = Math.sin(0.3 * i);
+      y[2 * i] = 0.5 * Math.cos(1.1 * i);
+      y[2 * i + 1] = 0.5 * Math.sin(1.1 * i);
+    }
+    // A = x xᴴ + y yᴴ; the two exponentials are not orthogonal, so the eigenvalues come from the 2×2 Gram.
+    const a = new Float64Array(2 * n * n);
+    for (let i = 0; i < n; i++) {
+      for (let j = 0; j < n; j++) {
+        for (const z of [x, y]) {
+          a[2 * (i * n + j)] += z[2 * i] * z[2 * j] + z[2 * i + 1] * z[2 * j + 1];
+          a[2 * (i * n + j) + 1] += z[2 * i + 1] * z[2 * j] - z[2 * i] * z[2 * j + 1];
+        }
+      }
+    }
+    let xx = 0;
+    let yy = 0;
+    let xyRe = 0;
+    let xyIm = 0;
+    for (let i = 0; i < n; i++) {
+      xx += x[2 * i] ** 2 + x[2 * i + 1] ** 2;
+      yy += y[2 * i] ** 2 + y[2 * i + 1] ** 2;
+      xyRe += x[2 * i] * y[2 * i] + x[2 * i + 1] * y[2 * i + 1];
+      xyIm += x[2 * i] * y[2 * i + 1] - x[2 * i + 1] * y[2 * i];
+    }
+    const mean = (xx + yy) / 2;
+    const radius = Math.sqrt(((xx - yy) / 2) ** 2 + xyRe ** 2 + xyIm ** 2);
+    const solver = new HermitianEigenSolver(n);
+    solver.solve(a);
+    expect(solver.values[0]).toBeCloseTo(mean + radius, 11);
+    expect(solver.values[1]).toBeCloseTo(mean - radius, 11);
+    for (let k = 2; k < n; k++) expect(Math.abs(solver.values[k])).toBeLessThan(1e-12);
+  });
+});
