@@ -1,5 +1,5 @@
 import { discTransform } from './disc-transform.ts';
-import { addShifted, degreesCosSin, type Placement, type Shape } from './shape.ts';
+import { addShifted, axisPhasors, degreesCosSin, type Placement, type Shape } from './shape.ts';
 import { checkFinite } from './validate.ts';
 
 /** Ellipse with semi-axes a (along x before rotation) and b, rotated by θ about its centre. */
@@ -90,6 +90,36 @@ export class Ellipse implements Shape {
       const u = a * (fx * cos + fy * sin);
       const v = b * (-fx * sin + fy * cos);
       addShifted(out, i, scale * discTransform(Math.sqrt(u * u + v * v)), fx * x0 + fy * y0);
+    }
+  }
+
+  addGridTransform(kx: Float64Array, ky: Float64Array, out: Float64Array): void {
+    const { a, b, cos, sin } = this;
+    const scale = this.intensity * a * b;
+    const nx = kx.length;
+    const ny = ky.length;
+    const shifted = this.x0 !== 0 || this.y0 !== 0;
+    const colPhase = axisPhasors(kx, this.x0);
+    const rowPhase = axisPhasors(ky, this.y0);
+    for (let v = 0; v < ny; v++) {
+      const fy = ky[v];
+      const rr = rowPhase[2 * v];
+      const ri = rowPhase[2 * v + 1];
+      const base = 2 * v * nx;
+      for (let u = 0; u < nx; u++) {
+        const fx = kx[u];
+        const p = a * (fx * cos + fy * sin);
+        const q = b * (-fx * sin + fy * cos);
+        const mag = scale * discTransform(Math.sqrt(p * p + q * q));
+        if (!shifted) {
+          out[base + 2 * u] += mag;
+          continue;
+        }
+        const cr = colPhase[2 * u];
+        const ci = colPhase[2 * u + 1];
+        out[base + 2 * u] += mag * (cr * rr - ci * ri);
+        out[base + 2 * u + 1] += mag * (cr * ri + ci * rr);
+      }
     }
   }
 }

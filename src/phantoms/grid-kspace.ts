@@ -1,9 +1,9 @@
 import { type ComplexImage, createComplexImage } from '../core/complex-image.ts';
 import { gridKx, gridKy, gridScale } from './grid.ts';
-import type { Phantom } from './phantom.ts';
+import { type Phantom, ShapePhantom } from './phantom.ts';
 import { checkMatrix } from './validate.ts';
 
-/** Points per kspaceAt call: whole rows, enough to amortise the call, small enough to stay in cache. */
+/** Points per kspaceAt call for phantoms without a grid fast path: whole rows, cache-sized. */
 const CHUNK_POINTS = 16384;
 
 /**
@@ -15,17 +15,21 @@ export function phantomGridKspace(phantom: Phantom, nx: number, ny: number): Com
   checkMatrix(nx, ny);
   const image = createComplexImage(nx, ny);
   const scale = gridScale(nx, ny);
+  const kxAxis = Float64Array.from({ length: nx }, (_, u) => gridKx(u, nx));
+  const kyAxis = Float64Array.from({ length: ny }, (_, v) => gridKy(v, ny));
+  if (phantom instanceof ShapePhantom) {
+    const values = phantom.kspaceOnAxes(kxAxis, kyAxis);
+    for (let i = 0; i < values.length; i++) image.data[i] = values[i] * scale;
+    return image;
+  }
   const rowsPerChunk = Math.max(1, Math.floor(CHUNK_POINTS / nx));
   const kx = new Float64Array(rowsPerChunk * nx);
   const ky = new Float64Array(rowsPerChunk * nx);
   for (let v0 = 0; v0 < ny; v0 += rowsPerChunk) {
     const rows = Math.min(rowsPerChunk, ny - v0);
     for (let r = 0; r < rows; r++) {
-      const fy = gridKy(v0 + r, ny);
-      for (let u = 0; u < nx; u++) {
-        kx[r * nx + u] = gridKx(u, nx);
-        ky[r * nx + u] = fy;
-      }
+      kx.set(kxAxis, r * nx);
+      ky.fill(kyAxis[v0 + r], r * nx, (r + 1) * nx);
     }
     const count = rows * nx;
     const values = phantom.kspaceAt(kx.subarray(0, count), ky.subarray(0, count));

@@ -45,6 +45,19 @@ export class ShapePhantom implements Phantom {
     for (const shape of this.shapes) shape.addTransform(kx, ky, out);
     return out;
   }
+
+  /**
+   * The exact transform on the Cartesian product of two frequency axes (cycles per unit): element
+   * (v, u) of the ny×nx interleaved result is K(kx[u], ky[v]). Same values as kspaceAt at those
+   * points, computed with the separable parts factored out.
+   */
+  kspaceOnAxes(kx: Float64Array, ky: Float64Array): Float64Array {
+    checkFiniteAll(kx, 'kx');
+    checkFiniteAll(ky, 'ky');
+    const out = new Float64Array(2 * kx.length * ky.length);
+    for (const shape of this.shapes) shape.addGridTransform(kx, ky, out);
+    return out;
+  }
 }
 
 function checkPoints(kx: ArrayLike<number>, ky: ArrayLike<number>): void {
@@ -60,6 +73,18 @@ function checkPoints(kx: ArrayLike<number>, ky: ArrayLike<number>): void {
       throw new ValidationError({
         field: `points.${i}`,
         message: `frequencies must be finite numbers, got [${kx[i]}, ${ky[i]}]`,
+        allowed: 'finite numbers (cycles per unit)',
+      });
+    }
+  }
+}
+
+function checkFiniteAll(values: ArrayLike<number>, field: string): void {
+  for (let i = 0; i < values.length; i++) {
+    if (!Number.isFinite(values[i])) {
+      throw new ValidationError({
+        field: `${field}.${i}`,
+        message: `must be a finite number, got ${values[i]}`,
         allowed: 'finite numbers (cycles per unit)',
       });
     }

@@ -1,4 +1,4 @@
-import { addShifted, degreesCosSin, type Placement, type Shape } from './shape.ts';
+import { addShifted, axisPhasors, degreesCosSin, type Placement, type Shape } from './shape.ts';
 import { checkFinite } from './validate.ts';
 
 /** Rectangle of full widths wx (along x before rotation) and wy, rotated by θ about its centre. */
@@ -83,6 +83,43 @@ export class Rectangle implements Shape {
       const fy = ky[i];
       const mag = scale * sinc(wx * (fx * cos + fy * sin)) * sinc(wy * (-fx * sin + fy * cos));
       addShifted(out, i, mag, fx * x0 + fy * y0);
+    }
+  }
+
+  addGridTransform(kx: Float64Array, ky: Float64Array, out: Float64Array): void {
+    const { wx, wy, cos, sin } = this;
+    const nx = kx.length;
+    if (cos !== 0 && sin !== 0) {
+      // A tilted rectangle does not factor into a column and a row term: evaluate row by row.
+      const rowKy = new Float64Array(nx);
+      for (let v = 0; v < ky.length; v++) {
+        rowKy.fill(ky[v]);
+        this.addTransform(kx, rowKy, out.subarray(2 * v * nx, 2 * (v + 1) * nx));
+      }
+      return;
+    }
+    // Axis-aligned (θ a multiple of 90°, one of cos, sin zero): R = ρ·[wx·wy·X(kx)]·Y(ky) with
+    // X(kx) = sinc(wx·cos·kx)·sinc(wy·sin·kx)·e^(−i2πkx·x0), Y(ky) = sinc(wx·sin·ky)·sinc(wy·cos·ky)·e^(−i2πky·y0).
+    const col = axisPhasors(kx, this.x0);
+    const row = axisPhasors(ky, this.y0);
+    const scale = this.intensity * wx * wy;
+    for (let u = 0; u < nx; u++) {
+      const f = scale * sinc(wx * cos * kx[u]) * sinc(wy * sin * kx[u]);
+      col[2 * u] *= f;
+      col[2 * u + 1] *= f;
+    }
+    for (let v = 0; v < ky.length; v++) {
+      const f = sinc(wx * sin * ky[v]) * sinc(wy * cos * ky[v]);
+      const rr = row[2 * v] * f;
+      const ri = row[2 * v + 1] * f;
+      if (rr === 0 && ri === 0) continue;
+      const base = 2 * v * nx;
+      for (let u = 0; u < nx; u++) {
+        const cr = col[2 * u];
+        const ci = col[2 * u + 1];
+        out[base + 2 * u] += cr * rr - ci * ri;
+        out[base + 2 * u + 1] += cr * ri + ci * rr;
+      }
     }
   }
 }

@@ -9,7 +9,7 @@ import type { Shape } from './shape.ts';
  * - upper row (centre y = 0.42): line-pair groups whose bars run along y, so they resolve along x
  *   (readout); middle row (centre y = 0.08): the same groups turned 90°, resolving along y
  *   (phase encode). Each group has 4 bars of width w separated by gaps of w (one line pair = 2w),
- *   bars 0.18 long and 0.5 brighter than the background; w falls from 0.05 to 0.0125 left to right.
+ *   bars 0.18 long and 0.5 brighter than the background; w falls from 0.05 to 0.01 left to right.
  *   A bar pattern can be resolved on an n-point grid only when w ≥ 2/n (REFERENCES.md §1.5), so at
  *   n = 128 the two finest groups are below the pixel size and at n = 256 all are above it;
  * - lower three rows: discs of radius 0.08, 0.05, 0.03, 0.015 (left to right) whose intensity
@@ -18,7 +18,7 @@ import type { Shape } from './shape.ts';
 export const RESOLUTION_CONTRAST_LAYOUT = Object.freeze({
   background: { radius: 0.9, intensity: 0.5 },
   bars: {
-    widths: [0.05, 0.035, 0.025, 0.0175, 0.0125],
+    widths: [0.05, 0.035, 0.025, 0.015, 0.01],
     perGroup: 4,
     length: 0.18,
     intensity: 0.5,
@@ -86,7 +86,7 @@ export function resolutionContrast(): ShapePhantom {
   return new ShapePhantom(
     'resolution-contrast',
     'Resolution and contrast test object: a disc with line-pair bar groups along x and along y ' +
-      '(bar widths 0.05 to 0.0125 units) and low-contrast discs (10 %, 5 %, 2.5 %) of decreasing size.',
+      '(bar widths 0.05 to 0.01 units) and low-contrast discs (10 %, 5 %, 2.5 %) of decreasing size.',
     [
       new Ellipse({
         x0: 0,

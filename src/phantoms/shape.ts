@@ -21,6 +21,12 @@ export interface Shape {
    * shape at the points (kx[i], ky[i]), cycles per unit, to out[2i] (re) and out[2i + 1] (im).
    */
   addTransform(kx: ArrayLike<number>, ky: ArrayLike<number>, out: Float64Array): void;
+  /**
+   * The same transform on the Cartesian product of two frequency axes: adds T(kx[u], ky[v]) to
+   * out[2(v·nx + u)], out[2(v·nx + u) + 1] with nx = kx.length. Lets a shape factor out what is
+   * separable (the shift phase, an axis-aligned rectangle's sincs) instead of working per point.
+   */
+  addGridTransform(kx: Float64Array, ky: Float64Array, out: Float64Array): void;
 }
 
 /** Parameters shared by the primitives: centre, counter-clockwise rotation from +x in degrees, intensity. */
@@ -46,6 +52,18 @@ export function degreesCosSin(deg: number): [number, number] {
   }
   const rad = (deg * Math.PI) / 180;
   return [Math.cos(rad), Math.sin(rad)];
+}
+
+/** e^(−i2π·k·x0) for each k of an axis, interleaved re/im: the shift phase, factored per axis on a grid. */
+export function axisPhasors(k: Float64Array, x0: number): Float64Array {
+  const out = new Float64Array(2 * k.length);
+  for (let i = 0; i < k.length; i++) {
+    const turns = k[i] * x0;
+    const phase = -2 * Math.PI * (turns - Math.round(turns));
+    out[2 * i] = Math.cos(phase);
+    out[2 * i + 1] = Math.sin(phase);
+  }
+  return out;
 }
 
 /**
