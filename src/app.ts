@@ -1,12 +1,137 @@
-import Fastify, { type FastifyInstance, type FastifyServerOptions } from 'fastify';
+import { randomUUID } from 'node:crypto';
+import { existsSync } from 'node:fs';
+import type { Writable } from 'node:stream';
+import fastifyMultipart from '@fastify/multipart';
+import fastifySwagger from '@fastify/swagger';
+import fastifySwaggerUi from '@fastify/swagger-ui';
+import Fastify, { type FastifyInstance, type FastifyPluginAsync, type RouteOptions } from 'fastify';
+import { serializerCompiler, validatorCompiler } from 'fastify-type-provider-zod';
+import { healthRoutes } from '../routes/health.ts';
+import { imageRoutes } from '../routes/images.ts';
+import { openapiRoutes } from '../routes/openapi.ts';
+import { scanTimeRoutes } from '../routes/scan-time.ts';
+import { defaultLimits, type Limits } from './core/limits.ts';
+import { installApiKeyAuth } from './http/auth.ts';
+import { installErrorHandling } from './http/error-handler.ts';
+import { swaggerOptions } from './http/openapi.ts';
+import { type PlanEngine, PlanQueue } from './jobs/plan-queue.ts';
+import { Store } from './jobs/store.ts';
+import { WorkerPool } from './jobs/worker-pool.ts';
 
 export interface AppOptions {
-  logger?: FastifyServerOptions['logger'];
+  /** Where the SQLite file lives; default ./data. */
+  dataDir?: string;
+  /** Overrides of the safety limits (src/core/limits.ts). */
+  limits?: Partial<Limits>;
+  /** pino request logs: false (default) for none, a level, or true for 'info'. */
+  logger?: boolean | { level?: string };
+  /** Where log lines go (default stdout); tests pass a stream to capture them. */
+  logStream?: Writable;
+  /** When non-empty, every /v1 request needs one of these keys. */
+  apiKeys?: string[];
+  /** Worker threads (default: the cores). */
+  workers?: number;
+  /** Plans queued or running before POST /v1/plans answers 429 (default 16). */
+  maxQueuedPlans?: number;
+  /** Largest JSON body in bytes (default 8 MB). */
+  maxJsonBytes?: number;
+  /** Plan engine override (tests); default src/plan. */
+  planEngine?: PlanEngine;
 }
 
-/** Builds the fastify instance; used by main.ts and by the API tests. */
+export interface Services {
+  store: Store;
+  pool: WorkerPool;
+  plans: PlanQueue;
+  limits: Limits;
+  /** Every route registered, for the spec-vs-routes test. */
+  routes: Array<{ method: string; url: string; hidden: boolean }>;
+}
+
+declare module 'fastify' {
+  interface FastifyInstance {
+    services: Services;
+  }
+}
+
+/**
+ * The resource plugins, one per file under routes/. To add a resource, append it here.
+ * routes/web.ts (the planner page, owned by the web module) is registered when present.
+ */
+const resourcePlugins: FastifyPluginAsync[] = [healthRoutes, openapiRoutes, imageRoutes, scanTimeRoutes];
+const optionalPlugins = [new URL('../routes/web.ts', import.meta.url)];
+
+async function defaultPlanEngine(): Promise<PlanEngine> {
+  const plan = await import('./plan/index.ts').catch(() => null);
+  if (!plan)
+    return {
+      cells: () => {
+        throw new Error('planning engine missing');
+      },
+      buildTable: () => null,
+    };
+  return {
+    cells: (body, limits) => plan.planCells(body as never, limits),
+    buildTable: (body, results) => plan.buildTable(body as never, results as never),
+  };
+}
+
+/** Builds the fastify instance; used by main.ts and by the API tests (isolated on temp dirs). */
 export async function buildApp(options: AppOptions = {}): Promise<FastifyInstance> {
-  const app = Fastify({ logger: options.logger ?? false });
-  app.get('/health', async () => ({ status: 'ok' }));
+  const limits: Limits = { ...defaultLimits, ...options.limits };
+  const logger =
+    options.logger === undefined || options.logger === false
+      ? false
+      : {
+          level: options.logger === true ? 'info' : (options.logger.level ?? 'info'),
+          ...(options.logStream ? { stream: options.logStream } : {}),
+          redact: ['req.headers.authorization', 'req.headers["x-api-key"]'],
+        };
+  const app = Fastify({
+    logger,
+    genReqId: () => randomUUID(),
+    requestIdHeader: 'x-request-id',
+    bodyLimit: options.maxJsonBytes ?? 8 * 1024 * 1024,
+    routerOptions: { ignoreTrailingSlash: true },
+  });
+  app.setValidatorCompiler(validatorCompiler);
+  app.setSerializerCompiler(serializerCompiler);
+  installErrorHandling(app);
+  installApiKeyAuth(app, options.apiKeys ?? []);
+  app.addHook('onSend', async (request, reply) => {
+    reply.header('x-request-id', request.id);
+  });
+
+  const routes: Services['routes'] = [];
+  app.addHook('onRoute', (route: RouteOptions) => {
+    const methods = Array.isArray(route.method) ? route.method : [route.method];
+    const hidden = Boolean((route.schema as { hide?: boolean } | undefined)?.hide);
+    for (const method of methods) routes.push({ method, url: route.url, hidden });
+  });
+
+  const store = new Store(options.dataDir ?? './data');
+  const pool = new WorkerPool(options.workers ?? (await import('node:os')).availableParallelism());
+  const engine = options.planEngine ?? (await defaultPlanEngine());
+  const plans = new PlanQueue(store, pool, engine, limits, options.maxQueuedPlans ?? 16, app.log as never);
+  app.decorate('services', { store, pool, plans, limits, routes });
+  app.addHook('onClose', async () => {
+    await plans.close();
+    await pool.destroy();
+    store.close();
+  });
+
+  await app.register(fastifySwagger, swaggerOptions);
+  await app.register(fastifySwaggerUi, { routePrefix: '/docs', staticCSP: true });
+  await app.register(fastifyMultipart, {
+    limits: { fileSize: limits.maxUploadBytes, files: 1, fields: 8, parts: 9, fieldSize: 1024 },
+  });
+  for (const plugin of resourcePlugins) await app.register(plugin);
+  for (const url of optionalPlugins) {
+    if (!existsSync(url)) continue;
+    const module = (await import(url.href)) as { default: FastifyPluginAsync };
+    await app.register(module.default);
+  }
+  await app.ready();
+  plans.resume();
   return app;
 }

@@ -1,7 +1,40 @@
 import { buildApp } from './app.ts';
+import { ConfigError, loadConfig } from './http/config.ts';
 
-const port = Number(process.env.PORT ?? 8080);
-const host = process.env.HOST ?? '127.0.0.1';
+let config: ReturnType<typeof loadConfig>;
+try {
+  config = loadConfig(process.env);
+} catch (error) {
+  if (error instanceof ConfigError) {
+    process.stderr.write(`configuration error: ${error.message}\n`);
+    process.exit(2);
+  }
+  throw error;
+}
 
-const app = await buildApp({ logger: { level: process.env.LOG_LEVEL ?? 'info' } });
-await app.listen({ port, host });
+const app = await buildApp({
+  dataDir: config.dataDir,
+  limits: config.limits,
+  logger: { level: config.logLevel },
+  apiKeys: config.apiKeys,
+  workers: config.workers,
+  maxQueuedPlans: config.maxQueuedPlans,
+  maxJsonBytes: config.maxJsonBytes,
+});
+
+// Finish the request in flight and leave queued/running plans in the store to resume on restart.
+for (const signal of ['SIGINT', 'SIGTERM'] as const) {
+  process.once(signal, () => {
+    app.log.info({ signal }, 'shutting down');
+    app.close().then(
+      () => process.exit(0),
+      () => process.exit(1),
+    );
+  });
+}
+
+await app.listen({ port: config.port, host: config.host });
+app.log.info(
+  { dataDir: config.dataDir, workers: config.workers, apiKeys: config.apiKeys.length > 0 },
+  'k-space planner ready',
+);

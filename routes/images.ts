@@ -1,0 +1,184 @@
+import { randomUUID } from 'node:crypto';
+import type { FastifyInstance } from 'fastify';
+import type { ZodTypeProvider } from 'fastify-type-provider-zod';
+import { z } from 'zod';
+import { HttpProblem, problemResponses } from '../src/http/problem.ts';
+import { idParams } from '../src/http/schemas.ts';
+import { decodeImage } from '../src/io/decode-image.ts';
+import type { StoredImage } from '../src/jobs/store.ts';
+
+const metaValue = z.union([z.string(), z.number(), z.boolean(), z.array(z.number()), z.null()]);
+
+export const imageInfoSchema = z
+  .object({
+    id: z.string(),
+    nx: z.int().describe('columns'),
+    ny: z.int().describe('rows'),
+    format: z.enum(['png', 'jpeg', 'tiff', 'dicom', 'nifti']),
+    details: z
+      .record(z.string(), metaValue)
+      .describe(
+        'Format facts: bit depth, scaling, frame/slice chosen. Never patient, study or institution data.',
+      ),
+    notes: z.array(z.string()).describe('Every transformation applied while decoding'),
+    stats: z.object({ min: z.number(), max: z.number(), mean: z.number() }),
+    createdAt: z.string(),
+    url: z.string(),
+  })
+  .meta({
+    id: 'ImageInfo',
+    description: 'An uploaded image (decoded pixels only; the original file is not kept)',
+  });
+
+const uploadQuery = z.object({
+  frame: z.coerce
+    .number()
+    .int()
+    .min(0)
+    .optional()
+    .describe('DICOM multi-frame frame or TIFF page (0-based, default 0)'),
+  slice: z.coerce
+    .number()
+    .int()
+    .min(0)
+    .optional()
+    .describe('NIfTI slice along the 3rd axis (0-based, default the middle)'),
+  volume: z.coerce
+    .number()
+    .int()
+    .min(0)
+    .optional()
+    .describe('NIfTI volume along the 4th axis (0-based, default 0)'),
+});
+
+function infoBody(stored: StoredImage) {
+  const { details, notes, stats, format } = stored.meta as {
+    details: Record<string, z.infer<typeof metaValue>>;
+    notes: string[];
+    stats: { min: number; max: number; mean: number };
+    format: z.infer<typeof imageInfoSchema>['format'];
+  };
+  return {
+    id: stored.id,
+    nx: stored.nx,
+    ny: stored.ny,
+    format,
+    details,
+    notes,
+    stats,
+    createdAt: stored.createdAt,
+    url: `/v1/images/${stored.id}`,
+  };
+}
+
+function statistics(data: Float64Array): { min: number; max: number; mean: number } {
+  let min = Number.POSITIVE_INFINITY;
+  let max = Number.NEGATIVE_INFINITY;
+  let sum = 0;
+  for (const v of data) {
+    if (v < min) min = v;
+    if (v > max) max = v;
+    sum += v;
+  }
+  return { min, max, mean: sum / data.length };
+}
+
+/**
+ * POST /v1/images (multipart, one part named `file`), GET and DELETE /v1/images/{id}.
+ * Only decoded pixels and whitelisted format facts are stored; the uploaded bytes, the file name
+ * and every header string are dropped, so no patient identifier is ever stored, logged or returned.
+ */
+export async function imageRoutes(app: FastifyInstance): Promise<void> {
+  const r = app.withTypeProvider<ZodTypeProvider>();
+  const { store, limits } = app.services;
+
+  r.post(
+    '/v1/images',
+    {
+      config: {
+        openapi: {
+          multipartBody: {
+            type: 'object',
+            required: ['file'],
+            properties: {
+              file: {
+                type: 'string',
+                format: 'binary',
+                description:
+                  'PNG, JPEG, TIFF (8/16-bit; colour → luminance), DICOM Part 10, NIfTI-1/-2 (.nii, .nii.gz)',
+              },
+            },
+          },
+        },
+      },
+      schema: {
+        summary: 'Upload an image to use as a source',
+        tags: ['images'],
+        querystring: uploadQuery,
+        response: {
+          201: imageInfoSchema,
+          ...problemResponses(400, 401, 413, 415, 422),
+        },
+      },
+    },
+    async (request, reply) => {
+      const part = await request.file();
+      if (part?.fieldname !== 'file') {
+        throw new HttpProblem(400, 'send the image as a multipart part named "file"', [
+          { field: 'file', message: 'missing' },
+        ]);
+      }
+      const bytes = await part.toBuffer();
+      const decoded = await decodeImage(bytes, {
+        ...request.query,
+        maxSide: limits.maxMatrixSide,
+        maxBytes: 4 * limits.maxUploadBytes,
+      });
+      const id = randomUUID();
+      const stored = store.putImage(id, decoded.image, {
+        format: decoded.format,
+        details: decoded.meta,
+        notes: decoded.notes,
+        stats: statistics(decoded.image.data),
+      });
+      return reply.code(201).header('location', `/v1/images/${id}`).send(infoBody(stored));
+    },
+  );
+
+  r.get(
+    '/v1/images/:id',
+    {
+      schema: {
+        summary: 'Metadata of an uploaded image',
+        tags: ['images'],
+        params: idParams,
+        response: { 200: imageInfoSchema, ...problemResponses(401, 404) },
+      },
+    },
+    async (request) => {
+      const stored = store.getImageInfo(request.params.id);
+      if (!stored) throw notFound(request.params.id);
+      return infoBody(stored);
+    },
+  );
+
+  r.delete(
+    '/v1/images/:id',
+    {
+      schema: {
+        summary: 'Delete an uploaded image',
+        tags: ['images'],
+        params: idParams,
+        response: { 204: z.null().describe('Deleted'), ...problemResponses(401, 404) },
+      },
+    },
+    async (request, reply) => {
+      if (!store.deleteImage(request.params.id)) throw notFound(request.params.id);
+      return reply.code(204).send(null);
+    },
+  );
+}
+
+function notFound(id: string): HttpProblem {
+  return new HttpProblem(404, `no uploaded image ${id}`, [{ field: 'id', message: 'unknown image id' }]);
+}

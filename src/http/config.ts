@@ -1,0 +1,72 @@
+import { availableParallelism } from 'node:os';
+import { resolve } from 'node:path';
+import { defaultLimits, type Limits } from '../core/limits.ts';
+
+/** Everything the service reads from its environment, with safe defaults. */
+export interface ServiceConfig {
+  port: number;
+  host: string;
+  dataDir: string;
+  /** Empty: no key needed (only allowed on a loopback host). */
+  apiKeys: string[];
+  limits: Limits;
+  /** Worker threads for plan cells and long single computations. */
+  workers: number;
+  /** Plans queued or running at once before POST /v1/plans answers 429. */
+  maxQueuedPlans: number;
+  /** Largest JSON request body in bytes (a custom mask PNG travels base64 inside JSON). */
+  maxJsonBytes: number;
+  logLevel: string;
+}
+
+export class ConfigError extends Error {
+  override readonly name = 'ConfigError';
+}
+
+const loopbackHosts = new Set(['127.0.0.1', '::1', 'localhost', '::ffff:127.0.0.1']);
+
+/** True for addresses that only this machine can reach (127.0.0.0/8, ::1, localhost). */
+export function isLoopbackHost(host: string): boolean {
+  return loopbackHosts.has(host) || /^127\.\d+\.\d+\.\d+$/.test(host);
+}
+
+function integer(env: NodeJS.ProcessEnv, name: string, fallback: number, min: number, max: number): number {
+  const raw = env[name];
+  if (raw === undefined || raw.trim() === '') return fallback;
+  const value = Number(raw);
+  if (!Number.isInteger(value) || value < min || value > max) {
+    throw new ConfigError(`${name} must be an integer in [${min}, ${max}], got "${raw}"`);
+  }
+  return value;
+}
+
+/** Reads the configuration from environment variables (documented in README.md). */
+export function loadConfig(env: NodeJS.ProcessEnv = process.env): ServiceConfig {
+  const host = env.HOST?.trim() || '127.0.0.1';
+  const apiKeys = (env.API_KEYS ?? '')
+    .split(',')
+    .map((key) => key.trim())
+    .filter((key) => key.length > 0);
+  if (!isLoopbackHost(host) && apiKeys.length === 0) {
+    throw new ConfigError(
+      `HOST=${host} is reachable from other machines: set API_KEYS (comma-separated) so every /v1 request needs a key`,
+    );
+  }
+  const cores = availableParallelism();
+  return {
+    port: integer(env, 'PORT', 8080, 0, 65535),
+    host,
+    dataDir: resolve(env.DATA_DIR?.trim() || './data'),
+    apiKeys,
+    limits: {
+      maxMatrixSide: integer(env, 'MAX_MATRIX_SIDE', defaultLimits.maxMatrixSide, 8, 8192),
+      maxIterations: integer(env, 'MAX_ITERATIONS', defaultLimits.maxIterations, 1, 100_000),
+      maxPlanCells: integer(env, 'MAX_PLAN_CELLS', defaultLimits.maxPlanCells, 1, 1_000_000),
+      maxUploadBytes: integer(env, 'MAX_UPLOAD_BYTES', defaultLimits.maxUploadBytes, 1024, 2 ** 31),
+    },
+    workers: integer(env, 'WORKERS', cores, 1, 256),
+    maxQueuedPlans: integer(env, 'MAX_QUEUED_PLANS', 16, 1, 10_000),
+    maxJsonBytes: integer(env, 'MAX_JSON_BYTES', 8 * 1024 * 1024, 1024, 2 ** 30),
+    logLevel: env.LOG_LEVEL?.trim() || 'info',
+  };
+}

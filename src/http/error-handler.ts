@@ -1,0 +1,174 @@
+import type { FastifyError, FastifyInstance } from 'fastify';
+import { hasZodFastifySchemaValidationErrors } from 'fastify-type-provider-zod';
+import { CancelledError, type FieldProblem, LimitError, ValidationError } from '../core/errors.ts';
+import { DecodeError } from '../io/decode-error.ts';
+import { QueueFullError } from '../jobs/plan-queue.ts';
+import {
+  HttpProblem,
+  limitProblemKind,
+  makeProblem,
+  type ProblemStatus,
+  problemKinds,
+  sendProblem,
+} from './problem.ts';
+
+/** zod issue codes that mean "wrong shape or type" (400); every other code is a bad value (422). */
+const shapeIssueCodes = new Set([
+  'invalid_type',
+  'unrecognized_keys',
+  'invalid_key',
+  'invalid_element',
+  'invalid_union',
+]);
+
+interface ValidationIssue {
+  keyword: string;
+  instancePath: string;
+  message: string;
+  params: Record<string, unknown>;
+}
+
+/** JSON-pointer path → the request's notation: keys dotted, array indices in brackets (`patterns[0].acs`). */
+function dottedPath(instancePath: string, context: string | undefined): string {
+  const path = instancePath.split('/').filter((part) => part.length > 0);
+  if (path.length === 0) return context ?? 'body';
+  let out = '';
+  for (const part of path) out += /^\d+$/.test(part) ? `[${part}]` : out === '' ? part : `.${part}`;
+  return out;
+}
+
+function describeAllowed(issue: ValidationIssue): string | undefined {
+  const p = issue.params;
+  if (issue.keyword === 'too_big' && p.maximum !== undefined)
+    return `${p.inclusive === false ? '<' : '≤'} ${p.maximum}`;
+  if (issue.keyword === 'too_small' && p.minimum !== undefined)
+    return `${p.inclusive === false ? '>' : '≥'} ${p.minimum}`;
+  if (issue.keyword === 'invalid_value' && Array.isArray(p.values))
+    return `one of ${p.values.map((v) => JSON.stringify(v)).join(', ')}`;
+  if (issue.keyword === 'invalid_type' && typeof p.expected === 'string') return String(p.expected);
+  const custom = p.params as { allowed?: unknown } | undefined;
+  if (issue.keyword === 'custom' && typeof custom?.allowed === 'string') return custom.allowed;
+  if (issue.keyword === 'not_multiple_of' && p.divisor !== undefined) return `a multiple of ${p.divisor}`;
+  return undefined;
+}
+
+/** Maps the type provider's zod issues to field problems and picks 400 (shape) or 422 (values). */
+export function classifyValidation(
+  issues: ValidationIssue[],
+  context: string | undefined,
+): { status: 400 | 422; errors: FieldProblem[] } {
+  let shape = false;
+  const errors: FieldProblem[] = [];
+  for (const issue of issues) {
+    let field = dottedPath(issue.instancePath, context);
+    let isShape = shapeIssueCodes.has(issue.keyword);
+    // A discriminated union that meets an unknown tag is a bad value, not a bad shape.
+    if (issue.keyword === 'invalid_union' && typeof issue.params.discriminator === 'string') {
+      const tag = issue.params.discriminator;
+      if (field === (context ?? 'body')) field = tag;
+      else if (!field.endsWith(`.${tag}`) && field !== tag) field = `${field}.${tag}`;
+      isShape = false;
+    }
+    shape ||= isShape;
+    const allowed = describeAllowed(issue);
+    errors.push(
+      allowed === undefined ? { field, message: issue.message } : { field, message: issue.message, allowed },
+    );
+  }
+  return { status: shape ? 400 : 422, errors };
+}
+
+const fastifyStatusByCode: Record<string, ProblemStatus> = {
+  FST_INVALID_MULTIPART_CONTENT_TYPE: 415,
+  FST_ERR_CTP_INVALID_MEDIA_TYPE: 415,
+  FST_ERR_CTP_INVALID_CONTENT_LENGTH: 400,
+  FST_ERR_CTP_BODY_TOO_LARGE: 413,
+  FST_REQ_FILE_TOO_LARGE: 413,
+  FST_FILES_LIMIT: 413,
+  FST_PARTS_LIMIT: 413,
+  FST_FIELDS_LIMIT: 413,
+  FST_PROTO_VIOLATION: 400,
+  FST_ERR_CTP_EMPTY_JSON_BODY: 400,
+  FST_ERR_CTP_INVALID_JSON_BODY: 400,
+};
+
+/** Installs the RFC 9457 error and not-found handlers: a bad request never becomes a 500. */
+export function installErrorHandling(app: FastifyInstance): void {
+  app.setErrorHandler((error: FastifyError | Error, request, reply) => {
+    if (error instanceof HttpProblem) {
+      return sendProblem(
+        reply,
+        makeProblem(error.status, error.message, error.errors, error.kind),
+        error.headers,
+      );
+    }
+    if (error instanceof DecodeError) {
+      return sendProblem(
+        reply,
+        makeProblem(415, error.message, [{ field: error.field, message: error.message }]),
+      );
+    }
+    if (error instanceof QueueFullError) {
+      const retry = String(error.retryAfterSeconds);
+      return sendProblem(
+        reply,
+        makeProblem(429, `the plan queue is full; retry in about ${retry} s`, [
+          {
+            field: 'body',
+            message: 'too many plans queued or running',
+            allowed: 'retry after the Retry-After delay',
+          },
+        ]),
+        { 'retry-after': retry },
+      );
+    }
+    if (error instanceof LimitError) {
+      return sendProblem(reply, makeProblem(422, error.message, error.problems, limitProblemKind));
+    }
+    if (error instanceof ValidationError) {
+      return sendProblem(reply, makeProblem(422, error.message, error.problems));
+    }
+    if (error instanceof CancelledError) {
+      return sendProblem(reply, makeProblem(409, 'the computation was cancelled'));
+    }
+    if (hasZodFastifySchemaValidationErrors(error)) {
+      const context = (error as FastifyError).validationContext;
+      const { status, errors } = classifyValidation(
+        error.validation as unknown as ValidationIssue[],
+        context,
+      );
+      const detail =
+        status === 400
+          ? `the ${context ?? 'request'} does not have the expected shape or types`
+          : `the ${context ?? 'request'} has values out of range`;
+      return sendProblem(reply, makeProblem(status, detail, errors));
+    }
+    const code = (error as FastifyError).code;
+    const mapped = code ? fastifyStatusByCode[code] : undefined;
+    const statusCode = (error as FastifyError).statusCode;
+    const status: number = mapped ?? (statusCode && statusCode >= 400 && statusCode < 500 ? statusCode : 500);
+    if (status >= 500) {
+      request.log.error({ err: error }, 'unhandled error');
+      return sendProblem(
+        reply,
+        makeProblem(500, 'an internal error occurred; the request id is in the logs'),
+      );
+    }
+    const known = status in problemKinds ? (status as ProblemStatus) : 400;
+    const field = known === 413 || known === 415 ? 'file' : 'body';
+    const message =
+      error instanceof SyntaxError || code === 'FST_ERR_CTP_INVALID_JSON_BODY'
+        ? 'malformed JSON'
+        : error.message;
+    return sendProblem(reply, makeProblem(known, message, [{ field, message }]));
+  });
+
+  app.setNotFoundHandler((request, reply) => {
+    sendProblem(
+      reply,
+      makeProblem(404, `no route ${request.method} ${request.url.split('?')[0]}`, [
+        { field: 'url', message: 'unknown route' },
+      ]),
+    );
+  });
+}

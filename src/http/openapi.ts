@@ -1,0 +1,71 @@
+import type { FastifyDynamicSwaggerOptions } from '@fastify/swagger';
+import { jsonSchemaTransform, jsonSchemaTransformObject } from 'fastify-type-provider-zod';
+
+/** What a route adds to its OpenAPI entry beyond its zod schemas (non-JSON bodies). */
+export interface OpenApiExtras {
+  /** A multipart/form-data request body described as plain JSON Schema. */
+  multipartBody?: Record<string, unknown>;
+}
+
+declare module 'fastify' {
+  interface FastifyContextConfig {
+    openapi?: OpenApiExtras;
+  }
+}
+
+const pageResponse = {
+  200: { description: 'The planner web page', content: { 'text/html': { schema: { type: 'string' } } } },
+};
+
+type TransformInput = Parameters<NonNullable<FastifyDynamicSwaggerOptions['transform']>>[0];
+
+/**
+ * zod → JSON Schema for every route (fastify-type-provider-zod), plus the few things zod cannot
+ * say: multipart upload bodies and the web page (which the web plugin registers without a schema).
+ */
+function transform(input: TransformInput) {
+  const { route, url } = input;
+  const methods = Array.isArray(route.method) ? route.method : [route.method];
+  if (url === '/' && methods.includes('GET')) {
+    return { schema: { summary: 'The planner web page', tags: ['web'], response: pageResponse }, url };
+  }
+  const result = jsonSchemaTransform(input as never) as { schema: Record<string, unknown>; url: string };
+  const extras = (route.config as { openapi?: OpenApiExtras } | undefined)?.openapi;
+  if (extras?.multipartBody) {
+    result.schema.body = extras.multipartBody;
+    result.schema.consumes = ['multipart/form-data'];
+  }
+  return result;
+}
+
+export const swaggerOptions: FastifyDynamicSwaggerOptions = {
+  openapi: {
+    openapi: '3.1.0',
+    info: {
+      title: 'k-space planner',
+      version: '1.0.0',
+      description:
+        'Plan undersampled MRI acquisitions: sampling masks, simulated reconstructions and their image ' +
+        'error, scan time, and sweeps that trade one against the other. A research simulation tool, not ' +
+        'for clinical use. Errors are RFC 9457 problem details (application/problem+json) with an ' +
+        '`errors` list naming each bad field.',
+      license: { name: 'MIT', identifier: 'MIT' },
+    },
+    jsonSchemaDialect: 'https://json-schema.org/draft/2020-12/schema',
+    components: {
+      securitySchemes: {
+        apiKey: {
+          type: 'apiKey',
+          in: 'header',
+          name: 'x-api-key',
+          description: 'Needed when the server sets API_KEYS',
+        },
+        bearer: { type: 'http', scheme: 'bearer', description: 'The same key as a bearer token' },
+      },
+    },
+    // Keys are optional on a loopback server (the empty requirement) and required otherwise.
+    security: [{}, { apiKey: [] }, { bearer: [] }],
+  },
+  transform,
+  transformObject: jsonSchemaTransformObject,
+};

@@ -1,0 +1,25 @@
+import type { RealImage } from '../core/real-image.ts';
+
+export type ImageFormat = 'png' | 'jpeg' | 'tiff' | 'dicom' | 'nifti';
+
+/** Which 2D picture to take out of a file that holds several (0-based; defaults noted per format). */
+export interface DecodeOptions {
+  /** DICOM multi-frame frame or TIFF page; default 0. */
+  frame?: number;
+  /** NIfTI slice along the third axis; default the middle slice ⌊nz/2⌋. */
+  slice?: number;
+  /** NIfTI volume along the fourth axis; default 0. */
+  volume?: number;
+  /** Largest accepted width/height in pixels. */
+  maxSide?: number;
+}
+
+/** One decoded 2D image plus safe, whitelisted facts about it (never patient identifiers). */
+export interface DecodedImage {
+  image: RealImage;
+  format: ImageFormat;
+  /** Numeric and enumerated facts only, chosen per format (bit depth, scaling, frame, ...). */
+  meta: Record<string, string | number | boolean | number[] | null>;
+  /** Human-readable notes on every transformation applied (rescale, inversion, luminance, flips). */
+  notes: string[];
+}

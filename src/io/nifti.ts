@@ -1,0 +1,152 @@
+import { gunzipSync } from 'node:zlib';
+import * as nifti from 'nifti-reader-js';
+import { DecodeError } from './decode-error.ts';
+import type { DecodedImage, DecodeOptions } from './decoded-image.ts';
+import { checkImageSize, checkIndex } from './image-size.ts';
+
+/** nifti1.h datatype codes we read, with their typed-array reader. */
+const datatypes: Record<
+  number,
+  { name: string; bytes: number; read: (view: DataView, offset: number, le: boolean) => number }
+> = {
+  2: { name: 'uint8', bytes: 1, read: (v, o) => v.getUint8(o) },
+  4: { name: 'int16', bytes: 2, read: (v, o, le) => v.getInt16(o, le) },
+  8: { name: 'int32', bytes: 4, read: (v, o, le) => v.getInt32(o, le) },
+  16: { name: 'float32', bytes: 4, read: (v, o, le) => v.getFloat32(o, le) },
+  64: { name: 'float64', bytes: 8, read: (v, o, le) => v.getFloat64(o, le) },
+  256: { name: 'int8', bytes: 1, read: (v, o) => v.getInt8(o) },
+  512: { name: 'uint16', bytes: 2, read: (v, o, le) => v.getUint16(o, le) },
+  768: { name: 'uint32', bytes: 4, read: (v, o, le) => v.getUint32(o, le) },
+};
+
+function isGzip(bytes: Uint8Array): boolean {
+  return bytes.length >= 2 && bytes[0] === 0x1f && bytes[1] === 0x8b;
+}
+
+function ascii(bytes: Uint8Array, start: number, length: number): string {
+  return String.fromCharCode(...bytes.subarray(start, start + length));
+}
+
+export type NiftiKind =
+  | 'nifti-1'
+  | 'nifti-2'
+  | 'nifti-1-pair-header'
+  | 'nifti-2-pair-header'
+  | 'analyze'
+  | null;
+
+/** Classifies a (decompressed) header by sizeof_hdr (348 or 540, either byte order) and magic. */
+export function niftiKind(bytes: Uint8Array): NiftiKind {
+  if (bytes.length < 348) return null;
+  const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+  const size = [view.getInt32(0, true), view.getInt32(0, false)];
+  if (size.includes(348)) {
+    const magic = ascii(bytes, 344, 4);
+    if (magic === 'n+1\0') return 'nifti-1';
+    if (magic === 'ni1\0') return 'nifti-1-pair-header';
+    return 'analyze';
+  }
+  if (size.includes(540) && bytes.length >= 540) {
+    const magic = ascii(bytes, 4, 4);
+    if (magic.startsWith('n+2')) return 'nifti-2';
+    if (magic.startsWith('ni2')) return 'nifti-2-pair-header';
+  }
+  return null;
+}
+
+/** Gunzips .nii.gz with a bound on the output so a small upload cannot expand without limit. */
+export function maybeGunzip(bytes: Uint8Array, maxOutputBytes: number): Uint8Array {
+  if (!isGzip(bytes)) return bytes;
+  try {
+    return gunzipSync(bytes, { maxOutputLength: maxOutputBytes });
+  } catch {
+    throw new DecodeError(`the gzip stream is damaged or expands beyond ${maxOutputBytes} bytes`);
+  }
+}
+
+/**
+ * Single-file NIfTI-1 or NIfTI-2 (.nii, or .nii.gz after maybeGunzip): one slice of one volume,
+ * scaled by scl_slope/scl_inter (value = scl_slope × stored + scl_inter; slope 0 means no scaling,
+ * nifti1.h). Voxel index i becomes the column and j the row counted from the bottom, so the first
+ * row of the image is the largest j (j increases upward, as in a radiological display of an axial slice).
+ */
+export function decodeNifti(bytes: Uint8Array, options: DecodeOptions = {}): DecodedImage {
+  const kind = niftiKind(bytes);
+  if (kind === 'analyze')
+    throw new DecodeError('ANALYZE 7.5 headers are not supported; convert to single-file NIfTI (.nii)');
+  if (kind === 'nifti-1-pair-header' || kind === 'nifti-2-pair-header') {
+    throw new DecodeError(
+      'this is the header of a .hdr/.img pair; upload a single-file NIfTI (.nii or .nii.gz)',
+    );
+  }
+  if (kind === null) throw new DecodeError('not a NIfTI file');
+  const buffer = bytes.buffer.slice(bytes.byteOffset, bytes.byteOffset + bytes.byteLength) as ArrayBuffer;
+  let header: nifti.NIFTI1 | nifti.NIFTI2;
+  try {
+    header = nifti.readHeader(buffer);
+  } catch {
+    throw new DecodeError('the NIfTI header could not be read');
+  }
+  if (!header) throw new DecodeError('the NIfTI header could not be read');
+  const dims = header.dims;
+  const ndim = dims[0];
+  if (!(ndim >= 2 && ndim <= 7)) throw new DecodeError(`NIfTI dim[0] = ${ndim} is not a 2D–7D image`);
+  for (let d = 5; d <= ndim; d++) {
+    if (dims[d] > 1) throw new DecodeError('NIfTI images with more than four dimensions are not supported');
+  }
+  const nx = dims[1];
+  const ny = dims[2];
+  const nz = ndim >= 3 ? Math.max(1, dims[3]) : 1;
+  const nt = ndim >= 4 ? Math.max(1, dims[4]) : 1;
+  checkImageSize(nx, ny, options.maxSide);
+  const type = datatypes[header.datatypeCode];
+  if (!type)
+    throw new DecodeError(`NIfTI datatype ${header.datatypeCode} is not supported (real scalar types only)`);
+  const slice = options.slice ?? Math.floor(nz / 2);
+  const volume = options.volume ?? 0;
+  checkIndex('slice', slice, nz);
+  checkIndex('volume', volume, nt);
+
+  const voxOffset = Math.trunc(header.vox_offset);
+  const sliceVoxels = nx * ny;
+  const needed = voxOffset + nx * ny * nz * nt * type.bytes;
+  if (bytes.byteLength < needed) {
+    throw new DecodeError(
+      `the NIfTI file is truncated: the image needs ${needed} bytes, ${bytes.byteLength} present`,
+    );
+  }
+  const view = new DataView(buffer);
+  const start = voxOffset + (volume * nz + slice) * sliceVoxels * type.bytes;
+  const slope = header.scl_slope;
+  const scaled = Number.isFinite(slope) && slope !== 0;
+  const inter = scaled && Number.isFinite(header.scl_inter) ? header.scl_inter : 0;
+  const data = new Float64Array(sliceVoxels);
+  for (let j = 0; j < ny; j++) {
+    const row = ny - 1 - j;
+    for (let i = 0; i < nx; i++) {
+      const stored = type.read(view, start + (j * nx + i) * type.bytes, header.littleEndian);
+      data[row * nx + i] = scaled ? slope * stored + inter : stored;
+    }
+  }
+  const notes = ['rows flipped: image row 0 is voxel j = ny − 1 (j increases upward)'];
+  if (scaled && (slope !== 1 || inter !== 0))
+    notes.push(`scl_slope/scl_inter applied: value = ${slope} × stored + ${inter}`);
+  return {
+    image: { nx, ny, data },
+    format: 'nifti',
+    meta: {
+      version: kind === 'nifti-2' ? 2 : 1,
+      dims: dims.slice(0, ndim + 1),
+      datatype: type.name,
+      littleEndian: header.littleEndian,
+      sclSlope: scaled ? slope : 1,
+      sclInter: inter,
+      slices: nz,
+      slice,
+      volumes: nt,
+      volume,
+      voxelSizeMm: [Math.abs(header.pixDims[1]), Math.abs(header.pixDims[2])],
+    },
+    notes,
+  };
+}

@@ -1,0 +1,66 @@
+import { Piscina } from 'piscina';
+import { CancelledError, LimitError, ValidationError } from '../core/errors.ts';
+import { DecodeError } from '../io/decode-error.ts';
+import type { WorkerReply, WorkerTask } from './tasks.ts';
+
+/**
+ * Workers run the TypeScript sources directly. worker-entry.mjs registers tsx's ESM hooks in the
+ * thread (tsx/esm/api) and then imports worker.ts; the same works under `npm start` (tsx) and under
+ * vitest, from any working directory. (`execArgv: ['--import', 'tsx']` alone is not enough on
+ * Node 20: the loader is not applied to the worker's ESM imports.)
+ */
+const workerFile = new URL('./worker-entry.mjs', import.meta.url).href;
+
+export class WorkerError extends Error {
+  override readonly name = 'WorkerError';
+}
+
+/** A fixed-size pool of worker threads for plan cells and long single computations. */
+export class WorkerPool {
+  readonly size: number;
+  private readonly piscina: Piscina;
+  private destroyed = false;
+
+  constructor(size: number) {
+    this.size = size;
+    this.piscina = new Piscina({
+      filename: workerFile,
+      minThreads: size,
+      maxThreads: size,
+      // One task per thread at a time: cells are CPU-bound.
+      concurrentTasksPerWorker: 1,
+      idleTimeout: Number.POSITIVE_INFINITY,
+    });
+  }
+
+  /** Tasks waiting for a free thread. */
+  get queued(): number {
+    return this.piscina.queueSize;
+  }
+
+  /** Runs a task on a worker; typed engine errors thrown there are rethrown here as the same classes. */
+  async run<T>(task: WorkerTask, signal?: AbortSignal): Promise<T> {
+    if (this.destroyed) throw new CancelledError();
+    let reply: WorkerReply<T>;
+    try {
+      reply = (await this.piscina.run(task, signal ? { signal } : {})) as WorkerReply<T>;
+    } catch (error) {
+      // piscina rejects with an AbortError when the signal fires: the worker thread was stopped.
+      if (signal?.aborted || this.destroyed) throw new CancelledError();
+      throw new WorkerError(error instanceof Error ? error.message : String(error));
+    }
+    if (reply.ok) return reply.value;
+    const { kind, message, problems } = reply.error;
+    if (kind === 'limit') throw new LimitError(problems);
+    if (kind === 'validation') throw new ValidationError(problems);
+    if (kind === 'cancelled') throw new CancelledError();
+    if (kind === 'decode') throw new DecodeError(message, problems[0]?.field);
+    throw new WorkerError(message);
+  }
+
+  async destroy(): Promise<void> {
+    if (this.destroyed) return;
+    this.destroyed = true;
+    await this.piscina.destroy();
+  }
+}
