@@ -18,8 +18,9 @@ export function phantomGridKspace(phantom: Phantom, nx: number, ny: number): Com
   const kxAxis = Float64Array.from({ length: nx }, (_, u) => gridKx(u, nx));
   const kyAxis = Float64Array.from({ length: ny }, (_, v) => gridKy(v, ny));
   if (phantom instanceof ShapePhantom) {
-    const values = phantom.kspaceOnAxes(kxAxis, kyAxis);
-    for (let i = 0; i < values.length; i++) image.data[i] = values[i] * scale;
+    // Accumulate straight into the image, then scale in place: no second full-size array.
+    const data = phantom.kspaceOnAxes(kxAxis, kyAxis, image.data);
+    for (let i = 0; i < data.length; i++) data[i] *= scale;
     return image;
   }
   const rowsPerChunk = Math.max(1, Math.floor(CHUNK_POINTS / nx));

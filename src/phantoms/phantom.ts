@@ -47,16 +47,20 @@ export class ShapePhantom implements Phantom {
   }
 
   /**
-   * The exact transform on the Cartesian product of two frequency axes (cycles per unit): element
-   * (v, u) of the ny×nx interleaved result is K(kx[u], ky[v]). Same values as kspaceAt at those
-   * points, computed with the separable parts factored out.
+   * The exact transform on the Cartesian product of two frequency axes (cycles per unit): adds
+   * K(kx[u], ky[v]) to element (v, u) of the ny×nx interleaved `out` (a new zeroed array when absent)
+   * and returns it. Same values as kspaceAt at those points, with the separable parts factored out.
    */
-  kspaceOnAxes(kx: Float64Array, ky: Float64Array): Float64Array {
+  kspaceOnAxes(kx: Float64Array, ky: Float64Array, out?: Float64Array): Float64Array {
     checkFiniteAll(kx, 'kx');
     checkFiniteAll(ky, 'ky');
-    const out = new Float64Array(2 * kx.length * ky.length);
-    for (const shape of this.shapes) shape.addGridTransform(kx, ky, out);
-    return out;
+    const size = 2 * kx.length * ky.length;
+    if (out && out.length !== size) {
+      throw new RangeError(`out must hold 2·nx·ny = ${size} numbers, got ${out.length}`);
+    }
+    const target = out ?? new Float64Array(size);
+    for (const shape of this.shapes) shape.addGridTransform(kx, ky, target);
+    return target;
   }
 }
 
