@@ -94,6 +94,9 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
     bodyLimit: options.maxJsonBytes ?? 8 * 1024 * 1024,
     routerOptions: { ignoreTrailingSlash: true },
   });
+  // JSON routes take JSON only: without this, fastify's built-in text/plain parser would turn a
+  // text body into a string and the answer would be a 400 instead of 415 Unsupported Media Type.
+  app.removeContentTypeParser('text/plain');
   app.setValidatorCompiler(validatorCompiler);
   app.setSerializerCompiler(serializerCompiler);
   installErrorHandling(app);

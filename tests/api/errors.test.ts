@@ -1,0 +1,170 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { expectDocumented, expectProblem, type TestApp, testApp } from './helpers.ts';
+
+const scanTime = { matrix: { nx: 64, ny: 64 }, protocol: { trMs: 500 } };
+
+describe('RFC 9457 problem details for every class of bad input (REFERENCES §10.4)', () => {
+  let t: TestApp;
+  beforeAll(async () => {
+    t = await testApp({ maxJsonBytes: 4096, limits: { maxMatrixSide: 128 } });
+  });
+  afterAll(async () => t.close());
+
+  it('400 malformed JSON', async () => {
+    const res = await t
+      .http()
+      .post('/v1/scan-time')
+      .set('content-type', 'application/json')
+      .send('{"matrix": {');
+    expectProblem(res, 400, 'body');
+    await expectDocumented('POST', '/v1/scan-time', res);
+  });
+
+  it('400 wrong types and missing fields, each bad field listed', async () => {
+    const res = await t
+      .http()
+      .post('/v1/scan-time')
+      .send({ matrix: { nx: 'sixty-four', ny: 64 }, protocol: {} });
+    const problem = expectProblem(res, 400);
+    const fields = problem.errors.map((e) => e.field);
+    expect(fields).toContain('matrix.nx');
+    expect(fields).toContain('protocol.trMs');
+  });
+
+  it('422 values out of range, with the allowed range', async () => {
+    const res = await t
+      .http()
+      .post('/v1/scan-time')
+      .send({ matrix: { nx: 64, ny: 64 }, protocol: { trMs: -1, nex: 0 } });
+    const problem = expectProblem(res, 422);
+    expect(problem.errors).toEqual(
+      expect.arrayContaining([
+        expect.objectContaining({ field: 'protocol.trMs', allowed: '> 0' }),
+        expect.objectContaining({ field: 'protocol.nex', allowed: '≥ 1' }),
+      ]),
+    );
+    await expectDocumented('POST', '/v1/scan-time', res);
+  });
+
+  it('422 from an engine ValidationError (R too high for the matrix) names the field', async () => {
+    const res = await t
+      .http()
+      .post('/v1/scan-time')
+      .send({ ...scanTime, sampling: { pattern: 'cartesian-uniform', acceleration: 100 } });
+    expectProblem(res, 422, 'sampling.acceleration');
+  });
+
+  it('422 limit problem beyond the configured matrix limit (128 here)', async () => {
+    const res = await t
+      .http()
+      .post('/v1/scan-time')
+      .send({ ...scanTime, matrix: { nx: 256, ny: 64 } });
+    const problem = expectProblem(res, 422, 'matrix.nx');
+    expect(problem.type).toBe('/problems/limit-exceeded');
+    expect(problem.errors[0].allowed).toBe('≤ 128');
+  });
+
+  it('422 for an unknown discriminator value (sampling.pattern)', async () => {
+    const res = await t
+      .http()
+      .post('/v1/scan-time')
+      .send({ ...scanTime, sampling: { pattern: 'spiral', acceleration: 2 } });
+    expectProblem(res, 422, 'sampling.pattern');
+  });
+
+  it('404 unknown route and unknown id', async () => {
+    expectProblem(await t.http().get('/v1/nothing-here'), 404, 'url');
+    expectProblem(await t.http().get('/v1/images/00000000-0000-0000-0000-000000000000'), 404, 'id');
+  });
+
+  it('413 JSON body above the configured size', async () => {
+    const res = await t
+      .http()
+      .post('/v1/scan-time')
+      .send({ ...scanTime, padding: 'x'.repeat(10_000) });
+    expectProblem(res, 413);
+    await expectDocumented('POST', '/v1/scan-time', res);
+  });
+
+  it('415 unsupported content type on a JSON route', async () => {
+    const res = await t.http().post('/v1/scan-time').set('content-type', 'text/plain').send('hello');
+    expectProblem(res, 415);
+  });
+
+  it('never a 500: a batch of hostile bodies all answer 4xx problem+json', async () => {
+    const bodies: unknown[] = [
+      null,
+      [],
+      42,
+      'text',
+      { matrix: null },
+      { matrix: { nx: 1e308, ny: -0 }, protocol: { trMs: 1 } },
+      {
+        matrix: { nx: 64, ny: 64 },
+        protocol: { trMs: 500 },
+        sampling: { pattern: 'custom', maskPng: '!!!' },
+      },
+      {
+        matrix: { nx: 64, ny: 64 },
+        protocol: { trMs: 500 },
+        sampling: { pattern: 'custom', maskPng: 'AAAA' },
+      },
+      {
+        matrix: { nx: 64, ny: 64 },
+        protocol: { trMs: 500 },
+        sampling: { pattern: 'radial', acceleration: 1e9 },
+      },
+    ];
+    const texts = [
+      ...bodies.map((b) => JSON.stringify(b)),
+      // Prototype pollution attempt: refused by fastify's secure JSON parser.
+      '{"__proto__": {"polluted": true}, "matrix": {"nx": 64, "ny": 64}, "protocol": {"trMs": 500}}',
+      '',
+      '\u0000',
+    ];
+    for (const body of texts) {
+      const res = await t.http().post('/v1/scan-time').set('content-type', 'application/json').send(body);
+      expect(res.status, body).toBeGreaterThanOrEqual(400);
+      expect(res.status, body).toBeLessThan(500);
+      expect(res.headers['content-type']).toMatch(/^application\/problem\+json/);
+    }
+  });
+
+  it('responses carry a request id (x-request-id), also on problems', async () => {
+    const res = await t.http().get('/v1/nothing');
+    expect(res.headers['x-request-id']).toMatch(/^[0-9a-f-]{36}$/);
+  });
+});
+
+describe('API keys (HOST not loopback ⇒ every /v1 request needs a valid key)', () => {
+  let t: TestApp;
+  beforeAll(async () => {
+    t = await testApp({ apiKeys: ['k-one', 'k-two'] });
+  });
+  afterAll(async () => t.close());
+
+  it('401 problem without a key or with a wrong one; WWW-Authenticate set (RFC 9110 11.6.1)', async () => {
+    const none = await t.http().post('/v1/scan-time').send(scanTime);
+    expectProblem(none, 401, 'x-api-key');
+    expect(none.headers['www-authenticate']).toMatch(/^Bearer/);
+    expectProblem(await t.http().post('/v1/scan-time').set('x-api-key', 'k-three').send(scanTime), 401);
+    expectProblem(await t.http().get('/v1/images/x').set('authorization', 'Bearer nope'), 401);
+  });
+
+  it('a valid key as x-api-key or Authorization: Bearer passes', async () => {
+    expect((await t.http().post('/v1/scan-time').set('x-api-key', 'k-one').send(scanTime)).status).toBe(200);
+    expect(
+      (await t.http().post('/v1/scan-time').set('authorization', 'Bearer k-two').send(scanTime)).status,
+    ).toBe(200);
+  });
+
+  it('/health and the contract stay open (no patient data, needed by load balancers)', async () => {
+    expect((await t.http().get('/health')).status).toBe(200);
+    expect((await t.http().get('/openapi.yaml')).status).toBe(200);
+  });
+
+  it('the key never appears in the logs', async () => {
+    await t.http().get('/v1/images/x').set('x-api-key', 'k-one');
+    expect(t.logs.join('\n')).not.toContain('k-one');
+  });
+});

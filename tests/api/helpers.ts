@@ -1,0 +1,124 @@
+import { mkdtempSync, readFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { Writable } from 'node:stream';
+import SwaggerParser from '@apidevtools/swagger-parser';
+import { Ajv2020 } from 'ajv/dist/2020.js';
+import addFormats from 'ajv-formats';
+import type { FastifyInstance } from 'fastify';
+import request from 'supertest';
+import { expect } from 'vitest';
+import { type AppOptions, buildApp } from '../../src/app.ts';
+import { openapiPath } from '../../src/http/openapi-file.ts';
+
+export interface TestApp {
+  app: FastifyInstance;
+  dataDir: string;
+  /** Every pino line the app wrote. */
+  logs: string[];
+  http: () => ReturnType<typeof request>;
+  close: () => Promise<void>;
+}
+
+/** An isolated app on its own temp data directory, one worker, pino logs captured. */
+export async function testApp(options: AppOptions = {}): Promise<TestApp> {
+  const dataDir = options.dataDir ?? mkdtempSync(join(tmpdir(), 'kspace-api-'));
+  const logs: string[] = [];
+  const logStream = new Writable({
+    write(chunk, _encoding, callback) {
+      logs.push(String(chunk));
+      callback();
+    },
+  });
+  const app = await buildApp({ workers: 1, logger: { level: 'info' }, logStream, ...options, dataDir });
+  return { app, dataDir, logs, http: () => request(app.server), close: () => app.close() };
+}
+
+type OpenApiDocument = {
+  paths: Record<
+    string,
+    Record<string, { responses: Record<string, { content?: Record<string, { schema: unknown }> }> }>
+  >;
+};
+
+let specPromise: Promise<OpenApiDocument> | null = null;
+
+/** The committed openapi.yaml, validated by @apidevtools/swagger-parser (OpenAPI 3.1) and dereferenced. */
+export function loadSpec(): Promise<OpenApiDocument> {
+  specPromise ??= (async () => {
+    const text = readFileSync(openapiPath, 'utf8');
+    const parsed = (await import('yaml')).parse(text);
+    await SwaggerParser.validate(structuredClone(parsed));
+    return (await SwaggerParser.dereference(parsed)) as unknown as OpenApiDocument;
+  })();
+  return specPromise;
+}
+
+const ajv = new Ajv2020({ strict: false, allErrors: true });
+addFormats.default(ajv);
+const compiled = new WeakMap<object, ReturnType<typeof ajv.compile>>();
+
+function specPathFor(spec: OpenApiDocument, url: string): string {
+  const path = url.split('?')[0];
+  for (const template of Object.keys(spec.paths)) {
+    const pattern = new RegExp(`^${template.replace(/[.]/g, '\\.').replace(/\{[^}]+\}/g, '[^/]+')}$`);
+    if (pattern.test(path)) return template;
+  }
+  throw new Error(`no spec path matches ${path}`);
+}
+
+/**
+ * Asserts that a response is documented: its status and media type appear under the operation
+ * in openapi.yaml, and a JSON body validates against that schema with ajv's JSON Schema 2020-12
+ * (the dialect of OpenAPI 3.1, REFERENCES.md §10.6).
+ */
+export async function expectDocumented(
+  method: string,
+  url: string,
+  response: { status: number; headers: Record<string, string>; body: unknown; text?: string },
+): Promise<void> {
+  const spec = await loadSpec();
+  const operation = spec.paths[specPathFor(spec, url)][method.toLowerCase()];
+  expect(operation, `${method} ${url} is in the spec`).toBeDefined();
+  const documented = operation.responses[String(response.status)];
+  expect(documented, `${method} ${url} documents status ${response.status}`).toBeDefined();
+  const mediaType = (response.headers['content-type'] ?? '').split(';')[0].trim();
+  if (response.status === 204) return;
+  const content = documented.content?.[mediaType];
+  expect(content, `${method} ${url} ${response.status} documents ${mediaType}`).toBeDefined();
+  if (!mediaType.endsWith('json')) return;
+  const schema = content!.schema as object;
+  let validate = compiled.get(schema);
+  if (!validate) {
+    validate = ajv.compile(schema);
+    compiled.set(schema, validate);
+  }
+  const body =
+    response.text !== undefined && response.text !== '' ? JSON.parse(response.text) : response.body;
+  const valid = validate(body);
+  expect(valid, `${method} ${url} body matches its schema: ${ajv.errorsText(validate.errors)}`).toBe(true);
+}
+
+/** RFC 9457 §3 members plus the service's `errors` list, and the problem media type (REFERENCES §10.4). */
+export function expectProblem(
+  response: { status: number; headers: Record<string, string>; body: unknown; text: string },
+  status: number,
+  field?: string,
+): {
+  type: string;
+  title: string;
+  status: number;
+  detail: string;
+  errors: Array<{ field: string; message: string; allowed?: string }>;
+} {
+  expect(response.status).toBe(status);
+  expect(response.headers['content-type']).toMatch(/^application\/problem\+json/);
+  const problem = JSON.parse(response.text);
+  expect(typeof problem.type).toBe('string');
+  expect(typeof problem.title).toBe('string');
+  expect(problem.status).toBe(status);
+  expect(typeof problem.detail).toBe('string');
+  expect(Array.isArray(problem.errors)).toBe(true);
+  if (field !== undefined) expect(problem.errors.map((e: { field: string }) => e.field)).toContain(field);
+  return problem;
+}
