@@ -1,5 +1,5 @@
 import { discTransform } from './disc-transform.ts';
-import { addShifted, axisPhasors, degreesCosSin, type Placement, type Shape } from './shape.ts';
+import { axisPhasors, degreesCosSin, type Placement, type Shape } from './shape.ts';
 import { checkFinite } from './validate.ts';
 
 /** Ellipse with semi-axes a (along x before rotation) and b, rotated by θ about its centre. */
@@ -83,13 +83,23 @@ export class Ellipse implements Shape {
   addTransform(kx: ArrayLike<number>, ky: ArrayLike<number>, out: Float64Array): void {
     const { a, b, x0, y0, cos, sin } = this;
     const scale = this.intensity * a * b;
+    const shifted = x0 !== 0 || y0 !== 0;
     const n = kx.length;
     for (let i = 0; i < n; i++) {
       const fx = kx[i];
       const fy = ky[i];
       const u = a * (fx * cos + fy * sin);
       const v = b * (-fx * sin + fy * cos);
-      addShifted(out, i, scale * discTransform(Math.sqrt(u * u + v * v)), fx * x0 + fy * y0);
+      const mag = scale * discTransform(Math.sqrt(u * u + v * v));
+      if (!shifted) {
+        out[2 * i] += mag;
+        continue;
+      }
+      // Shift phase reduced to one turn first, so large frequencies keep their accuracy.
+      const turns = fx * x0 + fy * y0;
+      const phase = -2 * Math.PI * (turns - Math.round(turns));
+      out[2 * i] += mag * Math.cos(phase);
+      out[2 * i + 1] += mag * Math.sin(phase);
     }
   }
 

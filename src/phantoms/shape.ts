@@ -65,17 +65,3 @@ export function axisPhasors(k: Float64Array, x0: number): Float64Array {
   }
   return out;
 }
-
-/**
- * Adds magnitude·e^(−i2π(kx·x0 + ky·y0)) to out[2i], out[2i+1] — the shift theorem's phase.
- * The phase is reduced to one turn before multiplying by 2π, so large frequencies keep their accuracy.
- */
-export function addShifted(out: Float64Array, i: number, magnitude: number, turns: number): void {
-  if (turns === 0) {
-    out[2 * i] += magnitude;
-    return;
-  }
-  const phase = -2 * Math.PI * (turns - Math.round(turns));
-  out[2 * i] += magnitude * Math.cos(phase);
-  out[2 * i + 1] += magnitude * Math.sin(phase);
-}
