@@ -5,11 +5,12 @@ import type { RealImage } from '../src/core/real-image.ts';
 import type { SampledMask } from './sampled-mask.ts';
 
 /**
- * Default main-lobe radius in pixels. A fully sampled grid has a one-pixel PSF; variable density
- * widens the central peak into its nearest neighbours (a low-pass blur, not aliasing), so side lobes
- * are measured beyond one pixel from the centre, i.e. outside the centre and its 4 nearest neighbours.
+ * Default main-lobe radius in pixels, √2: the centre and its 8 neighbours. A fully sampled grid has a
+ * one-pixel PSF; variable density (denser near the k-space centre) widens the central peak into the
+ * neighbouring pixels — a low-pass blur, not aliasing — so side lobes are measured outside the 3×3
+ * block around the centre.
  */
-export const DEFAULT_MAIN_LOBE_RADIUS = 1;
+export const DEFAULT_MAIN_LOBE_RADIUS = Math.SQRT2;
 
 export interface MaskDiagnostics {
   /** |PSF| normalised to its peak 1, ny×nx, centre at (⌊ny/2⌋, ⌊nx/2⌋). */
@@ -53,7 +54,7 @@ export function maskDiagnostics(m: SampledMask, options: { mainLobeRadius?: numb
   const maxRing = Math.round(Math.hypot(Math.max(cx, nx - 1 - cx), Math.max(cy, ny - 1 - cy)));
   const ringSum = new Float64Array(maxRing + 1);
   const ringCount = new Float64Array(maxRing + 1);
-  const r2 = mainLobeRadius * mainLobeRadius;
+  const r2 = mainLobeRadius * mainLobeRadius + 1e-9; // pixels at exactly the radius belong to the main lobe
   let peakSidelobe = 0;
   for (let v = 0; v < ny; v++) {
     const dy = v - cy;

@@ -55,23 +55,65 @@ function neighbourOffsets(reach: number): { dx: Int32Array; dy: Int32Array; d2: 
   };
 }
 
-/** Reusable state of one dart-throwing run on a fixed matrix, radius profile and ACS. */
+/** Normalised distance ρ of every grid point from the k-space centre (see the radius law). */
+function normalisedRadius(nx: number, ny: number): Float64Array {
+  const rho = new Float64Array(nx * ny);
+  const cx = Math.floor(nx / 2);
+  const cy = Math.floor(ny / 2);
+  for (let v = 0; v < ny; v++) {
+    const dy = (v - cy) / (ny / 2);
+    for (let u = 0; u < nx; u++) {
+      const dx = (u - cx) / (nx / 2);
+      rho[v * nx + u] = Math.sqrt(dx * dx + dy * dy);
+    }
+  }
+  return rho;
+}
+
+/** Reusable state of dart-throwing runs on a fixed matrix, radius law and ACS. */
 class DartThrower {
   readonly mask: Uint8Array;
   private readonly active: Int32Array;
+  private readonly reach2: Float64Array;
+  private readonly rho: Float64Array;
   private readonly gMax: number;
 
   constructor(
     private readonly nx: number,
     private readonly ny: number,
     private readonly g: Float64Array,
+    private readonly power: number,
     private readonly acs: number,
   ) {
     this.mask = new Uint8Array(nx * ny);
     this.active = new Int32Array(nx * ny);
+    this.reach2 = new Float64Array(nx * ny);
+    this.rho = normalisedRadius(nx, ny);
     let gMax = 0;
     for (let i = 0; i < g.length; i++) if (g[i] > gMax) gMax = g[i];
     this.gMax = gMax;
+  }
+
+  /**
+   * Squared search radius around each grid point c: a sample q conflicts with c only if
+   * d < (r(c) + r(q))/2 ≤ D0 = (r(c) + r_max)/2, and then ρ(q) ≤ ρ(c) + D0/(min(nx, ny)/2), which
+   * bounds r(q) and so gives a tighter D = (r(c) + r(q)_max)/2 (the radius law grows with ρ).
+   */
+  private prepareReach(scale: number): number {
+    const { g, rho, reach2 } = this;
+    const rMax = scale * this.gMax;
+    const half = Math.min(this.nx, this.ny) / 2;
+    const exponent = this.power / 2;
+    let largest = 0;
+    for (let i = 0; i < g.length; i++) {
+      const rc = scale * g[i];
+      const d0 = (rc + rMax) / 2;
+      const rq = Math.min(rMax, scale * (1 + rho[i] + d0 / half) ** exponent);
+      const d = (rc + rq) / 2;
+      reach2[i] = d * d;
+      if (d > largest) largest = d;
+    }
+    return largest;
   }
 
   /**
@@ -82,12 +124,11 @@ class DartThrower {
    * number of sampled points, ACS included; the mask is left in `this.mask`.
    */
   run(scale: number, seed: number): number {
-    const { nx, ny, g, mask, active } = this;
+    const { nx, ny, g, mask, active, reach2 } = this;
     const rng = new SeededRandom(seed);
-    const offsets = neighbourOffsets(scale * this.gMax);
+    const offsets = neighbourOffsets(this.prepareReach(scale));
     const { dx: offX, dy: offY, d2: offD2 } = offsets;
     const nOffsets = offD2.length;
-    const rMax = scale * this.gMax;
     mask.fill(0);
     let activeCount = 0;
     let count = 0;
@@ -109,6 +150,7 @@ class DartThrower {
       count = 1;
       active[activeCount++] = centre;
     }
+    const toUnit = 1 / 4294967296;
     while (activeCount > 0) {
       const slot = rng.integer(activeCount);
       const p = active[slot];
@@ -117,20 +159,20 @@ class DartThrower {
       const rp = scale * g[p];
       let accepted = false;
       for (let attempt = 0; attempt < CANDIDATES_PER_SAMPLE; attempt++) {
-        const distance = rp * Math.sqrt(1 + 3 * rng.uniform());
-        const angle = 2 * Math.PI * rng.uniform();
+        // 32 random bits each are ample for a radius and an angle on a grid of ≤ 2^16 points a side.
+        const distance = rp * Math.sqrt(1 + 3 * rng.nextUint32() * toUnit);
+        const angle = 2 * Math.PI * rng.nextUint32() * toUnit;
         const cu = Math.round(px + distance * Math.cos(angle));
         const cv = Math.round(py + distance * Math.sin(angle));
         if (cu < 0 || cu >= nx || cv < 0 || cv >= ny) continue;
         const c = cv * nx + cu;
         if (mask[c] !== 0) continue;
         const rc = scale * g[c];
-        const reach = (rc + rMax) / 2;
-        const reach2 = reach * reach;
+        const limit2 = reach2[c];
         let free = true;
         for (let o = 0; o < nOffsets; o++) {
           const d2 = offD2[o];
-          if (d2 >= reach2) break;
+          if (d2 >= limit2) break;
           const qu = cu + offX[o];
           const qv = cv + offY[o];
           if (qu < 0 || qu >= nx || qv < 0 || qv >= ny) continue;
@@ -218,7 +260,7 @@ export function poissonDiscMask(matrix: Matrix, spec: PoissonDiscSpec): SampledM
     mask = new Uint8Array(total).fill(1);
     count = total;
   } else {
-    const thrower = new DartThrower(nx, ny, g, acs);
+    const thrower = new DartThrower(nx, ny, g, power, acs);
     let inverseSquareSum = 0;
     for (let i = 0; i < total; i++) inverseSquareSum += 1 / (g[i] * g[i]);
     scale = Math.sqrt((PACKING_DENSITY * inverseSquareSum) / target);

@@ -3,37 +3,42 @@ import type { SeededRandom } from '../src/core/random.ts';
 /**
  * Inclusion probabilities π_i = min(1, s·w_i) with Σ π_i = m exactly (up to rounding), the
  * variable-density PDF of Lustig, Donoho & Pauly 2007 scaled to an expected count of m. The
- * piecewise-linear equation in s is solved exactly rather than by bisection: with the weights
- * sorted in decreasing order, the first k saturate (π = 1) for the smallest k at which
- * s = (m − k)/Σ_{j≥k} w_(j) leaves w_(k)·s ≤ 1. Should m exceed the number of positive weights,
- * those saturate and the rest of m is spread evenly over the zero-weight entries.
- * Requires 0 ≤ m ≤ weights.length and non-negative weights.
+ * piecewise-linear equation in s is solved exactly rather than by bisection, by capping: with S the
+ * set of saturated entries (π = 1), s = (m − |S|)/Σ_{i∉S} w_i; entries whose s·w_i reaches 1 join S
+ * and s is recomputed until S stops growing (s only grows, so S never loses a member). Should m
+ * exceed the number of positive weights, those saturate and the rest of m is spread evenly over
+ * the zero-weight entries. Requires 0 ≤ m ≤ weights.length and non-negative weights.
  */
 export function inclusionProbabilities(weights: Float64Array, m: number): Float64Array {
   const n = weights.length;
   if (!(m >= 0 && m <= n)) throw new RangeError(`m must lie in [0, ${n}], got ${m}`);
   const pi = new Float64Array(n);
   if (m === 0) return pi;
-  const order = Array.from({ length: n }, (_, i) => i)
-    .filter((i) => weights[i] > 0)
-    .sort((a, b) => weights[b] - weights[a] || a - b);
-  const positive = order.length;
-  const tail = new Float64Array(positive + 1);
-  for (let j = positive - 1; j >= 0; j--) tail[j] = tail[j + 1] + weights[order[j]];
-  for (let k = 0; k < positive && k < m; k++) {
-    const s = (m - k) / tail[k];
-    if (weights[order[k]] * s <= 1) {
-      for (let j = 0; j < k; j++) pi[order[j]] = 1;
-      for (let j = k; j < positive; j++) pi[order[j]] = weights[order[j]] * s;
-      return pi;
-    }
-  }
-  for (let j = 0; j < positive; j++) pi[order[j]] = 1;
-  const rest = m - positive;
-  if (rest > 0) {
+  const saturated = new Uint8Array(n);
+  let positive = 0;
+  for (let i = 0; i < n; i++) if (weights[i] > 0) positive++;
+  if (positive <= m) {
     const zero = n - positive;
-    for (let i = 0; i < n; i++) if (!(weights[i] > 0)) pi[i] = rest / zero;
+    for (let i = 0; i < n; i++) pi[i] = weights[i] > 0 ? 1 : (m - positive) / zero;
+    return pi;
   }
+  let capped = 0;
+  let scale = 0;
+  for (;;) {
+    let free = 0;
+    for (let i = 0; i < n; i++) if (saturated[i] === 0) free += weights[i];
+    scale = (m - capped) / free;
+    let grew = false;
+    for (let i = 0; i < n; i++) {
+      if (saturated[i] === 0 && weights[i] * scale >= 1) {
+        saturated[i] = 1;
+        capped++;
+        grew = true;
+      }
+    }
+    if (!grew) break;
+  }
+  for (let i = 0; i < n; i++) pi[i] = saturated[i] === 1 ? 1 : weights[i] * scale;
   return pi;
 }
 
