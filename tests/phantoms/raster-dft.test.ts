@@ -84,6 +84,8 @@ describe('analytic grid k-space against the DFT of a fine raster (REFERENCES.md 
   });
 
   it('odd and non-square sizes (127×129, 129×96) agree as well as 128×128 (centre at ⌊n/2⌋, DESIGN.md)', () => {
+    // The error falls like 1/n² (§1.3), so the bound scales with the shorter side. A centre off by
+    // half a pixel (the literal (2j − n)/n for odd n, REFERENCES.md §0) gives about 12 % at 127×129.
     for (const [nx, ny] of [
       [127, 129],
       [129, 96],
