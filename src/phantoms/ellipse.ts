@@ -103,33 +103,64 @@ export class Ellipse implements Shape {
     }
   }
 
+  /** ρ·a·b·J1(2πq)/q at one frequency: the transform without its shift phase. */
+  private magnitudeAt(fx: number, fy: number): number {
+    const u = this.a * (fx * this.cos + fy * this.sin);
+    const v = this.b * (-fx * this.sin + fy * this.cos);
+    return this.intensity * this.a * this.b * discTransform(Math.sqrt(u * u + v * v));
+  }
+
   addGridTransform(kx: Float64Array, ky: Float64Array, out: Float64Array): void {
-    const { a, b, cos, sin } = this;
-    const scale = this.intensity * a * b;
     const nx = kx.length;
     const ny = ky.length;
-    const shifted = this.x0 !== 0 || this.y0 !== 0;
     const colPhase = axisPhasors(kx, this.x0);
     const rowPhase = axisPhasors(ky, this.y0);
-    for (let v = 0; v < ny; v++) {
-      const fy = ky[v];
-      const rr = rowPhase[2 * v];
-      const ri = rowPhase[2 * v + 1];
-      const base = 2 * v * nx;
+    // q is the same at k and −k, so on axes mirrored about their centres (as every k-space grid is)
+    // J1 — the cost here — is evaluated once per pair of rows v and 2·cy − v.
+    const cx = mirrorCentre(kx);
+    const cy = mirrorCentre(ky);
+    const mirrored = cx >= 0 && cy >= 0;
+    const magnitudes = new Float64Array(nx);
+    const partner = new Float64Array(nx);
+    const lastRow = mirrored ? cy : ny - 1;
+    for (let v = 0; v <= lastRow; v++) {
+      for (let u = 0; u < nx; u++) magnitudes[u] = this.magnitudeAt(kx[u], ky[v]);
+      addPhasedRow(out, v, magnitudes, colPhase, rowPhase);
+      const pv = 2 * cy - v;
+      if (!mirrored || pv === v || pv >= ny) continue;
       for (let u = 0; u < nx; u++) {
-        const fx = kx[u];
-        const p = a * (fx * cos + fy * sin);
-        const q = b * (-fx * sin + fy * cos);
-        const mag = scale * discTransform(Math.sqrt(p * p + q * q));
-        if (!shifted) {
-          out[base + 2 * u] += mag;
-          continue;
-        }
-        const cr = colPhase[2 * u];
-        const ci = colPhase[2 * u + 1];
-        out[base + 2 * u] += mag * (cr * rr - ci * ri);
-        out[base + 2 * u + 1] += mag * (cr * ri + ci * rr);
+        const pu = 2 * cx - u;
+        partner[u] = pu < nx ? magnitudes[pu] : this.magnitudeAt(kx[u], ky[pv]);
       }
+      addPhasedRow(out, pv, partner, colPhase, rowPhase);
     }
+  }
+}
+
+/** Index c with k[c] = 0 and k[c + d] = −k[c − d] wherever both exist (c = ⌊n/2⌋), or −1. */
+function mirrorCentre(k: Float64Array): number {
+  const c = Math.floor(k.length / 2);
+  if (k.length === 0 || k[c] !== 0) return -1;
+  for (let d = 1; c + d < k.length && c - d >= 0; d++) if (k[c + d] !== -k[c - d]) return -1;
+  return c;
+}
+
+/** Adds magnitude[u]·colPhase[u]·rowPhase[v] to row v of the interleaved grid. */
+function addPhasedRow(
+  out: Float64Array,
+  v: number,
+  magnitude: Float64Array,
+  colPhase: Float64Array,
+  rowPhase: Float64Array,
+): void {
+  const nx = magnitude.length;
+  const rr = rowPhase[2 * v];
+  const ri = rowPhase[2 * v + 1];
+  const base = 2 * v * nx;
+  for (let u = 0; u < nx; u++) {
+    const cr = colPhase[2 * u];
+    const ci = colPhase[2 * u + 1];
+    out[base + 2 * u] += magnitude[u] * (cr * rr - ci * ri);
+    out[base + 2 * u + 1] += magnitude[u] * (cr * ri + ci * rr);
   }
 }

@@ -50,6 +50,23 @@ describe('phantomGridKspace', () => {
     }
   });
 
+  it('kspaceOnAxes equals kspaceAt on axes that are not mirrored about a centre as well', () => {
+    const kx = Float64Array.from([-3.3, -1, 0, 0.25, 2.5, 7.75]);
+    const ky = Float64Array.from([-2, 0, 0.5, 1.5, 4.2]);
+    for (const phantom of [sheppLoganModified(), resolutionContrast(), MIXED]) {
+      const grid = phantom.kspaceOnAxes(kx, ky);
+      const px: number[] = [];
+      const py: number[] = [];
+      for (const y of ky) {
+        for (const x of kx) {
+          px.push(x);
+          py.push(y);
+        }
+      }
+      expect(maxDifference(grid, phantom.kspaceAt(px, py))).toBeLessThan(1e-13);
+    }
+  });
+
   it('gives the same grid for a phantom seen only through the Phantom interface (generic path)', () => {
     const inner = resolutionContrast();
     const opaque: Phantom = {
