@@ -8,7 +8,10 @@ import Fastify, { type FastifyInstance, type FastifyPluginAsync, type RouteOptio
 import { serializerCompiler, validatorCompiler } from 'fastify-type-provider-zod';
 import { healthRoutes } from '../routes/health.ts';
 import { imageRoutes } from '../routes/images.ts';
+import { maskRoutes } from '../routes/masks.ts';
 import { openapiRoutes } from '../routes/openapi.ts';
+import { phantomRoutes } from '../routes/phantoms.ts';
+import { resultRoutes } from '../routes/results.ts';
 import { scanTimeRoutes } from '../routes/scan-time.ts';
 import { defaultLimits, type Limits } from './core/limits.ts';
 import { installApiKeyAuth } from './http/auth.ts';
@@ -58,23 +61,33 @@ declare module 'fastify' {
  * The resource plugins, one per file under routes/. To add a resource, append it here.
  * routes/web.ts (the planner page, owned by the web module) is registered when present.
  */
-const resourcePlugins: FastifyPluginAsync[] = [healthRoutes, openapiRoutes, imageRoutes, scanTimeRoutes];
+const resourcePlugins: FastifyPluginAsync[] = [
+  healthRoutes,
+  openapiRoutes,
+  phantomRoutes,
+  imageRoutes,
+  maskRoutes,
+  resultRoutes,
+  scanTimeRoutes,
+  // one line per resource plugin
+];
 const optionalPlugins = [new URL('../routes/web.ts', import.meta.url)];
 
+/** The plan engine (src/plan): cells are expanded and tables built here; runCell runs in the workers. */
 async function defaultPlanEngine(): Promise<PlanEngine> {
-  const plan = await import('./plan/index.ts').catch(() => null);
-  if (!plan)
-    return {
-      cells: () => {
-        throw new Error('planning engine missing');
-      },
-      buildTable: () => null,
-    };
+  const plan = await import('./plan/index.ts');
   return {
     cells: (body, limits) => plan.planCells(body as never, limits),
     buildTable: (body, results) => plan.buildTable(body as never, results as never),
   };
 }
+
+const unavailableEngine: PlanEngine = {
+  cells: () => {
+    throw new Error('plan engine unavailable');
+  },
+  buildTable: () => null,
+};
 
 /** Builds the fastify instance; used by main.ts and by the API tests (isolated on temp dirs). */
 export async function buildApp(options: AppOptions = {}): Promise<FastifyInstance> {
@@ -114,7 +127,7 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
 
   const store = new Store(options.dataDir ?? './data');
   const pool = new WorkerPool(options.workers ?? (await import('node:os')).availableParallelism());
-  const engine = options.planEngine ?? (await defaultPlanEngine());
+  const engine = options.planEngine ?? (await defaultPlanEngine().catch(() => unavailableEngine));
   const plans = new PlanQueue(store, pool, engine, limits, options.maxQueuedPlans ?? 16, app.log as never);
   app.decorate('services', { store, pool, plans, limits, routes });
   app.addHook('onClose', async () => {

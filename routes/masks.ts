@@ -1,0 +1,82 @@
+import { randomUUID } from 'node:crypto';
+import type { FastifyInstance } from 'fastify';
+import type { ZodTypeProvider } from 'fastify-type-provider-zod';
+import { z } from 'zod';
+import { type MaskDiagnostics, type SampledMask, samplingSchema } from '../sampling/index.ts';
+import { preferredType } from '../src/http/accept.ts';
+import { problemResponses } from '../src/http/problem.ts';
+import { resultImageUrl } from '../src/http/result-images.ts';
+import {
+  psfSummary,
+  psfSummarySchema,
+  sampledSummary,
+  sampledSummarySchema,
+} from '../src/http/sampled-summary.ts';
+import { checkMatrixLimit, matrixSchema } from '../src/http/schemas.ts';
+import { greyPng, maskPng } from '../src/render/png.ts';
+
+const maskBody = z
+  .strictObject({ matrix: matrixSchema, sampling: samplingSchema })
+  .meta({ id: 'MaskRequest' });
+
+const maskResponse = sampledSummarySchema
+  .extend({
+    id: z.string().describe('Result id: the PNGs stay available under /v1/results/{id}/'),
+    psf: psfSummarySchema,
+    images: z
+      .object({ mask: z.string(), psf: z.string() })
+      .describe('URLs of the mask and |PSF| (log scale) PNGs'),
+  })
+  .meta({ id: 'MaskResult' });
+
+/** POST /v1/masks: draw a mask, report R, counts and PSF side lobes; Accept: image/png gives the mask itself. */
+export async function maskRoutes(app: FastifyInstance): Promise<void> {
+  const { pool, limits, store } = app.services;
+  app.withTypeProvider<ZodTypeProvider>().post(
+    '/v1/masks',
+    {
+      schema: {
+        summary: 'Draw a sampling mask and its point-spread function',
+        tags: ['sampling'],
+        body: maskBody,
+        response: {
+          200: {
+            description: 'The mask summary, or the mask as PNG with Accept: image/png',
+            content: {
+              'application/json': { schema: maskResponse },
+              'image/png': { schema: z.string().describe('8-bit grey PNG, ny×nx, 255 = acquired') },
+            },
+          },
+          ...problemResponses(400, 401, 413, 415, 422),
+        },
+      },
+    },
+    async (request, reply) => {
+      const { matrix, sampling } = request.body;
+      checkMatrixLimit(matrix, limits);
+      const wantsPng = preferredType(request, ['application/json', 'image/png']) === 'image/png';
+      const { sampled, diagnostics } = await pool.run<{
+        sampled: SampledMask;
+        diagnostics: MaskDiagnostics | null;
+      }>({
+        kind: 'mask',
+        matrix,
+        sampling,
+        limits,
+        diagnostics: !wantsPng,
+      });
+      const mask = await maskPng(sampled);
+      if (wantsPng) return reply.type('image/png').send(mask as unknown as string);
+      const psf = diagnostics!;
+      const id = randomUUID();
+      const body = {
+        id,
+        ...sampledSummary(sampled),
+        psf: psfSummary(psf),
+        images: { mask: resultImageUrl(id, 'mask'), psf: resultImageUrl(id, 'psf') },
+      };
+      store.putResult(id, 'mask', body, { mask, psf: await greyPng(psf.psf, { scale: 'log' }) });
+      return reply.type('application/json').send(body);
+    },
+  );
+}

@@ -1,0 +1,150 @@
+import type { FastifyInstance } from 'fastify';
+import type { ZodTypeProvider } from 'fastify-type-provider-zod';
+import { z } from 'zod';
+import type { RealImage } from '../src/core/real-image.ts';
+import { preferredType } from '../src/http/accept.ts';
+import { HttpProblem, problemResponses } from '../src/http/problem.ts';
+import { checkMatrixLimit } from '../src/http/schemas.ts';
+import { getPhantom, listPhantoms } from '../src/phantoms/index.ts';
+import { greyPng } from '../src/render/png.ts';
+
+const phantomInfoSchema = z.object({ name: z.string(), description: z.string() }).meta({ id: 'PhantomInfo' });
+const phantomListSchema = z.object({ phantoms: z.array(phantomInfoSchema) }).meta({ id: 'PhantomList' });
+
+const nameParams = z.object({
+  name: z.string().min(1).max(100).describe('Phantom name, from GET /v1/phantoms'),
+});
+
+const rasterQuery = z.object({
+  nx: z.coerce.number().int().min(2).max(65_536).default(256).describe('columns (default 256)'),
+  ny: z.coerce.number().int().min(2).max(65_536).default(256).describe('rows (default 256)'),
+  supersample: z.coerce
+    .number()
+    .int()
+    .min(1)
+    .max(8)
+    .default(1)
+    .describe('ss×ss box average per pixel (default 1: pixel centres)'),
+});
+
+const rasterJsonSchema = z
+  .object({
+    name: z.string(),
+    nx: z.int(),
+    ny: z.int(),
+    data: z.array(z.number()).describe('ny·nx intensities, row-major, row 0 at the top (largest y)'),
+  })
+  .meta({ id: 'PhantomRaster' });
+
+const kspaceBody = z
+  .strictObject({
+    points: z
+      .array(z.tuple([z.number(), z.number()]))
+      .min(1)
+      .max(1_048_576)
+      .describe('[kx, ky] in cycles per unit of the phantom frame ([−1, 1]², y up)'),
+  })
+  .meta({ id: 'KspacePoints' });
+
+const kspaceResponse = z
+  .object({
+    values: z.array(z.tuple([z.number(), z.number()])).describe('[re, im] of the exact transform per point'),
+  })
+  .meta({ id: 'KspaceValues' });
+
+function known(name: string): void {
+  if (!listPhantoms().some((p) => p.name === name)) {
+    throw new HttpProblem(404, `no phantom ${JSON.stringify(name)}`, [
+      {
+        field: 'name',
+        message: 'unknown phantom',
+        allowed: listPhantoms()
+          .map((p) => p.name)
+          .join(', '),
+      },
+    ]);
+  }
+}
+
+/** Normalised to the raster's peak so the 16-bit PNG uses its full range. */
+async function rasterPng(image: RealImage): Promise<Buffer> {
+  return greyPng(image, { bits: 16 });
+}
+
+/** GET /v1/phantoms, GET /v1/phantoms/{name} (PNG or JSON), POST /v1/phantoms/{name}/kspace. */
+export async function phantomRoutes(app: FastifyInstance): Promise<void> {
+  const r = app.withTypeProvider<ZodTypeProvider>();
+  const { pool, limits } = app.services;
+
+  r.get(
+    '/v1/phantoms',
+    {
+      schema: {
+        summary: 'The analytic phantoms',
+        tags: ['phantoms'],
+        response: { 200: phantomListSchema, ...problemResponses(401) },
+      },
+    },
+    async () => ({ phantoms: listPhantoms() }),
+  );
+
+  r.get(
+    '/v1/phantoms/:name',
+    {
+      schema: {
+        summary: 'A phantom rasterised on ny×nx: 16-bit grey PNG, or JSON with Accept: application/json',
+        tags: ['phantoms'],
+        params: nameParams,
+        querystring: rasterQuery,
+        response: {
+          200: {
+            description: 'The raster',
+            content: {
+              'image/png': { schema: z.string().describe('16-bit grey PNG, scaled to the raster peak') },
+              'application/json': { schema: rasterJsonSchema },
+            },
+          },
+          ...problemResponses(400, 401, 404, 422),
+        },
+      },
+    },
+    async (request, reply) => {
+      const { name } = request.params;
+      known(name);
+      const { nx, ny, supersample } = request.query;
+      checkMatrixLimit({ nx, ny }, limits);
+      const image = await pool.run<RealImage>({ kind: 'phantom-raster', name, nx, ny, supersample });
+      const wantsJson = preferredType(request, ['image/png', 'application/json']) === 'application/json';
+      if (wantsJson)
+        return reply.type('application/json').send({ name, nx, ny, data: Array.from(image.data) });
+      // A Buffer is sent as is (no serializer); the schema's string type documents the binary body.
+      return reply.type('image/png').send((await rasterPng(image)) as unknown as string);
+    },
+  );
+
+  r.post(
+    '/v1/phantoms/:name/kspace',
+    {
+      schema: {
+        summary: 'Exact analytic k-space of a phantom at arbitrary points',
+        tags: ['phantoms'],
+        params: nameParams,
+        body: kspaceBody,
+        response: { 200: kspaceResponse, ...problemResponses(400, 401, 404, 413, 422) },
+      },
+    },
+    async (request) => {
+      const { name } = request.params;
+      known(name);
+      const { points } = request.body;
+      const kx = new Float64Array(points.length);
+      const ky = new Float64Array(points.length);
+      points.forEach(([x, y], i) => {
+        kx[i] = x;
+        ky[i] = y;
+      });
+      const values = getPhantom(name).kspaceAt(kx, ky);
+      return { values: points.map((_, i) => [values[2 * i], values[2 * i + 1]] as [number, number]) };
+    },
+  );
+}

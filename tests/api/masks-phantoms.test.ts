@@ -1,0 +1,160 @@
+import sharp from 'sharp';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { getPhantom } from '../../src/phantoms/index.ts';
+import { expectDocumented, expectProblem, type TestApp, testApp } from './helpers.ts';
+
+/** Supertest buffers binary bodies only when told to. */
+function binary(
+  res: NodeJS.ReadableStream & { setEncoding(e: string): void },
+  done: (e: Error | null, b: Buffer) => void,
+) {
+  const chunks: Buffer[] = [];
+  res.on('data', (c: Buffer) => chunks.push(c));
+  res.on('end', () => done(null, Buffer.concat(chunks)));
+}
+
+describe('phantoms, masks and result images', () => {
+  let t: TestApp;
+  beforeAll(async () => {
+    t = await testApp({ limits: { maxMatrixSide: 128 } });
+  });
+  afterAll(async () => t.close());
+
+  it('GET /v1/phantoms lists the three analytic phantoms', async () => {
+    const res = await t.http().get('/v1/phantoms');
+    expect(res.status).toBe(200);
+    await expectDocumented('GET', '/v1/phantoms', res);
+    expect(res.body.phantoms.map((p: { name: string }) => p.name)).toEqual([
+      'shepp-logan',
+      'shepp-logan-modified',
+      'resolution-contrast',
+    ]);
+  });
+
+  it('GET /v1/phantoms/{name} as JSON equals the engine raster; as PNG is a 16-bit grey ny×nx image', async () => {
+    const json = await t
+      .http()
+      .get('/v1/phantoms/shepp-logan-modified?nx=32&ny=24')
+      .set('accept', 'application/json');
+    expect(json.status).toBe(200);
+    await expectDocumented('GET', '/v1/phantoms/shepp-logan-modified', json);
+    const raster = getPhantom('shepp-logan-modified').rasterize(32, 24);
+    expect(json.body.data).toEqual(Array.from(raster.data));
+    const png = await t
+      .http()
+      .get('/v1/phantoms/shepp-logan-modified?nx=32&ny=24')
+      .buffer(true)
+      .parse(binary);
+    expect(png.status).toBe(200);
+    expect(png.headers['content-type']).toBe('image/png');
+    // PNG signature (ISO/IEC 15948 §5.2) and header read back by sharp.
+    expect([...png.body.subarray(0, 8)]).toEqual([137, 80, 78, 71, 13, 10, 26, 10]);
+    const meta = await sharp(png.body).metadata();
+    expect([meta.width, meta.height, meta.depth, meta.channels]).toEqual([32, 24, 'ushort', 1]);
+  });
+
+  it('phantom errors: unknown name 404, too large 422 limit, bad query 422', async () => {
+    expectProblem(await t.http().get('/v1/phantoms/brain'), 404, 'name');
+    const big = await t.http().get('/v1/phantoms/shepp-logan?nx=512&ny=512');
+    expect(expectProblem(big, 422, 'matrix.nx').type).toBe('/problems/limit-exceeded');
+    expectProblem(await t.http().get('/v1/phantoms/shepp-logan?nx=1'), 422, 'nx');
+    expectProblem(await t.http().get('/v1/phantoms/shepp-logan?nx=abc'), 400, 'nx');
+  });
+
+  it('POST /v1/phantoms/{name}/kspace returns the exact transform at the given points', async () => {
+    const points: Array<[number, number]> = [
+      [0, 0],
+      [0.5, -0.25],
+      [3.2, 1.7],
+    ];
+    const res = await t.http().post('/v1/phantoms/shepp-logan/kspace').send({ points });
+    expect(res.status).toBe(200);
+    await expectDocumented('POST', '/v1/phantoms/shepp-logan/kspace', res);
+    const expected = getPhantom('shepp-logan').kspaceAt(
+      points.map((p) => p[0]),
+      points.map((p) => p[1]),
+    );
+    expect(res.body.values.flat()).toEqual(Array.from(expected));
+    // The transform of a real object at k = 0 is real (common practice: F(0) = ∫ f).
+    expect(res.body.values[0][1]).toBe(0);
+    expectProblem(
+      await t
+        .http()
+        .post('/v1/phantoms/shepp-logan/kspace')
+        .send({ points: [['a', 1]] }),
+      400,
+      'points[0][0]',
+    );
+    expectProblem(await t.http().post('/v1/phantoms/shepp-logan/kspace').send({ points: [] }), 422, 'points');
+  });
+
+  it('POST /v1/masks: R = total / acquired (DESIGN.md), PSF summary, PNGs under /v1/results/{id}', async () => {
+    const res = await t
+      .http()
+      .post('/v1/masks')
+      .send({
+        matrix: { nx: 64, ny: 64 },
+        sampling: { pattern: 'cartesian-uniform', acceleration: 4, acs: 8 },
+      });
+    expect(res.status).toBe(200);
+    await expectDocumented('POST', '/v1/masks', res);
+    const { acceleration, acquired, total, fraction } = res.body;
+    expect(acquired.unit).toBe('lines');
+    expect(total).toBe(64);
+    expect(acceleration.requested).toBe(4);
+    expect(acceleration.actual).toBeCloseTo(total / acquired.count, 12);
+    expect(fraction).toBeCloseTo(acquired.count / 64, 12);
+    expect(res.body.psf.peakSidelobe).toBeGreaterThan(0);
+    expect(res.body.psf.peakSidelobe).toBeLessThanOrEqual(1);
+    for (const url of [res.body.images.mask, res.body.images.psf]) {
+      const png = await t.http().get(url).buffer(true).parse(binary);
+      expect(png.status).toBe(200);
+      await expectDocumented('GET', url, png);
+      const meta = await sharp(png.body).metadata();
+      expect([meta.width, meta.height]).toEqual([64, 64]);
+    }
+    // The mask PNG has one white row per acquired line: count rows with any 255.
+    const mask = await t.http().get(res.body.images.mask).buffer(true).parse(binary);
+    const { data, info } = await sharp(mask.body).raw().toBuffer({ resolveWithObject: true });
+    let rows = 0;
+    for (let row = 0; row < 64; row++) {
+      let any = false;
+      for (let col = 0; col < 64; col++) any ||= data[(row * 64 + col) * info.channels] === 255;
+      if (any) rows++;
+    }
+    expect(rows).toBe(acquired.count);
+  });
+
+  it('POST /v1/masks with Accept: image/png returns the mask itself', async () => {
+    const res = await t
+      .http()
+      .post('/v1/masks')
+      .set('accept', 'image/png')
+      .send({
+        matrix: { nx: 48, ny: 40 },
+        sampling: { pattern: 'radial', acceleration: 2, angles: 'golden' },
+      })
+      .buffer(true)
+      .parse(binary);
+    expect(res.status).toBe(200);
+    expect(res.headers['content-type']).toBe('image/png');
+    const meta = await sharp(res.body).metadata();
+    expect([meta.width, meta.height]).toEqual([48, 40]);
+  });
+
+  it('mask errors: R too high 422 naming sampling.acceleration; unknown result 404; unknown image name 404', async () => {
+    const res = await t
+      .http()
+      .post('/v1/masks')
+      .send({ matrix: { nx: 32, ny: 32 }, sampling: { pattern: 'cartesian-uniform', acceleration: 64 } });
+    expectProblem(res, 422, 'sampling.acceleration');
+    await expectDocumented('POST', '/v1/masks', res);
+    expectProblem(await t.http().get('/v1/results/nope/mask.png'), 404, 'id');
+    const ok = await t
+      .http()
+      .post('/v1/masks')
+      .send({ matrix: { nx: 32, ny: 32 }, sampling: { pattern: 'cartesian-uniform', acceleration: 2 } });
+    expectProblem(await t.http().get(`/v1/results/${ok.body.id}/reconstruction.png`), 404, 'image');
+    expectProblem(await t.http().get(`/v1/results/${ok.body.id}/secrets.png`), 404, 'image');
+  });
+});
