@@ -4,7 +4,7 @@ import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
 import { HttpProblem, problemResponses } from '../src/http/problem.ts';
 import { idParams } from '../src/http/schemas.ts';
-import { decodeImage } from '../src/io/decode-image.ts';
+import type { DecodedImage } from '../src/io/decode-image.ts';
 import type { StoredImage } from '../src/jobs/store.ts';
 
 const metaValue = z.union([z.string(), z.number(), z.boolean(), z.array(z.number()), z.null()]);
@@ -90,7 +90,7 @@ function statistics(data: Float64Array): { min: number; max: number; mean: numbe
  */
 export async function imageRoutes(app: FastifyInstance): Promise<void> {
   const r = app.withTypeProvider<ZodTypeProvider>();
-  const { store, limits } = app.services;
+  const { store, limits, pool } = app.services;
 
   r.post(
     '/v1/images',
@@ -129,10 +129,11 @@ export async function imageRoutes(app: FastifyInstance): Promise<void> {
         ]);
       }
       const bytes = await part.toBuffer();
-      const decoded = await decodeImage(bytes, {
-        ...request.query,
-        maxSide: limits.maxMatrixSide,
-        maxBytes: 4 * limits.maxUploadBytes,
+      // Decoding (gunzip, DICOM/NIfTI parsing, sharp) runs on a worker: a 64 MB file never stalls the loop.
+      const decoded = await pool.run<DecodedImage>({
+        kind: 'decode',
+        bytes,
+        options: { ...request.query, maxSide: limits.maxMatrixSide, maxBytes: 4 * limits.maxUploadBytes },
       });
       const id = randomUUID();
       const stored = store.putImage(id, decoded.image, {

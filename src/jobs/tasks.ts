@@ -1,9 +1,11 @@
 import type { FieldProblem } from '../core/errors.ts';
 import type { Limits } from '../core/limits.ts';
 import type { RealImage } from '../core/real-image.ts';
+import type { DecodeOptions } from '../io/decoded-image.ts';
 
 /** Work sent to a worker thread: plain, structured-clonable data only. */
 export type WorkerTask =
+  | { kind: 'decode'; bytes: Uint8Array; options: DecodeOptions & { maxBytes?: number } }
   | { kind: 'phantom-raster'; name: string; nx: number; ny: number; supersample?: number }
   | {
       kind: 'mask';

@@ -17,6 +17,11 @@ function imageLoader(uploaded: UploadedPixels | undefined): (id: string) => Prom
 
 async function run(task: WorkerTask): Promise<unknown> {
   switch (task.kind) {
+    case 'decode': {
+      const { decodeImage } = await import('../io/decode-image.ts');
+      const bytes = Buffer.from(task.bytes.buffer, task.bytes.byteOffset, task.bytes.byteLength);
+      return decodeImage(bytes, task.options);
+    }
     case 'phantom-raster': {
       const { getPhantom } = await import('../phantoms/index.ts');
       const phantom = getPhantom(task.name);
