@@ -20,6 +20,7 @@ async function optional(title: string, path: string, exportName: string): Promis
 
 const groups: Group[] = [{ title: 'FFT', run: benchFft }];
 for (const [title, path, name] of [
+  ['phantoms', './phantoms.bench.ts', 'benchPhantoms'],
   ['metrics', './metrics.bench.ts', 'benchMetrics'],
   ['sampling', './sampling.bench.ts', 'benchSampling'],
   ['reconstruction', './recon.bench.ts', 'benchRecon'],
