@@ -11,7 +11,9 @@ export const DEFAULT_POISSON_POWER = 2;
 export const CANDIDATES_PER_SAMPLE = 30;
 /** The radius scale is searched until the actual R is within this relative error of the request. */
 export const TARGET_RELATIVE_ERROR = 0.01;
-const MAX_SCALE_STEPS = 30;
+const MAX_SCALE_STEPS = 16;
+/** The search also stops when the bracket [low, high] of the scale is this narrow (count jumps there). */
+const MIN_BRACKET_RATIO = 1 + 1e-4;
 /** Points per r² of a saturated 2D random disc packing, the starting guess of the scale search. */
 const PACKING_DENSITY = 0.65;
 
@@ -113,13 +115,14 @@ class DartThrower {
       reach2[i] = d * d;
       if (d > largest) largest = d;
     }
-    return largest;
+    // No two grid points are farther apart than the diagonal.
+    return Math.min(largest, Math.hypot(this.nx, this.ny) + 1);
   }
 
   /**
    * Bridson 2007 dart throwing on the integer grid with the radius law above and scale s: an active
-   * sample p proposes up to k candidates uniformly (by area) in the annulus [r(p), 2r(p)], rounded to
-   * the nearest grid point; a candidate c is accepted if no sample q lies closer than (r(c) + r(q))/2.
+   * sample p proposes up to k candidates uniformly (by area) in the annulus [ρ, 2ρ], ρ = max(r(p), 1),
+   * rounded to the nearest grid point; a candidate c is accepted if no sample q lies closer than (r(c) + r(q))/2.
    * Starts from the ACS square's border (or the k-space centre when there is no ACS). Returns the
    * number of sampled points, ACS included; the mask is left in `this.mask`.
    */
@@ -156,7 +159,9 @@ class DartThrower {
       const p = active[slot];
       const px = p % nx;
       const py = (p - px) / nx;
-      const rp = scale * g[p];
+      // Below one grid step every neighbour is far enough, so candidates need to reach at least
+      // the neighbours (an annulus inside one step would round back onto p itself).
+      const rp = Math.max(scale * g[p], 1);
       let accepted = false;
       for (let attempt = 0; attempt < CANDIDATES_PER_SAMPLE; attempt++) {
         // 32 random bits each are ample for a radius and an angle on a grid of ≤ 2^16 points a side.
@@ -237,10 +242,13 @@ function checkPoissonRequest(nx: number, ny: number, R: number, acs: number): nu
 
 /**
  * Variable-density Poisson-disc sampling of the whole ny×nx plane (the phase-encode plane of a 3D
- * acquisition) with a fully sampled central acs×acs square. The radius scale s is searched — a
- * power-law secant step count ∝ s⁻² inside a bisection bracket — until the acquired count is within
- * TARGET_RELATIVE_ERROR of round(nx·ny / R); the closest run found is kept. Every run is seeded with
- * the request's seed, so the same request gives the same mask.
+ * acquisition) with a fully sampled central acs×acs square. The radius scale s is searched — secant
+ * steps on log count against log s inside a bisection bracket — until the acquired count is within
+ * TARGET_RELATIVE_ERROR of round(nx·ny / R); the closest run found is kept and its relative count
+ * error reported. With little or no density fall-off (power ≲ 1) every disc has nearly the same
+ * radius, the grid makes the count jump as the radius crosses √(integer), and some R cannot be met
+ * closely: the actual R says so. Every run is seeded with the request's seed, so the same request
+ * gives the same mask.
  */
 export function poissonDiscMask(matrix: Matrix, spec: PoissonDiscSpec): SampledMask {
   const { nx, ny } = matrix;
@@ -270,6 +278,7 @@ export function poissonDiscMask(matrix: Matrix, spec: PoissonDiscSpec): SampledM
     let bestError = Number.POSITIVE_INFINITY;
     let best = new Uint8Array(0);
     let bestCount = 0;
+    let previous: { scale: number; n: number } | null = null;
     for (steps = 1; steps <= MAX_SCALE_STEPS; steps++) {
       const n = thrower.run(scale, seed);
       const error = n / target - 1;
@@ -282,8 +291,20 @@ export function poissonDiscMask(matrix: Matrix, spec: PoissonDiscSpec): SampledM
       if (Math.abs(error) <= TARGET_RELATIVE_ERROR) break;
       if (error > 0) low = Math.max(low, scale);
       else high = Math.min(high, scale);
-      let next = scale * Math.sqrt(n / target);
-      if (!(next > low && next < high)) next = Number.isFinite(high) ? (low + high) / 2 : 2 * scale;
+      if (low > 0 && high / low < MIN_BRACKET_RATIO) break;
+      // Secant step in log–log (count ∝ scale^−a locally, a = 2 until two runs are known) …
+      let exponent = 2;
+      if (previous && previous.n !== n && previous.scale !== scale) {
+        const measured = -Math.log(n / previous.n) / Math.log(scale / previous.scale);
+        if (measured > 0.2 && measured < 20) exponent = measured;
+      }
+      previous = { scale, n };
+      let next = scale * (n / target) ** (1 / exponent);
+      // … kept inside the bracket, else geometric bisection (or doubling / halving while one side is open).
+      if (!(next > low && next < high)) {
+        if (low > 0 && Number.isFinite(high)) next = Math.sqrt(low * high);
+        else next = Number.isFinite(high) ? high / 2 : 2 * low;
+      }
       scale = next;
     }
     steps = Math.min(steps, MAX_SCALE_STEPS);
@@ -321,6 +342,7 @@ export function poissonDiscMask(matrix: Matrix, spec: PoissonDiscSpec): SampledM
       radiusScale: scale,
       densityPower: power,
       scaleSearchSteps: steps,
+      relativeCountError: count / target - 1,
     },
   };
 }

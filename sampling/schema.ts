@@ -18,8 +18,16 @@ export type SamplingPattern = (typeof SAMPLING_PATTERNS)[number];
 
 /** Largest seed: the generator state is seeded from 32 bits. */
 export const MAX_SEED = 4294967295;
-/** Largest polynomial power accepted for variable density (Lustig 2007 calls d ≈ 50 "weak"). */
-export const MAX_DENSITY_POWER = 64;
+/** Largest polynomial power for random lines (Lustig 2007 calls d ≈ 50 "weak" variable density). */
+export const MAX_LINE_DENSITY_POWER = 64;
+/**
+ * Fall-off powers for Poisson-disc. Some fall-off is needed: with equal radii everywhere (power 0)
+ * the grid allows only a few distinct counts (the count jumps as the radius crosses √(integer)),
+ * and R could miss the request by over 20 %. p = 8 already makes the edge radius (1 + √2)⁴ ≈ 34
+ * times the centre one (density ratio ≈ 1150); more would only make the disc search radius huge.
+ */
+export const MIN_POISSON_DENSITY_POWER = 0.5;
+export const MAX_POISSON_DENSITY_POWER = 8;
 
 const acceleration = z
   .number()
@@ -44,17 +52,19 @@ const seed = z
   .optional()
   .describe('Seed of every random choice; required by cartesian-random and poisson-disc.');
 
-const density = z
-  .object({
-    power: z
-      .number()
-      .min(0)
-      .max(MAX_DENSITY_POWER)
-      .optional()
-      .describe('Polynomial fall-off of the sampling density with |k| (default 2).'),
-  })
-  .optional()
-  .describe('Variable-density law (cartesian-random, poisson-disc).');
+function densitySchema(minPower: number, maxPower: number, law: string) {
+  return z
+    .object({
+      power: z
+        .number()
+        .min(minPower)
+        .max(maxPower)
+        .optional()
+        .describe(`Polynomial fall-off of the sampling density with |k| (default 2): ${law}.`),
+    })
+    .optional()
+    .describe('Variable-density law.');
+}
 
 export const cartesianUniformSchema = z.object({
   pattern: z.literal('cartesian-uniform'),
@@ -68,7 +78,7 @@ export const cartesianRandomSchema = z.object({
   acceleration,
   acs,
   seed,
-  density,
+  density: densitySchema(0, MAX_LINE_DENSITY_POWER, 'probability ∝ (1 − |ky|/max|ky|)^power'),
 });
 
 export const poissonDiscSchema = z.object({
@@ -76,7 +86,11 @@ export const poissonDiscSchema = z.object({
   acceleration,
   acs,
   seed,
-  density,
+  density: densitySchema(
+    MIN_POISSON_DENSITY_POWER,
+    MAX_POISSON_DENSITY_POWER,
+    'disc radius ∝ (1 + ρ)^(power/2), density ∝ (1 + ρ)^(−power)',
+  ),
 });
 
 export const radialSchema = z.object({

@@ -167,6 +167,19 @@ describe('bad sampling input gives a ValidationError naming the field and the al
       ),
     );
     expect(power).toMatchObject({ field: 'sampling.density.power', allowed: '≥ 0' });
+    // Poisson-disc needs some fall-off and at most 8 (sampling/schema.ts states why).
+    for (const [value, allowed] of [
+      [0, '≥ 0.5'],
+      [9, '≤ 8'],
+    ] as const) {
+      const [p] = problemsOf(() =>
+        generateMask(
+          square,
+          spec({ pattern: 'poisson-disc', acceleration: 2, seed: 1, density: { power: value } }),
+        ),
+      );
+      expect(p).toMatchObject({ field: 'sampling.density.power', allowed });
+    }
     const [angles] = problemsOf(() =>
       generateMask(square, spec({ pattern: 'radial', acceleration: 2, angles: 'spiral' })),
     );

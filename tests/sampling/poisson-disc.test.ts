@@ -84,13 +84,26 @@ describe('poisson-disc: variable-density Poisson-disc over the ny×nx plane (Bri
     }
   });
 
+  it('within ±3 % for other fall-off powers (0.5, 1, 5, 8) too', () => {
+    for (const power of [0.5, 1, 5, 8]) {
+      for (const R of [3, 8]) {
+        const m = generateMask(
+          { nx: 200, ny: 200 },
+          { pattern: 'poisson-disc', acceleration: R, seed: 5, density: { power } },
+        );
+        expect(Math.abs(m.acceleration.actual / R - 1)).toBeLessThanOrEqual(0.03);
+        expect(m.details?.densityPower).toBe(power);
+      }
+    }
+  });
+
   it('minimum distance: no two samples closer than (r(a) + r(b))/2 under the stated radius law', () => {
     for (const [n, R, acs, power] of [
       [128, 4, 0, 2],
       [128, 12, 16, 2],
       [200, 8, 24, 2],
       [160, 3, 0, 4],
-      [128, 6, 0, 0],
+      [128, 6, 0, 1],
     ]) {
       const m = generateMask(
         { nx: n, ny: n },

@@ -87,7 +87,8 @@ describe('radial sampling', () => {
     expect(Array.from(m.spokeAngles!)).toEqual([0, Math.PI / 2]);
     let mismatches = 0;
     for (let v = 0; v < n; v++)
-      for (let u = 0; u < n; u++) if (m.mask[v * n + u] !== (v === 128 || (u === 128 && v >= 1) ? 1 : 0)) mismatches++;
+      for (let u = 0; u < n; u++)
+        if (m.mask[v * n + u] !== (v === 128 || (u === 128 && v >= 1) ? 1 : 0)) mismatches++;
     expect(mismatches).toBe(0);
     expect(m.fraction).toBe((2 * n - 2) / (n * n));
   });
