@@ -189,7 +189,8 @@ export class PlanRun {
     this.plot?.stopResizing?.();
     this.plot?.destroy();
     const metric = byId('plotMetric').value;
-    this.plot = drawTradeoffPlot(byId('tradeoffPlot'), planPoints(this.plan, metric), metric);
+    const paretoMetric = this.plan.table.paretoMetric;
+    this.plot = drawTradeoffPlot(byId('tradeoffPlot'), planPoints(this.plan, metric), metric, paretoMetric);
   }
 
   /** The service's own sentence (its numbers, its rounding); the table row it names is highlighted. */

@@ -12,6 +12,7 @@ const numberCell = (key) => document.querySelector(`[data-key="${key}"]`);
 const resultImages = [
   { element: 'imgReconstruction', keys: ['reconstruction'], file: 'reconstruction' },
   { element: 'imgZeroFilled', keys: ['zeroFilled', 'zero-filled'], file: 'zero-filled' },
+  { element: 'imgReference', keys: ['reference'], file: 'reference' },
   { element: 'imgErrorMap', keys: ['errorMap', 'error-map', 'error'], file: 'error-map' },
   { element: 'imgMask', keys: ['mask'], file: 'mask' },
   { element: 'imgPsf', keys: ['psf'], file: 'psf' },
@@ -49,10 +50,8 @@ function showMaskNumbers(mask) {
 function showScanTimes(full, under) {
   const fullCell = numberCell('time.full');
   const underCell = numberCell('time.under');
-  showNumber(fullCell, full.seconds, 'seconds');
-  fullCell.textContent = `${full.formatted} (${fullCell.textContent} s)`;
-  showNumber(underCell, under.seconds, 'seconds');
-  underCell.textContent = `${under.formatted} (${underCell.textContent} s)`;
+  showNumber(fullCell, full.seconds, 'seconds', ` s (${full.formatted})`);
+  showNumber(underCell, under.seconds, 'seconds', ` s (${under.formatted})`);
   const saved = full.seconds > 0 ? (100 * (full.seconds - under.seconds)) / full.seconds : null;
   showNumber(numberCell('time.saved'), saved, 'percent', ' %');
 }
@@ -133,7 +132,7 @@ export class SingleRun {
     this.lastMask = mask;
     showStatus(
       this.status,
-      `Mask ready: ${mask.acquired?.count ?? '?'} ${mask.acquired?.unit ?? ''} acquired. Reconstruct to see the PSF and images.`,
+      `Mask ready: ${mask.acquired?.count ?? '?'} ${mask.acquired?.unit ?? ''} acquired. Reconstruct to see the images.`,
     );
   }
 

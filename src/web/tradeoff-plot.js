@@ -17,9 +17,10 @@ const metricLabels = {
 const noLine = () => null;
 
 /**
- * points: [{ series, x (scan seconds), y (metric), pareto, recommended }]. Returns the uPlot instance.
+ * points: [{ series, x (scan seconds), y (metric), pareto, recommended }]; the plan's Pareto front is
+ * computed on paretoMetric, which may differ from the plotted metric. Returns the uPlot instance.
  */
-export function drawTradeoffPlot(container, points, metric) {
+export function drawTradeoffPlot(container, points, metric, paretoMetric) {
   container.replaceChildren();
   const xs = [...new Set(points.map((p) => p.x))].sort((a, b) => a - b);
   const xIndex = new Map(xs.map((x, i) => [x, i]));
@@ -48,7 +49,7 @@ export function drawTradeoffPlot(container, points, metric) {
       value: (_u, v) => (v == null ? '–' : v.toFixed(4)),
     })),
     {
-      label: 'Pareto front',
+      label: `Pareto front (${String(paretoMetric).toUpperCase()})`,
       stroke: '#1d2b2f',
       width: 1.5,
       dash: [6, 4],
