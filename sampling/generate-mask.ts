@@ -13,11 +13,13 @@ import { parseSampling, type SamplingSpec } from './schema.ts';
  * Generates the mask of a sampling spec on a matrix, synchronously, for every pattern but `custom`
  * (whose PNG is decoded asynchronously by resolveSampling). Matrix and spec are validated here too,
  * so a caller that skipped the schema still gets ValidationError / LimitError naming the field.
+ * `signal` lets a caller cancel the one pattern that takes long on big matrices (poisson-disc).
  */
 export function generateMask(
   matrix: Matrix,
   spec: SamplingSpec,
   limits: Limits = defaultLimits,
+  signal?: AbortSignal,
 ): SampledMask {
   const size = validateMatrix(matrix, limits);
   const parsed = parseSampling(spec);
@@ -27,7 +29,7 @@ export function generateMask(
     case 'cartesian-random':
       return cartesianRandomMask(size, parsed);
     case 'poisson-disc':
-      return poissonDiscMask(size, parsed);
+      return poissonDiscMask(size, parsed, signal);
     case 'radial':
       return radialMask(size, parsed);
     case 'custom':
@@ -45,9 +47,10 @@ export async function resolveSampling(
   matrix: Matrix,
   spec: SamplingSpec,
   limits: Limits = defaultLimits,
+  signal?: AbortSignal,
 ): Promise<SampledMask> {
   const size = validateMatrix(matrix, limits);
   const parsed = parseSampling(spec);
   if (parsed.pattern === 'custom') return decodeCustomMask(size, parsed, limits);
-  return generateMask(size, parsed, limits);
+  return generateMask(size, parsed, limits, signal);
 }

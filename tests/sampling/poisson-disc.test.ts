@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { generateMask, type SampledMask } from '../../sampling/index.ts';
+import { CancelledError } from '../../src/core/errors.ts';
 
 /**
  * The radius law as documented in sampling/poisson-disc.ts, restated independently here:
@@ -179,5 +180,20 @@ describe('poisson-disc: variable-density Poisson-disc over the ny×nx plane (Bri
     const m = generateMask({ nx: 40, ny: 30 }, { pattern: 'poisson-disc', acceleration: 1, seed: 1 });
     expect(m.mask.every((v) => v === 1)).toBe(true);
     expect(m.acceleration.actual).toBe(1);
+  });
+});
+
+describe('poisson-disc cancellation', () => {
+  it('an aborted signal stops the generation with a CancelledError', () => {
+    const controller = new AbortController();
+    controller.abort();
+    expect(() =>
+      generateMask(
+        { nx: 128, ny: 128 },
+        { pattern: 'poisson-disc', acceleration: 4, seed: 1 },
+        undefined,
+        controller.signal,
+      ),
+    ).toThrow(CancelledError);
   });
 });
