@@ -3,6 +3,7 @@
  * Row p of H(z) is the window at p = (py, px), p ∈ V = [0, ny−wy]×[0, nx−wx] (windows fully inside),
  * column a = (ay, ax) ∈ W = [0, wy)×[0, wx) holds z[p + a]; column index a = ay·wx + ax.
  * Every operation here costs O(N·(2w−1)²) time and O(N) memory, never a dense (N × w²) matrix.
+ * The Gram matrix sums the products of one or two lifted arrays (two for the stacked derivative weighting).
  */
 export class BlockHankel {
   readonly nx: number;
@@ -12,8 +13,13 @@ export class BlockHankel {
   /** Window size n = wy·wx: the Gram matrix is n×n. */
   readonly size: number;
   private readonly prefix: Float64Array;
-  /** Kernel K[d] of the rank-projection followed by averaging, d ∈ [−(wy−1), wy−1]×[−(wx−1), wx−1]. */
-  private readonly kernel: Float64Array;
+  /** Window-offset boxes per row / column position (see offsetBoxes). */
+  private readonly rowBox: Int32Array;
+  private readonly rowBoxes: Int32Array;
+  private readonly colBox: Int32Array;
+  private readonly colBoxes: Int32Array;
+  /** Averaging kernels K_box[d], d ∈ [−(wy−1), wy−1]×[−(wx−1), wx−1], one per (row box, column box). */
+  private readonly kernels: Float64Array;
 
   constructor(nx: number, ny: number, wx: number, wy: number) {
     if (wx < 1 || wy < 1 || wx > nx || wy > ny)
@@ -24,7 +30,15 @@ export class BlockHankel {
     this.wy = wy;
     this.size = wx * wy;
     this.prefix = new Float64Array(2 * (nx + 1) * (ny + 1));
-    this.kernel = new Float64Array(2 * (2 * wx - 1) * (2 * wy - 1));
+    const rows = offsetBoxes(ny, wy);
+    const cols = offsetBoxes(nx, wx);
+    this.rowBox = rows.boxOf;
+    this.rowBoxes = rows.ranges;
+    this.colBox = cols.boxOf;
+    this.colBoxes = cols.ranges;
+    this.kernels = new Float64Array(
+      2 * (2 * wx - 1) * (2 * wy - 1) * (rows.ranges.length / 2) * (cols.ranges.length / 2),
+    );
   }
 
   /**
@@ -37,10 +51,14 @@ export class BlockHankel {
     const stride = nx + 1;
     const vy = ny - wy + 1;
     const vx = nx - wx + 1;
+    const z0 = arrays[0];
+    if (arrays.length < 1 || arrays.length > 2) throw new RangeError('gram takes one or two arrays');
+    const z1 = arrays.length > 1 ? arrays[1] : undefined;
     for (let dy = 0; dy < wy; dy++) {
       for (let dx = -(wx - 1); dx < wx; dx++) {
         if (dy === 0 && dx < 0) continue;
         // prefix[(r+1)·stride + (c+1)] = Σ_{r' ≤ r, c' ≤ c} conj(z[r',c']) z[r'+dy, c'+dx]
+        // (terms whose partner q + d falls outside the grid are zero; no rectangle reads them).
         const c0 = Math.max(0, -dx);
         const c1 = Math.min(nx, nx - dx);
         for (let r = 0; r < ny; r++) {
@@ -50,21 +68,37 @@ export class BlockHankel {
           const above = 2 * (r * stride);
           prefix[out] = 0;
           prefix[out + 1] = 0;
-          const inside = r + dy < ny;
-          for (let c = 0; c < nx; c++) {
-            if (inside && c >= c0 && c < c1) {
+          let c = 0;
+          if (r + dy < ny) {
+            for (; c < c0; c++) {
+              const o = out + 2 * (c + 1);
+              prefix[o] = prefix[above + 2 * (c + 1)];
+              prefix[o + 1] = prefix[above + 2 * (c + 1) + 1];
+            }
+            const offset = 2 * (dy * nx + dx);
+            for (; c < c1; c++) {
               const i = 2 * (r * nx + c);
-              const j = 2 * ((r + dy) * nx + c + dx);
-              for (let s = 0; s < arrays.length; s++) {
-                const z = arrays[s];
-                const ar = z[i];
-                const ai = z[i + 1];
-                const br = z[j];
-                const bi = z[j + 1];
+              const j = i + offset;
+              let ar = z0[i];
+              let ai = z0[i + 1];
+              let br = z0[j];
+              let bi = z0[j + 1];
+              rowRe += ar * br + ai * bi;
+              rowIm += ar * bi - ai * br;
+              if (z1 !== undefined) {
+                ar = z1[i];
+                ai = z1[i + 1];
+                br = z1[j];
+                bi = z1[j + 1];
                 rowRe += ar * br + ai * bi;
                 rowIm += ar * bi - ai * br;
               }
+              const o = out + 2 * (c + 1);
+              prefix[o] = prefix[above + 2 * (c + 1)] + rowRe;
+              prefix[o + 1] = prefix[above + 2 * (c + 1) + 1] + rowIm;
             }
+          }
+          for (; c < nx; c++) {
             const o = out + 2 * (c + 1);
             prefix[o] = prefix[above + 2 * (c + 1)] + rowRe;
             prefix[o + 1] = prefix[above + 2 * (c + 1) + 1] + rowIm;
@@ -73,14 +107,10 @@ export class BlockHankel {
         for (let ay = 0; ay + dy < wy; ay++) {
           for (let ax = Math.max(0, -dx); ax < wx && ax + dx < wx; ax++) {
             // rows ay … ay+vy−1, cols ax … ax+vx−1
-            const r0 = ay;
-            const r1 = ay + vy;
-            const q0 = ax;
-            const q1 = ax + vx;
-            const k11 = 2 * (r1 * stride + q1);
-            const k01 = 2 * (r0 * stride + q1);
-            const k10 = 2 * (r1 * stride + q0);
-            const k00 = 2 * (r0 * stride + q0);
+            const k11 = 2 * ((ay + vy) * stride + ax + vx);
+            const k01 = 2 * (ay * stride + ax + vx);
+            const k10 = 2 * ((ay + vy) * stride + ax);
+            const k00 = 2 * (ay * stride + ax);
             const re = prefix[k11] - prefix[k01] - prefix[k10] + prefix[k00];
             const im = prefix[k11 + 1] - prefix[k01 + 1] - prefix[k10 + 1] + prefix[k00 + 1];
             const a = ay * wx + ax;
@@ -97,14 +127,18 @@ export class BlockHankel {
 
   /**
    * Sets the projector Π = Σ_{k<rank} v_k v_kᴴ from the leading eigenvectors (columns of `vectors`,
-   * interleaved, row-major n×n) and folds it into the averaging kernel K[d] = Σ_b Π[b+d, b].
-   * `projector` receives Π (n×n interleaved) for the boundary pixels.
+   * interleaved, row-major n×n) and folds it into averaging kernels: sample q lies in the windows
+   * p = q − b for the offsets b whose window fits (b in a box set by q's distance to the edges), so
+   *   x̂[q] = (1/#b) Σ_b Σ_a z[q − b + a] Π[a,b] = (1/#b) Σ_d K_box[d] z[q + d],
+   *   K_box[d] = Σ_{b ∈ box} Π[b + d, b].
+   * One kernel per distinct box (interior samples all share the full box), so every sample costs
+   * (2wy−1)(2wx−1) multiply-adds. `projector` is scratch of n×n complex numbers.
    */
   setProjector(projector: Float64Array, vectors: Float64Array, rank: number): void {
-    const { size: n, wx, wy, kernel } = this;
+    const { size: n, wx, wy, kernels, rowBoxes, colBoxes } = this;
     projector.fill(0);
     for (let a = 0; a < n; a++) {
-      for (let b = 0; b < n; b++) {
+      for (let b = a; b < n; b++) {
         let re = 0;
         let im = 0;
         for (let k = 0; k < rank; k++) {
@@ -117,19 +151,30 @@ export class BlockHankel {
         }
         projector[2 * (a * n + b)] = re;
         projector[2 * (a * n + b) + 1] = im;
+        projector[2 * (b * n + a)] = re;
+        projector[2 * (b * n + a) + 1] = -im;
       }
     }
-    kernel.fill(0);
+    kernels.fill(0);
     const kw = 2 * wx - 1;
-    for (let a = 0; a < n; a++) {
-      const ay = Math.floor(a / wx);
-      const ax = a - ay * wx;
-      for (let b = 0; b < n; b++) {
-        const by = Math.floor(b / wx);
-        const bx = b - by * wx;
-        const k = 2 * ((ay - by + wy - 1) * kw + (ax - bx + wx - 1));
-        kernel[k] += projector[2 * (a * n + b)];
-        kernel[k + 1] += projector[2 * (a * n + b) + 1];
+    const kernelSize = 2 * kw * (2 * wy - 1);
+    const nCol = colBoxes.length / 2;
+    for (let ry = 0; ry < rowBoxes.length / 2; ry++) {
+      for (let rx = 0; rx < nCol; rx++) {
+        const base = (ry * nCol + rx) * kernelSize;
+        for (let by = rowBoxes[2 * ry]; by <= rowBoxes[2 * ry + 1]; by++) {
+          for (let bx = colBoxes[2 * rx]; bx <= colBoxes[2 * rx + 1]; bx++) {
+            const b = by * wx + bx;
+            for (let ay = 0; ay < wy; ay++) {
+              for (let ax = 0; ax < wx; ax++) {
+                const a = ay * wx + ax;
+                const k = base + 2 * ((ay - by + wy - 1) * kw + (ax - bx + wx - 1));
+                kernels[k] += projector[2 * (a * n + b)];
+                kernels[k + 1] += projector[2 * (a * n + b) + 1];
+              }
+            }
+          }
+        }
       }
     }
   }
@@ -137,65 +182,67 @@ export class BlockHankel {
   /**
    * out ← H†(H(z) Π): the rank projection of every window followed by averaging each k-space
    * sample over the windows that contain it (the adjoint of the lifting divided by the count).
-   * Interior samples (covered by all n windows) use the kernel; border samples the exact sum.
    */
-  projectAverage(out: Float64Array, z: Float64Array, projector: Float64Array): void {
-    const { nx, ny, wx, wy, size: n, kernel } = this;
+  projectAverage(out: Float64Array, z: Float64Array): void {
+    const { nx, ny, wx, wy, kernels, rowBoxes, colBoxes, rowBox, colBox } = this;
     const kw = 2 * wx - 1;
-    const inv = 1 / n;
+    const kernelSize = 2 * kw * (2 * wy - 1);
+    const nCol = colBoxes.length / 2;
     for (let qy = 0; qy < ny; qy++) {
-      const rowInterior = qy >= wy - 1 && qy <= ny - wy;
+      const ry = rowBox[qy];
+      const rowCount = rowBoxes[2 * ry + 1] - rowBoxes[2 * ry] + 1;
+      const dy0 = Math.max(-(wy - 1), -qy);
+      const dy1 = Math.min(wy - 1, ny - 1 - qy);
       for (let qx = 0; qx < nx; qx++) {
-        const o = 2 * (qy * nx + qx);
-        if (rowInterior && qx >= wx - 1 && qx <= nx - wx) {
-          let re = 0;
-          let im = 0;
-          for (let dy = -(wy - 1); dy < wy; dy++) {
-            const zRow = 2 * ((qy + dy) * nx + qx);
-            const kRow = 2 * ((dy + wy - 1) * kw + wx - 1);
-            for (let dx = -(wx - 1); dx < wx; dx++) {
-              const zr = z[zRow + 2 * dx];
-              const zi = z[zRow + 2 * dx + 1];
-              const kr = kernel[kRow + 2 * dx];
-              const ki = kernel[kRow + 2 * dx + 1];
-              re += kr * zr - ki * zi;
-              im += kr * zi + ki * zr;
-            }
-          }
-          out[o] = re * inv;
-          out[o + 1] = im * inv;
-          continue;
-        }
-        // Border: windows p = q − b with p ∈ V.
-        const by0 = Math.max(0, qy - (ny - wy));
-        const by1 = Math.min(wy - 1, qy);
-        const bx0 = Math.max(0, qx - (nx - wx));
-        const bx1 = Math.min(wx - 1, qx);
+        const rx = colBox[qx];
+        const count = rowCount * (colBoxes[2 * rx + 1] - colBoxes[2 * rx] + 1);
+        const base = (ry * nCol + rx) * kernelSize;
+        const dx0 = Math.max(-(wx - 1), -qx);
+        const dx1 = Math.min(wx - 1, nx - 1 - qx);
         let re = 0;
         let im = 0;
-        for (let by = by0; by <= by1; by++) {
-          for (let bx = bx0; bx <= bx1; bx++) {
-            const b = by * wx + bx;
-            const py = qy - by;
-            const px = qx - bx;
-            for (let ay = 0; ay < wy; ay++) {
-              const zRow = 2 * ((py + ay) * nx + px);
-              for (let ax = 0; ax < wx; ax++) {
-                const a = ay * wx + ax;
-                const pr = projector[2 * (a * n + b)];
-                const pi = projector[2 * (a * n + b) + 1];
-                const zr = z[zRow + 2 * ax];
-                const zi = z[zRow + 2 * ax + 1];
-                re += pr * zr - pi * zi;
-                im += pr * zi + pi * zr;
-              }
-            }
+        for (let dy = dy0; dy <= dy1; dy++) {
+          const zRow = 2 * ((qy + dy) * nx + qx);
+          const kRow = base + 2 * ((dy + wy - 1) * kw + wx - 1);
+          for (let dx = dx0; dx <= dx1; dx++) {
+            const zr = z[zRow + 2 * dx];
+            const zi = z[zRow + 2 * dx + 1];
+            const kr = kernels[kRow + 2 * dx];
+            const ki = kernels[kRow + 2 * dx + 1];
+            re += kr * zr - ki * zi;
+            im += kr * zi + ki * zr;
           }
         }
-        const count = (by1 - by0 + 1) * (bx1 - bx0 + 1);
+        const o = 2 * (qy * nx + qx);
         out[o] = re / count;
         out[o + 1] = im / count;
       }
     }
   }
+}
+
+/**
+ * For each position along one axis of length `length` (window `w`), the range [b0, b1] of window
+ * offsets whose window still fits; positions with the same range share one box index.
+ */
+function offsetBoxes(length: number, w: number): { boxOf: Int32Array; ranges: Int32Array } {
+  const boxOf = new Int32Array(length);
+  const found: number[] = [];
+  for (let q = 0; q < length; q++) {
+    const b0 = Math.max(0, q - (length - w));
+    const b1 = Math.min(w - 1, q);
+    let index = -1;
+    for (let i = 0; i < found.length; i += 2) {
+      if (found[i] === b0 && found[i + 1] === b1) {
+        index = i / 2;
+        break;
+      }
+    }
+    if (index < 0) {
+      index = found.length / 2;
+      found.push(b0, b1);
+    }
+    boxOf[q] = index;
+  }
+  return { boxOf, ranges: Int32Array.from(found) };
 }

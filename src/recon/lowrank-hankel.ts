@@ -15,9 +15,18 @@ export const HANKEL_TOLERANCE_RULE: NumberRule = { min: 0, max: 1, maxExclusive:
 export const WEIGHTINGS = ['none', 'gradient'] as const;
 export type HankelWeighting = (typeof WEIGHTINGS)[number];
 
+/**
+ * Defaults, measured on the 1974 Shepp–Logan phantom (analytic k-space, 128², R = 4, seed 11;
+ * the tests assert on the modified phantom with another seed): with the 'gradient' weighting a
+ * 7×7 window at rank 20–28 reaches ≈ 0.3× (random lines) and ≈ 0.15× (Poisson-disc) of the
+ * zero-filled NRMSE, best near half the window area; unweighted lifting at the same rank is worse
+ * than zero-filled. Rectangular 9×5 / 5×9 windows were no better. Energy thresholds picked
+ * unstable ranks on Poisson-disc masks (0.985 → rank 32, error ×5), so the default rank is fixed.
+ */
 export const HANKEL_DEFAULTS = {
-  kernel: [9, 5] as [number, number],
-  energy: 0.999,
+  kernel: [7, 7] as [number, number],
+  /** Default rank = round(rankFraction · window area) when neither rank nor energy is given. */
+  rankFraction: 0.5,
   weighting: 'gradient' as HankelWeighting,
   iterations: 100,
   tolerance: 1e-5,
@@ -29,9 +38,9 @@ export const lowrankHankelSchema = z.strictObject({
   name: z.literal('lowrank-hankel'),
   /** Window side w (w×w), or [rows (ky), columns (kx)] for a rectangular window. */
   kernel: z.union([kernelSide, z.tuple([kernelSide, kernelSide])]).optional(),
-  /** Truncation rank; when absent the rank is chosen each iteration by `energy`. */
+  /** Truncation rank (≤ window area); default half the window area unless `energy` is given. */
   rank: z.number().int().min(1).optional(),
-  /** Fraction of the Gram trace (Σ σ²) the chosen rank keeps, 0 < energy < 1. */
+  /** Choose the rank each iteration as the smallest keeping this fraction of Σσ², 0 < energy < 1. */
   energy: z.number().gt(0).lt(1).optional(),
   /** 'gradient': lift k-space weighted by the derivative's spectral factor (Ongie & Jacob 2016). */
   weighting: z.enum(WEIGHTINGS).optional(),
@@ -173,8 +182,8 @@ export function solveLowrankHankel(
     rank = params.rank ?? rankForEnergy(eigen.values, params.energy);
     lift.setProjector(projector, eigen.vectors, rank);
     if (gradientWeighting) {
-      lift.projectAverage(px, zx, projector);
-      lift.projectAverage(py, zy, projector);
+      lift.projectAverage(px, zx);
+      lift.projectAverage(py, zy);
       for (let i = 0; i < n; i++) {
         if (mask[i] || inverseWeight[i] === 0) continue;
         const s = inverseWeight[i];
@@ -182,7 +191,7 @@ export function solveLowrankHankel(
         x[2 * i + 1] = (weightX[i] * px[2 * i + 1] + weightY[i] * py[2 * i + 1]) * s;
       }
     } else {
-      lift.projectAverage(px, x, projector);
+      lift.projectAverage(px, x);
       for (let i = 0; i < n; i++) {
         if (mask[i]) continue;
         x[2 * i] = px[2 * i];
@@ -211,11 +220,25 @@ export const lowrankHankel: ReconMethod<LowrankHankelSpec> = {
     const { nx, ny } = input.kspace;
     const kernel = checkedKernel(spec.kernel, nx, ny);
     const area = kernel[0] * kernel[1];
+    const energy =
+      spec.energy === undefined ? undefined : checkedNumber(spec.energy, 'method.energy', ENERGY_RULE, 0);
+    if (spec.rank !== undefined && energy !== undefined) {
+      throw new ValidationError({
+        field: 'method.energy',
+        message: 'give either rank or energy, not both',
+        allowed: 'rank | energy',
+      });
+    }
+    const rankMode = spec.rank !== undefined ? 'given' : energy !== undefined ? 'energy' : 'default';
     const rank =
-      spec.rank === undefined
+      rankMode === 'energy'
         ? undefined
-        : checkedNumber(spec.rank, 'method.rank', { min: 1, max: area, integer: true }, 0);
-    const energy = checkedNumber(spec.energy, 'method.energy', ENERGY_RULE, HANKEL_DEFAULTS.energy);
+        : checkedNumber(
+            spec.rank,
+            'method.rank',
+            { min: 1, max: area, integer: true },
+            Math.max(1, Math.round(HANKEL_DEFAULTS.rankFraction * area)),
+          );
     const weighting = checkedChoice(
       spec.weighting,
       'method.weighting',
@@ -231,7 +254,7 @@ export const lowrankHankel: ReconMethod<LowrankHankelSpec> = {
     );
     const result = solveLowrankHankel(
       input,
-      { kernel, rank, energy, weighting, iterations, tolerance },
+      { kernel, rank, energy: energy ?? 1, weighting, iterations, tolerance },
       signal,
     );
     const image = createComplexImage(nx, ny);
@@ -251,9 +274,9 @@ export const lowrankHankel: ReconMethod<LowrankHankelSpec> = {
           'alternating projections: block-Hankel rank truncation (Jacobi eigendecomposition of the Gram matrix), averaging, data consistency',
         kernel: kernel,
         weighting,
-        rankMode: rank === undefined ? 'energy' : 'given',
+        rankMode,
         rank: result.rank,
-        ...(rank === undefined ? { energy } : {}),
+        ...(energy !== undefined ? { energy } : {}),
         energyKept: total > 0 ? kept / total : 1,
         iterations: result.iterations,
         iterationLimit: iterations,

@@ -61,7 +61,7 @@ describe('block-Hankel lifting without forming the matrix', () => {
     const projector = new Float64Array(2 * n * n);
     lift.setProjector(projector, solver.vectors, rank);
     const out = new Float64Array(2 * nx * ny);
-    lift.projectAverage(out, z1, projector);
+    lift.projectAverage(out, z1);
     // Explicit: project every row onto span(v_0, v_1), scatter-add, divide by the counts.
     const sum = new Float64Array(2 * nx * ny);
     const count = new Float64Array(nx * ny);

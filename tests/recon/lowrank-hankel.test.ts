@@ -143,6 +143,16 @@ describe('lowrank-hankel completion', () => {
     expect(out.info.rank).toBe(3);
     expect(out.info.energyKept as number).toBeGreaterThan(0.999999);
   });
+
+  it('without rank or energy uses half the window area and reports rankMode default', () => {
+    const nx = 16;
+    const ny = 16;
+    const out = reconstruct(
+      { kspace: fft2c(randomComplexImage(nx, ny, 4)), mask: fullMask(nx, ny) },
+      { name: 'lowrank-hankel', iterations: 1 },
+    );
+    expect(out.info).toMatchObject({ rankMode: 'default', rank: 25, kernel: [7, 7], weighting: 'gradient' });
+  });
 });
 
 describe('lowrank-hankel parameters', () => {
@@ -182,6 +192,10 @@ describe('lowrank-hankel parameters', () => {
       allowed: 'integer 1 ≤ rank ≤ 25',
     });
     expect(problem({ energy: 1 })).toMatchObject({ field: 'method.energy', allowed: '0 < energy < 1' });
+    expect(problem({ energy: 0.9, rank: 3 })).toMatchObject({
+      field: 'method.energy',
+      allowed: 'rank | energy',
+    });
     expect(problem({ weighting: 'laplacian' })).toMatchObject({
       field: 'method.weighting',
       allowed: 'none | gradient',
