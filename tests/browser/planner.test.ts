@@ -256,6 +256,24 @@ describe('planner page in Chromium', () => {
     expect(psfWidth).toBe(32);
   });
 
+  it('marks the control a service problem names', async () => {
+    const errorsBefore = pageErrors.length;
+    await page.fill('#acceleration', '0.5');
+    const refused = waitForApi('/v1/masks', 'POST', 'application/json');
+    await page.click('#maskButton');
+    const response = await refused;
+    expect(response.status()).toBeGreaterThanOrEqual(400);
+    const problem = (await response.json()) as { errors: Array<{ field: string }> };
+    expect(problem.errors.map((e) => e.field)).toContain('sampling.acceleration');
+    await page.waitForFunction(() => !(document.querySelector('#maskButton') as HTMLButtonElement).disabled);
+    expect(await page.getAttribute('#acceleration', 'aria-invalid')).toBe('true');
+    expect(await page.locator('#singleProblems').textContent()).toContain('sampling.acceleration');
+    // The browser logs the refused requests; they are the point of this check, not page errors.
+    const logged = pageErrors.splice(errorsBefore);
+    expect(logged.every((line) => /status of 4\d\d/.test(line))).toBe(true);
+    await page.fill('#acceleration', '2');
+  });
+
   it('runs a reconstruction and shows its images, metrics and scan time', async () => {
     await page.selectOption('#method', 'cs-tv');
     const reconResponse = waitForApi('/v1/reconstructions');
@@ -417,7 +435,11 @@ describe('planner page in Chromium', () => {
 
   it('stays usable at 420 px wide', async () => {
     await page.setViewportSize({ width: 420, height: 900 });
-    await page.waitForTimeout(100); // let the plot follow its container
+    // The plot follows its container (a ResizeObserver), so wait for it to fit.
+    await page.waitForFunction(() => {
+      const plot = document.querySelector('#tradeoffPlot .uplot') as HTMLElement | null;
+      return plot !== null && plot.getBoundingClientRect().right <= window.innerWidth;
+    });
     const overflow = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth);
     expect(overflow).toBeLessThanOrEqual(0);
     const buttonBox = await page.locator('#reconButton').boundingBox();
