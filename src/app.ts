@@ -11,6 +11,8 @@ import { imageRoutes } from '../routes/images.ts';
 import { maskRoutes } from '../routes/masks.ts';
 import { openapiRoutes } from '../routes/openapi.ts';
 import { phantomRoutes } from '../routes/phantoms.ts';
+import { planRoutes } from '../routes/plans.ts';
+import { reconstructionRoutes } from '../routes/reconstructions.ts';
 import { resultRoutes } from '../routes/results.ts';
 import { scanTimeRoutes } from '../routes/scan-time.ts';
 import { defaultLimits, type Limits } from './core/limits.ts';
@@ -20,6 +22,7 @@ import { swaggerOptions } from './http/openapi.ts';
 import { type PlanEngine, PlanQueue } from './jobs/plan-queue.ts';
 import { Store } from './jobs/store.ts';
 import { WorkerPool } from './jobs/worker-pool.ts';
+import { buildTable, type CellResult, type Plan, planCells } from './plan/index.ts';
 
 export interface AppOptions {
   /** Where the SQLite file lives; default ./data. */
@@ -67,26 +70,18 @@ const resourcePlugins: FastifyPluginAsync[] = [
   phantomRoutes,
   imageRoutes,
   maskRoutes,
+  reconstructionRoutes,
   resultRoutes,
   scanTimeRoutes,
+  planRoutes,
   // one line per resource plugin
 ];
 const optionalPlugins = [new URL('../routes/web.ts', import.meta.url)];
 
 /** The plan engine (src/plan): cells are expanded and tables built here; runCell runs in the workers. */
-async function defaultPlanEngine(): Promise<PlanEngine> {
-  const plan = await import('./plan/index.ts');
-  return {
-    cells: (body, limits) => plan.planCells(body as never, limits),
-    buildTable: (body, results) => plan.buildTable(body as never, results as never),
-  };
-}
-
-const unavailableEngine: PlanEngine = {
-  cells: () => {
-    throw new Error('plan engine unavailable');
-  },
-  buildTable: () => null,
+const defaultPlanEngine: PlanEngine = {
+  cells: (body, limits) => planCells(body as Plan, limits),
+  buildTable: (body, results) => buildTable(body as Plan, results as CellResult[]),
 };
 
 /** Builds the fastify instance; used by main.ts and by the API tests (isolated on temp dirs). */
@@ -127,7 +122,7 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
 
   const store = new Store(options.dataDir ?? './data');
   const pool = new WorkerPool(options.workers ?? (await import('node:os')).availableParallelism());
-  const engine = options.planEngine ?? (await defaultPlanEngine().catch(() => unavailableEngine));
+  const engine = options.planEngine ?? defaultPlanEngine;
   const plans = new PlanQueue(store, pool, engine, limits, options.maxQueuedPlans ?? 16, app.log as never);
   app.decorate('services', { store, pool, plans, limits, routes });
   app.addHook('onClose', async () => {

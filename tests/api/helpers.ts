@@ -122,3 +122,15 @@ export function expectProblem(
   if (field !== undefined) expect(problem.errors.map((e: { field: string }) => e.field)).toContain(field);
   return problem;
 }
+
+function collectBinary(res: NodeJS.ReadableStream, done: (error: Error | null, body: Buffer) => void): void {
+  const chunks: Buffer[] = [];
+  res.on('data', (chunk: Buffer) => chunks.push(chunk));
+  res.on('end', () => done(null, Buffer.concat(chunks)));
+}
+
+/** supertest parser that keeps a binary body (PNG) as a Buffer; superagent passes the raw response stream. */
+export const binary = collectBinary as unknown as (
+  res: request.Response,
+  callback: (error: Error | null, body: unknown) => void,
+) => void;

@@ -1,17 +1,7 @@
 import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { getPhantom } from '../../src/phantoms/index.ts';
-import { expectDocumented, expectProblem, type TestApp, testApp } from './helpers.ts';
-
-/** Supertest buffers binary bodies only when told to. */
-function binary(
-  res: NodeJS.ReadableStream & { setEncoding(e: string): void },
-  done: (e: Error | null, b: Buffer) => void,
-) {
-  const chunks: Buffer[] = [];
-  res.on('data', (c: Buffer) => chunks.push(c));
-  res.on('end', () => done(null, Buffer.concat(chunks)));
-}
+import { binary, expectDocumented, expectProblem, type TestApp, testApp } from './helpers.ts';
 
 describe('phantoms, masks and result images', () => {
   let t: TestApp;

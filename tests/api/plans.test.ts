@@ -1,0 +1,239 @@
+import { parse as parseCsv } from 'csv-parse/sync';
+import { createParser, type EventSourceMessage } from 'eventsource-parser';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { expectDocumented, expectProblem, type TestApp, testApp } from './helpers.ts';
+
+/** A small sweep: 32² phantom, 1 pattern × 2 R × 2 methods × 2 seeds + reference = 10 cells. */
+const smallPlan = {
+  source: { phantom: 'shepp-logan-modified' },
+  matrix: { nx: 32, ny: 32 },
+  protocol: { trMs: 500 },
+  patterns: [{ pattern: 'cartesian-random', acs: 4 }],
+  accelerations: [2, 3],
+  methods: [{ name: 'zero-filled' }, { name: 'cs-tv', iterations: 15 }],
+  seeds: 2,
+};
+
+/** Slower cells (more iterations, 48²) so a test can act while the plan runs. */
+const slowPlan = {
+  ...smallPlan,
+  matrix: { nx: 48, ny: 48 },
+  accelerations: [2, 3, 4],
+  methods: [{ name: 'cs-tv', iterations: 300 }],
+  seeds: 3,
+};
+
+const sleep = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
+
+async function waitFor(
+  t: TestApp,
+  id: string,
+  until: (body: { status: string; progress: { done: number } }) => boolean,
+) {
+  for (let i = 0; i < 2400; i++) {
+    const res = await t.http().get(`/v1/plans/${id}`);
+    if (until(res.body)) return res;
+    await sleep(25);
+  }
+  throw new Error(`plan ${id} did not reach the state in time`);
+}
+
+const finished = (b: { status: string }) => ['done', 'failed', 'cancelled'].includes(b.status);
+
+/** Drops the one quantity that differs between runs: reconstruction wall time. */
+function withoutTiming(table: { rows: Array<Record<string, unknown>> }) {
+  return { ...table, rows: table.rows.map(({ reconMs: _ignored, ...row }) => row) };
+}
+
+describe('plans as jobs', () => {
+  let t: TestApp;
+  beforeAll(async () => {
+    t = await testApp({ workers: 2, limits: { maxPlanCells: 200, maxIterations: 500 } });
+  });
+  afterAll(async () => t.close());
+
+  it('POST answers 202 at once with Location; polling reaches done with the table and recommendation', async () => {
+    const res = await t.http().post('/v1/plans').send(smallPlan);
+    expect(res.status).toBe(202);
+    await expectDocumented('POST', '/v1/plans', res);
+    expect(res.headers.location).toBe(`/v1/plans/${res.body.id}`);
+    expect(['queued', 'running']).toContain(res.body.status);
+    expect(res.body.progress.total).toBe(10); // (1 + 1·2·2) × 2
+    const done = await waitFor(t, res.body.id, finished);
+    expect(done.body.status).toBe('done');
+    await expectDocumented('GET', res.headers.location, done);
+    expect(done.body.progress).toMatchObject({ done: 10, total: 10 });
+    expect(done.body.table.rows).toHaveLength(5); // reference + 2 R × 2 methods
+    expect(done.body.table.rows[0].requestedR).toBe(1);
+    expect(typeof done.body.recommendation.statement).toBe('string');
+  });
+
+  it('GET /health keeps answering while a plan runs (cells run in worker threads)', async () => {
+    const res = await t.http().post('/v1/plans').send(slowPlan);
+    await waitFor(t, res.body.id, (b) => b.status === 'running');
+    let answered = 0;
+    while ((await t.http().get(`/v1/plans/${res.body.id}`)).body.status === 'running' && answered < 20) {
+      const health = await t.http().get('/health');
+      expect(health.status).toBe(200);
+      expect(health.body.status).toBe('ok');
+      answered++;
+    }
+    expect(answered).toBeGreaterThan(0);
+    await t.http().delete(`/v1/plans/${res.body.id}`);
+  });
+
+  it('table.csv is RFC 4180: header row, CRLF records, one record per table row, parsed back by csv-parse', async () => {
+    const res = await t.http().post('/v1/plans').send(smallPlan);
+    const done = await waitFor(t, res.body.id, finished);
+    const csv = await t.http().get(`/v1/plans/${res.body.id}/table.csv`);
+    expect(csv.status).toBe(200);
+    await expectDocumented('GET', `/v1/plans/${res.body.id}/table.csv`, csv);
+    expect(csv.headers['content-type']).toMatch(/^text\/csv; charset=utf-8; header=present/);
+    expect(csv.text).toMatch(/\r\n/);
+    expect(csv.text.replace(/\r\n/g, '')).not.toMatch(/\n/);
+    const records = parseCsv(csv.text, { columns: true }) as Array<Record<string, string>>;
+    expect(records).toHaveLength(done.body.table.rows.length);
+  });
+
+  it('events: text/event-stream read with eventsource-parser (WHATWG SSE, REFERENCES §10.7): progress then done', async () => {
+    await t.app.listen({ port: 0, host: '127.0.0.1' });
+    const address = t.app.server.address();
+    const port = typeof address === 'object' && address ? address.port : 0;
+    const res = await t.http().post('/v1/plans').send(smallPlan);
+    const stream = await fetch(`http://127.0.0.1:${port}/v1/plans/${res.body.id}/events`);
+    expect(stream.status).toBe(200);
+    expect(stream.headers.get('content-type')).toMatch(/^text\/event-stream/);
+    const events: EventSourceMessage[] = [];
+    let retry: number | null = null;
+    const parser = createParser({
+      onEvent: (event) => events.push(event),
+      onRetry: (ms) => {
+        retry = ms;
+      },
+    });
+    const decoder = new TextDecoder();
+    for await (const chunk of stream.body as unknown as AsyncIterable<Uint8Array>)
+      parser.feed(decoder.decode(chunk, { stream: true }));
+    expect(retry).toBe(2000);
+    const last = events.at(-1)!;
+    expect(last.event).toBe('done');
+    expect(JSON.parse(last.data).status).toBe('done');
+    const progress = events.filter((e) => e.event === 'progress').map((e) => JSON.parse(e.data));
+    expect(progress.length).toBeGreaterThan(0);
+    const ids = events.map((e) => Number(e.id));
+    for (let i = 1; i < ids.length; i++) expect(ids[i]).toBeGreaterThanOrEqual(ids[i - 1]);
+    expect(ids.at(-1)).toBe(10);
+    for (const p of progress) expect(p.total).toBe(10);
+  });
+
+  it('DELETE cancels a running plan; afterwards DELETE and table.csv answer 409, unknown ids 404', async () => {
+    const res = await t.http().post('/v1/plans').send(slowPlan);
+    await waitFor(t, res.body.id, (b) => b.status === 'running');
+    const del = await t.http().delete(`/v1/plans/${res.body.id}`);
+    expect(del.status).toBe(200);
+    await expectDocumented('DELETE', `/v1/plans/${res.body.id}`, del);
+    expect(del.body.status).toBe('cancelled');
+    expect((await t.http().get(`/v1/plans/${res.body.id}`)).body.status).toBe('cancelled');
+    expectProblem(await t.http().delete(`/v1/plans/${res.body.id}`), 409, 'id');
+    expectProblem(await t.http().get(`/v1/plans/${res.body.id}/table.csv`), 409, 'id');
+    for (const url of ['/v1/plans/nope', '/v1/plans/nope/table.csv', '/v1/plans/nope/events']) {
+      expectProblem(await t.http().get(url), 404, 'id');
+    }
+    expectProblem(await t.http().delete('/v1/plans/nope'), 404, 'id');
+    // The service keeps working after a cancel (the worker thread was replaced).
+    const next = await t.http().post('/v1/plans').send(smallPlan);
+    expect((await waitFor(t, next.body.id, finished)).body.status).toBe('done');
+  });
+
+  it('bad plans: wrong types 400, out of range 422, too many cells 422 (limit), unknown image 404', async () => {
+    expectProblem(
+      await t
+        .http()
+        .post('/v1/plans')
+        .send({ ...smallPlan, seeds: 'three' }),
+      400,
+      'seeds',
+    );
+    expectProblem(
+      await t
+        .http()
+        .post('/v1/plans')
+        .send({ ...smallPlan, accelerations: [0.5] }),
+      422,
+      'accelerations[0]',
+    );
+    const many = await t
+      .http()
+      .post('/v1/plans')
+      .send({ ...smallPlan, seeds: 100 });
+    expect(expectProblem(many, 422).type).toBe('/problems/limit-exceeded');
+    expectProblem(
+      await t
+        .http()
+        .post('/v1/plans')
+        .send({ ...smallPlan, source: { imageId: 'missing' } }),
+      404,
+      'source.imageId',
+    );
+    const tooHigh = await t
+      .http()
+      .post('/v1/plans')
+      .send({ ...smallPlan, patterns: [{ pattern: 'cartesian-uniform' }], accelerations: [40] });
+    expectProblem(tooHigh, 422);
+  });
+});
+
+describe('bounded queue', () => {
+  it('answers 429 problem+json with an integer Retry-After when full (RFC 6585 §4, RFC 9110 10.2.3)', async () => {
+    const t = await testApp({ workers: 1, maxQueuedPlans: 1, limits: { maxIterations: 500 } });
+    try {
+      const first = await t.http().post('/v1/plans').send(slowPlan);
+      expect(first.status).toBe(202);
+      const second = await t.http().post('/v1/plans').send(smallPlan);
+      expectProblem(second, 429);
+      await expectDocumented('POST', '/v1/plans', second);
+      expect(second.headers['retry-after']).toMatch(/^[1-9]\d*$/);
+      await t.http().delete(`/v1/plans/${first.body.id}`);
+      expect((await t.http().post('/v1/plans').send(smallPlan)).status).toBe(202);
+    } finally {
+      await t.close();
+    }
+  });
+});
+
+describe('persistence: a restart resumes queued/running plans from their last finished cell', () => {
+  it('close mid-plan, rebuild on the same DATA_DIR: the complete table equals an uninterrupted run', async () => {
+    const plan = { ...slowPlan, methods: [{ name: 'cs-tv', iterations: 120 }] };
+    const total = (1 + 3) * 3;
+    const first = await testApp({ workers: 1, limits: { maxIterations: 500 } });
+    const res = await first.http().post('/v1/plans').send(plan);
+    await waitFor(first, res.body.id, (b) => b.progress.done >= 3);
+    await first.close();
+    const doneAtClose = (await import('../../src/jobs/store.ts')).Store;
+    const store = new doneAtClose(first.dataDir);
+    const kept = store.getPlan(res.body.id)!;
+    store.close();
+    expect(kept.status).toBe('running');
+    expect(kept.done).toBeGreaterThanOrEqual(3);
+    expect(kept.done).toBeLessThan(total);
+
+    const second = await testApp({ workers: 1, dataDir: first.dataDir, limits: { maxIterations: 500 } });
+    const reference = await testApp({ workers: 1, limits: { maxIterations: 500 } });
+    try {
+      const resumed = await second.http().get(`/v1/plans/${res.body.id}`);
+      expect(resumed.body.progress.done).toBeGreaterThanOrEqual(kept.done);
+      const resumedDone = await waitFor(second, res.body.id, finished);
+      expect(resumedDone.body.status).toBe('done');
+      const fresh = await reference.http().post('/v1/plans').send(plan);
+      const freshDone = await waitFor(reference, fresh.body.id, finished);
+      expect(withoutTiming(resumedDone.body.table)).toEqual(withoutTiming(freshDone.body.table));
+      const csvResumed = (await second.http().get(`/v1/plans/${res.body.id}/table.csv`)).text;
+      expect(csvResumed.split('\r\n')[0]).toBe(
+        (await reference.http().get(`/v1/plans/${fresh.body.id}/table.csv`)).text.split('\r\n')[0],
+      );
+    } finally {
+      await second.close();
+      await reference.close();
+    }
+  });
+});
