@@ -31,7 +31,7 @@ export async function benchSampling(): Promise<BenchResult[]> {
     medianMs: medianMs(7, () =>
       generateMask({ nx: 256, ny: 256 }, { pattern: 'poisson-disc', acceleration: 6, seed: ++seed }),
     ),
-    note: `actual R ${poisson.acceleration.actual.toFixed(3)}, ${poisson.details?.scaleSearchSteps} radius-scale runs (seed 1)`,
+    note: `actual R ${poisson.acceleration.actual.toFixed(3)}, dart-throwing runs in the scale search: ${poisson.details?.scaleSearchSteps} (seed 1)`,
   });
 
   results.push({

@@ -80,8 +80,10 @@ describe('PSF diagnostics', () => {
   });
 
   it('i.i.d. random masks: RMS side lobe ≈ √((1 − f)/(f·N)) (REFERENCES.md §3.6: 0.1083 and 0.01353)', () => {
-    // 1D, N = 256, f = 0.25, mean over 100 draws: the draw-to-draw spread of the acquired fraction gives
-    // about 12 % per draw, 1.2 % on the mean, so 4 % is over 3 standard errors.
+    // By Parseval (test above) a draw's RMS is √((1 − f̂)/(f̂·(N − 1))): only the acquired fraction f̂ is
+    // random. 1D, N = 256, f = 0.25: sd(f̂)/f = 10.8 %, times |d ln RMS / d ln f| = 1/(2(1 − f)) = 2/3 →
+    // 7.2 % per draw, 0.72 % on the mean of 100 draws; the 4 % tolerance is over 5 standard errors and
+    // leaves room for the N − 1 vs N and Jensen biases (about +0.2 % and +0.4 %).
     let sum1d = 0;
     for (let seed = 0; seed < 100; seed++) {
       const d = maskDiagnostics(iidMask(1, 256, 0.25, seed));
@@ -89,7 +91,7 @@ describe('PSF diagnostics', () => {
     }
     expect(Math.abs(sum1d / 100 / 0.1083 - 1)).toBeLessThan(0.04);
     expect(Math.sqrt(0.75 / (0.25 * 256))).toBeCloseTo(0.1083, 4);
-    // 2D, 128², f = 0.25, mean over 10 draws: about 1.6 % per draw, 0.5 % on the mean; 2 % tolerance.
+    // 2D, 128², f = 0.25: sd(f̂)/f = 1.35 % → 0.9 % per draw, 0.28 % on the mean of 10; 2 % tolerance.
     let sum2d = 0;
     for (let seed = 0; seed < 10; seed++) {
       const d = maskDiagnostics(iidMask(128, 128, 0.25, 1000 + seed));
