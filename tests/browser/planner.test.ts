@@ -450,6 +450,33 @@ describe('planner page in Chromium', () => {
     await page.screenshot({ path: join(artifacts, 'planner-narrow-420-top.png') });
   });
 
+  it('cancels a running plan from the page', async () => {
+    // A plan long enough to be still running when Cancel is pressed: (1 + 6 R) × 10 seeds of 64×64 CS-TV.
+    await page.fill('#nx', '64');
+    await page.fill('#ny', '64');
+    await page.fill('#iterations', '400');
+    await page.fill('#planAccelerations', '2, 3, 4, 5, 6, 8');
+    await page.fill('#planSeeds', '10');
+    for (const box of await page.$$('input[name="planPattern"]')) await box.setChecked(false);
+    await page.check('input[name="planPattern"][value="cartesian-random"]');
+    for (const box of await page.$$('input[name="planMethod"]')) await box.setChecked(false);
+    await page.check('input[name="planMethod"][value="cs-tv"]');
+    const accepted = waitForApi('/v1/plans');
+    await page.click('#planButton');
+    const { id } = (await (await accepted).json()) as { id: string };
+    const cancelled = waitForApi(`/v1/plans/${id}`, 'DELETE');
+    await page.click('#cancelButton');
+    expect((await cancelled).status()).toBe(200);
+    await page.waitForFunction(() => !(document.querySelector('#planButton') as HTMLButtonElement).disabled);
+    const plan = (await (await api(`/v1/plans/${id}`)).json()) as {
+      status: string;
+      progress: { done: number; total: number };
+    };
+    expect(plan.status).toBe('cancelled');
+    expect(plan.progress.done).toBeLessThan(plan.progress.total);
+    expect(await page.locator('#planStatus').textContent()).toContain('cancelled');
+  });
+
   it('made no request off the service origin and raised no page errors', () => {
     expect(offOrigin).toEqual([]);
     expect(pageErrors).toEqual([]);
