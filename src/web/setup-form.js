@@ -143,7 +143,12 @@ export class SetupForm {
       return spec;
     }
     if (name === 'lowrank-hankel') {
-      const spec = { name, kernel: numberOf('kernel'), iterations: numberOf('iterations') };
+      const spec = {
+        name,
+        kernel: numberOf('kernel'),
+        weighting: byId('weighting').value,
+        iterations: numberOf('iterations'),
+      };
       const rank = numberOf('rank');
       if (rank !== undefined) spec.rank = rank;
       return spec;

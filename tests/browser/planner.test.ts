@@ -374,7 +374,11 @@ describe('planner page in Chromium', () => {
     const plan = (await (await api(`/v1/plans/${id}`)).json()) as {
       status: string;
       progress: { done: number; total: number };
-      table: { rows: Array<Record<string, unknown>>; paretoMetric: string };
+      table: {
+        rows: Array<Record<string, unknown>>;
+        paretoMetric: string;
+        recommendation: { statement: string; overall: { key: string } | null };
+      };
     };
     expect(plan.status).toBe('done');
     // (1 fully sampled reference + 2 patterns × 2 R × 2 methods) × 1 seed.
@@ -407,6 +411,21 @@ describe('planner page in Chromium', () => {
       }
     });
     expect(compared).toBeGreaterThanOrEqual(plan.table.rows.length * 4);
+
+    // The recommendation is the service's sentence, and its row is the highlighted one.
+    expect(await page.locator('#recommendation').textContent()).toBe(plan.table.recommendation.statement);
+    const highlighted = await page.$$eval('#planTable tr.recommended', (rows) =>
+      rows.map((row) => (row as HTMLElement).dataset.row),
+    );
+    expect(highlighted).toEqual(
+      plan.table.recommendation.overall ? [plan.table.recommendation.overall.key] : [],
+    );
+    const paretoRows = await page.$$eval('#planTable tr.pareto', (rows) =>
+      rows.map((row) => (row as HTMLElement).dataset.row),
+    );
+    expect(paretoRows).toEqual(
+      plan.table.rows.filter((row) => row.pareto && !row.reference).map((row) => row.key),
+    );
 
     // The plot: uPlot's canvas has ink; its legend names the reference, one series per pattern+method,
     // the Pareto front and the recommendation (uPlot leaves the x series out of a static legend).
