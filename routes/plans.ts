@@ -5,7 +5,7 @@ import { HttpProblem, problemResponses } from '../src/http/problem.ts';
 import { idParams } from '../src/http/schemas.ts';
 import type { PlanProgress } from '../src/jobs/plan-queue.ts';
 import type { StoredPlan } from '../src/jobs/store.ts';
-import { type PlanTable, planSchema, tableToCsv, validatePlan } from '../src/plan/index.ts';
+import { type Plan, type PlanTable, planSchema, tableToCsv } from '../src/plan/index.ts';
 
 const statusSchema = z.enum(['queued', 'running', 'done', 'failed', 'cancelled']);
 
@@ -79,7 +79,7 @@ function notFound(id: string): HttpProblem {
 /** Plans as jobs: POST (202 at once), GET status/table, GET table.csv, GET events (SSE), DELETE (cancel). */
 export async function planRoutes(app: FastifyInstance): Promise<void> {
   const r = app.withTypeProvider<ZodTypeProvider>();
-  const { plans, store, limits } = app.services;
+  const { plans, store, limits, pool } = app.services;
   // Open event streams are ended before the server closes, or close would wait for them.
   const streams = new Set<() => void>();
   app.addHook('preClose', async () => {
@@ -120,8 +120,10 @@ export async function planRoutes(app: FastifyInstance): Promise<void> {
       },
     },
     async (request, reply) => {
-      // Limits (matrix, iterations, cells) and one draw of every mask, before anything is queued.
-      const plan = validatePlan(request.body, { limits, checkMasks: true });
+      // Limits (matrix, iterations, cells) and one draw of every mask, before anything is queued
+      // (src/plan validatePlan, on a worker thread).
+      plans.checkCapacity();
+      const plan = await pool.run<Plan>({ kind: 'validate-plan', body: request.body, limits });
       const source = plan.source as { imageId?: string };
       if (source.imageId !== undefined && !store.getImageInfo(source.imageId)) {
         throw new HttpProblem(404, `no uploaded image ${source.imageId}`, [

@@ -72,11 +72,16 @@ export class PlanQueue extends EventEmitter {
     this.pump();
   }
 
+  /** Throws QueueFullError when no plan can be queued now (checked before and at submission). */
+  checkCapacity(): void {
+    if (this.active.length >= this.capacity) throw new QueueFullError(this.retryAfterSeconds());
+  }
+
   /** Queues a validated plan; throws LimitError for oversized plans, QueueFullError when full. */
   submit(body: unknown): StoredPlan {
     if (this.closed) throw new CancelledError();
     const total = this.engine.cells(body, this.limits).length;
-    if (this.active.length >= this.capacity) throw new QueueFullError(this.retryAfterSeconds());
+    this.checkCapacity();
     const id = randomUUID();
     const stored = this.store.createPlan(id, body, total);
     this.active.push(this.activePlan(id, body, total, 0));

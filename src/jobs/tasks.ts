@@ -15,6 +15,7 @@ export type WorkerTask =
       diagnostics: boolean;
     }
   | { kind: 'reconstruction'; request: unknown; seed?: number; image?: UploadedPixels; limits: Limits }
+  | { kind: 'validate-plan'; body: unknown; limits: Limits }
   | { kind: 'cell'; plan: unknown; cell: unknown; image?: UploadedPixels; limits: Limits };
 
 /** An uploaded image the task needs, sent along so workers never open the database. */

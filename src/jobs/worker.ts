@@ -45,6 +45,11 @@ async function run(task: WorkerTask): Promise<unknown> {
       });
       return { outcome, diagnostics: maskDiagnostics(outcome.sampled) };
     }
+    case 'validate-plan': {
+      // Draws every pattern × R mask once: at large matrices that is real work, so not on the event loop.
+      const { validatePlan } = await import('../plan/index.ts');
+      return validatePlan(task.body, { limits: task.limits, checkMasks: true });
+    }
     case 'cell': {
       const { runCell } = await import('../plan/index.ts');
       return runCell(task.plan as never, task.cell as never, {

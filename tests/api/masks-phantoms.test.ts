@@ -147,4 +147,26 @@ describe('phantoms, masks and result images', () => {
     expectProblem(await t.http().get(`/v1/results/${ok.body.id}/reconstruction.png`), 404, 'image');
     expectProblem(await t.http().get(`/v1/results/${ok.body.id}/secrets.png`), 404, 'image');
   });
+
+  it('custom mask (base64 PNG, decoded on a worker): fraction = sampled points / (nx·ny), requested R null', async () => {
+    const samples = new Uint8Array(32 * 32);
+    for (let row = 0; row < 32; row += 4) samples.fill(255, row * 32, row * 32 + 32); // 8 full lines
+    const png = await sharp(samples, { raw: { width: 32, height: 32, channels: 1 } })
+      .png()
+      .toBuffer();
+    const res = await t
+      .http()
+      .post('/v1/masks')
+      .send({ matrix: { nx: 32, ny: 32 }, sampling: { pattern: 'custom', maskPng: png.toString('base64') } });
+    expect(res.status).toBe(200);
+    expect(res.body.fraction).toBe(0.25); // 8·32 / 32² (INTERFACES.md: fraction definition)
+    expect(res.body.acceleration.requested).toBeNull();
+    const wrongSize = await t
+      .http()
+      .post('/v1/masks')
+      .send({ matrix: { nx: 64, ny: 32 }, sampling: { pattern: 'custom', maskPng: png.toString('base64') } });
+    expect(wrongSize.status).toBeGreaterThanOrEqual(400);
+    expect(wrongSize.status).toBeLessThan(500);
+    expect(wrongSize.headers['content-type']).toMatch(/^application\/problem\+json/);
+  });
 });
