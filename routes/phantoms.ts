@@ -5,7 +5,7 @@ import type { RealImage } from '../src/core/real-image.ts';
 import { preferredType } from '../src/http/accept.ts';
 import { HttpProblem, problemResponses } from '../src/http/problem.ts';
 import { checkMatrixLimit } from '../src/http/schemas.ts';
-import { getPhantom, listPhantoms } from '../src/phantoms/index.ts';
+import { listPhantoms } from '../src/phantoms/index.ts';
 import { greyPng } from '../src/render/png.ts';
 
 const phantomInfoSchema = z.object({ name: z.string(), description: z.string() }).meta({ id: 'PhantomInfo' });
@@ -143,7 +143,8 @@ export async function phantomRoutes(app: FastifyInstance): Promise<void> {
         kx[i] = x;
         ky[i] = y;
       });
-      const values = getPhantom(name).kspaceAt(kx, ky);
+      // Up to a million points × every shape: on a worker, not the event loop.
+      const values = await pool.run<Float64Array>({ kind: 'phantom-kspace', name, kx, ky });
       return { values: points.map((_, i) => [values[2 * i], values[2 * i + 1]] as [number, number]) };
     },
   );

@@ -22,6 +22,10 @@ async function run(task: WorkerTask): Promise<unknown> {
       const bytes = Buffer.from(task.bytes.buffer, task.bytes.byteOffset, task.bytes.byteLength);
       return decodeImage(bytes, task.options);
     }
+    case 'phantom-kspace': {
+      const { getPhantom } = await import('../phantoms/index.ts');
+      return getPhantom(task.name).kspaceAt(task.kx, task.ky);
+    }
     case 'phantom-raster': {
       const { getPhantom } = await import('../phantoms/index.ts');
       const phantom = getPhantom(task.name);
