@@ -1,3 +1,6 @@
+import { fft2c, ifft2c } from '../core/centered-fft.ts';
+import { type ComplexImage, createComplexImage } from '../core/complex-image.ts';
+
 /**
  * Block-Hankel lifting of a ny×nx complex k-space with a wy×wx window, without forming the matrix.
  * Row p of H(z) is the window at p = (py, px), p ∈ V = [0, ny−wy]×[0, nx−wx] (windows fully inside),
@@ -12,12 +15,23 @@ export class BlockHankel {
   readonly wy: number;
   /** Window size n = wy·wx: the Gram matrix is n×n. */
   readonly size: number;
-  private readonly prefix: Float64Array;
+  /** Row boundaries 0…wy−1, vy…vy+wy−1 and column boundaries likewise, where rectangle corners fall. */
+  private readonly rowBounds: Int32Array;
+  private readonly colBounds: Int32Array;
+  /** Position of a boundary value in rowBounds / colBounds. */
+  private readonly rowSlot: Int32Array;
+  private readonly colSlot: Int32Array;
+  /** S(rowBound_i, colBound_j) per lag, interleaved complex, and the running column accumulators. */
+  private readonly cornerSums: Float64Array;
+  private readonly columnSums: Float64Array;
   /** Window-offset boxes per row / column position (see offsetBoxes). */
   private readonly rowBox: Int32Array;
   private readonly rowBoxes: Int32Array;
   private readonly colBox: Int32Array;
   private readonly colBoxes: Int32Array;
+  /** Image-domain multiplier of the interior kernel and FFT scratch (see projectAverage). */
+  private readonly multiplier: ComplexImage;
+  private readonly scratch: ComplexImage;
   /** Averaging kernels K_box[d], d ∈ [−(wy−1), wy−1]×[−(wx−1), wx−1], one per (row box, column box). */
   private readonly kernels: Float64Array;
 
@@ -29,13 +43,24 @@ export class BlockHankel {
     this.wx = wx;
     this.wy = wy;
     this.size = wx * wy;
-    this.prefix = new Float64Array(2 * (nx + 1) * (ny + 1));
+    const vy = ny - wy + 1;
+    const vx = nx - wx + 1;
+    const rowCorners = cornerBounds(wy, vy, ny);
+    const colCorners = cornerBounds(wx, vx, nx);
+    this.rowBounds = rowCorners.bounds;
+    this.rowSlot = rowCorners.slot;
+    this.colBounds = colCorners.bounds;
+    this.colSlot = colCorners.slot;
+    this.cornerSums = new Float64Array(2 * this.rowBounds.length * this.colBounds.length);
+    this.columnSums = new Float64Array(2 * this.colBounds.length);
     const rows = offsetBoxes(ny, wy);
     const cols = offsetBoxes(nx, wx);
     this.rowBox = rows.boxOf;
     this.rowBoxes = rows.ranges;
     this.colBox = cols.boxOf;
     this.colBoxes = cols.ranges;
+    this.multiplier = createComplexImage(nx, ny);
+    this.scratch = createComplexImage(nx, ny);
     this.kernels = new Float64Array(
       2 * (2 * wx - 1) * (2 * wy - 1) * (rows.ranges.length / 2) * (cols.ranges.length / 2),
     );
@@ -43,76 +68,81 @@ export class BlockHankel {
 
   /**
    * gram ← Σ_z H(z)ᴴ H(z) over the given arrays: G[a,b] = Σ_{p∈V} conj(z[p+a]) z[p+b].
-   * For each lag d = b − a one product image conj(z[q]) z[q+d] and its 2-D prefix sum give every
-   * entry with that lag as one rectangle sum over q ∈ a + V.
+   * For each lag d = b − a, every entry with that lag is a rectangle sum over q ∈ a + V of the
+   * product image P_d[q] = conj(z[q]) z[q+d]. The rectangles' corners lie on 2·wy row and 2·wx
+   * column boundaries only, so one pass over P_d keeps row prefix sums at those columns and
+   * accumulates them down the rows: S(r, c) = Σ_{r' < r, c' < c} P_d, read at the boundaries.
    */
   gram(gram: Float64Array, arrays: readonly Float64Array[]): void {
-    const { nx, ny, wx, wy, size, prefix } = this;
-    const stride = nx + 1;
+    const { nx, ny, wx, wy, size, rowBounds, colBounds, rowSlot, colSlot, cornerSums, columnSums } = this;
     const vy = ny - wy + 1;
     const vx = nx - wx + 1;
-    const z0 = arrays[0];
+    const nc = colBounds.length;
     if (arrays.length < 1 || arrays.length > 2) throw new RangeError('gram takes one or two arrays');
-    const z1 = arrays.length > 1 ? arrays[1] : undefined;
+    const z0 = arrays[0];
+    const z1 = arrays.length > 1 ? arrays[1] : z0;
+    const weight1 = arrays.length > 1 ? 1 : 0;
     for (let dy = 0; dy < wy; dy++) {
       for (let dx = -(wx - 1); dx < wx; dx++) {
         if (dy === 0 && dx < 0) continue;
-        // prefix[(r+1)·stride + (c+1)] = Σ_{r' ≤ r, c' ≤ c} conj(z[r',c']) z[r'+dy, c'+dx]
-        // (terms whose partner q + d falls outside the grid are zero; no rectangle reads them).
         const c0 = Math.max(0, -dx);
         const c1 = Math.min(nx, nx - dx);
-        for (let r = 0; r < ny; r++) {
+        const offset = 2 * (dy * nx + dx);
+        columnSums.fill(0);
+        let nextRow = 0;
+        // Row r contributes to S(r', ·) for r' > r; store S at each row boundary as it is reached.
+        for (let r = 0; r <= ny; r++) {
+          if (nextRow < rowBounds.length && rowBounds[nextRow] === r) {
+            // bounds are sorted and distinct
+            cornerSums.set(columnSums, 2 * nc * nextRow);
+            nextRow++;
+          }
+          if (r === ny || r + dy >= ny) continue;
           let rowRe = 0;
           let rowIm = 0;
-          const out = 2 * ((r + 1) * stride);
-          const above = 2 * (r * stride);
-          prefix[out] = 0;
-          prefix[out + 1] = 0;
-          let c = 0;
-          if (r + dy < ny) {
-            for (; c < c0; c++) {
-              const o = out + 2 * (c + 1);
-              prefix[o] = prefix[above + 2 * (c + 1)];
-              prefix[o + 1] = prefix[above + 2 * (c + 1) + 1];
-            }
-            const offset = 2 * (dy * nx + dx);
-            for (; c < c1; c++) {
-              const i = 2 * (r * nx + c);
-              const j = i + offset;
-              let ar = z0[i];
-              let ai = z0[i + 1];
-              let br = z0[j];
-              let bi = z0[j + 1];
-              rowRe += ar * br + ai * bi;
-              rowIm += ar * bi - ai * br;
-              if (z1 !== undefined) {
-                ar = z1[i];
-                ai = z1[i + 1];
-                br = z1[j];
-                bi = z1[j + 1];
-                rowRe += ar * br + ai * bi;
-                rowIm += ar * bi - ai * br;
-              }
-              const o = out + 2 * (c + 1);
-              prefix[o] = prefix[above + 2 * (c + 1)] + rowRe;
-              prefix[o + 1] = prefix[above + 2 * (c + 1) + 1] + rowIm;
+          let j = 0;
+          while (j < nc && colBounds[j] <= c0) {
+            j++;
+          }
+          const rowStart = 2 * r * nx;
+          for (let c = c0; c < c1; c++) {
+            const i = rowStart + 2 * c;
+            const k = i + offset;
+            const ar = z0[i];
+            const ai = z0[i + 1];
+            const br = z0[k];
+            const bi = z0[k + 1];
+            const er = z1[i];
+            const ei = z1[i + 1];
+            const fr = z1[k];
+            const fi = z1[k + 1];
+            rowRe += ar * br + ai * bi + weight1 * (er * fr + ei * fi);
+            rowIm += ar * bi - ai * br + weight1 * (er * fi - ei * fr);
+            if (colBounds[j] === c + 1) {
+              columnSums[2 * j] += rowRe;
+              columnSums[2 * j + 1] += rowIm;
+              j++;
             }
           }
-          for (; c < nx; c++) {
-            const o = out + 2 * (c + 1);
-            prefix[o] = prefix[above + 2 * (c + 1)] + rowRe;
-            prefix[o + 1] = prefix[above + 2 * (c + 1) + 1] + rowIm;
+          // Boundaries past the last valid column see the whole row sum.
+          for (; j < nc; j++) {
+            columnSums[2 * j] += rowRe;
+            columnSums[2 * j + 1] += rowIm;
           }
         }
         for (let ay = 0; ay + dy < wy; ay++) {
           for (let ax = Math.max(0, -dx); ax < wx && ax + dx < wx; ax++) {
-            // rows ay … ay+vy−1, cols ax … ax+vx−1
-            const k11 = 2 * ((ay + vy) * stride + ax + vx);
-            const k01 = 2 * (ay * stride + ax + vx);
-            const k10 = 2 * ((ay + vy) * stride + ax);
-            const k00 = 2 * (ay * stride + ax);
-            const re = prefix[k11] - prefix[k01] - prefix[k10] + prefix[k00];
-            const im = prefix[k11 + 1] - prefix[k01 + 1] - prefix[k10 + 1] + prefix[k00 + 1];
+            // rows ay … ay+vy−1, cols ax … ax+vx−1: corners at boundaries ay, ay+vy and ax, ax+vx.
+            const r0 = rowSlot[ay];
+            const r1 = rowSlot[ay + vy];
+            const q0 = colSlot[ax];
+            const q1 = colSlot[ax + vx];
+            const k11 = 2 * (r1 * nc + q1);
+            const k01 = 2 * (r0 * nc + q1);
+            const k10 = 2 * (r1 * nc + q0);
+            const k00 = 2 * (r0 * nc + q0);
+            const re = cornerSums[k11] - cornerSums[k01] - cornerSums[k10] + cornerSums[k00];
+            const im = cornerSums[k11 + 1] - cornerSums[k01 + 1] - cornerSums[k10 + 1] + cornerSums[k00 + 1];
             const a = ay * wx + ax;
             const b = (ay + dy) * wx + ax + dx;
             gram[2 * (a * size + b)] = re;
@@ -177,13 +207,86 @@ export class BlockHankel {
         }
       }
     }
+    this.prepareMultiplier();
   }
 
   /**
    * out ← H†(H(z) Π): the rank projection of every window followed by averaging each k-space
    * sample over the windows that contain it (the adjoint of the lifting divided by the count).
+   * Interior samples (all n windows fit) are one linear convolution with the full-box kernel,
+   * done as a pointwise product in the image domain (convolution theorem):
+   *   F_cᴴ(K ⊛ z) = √N · F_cᴴ(z) · F_cᴴ(S k̃),  k̃[−d mod N] = K[d], S = fftshift,
+   * which never wraps for interior samples; the border samples are then summed directly.
+   * With `z2`/`out2` the same projection is applied to a second array (stacked derivative weighting).
    */
-  projectAverage(out: Float64Array, z: Float64Array): void {
+  projectAverage(out: Float64Array, z: Float64Array, out2?: Float64Array, z2?: Float64Array): void {
+    const interior = this.interiorBox();
+    if (interior !== null) {
+      this.convolveInterior(out, z);
+      if (out2 !== undefined && z2 !== undefined) this.convolveInterior(out2, z2);
+    }
+    this.averageBorder(out, z, interior === null);
+    if (out2 !== undefined && z2 !== undefined) this.averageBorder(out2, z2, interior === null);
+  }
+
+  /** Index of the full box (all window offsets fit) along rows and columns, or null if none. */
+  private interiorBox(): { ry: number; rx: number } | null {
+    const { wx, wy, rowBoxes, colBoxes } = this;
+    let ry = -1;
+    let rx = -1;
+    for (let i = 0; i < rowBoxes.length; i += 2)
+      if (rowBoxes[i] === 0 && rowBoxes[i + 1] === wy - 1) ry = i / 2;
+    for (let i = 0; i < colBoxes.length; i += 2)
+      if (colBoxes[i] === 0 && colBoxes[i + 1] === wx - 1) rx = i / 2;
+    return ry < 0 || rx < 0 ? null : { ry, rx };
+  }
+
+  /** Image-domain multiplier √N · F_cᴴ(S k̃) of the full-box kernel (after setProjector). */
+  private prepareMultiplier(): void {
+    const { nx, ny, wx, wy, kernels, colBoxes, multiplier } = this;
+    const box = this.interiorBox();
+    if (box === null) return;
+    const kw = 2 * wx - 1;
+    const kernelSize = 2 * kw * (2 * wy - 1);
+    const base = (box.ry * (colBoxes.length / 2) + box.rx) * kernelSize;
+    const m = multiplier.data;
+    m.fill(0);
+    const hy = Math.floor(ny / 2);
+    const hx = Math.floor(nx / 2);
+    for (let dy = -(wy - 1); dy < wy; dy++) {
+      const row = (((-dy + hy) % ny) + ny) % ny;
+      for (let dx = -(wx - 1); dx < wx; dx++) {
+        const col = (((-dx + hx) % nx) + nx) % nx;
+        const k = base + 2 * ((dy + wy - 1) * kw + dx + wx - 1);
+        m[2 * (row * nx + col)] += kernels[k];
+        m[2 * (row * nx + col) + 1] += kernels[k + 1];
+      }
+    }
+    ifft2c(multiplier, multiplier);
+    const scale = Math.sqrt(nx * ny) / (wx * wy);
+    for (let i = 0; i < m.length; i++) m[i] *= scale;
+  }
+
+  private convolveInterior(out: Float64Array, z: Float64Array): void {
+    const { scratch, multiplier } = this;
+    const s = scratch.data;
+    const m = multiplier.data;
+    s.set(z);
+    ifft2c(scratch, scratch);
+    for (let i = 0; i < s.length; i += 2) {
+      const ar = s[i];
+      const ai = s[i + 1];
+      const br = m[i];
+      const bi = m[i + 1];
+      s[i] = ar * br - ai * bi;
+      s[i + 1] = ar * bi + ai * br;
+    }
+    fft2c(scratch, scratch);
+    out.set(s);
+  }
+
+  /** Direct box-kernel sums for the samples within w − 1 of an edge (or every sample if `all`). */
+  private averageBorder(out: Float64Array, z: Float64Array, all: boolean): void {
     const { nx, ny, wx, wy, kernels, rowBoxes, colBoxes, rowBox, colBox } = this;
     const kw = 2 * wx - 1;
     const kernelSize = 2 * kw * (2 * wy - 1);
@@ -191,9 +294,14 @@ export class BlockHankel {
     for (let qy = 0; qy < ny; qy++) {
       const ry = rowBox[qy];
       const rowCount = rowBoxes[2 * ry + 1] - rowBoxes[2 * ry] + 1;
+      const borderRow = all || qy < wy - 1 || qy > ny - wy;
       const dy0 = Math.max(-(wy - 1), -qy);
       const dy1 = Math.min(wy - 1, ny - 1 - qy);
       for (let qx = 0; qx < nx; qx++) {
+        if (!borderRow && qx >= wx - 1 && qx <= nx - wx) {
+          qx = nx - wx;
+          continue;
+        }
         const rx = colBox[qx];
         const count = rowCount * (colBoxes[2 * rx + 1] - colBoxes[2 * rx] + 1);
         const base = (ry * nCol + rx) * kernelSize;
@@ -205,10 +313,10 @@ export class BlockHankel {
           const zRow = 2 * ((qy + dy) * nx + qx);
           const kRow = base + 2 * ((dy + wy - 1) * kw + wx - 1);
           for (let dx = dx0; dx <= dx1; dx++) {
-            const zr = z[zRow + 2 * dx];
-            const zi = z[zRow + 2 * dx + 1];
             const kr = kernels[kRow + 2 * dx];
             const ki = kernels[kRow + 2 * dx + 1];
+            const zr = z[zRow + 2 * dx];
+            const zi = z[zRow + 2 * dx + 1];
             re += kr * zr - ki * zi;
             im += kr * zi + ki * zr;
           }
@@ -219,6 +327,21 @@ export class BlockHankel {
       }
     }
   }
+}
+
+/** Sorted distinct corner boundaries {0…w−1} ∪ {v…v+w−1} of one axis, and value → position. */
+function cornerBounds(w: number, v: number, length: number): { bounds: Int32Array; slot: Int32Array } {
+  const values = new Set<number>();
+  for (let i = 0; i < w; i++) {
+    values.add(i);
+    values.add(v + i);
+  }
+  const bounds = Int32Array.from([...values].sort((a, b) => a - b));
+  const slot = new Int32Array(length + 1).fill(-1);
+  bounds.forEach((value, i) => {
+    slot[value] = i;
+  });
+  return { bounds, slot };
 }
 
 /**

@@ -182,8 +182,7 @@ export function solveLowrankHankel(
     rank = params.rank ?? rankForEnergy(eigen.values, params.energy);
     lift.setProjector(projector, eigen.vectors, rank);
     if (gradientWeighting) {
-      lift.projectAverage(px, zx);
-      lift.projectAverage(py, zy);
+      lift.projectAverage(px, zx, py, zy);
       for (let i = 0; i < n; i++) {
         if (mask[i] || inverseWeight[i] === 0) continue;
         const s = inverseWeight[i];
