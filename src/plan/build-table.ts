@@ -1,6 +1,8 @@
 import { ValidationError } from '../core/errors.ts';
 import { formatDuration } from '../protocol/format-duration.ts';
 import { scanTime } from '../protocol/scan-time.ts';
+import { protocolSchema } from '../protocol/schema.ts';
+import { parseOrThrow } from '../protocol/zod-problems.ts';
 import type { CellResult } from './cell-result.ts';
 import { specLabels } from './labels.ts';
 import { metricNames } from './metric-direction.ts';
@@ -127,9 +129,16 @@ function tableNotes(plan: TablePlan, rows: readonly PlanRow[], cellResults: read
     'The recommendation uses the mean target metric over seeds; ties go to the shorter scan, then the ' +
       'better metric, then plan order.',
   ];
-  if (plan.protocol.partialFourier < 1) {
+  const { partialFourier, dimensions } = parseOrThrow(protocolSchema, plan.protocol, 'protocol');
+  if (dimensions === '2d' && cellResults.some((r) => r.mask?.unit === 'points')) {
     notes.push(
-      `Partial Fourier ${plan.protocol.partialFourier}: scan times count only the kept phase-encode rows; ` +
+      'A point mask (e.g. poisson-disc) in a 2D protocol: every phase-encode row holding a sampled point ' +
+        "costs a whole line, so it saves little time; plan it with dimensions '3d' as a ky–kz mask.",
+    );
+  }
+  if (partialFourier < 1) {
+    notes.push(
+      `Partial Fourier ${partialFourier}: scan times count only the kept phase-encode rows; ` +
         'the simulated reconstruction does not model partial Fourier, so errors are those of the mask alone.',
     );
   }

@@ -16,6 +16,8 @@ export interface CellResult extends GridPosition {
   acquired: number;
   acquiredUnit: 'lines' | 'points' | 'spokes';
   scanSeconds: number;
+  /** The mask as drawn: its own count and unit (a 2D point mask counts points) and acquired grid fraction. */
+  mask: { acquired: number; unit: 'lines' | 'points' | 'spokes'; fraction: number };
   metrics: Record<MetricName, number | null>;
   reconMs: number;
   /** Pipeline notes (inverse crime for uploads, rescaling, …). */

@@ -7,7 +7,7 @@ import type { Target } from './target-schema.ts';
 /**
  * One row of the tradeoff table: one pattern × R × method, aggregated over the plan's seeds.
  * Means are arithmetic means over seeds; `sd` is the sample standard deviation (n − 1), 0 for one
- * seed; null stands for +∞ (PSNR of an exact reconstruction).
+ * seed. A null mean stands for +∞ (PSNR of an exact reconstruction), its sd is then null (undefined).
  */
 export interface PlanRow extends GridPosition {
   /** Stable id: 'reference', 'p0-r2-m1', 'p3-m0' (custom mask). */

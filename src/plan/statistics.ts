@@ -1,7 +1,7 @@
 /** Mean and spread of one quantity over a plan's seeds. `null` stands for +∞ (see metric-direction.ts). */
 export interface Summary {
   mean: number | null;
-  /** Sample standard deviation (divisor n − 1); 0 for a single value. */
+  /** Sample standard deviation (divisor n − 1); 0 for a single value; null (undefined) when the mean is +∞. */
   sd: number | null;
 }
 

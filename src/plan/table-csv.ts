@@ -7,13 +7,14 @@ interface Column {
 }
 
 /**
- * Fixed decimals with '.' whatever the locale (toFixed ignores it); null (+∞, see
- * metric-direction.ts) is written `Infinity`, which JavaScript's Number() and Python's float() read.
+ * Fixed decimals with '.' whatever the locale (toFixed ignores it). A null mean (+∞, see
+ * metric-direction.ts) is written `Infinity`, which JavaScript's Number() and Python's float() read;
+ * a null standard deviation (undefined spread of an infinite mean) is left empty.
  */
-function fixed(decimals: number, read: (row: PlanRow) => number | null): (row: PlanRow) => string {
-  return (row) => {
+function fixed(decimals: number, read: (row: PlanRow) => number | null, nullText = 'Infinity') {
+  return (row: PlanRow): string => {
     const value = read(row);
-    return value === null ? 'Infinity' : value.toFixed(decimals);
+    return value === null ? nullText : value.toFixed(decimals);
   };
 }
 
@@ -29,13 +30,13 @@ export const csvColumns: readonly Column[] = [
   { name: 'scan_mmss', value: (r) => r.scanFormatted },
   { name: 'time_saved_pct', value: fixed(2, (r) => r.timeSavedPct) },
   { name: 'nrmse_mean', value: fixed(6, (r) => r.metrics.nrmse.mean) },
-  { name: 'nrmse_sd', value: fixed(6, (r) => r.metrics.nrmse.sd) },
+  { name: 'nrmse_sd', value: fixed(6, (r) => r.metrics.nrmse.sd, '') },
   { name: 'psnr_db_mean', value: fixed(3, (r) => r.metrics.psnr.mean) },
-  { name: 'psnr_db_sd', value: fixed(3, (r) => r.metrics.psnr.sd) },
+  { name: 'psnr_db_sd', value: fixed(3, (r) => r.metrics.psnr.sd, '') },
   { name: 'ssim_mean', value: fixed(6, (r) => r.metrics.ssim.mean) },
-  { name: 'ssim_sd', value: fixed(6, (r) => r.metrics.ssim.sd) },
+  { name: 'ssim_sd', value: fixed(6, (r) => r.metrics.ssim.sd, '') },
   { name: 'hfen_mean', value: fixed(6, (r) => r.metrics.hfen.mean) },
-  { name: 'hfen_sd', value: fixed(6, (r) => r.metrics.hfen.sd) },
+  { name: 'hfen_sd', value: fixed(6, (r) => r.metrics.hfen.sd, '') },
   { name: 'recon_ms', value: fixed(1, (r) => r.reconMs) },
   { name: 'seeds', value: (r) => String(r.seeds) },
   { name: 'pareto', value: (r) => String(r.pareto) },

@@ -12,6 +12,7 @@ export const targetSchema = z
     atMost: z.number().optional().describe('highest acceptable mean value (nrmse, hfen)'),
   })
   .superRefine((t, ctx) => {
+    if (!metricNames.includes(t.metric)) return; // already reported; zod refines invalid data too
     const wanted = higherIsBetter[t.metric] ? 'atLeast' : 'atMost';
     const other = wanted === 'atLeast' ? 'atMost' : 'atLeast';
     if (t[other] !== undefined) {

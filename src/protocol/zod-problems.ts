@@ -47,7 +47,11 @@ export function allowedText(issue: z.core.$ZodIssue): string | undefined {
     case 'invalid_value':
       return `one of ${issue.values.map((v) => JSON.stringify(v)).join(', ')}`;
     case 'unrecognized_keys':
-      return 'only the documented fields';
+      return `the documented fields only (not ${issue.keys.join(', ')})`;
+    case 'invalid_union': {
+      const options = (issue as { options?: unknown[] }).options;
+      return options ? `one of ${options.map((o) => JSON.stringify(o)).join(', ')}` : undefined;
+    }
     case 'custom': {
       const allowed = (issue.params as { allowed?: unknown } | undefined)?.allowed;
       return typeof allowed === 'string' ? allowed : undefined;

@@ -150,3 +150,20 @@ describe('tradeoff table on hand-made cell results', () => {
     expect(() => buildTable(handPlan(), [...results, results[2]])).toThrow(ValidationError);
   });
 });
+
+describe('notes on how the plan counts time', () => {
+  it('a point mask in a 2D protocol is flagged: each occupied row costs a whole line', () => {
+    const results = [
+      cellResult(referencePosition, { lines: 256, ssim: 1 }),
+      {
+        ...cellResult(at(1, 0, 0), { lines: 256, ssim: 0.8 }),
+        mask: { acquired: 32768, unit: 'points', fraction: 0.5 },
+      },
+    ] as CellResult[];
+    expect(buildTable(handPlan(), results).notes.join('\n')).toMatch(/dimensions '3d'/);
+    const protocol3d = { ...handPlan().protocol, dimensions: '3d' } as const;
+    expect(buildTable(handPlan({ protocol: protocol3d }), results).notes.join('\n')).not.toMatch(
+      /dimensions '3d'/,
+    );
+  });
+});

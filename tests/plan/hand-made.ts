@@ -58,6 +58,7 @@ export function cellResult(
     acquired: values.lines,
     acquiredUnit: 'lines',
     scanSeconds: (500 * values.lines) / 1000,
+    mask: { acquired: values.lines, unit: 'lines', fraction: values.lines / 256 },
     metrics: {
       nrmse: values.nrmse ?? 1 - values.ssim,
       psnr: values.psnr === undefined ? 20 + 10 * values.ssim : values.psnr,

@@ -29,9 +29,9 @@ function sampleTable() {
   return buildTable(plan, results);
 }
 
-/** Number() with the CSV's spelling of +∞ (null in the table). */
+/** Number() with the CSV's spellings of the table's nulls: a mean of +∞ and an undefined spread. */
 function readNumber(text: string): number | null {
-  return text === 'Infinity' ? null : Number(text);
+  return text === 'Infinity' || text === '' ? null : Number(text);
 }
 
 describe('tradeoff table as RFC 4180 CSV (REFERENCES.md §10.5)', () => {
@@ -84,6 +84,7 @@ describe('tradeoff table as RFC 4180 CSV (REFERENCES.md §10.5)', () => {
       }
     });
     expect(records[0].psnr_db_mean).toBe('Infinity');
+    expect(records[0].psnr_db_sd).toBe('');
     expect(records[0].requested_r).toBe('1.00');
   });
 

@@ -1,0 +1,31 @@
+export { buildTable, referenceMethodLabel, referencePatternLabel, type TablePlan } from './build-table.ts';
+export type { CellResult } from './cell-result.ts';
+export { specLabels } from './labels.ts';
+export {
+  compareMetric,
+  higherIsBetter,
+  jsonNumber,
+  type MetricName,
+  metricNames,
+  metricValue,
+} from './metric-direction.ts';
+export { paretoFront, type TradeoffPoint } from './pareto.ts';
+export { isCustomPattern, patternSpecs } from './pattern-specs.ts';
+export {
+  checkPlanSize,
+  type PlanCell,
+  planCellCount,
+  planCells,
+  referenceMethod,
+  referenceSampling,
+} from './plan-cells.ts';
+export type { MethodRecommendation, PlanRow, PlanTable, Recommendation, RowPick } from './plan-table.ts';
+export { describeTarget, meetsTarget, recommend } from './recommend.ts';
+export { type GridPosition, rowKey } from './row-key.ts';
+export { runCell } from './run-cell.ts';
+export { type PlanProgress, type RunCellFn, type RunPlanOptions, runPlan } from './run-plan.ts';
+export { type Plan, type PlanInput, planMatrixSchema, planPatternSchema, planSchema } from './schema.ts';
+export { type Summary, summarize } from './statistics.ts';
+export { csvColumns, csvField, tableToCsv } from './table-csv.ts';
+export { type Target, targetBound, targetSchema } from './target-schema.ts';
+export { type ValidatePlanOptions, validatePlan } from './validate-plan.ts';

@@ -1,0 +1,87 @@
+import { LimitError } from '../core/errors.ts';
+import { defaultLimits, type Limits } from '../core/limits.ts';
+import { patternSpecs } from './pattern-specs.ts';
+import type { GridPosition } from './row-key.ts';
+import type { Plan } from './schema.ts';
+import { type MethodSpec, methodSchema, type SamplingSpec, samplingSchema } from './upstream.ts';
+
+/** One simulated acquisition + reconstruction of a plan. Plain data, so it can cross to a worker thread. */
+export interface PlanCell extends GridPosition {
+  /** Position in planCells order: the reference seeds first, then patterns × R × methods × seeds. */
+  index: number;
+  /** The sampling spec with the plan's acceleration filled in (seed is passed separately). */
+  pattern: SamplingSpec;
+  /** Requested R; null for a custom mask. */
+  acceleration: number | null;
+  method: MethodSpec;
+  /** 1…seeds: seeds the mask draw and the noise draw of this repetition. */
+  seed: number;
+}
+
+/** Fully sampled reference: every line (R = 1), zero-filled reconstruction. */
+export const referenceSampling = { pattern: 'cartesian-uniform', acceleration: 1 } as const;
+export const referenceMethod = { name: 'zero-filled' } as const;
+
+/** Number of cells a plan expands to: (reference + Σ patterns' R counts × methods) × seeds. */
+export function planCellCount(plan: Pick<Plan, 'patterns' | 'accelerations' | 'methods' | 'seeds'>): number {
+  let rows = 1;
+  for (const pattern of plan.patterns)
+    rows += patternSpecs(pattern, plan.accelerations).length * plan.methods.length;
+  return rows * plan.seeds;
+}
+
+/**
+ * Expands a validated plan into cells in a fixed order (so results and tables are reproducible).
+ * Plans larger than `limits.maxPlanCells` are refused with a LimitError before any work starts.
+ */
+export function planCells(plan: Plan, limits: Limits = defaultLimits): PlanCell[] {
+  checkPlanSize(plan, limits);
+  const cells: PlanCell[] = [];
+  const push = (
+    position: GridPosition,
+    pattern: SamplingSpec,
+    acceleration: number | null,
+    method: MethodSpec,
+  ) => {
+    for (let seed = 1; seed <= plan.seeds; seed++) {
+      cells.push({ ...position, index: cells.length, pattern, acceleration, method, seed });
+    }
+  };
+  push(
+    { reference: true, patternIndex: null, accelerationIndex: null, methodIndex: null },
+    samplingSchema.parse(referenceSampling),
+    1,
+    methodSchema.parse(referenceMethod),
+  );
+  plan.patterns.forEach((pattern, patternIndex) => {
+    for (const [accelerationIndex, spec] of patternSpecs(pattern, plan.accelerations)) {
+      const sampling = samplingSchema.parse(spec);
+      const acceleration = accelerationIndex === null ? null : plan.accelerations[accelerationIndex];
+      plan.methods.forEach((method, methodIndex) => {
+        push(
+          { reference: false, patternIndex, accelerationIndex, methodIndex },
+          sampling,
+          acceleration,
+          method,
+        );
+      });
+    }
+  });
+  return cells;
+}
+
+export function checkPlanSize(
+  plan: Pick<Plan, 'patterns' | 'accelerations' | 'methods' | 'seeds'>,
+  limits: Limits,
+): void {
+  const count = planCellCount(plan);
+  if (count > limits.maxPlanCells) {
+    throw new LimitError({
+      field: 'seeds',
+      message:
+        `the plan expands to ${count} cells ((1 reference + patterns × accelerations × methods) × seeds), ` +
+        `more than the configured limit`,
+      allowed: `at most ${limits.maxPlanCells} cells`,
+    });
+  }
+}

@@ -1,0 +1,51 @@
+import { scanTime } from '../protocol/scan-time.ts';
+import type { CellResult } from './cell-result.ts';
+import { jsonNumber } from './metric-direction.ts';
+import type { PlanCell } from './plan-cells.ts';
+import type { Plan } from './schema.ts';
+import { type PipelineContext, runReconstruction } from './upstream.ts';
+
+/**
+ * Runs one cell: simulated acquisition with the cell's seed (mask draw and noise draw),
+ * reconstruction, scoring, and the scan time of the mask that was drawn. Returns plain data only.
+ */
+export async function runCell(plan: Plan, cell: PlanCell, ctx?: PipelineContext): Promise<CellResult> {
+  const outcome = await runReconstruction(
+    {
+      source: plan.source,
+      matrix: plan.matrix,
+      sampling: cell.pattern,
+      ...(plan.noise === undefined ? {} : { noise: plan.noise }),
+      method: cell.method,
+    },
+    cell.seed,
+    ctx,
+  );
+  const time = scanTime(plan.matrix, plan.protocol, outcome.sampled);
+  return {
+    index: cell.index,
+    reference: cell.reference,
+    patternIndex: cell.patternIndex,
+    accelerationIndex: cell.accelerationIndex,
+    methodIndex: cell.methodIndex,
+    seed: cell.seed,
+    requestedR: cell.acceleration,
+    actualR: outcome.acceleration.actual,
+    acquired: time.acquired,
+    acquiredUnit: time.unit,
+    scanSeconds: time.seconds,
+    mask: {
+      acquired: outcome.sampled.acquired.count,
+      unit: outcome.sampled.acquired.unit,
+      fraction: outcome.sampled.fraction,
+    },
+    metrics: {
+      nrmse: jsonNumber(outcome.metrics.nrmse),
+      psnr: jsonNumber(outcome.metrics.psnr),
+      ssim: jsonNumber(outcome.metrics.ssim),
+      hfen: jsonNumber(outcome.metrics.hfen),
+    },
+    reconMs: outcome.timing.reconMs,
+    notes: [...outcome.notes],
+  };
+}

@@ -1,0 +1,94 @@
+import { z } from 'zod';
+import { protocolSchema } from '../protocol/schema.ts';
+import { allowedText, fieldPath } from '../protocol/zod-problems.ts';
+import { patternSpecs } from './pattern-specs.ts';
+import { targetSchema } from './target-schema.ts';
+import { methodSchema, noiseSchema, type SamplingSpec, samplingSchema, sourceSchema } from './upstream.ts';
+
+type WithoutPlanKeys<T> = T extends unknown ? Omit<T, 'acceleration' | 'seed'> : never;
+/** A sampling spec as a plan lists it: no acceleration, no seed. */
+export type PlanPattern = WithoutPlanKeys<SamplingSpec>;
+
+/**
+ * A pattern of a plan: one of the sampling piece's specs without `acceleration` (the plan's
+ * `accelerations` set it) and without `seed` (repetition s of the plan uses seed s); unknown keys are
+ * refused. A custom mask (`maskPng`) has its own acceleration and gives one row per method. Each
+ * pattern × R is also checked against the sampling schema itself, reported under `patterns[i].…` or
+ * `accelerations[j]`.
+ */
+export const planPatternSchema = z
+  .discriminatedUnion(
+    'pattern',
+    (samplingSchema.options as readonly z.ZodObject[]).map((option) => {
+      const omit: Record<string, true> = {};
+      for (const key of ['acceleration', 'seed']) if (key in option.shape) omit[key] = true;
+      return option.omit(omit).strict();
+    }) as unknown as [z.ZodObject, ...z.ZodObject[]],
+  )
+  .describe(
+    'A sampling spec without acceleration (from accelerations) and seed (from seeds)',
+  ) as unknown as z.ZodType<PlanPattern, PlanPattern>;
+
+export const planMatrixSchema = z
+  .strictObject({
+    nx: z.int().min(1).max(65_536).describe('readout columns (kx); in 3D the second phase-encode axis kz'),
+    ny: z.int().min(1).max(65_536).describe('phase-encode rows (ky)'),
+  })
+  .describe('Matrix size');
+
+const accelerationSchema = z.number().min(1).max(64);
+
+export const planSchema = z
+  .strictObject({
+    source: sourceSchema,
+    matrix: planMatrixSchema,
+    protocol: protocolSchema,
+    patterns: z.array(planPatternSchema).min(1).max(16),
+    accelerations: z
+      .array(accelerationSchema)
+      .min(1)
+      .max(32)
+      .describe('acceleration factors R swept for every (non-custom) pattern'),
+    methods: z.array(methodSchema).min(1).max(8),
+    seeds: z.int().min(1).max(100).describe('repetitions; repetition s uses seed s for mask and noise draws'),
+    noise: noiseSchema.optional(),
+    target: targetSchema.optional(),
+  })
+  .superRefine((plan, ctx) => {
+    // zod runs refinements on data that already has issues: check the shapes this relies on.
+    if (!Array.isArray(plan.accelerations) || !Array.isArray(plan.patterns)) return;
+    plan.accelerations.forEach((r, j) => {
+      if (plan.accelerations.indexOf(r) !== j) {
+        ctx.addIssue({
+          code: 'custom',
+          path: ['accelerations', j],
+          message: `R = ${r} is listed twice`,
+          params: { allowed: 'distinct values' },
+        });
+      }
+    });
+    plan.patterns.forEach((pattern, i) => {
+      // Only patterns and R values that passed their own schemas: their problems are reported already.
+      if (!planPatternSchema.safeParse(pattern).success) return;
+      const seen = new Set<string>();
+      for (const [j, spec] of patternSpecs(pattern, plan.accelerations)) {
+        if (j !== null && !accelerationSchema.safeParse(plan.accelerations[j]).success) continue;
+        const result = samplingSchema.safeParse(spec);
+        if (result.success) continue;
+        for (const issue of result.error.issues) {
+          const path =
+            issue.path[0] === 'acceleration' && j !== null
+              ? ['accelerations', j, ...issue.path.slice(1)]
+              : ['patterns', i, ...issue.path];
+          const id = `${fieldPath('', path)}|${issue.message}`;
+          if (seen.has(id)) continue; // the same pattern problem for every R: report it once
+          seen.add(id);
+          ctx.addIssue({ ...issue, code: 'custom', path, params: { allowed: allowedText(issue) } } as never);
+        }
+      }
+    });
+  })
+  .describe('A sweep over patterns × accelerations × methods × seeds');
+
+export type Plan = z.output<typeof planSchema>;
+export type PlanInput = z.input<typeof planSchema>;

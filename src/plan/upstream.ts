@@ -1,0 +1,14 @@
+/**
+ * The pieces of the sampling, reconstruction and pipeline modules the plan engine builds on, in one
+ * place (their module contracts: sampling/ generateMask and SampledMask, src/recon methodSchema,
+ * src/acquisition noiseSchema, src/pipeline runReconstruction).
+ */
+export { generateMask, type SampledMask, type SamplingSpec, samplingSchema } from '../../sampling/index.ts';
+export { noiseSchema } from '../acquisition/index.ts';
+export {
+  type PipelineContext,
+  type ReconstructionOutcome,
+  runReconstruction,
+  sourceSchema,
+} from '../pipeline/run-reconstruction.ts';
+export { type MethodSpec, methodSchema } from '../recon/index.ts';

@@ -1,0 +1,99 @@
+import { parse } from 'csv-parse/sync';
+import { describe, expect, it } from 'vitest';
+import { planCells } from '../../src/plan/plan-cells.ts';
+import type { PlanTable } from '../../src/plan/plan-table.ts';
+import { runCell } from '../../src/plan/run-cell.ts';
+import { runPlan } from '../../src/plan/run-plan.ts';
+import { tableToCsv } from '../../src/plan/table-csv.ts';
+import { validatePlan } from '../../src/plan/validate-plan.ts';
+
+// End to end through sampling/, the analytic phantom, the acquisition and the reconstruction
+// pipeline, on a small 32×32 matrix: 2 patterns × 2 R × zero-filled × 2 seeds (+ the reference).
+const body = {
+  source: { phantom: 'shepp-logan-modified' },
+  matrix: { nx: 32, ny: 32 },
+  protocol: { trMs: 500 },
+  patterns: [
+    { pattern: 'cartesian-uniform', acs: 4 },
+    { pattern: 'cartesian-random', acs: 4 },
+  ],
+  accelerations: [2, 4],
+  methods: [{ name: 'zero-filled' }],
+  seeds: 2,
+  target: { metric: 'nrmse', atMost: 0.5 },
+};
+
+/** The table without the wall-clock times, the one part that may differ between runs. */
+function withoutTimes(table: PlanTable) {
+  return { ...table, rows: table.rows.map(({ reconMs: _, ...row }) => row) };
+}
+
+describe('plan through the real pipeline (32×32)', () => {
+  it('R = 1 zero-filled reference: zero time saved and zero error without noise (DESIGN.md reference)', async () => {
+    const table = await runPlan(body);
+    const reference = table.rows[0];
+    expect(reference.reference).toBe(true);
+    expect(reference.timeSavedPct).toBe(0);
+    // REFERENCES.md §8 [C] formula: TR 500 ms × 32 lines × NEX 1 = 16 s.
+    expect(reference.scanSeconds).toBe(16);
+    expect(reference.metrics.nrmse.mean).toBeLessThan(1e-12);
+    expect(reference.metrics.hfen.mean).toBeLessThan(1e-12);
+    expect(reference.metrics.ssim.mean).toBeCloseTo(1, 12);
+    expect(reference.actualR).toBe(1);
+    expect(table.rows.length).toBe(5);
+  });
+
+  it('scan time strictly decreases with R at a fixed pattern; undersampled rows have error', async () => {
+    const table = await runPlan(body);
+    for (const patternIndex of [0, 1]) {
+      const rows = table.rows.filter((r) => r.patternIndex === patternIndex);
+      expect(rows.map((r) => r.requestedR)).toEqual([2, 4]);
+      expect(rows[1].scanSeconds).toBeLessThan(rows[0].scanSeconds);
+      expect(rows[0].scanSeconds).toBeLessThan(16);
+      for (const row of rows) expect(row.metrics.nrmse.mean).toBeGreaterThan(0);
+    }
+  });
+
+  it('standard deviation: 0 for the deterministic uniform pattern, positive for random draws over 2 seeds', async () => {
+    const table = await runPlan(body);
+    for (const row of table.rows.filter((r) => r.patternIndex === 0)) expect(row.metrics.nrmse.sd).toBe(0);
+    for (const row of table.rows.filter((r) => r.patternIndex === 1)) {
+      expect(row.metrics.nrmse.sd).toBeGreaterThan(0);
+    }
+    const single = await runPlan({ ...body, seeds: 1 });
+    expect(single.rows.every((r) => r.metrics.nrmse.sd === 0)).toBe(true);
+  });
+
+  it('the seed also draws the noise: with noise even the reference row varies over seeds', async () => {
+    const table = await runPlan({
+      ...body,
+      patterns: [body.patterns[0]],
+      accelerations: [2],
+      noise: { snr: 20 },
+    });
+    expect(table.rows[0].metrics.nrmse.mean).toBeGreaterThan(0);
+    expect(table.rows[0].metrics.nrmse.sd).toBeGreaterThan(0);
+  });
+
+  it('the same plan gives the same table (apart from reconstruction wall times)', async () => {
+    const first = await runPlan(body);
+    const second = await runPlan(body);
+    expect(withoutTimes(second)).toEqual(withoutTimes(first));
+  });
+
+  it('runCell returns plain JSON (for worker threads) and its CSV reads back', async () => {
+    const plan = validatePlan(body);
+    const cell = planCells(plan)[4];
+    const result = await runCell(plan, cell);
+    expect(JSON.parse(JSON.stringify(result))).toEqual(result);
+    expect(result.seed).toBe(cell.seed);
+
+    const table = await runPlan(body);
+    const records = parse(tableToCsv(table), { columns: true }) as Record<string, string>[];
+    expect(records.length).toBe(table.rows.length);
+    records.forEach((record, i) => {
+      expect(Number(record.scan_s)).toBeCloseTo(table.rows[i].scanSeconds, 3);
+      expect(Number(record.nrmse_mean)).toBeCloseTo(table.rows[i].metrics.nrmse.mean ?? Number.NaN, 6);
+    });
+  });
+});
