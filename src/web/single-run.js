@@ -3,6 +3,7 @@
 
 import { getBlob, pageRelative, postForBlob, postJson } from './api.js';
 import { showNumber } from './format.js';
+import { drawPsfProfile } from './psf-profile.js';
 import { showProblem, showStatus } from './status.js';
 
 const byId = (id) => document.getElementById(id);
@@ -45,6 +46,7 @@ function showMaskNumbers(mask) {
   showAcquired(numberCell('mask.acquired'), mask.acquired, mask.total ?? mask.acquired?.total);
   showNumber(numberCell('mask.fraction'), mask.fraction, 'fraction');
   showNumber(numberCell('mask.peakSidelobe'), mask.psf?.peakSidelobe, 'sidelobe');
+  drawPsfProfile(byId('psfProfile'), mask.psf?.radialProfile);
 }
 
 function showScanTimes(full, under) {

@@ -254,6 +254,9 @@ describe('planner page in Chromium', () => {
     expect(maskSize).toEqual([32, 32]);
     const psfWidth = await page.$eval('#imgPsf', (img) => (img as HTMLImageElement).naturalWidth);
     expect(psfWidth).toBe(32);
+    // The radial profile of the PSF is drawn from the service's numbers.
+    expect((mask as { psf: { radialProfile: number[] } }).psf.radialProfile.length).toBeGreaterThan(1);
+    expect(await inkedPixels('#psfProfile canvas')).toBeGreaterThan(50);
   });
 
   it('marks the control a service problem names', async () => {
