@@ -117,7 +117,7 @@ export async function imageRoutes(app: FastifyInstance): Promise<void> {
         querystring: uploadQuery,
         response: {
           201: imageInfoSchema,
-          ...problemResponses(400, 401, 413, 415, 422),
+          ...problemResponses(400, 401, 413, 415, 422, 429),
         },
       },
     },
@@ -130,7 +130,7 @@ export async function imageRoutes(app: FastifyInstance): Promise<void> {
       }
       const bytes = await part.toBuffer();
       // Decoding (gunzip, DICOM/NIfTI parsing, sharp) runs on a worker: a 64 MB file never stalls the loop.
-      const decoded = await pool.run<DecodedImage>({
+      const decoded = await pool.runForRequest<DecodedImage>({
         kind: 'decode',
         bytes,
         options: { ...request.query, maxSide: limits.maxMatrixSide, maxBytes: 4 * limits.maxUploadBytes },

@@ -47,7 +47,7 @@ export async function maskRoutes(app: FastifyInstance): Promise<void> {
               'image/png': { schema: z.string().describe('8-bit grey PNG, ny×nx, 255 = acquired') },
             },
           },
-          ...problemResponses(400, 401, 413, 415, 422),
+          ...problemResponses(400, 401, 413, 415, 422, 429),
         },
       },
     },
@@ -55,7 +55,7 @@ export async function maskRoutes(app: FastifyInstance): Promise<void> {
       const { matrix, sampling } = request.body;
       checkMatrixLimit(matrix, limits);
       const wantsPng = preferredType(request, ['application/json', 'image/png']) === 'image/png';
-      const { sampled, diagnostics } = await pool.run<{
+      const { sampled, diagnostics } = await pool.runForRequest<{
         sampled: SampledMask;
         diagnostics: MaskDiagnostics | null;
       }>({

@@ -104,7 +104,7 @@ export async function phantomRoutes(app: FastifyInstance): Promise<void> {
               'application/json': { schema: rasterJsonSchema },
             },
           },
-          ...problemResponses(400, 401, 404, 422),
+          ...problemResponses(400, 401, 404, 422, 429),
         },
       },
     },
@@ -113,7 +113,13 @@ export async function phantomRoutes(app: FastifyInstance): Promise<void> {
       known(name);
       const { nx, ny, supersample } = request.query;
       checkMatrixLimit({ nx, ny }, limits);
-      const image = await pool.run<RealImage>({ kind: 'phantom-raster', name, nx, ny, supersample });
+      const image = await pool.runForRequest<RealImage>({
+        kind: 'phantom-raster',
+        name,
+        nx,
+        ny,
+        supersample,
+      });
       const wantsJson = preferredType(request, ['image/png', 'application/json']) === 'application/json';
       if (wantsJson)
         return reply.type('application/json').send({ name, nx, ny, data: Array.from(image.data) });
@@ -130,7 +136,7 @@ export async function phantomRoutes(app: FastifyInstance): Promise<void> {
         tags: ['phantoms'],
         params: nameParams,
         body: kspaceBody,
-        response: { 200: kspaceResponse, ...problemResponses(400, 401, 404, 413, 422) },
+        response: { 200: kspaceResponse, ...problemResponses(400, 401, 404, 413, 422, 429) },
       },
     },
     async (request) => {
@@ -144,7 +150,7 @@ export async function phantomRoutes(app: FastifyInstance): Promise<void> {
         ky[i] = y;
       });
       // Up to a million points × every shape: on a worker, not the event loop.
-      const values = await pool.run<Float64Array>({ kind: 'phantom-kspace', name, kx, ky });
+      const values = await pool.runForRequest<Float64Array>({ kind: 'phantom-kspace', name, kx, ky });
       return { values: points.map((_, i) => [values[2 * i], values[2 * i + 1]] as [number, number]) };
     },
   );

@@ -123,7 +123,7 @@ export async function planRoutes(app: FastifyInstance): Promise<void> {
       // Limits (matrix, iterations, cells) and one draw of every mask, before anything is queued
       // (src/plan validatePlan, on a worker thread).
       plans.checkCapacity();
-      const plan = await pool.run<Plan>({ kind: 'validate-plan', body: request.body, limits });
+      const plan = await pool.runForRequest<Plan>({ kind: 'validate-plan', body: request.body, limits });
       const source = plan.source as { imageId?: string };
       if (source.imageId !== undefined && !store.getImageInfo(source.imageId)) {
         throw new HttpProblem(404, `no uploaded image ${source.imageId}`, [

@@ -86,7 +86,7 @@ export async function reconstructionRoutes(app: FastifyInstance): Promise<void> 
         summary: 'Simulate one undersampled acquisition, reconstruct it and score it',
         tags: ['reconstructions'],
         body: reconstructionBody,
-        response: { 201: reconstructionResponse, ...problemResponses(400, 401, 404, 413, 415, 422) },
+        response: { 201: reconstructionResponse, ...problemResponses(400, 401, 404, 413, 415, 422, 429) },
       },
     },
     async (request, reply) => {
@@ -104,7 +104,7 @@ export async function reconstructionRoutes(app: FastifyInstance): Promise<void> 
         }
         image = { id, image: pixels };
       }
-      const { outcome, diagnostics } = await pool.run<{
+      const { outcome, diagnostics } = await pool.runForRequest<{
         outcome: ReconstructionOutcome;
         diagnostics: MaskDiagnostics;
       }>({

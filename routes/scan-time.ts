@@ -36,7 +36,7 @@ export async function scanTimeRoutes(app: FastifyInstance): Promise<void> {
         summary: 'Scan time of a protocol, fully sampled or with a sampling mask',
         tags: ['protocol'],
         body: scanTimeBody,
-        response: { 200: scanTimeResponse, ...problemResponses(400, 401, 413, 422) },
+        response: { 200: scanTimeResponse, ...problemResponses(400, 401, 413, 422, 429) },
       },
     },
     async (request) => {
@@ -44,7 +44,7 @@ export async function scanTimeRoutes(app: FastifyInstance): Promise<void> {
       checkMatrixLimit(matrix, limits);
       let sampled: SampledMask | undefined;
       if (sampling) {
-        ({ sampled } = await pool.run<{ sampled: SampledMask }>({
+        ({ sampled } = await pool.runForRequest<{ sampled: SampledMask }>({
           kind: 'mask',
           matrix,
           sampling,

@@ -1,5 +1,6 @@
 import { randomUUID } from 'node:crypto';
 import { existsSync } from 'node:fs';
+import { availableParallelism } from 'node:os';
 import type { Writable } from 'node:stream';
 import fastifyMultipart from '@fastify/multipart';
 import fastifySwagger from '@fastify/swagger';
@@ -39,6 +40,8 @@ export interface AppOptions {
   workers?: number;
   /** Plans queued or running before POST /v1/plans answers 429 (default 16). */
   maxQueuedPlans?: number;
+  /** Request-driven worker tasks (uploads, masks, reconstructions…) in flight before 429 (default 8 per worker). */
+  maxRequestTasks?: number;
   /** Largest JSON body in bytes (default 8 MB). */
   maxJsonBytes?: number;
   /** Plan engine override (tests); default src/plan. */
@@ -121,7 +124,8 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
   });
 
   const store = new Store(options.dataDir ?? './data');
-  const pool = new WorkerPool(options.workers ?? (await import('node:os')).availableParallelism());
+  const workers = options.workers ?? availableParallelism();
+  const pool = new WorkerPool(workers, options.maxRequestTasks ?? 8 * workers);
   const engine = options.planEngine ?? defaultPlanEngine;
   const plans = new PlanQueue(store, pool, engine, limits, options.maxQueuedPlans ?? 16, app.log as never);
   app.decorate('services', { store, pool, plans, limits, routes });

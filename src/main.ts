@@ -20,6 +20,7 @@ const app = await buildApp({
   workers: config.workers,
   maxQueuedPlans: config.maxQueuedPlans,
   maxJsonBytes: config.maxJsonBytes,
+  maxRequestTasks: config.maxRequestTasks,
 });
 
 // Finish the request in flight and leave queued/running plans in the store to resume on restart.

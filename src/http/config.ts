@@ -14,6 +14,8 @@ export interface ServiceConfig {
   workers: number;
   /** Plans queued or running at once before POST /v1/plans answers 429. */
   maxQueuedPlans: number;
+  /** Request-driven worker tasks (uploads, masks, reconstructions…) in flight before 429. */
+  maxRequestTasks: number;
   /** Largest JSON request body in bytes (a custom mask PNG travels base64 inside JSON). */
   maxJsonBytes: number;
   logLevel: string;
@@ -52,7 +54,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): ServiceConfig 
       `HOST=${host} is reachable from other machines: set API_KEYS (comma-separated) so every /v1 request needs a key`,
     );
   }
-  const cores = availableParallelism();
+  const workers = integer(env, 'WORKERS', availableParallelism(), 1, 256);
   return {
     port: integer(env, 'PORT', 8080, 0, 65535),
     host,
@@ -64,8 +66,9 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): ServiceConfig 
       maxPlanCells: integer(env, 'MAX_PLAN_CELLS', defaultLimits.maxPlanCells, 1, 1_000_000),
       maxUploadBytes: integer(env, 'MAX_UPLOAD_BYTES', defaultLimits.maxUploadBytes, 1024, 2 ** 31),
     },
-    workers: integer(env, 'WORKERS', cores, 1, 256),
+    workers,
     maxQueuedPlans: integer(env, 'MAX_QUEUED_PLANS', 16, 1, 10_000),
+    maxRequestTasks: integer(env, 'MAX_REQUEST_TASKS', 8 * workers, 1, 100_000),
     maxJsonBytes: integer(env, 'MAX_JSON_BYTES', 8 * 1024 * 1024, 1024, 2 ** 30),
     logLevel: env.LOG_LEVEL?.trim() || 'info',
   };

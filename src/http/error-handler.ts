@@ -3,6 +3,7 @@ import { hasZodFastifySchemaValidationErrors } from 'fastify-type-provider-zod';
 import { CancelledError, type FieldProblem, LimitError, ValidationError } from '../core/errors.ts';
 import { DecodeError } from '../io/decode-error.ts';
 import { QueueFullError } from '../jobs/plan-queue.ts';
+import { WorkersBusyError } from '../jobs/worker-pool.ts';
 import {
   HttpProblem,
   limitProblemKind,
@@ -116,6 +117,20 @@ export function installErrorHandling(app: FastifyInstance): void {
           {
             field: 'body',
             message: 'too many plans queued or running',
+            allowed: 'retry after the Retry-After delay',
+          },
+        ]),
+        { 'retry-after': retry },
+      );
+    }
+    if (error instanceof WorkersBusyError) {
+      const retry = String(error.retryAfterSeconds);
+      return sendProblem(
+        reply,
+        makeProblem(429, `every worker thread is busy; retry in about ${retry} s`, [
+          {
+            field: 'body',
+            message: 'too many computations in flight',
             allowed: 'retry after the Retry-After delay',
           },
         ]),

@@ -15,14 +15,27 @@ export class WorkerError extends Error {
   override readonly name = 'WorkerError';
 }
 
+/** Too many request-driven tasks waiting for a thread (HTTP 429): a burst cannot pile up without bound. */
+export class WorkersBusyError extends Error {
+  override readonly name = 'WorkersBusyError';
+  readonly retryAfterSeconds = 2;
+  constructor() {
+    super('all worker threads are busy');
+  }
+}
+
 /** A fixed-size pool of worker threads for plan cells and long single computations. */
 export class WorkerPool {
   readonly size: number;
   private readonly piscina: Piscina;
   private destroyed = false;
+  private requestTasks = 0;
+  /** Request-driven tasks (not plan cells) allowed at once, running or waiting. */
+  readonly maxRequestTasks: number;
 
-  constructor(size: number) {
+  constructor(size: number, maxRequestTasks = 8 * size) {
     this.size = size;
+    this.maxRequestTasks = maxRequestTasks;
     this.piscina = new Piscina({
       filename: workerFile,
       minThreads: size,
@@ -56,6 +69,17 @@ export class WorkerPool {
     if (kind === 'cancelled') throw new CancelledError();
     if (kind === 'decode') throw new DecodeError(message, problems[0]?.field);
     throw new WorkerError(message);
+  }
+
+  /** For route handlers: like run, but refused with WorkersBusyError when too many are in flight. */
+  async runForRequest<T>(task: WorkerTask): Promise<T> {
+    if (this.requestTasks >= this.maxRequestTasks) throw new WorkersBusyError();
+    this.requestTasks++;
+    try {
+      return await this.run<T>(task);
+    } finally {
+      this.requestTasks--;
+    }
   }
 
   async destroy(): Promise<void> {

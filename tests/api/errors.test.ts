@@ -168,3 +168,28 @@ describe('API keys (HOST not loopback ⇒ every /v1 request needs a valid key)',
     expect(t.logs.join('\n')).not.toContain('k-one');
   });
 });
+
+describe('bounded worker queue for request-driven work', () => {
+  it('a burst beyond maxRequestTasks answers 429 with Retry-After instead of queueing without bound', async () => {
+    const t = await testApp({ workers: 1, maxRequestTasks: 1 });
+    try {
+      const slow = {
+        source: { phantom: 'shepp-logan-modified' },
+        matrix: { nx: 96, ny: 96 },
+        sampling: { pattern: 'cartesian-random', acceleration: 3, acs: 8, seed: 1 },
+        method: { name: 'cs-tv', iterations: 400 },
+      };
+      const [a, b] = await Promise.all([
+        t.http().post('/v1/reconstructions').send(slow),
+        t.http().post('/v1/reconstructions').send(slow),
+      ]);
+      const statuses = [a.status, b.status].sort();
+      expect(statuses).toEqual([201, 429]);
+      const refused = a.status === 429 ? a : b;
+      expectProblem(refused, 429);
+      expect(refused.headers['retry-after']).toMatch(/^[1-9]\d*$/);
+    } finally {
+      await t.close();
+    }
+  });
+});
