@@ -93,6 +93,19 @@ describe('plans as jobs', () => {
     expect(csv.text.replace(/\r\n/g, '')).not.toMatch(/\n/);
     const records = parseCsv(csv.text, { columns: true }) as Array<Record<string, string>>;
     expect(records).toHaveLength(done.body.table.rows.length);
+    // Bad requests never touch a stored result: cancel a finished plan (409), resubmit garbage (400).
+    expectProblem(await t.http().delete(`/v1/plans/${res.body.id}`), 409, 'id');
+    expectProblem(
+      await t
+        .http()
+        .post('/v1/plans')
+        .send({ ...smallPlan, matrix: 'big' }),
+      400,
+      'matrix',
+    );
+    const again = await t.http().get(`/v1/plans/${res.body.id}`);
+    expect(again.body.table).toEqual(done.body.table);
+    expect((await t.http().get(`/v1/plans/${res.body.id}/table.csv`)).text).toBe(csv.text);
   });
 
   it('events: text/event-stream read with eventsource-parser (WHATWG SSE, REFERENCES §10.7): progress then done', async () => {
@@ -227,7 +240,14 @@ describe('persistence: a restart resumes queued/running plans from their last fi
       const fresh = await reference.http().post('/v1/plans').send(plan);
       const freshDone = await waitFor(reference, fresh.body.id, finished);
       expect(withoutTiming(resumedDone.body.table)).toEqual(withoutTiming(freshDone.body.table));
-      const csvResumed = (await second.http().get(`/v1/plans/${res.body.id}/table.csv`)).text;
+      // A finished plan stays readable after yet another restart.
+      await second.close();
+      const third = await testApp({ workers: 1, dataDir: first.dataDir });
+      const reread = await third.http().get(`/v1/plans/${res.body.id}`);
+      expect(reread.body.status).toBe('done');
+      expect(reread.body.table).toEqual(resumedDone.body.table);
+      const csvResumed = (await third.http().get(`/v1/plans/${res.body.id}/table.csv`)).text;
+      await third.close();
       expect(csvResumed.split('\r\n')[0]).toBe(
         (await reference.http().get(`/v1/plans/${fresh.body.id}/table.csv`)).text.split('\r\n')[0],
       );
