@@ -232,7 +232,7 @@ describe('planner page in Chromium', () => {
     const mask = (await response.json()) as {
       acceleration: { requested: number; actual: number };
       fraction: number;
-      psf: { peakSidelobe: number };
+      psf: { peakSidelobe: number; radialProfile: number[] };
     };
     await page.waitForFunction(() => !document.querySelector('#singleStatus')?.classList.contains('busy'));
     const body = response.request().postDataJSON();
@@ -255,7 +255,7 @@ describe('planner page in Chromium', () => {
     const psfWidth = await page.$eval('#imgPsf', (img) => (img as HTMLImageElement).naturalWidth);
     expect(psfWidth).toBe(32);
     // The radial profile of the PSF is drawn from the service's numbers.
-    expect((mask as { psf: { radialProfile: number[] } }).psf.radialProfile.length).toBeGreaterThan(1);
+    expect(mask.psf.radialProfile.length).toBeGreaterThan(1);
     expect(await inkedPixels('#psfProfile canvas')).toBeGreaterThan(50);
   });
 
