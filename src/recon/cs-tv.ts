@@ -13,11 +13,26 @@ export const CS_TV_DEFAULT_TOLERANCE = 1e-5;
 
 export const csTvSchema = z.strictObject({
   name: z.literal('cs-tv'),
-  /** Regularisation weight relative to max |F_cᴴ y| (scale-free); default from the acquired fraction. */
-  lambda: z.number().min(LAMBDA_RULE.min).max(LAMBDA_RULE.max).optional(),
-  iterations: z.number().int().min(1).optional(),
-  /** Stop when ‖x_k − x_{k−1}‖ / ‖x_k‖ falls below this. */
-  tolerance: z.number().min(0).lt(1).optional(),
+  lambda: z
+    .number()
+    .min(LAMBDA_RULE.min)
+    .max(LAMBDA_RULE.max)
+    .optional()
+    .describe(
+      'TV weight relative to max |F_cᴴ y| (scale-free); default 0.002·(1/f − 1), f = acquired fraction',
+    ),
+  iterations: z
+    .number()
+    .int()
+    .min(1)
+    .optional()
+    .describe(`iteration limit (default ${CS_TV_DEFAULT_ITERATIONS})`),
+  tolerance: z
+    .number()
+    .min(0)
+    .lt(1)
+    .optional()
+    .describe(`stop when ‖x_k − x_{k−1}‖ / ‖x_k‖ < tolerance (default ${CS_TV_DEFAULT_TOLERANCE})`),
 });
 export type CsTvSpec = z.infer<typeof csTvSchema>;
 

@@ -36,16 +36,35 @@ const kernelSide = z.number().int().min(KERNEL_SIDE_RULE.min).max(KERNEL_SIDE_RU
 
 export const lowrankHankelSchema = z.strictObject({
   name: z.literal('lowrank-hankel'),
-  /** Window side w (w×w), or [rows (ky), columns (kx)] for a rectangular window. */
-  kernel: z.union([kernelSide, z.tuple([kernelSide, kernelSide])]).optional(),
-  /** Truncation rank (≤ window area); default half the window area unless `energy` is given. */
-  rank: z.number().int().min(1).optional(),
-  /** Choose the rank each iteration as the smallest keeping this fraction of Σσ², 0 < energy < 1. */
-  energy: z.number().gt(0).lt(1).optional(),
-  /** 'gradient': lift k-space weighted by the derivative's spectral factor (Ongie & Jacob 2016). */
-  weighting: z.enum(WEIGHTINGS).optional(),
-  iterations: z.number().int().min(1).optional(),
-  tolerance: z.number().min(0).lt(1).optional(),
+  kernel: z
+    .union([kernelSide, z.tuple([kernelSide, kernelSide])])
+    .optional()
+    .describe(`window side w (w×w) or [rows (ky), columns (kx)]; area ≤ ${KERNEL_AREA_MAX}; default 7`),
+  rank: z
+    .number()
+    .int()
+    .min(1)
+    .optional()
+    .describe('truncation rank ≤ window area; default half the window area unless energy is given'),
+  energy: z
+    .number()
+    .gt(0)
+    .lt(1)
+    .optional()
+    .describe(
+      'choose the rank each iteration as the smallest keeping this fraction of Σσ² (instead of rank)',
+    ),
+  weighting: z
+    .enum(WEIGHTINGS)
+    .optional()
+    .describe("'gradient' (default): lift k-space weighted by the derivative's spectral factor; 'none'"),
+  iterations: z.number().int().min(1).optional().describe('iteration limit (default 100)'),
+  tolerance: z
+    .number()
+    .min(0)
+    .lt(1)
+    .optional()
+    .describe('stop when the relative change < tolerance (default 1e-5)'),
 });
 export type LowrankHankelSpec = z.infer<typeof lowrankHankelSchema>;
 

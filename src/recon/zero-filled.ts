@@ -6,8 +6,10 @@ import type { ReconInput, ReconMethod, ReconOutput } from './method.ts';
 
 export const zeroFilledSchema = z.strictObject({
   name: z.literal('zero-filled'),
-  /** Divide each acquired sample by its sampling probability before the inverse FFT (variable-density patterns). */
-  densityCompensation: z.boolean().optional(),
+  densityCompensation: z
+    .boolean()
+    .optional()
+    .describe('divide each acquired sample by its sampling probability (variable-density patterns only)'),
 });
 export type ZeroFilledSpec = z.infer<typeof zeroFilledSchema>;
 

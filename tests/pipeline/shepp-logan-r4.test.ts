@@ -62,3 +62,29 @@ describe('modified Shepp–Logan, analytic k-space, R = 4: regularised methods b
     }
   });
 });
+
+describe('with noise (SNR 20), 64², Poisson-disc R = 4: the regularised methods still beat zero-filled', () => {
+  // With noise exactness is gone; the check is that regularisation lowers the error versus
+  // zero-filled (REFERENCES §5.3, common practice). Measured (seed 2, NRMSE / SSIM): zero-filled
+  // 0.496 / 0.461, cs-tv 0.283 / 0.763, lowrank-hankel 0.206 / 0.793. (On random lines at this
+  // small matrix lowrank-hankel gains only ≈ 7 %, so that case is reported, not asserted.)
+  it('cs-tv and lowrank-hankel have lower NRMSE and higher SSIM than zero-filled', async () => {
+    const request = (method: object) =>
+      runReconstruction(
+        {
+          source: { phantom: 'shepp-logan-modified' },
+          matrix: { nx: 64, ny: 64 },
+          sampling: { pattern: 'poisson-disc', acceleration: 4, acs: 8, seed: 2 },
+          noise: { snr: 20 },
+          method: method as never,
+        },
+        2,
+      );
+    const zf = await request({ name: 'zero-filled' });
+    for (const name of ['cs-tv', 'lowrank-hankel']) {
+      const out = await request({ name });
+      expect(out.metrics.nrmse / zf.metrics.nrmse).toBeLessThan(0.75);
+      expect(out.metrics.ssim - zf.metrics.ssim).toBeGreaterThan(0.15);
+    }
+  });
+});
