@@ -1,25 +1,39 @@
-import type { MetricName } from './metric-direction.ts';
-import type { GridPosition } from './row-key.ts';
+import { z } from 'zod';
+import { metricNames } from './metric-direction.ts';
+
+const unit = z.enum(['lines', 'points', 'spokes']);
+const metricValue = z.number().nullable().describe('null = +∞ (PSNR of an exact reconstruction)');
 
 /**
  * What one cell of a plan produced: plain JSON (no typed arrays, no images, no infinities) so a
  * worker thread can send it back and a store can persist it. Metric values are `number | null`,
- * null standing for +∞ (PSNR of an exact reconstruction).
+ * null standing for +∞.
  */
-export interface CellResult extends GridPosition {
-  index: number;
-  seed: number;
-  /** Requested R (null for a custom mask) and the R the mask actually has. */
-  requestedR: number | null;
-  actualR: number;
-  /** Count that costs scan time, in `acquiredUnit` (see src/protocol/scan-time.ts). */
-  acquired: number;
-  acquiredUnit: 'lines' | 'points' | 'spokes';
-  scanSeconds: number;
-  /** The mask as drawn: its own count and unit (a 2D point mask counts points) and acquired grid fraction. */
-  mask: { acquired: number; unit: 'lines' | 'points' | 'spokes'; fraction: number };
-  metrics: Record<MetricName, number | null>;
-  reconMs: number;
-  /** Pipeline notes (inverse crime for uploads, rescaling, …). */
-  notes: string[];
-}
+export const cellResultSchema = z
+  .object({
+    index: z.int().describe('position in planCells order'),
+    reference: z.boolean(),
+    patternIndex: z.int().nullable(),
+    accelerationIndex: z.int().nullable(),
+    methodIndex: z.int().nullable(),
+    seed: z.int().describe('seed of the mask draw and the noise draw'),
+    requestedR: z.number().nullable().describe('null for a custom mask'),
+    actualR: z.number(),
+    acquired: z.number().describe('count that costs scan time, in acquiredUnit (src/protocol/scan-time.ts)'),
+    acquiredUnit: unit,
+    scanSeconds: z.number(),
+    mask: z
+      .object({ acquired: z.number(), unit, fraction: z.number() })
+      .describe('the mask as drawn: its own count and unit (a 2D point mask counts points), grid fraction'),
+    metrics: z.object(
+      Object.fromEntries(metricNames.map((m) => [m, metricValue])) as Record<
+        (typeof metricNames)[number],
+        typeof metricValue
+      >,
+    ),
+    reconMs: z.number(),
+    notes: z.array(z.string()).describe('pipeline notes (inverse crime for uploads, rescaling, …)'),
+  })
+  .meta({ id: 'PlanCellResult' });
+
+export type CellResult = z.infer<typeof cellResultSchema>;

@@ -1,5 +1,5 @@
 export { buildTable, referenceMethodLabel, referencePatternLabel, type TablePlan } from './build-table.ts';
-export type { CellResult } from './cell-result.ts';
+export { type CellResult, cellResultSchema } from './cell-result.ts';
 export { specLabels } from './labels.ts';
 export {
   compareMetric,
@@ -19,7 +19,19 @@ export {
   referenceMethod,
   referenceSampling,
 } from './plan-cells.ts';
-export type { MethodRecommendation, PlanRow, PlanTable, Recommendation, RowPick } from './plan-table.ts';
+export {
+  type MethodRecommendation,
+  methodRecommendationSchema,
+  type PlanRow,
+  type PlanTable,
+  planRowSchema,
+  planTableSchema,
+  type Recommendation,
+  type RowPick,
+  recommendationSchema,
+  rowPickSchema,
+  summarySchema,
+} from './plan-table.ts';
 export { describeTarget, meetsTarget, recommend } from './recommend.ts';
 export { type GridPosition, rowKey } from './row-key.ts';
 export { runCell } from './run-cell.ts';

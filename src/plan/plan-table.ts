@@ -1,86 +1,121 @@
-import type { ScanTime } from '../protocol/scan-time.ts';
-import type { MetricName } from './metric-direction.ts';
-import type { GridPosition } from './row-key.ts';
-import type { Summary } from './statistics.ts';
-import type { Target } from './target-schema.ts';
+import { z } from 'zod';
+import { scanTimeResultSchema } from '../protocol/scan-time-result.ts';
+import { metricNames } from './metric-direction.ts';
+import { targetSchema } from './target-schema.ts';
+
+// The tradeoff table as zod schemas: one source for the TypeScript types, for response validation
+// and for the OpenAPI schemas of GET /v1/plans/{id}.
+
+const unit = z.enum(['lines', 'points', 'spokes']);
+
+export const summarySchema = z
+  .object({
+    mean: z.number().nullable().describe('mean over seeds; null = +∞ (PSNR of an exact reconstruction)'),
+    sd: z
+      .number()
+      .nullable()
+      .describe('sample standard deviation (n − 1), 0 for one seed; null when the mean is +∞'),
+  })
+  .meta({ id: 'PlanSummary' });
+
+const gridPosition = {
+  reference: z.boolean().describe('the fully sampled reference row (R = 1, zero-filled)'),
+  patternIndex: z.int().nullable().describe('index into the plan patterns; null for the reference row'),
+  accelerationIndex: z
+    .int()
+    .nullable()
+    .describe('index into the plan accelerations; null for the reference row and custom masks'),
+  methodIndex: z.int().nullable().describe('index into the plan methods; null for the reference row'),
+};
 
 /**
  * One row of the tradeoff table: one pattern × R × method, aggregated over the plan's seeds.
  * Means are arithmetic means over seeds; `sd` is the sample standard deviation (n − 1), 0 for one
  * seed. A null mean stands for +∞ (PSNR of an exact reconstruction), its sd is then null (undefined).
  */
-export interface PlanRow extends GridPosition {
-  /** Stable id: 'reference', 'p0-r2-m1', 'p3-m0' (custom mask). */
-  key: string;
-  /** Pattern label ('fully sampled' for the reference row), see labels.ts. */
-  pattern: string;
-  method: string;
-  /** Requested R (1 for the reference row, null for a custom mask). */
-  requestedR: number | null;
-  /** Mean over seeds of the mask's actual R. */
-  actualR: number;
-  /** Mean over seeds of the count that costs scan time (random patterns draw a different count per seed). */
-  acquired: number;
-  acquiredUnit: 'lines' | 'points' | 'spokes';
-  /** Mean over seeds of the scan time, and that mean as m:ss. */
-  scanSeconds: number;
-  scanFormatted: string;
-  /** 100 · (1 − scanSeconds / fully sampled scan seconds). */
-  timeSavedPct: number;
-  metrics: Record<MetricName, Summary>;
-  /** Mean reconstruction wall time in ms (the one quantity that varies between runs). */
-  reconMs: number;
-  /** Seeds aggregated in this row. */
-  seeds: number;
-  /** On the Pareto front of scan time vs the target metric (NRMSE without a target). */
-  pareto: boolean;
-  /** Whether the mean target metric meets the target; null without a target. */
-  meetsTarget: boolean | null;
-}
+export const planRowSchema = z
+  .object({
+    ...gridPosition,
+    key: z.string().describe("stable id: 'reference', 'p0-r2-m1', 'p3-m0' (custom mask)"),
+    pattern: z.string().describe("pattern label ('fully sampled' for the reference row)"),
+    method: z.string().describe('method label'),
+    requestedR: z
+      .number()
+      .nullable()
+      .describe('requested R; 1 for the reference row, null for a custom mask'),
+    actualR: z.number().describe("mean over seeds of the mask's actual R"),
+    acquired: z.number().describe('mean over seeds of the count that costs scan time, in acquiredUnit'),
+    acquiredUnit: unit,
+    scanSeconds: z.number().describe('mean over seeds of the scan time in seconds'),
+    scanFormatted: z.string().describe('scanSeconds as m:ss'),
+    timeSavedPct: z.number().describe('100 · (1 − scanSeconds / fully sampled seconds)'),
+    metrics: z.object(
+      Object.fromEntries(metricNames.map((m) => [m, summarySchema])) as Record<
+        (typeof metricNames)[number],
+        typeof summarySchema
+      >,
+    ),
+    reconMs: z.number().describe('mean reconstruction wall time in ms (varies between runs)'),
+    seeds: z.int().describe('seeds aggregated in this row'),
+    pareto: z.boolean().describe('on the Pareto front of scan time vs paretoMetric'),
+    meetsTarget: z
+      .boolean()
+      .nullable()
+      .describe('mean target metric meets the target; null without a target'),
+  })
+  .meta({ id: 'PlanRow' });
 
-/** A row picked by the recommendation. */
-export interface RowPick {
-  rowIndex: number;
-  key: string;
-  pattern: string;
-  method: string;
-  requestedR: number | null;
-  scanSeconds: number;
-  scanFormatted: string;
-  timeSavedPct: number;
-  /** Mean of the target metric. */
-  value: number | null;
-}
+export const rowPickSchema = z
+  .object({
+    rowIndex: z.int().describe('index into rows'),
+    key: z.string(),
+    pattern: z.string(),
+    method: z.string(),
+    requestedR: z.number().nullable(),
+    scanSeconds: z.number(),
+    scanFormatted: z.string(),
+    timeSavedPct: z.number(),
+    value: z.number().nullable().describe('mean of the target metric; null = +∞'),
+  })
+  .meta({ id: 'PlanRowPick' });
 
-export interface MethodRecommendation {
-  methodIndex: number;
-  method: string;
-  /** Shortest scan with this method that meets the target, or null. */
-  pick: RowPick | null;
-  /** When none does: the row of this method closest to the target. */
-  closest: RowPick | null;
-}
+export const methodRecommendationSchema = z
+  .object({
+    methodIndex: z.int(),
+    method: z.string(),
+    pick: rowPickSchema.nullable().describe('shortest scan with this method meeting the target'),
+    closest: rowPickSchema
+      .nullable()
+      .describe('when none does: the row of this method closest to the target'),
+  })
+  .meta({ id: 'PlanMethodRecommendation' });
 
-export interface Recommendation {
-  target: Target | null;
-  /** Some undersampled row meets the target. */
-  met: boolean;
-  /** Shortest scan meeting the target over all methods. */
-  overall: RowPick | null;
-  /** When nothing meets the target: the row closest to it. */
-  closest: RowPick | null;
-  perMethod: MethodRecommendation[];
-  /** The recommendation in one or two plain sentences. */
-  statement: string;
-}
+export const recommendationSchema = z
+  .object({
+    target: targetSchema.nullable(),
+    met: z.boolean().describe('some undersampled row meets the target'),
+    overall: rowPickSchema.nullable().describe('shortest scan meeting the target over all methods'),
+    closest: rowPickSchema.nullable().describe('when nothing meets the target: the closest row'),
+    perMethod: z.array(methodRecommendationSchema),
+    statement: z.string().describe('the recommendation in plain words'),
+  })
+  .meta({ id: 'PlanRecommendation' });
 
-export interface PlanTable {
-  /** rows[0] is the fully sampled reference row (R = 1, zero-filled); the others follow plan order. */
-  rows: PlanRow[];
-  fullySampled: ScanTime;
-  /** Metric of the Pareto front: the target's metric, NRMSE without a target. */
-  paretoMetric: MetricName;
-  recommendation: Recommendation;
-  cells: { done: number; total: number };
-  notes: string[];
-}
+export const planTableSchema = z
+  .object({
+    rows: z
+      .array(planRowSchema)
+      .describe('rows[0] is the fully sampled reference; the others follow plan order'),
+    fullySampled: scanTimeResultSchema,
+    paretoMetric: z.enum(metricNames).describe("the target's metric; nrmse without a target"),
+    recommendation: recommendationSchema,
+    cells: z.object({ done: z.int(), total: z.int() }),
+    notes: z.array(z.string()),
+  })
+  .meta({ id: 'PlanTable' });
+
+export type PlanRow = z.infer<typeof planRowSchema>;
+export type RowPick = z.infer<typeof rowPickSchema>;
+export type MethodRecommendation = z.infer<typeof methodRecommendationSchema>;
+export type Recommendation = z.infer<typeof recommendationSchema>;
+export type PlanTable = z.infer<typeof planTableSchema>;

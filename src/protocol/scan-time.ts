@@ -1,7 +1,10 @@
 import { ValidationError } from '../core/errors.ts';
 import { formatDuration } from './format-duration.ts';
+import type { ScanTime } from './scan-time-result.ts';
 import { type Protocol, type ProtocolInput, protocolSchema } from './schema.ts';
 import { parseOrThrow } from './zod-problems.ts';
+
+export type { ScanTime } from './scan-time-result.ts';
 
 /** What the scan-time model reads from a sampled mask (a sampling/ SampledMask satisfies it). */
 export interface ScanTimeSampling {
@@ -10,19 +13,6 @@ export interface ScanTimeSampling {
   mask: Uint8Array;
   acquired: { count: number; unit: string };
   representation: 'cartesian' | 'radial-rasterised';
-}
-
-export interface ScanTime {
-  seconds: number;
-  /** `m:ss(.s)`, see formatDuration. */
-  formatted: string;
-  /** Acquired count that costs time: phase-encode lines (2D), ky–kz points (3D) or spokes (radial). */
-  acquired: number;
-  unit: 'lines' | 'points' | 'spokes';
-  /** ⌈acquired / echoTrainLength⌉: TRs per pass and excitation. */
-  shots: number;
-  /** ⌈slices / slicesPerPass⌉ (2D); 1 in 3D. */
-  passes: number;
 }
 
 /**

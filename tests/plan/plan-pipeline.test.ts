@@ -1,7 +1,8 @@
 import { parse } from 'csv-parse/sync';
 import { describe, expect, it } from 'vitest';
+import { cellResultSchema } from '../../src/plan/cell-result.ts';
 import { planCells } from '../../src/plan/plan-cells.ts';
-import type { PlanTable } from '../../src/plan/plan-table.ts';
+import { type PlanTable, planTableSchema } from '../../src/plan/plan-table.ts';
 import { runCell } from '../../src/plan/run-cell.ts';
 import { runPlan } from '../../src/plan/run-plan.ts';
 import { tableToCsv } from '../../src/plan/table-csv.ts';
@@ -86,9 +87,11 @@ describe('plan through the real pipeline (32×32)', () => {
     const cell = planCells(plan)[4];
     const result = await runCell(plan, cell);
     expect(JSON.parse(JSON.stringify(result))).toEqual(result);
+    expect(cellResultSchema.parse(result)).toEqual(result);
     expect(result.seed).toBe(cell.seed);
 
     const table = await runPlan(body);
+    expect(planTableSchema.parse(JSON.parse(JSON.stringify(table)))).toEqual(table);
     const records = parse(tableToCsv(table), { columns: true }) as Record<string, string>[];
     expect(records.length).toBe(table.rows.length);
     records.forEach((record, i) => {
