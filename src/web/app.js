@@ -13,9 +13,24 @@ async function main() {
   const single = new SingleRun(setup);
   const plan = new PlanRun(setup);
 
+  // Enter in a field must not submit (and reload) the page: the buttons run everything.
+  for (const form of document.querySelectorAll('form')) {
+    form.addEventListener('submit', (event) => event.preventDefault());
+  }
+
   const keyInput = byId('apiKey');
   keyInput.value = apiKey();
-  keyInput.addEventListener('change', () => setApiKey(keyInput.value.trim()));
+  keyInput.addEventListener('change', async () => {
+    setApiKey(keyInput.value.trim());
+    // The phantom list is the first thing a keyed server refuses; fetch it again with the key.
+    try {
+      await setup.loadPhantoms();
+      showStatus(single.status, 'Key accepted. Choose a setup, then show the mask or reconstruct.');
+      single.problems.hidden = true;
+    } catch (error) {
+      showProblem(single.status, single.problems, error, setup);
+    }
+  });
 
   byId('uploadFile').addEventListener('change', async (event) => {
     const file = event.target.files?.[0];

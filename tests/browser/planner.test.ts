@@ -34,6 +34,10 @@ let context: BrowserContext;
 let page: Page;
 let userDataDir: string;
 let dataDir: string;
+let keyedApp: FastifyInstance;
+let keyedUrl: string;
+let keyedDataDir: string;
+const apiKey = 'browser-test-key-7f3a';
 const offOrigin: string[] = [];
 const pageErrors: string[] = [];
 const requested: string[] = [];
@@ -97,6 +101,13 @@ function waitForApi(path: string, method = 'POST', accept?: string): Promise<Res
   });
 }
 
+async function listen(server: FastifyInstance): Promise<string> {
+  await server.listen({ port: 0, host: '127.0.0.1' });
+  const address = server.server.address();
+  if (address === null || typeof address === 'string') throw new Error('no TCP address');
+  return `http://127.0.0.1:${address.port}`;
+}
+
 beforeAll(async () => {
   if (!existsSync(chromiumPath)) {
     throw new Error(
@@ -106,10 +117,10 @@ beforeAll(async () => {
   mkdirSync(artifacts, { recursive: true });
   dataDir = mkdtempSync(join(tmpdir(), 'kspace-planner-browser-data-'));
   app = await buildApp({ dataDir });
-  await app.listen({ port: 0, host: '127.0.0.1' });
-  const address = app.server.address();
-  if (address === null || typeof address === 'string') throw new Error('no TCP address');
-  baseUrl = `http://127.0.0.1:${address.port}`;
+  baseUrl = await listen(app);
+  keyedDataDir = mkdtempSync(join(tmpdir(), 'kspace-planner-browser-keyed-'));
+  keyedApp = await buildApp({ dataDir: keyedDataDir, apiKeys: [apiKey], workers: 1 });
+  keyedUrl = await listen(keyedApp);
 
   userDataDir = mkdtempSync(join(tmpdir(), 'kspace-planner-chromium-'));
   context = await chromium.launchPersistentContext(userDataDir, {
@@ -122,8 +133,8 @@ beforeAll(async () => {
   // Nothing leaves the service's origin: no CDN, no fonts, no telemetry.
   await context.route('**/*', (route) => {
     const url = route.request().url();
-    if (url.startsWith(baseUrl) || url.startsWith('blob:') || url.startsWith('data:'))
-      return route.continue();
+    const local = [baseUrl, keyedUrl, 'blob:', 'data:'].some((origin) => url.startsWith(origin));
+    if (local) return route.continue();
     offOrigin.push(url);
     return route.abort();
   });
@@ -138,6 +149,8 @@ beforeAll(async () => {
 afterAll(async () => {
   await context?.close();
   await app?.close();
+  await keyedApp?.close();
+  if (keyedDataDir) rmSync(keyedDataDir, { recursive: true, force: true });
   if (userDataDir) rmSync(userDataDir, { recursive: true, force: true });
   if (dataDir) rmSync(dataDir, { recursive: true, force: true });
 });
@@ -497,6 +510,62 @@ describe('planner page in Chromium', () => {
     expect(plan.status).toBe('cancelled');
     expect(plan.progress.done).toBeLessThan(plan.progress.total);
     expect(await page.locator('#planStatus').textContent()).toContain('cancelled');
+  });
+
+  it('works on a server that requires an API key', async () => {
+    const keyed = await context.newPage();
+    const keyedErrors: string[] = [];
+    const keyedRequests: string[] = [];
+    keyed.on('pageerror', (error) => keyedErrors.push(String(error)));
+    keyed.on('request', (request) => keyedRequests.push(request.url()));
+    await keyed.goto(`${keyedUrl}/`);
+    await keyed.waitForSelector('body[data-ready="true"]');
+    // Without the key the service refuses, and the page says where to enter one.
+    expect(await keyed.locator('#singleStatus').textContent()).toContain('Service access');
+
+    await keyed.click('.access summary');
+    await keyed.fill('#apiKey', apiKey);
+    await keyed.press('#apiKey', 'Enter'); // commits the field; must not reload the page
+    await keyed.waitForFunction(() => document.querySelectorAll('#phantom option').length > 0);
+    const listed = await fetch(`${keyedUrl}/v1/phantoms`, { headers: { 'x-api-key': apiKey } });
+    const { phantoms } = (await listed.json()) as { phantoms: Array<{ name: string }> };
+    const options = await keyed.$$eval('#phantom option', (list) =>
+      list.map((o) => (o as HTMLOptionElement).value),
+    );
+    expect(options).toEqual(phantoms.map((p) => p.name));
+
+    // Images come through fetch with the key (an <img src> could not send it).
+    await keyed.fill('#nx', '32');
+    await keyed.fill('#ny', '32');
+    await keyed.fill('#acceleration', '2');
+    await keyed.fill('#acs', '4');
+    await keyed.click('#maskButton');
+    await keyed.waitForFunction(() => !(document.querySelector('#maskButton') as HTMLButtonElement).disabled);
+    expect(await keyed.locator('#singleStatus').textContent()).toContain('Mask ready');
+    expect(await keyed.$eval('#imgPsf', (img) => (img as HTMLImageElement).naturalWidth)).toBe(32);
+
+    // EventSource cannot send a key: the page follows the plan by polling its status instead.
+    for (const box of await keyed.$$('input[name="planPattern"]')) await box.setChecked(false);
+    await keyed.check('input[name="planPattern"][value="cartesian-random"]');
+    for (const box of await keyed.$$('input[name="planMethod"]')) await box.setChecked(false);
+    await keyed.check('input[name="planMethod"][value="zero-filled"]');
+    await keyed.fill('#planAccelerations', '2');
+    await keyed.fill('#planSeeds', '1');
+    await keyed.click('#planButton');
+    await keyed.waitForFunction(
+      () => !(document.querySelector('#planButton') as HTMLButtonElement).disabled,
+      undefined,
+      {
+        timeout: 30_000,
+      },
+    );
+    expect(await keyed.locator('#planStatus').textContent()).toContain('done');
+    expect(await keyed.locator('#planTable tbody tr[data-row]').count()).toBe(2);
+    expect(keyedRequests.some((url) => url.includes('/events'))).toBe(false);
+    const csvHref = (await keyed.getAttribute('#csvLink', 'href')) ?? '';
+    expect(csvHref.startsWith('blob:')).toBe(true);
+    expect(keyedErrors).toEqual([]);
+    await keyed.close();
   });
 
   it('made no request off the service origin and raised no page errors', () => {
