@@ -9,31 +9,29 @@ const metricValue = z.number().nullable().describe('null = +∞ (PSNR of an exac
  * worker thread can send it back and a store can persist it. Metric values are `number | null`,
  * null standing for +∞.
  */
-export const cellResultSchema = z
-  .object({
-    index: z.int().describe('position in planCells order'),
-    reference: z.boolean(),
-    patternIndex: z.int().nullable(),
-    accelerationIndex: z.int().nullable(),
-    methodIndex: z.int().nullable(),
-    seed: z.int().describe('seed of the mask draw and the noise draw'),
-    requestedR: z.number().nullable().describe('null for a custom mask'),
-    actualR: z.number(),
-    acquired: z.number().describe('count that costs scan time, in acquiredUnit (src/protocol/scan-time.ts)'),
-    acquiredUnit: unit,
-    scanSeconds: z.number(),
-    mask: z
-      .object({ acquired: z.number(), unit, fraction: z.number() })
-      .describe('the mask as drawn: its own count and unit (a 2D point mask counts points), grid fraction'),
-    metrics: z.object(
-      Object.fromEntries(metricNames.map((m) => [m, metricValue])) as Record<
-        (typeof metricNames)[number],
-        typeof metricValue
-      >,
-    ),
-    reconMs: z.number(),
-    notes: z.array(z.string()).describe('pipeline notes (inverse crime for uploads, rescaling, …)'),
-  })
-  .meta({ id: 'PlanCellResult' });
+export const cellResultSchema = z.object({
+  index: z.int().describe('position in planCells order'),
+  reference: z.boolean(),
+  patternIndex: z.int().nullable(),
+  accelerationIndex: z.int().nullable(),
+  methodIndex: z.int().nullable(),
+  seed: z.int().describe('seed of the mask draw and the noise draw'),
+  requestedR: z.number().nullable().describe('null for a custom mask'),
+  actualR: z.number(),
+  acquired: z.number().describe('count that costs scan time, in acquiredUnit (src/protocol/scan-time.ts)'),
+  acquiredUnit: unit,
+  scanSeconds: z.number(),
+  mask: z
+    .object({ acquired: z.number(), unit, fraction: z.number() })
+    .describe('the mask as drawn: its own count and unit (a 2D point mask counts points), grid fraction'),
+  metrics: z.object(
+    Object.fromEntries(metricNames.map((m) => [m, metricValue])) as Record<
+      (typeof metricNames)[number],
+      typeof metricValue
+    >,
+  ),
+  reconMs: z.number(),
+  notes: z.array(z.string()).describe('pipeline notes (inverse crime for uploads, rescaling, …)'),
+});
 
 export type CellResult = z.infer<typeof cellResultSchema>;

@@ -4,19 +4,18 @@ import { metricNames } from './metric-direction.ts';
 import { targetSchema } from './target-schema.ts';
 
 // The tradeoff table as zod schemas: one source for the TypeScript types, for response validation
-// and for the OpenAPI schemas of GET /v1/plans/{id}.
+// and for the OpenAPI schemas of GET /v1/plans/{id}. No registry ids here: the HTTP layer names the
+// components it publishes (`.meta({ id })` returns a registered copy).
 
 const unit = z.enum(['lines', 'points', 'spokes']);
 
-export const summarySchema = z
-  .object({
-    mean: z.number().nullable().describe('mean over seeds; null = +∞ (PSNR of an exact reconstruction)'),
-    sd: z
-      .number()
-      .nullable()
-      .describe('sample standard deviation (n − 1), 0 for one seed; null when the mean is +∞'),
-  })
-  .meta({ id: 'PlanSummary' });
+export const summarySchema = z.object({
+  mean: z.number().nullable().describe('mean over seeds; null = +∞ (PSNR of an exact reconstruction)'),
+  sd: z
+    .number()
+    .nullable()
+    .describe('sample standard deviation (n − 1), 0 for one seed; null when the mean is +∞'),
+});
 
 const gridPosition = {
   reference: z.boolean().describe('the fully sampled reference row (R = 1, zero-filled)'),
@@ -33,86 +32,68 @@ const gridPosition = {
  * Means are arithmetic means over seeds; `sd` is the sample standard deviation (n − 1), 0 for one
  * seed. A null mean stands for +∞ (PSNR of an exact reconstruction), its sd is then null (undefined).
  */
-export const planRowSchema = z
-  .object({
-    ...gridPosition,
-    key: z.string().describe("stable id: 'reference', 'p0-r2-m1', 'p3-m0' (custom mask)"),
-    pattern: z.string().describe("pattern label ('fully sampled' for the reference row)"),
-    method: z.string().describe('method label'),
-    requestedR: z
-      .number()
-      .nullable()
-      .describe('requested R; 1 for the reference row, null for a custom mask'),
-    actualR: z.number().describe("mean over seeds of the mask's actual R"),
-    acquired: z.number().describe('mean over seeds of the count that costs scan time, in acquiredUnit'),
-    acquiredUnit: unit,
-    scanSeconds: z.number().describe('mean over seeds of the scan time in seconds'),
-    scanFormatted: z.string().describe('scanSeconds as m:ss'),
-    timeSavedPct: z.number().describe('100 · (1 − scanSeconds / fully sampled seconds)'),
-    metrics: z.object(
-      Object.fromEntries(metricNames.map((m) => [m, summarySchema])) as Record<
-        (typeof metricNames)[number],
-        typeof summarySchema
-      >,
-    ),
-    reconMs: z.number().describe('mean reconstruction wall time in ms (varies between runs)'),
-    seeds: z.int().describe('seeds aggregated in this row'),
-    pareto: z.boolean().describe('on the Pareto front of scan time vs paretoMetric'),
-    meetsTarget: z
-      .boolean()
-      .nullable()
-      .describe('mean target metric meets the target; null without a target'),
-  })
-  .meta({ id: 'PlanRow' });
+export const planRowSchema = z.object({
+  ...gridPosition,
+  key: z.string().describe("stable id: 'reference', 'p0-r2-m1', 'p3-m0' (custom mask)"),
+  pattern: z.string().describe("pattern label ('fully sampled' for the reference row)"),
+  method: z.string().describe('method label'),
+  requestedR: z.number().nullable().describe('requested R; 1 for the reference row, null for a custom mask'),
+  actualR: z.number().describe("mean over seeds of the mask's actual R"),
+  acquired: z.number().describe('mean over seeds of the count that costs scan time, in acquiredUnit'),
+  acquiredUnit: unit,
+  scanSeconds: z.number().describe('mean over seeds of the scan time in seconds'),
+  scanFormatted: z.string().describe('scanSeconds as m:ss'),
+  timeSavedPct: z.number().describe('100 · (1 − scanSeconds / fully sampled seconds)'),
+  metrics: z.object(
+    Object.fromEntries(metricNames.map((m) => [m, summarySchema])) as Record<
+      (typeof metricNames)[number],
+      typeof summarySchema
+    >,
+  ),
+  reconMs: z.number().describe('mean reconstruction wall time in ms (varies between runs)'),
+  seeds: z.int().describe('seeds aggregated in this row'),
+  pareto: z.boolean().describe('on the Pareto front of scan time vs paretoMetric'),
+  meetsTarget: z.boolean().nullable().describe('mean target metric meets the target; null without a target'),
+});
 
-export const rowPickSchema = z
-  .object({
-    rowIndex: z.int().describe('index into rows'),
-    key: z.string(),
-    pattern: z.string(),
-    method: z.string(),
-    requestedR: z.number().nullable(),
-    scanSeconds: z.number(),
-    scanFormatted: z.string(),
-    timeSavedPct: z.number(),
-    value: z.number().nullable().describe('mean of the target metric; null = +∞'),
-  })
-  .meta({ id: 'PlanRowPick' });
+export const rowPickSchema = z.object({
+  rowIndex: z.int().describe('index into rows'),
+  key: z.string(),
+  pattern: z.string(),
+  method: z.string(),
+  requestedR: z.number().nullable(),
+  scanSeconds: z.number(),
+  scanFormatted: z.string(),
+  timeSavedPct: z.number(),
+  value: z.number().nullable().describe('mean of the target metric; null = +∞'),
+});
 
-export const methodRecommendationSchema = z
-  .object({
-    methodIndex: z.int(),
-    method: z.string(),
-    pick: rowPickSchema.nullable().describe('shortest scan with this method meeting the target'),
-    closest: rowPickSchema
-      .nullable()
-      .describe('when none does: the row of this method closest to the target'),
-  })
-  .meta({ id: 'PlanMethodRecommendation' });
+export const methodRecommendationSchema = z.object({
+  methodIndex: z.int(),
+  method: z.string(),
+  pick: rowPickSchema.nullable().describe('shortest scan with this method meeting the target'),
+  closest: rowPickSchema.nullable().describe('when none does: the row of this method closest to the target'),
+});
 
-export const recommendationSchema = z
-  .object({
-    target: targetSchema.nullable(),
-    met: z.boolean().describe('some undersampled row meets the target'),
-    overall: rowPickSchema.nullable().describe('shortest scan meeting the target over all methods'),
-    closest: rowPickSchema.nullable().describe('when nothing meets the target: the closest row'),
-    perMethod: z.array(methodRecommendationSchema),
-    statement: z.string().describe('the recommendation in plain words'),
-  })
-  .meta({ id: 'PlanRecommendation' });
+export const recommendationSchema = z.object({
+  target: targetSchema.nullable(),
+  met: z.boolean().describe('some undersampled row meets the target'),
+  overall: rowPickSchema.nullable().describe('shortest scan meeting the target over all methods'),
+  closest: rowPickSchema.nullable().describe('when nothing meets the target: the closest row'),
+  perMethod: z.array(methodRecommendationSchema),
+  statement: z.string().describe('the recommendation in plain words'),
+});
 
-export const planTableSchema = z
-  .object({
-    rows: z
-      .array(planRowSchema)
-      .describe('rows[0] is the fully sampled reference; the others follow plan order'),
-    fullySampled: scanTimeResultSchema,
-    paretoMetric: z.enum(metricNames).describe("the target's metric; nrmse without a target"),
-    recommendation: recommendationSchema,
-    cells: z.object({ done: z.int(), total: z.int() }),
-    notes: z.array(z.string()),
-  })
-  .meta({ id: 'PlanTable' });
+export const planTableSchema = z.object({
+  rows: z
+    .array(planRowSchema)
+    .describe('rows[0] is the fully sampled reference; the others follow plan order'),
+  fullySampled: scanTimeResultSchema,
+  paretoMetric: z.enum(metricNames).describe("the target's metric; nrmse without a target"),
+  recommendation: recommendationSchema,
+  cells: z.object({ done: z.int(), total: z.int() }),
+  notes: z.array(z.string()),
+});
 
 export type PlanRow = z.infer<typeof planRowSchema>;
 export type RowPick = z.infer<typeof rowPickSchema>;
