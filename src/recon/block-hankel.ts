@@ -29,6 +29,8 @@ export class BlockHankel {
   private readonly rowBoxes: Int32Array;
   private readonly colBox: Int32Array;
   private readonly colBoxes: Int32Array;
+  /** The (row box, column box) of interior samples, or null when no sample sees every window. */
+  private readonly fullBox: { ry: number; rx: number } | null;
   /** Image-domain multiplier of the interior kernel and FFT scratch (see projectAverage). */
   private readonly multiplier: ComplexImage;
   private readonly scratch: ComplexImage;
@@ -59,6 +61,15 @@ export class BlockHankel {
     this.rowBoxes = rows.ranges;
     this.colBox = cols.boxOf;
     this.colBoxes = cols.ranges;
+    let ry = -1;
+    let rx = -1;
+    for (let i = 0; i < this.rowBoxes.length; i += 2) {
+      if (this.rowBoxes[i] === 0 && this.rowBoxes[i + 1] === wy - 1) ry = i / 2;
+    }
+    for (let i = 0; i < this.colBoxes.length; i += 2) {
+      if (this.colBoxes[i] === 0 && this.colBoxes[i + 1] === wx - 1) rx = i / 2;
+    }
+    this.fullBox = ry < 0 || rx < 0 ? null : { ry, rx };
     this.multiplier = createComplexImage(nx, ny);
     this.scratch = createComplexImage(nx, ny);
     this.kernels = new Float64Array(
@@ -93,7 +104,6 @@ export class BlockHankel {
         // Row r contributes to S(r', ·) for r' > r; store S at each row boundary as it is reached.
         for (let r = 0; r <= ny; r++) {
           if (nextRow < rowBounds.length && rowBounds[nextRow] === r) {
-            // bounds are sorted and distinct
             cornerSums.set(columnSums, 2 * nc * nextRow);
             nextRow++;
           }
@@ -105,7 +115,24 @@ export class BlockHankel {
             j++;
           }
           const rowStart = 2 * r * nx;
-          for (let c = c0; c < c1; c++) {
+          if (weight1 === 0) {
+            for (let c = c0; c < c1; c++) {
+              const i = rowStart + 2 * c;
+              const k = i + offset;
+              const ar = z0[i];
+              const ai = z0[i + 1];
+              const br = z0[k];
+              const bi = z0[k + 1];
+              rowRe += ar * br + ai * bi;
+              rowIm += ar * bi - ai * br;
+              while (j < nc && colBounds[j] === c + 1) {
+                columnSums[2 * j] += rowRe;
+                columnSums[2 * j + 1] += rowIm;
+                j++;
+              }
+            }
+          }
+          for (let c = weight1 === 0 ? c1 : c0; c < c1; c++) {
             const i = rowStart + 2 * c;
             const k = i + offset;
             const ar = z0[i];
@@ -116,9 +143,9 @@ export class BlockHankel {
             const ei = z1[i + 1];
             const fr = z1[k];
             const fi = z1[k + 1];
-            rowRe += ar * br + ai * bi + weight1 * (er * fr + ei * fi);
-            rowIm += ar * bi - ai * br + weight1 * (er * fi - ei * fr);
-            if (colBounds[j] === c + 1) {
+            rowRe += ar * br + ai * bi + er * fr + ei * fi;
+            rowIm += ar * bi - ai * br + er * fi - ei * fr;
+            while (j < nc && colBounds[j] === c + 1) {
               columnSums[2 * j] += rowRe;
               columnSums[2 * j + 1] += rowIm;
               j++;
