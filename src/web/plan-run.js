@@ -103,7 +103,10 @@ export class PlanRun {
     }
   }
 
-  /** Resolves with the finished plan. Progress comes from the SSE stream; with an API key (EventSource cannot send one) by polling. */
+  /**
+   * Resolves with the finished plan. Progress comes from the SSE stream (`progress` events, then one
+   * named after the final status); with an API key, which EventSource cannot send, by polling.
+   */
   follow(id) {
     return new Promise((resolve, reject) => {
       const settle = async () => {
@@ -121,8 +124,11 @@ export class PlanRun {
           return null;
         }
       };
+      const poll = () => {
+        if (!this.poller) this.poller = setInterval(settle, 500);
+      };
       if (apiKey()) {
-        this.poller = setInterval(settle, 500);
+        poll();
         return;
       }
       const source = new EventSource(`v1/plans/${encodeURIComponent(id)}/events`);
@@ -140,13 +146,11 @@ export class PlanRun {
         }
         if (terminal.has(data.status) || terminal.has(event.type)) settle();
       };
-      for (const type of ['message', 'progress', 'status', 'cell', 'done', 'failed', 'cancelled', 'end']) {
-        source.addEventListener(type, onEvent);
-      }
-      // The stream ends when the plan does; the browser then reports an error and retries. Ask the plan instead.
-      source.addEventListener('error', (event) => {
-        if (event.data) onEvent(event);
-        else settle();
+      for (const type of ['progress', 'done', 'failed', 'cancelled']) source.addEventListener(type, onEvent);
+      // A dropped stream is retried by the browser; one it gave up on (e.g. refused) falls back to polling.
+      source.addEventListener('error', async () => {
+        const plan = await settle();
+        if (plan && !terminal.has(plan.status) && source.readyState === EventSource.CLOSED) poll();
       });
     });
   }
