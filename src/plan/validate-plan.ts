@@ -1,5 +1,6 @@
 import { type FieldProblem, LimitError, ValidationError } from '../core/errors.ts';
 import { defaultLimits, type Limits } from '../core/limits.ts';
+import { scanTime } from '../protocol/scan-time.ts';
 import { parseOrThrow } from '../protocol/zod-problems.ts';
 import { patternSpecs } from './pattern-specs.ts';
 import { checkPlanSize } from './plan-cells.ts';
@@ -9,8 +10,9 @@ import { generateMask, samplingSchema } from './upstream.ts';
 export interface ValidatePlanOptions {
   limits?: Limits;
   /**
-   * Draw every non-custom pattern × R mask once (seed 1) so that problems only the generator can see
-   * (ACS wider than N/R, …) are reported before the plan is queued, not halfway through it.
+   * Draw every non-custom pattern × R mask once (seed 1) and time it, so that problems only the
+   * generator or the scan-time model can see (ACS wider than N/R, radial with a 3D protocol, …) are
+   * reported before the plan is queued, not halfway through it.
    */
   checkMasks?: boolean;
 }
@@ -58,7 +60,12 @@ function checkMasks(plan: Plan, limits: Limits): void {
     for (const [j, spec] of patternSpecs(pattern, plan.accelerations)) {
       if (j === null) continue; // custom masks are decoded asynchronously by the pipeline
       try {
-        generateMask(plan.matrix, samplingSchema.parse({ ...spec, seed: 1 }), limits);
+        // The scan-time model too: radial masks refuse 3D and partial Fourier.
+        scanTime(
+          plan.matrix,
+          plan.protocol,
+          generateMask(plan.matrix, samplingSchema.parse({ ...spec, seed: 1 }), limits),
+        );
       } catch (error) {
         if (!(error instanceof ValidationError)) throw error;
         for (const problem of error.problems) {

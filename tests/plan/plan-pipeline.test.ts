@@ -100,3 +100,28 @@ describe('plan through the real pipeline (32×32)', () => {
     });
   });
 });
+
+describe('a custom mask in a plan (32×32 PNG made with sharp)', () => {
+  it('gives one row per method with requested R null and times the rows it samples', async () => {
+    const { default: sharp } = await import('sharp');
+    const pixels = new Uint8Array(32 * 32);
+    for (let row = 0; row < 32; row++)
+      if (row % 2 === 0 || Math.abs(row - 16) < 3) pixels.fill(255, row * 32, (row + 1) * 32);
+    const png = await sharp(Buffer.from(pixels), { raw: { width: 32, height: 32, channels: 1 } })
+      .png()
+      .toBuffer();
+    const table = await runPlan({
+      ...body,
+      patterns: [{ pattern: 'custom', maskPng: png.toString('base64') }],
+      accelerations: [2, 4],
+      seeds: 1,
+    });
+    expect(table.rows.map((r) => r.key)).toEqual(['reference', 'p0-m0']);
+    const row = table.rows[1];
+    expect(row.requestedR).toBeNull();
+    // Rows 0, 2, …, 30 (16) plus the odd rows 15 and 17 next to the centre: 18 lines × 0.5 s = 9 s.
+    expect(row.acquired).toBe(18);
+    expect(row.scanSeconds).toBe(9);
+    expect(row.actualR).toBeCloseTo(32 / 18, 12);
+  });
+});

@@ -214,6 +214,13 @@ describe('plan validation names the field and the allowed range', () => {
     ).toBe(true);
   });
 
+  it('protocol and pattern that do not fit together are refused up front (radial in 3D)', () => {
+    const { problems: list } = problems(
+      body({ patterns: [{ pattern: 'radial' }], protocol: { trMs: 5, dimensions: '3d' } }),
+    );
+    expect(list[0]).toMatchObject({ field: 'protocol.dimensions', allowed: "'2d' for radial sampling" });
+  });
+
   it('too many cells is a LimitError before any work', async () => {
     const limits = { ...defaultLimits, maxPlanCells: 10 };
     const { error, problems: list } = problems(body(), limits);
