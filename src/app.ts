@@ -114,6 +114,7 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
   installApiKeyAuth(app, options.apiKeys ?? []);
   app.addHook('onSend', async (request, reply) => {
     reply.header('x-request-id', request.id);
+    reply.header('x-content-type-options', 'nosniff');
   });
 
   const routes: Services['routes'] = [];
