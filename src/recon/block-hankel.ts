@@ -258,14 +258,7 @@ export class BlockHankel {
 
   /** Index of the full box (all window offsets fit) along rows and columns, or null if none. */
   private interiorBox(): { ry: number; rx: number } | null {
-    const { wx, wy, rowBoxes, colBoxes } = this;
-    let ry = -1;
-    let rx = -1;
-    for (let i = 0; i < rowBoxes.length; i += 2)
-      if (rowBoxes[i] === 0 && rowBoxes[i + 1] === wy - 1) ry = i / 2;
-    for (let i = 0; i < colBoxes.length; i += 2)
-      if (colBoxes[i] === 0 && colBoxes[i + 1] === wx - 1) rx = i / 2;
-    return ry < 0 || rx < 0 ? null : { ry, rx };
+    return this.fullBox;
   }
 
   /** Image-domain multiplier √N · F_cᴴ(S k̃) of the full-box kernel (after setProjector). */
