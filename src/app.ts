@@ -136,18 +136,25 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
     store.close();
   });
 
-  await app.register(fastifySwagger, swaggerOptions);
-  await app.register(fastifySwaggerUi, { routePrefix: '/docs', staticCSP: true });
-  await app.register(fastifyMultipart, {
-    limits: { fileSize: limits.maxUploadBytes, files: 1, fields: 8, parts: 9, fieldSize: 1024 },
-  });
-  for (const plugin of resourcePlugins) await app.register(plugin);
-  for (const url of optionalPlugins) {
-    if (!existsSync(url)) continue;
-    const module = (await import(url.href)) as { default: FastifyPluginAsync };
-    await app.register(module.default);
+  try {
+    await app.register(fastifySwagger, swaggerOptions);
+    await app.register(fastifySwaggerUi, { routePrefix: '/docs', staticCSP: true });
+    await app.register(fastifyMultipart, {
+      limits: { fileSize: limits.maxUploadBytes, files: 1, fields: 8, parts: 9, fieldSize: 1024 },
+    });
+    for (const plugin of resourcePlugins) await app.register(plugin);
+    for (const url of optionalPlugins) {
+      if (!existsSync(url)) continue;
+      const module = (await import(url.href)) as { default: FastifyPluginAsync };
+      await app.register(module.default);
+    }
+    await app.ready();
+  } catch (error) {
+    // Do not leave worker threads or the database open behind a failed start.
+    await pool.destroy();
+    store.close();
+    throw error;
   }
-  await app.ready();
   plans.resume();
   return app;
 }
