@@ -16,8 +16,8 @@ export class ApiProblem extends Error {
 function fieldErrorsOf(problem) {
   const list = Array.isArray(problem?.errors) ? problem.errors : [];
   return list.map((entry) => ({
-    field: String(entry.field ?? entry.path ?? entry.pointer ?? entry.instancePath ?? ''),
-    message: [entry.message ?? entry.detail ?? '', entry.allowed ? `(allowed: ${entry.allowed})` : '']
+    field: String(entry.field ?? ''),
+    message: [entry.message ?? '', entry.allowed ? `(allowed: ${entry.allowed})` : '']
       .filter(Boolean)
       .join(' '),
   }));

@@ -85,14 +85,15 @@ export class PlanRun {
     this.problems.hidden = true;
     this.setup.markProblems([]);
     this.stopFollowing();
+    this.clearResults();
     this.setRunning(true);
     try {
       const body = this.body();
       showStatus(this.status, 'Submitting the plan…', true);
       const accepted = await postJson('v1/plans', body);
       this.planId = accepted.id;
-      this.showProgress(0, accepted.progress?.total ?? 0);
-      showStatus(this.status, `Plan ${accepted.id} ${accepted.status ?? 'queued'}…`, true);
+      this.showProgress(accepted.progress.done, accepted.progress.total);
+      showStatus(this.status, `Plan ${accepted.id} ${accepted.status}…`, true);
       const final = await this.follow(accepted.id);
       await this.finish(final);
     } catch (error) {
@@ -155,6 +156,22 @@ export class PlanRun {
     });
   }
 
+  /** A new plan starts from a clean slate, so nothing on screen belongs to the previous one. */
+  clearResults() {
+    this.plan = null;
+    this.plot?.stopResizing?.();
+    this.plot?.destroy();
+    this.plot = null;
+    byId('tradeoffPlot').replaceChildren();
+    const table = byId('planTable');
+    table.tHead.replaceChildren();
+    table.tBodies[0].replaceChildren();
+    table.caption?.remove();
+    byId('recommendation').hidden = true;
+    byId('csvLink').hidden = true;
+    this.showProgress(0, 0);
+  }
+
   stopFollowing() {
     if (this.events) this.events.close();
     this.events = null;
@@ -175,8 +192,8 @@ export class PlanRun {
   async finish(plan) {
     this.plan = plan;
     if (plan.status !== 'done') {
-      const reason = plan.error?.detail ?? plan.error?.title ?? plan.error?.message ?? '';
-      showStatus(this.status, `Plan ${plan.id ?? this.planId} ${plan.status}${reason ? `: ${reason}` : ''}.`);
+      const reason = plan.error?.detail ?? '';
+      showStatus(this.status, `Plan ${plan.id} ${plan.status}${reason ? `: ${reason}` : ''}.`);
       return;
     }
     const metric = plan.table?.paretoMetric ?? byId('targetMetric').value;
@@ -185,7 +202,7 @@ export class PlanRun {
     this.redrawPlot();
     this.showRecommendation(plan);
     await this.offerCsv(plan);
-    showStatus(this.status, `Plan ${plan.id ?? this.planId} done.`);
+    showStatus(this.status, `Plan ${plan.id} done.`);
   }
 
   redrawPlot() {
@@ -207,9 +224,7 @@ export class PlanRun {
 
   async offerCsv(plan) {
     const link = byId('csvLink');
-    const path = pageRelative(
-      plan.links?.csv ?? `v1/plans/${encodeURIComponent(plan.id ?? this.planId)}/table.csv`,
-    );
+    const path = pageRelative(plan.links.csv);
     if (apiKey()) {
       const blob = await getBlob(path, 'text/csv');
       if (link.href.startsWith('blob:')) URL.revokeObjectURL(link.href);
@@ -217,7 +232,7 @@ export class PlanRun {
     } else {
       link.href = path;
     }
-    link.download = `plan-${plan.id ?? this.planId}.csv`;
+    link.download = `plan-${plan.id}.csv`;
     link.hidden = false;
   }
 }

@@ -87,8 +87,7 @@ export class SetupForm {
 
   async loadPhantoms() {
     const select = byId('phantom');
-    const list = await getJson('v1/phantoms');
-    const phantoms = Array.isArray(list) ? list : (list.phantoms ?? list.items ?? []);
+    const { phantoms } = await getJson('v1/phantoms');
     select.replaceChildren();
     for (const phantom of phantoms) {
       const option = new Option(phantom.name, phantom.name);

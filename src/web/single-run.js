@@ -9,15 +9,15 @@ import { showProblem, showStatus } from './status.js';
 const byId = (id) => document.getElementById(id);
 const numberCell = (key) => document.querySelector(`[data-key="${key}"]`);
 
-/** Result images by the contract's names; the service's `images` member says where each one lives. */
-const resultImages = [
-  { element: 'imgReconstruction', keys: ['reconstruction'], file: 'reconstruction' },
-  { element: 'imgZeroFilled', keys: ['zeroFilled', 'zero-filled'], file: 'zero-filled' },
-  { element: 'imgReference', keys: ['reference'], file: 'reference' },
-  { element: 'imgErrorMap', keys: ['errorMap', 'error-map', 'error'], file: 'error-map' },
-  { element: 'imgMask', keys: ['mask'], file: 'mask' },
-  { element: 'imgPsf', keys: ['psf'], file: 'psf' },
-];
+/** <img> id → key of the reconstruction's `images` member (URLs under /v1/results/{id}/). */
+const resultImages = {
+  imgReconstruction: 'reconstruction',
+  imgZeroFilled: 'zeroFilled',
+  imgReference: 'reference',
+  imgErrorMap: 'errorMap',
+  imgMask: 'mask',
+  imgPsf: 'psf',
+};
 
 /** Shows a PNG blob in an <img>, releasing the blob URL it showed before. */
 async function showBlob(id, blob) {
@@ -43,7 +43,7 @@ function showAcquired(cell, acquired, total) {
 function showMaskNumbers(mask) {
   showNumber(numberCell('mask.requested'), mask.acceleration?.requested ?? null, 'acceleration');
   showNumber(numberCell('mask.actual'), mask.acceleration?.actual, 'acceleration');
-  showAcquired(numberCell('mask.acquired'), mask.acquired, mask.total ?? mask.acquired?.total);
+  showAcquired(numberCell('mask.acquired'), mask.acquired, mask.total);
   showNumber(numberCell('mask.fraction'), mask.fraction, 'fraction');
   showNumber(numberCell('mask.peakSidelobe'), mask.psf?.peakSidelobe, 'sidelobe');
   drawPsfProfile(byId('psfProfile'), mask.psf?.radialProfile);
@@ -75,16 +75,6 @@ function showMetrics(outcome) {
     }),
   );
   notes.hidden = list.length === 0;
-}
-
-function imageUrl(outcome, entry) {
-  const images = outcome.images ?? {};
-  for (const key of entry.keys) {
-    const value = images[key];
-    if (typeof value === 'string') return pageRelative(value);
-    if (value && typeof value.url === 'string') return pageRelative(value.url);
-  }
-  return `v1/results/${encodeURIComponent(outcome.id)}/${entry.file}.png`;
 }
 
 async function scanTimes(setup) {
@@ -128,7 +118,7 @@ export class SingleRun {
       scanTimes(this.setup),
     ]);
     await showBlob('imgMask', png);
-    if (typeof mask.images?.psf === 'string') await showImage('imgPsf', pageRelative(mask.images.psf));
+    await showImage('imgPsf', pageRelative(mask.images.psf));
     showMaskNumbers(mask);
     showScanTimes(full, under);
     this.lastMask = mask;
@@ -154,7 +144,11 @@ export class SingleRun {
       postJson('v1/masks', { matrix: body.matrix, sampling: body.sampling }),
       scanTimes(setup),
     ]);
-    await Promise.all(resultImages.map((entry) => showImage(entry.element, imageUrl(outcome, entry))));
+    await Promise.all(
+      Object.entries(resultImages).map(([element, key]) =>
+        showImage(element, pageRelative(outcome.images[key])),
+      ),
+    );
     showMaskNumbers(mask);
     showMetrics(outcome);
     showScanTimes(full, under);
