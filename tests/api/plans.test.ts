@@ -1,6 +1,7 @@
 import { parse as parseCsv } from 'csv-parse/sync';
 import { createParser, type EventSourceMessage } from 'eventsource-parser';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { debianFile } from '../io/debian-files.ts';
 import { expectDocumented, expectProblem, type TestApp, testApp } from './helpers.ts';
 
 /** A small sweep: 32² phantom, 1 pattern × 2 R × 2 methods × 2 seeds + reference = 10 cells. */
@@ -156,6 +157,29 @@ describe('plans as jobs', () => {
     // The service keeps working after a cancel (the worker thread was replaced).
     const next = await t.http().post('/v1/plans').send(smallPlan);
     expect((await waitFor(t, next.body.id, finished)).body.status).toBe('done');
+  });
+
+  it('an uploaded DICOM as the plan source (pixels sent to the workers with each cell)', async () => {
+    const upload = await t
+      .http()
+      .post('/v1/images')
+      .attach('file', debianFile('pydicom', 'MR_small.dcm'), 'm.dcm');
+    const res = await t
+      .http()
+      .post('/v1/plans')
+      .send({
+        ...smallPlan,
+        source: { imageId: upload.body.id },
+        matrix: { nx: 64, ny: 64 },
+        accelerations: [2],
+        methods: [{ name: 'zero-filled' }],
+        seeds: 1,
+      });
+    expect(res.status).toBe(202);
+    const done = await waitFor(t, res.body.id, finished);
+    expect(done.body.status).toBe('done');
+    expect(done.body.table.rows).toHaveLength(2);
+    expect(done.body.table.rows[1].metrics.nrmse.mean).toBeGreaterThan(0);
   });
 
   it('bad plans: wrong types 400, out of range 422, too many cells 422 (limit), unknown image 404', async () => {
