@@ -240,7 +240,7 @@ describe('bounded queue', () => {
 
 describe('persistence: a restart resumes queued/running plans from their last finished cell', () => {
   it('close mid-plan, rebuild on the same DATA_DIR: the complete table equals an uninterrupted run', async () => {
-    const plan = { ...slowPlan, methods: [{ name: 'cs-tv', iterations: 120 }] };
+    const plan = { ...slowPlan, matrix: { nx: 40, ny: 40 }, methods: [{ name: 'cs-tv', iterations: 60 }] };
     const total = (1 + 3) * 3;
     const first = await testApp({ workers: 1, limits: { maxIterations: 500 } });
     const res = await first.http().post('/v1/plans').send(plan);
