@@ -122,7 +122,9 @@ export function rankForEnergy(values: Float64Array, energy: number): number {
  * estimate is recovered from the two weighted projections by least squares, (kx·ẑx + ky·ẑy) /
  * (kx² + ky²); the DC sample, where both weights vanish, keeps its previous value.
  * Rank: `rank` if given, else the smallest rank keeping `energy` of the current spectrum.
- * Memory: a few N-sized arrays and n×n matrices (O(N + n²)); time per iteration O(N·(2w−1)² + n³).
+ * Memory: a few N-sized arrays and n×n matrices (O(N + n²)); time per iteration
+ * O(N·wy·(2wx−1)) for the Gram matrix, one FFT pair per lifted array, O(n³) for the eigensolver.
+ * A sample the mask misses at the k-space centre stays 0 under 'gradient' (both weights vanish).
  */
 export function solveLowrankHankel(
   input: ReconInput,
