@@ -70,6 +70,33 @@ export function noiseSeedFor(seed: number): number {
   return (h ^ (h >>> 16)) >>> 0;
 }
 
+/**
+ * Phantom acquisitions are deterministic in (phantom, nx, ny, mode) and the analytic k-space costs
+ * far more than one cheap reconstruction, so the last few are kept (per thread) for the cells of a
+ * plan. Entries are shared read-only: acquire() copies k-space before adding noise.
+ */
+const PHANTOM_CACHE_SIZE = 4;
+const phantomCache = new Map<string, FullAcquisition>();
+
+function cachedPhantomAcquisition(
+  name: string,
+  nx: number,
+  ny: number,
+  mode: 'analytic' | 'raster',
+): FullAcquisition {
+  const key = `${name}|${nx}|${ny}|${mode}`;
+  const hit = phantomCache.get(key);
+  if (hit) {
+    phantomCache.delete(key);
+    phantomCache.set(key, hit);
+    return hit;
+  }
+  const full = fullKspaceFromPhantom(getPhantom(name), nx, ny, mode);
+  phantomCache.set(key, full);
+  if (phantomCache.size > PHANTOM_CACHE_SIZE) phantomCache.delete(phantomCache.keys().next().value as string);
+  return full;
+}
+
 async function fullAcquisition(
   source: SourceSpec,
   nx: number,
@@ -79,7 +106,7 @@ async function fullAcquisition(
 ): Promise<FullAcquisition> {
   if ('phantom' in source) {
     const mode = source.kspace ?? 'analytic';
-    const full = fullKspaceFromPhantom(getPhantom(source.phantom), nx, ny, mode);
+    const full = cachedPhantomAcquisition(source.phantom, nx, ny, mode);
     if (full.inverseCrime) {
       notes.push('k-space is the DFT of the phantom raster (inverse crime): errors are optimistic');
     }
