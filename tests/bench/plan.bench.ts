@@ -1,10 +1,14 @@
+import { defaultLimits } from '../../src/core/limits.ts';
+import { WorkerPool } from '../../src/jobs/worker-pool.ts';
+import type { CellResult } from '../../src/plan/cell-result.ts';
 import { runPlan } from '../../src/plan/run-plan.ts';
 import type { BenchRow } from './timing.ts';
 
 /**
  * The issue's benchmark plan: 3 patterns × 5 accelerations × 3 methods × 3 seeds on 256×256, plus the
- * 3 fully sampled reference cells, in-process on one worker. One run (a plan is itself 138 repeats);
- * the median column is that run's wall time. Iterations are kept moderate and stated in the note:
+ * 3 fully sampled reference cells: in-process on one worker, then on a pool of two worker threads
+ * (the service's WorkerPool, runPlan's injectable cell runner). One run each (a plan is itself 138
+ * repeats); the median column is that run's wall time. Iterations are kept moderate and stated in the note:
  * cs-tv 30, lowrank-hankel 10 (window 9×5, gradient weighting default).
  */
 export const benchPlanBody = {
@@ -46,6 +50,22 @@ export async function benchPlan(): Promise<BenchRow[]> {
       note: `${cells} cells, ${((cells * 1000) / totalMs).toFixed(2)} cells/s; ${table.recommendation.statement}`,
     },
   ];
+  const pool = new WorkerPool(2);
+  try {
+    const t1 = performance.now();
+    const pooled = await runPlan(benchPlanBody, {
+      concurrency: pool.size,
+      runCellFn: (plan, cell) => pool.run<CellResult>({ kind: 'cell', plan, cell, limits: defaultLimits }),
+    });
+    const pooledMs = performance.now() - t1;
+    rows.push({
+      name: 'same plan, two worker threads',
+      medianMs: pooledMs,
+      note: `${pooled.cells.done} cells, ${((pooled.cells.done * 1000) / pooledMs).toFixed(2)} cells/s, ${(totalMs / pooledMs).toFixed(2)}× one worker`,
+    });
+  } finally {
+    await pool.destroy();
+  }
   for (const [index, times] of [...perMethodMs.entries()].sort((a, b) => a[0] - b[0])) {
     const sorted = [...times].sort((a, b) => a - b);
     const mid = sorted.length >> 1;
