@@ -1,6 +1,7 @@
 import type { FastifyInstance } from 'fastify';
 import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
+import { jsonResponse } from '../src/http/problem.ts';
 
 const healthSchema = z
   .object({
@@ -16,7 +17,13 @@ export async function healthRoutes(app: FastifyInstance): Promise<void> {
     .withTypeProvider<ZodTypeProvider>()
     .get(
       '/health',
-      { schema: { summary: 'Liveness', tags: ['service'], response: { 200: healthSchema } } },
+      {
+        schema: {
+          summary: 'Liveness',
+          tags: ['service'],
+          response: { 200: jsonResponse('The service is up', healthSchema) },
+        },
+      },
       async () => ({
         status: 'ok' as const,
         workers: app.services.pool.size,

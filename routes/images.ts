@@ -2,7 +2,7 @@ import { randomUUID } from 'node:crypto';
 import type { FastifyInstance } from 'fastify';
 import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
-import { HttpProblem, problemResponses } from '../src/http/problem.ts';
+import { HttpProblem, jsonResponse, problemResponses } from '../src/http/problem.ts';
 import { idParams } from '../src/http/schemas.ts';
 import type { DecodedImage } from '../src/io/decode-image.ts';
 import type { StoredImage } from '../src/jobs/store.ts';
@@ -116,7 +116,7 @@ export async function imageRoutes(app: FastifyInstance): Promise<void> {
         tags: ['images'],
         querystring: uploadQuery,
         response: {
-          201: imageInfoSchema,
+          201: jsonResponse('The decoded image (Location: its URL)', imageInfoSchema),
           ...problemResponses(400, 401, 413, 415, 422, 429),
         },
       },
@@ -153,7 +153,7 @@ export async function imageRoutes(app: FastifyInstance): Promise<void> {
         summary: 'Metadata of an uploaded image',
         tags: ['images'],
         params: idParams,
-        response: { 200: imageInfoSchema, ...problemResponses(401, 404) },
+        response: { 200: jsonResponse('The image metadata', imageInfoSchema), ...problemResponses(401, 404) },
       },
     },
     async (request) => {

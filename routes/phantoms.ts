@@ -3,7 +3,7 @@ import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
 import type { RealImage } from '../src/core/real-image.ts';
 import { preferredType } from '../src/http/accept.ts';
-import { HttpProblem, problemResponses } from '../src/http/problem.ts';
+import { HttpProblem, jsonResponse, problemResponses } from '../src/http/problem.ts';
 import { checkMatrixLimit } from '../src/http/schemas.ts';
 import { listPhantoms } from '../src/phantoms/index.ts';
 import { greyPng } from '../src/render/png.ts';
@@ -82,7 +82,7 @@ export async function phantomRoutes(app: FastifyInstance): Promise<void> {
       schema: {
         summary: 'The analytic phantoms',
         tags: ['phantoms'],
-        response: { 200: phantomListSchema, ...problemResponses(401) },
+        response: { 200: jsonResponse('The phantoms', phantomListSchema), ...problemResponses(401) },
       },
     },
     async () => ({ phantoms: listPhantoms() }),
@@ -136,7 +136,10 @@ export async function phantomRoutes(app: FastifyInstance): Promise<void> {
         tags: ['phantoms'],
         params: nameParams,
         body: kspaceBody,
-        response: { 200: kspaceResponse, ...problemResponses(400, 401, 404, 413, 422, 429) },
+        response: {
+          200: jsonResponse('Exact transform values, one per point', kspaceResponse),
+          ...problemResponses(400, 401, 404, 413, 422, 429),
+        },
       },
     },
     async (request) => {

@@ -1,7 +1,7 @@
 import type { FastifyInstance, FastifyReply } from 'fastify';
 import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
-import { HttpProblem, problemResponses } from '../src/http/problem.ts';
+import { HttpProblem, jsonResponse, problemResponses } from '../src/http/problem.ts';
 import { idParams } from '../src/http/schemas.ts';
 import type { PlanProgress } from '../src/jobs/plan-queue.ts';
 import type { StoredPlan } from '../src/jobs/store.ts';
@@ -116,7 +116,10 @@ export async function planRoutes(app: FastifyInstance): Promise<void> {
         description: 'Answers 202 at once; follow progress at Location, or as Server-Sent Events.',
         tags: ['plans'],
         body: planSchema,
-        response: { 202: planStatusSchema, ...problemResponses(400, 401, 404, 413, 422, 429) },
+        response: {
+          202: jsonResponse('Queued (Location: the plan)', planStatusSchema),
+          ...problemResponses(400, 401, 404, 413, 422, 429),
+        },
       },
     },
     async (request, reply) => {
@@ -142,7 +145,7 @@ export async function planRoutes(app: FastifyInstance): Promise<void> {
         summary: 'Status, progress and, when done, the tradeoff table and recommendation',
         tags: ['plans'],
         params: idParams,
-        response: { 200: planStatusSchema, ...problemResponses(401, 404) },
+        response: { 200: jsonResponse('The plan status', planStatusSchema), ...problemResponses(401, 404) },
       },
     },
     async (request) => {
@@ -213,7 +216,7 @@ export async function planRoutes(app: FastifyInstance): Promise<void> {
         summary: 'Cancel a queued or running plan (finished cells are kept)',
         tags: ['plans'],
         params: idParams,
-        response: { 200: planStatusSchema, ...problemResponses(401, 404, 409) },
+        response: { 200: jsonResponse('Cancelled', planStatusSchema), ...problemResponses(401, 404, 409) },
       },
     },
     async (request) => {

@@ -6,7 +6,7 @@ import { type MaskDiagnostics, samplingSchema } from '../sampling/index.ts';
 import { noiseSchema } from '../src/acquisition/index.ts';
 import type { RealImage } from '../src/core/real-image.ts';
 import { finiteOrNull, jsonSafe } from '../src/http/json-safe.ts';
-import { HttpProblem, problemResponses } from '../src/http/problem.ts';
+import { HttpProblem, jsonResponse, problemResponses } from '../src/http/problem.ts';
 import { type ResultImageKey, resultImageNames, resultImageUrl } from '../src/http/result-images.ts';
 import {
   psfSummary,
@@ -86,7 +86,10 @@ export async function reconstructionRoutes(app: FastifyInstance): Promise<void> 
         summary: 'Simulate one undersampled acquisition, reconstruct it and score it',
         tags: ['reconstructions'],
         body: reconstructionBody,
-        response: { 201: reconstructionResponse, ...problemResponses(400, 401, 404, 413, 415, 422, 429) },
+        response: {
+          201: jsonResponse('The scored reconstruction (Location: its URL)', reconstructionResponse),
+          ...problemResponses(400, 401, 404, 413, 415, 422, 429),
+        },
       },
     },
     async (request, reply) => {
@@ -160,7 +163,10 @@ export async function reconstructionRoutes(app: FastifyInstance): Promise<void> 
         summary: 'A stored reconstruction result',
         tags: ['reconstructions'],
         params: idParams,
-        response: { 200: reconstructionResponse, ...problemResponses(401, 404) },
+        response: {
+          200: jsonResponse('The stored reconstruction', reconstructionResponse),
+          ...problemResponses(401, 404),
+        },
       },
     },
     async (request) => {

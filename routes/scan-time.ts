@@ -3,7 +3,7 @@ import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
 import type { SampledMask } from '../sampling/index.ts';
 import { samplingSchema } from '../sampling/index.ts';
-import { problemResponses } from '../src/http/problem.ts';
+import { jsonResponse, problemResponses } from '../src/http/problem.ts';
 import { checkMatrixLimit, matrixSchema } from '../src/http/schemas.ts';
 import { protocolSchema, scanTime } from '../src/protocol/index.ts';
 
@@ -36,7 +36,10 @@ export async function scanTimeRoutes(app: FastifyInstance): Promise<void> {
         summary: 'Scan time of a protocol, fully sampled or with a sampling mask',
         tags: ['protocol'],
         body: scanTimeBody,
-        response: { 200: scanTimeResponse, ...problemResponses(400, 401, 413, 422, 429) },
+        response: {
+          200: jsonResponse('The acquisition time', scanTimeResponse),
+          ...problemResponses(400, 401, 413, 422, 429),
+        },
       },
     },
     async (request) => {

@@ -108,3 +108,11 @@ export function problemResponses(...statuses: ProblemStatus[]): Record<number, u
   }
   return out;
 }
+
+/** A JSON response entry with its own description (a bare schema would be documented as "Default Response"). */
+export function jsonResponse<S>(
+  description: string,
+  schema: S,
+): { description: string; content: { 'application/json': { schema: S } } } {
+  return { description, content: { 'application/json': { schema } } };
+}
