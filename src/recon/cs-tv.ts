@@ -41,7 +41,7 @@ export type CsTvSpec = z.infer<typeof csTvSchema>;
  * samples need more regularisation and at full sampling λ vanishes (a fixed λ can lose to
  * zero-filled at R = 2). Measured on the 1974 Shepp–Logan and the resolution-contrast phantoms
  * (analytic k-space, 128², seed 11, 400 iterations; the tests assert on the modified phantom with
- * another seed): the best λ was 0.001–0.0025 at R = 2, 0.004–0.0075 at R = 4 and ≈ 0.0175 at R = 8
+ * another seed): the best λ was 0.001–0.0025 at R = 2, 0.004–0.0075 at R = 4 and 0.009–0.035 at R = 8
  * for both random lines and Poisson-disc, i.e. proportional to R − 1 = 1/f − 1; 0.002 sits in
  * the middle of the phantoms' optima.
  */
