@@ -2,7 +2,8 @@ import { defaultLimits } from '../../src/core/limits.ts';
 import { WorkerPool } from '../../src/jobs/worker-pool.ts';
 import type { CellResult } from '../../src/plan/cell-result.ts';
 import { runPlan } from '../../src/plan/run-plan.ts';
-import type { BenchRow } from './timing.ts';
+import { validatePlan } from '../../src/plan/validate-plan.ts';
+import { type BenchRow, medianMs } from './timing.ts';
 
 /**
  * The issue's benchmark plan: 3 patterns × 5 accelerations × 3 methods × 3 seeds on 256×256, plus the
@@ -32,6 +33,7 @@ export const benchPlanBody = {
 };
 
 export async function benchPlan(): Promise<BenchRow[]> {
+  const validation = await medianMs(() => validatePlan(benchPlanBody), 3, 1);
   const perMethodMs = new Map<number, number[]>();
   const t0 = performance.now();
   const table = await runPlan(benchPlanBody, {
@@ -66,6 +68,11 @@ export async function benchPlan(): Promise<BenchRow[]> {
   } finally {
     await pool.destroy();
   }
+  rows.push({
+    name: 'validatePlan: schema, limits, 15 masks drawn and timed once',
+    medianMs: validation,
+    note: 'what POST /v1/plans pays before queueing',
+  });
   for (const [index, times] of [...perMethodMs.entries()].sort((a, b) => a[0] - b[0])) {
     const sorted = [...times].sort((a, b) => a - b);
     const mid = sorted.length >> 1;
