@@ -2,6 +2,7 @@ import { randomUUID } from 'node:crypto';
 import type { FastifyInstance } from 'fastify';
 import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
+import { ValidationError } from '../src/core/errors.ts';
 import { HttpProblem, jsonResponse, problemResponses } from '../src/http/problem.ts';
 import { idParams } from '../src/http/schemas.ts';
 import type { DecodedImage } from '../src/io/decode-image.ts';
@@ -101,6 +102,21 @@ export async function imageRoutes(app: FastifyInstance): Promise<void> {
             type: 'object',
             required: ['file'],
             properties: {
+              frame: {
+                type: 'integer',
+                minimum: 0,
+                description: 'as the query parameter; must precede the file part',
+              },
+              slice: {
+                type: 'integer',
+                minimum: 0,
+                description: 'as the query parameter; must precede the file part',
+              },
+              volume: {
+                type: 'integer',
+                minimum: 0,
+                description: 'as the query parameter; must precede the file part',
+              },
               file: {
                 type: 'string',
                 format: 'binary',
@@ -129,11 +145,12 @@ export async function imageRoutes(app: FastifyInstance): Promise<void> {
         ]);
       }
       const bytes = await part.toBuffer();
+      const choice = { ...request.query, ...formChoices(part.fields) };
       // Decoding (gunzip, DICOM/NIfTI parsing, sharp) runs on a worker: a 64 MB file never stalls the loop.
       const decoded = await pool.runForRequest<DecodedImage>({
         kind: 'decode',
         bytes,
-        options: { ...request.query, maxSide: limits.maxMatrixSide, maxBytes: 4 * limits.maxUploadBytes },
+        options: { ...choice, maxSide: limits.maxMatrixSide, maxBytes: 4 * limits.maxUploadBytes },
       });
       const id = randomUUID();
       const stored = store.putImage(id, decoded.image, {
@@ -178,6 +195,29 @@ export async function imageRoutes(app: FastifyInstance): Promise<void> {
       return reply.code(204).send(null);
     },
   );
+}
+
+/**
+ * frame / slice / volume may also come as form fields placed before the file part
+ * (`curl -F slice=3 -F file=@brain.nii`); they are checked by the same schema as the query.
+ */
+function formChoices(fields: Record<string, unknown>): z.infer<typeof uploadQuery> {
+  const raw: Record<string, unknown> = {};
+  for (const name of ['frame', 'slice', 'volume'] as const) {
+    const field = fields[name] as { type?: string; value?: unknown } | undefined;
+    if (field?.type === 'field') raw[name] = field.value;
+  }
+  const parsed = uploadQuery.safeParse(raw);
+  if (!parsed.success) {
+    throw new ValidationError(
+      parsed.error.issues.map((issue) => ({
+        field: issue.path.join('.'),
+        message: issue.message,
+        allowed: 'an integer ≥ 0',
+      })),
+    );
+  }
+  return Object.fromEntries(Object.entries(parsed.data).filter(([, v]) => v !== undefined));
 }
 
 function notFound(id: string): HttpProblem {

@@ -41,6 +41,23 @@ describe('POST/GET/DELETE /v1/images', () => {
     expect(res.body.notes.join(' ')).toMatch(/scl_slope/);
   });
 
+  it('the slice may also be a form field before the file (multipart/form-data, RFC 7578)', async () => {
+    const res = await t
+      .http()
+      .post('/v1/images')
+      .field('slice', '2')
+      .field('volume', '1')
+      .attach('file', debianFile('nibabel', 'functional.nii'), 'f.nii');
+    expect(res.status).toBe(201);
+    expect(res.body.details).toMatchObject({ slice: 2, volume: 1 });
+    const bad = await t
+      .http()
+      .post('/v1/images')
+      .field('slice', '-3')
+      .attach('file', debianFile('nibabel', 'functional.nii'), 'f.nii');
+    expectProblem(bad, 422, 'slice');
+  });
+
   it('uploads 16-bit PNG and colour PNG (luminance noted)', async () => {
     const grey = await t.http().post('/v1/images').attach('file', fixture('ramp16.png'), 'r.png');
     expect(grey.status).toBe(201);
