@@ -13,6 +13,7 @@ import { maskRoutes } from '../routes/masks.ts';
 import { openapiRoutes } from '../routes/openapi.ts';
 import { phantomRoutes } from '../routes/phantoms.ts';
 import { planRoutes } from '../routes/plans.ts';
+import { problemRoutes } from '../routes/problems.ts';
 import { reconstructionRoutes } from '../routes/reconstructions.ts';
 import { resultRoutes } from '../routes/results.ts';
 import { scanTimeRoutes } from '../routes/scan-time.ts';
@@ -77,6 +78,7 @@ const resourcePlugins: FastifyPluginAsync[] = [
   resultRoutes,
   scanTimeRoutes,
   planRoutes,
+  problemRoutes,
   // one line per resource plugin
 ];
 const optionalPlugins = [new URL('../routes/web.ts', import.meta.url)];

@@ -32,21 +32,73 @@ export type Problem = z.infer<typeof problemSchema>;
 interface ProblemKind {
   type: string;
   title: string;
+  /** What the type means and what to do about it (served at the type URI). */
+  description: string;
 }
 
 /** Problem types by status; `type` is a relative URI reference into the API documentation. */
 export const problemKinds = {
-  400: { type: '/problems/malformed-request', title: 'Malformed request' },
-  401: { type: '/problems/unauthorized', title: 'Missing or invalid API key' },
-  404: { type: '/problems/not-found', title: 'Not found' },
-  405: { type: '/problems/method-not-allowed', title: 'Method not allowed' },
-  409: { type: '/problems/conflict', title: 'Conflict with the resource state' },
-  413: { type: '/problems/too-large', title: 'Request too large' },
-  415: { type: '/problems/unsupported-media', title: 'Unsupported or undecodable media' },
-  422: { type: '/problems/out-of-range', title: 'Values out of range' },
-  429: { type: '/problems/queue-full', title: 'Too many plans queued' },
-  500: { type: '/problems/internal', title: 'Internal error' },
-  503: { type: '/problems/unavailable', title: 'Service unavailable' },
+  400: {
+    type: '/problems/malformed-request',
+    title: 'Malformed request',
+    description:
+      'The body is not valid JSON, or fields have the wrong type or are missing. `errors` names each field.',
+  },
+  401: {
+    type: '/problems/unauthorized',
+    title: 'Missing or invalid API key',
+    description:
+      'This server requires a key: send it as `x-api-key: <key>` or `Authorization: Bearer <key>`.',
+  },
+  404: {
+    type: '/problems/not-found',
+    title: 'Not found',
+    description: 'No such route, or no resource with that id (image, result, plan, phantom).',
+  },
+  405: {
+    type: '/problems/method-not-allowed',
+    title: 'Method not allowed',
+    description: 'The route exists for other methods.',
+  },
+  409: {
+    type: '/problems/conflict',
+    title: 'Conflict with the resource state',
+    description:
+      'The resource is not in a state that allows this (e.g. the table of a plan that is not done yet).',
+  },
+  413: {
+    type: '/problems/too-large',
+    title: 'Request too large',
+    description: 'The body or the uploaded file is larger than the configured limit.',
+  },
+  415: {
+    type: '/problems/unsupported-media',
+    title: 'Unsupported or undecodable media',
+    description:
+      'The content type is not accepted, or the file is not a readable PNG, JPEG, TIFF, DICOM (native or RLE) or NIfTI image.',
+  },
+  422: {
+    type: '/problems/out-of-range',
+    title: 'Values out of range',
+    description:
+      'Well-formed, but values are outside their allowed range; each entry of `errors` gives `allowed`.',
+  },
+  429: {
+    type: '/problems/queue-full',
+    title: 'Too busy',
+    description:
+      'Too many plans queued or computations in flight; retry after the Retry-After header (seconds).',
+  },
+  500: {
+    type: '/problems/internal',
+    title: 'Internal error',
+    description: 'A fault of the service, not of the request; the x-request-id header finds it in the logs.',
+  },
+  503: {
+    type: '/problems/unavailable',
+    title: 'Service unavailable',
+    description: 'The service is shutting down.',
+  },
 } satisfies Record<number, ProblemKind>;
 
 export type ProblemStatus = keyof typeof problemKinds;
@@ -55,6 +107,8 @@ export type ProblemStatus = keyof typeof problemKinds;
 export const limitProblemKind: ProblemKind = {
   type: '/problems/limit-exceeded',
   title: 'Beyond configured limits',
+  description:
+    'Matrix side, iterations, plan cells or image size exceed the limits this server is configured with (422).',
 };
 
 /** An error the HTTP layer turns into a problem+json response as it is. */

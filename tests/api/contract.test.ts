@@ -77,6 +77,7 @@ describe('the OpenAPI 3.1 contract (openapi.yaml)', () => {
       'GET /v1/plans/{id}/table.csv',
       'GET /v1/plans/{id}/events',
       'DELETE /v1/plans/{id}',
+      'GET /problems/{name}',
     ];
     for (const route of designTable) expect(served.has(route), route).toBe(true);
   });

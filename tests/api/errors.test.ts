@@ -130,6 +130,23 @@ describe('RFC 9457 problem details for every class of bad input (REFERENCES §10
     }
   });
 
+  it('every problem type URI resolves to its description (RFC 9457 §3.1.1)', async () => {
+    for (const type of [
+      '/problems/malformed-request',
+      '/problems/out-of-range',
+      '/problems/limit-exceeded',
+      '/problems/queue-full',
+    ]) {
+      const res = await t.http().get(type);
+      expect(res.status).toBe(200);
+      await expectDocumented('GET', type, res);
+      expect(res.body.type).toBe(type);
+    }
+    const problem = expectProblem(await t.http().get('/v1/nothing'), 404);
+    expect((await t.http().get(problem.type)).body.title).toBe(problem.title);
+    expectProblem(await t.http().get('/problems/nope'), 404, 'name');
+  });
+
   it('responses carry a request id (x-request-id), also on problems', async () => {
     const res = await t.http().get('/v1/nothing');
     expect(res.headers['x-request-id']).toMatch(/^[0-9a-f-]{36}$/);
