@@ -210,3 +210,67 @@ describe('bounded worker queue for request-driven work', () => {
     }
   });
 });
+
+describe('never a 500 on any JSON route', () => {
+  it('hostile bodies on every POST route answer 4xx problem+json and leave the service healthy', async () => {
+    const t = await testApp({ workers: 1 });
+    try {
+      const routes = [
+        '/v1/masks',
+        '/v1/reconstructions',
+        '/v1/plans',
+        '/v1/scan-time',
+        '/v1/phantoms/shepp-logan/kspace',
+      ];
+      const matrix = { nx: 32, ny: 32 };
+      const bodies: string[] = [
+        'null',
+        '[]',
+        '42',
+        '"text"',
+        '{}',
+        '{"matrix":{"nx":1e9,"ny":1e9}}',
+        JSON.stringify({ matrix, sampling: { pattern: 'poisson-disc', acceleration: 1e300, seed: 1 } }),
+        JSON.stringify({
+          matrix,
+          sampling: { pattern: 'cartesian-random', acceleration: 2, acs: 1e6, seed: 1 },
+        }),
+        JSON.stringify({
+          matrix,
+          sampling: { pattern: 'radial', acceleration: -1 },
+          method: { name: 'cs-tv', lambda: -1 },
+        }),
+        JSON.stringify({
+          source: { phantom: 'nope' },
+          matrix,
+          sampling: { pattern: 'cartesian-uniform', acceleration: 2 },
+          method: { name: 'zero-filled' },
+        }),
+        JSON.stringify({
+          source: { phantom: 'shepp-logan' },
+          matrix,
+          sampling: { pattern: 'custom', maskPng: 'iVBORw0KGgo=' },
+          method: { name: 'zero-filled' },
+        }),
+        JSON.stringify({
+          points: [[Number.MAX_VALUE, -Number.MAX_VALUE]],
+          matrix,
+          protocol: { trMs: 1e-300 },
+        }),
+        `${'['.repeat(2000)}${']'.repeat(2000)}`,
+        `${'{"a":'.repeat(500)}1${'}'.repeat(500)}`,
+      ];
+      for (const url of routes) {
+        for (const body of bodies) {
+          const res = await t.http().post(url).set('content-type', 'application/json').send(body);
+          expect(res.status, `${url} ${body.slice(0, 80)}`).toBeGreaterThanOrEqual(400);
+          expect(res.status, `${url} ${body.slice(0, 80)}`).toBeLessThan(500);
+          expect(res.headers['content-type']).toMatch(/^application\/problem\+json/);
+        }
+      }
+      expect((await t.http().get('/health')).status).toBe(200);
+    } finally {
+      await t.close();
+    }
+  });
+});
