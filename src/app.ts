@@ -105,6 +105,9 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
     genReqId: () => randomUUID(),
     requestIdHeader: 'x-request-id',
     bodyLimit: options.maxJsonBytes ?? 8 * 1024 * 1024,
+    // A client that never finishes sending its request is cut off (408) instead of holding a socket forever;
+    // responses such as event streams are not limited by this.
+    requestTimeout: 300_000,
     routerOptions: { ignoreTrailingSlash: true },
   });
   // JSON routes take JSON only: without this, fastify's built-in text/plain parser would turn a
