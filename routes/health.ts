@@ -13,21 +13,19 @@ const healthSchema = z
 
 /** GET /health: answers from the event loop, which plans never block (their cells run in workers). */
 export async function healthRoutes(app: FastifyInstance): Promise<void> {
-  app
-    .withTypeProvider<ZodTypeProvider>()
-    .get(
-      '/health',
-      {
-        schema: {
-          summary: 'Liveness',
-          tags: ['service'],
-          response: { 200: jsonResponse('The service is up', healthSchema) },
-        },
+  app.withTypeProvider<ZodTypeProvider>().get(
+    '/health',
+    {
+      schema: {
+        summary: 'Liveness',
+        tags: ['service'],
+        response: { 200: jsonResponse('The service is up', healthSchema) },
       },
-      async () => ({
-        status: 'ok' as const,
-        workers: app.services.pool.size,
-        queuedPlans: app.services.plans.length,
-      }),
-    );
+    },
+    async () => ({
+      status: 'ok' as const,
+      workers: app.services.pool.size,
+      queuedPlans: app.services.plans.length,
+    }),
+  );
 }
