@@ -1,9 +1,9 @@
-import { randomUUID } from 'node:crypto';
 import type { FastifyInstance } from 'fastify';
 import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
 import { type MaskDiagnostics, type SampledMask, samplingSchema } from '../sampling/index.ts';
 import { preferredType } from '../src/http/accept.ts';
+import { contentId } from '../src/http/content-id.ts';
 import { problemResponses } from '../src/http/problem.ts';
 import { resultImageUrl } from '../src/http/result-images.ts';
 import {
@@ -55,6 +55,12 @@ export async function maskRoutes(app: FastifyInstance): Promise<void> {
       const { matrix, sampling } = request.body;
       checkMatrixLimit(matrix, limits);
       const wantsPng = preferredType(request, ['application/json', 'image/png']) === 'image/png';
+      // Masks are a pure function of the request, so equal requests share one id and one stored result.
+      const id = contentId('mask', { matrix, sampling });
+      if (!wantsPng) {
+        const stored = store.getResult(id);
+        if (stored) return reply.type('application/json').send(stored.body as z.infer<typeof maskResponse>);
+      }
       const { sampled, diagnostics } = await pool.runForRequest<{
         sampled: SampledMask;
         diagnostics: MaskDiagnostics | null;
@@ -68,7 +74,6 @@ export async function maskRoutes(app: FastifyInstance): Promise<void> {
       const mask = await maskPng(sampled);
       if (wantsPng) return reply.type('image/png').send(mask as unknown as string);
       const psf = diagnostics!;
-      const id = randomUUID();
       const body = {
         id,
         ...sampledSummary(sampled),

@@ -129,10 +129,13 @@ export class Store {
 
   putResult(id: string, kind: string, body: unknown, images: Record<string, Buffer>): void {
     const createdAt = new Date().toISOString();
-    const insertImage = this.db.prepare('INSERT INTO result_images (result_id, name, png) VALUES (?, ?, ?)');
+    // OR IGNORE: content-addressed results (equal requests, equal ids) may be stored twice by racing requests.
+    const insertImage = this.db.prepare(
+      'INSERT OR IGNORE INTO result_images (result_id, name, png) VALUES (?, ?, ?)',
+    );
     this.db.transaction(() => {
       this.db
-        .prepare('INSERT INTO results (id, created_at, kind, body) VALUES (?, ?, ?, ?)')
+        .prepare('INSERT OR IGNORE INTO results (id, created_at, kind, body) VALUES (?, ?, ?, ?)')
         .run(id, createdAt, kind, JSON.stringify(body));
       for (const [name, png] of Object.entries(images)) insertImage.run(id, name, png);
     })();

@@ -115,6 +115,34 @@ describe('phantoms, masks and result images', () => {
     expect(rows).toBe(acquired.count);
   });
 
+  it('POST /v1/masks: the same request gives the same bytes, a different seed another mask (DESIGN.md)', async () => {
+    const request = (seed: number, keyOrder: 'a' | 'b') =>
+      t
+        .http()
+        .post('/v1/masks')
+        .send(
+          keyOrder === 'a'
+            ? {
+                matrix: { nx: 64, ny: 64 },
+                sampling: { pattern: 'poisson-disc', acceleration: 3, acs: 8, seed },
+              }
+            : {
+                sampling: { seed, acs: 8, acceleration: 3, pattern: 'poisson-disc' },
+                matrix: { ny: 64, nx: 64 },
+              },
+        );
+    const first = await request(5, 'a');
+    const again = await request(5, 'b');
+    const other = await request(6, 'a');
+    expect(first.status).toBe(200);
+    expect(again.text).toBe(first.text);
+    expect(other.body.id).not.toBe(first.body.id);
+    const [maskA, maskB] = await Promise.all(
+      [first, other].map((r) => t.http().get(r.body.images.mask).buffer(true).parse(binary)),
+    );
+    expect(Buffer.compare(maskA.body, maskB.body)).not.toBe(0);
+  });
+
   it('POST /v1/masks with Accept: image/png returns the mask itself', async () => {
     const res = await t
       .http()
