@@ -1,21 +1,21 @@
 import { describe, expect, it } from 'vitest';
-import { ValidationError } from '../../src/core/errors.ts';
 import { Ellipse, type EllipseParams } from '../../src/phantoms/ellipse.ts';
 import { ellipseTransformByQuadrature } from './quadrature.ts';
+import {
+  type Complex,
+  distance,
+  expectHermitian,
+  expectRotationTheorem,
+  expectShiftTheorem,
+  shapeTransform,
+  validationField,
+} from './transform-checks.ts';
 
-function transformAt(e: Ellipse, kx: number, ky: number): [number, number] {
-  const out = new Float64Array(2);
-  e.addTransform([kx], [ky], out);
-  return [out[0], out[1]];
-}
-
-function distance(a: [number, number], b: [number, number]): number {
-  return Math.hypot(a[0] - b[0], a[1] - b[1]);
-}
+const transformAt = (e: Ellipse, kx: number, ky: number): Complex => shapeTransform(e)(kx, ky);
 
 const ELLIPSE_3: EllipseParams = { x0: 0.22, y0: 0, a: 0.11, b: 0.31, thetaDeg: -18, intensity: 1 };
 const TILTED: EllipseParams = { x0: 0.3, y0: -0.2, a: 0.25, b: 0.1, thetaDeg: 37, intensity: 1.5 };
-const FREQUENCIES: [number, number][] = [
+const FREQUENCIES: Array<[number, number]> = [
   [0, 0],
   [1.5, 0],
   [0.7, -2.3],
@@ -42,38 +42,29 @@ describe('ellipse transform', () => {
       const geometry = { x0: p.x0, y0: p.y0, a: p.a, b: p.b, theta: ((p.thetaDeg ?? 0) * Math.PI) / 180 };
       for (const [kx, ky] of FREQUENCIES) {
         const [re, im] = ellipseTransformByQuadrature(geometry, kx, ky);
-        const expected: [number, number] = [p.intensity * re, p.intensity * im];
+        const expected: Complex = [p.intensity * re, p.intensity * im];
         expect(distance(transformAt(e, kx, ky), expected)).toBeLessThan(1e-13);
       }
     }
   });
 
   it('obeys the shift theorem: moving the ellipse by d multiplies its transform by e^(−i2πk·d) (Bracewell, common practice)', () => {
-    const d = [0.137, -0.41];
-    const base = new Ellipse(TILTED);
+    const d = [0.137, -0.41] as const;
     const moved = new Ellipse({ ...TILTED, x0: TILTED.x0 + d[0], y0: TILTED.y0 + d[1] });
-    for (const [kx, ky] of FREQUENCIES) {
-      const [re, im] = transformAt(base, kx, ky);
-      const phase = -2 * Math.PI * (kx * d[0] + ky * d[1]);
-      const expected: [number, number] = [
-        re * Math.cos(phase) - im * Math.sin(phase),
-        re * Math.sin(phase) + im * Math.cos(phase),
-      ];
-      expect(distance(transformAt(moved, kx, ky), expected)).toBeLessThan(1e-13);
-    }
+    expectShiftTheorem(shapeTransform(new Ellipse(TILTED)), shapeTransform(moved), d, FREQUENCIES, 1e-13);
   });
 
   it('obeys the rotation theorem: rotating the object by φ rotates its transform by φ (common practice)', () => {
     const phi = 23;
     const centred: EllipseParams = { ...TILTED, x0: 0, y0: 0 };
-    const base = new Ellipse(centred);
     const turned = new Ellipse({ ...centred, thetaDeg: (centred.thetaDeg ?? 0) + phi });
-    const c = Math.cos((phi * Math.PI) / 180);
-    const s = Math.sin((phi * Math.PI) / 180);
-    for (const [kx, ky] of FREQUENCIES) {
-      const rotated = transformAt(turned, c * kx - s * ky, s * kx + c * ky);
-      expect(distance(rotated, transformAt(base, kx, ky))).toBeLessThan(1e-13);
-    }
+    expectRotationTheorem(
+      shapeTransform(new Ellipse(centred)),
+      shapeTransform(turned),
+      phi,
+      FREQUENCIES,
+      1e-13,
+    );
   });
 
   it('treats the swapped-axis variants of REFERENCES.md §1.1 (a ↔ b, θ + 90°) as the same shape', () => {
@@ -98,11 +89,7 @@ describe('ellipse transform', () => {
   });
 
   it('is Hermitian for a real shape: E(−k) = conj E(k) (REFERENCES.md §1.2, 1e-15)', () => {
-    const e = new Ellipse(TILTED);
-    for (const [kx, ky] of FREQUENCIES) {
-      const [re, im] = transformAt(e, kx, ky);
-      expect(distance(transformAt(e, -kx, -ky), [re, -im])).toBeLessThan(1e-15);
-    }
+    expectHermitian(shapeTransform(new Ellipse(TILTED)), FREQUENCIES, 1e-15);
   });
 });
 
@@ -147,15 +134,6 @@ describe('ellipse geometry', () => {
   });
 
   it('rejects a non-positive semi-axis with a ValidationError naming ellipse.a', () => {
-    for (const a of [0, -1]) {
-      let caught: unknown;
-      try {
-        new Ellipse({ ...TILTED, a });
-      } catch (error) {
-        caught = error;
-      }
-      expect(caught).toBeInstanceOf(ValidationError);
-      expect((caught as ValidationError).problems[0].field).toBe('ellipse.a');
-    }
+    for (const a of [0, -1]) expect(validationField(() => new Ellipse({ ...TILTED, a }))).toBe('ellipse.a');
   });
 });

@@ -2,15 +2,24 @@ import { describe, expect, it } from 'vitest';
 import { Ellipse } from '../../src/phantoms/ellipse.ts';
 import { ShapePhantom } from '../../src/phantoms/phantom.ts';
 import { sheppLogan, sheppLoganModified } from '../../src/phantoms/shepp-logan.ts';
+import {
+  type Complex,
+  distance,
+  expectHermitian,
+  expectRotationTheorem,
+  expectShiftTheorem,
+  type TransformAt,
+} from './transform-checks.ts';
 
-function valueAt(phantom: ShapePhantom, kx: number, ky: number): [number, number] {
+function valueAt(phantom: ShapePhantom, kx: number, ky: number): Complex {
   const out = phantom.kspaceAt([kx], [ky]);
   return [out[0], out[1]];
 }
 
-function distance(a: [number, number], b: [number, number]): number {
-  return Math.hypot(a[0] - b[0], a[1] - b[1]);
-}
+const transformOf =
+  (phantom: ShapePhantom): TransformAt =>
+  (kx, ky) =>
+    valueAt(phantom, kx, ky);
 
 /** The same phantom with every ellipse moved by (dx, dy) and the whole turned by phi° about the origin. */
 function transformed(phantom: ShapePhantom, phiDeg: number, dx: number, dy: number): ShapePhantom {
@@ -30,7 +39,7 @@ function transformed(phantom: ShapePhantom, phiDeg: number, dx: number, dy: numb
   return new ShapePhantom('moved', 'moved copy', shapes);
 }
 
-const POINTS: [number, number][] = [
+const POINTS: Array<[number, number]> = [
   [0.5, 0],
   [0, 0.5],
   [1, -1.5],
@@ -56,39 +65,31 @@ describe('Shepp–Logan analytic k-space', () => {
   });
 
   it('is Hermitian, K(−k) = conj K(k), since the phantom is real (REFERENCES.md §1.2, tol 1e-12)', () => {
-    for (const phantom of [sheppLogan(), sheppLoganModified()]) {
-      for (const [kx, ky] of POINTS) {
-        const [re, im] = valueAt(phantom, kx, ky);
-        expect(distance(valueAt(phantom, -kx, -ky), [re, -im])).toBeLessThan(1e-12);
-      }
-    }
+    for (const phantom of [sheppLogan(), sheppLoganModified()])
+      expectHermitian(transformOf(phantom), POINTS, 1e-12);
   });
 
   it('shifting the whole phantom by d multiplies K by e^(−i2πk·d) (shift theorem, common practice)', () => {
     const phantom = sheppLoganModified();
-    const d = [0.061, -0.113];
-    const moved = transformed(phantom, 0, d[0], d[1]);
-    for (const [kx, ky] of POINTS) {
-      const [re, im] = valueAt(phantom, kx, ky);
-      const phase = -2 * Math.PI * (kx * d[0] + ky * d[1]);
-      const expected: [number, number] = [
-        re * Math.cos(phase) - im * Math.sin(phase),
-        re * Math.sin(phase) + im * Math.cos(phase),
-      ];
-      expect(distance(valueAt(moved, kx, ky), expected)).toBeLessThan(1e-12);
-    }
+    const d = [0.061, -0.113] as const;
+    expectShiftTheorem(
+      transformOf(phantom),
+      transformOf(transformed(phantom, 0, d[0], d[1])),
+      d,
+      POINTS,
+      1e-12,
+    );
   });
 
   it('turning the whole phantom by φ about the origin turns K by φ (rotation theorem, common practice)', () => {
     const phantom = sheppLoganModified();
-    const phi = 31;
-    const turned = transformed(phantom, phi, 0, 0);
-    const c = Math.cos((phi * Math.PI) / 180);
-    const s = Math.sin((phi * Math.PI) / 180);
-    for (const [kx, ky] of POINTS) {
-      const value = valueAt(turned, c * kx - s * ky, s * kx + c * ky);
-      expect(distance(value, valueAt(phantom, kx, ky))).toBeLessThan(1e-12);
-    }
+    expectRotationTheorem(
+      transformOf(phantom),
+      transformOf(transformed(phantom, 31, 0, 0)),
+      31,
+      POINTS,
+      1e-12,
+    );
   });
 });
 

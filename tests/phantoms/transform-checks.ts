@@ -1,0 +1,86 @@
+import { expect } from 'vitest';
+import { ValidationError } from '../../src/core/errors.ts';
+import type { Shape } from '../../src/phantoms/shape.ts';
+
+/**
+ * Checks shared by the shape and phantom transform tests: the Fourier shift and rotation theorems
+ * (common practice) and Hermitian symmetry of the transform of a real object (REFERENCES.md §1.2).
+ * Each takes the transform as a function of (kx, ky) so it serves single shapes and whole phantoms.
+ */
+
+export type Complex = [number, number];
+export type TransformAt = (kx: number, ky: number) => Complex;
+
+export function distance(a: Complex, b: Complex): number {
+  return Math.hypot(a[0] - b[0], a[1] - b[1]);
+}
+
+/** The exact transform of one shape at a single frequency. */
+export function shapeTransform(shape: Pick<Shape, 'addTransform'>): TransformAt {
+  return (kx, ky) => {
+    const out = new Float64Array(2);
+    shape.addTransform([kx], [ky], out);
+    return [out[0], out[1]];
+  };
+}
+
+/** Shift theorem: the object moved by d has the transform K(k)·e^(−i2πk·d). */
+export function expectShiftTheorem(
+  base: TransformAt,
+  moved: TransformAt,
+  d: readonly [number, number],
+  frequencies: ReadonlyArray<readonly [number, number]>,
+  tolerance: number,
+): void {
+  for (const [kx, ky] of frequencies) {
+    const [re, im] = base(kx, ky);
+    const phase = -2 * Math.PI * (kx * d[0] + ky * d[1]);
+    const expected: Complex = [
+      re * Math.cos(phase) - im * Math.sin(phase),
+      re * Math.sin(phase) + im * Math.cos(phase),
+    ];
+    expect(distance(moved(kx, ky), expected), `k = (${kx}, ${ky})`).toBeLessThan(tolerance);
+  }
+}
+
+/** Rotation theorem: the object turned by φ about the origin has the transform turned by φ. */
+export function expectRotationTheorem(
+  base: TransformAt,
+  turned: TransformAt,
+  phiDeg: number,
+  frequencies: ReadonlyArray<readonly [number, number]>,
+  tolerance: number,
+): void {
+  const c = Math.cos((phiDeg * Math.PI) / 180);
+  const s = Math.sin((phiDeg * Math.PI) / 180);
+  for (const [kx, ky] of frequencies) {
+    expect(
+      distance(turned(c * kx - s * ky, s * kx + c * ky), base(kx, ky)),
+      `k = (${kx}, ${ky})`,
+    ).toBeLessThan(tolerance);
+  }
+}
+
+/** Real object ⇒ K(−k) = conj K(k). */
+export function expectHermitian(
+  at: TransformAt,
+  frequencies: ReadonlyArray<readonly [number, number]>,
+  tolerance: number,
+): void {
+  for (const [kx, ky] of frequencies) {
+    const [re, im] = at(kx, ky);
+    expect(distance(at(-kx, -ky), [re, -im]), `k = (${kx}, ${ky})`).toBeLessThan(tolerance);
+  }
+}
+
+/** The field the ValidationError thrown by `build` names first (fails when nothing or something else is thrown). */
+export function validationField(build: () => unknown): string {
+  let caught: unknown;
+  try {
+    build();
+  } catch (error) {
+    caught = error;
+  }
+  expect(caught).toBeInstanceOf(ValidationError);
+  return (caught as ValidationError).problems[0].field;
+}
