@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { BlockHankel } from '../../src/recon/block-hankel.ts';
 import { HermitianEigenSolver } from '../../src/recon/hermitian-eigen.ts';
-import { pointSourceKspace, randomComplexImage } from './helpers.ts';
+import { friSignal1d, POINT_SOURCES, pointSourceKspace, randomComplexImage } from './helpers.ts';
 
 /** The explicit block-Hankel matrix (rows = windows fully inside, columns = window offsets). */
 function explicitHankel(z: Float64Array, nx: number, ny: number, wx: number, wy: number): Float64Array[] {
@@ -121,20 +121,7 @@ describe.each([
 describe('finite rate of innovation: Hankel rank of sums of exponentials (Vetterli, Marziliano & Blu 2002)', () => {
   it('1-D, M = 64, K = 3 exponentials: Hankel rank 3 for windows L = 4, 8, 16, 32 (REFERENCES §5.3 [C])', () => {
     const m = 64;
-    const t = [0.13, 0.41, 0.77];
-    const c = [
-      [1, 0],
-      [0.6, -0.2],
-      [0.3, 0.5],
-    ];
-    const x = new Float64Array(2 * m);
-    for (let j = 0; j < m; j++) {
-      for (let k = 0; k < 3; k++) {
-        const phase = -2 * Math.PI * j * t[k];
-        x[2 * j] += c[k][0] * Math.cos(phase) - c[k][1] * Math.sin(phase);
-        x[2 * j + 1] += c[k][0] * Math.sin(phase) + c[k][1] * Math.cos(phase);
-      }
-    }
+    const x = friSignal1d();
     for (const L of [4, 8, 16, 32]) {
       const lift = new BlockHankel(m, 1, L, 1);
       const gram = new Float64Array(2 * L * L);
@@ -148,14 +135,8 @@ describe('finite rate of innovation: Hankel rank of sums of exponentials (Vetter
   });
 
   it('2-D, 32×32 k-space of K off-grid point sources: block-Hankel (6×6 windows) rank K (REFERENCES §5.3 [C])', () => {
-    const sources = [
-      { x: 0.13, y: -0.41, re: 1, im: 0 },
-      { x: -0.52, y: 0.27, re: 0.6, im: -0.2 },
-      { x: 0.33, y: 0.61, re: 0.3, im: 0.5 },
-      { x: -0.2, y: -0.7, re: 0.8, im: 0.1 },
-    ];
     for (const K of [2, 4]) {
-      const k = pointSourceKspace(32, 32, sources.slice(0, K));
+      const k = pointSourceKspace(32, 32, POINT_SOURCES.slice(0, K));
       const lift = new BlockHankel(32, 32, 6, 6);
       const gram = new Float64Array(2 * 36 * 36);
       lift.gram(gram, [k.data]);

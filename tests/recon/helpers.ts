@@ -81,3 +81,34 @@ export function randomPointMask(nx: number, ny: number, fraction: number, seed: 
   for (let i = 0; i < mask.length; i++) if (rng.uniform() < fraction) mask[i] = 1;
   return mask;
 }
+
+/** Four off-grid point sources (phantom frame, complex amplitudes) used by the finite-rate-of-innovation checks. */
+export const POINT_SOURCES: ReadonlyArray<{ x: number; y: number; re: number; im: number }> = [
+  { x: 0.13, y: -0.41, re: 1, im: 0 },
+  { x: -0.52, y: 0.27, re: 0.6, im: -0.2 },
+  { x: 0.33, y: 0.61, re: 0.3, im: 0.5 },
+  { x: -0.2, y: -0.7, re: 0.8, im: 0.1 },
+];
+
+/**
+ * The 1-D exact check signal of REFERENCES.md §5.3 [C]: M = 64 samples
+ * x[m] = Σ c_k e^(−i2π m t_k), K = 3, t = (0.13, 0.41, 0.77), c = (1, 0.6 − 0.2i, 0.3 + 0.5i).
+ */
+export function friSignal1d(): Float64Array {
+  const m = 64;
+  const t = [0.13, 0.41, 0.77];
+  const c = [
+    [1, 0],
+    [0.6, -0.2],
+    [0.3, 0.5],
+  ];
+  const x = new Float64Array(2 * m);
+  for (let j = 0; j < m; j++) {
+    for (let k = 0; k < 3; k++) {
+      const phase = -2 * Math.PI * j * t[k];
+      x[2 * j] += c[k][0] * Math.cos(phase) - c[k][1] * Math.sin(phase);
+      x[2 * j + 1] += c[k][0] * Math.sin(phase) + c[k][1] * Math.cos(phase);
+    }
+  }
+  return x;
+}

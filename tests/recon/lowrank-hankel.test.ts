@@ -6,26 +6,21 @@ import { defaultLimits } from '../../src/core/limits.ts';
 import { reconstruct } from '../../src/recon/index.ts';
 import { solveLowrankHankel } from '../../src/recon/lowrank-hankel.ts';
 import {
+  friSignal1d,
   fullMask,
+  POINT_SOURCES,
   pointSourceKspace,
   randomComplexImage,
   randomPointMask,
   relativeError,
 } from './helpers.ts';
 
-const sources = [
-  { x: 0.13, y: -0.41, re: 1, im: 0 },
-  { x: -0.52, y: 0.27, re: 0.6, im: -0.2 },
-  { x: 0.33, y: 0.61, re: 0.3, im: 0.5 },
-  { x: -0.2, y: -0.7, re: 0.8, im: 0.1 },
-];
-
 describe('lowrank-hankel completion', () => {
   it('recovers the k-space of K = 4 point sources from 20 % of a 32×32 grid to NRMSE < 1e-6 (finite rate of innovation, Vetterli et al. 2002)', () => {
     // 20 % random points: 5× below Nyquist on the grid; 4 sources carry 12 real degrees of freedom.
     const nx = 32;
     const ny = 32;
-    const truth = pointSourceKspace(nx, ny, sources);
+    const truth = pointSourceKspace(nx, ny, POINT_SOURCES);
     const mask = randomPointMask(nx, ny, 0.2, 5);
     let count = 0;
     for (const m of mask) count += m;
@@ -51,20 +46,7 @@ describe('lowrank-hankel completion', () => {
 
   it('1-D: 27 of 64 samples, window 32, rank 3 — error 2.6e-9 after 200 iterations, < 1e-13 after 500 (REFERENCES §5.3 [C])', () => {
     const m = 64;
-    const t = [0.13, 0.41, 0.77];
-    const c = [
-      [1, 0],
-      [0.6, -0.2],
-      [0.3, 0.5],
-    ];
-    const x = new Float64Array(2 * m);
-    for (let j = 0; j < m; j++) {
-      for (let k = 0; k < 3; k++) {
-        const phase = -2 * Math.PI * j * t[k];
-        x[2 * j] += c[k][0] * Math.cos(phase) - c[k][1] * Math.sin(phase);
-        x[2 * j + 1] += c[k][0] * Math.sin(phase) + c[k][1] * Math.cos(phase);
-      }
-    }
+    const x = friSignal1d();
     const mask = new Uint8Array(m);
     for (let j = 0; j < 8; j++) mask[j] = 1;
     for (let j = 0; j < m; j += 3) mask[j] = 1;
@@ -134,7 +116,7 @@ describe('lowrank-hankel completion', () => {
   it('energy rule picks the rank from the spectrum and says so', () => {
     const nx = 32;
     const ny = 32;
-    const truth = pointSourceKspace(nx, ny, sources.slice(0, 3));
+    const truth = pointSourceKspace(nx, ny, POINT_SOURCES.slice(0, 3));
     const out = reconstruct(
       { kspace: truth, mask: fullMask(nx, ny) },
       { name: 'lowrank-hankel', kernel: 6, energy: 0.999999, weighting: 'none', iterations: 2 },
