@@ -1,4 +1,4 @@
-import type { FastifyError, FastifyInstance } from 'fastify';
+import type { FastifyError, FastifyInstance, FastifyReply } from 'fastify';
 import { hasZodFastifySchemaValidationErrors } from 'fastify-type-provider-zod';
 import { CancelledError, type FieldProblem, LimitError, ValidationError } from '../core/errors.ts';
 import { DecodeError } from '../io/decode-error.ts';
@@ -93,6 +93,23 @@ const fastifyStatusByCode: Record<string, ProblemStatus> = {
   FST_ERR_CTP_INVALID_JSON_BODY: 400,
 };
 
+/** 429 with a Retry-After header: the service is too busy now; `detail` says what is busy, `message` why. */
+function sendRetryLater(
+  reply: FastifyReply,
+  retryAfterSeconds: number,
+  detail: string,
+  message: string,
+): FastifyReply {
+  const retry = String(retryAfterSeconds);
+  return sendProblem(
+    reply,
+    makeProblem(429, `${detail}; retry in about ${retry} s`, [
+      { field: 'body', message, allowed: 'retry after the Retry-After delay' },
+    ]),
+    { 'retry-after': retry },
+  );
+}
+
 /** Installs the RFC 9457 error and not-found handlers: a bad request never becomes a 500. */
 export function installErrorHandling(app: FastifyInstance): void {
   app.setErrorHandler((error: FastifyError | Error, request, reply) => {
@@ -110,31 +127,19 @@ export function installErrorHandling(app: FastifyInstance): void {
       );
     }
     if (error instanceof QueueFullError) {
-      const retry = String(error.retryAfterSeconds);
-      return sendProblem(
+      return sendRetryLater(
         reply,
-        makeProblem(429, `the plan queue is full; retry in about ${retry} s`, [
-          {
-            field: 'body',
-            message: 'too many plans queued or running',
-            allowed: 'retry after the Retry-After delay',
-          },
-        ]),
-        { 'retry-after': retry },
+        error.retryAfterSeconds,
+        'the plan queue is full',
+        'too many plans queued or running',
       );
     }
     if (error instanceof WorkersBusyError) {
-      const retry = String(error.retryAfterSeconds);
-      return sendProblem(
+      return sendRetryLater(
         reply,
-        makeProblem(429, `every worker thread is busy; retry in about ${retry} s`, [
-          {
-            field: 'body',
-            message: 'too many computations in flight',
-            allowed: 'retry after the Retry-After delay',
-          },
-        ]),
-        { 'retry-after': retry },
+        error.retryAfterSeconds,
+        'every worker thread is busy',
+        'too many computations in flight',
       );
     }
     if (error instanceof LimitError) {
