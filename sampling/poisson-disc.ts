@@ -30,16 +30,8 @@ const PACKING_DENSITY = 0.57;
  * ACS points count as samples for the samples around them but not among themselves.
  */
 export function poissonRadiusProfile(nx: number, ny: number, power: number): Float64Array {
-  const g = new Float64Array(nx * ny);
-  const cx = Math.floor(nx / 2);
-  const cy = Math.floor(ny / 2);
-  for (let v = 0; v < ny; v++) {
-    const dy = (v - cy) / (ny / 2);
-    for (let u = 0; u < nx; u++) {
-      const dx = (u - cx) / (nx / 2);
-      g[v * nx + u] = (1 + Math.sqrt(dx * dx + dy * dy)) ** (power / 2);
-    }
-  }
+  const g = normalisedRadius(nx, ny);
+  for (let i = 0; i < g.length; i++) g[i] = (1 + g[i]) ** (power / 2);
   return g;
 }
 
