@@ -9,26 +9,13 @@ import { type RunCellFn, runPlan } from '../../src/plan/run-plan.ts';
 import type { Plan } from '../../src/plan/schema.ts';
 import { validatePlan } from '../../src/plan/validate-plan.ts';
 import { scanTime } from '../../src/protocol/scan-time.ts';
+import { smallPlanBody } from './small-plan.ts';
 
 // The sweep engine with an injected cell runner: real masks from sampling/ and the real scan-time
 // model, synthetic image scores (a smooth function of R and the seed, so tables are predictable).
 // The end-to-end run through the reconstruction pipeline is in plan-pipeline.test.ts.
 
-function body(overrides: Record<string, unknown> = {}) {
-  return {
-    source: { phantom: 'shepp-logan-modified' },
-    matrix: { nx: 32, ny: 32 },
-    protocol: { trMs: 500 },
-    patterns: [
-      { pattern: 'cartesian-uniform', acs: 4 },
-      { pattern: 'cartesian-random', acs: 4 },
-    ],
-    accelerations: [2, 3, 4],
-    methods: [{ name: 'zero-filled' }],
-    seeds: 2,
-    ...overrides,
-  };
-}
+const body = smallPlanBody;
 
 const syntheticCell: RunCellFn = async (plan: Plan, cell: PlanCell): Promise<CellResult> => {
   const sampled = generateMask(plan.matrix, { ...cell.pattern, seed: cell.seed });
