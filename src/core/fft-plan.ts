@@ -101,14 +101,20 @@ function bluesteinPlan(size: number): FftPlan {
   };
 }
 
+/** The n distinct twiddles e^(−i2πj/n), j = 0…n−1, of a length-n DFT as cos and sin tables. */
+function dftTwiddles(n: number): { cos: Float64Array; sin: Float64Array } {
+  const cos = new Float64Array(n);
+  const sin = new Float64Array(n);
+  for (let j = 0; j < n; j++) {
+    cos[j] = Math.cos((-2 * Math.PI * j) / n);
+    sin[j] = Math.sin((-2 * Math.PI * j) / n);
+  }
+  return { cos, sin };
+}
+
 /** Direct O(N²) DFT with a precomputed table of the N distinct twiddles, for short odd lengths. */
 function directPlan(size: number): FftPlan {
-  const cos = new Float64Array(size);
-  const sin = new Float64Array(size);
-  for (let j = 0; j < size; j++) {
-    cos[j] = Math.cos((-2 * Math.PI * j) / size);
-    sin[j] = Math.sin((-2 * Math.PI * j) / size);
-  }
+  const { cos, sin } = dftTwiddles(size);
   return {
     size,
     forward(output, input) {
@@ -144,12 +150,7 @@ function splitPlan(size: number, p: number, q: number): FftPlan {
     }
   }
   const smallQ = q <= 32;
-  const qCos = new Float64Array(q);
-  const qSin = new Float64Array(q);
-  for (let j = 0; j < q; j++) {
-    qCos[j] = Math.cos((-2 * Math.PI * j) / q);
-    qSin[j] = Math.sin((-2 * Math.PI * j) / q);
-  }
+  const { cos: qCos, sin: qSin } = dftTwiddles(q);
   const y = new Float64Array(2 * size);
   const inP = new Float64Array(2 * p);
   const outP = new Float64Array(2 * p);
