@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { expectDocumented, expectProblem, type TestApp, testApp } from './helpers.ts';
+import { expectDocumented, expectProblem, postProblem, type TestApp, testApp } from './helpers.ts';
 
 const scanTime = { matrix: { nx: 64, ny: 64 }, protocol: { trMs: 500 } };
 
@@ -21,11 +21,12 @@ describe('RFC 9457 problem details for every class of bad input (REFERENCES §10
   });
 
   it('400 wrong types and missing fields, each bad field listed', async () => {
-    const res = await t
-      .http()
-      .post('/v1/scan-time')
-      .send({ matrix: { nx: 'sixty-four', ny: 64 }, protocol: {} });
-    const problem = expectProblem(res, 400);
+    const problem = await postProblem(
+      t,
+      '/v1/scan-time',
+      { matrix: { nx: 'sixty-four', ny: 64 }, protocol: {} },
+      400,
+    );
     const fields = problem.errors.map((e) => e.field);
     expect(fields).toContain('matrix.nx');
     expect(fields).toContain('protocol.trMs');
@@ -47,29 +48,35 @@ describe('RFC 9457 problem details for every class of bad input (REFERENCES §10
   });
 
   it('422 from an engine ValidationError (R too high for the matrix) names the field', async () => {
-    const res = await t
-      .http()
-      .post('/v1/scan-time')
-      .send({ ...scanTime, sampling: { pattern: 'cartesian-uniform', acceleration: 100 } });
-    expectProblem(res, 422, 'sampling.acceleration');
+    await postProblem(
+      t,
+      '/v1/scan-time',
+      { ...scanTime, sampling: { pattern: 'cartesian-uniform', acceleration: 100 } },
+      422,
+      'sampling.acceleration',
+    );
   });
 
   it('422 limit problem beyond the configured matrix limit (128 here)', async () => {
-    const res = await t
-      .http()
-      .post('/v1/scan-time')
-      .send({ ...scanTime, matrix: { nx: 256, ny: 64 } });
-    const problem = expectProblem(res, 422, 'matrix.nx');
+    const problem = await postProblem(
+      t,
+      '/v1/scan-time',
+      { ...scanTime, matrix: { nx: 256, ny: 64 } },
+      422,
+      'matrix.nx',
+    );
     expect(problem.type).toBe('/problems/limit-exceeded');
     expect(problem.errors[0].allowed).toBe('≤ 128');
   });
 
   it('422 for an unknown discriminator value (sampling.pattern)', async () => {
-    const res = await t
-      .http()
-      .post('/v1/scan-time')
-      .send({ ...scanTime, sampling: { pattern: 'spiral', acceleration: 2 } });
-    expectProblem(res, 422, 'sampling.pattern');
+    await postProblem(
+      t,
+      '/v1/scan-time',
+      { ...scanTime, sampling: { pattern: 'spiral', acceleration: 2 } },
+      422,
+      'sampling.pattern',
+    );
   });
 
   it('404 unknown route and unknown id', async () => {

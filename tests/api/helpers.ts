@@ -134,3 +134,21 @@ export const binary = collectBinary as unknown as (
   res: request.Response,
   callback: (error: Error | null, body: unknown) => void,
 ) => void;
+
+/** POSTs a JSON body and asserts the answer is the problem `expectProblem` describes; returns it. */
+export async function postProblem(
+  t: TestApp,
+  path: string,
+  body: unknown,
+  status: number,
+  field?: string,
+): Promise<ReturnType<typeof expectProblem>> {
+  return expectProblem(
+    await t
+      .http()
+      .post(path)
+      .send(body as object),
+    status,
+    field,
+  );
+}

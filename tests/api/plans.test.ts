@@ -2,7 +2,7 @@ import { parse as parseCsv } from 'csv-parse/sync';
 import { createParser, type EventSourceMessage } from 'eventsource-parser';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { debianFile } from '../io/debian-files.ts';
-import { expectDocumented, expectProblem, type TestApp, testApp } from './helpers.ts';
+import { expectDocumented, expectProblem, postProblem, type TestApp, testApp } from './helpers.ts';
 
 /** A small sweep: 32² phantom, 1 pattern × 2 R × 2 methods × 2 seeds + reference = 10 cells. */
 const smallPlan = {
@@ -96,14 +96,7 @@ describe('plans as jobs', () => {
     expect(records).toHaveLength(done.body.table.rows.length);
     // Bad requests never touch a stored result: cancel a finished plan (409), resubmit garbage (400).
     expectProblem(await t.http().delete(`/v1/plans/${res.body.id}`), 409, 'id');
-    expectProblem(
-      await t
-        .http()
-        .post('/v1/plans')
-        .send({ ...smallPlan, matrix: 'big' }),
-      400,
-      'matrix',
-    );
+    await postProblem(t, '/v1/plans', { ...smallPlan, matrix: 'big' }, 400, 'matrix');
     const again = await t.http().get(`/v1/plans/${res.body.id}`);
     expect(again.body.table).toEqual(done.body.table);
     expect((await t.http().get(`/v1/plans/${res.body.id}/table.csv`)).text).toBe(csv.text);
@@ -183,40 +176,26 @@ describe('plans as jobs', () => {
   });
 
   it('bad plans: wrong types 400, out of range 422, too many cells 422 (limit), unknown image 404', async () => {
-    expectProblem(
-      await t
-        .http()
-        .post('/v1/plans')
-        .send({ ...smallPlan, seeds: 'three' }),
-      400,
-      'seeds',
-    );
-    expectProblem(
-      await t
-        .http()
-        .post('/v1/plans')
-        .send({ ...smallPlan, accelerations: [0.5] }),
-      422,
-      'accelerations[0]',
-    );
+    await postProblem(t, '/v1/plans', { ...smallPlan, seeds: 'three' }, 400, 'seeds');
+    await postProblem(t, '/v1/plans', { ...smallPlan, accelerations: [0.5] }, 422, 'accelerations[0]');
     const many = await t
       .http()
       .post('/v1/plans')
       .send({ ...smallPlan, seeds: 100 });
     expect(expectProblem(many, 422).type).toBe('/problems/limit-exceeded');
-    expectProblem(
-      await t
-        .http()
-        .post('/v1/plans')
-        .send({ ...smallPlan, source: { imageId: 'missing' } }),
+    await postProblem(
+      t,
+      '/v1/plans',
+      { ...smallPlan, source: { imageId: 'missing' } },
       404,
       'source.imageId',
     );
-    const tooHigh = await t
-      .http()
-      .post('/v1/plans')
-      .send({ ...smallPlan, patterns: [{ pattern: 'cartesian-uniform' }], accelerations: [40] });
-    expectProblem(tooHigh, 422);
+    await postProblem(
+      t,
+      '/v1/plans',
+      { ...smallPlan, patterns: [{ pattern: 'cartesian-uniform' }], accelerations: [40] },
+      422,
+    );
   });
 });
 
