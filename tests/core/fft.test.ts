@@ -96,6 +96,23 @@ describe('centred orthonormal transform (DESIGN.md conventions)', () => {
     }
   });
 
+  it('odd N: a delta at ⌊N/2⌋ also gives zero phase, which needs ifftshift (not fftshift) on input (REFERENCES.md §2.1)', () => {
+    // ifftshift([0,1,2,3,4]) = [2,3,4,0,1] moves ⌊N/2⌋ to 0; fftshift would move it to N − 1 and
+    // leave a linear phase e^(i2πk/N) on the output.
+    for (const n of [5, 7, 321]) {
+      for (const sign of [-1, 1] as const) {
+        const x = new Float64Array(2 * n);
+        x[2 * Math.floor(n / 2)] = 1;
+        const out = new Float64Array(2 * n);
+        centeredLineTransform(out, x, 0, n, 1, sign);
+        for (let k = 0; k < n; k++) {
+          expect(Math.abs(out[2 * k] - 1 / Math.sqrt(n))).toBeLessThan(1e-14);
+          expect(Math.abs(out[2 * k + 1])).toBeLessThan(1e-14);
+        }
+      }
+    }
+  });
+
   it('single complex exponential e^(i2π·5n/N) at N = 320 → √320 = 17.88854382 in one bin (REFERENCES.md §2.2)', () => {
     const n = 320;
     const x = new Float64Array(2 * n);
