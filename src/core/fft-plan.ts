@@ -40,6 +40,18 @@ function trivialPlan(): FftPlan {
   };
 }
 
+/** out[k] = x[k]·y[k] for the first `count` interleaved complex numbers; out may be x or y. */
+function multiplyComplex(out: Float64Array, x: Float64Array, y: Float64Array, count: number): void {
+  for (let k = 0; k < count; k++) {
+    const xr = x[2 * k];
+    const xi = x[2 * k + 1];
+    const yr = y[2 * k];
+    const yi = y[2 * k + 1];
+    out[2 * k] = xr * yr - xi * yi;
+    out[2 * k + 1] = xr * yi + xi * yr;
+  }
+}
+
 function bluesteinPlan(size: number): FftPlan {
   let m = 1;
   while (m < 2 * size - 1) m *= 2;
@@ -70,33 +82,12 @@ function bluesteinPlan(size: number): FftPlan {
     size,
     forward(output, input) {
       a.fill(0);
-      for (let n = 0; n < size; n++) {
-        const xr = input[2 * n];
-        const xi = input[2 * n + 1];
-        const cr = chirp[2 * n];
-        const ci = chirp[2 * n + 1];
-        a[2 * n] = xr * cr - xi * ci;
-        a[2 * n + 1] = xr * ci + xi * cr;
-      }
+      multiplyComplex(a, input, chirp, size);
       inner.transform(aHat as unknown as number[], a as unknown as number[]);
-      for (let k = 0; k < m; k++) {
-        const ar = aHat[2 * k];
-        const ai = aHat[2 * k + 1];
-        const br = bHat[2 * k];
-        const bi = bHat[2 * k + 1];
-        aHat[2 * k] = ar * br - ai * bi;
-        aHat[2 * k + 1] = ar * bi + ai * br;
-      }
+      multiplyComplex(aHat, aHat, bHat, m);
       // fft.js's inverse includes the 1/M factor the convolution theorem needs.
       inner.inverseTransform(conv as unknown as number[], aHat as unknown as number[]);
-      for (let k = 0; k < size; k++) {
-        const vr = conv[2 * k];
-        const vi = conv[2 * k + 1];
-        const cr = chirp[2 * k];
-        const ci = chirp[2 * k + 1];
-        output[2 * k] = vr * cr - vi * ci;
-        output[2 * k + 1] = vr * ci + vi * cr;
-      }
+      multiplyComplex(output, conv, chirp, size);
     },
   };
 }
