@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { SeededRandom } from '../../src/core/random.ts';
 import type { RealImage } from '../../src/core/real-image.ts';
 import { hfen, highFrequencyErrorNorm, laplacianOfGaussian } from '../../src/metrics/index.ts';
-import { caseImages, fixtureImage, fixtures, maskedCases } from './metric-fixtures.ts';
+import { caseImages, FIXTURE_TOLERANCE, fixtureImage, fixtures, maskedCases } from './metric-fixtures.ts';
 
 function randomImage(nx: number, ny: number, seed: number): RealImage {
   const rng = new SeededRandom(seed);
@@ -19,21 +19,21 @@ describe('hfen against scipy.ndimage (fixture by tests/reference/generate_fixtur
   // Fixture HFEN: L = gaussian_laplace(sigma=1.5, truncate=4.8 → 15 taps, mode='reflect')
   // − kernelSum · uniform_filter(size=15, mode='reflect'), i.e. the zero-sum 15×15 LoG.
   for (const c of fixtures.cases) {
-    it(`${c.name}: zero-sum LoG HFEN matches to 1e-6`, () => {
+    it(`${c.name}: zero-sum LoG HFEN matches to 1e-12`, () => {
       const { estimate, reference } = caseImages(c);
-      expect(Math.abs(hfen(estimate, reference) - c.hfen)).toBeLessThanOrEqual(1e-6);
+      expect(Math.abs(hfen(estimate, reference) - c.hfen)).toBeLessThanOrEqual(FIXTURE_TOLERANCE);
     });
-    it(`${c.name}: with gaussian_laplace's own kernel matches to 1e-6`, () => {
+    it(`${c.name}: with gaussian_laplace's own kernel matches to 1e-12`, () => {
       const { estimate, reference } = caseImages(c);
       const value = highFrequencyErrorNorm(estimate, reference, undefined, false);
-      expect(Math.abs(value - c.hfenGaussianLaplace)).toBeLessThanOrEqual(1e-6);
+      expect(Math.abs(value - c.hfenGaussianLaplace)).toBeLessThanOrEqual(FIXTURE_TOLERANCE);
     });
   }
   for (const c of maskedCases) {
-    it(`${c.name}: norms over the mask match to 1e-6`, () => {
+    it(`${c.name}: norms over the mask match to 1e-12`, () => {
       const { estimate, reference, mask } = caseImages(c);
       const value = hfen(estimate, reference, mask);
-      expect(Math.abs(value - c.masked!.hfen)).toBeLessThanOrEqual(1e-6);
+      expect(Math.abs(value - c.masked!.hfen)).toBeLessThanOrEqual(FIXTURE_TOLERANCE);
       expect(Math.abs(value - c.hfen)).toBeGreaterThan(1e-4);
     });
   }

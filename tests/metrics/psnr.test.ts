@@ -1,21 +1,21 @@
 import { describe, expect, it } from 'vitest';
 import { psnr } from '../../src/metrics/index.ts';
-import { caseImages, fixtures, maskedCases } from './metric-fixtures.ts';
+import { caseImages, FIXTURE_TOLERANCE, fixtures, maskedCases } from './metric-fixtures.ts';
 
 describe('psnr against scikit-image (fixture by tests/reference/generate_fixtures.py)', () => {
   // skimage.metrics.peak_signal_noise_ratio(reference, estimate, data_range=max|reference|): skimage's
   // data_range plays the peak's part, so passing max |x| gives DESIGN.md's definition.
   for (const c of fixtures.cases) {
-    it(`${c.name}: matches skimage to 1e-4 dB`, () => {
+    it(`${c.name}: matches skimage to 1e-12 dB`, () => {
       const { estimate, reference } = caseImages(c);
-      expect(Math.abs(psnr(estimate, reference) - c.psnr)).toBeLessThanOrEqual(1e-4);
+      expect(Math.abs(psnr(estimate, reference) - c.psnr)).toBeLessThanOrEqual(FIXTURE_TOLERANCE);
     });
   }
   for (const c of maskedCases) {
-    it(`${c.name}: MSE over the mask, peak of the whole reference, matches skimage to 1e-4 dB`, () => {
+    it(`${c.name}: MSE over the mask, peak of the whole reference, matches skimage to 1e-12 dB`, () => {
       const { estimate, reference, mask } = caseImages(c);
       const value = psnr(estimate, reference, mask);
-      expect(Math.abs(value - c.masked!.psnr)).toBeLessThanOrEqual(1e-4);
+      expect(Math.abs(value - c.masked!.psnr)).toBeLessThanOrEqual(FIXTURE_TOLERANCE);
       expect(Math.abs(value - c.psnr)).toBeGreaterThan(1e-2);
     });
   }
