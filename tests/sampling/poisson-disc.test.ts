@@ -54,45 +54,52 @@ function worstSpacing(m: SampledMask, power = 2): { ratio: number; pairs: number
   return { ratio, pairs };
 }
 
+/**
+ * The issue asks for the actual R within ±3 % of the request; DEVELOPERS.md documents a search that
+ * stops once the count is within 1 % of the target, i.e. R within [1/1.01, 1/0.99] of the request.
+ * Measured: ≤ 0.67 % on every case below, so the documented bound is what the tests hold.
+ */
+const R_TOLERANCE = 1 / 0.99 - 1 + 1e-12;
+
 describe('poisson-disc: variable-density Poisson-disc over the ny×nx plane (Bridson 2007)', () => {
   // The issue's range: R 2–12 on 128² to 320², a representative grid of it.
   const sizes = [128, 200, 320];
   const accelerations = [2, 4, 8, 12];
   for (const n of sizes) {
-    it(`actual R within ±3 % of the request on ${n}×${n} for R = ${accelerations.join(', ')}`, () => {
+    it(`actual R within ±1 % (issue: ±3 %) of the request on ${n}×${n} for R = ${accelerations.join(', ')}`, () => {
       for (const R of accelerations) {
         const m = generateMask({ nx: n, ny: n }, { pattern: 'poisson-disc', acceleration: R, seed: 1 });
         const count = m.mask.reduce((a, b) => a + b, 0);
         expect(m.acquired).toEqual({ count, unit: 'points' });
         expect(m.total).toBe(n * n);
         expect(m.acceleration.actual).toBeCloseTo((n * n) / count, 12);
-        expect(Math.abs(m.acceleration.actual / R - 1)).toBeLessThanOrEqual(0.03);
+        expect(Math.abs(m.acceleration.actual / R - 1)).toBeLessThanOrEqual(R_TOLERANCE);
       }
     });
   }
 
-  it('within ±3 % with a 24×24 ACS and on a non-square matrix too', () => {
+  it('within ±1 % with a 24×24 ACS and on a non-square matrix too', () => {
     for (const [nx, ny, R] of [
       [256, 256, 6],
       [320, 160, 4],
       [128, 192, 10],
     ]) {
       const m = generateMask({ nx, ny }, { pattern: 'poisson-disc', acceleration: R, acs: 24, seed: 9 });
-      expect(Math.abs(m.acceleration.actual / R - 1)).toBeLessThanOrEqual(0.03);
+      expect(Math.abs(m.acceleration.actual / R - 1)).toBeLessThanOrEqual(R_TOLERANCE);
       expect(m.acs).toEqual({ size: [24, 24] });
       for (let v = 0; v < ny; v++)
         for (let u = 0; u < nx; u++) if (inAcs(m, u, v)) expect(m.mask[v * nx + u]).toBe(1);
     }
   });
 
-  it('within ±3 % for other fall-off powers (0.5, 1, 5, 8) too', () => {
+  it('within ±1 % for other fall-off powers (0.5, 1, 5, 8) too', () => {
     for (const power of [0.5, 1, 5, 8]) {
       for (const R of [3, 8]) {
         const m = generateMask(
           { nx: 200, ny: 200 },
           { pattern: 'poisson-disc', acceleration: R, seed: 5, density: { power } },
         );
-        expect(Math.abs(m.acceleration.actual / R - 1)).toBeLessThanOrEqual(0.03);
+        expect(Math.abs(m.acceleration.actual / R - 1)).toBeLessThanOrEqual(R_TOLERANCE);
         expect(m.details?.densityPower).toBe(power);
       }
     }
@@ -165,7 +172,7 @@ describe('poisson-disc: variable-density Poisson-disc over the ny×nx plane (Bri
     expect(m.density![48 * 128 + 64]).toBeGreaterThan(m.density![0]);
   });
 
-  it('same request, same bytes; another seed gives another mask within ±3 % of the request', () => {
+  it('same request, same bytes; another seed gives another mask within ±1 % of the request', () => {
     const request = { pattern: 'poisson-disc', acceleration: 6, acs: 12, seed: 21 } as const;
     const a = generateMask({ nx: 160, ny: 160 }, request);
     const b = generateMask({ nx: 160, ny: 160 }, { ...request });
@@ -173,7 +180,7 @@ describe('poisson-disc: variable-density Poisson-disc over the ny×nx plane (Bri
     expect(a.details).toEqual(b.details);
     const c = generateMask({ nx: 160, ny: 160 }, { ...request, seed: 22 });
     expect(Buffer.from(c.mask).equals(Buffer.from(a.mask))).toBe(false);
-    expect(Math.abs(c.acceleration.actual / 6 - 1)).toBeLessThanOrEqual(0.03);
+    expect(Math.abs(c.acceleration.actual / 6 - 1)).toBeLessThanOrEqual(R_TOLERANCE);
   });
 
   it('R = 1 samples every point', () => {

@@ -53,11 +53,13 @@ describe('radial sampling', () => {
     }
   });
 
-  it('three-gap theorem (Steinhaus conjecture; Sós 1958): golden spokes leave at most 3 distinct gaps', () => {
+  it('three-gap theorem (Steinhaus conjecture; Sós 1958): golden spokes leave at most 3 distinct gaps, the largest the sum of the others', () => {
     for (let n = 2; n <= 700; n++) {
       const gaps = distinctGaps(spokeAngles(n, 'golden'));
       expect(gaps.length).toBeLessThanOrEqual(3);
       expect(gaps.length).toBeGreaterThanOrEqual(2);
+      // The theorem also says the largest of three gaps is the sum of the other two.
+      if (gaps.length === 3) expect(Math.abs(gaps[2] - gaps[0] - gaps[1])).toBeLessThan(1e-9);
     }
   });
 
