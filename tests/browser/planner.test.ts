@@ -278,7 +278,8 @@ describe('planner page in Chromium', () => {
     const refused = waitForApi('/v1/masks', 'POST', 'application/json');
     await page.click('#maskButton');
     const response = await refused;
-    expect(response.status()).toBeGreaterThanOrEqual(400);
+    // R < 1 is a value out of range: 422 problem+json (RFC 9457; DESIGN.md error classes).
+    expect(response.status()).toBe(422);
     const problem = (await response.json()) as { errors: Array<{ field: string }> };
     expect(problem.errors.map((e) => e.field)).toContain('sampling.acceleration');
     await page.waitForFunction(() => !(document.querySelector('#maskButton') as HTMLButtonElement).disabled);
@@ -311,8 +312,12 @@ describe('planner page in Chromium', () => {
       'imgReference',
       'imgErrorMap',
     ]) {
-      const width = await page.$eval(`#${id}`, (img) => (img as HTMLImageElement).naturalWidth);
-      expect(width, `${id} rendered`).toBeGreaterThan(0);
+      // Each result PNG is one pixel per matrix element (32×32 set above).
+      const size = await page.$eval(`#${id}`, (img) => [
+        (img as HTMLImageElement).naturalWidth,
+        (img as HTMLImageElement).naturalHeight,
+      ]);
+      expect(size, `${id} rendered`).toEqual([32, 32]);
     }
 
     // Same request again through the API: the metrics are seeded, hence equal; the page shows them.
