@@ -93,11 +93,14 @@ describe('POST /v1/reconstructions (runs on the worker pool)', () => {
       404,
       'source.imageId',
     );
-    const limit = await t
-      .http()
-      .post('/v1/reconstructions')
-      .send({ ...request, method: { name: 'cs-tv', iterations: 500 } });
-    expect(expectProblem(limit, 422, 'method.iterations').type).toBe('/problems/limit-exceeded');
+    const limit = await postProblem(
+      t,
+      '/v1/reconstructions',
+      { ...request, method: { name: 'cs-tv', iterations: 500 } },
+      422,
+      'method.iterations',
+    );
+    expect(limit.type).toBe('/problems/limit-exceeded');
     await postProblem(
       t,
       '/v1/reconstructions',

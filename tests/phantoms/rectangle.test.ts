@@ -8,6 +8,7 @@ import {
   expectRotationTheorem,
   expectShiftTheorem,
   shapeTransform,
+  spanLinesAgreeingWithContains,
   validationField,
 } from './transform-checks.ts';
 
@@ -93,25 +94,7 @@ describe('rectangle transform', () => {
 describe('rectangle geometry', () => {
   it('spans agree with the inside test on every line, rotated or not', () => {
     for (const p of [CHECK, TILTED]) {
-      const r = new Rectangle(p);
-      const range = new Float64Array(2);
-      const span = new Float64Array(2);
-      r.yRange(range);
-      let lines = 0;
-      for (let y = range[0] - 0.01; y <= range[1] + 0.01; y += 0.0031) {
-        if (!r.spanAtY(y, span)) {
-          for (let x = -1; x <= 1; x += 0.01) expect(r.contains(x, y)).toBe(false);
-          continue;
-        }
-        lines++;
-        const mid = 0.5 * (span[0] + span[1]);
-        expect(r.contains(mid, y)).toBe(true);
-        expect(r.contains(span[0] + 1e-9, y)).toBe(true);
-        expect(r.contains(span[1] - 1e-9, y)).toBe(true);
-        expect(r.contains(span[0] - 1e-6, y)).toBe(false);
-        expect(r.contains(span[1] + 1e-6, y)).toBe(false);
-      }
-      expect(lines).toBeGreaterThan(20);
+      expect(spanLinesAgreeingWithContains(new Rectangle(p), 0.0031)).toBeGreaterThan(20);
     }
   });
 

@@ -84,3 +84,33 @@ export function validationField(build: () => unknown): string {
   expect(caught).toBeInstanceOf(ValidationError);
   return (caught as ValidationError).problems[0].field;
 }
+
+/**
+ * Walks horizontal lines across a shape (step `dy`, a little beyond its y range) and checks that
+ * spanAtY agrees with contains: a line that misses has no inside point across [−1, 1]; a line that
+ * hits has its midpoint and both ends (inset by 1e-9 of the width) inside and points 1e-6 beyond
+ * either end outside. Returns how many lines hit, so a caller can insist the walk saw the shape.
+ */
+export function spanLinesAgreeingWithContains(
+  shape: Pick<Shape, 'contains' | 'yRange' | 'spanAtY'>,
+  dy: number,
+): number {
+  const range = new Float64Array(2);
+  const span = new Float64Array(2);
+  shape.yRange(range);
+  let lines = 0;
+  for (let y = range[0] - 0.01; y <= range[1] + 0.01; y += dy) {
+    if (!shape.spanAtY(y, span)) {
+      for (let x = -1; x <= 1; x += 0.01) expect(shape.contains(x, y), `(${x}, ${y})`).toBe(false);
+      continue;
+    }
+    lines++;
+    const inset = 1e-9 * (span[1] - span[0]) + 1e-12;
+    expect(shape.contains(0.5 * (span[0] + span[1]), y)).toBe(true);
+    expect(shape.contains(span[0] + inset, y)).toBe(true);
+    expect(shape.contains(span[1] - inset, y)).toBe(true);
+    expect(shape.contains(span[0] - 1e-6, y)).toBe(false);
+    expect(shape.contains(span[1] + 1e-6, y)).toBe(false);
+  }
+  return lines;
+}
