@@ -144,7 +144,7 @@ describe('Hermitian eigendecomposition by cyclic Jacobi', () => {
     expect(residuals(a, solver).eig).toBeLessThan(1e-13);
   });
 
-  it('a rank-2 Gram matrix of size 49 has exactly two non-zero eigenvalues, equal to the column energies of orthogonal vectors', () => {
+  it('x xᴴ + y yᴴ of size 49 has exactly two non-zero eigenvalues, those of the 2×2 Gram matrix of x and y (linear algebra, common practice)', () => {
     const n = 49;
     const x = new Float64Array(2 * n);
     const y = new Float64Array(2 * n);
