@@ -1,7 +1,9 @@
 import { describe, expect, it } from 'vitest';
+import { RASTER_SUPERSAMPLE } from '../../src/acquisition/phantom-source.ts';
 import { ValidationError } from '../../src/core/errors.ts';
 import { defaultLimits } from '../../src/core/limits.ts';
 import type { RealImage } from '../../src/core/real-image.ts';
+import { sheppLoganModified } from '../../src/phantoms/shepp-logan.ts';
 import { noiseSeedFor, runReconstruction, sourceSchema } from '../../src/pipeline/run-reconstruction.ts';
 
 const matrix = { nx: 64, ny: 64 };
@@ -104,6 +106,24 @@ describe('runReconstruction', () => {
       undefined,
     );
     expect(out.notes.some((n) => n.includes('inverse crime'))).toBe(true);
+    // The crime itself: with every line the reconstruction returns the very raster the data came from
+    // (DESIGN.md: 'raster' k-space = F_c(raster), 4× supersampled), not the analytic object.
+    const full = await runReconstruction(
+      {
+        source: { phantom: 'shepp-logan-modified', kspace: 'raster' },
+        matrix: { nx: 32, ny: 32 },
+        sampling: { pattern: 'cartesian-uniform', acceleration: 1 },
+        method: { name: 'zero-filled' },
+      },
+      undefined,
+    );
+    const raster = sheppLoganModified().rasterize(32, 32, { supersample: RASTER_SUPERSAMPLE });
+    let worst = 0;
+    for (let i = 0; i < raster.data.length; i++) {
+      worst = Math.max(worst, Math.abs(full.images.reference.data[i] - raster.data[i]));
+    }
+    expect(worst).toBeLessThan(1e-12);
+    expect(full.metrics.nrmse).toBeLessThan(1e-12);
   });
 
   it('bad input gives typed errors naming the field', async () => {
