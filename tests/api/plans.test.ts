@@ -1,6 +1,8 @@
 import { parse as parseCsv } from 'csv-parse/sync';
 import { createParser, type EventSourceMessage } from 'eventsource-parser';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { decodeImage } from '../../src/io/decode-image.ts';
+import { runPlan } from '../../src/plan/run-plan.ts';
 import { debianFile } from '../io/debian-files.ts';
 import { expectDocumented, expectProblem, postProblem, type TestApp, testApp } from './helpers.ts';
 
@@ -157,22 +159,24 @@ describe('plans as jobs', () => {
       .http()
       .post('/v1/images')
       .attach('file', debianFile('pydicom', 'MR_small.dcm'), 'm.dcm');
-    const res = await t
-      .http()
-      .post('/v1/plans')
-      .send({
-        ...smallPlan,
-        source: { imageId: upload.body.id },
-        matrix: { nx: 64, ny: 64 },
-        accelerations: [2],
-        methods: [{ name: 'zero-filled' }],
-        seeds: 1,
-      });
+    const plan = {
+      ...smallPlan,
+      source: { imageId: upload.body.id },
+      matrix: { nx: 64, ny: 64 },
+      accelerations: [2],
+      methods: [{ name: 'zero-filled' }],
+      seeds: 1,
+    };
+    const res = await t.http().post('/v1/plans').send(plan);
     expect(res.status).toBe(202);
     const done = await waitFor(t, res.body.id, finished);
     expect(done.body.status).toBe('done');
     expect(done.body.table.rows).toHaveLength(2);
-    expect(done.body.table.rows[1].metrics.nrmse.mean).toBeGreaterThan(0);
+    // The worker cells score what the engine scores on the decoded pixels, run in this process.
+    const pixels = (await decodeImage(debianFile('pydicom', 'MR_small.dcm'))).image;
+    const direct = await runPlan(plan, { ctx: { loadImage: async () => pixels } });
+    expect(withoutTiming(done.body.table)).toEqual(withoutTiming(JSON.parse(JSON.stringify(direct))));
+    expect(done.body.table.rows[1].metrics.nrmse.mean).toBeGreaterThan(0.001); // R = 2: not the reference
   });
 
   it('bad plans: wrong types 400, out of range 422, too many cells 422 (limit), unknown image 404', async () => {
