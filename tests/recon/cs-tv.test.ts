@@ -192,6 +192,25 @@ describe('cs-tv solver', () => {
   });
 });
 
+describe('cs-tv default λ (DEVELOPERS.md: 0.002·(1/f − 1) relative, at most 0.05; tuned on other data)', () => {
+  it('follows the acquired fraction f: 0 at full sampling, 0.006 at f = ¼, capped at 0.05 below f ≈ 1/26', () => {
+    const nx = 16;
+    const ny = 16;
+    const image = randomComplexImage(nx, ny, 21);
+    for (const [kept, expected] of [
+      [256, 0],
+      [64, 0.006],
+      [8, 0.05], // 0.002·(32 − 1) = 0.062 → capped
+    ] as const) {
+      const mask = new Uint8Array(nx * ny);
+      for (let i = 0; i < kept; i++) mask[(i * 37) % (nx * ny)] = 1; // 37 is coprime to 256: distinct points
+      const out = reconstruct({ kspace: sampledKspace(image, mask), mask }, { name: 'cs-tv', iterations: 1 });
+      expect(out.info.lambda as number).toBeCloseTo(expected, 15);
+      expect(out.info.lambdaSource).toBe('default from acquired fraction');
+    }
+  });
+});
+
 describe('cs-tv parameters', () => {
   const nx = 16;
   const ny = 16;
