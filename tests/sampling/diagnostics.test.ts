@@ -64,7 +64,9 @@ describe('PSF diagnostics', () => {
     const d = maskDiagnostics(m);
     expect(d.psf.data[40 * 96 + 48]).toBeCloseTo(1, 14);
     expect(Math.max(...d.psf.data)).toBeLessThanOrEqual(1 + 1e-12);
-    expect(d.mainLobeRadius).toBe(DEFAULT_MAIN_LOBE_RADIUS);
+    // DEVELOPERS.md: side lobes are measured outside the centre's 3×3 block, radius √2.
+    expect(d.mainLobeRadius).toBe(Math.SQRT2);
+    expect(DEFAULT_MAIN_LOBE_RADIUS).toBe(Math.SQRT2);
   });
 
   it('Parseval: Σ_{x≠0} |psf(x)|² = 1/f − 1 for any 0/1 mask (orthonormal DFT, REFERENCES.md §2.1)', () => {
