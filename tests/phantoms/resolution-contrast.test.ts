@@ -57,6 +57,7 @@ describe('resolution-contrast phantom', () => {
     expect(outsideNonZero).toBe(0);
     expect(insideBelowBackground).toBe(0);
     expect(peak).toBeCloseTo(LAYOUT.background.intensity + LAYOUT.bars.intensity, 12);
+    expect(peak).toBeCloseTo(1, 12);
   });
 
   it('shows each line-pair group as 4 bars along x (upper row) and 4 bars along y (middle row) at n = 500', () => {
@@ -81,6 +82,8 @@ describe('resolution-contrast phantom', () => {
 
   it('bar widths decrease and straddle the pixel sizes of 128 and 256 grids (w ≥ 2/n to resolve, REFERENCES.md §1.5)', () => {
     const { widths } = LAYOUT.bars;
+    // DEVELOPERS.md: bar groups 0.05 → 0.01 units wide.
+    expect([widths[0], widths.at(-1)]).toEqual([0.05, 0.01]);
     for (let g = 1; g < widths.length; g++) expect(widths[g]).toBeLessThan(widths[g - 1]);
     expect(widths.filter((w) => w >= 2 / 128).length).toBe(3); // the two finest are below 2/128
     expect(widths.every((w) => w >= 2 / 256)).toBe(true);
@@ -88,6 +91,7 @@ describe('resolution-contrast phantom', () => {
 
   it('has discs 10 %, 5 %, 2.5 % above the background at their centres, sizes decreasing along each row', () => {
     const { discs, background } = LAYOUT;
+    expect(discs.contrasts).toEqual([0.1, 0.05, 0.025]); // DEVELOPERS.md
     discs.rowsY.forEach((y, row) => {
       discs.columnsX.forEach((x) => {
         expect(at(x, y)).toBeCloseTo(background.intensity * (1 + discs.contrasts[row]), 12);
