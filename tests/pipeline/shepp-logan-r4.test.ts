@@ -28,12 +28,18 @@ async function run(
   );
 }
 
+// Bounds: the measured NRMSE ratio (method / zero-filled) times 1.15 and the measured SSIM gain times
+// 0.85 (ratios 0.391, 0.447, 0.161, 0.231; gains 0.281, 0.287, 0.584, 0.449). The case is seeded, so
+// only a change of method moves these; 15 % leaves room for retuning without hiding a regression.
 const margins = {
   'cartesian-random': {
-    'cs-tv': { ratio: 0.55, ssimGain: 0.2 },
-    'lowrank-hankel': { ratio: 0.6, ssimGain: 0.2 },
+    'cs-tv': { ratio: 0.45, ssimGain: 0.23 },
+    'lowrank-hankel': { ratio: 0.52, ssimGain: 0.24 },
   },
-  'poisson-disc': { 'cs-tv': { ratio: 0.3, ssimGain: 0.4 }, 'lowrank-hankel': { ratio: 0.4, ssimGain: 0.3 } },
+  'poisson-disc': {
+    'cs-tv': { ratio: 0.19, ssimGain: 0.49 },
+    'lowrank-hankel': { ratio: 0.27, ssimGain: 0.38 },
+  },
 } as const;
 
 describe('modified Shepp–Logan, analytic k-space, R = 4: regularised methods beat zero-filled', () => {
@@ -81,10 +87,14 @@ describe('with noise (SNR 20), 64², Poisson-disc R = 4: the regularised methods
         2,
       );
     const zf = await request({ name: 'zero-filled' });
-    for (const name of ['cs-tv', 'lowrank-hankel']) {
+    // Measured ratio / gain: cs-tv 0.571 / 0.302, lowrank-hankel 0.415 / 0.332; bounds ×1.15 / ×0.85.
+    for (const [name, ratio, ssimGain] of [
+      ['cs-tv', 0.66, 0.25],
+      ['lowrank-hankel', 0.48, 0.28],
+    ] as const) {
       const out = await request({ name });
-      expect(out.metrics.nrmse / zf.metrics.nrmse).toBeLessThan(0.75);
-      expect(out.metrics.ssim - zf.metrics.ssim).toBeGreaterThan(0.15);
+      expect(out.metrics.nrmse / zf.metrics.nrmse).toBeLessThan(ratio);
+      expect(out.metrics.ssim - zf.metrics.ssim).toBeGreaterThan(ssimGain);
     }
   });
 });
