@@ -113,11 +113,13 @@ describe('PSF diagnostics', () => {
       const poisson = maskDiagnostics(
         generateMask(matrix, { pattern: 'poisson-disc', acceleration: 4, seed }),
       );
-      // Measured with seeds 1–5: random lines 0.20–0.23, Poisson-disc 0.039–0.043 (uniform: 1).
-      expect(random.peakSidelobe).toBeLessThan(0.35 * uniform.peakSidelobe);
-      expect(poisson.peakSidelobe).toBeLessThan(0.08 * uniform.peakSidelobe);
-      // Spreading the aliasing over a plane instead of a line lowers it further (§3.6: 1/√N scaling).
-      expect(poisson.peakSidelobe).toBeLessThan(0.5 * random.peakSidelobe);
+      // Measured with seeds 1–3: random lines 0.199–0.222, Poisson-disc 0.0384–0.0393 (uniform: 1);
+      // bounds are the largest of them plus 15 %.
+      expect(random.peakSidelobe).toBeLessThan(0.26 * uniform.peakSidelobe);
+      expect(poisson.peakSidelobe).toBeLessThan(0.046 * uniform.peakSidelobe);
+      // Spreading the aliasing over a plane instead of a line lowers it further (§3.6: 1/√N scaling);
+      // measured ratio 0.17–0.20.
+      expect(poisson.peakSidelobe).toBeLessThan(0.23 * random.peakSidelobe);
     }
   });
 
