@@ -142,7 +142,7 @@ describe('poisson-disc: variable-density Poisson-disc over the ny×nx plane (Bri
     expect(worst).toBeLessThanOrEqual(2);
   });
 
-  it('sampling density follows 1/r² ∝ (1 + ρ)^(−p): ring ρ ∈ [0.2, 0.3) vs [0.8, 0.9) within 15 %', () => {
+  it('sampling density follows 1/r² ∝ (1 + ρ)^(−p): ring ρ ∈ [0.2, 0.3) vs [0.8, 0.9) within 10 %', () => {
     // R = 8 keeps r > 1 pixel everywhere, so the grid does not cap the density at 1.
     const n = 320;
     const m = generateMask({ nx: n, ny: n }, { pattern: 'poisson-disc', acceleration: 8, seed: 6 });
@@ -161,7 +161,9 @@ describe('poisson-disc: variable-density Poisson-disc over the ny×nx plane (Bri
     };
     const measured = ring(0.2, 0.3) / ring(0.8, 0.9);
     const law = ((1 + 0.85) / (1 + 0.25)) ** 2;
-    expect(Math.abs(measured / law - 1)).toBeLessThan(0.15);
+    // Measured −1.4 %. About 756 and 1195 samples fall in the two rings: even Poisson counting noise
+    // (an upper bound for the more regular Poisson-disc) gives a spread of ≈ 4.6 %, so 10 % ≈ 2σ.
+    expect(Math.abs(measured / law - 1)).toBeLessThan(0.1);
   });
 
   it('the k-space centre is sampled, and the density map sums to the acquired count', () => {
