@@ -66,6 +66,14 @@ describe('analytic grid k-space against the DFT of a fine raster (REFERENCES.md 
     expect(e128).toBeLessThan(0.015); // §1.3: 0.010
   });
 
+  it('reproduces the REFERENCES.md §1.3 [C] table (NumPy, same convention) to the digits it quotes', () => {
+    // 0.010, 0.0025, 0.0034, 0.00083: each within half a unit of its last quoted digit.
+    expect(Math.abs(e128 - 0.01)).toBeLessThanOrEqual(0.0005);
+    expect(Math.abs(e256 - 0.0025)).toBeLessThanOrEqual(0.00005);
+    expect(Math.abs(s128 - 0.0034)).toBeLessThanOrEqual(0.00005);
+    expect(Math.abs(s256 - 0.00083)).toBeLessThanOrEqual(0.000005);
+  });
+
   it('central error falls by ≳ 3× when n doubles (REFERENCES.md §1.3)', () => {
     expect(e128 / e256).toBeGreaterThan(3);
     expect(s128 / s256).toBeGreaterThan(3);
