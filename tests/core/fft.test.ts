@@ -41,11 +41,13 @@ function relativeMaxError(a: Float64Array, b: Float64Array): number {
 
 describe('1D plans against the direct DFT (definition, REFERENCES.md §2.1–2.2)', () => {
   const lengths = [...Array.from({ length: 64 }, (_, i) => i + 1), 97, 182, 218, 320, 384, 509, 1000];
-  it.each(lengths)('N = %i: relative max error ≤ 1e-10', (n) => {
+  // The issue asks ≤ 1e-10 and REFERENCES.md §2.2 < 1e-11; measured ≤ 2.1e-15 over all these lengths
+  // (the direct sum itself rounds at ~√N·ε), so 1e-12 keeps ~500× slack.
+  it.each(lengths)('N = %i: relative max error ≤ 1e-12', (n) => {
     const x = randomComplex(n, n);
     const got = new Float64Array(2 * n);
     fftPlan(n).forward(got, x);
-    expect(relativeMaxError(got, directDft(x))).toBeLessThanOrEqual(1e-10);
+    expect(relativeMaxError(got, directDft(x))).toBeLessThanOrEqual(1e-12);
   });
 
   it('Bluestein at N = 320: ramp x[n] = n has the closed form −160 + 160i·cot(πk/320) (REFERENCES.md §2.2)', () => {
