@@ -13,6 +13,11 @@ import type { RealImage } from '../../src/core/real-image.ts';
 import { reconstruct } from '../../src/recon/index.ts';
 import { riceMean, riceSquaredError } from './rician.ts';
 
+// Sources: the noise model written down in DEVELOPERS.md and DESIGN.md (σ per real channel = mean
+// |reference| over the object ÷ SNR, object = |reference| > 0.1·max; σ the same in k-space and image
+// since the FFT is unitary, REFERENCES §7; noise drawn per k-space point from the request seed),
+// Rician moments (Gudbjartsson & Patz 1995, REFERENCES §7), and the typed-error rule of DESIGN.md.
+
 /** A piecewise-constant test object on a zero background: disc of 1.0 holding a 0.3 square. */
 function testObject(n: number): RealImage {
   const data = new Float64Array(n * n);

@@ -219,7 +219,7 @@ describe('bounded worker queue for request-driven work', () => {
 });
 
 describe('never a 500 on any JSON route', () => {
-  it('hostile bodies on every POST route answer 4xx problem+json and leave the service healthy', async () => {
+  it('hostile bodies on every POST route answer 4xx problem+json and leave the service healthy (DESIGN.md: never a 500)', async () => {
     const t = await testApp({ workers: 1 });
     try {
       const routes = [

@@ -5,6 +5,9 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 
+// Source: the configuration contract of DESIGN.md and the README (PORT, HOST, API_KEYS; a
+// non-loopback HOST needs keys).
+
 const root = fileURLToPath(new URL('../..', import.meta.url));
 const tsx = join(root, 'node_modules', '.bin', 'tsx');
 

@@ -3,6 +3,10 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { getPhantom } from '../../src/phantoms/index.ts';
 import { binary, expectDocumented, expectProblem, postProblem, type TestApp, testApp } from './helpers.ts';
 
+// Source for the checks below: the v1 HTTP contract of DESIGN.md (routes, status codes, 202 jobs,
+// persistence under DATA_DIR), problem bodies per RFC 9457 (REFERENCES §10.4) and every documented
+// response validated against openapi.yaml (OpenAPI 3.1, REFERENCES §10.6) by expectDocumented.
+
 describe('phantoms, masks and result images', () => {
   let t: TestApp;
   beforeAll(async () => {

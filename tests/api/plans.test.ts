@@ -6,6 +6,10 @@ import { runPlan } from '../../src/plan/run-plan.ts';
 import { debianFile } from '../io/debian-files.ts';
 import { expectDocumented, expectProblem, postProblem, type TestApp, testApp } from './helpers.ts';
 
+// Source for the checks below: the v1 HTTP contract of DESIGN.md (routes, status codes, 202 jobs,
+// persistence under DATA_DIR), problem bodies per RFC 9457 (REFERENCES §10.4) and every documented
+// response validated against openapi.yaml (OpenAPI 3.1, REFERENCES §10.6) by expectDocumented.
+
 /** A small sweep: 32² phantom, 1 pattern × 2 R × 2 methods × 2 seeds + reference = 10 cells. */
 const smallPlan = {
   source: { phantom: 'shepp-logan-modified' },

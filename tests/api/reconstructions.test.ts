@@ -5,6 +5,10 @@ import { runReconstruction } from '../../src/pipeline/run-reconstruction.ts';
 import { debianFile } from '../io/debian-files.ts';
 import { binary, expectDocumented, expectProblem, postProblem, type TestApp, testApp } from './helpers.ts';
 
+// Source for the checks below: the v1 HTTP contract of DESIGN.md (routes, status codes, 202 jobs,
+// persistence under DATA_DIR), problem bodies per RFC 9457 (REFERENCES §10.4) and every documented
+// response validated against openapi.yaml (OpenAPI 3.1, REFERENCES §10.6) by expectDocumented.
+
 const request = {
   source: { phantom: 'shepp-logan-modified' },
   matrix: { nx: 32, ny: 32 },

@@ -4,6 +4,10 @@ import { buildTable } from '../../src/plan/build-table.ts';
 import type { CellResult } from '../../src/plan/cell-result.ts';
 import { at, cellResult, handPlan, referencePosition } from './hand-made.ts';
 
+// Source: the table rules of DESIGN.md and DEVELOPERS.md ("Scan time and plans": reference row,
+// plan order, mean and sample SD (n − 1) over seeds, Pareto front, notes); inputs are hand-made
+// (tests/plan/hand-made.ts) so each expected value can be worked out on paper.
+
 /** A full hand-made grid: 2 patterns × R ∈ {2, 4} × {zero-filled, cs-tv}, one seed, SSIM by hand. */
 function grid(ssim: Record<string, number>): CellResult[] {
   const results = [cellResult(referencePosition, { lines: 256, ssim: 1, nrmse: 0, psnr: null, hfen: 0 })];

@@ -152,7 +152,7 @@ describe('scan time: slices, partial Fourier and masks (common practice, REFEREN
   });
 });
 
-describe('scan time: validation names the field and the allowed range', () => {
+describe('scan time: validation names the field and the allowed range (issue: TR > 0, NEX ≥ 1, partial Fourier in [0.5, 1]; DESIGN.md typed errors)', () => {
   const matrix = { nx: 64, ny: 64 };
   it.each([
     [{ trMs: 0 }, 'protocol.trMs', '> 0'],

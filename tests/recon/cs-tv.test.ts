@@ -211,7 +211,7 @@ describe('cs-tv default λ (DEVELOPERS.md: 0.002·(1/f − 1) relative, at most 
   });
 });
 
-describe('cs-tv parameters', () => {
+describe('cs-tv parameters (DESIGN.md: typed errors naming the field and range; configured limits)', () => {
   const nx = 16;
   const ny = 16;
   const input = { kspace: fft2c(randomComplexImage(nx, ny, 1)), mask: fullMask(nx, ny) };

@@ -137,7 +137,7 @@ describe('lowrank-hankel completion', () => {
   });
 });
 
-describe('lowrank-hankel parameters', () => {
+describe('lowrank-hankel parameters (DESIGN.md: typed errors naming the field and range; configured limits)', () => {
   const nx = 16;
   const ny = 12;
   const input = { kspace: fft2c(randomComplexImage(nx, ny, 1)), mask: fullMask(nx, ny) };

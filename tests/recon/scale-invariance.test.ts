@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { reconstruct } from '../../src/recon/index.ts';
 import { randomComplexImage, randomPointMask, relativeError, sampledKspace } from './helpers.ts';
 
-describe('methods do not depend on the image scale (λ is relative to max |F_cᴴ y|)', () => {
+describe('methods do not depend on the image scale (DEVELOPERS.md: λ is relative to max |F_cᴴ y|)', () => {
   // Scaling the data by s must scale the reconstruction by s: cs-tv's λ_abs scales with
   // max |F_cᴴ y|, and the Hankel projection is invariant to the scale. Odd 25×18 matrix.
   const nx = 25;

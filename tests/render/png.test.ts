@@ -4,6 +4,10 @@ import { generateMask } from '../../sampling/index.ts';
 import type { RealImage } from '../../src/core/real-image.ts';
 import { greyPng, maskPng } from '../../src/render/png.ts';
 
+// Source: the rendering rules are the project's own (DESIGN.md: PNG images; src/render/png.ts
+// documents the scaling); what is checked is that an outside decoder (sharp) reads back exactly
+// the values those rules give.
+
 /** Decodes a PNG with sharp (an outside decoder) to one grey channel at its own bit depth. */
 async function decode(
   png: Buffer,
