@@ -114,3 +114,15 @@ export function spanLinesAgreeingWithContains(
   }
   return lines;
 }
+
+/** Two descriptions of the same object have the same transform at every frequency. */
+export function expectSameTransform(
+  a: TransformAt,
+  b: TransformAt,
+  frequencies: ReadonlyArray<readonly [number, number]>,
+  tolerance: number,
+): void {
+  for (const [kx, ky] of frequencies) {
+    expect(distance(a(kx, ky), b(kx, ky)), `k = (${kx}, ${ky})`).toBeLessThan(tolerance);
+  }
+}

@@ -96,27 +96,21 @@ describe('runReconstruction', () => {
   });
 
   it('raster k-space mode is flagged as an inverse crime', async () => {
-    const out = await runReconstruction(
-      {
-        source: { phantom: 'shepp-logan-modified', kspace: 'raster' },
-        matrix: { nx: 32, ny: 32 },
-        sampling: { pattern: 'cartesian-uniform', acceleration: 2 },
-        method: { name: 'zero-filled' },
-      },
-      undefined,
-    );
+    const rasterMode = (acceleration: number) =>
+      runReconstruction(
+        {
+          source: { phantom: 'shepp-logan-modified', kspace: 'raster' },
+          matrix: { nx: 32, ny: 32 },
+          sampling: { pattern: 'cartesian-uniform', acceleration },
+          method: { name: 'zero-filled' },
+        },
+        undefined,
+      );
+    const out = await rasterMode(2);
     expect(out.notes.some((n) => n.includes('inverse crime'))).toBe(true);
     // The crime itself: with every line the reconstruction returns the very raster the data came from
     // (DESIGN.md: 'raster' k-space = F_c(raster), 4× supersampled), not the analytic object.
-    const full = await runReconstruction(
-      {
-        source: { phantom: 'shepp-logan-modified', kspace: 'raster' },
-        matrix: { nx: 32, ny: 32 },
-        sampling: { pattern: 'cartesian-uniform', acceleration: 1 },
-        method: { name: 'zero-filled' },
-      },
-      undefined,
-    );
+    const full = await rasterMode(1);
     const raster = sheppLoganModified().rasterize(32, 32, { supersample: RASTER_SUPERSAMPLE });
     let worst = 0;
     for (let i = 0; i < raster.data.length; i++) {
