@@ -1,5 +1,6 @@
-import { LimitError, ValidationError } from '../core/errors.ts';
+import { ValidationError } from '../core/errors.ts';
 import { defaultLimits } from '../core/limits.ts';
+import { validateMatrix } from '../core/matrix.ts';
 import type { ReconInput, ReconOptions, ReconOutput } from './method.ts';
 import { type MethodSpec, reconMethods } from './registry.ts';
 
@@ -24,18 +25,7 @@ export function reconstruct(input: ReconInput, method: MethodSpec, options: Reco
     });
   }
   const { kspace, mask, density } = input;
-  for (const [field, side] of [
-    ['matrix.nx', kspace.nx],
-    ['matrix.ny', kspace.ny],
-  ] as const) {
-    if (side > limits.maxMatrixSide) {
-      throw new LimitError({
-        field,
-        message: `${side} exceeds the configured matrix limit`,
-        allowed: `1 ≤ ${field.slice(7)} ≤ ${limits.maxMatrixSide}`,
-      });
-    }
-  }
+  validateMatrix(kspace, limits);
   const n = kspace.nx * kspace.ny;
   if (kspace.data.length !== 2 * n || mask.length !== n || (density !== undefined && density.length !== n)) {
     throw new ValidationError({
