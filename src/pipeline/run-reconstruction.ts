@@ -14,7 +14,7 @@ import { type ComplexImage, magnitude } from '../core/complex-image.ts';
 import { ValidationError } from '../core/errors.ts';
 import { defaultLimits, type Limits } from '../core/limits.ts';
 import type { RealImage } from '../core/real-image.ts';
-import { type MetricSet, scoreAll } from '../metrics/index.ts';
+import { type MetricSet, SSIM_RADIUS, scoreAll } from '../metrics/index.ts';
 import { getPhantom } from '../phantoms/index.ts';
 import { type MethodSpec, reconstruct, zeroFilledImage } from '../recon/index.ts';
 import { resampleBilinear } from './resample.ts';
@@ -138,6 +138,24 @@ function magnitudeImage(image: ComplexImage): RealImage {
   return { nx: image.nx, ny: image.ny, data: magnitude(image) };
 }
 
+/** Smallest side that can be scored: SSIM needs one whole 11×11 window (Wang et al. 2004). */
+export const MIN_SCORED_SIDE = 2 * SSIM_RADIUS + 1;
+
+/**
+ * Refuses matrices too small to score, naming the request's field rather than the metric's
+ * internal argument (checked before any work, by single reconstructions and by plan validation).
+ */
+export function checkScorableMatrix(matrix: { nx: number; ny: number }): void {
+  const problems = (['nx', 'ny'] as const)
+    .filter((side) => matrix[side] < MIN_SCORED_SIDE)
+    .map((side) => ({
+      field: `matrix.${side}`,
+      message: `${matrix[side]} is too small to score: SSIM needs an ${MIN_SCORED_SIDE}×${MIN_SCORED_SIDE} window`,
+      allowed: `${side} ≥ ${MIN_SCORED_SIDE}`,
+    }));
+  if (problems.length > 0) throw new ValidationError(problems);
+}
+
 /**
  * One simulated acquisition + reconstruction + scoring (DESIGN.md data flow):
  * source → full k-space and reference; sampling → mask; y = M ⊙ (y_full + noise); x̂ = recon(y);
@@ -152,6 +170,7 @@ export async function runReconstruction(
 ): Promise<ReconstructionOutcome> {
   const limits = ctx.limits ?? defaultLimits;
   const { nx, ny } = validateMatrix(req.matrix, limits);
+  checkScorableMatrix({ nx, ny });
   checkedSnr(req.noise);
   const notes: string[] = [];
   const full = await fullAcquisition(req.source, nx, ny, ctx, notes);

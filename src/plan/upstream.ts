@@ -6,6 +6,7 @@
 export { generateMask, type SampledMask, type SamplingSpec, samplingSchema } from '../../sampling/index.ts';
 export { noiseSchema } from '../acquisition/index.ts';
 export {
+  checkScorableMatrix,
   type PipelineContext,
   type ReconstructionOutcome,
   runReconstruction,

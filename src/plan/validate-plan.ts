@@ -5,7 +5,7 @@ import { parseOrThrow } from '../protocol/zod-problems.ts';
 import { patternSpecs } from './pattern-specs.ts';
 import { checkPlanSize } from './plan-cells.ts';
 import { type Plan, planSchema } from './schema.ts';
-import { generateMask, samplingSchema } from './upstream.ts';
+import { checkScorableMatrix, generateMask, samplingSchema } from './upstream.ts';
 
 export interface ValidatePlanOptions {
   limits?: Limits;
@@ -47,6 +47,7 @@ export function validatePlan(input: unknown, options: ValidatePlanOptions = {}):
     }
   });
   if (tooLarge.length > 0) throw new LimitError(tooLarge);
+  checkScorableMatrix(plan.matrix);
   checkPlanSize(plan, limits);
 
   if (options.checkMasks ?? true) checkMasks(plan, limits);

@@ -140,6 +140,10 @@ describe('runReconstruction', () => {
       'source.phantom',
     );
     expect(await field(runReconstruction({ ...base, noise: { snr: -1 } }, undefined))).toBe('noise.snr');
+    // Too small to score: SSIM needs one whole 11×11 window (Wang et al. 2004), so the matrix is named.
+    expect(await field(runReconstruction({ ...base, matrix: { nx: 10, ny: 32 } }, undefined))).toBe(
+      'matrix.nx',
+    );
     expect(await field(runReconstruction({ ...base, source: { imageId: 'x' } }, undefined))).toBe(
       'source.imageId',
     );

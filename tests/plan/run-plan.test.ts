@@ -179,6 +179,8 @@ describe('plan validation names the field and the allowed range', () => {
     [{ patterns: [{ pattern: 'cartesian-uniform', acs: -1 }] }, 'patterns[0].acs', '≥ 0'],
     [{ target: { metric: 'ssim', atMost: 0.9 } }, 'target.atMost', 'atLeast for ssim'],
     [{ matrix: { nx: 0, ny: 32 } }, 'matrix.nx', '≥ 1'],
+    // SSIM needs one whole 11×11 window (Wang et al. 2004): smaller planes cannot be scored.
+    [{ matrix: { nx: 32, ny: 10 } }, 'matrix.ny', 'ny ≥ 11'],
   ])('%j → %s', (override, field, allowed) => {
     const { problems: list } = problems(body(override));
     expect(list).toContainEqual(expect.objectContaining({ field, allowed }));
