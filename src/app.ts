@@ -65,12 +65,12 @@ declare module 'fastify' {
 }
 
 /**
- * The resource plugins, one per file under routes/. To add a resource, append it here.
- * routes/web.ts (the planner page, owned by the web module) is registered when present.
+ * The /v1 resource plugins, one per file under routes/. They are registered inside one
+ * encapsulated context whose hook requires the API key (src/http/auth.ts), so a route is protected
+ * because of where it is registered, not because of how a client spelt its URL.
+ * To add a /v1 resource, append it here.
  */
-const resourcePlugins: FastifyPluginAsync[] = [
-  healthRoutes,
-  openapiRoutes,
+const apiPlugins: FastifyPluginAsync[] = [
   phantomRoutes,
   imageRoutes,
   maskRoutes,
@@ -78,9 +78,13 @@ const resourcePlugins: FastifyPluginAsync[] = [
   resultRoutes,
   scanTimeRoutes,
   planRoutes,
-  problemRoutes,
-  // one line per resource plugin
+  // one line per /v1 resource plugin
 ];
+/**
+ * Open routes: no patient data, needed by load balancers and browsers before any key is known.
+ * routes/web.ts (the planner page, owned by the web module) is registered when present.
+ */
+const openPlugins: FastifyPluginAsync[] = [healthRoutes, openapiRoutes, problemRoutes];
 const optionalPlugins = [new URL('../routes/web.ts', import.meta.url)];
 
 /** The plan engine (src/plan): cells are expanded and tables built here; runCell runs in the workers. */
@@ -116,7 +120,6 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
   app.setValidatorCompiler(validatorCompiler);
   app.setSerializerCompiler(serializerCompiler);
   installErrorHandling(app);
-  installApiKeyAuth(app, options.apiKeys ?? []);
   app.addHook('onSend', async (request, reply) => {
     reply.header('x-request-id', request.id);
     reply.header('x-content-type-options', 'nosniff');
@@ -147,7 +150,11 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
     await app.register(fastifyMultipart, {
       limits: { fileSize: limits.maxUploadBytes, files: 1, fields: 8, parts: 9, fieldSize: 1024 },
     });
-    for (const plugin of resourcePlugins) await app.register(plugin);
+    for (const plugin of openPlugins) await app.register(plugin);
+    await app.register(async (api) => {
+      installApiKeyAuth(api, options.apiKeys ?? []);
+      for (const plugin of apiPlugins) await api.register(plugin);
+    });
     for (const url of optionalPlugins) {
       if (!existsSync(url)) continue;
       const module = (await import(url.href)) as { default: FastifyPluginAsync };

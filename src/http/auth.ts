@@ -16,15 +16,16 @@ export function presentedKey(request: FastifyRequest): string | undefined {
 }
 
 /**
- * Requires a valid API key on every /v1 request when keys are configured. Keys are compared as
+ * Requires a valid API key on every route of the context it is installed in (src/app.ts installs it
+ * in the one encapsulated context that holds every /v1 route). The hook runs on the route the router
+ * matched, so percent-encoded paths, absolute-form request targets, double slashes or dot segments
+ * cannot reach a /v1 handler without passing it; it never looks at the raw URL. Keys are compared as
  * SHA-256 digests in constant time, so neither length nor content leaks through timing.
  */
 export function installApiKeyAuth(app: FastifyInstance, apiKeys: readonly string[]): void {
   if (apiKeys.length === 0) return;
   const digests = apiKeys.map(digest);
   app.addHook('onRequest', async (request) => {
-    const path = request.url.split('?')[0];
-    if (path !== '/v1' && !path.startsWith('/v1/')) return;
     const key = presentedKey(request);
     const candidate = key === undefined ? undefined : digest(key);
     const valid = candidate !== undefined && digests.some((d) => timingSafeEqual(d, candidate));
