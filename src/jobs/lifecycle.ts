@@ -47,8 +47,16 @@ export class DataLifecycle {
   delete(kind: EntryKind, id: string, scope: Scope = 'all'): boolean {
     if (!this.store.visible(kind, id, scope)) return false;
     this.remove(kind, id);
-    this.store.scrub();
+    this.scrub();
     return true;
+  }
+
+  private scrub(): void {
+    if (!this.store.scrub()) {
+      this.log?.warn(
+        'WAL checkpoint blocked by another reader: deleted pages stay in the WAL until the next one',
+      );
+    }
   }
 
   /** Applies the policy as of `now`; returns what it removed. */
@@ -78,7 +86,7 @@ export class DataLifecycle {
       }
     }
     if (removed.length > 0) {
-      this.store.scrub();
+      this.scrub();
       this.log?.info({ removed: removed.length, bytesBefore, bytesAfter: total }, 'retention cleanup');
     }
     return { removed, bytesBefore, bytesAfter: total };

@@ -179,10 +179,12 @@ export class Store {
 
   /**
    * Moves every page of the WAL into the database and truncates the WAL to zero bytes, so content
-   * deleted (and zeroed by secure_delete) leaves no older copy in the WAL.
+   * deleted (and zeroed by secure_delete) leaves no older copy in the WAL. False when a reader
+   * blocked it (this service holds one connection, so only an outside reader can).
    */
-  scrub(): void {
-    this.db.pragma('wal_checkpoint(TRUNCATE)');
+  scrub(): boolean {
+    const [outcome] = this.db.pragma('wal_checkpoint(TRUNCATE)') as Array<{ busy: number }>;
+    return outcome?.busy === 0;
   }
 
   // --- uploaded images -------------------------------------------------------------------

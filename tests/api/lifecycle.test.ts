@@ -458,4 +458,27 @@ describe('a data folder from the previous version keeps working', () => {
     // Opening again is a no-op migration.
     new Store(dataDir).close();
   });
+
+  it('a result whose upload was deleted while it was computed is refused, not stored', () => {
+    const store = new Store(mkdtempSync(join(tmpdir(), 'kspace-race-')));
+    try {
+      store.putImage('img', { nx: 1, ny: 1, data: new Float64Array([5]) }, {});
+      const inputs = [{ kind: 'image' as const, id: 'img' }];
+      expect(store.putResult('r1', 'reconstruction', {}, { reference: Buffer.from([1]) }, { inputs })).toBe(
+        true,
+      );
+      expect(store.deleteCascade('image', 'img')).toEqual([
+        { kind: 'result', id: 'r1' },
+        { kind: 'image', id: 'img' },
+      ]);
+      expect(store.putResult('r2', 'reconstruction', {}, { reference: Buffer.from([1]) }, { inputs })).toBe(
+        false,
+      );
+      expect(store.getResult('r2')).toBeUndefined();
+      expect(store.getResultImage('r2', 'reference')).toBeUndefined();
+      expect(store.scrub()).toBe(true);
+    } finally {
+      store.close();
+    }
+  });
 });
