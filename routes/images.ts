@@ -85,13 +85,14 @@ function statistics(data: Float64Array): { min: number; max: number; mean: numbe
 }
 
 /**
- * POST /v1/images (multipart, one part named `file`), GET and DELETE /v1/images/{id}.
+ * POST /v1/images (multipart, one part named `file`), GET and DELETE /v1/images/{id} (the deletion
+ * cascades to what was made from the image: src/jobs/lifecycle.ts).
  * Only decoded pixels and whitelisted format facts are stored; the uploaded bytes, the file name
  * and every header string are dropped, so no patient identifier is ever stored, logged or returned.
  */
 export async function imageRoutes(app: FastifyInstance): Promise<void> {
   const r = app.withTypeProvider<ZodTypeProvider>();
-  const { store, limits, pool } = app.services;
+  const { store, limits, pool, lifecycle, tenancy } = app.services;
 
   r.post(
     '/v1/images',
@@ -153,12 +154,17 @@ export async function imageRoutes(app: FastifyInstance): Promise<void> {
         options: { ...choice, maxSide: limits.maxMatrixSide, maxBytes: 4 * limits.maxUploadBytes },
       });
       const id = randomUUID();
-      const stored = store.putImage(id, decoded.image, {
-        format: decoded.format,
-        details: decoded.meta,
-        notes: decoded.notes,
-        stats: statistics(decoded.image.data),
-      });
+      const stored = store.putImage(
+        id,
+        decoded.image,
+        {
+          format: decoded.format,
+          details: decoded.meta,
+          notes: decoded.notes,
+          stats: statistics(decoded.image.data),
+        },
+        tenancy(request).owner,
+      );
       return reply.code(201).header('location', `/v1/images/${id}`).send(infoBody(stored));
     },
   );
@@ -174,7 +180,7 @@ export async function imageRoutes(app: FastifyInstance): Promise<void> {
       },
     },
     async (request) => {
-      const stored = store.getImageInfo(request.params.id);
+      const stored = store.getImageInfo(request.params.id, tenancy(request).scope);
       if (!stored) throw notFound(request.params.id);
       return infoBody(stored);
     },
@@ -184,14 +190,20 @@ export async function imageRoutes(app: FastifyInstance): Promise<void> {
     '/v1/images/:id',
     {
       schema: {
-        summary: 'Delete an uploaded image',
+        summary: 'Delete an uploaded image and everything made from it',
+        description:
+          'Also deletes the reconstructions made from it and the plans using it as their source ' +
+          '(cancelled first when queued or running) with their results; the pixels are overwritten ' +
+          'in the database file and its write-ahead log.',
         tags: ['images'],
         params: idParams,
         response: { 204: z.null().describe('Deleted'), ...problemResponses(401, 404) },
       },
     },
     async (request, reply) => {
-      if (!store.deleteImage(request.params.id)) throw notFound(request.params.id);
+      if (!lifecycle.delete('image', request.params.id, tenancy(request).scope)) {
+        throw notFound(request.params.id);
+      }
       return reply.code(204).send(null);
     },
   );

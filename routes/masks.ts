@@ -31,7 +31,7 @@ const maskResponse = sampledSummarySchema
 
 /** POST /v1/masks: draw a mask, report R, counts and PSF side lobes; Accept: image/png gives the mask itself. */
 export async function maskRoutes(app: FastifyInstance): Promise<void> {
-  const { pool, limits, store } = app.services;
+  const { pool, limits, store, tenancy } = app.services;
   app.withTypeProvider<ZodTypeProvider>().post(
     '/v1/masks',
     {
@@ -55,10 +55,12 @@ export async function maskRoutes(app: FastifyInstance): Promise<void> {
       const { matrix, sampling } = request.body;
       checkMatrixLimit(matrix, limits);
       const wantsPng = preferredType(request, ['application/json', 'image/png']) === 'image/png';
-      // Masks are a pure function of the request, so equal requests share one id and one stored result.
-      const id = contentId('mask', { matrix, sampling });
+      // Masks are a pure function of the request, so equal requests share one id and one stored result
+      // (per tenant under isolation: the owner digest joins the id, undefined otherwise).
+      const { owner, scope } = tenancy(request);
+      const id = contentId('mask', { matrix, sampling, owner: scope === 'all' ? undefined : owner });
       if (!wantsPng) {
-        const stored = store.getResult(id);
+        const stored = store.getResult(id, scope);
         if (stored) return reply.type('application/json').send(stored.body as z.infer<typeof maskResponse>);
       }
       const { sampled, diagnostics } = await pool.runForRequest<{
@@ -80,7 +82,7 @@ export async function maskRoutes(app: FastifyInstance): Promise<void> {
         psf: psfSummary(psf),
         images: { mask: resultImageUrl(id, 'mask'), psf: resultImageUrl(id, 'psf') },
       };
-      store.putResult(id, 'mask', body, { mask, psf: await greyPng(psf.psf, { scale: 'log' }) });
+      store.putResult(id, 'mask', body, { mask, psf: await greyPng(psf.psf, { scale: 'log' }) }, { owner });
       return reply.type('application/json').send(body);
     },
   );

@@ -68,6 +68,13 @@ const planStatusSchema = z
 
 type PlanStatusBody = z.infer<typeof planStatusSchema>;
 
+const purgeQuery = z.object({
+  purge: z
+    .enum(['true', 'false'])
+    .optional()
+    .describe('true: delete the plan and its results instead of cancelling it'),
+});
+
 function links(id: string) {
   return { self: `/v1/plans/${id}`, events: `/v1/plans/${id}/events`, csv: `/v1/plans/${id}/table.csv` };
 }
@@ -76,10 +83,13 @@ function notFound(id: string): HttpProblem {
   return new HttpProblem(404, `no plan ${id}`, [{ field: 'id', message: 'unknown plan id' }]);
 }
 
-/** Plans as jobs: POST (202 at once), GET status/table, GET table.csv, GET events (SSE), DELETE (cancel). */
+/**
+ * Plans as jobs: POST (202 at once), GET status/table, GET table.csv, GET events (SSE), DELETE (cancel;
+ * with ?purge=true, removal).
+ */
 export async function planRoutes(app: FastifyInstance): Promise<void> {
   const r = app.withTypeProvider<ZodTypeProvider>();
-  const { plans, store, limits, pool } = app.services;
+  const { plans, store, limits, pool, lifecycle, tenancy } = app.services;
   // Open event streams are ended before the server closes, or close would wait for them.
   const streams = new Set<() => void>();
   app.addHook('preClose', async () => {
@@ -128,12 +138,15 @@ export async function planRoutes(app: FastifyInstance): Promise<void> {
       plans.checkCapacity();
       const plan = await pool.runForRequest<Plan>({ kind: 'validate-plan', body: request.body, limits });
       const source = plan.source as { imageId?: string };
-      if (source.imageId !== undefined && !store.getImageInfo(source.imageId)) {
+      const { owner, scope } = tenancy(request);
+      if (source.imageId !== undefined && !store.getImageInfo(source.imageId, scope)) {
         throw new HttpProblem(404, `no uploaded image ${source.imageId}`, [
           { field: 'source.imageId', message: 'unknown image id' },
         ]);
       }
-      const stored = plans.submit(plan);
+      // The link to the upload lets deleting the upload delete this plan too.
+      const inputs = source.imageId === undefined ? [] : [{ kind: 'image' as const, id: source.imageId }];
+      const stored = plans.submit(plan, { owner, inputs });
       return reply.code(202).header('location', `/v1/plans/${stored.id}`).send(statusBody(stored));
     },
   );
@@ -149,7 +162,7 @@ export async function planRoutes(app: FastifyInstance): Promise<void> {
       },
     },
     async (request) => {
-      const stored = store.getPlan(request.params.id);
+      const stored = store.getPlan(request.params.id, tenancy(request).scope);
       if (!stored) throw notFound(request.params.id);
       return statusBody(stored);
     },
@@ -169,7 +182,7 @@ export async function planRoutes(app: FastifyInstance): Promise<void> {
       },
     },
     async (request, reply) => {
-      const stored = store.getPlan(request.params.id);
+      const stored = store.getPlan(request.params.id, tenancy(request).scope);
       if (!stored) throw notFound(request.params.id);
       if (stored.status !== 'done' || !stored.table) {
         throw new HttpProblem(
@@ -203,7 +216,7 @@ export async function planRoutes(app: FastifyInstance): Promise<void> {
       },
     },
     async (request, reply) => {
-      const stored = store.getPlan(request.params.id);
+      const stored = store.getPlan(request.params.id, tenancy(request).scope);
       if (!stored) throw notFound(request.params.id);
       streamEvents(reply, stored.id);
     },
@@ -213,14 +226,27 @@ export async function planRoutes(app: FastifyInstance): Promise<void> {
     '/v1/plans/:id',
     {
       schema: {
-        summary: 'Cancel a queued or running plan (finished cells are kept)',
+        summary: 'Cancel a queued or running plan (finished cells are kept), or purge a plan',
+        description:
+          'Without `purge`: cancels (200 with the status; 409 once finished). With `purge=true`: removes ' +
+          'the plan, its cells and its table whatever its status, cancelling it first if it runs (204).',
         tags: ['plans'],
         params: idParams,
-        response: { 200: jsonResponse('Cancelled', planStatusSchema), ...problemResponses(401, 404, 409) },
+        querystring: purgeQuery,
+        response: {
+          200: jsonResponse('Cancelled', planStatusSchema),
+          204: z.null().describe('Purged'),
+          ...problemResponses(401, 404, 409),
+        },
       },
     },
-    async (request) => {
-      const stored = store.getPlan(request.params.id);
+    async (request, reply) => {
+      const { scope } = tenancy(request);
+      if (request.query.purge === 'true') {
+        if (!lifecycle.delete('plan', request.params.id, scope)) throw notFound(request.params.id);
+        return reply.code(204).send(null);
+      }
+      const stored = store.getPlan(request.params.id, scope);
       if (!stored) throw notFound(request.params.id);
       if (!plans.cancel(stored.id)) {
         throw new HttpProblem(409, `plan ${stored.id} is already ${stored.status}`, [

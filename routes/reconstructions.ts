@@ -74,10 +74,16 @@ function maxOf(image: RealImage): number {
   return max;
 }
 
+function unknownImage(id: string): HttpProblem {
+  return new HttpProblem(404, `no uploaded image ${id}`, [
+    { field: 'source.imageId', message: 'unknown image id' },
+  ]);
+}
+
 /** POST /v1/reconstructions (runs on the worker pool) and GET /v1/reconstructions/{id}. */
 export async function reconstructionRoutes(app: FastifyInstance): Promise<void> {
   const r = app.withTypeProvider<ZodTypeProvider>();
-  const { pool, limits, store } = app.services;
+  const { pool, limits, store, tenancy } = app.services;
 
   r.post(
     '/v1/reconstructions',
@@ -96,15 +102,12 @@ export async function reconstructionRoutes(app: FastifyInstance): Promise<void> 
       const { seed, ...pipelineRequest } = request.body;
       checkMatrixLimit(pipelineRequest.matrix, limits);
       checkIterationLimit(pipelineRequest.method, limits);
+      const { owner, scope } = tenancy(request);
       let image: UploadedPixels | undefined;
       if ('imageId' in pipelineRequest.source) {
         const id = pipelineRequest.source.imageId;
-        const pixels = store.getImagePixels(id);
-        if (!pixels) {
-          throw new HttpProblem(404, `no uploaded image ${id}`, [
-            { field: 'source.imageId', message: 'unknown image id' },
-          ]);
-        }
+        const pixels = store.getImagePixels(id, scope);
+        if (!pixels) throw unknownImage(id);
         image = { id, image: pixels };
       }
       const { outcome, diagnostics } = await pool.runForRequest<{
@@ -151,7 +154,10 @@ export async function reconstructionRoutes(app: FastifyInstance): Promise<void> 
         images: urls,
         createdAt: new Date().toISOString(),
       };
-      store.putResult(id, 'reconstruction', body, pngs);
+      // Linked to its upload, so deleting the upload deletes it; refused if the upload went meanwhile.
+      const inputs = image ? [{ kind: 'image' as const, id: image.id }] : [];
+      if (!store.putResult(id, 'reconstruction', body, pngs, { owner, inputs }))
+        throw unknownImage(image!.id);
       return reply.code(201).header('location', `/v1/reconstructions/${id}`).send(body);
     },
   );
@@ -170,7 +176,7 @@ export async function reconstructionRoutes(app: FastifyInstance): Promise<void> 
       },
     },
     async (request) => {
-      const stored = store.getResult(request.params.id);
+      const stored = store.getResult(request.params.id, tenancy(request).scope);
       if (stored?.kind !== 'reconstruction') {
         throw new HttpProblem(404, `no reconstruction ${request.params.id}`, [
           { field: 'id', message: 'unknown id' },

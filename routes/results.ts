@@ -3,6 +3,7 @@ import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
 import { HttpProblem, problemResponses } from '../src/http/problem.ts';
 import { resultImageNames } from '../src/http/result-images.ts';
+import { idParams } from '../src/http/schemas.ts';
 
 const names = Object.values(resultImageNames);
 
@@ -15,13 +16,37 @@ const imageParams = z.object({
     .describe(`One of ${names.join(', ')}`),
 });
 
+function notFound(id: string): HttpProblem {
+  return new HttpProblem(404, `no result ${id}`, [{ field: 'id', message: 'unknown result id' }]);
+}
+
 /**
  * GET /v1/results/{id}/{image}.png: images stored with a result (SQLite, so they survive restarts).
- * Reconstructions have all six; masks have mask and psf.
+ * Reconstructions have all six; masks have mask and psf. DELETE /v1/results/{id} removes a result.
  */
 export async function resultRoutes(app: FastifyInstance): Promise<void> {
-  const { store } = app.services;
-  app.withTypeProvider<ZodTypeProvider>().get(
+  const { store, lifecycle, tenancy } = app.services;
+  const r = app.withTypeProvider<ZodTypeProvider>();
+
+  r.delete(
+    '/v1/results/:id',
+    {
+      schema: {
+        summary: 'Delete a result (a reconstruction or a mask) with its images',
+        tags: ['results'],
+        params: idParams,
+        response: { 204: z.null().describe('Deleted'), ...problemResponses(401, 404) },
+      },
+    },
+    async (request, reply) => {
+      if (!lifecycle.delete('result', request.params.id, tenancy(request).scope)) {
+        throw notFound(request.params.id);
+      }
+      return reply.code(204).send(null);
+    },
+  );
+
+  r.get(
     '/v1/results/:id/:image.png',
     {
       schema: {
@@ -42,13 +67,12 @@ export async function resultRoutes(app: FastifyInstance): Promise<void> {
     },
     async (request, reply) => {
       const { id, image } = request.params;
-      const png = names.includes(image as never) ? store.getResultImage(id, image) : undefined;
+      const { scope } = tenancy(request);
+      const png = names.includes(image as never) ? store.getResultImage(id, image, scope) : undefined;
       if (!png) {
-        const known = store.getResult(id) !== undefined;
-        throw new HttpProblem(404, known ? `result ${id} has no image ${image}` : `no result ${id}`, [
-          known
-            ? { field: 'image', message: 'unknown image', allowed: names.join(', ') }
-            : { field: 'id', message: 'unknown result id' },
+        if (store.getResult(id, scope) === undefined) throw notFound(id);
+        throw new HttpProblem(404, `result ${id} has no image ${image}`, [
+          { field: 'image', message: 'unknown image', allowed: names.join(', ') },
         ]);
       }
       // A Buffer is sent as is; the schema's string type documents the binary body.

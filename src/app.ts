@@ -5,7 +5,12 @@ import type { Writable } from 'node:stream';
 import fastifyMultipart from '@fastify/multipart';
 import fastifySwagger from '@fastify/swagger';
 import fastifySwaggerUi from '@fastify/swagger-ui';
-import Fastify, { type FastifyInstance, type FastifyPluginAsync, type RouteOptions } from 'fastify';
+import Fastify, {
+  type FastifyInstance,
+  type FastifyPluginAsync,
+  type FastifyRequest,
+  type RouteOptions,
+} from 'fastify';
 import { serializerCompiler, validatorCompiler } from 'fastify-type-provider-zod';
 import { healthRoutes } from '../routes/health.ts';
 import { imageRoutes } from '../routes/images.ts';
@@ -21,6 +26,8 @@ import { defaultLimits, type Limits } from './core/limits.ts';
 import { installApiKeyAuth } from './http/auth.ts';
 import { installErrorHandling } from './http/error-handler.ts';
 import { swaggerOptions } from './http/openapi.ts';
+import { type Tenancy, tenancyOf } from './http/tenant.ts';
+import { DataLifecycle, defaultRetention, type RetentionPolicy } from './jobs/lifecycle.ts';
 import { type PlanEngine, PlanQueue } from './jobs/plan-queue.ts';
 import { Store } from './jobs/store.ts';
 import { WorkerPool } from './jobs/worker-pool.ts';
@@ -47,12 +54,20 @@ export interface AppOptions {
   maxJsonBytes?: number;
   /** Plan engine override (tests); default src/plan. */
   planEngine?: PlanEngine;
+  /** Retention limits and cleanup interval (src/jobs/lifecycle.ts); defaults 7 days, 2 GiB, 10 minutes. */
+  retention?: Partial<RetentionPolicy>;
+  /** Each API key sees and deletes only what it created (needs apiKeys). */
+  tenantIsolation?: boolean;
 }
 
 export interface Services {
   store: Store;
   pool: WorkerPool;
   plans: PlanQueue;
+  /** Deletion cascades and the retention policy. */
+  lifecycle: DataLifecycle;
+  /** The caller's owner digest and what it may see (tenant isolation). */
+  tenancy: (request: FastifyRequest) => Tenancy;
   limits: Limits;
   /** Every route registered, for the spec-vs-routes test. */
   routes: Array<{ method: string; url: string; hidden: boolean }>;
@@ -95,6 +110,10 @@ const defaultPlanEngine: PlanEngine = {
 
 /** Builds the fastify instance; used by main.ts and by the API tests (isolated on temp dirs). */
 export async function buildApp(options: AppOptions = {}): Promise<FastifyInstance> {
+  const isolation = options.tenantIsolation ?? false;
+  if (isolation && (options.apiKeys ?? []).length === 0) {
+    throw new Error('tenant isolation needs API keys: each key is a tenant');
+  }
   const limits: Limits = { ...defaultLimits, ...options.limits };
   const logger =
     options.logger === undefined || options.logger === false
@@ -137,8 +156,16 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
   const pool = new WorkerPool(workers, options.maxRequestTasks ?? 8 * workers);
   const engine = options.planEngine ?? defaultPlanEngine;
   const plans = new PlanQueue(store, pool, engine, limits, options.maxQueuedPlans ?? 16, app.log as never);
-  app.decorate('services', { store, pool, plans, limits, routes });
+  const lifecycle = new DataLifecycle(
+    store,
+    plans,
+    { ...defaultRetention, ...options.retention },
+    app.log as never,
+  );
+  const tenancy = (request: FastifyRequest) => tenancyOf(request, isolation);
+  app.decorate('services', { store, pool, plans, lifecycle, tenancy, limits, routes });
   app.addHook('onClose', async () => {
+    lifecycle.stop();
     await plans.close();
     await pool.destroy();
     store.close();
@@ -168,5 +195,6 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
     throw error;
   }
   plans.resume();
+  lifecycle.start();
   return app;
 }

@@ -21,6 +21,8 @@ const app = await buildApp({
   maxQueuedPlans: config.maxQueuedPlans,
   maxJsonBytes: config.maxJsonBytes,
   maxRequestTasks: config.maxRequestTasks,
+  retention: config.retention,
+  tenantIsolation: config.tenantIsolation,
 });
 
 // Finish the request in flight and leave queued/running plans in the store to resume on restart.

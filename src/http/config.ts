@@ -19,6 +19,10 @@ export interface ServiceConfig {
   /** Largest JSON request body in bytes (a custom mask PNG travels base64 inside JSON). */
   maxJsonBytes: number;
   logLevel: string;
+  /** Retention: age and total-size limits (0 disables each) and how often the cleanup runs. */
+  retention: { maxAgeHours: number; maxBytes: number; intervalMs: number };
+  /** Each API key sees and deletes only what it created. */
+  tenantIsolation: boolean;
 }
 
 export class ConfigError extends Error {
@@ -42,6 +46,13 @@ function integer(env: NodeJS.ProcessEnv, name: string, fallback: number, min: nu
   return value;
 }
 
+function flag(env: NodeJS.ProcessEnv, name: string): boolean {
+  const raw = env[name]?.trim().toLowerCase();
+  if (raw === undefined || raw === '' || raw === 'false' || raw === '0') return false;
+  if (raw === 'true' || raw === '1') return true;
+  throw new ConfigError(`${name} must be true or false, got "${env[name]}"`);
+}
+
 /** Reads the configuration from environment variables (documented in README.md). */
 export function loadConfig(env: NodeJS.ProcessEnv = process.env): ServiceConfig {
   const host = env.HOST?.trim() || '127.0.0.1';
@@ -53,6 +64,10 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): ServiceConfig 
     throw new ConfigError(
       `HOST=${host} is reachable from other machines: set API_KEYS (comma-separated) so every /v1 request needs a key`,
     );
+  }
+  const tenantIsolation = flag(env, 'TENANT_ISOLATION');
+  if (tenantIsolation && apiKeys.length === 0) {
+    throw new ConfigError('TENANT_ISOLATION=true needs API_KEYS: each key is a tenant');
   }
   const workers = integer(env, 'WORKERS', availableParallelism(), 1, 256);
   return {
@@ -71,5 +86,11 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): ServiceConfig 
     maxRequestTasks: integer(env, 'MAX_REQUEST_TASKS', 8 * workers, 1, 100_000),
     maxJsonBytes: integer(env, 'MAX_JSON_BYTES', 8 * 1024 * 1024, 1024, 2 ** 30),
     logLevel: env.LOG_LEVEL?.trim() || 'info',
+    retention: {
+      maxAgeHours: integer(env, 'RETENTION_MAX_AGE_HOURS', 168, 0, 1_000_000),
+      maxBytes: integer(env, 'RETENTION_MAX_BYTES', 2 * 1024 ** 3, 0, Number.MAX_SAFE_INTEGER),
+      intervalMs: 1000 * integer(env, 'RETENTION_INTERVAL_SECONDS', 600, 1, 86_400),
+    },
+    tenantIsolation,
   };
 }

@@ -4,7 +4,7 @@ import type { Logger } from 'pino';
 import { CancelledError, LimitError, ValidationError } from '../core/errors.ts';
 import type { Limits } from '../core/limits.ts';
 import type { RealImage } from '../core/real-image.ts';
-import type { PlanStatus, Store, StoredPlan } from './store.ts';
+import type { InputRef, PlanStatus, Store, StoredPlan } from './store.ts';
 import type { WorkerPool } from './worker-pool.ts';
 
 /** The plan engine as the queue needs it (src/plan: planCells, buildTable; runCell runs in the workers). */
@@ -78,12 +78,12 @@ export class PlanQueue extends EventEmitter {
   }
 
   /** Queues a validated plan; throws LimitError for oversized plans, QueueFullError when full. */
-  submit(body: unknown): StoredPlan {
+  submit(body: unknown, provenance: { owner?: string | null; inputs?: InputRef[] } = {}): StoredPlan {
     if (this.closed) throw new CancelledError();
     const total = this.engine.cells(body, this.limits).length;
     this.checkCapacity();
     const id = randomUUID();
-    const stored = this.store.createPlan(id, body, total);
+    const stored = this.store.createPlan(id, body, total, provenance);
     this.active.push(this.activePlan(id, body, total, 0));
     this.pump();
     return stored;

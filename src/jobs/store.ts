@@ -52,7 +52,74 @@ CREATE TABLE IF NOT EXISTS plans (
   done INTEGER NOT NULL, table_json TEXT, error TEXT);
 CREATE TABLE IF NOT EXISTS plan_cells (
   plan_id TEXT NOT NULL, idx INTEGER NOT NULL, result TEXT NOT NULL, PRIMARY KEY (plan_id, idx));
+CREATE TABLE IF NOT EXISTS input_links (
+  holder_kind TEXT NOT NULL, holder_id TEXT NOT NULL, input_kind TEXT NOT NULL, input_id TEXT NOT NULL,
+  PRIMARY KEY (holder_kind, holder_id, input_kind, input_id));
+CREATE INDEX IF NOT EXISTS input_links_by_input ON input_links (input_kind, input_id);
 `;
+
+/** Columns added after the first release; older databases get them through ALTER TABLE on open. */
+const addedColumns: Array<{ table: string; column: string; type: string }> = [
+  { table: 'images', column: 'owner', type: 'TEXT' },
+  { table: 'results', column: 'owner', type: 'TEXT' },
+  { table: 'plans', column: 'owner', type: 'TEXT' },
+];
+
+interface InputKindSpec {
+  /** Table with columns id, created_at, owner. */
+  table: string;
+  /** SQL expression for the bytes one row keeps. */
+  bytesSql: string;
+}
+
+/**
+ * Every kind of stored input a user sends (uploaded pixels today; raw k-space files or coil maps
+ * tomorrow). Its table has id, created_at and owner columns; results and plans made from one list it
+ * in input_links. Deleting an input then deletes every result and plan linked to it, and retention
+ * ages it like everything else while sparing inputs a queued or running plan links to. A new kind is
+ * one entry here plus the links written when a result or plan uses it.
+ */
+export const inputKinds = {
+  image: { table: 'images', bytesSql: 'length(meta) + length(pixels)' },
+} as const satisfies Record<string, InputKindSpec>;
+
+export type InputKind = keyof typeof inputKinds;
+
+/** Things that hold derived data: single results and plans. */
+export type HolderKind = 'result' | 'plan';
+
+/** Anything retention and deletion act on. */
+export type EntryKind = InputKind | HolderKind;
+
+export interface InputRef {
+  kind: InputKind;
+  id: string;
+}
+
+/**
+ * Which rows a caller may see: all of them, or (tenant isolation) only those of one owner, the
+ * SHA-256 digest of the caller's API key.
+ */
+export type Scope = 'all' | { owner: string };
+
+/** One stored entry as retention sees it. */
+export interface StoredEntry {
+  kind: EntryKind;
+  id: string;
+  createdAt: string;
+  bytes: number;
+  /** A queued or running plan, or an input such a plan reads: never removed by retention. */
+  pinned: boolean;
+}
+
+function scopeParams(scope: Scope): { everyone: number; owner: string | null } {
+  return scope === 'all' ? { everyone: 1, owner: null } : { everyone: 0, owner: scope.owner };
+}
+
+/** SQL condition matching the rows a scope may see (named parameters @everyone, @owner). */
+const visible = '(@everyone = 1 OR owner = @owner)';
+
+const activePlanStatuses = `('queued', 'running')`;
 
 function planFromRow(row: PlanRow): StoredPlan {
   return {
@@ -68,7 +135,11 @@ function planFromRow(row: PlanRow): StoredPlan {
   };
 }
 
-/** All persistent state of the service: one SQLite file, `service.sqlite`, under the data directory. */
+/**
+ * All persistent state of the service: one SQLite file, `service.sqlite`, under the data directory.
+ * Deleted rows are overwritten with zeros (secure_delete) and every deletion ends with a truncating
+ * WAL checkpoint (`scrub`), so removed pixels leave neither the database file nor its WAL.
+ */
 export class Store {
   readonly path: string;
   private readonly db: Database.Database;
@@ -79,7 +150,23 @@ export class Store {
     this.db = new Database(this.path);
     this.db.pragma('journal_mode = WAL');
     this.db.pragma('synchronous = NORMAL');
+    this.db.pragma('secure_delete = ON');
     this.db.exec(schemaSql);
+    this.migrate();
+  }
+
+  /** Brings a database written by an earlier version up to the current schema. */
+  private migrate(): void {
+    for (const { table, column, type } of addedColumns) {
+      const columns = this.db.pragma(`table_info(${table})`) as Array<{ name: string }>;
+      if (!columns.some((c) => c.name === column)) {
+        this.db.exec(`ALTER TABLE ${table} ADD COLUMN ${column} ${type}`);
+      }
+    }
+    // Plans stored before input_links existed name their upload in the body.
+    this.db.exec(`INSERT OR IGNORE INTO input_links (holder_kind, holder_id, input_kind, input_id)
+      SELECT 'plan', id, 'image', json_extract(body, '$.source.imageId') FROM plans
+      WHERE json_valid(body) AND json_type(body, '$.source.imageId') = 'text'`);
   }
 
   close(): void {
@@ -90,19 +177,38 @@ export class Store {
     return this.db.open;
   }
 
+  /**
+   * Moves every page of the WAL into the database and truncates the WAL to zero bytes, so content
+   * deleted (and zeroed by secure_delete) leaves no older copy in the WAL. False when a reader
+   * blocked it (this service holds one connection, so only an outside reader can).
+   */
+  scrub(): boolean {
+    const [outcome] = this.db.pragma('wal_checkpoint(TRUNCATE)') as Array<{ busy: number }>;
+    return outcome?.busy === 0;
+  }
+
   // --- uploaded images -------------------------------------------------------------------
 
-  putImage(id: string, image: RealImage, meta: Record<string, unknown>): StoredImage {
+  putImage(
+    id: string,
+    image: RealImage,
+    meta: Record<string, unknown>,
+    owner: string | null = null,
+  ): StoredImage {
     const createdAt = new Date().toISOString();
     const pixels = Buffer.from(image.data.buffer, image.data.byteOffset, image.data.byteLength);
     this.db
-      .prepare('INSERT INTO images (id, created_at, meta, nx, ny, pixels) VALUES (?, ?, ?, ?, ?, ?)')
-      .run(id, createdAt, JSON.stringify(meta), image.nx, image.ny, pixels);
+      .prepare(
+        'INSERT INTO images (id, created_at, meta, nx, ny, pixels, owner) VALUES (?, ?, ?, ?, ?, ?, ?)',
+      )
+      .run(id, createdAt, JSON.stringify(meta), image.nx, image.ny, pixels, owner);
     return { id, createdAt, meta, nx: image.nx, ny: image.ny };
   }
 
-  getImageInfo(id: string): StoredImage | undefined {
-    const row = this.db.prepare('SELECT id, created_at, meta, nx, ny FROM images WHERE id = ?').get(id) as
+  getImageInfo(id: string, scope: Scope = 'all'): StoredImage | undefined {
+    const row = this.db
+      .prepare(`SELECT id, created_at, meta, nx, ny FROM images WHERE id = @id AND ${visible}`)
+      .get({ id, ...scopeParams(scope) }) as
       | { id: string; created_at: string; meta: string; nx: number; ny: number }
       | undefined;
     return (
@@ -110,10 +216,10 @@ export class Store {
     );
   }
 
-  getImagePixels(id: string): RealImage | undefined {
-    const row = this.db.prepare('SELECT nx, ny, pixels FROM images WHERE id = ?').get(id) as
-      | { nx: number; ny: number; pixels: Buffer }
-      | undefined;
+  getImagePixels(id: string, scope: Scope = 'all'): RealImage | undefined {
+    const row = this.db
+      .prepare(`SELECT nx, ny, pixels FROM images WHERE id = @id AND ${visible}`)
+      .get({ id, ...scopeParams(scope) }) as { nx: number; ny: number; pixels: Buffer } | undefined;
     if (!row) return undefined;
     // Copy into a fresh, aligned buffer: SQLite blobs need not be 8-byte aligned.
     const data = new Float64Array(row.nx * row.ny);
@@ -121,54 +227,81 @@ export class Store {
     return { nx: row.nx, ny: row.ny, data };
   }
 
-  deleteImage(id: string): boolean {
-    return this.db.prepare('DELETE FROM images WHERE id = ?').run(id).changes > 0;
-  }
-
   // --- single results (reconstructions, masks) ---------------------------------------------
 
-  putResult(id: string, kind: string, body: unknown, images: Record<string, Buffer>): void {
+  /**
+   * Stores a result with the inputs it was made from. Returns false (and stores nothing) when one
+   * of those inputs has been deleted meanwhile: a result must not outlive what it was derived from.
+   */
+  putResult(
+    id: string,
+    kind: string,
+    body: unknown,
+    images: Record<string, Buffer>,
+    provenance: { owner?: string | null; inputs?: InputRef[] } = {},
+  ): boolean {
     const createdAt = new Date().toISOString();
+    const inputs = provenance.inputs ?? [];
     // OR IGNORE: content-addressed results (equal requests, equal ids) may be stored twice by racing requests.
     const insertImage = this.db.prepare(
       'INSERT OR IGNORE INTO result_images (result_id, name, png) VALUES (?, ?, ?)',
     );
-    this.db.transaction(() => {
+    return this.db.transaction(() => {
+      if (!inputs.every((input) => this.inputExists(input))) return false;
       this.db
-        .prepare('INSERT OR IGNORE INTO results (id, created_at, kind, body) VALUES (?, ?, ?, ?)')
-        .run(id, createdAt, kind, JSON.stringify(body));
+        .prepare('INSERT OR IGNORE INTO results (id, created_at, kind, body, owner) VALUES (?, ?, ?, ?, ?)')
+        .run(id, createdAt, kind, JSON.stringify(body), provenance.owner ?? null);
       for (const [name, png] of Object.entries(images)) insertImage.run(id, name, png);
+      this.link('result', id, inputs);
+      return true;
     })();
   }
 
-  getResult(id: string): { kind: string; body: unknown; createdAt: string } | undefined {
-    const row = this.db.prepare('SELECT kind, body, created_at FROM results WHERE id = ?').get(id) as
-      | { kind: string; body: string; created_at: string }
-      | undefined;
+  getResult(
+    id: string,
+    scope: Scope = 'all',
+  ): { kind: string; body: unknown; createdAt: string } | undefined {
+    const row = this.db
+      .prepare(`SELECT kind, body, created_at FROM results WHERE id = @id AND ${visible}`)
+      .get({ id, ...scopeParams(scope) }) as { kind: string; body: string; created_at: string } | undefined;
     return row && { kind: row.kind, body: JSON.parse(row.body), createdAt: row.created_at };
   }
 
-  getResultImage(id: string, name: string): Buffer | undefined {
+  getResultImage(id: string, name: string, scope: Scope = 'all'): Buffer | undefined {
     const row = this.db
-      .prepare('SELECT png FROM result_images WHERE result_id = ? AND name = ?')
-      .get(id, name) as { png: Buffer } | undefined;
+      .prepare(
+        `SELECT png FROM result_images WHERE result_id = @id AND name = @name
+         AND EXISTS (SELECT 1 FROM results WHERE results.id = @id AND ${visible})`,
+      )
+      .get({ id, name, ...scopeParams(scope) }) as { png: Buffer } | undefined;
     return row?.png;
   }
 
   // --- plans ---------------------------------------------------------------------------------
 
-  createPlan(id: string, body: unknown, total: number): StoredPlan {
+  createPlan(
+    id: string,
+    body: unknown,
+    total: number,
+    provenance: { owner?: string | null; inputs?: InputRef[] } = {},
+  ): StoredPlan {
     const now = new Date().toISOString();
-    this.db
-      .prepare(
-        `INSERT INTO plans (id, created_at, updated_at, status, body, total, done) VALUES (?, ?, ?, 'queued', ?, ?, 0)`,
-      )
-      .run(id, now, now, JSON.stringify(body), total);
+    this.db.transaction(() => {
+      this.db
+        .prepare(
+          `INSERT INTO plans (id, created_at, updated_at, status, body, total, done, owner)
+           VALUES (?, ?, ?, 'queued', ?, ?, 0, ?)`,
+        )
+        .run(id, now, now, JSON.stringify(body), total, provenance.owner ?? null);
+      this.link('plan', id, provenance.inputs ?? []);
+    })();
     return this.getPlan(id)!;
   }
 
-  getPlan(id: string): StoredPlan | undefined {
-    const row = this.db.prepare('SELECT * FROM plans WHERE id = ?').get(id) as PlanRow | undefined;
+  getPlan(id: string, scope: Scope = 'all'): StoredPlan | undefined {
+    const row = this.db
+      .prepare(`SELECT * FROM plans WHERE id = @id AND ${visible}`)
+      .get({ id, ...scopeParams(scope) }) as PlanRow | undefined;
     return row && planFromRow(row);
   }
 
@@ -219,4 +352,110 @@ export class Store {
     }>;
     return new Map(rows.map((row) => [row.idx, JSON.parse(row.result)]));
   }
+  // --- deletion and retention ------------------------------------------------------------------
+
+  inputExists(input: InputRef): boolean {
+    const { table } = inputKinds[input.kind];
+    return this.db.prepare(`SELECT 1 FROM ${table} WHERE id = ?`).get(input.id) !== undefined;
+  }
+
+  private link(holderKind: HolderKind, holderId: string, inputs: InputRef[]): void {
+    const insert = this.db.prepare(
+      'INSERT OR IGNORE INTO input_links (holder_kind, holder_id, input_kind, input_id) VALUES (?, ?, ?, ?)',
+    );
+    for (const input of inputs) insert.run(holderKind, holderId, input.kind, input.id);
+  }
+
+  /** Whether an entry exists and the scope may see it. */
+  visible(kind: EntryKind, id: string, scope: Scope): boolean {
+    return (
+      this.db
+        .prepare(`SELECT 1 FROM ${tableOf(kind)} WHERE id = @id AND ${visible}`)
+        .get({ id, ...scopeParams(scope) }) !== undefined
+    );
+  }
+
+  /** Plans and results made from an input (through input_links). */
+  holdersOf(input: InputRef): Array<{ kind: HolderKind; id: string }> {
+    return (
+      this.db
+        .prepare(
+          'SELECT holder_kind AS kind, holder_id AS id FROM input_links WHERE input_kind = ? AND input_id = ?',
+        )
+        .all(input.kind, input.id) as Array<{ kind: HolderKind; id: string }>
+    ).filter((holder) =>
+      this.db.prepare(`SELECT 1 FROM ${tableOf(holder.kind)} WHERE id = ?`).get(holder.id),
+    );
+  }
+
+  /**
+   * Deletes an entry and, for an input, every result and plan linked to it, in one transaction.
+   * Returns every entry removed (empty when the id was unknown). Callers cancel running plans
+   * first and call `scrub` afterwards (see DataLifecycle).
+   */
+  deleteCascade(kind: EntryKind, id: string): Array<{ kind: EntryKind; id: string }> {
+    return this.db.transaction(() => {
+      if (!this.db.prepare(`SELECT 1 FROM ${tableOf(kind)} WHERE id = ?`).get(id)) return [];
+      const removed: Array<{ kind: EntryKind; id: string }> = [];
+      if (kind !== 'result' && kind !== 'plan') {
+        for (const holder of this.holdersOf({ kind, id })) {
+          this.deleteHolder(holder.kind, holder.id);
+          removed.push(holder);
+        }
+        this.db.prepare(`DELETE FROM ${inputKinds[kind].table} WHERE id = ?`).run(id);
+        this.db.prepare('DELETE FROM input_links WHERE input_kind = ? AND input_id = ?').run(kind, id);
+      } else {
+        this.deleteHolder(kind, id);
+      }
+      removed.push({ kind, id });
+      return removed;
+    })();
+  }
+
+  private deleteHolder(kind: HolderKind, id: string): void {
+    if (kind === 'result') {
+      this.db.prepare('DELETE FROM result_images WHERE result_id = ?').run(id);
+      this.db.prepare('DELETE FROM results WHERE id = ?').run(id);
+    } else {
+      this.db.prepare('DELETE FROM plan_cells WHERE plan_id = ?').run(id);
+      this.db.prepare('DELETE FROM plans WHERE id = ?').run(id);
+    }
+    this.db.prepare('DELETE FROM input_links WHERE holder_kind = ? AND holder_id = ?').run(kind, id);
+  }
+
+  /** Every stored entry with its size, oldest first (ties: inputs before what was made from them). */
+  inventory(): StoredEntry[] {
+    const pinnedInput = (kind: InputKind, table: string) =>
+      `EXISTS (SELECT 1 FROM input_links l JOIN plans p ON p.id = l.holder_id
+        WHERE l.holder_kind = 'plan' AND l.input_kind = '${kind}' AND l.input_id = ${table}.id
+        AND p.status IN ${activePlanStatuses})`;
+    const inputs = (Object.entries(inputKinds) as Array<[InputKind, InputKindSpec]>).map(
+      ([kind, spec]) =>
+        `SELECT '${kind}' AS kind, id, created_at, ${spec.bytesSql} AS bytes,
+          ${pinnedInput(kind, spec.table)} AS pinned, 0 AS rank FROM ${spec.table}`,
+    );
+    const results = `SELECT 'result', id, created_at,
+      length(body) + COALESCE((SELECT SUM(length(png)) FROM result_images WHERE result_id = results.id), 0),
+      0, 1 FROM results`;
+    const plans = `SELECT 'plan', id, created_at,
+      length(body) + COALESCE(length(table_json), 0) + COALESCE(length(error), 0)
+        + COALESCE((SELECT SUM(length(result)) FROM plan_cells WHERE plan_id = plans.id), 0),
+      status IN ${activePlanStatuses}, 1 FROM plans`;
+    const rows = this.db
+      .prepare(`${[...inputs, results, plans].join(' UNION ALL ')} ORDER BY created_at, rank, id`)
+      .all() as Array<{ kind: EntryKind; id: string; created_at: string; bytes: number; pinned: number }>;
+    return rows.map((row) => ({
+      kind: row.kind,
+      id: row.id,
+      createdAt: row.created_at,
+      bytes: row.bytes,
+      pinned: row.pinned === 1,
+    }));
+  }
+}
+
+function tableOf(kind: EntryKind): string {
+  if (kind === 'result') return 'results';
+  if (kind === 'plan') return 'plans';
+  return inputKinds[kind].table;
 }

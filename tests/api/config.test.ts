@@ -47,4 +47,27 @@ describe('configuration from the environment (issue contract: PORT 8080, HOST 12
     expect(() => loadConfig({ PORT: 'eighty' })).toThrow(/PORT/);
     expect(() => loadConfig({ MAX_MATRIX_SIDE: '-4' })).toThrow(/MAX_MATRIX_SIDE/);
   });
+
+  it('retention (README "Configuration": 168 h, 2 GiB, 600 s; 0 disables a limit) and tenant isolation', () => {
+    expect(loadConfig({}).retention).toEqual({
+      maxAgeHours: 168,
+      maxBytes: 2 * 1024 ** 3,
+      intervalMs: 600_000,
+    });
+    expect(loadConfig({}).tenantIsolation).toBe(false);
+    const config = loadConfig({
+      RETENTION_MAX_AGE_HOURS: '0',
+      RETENTION_MAX_BYTES: '1048576',
+      RETENTION_INTERVAL_SECONDS: '30',
+      TENANT_ISOLATION: 'true',
+      API_KEYS: 'alpha,beta',
+    });
+    expect(config.retention).toEqual({ maxAgeHours: 0, maxBytes: 1048576, intervalMs: 30_000 });
+    expect(config.tenantIsolation).toBe(true);
+    expect(() => loadConfig({ RETENTION_MAX_AGE_HOURS: '-1' })).toThrow(/RETENTION_MAX_AGE_HOURS/);
+    expect(() => loadConfig({ RETENTION_MAX_BYTES: '1.5' })).toThrow(/RETENTION_MAX_BYTES/);
+    expect(() => loadConfig({ RETENTION_INTERVAL_SECONDS: '0' })).toThrow(/RETENTION_INTERVAL_SECONDS/);
+    expect(() => loadConfig({ TENANT_ISOLATION: 'true' })).toThrow(/API_KEYS/);
+    expect(() => loadConfig({ TENANT_ISOLATION: 'maybe', API_KEYS: 'a' })).toThrow(/TENANT_ISOLATION/);
+  });
 });
