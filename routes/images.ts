@@ -150,7 +150,7 @@ export async function imageRoutes(app: FastifyInstance): Promise<void> {
       const decoded = await pool.runForRequest<DecodedImage>({
         kind: 'decode',
         bytes,
-        options: { ...choice, maxSide: limits.maxMatrixSide, maxBytes: 4 * limits.maxUploadBytes },
+        options: { ...choice, maxSide: limits.maxMatrixSide, maxBytes: limits.maxUploadBytes },
       });
       const id = randomUUID();
       const stored = store.putImage(id, decoded.image, {
