@@ -1,8 +1,8 @@
 import { defaultLimits } from '../core/limits.ts';
+import { gunzipBounded } from './bounded-inflate.ts';
 import { DecodeError } from './decode-error.ts';
 import type { DecodedImage, DecodeOptions } from './decoded-image.ts';
 import { decodeDicom, isDicomPart10 } from './dicom.ts';
-import { gunzipBounded } from './bounded-inflate.ts';
 import {
   decodeNifti,
   isGzip,
