@@ -16,14 +16,21 @@ function tooLarge(what: string, maxBytes: number): LimitError {
   });
 }
 
-/** Raw deflate (DICOM Deflated Explicit VR Little Endian, PS3.5 A.5) into at most maxBytes. */
-export function inflateRawBounded(input: Uint8Array, maxBytes: number, what: string): Buffer {
+/**
+ * Raw deflate (DICOM Deflated Explicit VR Little Endian, PS3.5 A.5) into at most `room` bytes, the
+ * part of the `maxBytes` limit left after what precedes the deflated data.
+ */
+export function inflateRawBounded(
+  input: Uint8Array,
+  bound: { room: number; maxBytes: number; what: string },
+): Buffer {
   try {
     // node:zlib aborts with ERR_BUFFER_TOO_LARGE once the output passes maxOutputLength.
-    return inflateRawSync(input, { maxOutputLength: Math.max(1, maxBytes) });
+    return inflateRawSync(input, { maxOutputLength: Math.max(1, bound.room) });
   } catch (error) {
-    if ((error as { code?: string }).code === 'ERR_BUFFER_TOO_LARGE') throw tooLarge(what, maxBytes);
-    throw new DecodeError(`the ${what} is damaged (the deflate stream cannot be inflated)`);
+    if ((error as { code?: string }).code === 'ERR_BUFFER_TOO_LARGE')
+      throw tooLarge(bound.what, bound.maxBytes);
+    throw new DecodeError(`the ${bound.what} is damaged (the deflate stream cannot be inflated)`);
   }
 }
 

@@ -35,11 +35,11 @@ function parse(bytes: Uint8Array, maxBytes: number): dicomParser.DataSet {
       // uncompressed could be no larger. Rows and Columns lie inside the deflated part, so the matrix
       // limit can only be checked once it is inflated.
       inflater: (array: Uint8Array, position: number) => {
-        const inflated = inflateRawBounded(
-          array.subarray(position),
-          maxBytes - position,
-          'deflated data set',
-        );
+        const inflated = inflateRawBounded(array.subarray(position), {
+          room: maxBytes - position,
+          maxBytes,
+          what: 'deflated data set',
+        });
         const out = new Uint8Array(position + inflated.length);
         out.set(array.subarray(0, position));
         out.set(inflated, position);
