@@ -52,12 +52,13 @@ async function decodeByContent(bytes: Buffer, options: DecodeOptions): Promise<D
     return decodeRaster(bytes, 'tiff', options);
   }
   if (isGzip(bytes)) {
+    const bounded = { ...options, maxBytes: options.maxBytes ?? defaultMaxBytes };
     // .nii.gz: the header is checked as soon as it is inflated, and inflation stops at the length it
     // declares or at maxBytes, so a small upload cannot expand without limit.
     const plain = await gunzipBounded(bytes, {
-      maxBytes: options.maxBytes ?? defaultMaxBytes,
+      maxBytes: bounded.maxBytes,
       headerBytes: niftiHeaderBytes,
-      declaredLength: (head) => niftiDeclaredLength(head, options),
+      declaredLength: (head) => niftiDeclaredLength(head, bounded),
     });
     return decodeNifti(plain, options);
   }
