@@ -43,6 +43,11 @@ interface Layout {
   datatypeAt: number;
   bitpixAt: number;
   voxOffsetAt: number;
+  /** pixdim[8], then scl_slope and scl_inter: float32 in NIfTI-1, float64 in NIfTI-2. */
+  pixdimAt: number;
+  sclSlopeAt: number;
+  sclInterAt: number;
+  floatBytes: 4 | 8;
 }
 
 // Byte offsets of nifti1.h (struct nifti_1_header) and nifti2.h (struct nifti_2_header).
@@ -56,6 +61,10 @@ const layouts: Record<1 | 2, Layout> = {
     datatypeAt: 70,
     bitpixAt: 72,
     voxOffsetAt: 108,
+    pixdimAt: 76,
+    sclSlopeAt: 112,
+    sclInterAt: 116,
+    floatBytes: 4,
   },
   2: {
     version: 2,
@@ -66,6 +75,10 @@ const layouts: Record<1 | 2, Layout> = {
     datatypeAt: 12,
     bitpixAt: 14,
     voxOffsetAt: 168,
+    pixdimAt: 104,
+    sclSlopeAt: 176,
+    sclInterAt: 184,
+    floatBytes: 8,
   },
 };
 
@@ -79,6 +92,10 @@ export interface NiftiHeaderFacts {
   voxOffset: number;
   /** vox_offset plus the voxel bytes: how long the file must be. */
   end: number;
+  /** pixdim[1], pixdim[2]: voxel sizes along i and j. */
+  pixdim: [number, number];
+  sclSlope: number;
+  sclInter: number;
 }
 
 function invalid(field: string, message: string, allowed: string): ValidationError {
@@ -191,5 +208,23 @@ export function checkNiftiHeader(
       allowed: `≤ ${options.maxBytes} bytes (the upload limit)`,
     });
   }
-  return { version: layout.version, littleEndian, dims, datatype, bitpix, voxOffset, end };
+  // Extensions (between byte 352/544 and vox_offset) are never parsed: nothing in them is needed.
+  const float = (at: number): number =>
+    layout.floatBytes === 4 ? view.getFloat32(at, littleEndian) : view.getFloat64(at, littleEndian);
+  const pixdim: [number, number] = [
+    float(layout.pixdimAt + layout.floatBytes),
+    float(layout.pixdimAt + 2 * layout.floatBytes),
+  ];
+  return {
+    version: layout.version,
+    littleEndian,
+    dims,
+    datatype,
+    bitpix,
+    voxOffset,
+    end,
+    pixdim,
+    sclSlope: float(layout.sclSlopeAt),
+    sclInter: float(layout.sclInterAt),
+  };
 }

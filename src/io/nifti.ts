@@ -1,4 +1,3 @@
-import * as nifti from 'nifti-reader-js';
 import { DecodeError } from './decode-error.ts';
 import type { DecodedImage, DecodeOptions } from './decoded-image.ts';
 import { checkIndex } from './image-size.ts';
@@ -90,14 +89,6 @@ export function decodeNifti(bytes: Uint8Array, options: DecodeOptions = {}): Dec
   if (kind === null) throw new DecodeError('not a NIfTI file');
   // Geometry, datatype and vox_offset are checked before any voxel is read.
   const facts = checkNiftiHeader(bytes, options);
-  const buffer = bytes.buffer.slice(bytes.byteOffset, bytes.byteOffset + bytes.byteLength) as ArrayBuffer;
-  let header: nifti.NIFTI1 | nifti.NIFTI2;
-  try {
-    header = nifti.readHeader(buffer);
-  } catch {
-    throw new DecodeError('the NIfTI header could not be read');
-  }
-  if (!header) throw new DecodeError('the NIfTI header could not be read');
   const dims = facts.dims;
   const ndim = dims[0];
   const nx = dims[1];
@@ -118,11 +109,11 @@ export function decodeNifti(bytes: Uint8Array, options: DecodeOptions = {}): Dec
       `the NIfTI file is truncated: the image needs ${needed} bytes, ${bytes.byteLength} present`,
     );
   }
-  const view = new DataView(buffer);
+  const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
   const start = voxOffset + (volume * nz + slice) * sliceVoxels * type.bytes;
-  const slope = header.scl_slope;
+  const slope = facts.sclSlope;
   const scaled = Number.isFinite(slope) && slope !== 0;
-  const inter = scaled && Number.isFinite(header.scl_inter) ? header.scl_inter : 0;
+  const inter = scaled && Number.isFinite(facts.sclInter) ? facts.sclInter : 0;
   const data = new Float64Array(sliceVoxels);
   for (let j = 0; j < ny; j++) {
     const row = ny - 1 - j;
@@ -148,7 +139,7 @@ export function decodeNifti(bytes: Uint8Array, options: DecodeOptions = {}): Dec
       slice,
       volumes: nt,
       volume,
-      voxelSizeMm: [Math.abs(header.pixDims[1]), Math.abs(header.pixDims[2])],
+      voxelSizeMm: [Math.abs(facts.pixdim[0]), Math.abs(facts.pixdim[1])],
     },
     notes,
   };

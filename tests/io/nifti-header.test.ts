@@ -163,3 +163,21 @@ for (const variant of variants) {
     });
   });
 }
+
+describe('NIfTI extensions are never parsed', () => {
+  it('example4d.nii.gz with its extension chain pointing backwards (esize −16) decodes, no endless loop', async () => {
+    // nifti1.h: extensions follow the 4-byte flag at 348, each with esize (int32, a multiple of 16)
+    // then ecode; a reader that follows esize = −16 from byte 352 back to 336 and reads 16 there
+    // comes back to 352 for ever. The voxel data (vox_offset 416) is left as it was.
+    const plain = Buffer.from(gunzipSync(debianFile('nibabel', 'example4d.nii.gz')));
+    const littleEndian = plain.readInt32LE(0) === 348;
+    const write = (value: number, at: number) =>
+      littleEndian ? plain.writeInt32LE(value, at) : plain.writeInt32BE(value, at);
+    expect(plain[348]).toBe(1); // the extension flag is set in the original
+    write(-16, 352);
+    write(16, 336);
+    const edited = decodeNifti(plain, { slice: 0 });
+    const original = await decodeImage(debianFile('nibabel', 'example4d.nii.gz'), { slice: 0 });
+    expect(edited.image.data).toEqual(original.image.data);
+  });
+});
