@@ -139,19 +139,19 @@ export async function imageRoutes(app: FastifyInstance): Promise<void> {
       },
     },
     async (request, reply) => {
-      const part = await request.file();
+      const part = await request.file().catch(malformedMultipart('body'));
       if (part?.fieldname !== 'file') {
         throw new HttpProblem(400, 'send the image as a multipart part named "file"', [
           { field: 'file', message: 'missing' },
         ]);
       }
-      const bytes = await part.toBuffer();
+      const bytes = await part.toBuffer().catch(malformedMultipart('file'));
       const choice = { ...request.query, ...formChoices(part.fields) };
       // Decoding (gunzip, DICOM/NIfTI parsing, sharp) runs on a worker: a 64 MB file never stalls the loop.
       const decoded = await pool.runForRequest<DecodedImage>({
         kind: 'decode',
         bytes,
-        options: { ...choice, maxSide: limits.maxMatrixSide, maxBytes: 4 * limits.maxUploadBytes },
+        options: { ...choice, maxSide: limits.maxMatrixSide, maxBytes: limits.maxUploadBytes },
       });
       const id = randomUUID();
       const stored = store.putImage(
@@ -230,6 +230,27 @@ function formChoices(fields: Record<string, unknown>): z.infer<typeof uploadQuer
     );
   }
   return Object.fromEntries(Object.entries(parsed.data).filter(([, v]) => v !== undefined));
+}
+
+/**
+ * The multipart parser (busboy) reports a body that breaks RFC 2046 §5.1.1 — no boundary parameter,
+ * a boundary that never occurs, a body cut off before the closing delimiter — as a bare Error with a
+ * fixed message; the plugin's own limits come as fastify errors with a code and pass through as they are.
+ */
+function malformedMultipart(field: 'body' | 'file'): (error: unknown) => never {
+  return (error) => {
+    if (error instanceof Error && (error as { code?: unknown }).code === undefined) {
+      const message = `malformed multipart/form-data: ${error.message}`;
+      throw new HttpProblem(400, message, [
+        {
+          field,
+          message,
+          allowed: 'a boundary parameter, parts between its delimiters, a closing delimiter',
+        },
+      ]);
+    }
+    throw error;
+  };
 }
 
 function notFound(id: string): HttpProblem {

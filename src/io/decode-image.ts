@@ -1,11 +1,23 @@
+import { defaultLimits } from '../core/limits.ts';
+import { gunzipBounded } from './bounded-inflate.ts';
 import { DecodeError } from './decode-error.ts';
 import type { DecodedImage, DecodeOptions } from './decoded-image.ts';
 import { decodeDicom, isDicomPart10 } from './dicom.ts';
-import { decodeNifti, maybeGunzip, niftiKind } from './nifti.ts';
+import {
+  decodeNifti,
+  isGzip,
+  niftiDeclaredLength,
+  niftiHeaderBytes,
+  niftiKind,
+  unrecognisedFile,
+} from './nifti.ts';
 import { decodeRaster } from './raster.ts';
 
 export { DecodeError } from './decode-error.ts';
 export type { DecodedImage, DecodeOptions, ImageFormat } from './decoded-image.ts';
+
+/** Decompression bound when the caller gives none (the default upload limit). */
+const defaultMaxBytes = defaultLimits.maxUploadBytes;
 
 function startsWith(bytes: Uint8Array, signature: number[]): boolean {
   return bytes.length >= signature.length && signature.every((b, i) => bytes[i] === b);
@@ -15,10 +27,7 @@ function startsWith(bytes: Uint8Array, signature: number[]): boolean {
  * Decodes an uploaded file by its content (magic numbers), never by its name or declared type:
  * PNG, JPEG, TIFF, DICOM Part 10, NIfTI-1/-2 (.nii, .nii.gz). Anything else is a DecodeError (415).
  */
-export async function decodeImage(
-  bytes: Buffer,
-  options: DecodeOptions & { maxBytes?: number } = {},
-): Promise<DecodedImage> {
+export async function decodeImage(bytes: Buffer, options: DecodeOptions = {}): Promise<DecodedImage> {
   const decoded = await decodeByContent(bytes, options);
   // Float NIfTI may hold NaN or ±∞ (nifti1.h allows them); the simulation needs finite numbers.
   const { data } = decoded.image;
@@ -33,10 +42,7 @@ export async function decodeImage(
   return decoded;
 }
 
-async function decodeByContent(
-  bytes: Buffer,
-  options: DecodeOptions & { maxBytes?: number },
-): Promise<DecodedImage> {
+async function decodeByContent(bytes: Buffer, options: DecodeOptions): Promise<DecodedImage> {
   // DICOM first: a Part 10 preamble may itself look like a TIFF header (PS3.10 7.1 allows dual-format files).
   if (isDicomPart10(bytes)) return decodeDicom(bytes, options);
   if (startsWith(bytes, [0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]))
@@ -45,10 +51,17 @@ async function decodeByContent(
   if (startsWith(bytes, [0x49, 0x49, 0x2a, 0x00]) || startsWith(bytes, [0x4d, 0x4d, 0x00, 0x2a])) {
     return decodeRaster(bytes, 'tiff', options);
   }
-  const maxBytes = options.maxBytes ?? 256 * 1024 * 1024;
-  const plain = maybeGunzip(bytes, maxBytes);
-  if (niftiKind(plain) !== null) return decodeNifti(plain, options);
-  throw new DecodeError(
-    'unrecognised file: send PNG, JPEG, TIFF, DICOM Part 10 or single-file NIfTI (.nii, .nii.gz)',
-  );
+  if (isGzip(bytes)) {
+    const bounded = { ...options, maxBytes: options.maxBytes ?? defaultMaxBytes };
+    // .nii.gz: the header is checked as soon as it is inflated, and inflation stops at the length it
+    // declares or at maxBytes, so a small upload cannot expand without limit.
+    const plain = await gunzipBounded(bytes, {
+      maxBytes: bounded.maxBytes,
+      headerBytes: niftiHeaderBytes,
+      declaredLength: (head) => niftiDeclaredLength(head, bounded),
+    });
+    return decodeNifti(plain, options);
+  }
+  if (niftiKind(bytes) !== null) return decodeNifti(bytes, options);
+  throw new DecodeError(unrecognisedFile);
 }

@@ -12,6 +12,8 @@ export interface DecodeOptions {
   volume?: number;
   /** Largest accepted width/height in pixels. */
   maxSide?: number;
+  /** Largest decompressed size in bytes (gzip NIfTI, deflated DICOM); the upload limit. */
+  maxBytes?: number;
 }
 
 /** One decoded 2D image plus safe, whitelisted facts about it (never patient identifiers). */

@@ -1,5 +1,7 @@
-import { inflateRawSync } from 'node:zlib';
 import dicomParser from 'dicom-parser';
+import { LimitError } from '../core/errors.ts';
+import { defaultLimits } from '../core/limits.ts';
+import { inflateRawBounded } from './bounded-inflate.ts';
 import { DecodeError } from './decode-error.ts';
 import type { DecodedImage, DecodeOptions } from './decoded-image.ts';
 import { decodeRleFrame } from './dicom-rle.ts';
@@ -26,11 +28,18 @@ export function isDicomPart10(bytes: Uint8Array): boolean {
   );
 }
 
-function parse(bytes: Uint8Array): dicomParser.DataSet {
+function parse(bytes: Uint8Array, maxBytes: number): dicomParser.DataSet {
   try {
     return dicomParser.parseDicom(bytes, {
+      // Deflated data sets (PS3.5 A.5) inflate into at most the upload limit: the same data set sent
+      // uncompressed could be no larger. Rows and Columns lie inside the deflated part, so the matrix
+      // limit can only be checked once it is inflated.
       inflater: (array: Uint8Array, position: number) => {
-        const inflated = inflateRawSync(array.subarray(position));
+        const inflated = inflateRawBounded(array.subarray(position), {
+          room: maxBytes - position,
+          maxBytes,
+          what: 'deflated data set',
+        });
         const out = new Uint8Array(position + inflated.length);
         out.set(array.subarray(0, position));
         out.set(inflated, position);
@@ -38,6 +47,7 @@ function parse(bytes: Uint8Array): dicomParser.DataSet {
       },
     } as dicomParser.ParseDicomOptions);
   } catch (error) {
+    if (error instanceof LimitError || error instanceof DecodeError) throw error;
     const overrun = typeof error === 'object' && error !== null && 'exception' in error;
     // Only the parser's fixed wording is used; header contents never reach the message.
     throw new DecodeError(
@@ -91,7 +101,7 @@ function frameBytes(
  * Only numeric image attributes are read; patient, study and institution attributes never are.
  */
 export function decodeDicom(bytes: Uint8Array, options: DecodeOptions = {}): DecodedImage {
-  const dataSet = parse(bytes);
+  const dataSet = parse(bytes, options.maxBytes ?? defaultLimits.maxUploadBytes);
   const transferSyntax = dataSet.string('x00020010')?.trim() ?? '1.2.840.10008.1.2';
   const syntax = transferSyntaxes[transferSyntax];
   if (!syntax) {

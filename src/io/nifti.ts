@@ -1,8 +1,7 @@
-import { gunzipSync } from 'node:zlib';
-import * as nifti from 'nifti-reader-js';
 import { DecodeError } from './decode-error.ts';
 import type { DecodedImage, DecodeOptions } from './decoded-image.ts';
-import { checkImageSize, checkIndex } from './image-size.ts';
+import { checkIndex } from './image-size.ts';
+import { checkNiftiHeader } from './nifti-header.ts';
 
 /** nifti1.h datatype codes we read, with their typed-array reader. */
 const datatypes: Record<
@@ -19,7 +18,7 @@ const datatypes: Record<
   768: { name: 'uint32', bytes: 4, read: (v, o, le) => v.getUint32(o, le) },
 };
 
-function isGzip(bytes: Uint8Array): boolean {
+export function isGzip(bytes: Uint8Array): boolean {
   return bytes.length >= 2 && bytes[0] === 0x1f && bytes[1] === 0x8b;
 }
 
@@ -54,18 +53,26 @@ export function niftiKind(bytes: Uint8Array): NiftiKind {
   return null;
 }
 
-/** Gunzips .nii.gz with a bound on the output so a small upload cannot expand without limit. */
-export function maybeGunzip(bytes: Uint8Array, maxOutputBytes: number): Uint8Array {
-  if (!isGzip(bytes)) return bytes;
-  try {
-    return gunzipSync(bytes, { maxOutputLength: maxOutputBytes });
-  } catch {
-    throw new DecodeError(`the gzip stream is damaged or expands beyond ${maxOutputBytes} bytes`);
-  }
-}
+/** How many leading bytes tell a NIfTI-2 header (the larger) apart and hold it whole. */
+export const niftiHeaderBytes = 540;
 
 /**
- * Single-file NIfTI-1 or NIfTI-2 (.nii, or .nii.gz after maybeGunzip): one slice of one volume,
+ * The length a (decompressed) file must have according to its header, for bounded gunzip: a
+ * single-file header is checked in full (checkNiftiHeader); other NIfTI-like headers stop the
+ * inflation at once so that decodeNifti can say what they are.
+ */
+export function niftiDeclaredLength(head: Uint8Array, options: DecodeOptions = {}): number {
+  const kind = niftiKind(head);
+  if (kind === null) throw new DecodeError(unrecognisedFile);
+  if (kind !== 'nifti-1' && kind !== 'nifti-2') return head.length;
+  return checkNiftiHeader(head, options).end;
+}
+
+export const unrecognisedFile =
+  'unrecognised file: send PNG, JPEG, TIFF, DICOM Part 10 or single-file NIfTI (.nii, .nii.gz)';
+
+/**
+ * Single-file NIfTI-1 or NIfTI-2 (.nii, or .nii.gz after gunzipBounded): one slice of one volume,
  * scaled by scl_slope/scl_inter (value = scl_slope × stored + scl_inter; slope 0 means no scaling,
  * nifti1.h). Voxel index i becomes the column and j the row counted from the bottom, so the first
  * row of the image is the largest j (j increases upward, as in a radiological display of an axial slice).
@@ -80,51 +87,38 @@ export function decodeNifti(bytes: Uint8Array, options: DecodeOptions = {}): Dec
     );
   }
   if (kind === null) throw new DecodeError('not a NIfTI file');
-  const buffer = bytes.buffer.slice(bytes.byteOffset, bytes.byteOffset + bytes.byteLength) as ArrayBuffer;
-  let header: nifti.NIFTI1 | nifti.NIFTI2;
-  try {
-    header = nifti.readHeader(buffer);
-  } catch {
-    throw new DecodeError('the NIfTI header could not be read');
-  }
-  if (!header) throw new DecodeError('the NIfTI header could not be read');
-  const dims = header.dims;
+  // Geometry, datatype and vox_offset are checked before any voxel is read.
+  const facts = checkNiftiHeader(bytes, options);
+  const dims = facts.dims;
   const ndim = dims[0];
-  if (!(ndim >= 2 && ndim <= 7)) throw new DecodeError(`NIfTI dim[0] = ${ndim} is not a 2D–7D image`);
-  for (let d = 5; d <= ndim; d++) {
-    if (dims[d] > 1) throw new DecodeError('NIfTI images with more than four dimensions are not supported');
-  }
   const nx = dims[1];
-  const ny = dims[2];
-  const nz = ndim >= 3 ? Math.max(1, dims[3]) : 1;
-  const nt = ndim >= 4 ? Math.max(1, dims[4]) : 1;
-  checkImageSize(nx, ny, options.maxSide);
-  const type = datatypes[header.datatypeCode];
-  if (!type)
-    throw new DecodeError(`NIfTI datatype ${header.datatypeCode} is not supported (real scalar types only)`);
+  const ny = ndim >= 2 ? dims[2] : 1;
+  const nz = ndim >= 3 ? dims[3] : 1;
+  const nt = ndim >= 4 ? dims[4] : 1;
+  const type = datatypes[facts.datatype];
   const slice = options.slice ?? Math.floor(nz / 2);
   const volume = options.volume ?? 0;
   checkIndex('slice', slice, nz);
   checkIndex('volume', volume, nt);
 
-  const voxOffset = Math.trunc(header.vox_offset);
+  const voxOffset = facts.voxOffset;
   const sliceVoxels = nx * ny;
-  const needed = voxOffset + nx * ny * nz * nt * type.bytes;
+  const needed = facts.end;
   if (bytes.byteLength < needed) {
     throw new DecodeError(
       `the NIfTI file is truncated: the image needs ${needed} bytes, ${bytes.byteLength} present`,
     );
   }
-  const view = new DataView(buffer);
+  const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
   const start = voxOffset + (volume * nz + slice) * sliceVoxels * type.bytes;
-  const slope = header.scl_slope;
+  const slope = facts.sclSlope;
   const scaled = Number.isFinite(slope) && slope !== 0;
-  const inter = scaled && Number.isFinite(header.scl_inter) ? header.scl_inter : 0;
+  const inter = scaled && Number.isFinite(facts.sclInter) ? facts.sclInter : 0;
   const data = new Float64Array(sliceVoxels);
   for (let j = 0; j < ny; j++) {
     const row = ny - 1 - j;
     for (let i = 0; i < nx; i++) {
-      const stored = type.read(view, start + (j * nx + i) * type.bytes, header.littleEndian);
+      const stored = type.read(view, start + (j * nx + i) * type.bytes, facts.littleEndian);
       data[row * nx + i] = scaled ? slope * stored + inter : stored;
     }
   }
@@ -138,14 +132,14 @@ export function decodeNifti(bytes: Uint8Array, options: DecodeOptions = {}): Dec
       version: kind === 'nifti-2' ? 2 : 1,
       dims: dims.slice(0, ndim + 1),
       datatype: type.name,
-      littleEndian: header.littleEndian,
+      littleEndian: facts.littleEndian,
       sclSlope: scaled ? slope : 1,
       sclInter: inter,
       slices: nz,
       slice,
       volumes: nt,
       volume,
-      voxelSizeMm: [Math.abs(header.pixDims[1]), Math.abs(header.pixDims[2])],
+      voxelSizeMm: [Math.abs(facts.pixdim[0]), Math.abs(facts.pixdim[1])],
     },
     notes,
   };

@@ -1,4 +1,5 @@
 import sharp, { type Metadata, type OutputInfo } from 'sharp';
+import { LimitError } from '../core/errors.ts';
 import { DecodeError } from './decode-error.ts';
 import type { DecodedImage, DecodeOptions, ImageFormat } from './decoded-image.ts';
 import { checkImageSize, checkIndex } from './image-size.ts';
@@ -17,7 +18,9 @@ export async function decodeRaster(
 ): Promise<DecodedImage> {
   let metadata: Metadata;
   try {
-    metadata = await sharp(bytes, { failOn: 'error' }).metadata();
+    // The header alone (no pixel is decoded): lift sharp's pixel cap here so that an oversized image
+    // is reported as such by checkImageSize (422 limit-exceeded) rather than as unreadable.
+    metadata = await sharp(bytes, { failOn: 'error', limitInputPixels: false }).metadata();
   } catch {
     throw new DecodeError(`the ${format.toUpperCase()} file could not be read (damaged or truncated)`);
   }
@@ -32,12 +35,22 @@ export async function decodeRaster(
     throw new DecodeError(`sample format ${metadata.depth} is not supported (8- or 16-bit integers only)`);
   }
   const colour = (metadata.channels ?? 1) >= 3;
-  let pipeline = sharp(bytes, { failOn: 'error', page });
+  // The decoder itself refuses more pixels than the matrix limit allows (a second guard for files
+  // whose pages differ in size).
+  const limitInputPixels = options.maxSide === undefined ? true : options.maxSide * options.maxSide;
+  let pipeline = sharp(bytes, { failOn: 'error', page, limitInputPixels });
   if (!colour) pipeline = pipeline.toColourspace(depth === 'ushort' ? 'grey16' : 'b-w');
   let raw: { data: Buffer; info: OutputInfo };
   try {
     raw = await pipeline.raw({ depth }).toBuffer({ resolveWithObject: true });
-  } catch {
+  } catch (error) {
+    if (limitInputPixels !== true && /pixel limit/.test(String((error as Error)?.message))) {
+      throw new LimitError({
+        field: 'file',
+        message: `page ${page} has more than ${limitInputPixels} pixels`,
+        allowed: `≤ ${options.maxSide} per side`,
+      });
+    }
     throw new DecodeError(
       `the ${format.toUpperCase()} pixel data could not be decoded (damaged or truncated)`,
     );

@@ -5,7 +5,7 @@ import type { DecodeOptions } from '../io/decoded-image.ts';
 
 /** Work sent to a worker thread: plain, structured-clonable data only. */
 export type WorkerTask =
-  | { kind: 'decode'; bytes: Uint8Array; options: DecodeOptions & { maxBytes?: number } }
+  | { kind: 'decode'; bytes: Uint8Array; options: DecodeOptions }
   | { kind: 'phantom-kspace'; name: string; kx: Float64Array; ky: Float64Array }
   | { kind: 'phantom-raster'; name: string; nx: number; ny: number; supersample?: number }
   | {

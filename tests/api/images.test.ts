@@ -172,3 +172,20 @@ describe('no patient identifier from a DICOM header is ever stored, logged or re
     }
   });
 });
+
+describe('a NIfTI header with a bad field → 422 naming it (nifti1.h, NIfTI Data Format Working Group)', () => {
+  it('anatomical.nii with vox_offset −4 (float32 at byte 108, big-endian) → 422 on file.vox_offset', async () => {
+    const bytes = Buffer.from(debianFile('nibabel', 'anatomical.nii'));
+    bytes.writeFloatBE(-4, 108);
+    const t = await testApp();
+    try {
+      const res = await t.http().post('/v1/images').attach('file', bytes, 'a.nii');
+      const problem = expectProblem(res, 422, 'file.vox_offset');
+      expect(problem.type).toBe('/problems/out-of-range');
+      expect(problem.errors[0].allowed).toMatch(/≥ 352/);
+      await expectDocumented('POST', '/v1/images', res);
+    } finally {
+      await t.close();
+    }
+  });
+});
