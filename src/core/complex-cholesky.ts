@@ -163,5 +163,6 @@ export function hermitianInverseFromCholesky(
 
 function checkSquare(m: Float64Array, n: number, name: string): void {
   if (!Number.isInteger(n) || n < 1) throw new RangeError(`n must be a positive integer, got ${n}`);
-  if (m.length !== 2 * n * n) throw new RangeError(`${name} must hold 2·n² = ${2 * n * n} numbers, got ${m.length}`);
+  if (m.length !== 2 * n * n)
+    throw new RangeError(`${name} must hold 2·n² = ${2 * n * n} numbers, got ${m.length}`);
 }

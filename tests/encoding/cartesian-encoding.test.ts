@@ -120,7 +120,8 @@ describe('CartesianEncoding with coil sensitivities', () => {
     const n = nx * ny;
     for (let i = 0; i < n; i++) {
       let sum = 0;
-      for (let c = 0; c < coils; c++) sum += maps.data[2 * (c * n + i)] ** 2 + maps.data[2 * (c * n + i) + 1] ** 2;
+      for (let c = 0; c < coils; c++)
+        sum += maps.data[2 * (c * n + i)] ** 2 + maps.data[2 * (c * n + i) + 1] ** 2;
       for (let c = 0; c < coils; c++) {
         maps.data[2 * (c * n + i)] /= Math.sqrt(sum);
         maps.data[2 * (c * n + i) + 1] /= Math.sqrt(sum);
