@@ -27,7 +27,7 @@ export interface TrigPolynomialMaps {
 }
 
 export interface TrigFitOptions {
-  /** P (default 4). */
+  /** P (default 6). */
   order?: number;
   /** L, period 2L units (default 2). */
   periodFactor?: number;
@@ -59,7 +59,7 @@ export function fitTrigPolynomial(
   options: TrigFitOptions = {},
   field = 'coils.fit',
 ): TrigPolynomialMaps {
-  const order = options.order ?? 4;
+  const order = options.order ?? 6;
   const periodFactor = options.periodFactor ?? 2;
   const { nx, ny, coils } = maps;
   const m = 2 * order + 1;
