@@ -26,7 +26,8 @@ describe('coil arrays: normalisation', () => {
       let worst = 0;
       for (let i = 0; i < px; i++) {
         let sum = 0;
-        for (let c = 0; c < maps.coils; c++) sum += maps.data[2 * (c * px + i)] ** 2 + maps.data[2 * (c * px + i) + 1] ** 2;
+        for (let c = 0; c < maps.coils; c++)
+          sum += maps.data[2 * (c * px + i)] ** 2 + maps.data[2 * (c * px + i) + 1] ** 2;
         worst = Math.max(worst, Math.abs(sum - 1));
       }
       expect(worst).toBeLessThan(1e-14);
@@ -108,7 +109,13 @@ describe('Gaussian-profile arrays against numpy (generate_coil_fixtures.py)', ()
   it('normalised maps equal the numpy ones at the sampled pixels to 1e-13', () => {
     const f = coilFixture.gaussian_array;
     const maps = coilArrayMaps(
-      { array: 'gaussian', count: f.count, width: f.width, ringRadius: f.ringRadius, startAngleDeg: f.startAngleDeg },
+      {
+        array: 'gaussian',
+        count: f.count,
+        width: f.width,
+        ringRadius: f.ringRadius,
+        startAngleDeg: f.startAngleDeg,
+      },
       f.nx,
       f.ny,
     );

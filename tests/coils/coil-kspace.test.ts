@@ -1,7 +1,11 @@
 import { describe, expect, it } from 'vitest';
 import { coilArrayMaps } from '../../src/coils/coil-array.ts';
 import { analyticCoilKspace } from '../../src/coils/coil-kspace.ts';
-import { evaluateTrigPolynomial, fitTrigPolynomial, type TrigPolynomialMaps } from '../../src/coils/trig-fit.ts';
+import {
+  evaluateTrigPolynomial,
+  fitTrigPolynomial,
+  type TrigPolynomialMaps,
+} from '../../src/coils/trig-fit.ts';
 import { fft2c } from '../../src/core/centered-fft.ts';
 import { createComplexImage } from '../../src/core/complex-image.ts';
 import { phantomGridKspace } from '../../src/phantoms/grid-kspace.ts';
@@ -39,7 +43,8 @@ describe('analytic coil k-space as a sum of shifted analytic transforms (Guerqui
           for (const order of [0, 2]) {
             const coil = analyticCoilKspace(phantom, harmonic(order, periodFactor, 0, 0), nx, ny);
             let mismatches = 0;
-            for (let i = 0; i < expected.data.length; i++) if (coil.data[i] !== expected.data[i]) mismatches++;
+            for (let i = 0; i < expected.data.length; i++)
+              if (coil.data[i] !== expected.data[i]) mismatches++;
             expect(mismatches).toBe(0);
           }
         }

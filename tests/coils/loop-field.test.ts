@@ -41,7 +41,9 @@ describe('numerical Biot–Savart field of a circular loop', () => {
       const expected = (1 + zOverA * zOverA) ** -1.5;
       worst = Math.max(worst, Math.abs(axial / b0 - expected));
       // No transverse field on the axis.
-      expect(Math.hypot(b[0] - axial * axis[0], b[1] - axial * axis[1], b[2] - axial * axis[2]) / b0).toBeLessThan(1e-12);
+      expect(
+        Math.hypot(b[0] - axial * axis[0], b[1] - axial * axis[1], b[2] - axial * axis[2]) / b0,
+      ).toBeLessThan(1e-12);
       if (zOverA === 1) expect(axial / b0).toBeCloseTo(0.353553, 6);
     }
     expect(worst).toBeLessThan(1e-6); // measured 1.9e-15 at 128 segments (the on-axis integrand is constant round the loop)

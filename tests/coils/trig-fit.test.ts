@@ -12,7 +12,13 @@ import { coilFixture } from './fixture.ts';
 describe('trigonometric-polynomial fit of coil maps', () => {
   const f = coilFixture.gaussian_array;
   const maps = coilArrayMaps(
-    { array: 'gaussian', count: f.count, width: f.width, ringRadius: f.ringRadius, startAngleDeg: f.startAngleDeg },
+    {
+      array: 'gaussian',
+      count: f.count,
+      width: f.width,
+      ringRadius: f.ringRadius,
+      startAngleDeg: f.startAngleDeg,
+    },
     f.nx,
     f.ny,
   );
@@ -45,7 +51,8 @@ describe('trigonometric-polynomial fit of coil maps', () => {
     const truth: TrigPolynomialMaps = { coils: 2, order, periodFactor: 2, coefficients };
     const fit = fitTrigPolynomial(evaluateTrigPolynomial(truth, 21, 18), { order, periodFactor: 2 });
     let worst = 0;
-    for (let k = 0; k < coefficients.length; k++) worst = Math.max(worst, Math.abs(fit.coefficients[k] - coefficients[k]));
+    for (let k = 0; k < coefficients.length; k++)
+      worst = Math.max(worst, Math.abs(fit.coefficients[k] - coefficients[k]));
     expect(worst).toBeLessThan(1e-11);
   });
 
