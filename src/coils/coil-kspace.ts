@@ -41,28 +41,30 @@ export function analyticCoilKspace(
   const out = createMultiCoilArray(coils, nx, ny);
   const n = nx * ny;
   const d = out.data;
+  // Row by row, so one output row and the fine rows it reads stay in cache across all harmonics.
   for (let c = 0; c < coils; c++) {
     const base = 2 * c * n;
-    for (let qi = 0; qi < m; qi++) {
-      const q = qi - P;
-      for (let pi = 0; pi < m; pi++) {
-        const p = pi - P;
-        const at = 2 * ((c * m + qi) * m + pi);
-        const ar = coefficients[at];
-        const ai = coefficients[at + 1];
-        if (ar === 0 && ai === 0) continue;
-        for (let v = 0; v < ny; v++) {
-          const b = -L * (v - cy) - q - myMin;
-          const rowStart = 2 * (b * fx + (-L * cx - p - mxMin));
-          const outRow = base + 2 * v * nx;
-          for (let u = 0; u < nx; u++) {
-            const f = rowStart + 2 * L * u;
-            const kr = fine[f];
-            const ki = fine[f + 1];
-            if (ai === 0) {
-              d[outRow + 2 * u] += ar * kr;
-              d[outRow + 2 * u + 1] += ar * ki;
-            } else {
+    for (let v = 0; v < ny; v++) {
+      const outRow = base + 2 * v * nx;
+      for (let qi = 0; qi < m; qi++) {
+        const b = -L * (v - cy) - (qi - P) - myMin;
+        for (let pi = 0; pi < m; pi++) {
+          const at = 2 * ((c * m + qi) * m + pi);
+          const ar = coefficients[at];
+          const ai = coefficients[at + 1];
+          if (ar === 0 && ai === 0) continue;
+          const rowStart = 2 * (b * fx + (-L * cx - (pi - P) - mxMin));
+          if (ai === 0) {
+            for (let u = 0; u < nx; u++) {
+              const f = rowStart + 2 * L * u;
+              d[outRow + 2 * u] += ar * fine[f];
+              d[outRow + 2 * u + 1] += ar * fine[f + 1];
+            }
+          } else {
+            for (let u = 0; u < nx; u++) {
+              const f = rowStart + 2 * L * u;
+              const kr = fine[f];
+              const ki = fine[f + 1];
               d[outRow + 2 * u] += ar * kr - ai * ki;
               d[outRow + 2 * u + 1] += ar * ki + ai * kr;
             }
