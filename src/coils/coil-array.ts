@@ -2,6 +2,7 @@ import { ValidationError } from '../core/errors.ts';
 import { type CoilMaps, createMultiCoilArray } from '../encoding/multi-coil.ts';
 import { gaussianArrayMaps } from './gaussian-array.ts';
 import { loopArrayMaps } from './loop-array.ts';
+import { CoilNoise } from './noise-covariance.ts';
 import { normaliseSumOfSquares } from './normalise.ts';
 
 /** One coil with S = 1 everywhere: today's single-coil acquisition. */
@@ -22,6 +23,8 @@ export interface LoopArraySpec {
   startAngleDeg?: number;
   /** Biot–Savart integration steps per loop (default 128, even). */
   segments?: number;
+  /** Noise correlation ρ between ring neighbours (default 0: independent coils). */
+  correlation?: number;
 }
 
 /** Gaussian sensitivity profiles centred on a ring. */
@@ -31,6 +34,8 @@ export interface GaussianArraySpec {
   width: number;
   ringRadius: number | readonly [number, number];
   startAngleDeg?: number;
+  /** Noise correlation ρ between ring neighbours (default 0: independent coils). */
+  correlation?: number;
 }
 
 export type CoilArraySpec = UniformArraySpec | LoopArraySpec | GaussianArraySpec;
@@ -103,6 +108,13 @@ export function coilArrayMaps(spec: CoilArraySpec, nx: number, ny: number, field
         allowed: 'uniform | loops | gaussian',
       });
   }
+}
+
+/** The receiver noise model of an array: Ψ with ρ between ring neighbours (Ψ = I for `uniform` and ρ = 0). */
+export function coilArrayNoise(spec: CoilArraySpec, field = 'coils'): CoilNoise {
+  if (spec.array === 'uniform') return CoilNoise.ring(1, 0, `${field}.correlation`);
+  checkCount(spec.count, field);
+  return CoilNoise.ring(spec.count, spec.correlation ?? 0, `${field}.correlation`);
 }
 
 function checkCount(count: number, field: string): void {

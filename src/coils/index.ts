@@ -2,6 +2,7 @@ export {
   COIL_LIMITS,
   type CoilArraySpec,
   coilArrayMaps,
+  coilArrayNoise,
   type GaussianArraySpec,
   type LoopArraySpec,
   type UniformArraySpec,

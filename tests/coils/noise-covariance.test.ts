@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { coilArrayNoise } from '../../src/coils/coil-array.ts';
 import { CoilNoise, ringCorrelationRange, ringNoiseCovariance } from '../../src/coils/noise-covariance.ts';
 import { ValidationError } from '../../src/core/errors.ts';
 import { SeededRandom } from '../../src/core/random.ts';
@@ -54,6 +55,16 @@ describe('receiver noise correlated across coils', () => {
         expect((error as ValidationError).problems[0].field).toBe('coils.correlation');
       }
     }
+  });
+
+  it('an array spec carries its neighbour correlation (default 0: Ψ = I)', () => {
+    const spec = { array: 'loops', count: 4, loopRadius: 0.35, ringRadius: 1.25 } as const;
+    expect(Array.from(coilArrayNoise({ ...spec, correlation: 0.1 }).covariance)).toEqual(
+      Array.from(ringNoiseCovariance(4, 0.1)),
+    );
+    expect(Array.from(coilArrayNoise(spec).lower)).toEqual(Array.from(ringNoiseCovariance(4, 0)));
+    expect(coilArrayNoise({ array: 'uniform' }).coils).toBe(1);
+    expect(() => coilArrayNoise({ ...spec, correlation: 0.6 })).toThrow(/coils.correlation/);
   });
 
   it('drawn noise has covariance 2σ²Ψ; prewhitening makes it 2σ²·I (within 5 standard errors)', () => {
