@@ -171,12 +171,14 @@ export interface GFactorSummary {
 export function summariseGFactor(g: Float64Array, mask: Uint8Array, field = 'objectMask'): GFactorSummary {
   if (mask.length !== g.length)
     throw new RangeError(`mask must hold ${g.length} entries, got ${mask.length}`);
-  const values: number[] = [];
-  for (let i = 0; i < g.length; i++) if (mask[i]) values.push(g[i]);
-  if (values.length === 0) {
+  let count = 0;
+  for (let i = 0; i < g.length; i++) if (mask[i]) count++;
+  if (count === 0) {
     throw new ValidationError({ field, message: 'the object mask is empty', allowed: 'at least one pixel' });
   }
-  const sorted = Float64Array.from(values).sort();
+  const sorted = new Float64Array(count);
+  for (let i = 0, k = 0; i < g.length; i++) if (mask[i]) sorted[k++] = g[i];
+  sorted.sort();
   let sum = 0;
   for (const v of sorted) sum += v;
   const rank = 0.95 * (sorted.length - 1);
