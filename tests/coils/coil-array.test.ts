@@ -30,7 +30,7 @@ describe('coil arrays: normalisation', () => {
           sum += maps.data[2 * (c * px + i)] ** 2 + maps.data[2 * (c * px + i) + 1] ** 2;
         worst = Math.max(worst, Math.abs(sum - 1));
       }
-      expect(worst).toBeLessThan(1e-14);
+      expect(worst).toBeLessThan(1e-14); // measured ≤ 6.7e-16
     });
   }
 
@@ -59,7 +59,7 @@ describe('coil arrays: symmetry of the Biot–Savart maps', () => {
           }
         }
       }
-      expect(worst).toBeLessThan(1e-12);
+      expect(worst).toBeLessThan(1e-12); // measured 1.3e-15 (4 loops), 3.9e-15 (8 loops)
     });
 
     // A 90° turn (x, y) → (−y, x) carries coil c onto coil c + N/4 and B onto R·B, so
@@ -76,7 +76,7 @@ describe('coil arrays: symmetry of the Biot–Savart maps', () => {
           }
         }
       }
-      expect(worst).toBeLessThan(1e-12);
+      expect(worst).toBeLessThan(1e-12); // measured 1.1e-15 (4 loops), 7.2e-15 (8 loops)
     });
   }
 
@@ -90,8 +90,8 @@ describe('coil arrays: symmetry of the Biot–Savart maps', () => {
       same = Math.max(same, Math.abs(up.data[i] - down.data[i]));
       change = Math.max(change, Math.abs(up.data[i] - flat.data[i]));
     }
-    expect(same).toBeLessThan(1e-12);
-    expect(change).toBeGreaterThan(0.01);
+    expect(same).toBeLessThan(1e-12); // measured 6.7e-16
+    expect(change).toBeGreaterThan(0.01); // measured 0.017
   });
 
   it('the coil nearest a pixel dominates it (loop at the top is strongest at the top edge)', () => {
@@ -100,8 +100,8 @@ describe('coil arrays: symmetry of the Biot–Savart maps', () => {
     // Coil 0 sits at 90° (top, row 0). Its share of the combined sensitivity is largest at the top.
     const top = Math.hypot(...at(maps, 0, 0, centre));
     const bottom = Math.hypot(...at(maps, 0, n - 1, centre));
-    expect(top).toBeGreaterThan(0.9);
-    expect(bottom).toBeLessThan(0.2);
+    expect(top).toBeGreaterThan(0.9); // measured 0.9996
+    expect(bottom).toBeLessThan(0.2); // measured 0.0079
   });
 });
 
@@ -127,7 +127,7 @@ describe('Gaussian-profile arrays against numpy (generate_coil_fixtures.py)', ()
         worst = Math.max(worst, Math.hypot(maps.data[d] - re, maps.data[d + 1] - im));
       });
     }
-    expect(worst).toBeLessThan(1e-13);
+    expect(worst).toBeLessThan(1e-13); // measured 1.1e-16
   });
 });
 
