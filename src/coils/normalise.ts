@@ -1,0 +1,36 @@
+import { ValidationError } from '../core/errors.ts';
+import type { CoilMaps } from '../encoding/multi-coil.ts';
+
+/**
+ * Scales the maps in place so that Σ_c |S_c|² = 1 at every pixel: S_c ← S_c / √(Σ_c′ |S_c′|²).
+ * The scaling field is applied on the whole grid, inside the object and outside alike, so the
+ * condition holds on any object mask and the maps stay as smooth as the coil fields themselves
+ * (the root-sum-of-squares is smooth and positive). Then the sensitivity-weighted combination of the
+ * fully sampled coil images returns the object itself (common practice).
+ */
+export function normaliseSumOfSquares(maps: CoilMaps): CoilMaps {
+  const { coils } = maps;
+  const n = maps.nx * maps.ny;
+  const d = maps.data;
+  for (let i = 0; i < n; i++) {
+    let sum = 0;
+    for (let c = 0; c < coils; c++) {
+      const k = 2 * (c * n + i);
+      sum += d[k] * d[k] + d[k + 1] * d[k + 1];
+    }
+    if (!(sum > 0) || !Number.isFinite(sum)) {
+      throw new ValidationError({
+        field: 'coils',
+        message: `the coils' combined sensitivity is ${sum} at pixel ${i} (row ${Math.floor(i / maps.nx)}, column ${i % maps.nx}), so it cannot be normalised`,
+        allowed: 'arrays whose coils together see every pixel of the field of view',
+      });
+    }
+    const scale = 1 / Math.sqrt(sum);
+    for (let c = 0; c < coils; c++) {
+      const k = 2 * (c * n + i);
+      d[k] *= scale;
+      d[k + 1] *= scale;
+    }
+  }
+  return maps;
+}

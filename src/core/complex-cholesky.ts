@@ -1,0 +1,168 @@
+/**
+ * Small dense complex linear algebra on interleaved row-major n×n matrices
+ * (a[2(i·n + j)] = Re a_ij, a[2(i·n + j) + 1] = Im a_ij): the Cholesky factorisation A = L·Lᴴ of a
+ * Hermitian positive definite matrix, triangular solves and inverses. Written here because the
+ * well-kept npm linear-algebra packages are real-valued; n is small (coils, aliased pixels).
+ * The algorithm is the textbook one (Golub & Van Loan, "Matrix Computations", §4.2 — from memory).
+ */
+
+/** Relative pivot below which a matrix counts as singular (not numerically positive definite). */
+export const DEFAULT_PIVOT_TOLERANCE = 1e-12;
+
+/**
+ * Factorises the Hermitian matrix `a` (only its lower triangle is read) into `l`, lower triangular
+ * with a real positive diagonal, zero above; `l` may be `a`. Returns the index of the first pivot
+ * that is not above `tolerance × max diagonal` (the matrix is singular or indefinite there), or −1
+ * when the factorisation succeeded.
+ */
+export function choleskyLower(
+  a: Float64Array,
+  n: number,
+  l: Float64Array = a,
+  tolerance = DEFAULT_PIVOT_TOLERANCE,
+): number {
+  checkSquare(a, n, 'a');
+  checkSquare(l, n, 'l');
+  let maxDiagonal = 0;
+  for (let i = 0; i < n; i++) maxDiagonal = Math.max(maxDiagonal, Math.abs(a[2 * (i * n + i)]));
+  const floor = tolerance * maxDiagonal;
+  for (let j = 0; j < n; j++) {
+    let d = a[2 * (j * n + j)];
+    for (let k = 0; k < j; k++) {
+      const re = l[2 * (j * n + k)];
+      const im = l[2 * (j * n + k) + 1];
+      d -= re * re + im * im;
+    }
+    if (!(d > floor) || maxDiagonal === 0) return j;
+    const ljj = Math.sqrt(d);
+    l[2 * (j * n + j)] = ljj;
+    l[2 * (j * n + j) + 1] = 0;
+    for (let i = j + 1; i < n; i++) {
+      // l_ij = (a_ij − Σ_k l_ik·conj(l_jk)) / l_jj
+      let re = a[2 * (i * n + j)];
+      let im = a[2 * (i * n + j) + 1];
+      for (let k = 0; k < j; k++) {
+        const ar = l[2 * (i * n + k)];
+        const ai = l[2 * (i * n + k) + 1];
+        const br = l[2 * (j * n + k)];
+        const bi = l[2 * (j * n + k) + 1];
+        re -= ar * br + ai * bi;
+        im -= ai * br - ar * bi;
+      }
+      l[2 * (i * n + j)] = re / ljj;
+      l[2 * (i * n + j) + 1] = im / ljj;
+    }
+    for (let i = 0; i < j; i++) {
+      l[2 * (i * n + j)] = 0;
+      l[2 * (i * n + j) + 1] = 0;
+    }
+  }
+  return -1;
+}
+
+/** Solves L·x = b in place for lower-triangular L; b is n complex numbers from `offset` (complex index). */
+export function solveLower(l: Float64Array, n: number, b: Float64Array, offset = 0): void {
+  for (let i = 0; i < n; i++) {
+    let re = b[2 * (offset + i)];
+    let im = b[2 * (offset + i) + 1];
+    for (let k = 0; k < i; k++) {
+      const lr = l[2 * (i * n + k)];
+      const li = l[2 * (i * n + k) + 1];
+      const xr = b[2 * (offset + k)];
+      const xi = b[2 * (offset + k) + 1];
+      re -= lr * xr - li * xi;
+      im -= lr * xi + li * xr;
+    }
+    const dr = l[2 * (i * n + i)];
+    const di = l[2 * (i * n + i) + 1];
+    const den = dr * dr + di * di;
+    b[2 * (offset + i)] = (re * dr + im * di) / den;
+    b[2 * (offset + i) + 1] = (im * dr - re * di) / den;
+  }
+}
+
+/** Solves Lᴴ·x = b in place for lower-triangular L (an upper-triangular solve with conj(L)ᵀ). */
+export function solveLowerConjugateTranspose(l: Float64Array, n: number, b: Float64Array, offset = 0): void {
+  for (let i = n - 1; i >= 0; i--) {
+    let re = b[2 * (offset + i)];
+    let im = b[2 * (offset + i) + 1];
+    for (let k = i + 1; k < n; k++) {
+      // (Lᴴ)_ik = conj(l_ki)
+      const lr = l[2 * (k * n + i)];
+      const li = -l[2 * (k * n + i) + 1];
+      const xr = b[2 * (offset + k)];
+      const xi = b[2 * (offset + k) + 1];
+      re -= lr * xr - li * xi;
+      im -= lr * xi + li * xr;
+    }
+    const dr = l[2 * (i * n + i)];
+    const di = -l[2 * (i * n + i) + 1];
+    const den = dr * dr + di * di;
+    b[2 * (offset + i)] = (re * dr + im * di) / den;
+    b[2 * (offset + i) + 1] = (im * dr - re * di) / den;
+  }
+}
+
+/** Inverse of a lower-triangular L into `out` (lower triangular, zero above); `out` must differ from `l`. */
+export function invertLower(l: Float64Array, n: number, out: Float64Array): void {
+  checkSquare(l, n, 'l');
+  checkSquare(out, n, 'out');
+  if (out === l) throw new RangeError('out must differ from l');
+  out.fill(0);
+  for (let j = 0; j < n; j++) {
+    // Column j of L⁻¹ solves L·x = e_j; entries above j are zero.
+    for (let i = j; i < n; i++) {
+      let re = i === j ? 1 : 0;
+      let im = 0;
+      for (let k = j; k < i; k++) {
+        const lr = l[2 * (i * n + k)];
+        const li = l[2 * (i * n + k) + 1];
+        const xr = out[2 * (k * n + j)];
+        const xi = out[2 * (k * n + j) + 1];
+        re -= lr * xr - li * xi;
+        im -= lr * xi + li * xr;
+      }
+      const dr = l[2 * (i * n + i)];
+      const di = l[2 * (i * n + i) + 1];
+      const den = dr * dr + di * di;
+      out[2 * (i * n + j)] = (re * dr + im * di) / den;
+      out[2 * (i * n + j) + 1] = (im * dr - re * di) / den;
+    }
+  }
+}
+
+/**
+ * Inverse of a Hermitian positive definite A from its Cholesky factor: A⁻¹ = L⁻ᴴ·L⁻¹, written to
+ * `out` (full matrix). `scratch` (2n² numbers) receives L⁻¹.
+ */
+export function hermitianInverseFromCholesky(
+  l: Float64Array,
+  n: number,
+  out: Float64Array,
+  scratch: Float64Array = new Float64Array(2 * n * n),
+): void {
+  invertLower(l, n, scratch);
+  for (let i = 0; i < n; i++) {
+    for (let j = 0; j < n; j++) {
+      // (A⁻¹)_ij = Σ_k conj(M_ki)·M_kj with M = L⁻¹ (zero above the diagonal, so k ≥ max(i, j)).
+      let re = 0;
+      let im = 0;
+      for (let k = Math.max(i, j); k < n; k++) {
+        const ar = scratch[2 * (k * n + i)];
+        const ai = scratch[2 * (k * n + i) + 1];
+        const br = scratch[2 * (k * n + j)];
+        const bi = scratch[2 * (k * n + j) + 1];
+        re += ar * br + ai * bi;
+        im += ar * bi - ai * br;
+      }
+      out[2 * (i * n + j)] = re;
+      out[2 * (i * n + j) + 1] = im;
+    }
+  }
+}
+
+function checkSquare(m: Float64Array, n: number, name: string): void {
+  if (!Number.isInteger(n) || n < 1) throw new RangeError(`n must be a positive integer, got ${n}`);
+  if (m.length !== 2 * n * n)
+    throw new RangeError(`${name} must hold 2·n² = ${2 * n * n} numbers, got ${m.length}`);
+}

@@ -1,0 +1,10 @@
+export { transformPlaneInPlace } from './block-fft.ts';
+export { CartesianEncoding } from './cartesian-encoding.ts';
+export type { CoilSamples, EncodingOperator, EncodingShapes } from './encoding-operator.ts';
+export {
+  type CoilMaps,
+  checkMultiCoilShape,
+  createMultiCoilArray,
+  type MultiCoilArray,
+  type MultiCoilKspace,
+} from './multi-coil.ts';
