@@ -87,6 +87,7 @@ describe('the OpenAPI 3.1 contract (openapi.yaml)', () => {
     expect(page.status).toBe(200);
     expect(page.headers['content-type']).toMatch(/^text\/html/);
     expect(page.text).toMatch(/swagger-ui/i);
+    expect(page.text).toContain('<title>k-space planner API</title>');
     expect(page.text).not.toMatch(/(src|href)="https?:\/\//);
     const script = /src="([^"]*swagger-ui-bundle\.js)"/.exec(page.text);
     expect(script).not.toBeNull();

@@ -36,12 +36,12 @@ describe('RFC 9457 problem details for every class of bad input (REFERENCES §10
     const res = await t
       .http()
       .post('/v1/scan-time')
-      .send({ matrix: { nx: 64, ny: 64 }, protocol: { trMs: -1, nex: 0 } });
+      .send({ matrix: { nx: 64, ny: 64 }, protocol: { trMs: -1, averages: 0 } });
     const problem = expectProblem(res, 422);
     expect(problem.errors).toEqual(
       expect.arrayContaining([
         expect.objectContaining({ field: 'protocol.trMs', allowed: '> 0' }),
-        expect.objectContaining({ field: 'protocol.nex', allowed: '≥ 1' }),
+        expect.objectContaining({ field: 'protocol.averages', allowed: '≥ 1' }),
       ]),
     );
     await expectDocumented('POST', '/v1/scan-time', res);

@@ -335,7 +335,7 @@ describe('planner page in Chromium', () => {
     const protocol = await page.evaluate(() => ({
       dimensions: (document.querySelector('#dimensions') as HTMLSelectElement).value,
       trMs: Number((document.querySelector('#trMs') as HTMLInputElement).value),
-      nex: Number((document.querySelector('#nex') as HTMLInputElement).value),
+      averages: Number((document.querySelector('#averages') as HTMLInputElement).value),
       echoTrainLength: Number((document.querySelector('#echoTrainLength') as HTMLInputElement).value),
       slices: Number((document.querySelector('#slices') as HTMLInputElement).value),
       partialFourier: Number((document.querySelector('#partialFourier') as HTMLInputElement).value),

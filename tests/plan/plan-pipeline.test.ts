@@ -24,7 +24,7 @@ describe('plan through the real pipeline (32×32)', () => {
     const reference = table.rows[0];
     expect(reference.reference).toBe(true);
     expect(reference.timeSavedPct).toBe(0);
-    // REFERENCES.md §8 [C] formula: TR 500 ms × 32 lines × NEX 1 = 16 s.
+    // REFERENCES.md §8 [C] formula: TR 500 ms × 32 lines × 1 average = 16 s.
     expect(reference.scanSeconds).toBe(16);
     expect(reference.metrics.nrmse.mean).toBeLessThan(1e-12);
     expect(reference.metrics.hfen.mean).toBeLessThan(1e-12);

@@ -165,7 +165,7 @@ function problems(input: unknown, limits = defaultLimits) {
 describe('plan validation names the field and the allowed range', () => {
   it.each([
     [{ protocol: { trMs: 0 } }, 'protocol.trMs', '> 0'],
-    [{ protocol: { trMs: 500, nex: 0 } }, 'protocol.nex', '≥ 1'],
+    [{ protocol: { trMs: 500, averages: 0 } }, 'protocol.averages', '≥ 1'],
     [{ protocol: { trMs: 500, partialFourier: 0.3 } }, 'protocol.partialFourier', '≥ 0.5'],
     [{ accelerations: [2, 3, 0.5] }, 'accelerations[2]', '≥ 1'],
     [{ accelerations: [2, 3, 2] }, 'accelerations[2]', 'distinct values'],
