@@ -15,9 +15,13 @@ import { z } from 'zod';
  */
 const averagesValue = z.int().min(1).max(64);
 
-const commonFields = {
+// Two groups so that `averages` sits after `trMs` in both schemas (and in openapi.yaml).
+const leadingFields = {
   dimensions: z.enum(['2d', '3d']).default('2d').describe("'2d' multi-slice or '3d' (ny×nx = ky×kz)"),
   trMs: z.number().positive().max(100_000).describe('repetition time in milliseconds, > 0'),
+};
+
+const trailingFields = {
   echoTrainLength: z
     .int()
     .min(1)
@@ -44,13 +48,14 @@ const averagesDescription = 'number of signal averages (DICOM Number of Averages
 /** What a client may send: `averages`, or (deprecated) `nex`, or neither (1). */
 const protocolRequest = z
   .strictObject({
-    ...commonFields,
+    ...leadingFields,
     averages: averagesValue.optional().meta({ description: `${averagesDescription}; default 1`, default: 1 }),
     nex: averagesValue.optional().meta({
       deprecated: true,
       description:
         'deprecated alias of `averages`, accepted in this version only; when both are given they must be equal',
     }),
+    ...trailingFields,
   })
   .superRefine((p, ctx) => {
     if (p.dimensions === '3d' && p.slices !== 1) {
@@ -73,8 +78,9 @@ const protocolRequest = z
 
 /** What the engines read: `averages` only. Parsing it again gives the same value. */
 const protocolParsed = z.strictObject({
-  ...commonFields,
+  ...leadingFields,
   averages: averagesValue.describe(averagesDescription),
+  ...trailingFields,
 });
 
 type ParsedProtocol = z.output<typeof protocolParsed>;
