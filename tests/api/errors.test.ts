@@ -3,7 +3,7 @@ import { expectDocumented, expectProblem, postProblem, type TestApp, testApp } f
 
 const scanTime = { matrix: { nx: 64, ny: 64 }, protocol: { trMs: 500 } };
 
-describe('RFC 9457 problem details for every class of bad input (REFERENCES §10.4)', () => {
+describe('RFC 9457 problem details for every class of bad input (docs/references.md §10.4)', () => {
   let t: TestApp;
   beforeAll(async () => {
     t = await testApp({ maxJsonBytes: 4096, limits: { maxMatrixSide: 128 } });
@@ -219,7 +219,7 @@ describe('bounded worker queue for request-driven work', () => {
 });
 
 describe('never a 500 on any JSON route', () => {
-  it('hostile bodies on every POST route answer 4xx problem+json and leave the service healthy (DESIGN.md: never a 500)', async () => {
+  it('hostile bodies on every POST route answer 4xx problem+json and leave the service healthy (docs/design.md §4.1: never a 500)', async () => {
     const t = await testApp({ workers: 1 });
     try {
       const routes = [

@@ -77,7 +77,7 @@ describe('runPlan with an injected cell runner', () => {
     expect(table.rows.length).toBe(7);
   });
 
-  it('scan time strictly decreases with R at a fixed pattern (real masks, REFERENCES.md §8 formula)', async () => {
+  it('scan time strictly decreases with R at a fixed pattern (real masks, docs/references.md §8 formula)', async () => {
     const table = await runPlan(body({ accelerations: [1, 2, 3, 4, 6] }), { runCellFn: syntheticCell });
     for (const patternIndex of [0, 1]) {
       const rows = table.rows.filter((r) => r.patternIndex === patternIndex);

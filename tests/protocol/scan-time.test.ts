@@ -26,7 +26,7 @@ function problemOf(fn: () => unknown): { field: string; allowed?: string } {
   throw new Error('expected a ValidationError');
 }
 
-describe('scan time: worked examples of REFERENCES.md §8', () => {
+describe('scan time: worked examples of docs/references.md §8', () => {
   it('[C] 2D SE, TR 500 ms, 256 lines, 1 average → 128 s = 2:08', () => {
     const t = scanTime({ nx: 256, ny: 256 }, { trMs: 500, averages: 1 });
     expect(t.seconds).toBe(128);
@@ -41,14 +41,14 @@ describe('scan time: worked examples of REFERENCES.md §8', () => {
     expect(t.formatted).toBe('4:16');
   });
 
-  it('[C] FSE, TR 4000 ms, 256 lines, 2 averages, ETL 16 → 128 s = 2:08', () => {
+  it('[C] spin echo with an echo train, TR 4000 ms, 256 lines, 2 averages, ETL 16 → 128 s = 2:08', () => {
     const t = scanTime({ nx: 256, ny: 256 }, { trMs: 4000, averages: 2, echoTrainLength: 16 });
     expect(t.shots).toBe(16);
     expect(t.seconds).toBe(128);
     expect(t.formatted).toBe('2:08');
   });
 
-  it('[C] FSE, TR 2500 ms, 224 lines, 4 averages, ETL 12: ⌈224/12⌉ = 19 shots → 190 s = 3:10', () => {
+  it('[C] spin echo with an echo train, TR 2500 ms, 224 lines, 4 averages, ETL 12: ⌈224/12⌉ = 19 shots → 190 s = 3:10', () => {
     const t = scanTime({ nx: 256, ny: 224 }, { trMs: 2500, averages: 4, echoTrainLength: 12 });
     expect(t.shots).toBe(19);
     expect(t.seconds).toBe(190);
@@ -103,7 +103,7 @@ describe('scan time: worked examples of REFERENCES.md §8', () => {
   });
 });
 
-describe('scan time: slices, partial Fourier and masks (common practice, REFERENCES.md §8)', () => {
+describe('scan time: slices, partial Fourier and masks (common practice, docs/references.md §8)', () => {
   it('slices do not multiply 2D time while they fit in one TR; extra passes do', () => {
     const one = scanTime({ nx: 256, ny: 256 }, { trMs: 500, slices: 20 });
     expect(one.passes).toBe(1);
@@ -153,7 +153,7 @@ describe('scan time: slices, partial Fourier and masks (common practice, REFEREN
   });
 });
 
-describe('scan time: validation names the field and the allowed range (TR > 0, averages ≥ 1, partial Fourier in [0.5, 1]; DESIGN.md typed errors)', () => {
+describe('scan time: validation names the field and the allowed range (TR > 0, averages ≥ 1, partial Fourier in [0.5, 1]; docs/design.md §4.1 typed errors)', () => {
   const matrix = { nx: 64, ny: 64 };
   it.each([
     [{ trMs: 0 }, 'protocol.trMs', '> 0'],
