@@ -68,7 +68,7 @@ describe('DICOM decoder on the pydicom test files (docs/references.md §12.1)', 
     });
   }
 
-  it('decimal_rescale.dcm: Rescale Slope 2, Intercept −4096 on all-zero stored pixels ⇒ every value −4096 (§12.2)', () => {
+  it('decimal_rescale.dcm: Rescale Slope 2, Intercept −4096 on all-zero stored pixels ⇒ every value −4096 (docs/references.md §12.2)', () => {
     const { image, meta } = decodeDicom(debianFile('nicom', 'decimal_rescale.dcm'));
     expect([image.nx, image.ny]).toEqual([128, 96]); // 96 rows × 128 columns
     expect(image.data.every((v) => v === -4096)).toBe(true);
@@ -76,7 +76,7 @@ describe('DICOM decoder on the pydicom test files (docs/references.md §12.1)', 
     expect(meta.rescaleIntercept).toBe(-4096);
   });
 
-  it('nicom 0.dcm: 256×256 uint16 with Bits Stored 12, Implicit VR LE, pixel sum 134184960 (§12.2)', () => {
+  it('nicom 0.dcm: 256×256 uint16 with Bits Stored 12, Implicit VR LE, pixel sum 134184960 (docs/references.md §12.2)', () => {
     const { image, meta } = decodeDicom(debianFile('nicom', '0.dcm'));
     expect([image.nx, image.ny]).toEqual([256, 256]);
     expect(sum(image.data)).toBe(134184960);

@@ -63,7 +63,7 @@ describe('analytic grid k-space against the DFT of a fine raster (docs/reference
 
   it('central 33×33: relative error < 0.5 % at n = 256, ss = 8 (docs/references.md §1.3 gives 0.0025)', () => {
     expect(e256).toBeLessThan(0.005);
-    expect(e128).toBeLessThan(0.015); // §1.3: 0.010
+    expect(e128).toBeLessThan(0.015); // docs/references.md §1.3: 0.010
   });
 
   it('reproduces the docs/references.md §1.3 [C] table (NumPy, same convention) to the digits it quotes', () => {
@@ -79,20 +79,20 @@ describe('analytic grid k-space against the DFT of a fine raster (docs/reference
     expect(s128 / s256).toBeGreaterThan(3);
   });
 
-  it('sinc-corrected central error: < 0.005 at n = 128 and < 0.0012 at n = 256 (§1.3 gives 0.0034 and 0.00083)', () => {
+  it('sinc-corrected central error: < 0.005 at n = 128 and < 0.0012 at n = 256 (docs/references.md §1.3 gives 0.0034 and 0.00083)', () => {
     expect(s128).toBeLessThan(0.005);
     expect(s256).toBeLessThan(0.0012);
     expect(s256).toBeLessThan(e256);
   });
 
-  it('whole-grid error stays at several % from aliasing, as §1.3 reports (0.059 at n = 256)', () => {
+  it('whole-grid error stays at several % from aliasing, as docs/references.md §1.3 reports (0.059 at n = 256)', () => {
     const whole = wholeGridError(modified, 256);
     expect(whole).toBeGreaterThan(0.05);
     expect(whole).toBeLessThan(0.07);
   });
 
   it('odd and non-square sizes (127×129, 129×96) agree as well as 128×128 (centre at ⌊n/2⌋, docs/design.md §3.3)', () => {
-    // The error falls like 1/n² (§1.3), so the bound scales with the shorter side. A centre off by
+    // The error falls like 1/n² (docs/references.md §1.3), so the bound scales with the shorter side. A centre off by
     // half a pixel (the literal (2j − n)/n for odd n, docs/references.md §0) gives about 12 % at 127×129.
     for (const [nx, ny] of [
       [127, 129],

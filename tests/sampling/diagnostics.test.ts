@@ -117,7 +117,7 @@ describe('PSF diagnostics', () => {
       // bounds are the largest of them plus 15 %.
       expect(random.peakSidelobe).toBeLessThan(0.26 * uniform.peakSidelobe);
       expect(poisson.peakSidelobe).toBeLessThan(0.046 * uniform.peakSidelobe);
-      // Spreading the aliasing over a plane instead of a line lowers it further (§3.6: 1/√N scaling);
+      // Spreading the aliasing over a plane instead of a line lowers it further (docs/references.md §3.6: 1/√N scaling);
       // measured ratio 0.17–0.20.
       expect(poisson.peakSidelobe).toBeLessThan(0.23 * random.peakSidelobe);
     }
