@@ -21,7 +21,7 @@ const scanTimeResponse = z
     formatted: z.string().describe('m:ss'),
     acquired: z.number().describe('the count that costs time, in `unit`'),
     unit: z.enum(['lines', 'points', 'spokes']),
-    shots: z.int().describe('TRs per pass and excitation: ⌈acquired / echoTrainLength⌉'),
+    shots: z.int().describe('TRs per pass and per average: ⌈acquired / echoTrainLength⌉'),
     passes: z.int().describe('slice passes (2D)'),
   })
   .meta({ id: 'ScanTime' });

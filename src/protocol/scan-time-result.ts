@@ -8,7 +8,7 @@ export const scanTimeResultSchema = z.object({
     .number()
     .describe('count that costs time: phase-encode lines (2D), ky–kz points (3D) or spokes (radial)'),
   unit: z.enum(['lines', 'points', 'spokes']),
-  shots: z.int().describe('⌈acquired / echoTrainLength⌉: TRs per pass and excitation'),
+  shots: z.int().describe('⌈acquired / echoTrainLength⌉: TRs per pass and per average'),
   passes: z.int().describe('⌈slices / slicesPerPass⌉ (2D); 1 in 3D'),
 });
 
