@@ -17,7 +17,7 @@ const scanTimeBody = z
 
 const scanTimeResponse = z
   .object({
-    seconds: z.number().describe('acquisition time in seconds (calibration scans and steady-state preparation excluded)'),
+    seconds: z.number().describe('acquisition time in seconds (calibration and preparation scans excluded)'),
     formatted: z.string().describe('m:ss'),
     acquired: z.number().describe('the count that costs time, in `unit`'),
     unit: z.enum(['lines', 'points', 'spokes']),

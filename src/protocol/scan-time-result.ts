@@ -2,7 +2,7 @@ import { z } from 'zod';
 
 /** What the scan-time model returns (POST /v1/scan-time answers with it; plan tables embed it). */
 export const scanTimeResultSchema = z.object({
-  seconds: z.number().describe('acquisition time in seconds (calibration scans and steady-state preparation excluded)'),
+  seconds: z.number().describe('acquisition time in seconds (calibration and preparation scans excluded)'),
   formatted: z.string().describe('m:ss, tenths shown when not zero (163.84 s → "2:43.8"), h:mm:ss from 1 h'),
   acquired: z
     .number()

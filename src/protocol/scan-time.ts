@@ -16,7 +16,7 @@ export interface ScanTimeSampling {
 }
 
 /**
- * Acquisition time (docs/references.md §8; calibration scans and steady-state preparation excluded):
+ * Acquisition time (docs/references.md §8; calibration and preparation scans excluded):
  *   2D Cartesian  TA = TR × ⌈lines / ETL⌉ × averages × passes
  *   3D Cartesian  TA = TR × ⌈points(ky,kz) / ETL⌉ × averages      (matrix ny×nx = ky×kz)
  *   radial        TA = TR × ⌈spokes / ETL⌉ × averages × passes         (ETL > 1: several spokes per TR)
