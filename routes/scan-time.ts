@@ -17,11 +17,11 @@ const scanTimeBody = z
 
 const scanTimeResponse = z
   .object({
-    seconds: z.number().describe('acquisition time in seconds (prescan and dummy scans excluded)'),
+    seconds: z.number().describe('acquisition time in seconds (calibration and preparation scans excluded)'),
     formatted: z.string().describe('m:ss'),
     acquired: z.number().describe('the count that costs time, in `unit`'),
     unit: z.enum(['lines', 'points', 'spokes']),
-    shots: z.int().describe('TRs per pass and excitation: ⌈acquired / echoTrainLength⌉'),
+    shots: z.int().describe('TRs per pass and per average: ⌈acquired / echoTrainLength⌉'),
     passes: z.int().describe('slice passes (2D)'),
   })
   .meta({ id: 'ScanTime' });

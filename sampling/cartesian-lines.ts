@@ -4,7 +4,7 @@ import type { SampledMask } from './sampled-mask.ts';
 /**
  * Matrix-dependent checks shared by the line patterns: at least one line (R ≤ ny), the ACS block
  * inside the matrix (acs ≤ ny) and inside the line budget round(ny / R) — the ACS counts in the total,
- * so a budget smaller than the ACS cannot be met (REFERENCES.md §3.2). A pattern that draws lines at
+ * so a budget smaller than the ACS cannot be met (docs/references.md §3.2). A pattern that draws lines at
  * random (`drawsLines`) also needs at least one line left outside the ACS, unless R rounds to full
  * sampling. Returns the budget.
  */

@@ -10,7 +10,7 @@ export const GOLDEN_ANGLE = Math.PI / GOLDEN_RATIO;
 
 /**
  * Radial Nyquist spoke count for full spokes of N readout samples over 180°: the azimuthal gap at
- * the edge of k-space must not exceed Δk, so N_spokes = ⌈π/2 · N⌉ (REFERENCES.md §3.5; DESIGN.md).
+ * the edge of k-space must not exceed Δk, so N_spokes = ⌈π/2 · N⌉ (docs/references.md §3.5; docs/design.md §3.4).
  * N is the larger matrix side, N = max(nx, ny), so the spokes cover the whole grid.
  */
 export function nyquistSpokes(matrix: Matrix): number {
@@ -62,7 +62,7 @@ export function rasteriseSpokes(matrix: Matrix, theta: Float64Array): Uint8Array
 
 /**
  * Radial sampling: ⌈N_Nyquist / R⌉ full spokes through the centre, at uniform angles or golden-angle
- * increments. The acceleration is counted in spokes (DESIGN.md); the mask is the rasterised
+ * increments. The acceleration is counted in spokes (docs/design.md §3.4); the mask is the rasterised
  * representation, and the exact angles are kept for a non-Cartesian path.
  */
 export function radialMask(matrix: Matrix, spec: RadialSpec): SampledMask {

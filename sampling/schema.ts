@@ -2,7 +2,7 @@ import { z } from 'zod';
 import { type FieldProblem, ValidationError } from '../src/core/errors.ts';
 
 /**
- * The "sampling" piece of a request (DESIGN.md): one object per mask family, told apart by `pattern`.
+ * The "sampling" piece of a request (docs/design.md §4.3): one object per mask family, told apart by `pattern`.
  * Matrix-dependent limits (R too high for the matrix, ACS larger than the matrix) are checked by the
  * generators, which know the matrix; this schema checks what can be checked on its own.
  */

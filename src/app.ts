@@ -25,7 +25,7 @@ import { scanTimeRoutes } from '../routes/scan-time.ts';
 import { defaultLimits, type Limits } from './core/limits.ts';
 import { installApiKeyAuth } from './http/auth.ts';
 import { installErrorHandling } from './http/error-handler.ts';
-import { swaggerOptions } from './http/openapi.ts';
+import { swaggerOptions, swaggerUiOptions } from './http/openapi.ts';
 import { type Tenancy, tenancyOf } from './http/tenant.ts';
 import { DataLifecycle, defaultRetention, type RetentionPolicy } from './jobs/lifecycle.ts';
 import { type PlanEngine, PlanQueue } from './jobs/plan-queue.ts';
@@ -173,7 +173,7 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
 
   try {
     await app.register(fastifySwagger, swaggerOptions);
-    await app.register(fastifySwaggerUi, { routePrefix: '/docs', staticCSP: true });
+    await app.register(fastifySwaggerUi, swaggerUiOptions);
     await app.register(fastifyMultipart, {
       limits: { fileSize: limits.maxUploadBytes, files: 1, fields: 8, parts: 9, fieldSize: 1024 },
     });

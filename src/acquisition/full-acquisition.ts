@@ -5,11 +5,11 @@ import type { RealImage } from '../core/real-image.ts';
 export interface FullAcquisition {
   /** Full grid k-space (orthonormal centred DFT convention). */
   kspace: ComplexImage;
-  /** The fully sampled noiseless image, F_cᴴ(kspace) — the metric reference (DESIGN.md). */
+  /** The fully sampled noiseless image, F_cᴴ(kspace) — the metric reference (docs/design.md §3.6). */
   reference: ComplexImage;
   /** The phantom raster, for comparison (phantom sources only). */
   raster?: RealImage;
-  /** True when k-space is the DFT of the same raster the reconstruction inverts (REFERENCES §1.4). */
+  /** True when k-space is the DFT of the same raster the reconstruction inverts (docs/references.md §1.4). */
   inverseCrime: boolean;
   /** Pixels of |reference| above OBJECT_THRESHOLD of its maximum (the SNR is defined over these). */
   objectMask: Uint8Array;

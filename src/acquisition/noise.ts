@@ -7,7 +7,7 @@ import { SeededRandom } from '../core/random.ts';
  * Noise request: `snr` is the image-domain SNR of the fully sampled image,
  *   SNR = mean |x| over the object / σ,
  * σ the per-real-channel standard deviation of complex Gaussian noise (Gudbjartsson & Patz 1995
- * convention, REFERENCES §7 definition (a)). The centred FFT is orthonormal (unitary), so white
+ * convention, docs/references.md §7 definition (a)). The centred FFT is orthonormal (unitary), so white
  * k-space noise of per-channel σ gives image noise of the same per-channel σ: σ_kspace = σ_image.
  * 'none' (or no noise piece) = noiseless.
  */
@@ -59,7 +59,7 @@ export function checkedSnr(noise: NoiseSpec | undefined): number | null {
   return snr;
 }
 
-/** σ per real channel for a requested SNR: σ = mean_object |x| / SNR (REFERENCES §7 (c)). */
+/** σ per real channel for a requested SNR: σ = mean_object |x| / SNR (docs/references.md §7 (c)). */
 export function sigmaForSnr(reference: ComplexImage, objectMask: Uint8Array, snr: number): number {
   return meanObjectMagnitude(reference, objectMask) / snr;
 }

@@ -14,7 +14,7 @@ function canonicalJson(value: unknown): string {
 
 /**
  * A result id derived from the (validated) request itself, for results that are a pure function of
- * it: the same request then gives the same id and the same bytes (DESIGN.md: every random choice
+ * it: the same request then gives the same id and the same bytes (docs/design.md §3.7: every random choice
  * takes a seed).
  */
 export function contentId(prefix: string, request: unknown): string {

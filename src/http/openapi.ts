@@ -1,4 +1,5 @@
 import type { FastifyDynamicSwaggerOptions } from '@fastify/swagger';
+import type { FastifySwaggerUiOptions } from '@fastify/swagger-ui';
 import { jsonSchemaTransform, jsonSchemaTransformObject } from 'fastify-type-provider-zod';
 
 /** What a route adds to its OpenAPI entry beyond its zod schemas (non-JSON bodies). */
@@ -68,4 +69,11 @@ export const swaggerOptions: FastifyDynamicSwaggerOptions = {
   },
   transform,
   transformObject: jsonSchemaTransformObject,
+};
+
+/** The interactive view at /docs: served from this server, under the project's own page title. */
+export const swaggerUiOptions: FastifySwaggerUiOptions = {
+  routePrefix: '/docs',
+  staticCSP: true,
+  theme: { title: 'k-space planner API' },
 };

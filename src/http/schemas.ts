@@ -2,7 +2,7 @@ import { z } from 'zod';
 import { LimitError } from '../core/errors.ts';
 import type { Limits } from '../core/limits.ts';
 
-/** The matrix piece (DESIGN.md). The configured per-side limit is checked by checkMatrixLimit. */
+/** The matrix piece (docs/design.md §4.3). The configured per-side limit is checked by checkMatrixLimit. */
 export const matrixSchema = z
   .strictObject({
     nx: z.int().min(2).max(65_536).describe('readout columns (kx)'),

@@ -3,7 +3,7 @@ import type { RealImage } from '../core/real-image.ts';
 import { checkImagePair, checkMask } from './metric-inputs.ts';
 
 /**
- * Normalised root-mean-square error ‖x̂ − x‖₂ / ‖x‖₂ (DESIGN.md; the Euclidean normalisation, not
+ * Normalised root-mean-square error ‖x̂ − x‖₂ / ‖x‖₂ (docs/design.md §3.6; the Euclidean normalisation, not
  * max−min or mean). With a mask both norms run over the selected pixels only.
  */
 export function nrmse(estimate: RealImage, reference: RealImage, mask?: Uint8Array): number {

@@ -4,7 +4,7 @@ import { checkImagePair, checkMask } from './metric-inputs.ts';
 
 /**
  * Peak signal-to-noise ratio in dB: 10·log10(peak² / MSE), peak = max |x| over the whole reference
- * (DESIGN.md), MSE the mean of (x̂ − x)² over all pixels or over the masked ones. The peak stays the
+ * (docs/design.md §3.6), MSE the mean of (x̂ − x)² over all pixels or over the masked ones. The peak stays the
  * whole reference's so a region mask changes which errors count, not the scale they are judged on.
  * Identical images give +Infinity (MSE = 0).
  */

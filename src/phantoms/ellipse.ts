@@ -9,7 +9,7 @@ export interface EllipseParams extends Placement {
 }
 
 /**
- * A filled ellipse (REFERENCES.md §1.1–1.2). A point is inside when (x′/a)² + (y′/b)² ≤ 1 with
+ * A filled ellipse (docs/references.md §1.1–1.2). A point is inside when (x′/a)² + (y′/b)² ≤ 1 with
  *   x′ =  (x − x0)cosθ + (y − y0)sinθ,   y′ = −(x − x0)sinθ + (y − y0)cosθ.
  * Its transform (shift and rotation theorems applied to the scaled unit disc):
  *   k′x = kx cosθ + ky sinθ,  k′y = −kx sinθ + ky cosθ,  q = √((a k′x)² + (b k′y)²)

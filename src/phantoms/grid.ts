@@ -1,6 +1,6 @@
 /**
  * The grid convention that ties a phantom's continuous frame to the project's arrays
- * (DEVELOPERS.md "Numerical conventions"; REFERENCES.md §0):
+ * (DEVELOPERS.md "Numerical conventions"; docs/references.md §0):
  *
  *   pixel column j  ↔  x  = (j − ⌊nx/2⌋)·2/nx          k-space column u  ↔  kx =  (u − ⌊nx/2⌋)/2
  *   pixel row    i  ↔  y  = −(i − ⌊ny/2⌋)·2/ny         k-space row    v  ↔  ky = −(v − ⌊ny/2⌋)/2

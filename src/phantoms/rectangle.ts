@@ -16,8 +16,8 @@ export function sinc(t: number): number {
 }
 
 /**
- * A filled rectangle (REFERENCES.md §1.5). Inside when |x′| ≤ wx/2 and |y′| ≤ wy/2 with x′, y′ the
- * rotated offsets of an ellipse (§1.1). Transform (standard pair, shift and rotation theorems):
+ * A filled rectangle (docs/references.md §1.5). Inside when |x′| ≤ wx/2 and |y′| ≤ wy/2 with x′, y′ the
+ * rotated offsets of an ellipse (docs/references.md §1.1). Transform (standard pair, shift and rotation theorems):
  *   R(k) = ρ·wx·wy·sinc(wx k′x)·sinc(wy k′y)·e^(−i2π(kx x0 + ky y0)),  sinc(t) = sin(πt)/(πt).
  */
 export class Rectangle implements Shape {

@@ -10,7 +10,7 @@ import type { Shape } from './shape.ts';
  *   (readout); middle row (centre y = 0.08): the same groups turned 90°, resolving along y
  *   (phase encode). Each group has 4 bars of width w separated by gaps of w (one line pair = 2w),
  *   bars 0.18 long and 0.5 brighter than the background; w falls from 0.05 to 0.01 left to right.
- *   A bar pattern can be resolved on an n-point grid only when w ≥ 2/n (REFERENCES.md §1.5), so at
+ *   A bar pattern can be resolved on an n-point grid only when w ≥ 2/n (docs/references.md §1.5), so at
  *   n = 128 the two finest groups are below the pixel size and at n = 256 all are above it;
  * - lower three rows: discs of radius 0.08, 0.05, 0.03, 0.015 (left to right) whose intensity
  *   exceeds the background by 10 %, 5 % and 2.5 % (top to bottom row).

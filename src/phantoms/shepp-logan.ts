@@ -2,7 +2,7 @@ import { Ellipse } from './ellipse.ts';
 import { ShapePhantom } from './phantom.ts';
 
 /**
- * Shepp–Logan head phantom geometry (Shepp & Logan 1974, as tabulated in REFERENCES.md §1.1):
+ * Shepp–Logan head phantom geometry (Shepp & Logan 1974, as tabulated in docs/references.md §1.1):
  * [x0, y0, a, b, θ°], domain [−1, 1]², y up, θ counter-clockwise from +x, a along x before rotation.
  * This table is pinned: ellipse 9 at y0 = −0.605 (some copies use −0.606), ellipses 3 and 4 at ∓18°.
  */

@@ -157,7 +157,7 @@ export function checkScorableMatrix(matrix: { nx: number; ny: number }): void {
 }
 
 /**
- * One simulated acquisition + reconstruction + scoring (DESIGN.md data flow):
+ * One simulated acquisition + reconstruction + scoring (docs/design.md §2.1):
  * source → full k-space and reference; sampling → mask; y = M ⊙ (y_full + noise); x̂ = recon(y);
  * metrics of |x̂| against |reference|. `seed` (when given) replaces sampling.seed and seeds the
  * noise (noise seed = noiseSeedFor(seed ?? sampling.seed ?? 0)).

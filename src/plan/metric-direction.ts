@@ -2,7 +2,7 @@
 export const metricNames = ['nrmse', 'psnr', 'ssim', 'hfen'] as const;
 export type MetricName = (typeof metricNames)[number];
 
-/** SSIM and PSNR: higher is better; NRMSE and HFEN: lower is better (DESIGN.md metric definitions). */
+/** SSIM and PSNR: higher is better; NRMSE and HFEN: lower is better (docs/design.md §3.6). */
 export const higherIsBetter: Readonly<Record<MetricName, boolean>> = Object.freeze({
   nrmse: false,
   psnr: true,

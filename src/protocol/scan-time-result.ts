@@ -2,13 +2,13 @@ import { z } from 'zod';
 
 /** What the scan-time model returns (POST /v1/scan-time answers with it; plan tables embed it). */
 export const scanTimeResultSchema = z.object({
-  seconds: z.number().describe('acquisition time in seconds (prescan and dummy scans excluded)'),
+  seconds: z.number().describe('acquisition time in seconds (calibration and preparation scans excluded)'),
   formatted: z.string().describe('m:ss, tenths shown when not zero (163.84 s → "2:43.8"), h:mm:ss from 1 h'),
   acquired: z
     .number()
     .describe('count that costs time: phase-encode lines (2D), ky–kz points (3D) or spokes (radial)'),
   unit: z.enum(['lines', 'points', 'spokes']),
-  shots: z.int().describe('⌈acquired / echoTrainLength⌉: TRs per pass and excitation'),
+  shots: z.int().describe('⌈acquired / echoTrainLength⌉: TRs per pass and per average'),
   passes: z.int().describe('⌈slices / slicesPerPass⌉ (2D); 1 in 3D'),
 });
 

@@ -16,10 +16,10 @@ export interface ScanTimeSampling {
 }
 
 /**
- * Acquisition time (REFERENCES.md §8; prescan and dummy scans excluded):
- *   2D Cartesian  TA = TR × ⌈lines / ETL⌉ × NEX × passes
- *   3D Cartesian  TA = TR × ⌈points(ky,kz) / ETL⌉ × NEX           (matrix ny×nx = ky×kz)
- *   radial        TA = TR × ⌈spokes / ETL⌉ × NEX × passes         (ETL > 1: several spokes per TR)
+ * Acquisition time (docs/references.md §8; calibration and preparation scans excluded):
+ *   2D Cartesian  TA = TR × ⌈lines / ETL⌉ × averages × passes
+ *   3D Cartesian  TA = TR × ⌈points(ky,kz) / ETL⌉ × averages      (matrix ny×nx = ky×kz)
+ *   radial        TA = TR × ⌈spokes / ETL⌉ × averages × passes         (ETL > 1: several spokes per TR)
  *
  * Counting with a mask: in 2D every phase-encode row with at least one sampled point costs a whole
  * line (the readout direction kx is free), so a 2D point mask counts its occupied rows; in 3D every
@@ -82,7 +82,7 @@ export function scanTime(
   }
   const shots = Math.ceil(acquired / protocol.echoTrainLength);
   // Integer product first, one division last: 10 ms × 16384 gives exactly 163.84 s.
-  const seconds = (protocol.trMs * shots * protocol.nex * passes) / 1000;
+  const seconds = (protocol.trMs * shots * protocol.averages * passes) / 1000;
   return { seconds, formatted: formatDuration(seconds), acquired, unit, shots, passes };
 }
 

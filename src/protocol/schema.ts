@@ -2,38 +2,60 @@ import { z } from 'zod';
 
 /**
  * The protocol piece of a request: what the scan-time model needs. One schema is the TypeScript
- * type, the validator and the OpenAPI schema.
+ * type, the validator and the OpenAPI schema. Field names follow the DICOM attributes where one
+ * exists (Repetition Time, Number of Averages, Echo Train Length).
  *
  * - `dimensions`: '2d' multi-slice (phase encode = matrix rows ny) or '3d' (the matrix's ny×nx
  *   plane is the phase-encode plane ky×kz; the readout is not part of the simulated matrix).
  * - `slicesPerPass`: how many slices fit in one TR (interleaved). Defaults to all `slices`, i.e. one
  *   pass, the common practice that slices do not multiply 2D time while they fit in one TR; fewer
- *   per pass means ⌈slices / slicesPerPass⌉ passes (concatenations), each a full repeat.
+ *   per pass means ⌈slices / slicesPerPass⌉ passes, each a full repeat.
+ * - `averages`: DICOM Number of Averages (0018,0083). `nex` is its deprecated alias, accepted for
+ *   one version so that older clients keep working; it never travels past this schema.
  */
-export const protocolSchema = z
+const averagesValue = z.int().min(1).max(64);
+
+// Two groups so that `averages` sits after `trMs` in both schemas (and in openapi.yaml).
+const leadingFields = {
+  dimensions: z.enum(['2d', '3d']).default('2d').describe("'2d' multi-slice or '3d' (ny×nx = ky×kz)"),
+  trMs: z.number().positive().max(100_000).describe('repetition time in milliseconds, > 0'),
+};
+
+const trailingFields = {
+  echoTrainLength: z
+    .int()
+    .min(1)
+    .max(1024)
+    .default(1)
+    .describe('echoes (phase-encode lines or points) per TR; lines per shot rounded up to whole shots'),
+  slices: z.int().min(1).max(1024).default(1).describe('2D slices; must be 1 in 3D'),
+  slicesPerPass: z
+    .int()
+    .min(1)
+    .max(1024)
+    .optional()
+    .describe('slices that fit in one TR (default: all of them, one pass)'),
+  partialFourier: z
+    .number()
+    .min(0.5)
+    .max(1)
+    .default(1)
+    .describe('fraction p of the phase-encode (ky) extent acquired, 0.5…1; keeps ⌈p·ny⌉ rows'),
+};
+
+const averagesDescription = 'number of signal averages (DICOM Number of Averages, 0018,0083), integer ≥ 1';
+
+/** What a client may send: `averages`, or (deprecated) `nex`, or neither (1). */
+const protocolRequest = z
   .strictObject({
-    dimensions: z.enum(['2d', '3d']).default('2d').describe("'2d' multi-slice or '3d' (ny×nx = ky×kz)"),
-    trMs: z.number().positive().max(100_000).describe('repetition time in milliseconds, > 0'),
-    nex: z.int().min(1).max(64).default(1).describe('number of excitations (averages), integer ≥ 1'),
-    echoTrainLength: z
-      .int()
-      .min(1)
-      .max(1024)
-      .default(1)
-      .describe('echoes (phase-encode lines or points) per TR; lines per shot rounded up to whole shots'),
-    slices: z.int().min(1).max(1024).default(1).describe('2D slices; must be 1 in 3D'),
-    slicesPerPass: z
-      .int()
-      .min(1)
-      .max(1024)
-      .optional()
-      .describe('slices that fit in one TR (default: all of them, one pass)'),
-    partialFourier: z
-      .number()
-      .min(0.5)
-      .max(1)
-      .default(1)
-      .describe('fraction p of the phase-encode (ky) extent acquired, 0.5…1; keeps ⌈p·ny⌉ rows'),
+    ...leadingFields,
+    averages: averagesValue.optional().meta({ description: `${averagesDescription}; default 1`, default: 1 }),
+    nex: averagesValue.optional().meta({
+      deprecated: true,
+      description:
+        'deprecated alias of `averages`, accepted in this version only; when both are given they must be equal',
+    }),
+    ...trailingFields,
   })
   .superRefine((p, ctx) => {
     if (p.dimensions === '3d' && p.slices !== 1) {
@@ -44,7 +66,30 @@ export const protocolSchema = z
         params: { allowed: "1 when dimensions is '3d'" },
       });
     }
-  })
+    // Only two valid values can disagree; a bad one is reported by its own field already.
+    const both = averagesValue.safeParse(p.averages).success && averagesValue.safeParse(p.nex).success;
+    if (both && p.averages !== p.nex) {
+      const message = `averages ${p.averages} and its deprecated alias nex ${p.nex} disagree`;
+      const allowed = 'averages alone, or nex equal to averages';
+      for (const path of ['averages', 'nex'])
+        ctx.addIssue({ code: 'custom', path: [path], message, params: { allowed } });
+    }
+  });
+
+/** What the engines read: `averages` only. Parsing it again gives the same value. */
+const protocolParsed = z.strictObject({
+  ...leadingFields,
+  averages: averagesValue.describe(averagesDescription),
+  ...trailingFields,
+});
+
+type ParsedProtocol = z.output<typeof protocolParsed>;
+
+export const protocolSchema = protocolRequest
+  .transform(({ nex, averages, ...rest }) => ({ ...rest, averages: averages ?? nex ?? 1 }))
+  // zod types a pipe's target by its input, which has the defaults still open; the value here is
+  // complete, so the target is typed by its output.
+  .pipe(protocolParsed as unknown as z.ZodType<ParsedProtocol, ParsedProtocol>)
   .describe('Scan-time parameters');
 
 export type Protocol = z.output<typeof protocolSchema>;

@@ -58,7 +58,7 @@ const SIGMA = 0.99 / Math.sqrt(8);
  * min_x ½‖M F_c x − y‖² + λ·TV_iso(x) over complex x, by the first-order primal–dual method of
  * Chambolle & Pock 2011 (θ = 1) with K = ∇, F* = indicator of {‖p_ij‖₂ ≤ λ} (prox = pointwise
  * projection) and G = ½‖M F_c x − y‖², whose prox is exact in k-space:
- *   prox_τG(v) = F_cᴴ[(F_c v + τ M y) / (1 + τ M)]           (REFERENCES §5.2)
+ *   prox_τG(v) = F_cᴴ[(F_c v + τ M y) / (1 + τ M)]           (docs/references.md §5.2)
  * Step rule: τ = σ = 0.99/√8, so τσ‖∇‖² < 1. Start x⁰ = F_cᴴ y (zero-filled), p⁰ = 0.
  * λ_abs = λ_rel · max |F_cᴴ y|. Stops after `iterations` or when the relative change < tolerance.
  * With a full mask this is ROF denoising of F_cᴴ y with weight λ_abs.

@@ -112,7 +112,7 @@ export function rankForEnergy(values: Float64Array, energy: number): number {
 
 /**
  * Structured low-rank completion of single-channel k-space by alternating projections
- * (the SAKE-style loop of Shin et al. 2014, REFERENCES §5.3):
+ * (the SAKE-style loop of Shin et al. 2014, docs/references.md §5.3):
  *   lift z into the block-Hankel matrix H(z) (wy×wx windows), truncate to rank r through the
  *   eigendecomposition of the n×n Gram matrix H(z)ᴴH(z) (n = wy·wx; cyclic Jacobi), average back
  *   over the windows each sample belongs to, then put the acquired samples back.

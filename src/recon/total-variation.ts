@@ -4,7 +4,7 @@ import { SeededRandom } from '../core/random.ts';
  * Discrete gradient and divergence of Chambolle 2004 on interleaved complex ny×nx arrays:
  *   (∇x)₁[i,j] = x[i,j+1] − x[i,j]  (zero in the last column),
  *   (∇x)₂[i,j] = x[i+1,j] − x[i,j]  (zero in the last row),
- * i.e. forward differences with Neumann boundaries, and div = −∇ᴴ (REFERENCES §5.2).
+ * i.e. forward differences with Neumann boundaries, and div = −∇ᴴ (docs/references.md §5.2).
  * Index 1 runs along columns (readout, x), index 2 along rows (phase encode, y).
  */
 export function gradient(gx: Float64Array, gy: Float64Array, x: Float64Array, nx: number, ny: number): void {
@@ -71,7 +71,7 @@ export function divergence(
   }
 }
 
-/** Isotropic TV of a complex image: Σ sqrt(|(∇x)₁|² + |(∇x)₂|²), complex moduli (REFERENCES §5.2). */
+/** Isotropic TV of a complex image: Σ sqrt(|(∇x)₁|² + |(∇x)₂|²), complex moduli (docs/references.md §5.2). */
 export function totalVariation(x: Float64Array, nx: number, ny: number): number {
   let tv = 0;
   for (let i = 0; i < ny; i++) {

@@ -14,7 +14,7 @@ export const zeroFilledSchema = z.strictObject({
 export type ZeroFilledSpec = z.infer<typeof zeroFilledSchema>;
 
 /**
- * x = F_cᴴ(M ⊙ y) — the minimum-norm least-squares image (REFERENCES §5.1).
+ * x = F_cᴴ(M ⊙ y) — the minimum-norm least-squares image (docs/references.md §5.1).
  * With density compensation, x = F_cᴴ(M ⊙ y / p): dividing by the per-point sampling probability p
  * makes the k-space estimate unbiased, E[M/p] = 1 (Pipe & Menon 1999 for the idea; on a Cartesian
  * grid the density is the pattern's own probability). Only applied when the pattern supplies a

@@ -7,15 +7,29 @@ import { getJson, uploadImage } from './api.js';
 export const protocolPresets = [
   {
     label: 'Knee PD sagittal, draft A',
-    protocol: { dimensions: '2d', trMs: 2800, nex: 1, echoTrainLength: 8, slices: 28, partialFourier: 1 },
+    protocol: {
+      dimensions: '2d',
+      trMs: 2800,
+      averages: 1,
+      echoTrainLength: 8,
+      slices: 28,
+      partialFourier: 1,
+    },
   },
   {
     label: 'Knee T1 coronal, draft B',
-    protocol: { dimensions: '2d', trMs: 550, nex: 1, echoTrainLength: 3, slices: 24, partialFourier: 1 },
+    protocol: { dimensions: '2d', trMs: 550, averages: 1, echoTrainLength: 3, slices: 24, partialFourier: 1 },
   },
   {
     label: 'Knee 3D isotropic, draft C',
-    protocol: { dimensions: '3d', trMs: 12, nex: 1, echoTrainLength: 1, slices: 1, partialFourier: 0.75 },
+    protocol: {
+      dimensions: '3d',
+      trMs: 12,
+      averages: 1,
+      echoTrainLength: 1,
+      slices: 1,
+      partialFourier: 0.75,
+    },
   },
 ];
 
@@ -163,7 +177,7 @@ export class SetupForm {
     return {
       dimensions: byId('dimensions').value,
       trMs: numberOf('trMs'),
-      nex: numberOf('nex'),
+      averages: numberOf('averages'),
       echoTrainLength: numberOf('echoTrainLength'),
       slices: numberOf('slices'),
       partialFourier: numberOf('partialFourier'),

@@ -13,10 +13,10 @@ import type { RealImage } from '../../src/core/real-image.ts';
 import { reconstruct } from '../../src/recon/index.ts';
 import { riceMean, riceSquaredError } from './rician.ts';
 
-// Sources: the noise model written down in DEVELOPERS.md and DESIGN.md (σ per real channel = mean
+// Sources: the noise model written down in DEVELOPERS.md and docs/design.md §3.5 (σ per real channel = mean
 // |reference| over the object ÷ SNR, object = |reference| > 0.1·max; σ the same in k-space and image
-// since the FFT is unitary, REFERENCES §7; noise drawn per k-space point from the request seed),
-// Rician moments (Gudbjartsson & Patz 1995, REFERENCES §7), and the typed-error rule of DESIGN.md.
+// since the FFT is unitary, docs/references.md §7; noise drawn per k-space point from the request seed),
+// Rician moments (Gudbjartsson & Patz 1995, docs/references.md §7), and the typed-error rule of docs/design.md §4.1.
 
 /** A piecewise-constant test object on a zero background: disc of 1.0 holding a 0.3 square. */
 function testObject(n: number): RealImage {
@@ -34,7 +34,7 @@ function testObject(n: number): RealImage {
 const full128 = new Uint8Array(128 * 128).fill(1);
 
 describe('Rician moments used as the noise prediction', () => {
-  it('E|A + n|/σ matches the tabulated values (REFERENCES §7 [C])', () => {
+  it('E|A + n|/σ matches the tabulated values (docs/references.md §7 [C])', () => {
     const table: [number, number][] = [
       [0, 1.25331],
       [1, 1.54857],
@@ -47,7 +47,7 @@ describe('Rician moments used as the noise prediction', () => {
     for (const [a, expected] of table) {
       expect(Math.abs(riceMean(a, 1) - expected)).toBeLessThanOrEqual(5e-6 + 2e-7 * expected);
     }
-    // A = 0 is the Rayleigh mean σ√(π/2) exactly (REFERENCES §7).
+    // A = 0 is the Rayleigh mean σ√(π/2) exactly (docs/references.md §7).
     expect(riceMean(0, 0.7)).toBeCloseTo(0.7 * Math.sqrt(Math.PI / 2), 15);
   });
 });

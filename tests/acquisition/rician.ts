@@ -1,11 +1,11 @@
 /**
  * Rician moments for the noise checks. Magnitude of A + n, n complex Gaussian with per-channel σ
- * (Gudbjartsson & Patz 1995; REFERENCES §7):
+ * (Gudbjartsson & Patz 1995; docs/references.md §7):
  *   E|A + n| = σ √(π/2) L½(−A²/2σ²),  L½(z) = e^{z/2}[(1 − z) I0(−z/2) − z I1(−z/2)],
  *   E|A + n|² = A² + 2σ².
  * With t = A²/(4σ²): L½ = (1 + 2t)·I0e(t) + 2t·I1e(t), Iνe(t) = e^{−t} Iν(t) (no overflow).
  * I0e, I1e: polynomial approximations of Abramowitz & Stegun 9.8.1–9.8.4 (|ε| ≲ 2e-7 relative;
- * coefficients from memory, checked against the REFERENCES §7 table in the tests).
+ * coefficients from memory, checked against the docs/references.md §7 table in the tests).
  */
 function besselI0e(x: number): number {
   if (x < 3.75) {

@@ -19,7 +19,7 @@ describe('the OpenAPI 3.1 contract (openapi.yaml)', () => {
   });
   afterAll(async () => t.close());
 
-  it('is a valid OpenAPI 3.1.0 document per @apidevtools/swagger-parser (REFERENCES §10.6)', async () => {
+  it('is a valid OpenAPI 3.1.0 document per @apidevtools/swagger-parser (docs/references.md §10.6)', async () => {
     const document = parse(readFileSync(openapiPath, 'utf8'));
     expect(document.openapi).toBe('3.1.0');
     await expect(SwaggerParser.validate(document)).resolves.toBeTruthy();
@@ -57,7 +57,7 @@ describe('the OpenAPI 3.1 contract (openapi.yaml)', () => {
       [...documented].filter((r) => !served.has(r)),
       'documented but not served',
     ).toEqual([]);
-    // Every route of the DESIGN.md v1 table is in both.
+    // Every route of the v1 table in docs/design.md §4.2 is in both.
     const designTable = [
       'GET /health',
       'GET /openapi.yaml',
@@ -87,6 +87,7 @@ describe('the OpenAPI 3.1 contract (openapi.yaml)', () => {
     expect(page.status).toBe(200);
     expect(page.headers['content-type']).toMatch(/^text\/html/);
     expect(page.text).toMatch(/swagger-ui/i);
+    expect(page.text).toContain('<title>k-space planner API</title>');
     expect(page.text).not.toMatch(/(src|href)="https?:\/\//);
     const script = /src="([^"]*swagger-ui-bundle\.js)"/.exec(page.text);
     expect(script).not.toBeNull();

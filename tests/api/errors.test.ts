@@ -3,7 +3,7 @@ import { expectDocumented, expectProblem, postProblem, type TestApp, testApp } f
 
 const scanTime = { matrix: { nx: 64, ny: 64 }, protocol: { trMs: 500 } };
 
-describe('RFC 9457 problem details for every class of bad input (REFERENCES §10.4)', () => {
+describe('RFC 9457 problem details for every class of bad input (docs/references.md §10.4)', () => {
   let t: TestApp;
   beforeAll(async () => {
     t = await testApp({ maxJsonBytes: 4096, limits: { maxMatrixSide: 128 } });
@@ -36,12 +36,12 @@ describe('RFC 9457 problem details for every class of bad input (REFERENCES §10
     const res = await t
       .http()
       .post('/v1/scan-time')
-      .send({ matrix: { nx: 64, ny: 64 }, protocol: { trMs: -1, nex: 0 } });
+      .send({ matrix: { nx: 64, ny: 64 }, protocol: { trMs: -1, averages: 0 } });
     const problem = expectProblem(res, 422);
     expect(problem.errors).toEqual(
       expect.arrayContaining([
         expect.objectContaining({ field: 'protocol.trMs', allowed: '> 0' }),
-        expect.objectContaining({ field: 'protocol.nex', allowed: '≥ 1' }),
+        expect.objectContaining({ field: 'protocol.averages', allowed: '≥ 1' }),
       ]),
     );
     await expectDocumented('POST', '/v1/scan-time', res);
@@ -219,7 +219,7 @@ describe('bounded worker queue for request-driven work', () => {
 });
 
 describe('never a 500 on any JSON route', () => {
-  it('hostile bodies on every POST route answer 4xx problem+json and leave the service healthy (DESIGN.md: never a 500)', async () => {
+  it('hostile bodies on every POST route answer 4xx problem+json and leave the service healthy (docs/design.md §4.1: never a 500)', async () => {
     const t = await testApp({ workers: 1 });
     try {
       const routes = [

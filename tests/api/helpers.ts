@@ -70,7 +70,7 @@ function specPathFor(spec: OpenApiDocument, url: string): string {
 /**
  * Asserts that a response is documented: its status and media type appear under the operation
  * in openapi.yaml, and a JSON body validates against that schema with ajv's JSON Schema 2020-12
- * (the dialect of OpenAPI 3.1, REFERENCES.md §10.6).
+ * (the dialect of OpenAPI 3.1, docs/references.md §10.6).
  */
 export async function expectDocumented(
   method: string,
@@ -99,7 +99,7 @@ export async function expectDocumented(
   expect(valid, `${method} ${url} body matches its schema: ${ajv.errorsText(validate.errors)}`).toBe(true);
 }
 
-/** RFC 9457 §3 members plus the service's `errors` list, and the problem media type (REFERENCES §10.4). */
+/** RFC 9457 §3 members plus the service's `errors` list, and the problem media type (docs/references.md §10.4). */
 export function expectProblem(
   response: { status: number; headers: Record<string, string>; body: unknown; text: string },
   status: number,

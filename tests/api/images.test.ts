@@ -13,7 +13,7 @@ describe('POST/GET/DELETE /v1/images', () => {
   });
   afterAll(async () => t.close());
 
-  it('uploads MR_small.dcm: 201, Location, 64×64 DICOM with the REFERENCES §12.1 statistics', async () => {
+  it('uploads MR_small.dcm: 201, Location, 64×64 DICOM with the docs/references.md §12.1 statistics', async () => {
     const res = await t
       .http()
       .post('/v1/images')
@@ -22,7 +22,7 @@ describe('POST/GET/DELETE /v1/images', () => {
     await expectDocumented('POST', '/v1/images', res);
     expect(res.headers.location).toBe(`/v1/images/${res.body.id}`);
     expect(res.body).toMatchObject({ nx: 64, ny: 64, format: 'dicom' });
-    // min 127, max 2145, mean 518.88134765625 (REFERENCES §12.1, pydicom)
+    // min 127, max 2145, mean 518.88134765625 (docs/references.md §12.1, pydicom)
     expect(res.body.stats).toEqual({ min: 127, max: 2145, mean: 518.88134765625 });
     const got = await t.http().get(res.headers.location);
     expect(got.status).toBe(200);
@@ -75,7 +75,7 @@ describe('POST/GET/DELETE /v1/images', () => {
     expectProblem(await t.http().delete(`/v1/images/${res.body.id}`), 404, 'id');
   });
 
-  it('JPEG-LS / JPEG 2000 DICOM → 415 naming the transfer syntax (REFERENCES §12.1)', async () => {
+  it('JPEG-LS / JPEG 2000 DICOM → 415 naming the transfer syntax (docs/references.md §12.1)', async () => {
     for (const name of ['MR_small_jpeg_ls_lossless.dcm', 'MR_small_jp2klossless.dcm']) {
       const res = await t.http().post('/v1/images').attach('file', debianFile('pydicom', name), 'x.dcm');
       const problem = expectProblem(res, 415, 'file');
@@ -141,7 +141,7 @@ describe('an image larger than maxMatrixSide is refused with 422 (limit)', () =>
   });
 });
 
-describe('no patient identifier from a DICOM header is ever stored, logged or returned (DESIGN.md; REFERENCES §10.1)', () => {
+describe('no patient identifier from a DICOM header is ever stored, logged or returned (docs/design.md §4.5; docs/references.md §10.1)', () => {
   // MR_small.dcm: Patient's Name "CompressedSamples^MR1", Patient ID "4MR1", Institution Name "TOSHIBA" [L].
   const identifiers = ['CompressedSamples^MR1', 'CompressedSamples', '4MR1', 'TOSHIBA'];
 

@@ -5,7 +5,7 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 
-// Source: the configuration contract of DESIGN.md and the README (PORT, HOST, API_KEYS; a
+// Source: the configuration contract of docs/design.md §4.6 and the README (PORT, HOST, API_KEYS; a
 // non-loopback HOST needs keys).
 
 const root = fileURLToPath(new URL('../..', import.meta.url));

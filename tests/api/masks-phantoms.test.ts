@@ -3,9 +3,9 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { getPhantom } from '../../src/phantoms/index.ts';
 import { binary, expectDocumented, expectProblem, postProblem, type TestApp, testApp } from './helpers.ts';
 
-// Source for the checks below: the v1 HTTP contract of DESIGN.md (routes, status codes, 202 jobs,
-// persistence under DATA_DIR), problem bodies per RFC 9457 (REFERENCES §10.4) and every documented
-// response validated against openapi.yaml (OpenAPI 3.1, REFERENCES §10.6) by expectDocumented.
+// Source for the checks below: the v1 HTTP contract of docs/design.md §4 (routes, status codes, 202 jobs,
+// persistence under DATA_DIR), problem bodies per RFC 9457 (docs/references.md §10.4) and every documented
+// response validated against openapi.yaml (OpenAPI 3.1, docs/references.md §10.6) by expectDocumented.
 
 describe('phantoms, masks and result images', () => {
   let t: TestApp;
@@ -72,7 +72,7 @@ describe('phantoms, masks and result images', () => {
     expect(res.body.values.flat()).toEqual(Array.from(expected));
     // The transform of a real object at k = 0 is real (common practice: F(0) = ∫ f).
     expect(res.body.values[0][1]).toBe(0);
-    // REFERENCES.md §1.2 [C], 1974 intensities: K(0) = 2.2017566919, K(0.5, 0) = 1.0825061340 − 0.0011681427i.
+    // docs/references.md §1.2 [C], 1974 intensities: K(0) = 2.2017566919, K(0.5, 0) = 1.0825061340 − 0.0011681427i.
     expect(Math.abs(res.body.values[0][0] - 2.2017566919)).toBeLessThan(1e-9);
     expect(
       Math.hypot(res.body.values[3][0] - 1.082506134, res.body.values[3][1] + 0.0011681427),
@@ -81,7 +81,7 @@ describe('phantoms, masks and result images', () => {
     await postProblem(t, '/v1/phantoms/shepp-logan/kspace', { points: [] }, 422, 'points');
   });
 
-  it('POST /v1/masks: R = total / acquired (DESIGN.md), PSF summary, PNGs under /v1/results/{id}', async () => {
+  it('POST /v1/masks: R = total / acquired (docs/design.md §3.4), PSF summary, PNGs under /v1/results/{id}', async () => {
     const res = await t
       .http()
       .post('/v1/masks')
@@ -102,7 +102,7 @@ describe('phantoms, masks and result images', () => {
     for (let r = 0; r < 64; r += 4) rowSet.add(r);
     for (let r = 28; r < 36; r++) rowSet.add(r);
     expect(acquired.count).toBe(rowSet.size);
-    // PSF of a line mask by the direct DFT (REFERENCES §3.6): |Σ_r e^(i2π r·y/64)| / count along the
+    // PSF of a line mask by the direct DFT (docs/references.md §3.6): |Σ_r e^(i2π r·y/64)| / count along the
     // phase-encode axis (zero off it); side lobes are the pixels beyond the √2 main lobe (DEVELOPERS.md).
     let sidelobe = 0;
     for (let y = 2; y <= 62; y++) {
@@ -134,7 +134,7 @@ describe('phantoms, masks and result images', () => {
     expect(rows).toBe(acquired.count);
   });
 
-  it('POST /v1/masks: the same request gives the same bytes, a different seed another mask (DESIGN.md)', async () => {
+  it('POST /v1/masks: the same request gives the same bytes, a different seed another mask (docs/design.md §3.7)', async () => {
     const request = (seed: number, keyOrder: 'a' | 'b') =>
       t
         .http()

@@ -6,9 +6,9 @@ import { runPlan } from '../../src/plan/run-plan.ts';
 import { debianFile } from '../io/debian-files.ts';
 import { expectDocumented, expectProblem, postProblem, type TestApp, testApp } from './helpers.ts';
 
-// Source for the checks below: the v1 HTTP contract of DESIGN.md (routes, status codes, 202 jobs,
-// persistence under DATA_DIR), problem bodies per RFC 9457 (REFERENCES §10.4) and every documented
-// response validated against openapi.yaml (OpenAPI 3.1, REFERENCES §10.6) by expectDocumented.
+// Source for the checks below: the v1 HTTP contract of docs/design.md §4 (routes, status codes, 202 jobs,
+// persistence under DATA_DIR), problem bodies per RFC 9457 (docs/references.md §10.4) and every documented
+// response validated against openapi.yaml (OpenAPI 3.1, docs/references.md §10.6) by expectDocumented.
 
 /** A small sweep: 32² phantom, 1 pattern × 2 R × 2 methods × 2 seeds + reference = 10 cells. */
 const smallPlan = {
@@ -108,7 +108,7 @@ describe('plans as jobs', () => {
     expect((await t.http().get(`/v1/plans/${res.body.id}/table.csv`)).text).toBe(csv.text);
   });
 
-  it('events: text/event-stream read with eventsource-parser (WHATWG SSE, REFERENCES §10.7): progress then done', async () => {
+  it('events: text/event-stream read with eventsource-parser (WHATWG SSE, docs/references.md §10.7): progress then done', async () => {
     await t.app.listen({ port: 0, host: '127.0.0.1' });
     const address = t.app.server.address();
     const port = typeof address === 'object' && address ? address.port : 0;

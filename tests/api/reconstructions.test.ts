@@ -5,9 +5,9 @@ import { runReconstruction } from '../../src/pipeline/run-reconstruction.ts';
 import { debianFile } from '../io/debian-files.ts';
 import { binary, expectDocumented, expectProblem, postProblem, type TestApp, testApp } from './helpers.ts';
 
-// Source for the checks below: the v1 HTTP contract of DESIGN.md (routes, status codes, 202 jobs,
-// persistence under DATA_DIR), problem bodies per RFC 9457 (REFERENCES §10.4) and every documented
-// response validated against openapi.yaml (OpenAPI 3.1, REFERENCES §10.6) by expectDocumented.
+// Source for the checks below: the v1 HTTP contract of docs/design.md §4 (routes, status codes, 202 jobs,
+// persistence under DATA_DIR), problem bodies per RFC 9457 (docs/references.md §10.4) and every documented
+// response validated against openapi.yaml (OpenAPI 3.1, docs/references.md §10.6) by expectDocumented.
 
 const request = {
   source: { phantom: 'shepp-logan-modified' },
@@ -51,7 +51,7 @@ describe('POST /v1/reconstructions (runs on the worker pool)', () => {
     expect(stored.body).toEqual(res.body);
   });
 
-  it('fully sampled zero-filled equals the reference: NRMSE 0, SSIM 1, PSNR not finite (null) — by definition (DESIGN.md)', async () => {
+  it('fully sampled zero-filled equals the reference: NRMSE 0, SSIM 1, PSNR not finite (null) — by definition (docs/design.md §3.6)', async () => {
     const res = await t
       .http()
       .post('/v1/reconstructions')

@@ -161,7 +161,7 @@ describe('planner page in Chromium', () => {
     await page.waitForSelector('body[data-ready="true"]');
     await page.screenshot({ path: join(artifacts, 'planner-first-load-1280x800.png') });
 
-    // REFERENCES.md §11: the four cautions, readable without scrolling.
+    // docs/references.md §11: the four cautions, readable without scrolling.
     const box = await page.locator('#cautions').boundingBox();
     expect(box).not.toBeNull();
     expect(box!.y).toBeGreaterThanOrEqual(0);
@@ -278,7 +278,7 @@ describe('planner page in Chromium', () => {
     const refused = waitForApi('/v1/masks', 'POST', 'application/json');
     await page.click('#maskButton');
     const response = await refused;
-    // R < 1 is a value out of range: 422 problem+json (RFC 9457; DESIGN.md error classes).
+    // R < 1 is a value out of range: 422 problem+json (RFC 9457; docs/design.md §4.1 error classes).
     expect(response.status()).toBe(422);
     const problem = (await response.json()) as { errors: Array<{ field: string }> };
     expect(problem.errors.map((e) => e.field)).toContain('sampling.acceleration');
@@ -335,7 +335,7 @@ describe('planner page in Chromium', () => {
     const protocol = await page.evaluate(() => ({
       dimensions: (document.querySelector('#dimensions') as HTMLSelectElement).value,
       trMs: Number((document.querySelector('#trMs') as HTMLInputElement).value),
-      nex: Number((document.querySelector('#nex') as HTMLInputElement).value),
+      averages: Number((document.querySelector('#averages') as HTMLInputElement).value),
       echoTrainLength: Number((document.querySelector('#echoTrainLength') as HTMLInputElement).value),
       slices: Number((document.querySelector('#slices') as HTMLInputElement).value),
       partialFourier: Number((document.querySelector('#partialFourier') as HTMLInputElement).value),

@@ -1,7 +1,7 @@
 import { existsSync, readFileSync } from 'node:fs';
 
 /**
- * Open test files shipped by Debian packages (REFERENCES.md §12), read in place:
+ * Open test files shipped by Debian packages (docs/references.md §12), read in place:
  * - python3-pydicom: /usr/lib/python3/dist-packages/pydicom/data/test_files/ — Expat (MIT),
  *   © 2008-2018 Darcy Mason and pydicom contributors (/usr/share/doc/python3-pydicom/copyright).
  * - python3-nibabel: /usr/lib/python3/dist-packages/nibabel/tests/data/ and nicom/tests/data/ —

@@ -6,7 +6,7 @@ import { decodeImage } from '../../src/io/decode-image.ts';
 import { decodeDicom } from '../../src/io/dicom.ts';
 import { at, debianFile, sum } from './debian-files.ts';
 
-// Facts from REFERENCES.md §12.1 ([L]: read with pydicom 2.3.1 from the Debian package files).
+// Facts from docs/references.md §12.1 ([L]: read with pydicom 2.3.1 from the Debian package files).
 const mrSmall = {
   nx: 64,
   ny: 64,
@@ -29,10 +29,10 @@ function expectMrSmall(name: string): void {
   expect(sum(image.data)).toBe(mrSmall.sum);
   expect(Math.min(...image.data)).toBe(mrSmall.min);
   expect(Math.max(...image.data)).toBe(mrSmall.max);
-  expect(meta.signed).toBe(true); // Pixel Representation 1 (REFERENCES §12.1)
+  expect(meta.signed).toBe(true); // Pixel Representation 1 (docs/references.md §12.1)
 }
 
-describe('DICOM decoder on the pydicom test files (REFERENCES.md §12.1)', () => {
+describe('DICOM decoder on the pydicom test files (docs/references.md §12.1)', () => {
   it('MR_small.dcm (Explicit VR LE, signed 16-bit, trailing padding element): pixels, sum, min, max', () => {
     expectMrSmall('MR_small.dcm');
     const { meta } = decodeDicom(debianFile('pydicom', 'MR_small.dcm'));
@@ -63,12 +63,12 @@ describe('DICOM decoder on the pydicom test files (REFERENCES.md §12.1)', () =>
     ['MR_small_jpeg_ls_lossless.dcm', '1.2.840.10008.1.2.4.80'],
     ['MR_small_jp2klossless.dcm', '1.2.840.10008.1.2.4.90'],
   ]) {
-    it(`${name}: compressed transfer syntax ${uid} is refused naming the syntax (PS3.5 UIDs, REFERENCES §10.1)`, () => {
+    it(`${name}: compressed transfer syntax ${uid} is refused naming the syntax (PS3.5 UIDs, docs/references.md §10.1)`, () => {
       expect(() => decodeDicom(debianFile('pydicom', name))).toThrow(new RegExp(uid.replaceAll('.', '\\.')));
     });
   }
 
-  it('decimal_rescale.dcm: Rescale Slope 2, Intercept −4096 on all-zero stored pixels ⇒ every value −4096 (§12.2)', () => {
+  it('decimal_rescale.dcm: Rescale Slope 2, Intercept −4096 on all-zero stored pixels ⇒ every value −4096 (docs/references.md §12.2)', () => {
     const { image, meta } = decodeDicom(debianFile('nicom', 'decimal_rescale.dcm'));
     expect([image.nx, image.ny]).toEqual([128, 96]); // 96 rows × 128 columns
     expect(image.data.every((v) => v === -4096)).toBe(true);
@@ -76,7 +76,7 @@ describe('DICOM decoder on the pydicom test files (REFERENCES.md §12.1)', () =>
     expect(meta.rescaleIntercept).toBe(-4096);
   });
 
-  it('nicom 0.dcm: 256×256 uint16 with Bits Stored 12, Implicit VR LE, pixel sum 134184960 (§12.2)', () => {
+  it('nicom 0.dcm: 256×256 uint16 with Bits Stored 12, Implicit VR LE, pixel sum 134184960 (docs/references.md §12.2)', () => {
     const { image, meta } = decodeDicom(debianFile('nicom', '0.dcm'));
     expect([image.nx, image.ny]).toEqual([256, 256]);
     expect(sum(image.data)).toBe(134184960);
@@ -119,7 +119,7 @@ describe('DICOM pixel handling on edited copies of MR_small.dcm (PS3.3 C.7.6.3, 
   it('MONOCHROME1 is inverted to min + max − value so larger is brighter (PS3.3: lowest value displays white)', () => {
     const original = decodeDicom(debianFile('pydicom', 'MR_small.dcm')).image;
     const inverted = decodeDicom(withPhotometric('MONOCHROME1')).image;
-    // min 127, max 2145 from REFERENCES §12.1: p[0,0] = 905 → 127 + 2145 − 905 = 1367.
+    // min 127, max 2145 from docs/references.md §12.1: p[0,0] = 905 → 127 + 2145 − 905 = 1367.
     expect(at(inverted, 0, 0)).toBe(127 + 2145 - 905);
     for (let i = 0; i < original.data.length; i++) expect(inverted.data[i]).toBe(2272 - original.data[i]);
   });

@@ -6,10 +6,10 @@ import { decodeImage } from '../../src/io/decode-image.ts';
 import { decodeNifti, niftiKind } from '../../src/io/nifti.ts';
 import { at, debianFile, sum } from './debian-files.ts';
 
-// Facts from REFERENCES.md §12.2 ([L]: raw headers and data read with nibabel 5.0.0 from the Debian files).
+// Facts from docs/references.md §12.2 ([L]: raw headers and data read with nibabel 5.0.0 from the Debian files).
 // Orientation rule of src/io/nifti.ts: column = voxel i, row = ny − 1 − j.
 
-describe('NIfTI decoder on the nibabel test files (REFERENCES.md §12.2)', () => {
+describe('NIfTI decoder on the nibabel test files (docs/references.md §12.2)', () => {
   it('anatomical.nii: big-endian int16 33×41×25; every slice summed gives the volume sum 284166082, min −610, max 30393', () => {
     const bytes = debianFile('nibabel', 'anatomical.nii');
     expect(niftiKind(bytes)).toBe('nifti-1');

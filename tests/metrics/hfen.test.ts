@@ -48,7 +48,7 @@ describe('hfen against scipy.ndimage (fixture by tests/reference/generate_fixtur
   });
 });
 
-describe('hfen kernel and worked values (REFERENCES.md §6, Ravishankar & Bresler 2011)', () => {
+describe('hfen kernel and worked values (docs/references.md §6, Ravishankar & Bresler 2011)', () => {
   it('the filter is the 15×15 zero-sum LoG of the published reference code, σ = 1.5', () => {
     // Published definition, built directly in 2D: h = exp(−(u² + v²)/(2σ²)) normalised to sum 1 over
     // 15×15, k = h·(u² + v² − 2σ²)/σ⁴, kernel = k − mean(k). The filter's response to a centred

@@ -20,7 +20,7 @@ describe('nrmse against scikit-image (fixture by tests/reference/generate_fixtur
   }
 });
 
-describe('nrmse worked values (REFERENCES.md §6)', () => {
+describe('nrmse worked values (docs/references.md §6)', () => {
   it('x = [3, 4], x̂ = [3, 5] → 0.2, NMSE 0.04', () => {
     const reference = { nx: 2, ny: 1, data: Float64Array.of(3, 4) };
     const estimate = { nx: 2, ny: 1, data: Float64Array.of(3, 5) };

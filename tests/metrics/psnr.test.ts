@@ -4,7 +4,7 @@ import { caseImages, FIXTURE_TOLERANCE, fixtures, maskedCases } from './metric-f
 
 describe('psnr against scikit-image (fixture by tests/reference/generate_fixtures.py)', () => {
   // skimage.metrics.peak_signal_noise_ratio(reference, estimate, data_range=max|reference|): skimage's
-  // data_range plays the peak's part, so passing max |x| gives DESIGN.md's definition.
+  // data_range plays the peak's part, so passing max |x| gives the definition of docs/design.md §3.6.
   for (const c of fixtures.cases) {
     it(`${c.name}: matches skimage to 1e-12 dB`, () => {
       const { estimate, reference } = caseImages(c);
@@ -21,7 +21,7 @@ describe('psnr against scikit-image (fixture by tests/reference/generate_fixture
   }
 });
 
-describe('psnr worked values (REFERENCES.md §6)', () => {
+describe('psnr worked values (docs/references.md §6)', () => {
   it('MAX = 1, MSE = 1e-3 → 30 dB', () => {
     // reference peak 1; errors ±√(2e-3) on half the pixels → mean squared error 1e-3.
     const e = Math.sqrt(2e-3);
@@ -37,7 +37,7 @@ describe('psnr worked values (REFERENCES.md §6)', () => {
     expect(psnr(estimate, reference)).toBeCloseTo(30, 10);
   });
 
-  it('the peak is max |x|, so a negative extreme counts (magnitude convention, DESIGN.md)', () => {
+  it('the peak is max |x|, so a negative extreme counts (magnitude convention, docs/design.md §3.6)', () => {
     const reference = { nx: 2, ny: 1, data: Float64Array.of(-2, 1) };
     const estimate = { nx: 2, ny: 1, data: Float64Array.of(-2, 1.2) };
     // MSE = 0.04 / 2 = 0.02; peak 2 → 10·log10(4 / 0.02)

@@ -47,14 +47,14 @@ describe('ssim against scikit-image (fixture by tests/reference/generate_fixture
   }
 });
 
-describe('ssim worked values (REFERENCES.md §6, Wang et al. 2004)', () => {
+describe('ssim worked values (docs/references.md §6, Wang et al. 2004)', () => {
   it('SSIM(x, x) = 1 for any image and any L', () => {
     const x = randomImage(23, 17, 5);
     expect(ssim(x, x)).toBeCloseTo(1, 14);
     expect(ssim(x, x, { dataRange: 1e-3 })).toBeCloseTo(1, 14);
   });
 
-  it('Gaussian window 11×11, σ 1.5, sum 1: centre 0.0707622378, corner 1.0575656e-6 (REFERENCES.md §6 [C])', () => {
+  it('Gaussian window 11×11, σ 1.5, sum 1: centre 0.0707622378, corner 1.0575656e-6 (docs/references.md §6 [C])', () => {
     const w = ssimWindow();
     expect(w.length).toBe(11);
     expect(w.reduce((s, v) => s + v, 0)).toBeCloseTo(1, 15);
@@ -76,7 +76,7 @@ describe('ssim worked values (REFERENCES.md §6, Wang et al. 2004)', () => {
   });
 
   it('offset image y = x + c: the mean over windows of the luminance term with each local mean', () => {
-    // REFERENCES.md §6: an offset keeps σ and σxy, so every window gives (2μ(μ+c) + C1)/(μ² + (μ+c)² + C1)
+    // docs/references.md §6: an offset keeps σ and σxy, so every window gives (2μ(μ+c) + C1)/(μ² + (μ+c)² + C1)
     // with its own local mean μ. The window here is built directly in 2D from the formula
     // exp(−(u² + v²)/(2·1.5²)) normalised to sum 1 (Wang et al. 2004), not from the separable code.
     const nx = 24;

@@ -27,12 +27,12 @@ const FREQUENCIES: Array<[number, number]> = [
 ];
 
 describe('ellipse transform', () => {
-  it('single Shepp–Logan ellipse #3 at (1.5, 0) equals the 4000² brute-force sum (REFERENCES.md §1.2, tol 2e-6)', () => {
+  it('single Shepp–Logan ellipse #3 at (1.5, 0) equals the 4000² brute-force sum (docs/references.md §1.2, tol 2e-6)', () => {
     const value = transformAt(new Ellipse(ELLIPSE_3), 1.5, 0);
     expect(distance(value, [-0.040907, -0.074409])).toBeLessThan(2e-6);
   });
 
-  it('equals ρπab at k = 0 (REFERENCES.md §1.2 limit)', () => {
+  it('equals ρπab at k = 0 (docs/references.md §1.2 limit)', () => {
     const value = transformAt(new Ellipse(TILTED), 0, 0);
     expect(value[0]).toBeCloseTo(1.5 * Math.PI * 0.25 * 0.1, 15);
     expect(value[1]).toBe(0);
@@ -69,7 +69,7 @@ describe('ellipse transform', () => {
     );
   });
 
-  it('treats the swapped-axis variants of REFERENCES.md §1.1 (a ↔ b, θ + 90°) as the same shape', () => {
+  it('treats the swapped-axis variants of docs/references.md §1.1 (a ↔ b, θ + 90°) as the same shape', () => {
     const pairs: [EllipseParams, EllipseParams][] = [
       [ELLIPSE_3, { ...ELLIPSE_3, a: 0.31, b: 0.11, thetaDeg: 72 }],
       [
@@ -86,13 +86,13 @@ describe('ellipse transform', () => {
     }
   });
 
-  it('is Hermitian for a real shape: E(−k) = conj E(k) (REFERENCES.md §1.2, 1e-15)', () => {
+  it('is Hermitian for a real shape: E(−k) = conj E(k) (docs/references.md §1.2, 1e-15)', () => {
     expectHermitian(shapeTransform(new Ellipse(TILTED)), FREQUENCIES, 1e-15);
   });
 });
 
 describe('ellipse geometry', () => {
-  it('contains its centre and the tips of its rotated axes, and not points just beyond them (REFERENCES.md §1.1 inside test)', () => {
+  it('contains its centre and the tips of its rotated axes, and not points just beyond them (docs/references.md §1.1 inside test)', () => {
     const e = new Ellipse(TILTED);
     const t = (37 * Math.PI) / 180;
     const along = (scale: number): [number, number] => [

@@ -7,7 +7,7 @@ import { Rectangle } from '../../src/phantoms/rectangle.ts';
 import { resolutionContrast } from '../../src/phantoms/resolution-contrast.ts';
 import { sheppLogan, sheppLoganModified } from '../../src/phantoms/shepp-logan.ts';
 
-/** The grid by its definition (DESIGN.md): K at kx = (u − ⌊nx/2⌋)/2, ky = −(v − ⌊ny/2⌋)/2, times √(nx·ny)/4. */
+/** The grid by its definition (docs/design.md §3.3): K at kx = (u − ⌊nx/2⌋)/2, ky = −(v − ⌊ny/2⌋)/2, times √(nx·ny)/4. */
 function gridByDefinition(phantom: Phantom, nx: number, ny: number): Float64Array {
   const kx = new Float64Array(nx * ny);
   const ky = new Float64Array(nx * ny);
@@ -36,7 +36,7 @@ const MIXED = new ShapePhantom('mixed', 'every shape kind and orientation', [
 ]);
 
 describe('phantomGridKspace', () => {
-  it('equals kspaceAt at every grid point of the DESIGN.md mapping, for every phantom and odd/even sizes (1e-12)', () => {
+  it('equals kspaceAt at every grid point of the docs/design.md §3.3 mapping, for every phantom and odd/even sizes (1e-12)', () => {
     for (const phantom of [sheppLogan(), sheppLoganModified(), resolutionContrast(), MIXED]) {
       for (const [nx, ny] of [
         [64, 48],

@@ -9,9 +9,9 @@ import { sheppLogan, sheppLoganModified } from '../../src/phantoms/shepp-logan.t
 
 /**
  * Relative 2-norm error of fft2c(raster) against the analytic grid k-space over the central
- * (2·8·2 + 1)² points (max(|kx|, |ky|) ≤ 8 cycles/unit), as in REFERENCES.md §1.3. With `sincCorrected`
+ * (2·8·2 + 1)² points (max(|kx|, |ky|) ≤ 8 cycles/unit), as in docs/references.md §1.3. With `sincCorrected`
  * the analytic values are multiplied by sinc(hx·kx)·sinc(hy·ky), the transform of the box average.
- * Grid frequencies are written out from DESIGN.md here, not taken from src/phantoms.
+ * Grid frequencies are written out from docs/design.md §3.3 here, not taken from src/phantoms.
  */
 function centralError(phantom: Phantom, nx: number, ny: number, ss: number, sincCorrected: boolean): number {
   const raster = phantom.rasterize(nx, ny, { supersample: ss });
@@ -48,7 +48,7 @@ function wholeGridError(phantom: Phantom, n: number): number {
   return Math.sqrt(error / norm);
 }
 
-describe('analytic grid k-space against the DFT of a fine raster (REFERENCES.md §1.3)', () => {
+describe('analytic grid k-space against the DFT of a fine raster (docs/references.md §1.3)', () => {
   const modified = sheppLoganModified();
   let e128 = Number.NaN;
   let e256 = Number.NaN;
@@ -61,12 +61,12 @@ describe('analytic grid k-space against the DFT of a fine raster (REFERENCES.md 
     s256 = centralError(modified, 256, 256, 8, true);
   });
 
-  it('central 33×33: relative error < 0.5 % at n = 256, ss = 8 (REFERENCES.md §1.3 gives 0.0025)', () => {
+  it('central 33×33: relative error < 0.5 % at n = 256, ss = 8 (docs/references.md §1.3 gives 0.0025)', () => {
     expect(e256).toBeLessThan(0.005);
-    expect(e128).toBeLessThan(0.015); // §1.3: 0.010
+    expect(e128).toBeLessThan(0.015); // docs/references.md §1.3: 0.010
   });
 
-  it('reproduces the REFERENCES.md §1.3 [C] table (NumPy, same convention) to the digits it quotes', () => {
+  it('reproduces the docs/references.md §1.3 [C] table (NumPy, same convention) to the digits it quotes', () => {
     // 0.010, 0.0025, 0.0034, 0.00083: each within half a unit of its last quoted digit.
     expect(Math.abs(e128 - 0.01)).toBeLessThanOrEqual(0.0005);
     expect(Math.abs(e256 - 0.0025)).toBeLessThanOrEqual(0.00005);
@@ -74,26 +74,26 @@ describe('analytic grid k-space against the DFT of a fine raster (REFERENCES.md 
     expect(Math.abs(s256 - 0.00083)).toBeLessThanOrEqual(0.000005);
   });
 
-  it('central error falls by ≳ 3× when n doubles (REFERENCES.md §1.3)', () => {
+  it('central error falls by ≳ 3× when n doubles (docs/references.md §1.3)', () => {
     expect(e128 / e256).toBeGreaterThan(3);
     expect(s128 / s256).toBeGreaterThan(3);
   });
 
-  it('sinc-corrected central error: < 0.005 at n = 128 and < 0.0012 at n = 256 (§1.3 gives 0.0034 and 0.00083)', () => {
+  it('sinc-corrected central error: < 0.005 at n = 128 and < 0.0012 at n = 256 (docs/references.md §1.3 gives 0.0034 and 0.00083)', () => {
     expect(s128).toBeLessThan(0.005);
     expect(s256).toBeLessThan(0.0012);
     expect(s256).toBeLessThan(e256);
   });
 
-  it('whole-grid error stays at several % from aliasing, as §1.3 reports (0.059 at n = 256)', () => {
+  it('whole-grid error stays at several % from aliasing, as docs/references.md §1.3 reports (0.059 at n = 256)', () => {
     const whole = wholeGridError(modified, 256);
     expect(whole).toBeGreaterThan(0.05);
     expect(whole).toBeLessThan(0.07);
   });
 
-  it('odd and non-square sizes (127×129, 129×96) agree as well as 128×128 (centre at ⌊n/2⌋, DESIGN.md)', () => {
-    // The error falls like 1/n² (§1.3), so the bound scales with the shorter side. A centre off by
-    // half a pixel (the literal (2j − n)/n for odd n, REFERENCES.md §0) gives about 12 % at 127×129.
+  it('odd and non-square sizes (127×129, 129×96) agree as well as 128×128 (centre at ⌊n/2⌋, docs/design.md §3.3)', () => {
+    // The error falls like 1/n² (docs/references.md §1.3), so the bound scales with the shorter side. A centre off by
+    // half a pixel (the literal (2j − n)/n for odd n, docs/references.md §0) gives about 12 % at 127×129.
     for (const [nx, ny] of [
       [127, 129],
       [129, 96],
@@ -124,10 +124,10 @@ describe('grid k-space layout and scale', () => {
     }
   });
 
-  it('puts +ky in the rows above the centre: row v holds ky = −(v − ⌊ny/2⌋)/2 (DESIGN.md)', () => {
+  it('puts +ky in the rows above the centre: row v holds ky = −(v − ⌊ny/2⌋)/2 (docs/design.md §3.3)', () => {
     const phantom = sheppLoganModified();
     const grid = phantomGridKspace(phantom, 16, 16);
-    // Row 7 is one above the centre row 8: ky = +0.5; column 8 is kx = 0 (REFERENCES.md §1.2 value).
+    // Row 7 is one above the centre row 8: ky = +0.5; column 8 is kx = 0 (docs/references.md §1.2 value).
     const i = 2 * (7 * 16 + 8);
     const scale = Math.sqrt(256) / 4;
     expect(grid.data[i] / scale).toBeCloseTo(0.0255806687, 9);

@@ -6,7 +6,7 @@ import { sheppLoganModified } from '../../src/phantoms/shepp-logan.ts';
 
 /**
  * The box average by definition: the mean over ss×ss sub-pixel points of the summed intensities of
- * the shapes containing each point, at the positions DESIGN.md gives (pixel centre
+ * the shapes containing each point, at the positions docs/design.md §3.3 gives (pixel centre
  * x_j = (j − ⌊nx/2⌋)·2/nx, y_i = −(i − ⌊ny/2⌋)·2/ny, sub-points on a regular ss×ss grid inside).
  */
 function bruteForceRaster(phantom: ShapePhantom, nx: number, ny: number, ss: number): Float64Array {
@@ -36,7 +36,7 @@ function maxDifference(a: Float64Array, b: Float64Array): number {
 }
 
 describe('rasterisation', () => {
-  it('equals the sample-by-sample box average at the DESIGN.md positions (non-square, odd and even sizes)', () => {
+  it('equals the sample-by-sample box average at the docs/design.md §3.3 positions (non-square, odd and even sizes)', () => {
     const cases: [ShapePhantom, number, number, number][] = [
       [sheppLoganModified(), 64, 48, 1],
       [sheppLoganModified(), 63, 49, 4],

@@ -15,7 +15,7 @@ import {
 
 const transformAt = (r: Rectangle, kx: number, ky: number): Complex => shapeTransform(r)(kx, ky);
 
-// The check rectangle of REFERENCES.md §1.5: ρ = 1, w = (0.4, 0.2), centre (0.1, −0.3).
+// The check rectangle of docs/references.md §1.5: ρ = 1, w = (0.4, 0.2), centre (0.1, −0.3).
 const CHECK: RectangleParams = { x0: 0.1, y0: -0.3, wx: 0.4, wy: 0.2, intensity: 1 };
 const TILTED: RectangleParams = { x0: -0.25, y0: 0.4, wx: 0.3, wy: 0.07, thetaDeg: 30, intensity: 0.8 };
 const FREQUENCIES: Array<[number, number]> = [
@@ -28,7 +28,7 @@ const FREQUENCIES: Array<[number, number]> = [
 ];
 
 describe('sinc', () => {
-  it('is sin(πt)/(πt): 1 at 0, 2/π at ½, exactly 0 at non-zero integers (definition, REFERENCES.md §1.5)', () => {
+  it('is sin(πt)/(πt): 1 at 0, 2/π at ½, exactly 0 at non-zero integers (definition, docs/references.md §1.5)', () => {
     expect(sinc(0)).toBe(1);
     expect(sinc(0.5)).toBeCloseTo(2 / Math.PI, 15);
     expect(sinc(-1.5)).toBeCloseTo(-2 / (3 * Math.PI), 15);
@@ -37,14 +37,14 @@ describe('sinc', () => {
 });
 
 describe('rectangle transform', () => {
-  it('reproduces the REFERENCES.md §1.5 check values (tol 1e-9)', () => {
+  it('reproduces the docs/references.md §1.5 check values (tol 1e-9)', () => {
     const r = new Rectangle(CHECK);
     expect(distance(transformAt(r, 0, 0), [0.08, 0])).toBeLessThan(1e-12);
     expect(distance(transformAt(r, 1, 0), [0.0489828548, -0.0355881272])).toBeLessThan(1e-9);
     expect(distance(transformAt(r, 1, 2), [-0.0458229358, 0])).toBeLessThan(1e-9);
   });
 
-  it('vanishes on the line kx = 1/wx = 2.5 for every ky (REFERENCES.md §1.5)', () => {
+  it('vanishes on the line kx = 1/wx = 2.5 for every ky (docs/references.md §1.5)', () => {
     const r = new Rectangle(CHECK);
     for (const ky of [-3.3, 0, 0.25, 1.7, 8]) {
       const [re, im] = transformAt(r, 2.5, ky);
@@ -85,7 +85,7 @@ describe('rectangle transform', () => {
     expectSameTransform(shapeTransform(upright), shapeTransform(swapped), FREQUENCIES, 1e-15);
   });
 
-  it('is Hermitian: R(−k) = conj R(k) (REFERENCES.md §1.2 property, 1e-15)', () => {
+  it('is Hermitian: R(−k) = conj R(k) (docs/references.md §1.2 property, 1e-15)', () => {
     expectHermitian(shapeTransform(new Rectangle(TILTED)), FREQUENCIES, 1e-15);
   });
 });

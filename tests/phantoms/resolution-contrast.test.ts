@@ -7,7 +7,7 @@ import {
   resolutionContrast,
 } from '../../src/phantoms/resolution-contrast.ts';
 
-// On a 500-pixel side the pixel centres are x = (j − 250)·0.004, y = −(i − 250)·0.004 (DESIGN.md),
+// On a 500-pixel side the pixel centres are x = (j − 250)·0.004, y = −(i − 250)·0.004 (docs/design.md §3.3),
 // so every design coordinate below (multiples of 0.02) falls on a pixel centre.
 const N = 500;
 const colOf = (x: number) => Math.round(250 + x / 0.004);
@@ -25,7 +25,7 @@ describe('resolution-contrast phantom', () => {
     expect(ellipses.length).toBe(13);
   });
 
-  it('K(0) equals Σ intensity × area of its shapes (π r² for discs, w × length for bars; REFERENCES.md §1.2/§1.5)', () => {
+  it('K(0) equals Σ intensity × area of its shapes (π r² for discs, w × length for bars; docs/references.md §1.2/§1.5)', () => {
     const { background, bars, discs } = LAYOUT;
     let expected = background.intensity * Math.PI * background.radius ** 2;
     for (const w of bars.widths) expected += 2 * bars.perGroup * bars.intensity * w * bars.length;
@@ -80,7 +80,7 @@ describe('resolution-contrast phantom', () => {
     });
   });
 
-  it('bar widths decrease and straddle the pixel sizes of 128 and 256 grids (w ≥ 2/n to resolve, REFERENCES.md §1.5)', () => {
+  it('bar widths decrease and straddle the pixel sizes of 128 and 256 grids (w ≥ 2/n to resolve, docs/references.md §1.5)', () => {
     const { widths } = LAYOUT.bars;
     // DEVELOPERS.md: bar groups 0.05 → 0.01 units wide.
     expect([widths[0], widths.at(-1)]).toEqual([0.05, 0.01]);
@@ -105,7 +105,7 @@ describe('resolution-contrast phantom', () => {
     );
   });
 
-  it('is Hermitian, K(−k) = conj K(k) (real object; REFERENCES.md §1.2, 1e-12)', () => {
+  it('is Hermitian, K(−k) = conj K(k) (real object; docs/references.md §1.2, 1e-12)', () => {
     const kx = [0.5, -3.25, 11.5, 40, 7.3];
     const ky = [0, 2.5, -9, 0.5, -64.1];
     const plus = phantom.kspaceAt(kx, ky);

@@ -50,12 +50,12 @@ const POINTS: Array<[number, number]> = [
 ];
 
 describe('Shepp–Logan analytic k-space', () => {
-  it('K(0) = Σ ρπab: 0.4952646048 modified, 2.2017566919 with the 1974 intensities (REFERENCES.md §1.2, tol 1e-9)', () => {
+  it('K(0) = Σ ρπab: 0.4952646048 modified, 2.2017566919 with the 1974 intensities (docs/references.md §1.2, tol 1e-9)', () => {
     expect(distance(valueAt(sheppLoganModified(), 0, 0), [0.4952646048, 0])).toBeLessThan(1e-9);
     expect(distance(valueAt(sheppLogan(), 0, 0), [2.2017566919, 0])).toBeLessThan(1e-9);
   });
 
-  it('matches the REFERENCES.md §1.2 values at (0.5, 0), (0, 0.5), (1, −1.5), (2.5, 3) (tol 1e-9)', () => {
+  it('matches the docs/references.md §1.2 values at (0.5, 0), (0, 0.5), (1, −1.5), (2.5, 3) (tol 1e-9)', () => {
     const modified = sheppLoganModified();
     expect(distance(valueAt(modified, 0.5, 0), [0.205105882, -0.0116814271])).toBeLessThan(1e-9);
     expect(distance(valueAt(modified, 0, 0.5), [0.0255806687, -0.0389715318])).toBeLessThan(1e-9);
@@ -64,7 +64,7 @@ describe('Shepp–Logan analytic k-space', () => {
     expect(distance(valueAt(sheppLogan(), 0.5, 0), [1.082506134, -0.0011681427])).toBeLessThan(1e-9);
   });
 
-  it('is Hermitian, K(−k) = conj K(k), since the phantom is real (REFERENCES.md §1.2, tol 1e-12)', () => {
+  it('is Hermitian, K(−k) = conj K(k), since the phantom is real (docs/references.md §1.2, tol 1e-12)', () => {
     for (const phantom of [sheppLogan(), sheppLoganModified()])
       expectHermitian(transformOf(phantom), POINTS, 1e-12);
   });
@@ -94,11 +94,11 @@ describe('Shepp–Logan analytic k-space', () => {
 });
 
 describe('Shepp–Logan raster', () => {
-  // On a 200-pixel side the pixel centres are x = (j − 100)/100, y = −(i − 100)/100 (DESIGN.md).
+  // On a 200-pixel side the pixel centres are x = (j − 100)/100, y = −(i − 100)/100 (docs/design.md §3.3).
   const at = (image: { nx: number; data: Float64Array }, x: number, y: number) =>
     image.data[Math.round(100 - 100 * y) * image.nx + Math.round(100 + 100 * x)];
 
-  it('has the tissue values of REFERENCES.md §1.1 (brain 1.02 and 0.2, skull 2.0 and 1.0) at known points', () => {
+  it('has the tissue values of docs/references.md §1.1 (brain 1.02 and 0.2, skull 2.0 and 1.0) at known points', () => {
     const original = sheppLogan().rasterize(200, 200);
     const modified = sheppLoganModified().rasterize(200, 200);
     expect(at(original, 0, 0)).toBeCloseTo(1.02, 12);
@@ -112,7 +112,7 @@ describe('Shepp–Logan raster', () => {
     expect(at(modified, 0.95, 0.95)).toBe(0);
   });
 
-  it('puts y up: ellipse 5 (y0 = +0.35) appears in the upper half, row 0 at the top (DESIGN.md)', () => {
+  it('puts y up: ellipse 5 (y0 = +0.35) appears in the upper half, row 0 at the top (docs/design.md §3.3)', () => {
     const modified = sheppLoganModified().rasterize(200, 200);
     expect(at(modified, 0, 0.35)).toBeCloseTo(0.3, 12);
     expect(at(modified, 0, -0.35)).toBeCloseTo(0.2, 12);

@@ -4,7 +4,7 @@ import type { Shape } from '../../src/phantoms/shape.ts';
 
 /**
  * Checks shared by the shape and phantom transform tests: the Fourier shift and rotation theorems
- * (common practice) and Hermitian symmetry of the transform of a real object (REFERENCES.md §1.2).
+ * (common practice) and Hermitian symmetry of the transform of a real object (docs/references.md §1.2).
  * Each takes the transform as a function of (kx, ky) so it serves single shapes and whole phantoms.
  */
 

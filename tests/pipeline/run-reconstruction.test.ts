@@ -109,7 +109,7 @@ describe('runReconstruction', () => {
     const out = await rasterMode(2);
     expect(out.notes.some((n) => n.includes('inverse crime'))).toBe(true);
     // The crime itself: with every line the reconstruction returns the very raster the data came from
-    // (DESIGN.md: 'raster' k-space = F_c(raster), 4× supersampled), not the analytic object.
+    // (docs/design.md §2.1: 'raster' k-space = F_c(raster), 4× supersampled), not the analytic object.
     const full = await rasterMode(1);
     const raster = sheppLoganModified().rasterize(32, 32, { supersample: RASTER_SUPERSAMPLE });
     let worst = 0;

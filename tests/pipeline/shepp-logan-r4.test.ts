@@ -7,7 +7,7 @@ import { type ReconstructionOutcome, runReconstruction } from '../../src/pipelin
  * 1974 phantom with seed 11 (src/recon/cs-tv.ts, lowrank-hankel.ts), not on this case.
  * Measured here (NRMSE / SSIM): random lines — zero-filled 0.344 / 0.635, cs-tv 0.134 / 0.916,
  * lowrank-hankel 0.154 / 0.922; Poisson-disc — zero-filled 0.446 / 0.358, cs-tv 0.072 / 0.942,
- * lowrank-hankel 0.103 / 0.808. Assertions keep slack on those margins (REFERENCES §5.2 sanity:
+ * lowrank-hankel 0.103 / 0.808. Assertions keep slack on those margins (docs/references.md §5.2 sanity:
  * TV-CS ≈ 0.3× zero-filled NRMSE at R ≈ 4, [C]).
  */
 const matrix = { nx: 128, ny: 128 };
@@ -71,7 +71,7 @@ describe('modified Shepp–Logan, analytic k-space, R = 4: regularised methods b
 
 describe('with noise (SNR 20), 64², Poisson-disc R = 4: the regularised methods still beat zero-filled', () => {
   // With noise exactness is gone; the check is that regularisation lowers the error versus
-  // zero-filled (REFERENCES §5.3, common practice). Measured (seed 2, NRMSE / SSIM): zero-filled
+  // zero-filled (docs/references.md §5.3, common practice). Measured (seed 2, NRMSE / SSIM): zero-filled
   // 0.496 / 0.461, cs-tv 0.283 / 0.763, lowrank-hankel 0.206 / 0.793. (On random lines at this
   // small matrix lowrank-hankel gains only ≈ 7 %, so that case is reported, not asserted.)
   it('cs-tv and lowrank-hankel have lower NRMSE and higher SSIM than zero-filled', async () => {

@@ -4,7 +4,7 @@ import { buildTable } from '../../src/plan/build-table.ts';
 import type { CellResult } from '../../src/plan/cell-result.ts';
 import { at, cellResult, handPlan, referencePosition } from './hand-made.ts';
 
-// Source: the table rules of DESIGN.md and DEVELOPERS.md ("Scan time and plans": reference row,
+// Source: the table rules of docs/design.md §4.4 and DEVELOPERS.md ("Scan time and plans": reference row,
 // plan order, mean and sample SD (n − 1) over seeds, Pareto front, notes); inputs are hand-made
 // (tests/plan/hand-made.ts) so each expected value can be worked out on paper.
 
@@ -50,7 +50,7 @@ describe('tradeoff table on hand-made cell results', () => {
     expect(reference.pattern).toBe('fully sampled');
     expect(reference.method).toBe('zero-filled');
     expect(reference.requestedR).toBe(1);
-    // REFERENCES.md §8 [C]: TR 500 ms × 256 lines = 128 s = 2:08.
+    // docs/references.md §8 [C]: TR 500 ms × 256 lines = 128 s = 2:08.
     expect(table.fullySampled.seconds).toBe(128);
     expect(reference.scanSeconds).toBe(128);
     expect(reference.timeSavedPct).toBe(0);

@@ -9,7 +9,7 @@ import type { GridPosition } from '../../src/plan/row-key.ts';
 export const protocol500 = {
   dimensions: '2d',
   trMs: 500,
-  nex: 1,
+  averages: 1,
   echoTrainLength: 1,
   slices: 1,
   partialFourier: 1,
@@ -44,7 +44,7 @@ export function at(
 
 let nextIndex = 0;
 
-/** One cell result; scan time = TR 500 ms × acquired lines (2D, NEX 1, ETL 1). */
+/** One cell result; scan time = TR 500 ms × acquired lines (2D, 1 average, ETL 1). */
 export function cellResult(
   position: GridPosition,
   values: { lines: number; ssim: number; nrmse?: number; psnr?: number | null; hfen?: number; seed?: number },

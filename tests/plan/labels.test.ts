@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { specLabels } from '../../src/plan/labels.ts';
 
-// Source: the project's own labelling rule for table rows (DESIGN.md: one row per pattern × R ×
+// Source: the project's own labelling rule for table rows (docs/design.md §2.3: one row per pattern × R ×
 // method, so repeated methods need labels that tell them apart); inputs are hand-made.
 
 describe('row labels for patterns and methods', () => {

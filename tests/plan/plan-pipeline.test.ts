@@ -19,12 +19,12 @@ function withoutTimes(table: PlanTable) {
 }
 
 describe('plan through the real pipeline (32×32)', () => {
-  it('R = 1 zero-filled reference: zero time saved and zero error without noise (DESIGN.md reference)', async () => {
+  it('R = 1 zero-filled reference: zero time saved and zero error without noise (docs/design.md §4.4 reference row)', async () => {
     const table = await runPlan(body);
     const reference = table.rows[0];
     expect(reference.reference).toBe(true);
     expect(reference.timeSavedPct).toBe(0);
-    // REFERENCES.md §8 [C] formula: TR 500 ms × 32 lines × NEX 1 = 16 s.
+    // docs/references.md §8 [C] formula: TR 500 ms × 32 lines × 1 average = 16 s.
     expect(reference.scanSeconds).toBe(16);
     expect(reference.metrics.nrmse.mean).toBeLessThan(1e-12);
     expect(reference.metrics.hfen.mean).toBeLessThan(1e-12);
@@ -35,7 +35,7 @@ describe('plan through the real pipeline (32×32)', () => {
 
   it('scan time strictly decreases with R at a fixed pattern; zero-filled error grows with R', async () => {
     const table = await runPlan(body);
-    // Lines from the pattern rules of DEVELOPERS.md, × TR 0.5 s (REFERENCES.md §8 formula):
+    // Lines from the pattern rules of DEVELOPERS.md, × TR 0.5 s (docs/references.md §8 formula):
     // cartesian-uniform R 2 → rows 0, 2, …, 30 plus ACS rows 15, 17 = 18 lines; R 4 → 8 + 3 ACS = 11;
     // cartesian-random draws exactly round(32 / R) lines: 16 and 8.
     const expectedSeconds = [

@@ -77,7 +77,7 @@ describe('runPlan with an injected cell runner', () => {
     expect(table.rows.length).toBe(7);
   });
 
-  it('scan time strictly decreases with R at a fixed pattern (real masks, REFERENCES.md §8 formula)', async () => {
+  it('scan time strictly decreases with R at a fixed pattern (real masks, docs/references.md §8 formula)', async () => {
     const table = await runPlan(body({ accelerations: [1, 2, 3, 4, 6] }), { runCellFn: syntheticCell });
     for (const patternIndex of [0, 1]) {
       const rows = table.rows.filter((r) => r.patternIndex === patternIndex);
@@ -165,7 +165,7 @@ function problems(input: unknown, limits = defaultLimits) {
 describe('plan validation names the field and the allowed range', () => {
   it.each([
     [{ protocol: { trMs: 0 } }, 'protocol.trMs', '> 0'],
-    [{ protocol: { trMs: 500, nex: 0 } }, 'protocol.nex', '≥ 1'],
+    [{ protocol: { trMs: 500, averages: 0 } }, 'protocol.averages', '≥ 1'],
     [{ protocol: { trMs: 500, partialFourier: 0.3 } }, 'protocol.partialFourier', '≥ 0.5'],
     [{ accelerations: [2, 3, 0.5] }, 'accelerations[2]', '≥ 1'],
     [{ accelerations: [2, 3, 2] }, 'accelerations[2]', 'distinct values'],

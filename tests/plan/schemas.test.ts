@@ -7,8 +7,8 @@ import { planSchema } from '../../src/plan/schema.ts';
 import { protocolSchema } from '../../src/protocol/schema.ts';
 import { at, cellResult, handPlan, referencePosition } from './hand-made.ts';
 
-// One schema is the type, the validator and the OpenAPI schema (DESIGN.md): the schemas must turn
-// into JSON Schema 2020-12 (what OpenAPI 3.1 uses, REFERENCES.md §10.6) and describe what the engine returns.
+// One schema is the type, the validator and the OpenAPI schema (docs/design.md §5): the schemas must turn
+// into JSON Schema 2020-12 (what OpenAPI 3.1 uses, docs/references.md §10.6) and describe what the engine returns.
 describe('plan and protocol schemas', () => {
   it('convert to JSON Schema (OpenAPI 3.1 dialect)', () => {
     for (const schema of [protocolSchema, planSchema, planTableSchema, cellResultSchema]) {

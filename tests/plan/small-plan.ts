@@ -1,6 +1,6 @@
 /**
  * The small sweep the plan tests share: modified Shepp–Logan on 32×32, TR 500 ms (so the fully
- * sampled 2D scan is 32 × 0.5 s = 16 s, REFERENCES.md §8), cartesian-uniform and cartesian-random
+ * sampled 2D scan is 32 × 0.5 s = 16 s, docs/references.md §8), cartesian-uniform and cartesian-random
  * with 4 ACS lines, R 2, 3, 4, zero-filled, 2 seeds. Tests override what they vary.
  */
 export function smallPlanBody(overrides: Record<string, unknown> = {}) {

@@ -34,7 +34,7 @@ function readNumber(text: string): number | null {
   return text === 'Infinity' || text === '' ? null : Number(text);
 }
 
-describe('tradeoff table as RFC 4180 CSV (REFERENCES.md §10.5)', () => {
+describe('tradeoff table as RFC 4180 CSV (docs/references.md §10.5)', () => {
   it('records end in CRLF, the header names carry units, every record has the header field count', () => {
     const csv = tableToCsv(sampleTable());
     expect(csv.endsWith('\r\n')).toBe(true);
@@ -88,7 +88,7 @@ describe('tradeoff table as RFC 4180 CSV (REFERENCES.md §10.5)', () => {
     expect(records[0].requested_r).toBe('1.00');
   });
 
-  it('fixed decimals with "." as separator (common practice, REFERENCES.md §10.5)', () => {
+  it('fixed decimals with "." as separator (common practice, docs/references.md §10.5)', () => {
     const records = parse(tableToCsv(sampleTable()), { columns: true }) as Record<string, string>[];
     expect(records[1].scan_s).toMatch(/^\d+\.\d{3}$/);
     expect(records[1].ssim_mean).toMatch(/^\d\.\d{6}$/);

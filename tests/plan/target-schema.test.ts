@@ -13,7 +13,7 @@ function problem(value: unknown) {
   throw new Error('expected a ValidationError');
 }
 
-// Metric directions per DESIGN.md: SSIM and PSNR higher is better, NRMSE and HFEN lower is better.
+// Metric directions per docs/design.md §3.6: SSIM and PSNR higher is better, NRMSE and HFEN lower is better.
 describe('plan target', () => {
   it('accepts { ssim, atLeast } and { nrmse, atMost }', () => {
     expect(parseOrThrow(targetSchema, { metric: 'ssim', atLeast: 0.95 }, 'target')).toEqual({

@@ -1,14 +1,14 @@
 import { describe, expect, it } from 'vitest';
 import { formatDuration } from '../../src/protocol/format-duration.ts';
 
-// Rounding rule pinned here (REFERENCES.md §8 asks for it to be pinned; the rule is ours, common
+// Rounding rule pinned here (docs/references.md §8 asks for it to be pinned; the rule is ours, common
 // practice for operator displays): round half up to 0.1 s, show the tenth only when it is not zero.
 describe('formatDuration (m:ss, tenths when non-zero)', () => {
   it.each([
-    [128, '2:08'], // REFERENCES.md §8 [C]
-    [256, '4:16'], // REFERENCES.md §8, Radiopaedia [P]
-    [190, '3:10'], // REFERENCES.md §8 [C]
-    [163.84, '2:43.8'], // REFERENCES.md §8 [C], rule example given there
+    [128, '2:08'], // docs/references.md §8 [C]
+    [256, '4:16'], // docs/references.md §8, Radiopaedia [P]
+    [190, '3:10'], // docs/references.md §8 [C]
+    [163.84, '2:43.8'], // docs/references.md §8 [C], rule example given there
     [81.92, '1:21.9'],
     [122.88, '2:02.9'],
     [35.5, '0:35.5'],

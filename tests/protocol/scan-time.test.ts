@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { ValidationError } from '../../src/core/errors.ts';
 import { type ScanTimeSampling, scanTime } from '../../src/protocol/scan-time.ts';
+import { protocolSchema } from '../../src/protocol/schema.ts';
 
 /** A Cartesian mask sampling whole phase-encode rows (1 = acquired). */
 function lineMask(nx: number, ny: number, rows: number[]): ScanTimeSampling {
@@ -25,36 +26,36 @@ function problemOf(fn: () => unknown): { field: string; allowed?: string } {
   throw new Error('expected a ValidationError');
 }
 
-describe('scan time: worked examples of REFERENCES.md §8', () => {
-  it('[C] 2D SE, TR 500 ms, 256 lines, NEX 1 → 128 s = 2:08', () => {
-    const t = scanTime({ nx: 256, ny: 256 }, { trMs: 500, nex: 1 });
+describe('scan time: worked examples of docs/references.md §8', () => {
+  it('[C] 2D SE, TR 500 ms, 256 lines, 1 average → 128 s = 2:08', () => {
+    const t = scanTime({ nx: 256, ny: 256 }, { trMs: 500, averages: 1 });
     expect(t.seconds).toBe(128);
     expect(t.formatted).toBe('2:08');
     expect(t.acquired).toBe(256);
     expect(t.unit).toBe('lines');
   });
 
-  it('[P] Radiopaedia "Acquisition time": 2D SE, TR 1000 ms, 128 lines, NEX 2 → 256 s = 4:16', () => {
-    const t = scanTime({ nx: 128, ny: 128 }, { trMs: 1000, nex: 2 });
+  it('[P] Radiopaedia "Acquisition time": 2D SE, TR 1000 ms, 128 lines, 2 averages → 256 s = 4:16', () => {
+    const t = scanTime({ nx: 128, ny: 128 }, { trMs: 1000, averages: 2 });
     expect(t.seconds).toBe(256);
     expect(t.formatted).toBe('4:16');
   });
 
-  it('[C] FSE, TR 4000 ms, 256 lines, NEX 2, ETL 16 → 128 s = 2:08', () => {
-    const t = scanTime({ nx: 256, ny: 256 }, { trMs: 4000, nex: 2, echoTrainLength: 16 });
+  it('[C] spin echo with an echo train, TR 4000 ms, 256 lines, 2 averages, ETL 16 → 128 s = 2:08', () => {
+    const t = scanTime({ nx: 256, ny: 256 }, { trMs: 4000, averages: 2, echoTrainLength: 16 });
     expect(t.shots).toBe(16);
     expect(t.seconds).toBe(128);
     expect(t.formatted).toBe('2:08');
   });
 
-  it('[C] FSE, TR 2500 ms, 224 lines, NEX 4, ETL 12: ⌈224/12⌉ = 19 shots → 190 s = 3:10', () => {
-    const t = scanTime({ nx: 256, ny: 224 }, { trMs: 2500, nex: 4, echoTrainLength: 12 });
+  it('[C] spin echo with an echo train, TR 2500 ms, 224 lines, 4 averages, ETL 12: ⌈224/12⌉ = 19 shots → 190 s = 3:10', () => {
+    const t = scanTime({ nx: 256, ny: 224 }, { trMs: 2500, averages: 4, echoTrainLength: 12 });
     expect(t.shots).toBe(19);
     expect(t.seconds).toBe(190);
     expect(t.formatted).toBe('3:10');
   });
 
-  it('[C] 3D GRE, TR 10 ms, 256 × 64 (ky × kz), NEX 1 → 163.84 s = "2:43.8"', () => {
+  it('[C] 3D GRE, TR 10 ms, 256 × 64 (ky × kz), 1 average → 163.84 s = "2:43.8"', () => {
     const t = scanTime({ nx: 64, ny: 256 }, { dimensions: '3d', trMs: 10 });
     expect(t.acquired).toBe(16384);
     expect(t.unit).toBe('points');
@@ -102,12 +103,12 @@ describe('scan time: worked examples of REFERENCES.md §8', () => {
   });
 });
 
-describe('scan time: slices, partial Fourier and masks (common practice, REFERENCES.md §8)', () => {
+describe('scan time: slices, partial Fourier and masks (common practice, docs/references.md §8)', () => {
   it('slices do not multiply 2D time while they fit in one TR; extra passes do', () => {
     const one = scanTime({ nx: 256, ny: 256 }, { trMs: 500, slices: 20 });
     expect(one.passes).toBe(1);
     expect(one.seconds).toBe(128);
-    // 20 slices, 8 per TR → ⌈20/8⌉ = 3 passes (concatenations).
+    // 20 slices, 8 per TR → ⌈20/8⌉ = 3 passes.
     const three = scanTime({ nx: 256, ny: 256 }, { trMs: 500, slices: 20, slicesPerPass: 8 });
     expect(three.passes).toBe(3);
     expect(three.seconds).toBe(384);
@@ -152,11 +153,14 @@ describe('scan time: slices, partial Fourier and masks (common practice, REFEREN
   });
 });
 
-describe('scan time: validation names the field and the allowed range (issue: TR > 0, NEX ≥ 1, partial Fourier in [0.5, 1]; DESIGN.md typed errors)', () => {
+describe('scan time: validation names the field and the allowed range (TR > 0, averages ≥ 1, partial Fourier in [0.5, 1]; docs/design.md §4.1 typed errors)', () => {
   const matrix = { nx: 64, ny: 64 };
   it.each([
     [{ trMs: 0 }, 'protocol.trMs', '> 0'],
     [{ trMs: -5 }, 'protocol.trMs', '> 0'],
+    [{ trMs: 500, averages: 0 }, 'protocol.averages', '≥ 1'],
+    [{ trMs: 500, averages: 1.5 }, 'protocol.averages', 'an integer'],
+    // The deprecated alias is checked as strictly, under its own name.
     [{ trMs: 500, nex: 0 }, 'protocol.nex', '≥ 1'],
     [{ trMs: 500, nex: 1.5 }, 'protocol.nex', 'an integer'],
     [{ trMs: 500, echoTrainLength: 2.5 }, 'protocol.echoTrainLength', 'an integer'],
@@ -201,5 +205,43 @@ describe('scan time: validation names the field and the allowed range (issue: TR
     expect(problemOf(() => scanTime({ nx: 8, ny: 8 }, { trMs: 5, partialFourier: 0.75 }, radial)).field).toBe(
       'protocol.partialFourier',
     );
+  });
+});
+
+// `averages` is DICOM Number of Averages (0018,0083); `nex` is its deprecated alias, kept for one
+// version. Source of the expected times: the TA formula of docs/references.md §8 (TR × lines × averages).
+describe('scan time: averages and the deprecated alias nex', () => {
+  const matrix = { nx: 128, ny: 128 };
+
+  it('averages defaults to 1: TR 1000 ms × 128 lines = 128 s', () => {
+    expect(scanTime(matrix, { trMs: 1000 }).seconds).toBe(128);
+  });
+
+  it('nex alone means the same as averages: 3 averages → 384 s either way', () => {
+    expect(scanTime(matrix, { trMs: 1000, averages: 3 }).seconds).toBe(384);
+    expect(scanTime(matrix, { trMs: 1000, nex: 3 }).seconds).toBe(384);
+  });
+
+  it('both given and equal is accepted', () => {
+    expect(scanTime(matrix, { trMs: 1000, averages: 2, nex: 2 }).seconds).toBe(256);
+  });
+
+  it('both given and different is refused naming both fields', () => {
+    let problems: { field: string; allowed?: string }[] = [];
+    try {
+      scanTime(matrix, { trMs: 1000, averages: 2, nex: 3 });
+    } catch (error) {
+      expect(error).toBeInstanceOf(ValidationError);
+      problems = (error as ValidationError).problems;
+    }
+    expect(problems.map((p) => p.field).sort()).toEqual(['protocol.averages', 'protocol.nex']);
+    expect(problems[0].allowed).toBe('averages alone, or nex equal to averages');
+  });
+
+  it('the parsed protocol carries averages only, and parses again to itself', () => {
+    const parsed = protocolSchema.parse({ trMs: 1000, nex: 4 });
+    expect(parsed.averages).toBe(4);
+    expect('nex' in parsed).toBe(false);
+    expect(protocolSchema.parse(parsed)).toEqual(parsed);
   });
 });

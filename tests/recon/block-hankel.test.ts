@@ -119,7 +119,7 @@ describe.each([
 });
 
 describe('finite rate of innovation: Hankel rank of sums of exponentials (Vetterli, Marziliano & Blu 2002)', () => {
-  it('1-D, M = 64, K = 3 exponentials: Hankel rank 3 for windows L = 4, 8, 16, 32 (REFERENCES §5.3 [C])', () => {
+  it('1-D, M = 64, K = 3 exponentials: Hankel rank 3 for windows L = 4, 8, 16, 32 (docs/references.md §5.3 [C])', () => {
     const m = 64;
     const x = friSignal1d();
     for (const L of [4, 8, 16, 32]) {
@@ -134,7 +134,7 @@ describe('finite rate of innovation: Hankel rank of sums of exponentials (Vetter
     }
   });
 
-  it('2-D, 32×32 k-space of K off-grid point sources: block-Hankel (6×6 windows) rank K (REFERENCES §5.3 [C])', () => {
+  it('2-D, 32×32 k-space of K off-grid point sources: block-Hankel (6×6 windows) rank K (docs/references.md §5.3 [C])', () => {
     for (const K of [2, 4]) {
       const k = pointSourceKspace(32, 32, POINT_SOURCES.slice(0, K));
       const lift = new BlockHankel(32, 32, 6, 6);

@@ -93,7 +93,7 @@ describe('cs-tv with a full mask is ROF denoising', () => {
     expect(worst).toBeLessThan(1e-12);
   });
 
-  it('1-D ROF of a two-plateau step (n = 20 each, λ = 2) gives plateaus λ/n = 0.1 and 0.9 (REFERENCES §5.2 [C])', () => {
+  it('1-D ROF of a two-plateau step (n = 20 each, λ = 2) gives plateaus λ/n = 0.1 and 0.9 (docs/references.md §5.2 [C])', () => {
     // Every row holds the same 1-D step, so the vertical differences vanish and the 2-D problem
     // separates into identical 1-D ROF problems.
     const nx = 40;
@@ -211,7 +211,7 @@ describe('cs-tv default λ (DEVELOPERS.md: 0.002·(1/f − 1) relative, at most 
   });
 });
 
-describe('cs-tv parameters (DESIGN.md: typed errors naming the field and range; configured limits)', () => {
+describe('cs-tv parameters (docs/design.md §4.1: typed errors naming the field and range; configured limits)', () => {
   const nx = 16;
   const ny = 16;
   const input = { kspace: fft2c(randomComplexImage(nx, ny, 1)), mask: fullMask(nx, ny) };

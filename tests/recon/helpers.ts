@@ -91,7 +91,7 @@ export const POINT_SOURCES: ReadonlyArray<{ x: number; y: number; re: number; im
 ];
 
 /**
- * The 1-D exact check signal of REFERENCES.md §5.3 [C]: M = 64 samples
+ * The 1-D exact check signal of docs/references.md §5.3 [C]: M = 64 samples
  * x[m] = Σ c_k e^(−i2π m t_k), K = 3, t = (0.13, 0.41, 0.77), c = (1, 0.6 − 0.2i, 0.3 + 0.5i).
  */
 export function friSignal1d(): Float64Array {

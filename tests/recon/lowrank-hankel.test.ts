@@ -44,7 +44,7 @@ describe('lowrank-hankel completion', () => {
     expect(relativeError(ifft2c(kspace).data, reference.data)).toBeGreaterThan(0.8);
   });
 
-  it('1-D: 27 of 64 samples, window 32, rank 3 — error 2.6e-9 after 200 iterations, < 1e-13 after 500 (REFERENCES §5.3 [C])', () => {
+  it('1-D: 27 of 64 samples, window 32, rank 3 — error 2.6e-9 after 200 iterations, < 1e-13 after 500 (docs/references.md §5.3 [C])', () => {
     const m = 64;
     const x = friSignal1d();
     const mask = new Uint8Array(m);
@@ -137,7 +137,7 @@ describe('lowrank-hankel completion', () => {
   });
 });
 
-describe('lowrank-hankel parameters (DESIGN.md: typed errors naming the field and range; configured limits)', () => {
+describe('lowrank-hankel parameters (docs/design.md §4.1: typed errors naming the field and range; configured limits)', () => {
   const nx = 16;
   const ny = 12;
   const input = { kspace: fft2c(randomComplexImage(nx, ny, 1)), mask: fullMask(nx, ny) };

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { methodSchema, reconMethods } from '../../src/recon/index.ts';
 
-describe('methodSchema (the request piece, DESIGN.md "method")', () => {
+describe('methodSchema (the request piece, docs/design.md §4.3 "method")', () => {
   it('accepts the documented forms', () => {
     for (const spec of [
       { name: 'zero-filled' },

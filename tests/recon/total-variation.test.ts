@@ -8,7 +8,7 @@ import {
 import { randomComplexImage } from './helpers.ts';
 
 describe('discrete gradient and divergence (Chambolle 2004)', () => {
-  it('‖∇‖² by power iteration matches 8·cos²(π/(2n)) from below (REFERENCES §5.2 [C])', () => {
+  it('‖∇‖² by power iteration matches 8·cos²(π/(2n)) from below (docs/references.md §5.2 [C])', () => {
     // Tabulated to 7 digits; the eigen-gap shrinks with n, so n = 64 needs more iterations.
     for (const [n, expected, iterations] of [
       [16, 7.923141, 3000],
@@ -21,7 +21,7 @@ describe('discrete gradient and divergence (Chambolle 2004)', () => {
     }
   });
 
-  it('div = −∇ᴴ: ⟨∇u, p⟩ + ⟨u, div p⟩ = 0 on a 13×17 complex array (REFERENCES §5.2 [C])', () => {
+  it('div = −∇ᴴ: ⟨∇u, p⟩ + ⟨u, div p⟩ = 0 on a 13×17 complex array (docs/references.md §5.2 [C])', () => {
     const nx = 17;
     const ny = 13;
     const u = randomComplexImage(nx, ny, 1).data;

@@ -6,7 +6,7 @@ import { reconstruct } from '../../src/recon/index.ts';
 import { fullMask, randomComplexImage, relativeError } from './helpers.ts';
 
 describe('zero-filled', () => {
-  it('full sampling, no noise: returns the reference to 1e-10 (REFERENCES §5.1, odd and even sizes)', () => {
+  it('full sampling, no noise: returns the reference to 1e-10 (docs/references.md §5.1, odd and even sizes)', () => {
     for (const [nx, ny] of [
       [32, 32],
       [27, 20],

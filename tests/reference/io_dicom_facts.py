@@ -1,6 +1,6 @@
 #!/usr/bin/python3
 """Reference facts for the DICOM decoder (src/io/dicom.ts) on more pydicom test files than
-REFERENCES.md §12.1 lists: multi-frame, 32-bit, RLE multi-frame, RGB, Deflated, and a CT file with
+docs/references.md §12.1 lists: multi-frame, 32-bit, RLE multi-frame, RGB, Deflated, and a CT file with
 a Rescale Intercept. Pixels are read by Debian's python3-pydicom 2.3.1 (pixel_array; Modality LUT by
 pydicom.pixel_data_handlers.util.apply_modality_lut; RGB → Y = 0.2125 R + 0.7154 G + 0.0721 B as in
 skimage.color.rgb2gray, on stored values).

@@ -4,7 +4,7 @@ import { generateMask } from '../../sampling/index.ts';
 import type { RealImage } from '../../src/core/real-image.ts';
 import { greyPng, maskPng } from '../../src/render/png.ts';
 
-// Source: the rendering rules are the project's own (DESIGN.md: PNG images; src/render/png.ts
+// Source: the rendering rules are the project's own (docs/design.md §4.2: PNG images; src/render/png.ts
 // documents the scaling); what is checked is that an outside decoder (sharp) reads back exactly
 // the values those rules give.
 

@@ -50,7 +50,7 @@ describe('bad sampling input gives a ValidationError naming the field and the al
       field: 'sampling.acceleration',
       allowed: '1 ≤ acceleration ≤ 64 (nx·ny)',
     });
-    // 64 → ⌈π/2·64⌉ = 101 Nyquist spokes (REFERENCES.md §3.5 rule).
+    // 64 → ⌈π/2·64⌉ = 101 Nyquist spokes (docs/references.md §3.5 rule).
     const spokes = problemsOf(() => generateMask(square, spec({ pattern: 'radial', acceleration: 102 })));
     expect(spokes[0].field).toBe('sampling.acceleration');
     expect(spokes[0].allowed).toContain('≤ 101');
@@ -67,7 +67,7 @@ describe('bad sampling input gives a ValidationError naming the field and the al
     expect(squareAcs[0]).toMatchObject({ field: 'sampling.acs', allowed: '0 ≤ acs ≤ 32 (min(nx, ny))' });
   });
 
-  it('ACS that does not fit in the line budget round(ny/R) (REFERENCES.md §3.2)', () => {
+  it('ACS that does not fit in the line budget round(ny/R) (docs/references.md §3.2)', () => {
     // ny = 64, R = 8 → 8 lines < 12 ACS lines; R must stay ≤ 64/11.5 = 5.565 for 12 ACS lines.
     const problems = problemsOf(() =>
       generateMask(square, spec({ pattern: 'cartesian-uniform', acceleration: 8, acs: 12 })),
@@ -206,7 +206,7 @@ describe('bad sampling input gives a ValidationError naming the field and the al
     });
   });
 
-  it('the schema accepts the DESIGN.md example piece unchanged', () => {
+  it('the schema accepts the docs/design.md §4.3 example piece unchanged', () => {
     const piece = {
       pattern: 'cartesian-random',
       acceleration: 4,

@@ -28,7 +28,7 @@ describe('cartesian-uniform', () => {
     expect(m.representation).toBe('cartesian');
   });
 
-  it('R = 1 samples every point (DESIGN.md: R = total / acquired = 1)', () => {
+  it('R = 1 samples every point (docs/design.md §3.4: R = total / acquired = 1)', () => {
     for (const [nx, ny] of [
       [32, 32],
       [17, 31],
@@ -104,7 +104,7 @@ describe('cartesian-random (Lustig, Donoho & Pauly 2007 polynomial variable dens
     }
   });
 
-  it('density: 0 ≤ p ≤ 1, non-increasing away from the centre, 1 in the ACS, Σp = round(ny/R) (REFERENCES.md §3.3)', () => {
+  it('density: 0 ≤ p ≤ 1, non-increasing away from the centre, 1 in the ACS, Σp = round(ny/R) (docs/references.md §3.3)', () => {
     const ny = 256;
     const m = generateMask({ nx: 1, ny }, { pattern: 'cartesian-random', acceleration: 4, acs: 20, seed: 3 });
     const p = m.density!;

@@ -4,7 +4,7 @@ import { customMaskFromArray, generateMask, resolveSampling } from '../../sampli
 import { ValidationError } from '../../src/core/errors.ts';
 import { maskPng } from '../../src/render/png.ts';
 
-// Source: DESIGN.md's custom pattern ("base64 PNG, ny×nx, non-zero = sampled"), R counted per
+// Source: the custom pattern of docs/design.md §4.3 ("base64 PNG, ny×nx, non-zero = sampled"), R counted per
 // DEVELOPERS.md (lines when every sampled row is full, points otherwise); PNGs written by sharp.
 
 /** A PNG written by sharp (an outside encoder) from raw samples; channels 1 = grey, 3 = RGB, 4 = RGBA. */

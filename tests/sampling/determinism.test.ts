@@ -20,7 +20,7 @@ function fingerprint(spec: SamplingSpec): string {
   return hash.digest('hex');
 }
 
-describe('determinism: the same request gives the same bytes (DESIGN.md)', () => {
+describe('determinism: the same request gives the same bytes (docs/design.md §3.7)', () => {
   it('within one process, request after request', () => {
     for (const spec of requests) expect(fingerprint(spec)).toBe(fingerprint(structuredClone(spec)));
   });

@@ -8,7 +8,7 @@ import {
 } from '../../sampling/index.ts';
 import { SeededRandom } from '../../src/core/random.ts';
 
-/** An i.i.d. random mask: each of the nx·ny points acquired with probability f (REFERENCES.md §3.6). */
+/** An i.i.d. random mask: each of the nx·ny points acquired with probability f (docs/references.md §3.6). */
 function iidMask(nx: number, ny: number, f: number, seed: number): SampledMask {
   const rng = new SeededRandom(seed);
   const values = new Uint8Array(nx * ny);
@@ -25,7 +25,7 @@ function rmsSidelobe(psf: Float64Array, centre: number): number {
 }
 
 describe('PSF diagnostics', () => {
-  it('cartesian-uniform R = 2, no ACS: exactly two equal peaks half a FOV apart, side-lobe ratio 1 (closed form, REFERENCES.md §3.6)', () => {
+  it('cartesian-uniform R = 2, no ACS: exactly two equal peaks half a FOV apart, side-lobe ratio 1 (closed form, docs/references.md §3.6)', () => {
     const m = generateMask({ nx: 64, ny: 256 }, { pattern: 'cartesian-uniform', acceleration: 2 });
     const d = maskDiagnostics(m);
     const psf = d.psf.data;
@@ -39,7 +39,7 @@ describe('PSF diagnostics', () => {
     expect(d.peakSidelobe).toBeCloseTo(1, 12);
   });
 
-  it('cartesian-uniform R = 4: replicas at 0, 64, 128, 192 rows, all of height 1 (REFERENCES.md §3.6)', () => {
+  it('cartesian-uniform R = 4: replicas at 0, 64, 128, 192 rows, all of height 1 (docs/references.md §3.6)', () => {
     const m = generateMask({ nx: 8, ny: 256 }, { pattern: 'cartesian-uniform', acceleration: 4 });
     const psf = maskDiagnostics(m).psf.data;
     for (const row of [0, 64, 128, 192]) expect(psf[row * 8 + 4]).toBeCloseTo(1, 12);
@@ -50,7 +50,7 @@ describe('PSF diagnostics', () => {
     expect(rest).toBeLessThan(1e-12);
   });
 
-  it('a full mask has a one-pixel PSF: side-lobe ratio 0 (REFERENCES.md §3.6, common practice)', () => {
+  it('a full mask has a one-pixel PSF: side-lobe ratio 0 (docs/references.md §3.6, common practice)', () => {
     const d = maskDiagnostics(
       generateMask({ nx: 30, ny: 45 }, { pattern: 'cartesian-uniform', acceleration: 1 }),
     );
@@ -69,7 +69,7 @@ describe('PSF diagnostics', () => {
     expect(DEFAULT_MAIN_LOBE_RADIUS).toBe(Math.SQRT2);
   });
 
-  it('Parseval: Σ_{x≠0} |psf(x)|² = 1/f − 1 for any 0/1 mask (orthonormal DFT, REFERENCES.md §2.1)', () => {
+  it('Parseval: Σ_{x≠0} |psf(x)|² = 1/f − 1 for any 0/1 mask (orthonormal DFT, docs/references.md §2.1)', () => {
     for (const m of [
       iidMask(64, 48, 0.3, 1),
       generateMask({ nx: 64, ny: 48 }, { pattern: 'radial', acceleration: 3, angles: 'golden' }),
@@ -81,7 +81,7 @@ describe('PSF diagnostics', () => {
     }
   });
 
-  it('i.i.d. random masks: RMS side lobe ≈ √((1 − f)/(f·N)) (REFERENCES.md §3.6: 0.1083 and 0.01353)', () => {
+  it('i.i.d. random masks: RMS side lobe ≈ √((1 − f)/(f·N)) (docs/references.md §3.6: 0.1083 and 0.01353)', () => {
     // By Parseval (test above) a draw's RMS is √((1 − f̂)/(f̂·(N − 1))): only the acquired fraction f̂ is
     // random. 1D, N = 256, f = 0.25: sd(f̂)/f = 10.8 %, times |d ln RMS / d ln f| = 1/(2(1 − f)) = 2/3 →
     // 7.2 % per draw, 0.72 % on the mean of 100 draws; the 4 % tolerance is over 5 standard errors and
@@ -117,7 +117,7 @@ describe('PSF diagnostics', () => {
       // bounds are the largest of them plus 15 %.
       expect(random.peakSidelobe).toBeLessThan(0.26 * uniform.peakSidelobe);
       expect(poisson.peakSidelobe).toBeLessThan(0.046 * uniform.peakSidelobe);
-      // Spreading the aliasing over a plane instead of a line lowers it further (§3.6: 1/√N scaling);
+      // Spreading the aliasing over a plane instead of a line lowers it further (docs/references.md §3.6: 1/√N scaling);
       // measured ratio 0.17–0.20.
       expect(poisson.peakSidelobe).toBeLessThan(0.23 * random.peakSidelobe);
     }

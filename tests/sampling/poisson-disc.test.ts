@@ -22,7 +22,7 @@ function inAcs(m: SampledMask, u: number, v: number): boolean {
 
 /**
  * Smallest d(a, b) / ((r(a) + r(b))/2) over all pairs of samples not both in the ACS: the
- * variable-density Poisson-disc condition (Bridson 2007 with r growing with |k|, REFERENCES.md §3.4)
+ * variable-density Poisson-disc condition (Bridson 2007 with r growing with |k|, docs/references.md §3.4)
  * holds when this is ≥ 1. Pairs farther apart than the largest radius cannot violate it; pairs up to
  * twice that are checked (and counted) all the same.
  */
@@ -123,7 +123,7 @@ describe('poisson-disc: variable-density Poisson-disc over the ny×nx plane (Bri
     }
   });
 
-  it('coverage: every grid point inside ρ < 0.95 has a sample within 2·r (REFERENCES.md §3.4, common practice)', () => {
+  it('coverage: every grid point inside ρ < 0.95 has a sample within 2·r (docs/references.md §3.4, common practice)', () => {
     const m = generateMask({ nx: 200, ny: 200 }, { pattern: 'poisson-disc', acceleration: 8, seed: 2 });
     const r = radiusLaw(m);
     let worst = 0;

@@ -16,7 +16,7 @@ function distinctGaps(theta: Float64Array): number[] {
 }
 
 describe('radial sampling', () => {
-  it('Nyquist spoke count ⌈π/2·N⌉: 128 → 202, 256 → 403, 320 → 503 (REFERENCES.md §3.5 [C])', () => {
+  it('Nyquist spoke count ⌈π/2·N⌉: 128 → 202, 256 → 403, 320 → 503 (docs/references.md §3.5 [C])', () => {
     expect(nyquistSpokes({ nx: 128, ny: 128 })).toBe(202);
     expect(nyquistSpokes({ nx: 256, ny: 256 })).toBe(403);
     expect(nyquistSpokes({ nx: 320, ny: 320 })).toBe(503);
@@ -24,7 +24,7 @@ describe('radial sampling', () => {
     expect(nyquistSpokes({ nx: 320, ny: 128 })).toBe(503);
   });
 
-  it('spokes = ⌈Nyquist / R⌉, R counted in spokes (DESIGN.md)', () => {
+  it('spokes = ⌈Nyquist / R⌉, R counted in spokes (docs/design.md §3.4)', () => {
     for (const [n, R, spokes] of [
       [256, 1, 403],
       [256, 4, 101], // 403/4 = 100.75
@@ -40,7 +40,7 @@ describe('radial sampling', () => {
     }
   });
 
-  it('golden-angle increment ψ = 180°/φ = 111.2461° (Winkelmann et al. 2007; REFERENCES.md §3.5)', () => {
+  it('golden-angle increment ψ = 180°/φ = 111.2461° (Winkelmann et al. 2007; docs/references.md §3.5)', () => {
     expect(GOLDEN_ANGLE * DEG).toBeCloseTo(111.2461, 4);
     const m = generateMask({ nx: 128, ny: 128 }, { pattern: 'radial', acceleration: 2, angles: 'golden' });
     const theta = m.spokeAngles!;

@@ -1,0 +1,68 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { expectDocumented, loadSpec, postProblem, type TestApp, testApp } from './helpers.ts';
+
+// `protocol.averages` is DICOM Number of Averages (0018,0083); `nex` is its deprecated alias for one
+// version (docs/design.md §4.3). Expected times from the TA formula of docs/references.md §8:
+// TR 1000 ms × 64 lines × averages.
+describe('POST /v1/scan-time: averages and the deprecated alias nex', () => {
+  let t: TestApp;
+  beforeAll(async () => {
+    t = await testApp();
+  });
+  afterAll(async () => t.close());
+
+  const matrix = { nx: 64, ny: 64 };
+
+  it('averages 2 → 128 s; the alias nex 2 gives the same answer', async () => {
+    for (const protocol of [
+      { trMs: 1000, averages: 2 },
+      { trMs: 1000, nex: 2 },
+    ]) {
+      const res = await t.http().post('/v1/scan-time').send({ matrix, protocol });
+      expect(res.status).toBe(200);
+      expect(res.body.seconds).toBe(128);
+      await expectDocumented('POST', '/v1/scan-time', res);
+    }
+  });
+
+  it('averages and nex that disagree: 422 naming both fields', async () => {
+    const problem = await postProblem(
+      t,
+      '/v1/scan-time',
+      { matrix, protocol: { trMs: 1000, averages: 2, nex: 3 } },
+      422,
+    );
+    expect(problem.errors.map((e) => e.field).sort()).toEqual(['protocol.averages', 'protocol.nex']);
+  });
+
+  it('plans take the alias too, and refuse a disagreement naming both fields', async () => {
+    const problem = await postProblem(
+      t,
+      '/v1/plans',
+      {
+        source: { phantom: 'shepp-logan-modified' },
+        matrix: { nx: 32, ny: 32 },
+        protocol: { trMs: 500, averages: 1, nex: 2 },
+        patterns: [{ pattern: 'cartesian-uniform' }],
+        accelerations: [1],
+        methods: [{ name: 'zero-filled' }],
+        seeds: 1,
+      },
+      422,
+    );
+    expect(problem.errors.map((e) => e.field).sort()).toEqual(['protocol.averages', 'protocol.nex']);
+  });
+
+  it('openapi.yaml documents averages (default 1) and marks nex deprecated', async () => {
+    const spec = (await loadSpec()) as unknown as {
+      paths: Record<string, { post: { requestBody: { content: Record<string, { schema: unknown }> } } }>;
+    };
+    const body = spec.paths['/v1/scan-time'].post.requestBody.content['application/json'].schema as {
+      properties: { protocol: { properties: Record<string, { default?: unknown; deprecated?: boolean }> } };
+    };
+    const fields = body.properties.protocol.properties;
+    expect(fields.averages.default).toBe(1);
+    expect(fields.averages.deprecated).toBeUndefined();
+    expect(fields.nex.deprecated).toBe(true);
+  });
+});
