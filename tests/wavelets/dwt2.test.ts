@@ -112,7 +112,7 @@ describe("2D DWT against pywt.wavedec2(..., mode='periodization')", () => {
 
 describe('the periodised DWT is unitary (orthogonal filters, square transform)', () => {
   it('‖Wx‖ = ‖x‖ to 1e-12 relative, and ⟨Wx, c⟩ = ⟨x, W⁻¹c⟩ (adjoint = inverse), db1–db8', () => {
-    // Measured: relative norm differences below 1e-15; asserted 1e-12.
+    // Measured: relative norm differences up to 1.6e-15; asserted 1e-12.
     for (const name of WAVELET_NAMES) {
       const x = randomComplexImage(64, 32, 3);
       const c = randomComplexImage(64, 32, 4);
