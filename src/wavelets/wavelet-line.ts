@@ -30,11 +30,12 @@ export function analyzeLine(
   // Periodic extension ext[j] = x[(j + offset) mod size], j < size + f − 2, so the taps run unwrapped.
   const ext = scratch(size + f);
   const extLength = size + f - 2;
+  let i = ((offset % size) + size) % size;
   for (let j = 0; j < extLength; j++) {
-    const i = (((j + offset) % size) + size) % size;
     const src = 2 * (start + i * step);
     ext[2 * j] = source[src];
     ext[2 * j + 1] = source[src + 1];
+    if (++i === size) i = 0;
   }
   for (let o = 0; o < half; o++) {
     let aRe = 0;
