@@ -102,7 +102,9 @@ export function solveCsWavelet(
     throw new RangeError('cycle spinning and the monotone variant apply to the wavelet-only (FISTA) solver');
   }
   if (cycleSpinning && options.monotone) {
-    throw new RangeError('the monotone variant compares objectives of one fixed transform: no cycle spinning');
+    throw new RangeError(
+      'the monotone variant compares objectives of one fixed transform: no cycle spinning',
+    );
   }
   const peak = zeroFilledPeak(input);
   const setup: Setup = {
@@ -184,7 +186,8 @@ function finalObjective(setup: Setup, image: ComplexImage, kspace: Float64Array)
   const { nx, ny } = image;
   const coefficients = new Float64Array(image.data.length);
   forwardDwt2(coefficients, image.data, nx, ny, setup.filters, setup.levels);
-  let objective = dataTerm(kspace, setup.input) + setup.lambdaAbs * detailL1(coefficients, nx, ny, setup.levels);
+  let objective =
+    dataTerm(kspace, setup.input) + setup.lambdaAbs * detailL1(coefficients, nx, ny, setup.levels);
   if (setup.lambdaTvAbs > 0) objective += setup.lambdaTvAbs * totalVariation(image.data, nx, ny);
   return objective;
 }
