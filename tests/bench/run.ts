@@ -24,6 +24,7 @@ for (const [title, path, name] of [
   ['metrics', './metrics.bench.ts', 'benchMetrics'],
   ['sampling', './sampling.bench.ts', 'benchSampling'],
   ['reconstruction', './recon.bench.ts', 'benchRecon'],
+  ['wavelets', './wavelet.bench.ts', 'benchWavelet'],
   ['planning', './plan.bench.ts', 'benchPlan'],
   ['service', './service.bench.ts', 'benchService'],
 ] as const) {
