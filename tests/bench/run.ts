@@ -25,6 +25,7 @@ for (const [title, path, name] of [
   ['sampling', './sampling.bench.ts', 'benchSampling'],
   ['encoding', './encoding.bench.ts', 'benchEncoding'],
   ['reconstruction', './recon.bench.ts', 'benchRecon'],
+  ['wavelets', './wavelet.bench.ts', 'benchWavelet'],
   ['planning', './plan.bench.ts', 'benchPlan'],
   ['service', './service.bench.ts', 'benchService'],
 ] as const) {

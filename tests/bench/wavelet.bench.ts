@@ -1,0 +1,71 @@
+import { generateMask } from '../../sampling/index.ts';
+import { acquire } from '../../src/acquisition/acquire.ts';
+import { fullKspaceFromPhantom } from '../../src/acquisition/phantom-source.ts';
+import { fft2c, ifft2c } from '../../src/core/centered-fft.ts';
+import { createComplexImage } from '../../src/core/complex-image.ts';
+import { SeededRandom } from '../../src/core/random.ts';
+import { getPhantom } from '../../src/phantoms/index.ts';
+import { type CsWaveletOptions, solveCsWavelet } from '../../src/recon/cs-wavelet-solver.ts';
+import { daubechiesFilters } from '../../src/wavelets/daubechies-filters.ts';
+import { forwardDwt2, inverseDwt2 } from '../../src/wavelets/dwt2.ts';
+import { type BenchRow, medianMs } from './timing.ts';
+
+/**
+ * Wavelet cost at 256×256: one 4-level db4 forward + inverse DWT pair against one fft2c + ifft2c
+ * pair, and one cs-wavelet iteration (modified Shepp–Logan, analytic k-space, Poisson-disc R = 4;
+ * 50 iterations with tolerance 0, divided by 50) against the same FFT pair. A FISTA iteration does
+ * one FFT pair and one DWT pair plus O(n) passes; cycle spinning adds two circular shifts; the
+ * primal–dual (with TV) one adds the gradient and divergence.
+ */
+export async function benchWavelet(): Promise<BenchRow[]> {
+  const n = 256;
+  const rng = new SeededRandom(n);
+  const image = createComplexImage(n, n);
+  for (let i = 0; i < image.data.length; i++) image.data[i] = rng.normal();
+  const pair = await medianMs(() => {
+    fft2c(image, image);
+    ifft2c(image, image);
+  }, 11);
+  const filters = daubechiesFilters('db4');
+  const coefficients = new Float64Array(image.data.length);
+  const dwtPair = await medianMs(() => {
+    forwardDwt2(coefficients, image.data, n, n, filters, 4);
+    inverseDwt2(coefficients, coefficients, n, n, filters, 4);
+  }, 11);
+  const rows: BenchRow[] = [
+    { name: `fft2c+ifft2c ${n}×${n} (reference pair)`, medianMs: pair },
+    {
+      name: `db4 4-level DWT + inverse ${n}×${n}`,
+      medianMs: dwtPair,
+      note: `${(dwtPair / pair).toFixed(2)}× one fft2c+ifft2c pair`,
+    },
+  ];
+
+  const full = fullKspaceFromPhantom(getPhantom('shepp-logan-modified'), n, n, 'analytic');
+  const sampled = generateMask(
+    { nx: n, ny: n },
+    { pattern: 'poisson-disc', acceleration: 4, acs: 24, seed: 1 },
+  );
+  const { kspace } = acquire(full, sampled.mask, undefined, 1);
+  const input = { kspace, mask: sampled.mask };
+  const iterations = 50;
+  const cases: { label: string; options: CsWaveletOptions }[] = [
+    { label: 'FISTA', options: { lambda: 0.001 } },
+    { label: 'FISTA, cycle spinning', options: { lambda: 0.001, cycleSpinning: true } },
+    { label: 'primal–dual with TV', options: { lambda: 0.001, lambdaTv: 0.002 } },
+  ];
+  for (const c of cases) {
+    const total = await medianMs(
+      () => solveCsWavelet(input, { ...c.options, iterations, tolerance: 0 }),
+      3,
+      1,
+    );
+    const perIteration = total / iterations;
+    rows.push({
+      name: `cs-wavelet ${c.label} ${n}×${n}, per iteration`,
+      medianMs: perIteration,
+      note: `${(perIteration / pair).toFixed(2)}× one fft2c+ifft2c pair (${pair.toFixed(2)} ms)`,
+    });
+  }
+  return rows;
+}
