@@ -124,7 +124,7 @@ export const limitProblemKind: ProblemKind = {
   type: '/problems/limit-exceeded',
   title: 'Beyond configured limits',
   description:
-    'Matrix side, iterations, plan cells or image size exceed the limits this server is configured with (422).',
+    'Matrix side, iterations, plan cells, image size or k-space points exceed the limits this server is configured with (422).',
 };
 
 /** An error the HTTP layer turns into a problem+json response as it is. */
