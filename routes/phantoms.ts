@@ -18,7 +18,8 @@ const nameParams = z.object({
   name: z.string().min(1).max(100).describe('Phantom name, from GET /v1/phantoms'),
 });
 
-const rasterQuery = z.object({
+// Strict like the bodies: a misspelt `supersampl` is refused, not silently left at its default.
+const rasterQuery = z.strictObject({
   nx: z.coerce.number().int().min(2).max(65_536).default(256).describe('columns (default 256)'),
   ny: z.coerce.number().int().min(2).max(65_536).default(256).describe('rows (default 256)'),
   supersample: z.coerce

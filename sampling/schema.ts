@@ -112,7 +112,10 @@ export const customSchema = z.strictObject({
     .string()
     .min(1)
     .regex(BASE64, 'must be standard base64 (RFC 4648) without whitespace')
-    .describe('Base64 PNG of exactly ny×nx pixels; a pixel with any non-zero colour channel is sampled.'),
+    .describe(
+      'Base64 PNG of exactly ny×nx pixels; a pixel with any non-zero colour channel is sampled. ' +
+        'Its length is bounded by the JSON body limit (MAX_JSON_BYTES).',
+    ),
   seed,
 });
 

@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { postProblem, type TestApp, testApp } from './helpers.ts';
+import { expectProblem, postProblem, type TestApp, testApp } from './helpers.ts';
 
 // Unknown keys are refused everywhere the same way the rest of the API refuses them: 400
 // (a body of the wrong shape, RFC 9110 §15.5.1) as RFC 9457 problem+json naming the key's own path.
@@ -78,6 +78,12 @@ describe('unknown keys are refused with their path', () => {
       400,
       'patterns[0].angle',
     );
+  });
+
+  it('query strings too: a misspelt supersample on a phantom raster is 400 naming it', async () => {
+    const res = await t.http().get('/v1/phantoms/shepp-logan?nx=16&ny=16&supersampl=4');
+    expectProblem(res, 400, 'supersampl');
+    expect((await t.http().get('/v1/phantoms/shepp-logan?nx=16&ny=16&supersample=4')).status).toBe(200);
   });
 
   it('the known spelling still works (control)', async () => {
