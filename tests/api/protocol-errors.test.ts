@@ -37,6 +37,15 @@ describe('errors raised by the router and by the HTTP parser are RFC 9457 proble
     expectProblem(res, 404, 'id');
   });
 
+  it('414 for a URL beyond the parser limit (the request line alone fills it), from the clientError handler', async () => {
+    const res = await rawRequest(
+      t.app,
+      `GET /v1/images/${'a'.repeat(40_000)} HTTP/1.1\r\nHost: x\r\nConnection: close\r\n\r\n`,
+    );
+    expectProblem(res, 414, 'url');
+    expect(res.body.length).toBeLessThan(2000);
+  });
+
   it('431 for headers beyond the parser limit, written by the clientError handler', async () => {
     const res = await rawRequest(
       t.app,
