@@ -4,6 +4,7 @@ import { z } from 'zod';
 import { type MaskDiagnostics, type SampledMask, samplingSchema } from '../sampling/index.ts';
 import { preferredType } from '../src/http/accept.ts';
 import { contentId } from '../src/http/content-id.ts';
+import { disconnectSignal } from '../src/http/disconnect-signal.ts';
 import { problemResponses } from '../src/http/problem.ts';
 import { resultImageUrl } from '../src/http/result-images.ts';
 import {
@@ -66,13 +67,10 @@ export async function maskRoutes(app: FastifyInstance): Promise<void> {
       const { sampled, diagnostics } = await pool.runForRequest<{
         sampled: SampledMask;
         diagnostics: MaskDiagnostics | null;
-      }>({
-        kind: 'mask',
-        matrix,
-        sampling,
-        limits,
-        diagnostics: !wantsPng,
-      });
+      }>(
+        { kind: 'mask', matrix, sampling, limits, diagnostics: !wantsPng },
+        disconnectSignal(request, reply),
+      );
       const mask = await maskPng(sampled);
       if (wantsPng) return reply.type('image/png').send(mask as unknown as string);
       const psf = diagnostics!;

@@ -1,8 +1,11 @@
 import type { FastifyInstance } from 'fastify';
 import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
+import { LimitError } from '../src/core/errors.ts';
+import type { Limits } from '../src/core/limits.ts';
 import type { RealImage } from '../src/core/real-image.ts';
 import { preferredType } from '../src/http/accept.ts';
+import { disconnectSignal } from '../src/http/disconnect-signal.ts';
 import { HttpProblem, jsonResponse, problemResponses } from '../src/http/problem.ts';
 import { checkMatrixLimit } from '../src/http/schemas.ts';
 import { listPhantoms } from '../src/phantoms/index.ts';
@@ -15,7 +18,8 @@ const nameParams = z.object({
   name: z.string().min(1).max(100).describe('Phantom name, from GET /v1/phantoms'),
 });
 
-const rasterQuery = z.object({
+// Strict like the bodies: a misspelt `supersampl` is refused, not silently left at its default.
+const rasterQuery = z.strictObject({
   nx: z.coerce.number().int().min(2).max(65_536).default(256).describe('columns (default 256)'),
   ny: z.coerce.number().int().min(2).max(65_536).default(256).describe('rows (default 256)'),
   supersample: z.coerce
@@ -36,15 +40,43 @@ const rasterJsonSchema = z
   })
   .meta({ id: 'PhantomRaster' });
 
-const kspaceBody = z
-  .strictObject({
-    points: z
-      .array(z.tuple([z.number(), z.number()]))
-      .min(1)
-      .max(1_048_576)
-      .describe('[kx, ky] in cycles per unit of the phantom frame ([−1, 1]², y up)'),
-  })
-  .meta({ id: 'KspacePoints' });
+const kspaceBodies = new Map<number, z.ZodType>();
+
+/** The body schema with the configured points limit as maxItems, so the contract shows it. */
+function kspaceBody(maxPoints: number) {
+  const cached = kspaceBodies.get(maxPoints);
+  if (cached) return cached as ReturnType<typeof buildKspaceBody>;
+  const schema = buildKspaceBody(maxPoints);
+  kspaceBodies.set(maxPoints, schema);
+  return schema;
+}
+
+function buildKspaceBody(maxPoints: number) {
+  return z
+    .strictObject({
+      points: z
+        .array(z.tuple([z.number(), z.number()]))
+        .min(1)
+        .max(maxPoints)
+        .describe(
+          `[kx, ky] in cycles per unit of the phantom frame ([−1, 1]², y up); at most ${maxPoints} ` +
+            '(MAX_KSPACE_POINTS), more is a 422 of type /problems/limit-exceeded',
+        ),
+    })
+    .meta({ id: 'KspacePoints' });
+}
+
+/** Refuses too many points before the body is validated point by point (that alone is real work). */
+function checkKspacePoints(body: unknown, limits: Limits): void {
+  const points = (body as { points?: unknown } | null)?.points;
+  if (Array.isArray(points) && points.length > limits.maxKspacePoints) {
+    throw new LimitError({
+      field: 'points',
+      message: `${points.length} points is more than the configured limit`,
+      allowed: `at most ${limits.maxKspacePoints} points`,
+    });
+  }
+}
 
 const kspaceResponse = z
   .object({
@@ -113,13 +145,10 @@ export async function phantomRoutes(app: FastifyInstance): Promise<void> {
       known(name);
       const { nx, ny, supersample } = request.query;
       checkMatrixLimit({ nx, ny }, limits);
-      const image = await pool.runForRequest<RealImage>({
-        kind: 'phantom-raster',
-        name,
-        nx,
-        ny,
-        supersample,
-      });
+      const image = await pool.runForRequest<RealImage>(
+        { kind: 'phantom-raster', name, nx, ny, supersample },
+        disconnectSignal(request, reply),
+      );
       const wantsJson = preferredType(request, ['image/png', 'application/json']) === 'application/json';
       if (wantsJson)
         return reply.type('application/json').send({ name, nx, ny, data: Array.from(image.data) });
@@ -135,14 +164,15 @@ export async function phantomRoutes(app: FastifyInstance): Promise<void> {
         summary: 'Exact analytic k-space of a phantom at arbitrary points',
         tags: ['phantoms'],
         params: nameParams,
-        body: kspaceBody,
+        body: kspaceBody(limits.maxKspacePoints),
         response: {
           200: jsonResponse('Exact transform values, one per point', kspaceResponse),
           ...problemResponses(400, 401, 404, 413, 422, 429),
         },
       },
+      preValidation: async (request) => checkKspacePoints(request.body, limits),
     },
-    async (request) => {
+    async (request, reply) => {
       const { name } = request.params;
       known(name);
       const { points } = request.body;
@@ -152,8 +182,11 @@ export async function phantomRoutes(app: FastifyInstance): Promise<void> {
         kx[i] = x;
         ky[i] = y;
       });
-      // Up to a million points × every shape: on a worker, not the event loop.
-      const values = await pool.runForRequest<Float64Array>({ kind: 'phantom-kspace', name, kx, ky });
+      // Up to MAX_KSPACE_POINTS points × every shape: on a worker, not the event loop.
+      const values = await pool.runForRequest<Float64Array>(
+        { kind: 'phantom-kspace', name, kx, ky },
+        disconnectSignal(request, reply),
+      );
       return { values: points.map((_, i) => [values[2 * i], values[2 * i + 1]] as [number, number]) };
     },
   );

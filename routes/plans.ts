@@ -1,6 +1,7 @@
 import type { FastifyInstance, FastifyReply } from 'fastify';
 import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
+import { disconnectSignal } from '../src/http/disconnect-signal.ts';
 import { HttpProblem, jsonResponse, problemResponses } from '../src/http/problem.ts';
 import { idParams } from '../src/http/schemas.ts';
 import type { PlanProgress } from '../src/jobs/plan-queue.ts';
@@ -136,7 +137,10 @@ export async function planRoutes(app: FastifyInstance): Promise<void> {
       // Limits (matrix, iterations, cells) and one draw of every mask, before anything is queued
       // (src/plan validatePlan, on a worker thread).
       plans.checkCapacity();
-      const plan = await pool.runForRequest<Plan>({ kind: 'validate-plan', body: request.body, limits });
+      const plan = await pool.runForRequest<Plan>(
+        { kind: 'validate-plan', body: request.body, limits },
+        disconnectSignal(request, reply),
+      );
       const source = plan.source as { imageId?: string };
       const { owner, scope } = tenancy(request);
       if (source.imageId !== undefined && !store.getImageInfo(source.imageId, scope)) {

@@ -5,6 +5,7 @@ import { z } from 'zod';
 import { type MaskDiagnostics, samplingSchema } from '../sampling/index.ts';
 import { noiseSchema } from '../src/acquisition/index.ts';
 import type { RealImage } from '../src/core/real-image.ts';
+import { disconnectSignal } from '../src/http/disconnect-signal.ts';
 import { finiteOrNull, jsonSafe } from '../src/http/json-safe.ts';
 import { HttpProblem, jsonResponse, problemResponses } from '../src/http/problem.ts';
 import { type ResultImageKey, resultImageNames, resultImageUrl } from '../src/http/result-images.ts';
@@ -110,16 +111,20 @@ export async function reconstructionRoutes(app: FastifyInstance): Promise<void> 
         if (!pixels) throw unknownImage(id);
         image = { id, image: pixels };
       }
+      // A client that goes away stops the computation (the worker thread is ended).
       const { outcome, diagnostics } = await pool.runForRequest<{
         outcome: ReconstructionOutcome;
         diagnostics: MaskDiagnostics;
-      }>({
-        kind: 'reconstruction',
-        request: pipelineRequest,
-        ...(seed === undefined ? {} : { seed }),
-        ...(image ? { image } : {}),
-        limits,
-      });
+      }>(
+        {
+          kind: 'reconstruction',
+          request: pipelineRequest,
+          ...(seed === undefined ? {} : { seed }),
+          ...(image ? { image } : {}),
+          limits,
+        },
+        disconnectSignal(request, reply),
+      );
       const id = randomUUID();
       const { images } = outcome;
       // Magnitudes share the reference's grey scale so they compare by eye; the error map uses its own.

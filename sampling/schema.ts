@@ -54,7 +54,7 @@ const seed = z
 
 function densitySchema(minPower: number, maxPower: number, law: string) {
   return z
-    .object({
+    .strictObject({
       power: z
         .number()
         .min(minPower)
@@ -66,14 +66,14 @@ function densitySchema(minPower: number, maxPower: number, law: string) {
     .describe('Variable-density law.');
 }
 
-export const cartesianUniformSchema = z.object({
+export const cartesianUniformSchema = z.strictObject({
   pattern: z.literal('cartesian-uniform'),
   acceleration,
   acs,
   seed,
 });
 
-export const cartesianRandomSchema = z.object({
+export const cartesianRandomSchema = z.strictObject({
   pattern: z.literal('cartesian-random'),
   acceleration,
   acs,
@@ -81,7 +81,7 @@ export const cartesianRandomSchema = z.object({
   density: densitySchema(0, MAX_LINE_DENSITY_POWER, 'probability ∝ (1 − |ky|/max|ky|)^power'),
 });
 
-export const poissonDiscSchema = z.object({
+export const poissonDiscSchema = z.strictObject({
   pattern: z.literal('poisson-disc'),
   acceleration,
   acs,
@@ -93,7 +93,7 @@ export const poissonDiscSchema = z.object({
   ),
 });
 
-export const radialSchema = z.object({
+export const radialSchema = z.strictObject({
   pattern: z.literal('radial'),
   acceleration,
   angles: z
@@ -106,13 +106,16 @@ export const radialSchema = z.object({
 /** Standard base64 alphabet with optional padding (RFC 4648 §4); whitespace is not accepted. */
 const BASE64 = /^[A-Za-z0-9+/]*={0,2}$/;
 
-export const customSchema = z.object({
+export const customSchema = z.strictObject({
   pattern: z.literal('custom'),
   maskPng: z
     .string()
     .min(1)
     .regex(BASE64, 'must be standard base64 (RFC 4648) without whitespace')
-    .describe('Base64 PNG of exactly ny×nx pixels; a pixel with any non-zero colour channel is sampled.'),
+    .describe(
+      'Base64 PNG of exactly ny×nx pixels; a pixel with any non-zero colour channel is sampled. ' +
+        'Its length is bounded by the JSON body limit (MAX_JSON_BYTES).',
+    ),
   seed,
 });
 
@@ -151,10 +154,17 @@ function allowedFor(issue: z.core.$ZodIssue): string | undefined {
   }
 }
 
-/** zod issues → field problems whose paths start with `prefix` (e.g. "sampling"). */
+/** zod issues → field problems whose paths start with `prefix` (e.g. "sampling"); one per unknown key. */
 export function zodProblems(error: z.ZodError, prefix: string): FieldProblem[] {
-  return error.issues.map((issue) => {
+  return error.issues.flatMap((issue) => {
     const path = [prefix, ...issue.path.map(String)].join('.');
+    if (issue.code === 'unrecognized_keys') {
+      return issue.keys.map((key) => ({
+        field: `${path}.${key}`,
+        message: 'unknown field',
+        allowed: 'the documented fields only',
+      }));
+    }
     const allowed = allowedFor(issue);
     return allowed === undefined
       ? { field: path, message: issue.message }

@@ -25,6 +25,7 @@ import { scanTimeRoutes } from '../routes/scan-time.ts';
 import { defaultLimits, type Limits } from './core/limits.ts';
 import { installApiKeyAuth } from './http/auth.ts';
 import { installErrorHandling } from './http/error-handler.ts';
+import { clientErrorHandler, frameworkErrorHandler } from './http/framework-errors.ts';
 import { swaggerOptions, swaggerUiOptions } from './http/openapi.ts';
 import { type Tenancy, tenancyOf } from './http/tenant.ts';
 import { DataLifecycle, defaultRetention, type RetentionPolicy } from './jobs/lifecycle.ts';
@@ -131,7 +132,11 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
     // A client that never finishes sending its request is cut off (408) instead of holding a socket forever;
     // responses such as event streams are not limited by this.
     requestTimeout: 300_000,
-    routerOptions: { ignoreTrailingSlash: true },
+    // Ids are at most 200 characters (idParams); longer path segments are refused by the router (414).
+    routerOptions: { ignoreTrailingSlash: true, maxParamLength: 200 },
+    // Router and HTTP-parser errors answer problem+json (RFC 9457) like every other error.
+    frameworkErrors: frameworkErrorHandler,
+    clientErrorHandler,
   });
   // JSON routes take JSON only: without this, fastify's built-in text/plain parser would turn a
   // text body into a string and the answer would be a 400 instead of 415 Unsupported Media Type.

@@ -12,8 +12,20 @@ import { SeededRandom } from '../core/random.ts';
  * 'none' (or no noise piece) = noiseless.
  */
 export const SNR_MAX = 1e6;
+/**
+ * Below SNR 0.1 the noise σ is ten times the mean object signal: every metric measures the noise,
+ * not the sampling. Far smaller values (1e-300) made σ overflow to infinity and every metric null.
+ */
+export const SNR_MIN = 0.1;
 export const noiseSchema = z.strictObject({
-  snr: z.union([z.number().gt(0).max(SNR_MAX), z.literal('none')]),
+  snr: z
+    .union([z.number().min(SNR_MIN).max(SNR_MAX), z.literal('none')])
+    .describe(
+      `image SNR = mean |x| over the object / σ, ${SNR_MIN} ≤ snr ≤ ${SNR_MAX}, or 'none'. Below ${SNR_MIN} ` +
+        'the noise is over ten times the signal and the metrics only measure noise (and σ overflows for ' +
+        `tiny values); above ${SNR_MAX} the noise is below the rounding of the reference and the image is ` +
+        "in effect noiseless: use 'none'.",
+    ),
 });
 export type NoiseSpec = z.infer<typeof noiseSchema>;
 
@@ -49,11 +61,11 @@ export function checkedSnr(noise: NoiseSpec | undefined): number | null {
   if (noise === undefined) return null;
   const snr = (noise as { snr?: unknown }).snr;
   if (snr === 'none') return null;
-  if (typeof snr !== 'number' || !Number.isFinite(snr) || snr <= 0 || snr > SNR_MAX) {
+  if (typeof snr !== 'number' || !Number.isFinite(snr) || snr < SNR_MIN || snr > SNR_MAX) {
     throw new ValidationError({
       field: 'noise.snr',
-      message: `must be a positive number or 'none', got ${JSON.stringify(snr)}`,
-      allowed: `0 < snr ≤ ${SNR_MAX} | 'none'`,
+      message: `must be a number in range or 'none', got ${JSON.stringify(snr)}`,
+      allowed: `${SNR_MIN} ≤ snr ≤ ${SNR_MAX} | 'none'`,
     });
   }
   return snr;

@@ -1,6 +1,6 @@
 import { availableParallelism } from 'node:os';
 import { resolve } from 'node:path';
-import { defaultLimits, type Limits } from '../core/limits.ts';
+import { defaultLimits, type Limits, MAX_KSPACE_POINTS_CEILING } from '../core/limits.ts';
 
 /** Everything the service reads from its environment, with safe defaults. */
 export interface ServiceConfig {
@@ -80,6 +80,13 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): ServiceConfig 
       maxIterations: integer(env, 'MAX_ITERATIONS', defaultLimits.maxIterations, 1, 100_000),
       maxPlanCells: integer(env, 'MAX_PLAN_CELLS', defaultLimits.maxPlanCells, 1, 1_000_000),
       maxUploadBytes: integer(env, 'MAX_UPLOAD_BYTES', defaultLimits.maxUploadBytes, 1024, 2 ** 31),
+      maxKspacePoints: integer(
+        env,
+        'MAX_KSPACE_POINTS',
+        defaultLimits.maxKspacePoints,
+        1,
+        MAX_KSPACE_POINTS_CEILING,
+      ),
     },
     workers,
     maxQueuedPlans: integer(env, 'MAX_QUEUED_PLANS', 16, 1, 10_000),

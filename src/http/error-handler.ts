@@ -61,6 +61,18 @@ export function classifyValidation(
   let shape = false;
   const errors: FieldProblem[] = [];
   for (const issue of issues) {
+    // An unknown key is named by its own path (`sampling.density.powr`), one entry per key.
+    if (issue.keyword === 'unrecognized_keys' && Array.isArray(issue.params.keys)) {
+      shape = true;
+      for (const key of issue.params.keys) {
+        errors.push({
+          field: dottedPath(`${issue.instancePath}/${String(key)}`, context),
+          message: 'unknown field',
+          allowed: 'the documented fields only',
+        });
+      }
+      continue;
+    }
     let field = dottedPath(issue.instancePath, context);
     let isShape = shapeIssueCodes.has(issue.keyword);
     // A discriminated union that meets an unknown tag is a bad value, not a bad shape.

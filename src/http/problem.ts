@@ -1,5 +1,6 @@
 import type { FastifyReply } from 'fastify';
 import { z } from 'zod';
+import { boundEcho, boundFieldProblems, MAX_DETAIL_CHARS } from '../core/echo-bound.ts';
 import type { FieldProblem } from '../core/errors.ts';
 
 /** RFC 9457 media type for problem details. */
@@ -60,6 +61,11 @@ export const problemKinds = {
     title: 'Method not allowed',
     description: 'The route exists for other methods.',
   },
+  408: {
+    type: '/problems/request-timeout',
+    title: 'Request timeout',
+    description: 'The request was not received completely in time; the connection is closed.',
+  },
   409: {
     type: '/problems/conflict',
     title: 'Conflict with the resource state',
@@ -70,6 +76,11 @@ export const problemKinds = {
     type: '/problems/too-large',
     title: 'Request too large',
     description: 'The body or the uploaded file is larger than the configured limit.',
+  },
+  414: {
+    type: '/problems/uri-too-long',
+    title: 'URI too long',
+    description: 'A path segment (an id or a name) is longer than the server accepts.',
   },
   415: {
     type: '/problems/unsupported-media',
@@ -88,6 +99,11 @@ export const problemKinds = {
     title: 'Too busy',
     description:
       'Too many plans queued or computations in flight; retry after the Retry-After header (seconds).',
+  },
+  431: {
+    type: '/problems/headers-too-large',
+    title: 'Request header fields too large',
+    description: 'The request line and headers together exceed the size the server accepts (RFC 6585 §5).',
   },
   500: {
     type: '/problems/internal',
@@ -108,7 +124,7 @@ export const limitProblemKind: ProblemKind = {
   type: '/problems/limit-exceeded',
   title: 'Beyond configured limits',
   description:
-    'Matrix side, iterations, plan cells, image size or the decompressed size of an upload exceed the limits this server is configured with (422).',
+    'Matrix side, iterations, plan cells, image size, k-space points or the decompressed size of an upload exceed the limits this server is configured with (422).',
 };
 
 /** An error the HTTP layer turns into a problem+json response as it is. */
@@ -139,7 +155,14 @@ export function makeProblem(
   kind?: ProblemKind,
 ): Problem {
   const { type, title } = kind ?? problemKinds[status];
-  return { type, title, status, detail, errors };
+  // Details echo request parts (names, ids, keys): bounded so a huge input is not sent back whole.
+  return {
+    type,
+    title,
+    status,
+    detail: boundEcho(detail, MAX_DETAIL_CHARS),
+    errors: boundFieldProblems(errors),
+  };
 }
 
 export function sendProblem(

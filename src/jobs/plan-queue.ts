@@ -1,6 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import { EventEmitter } from 'node:events';
 import type { Logger } from 'pino';
+import { boundEcho, boundFieldProblems, MAX_DETAIL_CHARS } from '../core/echo-bound.ts';
 import { CancelledError, LimitError, ValidationError } from '../core/errors.ts';
 import type { Limits } from '../core/limits.ts';
 import type { RealImage } from '../core/real-image.ts';
@@ -204,8 +205,9 @@ export class PlanQueue extends EventEmitter {
           ? {
               status: 422,
               kind: error instanceof LimitError ? 'limit' : 'validation',
-              detail: error.message,
-              errors: error.problems,
+              // Stored with the plan: bounded like every problem the HTTP layer sends.
+              detail: boundEcho(error.message, MAX_DETAIL_CHARS),
+              errors: boundFieldProblems(error.problems),
             }
           : {
               status: 500,

@@ -30,6 +30,7 @@ export class WorkerPool {
   private readonly piscina: Piscina;
   private destroyed = false;
   private requestTasks = 0;
+  private tasksInFlight = 0;
   /** Request-driven tasks (not plan cells) allowed at once, running or waiting. */
   readonly maxRequestTasks: number;
 
@@ -51,16 +52,27 @@ export class WorkerPool {
     return this.piscina.queueSize;
   }
 
+  /**
+   * Tasks handed to piscina and not yet settled (waiting or running). An aborted task leaves at once:
+   * piscina terminates the thread running it and starts a fresh one.
+   */
+  get inFlight(): number {
+    return this.tasksInFlight;
+  }
+
   /** Runs a task on a worker; typed engine errors thrown there are rethrown here as the same classes. */
   async run<T>(task: WorkerTask, signal?: AbortSignal): Promise<T> {
-    if (this.destroyed) throw new CancelledError();
+    if (this.destroyed || signal?.aborted) throw new CancelledError();
     let reply: WorkerReply<T>;
+    this.tasksInFlight++;
     try {
       reply = (await this.piscina.run(task, signal ? { signal } : {})) as WorkerReply<T>;
     } catch (error) {
       // piscina rejects with an AbortError when the signal fires: the worker thread was stopped.
       if (signal?.aborted || this.destroyed) throw new CancelledError();
       throw new WorkerError(error instanceof Error ? error.message : String(error));
+    } finally {
+      this.tasksInFlight--;
     }
     if (reply.ok) return reply.value;
     const { kind, message, problems } = reply.error;
@@ -71,12 +83,15 @@ export class WorkerPool {
     throw new WorkerError(message);
   }
 
-  /** For route handlers: like run, but refused with WorkersBusyError when too many are in flight. */
-  async runForRequest<T>(task: WorkerTask): Promise<T> {
+  /**
+   * For route handlers: like run, but refused with WorkersBusyError when too many are in flight.
+   * `signal` (from disconnectSignal) stops the task when the client goes away.
+   */
+  async runForRequest<T>(task: WorkerTask, signal?: AbortSignal): Promise<T> {
     if (this.requestTasks >= this.maxRequestTasks) throw new WorkersBusyError();
     this.requestTasks++;
     try {
-      return await this.run<T>(task);
+      return await this.run<T>(task, signal);
     } finally {
       this.requestTasks--;
     }

@@ -21,7 +21,7 @@ import { resampleBilinear } from './resample.ts';
 
 export const sourceSchema = z.union([
   z.strictObject({
-    phantom: z.string().min(1).describe('analytic phantom name (GET /v1/phantoms)'),
+    phantom: z.string().min(1).max(100).describe('analytic phantom name (GET /v1/phantoms)'),
     kspace: z
       .enum(['analytic', 'raster'])
       .optional()
@@ -29,7 +29,9 @@ export const sourceSchema = z.union([
         "'analytic' (default): exact transform at the grid points; 'raster': DFT of the raster (inverse crime)",
       ),
   }),
-  z.strictObject({ imageId: z.string().min(1).describe('id of an uploaded image (POST /v1/images)') }),
+  z.strictObject({
+    imageId: z.string().min(1).max(200).describe('id of an uploaded image (POST /v1/images)'),
+  }),
 ]);
 export type SourceSpec = z.infer<typeof sourceSchema>;
 

@@ -5,6 +5,7 @@
  */
 export { generateMask, type SampledMask, type SamplingSpec, samplingSchema } from '../../sampling/index.ts';
 export { noiseSchema } from '../acquisition/index.ts';
+export { getPhantom } from '../phantoms/index.ts';
 export {
   checkScorableMatrix,
   type PipelineContext,

@@ -5,7 +5,7 @@ import { parseOrThrow } from '../protocol/zod-problems.ts';
 import { patternSpecs } from './pattern-specs.ts';
 import { checkPlanSize } from './plan-cells.ts';
 import { type Plan, planSchema } from './schema.ts';
-import { checkScorableMatrix, generateMask, samplingSchema } from './upstream.ts';
+import { checkScorableMatrix, generateMask, getPhantom, samplingSchema } from './upstream.ts';
 
 export interface ValidatePlanOptions {
   limits?: Limits;
@@ -25,6 +25,9 @@ export interface ValidatePlanOptions {
 export function validatePlan(input: unknown, options: ValidatePlanOptions = {}): Plan {
   const limits = options.limits ?? defaultLimits;
   const plan = parseOrThrow(planSchema, input, '');
+  // An unknown phantom is refused now (422 on source.phantom), as a reconstruction request is,
+  // not found halfway through the plan. (Image ids are checked against the store by the route.)
+  if ('phantom' in plan.source) getPhantom(plan.source.phantom);
 
   const tooLarge: FieldProblem[] = [];
   for (const key of ['nx', 'ny'] as const) {

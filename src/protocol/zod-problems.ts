@@ -7,7 +7,15 @@ import { type FieldProblem, ValidationError } from '../core/errors.ts';
  * Refinements pass their allowed range through `params.allowed`.
  */
 export function problemsFromIssues(issues: readonly z.core.$ZodIssue[], prefix: string): FieldProblem[] {
-  return issues.map((issue) => {
+  return issues.flatMap((issue) => {
+    // An unknown key is named by its own path, one problem per key.
+    if (issue.code === 'unrecognized_keys') {
+      return issue.keys.map((key) => ({
+        field: fieldPath(prefix, [...issue.path, key]),
+        message: 'unknown field',
+        allowed: 'the documented fields only',
+      }));
+    }
     const field = fieldPath(prefix, issue.path) || '(body)';
     const allowed = allowedText(issue);
     return allowed === undefined

@@ -147,8 +147,8 @@ describe('simulated acquisition', () => {
     }
   });
 
-  it("rejects an SNR that is not positive or 'none' with a ValidationError on noise.snr", () => {
-    for (const snr of [0, -5, Number.NaN, Number.POSITIVE_INFINITY, 'loud']) {
+  it("rejects an SNR outside 0.1…1e6 or not 'none' with a ValidationError on noise.snr", () => {
+    for (const snr of [0, -5, 1e-300, 0.09, Number.NaN, Number.POSITIVE_INFINITY, 'loud']) {
       try {
         acquire(full, full128, { snr } as never, 1);
         throw new Error('expected a ValidationError');
@@ -156,11 +156,13 @@ describe('simulated acquisition', () => {
         expect(error).toBeInstanceOf(ValidationError);
         expect((error as ValidationError).problems[0]).toMatchObject({
           field: 'noise.snr',
-          allowed: "0 < snr ≤ 1000000 | 'none'",
+          allowed: "0.1 ≤ snr ≤ 1000000 | 'none'",
         });
       }
     }
     expect(noiseSchema.safeParse({ snr: 0 }).success).toBe(false);
+    expect(noiseSchema.safeParse({ snr: 1e-300 }).success).toBe(false);
+    expect(noiseSchema.safeParse({ snr: 0.1 }).success).toBe(true);
     expect(noiseSchema.safeParse({ snr: 'none' }).success).toBe(true);
     expect(noiseSchema.safeParse({ snr: 12.5 }).success).toBe(true);
   });

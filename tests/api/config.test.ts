@@ -14,6 +14,7 @@ describe('configuration from the environment (issue contract: PORT 8080, HOST 12
       maxIterations: 2000,
       maxPlanCells: 2000,
       maxUploadBytes: 64 * 1024 * 1024,
+      maxKspacePoints: 65_536,
     });
     expect(config.limits).toEqual(defaultLimits);
   });
@@ -36,16 +37,19 @@ describe('configuration from the environment (issue contract: PORT 8080, HOST 12
       PORT: '9000',
       MAX_MATRIX_SIDE: '512',
       MAX_PLAN_CELLS: '50',
+      MAX_KSPACE_POINTS: '1000',
       WORKERS: '3',
       DATA_DIR: '/tmp/x',
     });
     expect(config.port).toBe(9000);
     expect(config.limits.maxMatrixSide).toBe(512);
     expect(config.limits.maxPlanCells).toBe(50);
+    expect(config.limits.maxKspacePoints).toBe(1000);
     expect(config.workers).toBe(3);
     expect(config.dataDir).toBe('/tmp/x');
     expect(() => loadConfig({ PORT: 'eighty' })).toThrow(/PORT/);
     expect(() => loadConfig({ MAX_MATRIX_SIDE: '-4' })).toThrow(/MAX_MATRIX_SIDE/);
+    expect(() => loadConfig({ MAX_KSPACE_POINTS: '0' })).toThrow(/MAX_KSPACE_POINTS/);
   });
 
   it('retention (README "Configuration": 168 h, 2 GiB, 600 s; 0 disables a limit) and tenant isolation', () => {

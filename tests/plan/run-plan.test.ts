@@ -173,8 +173,8 @@ describe('plan validation names the field and the allowed range', () => {
     [{ seeds: 1.5 }, 'seeds', 'an integer'],
     [
       { patterns: [{ pattern: 'cartesian-uniform', acceleration: 4 }] },
-      'patterns[0]',
-      'the documented fields only (not acceleration)',
+      'patterns[0].acceleration',
+      'the documented fields only',
     ],
     [{ patterns: [{ pattern: 'cartesian-uniform', acs: -1 }] }, 'patterns[0].acs', '≥ 0'],
     [{ target: { metric: 'ssim', atMost: 0.9 } }, 'target.atMost', 'atLeast for ssim'],

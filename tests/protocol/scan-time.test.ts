@@ -179,8 +179,8 @@ describe('scan time: validation names the field and the allowed range (TR > 0, a
     expect(problemOf(() => scanTime(matrix, {} as never)).field).toBe('protocol.trMs');
   });
 
-  it('an unknown protocol field is rejected rather than ignored', () => {
-    expect(problemOf(() => scanTime(matrix, { trMs: 500, tr: 5 } as never)).field).toBe('protocol');
+  it('an unknown protocol field is rejected rather than ignored, named by its own path', () => {
+    expect(problemOf(() => scanTime(matrix, { trMs: 500, tr: 5 } as never)).field).toBe('protocol.tr');
   });
 
   it('matrix sides must be positive integers and match the mask', () => {

@@ -1,0 +1,65 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { postProblem, type TestApp, testApp } from './helpers.ts';
+
+// A plan's source is checked when it is submitted, as POST /v1/reconstructions checks it: an unknown
+// phantom is 422 (RFC 9110 §15.5.21) naming source.phantom; an unknown image id is 404 naming
+// source.imageId on both routes. Problems per RFC 9457.
+
+const plan = {
+  source: { phantom: 'shepp-logan' },
+  matrix: { nx: 32, ny: 32 },
+  protocol: { trMs: 500 },
+  patterns: [{ pattern: 'cartesian-uniform' }],
+  accelerations: [2],
+  methods: [{ name: 'zero-filled' }],
+  seeds: 1,
+};
+const reconstruction = {
+  source: { phantom: 'shepp-logan' },
+  matrix: { nx: 32, ny: 32 },
+  sampling: { pattern: 'cartesian-uniform', acceleration: 2 },
+  method: { name: 'zero-filled' },
+};
+const missingImage = '00000000-0000-0000-0000-000000000000';
+
+describe('plan sources are validated at submit', () => {
+  let t: TestApp;
+  beforeAll(async () => {
+    t = await testApp();
+  });
+  afterAll(async () => t.close());
+
+  it('unknown phantom: 422 naming source.phantom, listing the known ones, as the reconstruction route', async () => {
+    const body = { source: { phantom: 'no-such-phantom' } };
+    const fromPlan = await postProblem(t, '/v1/plans', { ...plan, ...body }, 422, 'source.phantom');
+    const fromRecon = await postProblem(
+      t,
+      '/v1/reconstructions',
+      { ...reconstruction, ...body },
+      422,
+      'source.phantom',
+    );
+    expect(fromPlan.errors[0]).toEqual(fromRecon.errors[0]);
+    expect(fromPlan.errors[0].allowed).toContain('shepp-logan');
+    // Nothing was queued.
+    expect(t.app.services.plans.length).toBe(0);
+  });
+
+  it('unknown image id: 404 naming source.imageId on both routes', async () => {
+    const body = { source: { imageId: missingImage } };
+    const fromPlan = await postProblem(t, '/v1/plans', { ...plan, ...body }, 404, 'source.imageId');
+    const fromRecon = await postProblem(
+      t,
+      '/v1/reconstructions',
+      { ...reconstruction, ...body },
+      404,
+      'source.imageId',
+    );
+    expect(fromPlan.errors).toEqual(fromRecon.errors);
+  });
+
+  it('a known phantom is still accepted (control)', async () => {
+    const res = await t.http().post('/v1/plans').send(plan);
+    expect(res.status).toBe(202);
+  });
+});
