@@ -65,7 +65,7 @@ export function spiralTrajectory(spec: SpiralTrajectorySpec): SpiralTrajectory {
   }
   const density = spec.density ?? 'uniform';
   const power = density === 'uniform' ? 1 : (spec.power ?? 2);
-  if (!Number.isFinite(power) || power <= 1 || power > 8) {
+  if (density === 'variable' && (!Number.isFinite(power) || power <= 1 || power > 8)) {
     fail('trajectory.power', `must be above 1 and at most 8, got ${power}`, '1 < power ≤ 8');
   }
   const kmax = side / 2;
