@@ -61,7 +61,11 @@ export function spiralTrajectory(spec: SpiralTrajectorySpec): SpiralTrajectory {
   }
   const acceleration = spec.acceleration ?? 1;
   if (!Number.isFinite(acceleration) || acceleration < 1 || acceleration > side) {
-    fail('trajectory.acceleration', `must be from 1 to ${side}, got ${acceleration}`, `1 ≤ acceleration ≤ ${side}`);
+    fail(
+      'trajectory.acceleration',
+      `must be from 1 to ${side}, got ${acceleration}`,
+      `1 ≤ acceleration ≤ ${side}`,
+    );
   }
   const density = spec.density ?? 'uniform';
   const power = density === 'uniform' ? 1 : (spec.power ?? 2);
@@ -75,12 +79,11 @@ export function spiralTrajectory(spec: SpiralTrajectorySpec): SpiralTrajectory {
   // Arc length s(τ) by the trapezoid rule on a fine τ grid; |dk/dτ| = kmax·√((aτ^(a−1))² + (θmax τ^a)²).
   const steps = Math.max(4096, Math.ceil(TABLE_STEPS_PER_TURN * turns));
   const arc = new Float64Array(steps + 1);
-  const speed = (tau: number) =>
-    kmax * Math.hypot(power * tau ** (power - 1), thetaMax * tau ** power);
+  const speed = (tau: number) => kmax * Math.hypot(power * tau ** (power - 1), thetaMax * tau ** power);
   let previous = speed(0);
   for (let i = 1; i <= steps; i++) {
     const current = speed(i / steps);
-    arc[i] = arc[i - 1] + ((previous + current) / 2) / steps;
+    arc[i] = arc[i - 1] + (previous + current) / 2 / steps;
     previous = current;
   }
   const length = arc[steps];

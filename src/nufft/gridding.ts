@@ -14,7 +14,9 @@ export function griddingReconstruction(
   out?: ComplexImage,
 ): ComplexImage {
   if (samples.length !== 2 * plan.count || weights.length !== plan.count) {
-    throw new RangeError(`need ${plan.count} samples and weights, got ${samples.length / 2} and ${weights.length}`);
+    throw new RangeError(
+      `need ${plan.count} samples and weights, got ${samples.length / 2} and ${weights.length}`,
+    );
   }
   const weighted = new Float64Array(samples.length);
   for (let p = 0; p < plan.count; p++) {

@@ -138,7 +138,10 @@ export function createNufftPlan(
 ): NufftPlan {
   const { width, oversampling } = checkNufftOptions(options);
   if (!Number.isInteger(nx) || nx < 1 || !Number.isInteger(ny) || ny < 1) {
-    throw new ValidationError({ field: 'matrix', message: `sides must be positive integers, got ${ny}×${nx}` });
+    throw new ValidationError({
+      field: 'matrix',
+      message: `sides must be positive integers, got ${ny}×${nx}`,
+    });
   }
   checkTrajectory(kx, ky);
   const count = kx.length;

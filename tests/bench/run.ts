@@ -23,6 +23,7 @@ for (const [title, path, name] of [
   ['phantoms', './phantoms.bench.ts', 'benchPhantoms'],
   ['metrics', './metrics.bench.ts', 'benchMetrics'],
   ['sampling', './sampling.bench.ts', 'benchSampling'],
+  ['nufft', './nufft.bench.ts', 'benchNufft'],
   ['reconstruction', './recon.bench.ts', 'benchRecon'],
   ['planning', './plan.bench.ts', 'benchPlan'],
   ['service', './service.bench.ts', 'benchService'],

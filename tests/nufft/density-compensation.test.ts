@@ -1,11 +1,11 @@
 import { describe, expect, it } from 'vitest';
+import { radialTrajectory } from '../../sampling/trajectories/radial-trajectory.ts';
 import { createComplexImage } from '../../src/core/complex-image.ts';
 import { ValidationError } from '../../src/core/errors.ts';
 import { griddingReconstruction } from '../../src/nufft/gridding.ts';
 import { createNufftPlan } from '../../src/nufft/nufft-plan.ts';
 import { PIPE_MENON_KERNEL, pipeMenonWeights } from '../../src/nufft/pipe-menon-weights.ts';
 import { radialRampWeights } from '../../src/nufft/radial-ramp-weights.ts';
-import { radialTrajectory } from '../../sampling/trajectories/radial-trajectory.ts';
 
 function extremes(values: Float64Array): { min: number; max: number } {
   let min = Infinity;
@@ -18,7 +18,13 @@ function extremes(values: Float64Array): { min: number; max: number } {
 }
 
 /** Worst |w/ramp − 1| over samples with lo < |k|/kmax < hi. */
-function worstAgainstRamp(kx: Float64Array, ky: Float64Array, w: Float64Array, ramp: Float64Array, kmax: number) {
+function worstAgainstRamp(
+  kx: Float64Array,
+  ky: Float64Array,
+  w: Float64Array,
+  ramp: Float64Array,
+  kmax: number,
+) {
   let worst = 0;
   for (let p = 0; p < w.length; p++) {
     const r = Math.hypot(kx[p], ky[p]) / kmax;

@@ -1,14 +1,14 @@
 import { describe, expect, it } from 'vitest';
+import { type RadialTrajectory, radialTrajectory } from '../../sampling/trajectories/radial-trajectory.ts';
 import { ifft2c } from '../../src/core/centered-fft.ts';
 import { type ComplexImage, magnitude } from '../../src/core/complex-image.ts';
 import type { RealImage } from '../../src/core/real-image.ts';
 import { nrmse } from '../../src/metrics/nrmse.ts';
 import { griddingReconstruction } from '../../src/nufft/gridding.ts';
-import { nufftPlanFor } from '../../src/nufft/plan-cache.ts';
 import { PIPE_MENON_KERNEL, pipeMenonWeights } from '../../src/nufft/pipe-menon-weights.ts';
+import { nufftPlanFor } from '../../src/nufft/plan-cache.ts';
 import { radialRampWeights } from '../../src/nufft/radial-ramp-weights.ts';
 import { gridScale, phantomGridKspace, sheppLoganModified } from '../../src/phantoms/index.ts';
-import { type RadialTrajectory, radialTrajectory } from '../../sampling/trajectories/radial-trajectory.ts';
 
 /**
  * Gridding reconstruction of Nyquist radial (⌈π/2·64⌉ = 101 spokes) on the modified Shepp–Logan
@@ -79,7 +79,9 @@ describe('gridding of Nyquist radial on the modified Shepp–Logan phantom, 64²
     // Δk = 1/FOV along the spokes supports an object within the inscribed circle only; the skull's
     // aliases land in the square's corners (common practice: radial readouts are oversampled 2×).
     const t1 = radialTrajectory({ side });
-    const x = real(griddingReconstruction(nufftPlanFor(t1, side, side), samplesOf(t1), radialRampWeights(t1)));
+    const x = real(
+      griddingReconstruction(nufftPlanFor(t1, side, side), samplesOf(t1), radialRampWeights(t1)),
+    );
     const whole = nrmse(x, reference);
     const inside = nrmse(x, reference, inscribed);
     // Measured 0.389 over the square and 0.120 inside the inscribed disc.

@@ -71,13 +71,16 @@ describe('type-2 NUFFT against the direct non-uniform DFT', () => {
   it.each([
     [4, 1e-3],
     [6, 2e-5],
-  ])('W = %i, α = 2 on the numpy fixture (18×24, 300 points beyond the band edge) below %f', (width, bound) => {
-    const plan = createNufftPlan(image.nx, image.ny, kx, ky, { width, oversampling: 2 });
-    const error = relativeError(plan.forward(image), expected);
-    // Measured: 6.3e-4 (W = 4), 7.1e-6 (W = 6); the table gives 6.3e-4 and 6.7e-6.
-    expect(error).toBeLessThan(bound);
-    expect(error).toBeLessThan(plan.expectedRelativeError * 1.5);
-  });
+  ])(
+    'W = %i, α = 2 on the numpy fixture (18×24, 300 points beyond the band edge) below %f',
+    (width, bound) => {
+      const plan = createNufftPlan(image.nx, image.ny, kx, ky, { width, oversampling: 2 });
+      const error = relativeError(plan.forward(image), expected);
+      // Measured: 6.3e-4 (W = 4), 7.1e-6 (W = 6); the table gives 6.3e-4 and 6.7e-6.
+      expect(error).toBeLessThan(bound);
+      expect(error).toBeLessThan(plan.expectedRelativeError * 1.5);
+    },
+  );
 
   it.each([
     [4, 1e-3],
@@ -118,8 +121,12 @@ describe('type-2 NUFFT against the direct non-uniform DFT', () => {
       const { kx, ky } = gridPoints(nx, ny);
       // Grid points hit taps exactly on the kernel edge; the half-value edge rule keeps them as accurate
       // as random points. Measured 5.4e-4 … 5.8e-4 (W = 4) and 7.1e-6 … 8.3e-6 (W = 6).
-      expect(relativeError(createNufftPlan(nx, ny, kx, ky, { width: 4 }).forward(img), reference)).toBeLessThan(1e-3);
-      expect(relativeError(createNufftPlan(nx, ny, kx, ky, { width: 6 }).forward(img), reference)).toBeLessThan(2e-5);
+      expect(
+        relativeError(createNufftPlan(nx, ny, kx, ky, { width: 4 }).forward(img), reference),
+      ).toBeLessThan(1e-3);
+      expect(
+        relativeError(createNufftPlan(nx, ny, kx, ky, { width: 6 }).forward(img), reference),
+      ).toBeLessThan(2e-5);
     }
   });
 

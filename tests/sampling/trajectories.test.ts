@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest';
-import { ValidationError } from '../../src/core/errors.ts';
 import { radialAngles, tinyGoldenAngle } from '../../sampling/trajectories/radial-angles.ts';
 import { nyquistSpokeCount, radialTrajectory } from '../../sampling/trajectories/radial-trajectory.ts';
 import { nyquistSpiralInterleaves, spiralTrajectory } from '../../sampling/trajectories/spiral-trajectory.ts';
+import { ValidationError } from '../../src/core/errors.ts';
 import { nufftFixture } from '../nufft/nufft-fixture.ts';
 
 const degrees = (radians: number) => (radians * 180) / Math.PI;
@@ -15,13 +15,17 @@ describe('radial angles', () => {
     }
     // Values as published (Wundrak et al. 2016), 4 decimals: N = 2 … 7.
     const published = [68.7539, 49.7508, 38.9776, 32.0397, 27.1984, 23.6281];
-    published.forEach((value, i) => expect(degrees(tinyGoldenAngle(i + 2))).toBeCloseTo(value, 4));
+    published.forEach((value, i) => {
+      expect(degrees(tinyGoldenAngle(i + 2))).toBeCloseTo(value, 4);
+    });
     expect(degrees(tinyGoldenAngle(1))).toBeCloseTo(111.24611797, 8);
   });
 
   it('orderings: uniform j·180°/S, golden and tiny-golden increments modulo 180°', () => {
     const uniform = radialAngles(8, 'uniform');
-    uniform.forEach((t, j) => expect(t).toBeCloseTo((j * Math.PI) / 8, 15));
+    uniform.forEach((t, j) => {
+      expect(t).toBeCloseTo((j * Math.PI) / 8, 15);
+    });
     for (const [ordering, n] of [
       ['golden', 1],
       ['tiny-golden', 7],
@@ -59,7 +63,10 @@ describe('radial trajectory', () => {
       expect(Math.hypot(t.kx[s * 32], t.ky[s * 32])).toBeCloseTo(8, 12);
       expect(Math.atan2(-t.ky[s * 32], -t.kx[s * 32])).toBeCloseTo(t.angles[s], 12);
       // Consecutive samples are Δk = 1/os apart.
-      expect(Math.hypot(t.kx[s * 32 + 1] - t.kx[s * 32], t.ky[s * 32 + 1] - t.ky[s * 32])).toBeCloseTo(0.5, 12);
+      expect(Math.hypot(t.kx[s * 32 + 1] - t.kx[s * 32], t.ky[s * 32 + 1] - t.ky[s * 32])).toBeCloseTo(
+        0.5,
+        12,
+      );
     }
   });
 
@@ -75,7 +82,9 @@ describe('radial trajectory', () => {
     };
     expect(field(() => radialTrajectory({ side: 0 }))).toBe('trajectory.side');
     expect(field(() => radialTrajectory({ side: 16, spokes: 2.5 }))).toBe('trajectory.spokes');
-    expect(field(() => radialTrajectory({ side: 16, readoutOversampling: 0 }))).toBe('trajectory.readoutOversampling');
+    expect(field(() => radialTrajectory({ side: 16, readoutOversampling: 0 }))).toBe(
+      'trajectory.readoutOversampling',
+    );
     expect(field(() => spiralTrajectory({ side: 64, interleaves: 0 }))).toBe('trajectory.interleaves');
     expect(field(() => spiralTrajectory({ side: 64, interleaves: 8, acceleration: 0.5 }))).toBe(
       'trajectory.acceleration',
@@ -119,7 +128,11 @@ describe('spiral trajectory', () => {
     // 16× the default samples, so the linear interpolation between samples is close to the curve
     // (chord vs arc error below 1e-3 even on the tight inner turns).
     const coarse = spiralTrajectory({ side: 64, interleaves: 8 });
-    const t = spiralTrajectory({ side: 64, interleaves: 8, samplesPerInterleaf: 16 * coarse.samplesPerReadout });
+    const t = spiralTrajectory({
+      side: 64,
+      interleaves: 8,
+      samplesPerInterleaf: 16 * coarse.samplesPerReadout,
+    });
     expect(t.turnsPerInterleaf).toBe(4);
     expect(t.nyquistReadouts).toBe(8);
     expect(t.acceleration).toBe(1);
