@@ -54,3 +54,36 @@ export function relativeError(a: Float64Array, b: Float64Array): number {
   }
   return Math.sqrt(e / n);
 }
+
+/**
+ * The exact adjoint sum x[i][j] = (1/√(nx·ny)) Σ_p y_p e^(+i2π(kx_p·n/nx − ky_p·m/ny)) by direct
+ * summation, same conventions as directNdft.
+ */
+export function directAdjointNdft(
+  samples: Float64Array,
+  kx: Float64Array,
+  ky: Float64Array,
+  nx: number,
+  ny: number,
+): Float64Array {
+  const out = new Float64Array(2 * nx * ny);
+  const cx = Math.floor(nx / 2);
+  const cy = Math.floor(ny / 2);
+  const scale = 1 / Math.sqrt(nx * ny);
+  for (let i = 0; i < ny; i++) {
+    for (let j = 0; j < nx; j++) {
+      let re = 0;
+      let im = 0;
+      for (let p = 0; p < kx.length; p++) {
+        const phase = 2 * Math.PI * ((kx[p] * (j - cx)) / nx - (ky[p] * (i - cy)) / ny);
+        const c = Math.cos(phase);
+        const s = Math.sin(phase);
+        re += samples[2 * p] * c - samples[2 * p + 1] * s;
+        im += samples[2 * p] * s + samples[2 * p + 1] * c;
+      }
+      out[2 * (i * nx + j)] = re * scale;
+      out[2 * (i * nx + j) + 1] = im * scale;
+    }
+  }
+  return out;
+}
