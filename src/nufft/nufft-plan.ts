@@ -240,24 +240,27 @@ export function createNufftPlan(
   const { start: startX, taps: tapsX, weights: wX } = xTaps;
   const { start: startY, taps: tapsY, weights: wY } = yTaps;
 
+  // Interleaved offset of each point's first tap in the padded grid, and the row stride.
+  const firstTap = new Int32Array(count);
+  for (let p = 0; p < count; p++) firstTap[p] = 2 * (startY[p] * px + startX[p]);
+  const rowStride = 2 * px;
+
   function interpolate(out: Float64Array): void {
-    for (let p = 0; p < count; p++) {
-      const ox = p * stride;
-      const oy = p * stride;
+    for (let p = 0, o = 0; p < count; p++, o += stride) {
       const nxTaps = tapsX[p];
       const nyTaps = tapsY[p];
+      let row = firstTap[p];
       let re = 0;
       let im = 0;
-      for (let ty = 0; ty < nyTaps; ty++) {
-        let at = 2 * ((startY[p] + ty) * px + startX[p]);
+      for (let ty = 0; ty < nyTaps; ty++, row += rowStride) {
         let rr = 0;
         let ri = 0;
-        for (let tx = 0; tx < nxTaps; tx++, at += 2) {
-          const w = wX[ox + tx];
+        for (let tx = 0, at = row; tx < nxTaps; tx++, at += 2) {
+          const w = wX[o + tx];
           rr += w * grid[at];
           ri += w * grid[at + 1];
         }
-        const w = wY[oy + ty];
+        const w = wY[o + ty];
         re += w * rr;
         im += w * ri;
       }
@@ -266,21 +269,20 @@ export function createNufftPlan(
     }
   }
 
-  function spread(values: Float64Array, imaginary: boolean): void {
-    for (let p = 0; p < count; p++) {
-      const ox = p * stride;
-      const oy = p * stride;
+  /** Adds each value times the kernel around its point: complex interleaved, or real when `real`. */
+  function spread(values: Float64Array, real: boolean): void {
+    for (let p = 0, o = 0; p < count; p++, o += stride) {
       const nxTaps = tapsX[p];
       const nyTaps = tapsY[p];
-      const vr = imaginary ? values[2 * p] : values[p];
-      const vi = imaginary ? values[2 * p + 1] : 0;
-      for (let ty = 0; ty < nyTaps; ty++) {
-        const wy = wY[oy + ty];
+      const vr = real ? values[p] : values[2 * p];
+      const vi = real ? 0 : values[2 * p + 1];
+      let row = firstTap[p];
+      for (let ty = 0; ty < nyTaps; ty++, row += rowStride) {
+        const wy = wY[o + ty];
         const yr = wy * vr;
         const yi = wy * vi;
-        let at = 2 * ((startY[p] + ty) * px + startX[p]);
-        for (let tx = 0; tx < nxTaps; tx++, at += 2) {
-          const w = wX[ox + tx];
+        for (let tx = 0, at = row; tx < nxTaps; tx++, at += 2) {
+          const w = wX[o + tx];
           grid[at] += w * yr;
           grid[at + 1] += w * yi;
         }
@@ -331,7 +333,7 @@ export function createNufftPlan(
         throw new RangeError(`plan is for ${ny}×${nx}, out is ${target.ny}×${target.nx}`);
       }
       grid.fill(0);
-      spread(samples, true);
+      spread(samples, false);
       foldPads();
       for (let c = pad; c < pad + gx; c++) columnTransform(c, 1);
       // Only the ny image rows are read back, so only they need a row transform.
@@ -354,17 +356,16 @@ export function createNufftPlan(
         throw new RangeError(`weights and out must hold ${count} numbers`);
       }
       grid.fill(0);
-      spread(weights, false);
+      spread(weights, true);
       foldPads();
       wrapIntoPads();
-      for (let p = 0; p < count; p++) {
-        const ox = p * stride;
+      for (let p = 0, o = 0; p < count; p++, o += stride) {
+        let row = firstTap[p];
         let re = 0;
-        for (let ty = 0; ty < tapsY[p]; ty++) {
-          let at = 2 * ((startY[p] + ty) * px + startX[p]);
+        for (let ty = 0; ty < tapsY[p]; ty++, row += rowStride) {
           let rr = 0;
-          for (let tx = 0; tx < tapsX[p]; tx++, at += 2) rr += wX[ox + tx] * grid[at];
-          re += wY[ox + ty] * rr;
+          for (let tx = 0, at = row; tx < tapsX[p]; tx++, at += 2) rr += wX[o + tx] * grid[at];
+          re += wY[o + ty] * rr;
         }
         out[p] = re;
       }
