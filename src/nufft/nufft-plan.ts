@@ -28,6 +28,7 @@ export interface NufftPlan {
   readonly count: number;
   readonly width: number;
   readonly oversampling: number;
+  /** Kernel shape from the requested α (the grid may be a little larger, which only lowers the error). */
   readonly beta: number;
   /** Oversampled grid sides (≥ α·n, rounded up to a size the FFT plans handle quickly). */
   readonly gridNx: number;

@@ -3,6 +3,7 @@ import { fft2c } from '../../src/core/centered-fft.ts';
 import { type ComplexImage, createComplexImage } from '../../src/core/complex-image.ts';
 import { ValidationError } from '../../src/core/errors.ts';
 import { SeededRandom } from '../../src/core/random.ts';
+import { expectedRelativeError } from '../../src/nufft/accuracy-table.ts';
 import { createNufftPlan, fastGridSize } from '../../src/nufft/nufft-plan.ts';
 import { directNdft, relativeError } from './direct-ndft.ts';
 import { nufftFixture } from './nufft-fixture.ts';
@@ -94,6 +95,21 @@ describe('type-2 NUFFT against the direct non-uniform DFT', () => {
     expect(error).toBeLessThan(bound);
     // The table (src/nufft/accuracy-table.ts) was measured on other images and points.
     expect(error).toBeLessThan(plan.expectedRelativeError * 1.5);
+  });
+
+  it('the 2D error is about √2 times the 1D error of a numpy KB NUFFT (fixture), W = 4 and 6', () => {
+    // Independent check of the error level: the fixture's 1D NUFFT (written in numpy, N = 128, 400
+    // points) has 4.0e-4 (W = 4) and 4.6e-6 (W = 6); in 2D both axes add independent errors, so √2
+    // times that is expected. Measured ratios 1.06 and 1.03; bound: within a factor 2 either way.
+    const img = randomImage(48, 40, 7);
+    const pts = randomPoints(1500, 48, 40, 8);
+    const exact = directNdft(img, pts.kx, pts.ky);
+    for (const { width, relativeError: error1d } of nufftFixture.nufft1dErrors.filter((e) => e.width >= 4)) {
+      const plan = createNufftPlan(48, 40, pts.kx, pts.ky, { width });
+      const ratio = relativeError(plan.forward(img), exact) / (Math.SQRT2 * error1d);
+      expect(ratio).toBeGreaterThan(0.5);
+      expect(ratio).toBeLessThan(2);
+    }
   });
 
   it('α = 1.5 and 1.25 with wider kernels stay within the tabulated error', () => {
@@ -197,6 +213,13 @@ describe('plan parameters and bad input', () => {
     expect(fastGridSize(1.25 * 256)).toBe(320);
     expect(fastGridSize(2 * 33)).toBe(72); // 66 = 2·33 has the odd factor 33; 72 = 8·9
     expect(fastGridSize(1.5 * 17)).toBe(26);
+  });
+
+  it('an α between tabulated columns reports the error of the next lower column (conservative)', () => {
+    expect(expectedRelativeError(4, 2)).toBe(6.3e-4);
+    expect(expectedRelativeError(4, 1.75)).toBe(expectedRelativeError(4, 1.5));
+    expect(expectedRelativeError(4, 3)).toBe(expectedRelativeError(4, 2));
+    expect(expectedRelativeError(6, 1.3)).toBe(expectedRelativeError(6, 1.25));
   });
 
   it('names the field of a bad width, oversampling or coordinate', () => {
