@@ -5,7 +5,7 @@ import { ValidationError } from '../../src/core/errors.ts';
 import { griddingReconstruction } from '../../src/nufft/gridding.ts';
 import { createNufftPlan } from '../../src/nufft/nufft-plan.ts';
 import { PIPE_MENON_KERNEL, pipeMenonWeights } from '../../src/nufft/pipe-menon-weights.ts';
-import { radialRampWeights } from '../../src/nufft/radial-ramp-weights.ts';
+import { radialRampWeights, spokeAngularShares } from '../../src/nufft/radial-ramp-weights.ts';
 
 function extremes(values: Float64Array): { min: number; max: number } {
   let min = Infinity;
@@ -48,6 +48,28 @@ describe('analytic radial ramp (common practice)', () => {
     for (const v of w) total += v;
     // Rings of area 2πrΔk out to kmax (one side of the last ring only) plus the centre disc.
     expect(total / (Math.PI * 16 * 16)).toBeCloseTo(1, 2);
+  });
+});
+
+describe('angular shares of spokes', () => {
+  it('uniform spokes get π/S each; any order adds up to π with each share half its two gaps', () => {
+    const uniform = spokeAngularShares(radialTrajectory({ side: 16, spokes: 9 }).angles);
+    for (const share of uniform) expect(share).toBeCloseTo(Math.PI / 9, 14);
+    const golden = radialTrajectory({ side: 16, spokes: 30, ordering: 'golden' }).angles;
+    const shares = spokeAngularShares(golden);
+    expect(shares.reduce((a, b) => a + b, 0)).toBeCloseTo(Math.PI, 13);
+    // Independent: neighbours by brute force over all other spokes (angles modulo π).
+    for (let s = 0; s < golden.length; s++) {
+      let before = Math.PI;
+      let after = Math.PI;
+      for (let q = 0; q < golden.length; q++) {
+        if (q === s) continue;
+        const d = (((golden[q] - golden[s]) % Math.PI) + Math.PI) % Math.PI;
+        after = Math.min(after, d);
+        before = Math.min(before, Math.PI - d);
+      }
+      expect(shares[s]).toBeCloseTo((before + after) / 2, 13);
+    }
   });
 });
 
