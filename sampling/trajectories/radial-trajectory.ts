@@ -1,6 +1,6 @@
 import { ValidationError } from '../../src/core/errors.ts';
 import { type RadialOrdering, radialAngles } from './radial-angles.ts';
-import type { Trajectory } from './trajectory.ts';
+import { checkTrajectorySize, type Trajectory } from './trajectory.ts';
 
 export interface RadialTrajectorySpec {
   /** Readout matrix N: samples per spoke before readout oversampling (usually max(nx, ny)). */
@@ -58,6 +58,7 @@ export function radialTrajectory(spec: RadialTrajectorySpec): RadialTrajectory {
   const tinyGoldenIndex = spec.tinyGoldenIndex ?? 7;
   positiveInteger(tinyGoldenIndex, 'trajectory.tinyGoldenIndex', 100);
   const samples = os * spec.side;
+  checkTrajectorySize(spokes, samples, 'trajectory.spokes');
   const angles = radialAngles(spokes, ordering, tinyGoldenIndex);
   const kx = new Float64Array(spokes * samples);
   const ky = new Float64Array(spokes * samples);

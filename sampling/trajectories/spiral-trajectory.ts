@@ -1,5 +1,5 @@
 import { ValidationError } from '../../src/core/errors.ts';
-import type { Trajectory } from './trajectory.ts';
+import { checkTrajectorySize, type Trajectory } from './trajectory.ts';
 
 export interface SpiralTrajectorySpec {
   /** Matrix N: the spiral reaches kmax = N/2 cycles per FOV. */
@@ -30,6 +30,8 @@ export interface SpiralTrajectory extends Trajectory {
 
 /** Fine parameter samples per turn for the arc-length table (far below one sample's spacing). */
 const TABLE_STEPS_PER_TURN = 2048;
+/** Cap on that table (32 MB); even then a turn gets ≥ 256 steps for every spiral the limits allow. */
+const MAX_TABLE_STEPS = 2 ** 22;
 
 function fail(field: string, message: string, allowed: string): never {
   throw new ValidationError({ field, message, allowed });
@@ -77,7 +79,7 @@ export function spiralTrajectory(spec: SpiralTrajectorySpec): SpiralTrajectory {
   const thetaMax = 2 * Math.PI * turns;
 
   // Arc length s(τ) by the trapezoid rule on a fine τ grid; |dk/dτ| = kmax·√((aτ^(a−1))² + (θmax τ^a)²).
-  const steps = Math.max(4096, Math.ceil(TABLE_STEPS_PER_TURN * turns));
+  const steps = Math.min(MAX_TABLE_STEPS, Math.max(4096, Math.ceil(TABLE_STEPS_PER_TURN * turns)));
   const arc = new Float64Array(steps + 1);
   const speed = (tau: number) => kmax * Math.hypot(power * tau ** (power - 1), thetaMax * tau ** power);
   let previous = speed(0);
@@ -89,12 +91,16 @@ export function spiralTrajectory(spec: SpiralTrajectorySpec): SpiralTrajectory {
   const length = arc[steps];
   const samples = spec.samplesPerInterleaf ?? Math.ceil(2 * length) + 1;
   if (!Number.isInteger(samples) || samples < 2 || samples > 1_000_000) {
+    const given = spec.samplesPerInterleaf !== undefined;
     fail(
       'trajectory.samplesPerInterleaf',
-      `must be an integer from 2 to 1000000, got ${samples}`,
+      given
+        ? `must be an integer from 2 to 1000000, got ${samples}`
+        : `the default spacing of ½ cycle/FOV would need ${samples} samples per interleaf; use more interleaves`,
       'integer, 2 ≤ samplesPerInterleaf ≤ 1000000',
     );
   }
+  checkTrajectorySize(interleaves, samples, 'trajectory.interleaves');
 
   // τ at equal arc-length steps, by inverting the table with linear interpolation.
   const tau = new Float64Array(samples);

@@ -1,5 +1,5 @@
 import { type ComplexImage, createComplexImage } from '../core/complex-image.ts';
-import { ValidationError } from '../core/errors.ts';
+import { LimitError, ValidationError } from '../core/errors.ts';
 import { fftPlan } from '../core/fft-plan.ts';
 import { expectedRelativeError } from './accuracy-table.ts';
 import { kaiserBessel, kaiserBesselBeta, kaiserBesselTransform } from './kaiser-bessel.ts';
@@ -45,6 +45,9 @@ export interface NufftPlan {
    */
   spreadInterpolate(weights: Float64Array, out: Float64Array): void;
 }
+
+/** Weights per axis a plan may precompute (2²⁵ doubles per axis: 512 MB for both axes). */
+export const MAX_PLAN_WEIGHTS = 2 ** 25;
 
 /** Smallest size ≥ n whose odd factor is at most 15, so the 1D FFT plans stay on their fast paths. */
 export function fastGridSize(n: number): number {
@@ -144,8 +147,15 @@ export function createNufftPlan(
       message: `sides must be positive integers, got ${ny}×${nx}`,
     });
   }
-  checkTrajectory(kx, ky);
   const count = kx.length;
+  if (count * (width + 1) > MAX_PLAN_WEIGHTS) {
+    throw new LimitError({
+      field: 'trajectory',
+      message: `${count} points with kernel width ${width} need more interpolation weights than a plan may hold`,
+      allowed: `points × (width + 1) ≤ ${MAX_PLAN_WEIGHTS}`,
+    });
+  }
+  checkTrajectory(kx, ky);
   const beta = kaiserBesselBeta(width, oversampling);
   const gx = fastGridSize(oversampling * nx);
   const gy = fastGridSize(oversampling * ny);

@@ -1,10 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import { fft2c } from '../../src/core/centered-fft.ts';
 import { type ComplexImage, createComplexImage } from '../../src/core/complex-image.ts';
-import { ValidationError } from '../../src/core/errors.ts';
+import { LimitError, ValidationError } from '../../src/core/errors.ts';
 import { SeededRandom } from '../../src/core/random.ts';
 import { expectedRelativeError } from '../../src/nufft/accuracy-table.ts';
-import { createNufftPlan, fastGridSize } from '../../src/nufft/nufft-plan.ts';
+import { createNufftPlan, fastGridSize, MAX_PLAN_WEIGHTS } from '../../src/nufft/nufft-plan.ts';
 import { directNdft, relativeError } from './direct-ndft.ts';
 import { nufftFixture } from './nufft-fixture.ts';
 
@@ -240,5 +240,9 @@ describe('plan parameters and bad input', () => {
     expect(fieldOf(() => createNufftPlan(8, 8, k, ok))).toBe('trajectory.3');
     expect(fieldOf(() => createNufftPlan(8, 8, ok, new Float64Array(3)))).toBe('trajectory');
     expect(fieldOf(() => createNufftPlan(0, 8, ok, ok))).toBe('matrix');
+    // Too many points for the plan's weight tables: refused before allocating them.
+    const many = new Float64Array(MAX_PLAN_WEIGHTS / 5 + 1);
+    expect(() => createNufftPlan(8, 8, many, many, { width: 4 })).toThrow(LimitError);
+    expect(fieldOf(() => createNufftPlan(8, 8, many, many, { width: 4 }))).toBe('trajectory');
   });
 });

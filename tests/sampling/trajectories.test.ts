@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { radialAngles, tinyGoldenAngle } from '../../sampling/trajectories/radial-angles.ts';
 import { nyquistSpokeCount, radialTrajectory } from '../../sampling/trajectories/radial-trajectory.ts';
 import { nyquistSpiralInterleaves, spiralTrajectory } from '../../sampling/trajectories/spiral-trajectory.ts';
-import { ValidationError } from '../../src/core/errors.ts';
+import { LimitError, ValidationError } from '../../src/core/errors.ts';
 import { nufftFixture } from '../nufft/nufft-fixture.ts';
 
 const degrees = (radians: number) => (radians * 180) / Math.PI;
@@ -88,6 +88,13 @@ describe('radial trajectory', () => {
     expect(field(() => spiralTrajectory({ side: 64, interleaves: 0 }))).toBe('trajectory.interleaves');
     expect(field(() => spiralTrajectory({ side: 64, interleaves: 8, acceleration: 0.5 }))).toBe(
       'trajectory.acceleration',
+    );
+    expect(field(() => radialTrajectory({ side: 4096, spokes: 6000, readoutOversampling: 2 }))).toBe(
+      'trajectory.spokes',
+    );
+    expect(() => radialTrajectory({ side: 4096, spokes: 6000, readoutOversampling: 2 })).toThrow(LimitError);
+    expect(field(() => spiralTrajectory({ side: 4096, interleaves: 1 }))).toBe(
+      'trajectory.samplesPerInterleaf',
     );
     expect(field(() => spiralTrajectory({ side: 64, interleaves: 8, density: 'variable', power: 1 }))).toBe(
       'trajectory.power',
