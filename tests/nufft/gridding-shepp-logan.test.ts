@@ -1,56 +1,21 @@
 import { describe, expect, it } from 'vitest';
-import { type RadialTrajectory, radialTrajectory } from '../../sampling/trajectories/radial-trajectory.ts';
-import { ifft2c } from '../../src/core/centered-fft.ts';
-import { type ComplexImage, magnitude } from '../../src/core/complex-image.ts';
-import type { RealImage } from '../../src/core/real-image.ts';
+import { radialTrajectory } from '../../sampling/trajectories/radial-trajectory.ts';
 import { nrmse } from '../../src/metrics/nrmse.ts';
 import { griddingReconstruction } from '../../src/nufft/gridding.ts';
 import { PIPE_MENON_KERNEL, pipeMenonWeights } from '../../src/nufft/pipe-menon-weights.ts';
 import { nufftPlanFor } from '../../src/nufft/plan-cache.ts';
 import { radialRampWeights } from '../../src/nufft/radial-ramp-weights.ts';
-import { gridScale, phantomGridKspace, sheppLoganModified } from '../../src/phantoms/index.ts';
+import { real, sheppLoganReferences } from './shepp-logan-references.ts';
 
 /**
  * Gridding reconstruction of Nyquist radial (⌈π/2·64⌉ = 101 spokes) on the modified Shepp–Logan
- * phantom at 64², with the exact analytic k-space at the trajectory points (kspaceAt, cycles per
- * unit = cycles per FOV / 2, times the grid scale √(nx·ny)/4 of DEVELOPERS.md). References:
- * the fully sampled Cartesian image ifft2c(analytic grid k-space), and the same with the k-space
- * corners outside the inscribed disc zeroed (what full radial coverage can reach).
- * Error measure: NRMSE of magnitudes (DEVELOPERS.md). 0.130 is the rasterised-spoke zero-filled
- * figure the gridding must beat.
+ * phantom at 64², with the exact analytic k-space at the trajectory points (kspaceAt, times the
+ * grid scale √(nx·ny)/4 of DEVELOPERS.md). References: the fully sampled Cartesian image, and the
+ * disc-limited one (tests/nufft/shepp-logan-references.ts). Error measure: NRMSE of magnitudes
+ * (DEVELOPERS.md). 0.130 is the rasterised-spoke zero-filled figure the gridding must beat.
  */
 const side = 64;
-const phantom = sheppLoganModified();
-
-function samplesOf(t: RadialTrajectory): Float64Array {
-  const y = phantom.kspaceAt(
-    t.kx.map((k) => k / 2),
-    t.ky.map((k) => k / 2),
-  );
-  const scale = gridScale(side, side);
-  for (let i = 0; i < y.length; i++) y[i] *= scale;
-  return y;
-}
-
-function real(image: ComplexImage): RealImage {
-  return { nx: image.nx, ny: image.ny, data: magnitude(image) };
-}
-
-const gridK = phantomGridKspace(phantom, side, side);
-const reference = real(ifft2c(gridK));
-const discK = { nx: side, ny: side, data: gridK.data.slice() };
-for (let v = 0; v < side; v++) {
-  for (let u = 0; u < side; u++) {
-    if (Math.hypot(u - side / 2, v - side / 2) > side / 2) {
-      discK.data[2 * (v * side + u)] = 0;
-      discK.data[2 * (v * side + u) + 1] = 0;
-    }
-  }
-}
-const discReference = real(ifft2c(discK));
-const inscribed = Uint8Array.from({ length: side * side }, (_, i) =>
-  Math.hypot((i % side) - side / 2, Math.floor(i / side) - side / 2) <= side / 2 ? 1 : 0,
-);
+const { reference, discReference, inscribed, samplesOf } = sheppLoganReferences(side);
 
 describe('gridding of Nyquist radial on the modified Shepp–Logan phantom, 64²', () => {
   const t = radialTrajectory({ side, readoutOversampling: 2 });
