@@ -24,6 +24,7 @@ for (const [title, path, name] of [
   ['metrics', './metrics.bench.ts', 'benchMetrics'],
   ['sampling', './sampling.bench.ts', 'benchSampling'],
   ['encoding', './encoding.bench.ts', 'benchEncoding'],
+  ['nufft', './nufft.bench.ts', 'benchNufft'],
   ['reconstruction', './recon.bench.ts', 'benchRecon'],
   ['wavelets', './wavelet.bench.ts', 'benchWavelet'],
   ['planning', './plan.bench.ts', 'benchPlan'],
