@@ -1,12 +1,15 @@
-import { fft2c, ifft2c } from '../core/centered-fft.ts';
+import { centeredLineTransform, fft2c, ifft2c } from '../core/centered-fft.ts';
 import { type ComplexImage, createComplexImage } from '../core/complex-image.ts';
+import { type FftPlan, fftPlan } from '../core/fft-plan.ts';
 
 /**
  * Block-Hankel lifting of a ny×nx complex k-space with a wy×wx window, without forming the matrix.
  * Row p of H(z) is the window at p = (py, px), p ∈ V = [0, ny−wy]×[0, nx−wx] (windows fully inside),
  * column a = (ay, ax) ∈ W = [0, wy)×[0, wx) holds z[p + a]; column index a = ay·wx + ax.
- * Every operation here costs O(N·(2w−1)²) time and O(N) memory, never a dense (N × w²) matrix.
- * The Gram matrix sums the products of one or two lifted arrays (two for the stacked derivative weighting).
+ * Both products with H are correlations of k-space with itself, so they run on FFTs: the Gram
+ * matrix costs one transform per lifted array plus O(N) and O(w·(nx + ny)·log) work, the
+ * projection one transform back per array plus the direct sums at the border (see below).
+ * Memory O(N); never a dense (N × w²) matrix.
  */
 export class BlockHankel {
   readonly nx: number;
@@ -15,15 +18,30 @@ export class BlockHankel {
   readonly wy: number;
   /** Window size n = wy·wx: the Gram matrix is n×n. */
   readonly size: number;
-  /** Row boundaries 0…wy−1, vy…vy+wy−1 and column boundaries likewise, where rectangle corners fall. */
-  private readonly rowBounds: Int32Array;
-  private readonly colBounds: Int32Array;
-  /** Position of a boundary value in rowBounds / colBounds. */
-  private readonly rowSlot: Int32Array;
-  private readonly colSlot: Int32Array;
-  /** S(rowBound_i, colBound_j) per lag, interleaved complex, and the running column accumulators. */
-  private readonly cornerSums: Float64Array;
-  private readonly columnSums: Float64Array;
+  /** Image-domain transforms ifft2c(z) of the arrays last lifted (shared by gram and projection). */
+  private readonly spectra: [ComplexImage, ComplexImage];
+  private liftedArrays: readonly Float64Array[] = [];
+  /** Σ |spectrum|² over the lifted arrays (real, N). */
+  private readonly power: Float64Array;
+  /** e^(−i2πm/nx) and e^(−i2πm/ny), m = 0…n−1. */
+  private readonly twiddleX: Float64Array;
+  private readonly twiddleY: Float64Array;
+  /** Row-wise DFT of the power at lags dx ∈ (−wx, wx): ny × (2wx−1), then the circular autocorrelation. */
+  private readonly rowLags: Float64Array;
+  private readonly autocorrelation: Float64Array;
+  /** Wrap-band correlations: rows (ay, by, dx) and columns (ax, bx, dy), see gram. */
+  private readonly rowBand: Float64Array;
+  private readonly columnBand: Float64Array;
+  /** DFTs of the 2wy−2 band rows / 2wx−2 band columns of each array, and line scratch. */
+  private readonly rowSpectra: Float64Array;
+  private readonly columnSpectra: Float64Array;
+  private readonly lineX: Float64Array;
+  private readonly lineY: Float64Array;
+  private readonly lineOut: Float64Array;
+  private readonly planX: FftPlan;
+  private readonly planY: FftPlan;
+  /** The (2wy−2)×(2wx−2) wrapped corner block of one array. */
+  private readonly corner: Float64Array;
   /** Window-offset boxes per row / column position (see offsetBoxes). */
   private readonly rowBox: Int32Array;
   private readonly rowBoxes: Int32Array;
@@ -33,7 +51,7 @@ export class BlockHankel {
   private readonly fullBox: { ry: number; rx: number } | null;
   /** Image-domain multiplier of the interior kernel and FFT scratch (see projectAverage). */
   private readonly multiplier: ComplexImage;
-  private readonly scratch: ComplexImage;
+  private readonly multiplierRows: Uint8Array;
   /** Averaging kernels K_box[d], d ∈ [−(wy−1), wy−1]×[−(wx−1), wx−1], one per (row box, column box). */
   private readonly kernels: Float64Array;
 
@@ -45,16 +63,24 @@ export class BlockHankel {
     this.wx = wx;
     this.wy = wy;
     this.size = wx * wy;
-    const vy = ny - wy + 1;
-    const vx = nx - wx + 1;
-    const rowCorners = cornerBounds(wy, vy, ny);
-    const colCorners = cornerBounds(wx, vx, nx);
-    this.rowBounds = rowCorners.bounds;
-    this.rowSlot = rowCorners.slot;
-    this.colBounds = colCorners.bounds;
-    this.colSlot = colCorners.slot;
-    this.cornerSums = new Float64Array(2 * this.rowBounds.length * this.colBounds.length);
-    this.columnSums = new Float64Array(2 * this.colBounds.length);
+    const lx = 2 * wx - 1;
+    const ly = 2 * wy - 1;
+    this.spectra = [createComplexImage(nx, ny), createComplexImage(nx, ny)];
+    this.power = new Float64Array(nx * ny);
+    this.twiddleX = twiddles(nx);
+    this.twiddleY = twiddles(ny);
+    this.rowLags = new Float64Array(2 * ny * lx);
+    this.autocorrelation = new Float64Array(2 * ly * lx);
+    this.rowBand = new Float64Array(2 * wy * wy * lx);
+    this.columnBand = new Float64Array(2 * wx * wx * ly);
+    this.rowSpectra = new Float64Array(2 * 2 * Math.max(0, 2 * wy - 2) * nx);
+    this.columnSpectra = new Float64Array(2 * 2 * Math.max(0, 2 * wx - 2) * ny);
+    this.lineX = new Float64Array(2 * nx);
+    this.lineY = new Float64Array(2 * ny);
+    this.lineOut = new Float64Array(2 * Math.max(nx, ny));
+    this.planX = fftPlan(nx);
+    this.planY = fftPlan(ny);
+    this.corner = new Float64Array(2 * Math.max(0, 2 * wy - 2) * Math.max(0, 2 * wx - 2));
     const rows = offsetBoxes(ny, wy);
     const cols = offsetBoxes(nx, wx);
     this.rowBox = rows.boxOf;
@@ -71,7 +97,7 @@ export class BlockHankel {
     }
     this.fullBox = ry < 0 || rx < 0 ? null : { ry, rx };
     this.multiplier = createComplexImage(nx, ny);
-    this.scratch = createComplexImage(nx, ny);
+    this.multiplierRows = new Uint8Array(ny);
     this.kernels = new Float64Array(
       2 * (2 * wx - 1) * (2 * wy - 1) * (rows.ranges.length / 2) * (cols.ranges.length / 2),
     );
@@ -79,105 +105,238 @@ export class BlockHankel {
 
   /**
    * gram ← Σ_z H(z)ᴴ H(z) over the given arrays: G[a,b] = Σ_{p∈V} conj(z[p+a]) z[p+b].
-   * For each lag d = b − a, every entry with that lag is a rectangle sum over q ∈ a + V of the
-   * product image P_d[q] = conj(z[q]) z[q+d]. The rectangles' corners lie on 2·wy row and 2·wx
-   * column boundaries only, so one pass over P_d keeps row prefix sums at those columns and
-   * accumulates them down the rows: S(r, c) = Σ_{r' < r, c' < c} P_d, read at the boundaries.
+   * Summed over every p of the torus instead of V, the entry depends on d = b − a only: the
+   * circular autocorrelation R[d] = Σ_q conj(z[q]) z[q+d], read off the power |F z|² by a DFT
+   * at the (2wy−1)(2wx−1) lags needed (Wiener–Khinchin). The windows outside V wrap around and
+   * are subtracted: the band rows py ≥ vy (all px) are circular correlations of 2wy−2 k-space
+   * rows at lags dx (one short DFT per row pair), the band columns px ≥ vx (all py) likewise,
+   * and the (wy−1)(wx−1) windows in both bands were subtracted twice, so they are added back:
+   *   G[a,b] = R[b−a] − Rows[ay, by, bx−ax] − Columns[ax, bx, by−ay] + Corner[a, b].
+   * The arrays' transforms are kept for projectLifted.
    */
   gram(gram: Float64Array, arrays: readonly Float64Array[]): void {
-    const { nx, ny, wx, wy, size, rowBounds, colBounds, rowSlot, colSlot, cornerSums, columnSums } = this;
-    const vy = ny - wy + 1;
-    const vx = nx - wx + 1;
-    const nc = colBounds.length;
     if (arrays.length < 1 || arrays.length > 2) throw new RangeError('gram takes one or two arrays');
-    const z0 = arrays[0];
-    const z1 = arrays.length > 1 ? arrays[1] : z0;
-    const weight1 = arrays.length > 1 ? 1 : 0;
-    for (let dy = 0; dy < wy; dy++) {
-      for (let dx = -(wx - 1); dx < wx; dx++) {
-        if (dy === 0 && dx < 0) continue;
-        const c0 = Math.max(0, -dx);
-        const c1 = Math.min(nx, nx - dx);
-        const offset = 2 * (dy * nx + dx);
-        columnSums.fill(0);
-        let nextRow = 0;
-        // Row r contributes to S(r', ·) for r' > r; store S at each row boundary as it is reached.
-        for (let r = 0; r <= ny; r++) {
-          if (nextRow < rowBounds.length && rowBounds[nextRow] === r) {
-            cornerSums.set(columnSums, 2 * nc * nextRow);
-            nextRow++;
-          }
-          if (r === ny || r + dy >= ny) continue;
-          let rowRe = 0;
-          let rowIm = 0;
-          let j = 0;
-          while (j < nc && colBounds[j] <= c0) {
-            j++;
-          }
-          const rowStart = 2 * r * nx;
-          if (weight1 === 0) {
-            for (let c = c0; c < c1; c++) {
-              const i = rowStart + 2 * c;
-              const k = i + offset;
-              const ar = z0[i];
-              const ai = z0[i + 1];
-              const br = z0[k];
-              const bi = z0[k + 1];
-              rowRe += ar * br + ai * bi;
-              rowIm += ar * bi - ai * br;
-              while (j < nc && colBounds[j] === c + 1) {
-                columnSums[2 * j] += rowRe;
-                columnSums[2 * j + 1] += rowIm;
-                j++;
+    this.transformArrays(arrays);
+    this.circularAutocorrelation(arrays.length);
+    this.bandCorrelations(arrays, 'rows');
+    this.bandCorrelations(arrays, 'columns');
+    const { wx, wy, size, autocorrelation, rowBand, columnBand, corner } = this;
+    const lx = 2 * wx - 1;
+    const ly = 2 * wy - 1;
+    const cy = 2 * wy - 2;
+    const cx = 2 * wx - 2;
+    gram.fill(0);
+    // Corner windows, added back: Σ_{t ∈ [0,wy−1)×[0,wx−1)} conj(c[t+a]) c[t+b] over the corner block c.
+    if (cy > 0 && cx > 0) {
+      for (const z of arrays) {
+        this.gatherCorner(z);
+        for (let a = 0; a < size; a++) {
+          const ay = Math.floor(a / wx);
+          const ax = a - ay * wx;
+          for (let b = a; b < size; b++) {
+            const by = Math.floor(b / wx);
+            const bx = b - by * wx;
+            let re = 0;
+            let im = 0;
+            for (let ty = 0; ty < wy - 1; ty++) {
+              let i = 2 * ((ty + ay) * cx + ax);
+              let k = 2 * ((ty + by) * cx + bx);
+              for (let tx = 0; tx < wx - 1; tx++, i += 2, k += 2) {
+                const ar = corner[i];
+                const ai = corner[i + 1];
+                const br = corner[k];
+                const bi = corner[k + 1];
+                re += ar * br + ai * bi;
+                im += ar * bi - ai * br;
               }
             }
+            gram[2 * (a * size + b)] += re;
+            gram[2 * (a * size + b) + 1] += im;
           }
-          for (let c = weight1 === 0 ? c1 : c0; c < c1; c++) {
-            const i = rowStart + 2 * c;
-            const k = i + offset;
-            const ar = z0[i];
-            const ai = z0[i + 1];
-            const br = z0[k];
-            const bi = z0[k + 1];
-            const er = z1[i];
-            const ei = z1[i + 1];
-            const fr = z1[k];
-            const fi = z1[k + 1];
-            rowRe += ar * br + ai * bi + er * fr + ei * fi;
-            rowIm += ar * bi - ai * br + er * fi - ei * fr;
-            while (j < nc && colBounds[j] === c + 1) {
-              columnSums[2 * j] += rowRe;
-              columnSums[2 * j + 1] += rowIm;
-              j++;
+        }
+      }
+    }
+    for (let a = 0; a < size; a++) {
+      const ay = Math.floor(a / wx);
+      const ax = a - ay * wx;
+      for (let b = a; b < size; b++) {
+        const by = Math.floor(b / wx);
+        const bx = b - by * wx;
+        const dy = by - ay;
+        const dx = bx - ax;
+        const r = 2 * ((dy + wy - 1) * lx + dx + wx - 1);
+        const rb = 2 * ((ay * wy + by) * lx + dx + wx - 1);
+        const cb = 2 * ((ax * wx + bx) * ly + dy + wy - 1);
+        const re = gram[2 * (a * size + b)] + autocorrelation[r] - rowBand[rb] - columnBand[cb];
+        const im = gram[2 * (a * size + b) + 1] + autocorrelation[r + 1] - rowBand[rb + 1] - columnBand[cb + 1];
+        gram[2 * (a * size + b)] = re;
+        gram[2 * (a * size + b) + 1] = im;
+        gram[2 * (b * size + a)] = re;
+        gram[2 * (b * size + a) + 1] = -im;
+      }
+    }
+  }
+
+  /** spectra[i] ← ifft2c(arrays[i]); remembers the arrays for projectLifted. */
+  private transformArrays(arrays: readonly Float64Array[]): void {
+    for (let i = 0; i < arrays.length; i++) {
+      this.spectra[i].data.set(arrays[i]);
+      ifft2c(this.spectra[i], this.spectra[i]);
+    }
+    this.liftedArrays = arrays;
+  }
+
+  /**
+   * autocorrelation[dy, dx] = R[d] for |dy| < wy, |dx| < wx from the power P = Σ|ifft2c z|²:
+   * with j the centred index (DC at h = ⌊n/2⌋), R[d] = Σ_j P[j] e^(−i2π(j−h)·d/n). Rows of P
+   * are real, so two go through one complex FFT; the column direction is a direct sum over the
+   * 2wy−1 lags.
+   */
+  private circularAutocorrelation(count: number): void {
+    const { nx, ny, wx, wy, power, twiddleX, twiddleY, rowLags, autocorrelation, lineX, lineOut, planX } =
+      this;
+    const lx = 2 * wx - 1;
+    const hx = Math.floor(nx / 2);
+    const hy = Math.floor(ny / 2);
+    const s0 = this.spectra[0].data;
+    const s1 = this.spectra[1].data;
+    for (let j = 0; j < nx * ny; j++) {
+      let p = s0[2 * j] * s0[2 * j] + s0[2 * j + 1] * s0[2 * j + 1];
+      if (count > 1) p += s1[2 * j] * s1[2 * j] + s1[2 * j + 1] * s1[2 * j + 1];
+      power[j] = p;
+    }
+    for (let row = 0; row < ny; row += 2) {
+      const pair = row + 1 < ny;
+      for (let c = 0; c < nx; c++) {
+        lineX[2 * c] = power[row * nx + c];
+        lineX[2 * c + 1] = pair ? power[(row + 1) * nx + c] : 0;
+      }
+      planX.forward(lineOut, lineX);
+      for (let dx = -(wx - 1); dx < wx; dx++) {
+        const k = (((dx % nx) + nx) % nx) * 2;
+        const km = (((-dx % nx) + nx) % nx) * 2;
+        // Shift to the centred index: × e^(+i2π·hx·dx/nx).
+        const t = 2 * ((((hx * dx) % nx) + nx) % nx);
+        const pr = twiddleX[t];
+        const pi = -twiddleX[t + 1];
+        const ar = (lineOut[k] + lineOut[km]) / 2;
+        const ai = (lineOut[k + 1] - lineOut[km + 1]) / 2;
+        const o = 2 * (row * lx + dx + wx - 1);
+        rowLags[o] = ar * pr - ai * pi;
+        rowLags[o + 1] = ar * pi + ai * pr;
+        if (pair) {
+          const br = (lineOut[k + 1] + lineOut[km + 1]) / 2;
+          const bi = -(lineOut[k] - lineOut[km]) / 2;
+          rowLags[o + 2 * lx] = br * pr - bi * pi;
+          rowLags[o + 2 * lx + 1] = br * pi + bi * pr;
+        }
+      }
+    }
+    for (let dy = -(wy - 1); dy < wy; dy++) {
+      for (let dx = -(wx - 1); dx < wx; dx++) {
+        let re = 0;
+        let im = 0;
+        const step = ((dy % ny) + ny) % ny;
+        let t = (((-hy * dy) % ny) + ny) % ny;
+        for (let row = 0; row < ny; row++) {
+          const qr = rowLags[2 * (row * lx + dx + wx - 1)];
+          const qi = rowLags[2 * (row * lx + dx + wx - 1) + 1];
+          const wr = twiddleY[2 * t];
+          const wi = twiddleY[2 * t + 1];
+          re += qr * wr - qi * wi;
+          im += qr * wi + qi * wr;
+          t += step;
+          if (t >= ny) t -= ny;
+        }
+        autocorrelation[2 * ((dy + wy - 1) * lx + dx + wx - 1)] = re;
+        autocorrelation[2 * ((dy + wy - 1) * lx + dx + wx - 1) + 1] = im;
+      }
+    }
+  }
+
+  /**
+   * Wrap-band sums. Rows: band[ay, by, dx] = Σ_{t<wy−1} C(ρ(t+ay), ρ(t+by))(dx) with
+   * ρ(i) = (vy + i) mod ny the band rows and C(r, s)(dx) = Σ_c conj(z[r,c]) z[s,(c+dx) mod nx]
+   * the circular cross-correlation of two rows: one inverse DFT of Σ_t conj(Z_r)·Z_s per (ay, by).
+   * Columns: the same with rows and columns exchanged. Summed over the arrays.
+   */
+  private bandCorrelations(arrays: readonly Float64Array[], axis: 'rows' | 'columns'): void {
+    const byRows = axis === 'rows';
+    const { nx, ny } = this;
+    const w = byRows ? this.wy : this.wx;
+    const other = byRows ? this.wx : this.wy;
+    const length = byRows ? nx : ny;
+    const lines = byRows ? ny : nx;
+    const start = lines - w + 1;
+    const band = byRows ? this.rowBand : this.columnBand;
+    const spectra = byRows ? this.rowSpectra : this.columnSpectra;
+    const plan = byRows ? this.planX : this.planY;
+    const line = byRows ? this.lineX : this.lineY;
+    const out = this.lineOut;
+    const lags = 2 * other - 1;
+    const count = 2 * w - 2;
+    band.fill(0);
+    if (count === 0) return;
+    for (let k = 0; k < arrays.length; k++) {
+      const z = arrays[k];
+      for (let i = 0; i < count; i++) {
+        const index = (start + i) % lines;
+        for (let c = 0; c < length; c++) {
+          const src = 2 * (byRows ? index * nx + c : c * nx + index);
+          line[2 * c] = z[src];
+          line[2 * c + 1] = z[src + 1];
+        }
+        plan.forward(spectra.subarray(2 * (k * count + i) * length, 2 * (k * count + i + 1) * length), line);
+      }
+    }
+    for (let a = 0; a < w; a++) {
+      for (let b = a; b < w; b++) {
+        // line ← conj(Σ conj(Z_r) Z_s); forward DFT; conj again = inverse DFT of the cross-spectrum.
+        line.fill(0);
+        for (let k = 0; k < arrays.length; k++) {
+          for (let t = 0; t < w - 1; t++) {
+            const r = 2 * (k * count + t + a) * length;
+            const s = 2 * (k * count + t + b) * length;
+            for (let f = 0; f < 2 * length; f += 2) {
+              const rr = spectra[r + f];
+              const ri = spectra[r + f + 1];
+              const sr = spectra[s + f];
+              const si = spectra[s + f + 1];
+              line[f] += rr * sr + ri * si;
+              line[f + 1] -= rr * si - ri * sr;
             }
           }
-          // Boundaries past the last valid column see the whole row sum.
-          for (; j < nc; j++) {
-            columnSums[2 * j] += rowRe;
-            columnSums[2 * j + 1] += rowIm;
-          }
         }
-        for (let ay = 0; ay + dy < wy; ay++) {
-          for (let ax = Math.max(0, -dx); ax < wx && ax + dx < wx; ax++) {
-            // rows ay … ay+vy−1, cols ax … ax+vx−1: corners at boundaries ay, ay+vy and ax, ax+vx.
-            const r0 = rowSlot[ay];
-            const r1 = rowSlot[ay + vy];
-            const q0 = colSlot[ax];
-            const q1 = colSlot[ax + vx];
-            const k11 = 2 * (r1 * nc + q1);
-            const k01 = 2 * (r0 * nc + q1);
-            const k10 = 2 * (r1 * nc + q0);
-            const k00 = 2 * (r0 * nc + q0);
-            const re = cornerSums[k11] - cornerSums[k01] - cornerSums[k10] + cornerSums[k00];
-            const im = cornerSums[k11 + 1] - cornerSums[k01 + 1] - cornerSums[k10 + 1] + cornerSums[k00 + 1];
-            const a = ay * wx + ax;
-            const b = (ay + dy) * wx + ax + dx;
-            gram[2 * (a * size + b)] = re;
-            gram[2 * (a * size + b) + 1] = im;
-            gram[2 * (b * size + a)] = re;
-            gram[2 * (b * size + a) + 1] = -im;
-          }
+        plan.forward(out, line);
+        for (let d = -(other - 1); d < other; d++) {
+          const m = 2 * (((d % length) + length) % length);
+          const re = out[m] / length;
+          const im = -out[m + 1] / length;
+          const o = 2 * ((a * w + b) * lags + d + other - 1);
+          band[o] = re;
+          band[o + 1] = im;
+          // band[b, a, −d] = conj(band[a, b, d]).
+          const oT = 2 * ((b * w + a) * lags - d + other - 1);
+          band[oT] = re;
+          band[oT + 1] = -im;
         }
+      }
+    }
+  }
+
+  /** corner[i, j] = z[(vy + i) mod ny, (vx + j) mod nx] for i < 2wy−2, j < 2wx−2. */
+  private gatherCorner(z: Float64Array): void {
+    const { nx, ny, wx, wy, corner } = this;
+    const cy = 2 * wy - 2;
+    const cx = 2 * wx - 2;
+    const vy = ny - wy + 1;
+    const vx = nx - wx + 1;
+    for (let i = 0; i < cy; i++) {
+      const row = (vy + i) % ny;
+      for (let j = 0; j < cx; j++) {
+        const src = 2 * (row * nx + ((vx + j) % nx));
+        corner[2 * (i * cx + j)] = z[src];
+        corner[2 * (i * cx + j) + 1] = z[src + 1];
       }
     }
   }
@@ -247,34 +406,43 @@ export class BlockHankel {
    * With `z2`/`out2` the same projection is applied to a second array (stacked derivative weighting).
    */
   projectAverage(out: Float64Array, z: Float64Array, out2?: Float64Array, z2?: Float64Array): void {
-    const interior = this.interiorBox();
-    if (interior !== null) {
-      this.convolveInterior(out, z);
-      if (out2 !== undefined && z2 !== undefined) this.convolveInterior(out2, z2);
-    }
-    this.averageBorder(out, z, interior === null);
-    if (out2 !== undefined && z2 !== undefined) this.averageBorder(out2, z2, interior === null);
+    const arrays = out2 !== undefined && z2 !== undefined ? [z, z2] : [z];
+    if (this.fullBox !== null) this.transformArrays(arrays);
+    this.liftedArrays = arrays;
+    this.projectLifted(out, out2);
   }
 
-  /** Index of the full box (all window offsets fit) along rows and columns, or null if none. */
-  private interiorBox(): { ry: number; rx: number } | null {
-    return this.fullBox;
+  /**
+   * projectAverage of the arrays last given to gram (which must be unchanged since), reusing
+   * their transforms: one inverse transform per array. Consumes the stored transforms.
+   */
+  projectLifted(out: Float64Array, out2?: Float64Array): void {
+    const arrays = this.liftedArrays;
+    if (arrays.length === 0) throw new Error('projectLifted needs a preceding gram or projectAverage');
+    const outs = arrays.length > 1 && out2 !== undefined ? [out, out2] : [out];
+    for (let i = 0; i < outs.length; i++) {
+      if (this.fullBox !== null) this.convolveInterior(outs[i], this.spectra[i]);
+      this.averageBorder(outs[i], arrays[i], this.fullBox === null);
+    }
+    this.liftedArrays = [];
   }
 
   /** Image-domain multiplier √N · F_cᴴ(S k̃) of the full-box kernel (after setProjector). */
   private prepareMultiplier(): void {
-    const { nx, ny, wx, wy, kernels, colBoxes, multiplier } = this;
-    const box = this.interiorBox();
+    const { nx, ny, wx, wy, kernels, colBoxes, multiplier, multiplierRows } = this;
+    const box = this.fullBox;
     if (box === null) return;
     const kw = 2 * wx - 1;
     const kernelSize = 2 * kw * (2 * wy - 1);
     const base = (box.ry * (colBoxes.length / 2) + box.rx) * kernelSize;
     const m = multiplier.data;
     m.fill(0);
+    multiplierRows.fill(0);
     const hy = Math.floor(ny / 2);
     const hx = Math.floor(nx / 2);
     for (let dy = -(wy - 1); dy < wy; dy++) {
       const row = (((-dy + hy) % ny) + ny) % ny;
+      multiplierRows[row] = 1;
       for (let dx = -(wx - 1); dx < wx; dx++) {
         const col = (((-dx + hx) % nx) + nx) % nx;
         const k = base + 2 * ((dy + wy - 1) * kw + dx + wx - 1);
@@ -282,17 +450,19 @@ export class BlockHankel {
         m[2 * (row * nx + col) + 1] += kernels[k + 1];
       }
     }
-    ifft2c(multiplier, multiplier);
+    // ifft2c with the row pass pruned to the 2wy−1 rows that hold the kernel (the rest stay 0).
+    for (let row = 0; row < ny; row++) {
+      if (multiplierRows[row]) centeredLineTransform(m, m, row * nx, nx, 1, 1);
+    }
+    for (let col = 0; col < nx; col++) centeredLineTransform(m, m, col, ny, nx, 1);
     const scale = Math.sqrt(nx * ny) / (wx * wy);
     for (let i = 0; i < m.length; i++) m[i] *= scale;
   }
 
-  private convolveInterior(out: Float64Array, z: Float64Array): void {
-    const { scratch, multiplier } = this;
-    const s = scratch.data;
-    const m = multiplier.data;
-    s.set(z);
-    ifft2c(scratch, scratch);
+  /** out ← fft2c(spectrum · multiplier); the spectrum is overwritten. */
+  private convolveInterior(out: Float64Array, spectrum: ComplexImage): void {
+    const s = spectrum.data;
+    const m = this.multiplier.data;
     for (let i = 0; i < s.length; i += 2) {
       const ar = s[i];
       const ai = s[i + 1];
@@ -301,7 +471,7 @@ export class BlockHankel {
       s[i] = ar * br - ai * bi;
       s[i + 1] = ar * bi + ai * br;
     }
-    fft2c(scratch, scratch);
+    fft2c(spectrum, spectrum);
     out.set(s);
   }
 
@@ -349,19 +519,14 @@ export class BlockHankel {
   }
 }
 
-/** Sorted distinct corner boundaries {0…w−1} ∪ {v…v+w−1} of one axis, and value → position. */
-function cornerBounds(w: number, v: number, length: number): { bounds: Int32Array; slot: Int32Array } {
-  const values = new Set<number>();
-  for (let i = 0; i < w; i++) {
-    values.add(i);
-    values.add(v + i);
+/** e^(−i2πm/n) for m = 0…n−1, interleaved. */
+function twiddles(n: number): Float64Array {
+  const t = new Float64Array(2 * n);
+  for (let m = 0; m < n; m++) {
+    t[2 * m] = Math.cos((2 * Math.PI * m) / n);
+    t[2 * m + 1] = -Math.sin((2 * Math.PI * m) / n);
   }
-  const bounds = Int32Array.from([...values].sort((a, b) => a - b));
-  const slot = new Int32Array(length + 1).fill(-1);
-  bounds.forEach((value, i) => {
-    slot[value] = i;
-  });
-  return { bounds, slot };
+  return t;
 }
 
 /**

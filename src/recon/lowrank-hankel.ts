@@ -203,7 +203,7 @@ export function solveLowrankHankel(
     rank = params.rank ?? rankForEnergy(eigen.values, params.energy);
     lift.setProjector(projector, eigen.vectors, rank);
     if (gradientWeighting) {
-      lift.projectAverage(px, zx, py, zy);
+      lift.projectLifted(px, py);
       for (let i = 0; i < n; i++) {
         if (mask[i] || inverseWeight[i] === 0) continue;
         const s = inverseWeight[i];
@@ -211,7 +211,7 @@ export function solveLowrankHankel(
         x[2 * i + 1] = (weightX[i] * px[2 * i + 1] + weightY[i] * py[2 * i + 1]) * s;
       }
     } else {
-      lift.projectAverage(px, x);
+      lift.projectLifted(px);
       for (let i = 0; i < n; i++) {
         if (mask[i]) continue;
         x[2 * i] = px[2 * i];
