@@ -52,6 +52,11 @@ export class BlockHankel {
   /** Image-domain multiplier of the interior kernel and FFT scratch (see projectAverage). */
   private readonly multiplier: ComplexImage;
   private readonly multiplierRows: Uint8Array;
+  /** Border strips: spectra of the k-space lines they read (slot per line), kernel line, sums. */
+  private readonly stripSpectra: Float64Array;
+  private readonly stripSlot: Int32Array;
+  private readonly kernelLine: Float64Array;
+  private readonly stripSums: Float64Array;
   /** Averaging kernels K_box[d], d ∈ [−(wy−1), wy−1]×[−(wx−1), wx−1], one per (row box, column box). */
   private readonly kernels: Float64Array;
 
@@ -98,6 +103,11 @@ export class BlockHankel {
     this.fullBox = ry < 0 || rx < 0 ? null : { ry, rx };
     this.multiplier = createComplexImage(nx, ny);
     this.multiplierRows = new Uint8Array(ny);
+    const stripLines = Math.max(Math.min(ny, 4 * wy - 4) * nx, Math.min(nx, 4 * wx - 4) * ny);
+    this.stripSpectra = new Float64Array(2 * 2 * stripLines);
+    this.stripSlot = new Int32Array(Math.max(nx, ny));
+    this.kernelLine = new Float64Array(2 * Math.max(nx, ny));
+    this.stripSums = new Float64Array(2 * 2 * Math.max(nx, ny));
     this.kernels = new Float64Array(
       2 * (2 * wx - 1) * (2 * wy - 1) * (rows.ranges.length / 2) * (cols.ranges.length / 2),
     );
@@ -420,9 +430,13 @@ export class BlockHankel {
     const arrays = this.liftedArrays;
     if (arrays.length === 0) throw new Error('projectLifted needs a preceding gram or projectAverage');
     const outs = arrays.length > 1 && out2 !== undefined ? [out, out2] : [out];
-    for (let i = 0; i < outs.length; i++) {
-      if (this.fullBox !== null) this.convolveInterior(outs[i], this.spectra[i]);
-      this.averageBorder(outs[i], arrays[i], this.fullBox === null);
+    if (this.fullBox === null) {
+      for (let i = 0; i < outs.length; i++) this.averageBorder(outs[i], arrays[i], 'all');
+    } else {
+      for (let i = 0; i < outs.length; i++) this.convolveInterior(outs[i], this.spectra[i]);
+      this.averageStrips(outs, arrays, 'rows');
+      this.averageStrips(outs, arrays, 'columns');
+      for (let i = 0; i < outs.length; i++) this.averageBorder(outs[i], arrays[i], 'corners');
     }
     this.liftedArrays = [];
   }
@@ -475,8 +489,105 @@ export class BlockHankel {
     out.set(s);
   }
 
-  /** Direct box-kernel sums for the samples within w − 1 of an edge (or every sample if `all`). */
-  private averageBorder(out: Float64Array, z: Float64Array, all: boolean): void {
+  /**
+   * Border strips by FFTs along the strip. A sample q in a border row (qy < wy−1 or qy > ny−wy)
+   * whose column is interior sees all wx column offsets, so its kernel K_box depends on qy only and
+   *   Σ_d K_box[d] z[q + d] = Σ_dy (z[qy+dy, ·] ⊛ κ_dy)[qx],  κ_dy[−dx mod nx] = K_box[dy, dx],
+   * a circular convolution along the row that does not wrap for interior qx: per border row one
+   * product of line spectra per dy and one inverse DFT. Columns likewise ('columns').
+   */
+  private averageStrips(outs: Float64Array[], arrays: readonly Float64Array[], axis: 'rows' | 'columns'): void {
+    const byRows = axis === 'rows';
+    const { nx, ny, wx, wy, kernels, rowBoxes, colBoxes, rowBox, colBox, fullBox } = this;
+    if (fullBox === null) return;
+    const { stripSpectra, stripSlot, kernelLine, stripSums, lineOut } = this;
+    const plan = byRows ? this.planX : this.planY;
+    const line = byRows ? this.lineX : this.lineY;
+    const length = byRows ? nx : ny;
+    const lines = byRows ? ny : nx;
+    const w = byRows ? wy : wx;
+    const wAlong = byRows ? wx : wy;
+    const boxOf = byRows ? rowBox : colBox;
+    const boxes = byRows ? rowBoxes : colBoxes;
+    const kw = 2 * wx - 1;
+    const kernelSize = 2 * kw * (2 * wy - 1);
+    const nCol = colBoxes.length / 2;
+    const count = arrays.length;
+    // Spectra of every line a border line reads: lines [0, 2w−2) and [lines−2w+2, lines).
+    stripSlot.fill(-1);
+    let slots = 0;
+    for (let index = 0; index < lines; index++) {
+      if (index >= 2 * w - 2 && index < lines - 2 * w + 2) continue;
+      stripSlot[index] = slots;
+      for (let k = 0; k < count; k++) {
+        const z = arrays[k];
+        for (let c = 0; c < length; c++) {
+          const src = 2 * (byRows ? index * nx + c : c * nx + index);
+          line[2 * c] = z[src];
+          line[2 * c + 1] = z[src + 1];
+        }
+        const at = 2 * (slots * count + k) * length;
+        plan.forward(stripSpectra.subarray(at, at + 2 * length), line);
+      }
+      slots++;
+    }
+    for (let q = 0; q < lines; q++) {
+      if (q >= w - 1 && q <= lines - w) continue;
+      const box = boxOf[q];
+      const kernelBase =
+        (byRows ? box * nCol + fullBox.rx : fullBox.ry * nCol + box) * kernelSize;
+      const samples = (boxes[2 * box + 1] - boxes[2 * box] + 1) * wAlong;
+      const d0 = Math.max(-(w - 1), -q);
+      const d1 = Math.min(w - 1, lines - 1 - q);
+      stripSums.fill(0, 0, 2 * count * length);
+      for (let d = d0; d <= d1; d++) {
+        kernelLine.fill(0, 0, 2 * length);
+        for (let e = -(wAlong - 1); e < wAlong; e++) {
+          const k = kernelBase + 2 * (byRows ? (d + wy - 1) * kw + e + wx - 1 : (e + wy - 1) * kw + d + wx - 1);
+          const m = 2 * (((-e % length) + length) % length);
+          kernelLine[m] += kernels[k];
+          kernelLine[m + 1] += kernels[k + 1];
+        }
+        plan.forward(lineOut, kernelLine);
+        const slot = stripSlot[q + d];
+        for (let k = 0; k < count; k++) {
+          const at = 2 * (slot * count + k) * length;
+          const sum = 2 * k * length;
+          for (let f = 0; f < 2 * length; f += 2) {
+            const ar = stripSpectra[at + f];
+            const ai = stripSpectra[at + f + 1];
+            const br = lineOut[f];
+            const bi = lineOut[f + 1];
+            stripSums[sum + f] += ar * br - ai * bi;
+            stripSums[sum + f + 1] += ar * bi + ai * br;
+          }
+        }
+      }
+      // Inverse DFT as conj ∘ forward ∘ conj, scaled by 1/length and the window count.
+      const scale = 1 / (length * samples);
+      for (let k = 0; k < count; k++) {
+        const sum = 2 * k * length;
+        for (let f = 0; f < 2 * length; f += 2) {
+          line[f] = stripSums[sum + f];
+          line[f + 1] = -stripSums[sum + f + 1];
+        }
+        plan.forward(lineOut, line);
+        const out = outs[k];
+        for (let c = wAlong - 1; c <= length - wAlong; c++) {
+          const o = 2 * (byRows ? q * nx + c : c * nx + q);
+          out[o] = lineOut[2 * c] * scale;
+          out[o + 1] = -lineOut[2 * c + 1] * scale;
+        }
+      }
+    }
+  }
+
+  /**
+   * Direct box-kernel sums: every sample ('all', when no sample sees every window) or the corner
+   * samples, within w − 1 of two edges ('corners').
+   */
+  private averageBorder(out: Float64Array, z: Float64Array, which: 'all' | 'corners'): void {
+    const all = which === 'all';
     const { nx, ny, wx, wy, kernels, rowBoxes, colBoxes, rowBox, colBox } = this;
     const kw = 2 * wx - 1;
     const kernelSize = 2 * kw * (2 * wy - 1);
@@ -484,11 +595,12 @@ export class BlockHankel {
     for (let qy = 0; qy < ny; qy++) {
       const ry = rowBox[qy];
       const rowCount = rowBoxes[2 * ry + 1] - rowBoxes[2 * ry] + 1;
-      const borderRow = all || qy < wy - 1 || qy > ny - wy;
+      const borderRow = qy < wy - 1 || qy > ny - wy;
+      if (!all && !borderRow) continue;
       const dy0 = Math.max(-(wy - 1), -qy);
       const dy1 = Math.min(wy - 1, ny - 1 - qy);
       for (let qx = 0; qx < nx; qx++) {
-        if (!borderRow && qx >= wx - 1 && qx <= nx - wx) {
+        if (!all && qx >= wx - 1 && qx <= nx - wx) {
           qx = nx - wx;
           continue;
         }
