@@ -154,7 +154,6 @@ export function solveLowrankHankel(
   const gram = new Float64Array(2 * size * size);
   const projector = new Float64Array(2 * size * size);
   const x = new Float64Array(2 * n);
-  const previous = new Float64Array(2 * n);
   const y = kspace.data;
   for (let i = 0; i < n; i++) {
     if (mask[i]) {
@@ -189,7 +188,6 @@ export function solveLowrankHankel(
   let change = Number.POSITIVE_INFINITY;
   for (let it = 0; it < params.iterations; it++) {
     throwIfAborted(signal);
-    previous.set(x);
     if (gradientWeighting) {
       for (let i = 0; i < n; i++) {
         zx[2 * i] = weightX[i] * x[2 * i];
@@ -202,29 +200,38 @@ export function solveLowrankHankel(
     eigen.solve(gram);
     rank = params.rank ?? rankForEnergy(eigen.values, params.energy);
     lift.setProjector(projector, eigen.vectors, rank);
-    if (gradientWeighting) {
-      lift.projectLifted(px, py);
-      for (let i = 0; i < n; i++) {
-        if (mask[i] || inverseWeight[i] === 0) continue;
-        const s = inverseWeight[i];
-        x[2 * i] = (weightX[i] * px[2 * i] + weightY[i] * py[2 * i]) * s;
-        x[2 * i + 1] = (weightX[i] * px[2 * i + 1] + weightY[i] * py[2 * i + 1]) * s;
-      }
-    } else {
-      lift.projectLifted(px);
-      for (let i = 0; i < n; i++) {
-        if (mask[i]) continue;
-        x[2 * i] = px[2 * i];
-        x[2 * i + 1] = px[2 * i + 1];
-      }
-    }
-    // Data consistency is kept by skipping acquired samples above (x = y there throughout).
+    // Data consistency: acquired samples are skipped (x = y there throughout). The relative change
+    // is summed in the same pass, in the same order as over the whole interleaved array.
     let diff = 0;
     let norm = 0;
-    for (let i = 0; i < 2 * n; i++) {
-      const d = x[i] - previous[i];
-      diff += d * d;
-      norm += x[i] * x[i];
+    if (gradientWeighting) lift.projectLifted(px, py);
+    else lift.projectLifted(px);
+    for (let i = 0; i < n; i++) {
+      const re = x[2 * i];
+      const im = x[2 * i + 1];
+      if (mask[i] || (gradientWeighting && inverseWeight[i] === 0)) {
+        norm += re * re;
+        norm += im * im;
+        continue;
+      }
+      let nr: number;
+      let ni: number;
+      if (gradientWeighting) {
+        const s = inverseWeight[i];
+        nr = (weightX[i] * px[2 * i] + weightY[i] * py[2 * i]) * s;
+        ni = (weightX[i] * px[2 * i + 1] + weightY[i] * py[2 * i + 1]) * s;
+      } else {
+        nr = px[2 * i];
+        ni = px[2 * i + 1];
+      }
+      x[2 * i] = nr;
+      x[2 * i + 1] = ni;
+      const dr = nr - re;
+      const di = ni - im;
+      diff += dr * dr;
+      norm += nr * nr;
+      diff += di * di;
+      norm += ni * ni;
     }
     run = it + 1;
     change = norm > 0 ? Math.sqrt(diff / norm) : 0;
