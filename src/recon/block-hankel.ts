@@ -1,5 +1,3 @@
-import { centeredLineTransform, fft2c, ifft2c } from '../core/centered-fft.ts';
-import { type ComplexImage, createComplexImage } from '../core/complex-image.ts';
 import { type FftPlan, fftPlan } from '../core/fft-plan.ts';
 
 /**
@@ -18,13 +16,14 @@ export class BlockHankel {
   readonly wy: number;
   /** Window size n = wy·wx: the Gram matrix is n×n. */
   readonly size: number;
-  /** Image-domain transforms ifft2c(z) of the arrays last lifted (shared by gram and projection). */
-  private readonly spectra: [ComplexImage, ComplexImage];
+  /** Unnormalised 2D DFTs of the arrays last lifted (shared by gram and projection). */
+  private readonly spectra: [Float64Array, Float64Array];
+  /** Row-and-column 2D DFT with the plans and scratch of this size. */
+  private readonly dft: Dft2;
   private liftedArrays: readonly Float64Array[] = [];
   /** Σ |spectrum|² over the lifted arrays (real, N). */
   private readonly power: Float64Array;
-  /** e^(−i2πm/nx) and e^(−i2πm/ny), m = 0…n−1. */
-  private readonly twiddleX: Float64Array;
+  /** e^(−i2πm/ny), m = 0…ny−1. */
   private readonly twiddleY: Float64Array;
   /** Row-wise DFT of the power at lags dx ∈ (−wx, wx): ny × (2wx−1), then the circular autocorrelation. */
   private readonly rowLags: Float64Array;
@@ -49,8 +48,8 @@ export class BlockHankel {
   private readonly colBoxes: Int32Array;
   /** The (row box, column box) of interior samples, or null when no sample sees every window. */
   private readonly fullBox: { ry: number; rx: number } | null;
-  /** Image-domain multiplier of the interior kernel and FFT scratch (see projectAverage). */
-  private readonly multiplier: ComplexImage;
+  /** DFT-domain multiplier of the interior kernel (see prepareMultiplier). */
+  private readonly multiplier: Float64Array;
   private readonly multiplierRows: Uint8Array;
   /** Border strips: spectra of the k-space lines they read (slot per line), kernel line, sums. */
   private readonly stripSpectra: Float64Array;
@@ -70,9 +69,9 @@ export class BlockHankel {
     this.size = wx * wy;
     const lx = 2 * wx - 1;
     const ly = 2 * wy - 1;
-    this.spectra = [createComplexImage(nx, ny), createComplexImage(nx, ny)];
+    this.spectra = [new Float64Array(2 * nx * ny), new Float64Array(2 * nx * ny)];
+    this.dft = new Dft2(nx, ny);
     this.power = new Float64Array(nx * ny);
-    this.twiddleX = twiddles(nx);
     this.twiddleY = twiddles(ny);
     this.rowLags = new Float64Array(2 * ny * lx);
     this.autocorrelation = new Float64Array(2 * ly * lx);
@@ -101,7 +100,7 @@ export class BlockHankel {
       if (this.colBoxes[i] === 0 && this.colBoxes[i + 1] === wx - 1) rx = i / 2;
     }
     this.fullBox = ry < 0 || rx < 0 ? null : { ry, rx };
-    this.multiplier = createComplexImage(nx, ny);
+    this.multiplier = new Float64Array(2 * nx * ny);
     this.multiplierRows = new Uint8Array(ny);
     const stripLines = Math.max(Math.min(ny, 4 * wy - 4) * nx, Math.min(nx, 4 * wx - 4) * ny);
     this.stripSpectra = new Float64Array(2 * 2 * stripLines);
@@ -178,7 +177,8 @@ export class BlockHankel {
         const rb = 2 * ((ay * wy + by) * lx + dx + wx - 1);
         const cb = 2 * ((ax * wx + bx) * ly + dy + wy - 1);
         const re = gram[2 * (a * size + b)] + autocorrelation[r] - rowBand[rb] - columnBand[cb];
-        const im = gram[2 * (a * size + b) + 1] + autocorrelation[r + 1] - rowBand[rb + 1] - columnBand[cb + 1];
+        const im =
+          gram[2 * (a * size + b) + 1] + autocorrelation[r + 1] - rowBand[rb + 1] - columnBand[cb + 1];
         gram[2 * (a * size + b)] = re;
         gram[2 * (a * size + b) + 1] = im;
         gram[2 * (b * size + a)] = re;
@@ -187,34 +187,31 @@ export class BlockHankel {
     }
   }
 
-  /** spectra[i] ← ifft2c(arrays[i]); remembers the arrays for projectLifted. */
+  /** spectra[i] ← DFT(arrays[i]); remembers the arrays for projectLifted. */
   private transformArrays(arrays: readonly Float64Array[]): void {
     for (let i = 0; i < arrays.length; i++) {
-      this.spectra[i].data.set(arrays[i]);
-      ifft2c(this.spectra[i], this.spectra[i]);
+      this.spectra[i].set(arrays[i]);
+      this.dft.forward(this.spectra[i]);
     }
     this.liftedArrays = arrays;
   }
 
   /**
-   * autocorrelation[dy, dx] = R[d] for |dy| < wy, |dx| < wx from the power P = Σ|ifft2c z|²:
-   * with j the centred index (DC at h = ⌊n/2⌋), R[d] = Σ_j P[j] e^(−i2π(j−h)·d/n). Rows of P
-   * are real, so two go through one complex FFT; the column direction is a direct sum over the
-   * 2wy−1 lags.
+   * autocorrelation[dy, dx] = R[d] for |dy| < wy, |dx| < wx from the power P = Σ|DFT z|²
+   * (Wiener–Khinchin): R[d] = (1/N) Σ_k P[k] e^(+i2πk·d/n). Rows of P are real, so two go through
+   * one complex FFT; the column direction is a direct sum over the 2wy−1 lags.
    */
   private circularAutocorrelation(count: number): void {
-    const { nx, ny, wx, wy, power, twiddleX, twiddleY, rowLags, autocorrelation, lineX, lineOut, planX } =
-      this;
+    const { nx, ny, wx, wy, power, twiddleY, rowLags, autocorrelation, lineX, lineOut, planX } = this;
     const lx = 2 * wx - 1;
-    const hx = Math.floor(nx / 2);
-    const hy = Math.floor(ny / 2);
-    const s0 = this.spectra[0].data;
-    const s1 = this.spectra[1].data;
+    const s0 = this.spectra[0];
+    const s1 = this.spectra[1];
     for (let j = 0; j < nx * ny; j++) {
       let p = s0[2 * j] * s0[2 * j] + s0[2 * j + 1] * s0[2 * j + 1];
       if (count > 1) p += s1[2 * j] * s1[2 * j] + s1[2 * j + 1] * s1[2 * j + 1];
       power[j] = p;
     }
+    // rowLags[row, dx] = Σ_kx P[row, kx] e^(+i2π kx·dx/nx) = X[−dx], X the row's forward DFT.
     for (let row = 0; row < ny; row += 2) {
       const pair = row + 1 < ny;
       for (let c = 0; c < nx; c++) {
@@ -223,31 +220,25 @@ export class BlockHankel {
       }
       planX.forward(lineOut, lineX);
       for (let dx = -(wx - 1); dx < wx; dx++) {
-        const k = (((dx % nx) + nx) % nx) * 2;
-        const km = (((-dx % nx) + nx) % nx) * 2;
-        // Shift to the centred index: × e^(+i2π·hx·dx/nx).
-        const t = 2 * ((((hx * dx) % nx) + nx) % nx);
-        const pr = twiddleX[t];
-        const pi = -twiddleX[t + 1];
-        const ar = (lineOut[k] + lineOut[km]) / 2;
-        const ai = (lineOut[k + 1] - lineOut[km + 1]) / 2;
+        const k = (((-dx % nx) + nx) % nx) * 2;
+        const km = (((dx % nx) + nx) % nx) * 2;
         const o = 2 * (row * lx + dx + wx - 1);
-        rowLags[o] = ar * pr - ai * pi;
-        rowLags[o + 1] = ar * pi + ai * pr;
+        rowLags[o] = (lineOut[k] + lineOut[km]) / 2;
+        rowLags[o + 1] = (lineOut[k + 1] - lineOut[km + 1]) / 2;
         if (pair) {
-          const br = (lineOut[k + 1] + lineOut[km + 1]) / 2;
-          const bi = -(lineOut[k] - lineOut[km]) / 2;
-          rowLags[o + 2 * lx] = br * pr - bi * pi;
-          rowLags[o + 2 * lx + 1] = br * pi + bi * pr;
+          rowLags[o + 2 * lx] = (lineOut[k + 1] + lineOut[km + 1]) / 2;
+          rowLags[o + 2 * lx + 1] = -(lineOut[k] - lineOut[km]) / 2;
         }
       }
     }
+    const scale = 1 / (nx * ny);
     for (let dy = -(wy - 1); dy < wy; dy++) {
+      // e^(+i2π ky·dy/ny) = twiddleY[−ky·dy mod ny].
+      const step = ((-dy % ny) + ny) % ny;
       for (let dx = -(wx - 1); dx < wx; dx++) {
         let re = 0;
         let im = 0;
-        const step = ((dy % ny) + ny) % ny;
-        let t = (((-hy * dy) % ny) + ny) % ny;
+        let t = 0;
         for (let row = 0; row < ny; row++) {
           const qr = rowLags[2 * (row * lx + dx + wx - 1)];
           const qi = rowLags[2 * (row * lx + dx + wx - 1) + 1];
@@ -258,8 +249,8 @@ export class BlockHankel {
           t += step;
           if (t >= ny) t -= ny;
         }
-        autocorrelation[2 * ((dy + wy - 1) * lx + dx + wx - 1)] = re;
-        autocorrelation[2 * ((dy + wy - 1) * lx + dx + wx - 1) + 1] = im;
+        autocorrelation[2 * ((dy + wy - 1) * lx + dx + wx - 1)] = re * scale;
+        autocorrelation[2 * ((dy + wy - 1) * lx + dx + wx - 1) + 1] = im * scale;
       }
     }
   }
@@ -441,7 +432,11 @@ export class BlockHankel {
     this.liftedArrays = [];
   }
 
-  /** Image-domain multiplier √N · F_cᴴ(S k̃) of the full-box kernel (after setProjector). */
+  /**
+   * Multiplier M = DFT(κ)/(N·n) of the full-box kernel placed circularly, κ[−d mod N] = K[d]
+   * (after setProjector): then (1/n) Σ_d K[d] z[q + d] = IDFT(DFT(z)·M)[q] wherever q + d does
+   * not wrap, i.e. at every interior sample.
+   */
   private prepareMultiplier(): void {
     const { nx, ny, wx, wy, kernels, colBoxes, multiplier, multiplierRows } = this;
     const box = this.fullBox;
@@ -449,44 +444,39 @@ export class BlockHankel {
     const kw = 2 * wx - 1;
     const kernelSize = 2 * kw * (2 * wy - 1);
     const base = (box.ry * (colBoxes.length / 2) + box.rx) * kernelSize;
-    const m = multiplier.data;
-    m.fill(0);
+    multiplier.fill(0);
     multiplierRows.fill(0);
-    const hy = Math.floor(ny / 2);
-    const hx = Math.floor(nx / 2);
     for (let dy = -(wy - 1); dy < wy; dy++) {
-      const row = (((-dy + hy) % ny) + ny) % ny;
+      const row = ((-dy % ny) + ny) % ny;
       multiplierRows[row] = 1;
       for (let dx = -(wx - 1); dx < wx; dx++) {
-        const col = (((-dx + hx) % nx) + nx) % nx;
+        const col = ((-dx % nx) + nx) % nx;
         const k = base + 2 * ((dy + wy - 1) * kw + dx + wx - 1);
-        m[2 * (row * nx + col)] += kernels[k];
-        m[2 * (row * nx + col) + 1] += kernels[k + 1];
+        multiplier[2 * (row * nx + col)] += kernels[k];
+        multiplier[2 * (row * nx + col) + 1] += kernels[k + 1];
       }
     }
-    // ifft2c with the row pass pruned to the 2wy−1 rows that hold the kernel (the rest stay 0).
-    for (let row = 0; row < ny; row++) {
-      if (multiplierRows[row]) centeredLineTransform(m, m, row * nx, nx, 1, 1);
-    }
-    for (let col = 0; col < nx; col++) centeredLineTransform(m, m, col, ny, nx, 1);
-    const scale = Math.sqrt(nx * ny) / (wx * wy);
-    for (let i = 0; i < m.length; i++) m[i] *= scale;
+    this.dft.forward(multiplier, multiplierRows);
+    const scale = 1 / (nx * ny * wx * wy);
+    for (let i = 0; i < multiplier.length; i++) multiplier[i] *= scale;
   }
 
-  /** out ← fft2c(spectrum · multiplier); the spectrum is overwritten. */
-  private convolveInterior(out: Float64Array, spectrum: ComplexImage): void {
-    const s = spectrum.data;
-    const m = this.multiplier.data;
+  /** out ← IDFT(spectrum · multiplier) = conj(DFT(conj(spectrum · multiplier))); spectrum overwritten. */
+  private convolveInterior(out: Float64Array, s: Float64Array): void {
+    const m = this.multiplier;
     for (let i = 0; i < s.length; i += 2) {
       const ar = s[i];
       const ai = s[i + 1];
       const br = m[i];
       const bi = m[i + 1];
       s[i] = ar * br - ai * bi;
-      s[i + 1] = ar * bi + ai * br;
+      s[i + 1] = -(ar * bi + ai * br);
     }
-    fft2c(spectrum, spectrum);
-    out.set(s);
+    this.dft.forward(s);
+    for (let i = 0; i < s.length; i += 2) {
+      out[i] = s[i];
+      out[i + 1] = -s[i + 1];
+    }
   }
 
   /**
@@ -496,7 +486,11 @@ export class BlockHankel {
    * a circular convolution along the row that does not wrap for interior qx: per border row one
    * product of line spectra per dy and one inverse DFT. Columns likewise ('columns').
    */
-  private averageStrips(outs: Float64Array[], arrays: readonly Float64Array[], axis: 'rows' | 'columns'): void {
+  private averageStrips(
+    outs: Float64Array[],
+    arrays: readonly Float64Array[],
+    axis: 'rows' | 'columns',
+  ): void {
     const byRows = axis === 'rows';
     const { nx, ny, wx, wy, kernels, rowBoxes, colBoxes, rowBox, colBox, fullBox } = this;
     if (fullBox === null) return;
@@ -534,8 +528,7 @@ export class BlockHankel {
     for (let q = 0; q < lines; q++) {
       if (q >= w - 1 && q <= lines - w) continue;
       const box = boxOf[q];
-      const kernelBase =
-        (byRows ? box * nCol + fullBox.rx : fullBox.ry * nCol + box) * kernelSize;
+      const kernelBase = (byRows ? box * nCol + fullBox.rx : fullBox.ry * nCol + box) * kernelSize;
       const samples = (boxes[2 * box + 1] - boxes[2 * box] + 1) * wAlong;
       const d0 = Math.max(-(w - 1), -q);
       const d1 = Math.min(w - 1, lines - 1 - q);
@@ -543,7 +536,8 @@ export class BlockHankel {
       for (let d = d0; d <= d1; d++) {
         kernelLine.fill(0, 0, 2 * length);
         for (let e = -(wAlong - 1); e < wAlong; e++) {
-          const k = kernelBase + 2 * (byRows ? (d + wy - 1) * kw + e + wx - 1 : (e + wy - 1) * kw + d + wx - 1);
+          const k =
+            kernelBase + 2 * (byRows ? (d + wy - 1) * kw + e + wx - 1 : (e + wy - 1) * kw + d + wx - 1);
           const m = 2 * (((-e % length) + length) % length);
           kernelLine[m] += kernels[k];
           kernelLine[m + 1] += kernels[k + 1];
@@ -626,6 +620,61 @@ export class BlockHankel {
         const o = 2 * (qy * nx + qx);
         out[o] = re / count;
         out[o + 1] = im / count;
+      }
+    }
+  }
+}
+
+/**
+ * Unnormalised in-place 2D DFT, X[k] = Σ_n x[n] e^(−i2π(ky·ny'/ny + kx·nx'/nx)), of an interleaved
+ * ny×nx array: rows, then columns four at a time (so each gathered cache line is used whole).
+ * Rows flagged 0 in `rows` are known to be zero and skipped.
+ */
+class Dft2 {
+  private readonly nx: number;
+  private readonly ny: number;
+  private readonly planX: FftPlan;
+  private readonly planY: FftPlan;
+  private readonly rowOut: Float64Array;
+  private readonly columnsIn: Float64Array;
+  private readonly columnOut: Float64Array;
+
+  constructor(nx: number, ny: number) {
+    this.nx = nx;
+    this.ny = ny;
+    this.planX = fftPlan(nx);
+    this.planY = fftPlan(ny);
+    this.rowOut = new Float64Array(2 * nx);
+    this.columnsIn = new Float64Array(2 * ny * 4);
+    this.columnOut = new Float64Array(2 * ny);
+  }
+
+  forward(data: Float64Array, rows?: Uint8Array): void {
+    const { nx, ny, planX, planY, rowOut, columnsIn, columnOut } = this;
+    for (let r = 0; r < ny; r++) {
+      if (rows !== undefined && rows[r] === 0) continue;
+      planX.forward(rowOut, data.subarray(2 * r * nx, 2 * (r + 1) * nx));
+      data.set(rowOut, 2 * r * nx);
+    }
+    for (let c0 = 0; c0 < nx; c0 += 4) {
+      const block = Math.min(4, nx - c0);
+      for (let r = 0; r < ny; r++) {
+        const src = 2 * (r * nx + c0);
+        for (let j = 0; j < block; j++) {
+          columnsIn[2 * (j * ny + r)] = data[src + 2 * j];
+          columnsIn[2 * (j * ny + r) + 1] = data[src + 2 * j + 1];
+        }
+      }
+      for (let j = 0; j < block; j++) {
+        planY.forward(columnOut, columnsIn.subarray(2 * j * ny, 2 * (j + 1) * ny));
+        columnsIn.set(columnOut, 2 * j * ny);
+      }
+      for (let r = 0; r < ny; r++) {
+        const dst = 2 * (r * nx + c0);
+        for (let j = 0; j < block; j++) {
+          data[dst + 2 * j] = columnsIn[2 * (j * ny + r)];
+          data[dst + 2 * j + 1] = columnsIn[2 * (j * ny + r) + 1];
+        }
       }
     }
   }
