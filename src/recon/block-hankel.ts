@@ -190,8 +190,7 @@ export class BlockHankel {
   /** spectra[i] ← DFT(arrays[i]); remembers the arrays for projectLifted. */
   private transformArrays(arrays: readonly Float64Array[]): void {
     for (let i = 0; i < arrays.length; i++) {
-      this.spectra[i].set(arrays[i]);
-      this.dft.forward(this.spectra[i]);
+      this.dft.forward(arrays[i], this.spectra[i]);
     }
     this.liftedArrays = arrays;
   }
@@ -456,27 +455,14 @@ export class BlockHankel {
         multiplier[2 * (row * nx + col) + 1] += kernels[k + 1];
       }
     }
-    this.dft.forward(multiplier, multiplierRows);
+    this.dft.forward(multiplier, multiplier, { rows: multiplierRows });
     const scale = 1 / (nx * ny * wx * wy);
     for (let i = 0; i < multiplier.length; i++) multiplier[i] *= scale;
   }
 
-  /** out ← IDFT(spectrum · multiplier) = conj(DFT(conj(spectrum · multiplier))); spectrum overwritten. */
-  private convolveInterior(out: Float64Array, s: Float64Array): void {
-    const m = this.multiplier;
-    for (let i = 0; i < s.length; i += 2) {
-      const ar = s[i];
-      const ai = s[i + 1];
-      const br = m[i];
-      const bi = m[i + 1];
-      s[i] = ar * br - ai * bi;
-      s[i + 1] = -(ar * bi + ai * br);
-    }
-    this.dft.forward(s);
-    for (let i = 0; i < s.length; i += 2) {
-      out[i] = s[i];
-      out[i + 1] = -s[i + 1];
-    }
+  /** out ← IDFT(spectrum · multiplier) = conj(DFT(conj(spectrum · multiplier))). */
+  private convolveInterior(out: Float64Array, spectrum: Float64Array): void {
+    this.dft.forward(spectrum, out, { multiplyConj: this.multiplier, conjugateOutput: true });
   }
 
   /**
@@ -626,58 +612,94 @@ export class BlockHankel {
 }
 
 /**
- * Unnormalised in-place 2D DFT, X[k] = Σ_n x[n] e^(−i2π(ky·ny'/ny + kx·nx'/nx)), of an interleaved
- * ny×nx array: rows, then columns four at a time (so each gathered cache line is used whole).
- * Rows flagged 0 in `rows` are known to be zero and skipped.
+ * Unnormalised 2D DFT, X[k] = Σ_m x[m] e^(−i2π(ky·my/ny + kx·mx/nx)), of interleaved ny×nx arrays:
+ * rows into a scratch array, then columns four at a time (each gathered cache line used whole)
+ * into the target. Options fold the pointwise steps of a convolution into the passes: the input
+ * rows can be taken as conj(source · multiplier), the output conjugated; rows flagged 0 in `rows`
+ * are known to be zero and skipped. Source and target may be the same array.
  */
 class Dft2 {
   private readonly nx: number;
   private readonly ny: number;
   private readonly planX: FftPlan;
   private readonly planY: FftPlan;
-  private readonly rowOut: Float64Array;
-  private readonly columnsIn: Float64Array;
-  private readonly columnOut: Float64Array;
+  private readonly scratch: Float64Array;
+  private readonly scratchRows: Float64Array[];
+  private readonly rowIn: Float64Array;
+  private readonly columnsIn: Float64Array[];
+  private readonly columnsOut: Float64Array[];
+  /** Row views of the arrays transformed so far (a handful of fixed buffers). */
+  private readonly views = new Map<Float64Array, Float64Array[]>();
 
   constructor(nx: number, ny: number) {
     this.nx = nx;
     this.ny = ny;
     this.planX = fftPlan(nx);
     this.planY = fftPlan(ny);
-    this.rowOut = new Float64Array(2 * nx);
-    this.columnsIn = new Float64Array(2 * ny * 4);
-    this.columnOut = new Float64Array(2 * ny);
+    this.scratch = new Float64Array(2 * nx * ny);
+    this.scratchRows = rowViews(this.scratch, nx, ny);
+    this.rowIn = new Float64Array(2 * nx);
+    this.columnsIn = [0, 1, 2, 3].map(() => new Float64Array(2 * ny));
+    this.columnsOut = [0, 1, 2, 3].map(() => new Float64Array(2 * ny));
   }
 
-  forward(data: Float64Array, rows?: Uint8Array): void {
-    const { nx, ny, planX, planY, rowOut, columnsIn, columnOut } = this;
-    for (let r = 0; r < ny; r++) {
-      if (rows !== undefined && rows[r] === 0) continue;
-      planX.forward(rowOut, data.subarray(2 * r * nx, 2 * (r + 1) * nx));
-      data.set(rowOut, 2 * r * nx);
+  forward(
+    source: Float64Array,
+    target: Float64Array,
+    options: { rows?: Uint8Array; multiplyConj?: Float64Array; conjugateOutput?: boolean } = {},
+  ): void {
+    const { nx, ny, planX, planY, scratch, scratchRows, rowIn, columnsIn, columnsOut } = this;
+    const { rows, multiplyConj: m, conjugateOutput } = options;
+    let sourceRows = this.views.get(source);
+    if (sourceRows === undefined) {
+      sourceRows = rowViews(source, nx, ny);
+      this.views.set(source, sourceRows);
     }
+    for (let r = 0; r < ny; r++) {
+      if (rows !== undefined && rows[r] === 0) {
+        scratch.fill(0, 2 * r * nx, 2 * (r + 1) * nx);
+        continue;
+      }
+      if (m === undefined) {
+        planX.forward(scratchRows[r], sourceRows[r]);
+        continue;
+      }
+      for (let c = 0, i = 2 * r * nx; c < nx; c++, i += 2) {
+        const ar = source[i];
+        const ai = source[i + 1];
+        const br = m[i];
+        const bi = m[i + 1];
+        rowIn[2 * c] = ar * br - ai * bi;
+        rowIn[2 * c + 1] = -(ar * bi + ai * br);
+      }
+      planX.forward(scratchRows[r], rowIn);
+    }
+    const sign = conjugateOutput ? -1 : 1;
     for (let c0 = 0; c0 < nx; c0 += 4) {
       const block = Math.min(4, nx - c0);
       for (let r = 0; r < ny; r++) {
         const src = 2 * (r * nx + c0);
         for (let j = 0; j < block; j++) {
-          columnsIn[2 * (j * ny + r)] = data[src + 2 * j];
-          columnsIn[2 * (j * ny + r) + 1] = data[src + 2 * j + 1];
+          columnsIn[j][2 * r] = scratch[src + 2 * j];
+          columnsIn[j][2 * r + 1] = scratch[src + 2 * j + 1];
         }
       }
-      for (let j = 0; j < block; j++) {
-        planY.forward(columnOut, columnsIn.subarray(2 * j * ny, 2 * (j + 1) * ny));
-        columnsIn.set(columnOut, 2 * j * ny);
-      }
+      for (let j = 0; j < block; j++) planY.forward(columnsOut[j], columnsIn[j]);
       for (let r = 0; r < ny; r++) {
         const dst = 2 * (r * nx + c0);
         for (let j = 0; j < block; j++) {
-          data[dst + 2 * j] = columnsIn[2 * (j * ny + r)];
-          data[dst + 2 * j + 1] = columnsIn[2 * (j * ny + r) + 1];
+          target[dst + 2 * j] = columnsOut[j][2 * r];
+          target[dst + 2 * j + 1] = sign * columnsOut[j][2 * r + 1];
         }
       }
     }
   }
+}
+
+function rowViews(data: Float64Array, nx: number, ny: number): Float64Array[] {
+  const views: Float64Array[] = [];
+  for (let r = 0; r < ny; r++) views.push(data.subarray(2 * r * nx, 2 * (r + 1) * nx));
+  return views;
 }
 
 /** e^(−i2πm/n) for m = 0…n−1, interleaved. */

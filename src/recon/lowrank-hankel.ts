@@ -183,19 +183,20 @@ export function solveLowrankHankel(
   const py = gradientWeighting ? new Float64Array(2 * n) : px;
   const lifted = gradientWeighting ? [zx, zy] : [x];
 
+  // The weighted arrays follow x: set here, then updated with x sample by sample below.
+  if (gradientWeighting) {
+    for (let i = 0; i < n; i++) {
+      zx[2 * i] = weightX[i] * x[2 * i];
+      zx[2 * i + 1] = weightX[i] * x[2 * i + 1];
+      zy[2 * i] = weightY[i] * x[2 * i];
+      zy[2 * i + 1] = weightY[i] * x[2 * i + 1];
+    }
+  }
   let run = 0;
   let rank = params.rank ?? size;
   let change = Number.POSITIVE_INFINITY;
   for (let it = 0; it < params.iterations; it++) {
     throwIfAborted(signal);
-    if (gradientWeighting) {
-      for (let i = 0; i < n; i++) {
-        zx[2 * i] = weightX[i] * x[2 * i];
-        zx[2 * i + 1] = weightX[i] * x[2 * i + 1];
-        zy[2 * i] = weightY[i] * x[2 * i];
-        zy[2 * i + 1] = weightY[i] * x[2 * i + 1];
-      }
-    }
     lift.gram(gram, lifted);
     eigen.solve(gram);
     rank = params.rank ?? rankForEnergy(eigen.values, params.energy);
@@ -220,6 +221,10 @@ export function solveLowrankHankel(
         const s = inverseWeight[i];
         nr = (weightX[i] * px[2 * i] + weightY[i] * py[2 * i]) * s;
         ni = (weightX[i] * px[2 * i + 1] + weightY[i] * py[2 * i + 1]) * s;
+        zx[2 * i] = weightX[i] * nr;
+        zx[2 * i + 1] = weightX[i] * ni;
+        zy[2 * i] = weightY[i] * nr;
+        zy[2 * i + 1] = weightY[i] * ni;
       } else {
         nr = px[2 * i];
         ni = px[2 * i + 1];
