@@ -48,7 +48,8 @@ export class BlockHankel {
   private readonly colBoxes: Int32Array;
   /** The (row box, column box) of interior samples, or null when no sample sees every window. */
   private readonly fullBox: { ry: number; rx: number } | null;
-  /** DFT-domain multiplier of the interior kernel (see prepareMultiplier). */
+  /** The interior kernel placed circularly (complex) and its DFT-domain multiplier (real). */
+  private readonly kernelImage: Float64Array;
   private readonly multiplier: Float64Array;
   private readonly multiplierRows: Uint8Array;
   /** Border strips: spectra of the k-space lines they read (slot per line), kernel line, sums. */
@@ -100,7 +101,8 @@ export class BlockHankel {
       if (this.colBoxes[i] === 0 && this.colBoxes[i + 1] === wx - 1) rx = i / 2;
     }
     this.fullBox = ry < 0 || rx < 0 ? null : { ry, rx };
-    this.multiplier = new Float64Array(2 * nx * ny);
+    this.kernelImage = new Float64Array(2 * nx * ny);
+    this.multiplier = new Float64Array(nx * ny);
     this.multiplierRows = new Uint8Array(ny);
     const stripLines = Math.max(Math.min(ny, 4 * wy - 4) * nx, Math.min(nx, 4 * wx - 4) * ny);
     this.stripSpectra = new Float64Array(2 * 2 * stripLines);
@@ -434,28 +436,29 @@ export class BlockHankel {
   /**
    * Multiplier M = DFT(κ)/(N·n) of the full-box kernel placed circularly, κ[−d mod N] = K[d]
    * (after setProjector): then (1/n) Σ_d K[d] z[q + d] = IDFT(DFT(z)·M)[q] wherever q + d does
-   * not wrap, i.e. at every interior sample.
+   * not wrap, i.e. at every interior sample. Π is Hermitian, so K[−d] = conj K[d] (substitute
+   * b → b − d in K[d] = Σ_b Π[b+d, b]) and M is real: two columns share one complex FFT.
    */
   private prepareMultiplier(): void {
-    const { nx, ny, wx, wy, kernels, colBoxes, multiplier, multiplierRows } = this;
+    const { nx, ny, wx, wy, kernels, colBoxes, kernelImage, multiplier, multiplierRows } = this;
     const box = this.fullBox;
     if (box === null) return;
     const kw = 2 * wx - 1;
     const kernelSize = 2 * kw * (2 * wy - 1);
     const base = (box.ry * (colBoxes.length / 2) + box.rx) * kernelSize;
-    multiplier.fill(0);
     multiplierRows.fill(0);
     for (let dy = -(wy - 1); dy < wy; dy++) {
       const row = ((-dy % ny) + ny) % ny;
+      if (multiplierRows[row] === 0) kernelImage.fill(0, 2 * row * nx, 2 * (row + 1) * nx);
       multiplierRows[row] = 1;
       for (let dx = -(wx - 1); dx < wx; dx++) {
         const col = ((-dx % nx) + nx) % nx;
         const k = base + 2 * ((dy + wy - 1) * kw + dx + wx - 1);
-        multiplier[2 * (row * nx + col)] += kernels[k];
-        multiplier[2 * (row * nx + col) + 1] += kernels[k + 1];
+        kernelImage[2 * (row * nx + col)] += kernels[k];
+        kernelImage[2 * (row * nx + col) + 1] += kernels[k + 1];
       }
     }
-    this.dft.forward(multiplier, multiplier, { rows: multiplierRows });
+    this.dft.forwardToReal(kernelImage, multiplier, multiplierRows);
     const scale = 1 / (nx * ny * wx * wy);
     for (let i = 0; i < multiplier.length; i++) multiplier[i] *= scale;
   }
@@ -615,8 +618,8 @@ export class BlockHankel {
  * Unnormalised 2D DFT, X[k] = Σ_m x[m] e^(−i2π(ky·my/ny + kx·mx/nx)), of interleaved ny×nx arrays:
  * rows into a scratch array, then columns four at a time (each gathered cache line used whole)
  * into the target. Options fold the pointwise steps of a convolution into the passes: the input
- * rows can be taken as conj(source · multiplier), the output conjugated; rows flagged 0 in `rows`
- * are known to be zero and skipped. Source and target may be the same array.
+ * rows can be taken as conj(source · m) for a real m, the output conjugated; rows flagged 0 in
+ * `rows` are known to be zero and skipped. Source and target may be the same array.
  */
 class Dft2 {
   private readonly nx: number;
@@ -664,13 +667,9 @@ class Dft2 {
         planX.forward(scratchRows[r], sourceRows[r]);
         continue;
       }
-      for (let c = 0, i = 2 * r * nx; c < nx; c++, i += 2) {
-        const ar = source[i];
-        const ai = source[i + 1];
-        const br = m[i];
-        const bi = m[i + 1];
-        rowIn[2 * c] = ar * br - ai * bi;
-        rowIn[2 * c + 1] = -(ar * bi + ai * br);
+      for (let c = 0, i = r * nx; c < nx; c++, i++) {
+        rowIn[2 * c] = source[2 * i] * m[i];
+        rowIn[2 * c + 1] = -source[2 * i + 1] * m[i];
       }
       planX.forward(scratchRows[r], rowIn);
     }
@@ -691,6 +690,38 @@ class Dft2 {
           target[dst + 2 * j] = columnsOut[j][2 * r];
           target[dst + 2 * j + 1] = sign * columnsOut[j][2 * r + 1];
         }
+      }
+    }
+  }
+  /**
+   * target (real, ny×nx) ← DFT(source) for a source whose DFT is known to be real (Hermitian
+   * symmetric about the origin): columns c and c + 1 go through one complex FFT as col_c + i·col_{c+1},
+   * whose real and imaginary parts are then the two real transforms. The source is overwritten.
+   */
+  forwardToReal(source: Float64Array, target: Float64Array, rows: Uint8Array): void {
+    const { nx, ny, planX, planY, scratch, scratchRows, columnsIn, columnsOut } = this;
+    let sourceRows = this.views.get(source);
+    if (sourceRows === undefined) {
+      sourceRows = rowViews(source, nx, ny);
+      this.views.set(source, sourceRows);
+    }
+    for (let r = 0; r < ny; r++) {
+      if (rows[r] === 0) scratch.fill(0, 2 * r * nx, 2 * (r + 1) * nx);
+      else planX.forward(scratchRows[r], sourceRows[r]);
+    }
+    const input = columnsIn[0];
+    const output = columnsOut[0];
+    for (let c = 0; c < nx; c += 2) {
+      const pair = c + 1 < nx;
+      for (let r = 0; r < ny; r++) {
+        const i = 2 * (r * nx + c);
+        input[2 * r] = pair ? scratch[i] - scratch[i + 3] : scratch[i];
+        input[2 * r + 1] = pair ? scratch[i + 1] + scratch[i + 2] : scratch[i + 1];
+      }
+      planY.forward(output, input);
+      for (let r = 0; r < ny; r++) {
+        target[r * nx + c] = output[2 * r];
+        if (pair) target[r * nx + c + 1] = output[2 * r + 1];
       }
     }
   }
