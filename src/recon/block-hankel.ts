@@ -57,6 +57,8 @@ export class BlockHankel {
   private readonly stripSlot: Int32Array;
   private readonly kernelLine: Float64Array;
   private readonly stripSums: Float64Array;
+  /** Prefix sums over window rows of the per-row kernels (setProjector scratch). */
+  private readonly rowPrefix: Float64Array;
   /** Averaging kernels K_box[d], d ∈ [−(wy−1), wy−1]×[−(wx−1), wx−1], one per (row box, column box). */
   private readonly kernels: Float64Array;
 
@@ -109,6 +111,7 @@ export class BlockHankel {
     this.stripSlot = new Int32Array(Math.max(nx, ny));
     this.kernelLine = new Float64Array(2 * Math.max(nx, ny));
     this.stripSums = new Float64Array(2 * 2 * Math.max(nx, ny));
+    this.rowPrefix = new Float64Array(2 * (2 * wx - 1) * (2 * wy - 1) * (wy + 1));
     this.kernels = new Float64Array(
       2 * (2 * wx - 1) * (2 * wy - 1) * (rows.ranges.length / 2) * (cols.ranges.length / 2),
     );
@@ -373,26 +376,34 @@ export class BlockHankel {
         projector[2 * (b * n + a) + 1] = -im;
       }
     }
-    kernels.fill(0);
+    // Per column box: the kernel of each window row by (prefix-summed over by), then every row
+    // box [b0, b1] as a difference of two prefix sums.
     const kw = 2 * wx - 1;
     const kernelSize = 2 * kw * (2 * wy - 1);
     const nCol = colBoxes.length / 2;
-    for (let ry = 0; ry < rowBoxes.length / 2; ry++) {
-      for (let rx = 0; rx < nCol; rx++) {
-        const base = (ry * nCol + rx) * kernelSize;
-        for (let by = rowBoxes[2 * ry]; by <= rowBoxes[2 * ry + 1]; by++) {
-          for (let bx = colBoxes[2 * rx]; bx <= colBoxes[2 * rx + 1]; bx++) {
-            const b = by * wx + bx;
-            for (let ay = 0; ay < wy; ay++) {
-              for (let ax = 0; ax < wx; ax++) {
-                const a = ay * wx + ax;
-                const k = base + 2 * ((ay - by + wy - 1) * kw + (ax - bx + wx - 1));
-                kernels[k] += projector[2 * (a * n + b)];
-                kernels[k + 1] += projector[2 * (a * n + b) + 1];
-              }
+    const prefix = this.rowPrefix;
+    for (let rx = 0; rx < nCol; rx++) {
+      prefix.fill(0);
+      for (let by = 0; by < wy; by++) {
+        const slot = (by + 1) * kernelSize;
+        for (let bx = colBoxes[2 * rx]; bx <= colBoxes[2 * rx + 1]; bx++) {
+          const b = by * wx + bx;
+          for (let ay = 0; ay < wy; ay++) {
+            for (let ax = 0; ax < wx; ax++) {
+              const a = ay * wx + ax;
+              const k = slot + 2 * ((ay - by + wy - 1) * kw + (ax - bx + wx - 1));
+              prefix[k] += projector[2 * (a * n + b)];
+              prefix[k + 1] += projector[2 * (a * n + b) + 1];
             }
           }
         }
+        for (let i = 0; i < kernelSize; i++) prefix[slot + i] += prefix[slot - kernelSize + i];
+      }
+      for (let ry = 0; ry < rowBoxes.length / 2; ry++) {
+        const base = (ry * nCol + rx) * kernelSize;
+        const high = (rowBoxes[2 * ry + 1] + 1) * kernelSize;
+        const low = rowBoxes[2 * ry] * kernelSize;
+        for (let i = 0; i < kernelSize; i++) kernels[base + i] = prefix[high + i] - prefix[low + i];
       }
     }
     this.prepareMultiplier();
