@@ -5,8 +5,10 @@ import { type FftPlan, fftPlan } from '../core/fft-plan.ts';
  * Row p of H(z) is the window at p = (py, px), p ∈ V = [0, ny−wy]×[0, nx−wx] (windows fully inside),
  * column a = (ay, ax) ∈ W = [0, wy)×[0, wx) holds z[p + a]; column index a = ay·wx + ax.
  * Both products with H are correlations of k-space with itself, so they run on FFTs: the Gram
- * matrix costs one transform per lifted array plus O(N) and O(w·(nx + ny)·log) work, the
- * projection one transform back per array plus the direct sums at the border (see below).
+ * matrix costs one 2D DFT per lifted array plus O(N) and O(w·(nx + ny)) line-DFT work (gram), the
+ * projection half a DFT for the kernel, one DFT back per array, line DFTs along the border strips
+ * and direct sums at the corners (projectAverage). Both were checked against the patch-loop
+ * definitions (tests/recon/block-hankel.test.ts).
  * Memory O(N); never a dense (N × w²) matrix.
  */
 export class BlockHankel {
