@@ -50,10 +50,11 @@ export class BlockHankel {
   private readonly colBoxes: Int32Array;
   /** The (row box, column box) of interior samples, or null when no sample sees every window. */
   private readonly fullBox: { ry: number; rx: number } | null;
-  /** The interior kernel placed circularly (complex) and its DFT-domain multiplier (real). */
+  /** Rows of the interior kernel placed circularly (complex; slot per grid row, −1 for zero rows)
+   * and its DFT-domain multiplier (real). */
   private readonly kernelImage: Float64Array;
   private readonly multiplier: Float64Array;
-  private readonly multiplierRows: Uint8Array;
+  private readonly kernelRowSlot: Int32Array;
   /** Border strips: spectra of the k-space lines they read (slot per line), kernel line, sums. */
   private readonly stripSpectra: Float64Array;
   private readonly stripSlot: Int32Array;
@@ -105,9 +106,9 @@ export class BlockHankel {
       if (this.colBoxes[i] === 0 && this.colBoxes[i + 1] === wx - 1) rx = i / 2;
     }
     this.fullBox = ry < 0 || rx < 0 ? null : { ry, rx };
-    this.kernelImage = new Float64Array(2 * nx * ny);
+    this.kernelImage = new Float64Array(2 * Math.min(ny, 2 * wy - 1) * nx);
     this.multiplier = new Float64Array(nx * ny);
-    this.multiplierRows = new Uint8Array(ny);
+    this.kernelRowSlot = new Int32Array(ny);
     const stripLines = Math.max(Math.min(ny, 4 * wy - 4) * nx, Math.min(nx, 4 * wx - 4) * ny);
     this.stripSpectra = new Float64Array(2 * 2 * stripLines);
     this.stripSlot = new Int32Array(Math.max(nx, ny));
@@ -453,25 +454,27 @@ export class BlockHankel {
    * b → b − d in K[d] = Σ_b Π[b+d, b]) and M is real: two columns share one complex FFT.
    */
   private prepareMultiplier(): void {
-    const { nx, ny, wx, wy, kernels, colBoxes, kernelImage, multiplier, multiplierRows } = this;
+    const { nx, ny, wx, wy, kernels, colBoxes, kernelImage, multiplier, kernelRowSlot } = this;
     const box = this.fullBox;
     if (box === null) return;
     const kw = 2 * wx - 1;
     const kernelSize = 2 * kw * (2 * wy - 1);
     const base = (box.ry * (colBoxes.length / 2) + box.rx) * kernelSize;
-    multiplierRows.fill(0);
+    kernelRowSlot.fill(-1);
+    kernelImage.fill(0);
+    let slots = 0;
     for (let dy = -(wy - 1); dy < wy; dy++) {
       const row = ((-dy % ny) + ny) % ny;
-      if (multiplierRows[row] === 0) kernelImage.fill(0, 2 * row * nx, 2 * (row + 1) * nx);
-      multiplierRows[row] = 1;
+      if (kernelRowSlot[row] < 0) kernelRowSlot[row] = slots++;
+      const slot = kernelRowSlot[row];
       for (let dx = -(wx - 1); dx < wx; dx++) {
         const col = ((-dx % nx) + nx) % nx;
         const k = base + 2 * ((dy + wy - 1) * kw + dx + wx - 1);
-        kernelImage[2 * (row * nx + col)] += kernels[k];
-        kernelImage[2 * (row * nx + col) + 1] += kernels[k + 1];
+        kernelImage[2 * (slot * nx + col)] += kernels[k];
+        kernelImage[2 * (slot * nx + col) + 1] += kernels[k + 1];
       }
     }
-    this.dft.forwardToReal(kernelImage, multiplier, multiplierRows);
+    this.dft.forwardToReal(kernelImage, kernelRowSlot, multiplier);
     const scale = 1 / (nx * ny * wx * wy);
     for (let i = 0; i < multiplier.length; i++) multiplier[i] *= scale;
   }
@@ -631,8 +634,8 @@ export class BlockHankel {
  * Unnormalised 2D DFT, X[k] = Σ_m x[m] e^(−i2π(ky·my/ny + kx·mx/nx)), of interleaved ny×nx arrays:
  * rows into a scratch array, then columns (gathered into a plain line buffer, which fft.js runs
  * faster on than on views) into the target. Options fold the pointwise steps of a convolution into the passes: the input
- * rows can be taken as conj(source · m) for a real m, the output conjugated; rows flagged 0 in
- * `rows` are known to be zero and skipped. Source and target may be the same array.
+ * rows can be taken as conj(source · m) for a real m, the output conjugated. Source and target
+ * may be the same array.
  */
 class Dft2 {
   private readonly nx: number;
@@ -662,20 +665,16 @@ class Dft2 {
   forward(
     source: Float64Array,
     target: Float64Array,
-    options: { rows?: Uint8Array; multiplyConj?: Float64Array; conjugateOutput?: boolean } = {},
+    options: { multiplyConj?: Float64Array; conjugateOutput?: boolean } = {},
   ): void {
     const { nx, ny, planX, planY, scratch, scratchRows, rowIn, columnIn, columnOut } = this;
-    const { rows, multiplyConj: m, conjugateOutput } = options;
+    const { multiplyConj: m, conjugateOutput } = options;
     let sourceRows = this.views.get(source);
     if (sourceRows === undefined) {
       sourceRows = rowViews(source, nx, ny);
       this.views.set(source, sourceRows);
     }
     for (let r = 0; r < ny; r++) {
-      if (rows !== undefined && rows[r] === 0) {
-        scratch.fill(0, 2 * r * nx, 2 * (r + 1) * nx);
-        continue;
-      }
       if (m === undefined) {
         planX.forward(scratchRows[r], sourceRows[r]);
         continue;
@@ -701,20 +700,21 @@ class Dft2 {
   }
 
   /**
-   * target (real, ny×nx) ← DFT(source) for a source whose DFT is known to be real (Hermitian
-   * symmetric about the origin): columns c and c + 1 go through one complex FFT as col_c + i·col_{c+1},
-   * whose real and imaginary parts are then the two real transforms. The source is overwritten.
+   * target (real, ny×nx) ← DFT(x) for an x whose DFT is known to be real (Hermitian symmetric
+   * about the origin) and whose non-zero rows are given compactly: grid row r is rows[slotOfRow[r]]
+   * (zero where the slot is −1). Columns c and c + 1 go through one complex FFT as
+   * col_c + i·col_{c+1}, whose real and imaginary parts are then the two real transforms.
    */
-  forwardToReal(source: Float64Array, target: Float64Array, rows: Uint8Array): void {
+  forwardToReal(rows: Float64Array, slotOfRow: Int32Array, target: Float64Array): void {
     const { nx, ny, planX, planY, scratch, scratchRows } = this;
-    let sourceRows = this.views.get(source);
+    let sourceRows = this.views.get(rows);
     if (sourceRows === undefined) {
-      sourceRows = rowViews(source, nx, ny);
-      this.views.set(source, sourceRows);
+      sourceRows = rowViews(rows, nx, rows.length / (2 * nx));
+      this.views.set(rows, sourceRows);
     }
     for (let r = 0; r < ny; r++) {
-      if (rows[r] === 0) scratch.fill(0, 2 * r * nx, 2 * (r + 1) * nx);
-      else planX.forward(scratchRows[r], sourceRows[r]);
+      if (slotOfRow[r] < 0) scratch.fill(0, 2 * r * nx, 2 * (r + 1) * nx);
+      else planX.forward(scratchRows[r], sourceRows[slotOfRow[r]]);
     }
     const input = this.columnIn;
     const output = this.columnOut;
