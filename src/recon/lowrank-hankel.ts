@@ -126,7 +126,7 @@ export function rankForEnergy(values: Float64Array, energy: number): number {
  * per lifted array (shared by the Gram matrix and the projection, see BlockHankel), O(N) and
  * O((nx + ny)·w) line DFTs for the autocorrelation, wrap bands and border strips, half a DFT for
  * the interior multiplier, O(n³) for the eigensolver. Measured at 256², 7×7, 'gradient': about
- * 3.3–4 fft2c+ifft2c pairs per iteration (`npm run bench`).
+ * 3 fft2c+ifft2c pairs per iteration (2.9–3.4 in `npm run bench` on a shared 2-core machine).
  * A sample the mask misses at the k-space centre stays 0 under 'gradient' (both weights vanish).
  */
 export function solveLowrankHankel(
