@@ -1,12 +1,15 @@
-import { fft2c, ifft2c } from '../core/centered-fft.ts';
-import { type ComplexImage, createComplexImage } from '../core/complex-image.ts';
+import { type FftPlan, fftPlan } from '../core/fft-plan.ts';
 
 /**
  * Block-Hankel lifting of a ny×nx complex k-space with a wy×wx window, without forming the matrix.
  * Row p of H(z) is the window at p = (py, px), p ∈ V = [0, ny−wy]×[0, nx−wx] (windows fully inside),
  * column a = (ay, ax) ∈ W = [0, wy)×[0, wx) holds z[p + a]; column index a = ay·wx + ax.
- * Every operation here costs O(N·(2w−1)²) time and O(N) memory, never a dense (N × w²) matrix.
- * The Gram matrix sums the products of one or two lifted arrays (two for the stacked derivative weighting).
+ * Both products with H are correlations of k-space with itself, so they run on FFTs: the Gram
+ * matrix costs one 2D DFT per lifted array plus O(N) and O(w·(nx + ny)) line-DFT work (gram), the
+ * projection half a DFT for the kernel, one DFT back per array, line DFTs along the border strips
+ * and direct sums at the corners (projectAverage). Both were checked against the patch-loop
+ * definitions (tests/recon/block-hankel.test.ts).
+ * Memory O(N); never a dense (N × w²) matrix.
  */
 export class BlockHankel {
   readonly nx: number;
@@ -15,15 +18,31 @@ export class BlockHankel {
   readonly wy: number;
   /** Window size n = wy·wx: the Gram matrix is n×n. */
   readonly size: number;
-  /** Row boundaries 0…wy−1, vy…vy+wy−1 and column boundaries likewise, where rectangle corners fall. */
-  private readonly rowBounds: Int32Array;
-  private readonly colBounds: Int32Array;
-  /** Position of a boundary value in rowBounds / colBounds. */
-  private readonly rowSlot: Int32Array;
-  private readonly colSlot: Int32Array;
-  /** S(rowBound_i, colBound_j) per lag, interleaved complex, and the running column accumulators. */
-  private readonly cornerSums: Float64Array;
-  private readonly columnSums: Float64Array;
+  /** Unnormalised 2D DFTs of the arrays last lifted (shared by gram and projection). */
+  private readonly spectra: [Float64Array, Float64Array];
+  /** Row-and-column 2D DFT with the plans and scratch of this size. */
+  private readonly dft: Dft2;
+  private liftedArrays: readonly Float64Array[] = [];
+  /** Σ |spectrum|² over the lifted arrays (real, N). */
+  private readonly power: Float64Array;
+  /** e^(−i2πm/ny), m = 0…ny−1. */
+  private readonly twiddleY: Float64Array;
+  /** Row-wise DFT of the power at lags dx ∈ (−wx, wx): ny × (2wx−1), then the circular autocorrelation. */
+  private readonly rowLags: Float64Array;
+  private readonly autocorrelation: Float64Array;
+  /** Wrap-band correlations: rows (ay, by, dx) and columns (ax, bx, dy), see gram. */
+  private readonly rowBand: Float64Array;
+  private readonly columnBand: Float64Array;
+  /** DFTs of the 2wy−2 band rows / 2wx−2 band columns of each array, and line scratch. */
+  private readonly rowSpectra: Float64Array;
+  private readonly columnSpectra: Float64Array;
+  private readonly lineX: Float64Array;
+  private readonly lineY: Float64Array;
+  private readonly lineOut: Float64Array;
+  private readonly planX: FftPlan;
+  private readonly planY: FftPlan;
+  /** The (2wy−2)×(2wx−2) wrapped corner block of one array. */
+  private readonly corner: Float64Array;
   /** Window-offset boxes per row / column position (see offsetBoxes). */
   private readonly rowBox: Int32Array;
   private readonly rowBoxes: Int32Array;
@@ -31,9 +50,18 @@ export class BlockHankel {
   private readonly colBoxes: Int32Array;
   /** The (row box, column box) of interior samples, or null when no sample sees every window. */
   private readonly fullBox: { ry: number; rx: number } | null;
-  /** Image-domain multiplier of the interior kernel and FFT scratch (see projectAverage). */
-  private readonly multiplier: ComplexImage;
-  private readonly scratch: ComplexImage;
+  /** Rows of the interior kernel placed circularly (complex; slot per grid row, −1 for zero rows)
+   * and its DFT-domain multiplier (real). */
+  private readonly kernelImage: Float64Array;
+  private readonly multiplier: Float64Array;
+  private readonly kernelRowSlot: Int32Array;
+  /** Border strips: spectra of the k-space lines they read (slot per line), kernel line, sums. */
+  private readonly stripSpectra: Float64Array;
+  private readonly stripSlot: Int32Array;
+  private readonly kernelLine: Float64Array;
+  private readonly stripSums: Float64Array;
+  /** Prefix sums over window rows of the per-row kernels (setProjector scratch). */
+  private readonly rowPrefix: Float64Array;
   /** Averaging kernels K_box[d], d ∈ [−(wy−1), wy−1]×[−(wx−1), wx−1], one per (row box, column box). */
   private readonly kernels: Float64Array;
 
@@ -45,16 +73,24 @@ export class BlockHankel {
     this.wx = wx;
     this.wy = wy;
     this.size = wx * wy;
-    const vy = ny - wy + 1;
-    const vx = nx - wx + 1;
-    const rowCorners = cornerBounds(wy, vy, ny);
-    const colCorners = cornerBounds(wx, vx, nx);
-    this.rowBounds = rowCorners.bounds;
-    this.rowSlot = rowCorners.slot;
-    this.colBounds = colCorners.bounds;
-    this.colSlot = colCorners.slot;
-    this.cornerSums = new Float64Array(2 * this.rowBounds.length * this.colBounds.length);
-    this.columnSums = new Float64Array(2 * this.colBounds.length);
+    const lx = 2 * wx - 1;
+    const ly = 2 * wy - 1;
+    this.spectra = [new Float64Array(2 * nx * ny), new Float64Array(2 * nx * ny)];
+    this.dft = new Dft2(nx, ny);
+    this.power = new Float64Array(nx * ny);
+    this.twiddleY = twiddles(ny);
+    this.rowLags = new Float64Array(2 * ny * lx);
+    this.autocorrelation = new Float64Array(2 * ly * lx);
+    this.rowBand = new Float64Array(2 * wy * wy * lx);
+    this.columnBand = new Float64Array(2 * wx * wx * ly);
+    this.rowSpectra = new Float64Array(2 * 2 * Math.max(0, 2 * wy - 2) * nx);
+    this.columnSpectra = new Float64Array(2 * 2 * Math.max(0, 2 * wx - 2) * ny);
+    this.lineX = new Float64Array(2 * nx);
+    this.lineY = new Float64Array(2 * ny);
+    this.lineOut = new Float64Array(2 * Math.max(nx, ny));
+    this.planX = fftPlan(nx);
+    this.planY = fftPlan(ny);
+    this.corner = new Float64Array(2 * Math.max(0, 2 * wy - 2) * Math.max(0, 2 * wx - 2));
     const rows = offsetBoxes(ny, wy);
     const cols = offsetBoxes(nx, wx);
     this.rowBox = rows.boxOf;
@@ -70,8 +106,15 @@ export class BlockHankel {
       if (this.colBoxes[i] === 0 && this.colBoxes[i + 1] === wx - 1) rx = i / 2;
     }
     this.fullBox = ry < 0 || rx < 0 ? null : { ry, rx };
-    this.multiplier = createComplexImage(nx, ny);
-    this.scratch = createComplexImage(nx, ny);
+    this.kernelImage = new Float64Array(2 * Math.min(ny, 2 * wy - 1) * nx);
+    this.multiplier = new Float64Array(nx * ny);
+    this.kernelRowSlot = new Int32Array(ny);
+    const stripLines = Math.max(Math.min(ny, 4 * wy - 4) * nx, Math.min(nx, 4 * wx - 4) * ny);
+    this.stripSpectra = new Float64Array(2 * 2 * stripLines);
+    this.stripSlot = new Int32Array(Math.max(nx, ny));
+    this.kernelLine = new Float64Array(2 * Math.max(nx, ny));
+    this.stripSums = new Float64Array(2 * 2 * Math.max(nx, ny));
+    this.rowPrefix = new Float64Array(2 * (2 * wx - 1) * (2 * wy - 1) * (wy + 1));
     this.kernels = new Float64Array(
       2 * (2 * wx - 1) * (2 * wy - 1) * (rows.ranges.length / 2) * (cols.ranges.length / 2),
     );
@@ -79,105 +122,229 @@ export class BlockHankel {
 
   /**
    * gram ← Σ_z H(z)ᴴ H(z) over the given arrays: G[a,b] = Σ_{p∈V} conj(z[p+a]) z[p+b].
-   * For each lag d = b − a, every entry with that lag is a rectangle sum over q ∈ a + V of the
-   * product image P_d[q] = conj(z[q]) z[q+d]. The rectangles' corners lie on 2·wy row and 2·wx
-   * column boundaries only, so one pass over P_d keeps row prefix sums at those columns and
-   * accumulates them down the rows: S(r, c) = Σ_{r' < r, c' < c} P_d, read at the boundaries.
+   * Summed over every p of the torus instead of V, the entry depends on d = b − a only: the
+   * circular autocorrelation R[d] = Σ_q conj(z[q]) z[q+d], read off the power |F z|² by a DFT
+   * at the (2wy−1)(2wx−1) lags needed (Wiener–Khinchin). The windows outside V wrap around and
+   * are subtracted: the band rows py ≥ vy (all px) are circular correlations of 2wy−2 k-space
+   * rows at lags dx (one short DFT per row pair), the band columns px ≥ vx (all py) likewise,
+   * and the (wy−1)(wx−1) windows in both bands were subtracted twice, so they are added back:
+   *   G[a,b] = R[b−a] − Rows[ay, by, bx−ax] − Columns[ax, bx, by−ay] + Corner[a, b].
+   * The arrays' transforms are kept for projectLifted.
    */
   gram(gram: Float64Array, arrays: readonly Float64Array[]): void {
-    const { nx, ny, wx, wy, size, rowBounds, colBounds, rowSlot, colSlot, cornerSums, columnSums } = this;
-    const vy = ny - wy + 1;
-    const vx = nx - wx + 1;
-    const nc = colBounds.length;
     if (arrays.length < 1 || arrays.length > 2) throw new RangeError('gram takes one or two arrays');
-    const z0 = arrays[0];
-    const z1 = arrays.length > 1 ? arrays[1] : z0;
-    const weight1 = arrays.length > 1 ? 1 : 0;
-    for (let dy = 0; dy < wy; dy++) {
-      for (let dx = -(wx - 1); dx < wx; dx++) {
-        if (dy === 0 && dx < 0) continue;
-        const c0 = Math.max(0, -dx);
-        const c1 = Math.min(nx, nx - dx);
-        const offset = 2 * (dy * nx + dx);
-        columnSums.fill(0);
-        let nextRow = 0;
-        // Row r contributes to S(r', ·) for r' > r; store S at each row boundary as it is reached.
-        for (let r = 0; r <= ny; r++) {
-          if (nextRow < rowBounds.length && rowBounds[nextRow] === r) {
-            cornerSums.set(columnSums, 2 * nc * nextRow);
-            nextRow++;
-          }
-          if (r === ny || r + dy >= ny) continue;
-          let rowRe = 0;
-          let rowIm = 0;
-          let j = 0;
-          while (j < nc && colBounds[j] <= c0) {
-            j++;
-          }
-          const rowStart = 2 * r * nx;
-          if (weight1 === 0) {
-            for (let c = c0; c < c1; c++) {
-              const i = rowStart + 2 * c;
-              const k = i + offset;
-              const ar = z0[i];
-              const ai = z0[i + 1];
-              const br = z0[k];
-              const bi = z0[k + 1];
-              rowRe += ar * br + ai * bi;
-              rowIm += ar * bi - ai * br;
-              while (j < nc && colBounds[j] === c + 1) {
-                columnSums[2 * j] += rowRe;
-                columnSums[2 * j + 1] += rowIm;
-                j++;
+    this.transformArrays(arrays);
+    this.circularAutocorrelation(arrays.length);
+    this.bandCorrelations(arrays, 'rows');
+    this.bandCorrelations(arrays, 'columns');
+    const { wx, wy, size, autocorrelation, rowBand, columnBand, corner } = this;
+    const lx = 2 * wx - 1;
+    const ly = 2 * wy - 1;
+    const cy = 2 * wy - 2;
+    const cx = 2 * wx - 2;
+    gram.fill(0);
+    // Corner windows, added back: Σ_{t ∈ [0,wy−1)×[0,wx−1)} conj(c[t+a]) c[t+b] over the corner block c.
+    if (cy > 0 && cx > 0) {
+      for (const z of arrays) {
+        this.gatherCorner(z);
+        for (let a = 0; a < size; a++) {
+          const ay = Math.floor(a / wx);
+          const ax = a - ay * wx;
+          for (let b = a; b < size; b++) {
+            const by = Math.floor(b / wx);
+            const bx = b - by * wx;
+            let re = 0;
+            let im = 0;
+            for (let ty = 0; ty < wy - 1; ty++) {
+              let i = 2 * ((ty + ay) * cx + ax);
+              let k = 2 * ((ty + by) * cx + bx);
+              for (let tx = 0; tx < wx - 1; tx++, i += 2, k += 2) {
+                const ar = corner[i];
+                const ai = corner[i + 1];
+                const br = corner[k];
+                const bi = corner[k + 1];
+                re += ar * br + ai * bi;
+                im += ar * bi - ai * br;
               }
             }
+            gram[2 * (a * size + b)] += re;
+            gram[2 * (a * size + b) + 1] += im;
           }
-          for (let c = weight1 === 0 ? c1 : c0; c < c1; c++) {
-            const i = rowStart + 2 * c;
-            const k = i + offset;
-            const ar = z0[i];
-            const ai = z0[i + 1];
-            const br = z0[k];
-            const bi = z0[k + 1];
-            const er = z1[i];
-            const ei = z1[i + 1];
-            const fr = z1[k];
-            const fi = z1[k + 1];
-            rowRe += ar * br + ai * bi + er * fr + ei * fi;
-            rowIm += ar * bi - ai * br + er * fi - ei * fr;
-            while (j < nc && colBounds[j] === c + 1) {
-              columnSums[2 * j] += rowRe;
-              columnSums[2 * j + 1] += rowIm;
-              j++;
+        }
+      }
+    }
+    for (let a = 0; a < size; a++) {
+      const ay = Math.floor(a / wx);
+      const ax = a - ay * wx;
+      for (let b = a; b < size; b++) {
+        const by = Math.floor(b / wx);
+        const bx = b - by * wx;
+        const dy = by - ay;
+        const dx = bx - ax;
+        const r = 2 * ((dy + wy - 1) * lx + dx + wx - 1);
+        const rb = 2 * ((ay * wy + by) * lx + dx + wx - 1);
+        const cb = 2 * ((ax * wx + bx) * ly + dy + wy - 1);
+        const re = gram[2 * (a * size + b)] + autocorrelation[r] - rowBand[rb] - columnBand[cb];
+        const im =
+          gram[2 * (a * size + b) + 1] + autocorrelation[r + 1] - rowBand[rb + 1] - columnBand[cb + 1];
+        gram[2 * (a * size + b)] = re;
+        gram[2 * (a * size + b) + 1] = im;
+        gram[2 * (b * size + a)] = re;
+        gram[2 * (b * size + a) + 1] = -im;
+      }
+    }
+  }
+
+  /** spectra[i] ← DFT(arrays[i]); remembers the arrays for projectLifted. */
+  private transformArrays(arrays: readonly Float64Array[]): void {
+    for (let i = 0; i < arrays.length; i++) {
+      this.dft.forward(arrays[i], this.spectra[i]);
+    }
+    this.liftedArrays = arrays;
+  }
+
+  /**
+   * autocorrelation[dy, dx] = R[d] for |dy| < wy, |dx| < wx from the power P = Σ|DFT z|²
+   * (Wiener–Khinchin): R[d] = (1/N) Σ_k P[k] e^(+i2πk·d/n). Rows of P are real, so two go through
+   * one complex FFT; the column direction is a direct sum over the 2wy−1 lags.
+   */
+  private circularAutocorrelation(count: number): void {
+    const { nx, ny, wx, wy, power, twiddleY, rowLags, autocorrelation, lineX, lineOut, planX } = this;
+    const lx = 2 * wx - 1;
+    const s0 = this.spectra[0];
+    const s1 = this.spectra[1];
+    for (let j = 0; j < nx * ny; j++) {
+      let p = s0[2 * j] * s0[2 * j] + s0[2 * j + 1] * s0[2 * j + 1];
+      if (count > 1) p += s1[2 * j] * s1[2 * j] + s1[2 * j + 1] * s1[2 * j + 1];
+      power[j] = p;
+    }
+    // rowLags[row, dx] = Σ_kx P[row, kx] e^(+i2π kx·dx/nx) = X[−dx], X the row's forward DFT.
+    for (let row = 0; row < ny; row += 2) {
+      const pair = row + 1 < ny;
+      for (let c = 0; c < nx; c++) {
+        lineX[2 * c] = power[row * nx + c];
+        lineX[2 * c + 1] = pair ? power[(row + 1) * nx + c] : 0;
+      }
+      planX.forward(lineOut, lineX);
+      for (let dx = -(wx - 1); dx < wx; dx++) {
+        const k = (((-dx % nx) + nx) % nx) * 2;
+        const km = (((dx % nx) + nx) % nx) * 2;
+        const o = 2 * (row * lx + dx + wx - 1);
+        rowLags[o] = (lineOut[k] + lineOut[km]) / 2;
+        rowLags[o + 1] = (lineOut[k + 1] - lineOut[km + 1]) / 2;
+        if (pair) {
+          rowLags[o + 2 * lx] = (lineOut[k + 1] + lineOut[km + 1]) / 2;
+          rowLags[o + 2 * lx + 1] = -(lineOut[k] - lineOut[km]) / 2;
+        }
+      }
+    }
+    const scale = 1 / (nx * ny);
+    for (let dy = -(wy - 1); dy < wy; dy++) {
+      // e^(+i2π ky·dy/ny) = twiddleY[−ky·dy mod ny].
+      const step = ((-dy % ny) + ny) % ny;
+      for (let dx = -(wx - 1); dx < wx; dx++) {
+        let re = 0;
+        let im = 0;
+        let t = 0;
+        for (let row = 0; row < ny; row++) {
+          const qr = rowLags[2 * (row * lx + dx + wx - 1)];
+          const qi = rowLags[2 * (row * lx + dx + wx - 1) + 1];
+          const wr = twiddleY[2 * t];
+          const wi = twiddleY[2 * t + 1];
+          re += qr * wr - qi * wi;
+          im += qr * wi + qi * wr;
+          t += step;
+          if (t >= ny) t -= ny;
+        }
+        autocorrelation[2 * ((dy + wy - 1) * lx + dx + wx - 1)] = re * scale;
+        autocorrelation[2 * ((dy + wy - 1) * lx + dx + wx - 1) + 1] = im * scale;
+      }
+    }
+  }
+
+  /**
+   * Wrap-band sums. Rows: band[ay, by, dx] = Σ_{t<wy−1} C(ρ(t+ay), ρ(t+by))(dx) with
+   * ρ(i) = (vy + i) mod ny the band rows and C(r, s)(dx) = Σ_c conj(z[r,c]) z[s,(c+dx) mod nx]
+   * the circular cross-correlation of two rows: one inverse DFT of Σ_t conj(Z_r)·Z_s per (ay, by).
+   * Columns: the same with rows and columns exchanged. Summed over the arrays.
+   */
+  private bandCorrelations(arrays: readonly Float64Array[], axis: 'rows' | 'columns'): void {
+    const byRows = axis === 'rows';
+    const { nx, ny } = this;
+    const w = byRows ? this.wy : this.wx;
+    const other = byRows ? this.wx : this.wy;
+    const length = byRows ? nx : ny;
+    const lines = byRows ? ny : nx;
+    const start = lines - w + 1;
+    const band = byRows ? this.rowBand : this.columnBand;
+    const spectra = byRows ? this.rowSpectra : this.columnSpectra;
+    const plan = byRows ? this.planX : this.planY;
+    const line = byRows ? this.lineX : this.lineY;
+    const out = this.lineOut;
+    const lags = 2 * other - 1;
+    const count = 2 * w - 2;
+    band.fill(0);
+    if (count === 0) return;
+    for (let k = 0; k < arrays.length; k++) {
+      const z = arrays[k];
+      for (let i = 0; i < count; i++) {
+        const index = (start + i) % lines;
+        for (let c = 0; c < length; c++) {
+          const src = 2 * (byRows ? index * nx + c : c * nx + index);
+          line[2 * c] = z[src];
+          line[2 * c + 1] = z[src + 1];
+        }
+        plan.forward(spectra.subarray(2 * (k * count + i) * length, 2 * (k * count + i + 1) * length), line);
+      }
+    }
+    for (let a = 0; a < w; a++) {
+      for (let b = a; b < w; b++) {
+        // line ← conj(Σ conj(Z_r) Z_s); forward DFT; conj again = inverse DFT of the cross-spectrum.
+        line.fill(0);
+        for (let k = 0; k < arrays.length; k++) {
+          for (let t = 0; t < w - 1; t++) {
+            const r = 2 * (k * count + t + a) * length;
+            const s = 2 * (k * count + t + b) * length;
+            for (let f = 0; f < 2 * length; f += 2) {
+              const rr = spectra[r + f];
+              const ri = spectra[r + f + 1];
+              const sr = spectra[s + f];
+              const si = spectra[s + f + 1];
+              line[f] += rr * sr + ri * si;
+              line[f + 1] -= rr * si - ri * sr;
             }
           }
-          // Boundaries past the last valid column see the whole row sum.
-          for (; j < nc; j++) {
-            columnSums[2 * j] += rowRe;
-            columnSums[2 * j + 1] += rowIm;
-          }
         }
-        for (let ay = 0; ay + dy < wy; ay++) {
-          for (let ax = Math.max(0, -dx); ax < wx && ax + dx < wx; ax++) {
-            // rows ay … ay+vy−1, cols ax … ax+vx−1: corners at boundaries ay, ay+vy and ax, ax+vx.
-            const r0 = rowSlot[ay];
-            const r1 = rowSlot[ay + vy];
-            const q0 = colSlot[ax];
-            const q1 = colSlot[ax + vx];
-            const k11 = 2 * (r1 * nc + q1);
-            const k01 = 2 * (r0 * nc + q1);
-            const k10 = 2 * (r1 * nc + q0);
-            const k00 = 2 * (r0 * nc + q0);
-            const re = cornerSums[k11] - cornerSums[k01] - cornerSums[k10] + cornerSums[k00];
-            const im = cornerSums[k11 + 1] - cornerSums[k01 + 1] - cornerSums[k10 + 1] + cornerSums[k00 + 1];
-            const a = ay * wx + ax;
-            const b = (ay + dy) * wx + ax + dx;
-            gram[2 * (a * size + b)] = re;
-            gram[2 * (a * size + b) + 1] = im;
-            gram[2 * (b * size + a)] = re;
-            gram[2 * (b * size + a) + 1] = -im;
-          }
+        plan.forward(out, line);
+        for (let d = -(other - 1); d < other; d++) {
+          const m = 2 * (((d % length) + length) % length);
+          const re = out[m] / length;
+          const im = -out[m + 1] / length;
+          const o = 2 * ((a * w + b) * lags + d + other - 1);
+          band[o] = re;
+          band[o + 1] = im;
+          // band[b, a, −d] = conj(band[a, b, d]).
+          const oT = 2 * ((b * w + a) * lags - d + other - 1);
+          band[oT] = re;
+          band[oT + 1] = -im;
         }
+      }
+    }
+  }
+
+  /** corner[i, j] = z[(vy + i) mod ny, (vx + j) mod nx] for i < 2wy−2, j < 2wx−2. */
+  private gatherCorner(z: Float64Array): void {
+    const { nx, ny, wx, wy, corner } = this;
+    const cy = 2 * wy - 2;
+    const cx = 2 * wx - 2;
+    const vy = ny - wy + 1;
+    const vx = nx - wx + 1;
+    for (let i = 0; i < cy; i++) {
+      const row = (vy + i) % ny;
+      for (let j = 0; j < cx; j++) {
+        const src = 2 * (row * nx + ((vx + j) % nx));
+        corner[2 * (i * cx + j)] = z[src];
+        corner[2 * (i * cx + j) + 1] = z[src + 1];
       }
     }
   }
@@ -212,26 +379,34 @@ export class BlockHankel {
         projector[2 * (b * n + a) + 1] = -im;
       }
     }
-    kernels.fill(0);
+    // Per column box: the kernel of each window row by (prefix-summed over by), then every row
+    // box [b0, b1] as a difference of two prefix sums.
     const kw = 2 * wx - 1;
     const kernelSize = 2 * kw * (2 * wy - 1);
     const nCol = colBoxes.length / 2;
-    for (let ry = 0; ry < rowBoxes.length / 2; ry++) {
-      for (let rx = 0; rx < nCol; rx++) {
-        const base = (ry * nCol + rx) * kernelSize;
-        for (let by = rowBoxes[2 * ry]; by <= rowBoxes[2 * ry + 1]; by++) {
-          for (let bx = colBoxes[2 * rx]; bx <= colBoxes[2 * rx + 1]; bx++) {
-            const b = by * wx + bx;
-            for (let ay = 0; ay < wy; ay++) {
-              for (let ax = 0; ax < wx; ax++) {
-                const a = ay * wx + ax;
-                const k = base + 2 * ((ay - by + wy - 1) * kw + (ax - bx + wx - 1));
-                kernels[k] += projector[2 * (a * n + b)];
-                kernels[k + 1] += projector[2 * (a * n + b) + 1];
-              }
+    const prefix = this.rowPrefix;
+    for (let rx = 0; rx < nCol; rx++) {
+      prefix.fill(0);
+      for (let by = 0; by < wy; by++) {
+        const slot = (by + 1) * kernelSize;
+        for (let bx = colBoxes[2 * rx]; bx <= colBoxes[2 * rx + 1]; bx++) {
+          const b = by * wx + bx;
+          for (let ay = 0; ay < wy; ay++) {
+            for (let ax = 0; ax < wx; ax++) {
+              const a = ay * wx + ax;
+              const k = slot + 2 * ((ay - by + wy - 1) * kw + (ax - bx + wx - 1));
+              prefix[k] += projector[2 * (a * n + b)];
+              prefix[k + 1] += projector[2 * (a * n + b) + 1];
             }
           }
         }
+        for (let i = 0; i < kernelSize; i++) prefix[slot + i] += prefix[slot - kernelSize + i];
+      }
+      for (let ry = 0; ry < rowBoxes.length / 2; ry++) {
+        const base = (ry * nCol + rx) * kernelSize;
+        const high = (rowBoxes[2 * ry + 1] + 1) * kernelSize;
+        const low = rowBoxes[2 * ry] * kernelSize;
+        for (let i = 0; i < kernelSize; i++) kernels[base + i] = prefix[high + i] - prefix[low + i];
       }
     }
     this.prepareMultiplier();
@@ -247,66 +422,171 @@ export class BlockHankel {
    * With `z2`/`out2` the same projection is applied to a second array (stacked derivative weighting).
    */
   projectAverage(out: Float64Array, z: Float64Array, out2?: Float64Array, z2?: Float64Array): void {
-    const interior = this.interiorBox();
-    if (interior !== null) {
-      this.convolveInterior(out, z);
-      if (out2 !== undefined && z2 !== undefined) this.convolveInterior(out2, z2);
+    const arrays = out2 !== undefined && z2 !== undefined ? [z, z2] : [z];
+    if (this.fullBox !== null) this.transformArrays(arrays);
+    this.liftedArrays = arrays;
+    this.projectLifted(out, out2);
+  }
+
+  /**
+   * projectAverage of the arrays last given to gram (which must be unchanged since), reusing
+   * their transforms: one inverse transform per array. Consumes the stored transforms.
+   */
+  projectLifted(out: Float64Array, out2?: Float64Array): void {
+    const arrays = this.liftedArrays;
+    if (arrays.length === 0) throw new Error('projectLifted needs a preceding gram or projectAverage');
+    const outs = arrays.length > 1 && out2 !== undefined ? [out, out2] : [out];
+    if (this.fullBox === null) {
+      for (let i = 0; i < outs.length; i++) this.averageBorder(outs[i], arrays[i], 'all');
+    } else {
+      for (let i = 0; i < outs.length; i++) this.convolveInterior(outs[i], this.spectra[i]);
+      this.averageStrips(outs, arrays, 'rows');
+      this.averageStrips(outs, arrays, 'columns');
+      for (let i = 0; i < outs.length; i++) this.averageBorder(outs[i], arrays[i], 'corners');
     }
-    this.averageBorder(out, z, interior === null);
-    if (out2 !== undefined && z2 !== undefined) this.averageBorder(out2, z2, interior === null);
+    this.liftedArrays = [];
   }
 
-  /** Index of the full box (all window offsets fit) along rows and columns, or null if none. */
-  private interiorBox(): { ry: number; rx: number } | null {
-    return this.fullBox;
-  }
-
-  /** Image-domain multiplier √N · F_cᴴ(S k̃) of the full-box kernel (after setProjector). */
+  /**
+   * Multiplier M = DFT(κ)/(N·n) of the full-box kernel placed circularly, κ[−d mod N] = K[d]
+   * (after setProjector): then (1/n) Σ_d K[d] z[q + d] = IDFT(DFT(z)·M)[q] wherever q + d does
+   * not wrap, i.e. at every interior sample. Π is Hermitian, so K[−d] = conj K[d] (substitute
+   * b → b − d in K[d] = Σ_b Π[b+d, b]) and M is real: two columns share one complex FFT.
+   */
   private prepareMultiplier(): void {
-    const { nx, ny, wx, wy, kernels, colBoxes, multiplier } = this;
-    const box = this.interiorBox();
+    const { nx, ny, wx, wy, kernels, colBoxes, kernelImage, multiplier, kernelRowSlot } = this;
+    const box = this.fullBox;
     if (box === null) return;
     const kw = 2 * wx - 1;
     const kernelSize = 2 * kw * (2 * wy - 1);
     const base = (box.ry * (colBoxes.length / 2) + box.rx) * kernelSize;
-    const m = multiplier.data;
-    m.fill(0);
-    const hy = Math.floor(ny / 2);
-    const hx = Math.floor(nx / 2);
+    kernelRowSlot.fill(-1);
+    kernelImage.fill(0);
+    let slots = 0;
     for (let dy = -(wy - 1); dy < wy; dy++) {
-      const row = (((-dy + hy) % ny) + ny) % ny;
+      const row = ((-dy % ny) + ny) % ny;
+      if (kernelRowSlot[row] < 0) kernelRowSlot[row] = slots++;
+      const slot = kernelRowSlot[row];
       for (let dx = -(wx - 1); dx < wx; dx++) {
-        const col = (((-dx + hx) % nx) + nx) % nx;
+        const col = ((-dx % nx) + nx) % nx;
         const k = base + 2 * ((dy + wy - 1) * kw + dx + wx - 1);
-        m[2 * (row * nx + col)] += kernels[k];
-        m[2 * (row * nx + col) + 1] += kernels[k + 1];
+        kernelImage[2 * (slot * nx + col)] += kernels[k];
+        kernelImage[2 * (slot * nx + col) + 1] += kernels[k + 1];
       }
     }
-    ifft2c(multiplier, multiplier);
-    const scale = Math.sqrt(nx * ny) / (wx * wy);
-    for (let i = 0; i < m.length; i++) m[i] *= scale;
+    this.dft.forwardToReal(kernelImage, kernelRowSlot, multiplier);
+    const scale = 1 / (nx * ny * wx * wy);
+    for (let i = 0; i < multiplier.length; i++) multiplier[i] *= scale;
   }
 
-  private convolveInterior(out: Float64Array, z: Float64Array): void {
-    const { scratch, multiplier } = this;
-    const s = scratch.data;
-    const m = multiplier.data;
-    s.set(z);
-    ifft2c(scratch, scratch);
-    for (let i = 0; i < s.length; i += 2) {
-      const ar = s[i];
-      const ai = s[i + 1];
-      const br = m[i];
-      const bi = m[i + 1];
-      s[i] = ar * br - ai * bi;
-      s[i + 1] = ar * bi + ai * br;
+  /** out ← IDFT(spectrum · multiplier) = conj(DFT(conj(spectrum · multiplier))). */
+  private convolveInterior(out: Float64Array, spectrum: Float64Array): void {
+    this.dft.forward(spectrum, out, { multiplyConj: this.multiplier, conjugateOutput: true });
+  }
+
+  /**
+   * Border strips by FFTs along the strip. A sample q in a border row (qy < wy−1 or qy > ny−wy)
+   * whose column is interior sees all wx column offsets, so its kernel K_box depends on qy only and
+   *   Σ_d K_box[d] z[q + d] = Σ_dy (z[qy+dy, ·] ⊛ κ_dy)[qx],  κ_dy[−dx mod nx] = K_box[dy, dx],
+   * a circular convolution along the row that does not wrap for interior qx: per border row one
+   * product of line spectra per dy and one inverse DFT. Columns likewise ('columns').
+   */
+  private averageStrips(
+    outs: Float64Array[],
+    arrays: readonly Float64Array[],
+    axis: 'rows' | 'columns',
+  ): void {
+    const byRows = axis === 'rows';
+    const { nx, ny, wx, wy, kernels, rowBoxes, colBoxes, rowBox, colBox, fullBox } = this;
+    if (fullBox === null) return;
+    const { stripSpectra, stripSlot, kernelLine, stripSums, lineOut } = this;
+    const plan = byRows ? this.planX : this.planY;
+    const line = byRows ? this.lineX : this.lineY;
+    const length = byRows ? nx : ny;
+    const lines = byRows ? ny : nx;
+    const w = byRows ? wy : wx;
+    const wAlong = byRows ? wx : wy;
+    const boxOf = byRows ? rowBox : colBox;
+    const boxes = byRows ? rowBoxes : colBoxes;
+    const kw = 2 * wx - 1;
+    const kernelSize = 2 * kw * (2 * wy - 1);
+    const nCol = colBoxes.length / 2;
+    const count = arrays.length;
+    // Spectra of every line a border line reads: lines [0, 2w−2) and [lines−2w+2, lines).
+    stripSlot.fill(-1);
+    let slots = 0;
+    for (let index = 0; index < lines; index++) {
+      if (index >= 2 * w - 2 && index < lines - 2 * w + 2) continue;
+      stripSlot[index] = slots;
+      for (let k = 0; k < count; k++) {
+        const z = arrays[k];
+        for (let c = 0; c < length; c++) {
+          const src = 2 * (byRows ? index * nx + c : c * nx + index);
+          line[2 * c] = z[src];
+          line[2 * c + 1] = z[src + 1];
+        }
+        const at = 2 * (slots * count + k) * length;
+        plan.forward(stripSpectra.subarray(at, at + 2 * length), line);
+      }
+      slots++;
     }
-    fft2c(scratch, scratch);
-    out.set(s);
+    for (let q = 0; q < lines; q++) {
+      if (q >= w - 1 && q <= lines - w) continue;
+      const box = boxOf[q];
+      const kernelBase = (byRows ? box * nCol + fullBox.rx : fullBox.ry * nCol + box) * kernelSize;
+      const samples = (boxes[2 * box + 1] - boxes[2 * box] + 1) * wAlong;
+      const d0 = Math.max(-(w - 1), -q);
+      const d1 = Math.min(w - 1, lines - 1 - q);
+      stripSums.fill(0, 0, 2 * count * length);
+      for (let d = d0; d <= d1; d++) {
+        kernelLine.fill(0, 0, 2 * length);
+        for (let e = -(wAlong - 1); e < wAlong; e++) {
+          const k =
+            kernelBase + 2 * (byRows ? (d + wy - 1) * kw + e + wx - 1 : (e + wy - 1) * kw + d + wx - 1);
+          const m = 2 * (((-e % length) + length) % length);
+          kernelLine[m] += kernels[k];
+          kernelLine[m + 1] += kernels[k + 1];
+        }
+        plan.forward(lineOut, kernelLine);
+        const slot = stripSlot[q + d];
+        for (let k = 0; k < count; k++) {
+          const at = 2 * (slot * count + k) * length;
+          const sum = 2 * k * length;
+          for (let f = 0; f < 2 * length; f += 2) {
+            const ar = stripSpectra[at + f];
+            const ai = stripSpectra[at + f + 1];
+            const br = lineOut[f];
+            const bi = lineOut[f + 1];
+            stripSums[sum + f] += ar * br - ai * bi;
+            stripSums[sum + f + 1] += ar * bi + ai * br;
+          }
+        }
+      }
+      // Inverse DFT as conj ∘ forward ∘ conj, scaled by 1/length and the window count.
+      const scale = 1 / (length * samples);
+      for (let k = 0; k < count; k++) {
+        const sum = 2 * k * length;
+        for (let f = 0; f < 2 * length; f += 2) {
+          line[f] = stripSums[sum + f];
+          line[f + 1] = -stripSums[sum + f + 1];
+        }
+        plan.forward(lineOut, line);
+        const out = outs[k];
+        for (let c = wAlong - 1; c <= length - wAlong; c++) {
+          const o = 2 * (byRows ? q * nx + c : c * nx + q);
+          out[o] = lineOut[2 * c] * scale;
+          out[o + 1] = -lineOut[2 * c + 1] * scale;
+        }
+      }
+    }
   }
 
-  /** Direct box-kernel sums for the samples within w − 1 of an edge (or every sample if `all`). */
-  private averageBorder(out: Float64Array, z: Float64Array, all: boolean): void {
+  /**
+   * Direct box-kernel sums: every sample ('all', when no sample sees every window) or the corner
+   * samples, within w − 1 of two edges ('corners').
+   */
+  private averageBorder(out: Float64Array, z: Float64Array, which: 'all' | 'corners'): void {
+    const all = which === 'all';
     const { nx, ny, wx, wy, kernels, rowBoxes, colBoxes, rowBox, colBox } = this;
     const kw = 2 * wx - 1;
     const kernelSize = 2 * kw * (2 * wy - 1);
@@ -314,11 +594,12 @@ export class BlockHankel {
     for (let qy = 0; qy < ny; qy++) {
       const ry = rowBox[qy];
       const rowCount = rowBoxes[2 * ry + 1] - rowBoxes[2 * ry] + 1;
-      const borderRow = all || qy < wy - 1 || qy > ny - wy;
+      const borderRow = qy < wy - 1 || qy > ny - wy;
+      if (!all && !borderRow) continue;
       const dy0 = Math.max(-(wy - 1), -qy);
       const dy1 = Math.min(wy - 1, ny - 1 - qy);
       for (let qx = 0; qx < nx; qx++) {
-        if (!borderRow && qx >= wx - 1 && qx <= nx - wx) {
+        if (!all && qx >= wx - 1 && qx <= nx - wx) {
           qx = nx - wx;
           continue;
         }
@@ -349,19 +630,124 @@ export class BlockHankel {
   }
 }
 
-/** Sorted distinct corner boundaries {0…w−1} ∪ {v…v+w−1} of one axis, and value → position. */
-function cornerBounds(w: number, v: number, length: number): { bounds: Int32Array; slot: Int32Array } {
-  const values = new Set<number>();
-  for (let i = 0; i < w; i++) {
-    values.add(i);
-    values.add(v + i);
+/**
+ * Unnormalised 2D DFT, X[k] = Σ_m x[m] e^(−i2π(ky·my/ny + kx·mx/nx)), of interleaved ny×nx arrays:
+ * rows into a scratch array, then columns (gathered into a plain line buffer, which fft.js runs
+ * faster on than on views) into the target. Options fold the pointwise steps of a convolution into the passes: the input
+ * rows can be taken as conj(source · m) for a real m, the output conjugated. Source and target
+ * may be the same array.
+ */
+class Dft2 {
+  private readonly nx: number;
+  private readonly ny: number;
+  private readonly planX: FftPlan;
+  private readonly planY: FftPlan;
+  private readonly scratch: Float64Array;
+  private readonly scratchRows: Float64Array[];
+  private readonly rowIn: Float64Array;
+  private readonly columnIn: Float64Array;
+  private readonly columnOut: Float64Array;
+  /** Row views of the arrays transformed so far (a handful of fixed buffers). */
+  private readonly views = new Map<Float64Array, Float64Array[]>();
+
+  constructor(nx: number, ny: number) {
+    this.nx = nx;
+    this.ny = ny;
+    this.planX = fftPlan(nx);
+    this.planY = fftPlan(ny);
+    this.scratch = new Float64Array(2 * nx * ny);
+    this.scratchRows = rowViews(this.scratch, nx, ny);
+    this.rowIn = new Float64Array(2 * nx);
+    this.columnIn = new Float64Array(2 * ny);
+    this.columnOut = new Float64Array(2 * ny);
   }
-  const bounds = Int32Array.from([...values].sort((a, b) => a - b));
-  const slot = new Int32Array(length + 1).fill(-1);
-  bounds.forEach((value, i) => {
-    slot[value] = i;
-  });
-  return { bounds, slot };
+
+  forward(
+    source: Float64Array,
+    target: Float64Array,
+    options: { multiplyConj?: Float64Array; conjugateOutput?: boolean } = {},
+  ): void {
+    const { nx, ny, planX, planY, scratch, scratchRows, rowIn, columnIn, columnOut } = this;
+    const { multiplyConj: m, conjugateOutput } = options;
+    let sourceRows = this.views.get(source);
+    if (sourceRows === undefined) {
+      sourceRows = rowViews(source, nx, ny);
+      this.views.set(source, sourceRows);
+    }
+    for (let r = 0; r < ny; r++) {
+      if (m === undefined) {
+        planX.forward(scratchRows[r], sourceRows[r]);
+        continue;
+      }
+      for (let c = 0, i = r * nx; c < nx; c++, i++) {
+        rowIn[2 * c] = source[2 * i] * m[i];
+        rowIn[2 * c + 1] = -source[2 * i + 1] * m[i];
+      }
+      planX.forward(scratchRows[r], rowIn);
+    }
+    const sign = conjugateOutput ? -1 : 1;
+    for (let c = 0; c < nx; c++) {
+      for (let r = 0, i = 2 * c; r < ny; r++, i += 2 * nx) {
+        columnIn[2 * r] = scratch[i];
+        columnIn[2 * r + 1] = scratch[i + 1];
+      }
+      planY.forward(columnOut, columnIn);
+      for (let r = 0, i = 2 * c; r < ny; r++, i += 2 * nx) {
+        target[i] = columnOut[2 * r];
+        target[i + 1] = sign * columnOut[2 * r + 1];
+      }
+    }
+  }
+
+  /**
+   * target (real, ny×nx) ← DFT(x) for an x whose DFT is known to be real (Hermitian symmetric
+   * about the origin) and whose non-zero rows are given compactly: grid row r is rows[slotOfRow[r]]
+   * (zero where the slot is −1). Columns c and c + 1 go through one complex FFT as
+   * col_c + i·col_{c+1}, whose real and imaginary parts are then the two real transforms.
+   */
+  forwardToReal(rows: Float64Array, slotOfRow: Int32Array, target: Float64Array): void {
+    const { nx, ny, planX, planY, scratch, scratchRows } = this;
+    let sourceRows = this.views.get(rows);
+    if (sourceRows === undefined) {
+      sourceRows = rowViews(rows, nx, rows.length / (2 * nx));
+      this.views.set(rows, sourceRows);
+    }
+    for (let r = 0; r < ny; r++) {
+      if (slotOfRow[r] < 0) scratch.fill(0, 2 * r * nx, 2 * (r + 1) * nx);
+      else planX.forward(scratchRows[r], sourceRows[slotOfRow[r]]);
+    }
+    const input = this.columnIn;
+    const output = this.columnOut;
+    for (let c = 0; c < nx; c += 2) {
+      const pair = c + 1 < nx;
+      for (let r = 0; r < ny; r++) {
+        const i = 2 * (r * nx + c);
+        input[2 * r] = pair ? scratch[i] - scratch[i + 3] : scratch[i];
+        input[2 * r + 1] = pair ? scratch[i + 1] + scratch[i + 2] : scratch[i + 1];
+      }
+      planY.forward(output, input);
+      for (let r = 0; r < ny; r++) {
+        target[r * nx + c] = output[2 * r];
+        if (pair) target[r * nx + c + 1] = output[2 * r + 1];
+      }
+    }
+  }
+}
+
+function rowViews(data: Float64Array, nx: number, ny: number): Float64Array[] {
+  const views: Float64Array[] = [];
+  for (let r = 0; r < ny; r++) views.push(data.subarray(2 * r * nx, 2 * (r + 1) * nx));
+  return views;
+}
+
+/** e^(−i2πm/n) for m = 0…n−1, interleaved. */
+function twiddles(n: number): Float64Array {
+  const t = new Float64Array(2 * n);
+  for (let m = 0; m < n; m++) {
+    t[2 * m] = Math.cos((2 * Math.PI * m) / n);
+    t[2 * m + 1] = -Math.sin((2 * Math.PI * m) / n);
+  }
+  return t;
 }
 
 /**

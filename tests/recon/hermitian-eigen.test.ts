@@ -103,7 +103,7 @@ function residuals(a: Float64Array, solver: HermitianEigenSolver): { eig: number
   return { eig, orth };
 }
 
-describe('Hermitian eigendecomposition by cyclic Jacobi', () => {
+describe('Hermitian eigendecomposition (Householder tridiagonalisation, implicit QL)', () => {
   it('recovers a prescribed spectrum of U diag(λ) Uᴴ with a random unitary U (construction, common practice)', () => {
     const values = [9, 4.5, 3, 3, 1e-3, 0, -0.5, -2, 7, 2.25, 1, 0.1];
     const n = values.length;
