@@ -6,7 +6,7 @@ import { HttpProblem, jsonResponse, problemResponses } from '../src/http/problem
 import { idParams } from '../src/http/schemas.ts';
 import type { PlanProgress } from '../src/jobs/plan-queue.ts';
 import type { StoredPlan } from '../src/jobs/store.ts';
-import { type Plan, type PlanTable, planSchema, tableToCsv } from '../src/plan/index.ts';
+import { type PlanTable, planSchema, tableToCsv } from '../src/plan/index.ts';
 
 const statusSchema = z.enum(['queued', 'running', 'done', 'failed', 'cancelled']);
 
@@ -137,8 +137,9 @@ export async function planRoutes(app: FastifyInstance): Promise<void> {
       // Limits (matrix, iterations, cells) and one draw of every mask, before anything is queued
       // (src/plan validatePlan, on a worker thread).
       plans.checkCapacity();
-      const plan = await pool.runForRequest<Plan>(
-        { kind: 'validate-plan', body: request.body, limits },
+      const plan = await pool.runForRequest(
+        'validate-plan',
+        { plan: request.body, limits },
         disconnectSignal(request, reply),
       );
       const source = plan.source as { imageId?: string };

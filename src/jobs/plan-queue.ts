@@ -2,9 +2,10 @@ import { randomUUID } from 'node:crypto';
 import { EventEmitter } from 'node:events';
 import type { Logger } from 'pino';
 import { boundEcho, boundFieldProblems, MAX_DETAIL_CHARS } from '../core/echo-bound.ts';
-import { CancelledError, LimitError, ValidationError } from '../core/errors.ts';
+import { CancelledError, QueueFullError, ValidationError } from '../core/errors.ts';
 import type { Limits } from '../core/limits.ts';
 import type { RealImage } from '../core/real-image.ts';
+import type { Plan, PlanCell } from '../plan/index.ts';
 import type { InputRef, PlanStatus, Store, StoredPlan } from './store.ts';
 import type { WorkerPool } from './worker-pool.ts';
 
@@ -21,15 +22,6 @@ export interface PlanProgress {
   total: number;
   /** Estimated seconds to completion from this run's cell rate; null until a cell has finished. */
   etaSeconds: number | null;
-}
-
-export class QueueFullError extends Error {
-  override readonly name = 'QueueFullError';
-  readonly retryAfterSeconds: number;
-  constructor(retryAfterSeconds: number) {
-    super('the plan queue is full');
-    this.retryAfterSeconds = retryAfterSeconds;
-  }
 }
 
 interface ActivePlan {
@@ -179,8 +171,9 @@ export class PlanQueue extends EventEmitter {
         while (next < pending.length && !signal.aborted) {
           const cell = pending[next++];
           const started = Date.now();
-          const result = await this.pool.run<unknown>(
-            { kind: 'cell', plan: plan.body, cell, image, limits: this.limits },
+          const result = await this.pool.run(
+            'cell',
+            { plan: plan.body as Plan, cell: cell as PlanCell, image, limits: this.limits },
             signal,
           );
           if (signal.aborted || this.closed) return;
@@ -204,7 +197,7 @@ export class PlanQueue extends EventEmitter {
         error instanceof ValidationError
           ? {
               status: 422,
-              kind: error instanceof LimitError ? 'limit' : 'validation',
+              kind: error.kind,
               // Stored with the plan: bounded like every problem the HTTP layer sends.
               detail: boundEcho(error.message, MAX_DETAIL_CHARS),
               errors: boundFieldProblems(error.problems),
