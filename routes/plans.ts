@@ -4,7 +4,7 @@ import { z } from 'zod';
 import { disconnectSignal } from '../src/http/disconnect-signal.ts';
 import { HttpProblem, jsonResponse, problemResponses } from '../src/http/problem.ts';
 import { idParams } from '../src/http/schemas.ts';
-import type { PlanProgress } from '../src/jobs/plan-queue.ts';
+import type { PlanEvent } from '../src/jobs/plan-queue.ts';
 import type { StoredPlan } from '../src/jobs/store.ts';
 import { type PlanTable, planSchema, tableToCsv } from '../src/plan/index.ts';
 
@@ -286,7 +286,7 @@ export async function planRoutes(app: FastifyInstance): Promise<void> {
       streams.delete(finish);
       raw.end();
     };
-    const onProgress = (progress: PlanProgress) => {
+    const onProgress = (progress: PlanEvent) => {
       if (progress.id !== id || closed) return;
       if (terminal(progress.status)) {
         const stored = store.getPlan(id);
