@@ -5,7 +5,6 @@ import { z } from 'zod';
 import { ValidationError } from '../src/core/errors.ts';
 import { HttpProblem, jsonResponse, problemResponses } from '../src/http/problem.ts';
 import { idParams } from '../src/http/schemas.ts';
-import type { DecodedImage } from '../src/io/decode-image.ts';
 import type { StoredImage } from '../src/jobs/store.ts';
 
 const metaValue = z.union([z.string(), z.number(), z.boolean(), z.array(z.number()), z.null()]);
@@ -148,8 +147,7 @@ export async function imageRoutes(app: FastifyInstance): Promise<void> {
       const bytes = await part.toBuffer().catch(malformedMultipart('file'));
       const choice = { ...request.query, ...formChoices(part.fields) };
       // Decoding (gunzip, DICOM/NIfTI parsing, sharp) runs on a worker: a 64 MB file never stalls the loop.
-      const decoded = await pool.runForRequest<DecodedImage>({
-        kind: 'decode',
+      const decoded = await pool.runForRequest('decode', {
         bytes,
         options: { ...choice, maxSide: limits.maxMatrixSide, maxBytes: limits.maxUploadBytes },
       });

@@ -1,7 +1,7 @@
 import type { FastifyInstance } from 'fastify';
 import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
-import { type MaskDiagnostics, type SampledMask, samplingSchema } from '../sampling/index.ts';
+import { samplingSchema } from '../sampling/index.ts';
 import { preferredType } from '../src/http/accept.ts';
 import { contentId } from '../src/http/content-id.ts';
 import { disconnectSignal } from '../src/http/disconnect-signal.ts';
@@ -64,11 +64,9 @@ export async function maskRoutes(app: FastifyInstance): Promise<void> {
         const stored = store.getResult(id, scope);
         if (stored) return reply.type('application/json').send(stored.body as z.infer<typeof maskResponse>);
       }
-      const { sampled, diagnostics } = await pool.runForRequest<{
-        sampled: SampledMask;
-        diagnostics: MaskDiagnostics | null;
-      }>(
-        { kind: 'mask', matrix, sampling, limits, diagnostics: !wantsPng },
+      const { sampled, diagnostics } = await pool.runForRequest(
+        'mask',
+        { matrix, sampling, limits, diagnostics: !wantsPng },
         disconnectSignal(request, reply),
       );
       const mask = await maskPng(sampled);

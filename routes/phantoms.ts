@@ -145,8 +145,9 @@ export async function phantomRoutes(app: FastifyInstance): Promise<void> {
       known(name);
       const { nx, ny, supersample } = request.query;
       checkMatrixLimit({ nx, ny }, limits);
-      const image = await pool.runForRequest<RealImage>(
-        { kind: 'phantom-raster', name, nx, ny, supersample },
+      const image = await pool.runForRequest(
+        'phantom-raster',
+        { name, nx, ny, supersample },
         disconnectSignal(request, reply),
       );
       const wantsJson = preferredType(request, ['image/png', 'application/json']) === 'application/json';
@@ -183,8 +184,9 @@ export async function phantomRoutes(app: FastifyInstance): Promise<void> {
         ky[i] = y;
       });
       // Up to MAX_KSPACE_POINTS points × every shape: on a worker, not the event loop.
-      const values = await pool.runForRequest<Float64Array>(
-        { kind: 'phantom-kspace', name, kx, ky },
+      const values = await pool.runForRequest(
+        'phantom-kspace',
+        { name, kx, ky },
         disconnectSignal(request, reply),
       );
       return { values: points.map((_, i) => [values[2 * i], values[2 * i + 1]] as [number, number]) };

@@ -4,9 +4,9 @@ import { z } from 'zod';
 import { disconnectSignal } from '../src/http/disconnect-signal.ts';
 import { HttpProblem, jsonResponse, problemResponses } from '../src/http/problem.ts';
 import { idParams } from '../src/http/schemas.ts';
-import type { PlanProgress } from '../src/jobs/plan-queue.ts';
+import type { PlanEvent } from '../src/jobs/plan-queue.ts';
 import type { StoredPlan } from '../src/jobs/store.ts';
-import { type Plan, type PlanTable, planSchema, tableToCsv } from '../src/plan/index.ts';
+import { planSchema, tableToCsv } from '../src/plan/index.ts';
 
 const statusSchema = z.enum(['queued', 'running', 'done', 'failed', 'cancelled']);
 
@@ -100,7 +100,7 @@ export async function planRoutes(app: FastifyInstance): Promise<void> {
   function statusBody(stored: StoredPlan): PlanStatusBody {
     const terminal = stored.status === 'done' || stored.status === 'failed' || stored.status === 'cancelled';
     const live = terminal ? undefined : plans.progress(stored.id);
-    const table = stored.status === 'done' ? (stored.table as PlanTable | null) : null;
+    const table = stored.status === 'done' ? stored.table : null;
     return {
       id: stored.id,
       status: live?.status ?? stored.status,
@@ -109,10 +109,8 @@ export async function planRoutes(app: FastifyInstance): Promise<void> {
         total: stored.total,
         etaSeconds: live?.etaSeconds ?? null,
       },
-      ...(table ? { table: table as never, recommendation: table.recommendation as never } : {}),
-      ...(stored.status === 'failed' && stored.error
-        ? { error: stored.error as PlanStatusBody['error'] }
-        : {}),
+      ...(table ? { table, recommendation: table.recommendation } : {}),
+      ...(stored.status === 'failed' && stored.error ? { error: stored.error } : {}),
       createdAt: stored.createdAt,
       updatedAt: stored.updatedAt,
       links: links(stored.id),
@@ -137,8 +135,9 @@ export async function planRoutes(app: FastifyInstance): Promise<void> {
       // Limits (matrix, iterations, cells) and one draw of every mask, before anything is queued
       // (src/plan validatePlan, on a worker thread).
       plans.checkCapacity();
-      const plan = await pool.runForRequest<Plan>(
-        { kind: 'validate-plan', body: request.body, limits },
+      const plan = await pool.runForRequest(
+        'validate-plan',
+        { plan: request.body, limits },
         disconnectSignal(request, reply),
       );
       const source = plan.source as { imageId?: string };
@@ -198,7 +197,7 @@ export async function planRoutes(app: FastifyInstance): Promise<void> {
       return reply
         .type('text/csv; charset=utf-8; header=present')
         .header('content-disposition', `attachment; filename="plan-${stored.id}.csv"`)
-        .send(tableToCsv(stored.table as PlanTable));
+        .send(tableToCsv(stored.table));
     },
   );
 
@@ -285,7 +284,7 @@ export async function planRoutes(app: FastifyInstance): Promise<void> {
       streams.delete(finish);
       raw.end();
     };
-    const onProgress = (progress: PlanProgress) => {
+    const onProgress = (progress: PlanEvent) => {
       if (progress.id !== id || closed) return;
       if (terminal(progress.status)) {
         const stored = store.getPlan(id);

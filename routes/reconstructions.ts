@@ -2,7 +2,7 @@ import { randomUUID } from 'node:crypto';
 import type { FastifyInstance } from 'fastify';
 import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
-import { type MaskDiagnostics, samplingSchema } from '../sampling/index.ts';
+import { samplingSchema } from '../sampling/index.ts';
 import { noiseSchema } from '../src/acquisition/index.ts';
 import type { RealImage } from '../src/core/real-image.ts';
 import { disconnectSignal } from '../src/http/disconnect-signal.ts';
@@ -17,7 +17,7 @@ import {
 } from '../src/http/sampled-summary.ts';
 import { checkIterationLimit, checkMatrixLimit, idParams, matrixSchema } from '../src/http/schemas.ts';
 import type { UploadedPixels } from '../src/jobs/tasks.ts';
-import { type ReconstructionOutcome, sourceSchema } from '../src/pipeline/run-reconstruction.ts';
+import { sourceSchema } from '../src/pipeline/run-reconstruction.ts';
 import { methodSchema } from '../src/recon/index.ts';
 import { greyPng, maskPng } from '../src/render/png.ts';
 
@@ -112,12 +112,9 @@ export async function reconstructionRoutes(app: FastifyInstance): Promise<void> 
         image = { id, image: pixels };
       }
       // A client that goes away stops the computation (the worker thread is ended).
-      const { outcome, diagnostics } = await pool.runForRequest<{
-        outcome: ReconstructionOutcome;
-        diagnostics: MaskDiagnostics;
-      }>(
+      const { outcome, diagnostics } = await pool.runForRequest(
+        'reconstruction',
         {
-          kind: 'reconstruction',
           request: pipelineRequest,
           ...(seed === undefined ? {} : { seed }),
           ...(image ? { image } : {}),

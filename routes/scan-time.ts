@@ -47,8 +47,7 @@ export async function scanTimeRoutes(app: FastifyInstance): Promise<void> {
       checkMatrixLimit(matrix, limits);
       let sampled: SampledMask | undefined;
       if (sampling) {
-        ({ sampled } = await pool.runForRequest<{ sampled: SampledMask }>({
-          kind: 'mask',
+        ({ sampled } = await pool.runForRequest('mask', {
           matrix,
           sampling,
           limits,

@@ -32,7 +32,7 @@ import { DataLifecycle, defaultRetention, type RetentionPolicy } from './jobs/li
 import { type PlanEngine, PlanQueue } from './jobs/plan-queue.ts';
 import { Store } from './jobs/store.ts';
 import { WorkerPool } from './jobs/worker-pool.ts';
-import { buildTable, type CellResult, type Plan, planCells } from './plan/index.ts';
+import { buildTable, planCells } from './plan/index.ts';
 
 export interface AppOptions {
   /** Where the SQLite file lives; default ./data. */
@@ -104,10 +104,7 @@ const openPlugins: FastifyPluginAsync[] = [healthRoutes, openapiRoutes, problemR
 const optionalPlugins = [new URL('../routes/web.ts', import.meta.url)];
 
 /** The plan engine (src/plan): cells are expanded and tables built here; runCell runs in the workers. */
-const defaultPlanEngine: PlanEngine = {
-  cells: (body, limits) => planCells(body as Plan, limits),
-  buildTable: (body, results) => buildTable(body as Plan, results as CellResult[]),
-};
+const defaultPlanEngine: PlanEngine = { cells: planCells, buildTable };
 
 /** Builds the fastify instance; used by main.ts and by the API tests (isolated on temp dirs). */
 export async function buildApp(options: AppOptions = {}): Promise<FastifyInstance> {
@@ -160,13 +157,8 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
   const workers = options.workers ?? availableParallelism();
   const pool = new WorkerPool(workers, options.maxRequestTasks ?? 8 * workers);
   const engine = options.planEngine ?? defaultPlanEngine;
-  const plans = new PlanQueue(store, pool, engine, limits, options.maxQueuedPlans ?? 16, app.log as never);
-  const lifecycle = new DataLifecycle(
-    store,
-    plans,
-    { ...defaultRetention, ...options.retention },
-    app.log as never,
-  );
+  const plans = new PlanQueue(store, pool, engine, limits, options.maxQueuedPlans ?? 16, app.log);
+  const lifecycle = new DataLifecycle(store, plans, { ...defaultRetention, ...options.retention }, app.log);
   const tenancy = (request: FastifyRequest) => tenancyOf(request, isolation);
   app.decorate('services', { store, pool, plans, lifecycle, tenancy, limits, routes });
   app.addHook('onClose', async () => {

@@ -1,9 +1,6 @@
-import type { FastifyError, FastifyInstance, FastifyReply } from 'fastify';
+import type { FastifyError, FastifyInstance } from 'fastify';
 import { hasZodFastifySchemaValidationErrors } from 'fastify-type-provider-zod';
-import { CancelledError, type FieldProblem, LimitError, ValidationError } from '../core/errors.ts';
-import { DecodeError } from '../io/decode-error.ts';
-import { QueueFullError } from '../jobs/plan-queue.ts';
-import { WorkersBusyError } from '../jobs/worker-pool.ts';
+import { type FieldProblem, KnownError } from '../core/errors.ts';
 import {
   HttpProblem,
   limitProblemKind,
@@ -105,23 +102,6 @@ const fastifyStatusByCode: Record<string, ProblemStatus> = {
   FST_ERR_CTP_INVALID_JSON_BODY: 400,
 };
 
-/** 429 with a Retry-After header: the service is too busy now; `detail` says what is busy, `message` why. */
-function sendRetryLater(
-  reply: FastifyReply,
-  retryAfterSeconds: number,
-  detail: string,
-  message: string,
-): FastifyReply {
-  const retry = String(retryAfterSeconds);
-  return sendProblem(
-    reply,
-    makeProblem(429, `${detail}; retry in about ${retry} s`, [
-      { field: 'body', message, allowed: 'retry after the Retry-After delay' },
-    ]),
-    { 'retry-after': retry },
-  );
-}
-
 /** Installs the RFC 9457 error and not-found handlers: a bad request never becomes a 500. */
 export function installErrorHandling(app: FastifyInstance): void {
   app.setErrorHandler((error: FastifyError | Error, request, reply) => {
@@ -132,36 +112,11 @@ export function installErrorHandling(app: FastifyInstance): void {
         error.headers,
       );
     }
-    if (error instanceof DecodeError) {
-      return sendProblem(
-        reply,
-        makeProblem(415, error.message, [{ field: error.field, message: error.message }]),
-      );
-    }
-    if (error instanceof QueueFullError) {
-      return sendRetryLater(
-        reply,
-        error.retryAfterSeconds,
-        'the plan queue is full',
-        'too many plans queued or running',
-      );
-    }
-    if (error instanceof WorkersBusyError) {
-      return sendRetryLater(
-        reply,
-        error.retryAfterSeconds,
-        'every worker thread is busy',
-        'too many computations in flight',
-      );
-    }
-    if (error instanceof LimitError) {
-      return sendProblem(reply, makeProblem(422, error.message, error.problems, limitProblemKind));
-    }
-    if (error instanceof ValidationError) {
-      return sendProblem(reply, makeProblem(422, error.message, error.problems));
-    }
-    if (error instanceof CancelledError) {
-      return sendProblem(reply, makeProblem(409, 'the computation was cancelled'));
+    if (error instanceof KnownError) {
+      // Each known error carries its answer (src/core/errors.ts); limits get their own problem type.
+      const { detail, errors, headers } = error.problem();
+      const kind = error.kind === 'limit' ? limitProblemKind : undefined;
+      return sendProblem(reply, makeProblem(error.status, detail, errors, kind), headers);
     }
     if (hasZodFastifySchemaValidationErrors(error)) {
       const context = (error as FastifyError).validationContext;

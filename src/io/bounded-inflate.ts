@@ -1,6 +1,5 @@
 import { createGunzip, inflateRawSync } from 'node:zlib';
-import { LimitError } from '../core/errors.ts';
-import { DecodeError } from './decode-error.ts';
+import { DecodeError, LimitError } from '../core/errors.ts';
 
 /**
  * Decompression with a ceiling on the output: a few hundred kilobytes of deflate can stand for

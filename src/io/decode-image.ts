@@ -1,6 +1,6 @@
+import { DecodeError } from '../core/errors.ts';
 import { defaultLimits } from '../core/limits.ts';
 import { gunzipBounded } from './bounded-inflate.ts';
-import { DecodeError } from './decode-error.ts';
 import type { DecodedImage, DecodeOptions } from './decoded-image.ts';
 import { decodeDicom, isDicomPart10 } from './dicom.ts';
 import {
@@ -13,7 +13,6 @@ import {
 } from './nifti.ts';
 import { decodeRaster } from './raster.ts';
 
-export { DecodeError } from './decode-error.ts';
 export type { DecodedImage, DecodeOptions, ImageFormat } from './decoded-image.ts';
 
 /** Decompression bound when the caller gives none (the default upload limit). */

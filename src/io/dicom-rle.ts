@@ -1,4 +1,4 @@
-import { DecodeError } from './decode-error.ts';
+import { DecodeError } from '../core/errors.ts';
 
 /**
  * DICOM RLE Lossless (PS3.5 Annex G): a 64-byte header (segment count, then 15 little-endian

@@ -1,8 +1,7 @@
 import dicomParser from 'dicom-parser';
-import { LimitError } from '../core/errors.ts';
+import { DecodeError, LimitError } from '../core/errors.ts';
 import { defaultLimits } from '../core/limits.ts';
 import { inflateRawBounded } from './bounded-inflate.ts';
-import { DecodeError } from './decode-error.ts';
 import type { DecodedImage, DecodeOptions } from './decoded-image.ts';
 import { decodeRleFrame } from './dicom-rle.ts';
 import { checkImageSize, checkIndex } from './image-size.ts';

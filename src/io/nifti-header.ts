@@ -1,5 +1,4 @@
-import { LimitError, ValidationError } from '../core/errors.ts';
-import { DecodeError } from './decode-error.ts';
+import { DecodeError, LimitError, ValidationError } from '../core/errors.ts';
 import { checkImageSize } from './image-size.ts';
 
 /**

@@ -1,4 +1,4 @@
-import { DecodeError } from './decode-error.ts';
+import { DecodeError } from '../core/errors.ts';
 import type { DecodedImage, DecodeOptions } from './decoded-image.ts';
 import { checkIndex } from './image-size.ts';
 import { checkNiftiHeader } from './nifti-header.ts';

@@ -1,6 +1,5 @@
 import sharp, { type Metadata, type OutputInfo } from 'sharp';
-import { LimitError } from '../core/errors.ts';
-import { DecodeError } from './decode-error.ts';
+import { DecodeError, LimitError } from '../core/errors.ts';
 import type { DecodedImage, DecodeOptions, ImageFormat } from './decoded-image.ts';
 import { checkImageSize, checkIndex } from './image-size.ts';
 

@@ -1,4 +1,4 @@
-import type { Logger } from 'pino';
+import type { JobLog } from './job-log.ts';
 import type { PlanQueue } from './plan-queue.ts';
 import type { EntryKind, Scope, Store } from './store.ts';
 
@@ -37,7 +37,7 @@ export class DataLifecycle {
     private readonly store: Store,
     private readonly plans: PlanQueue,
     private readonly policy: RetentionPolicy,
-    private readonly log: Logger | undefined,
+    private readonly log: JobLog | undefined,
   ) {}
 
   /**

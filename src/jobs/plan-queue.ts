@@ -1,51 +1,49 @@
 import { randomUUID } from 'node:crypto';
 import { EventEmitter } from 'node:events';
-import type { Logger } from 'pino';
 import { boundEcho, boundFieldProblems, MAX_DETAIL_CHARS } from '../core/echo-bound.ts';
-import { CancelledError, LimitError, ValidationError } from '../core/errors.ts';
+import { CancelledError, QueueFullError, ValidationError } from '../core/errors.ts';
 import type { Limits } from '../core/limits.ts';
-import type { RealImage } from '../core/real-image.ts';
-import type { InputRef, PlanStatus, Store, StoredPlan } from './store.ts';
+import {
+  type CellResult,
+  type Plan,
+  type PlanCell,
+  type PlanProgress,
+  type PlanTable,
+  ProgressClock,
+  runPlanCells,
+} from '../plan/index.ts';
+import type { JobLog } from './job-log.ts';
+import type { InputRef, PlanFailure, PlanStatus, Store, StoredPlan } from './store.ts';
+import type { UploadedPixels } from './tasks.ts';
 import type { WorkerPool } from './worker-pool.ts';
 
 /** The plan engine as the queue needs it (src/plan: planCells, buildTable; runCell runs in the workers). */
 export interface PlanEngine {
-  cells(plan: unknown, limits: Limits): Array<{ index: number }>;
-  buildTable(plan: unknown, results: unknown[]): unknown;
+  cells(plan: Plan, limits: Limits): PlanCell[];
+  buildTable(plan: Plan, results: CellResult[]): PlanTable;
 }
 
-export interface PlanProgress {
+/** What the queue emits as 'progress': a plan's progress with its id and status. */
+export interface PlanEvent extends PlanProgress {
   id: string;
   status: PlanStatus;
-  done: number;
-  total: number;
-  /** Estimated seconds to completion from this run's cell rate; null until a cell has finished. */
-  etaSeconds: number | null;
-}
-
-export class QueueFullError extends Error {
-  override readonly name = 'QueueFullError';
-  readonly retryAfterSeconds: number;
-  constructor(retryAfterSeconds: number) {
-    super('the plan queue is full');
-    this.retryAfterSeconds = retryAfterSeconds;
-  }
 }
 
 interface ActivePlan {
   id: string;
-  body: unknown;
+  plan: Plan;
   total: number;
   done: number;
   controller: AbortController;
-  startedAt: number | null;
-  doneAtStart: number;
+  /** Set when the plan starts running. */
+  clock: ProgressClock | null;
 }
 
 /**
- * A bounded FIFO of plans. One plan runs at a time, its cells spread over every worker thread;
- * each finished cell is written to the store before it counts, so a restart resumes after the last
- * finished cell. Emits 'progress' (PlanProgress) after every cell and on every status change.
+ * A bounded FIFO of plans. One plan runs at a time, its cells spread over every worker thread by
+ * src/plan's runPlanCells; each finished cell is written to the store before it counts, so a restart
+ * resumes after the last finished cell. Emits 'progress' (PlanEvent) after every cell and on every
+ * status change.
  */
 export class PlanQueue extends EventEmitter {
   private readonly active: ActivePlan[] = [];
@@ -59,7 +57,7 @@ export class PlanQueue extends EventEmitter {
     private readonly engine: PlanEngine,
     private readonly limits: Limits,
     private readonly capacity: number,
-    private readonly log: Logger | undefined,
+    private readonly log: JobLog | undefined,
   ) {
     super();
     this.setMaxListeners(0);
@@ -67,8 +65,8 @@ export class PlanQueue extends EventEmitter {
 
   /** Re-queues the plans that were queued or running when the service last stopped. */
   resume(): void {
-    for (const plan of this.store.unfinishedPlans()) {
-      this.active.push(this.activePlan(plan.id, plan.body, plan.total, plan.done));
+    for (const stored of this.store.unfinishedPlans()) {
+      this.active.push(this.activePlan(stored.id, stored.plan, stored.total, stored.done));
     }
     this.pump();
   }
@@ -79,13 +77,13 @@ export class PlanQueue extends EventEmitter {
   }
 
   /** Queues a validated plan; throws LimitError for oversized plans, QueueFullError when full. */
-  submit(body: unknown, provenance: { owner?: string | null; inputs?: InputRef[] } = {}): StoredPlan {
+  submit(plan: Plan, provenance: { owner?: string | null; inputs?: InputRef[] } = {}): StoredPlan {
     if (this.closed) throw new CancelledError();
-    const total = this.engine.cells(body, this.limits).length;
+    const total = this.engine.cells(plan, this.limits).length;
     this.checkCapacity();
     const id = randomUUID();
-    const stored = this.store.createPlan(id, body, total, provenance);
-    this.active.push(this.activePlan(id, body, total, 0));
+    const stored = this.store.createPlan(id, plan, total, provenance);
+    this.active.push(this.activePlan(id, plan, total, 0));
     this.pump();
     return stored;
   }
@@ -102,11 +100,10 @@ export class PlanQueue extends EventEmitter {
   }
 
   /** Live progress of a queued or running plan (undefined once it has left the queue). */
-  progress(id: string): PlanProgress | undefined {
+  progress(id: string): PlanEvent | undefined {
     const plan = this.active.find((p) => p.id === id);
     if (!plan) return undefined;
-    const status: PlanStatus = plan.startedAt === null ? 'queued' : 'running';
-    return { id, status, done: plan.done, total: plan.total, etaSeconds: this.eta(plan) };
+    return this.event(plan, plan.clock === null ? 'queued' : 'running');
   }
 
   get length(): number {
@@ -127,25 +124,17 @@ export class PlanQueue extends EventEmitter {
     await this.running?.catch(() => undefined);
   }
 
-  private activePlan(id: string, body: unknown, total: number, done: number): ActivePlan {
-    return { id, body, total, done, controller: new AbortController(), startedAt: null, doneAtStart: done };
+  private activePlan(id: string, plan: Plan, total: number, done: number): ActivePlan {
+    return { id, plan, total, done, controller: new AbortController(), clock: null };
   }
 
-  private eta(plan: ActivePlan): number | null {
-    if (plan.startedAt === null || plan.done <= plan.doneAtStart) return null;
-    const perCell = (Date.now() - plan.startedAt) / 1000 / (plan.done - plan.doneAtStart);
-    return Math.round(perCell * (plan.total - plan.done) * 10) / 10;
+  private event(plan: ActivePlan, status: PlanStatus): PlanEvent {
+    const etaSeconds = status === 'running' && plan.clock ? plan.clock.at(plan.done).etaSeconds : null;
+    return { id: plan.id, status, done: plan.done, total: plan.total, etaSeconds };
   }
 
   private emitProgress(plan: ActivePlan, status: PlanStatus): void {
-    const progress: PlanProgress = {
-      id: plan.id,
-      status,
-      done: plan.done,
-      total: plan.total,
-      etaSeconds: status === 'running' ? this.eta(plan) : null,
-    };
-    this.emit('progress', progress);
+    this.emit('progress', this.event(plan, status));
   }
 
   private pump(): void {
@@ -162,72 +151,73 @@ export class PlanQueue extends EventEmitter {
       });
   }
 
-  private async runPlan(plan: ActivePlan): Promise<void> {
-    const { signal } = plan.controller;
-    plan.startedAt = Date.now();
-    this.store.setPlanStatus(plan.id, 'running');
-    this.emitProgress(plan, 'running');
+  private async runPlan(active: ActivePlan): Promise<void> {
+    const { signal } = active.controller;
+    const { plan } = active;
+    this.store.setPlanStatus(active.id, 'running');
     try {
-      const cells = this.engine.cells(plan.body, this.limits);
-      const finished = this.store.planCells(plan.id);
-      plan.done = finished.size;
-      plan.doneAtStart = finished.size;
-      const image = this.uploadedImage(plan.body);
-      const pending = cells.filter((cell) => !finished.has(cell.index));
-      let next = 0;
-      const lane = async (): Promise<void> => {
-        while (next < pending.length && !signal.aborted) {
-          const cell = pending[next++];
+      const cells = this.engine.cells(plan, this.limits);
+      const finished = this.store.planCells(active.id);
+      active.done = finished.size;
+      active.clock = new ProgressClock(active.total, finished.size);
+      this.emitProgress(active, 'running');
+      const image = this.uploadedImage(plan);
+      const results = await runPlanCells(cells, {
+        runCell: async (cell) => {
           const started = Date.now();
-          const result = await this.pool.run<unknown>(
-            { kind: 'cell', plan: plan.body, cell, image, limits: this.limits },
-            signal,
-          );
-          if (signal.aborted || this.closed) return;
-          plan.done = this.store.putPlanCell(plan.id, cell.index, result);
-          finished.set(cell.index, result);
+          const result = await this.pool.run('cell', { plan, cell, image, limits: this.limits }, signal);
           const seconds = (Date.now() - started) / 1000;
           this.secondsPerCell =
             this.secondsPerCell === null ? seconds : 0.8 * this.secondsPerCell + 0.2 * seconds;
-          this.emitProgress(plan, 'running');
-        }
-      };
-      await Promise.all(Array.from({ length: Math.min(this.pool.size, Math.max(1, pending.length)) }, lane));
-      if (signal.aborted || this.closed) return;
-      const results = cells.map((cell) => finished.get(cell.index));
-      const table = this.engine.buildTable(plan.body, results);
-      this.store.setPlanStatus(plan.id, 'done', { table });
-      this.emitProgress(plan, 'done');
+          return result;
+        },
+        concurrency: this.pool.size,
+        signal,
+        finished,
+        clock: active.clock,
+        onCell: (result) => {
+          active.done = this.store.putPlanCell(active.id, result.index, result);
+          this.emitProgress(active, 'running');
+        },
+      });
+      const table = this.engine.buildTable(plan, results);
+      this.store.setPlanStatus(active.id, 'done', { table });
+      this.emitProgress(active, 'done');
     } catch (error) {
       if (signal.aborted || this.closed || error instanceof CancelledError) return;
-      const failure =
-        error instanceof ValidationError
-          ? {
-              status: 422,
-              kind: error instanceof LimitError ? 'limit' : 'validation',
-              // Stored with the plan: bounded like every problem the HTTP layer sends.
-              detail: boundEcho(error.message, MAX_DETAIL_CHARS),
-              errors: boundFieldProblems(error.problems),
-            }
-          : {
-              status: 500,
-              kind: 'internal',
-              detail: 'a cell failed unexpectedly; see the service log',
-              errors: [],
-            };
-      if (failure.status === 500) this.log?.error({ err: error, planId: plan.id }, 'plan cell failed');
-      this.store.setPlanStatus(plan.id, 'failed', { error: failure });
-      this.emitProgress(plan, 'failed');
+      const failure = planFailure(error);
+      if (failure.status === 500) this.log?.error({ err: error, planId: active.id }, 'plan cell failed');
+      this.store.setPlanStatus(active.id, 'failed', { error: failure });
+      this.emitProgress(active, 'failed');
     }
   }
 
-  private uploadedImage(body: unknown): { id: string; image: RealImage } | undefined {
-    const source = (body as { source?: { imageId?: unknown } }).source;
-    if (!source || typeof source.imageId !== 'string') return undefined;
-    const image = this.store.getImagePixels(source.imageId);
+  private uploadedImage(plan: Plan): UploadedPixels | undefined {
+    if (!('imageId' in plan.source)) return undefined;
+    const id = plan.source.imageId;
+    const image = this.store.getImagePixels(id);
     if (!image) {
       throw new ValidationError({ field: 'source.imageId', message: 'the uploaded image no longer exists' });
     }
-    return { id: source.imageId, image };
+    return { id, image };
   }
+}
+
+/** What a failed plan stores: bad values name their fields (422); anything else is the service's fault. */
+function planFailure(error: unknown): PlanFailure {
+  if (error instanceof ValidationError) {
+    // Stored with the plan: bounded like every problem the HTTP layer sends.
+    return {
+      status: error.status,
+      kind: error.kind,
+      detail: boundEcho(error.message, MAX_DETAIL_CHARS),
+      errors: boundFieldProblems(error.problems),
+    };
+  }
+  return {
+    status: 500,
+    kind: 'internal',
+    detail: 'a cell failed unexpectedly; see the service log',
+    errors: [],
+  };
 }

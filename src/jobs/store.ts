@@ -1,7 +1,10 @@
 import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import Database from 'better-sqlite3';
+import { boundEcho, boundFieldProblems, MAX_DETAIL_CHARS } from '../core/echo-bound.ts';
+import type { FieldProblem } from '../core/errors.ts';
 import type { RealImage } from '../core/real-image.ts';
+import { type CellResult, cellResultSchema, type Plan, type PlanTable, planSchema } from '../plan/index.ts';
 
 export type PlanStatus = 'queued' | 'running' | 'done' | 'failed' | 'cancelled';
 
@@ -14,19 +17,36 @@ export interface StoredImage {
   ny: number;
 }
 
+/** Why a plan failed, as stored with it and shown in its status (problem-like, bounded). */
+export interface PlanFailure {
+  status: number;
+  kind: string;
+  detail: string;
+  errors: FieldProblem[];
+}
+
+/** A plan's state as stored: what its status answer shows (the plan itself is read by the queue only). */
 export interface StoredPlan {
   id: string;
   createdAt: string;
   updatedAt: string;
   status: PlanStatus;
-  body: unknown;
   total: number;
   done: number;
-  table: unknown | null;
-  error: unknown | null;
+  table: PlanTable | null;
+  error: PlanFailure | null;
 }
 
-interface PlanRow {
+/** A queued or running plan to resume: its typed plan, parsed back with the plan schema. */
+export interface UnfinishedPlan {
+  id: string;
+  plan: Plan;
+  total: number;
+  done: number;
+}
+
+/** One row of the plans table in SQLite, columns as stored (JSON in TEXT columns). */
+interface PlanSqlRow {
   id: string;
   created_at: string;
   updated_at: string;
@@ -121,13 +141,12 @@ const visible = '(@everyone = 1 OR owner = @owner)';
 
 const activePlanStatuses = `('queued', 'running')`;
 
-function planFromRow(row: PlanRow): StoredPlan {
+function planFromRow(row: PlanSqlRow): StoredPlan {
   return {
     id: row.id,
     createdAt: row.created_at,
     updatedAt: row.updated_at,
     status: row.status,
-    body: JSON.parse(row.body),
     total: row.total,
     done: row.done,
     table: row.table_json === null ? null : JSON.parse(row.table_json),
@@ -281,7 +300,7 @@ export class Store {
 
   createPlan(
     id: string,
-    body: unknown,
+    body: Plan,
     total: number,
     provenance: { owner?: string | null; inputs?: InputRef[] } = {},
   ): StoredPlan {
@@ -301,19 +320,33 @@ export class Store {
   getPlan(id: string, scope: Scope = 'all'): StoredPlan | undefined {
     const row = this.db
       .prepare(`SELECT * FROM plans WHERE id = @id AND ${visible}`)
-      .get({ id, ...scopeParams(scope) }) as PlanRow | undefined;
+      .get({ id, ...scopeParams(scope) }) as PlanSqlRow | undefined;
     return row && planFromRow(row);
   }
 
-  /** Plans that were queued or running when the service stopped, oldest first. */
-  unfinishedPlans(): StoredPlan[] {
+  /**
+   * Plans that were queued or running when the service stopped, oldest first, each parsed back with
+   * the plan schema once. A plan an earlier version stored that no longer parses is marked failed
+   * (naming the fields) instead of stopping the service.
+   */
+  unfinishedPlans(): UnfinishedPlan[] {
     const rows = this.db
       .prepare(`SELECT * FROM plans WHERE status IN ('queued', 'running') ORDER BY seq`)
-      .all() as PlanRow[];
-    return rows.map(planFromRow);
+      .all() as PlanSqlRow[];
+    const plans: UnfinishedPlan[] = [];
+    for (const row of rows) {
+      const parsed = parseStoredPlan(row.body);
+      if (parsed.ok) plans.push({ id: row.id, plan: parsed.plan, total: row.total, done: row.done });
+      else this.setPlanStatus(row.id, 'failed', { error: parsed.failure });
+    }
+    return plans;
   }
 
-  setPlanStatus(id: string, status: PlanStatus, extra: { table?: unknown; error?: unknown } = {}): void {
+  setPlanStatus(
+    id: string,
+    status: PlanStatus,
+    extra: { table?: PlanTable; error?: PlanFailure } = {},
+  ): void {
     this.db
       .prepare(
         'UPDATE plans SET status = ?, updated_at = ?, table_json = COALESCE(?, table_json), error = ? WHERE id = ?',
@@ -328,7 +361,7 @@ export class Store {
   }
 
   /** Records one finished cell and the new done count atomically, so a restart resumes after it. */
-  putPlanCell(planId: string, index: number, result: unknown): number {
+  putPlanCell(planId: string, index: number, result: CellResult): number {
     return this.db.transaction(() => {
       this.db
         .prepare('INSERT OR REPLACE INTO plan_cells (plan_id, idx, result) VALUES (?, ?, ?)')
@@ -343,14 +376,23 @@ export class Store {
     })();
   }
 
-  planCells(planId: string): Map<number, unknown> {
+  /**
+   * Finished cells of a plan by index. A cell stored in a shape this version does not read is left
+   * out, so a resumed plan runs it again.
+   */
+  planCells(planId: string): Map<number, CellResult> {
     const rows = this.db
       .prepare('SELECT idx, result FROM plan_cells WHERE plan_id = ?')
       .all(planId) as Array<{
       idx: number;
       result: string;
     }>;
-    return new Map(rows.map((row) => [row.idx, JSON.parse(row.result)]));
+    const cells = new Map<number, CellResult>();
+    for (const row of rows) {
+      const parsed = cellResultSchema.safeParse(parseJson(row.result));
+      if (parsed.success) cells.set(row.idx, parsed.data);
+    }
+    return cells;
   }
   // --- deletion and retention ------------------------------------------------------------------
 
@@ -452,6 +494,36 @@ export class Store {
       pinned: row.pinned === 1,
     }));
   }
+}
+
+function parseJson(text: string): unknown {
+  try {
+    return JSON.parse(text);
+  } catch {
+    return undefined;
+  }
+}
+
+/** A stored plan body through the plan schema: the typed plan, or the failure to store instead. */
+function parseStoredPlan(body: string): { ok: true; plan: Plan } | { ok: false; failure: PlanFailure } {
+  const parsed = planSchema.safeParse(parseJson(body));
+  if (parsed.success) return { ok: true, plan: parsed.data };
+  const errors = parsed.error.issues.map((issue) => ({
+    field: issue.path.length === 0 ? 'body' : issue.path.map(String).join('.'),
+    message: issue.message,
+  }));
+  return {
+    ok: false,
+    failure: {
+      status: 422,
+      kind: 'validation',
+      detail: boundEcho(
+        'the stored plan does not match the plan schema of this version; submit it again',
+        MAX_DETAIL_CHARS,
+      ),
+      errors: boundFieldProblems(errors),
+    },
+  };
 }
 
 function tableOf(kind: EntryKind): string {

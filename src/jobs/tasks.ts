@@ -1,23 +1,10 @@
-import type { FieldProblem } from '../core/errors.ts';
+import type { MaskDiagnostics, Matrix, SampledMask, SamplingSpec } from '../../sampling/index.ts';
+import type { WorkerFailure } from '../core/error-transport.ts';
 import type { Limits } from '../core/limits.ts';
 import type { RealImage } from '../core/real-image.ts';
-import type { DecodeOptions } from '../io/decoded-image.ts';
-
-/** Work sent to a worker thread: plain, structured-clonable data only. */
-export type WorkerTask =
-  | { kind: 'decode'; bytes: Uint8Array; options: DecodeOptions }
-  | { kind: 'phantom-kspace'; name: string; kx: Float64Array; ky: Float64Array }
-  | { kind: 'phantom-raster'; name: string; nx: number; ny: number; supersample?: number }
-  | {
-      kind: 'mask';
-      matrix: { nx: number; ny: number };
-      sampling: unknown;
-      limits: Limits;
-      diagnostics: boolean;
-    }
-  | { kind: 'reconstruction'; request: unknown; seed?: number; image?: UploadedPixels; limits: Limits }
-  | { kind: 'validate-plan'; body: unknown; limits: Limits }
-  | { kind: 'cell'; plan: unknown; cell: unknown; image?: UploadedPixels; limits: Limits };
+import type { DecodedImage, DecodeOptions } from '../io/decoded-image.ts';
+import type { ReconstructionOutcome, ReconstructionRequest } from '../pipeline/run-reconstruction.ts';
+import type { CellResult, Plan, PlanCell } from '../plan/index.ts';
 
 /** An uploaded image the task needs, sent along so workers never open the database. */
 export interface UploadedPixels {
@@ -25,19 +12,42 @@ export interface UploadedPixels {
   image: RealImage;
 }
 
-/** Typed engine errors cannot cross a thread boundary as classes, so they travel as data. */
-export interface WorkerFailure {
-  ok: false;
-  error: {
-    kind: 'validation' | 'limit' | 'cancelled' | 'decode' | 'internal';
-    message: string;
-    problems: FieldProblem[];
+/**
+ * Every task a worker thread runs: its input (typed values the HTTP edge or the plan schema already
+ * validated; plain, structured-clonable data) and its output. The worker trusts its inputs and does
+ * not parse them again.
+ */
+export interface TaskMap {
+  decode: { input: { bytes: Uint8Array; options: DecodeOptions }; output: DecodedImage };
+  'phantom-kspace': { input: { name: string; kx: Float64Array; ky: Float64Array }; output: Float64Array };
+  'phantom-raster': {
+    input: { name: string; nx: number; ny: number; supersample?: number };
+    output: RealImage;
+  };
+  mask: {
+    input: { matrix: Matrix; sampling: SamplingSpec; limits: Limits; diagnostics: boolean };
+    output: { sampled: SampledMask; diagnostics: MaskDiagnostics | null };
+  };
+  reconstruction: {
+    input: { request: ReconstructionRequest; seed?: number; image?: UploadedPixels; limits: Limits };
+    output: { outcome: ReconstructionOutcome; diagnostics: MaskDiagnostics };
+  };
+  /** Limits and one draw of every mask of a plan that already has the plan schema's shape. */
+  'validate-plan': { input: { plan: Plan; limits: Limits }; output: Plan };
+  cell: {
+    input: { plan: Plan; cell: PlanCell; image?: UploadedPixels; limits: Limits };
+    output: CellResult;
   };
 }
 
-export interface WorkerSuccess<T> {
-  ok: true;
-  value: T;
-}
+export type TaskKind = keyof TaskMap;
+export type TaskInput<K extends TaskKind> = TaskMap[K]['input'];
+export type TaskOutput<K extends TaskKind> = TaskMap[K]['output'];
 
-export type WorkerReply<T> = WorkerSuccess<T> | WorkerFailure;
+/** What the pool posts to a thread: the kind picks the handler, the input is its typed argument. */
+export type WorkerTask = { [K in TaskKind]: { kind: K; input: TaskInput<K> } }[TaskKind];
+
+/** A task's answer: its typed output, or an error as data (src/core/error-transport.ts). */
+export type WorkerReply<K extends TaskKind> =
+  | { ok: true; value: TaskOutput<K> }
+  | { ok: false; error: WorkerFailure };

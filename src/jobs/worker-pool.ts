@@ -1,7 +1,7 @@
 import { Piscina } from 'piscina';
-import { CancelledError, LimitError, ValidationError } from '../core/errors.ts';
-import { DecodeError } from '../io/decode-error.ts';
-import type { WorkerReply, WorkerTask } from './tasks.ts';
+import { fromWorkerFailure } from '../core/error-transport.ts';
+import { CancelledError, WorkerError, WorkersBusyError } from '../core/errors.ts';
+import type { TaskInput, TaskKind, TaskOutput, WorkerReply, WorkerTask } from './tasks.ts';
 
 /**
  * Workers run the TypeScript sources directly. worker-entry.mjs registers tsx's ESM hooks in the
@@ -10,19 +10,6 @@ import type { WorkerReply, WorkerTask } from './tasks.ts';
  * Node 20: the loader is not applied to the worker's ESM imports.)
  */
 const workerFile = new URL('./worker-entry.mjs', import.meta.url).href;
-
-export class WorkerError extends Error {
-  override readonly name = 'WorkerError';
-}
-
-/** Too many request-driven tasks waiting for a thread (HTTP 429): a burst cannot pile up without bound. */
-export class WorkersBusyError extends Error {
-  override readonly name = 'WorkersBusyError';
-  readonly retryAfterSeconds = 2;
-  constructor() {
-    super('all worker threads are busy');
-  }
-}
 
 /** A fixed-size pool of worker threads for plan cells and long single computations. */
 export class WorkerPool {
@@ -61,12 +48,14 @@ export class WorkerPool {
   }
 
   /** Runs a task on a worker; typed engine errors thrown there are rethrown here as the same classes. */
-  async run<T>(task: WorkerTask, signal?: AbortSignal): Promise<T> {
+  async run<K extends TaskKind>(kind: K, input: TaskInput<K>, signal?: AbortSignal): Promise<TaskOutput<K>> {
     if (this.destroyed || signal?.aborted) throw new CancelledError();
-    let reply: WorkerReply<T>;
+    let reply: WorkerReply<K>;
     this.tasksInFlight++;
     try {
-      reply = (await this.piscina.run(task, signal ? { signal } : {})) as WorkerReply<T>;
+      // piscina's run is untyped: the reply is what worker.ts's handler for this kind returned.
+      const task = { kind, input } as WorkerTask;
+      reply = await this.piscina.run(task, signal ? { signal } : {});
     } catch (error) {
       // piscina rejects with an AbortError when the signal fires: the worker thread was stopped.
       if (signal?.aborted || this.destroyed) throw new CancelledError();
@@ -75,23 +64,22 @@ export class WorkerPool {
       this.tasksInFlight--;
     }
     if (reply.ok) return reply.value;
-    const { kind, message, problems } = reply.error;
-    if (kind === 'limit') throw new LimitError(problems);
-    if (kind === 'validation') throw new ValidationError(problems);
-    if (kind === 'cancelled') throw new CancelledError();
-    if (kind === 'decode') throw new DecodeError(message, problems[0]?.field);
-    throw new WorkerError(message);
+    throw fromWorkerFailure(reply.error);
   }
 
   /**
    * For route handlers: like run, but refused with WorkersBusyError when too many are in flight.
    * `signal` (from disconnectSignal) stops the task when the client goes away.
    */
-  async runForRequest<T>(task: WorkerTask, signal?: AbortSignal): Promise<T> {
+  async runForRequest<K extends TaskKind>(
+    kind: K,
+    input: TaskInput<K>,
+    signal?: AbortSignal,
+  ): Promise<TaskOutput<K>> {
     if (this.requestTasks >= this.maxRequestTasks) throw new WorkersBusyError();
     this.requestTasks++;
     try {
-      return await this.run<T>(task, signal);
+      return await this.run(kind, input, signal);
     } finally {
       this.requestTasks--;
     }

@@ -19,6 +19,7 @@ export {
   referenceMethod,
   referenceSampling,
 } from './plan-cells.ts';
+export { type PlanProgress, ProgressClock } from './plan-progress.ts';
 export {
   type MethodRecommendation,
   methodRecommendationSchema,
@@ -35,7 +36,8 @@ export {
 export { describeTarget, meetsTarget, recommend } from './recommend.ts';
 export { type GridPosition, rowKey } from './row-key.ts';
 export { runCell } from './run-cell.ts';
-export { type PlanProgress, type RunCellFn, type RunPlanOptions, runPlan } from './run-plan.ts';
+export { type RunCellFn, type RunPlanOptions, runPlan } from './run-plan.ts';
+export { type RunPlanCellsOptions, runPlanCells } from './run-plan-cells.ts';
 export { type Plan, type PlanInput, planMatrixSchema, planPatternSchema, planSchema } from './schema.ts';
 export { type Summary, summarize } from './statistics.ts';
 export { csvColumns, csvField, tableToCsv } from './table-csv.ts';

@@ -9,8 +9,11 @@ import { type MethodSpec, methodSchema, type SamplingSpec, samplingSchema } from
 export interface PlanCell extends GridPosition {
   /** Position in planCells order: the reference seeds first, then patterns × R × methods × seeds. */
   index: number;
-  /** The sampling spec with the plan's acceleration filled in (seed is passed separately). */
-  pattern: SamplingSpec;
+  /**
+   * The whole sampling spec with the plan's acceleration filled in (seed is passed separately); the
+   * table row's `pattern` is only its label.
+   */
+  sampling: SamplingSpec;
   /** Requested R; null for a custom mask. */
   acceleration: number | null;
   method: MethodSpec;
@@ -39,12 +42,12 @@ export function planCells(plan: Plan, limits: Limits = defaultLimits): PlanCell[
   const cells: PlanCell[] = [];
   const push = (
     position: GridPosition,
-    pattern: SamplingSpec,
+    sampling: SamplingSpec,
     acceleration: number | null,
     method: MethodSpec,
   ) => {
     for (let seed = 1; seed <= plan.seeds; seed++) {
-      cells.push({ ...position, index: cells.length, pattern, acceleration, method, seed });
+      cells.push({ ...position, index: cells.length, sampling, acceleration, method, seed });
     }
   };
   push(

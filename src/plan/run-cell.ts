@@ -14,7 +14,7 @@ export async function runCell(plan: Plan, cell: PlanCell, ctx?: PipelineContext)
     {
       source: plan.source,
       matrix: plan.matrix,
-      sampling: cell.pattern,
+      sampling: cell.sampling,
       ...(plan.noise === undefined ? {} : { noise: plan.noise }),
       method: cell.method,
     },

@@ -1,6 +1,5 @@
 import { defaultLimits } from '../../src/core/limits.ts';
 import { WorkerPool } from '../../src/jobs/worker-pool.ts';
-import type { CellResult } from '../../src/plan/cell-result.ts';
 import { runPlan } from '../../src/plan/run-plan.ts';
 import { validatePlan } from '../../src/plan/validate-plan.ts';
 import { type BenchRow, medianMs } from './timing.ts';
@@ -57,7 +56,7 @@ export async function benchPlan(): Promise<BenchRow[]> {
     const t1 = performance.now();
     const pooled = await runPlan(benchPlanBody, {
       concurrency: pool.size,
-      runCellFn: (plan, cell) => pool.run<CellResult>({ kind: 'cell', plan, cell, limits: defaultLimits }),
+      runCellFn: (plan, cell) => pool.run('cell', { plan, cell, limits: defaultLimits }),
     });
     const pooledMs = performance.now() - t1;
     rows.push({

@@ -1,6 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { LimitError } from '../../src/core/errors.ts';
-import { DecodeError } from '../../src/io/decode-error.ts';
+import { DecodeError, LimitError } from '../../src/core/errors.ts';
 import { decodeImage } from '../../src/io/decode-image.ts';
 import { decodeDicom } from '../../src/io/dicom.ts';
 import { deflatedDicomBomb, gzippedNifti2Bomb, gzippedWithZeros } from './inflation-bombs.ts';

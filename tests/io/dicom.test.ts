@@ -1,7 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { ValidationError } from '../../src/core/errors.ts';
-import { DecodeError } from '../../src/io/decode-error.ts';
+import { DecodeError, ValidationError } from '../../src/core/errors.ts';
 import { decodeImage } from '../../src/io/decode-image.ts';
 import { decodeDicom } from '../../src/io/dicom.ts';
 import { at, debianFile, sum } from './debian-files.ts';

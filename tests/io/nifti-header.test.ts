@@ -1,7 +1,6 @@
 import { gunzipSync, gzipSync } from 'node:zlib';
 import { describe, expect, it } from 'vitest';
-import { LimitError, ValidationError } from '../../src/core/errors.ts';
-import { DecodeError } from '../../src/io/decode-error.ts';
+import { DecodeError, LimitError, ValidationError } from '../../src/core/errors.ts';
 import { decodeImage } from '../../src/io/decode-image.ts';
 import { decodeNifti } from '../../src/io/nifti.ts';
 import { debianFile } from './debian-files.ts';

@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { DecodeError } from '../../src/io/decode-error.ts';
+import { DecodeError } from '../../src/core/errors.ts';
 import { decodeImage } from '../../src/io/decode-image.ts';
 import { at, sum } from './debian-files.ts';
 

@@ -18,10 +18,10 @@ import { smallPlanBody } from './small-plan.ts';
 const body = smallPlanBody;
 
 const syntheticCell: RunCellFn = async (plan: Plan, cell: PlanCell): Promise<CellResult> => {
-  const sampled = generateMask(plan.matrix, { ...cell.pattern, seed: cell.seed });
+  const sampled = generateMask(plan.matrix, { ...cell.sampling, seed: cell.seed });
   const time = scanTime(plan.matrix, plan.protocol, sampled);
   const r = sampled.acceleration.actual;
-  const wobble = cell.pattern.pattern === 'cartesian-random' ? 0.01 * cell.seed : 0;
+  const wobble = cell.sampling.pattern === 'cartesian-random' ? 0.01 * cell.seed : 0;
   return {
     index: cell.index,
     reference: cell.reference,
@@ -56,7 +56,7 @@ describe('runPlan with an injected cell runner', () => {
     ]);
     expect(cells.map((c) => c.index)).toEqual(cells.map((_, i) => i));
     expect(new Set(cells.map((c) => c.seed))).toEqual(new Set([1, 2]));
-    expect(cells[2].pattern).toMatchObject({ pattern: 'cartesian-uniform', acceleration: 2, acs: 4 });
+    expect(cells[2].sampling).toMatchObject({ pattern: 'cartesian-uniform', acceleration: 2, acs: 4 });
   });
 
   it('reports progress (done, total, ETA) and streams every cell', async () => {
