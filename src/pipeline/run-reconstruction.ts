@@ -1,10 +1,5 @@
 import { z } from 'zod';
-import {
-  resolveSampling,
-  type SampledMask,
-  type SamplingSpec,
-  validateMatrix,
-} from '../../sampling/index.ts';
+import { resolveSampling, type SampledMask, type SamplingSpec } from '../../sampling/index.ts';
 import { acquire } from '../acquisition/acquire.ts';
 import type { FullAcquisition } from '../acquisition/full-acquisition.ts';
 import { fullKspaceFromImage } from '../acquisition/image-source.ts';
@@ -13,6 +8,7 @@ import { fullKspaceFromPhantom } from '../acquisition/phantom-source.ts';
 import { type ComplexImage, magnitude } from '../core/complex-image.ts';
 import { ValidationError } from '../core/errors.ts';
 import { defaultLimits, type Limits } from '../core/limits.ts';
+import { validateMatrix } from '../core/matrix.ts';
 import type { RealImage } from '../core/real-image.ts';
 import { type MetricSet, SSIM_RADIUS, scoreAll } from '../metrics/index.ts';
 import { getPhantom } from '../phantoms/index.ts';
