@@ -6,7 +6,15 @@ import { HttpProblem, jsonResponse, problemResponses } from '../src/http/problem
 import { idParams } from '../src/http/schemas.ts';
 import type { PlanProgress } from '../src/jobs/plan-queue.ts';
 import type { StoredPlan } from '../src/jobs/store.ts';
-import { type Plan, type PlanTable, planSchema, tableToCsv } from '../src/plan/index.ts';
+import {
+  type Plan,
+  type PlanTable,
+  planRowSchema,
+  planSchema,
+  planTableSchema,
+  recommendationSchema,
+  tableToCsv,
+} from '../src/plan/index.ts';
 
 const statusSchema = z.enum(['queued', 'running', 'done', 'failed', 'cancelled']);
 
@@ -18,36 +26,15 @@ const progressSchema = z
   })
   .meta({ id: 'PlanProgress' });
 
-const summarySchema = z.object({ mean: z.number().nullable(), sd: z.number().nullable() }).loose();
-
-const rowSchema = z
-  .object({
-    key: z.string(),
-    pattern: z.string(),
-    method: z.string(),
-    requestedR: z.number().nullable(),
-    actualR: z.number(),
-    acquired: z.number(),
-    acquiredUnit: z.string(),
-    scanSeconds: z.number(),
-    scanFormatted: z.string(),
-    timeSavedPct: z.number(),
-    metrics: z.record(z.string(), summarySchema),
-    reconMs: z.number(),
-    seeds: z.int(),
-    pareto: z.boolean(),
-    meetsTarget: z.boolean().nullable(),
+// The tradeoff table as src/plan defines it, published as components (`.meta` returns registered copies).
+const recommendationComponent = recommendationSchema.meta({ id: 'Recommendation' });
+const tableSchema = planTableSchema
+  .extend({
+    rows: z
+      .array(planRowSchema.meta({ id: 'PlanRow' }))
+      .describe(planTableSchema.shape.rows.description ?? ''),
+    recommendation: recommendationComponent,
   })
-  .loose()
-  .meta({ id: 'PlanRow' });
-
-const tableSchema = z
-  .object({
-    rows: z.array(rowSchema).describe('rows[0] is the fully sampled reference'),
-    paretoMetric: z.string(),
-    recommendation: z.object({ statement: z.string() }).loose(),
-  })
-  .loose()
   .meta({ id: 'PlanTable' });
 
 const planStatusSchema = z
@@ -56,7 +43,7 @@ const planStatusSchema = z
     status: statusSchema,
     progress: progressSchema,
     table: tableSchema.optional().describe('when status is done'),
-    recommendation: z.object({ statement: z.string() }).loose().optional(),
+    recommendation: recommendationComponent.optional(),
     error: z
       .object({ status: z.int(), kind: z.string(), detail: z.string(), errors: z.array(z.unknown()) })
       .optional()
@@ -109,7 +96,7 @@ export async function planRoutes(app: FastifyInstance): Promise<void> {
         total: stored.total,
         etaSeconds: live?.etaSeconds ?? null,
       },
-      ...(table ? { table: table as never, recommendation: table.recommendation as never } : {}),
+      ...(table ? { table, recommendation: table.recommendation } : {}),
       ...(stored.status === 'failed' && stored.error
         ? { error: stored.error as PlanStatusBody['error'] }
         : {}),

@@ -5,7 +5,7 @@ import type { SampledMask } from '../sampling/index.ts';
 import { samplingSchema } from '../sampling/index.ts';
 import { jsonResponse, problemResponses } from '../src/http/problem.ts';
 import { checkMatrixLimit, matrixSchema } from '../src/http/schemas.ts';
-import { protocolSchema, scanTime } from '../src/protocol/index.ts';
+import { protocolSchema, scanTime, scanTimeResultSchema } from '../src/protocol/index.ts';
 
 const scanTimeBody = z
   .strictObject({
@@ -15,16 +15,8 @@ const scanTimeBody = z
   })
   .meta({ id: 'ScanTimeRequest' });
 
-const scanTimeResponse = z
-  .object({
-    seconds: z.number().describe('acquisition time in seconds (calibration and preparation scans excluded)'),
-    formatted: z.string().describe('m:ss'),
-    acquired: z.number().describe('the count that costs time, in `unit`'),
-    unit: z.enum(['lines', 'points', 'spokes']),
-    shots: z.int().describe('TRs per pass and per average: ⌈acquired / echoTrainLength⌉'),
-    passes: z.int().describe('slice passes (2D)'),
-  })
-  .meta({ id: 'ScanTime' });
+// The response is the scan-time model's own result schema (src/protocol), published as a component.
+const scanTimeResponse = scanTimeResultSchema.meta({ id: 'ScanTime' });
 
 /** POST /v1/scan-time: the scan-time model (src/protocol) for a matrix, protocol and optional mask. */
 export async function scanTimeRoutes(app: FastifyInstance): Promise<void> {
@@ -55,8 +47,7 @@ export async function scanTimeRoutes(app: FastifyInstance): Promise<void> {
           diagnostics: false,
         }));
       }
-      const time = scanTime(matrix, protocol, sampled);
-      return time;
+      return scanTime(matrix, protocol, sampled);
     },
   );
 }

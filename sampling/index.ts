@@ -1,3 +1,4 @@
+export { type AcquiredUnit, acquiredUnitSchema } from './acquired-unit.ts';
 export { DEFAULT_DENSITY_POWER, lineDensityWeights } from './cartesian-random.ts';
 export { customMaskFromArray } from './custom.ts';
 export { DEFAULT_MAIN_LOBE_RADIUS, type MaskDiagnostics, maskDiagnostics } from './diagnostics.ts';
