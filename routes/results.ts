@@ -2,8 +2,8 @@ import type { FastifyInstance } from 'fastify';
 import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
 import { HttpProblem, problemResponses } from '../src/http/problem.ts';
-import { resultImageNames } from '../src/http/result-images.ts';
 import { idParams } from '../src/http/schemas.ts';
+import { resultImageNames } from '../src/services/index.ts';
 
 const names = Object.values(resultImageNames);
 

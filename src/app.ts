@@ -33,6 +33,7 @@ import { type PlanEngine, PlanQueue } from './jobs/plan-queue.ts';
 import { Store } from './jobs/store.ts';
 import { WorkerPool } from './jobs/worker-pool.ts';
 import { buildTable, type CellResult, type Plan, planCells } from './plan/index.ts';
+import { MaskService, PlanService, ReconstructionService, UploadService } from './services/index.ts';
 
 export interface AppOptions {
   /** Where the SQLite file lives; default ./data. */
@@ -70,6 +71,11 @@ export interface Services {
   /** The caller's owner digest and what it may see (tenant isolation). */
   tenancy: (request: FastifyRequest) => Tenancy;
   limits: Limits;
+  /** The service layer the routes call (src/services): build, render and store results. */
+  reconstructions: ReconstructionService;
+  masks: MaskService;
+  uploads: UploadService;
+  planning: PlanService;
   /** Every route registered, for the spec-vs-routes test. */
   routes: Array<{ method: string; url: string; hidden: boolean }>;
 }
@@ -168,7 +174,20 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
     app.log as never,
   );
   const tenancy = (request: FastifyRequest) => tenancyOf(request, isolation);
-  app.decorate('services', { store, pool, plans, lifecycle, tenancy, limits, routes });
+  const deps = { pool, store, limits };
+  app.decorate('services', {
+    store,
+    pool,
+    plans,
+    lifecycle,
+    tenancy,
+    limits,
+    reconstructions: new ReconstructionService(deps),
+    masks: new MaskService(deps),
+    uploads: new UploadService(deps),
+    planning: new PlanService({ ...deps, plans }),
+    routes,
+  });
   app.addHook('onClose', async () => {
     lifecycle.stop();
     await plans.close();
