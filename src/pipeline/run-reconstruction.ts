@@ -1,10 +1,13 @@
 import { z } from 'zod';
 import { resolveSampling, type SampledMask, type SamplingSpec } from '../../sampling/index.ts';
-import { acquire } from '../acquisition/acquire.ts';
-import type { FullAcquisition } from '../acquisition/full-acquisition.ts';
-import { fullKspaceFromImage } from '../acquisition/image-source.ts';
-import { checkedSnr, type NoiseSpec } from '../acquisition/noise.ts';
-import { fullKspaceFromPhantom } from '../acquisition/phantom-source.ts';
+import {
+  acquire,
+  checkedSnr,
+  type FullAcquisition,
+  fullKspaceFromImage,
+  fullKspaceFromPhantom,
+  type NoiseSpec,
+} from '../acquisition/index.ts';
 import { type ComplexImage, magnitude } from '../core/complex-image.ts';
 import { ValidationError } from '../core/errors.ts';
 import { defaultLimits, type Limits } from '../core/limits.ts';

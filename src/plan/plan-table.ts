@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { scanTimeResultSchema } from '../protocol/scan-time-result.ts';
+import { scanTimeResultSchema } from '../protocol/index.ts';
 import { metricNames } from './metric-direction.ts';
 import { targetSchema } from './target-schema.ts';
 import { acquiredUnitSchema } from './upstream.ts';
