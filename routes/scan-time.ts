@@ -1,11 +1,10 @@
 import type { FastifyInstance } from 'fastify';
 import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
-import type { SampledMask } from '../sampling/index.ts';
 import { samplingSchema } from '../sampling/index.ts';
 import { jsonResponse, problemResponses } from '../src/http/problem.ts';
 import { checkMatrixLimit, matrixSchema } from '../src/http/schemas.ts';
-import { protocolSchema, scanTime, scanTimeResultSchema } from '../src/protocol/index.ts';
+import { protocolSchema, scanTimeResultSchema } from '../src/protocol/index.ts';
 
 const scanTimeBody = z
   .strictObject({
@@ -20,7 +19,7 @@ const scanTimeResponse = scanTimeResultSchema.meta({ id: 'ScanTime' });
 
 /** POST /v1/scan-time: the scan-time model (src/protocol) for a matrix, protocol and optional mask. */
 export async function scanTimeRoutes(app: FastifyInstance): Promise<void> {
-  const { pool, limits } = app.services;
+  const { limits, scanTimes } = app.services;
   app.withTypeProvider<ZodTypeProvider>().post(
     '/v1/scan-time',
     {
@@ -37,17 +36,7 @@ export async function scanTimeRoutes(app: FastifyInstance): Promise<void> {
     async (request) => {
       const { matrix, protocol, sampling } = request.body;
       checkMatrixLimit(matrix, limits);
-      let sampled: SampledMask | undefined;
-      if (sampling) {
-        ({ sampled } = await pool.runForRequest<{ sampled: SampledMask }>({
-          kind: 'mask',
-          matrix,
-          sampling,
-          limits,
-          diagnostics: false,
-        }));
-      }
-      return scanTime(matrix, protocol, sampled);
+      return scanTimes.compute(matrix, protocol, sampling);
     },
   );
 }

@@ -33,7 +33,14 @@ import { type PlanEngine, PlanQueue } from './jobs/plan-queue.ts';
 import { Store } from './jobs/store.ts';
 import { WorkerPool } from './jobs/worker-pool.ts';
 import { buildTable, type CellResult, type Plan, planCells } from './plan/index.ts';
-import { MaskService, PlanService, ReconstructionService, UploadService } from './services/index.ts';
+import {
+  MaskService,
+  PhantomService,
+  PlanService,
+  ReconstructionService,
+  ScanTimeService,
+  UploadService,
+} from './services/index.ts';
 
 export interface AppOptions {
   /** Where the SQLite file lives; default ./data. */
@@ -75,6 +82,8 @@ export interface Services {
   reconstructions: ReconstructionService;
   masks: MaskService;
   uploads: UploadService;
+  phantoms: PhantomService;
+  scanTimes: ScanTimeService;
   planning: PlanService;
   /** Every route registered, for the spec-vs-routes test. */
   routes: Array<{ method: string; url: string; hidden: boolean }>;
@@ -185,6 +194,8 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
     reconstructions: new ReconstructionService(deps),
     masks: new MaskService(deps),
     uploads: new UploadService(deps),
+    phantoms: new PhantomService(deps),
+    scanTimes: new ScanTimeService(deps),
     planning: new PlanService({ ...deps, plans }),
     routes,
   });
