@@ -4,6 +4,7 @@ import { z } from 'zod';
 import { samplingSchema } from '../sampling/index.ts';
 import { preferredType } from '../src/http/accept.ts';
 import { disconnectSignal } from '../src/http/disconnect-signal.ts';
+import { sendPng } from '../src/http/png-reply.ts';
 import { problemResponses } from '../src/http/problem.ts';
 import { checkMatrixLimit, matrixSchema } from '../src/http/schemas.ts';
 import { maskResultSchema } from '../src/services/index.ts';
@@ -40,8 +41,7 @@ export async function maskRoutes(app: FastifyInstance): Promise<void> {
       checkMatrixLimit(request.body.matrix, limits);
       const signal = disconnectSignal(request, reply);
       if (preferredType(request, ['application/json', 'image/png']) === 'image/png') {
-        // A Buffer is sent as is; the schema's string type documents the binary body.
-        return reply.type('image/png').send((await masks.png(request.body, signal)) as unknown as string);
+        return sendPng(reply, await masks.png(request.body, signal));
       }
       const body = await masks.describe(request.body, tenancy(request), signal);
       return reply.type('application/json').send(body);

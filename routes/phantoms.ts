@@ -5,6 +5,7 @@ import { LimitError } from '../src/core/errors.ts';
 import type { Limits } from '../src/core/limits.ts';
 import { preferredType } from '../src/http/accept.ts';
 import { disconnectSignal } from '../src/http/disconnect-signal.ts';
+import { sendPng } from '../src/http/png-reply.ts';
 import { HttpProblem, jsonResponse, problemResponses } from '../src/http/problem.ts';
 import { checkMatrixLimit } from '../src/http/schemas.ts';
 import { listPhantoms } from '../src/phantoms/index.ts';
@@ -144,8 +145,7 @@ export async function phantomRoutes(app: FastifyInstance): Promise<void> {
         const image = await phantoms.raster(raster, signal);
         return reply.type('application/json').send({ name, nx, ny, data: Array.from(image.data) });
       }
-      // A Buffer is sent as is (no serializer); the schema's string type documents the binary body.
-      return reply.type('image/png').send((await phantoms.rasterPng(raster, signal)) as unknown as string);
+      return sendPng(reply, await phantoms.rasterPng(raster, signal));
     },
   );
 
