@@ -44,7 +44,7 @@ export interface ReconstructionRequest {
 
 export interface ReconstructionOutcome {
   acceleration: { requested: number | null; actual: number };
-  acquired: { count: number; unit: string };
+  acquired: SampledMask['acquired'];
   fraction: number;
   /** |reconstruction| against |reference| (fully sampled, noiseless). */
   metrics: MetricSet;

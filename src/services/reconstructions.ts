@@ -21,9 +21,9 @@ export const reconstructionSchema = z.object({
   metrics: z
     .object({ nrmse: metricValue, psnr: metricValue, ssim: metricValue, hfen: metricValue })
     .describe('|x̂| against |reference| (fully sampled, noiseless): NRMSE, PSNR dB, SSIM, HFEN'),
-  acceleration: z.object({ requested: z.number().nullable(), actual: z.number() }),
-  acquired: z.object({ count: z.number(), unit: z.string() }),
-  fraction: z.number(),
+  acceleration: sampledSummarySchema.shape.acceleration,
+  acquired: sampledSummarySchema.shape.acquired,
+  fraction: sampledSummarySchema.shape.fraction,
   timing: z.object({ reconMs: z.number() }),
   info: z.record(z.string(), z.unknown()).describe('method facts: iterations, objective, rank, …'),
   notes: z.array(z.string()),
