@@ -1,34 +1,15 @@
-import { randomUUID } from 'node:crypto';
 import type { FastifyInstance } from 'fastify';
 import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
 import { ValidationError } from '../src/core/errors.ts';
 import { HttpProblem, jsonResponse, problemResponses } from '../src/http/problem.ts';
 import { idParams } from '../src/http/schemas.ts';
-import type { StoredImage } from '../src/jobs/store.ts';
+import { imageInfoSchema } from '../src/services/index.ts';
 
-const metaValue = z.union([z.string(), z.number(), z.boolean(), z.array(z.number()), z.null()]);
-
-export const imageInfoSchema = z
-  .object({
-    id: z.string(),
-    nx: z.int().describe('columns'),
-    ny: z.int().describe('rows'),
-    format: z.enum(['png', 'jpeg', 'tiff', 'dicom', 'nifti']),
-    details: z
-      .record(z.string(), metaValue)
-      .describe(
-        'Format facts: bit depth, scaling, frame/slice chosen. Never patient, study or institution data.',
-      ),
-    notes: z.array(z.string()).describe('Every transformation applied while decoding'),
-    stats: z.object({ min: z.number(), max: z.number(), mean: z.number() }),
-    createdAt: z.string(),
-    url: z.string(),
-  })
-  .meta({
-    id: 'ImageInfo',
-    description: 'An uploaded image (decoded pixels only; the original file is not kept)',
-  });
+const imageInfoResponse = imageInfoSchema.meta({
+  id: 'ImageInfo',
+  description: 'An uploaded image (decoded pixels only; the original file is not kept)',
+});
 
 const uploadQuery = z.object({
   frame: z.coerce
@@ -51,38 +32,6 @@ const uploadQuery = z.object({
     .describe('NIfTI volume along the 4th axis (0-based, default 0)'),
 });
 
-function infoBody(stored: StoredImage) {
-  const { details, notes, stats, format } = stored.meta as {
-    details: Record<string, z.infer<typeof metaValue>>;
-    notes: string[];
-    stats: { min: number; max: number; mean: number };
-    format: z.infer<typeof imageInfoSchema>['format'];
-  };
-  return {
-    id: stored.id,
-    nx: stored.nx,
-    ny: stored.ny,
-    format,
-    details,
-    notes,
-    stats,
-    createdAt: stored.createdAt,
-    url: `/v1/images/${stored.id}`,
-  };
-}
-
-function statistics(data: Float64Array): { min: number; max: number; mean: number } {
-  let min = Number.POSITIVE_INFINITY;
-  let max = Number.NEGATIVE_INFINITY;
-  let sum = 0;
-  for (const v of data) {
-    if (v < min) min = v;
-    if (v > max) max = v;
-    sum += v;
-  }
-  return { min, max, mean: sum / data.length };
-}
-
 /**
  * POST /v1/images (multipart, one part named `file`), GET and DELETE /v1/images/{id} (the deletion
  * cascades to what was made from the image: src/jobs/lifecycle.ts).
@@ -91,7 +40,7 @@ function statistics(data: Float64Array): { min: number; max: number; mean: numbe
  */
 export async function imageRoutes(app: FastifyInstance): Promise<void> {
   const r = app.withTypeProvider<ZodTypeProvider>();
-  const { store, limits, pool, lifecycle, tenancy } = app.services;
+  const { uploads, lifecycle, tenancy } = app.services;
 
   r.post(
     '/v1/images',
@@ -132,7 +81,7 @@ export async function imageRoutes(app: FastifyInstance): Promise<void> {
         tags: ['images'],
         querystring: uploadQuery,
         response: {
-          201: jsonResponse('The decoded image (Location: its URL)', imageInfoSchema),
+          201: jsonResponse('The decoded image (Location: its URL)', imageInfoResponse),
           ...problemResponses(400, 401, 413, 415, 422, 429),
         },
       },
@@ -146,24 +95,8 @@ export async function imageRoutes(app: FastifyInstance): Promise<void> {
       }
       const bytes = await part.toBuffer().catch(malformedMultipart('file'));
       const choice = { ...request.query, ...formChoices(part.fields) };
-      // Decoding (gunzip, DICOM/NIfTI parsing, sharp) runs on a worker: a 64 MB file never stalls the loop.
-      const decoded = await pool.runForRequest('decode', {
-        bytes,
-        options: { ...choice, maxSide: limits.maxMatrixSide, maxBytes: limits.maxUploadBytes },
-      });
-      const id = randomUUID();
-      const stored = store.putImage(
-        id,
-        decoded.image,
-        {
-          format: decoded.format,
-          details: decoded.meta,
-          notes: decoded.notes,
-          stats: statistics(decoded.image.data),
-        },
-        tenancy(request).owner,
-      );
-      return reply.code(201).header('location', `/v1/images/${id}`).send(infoBody(stored));
+      const info = await uploads.upload(bytes, choice, tenancy(request));
+      return reply.code(201).header('location', info.url).send(info);
     },
   );
 
@@ -174,13 +107,16 @@ export async function imageRoutes(app: FastifyInstance): Promise<void> {
         summary: 'Metadata of an uploaded image',
         tags: ['images'],
         params: idParams,
-        response: { 200: jsonResponse('The image metadata', imageInfoSchema), ...problemResponses(401, 404) },
+        response: {
+          200: jsonResponse('The image metadata', imageInfoResponse),
+          ...problemResponses(401, 404),
+        },
       },
     },
     async (request) => {
-      const stored = store.getImageInfo(request.params.id, tenancy(request).scope);
-      if (!stored) throw notFound(request.params.id);
-      return infoBody(stored);
+      const info = uploads.info(request.params.id, tenancy(request));
+      if (!info) throw notFound(request.params.id);
+      return info;
     },
   );
 

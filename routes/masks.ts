@@ -3,36 +3,21 @@ import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
 import { samplingSchema } from '../sampling/index.ts';
 import { preferredType } from '../src/http/accept.ts';
-import { contentId } from '../src/http/content-id.ts';
 import { disconnectSignal } from '../src/http/disconnect-signal.ts';
+import { sendPng } from '../src/http/png-reply.ts';
 import { problemResponses } from '../src/http/problem.ts';
-import { resultImageUrl } from '../src/http/result-images.ts';
-import {
-  psfSummary,
-  psfSummarySchema,
-  sampledSummary,
-  sampledSummarySchema,
-} from '../src/http/sampled-summary.ts';
 import { checkMatrixLimit, matrixSchema } from '../src/http/schemas.ts';
-import { greyPng, maskPng } from '../src/render/png.ts';
+import { maskResultSchema } from '../src/services/index.ts';
 
 const maskBody = z
   .strictObject({ matrix: matrixSchema, sampling: samplingSchema })
   .meta({ id: 'MaskRequest' });
 
-const maskResponse = sampledSummarySchema
-  .extend({
-    id: z.string().describe('Result id: the PNGs stay available under /v1/results/{id}/'),
-    psf: psfSummarySchema,
-    images: z
-      .object({ mask: z.string(), psf: z.string() })
-      .describe('URLs of the mask and |PSF| (log scale) PNGs'),
-  })
-  .meta({ id: 'MaskResult' });
+const maskResponse = maskResultSchema.meta({ id: 'MaskResult' });
 
 /** POST /v1/masks: draw a mask, report R, counts and PSF side lobes; Accept: image/png gives the mask itself. */
 export async function maskRoutes(app: FastifyInstance): Promise<void> {
-  const { pool, limits, store, tenancy } = app.services;
+  const { limits, tenancy, masks } = app.services;
   app.withTypeProvider<ZodTypeProvider>().post(
     '/v1/masks',
     {
@@ -53,32 +38,12 @@ export async function maskRoutes(app: FastifyInstance): Promise<void> {
       },
     },
     async (request, reply) => {
-      const { matrix, sampling } = request.body;
-      checkMatrixLimit(matrix, limits);
-      const wantsPng = preferredType(request, ['application/json', 'image/png']) === 'image/png';
-      // Masks are a pure function of the request, so equal requests share one id and one stored result
-      // (per tenant under isolation: the owner digest joins the id, undefined otherwise).
-      const { owner, scope } = tenancy(request);
-      const id = contentId('mask', { matrix, sampling, owner: scope === 'all' ? undefined : owner });
-      if (!wantsPng) {
-        const stored = store.getResult(id, scope);
-        if (stored) return reply.type('application/json').send(stored.body as z.infer<typeof maskResponse>);
+      checkMatrixLimit(request.body.matrix, limits);
+      const signal = disconnectSignal(request, reply);
+      if (preferredType(request, ['application/json', 'image/png']) === 'image/png') {
+        return sendPng(reply, await masks.png(request.body, signal));
       }
-      const { sampled, diagnostics } = await pool.runForRequest(
-        'mask',
-        { matrix, sampling, limits, diagnostics: !wantsPng },
-        disconnectSignal(request, reply),
-      );
-      const mask = await maskPng(sampled);
-      if (wantsPng) return reply.type('image/png').send(mask as unknown as string);
-      const psf = diagnostics!;
-      const body = {
-        id,
-        ...sampledSummary(sampled),
-        psf: psfSummary(psf),
-        images: { mask: resultImageUrl(id, 'mask'), psf: resultImageUrl(id, 'psf') },
-      };
-      store.putResult(id, 'mask', body, { mask, psf: await greyPng(psf.psf, { scale: 'log' }) }, { owner });
+      const body = await masks.describe(request.body, tenancy(request), signal);
       return reply.type('application/json').send(body);
     },
   );

@@ -3,13 +3,12 @@ import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
 import { LimitError } from '../src/core/errors.ts';
 import type { Limits } from '../src/core/limits.ts';
-import type { RealImage } from '../src/core/real-image.ts';
 import { preferredType } from '../src/http/accept.ts';
 import { disconnectSignal } from '../src/http/disconnect-signal.ts';
+import { sendPng } from '../src/http/png-reply.ts';
 import { HttpProblem, jsonResponse, problemResponses } from '../src/http/problem.ts';
 import { checkMatrixLimit } from '../src/http/schemas.ts';
 import { listPhantoms } from '../src/phantoms/index.ts';
-import { greyPng } from '../src/render/png.ts';
 
 const phantomInfoSchema = z.object({ name: z.string(), description: z.string() }).meta({ id: 'PhantomInfo' });
 const phantomListSchema = z.object({ phantoms: z.array(phantomInfoSchema) }).meta({ id: 'PhantomList' });
@@ -98,15 +97,10 @@ function known(name: string): void {
   }
 }
 
-/** Normalised to the raster's peak so the 16-bit PNG uses its full range. */
-async function rasterPng(image: RealImage): Promise<Buffer> {
-  return greyPng(image, { bits: 16 });
-}
-
 /** GET /v1/phantoms, GET /v1/phantoms/{name} (PNG or JSON), POST /v1/phantoms/{name}/kspace. */
 export async function phantomRoutes(app: FastifyInstance): Promise<void> {
   const r = app.withTypeProvider<ZodTypeProvider>();
-  const { pool, limits } = app.services;
+  const { limits, phantoms } = app.services;
 
   r.get(
     '/v1/phantoms',
@@ -145,16 +139,13 @@ export async function phantomRoutes(app: FastifyInstance): Promise<void> {
       known(name);
       const { nx, ny, supersample } = request.query;
       checkMatrixLimit({ nx, ny }, limits);
-      const image = await pool.runForRequest(
-        'phantom-raster',
-        { name, nx, ny, supersample },
-        disconnectSignal(request, reply),
-      );
-      const wantsJson = preferredType(request, ['image/png', 'application/json']) === 'application/json';
-      if (wantsJson)
+      const raster = { name, nx, ny, supersample };
+      const signal = disconnectSignal(request, reply);
+      if (preferredType(request, ['image/png', 'application/json']) === 'application/json') {
+        const image = await phantoms.raster(raster, signal);
         return reply.type('application/json').send({ name, nx, ny, data: Array.from(image.data) });
-      // A Buffer is sent as is (no serializer); the schema's string type documents the binary body.
-      return reply.type('image/png').send((await rasterPng(image)) as unknown as string);
+      }
+      return sendPng(reply, await phantoms.rasterPng(raster, signal));
     },
   );
 
@@ -184,11 +175,7 @@ export async function phantomRoutes(app: FastifyInstance): Promise<void> {
         ky[i] = y;
       });
       // Up to MAX_KSPACE_POINTS points × every shape: on a worker, not the event loop.
-      const values = await pool.runForRequest(
-        'phantom-kspace',
-        { name, kx, ky },
-        disconnectSignal(request, reply),
-      );
+      const values = await phantoms.kspace(name, kx, ky, disconnectSignal(request, reply));
       return { values: points.map((_, i) => [values[2 * i], values[2 * i + 1]] as [number, number]) };
     },
   );

@@ -5,69 +5,33 @@ import { disconnectSignal } from '../src/http/disconnect-signal.ts';
 import { HttpProblem, jsonResponse, problemResponses } from '../src/http/problem.ts';
 import { idParams } from '../src/http/schemas.ts';
 import type { PlanEvent } from '../src/jobs/plan-queue.ts';
-import type { StoredPlan } from '../src/jobs/store.ts';
-import { planSchema, tableToCsv } from '../src/plan/index.ts';
+import {
+  planRowSchema,
+  planSchema,
+  planTableSchema,
+  recommendationSchema,
+  tableToCsv,
+} from '../src/plan/index.ts';
+import { isTerminal, planProgressSchema, planStatusSchema } from '../src/services/index.ts';
 
-const statusSchema = z.enum(['queued', 'running', 'done', 'failed', 'cancelled']);
-
-const progressSchema = z
-  .object({
-    done: z.int().describe('finished cells'),
-    total: z.int().describe('cells of the plan: (1 reference + patterns × accelerations × methods) × seeds'),
-    etaSeconds: z.number().nullable().describe('estimate from this run’s cell rate; null when unknown'),
+// The plan status as src/services builds it, its parts published as components (`.meta` returns
+// registered copies; the tradeoff table is src/plan's own schema).
+const recommendationComponent = recommendationSchema.meta({ id: 'Recommendation' });
+const tableComponent = planTableSchema
+  .extend({
+    rows: z
+      .array(planRowSchema.meta({ id: 'PlanRow' }))
+      .describe(planTableSchema.shape.rows.description ?? ''),
+    recommendation: recommendationComponent,
   })
-  .meta({ id: 'PlanProgress' });
-
-const summarySchema = z.object({ mean: z.number().nullable(), sd: z.number().nullable() }).loose();
-
-const rowSchema = z
-  .object({
-    key: z.string(),
-    pattern: z.string(),
-    method: z.string(),
-    requestedR: z.number().nullable(),
-    actualR: z.number(),
-    acquired: z.number(),
-    acquiredUnit: z.string(),
-    scanSeconds: z.number(),
-    scanFormatted: z.string(),
-    timeSavedPct: z.number(),
-    metrics: z.record(z.string(), summarySchema),
-    reconMs: z.number(),
-    seeds: z.int(),
-    pareto: z.boolean(),
-    meetsTarget: z.boolean().nullable(),
-  })
-  .loose()
-  .meta({ id: 'PlanRow' });
-
-const tableSchema = z
-  .object({
-    rows: z.array(rowSchema).describe('rows[0] is the fully sampled reference'),
-    paretoMetric: z.string(),
-    recommendation: z.object({ statement: z.string() }).loose(),
-  })
-  .loose()
   .meta({ id: 'PlanTable' });
-
-const planStatusSchema = z
-  .object({
-    id: z.string(),
-    status: statusSchema,
-    progress: progressSchema,
-    table: tableSchema.optional().describe('when status is done'),
-    recommendation: z.object({ statement: z.string() }).loose().optional(),
-    error: z
-      .object({ status: z.int(), kind: z.string(), detail: z.string(), errors: z.array(z.unknown()) })
-      .optional()
-      .describe('when status is failed'),
-    createdAt: z.string(),
-    updatedAt: z.string(),
-    links: z.object({ self: z.string(), events: z.string(), csv: z.string() }),
+const planStatusResponse = planStatusSchema
+  .extend({
+    progress: planProgressSchema.meta({ id: 'PlanProgress' }),
+    table: tableComponent.optional().describe('when status is done'),
+    recommendation: recommendationComponent.optional(),
   })
   .meta({ id: 'PlanStatus' });
-
-type PlanStatusBody = z.infer<typeof planStatusSchema>;
 
 const purgeQuery = z.object({
   purge: z
@@ -76,9 +40,8 @@ const purgeQuery = z.object({
     .describe('true: delete the plan and its results instead of cancelling it'),
 });
 
-function links(id: string) {
-  return { self: `/v1/plans/${id}`, events: `/v1/plans/${id}/events`, csv: `/v1/plans/${id}/table.csv` };
-}
+/** The plan whose id the route already checked against the caller's scope. */
+const allPlans = { owner: null, scope: 'all' as const };
 
 function notFound(id: string): HttpProblem {
   return new HttpProblem(404, `no plan ${id}`, [{ field: 'id', message: 'unknown plan id' }]);
@@ -90,32 +53,12 @@ function notFound(id: string): HttpProblem {
  */
 export async function planRoutes(app: FastifyInstance): Promise<void> {
   const r = app.withTypeProvider<ZodTypeProvider>();
-  const { plans, store, limits, pool, lifecycle, tenancy } = app.services;
+  const { plans, planning, lifecycle, tenancy } = app.services;
   // Open event streams are ended before the server closes, or close would wait for them.
   const streams = new Set<() => void>();
   app.addHook('preClose', async () => {
     for (const end of [...streams]) end();
   });
-
-  function statusBody(stored: StoredPlan): PlanStatusBody {
-    const terminal = stored.status === 'done' || stored.status === 'failed' || stored.status === 'cancelled';
-    const live = terminal ? undefined : plans.progress(stored.id);
-    const table = stored.status === 'done' ? stored.table : null;
-    return {
-      id: stored.id,
-      status: live?.status ?? stored.status,
-      progress: {
-        done: live?.done ?? stored.done,
-        total: stored.total,
-        etaSeconds: live?.etaSeconds ?? null,
-      },
-      ...(table ? { table, recommendation: table.recommendation } : {}),
-      ...(stored.status === 'failed' && stored.error ? { error: stored.error } : {}),
-      createdAt: stored.createdAt,
-      updatedAt: stored.updatedAt,
-      links: links(stored.id),
-    };
-  }
 
   r.post(
     '/v1/plans',
@@ -126,31 +69,19 @@ export async function planRoutes(app: FastifyInstance): Promise<void> {
         tags: ['plans'],
         body: planSchema,
         response: {
-          202: jsonResponse('Queued (Location: the plan)', planStatusSchema),
+          202: jsonResponse('Queued (Location: the plan)', planStatusResponse),
           ...problemResponses(400, 401, 404, 413, 422, 429),
         },
       },
     },
     async (request, reply) => {
-      // Limits (matrix, iterations, cells) and one draw of every mask, before anything is queued
-      // (src/plan validatePlan, on a worker thread).
-      plans.checkCapacity();
-      const plan = await pool.runForRequest(
-        'validate-plan',
-        { plan: request.body, limits },
-        disconnectSignal(request, reply),
-      );
-      const source = plan.source as { imageId?: string };
-      const { owner, scope } = tenancy(request);
-      if (source.imageId !== undefined && !store.getImageInfo(source.imageId, scope)) {
-        throw new HttpProblem(404, `no uploaded image ${source.imageId}`, [
+      const stored = await planning.submit(request.body, tenancy(request), disconnectSignal(request, reply));
+      if ('missingImage' in stored) {
+        throw new HttpProblem(404, `no uploaded image ${stored.missingImage}`, [
           { field: 'source.imageId', message: 'unknown image id' },
         ]);
       }
-      // The link to the upload lets deleting the upload delete this plan too.
-      const inputs = source.imageId === undefined ? [] : [{ kind: 'image' as const, id: source.imageId }];
-      const stored = plans.submit(plan, { owner, inputs });
-      return reply.code(202).header('location', `/v1/plans/${stored.id}`).send(statusBody(stored));
+      return reply.code(202).header('location', `/v1/plans/${stored.id}`).send(planning.status(stored));
     },
   );
 
@@ -161,13 +92,13 @@ export async function planRoutes(app: FastifyInstance): Promise<void> {
         summary: 'Status, progress and, when done, the tradeoff table and recommendation',
         tags: ['plans'],
         params: idParams,
-        response: { 200: jsonResponse('The plan status', planStatusSchema), ...problemResponses(401, 404) },
+        response: { 200: jsonResponse('The plan status', planStatusResponse), ...problemResponses(401, 404) },
       },
     },
     async (request) => {
-      const stored = store.getPlan(request.params.id, tenancy(request).scope);
+      const stored = planning.get(request.params.id, tenancy(request));
       if (!stored) throw notFound(request.params.id);
-      return statusBody(stored);
+      return planning.status(stored);
     },
   );
 
@@ -185,7 +116,7 @@ export async function planRoutes(app: FastifyInstance): Promise<void> {
       },
     },
     async (request, reply) => {
-      const stored = store.getPlan(request.params.id, tenancy(request).scope);
+      const stored = planning.get(request.params.id, tenancy(request));
       if (!stored) throw notFound(request.params.id);
       if (stored.status !== 'done' || !stored.table) {
         throw new HttpProblem(
@@ -219,7 +150,7 @@ export async function planRoutes(app: FastifyInstance): Promise<void> {
       },
     },
     async (request, reply) => {
-      const stored = store.getPlan(request.params.id, tenancy(request).scope);
+      const stored = planning.get(request.params.id, tenancy(request));
       if (!stored) throw notFound(request.params.id);
       streamEvents(reply, stored.id);
     },
@@ -237,26 +168,26 @@ export async function planRoutes(app: FastifyInstance): Promise<void> {
         params: idParams,
         querystring: purgeQuery,
         response: {
-          200: jsonResponse('Cancelled', planStatusSchema),
+          200: jsonResponse('Cancelled', planStatusResponse),
           204: z.null().describe('Purged'),
           ...problemResponses(401, 404, 409),
         },
       },
     },
     async (request, reply) => {
-      const { scope } = tenancy(request);
+      const caller = tenancy(request);
       if (request.query.purge === 'true') {
-        if (!lifecycle.delete('plan', request.params.id, scope)) throw notFound(request.params.id);
+        if (!lifecycle.delete('plan', request.params.id, caller.scope)) throw notFound(request.params.id);
         return reply.code(204).send(null);
       }
-      const stored = store.getPlan(request.params.id, scope);
+      const stored = planning.get(request.params.id, caller);
       if (!stored) throw notFound(request.params.id);
       if (!plans.cancel(stored.id)) {
         throw new HttpProblem(409, `plan ${stored.id} is already ${stored.status}`, [
           { field: 'id', message: `status ${stored.status}`, allowed: 'a queued or running plan' },
         ]);
       }
-      return statusBody(store.getPlan(stored.id)!);
+      return planning.status(planning.get(stored.id, allPlans)!);
     },
   );
 
@@ -274,7 +205,6 @@ export async function planRoutes(app: FastifyInstance): Promise<void> {
     const send = (event: string, eventId: number, data: unknown) => {
       raw.write(`id: ${eventId}\nevent: ${event}\ndata: ${JSON.stringify(data)}\n\n`);
     };
-    const terminal = (status: string) => status === 'done' || status === 'failed' || status === 'cancelled';
     let closed = false;
     const finish = () => {
       if (closed) return;
@@ -286,9 +216,9 @@ export async function planRoutes(app: FastifyInstance): Promise<void> {
     };
     const onProgress = (progress: PlanEvent) => {
       if (progress.id !== id || closed) return;
-      if (terminal(progress.status)) {
-        const stored = store.getPlan(id);
-        if (stored) send(progress.status, progress.done, statusBody(stored));
+      if (isTerminal(progress.status)) {
+        const stored = planning.get(id, allPlans);
+        if (stored) send(progress.status, progress.done, planning.status(stored));
         finish();
         return;
       }
@@ -301,9 +231,8 @@ export async function planRoutes(app: FastifyInstance): Promise<void> {
     streams.add(finish);
     plans.on('progress', onProgress);
     // The state at connection time, so a late subscriber sees where the plan is.
-    const stored = store.getPlan(id)!;
-    const body = statusBody(stored);
-    if (terminal(body.status)) {
+    const body = planning.status(planning.get(id, allPlans)!);
+    if (isTerminal(body.status)) {
       send(body.status, body.progress.done, body);
       finish();
     } else {

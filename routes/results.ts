@@ -1,9 +1,10 @@
 import type { FastifyInstance } from 'fastify';
 import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
+import { sendPng } from '../src/http/png-reply.ts';
 import { HttpProblem, problemResponses } from '../src/http/problem.ts';
-import { resultImageNames } from '../src/http/result-images.ts';
 import { idParams } from '../src/http/schemas.ts';
+import { resultImageNames } from '../src/services/index.ts';
 
 const names = Object.values(resultImageNames);
 
@@ -68,18 +69,16 @@ export async function resultRoutes(app: FastifyInstance): Promise<void> {
     async (request, reply) => {
       const { id, image } = request.params;
       const { scope } = tenancy(request);
-      const png = names.includes(image as never) ? store.getResultImage(id, image, scope) : undefined;
+      const png = (names as readonly string[]).includes(image)
+        ? store.getResultImage(id, image, scope)
+        : undefined;
       if (!png) {
         if (store.getResult(id, scope) === undefined) throw notFound(id);
         throw new HttpProblem(404, `result ${id} has no image ${image}`, [
           { field: 'image', message: 'unknown image', allowed: names.join(', ') },
         ]);
       }
-      // A Buffer is sent as is; the schema's string type documents the binary body.
-      return reply
-        .type('image/png')
-        .header('cache-control', 'private, max-age=86400, immutable')
-        .send(png as unknown as string);
+      return sendPng(reply.header('cache-control', 'private, max-age=86400, immutable'), png);
     },
   );
 }

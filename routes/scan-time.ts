@@ -1,11 +1,10 @@
 import type { FastifyInstance } from 'fastify';
 import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
-import type { SampledMask } from '../sampling/index.ts';
 import { samplingSchema } from '../sampling/index.ts';
 import { jsonResponse, problemResponses } from '../src/http/problem.ts';
 import { checkMatrixLimit, matrixSchema } from '../src/http/schemas.ts';
-import { protocolSchema, scanTime } from '../src/protocol/index.ts';
+import { protocolSchema, scanTimeResultSchema } from '../src/protocol/index.ts';
 
 const scanTimeBody = z
   .strictObject({
@@ -15,20 +14,12 @@ const scanTimeBody = z
   })
   .meta({ id: 'ScanTimeRequest' });
 
-const scanTimeResponse = z
-  .object({
-    seconds: z.number().describe('acquisition time in seconds (calibration and preparation scans excluded)'),
-    formatted: z.string().describe('m:ss'),
-    acquired: z.number().describe('the count that costs time, in `unit`'),
-    unit: z.enum(['lines', 'points', 'spokes']),
-    shots: z.int().describe('TRs per pass and per average: ⌈acquired / echoTrainLength⌉'),
-    passes: z.int().describe('slice passes (2D)'),
-  })
-  .meta({ id: 'ScanTime' });
+// The response is the scan-time model's own result schema (src/protocol), published as a component.
+const scanTimeResponse = scanTimeResultSchema.meta({ id: 'ScanTime' });
 
 /** POST /v1/scan-time: the scan-time model (src/protocol) for a matrix, protocol and optional mask. */
 export async function scanTimeRoutes(app: FastifyInstance): Promise<void> {
-  const { pool, limits } = app.services;
+  const { limits, scanTimes } = app.services;
   app.withTypeProvider<ZodTypeProvider>().post(
     '/v1/scan-time',
     {
@@ -45,17 +36,7 @@ export async function scanTimeRoutes(app: FastifyInstance): Promise<void> {
     async (request) => {
       const { matrix, protocol, sampling } = request.body;
       checkMatrixLimit(matrix, limits);
-      let sampled: SampledMask | undefined;
-      if (sampling) {
-        ({ sampled } = await pool.runForRequest('mask', {
-          matrix,
-          sampling,
-          limits,
-          diagnostics: false,
-        }));
-      }
-      const time = scanTime(matrix, protocol, sampled);
-      return time;
+      return scanTimes.compute(matrix, protocol, sampling);
     },
   );
 }

@@ -1,6 +1,6 @@
+import type { Matrix } from '../src/core/matrix.ts';
 import { SeededRandom } from '../src/core/random.ts';
 import { checkLineBudget, lineMask } from './cartesian-lines.ts';
-import type { Matrix } from './matrix.ts';
 import { centredBlockStart, type SampledMask } from './sampled-mask.ts';
 import type { CartesianRandomSpec } from './schema.ts';
 import { requireSeed } from './seed.ts';

@@ -1,5 +1,5 @@
+import type { Matrix } from '../src/core/matrix.ts';
 import { checkLineBudget, lineMask } from './cartesian-lines.ts';
-import type { Matrix } from './matrix.ts';
 import { centredBlockStart, type SampledMask } from './sampled-mask.ts';
 import type { CartesianUniformSpec } from './schema.ts';
 

@@ -1,7 +1,7 @@
 import sharp, { type OutputInfo } from 'sharp';
 import { LimitError, ValidationError } from '../src/core/errors.ts';
 import { defaultLimits, type Limits } from '../src/core/limits.ts';
-import type { Matrix } from './matrix.ts';
+import type { Matrix } from '../src/core/matrix.ts';
 import type { SampledMask } from './sampled-mask.ts';
 import type { CustomSpec } from './schema.ts';
 

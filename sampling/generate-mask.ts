@@ -1,9 +1,9 @@
 import { ValidationError } from '../src/core/errors.ts';
 import { defaultLimits, type Limits } from '../src/core/limits.ts';
+import { type Matrix, validateMatrix } from '../src/core/matrix.ts';
 import { cartesianRandomMask } from './cartesian-random.ts';
 import { cartesianUniformMask } from './cartesian-uniform.ts';
 import { decodeCustomMask } from './custom.ts';
-import { type Matrix, validateMatrix } from './matrix.ts';
 import { poissonDiscMask } from './poisson-disc.ts';
 import { radialMask } from './radial.ts';
 import type { SampledMask } from './sampled-mask.ts';

@@ -1,8 +1,8 @@
+export { type AcquiredUnit, acquiredUnitSchema } from './acquired-unit.ts';
 export { DEFAULT_DENSITY_POWER, lineDensityWeights } from './cartesian-random.ts';
 export { customMaskFromArray } from './custom.ts';
 export { DEFAULT_MAIN_LOBE_RADIUS, type MaskDiagnostics, maskDiagnostics } from './diagnostics.ts';
 export { generateMask, resolveSampling } from './generate-mask.ts';
-export { type Matrix, validateMatrix } from './matrix.ts';
 export { DEFAULT_POISSON_POWER, poissonRadiusProfile } from './poisson-disc.ts';
 export { GOLDEN_ANGLE, GOLDEN_RATIO, nyquistSpokes, spokeAngles } from './radial.ts';
 export { countSampled, type SampledMask } from './sampled-mask.ts';

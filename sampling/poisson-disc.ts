@@ -1,7 +1,7 @@
 import { type FieldProblem, throwIfAborted, ValidationError } from '../src/core/errors.ts';
+import type { Matrix } from '../src/core/matrix.ts';
 import { SeededRandom } from '../src/core/random.ts';
 import { formatBound } from './cartesian-lines.ts';
-import type { Matrix } from './matrix.ts';
 import { centredBlockStart, type SampledMask } from './sampled-mask.ts';
 import type { PoissonDiscSpec } from './schema.ts';
 import { requireSeed } from './seed.ts';

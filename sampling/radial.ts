@@ -1,5 +1,5 @@
 import { ValidationError } from '../src/core/errors.ts';
-import type { Matrix } from './matrix.ts';
+import type { Matrix } from '../src/core/matrix.ts';
 import { countSampled, type SampledMask } from './sampled-mask.ts';
 import type { RadialSpec } from './schema.ts';
 

@@ -1,3 +1,5 @@
+import type { AcquiredUnit } from './acquired-unit.ts';
+
 /**
  * A generated k-space sampling mask and its bookkeeping. The mask is ny×nx row-major (rows = phase
  * encode ky, columns = readout kx), 1 = acquired, with the k-space centre at (⌊ny/2⌋, ⌊nx/2⌋).
@@ -10,7 +12,7 @@ export interface SampledMask {
   pattern: string;
   /** R = total / acquired.count; requested is null for custom masks. */
   acceleration: { requested: number | null; actual: number };
-  acquired: { count: number; unit: 'lines' | 'points' | 'spokes' };
+  acquired: { count: number; unit: AcquiredUnit };
   /** Nyquist count in the same unit: ny lines, ny·nx points, or ⌈π/2·max(nx, ny)⌉ spokes. */
   total: number;
   /** Acquired grid points / (nx·ny). */

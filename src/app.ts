@@ -33,6 +33,14 @@ import { type PlanEngine, PlanQueue } from './jobs/plan-queue.ts';
 import { Store } from './jobs/store.ts';
 import { WorkerPool } from './jobs/worker-pool.ts';
 import { buildTable, planCells } from './plan/index.ts';
+import {
+  MaskService,
+  PhantomService,
+  PlanService,
+  ReconstructionService,
+  ScanTimeService,
+  UploadService,
+} from './services/index.ts';
 
 export interface AppOptions {
   /** Where the SQLite file lives; default ./data. */
@@ -70,6 +78,13 @@ export interface Services {
   /** The caller's owner digest and what it may see (tenant isolation). */
   tenancy: (request: FastifyRequest) => Tenancy;
   limits: Limits;
+  /** The service layer the routes call (src/services): build, render and store results. */
+  reconstructions: ReconstructionService;
+  masks: MaskService;
+  uploads: UploadService;
+  phantoms: PhantomService;
+  scanTimes: ScanTimeService;
+  planning: PlanService;
   /** Every route registered, for the spec-vs-routes test. */
   routes: Array<{ method: string; url: string; hidden: boolean }>;
 }
@@ -160,7 +175,22 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
   const plans = new PlanQueue(store, pool, engine, limits, options.maxQueuedPlans ?? 16, app.log);
   const lifecycle = new DataLifecycle(store, plans, { ...defaultRetention, ...options.retention }, app.log);
   const tenancy = (request: FastifyRequest) => tenancyOf(request, isolation);
-  app.decorate('services', { store, pool, plans, lifecycle, tenancy, limits, routes });
+  const deps = { pool, store, limits };
+  app.decorate('services', {
+    store,
+    pool,
+    plans,
+    lifecycle,
+    tenancy,
+    limits,
+    reconstructions: new ReconstructionService(deps),
+    masks: new MaskService(deps),
+    uploads: new UploadService(deps),
+    phantoms: new PhantomService(deps),
+    scanTimes: new ScanTimeService(deps),
+    planning: new PlanService({ ...deps, plans }),
+    routes,
+  });
   app.addHook('onClose', async () => {
     lifecycle.stop();
     await plans.close();

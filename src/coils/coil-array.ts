@@ -1,5 +1,5 @@
 import { ValidationError } from '../core/errors.ts';
-import { type CoilMaps, createMultiCoilArray } from '../encoding/multi-coil.ts';
+import { type CoilMaps, createMultiCoilArray } from '../encoding/index.ts';
 import { gaussianArrayMaps } from './gaussian-array.ts';
 import { loopArrayMaps } from './loop-array.ts';
 import { CoilNoise } from './noise-covariance.ts';

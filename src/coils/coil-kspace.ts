@@ -1,6 +1,5 @@
-import { createMultiCoilArray, type MultiCoilKspace } from '../encoding/multi-coil.ts';
-import { gridScale } from '../phantoms/grid.ts';
-import { type Phantom, ShapePhantom } from '../phantoms/phantom.ts';
+import { createMultiCoilArray, type MultiCoilKspace } from '../encoding/index.ts';
+import { gridScale, type Phantom, ShapePhantom } from '../phantoms/index.ts';
 import type { TrigPolynomialMaps } from './trig-fit.ts';
 
 /** Points per kspaceAt call for phantoms without a grid fast path. */

@@ -1,4 +1,4 @@
-import { type CoilMaps, createMultiCoilArray } from '../encoding/multi-coil.ts';
+import { type CoilMaps, createMultiCoilArray } from '../encoding/index.ts';
 import { addLoopField, type CircularLoop } from './loop-field.ts';
 import { pixelCoordinates } from './pixel-coordinates.ts';
 import { ringPlacement } from './ring.ts';

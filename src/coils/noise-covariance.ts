@@ -1,7 +1,7 @@
 import { choleskyLower, solveLower } from '../core/complex-cholesky.ts';
 import { ValidationError } from '../core/errors.ts';
 import type { SeededRandom } from '../core/random.ts';
-import type { MultiCoilArray } from '../encoding/multi-coil.ts';
+import type { MultiCoilArray } from '../encoding/index.ts';
 
 /**
  * Ψ for coils on a ring whose noise correlates only with the two neighbours: Ψ_cc = 1,

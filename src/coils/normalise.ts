@@ -1,5 +1,5 @@
 import { ValidationError } from '../core/errors.ts';
-import type { CoilMaps } from '../encoding/multi-coil.ts';
+import type { CoilMaps } from '../encoding/index.ts';
 
 /**
  * Scales the maps in place so that Σ_c |S_c|² = 1 at every pixel: S_c ← S_c / √(Σ_c′ |S_c′|²).

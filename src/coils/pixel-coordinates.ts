@@ -1,4 +1,4 @@
-import { pixelX, pixelY } from '../phantoms/grid.ts';
+import { pixelX, pixelY } from '../phantoms/index.ts';
 
 /** Phantom-frame (x, y) of every pixel centre, row-major ny·nx (DEVELOPERS.md "Numerical conventions"). */
 export function pixelCoordinates(nx: number, ny: number): { x: Float64Array; y: Float64Array } {

@@ -1,6 +1,6 @@
 import { choleskyLower, hermitianInverseFromCholesky, solveLower } from '../core/complex-cholesky.ts';
 import { ValidationError } from '../core/errors.ts';
-import type { CoilMaps } from '../encoding/multi-coil.ts';
+import type { CoilMaps } from '../encoding/index.ts';
 
 /**
  * SENSE g-factor (Pruessmann, Weiger, Scheidegger & Boesiger 1999): for the R pixels folded onto one

@@ -1,6 +1,6 @@
 import { ValidationError } from '../core/errors.ts';
-import { type CoilMaps, createMultiCoilArray } from '../encoding/multi-coil.ts';
-import { pixelX, pixelY } from '../phantoms/grid.ts';
+import { type CoilMaps, createMultiCoilArray } from '../encoding/index.ts';
+import { pixelX, pixelY } from '../phantoms/index.ts';
 import { pseudoInverse } from './complex-pseudo-inverse.ts';
 
 /**

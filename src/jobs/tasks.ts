@@ -1,6 +1,7 @@
-import type { MaskDiagnostics, Matrix, SampledMask, SamplingSpec } from '../../sampling/index.ts';
+import type { MaskDiagnostics, SampledMask, SamplingSpec } from '../../sampling/index.ts';
 import type { WorkerFailure } from '../core/error-transport.ts';
 import type { Limits } from '../core/limits.ts';
+import type { Matrix } from '../core/matrix.ts';
 import type { RealImage } from '../core/real-image.ts';
 import type { DecodedImage, DecodeOptions } from '../io/decoded-image.ts';
 import type { ReconstructionOutcome, ReconstructionRequest } from '../pipeline/run-reconstruction.ts';

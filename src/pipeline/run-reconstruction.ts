@@ -1,18 +1,17 @@
 import { z } from 'zod';
+import { resolveSampling, type SampledMask, type SamplingSpec } from '../../sampling/index.ts';
 import {
-  resolveSampling,
-  type SampledMask,
-  type SamplingSpec,
-  validateMatrix,
-} from '../../sampling/index.ts';
-import { acquire } from '../acquisition/acquire.ts';
-import type { FullAcquisition } from '../acquisition/full-acquisition.ts';
-import { fullKspaceFromImage } from '../acquisition/image-source.ts';
-import { checkedSnr, type NoiseSpec } from '../acquisition/noise.ts';
-import { fullKspaceFromPhantom } from '../acquisition/phantom-source.ts';
+  acquire,
+  checkedSnr,
+  type FullAcquisition,
+  fullKspaceFromImage,
+  fullKspaceFromPhantom,
+  type NoiseSpec,
+} from '../acquisition/index.ts';
 import { type ComplexImage, magnitude } from '../core/complex-image.ts';
 import { ValidationError } from '../core/errors.ts';
 import { defaultLimits, type Limits } from '../core/limits.ts';
+import { validateMatrix } from '../core/matrix.ts';
 import type { RealImage } from '../core/real-image.ts';
 import { type MetricSet, SSIM_RADIUS, scoreAll } from '../metrics/index.ts';
 import { getPhantom } from '../phantoms/index.ts';
@@ -45,7 +44,7 @@ export interface ReconstructionRequest {
 
 export interface ReconstructionOutcome {
   acceleration: { requested: number | null; actual: number };
-  acquired: { count: number; unit: string };
+  acquired: SampledMask['acquired'];
   fraction: number;
   /** |reconstruction| against |reference| (fully sampled, noiseless). */
   metrics: MetricSet;

@@ -1,8 +1,5 @@
 import { ValidationError } from '../core/errors.ts';
-import { formatDuration } from '../protocol/format-duration.ts';
-import { scanTime } from '../protocol/scan-time.ts';
-import { protocolSchema } from '../protocol/schema.ts';
-import { parseOrThrow } from '../protocol/zod-problems.ts';
+import { formatDuration, parseOrThrow, protocolSchema, scanTime } from '../protocol/index.ts';
 import type { CellResult } from './cell-result.ts';
 import { specLabels } from './labels.ts';
 import { metricNames } from './metric-direction.ts';

@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { metricNames } from './metric-direction.ts';
+import { acquiredUnitSchema as unit } from './upstream.ts';
 
-const unit = z.enum(['lines', 'points', 'spokes']);
 const metricValue = z.number().nullable().describe('null = +∞ (PSNR of an exact reconstruction)');
 
 /**

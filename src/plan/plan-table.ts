@@ -1,13 +1,12 @@
 import { z } from 'zod';
-import { scanTimeResultSchema } from '../protocol/scan-time-result.ts';
+import { scanTimeResultSchema } from '../protocol/index.ts';
 import { metricNames } from './metric-direction.ts';
 import { targetSchema } from './target-schema.ts';
+import { acquiredUnitSchema } from './upstream.ts';
 
 // The tradeoff table as zod schemas: one source for the TypeScript types, for response validation
 // and for the OpenAPI schemas of GET /v1/plans/{id}. No registry ids here: the HTTP layer names the
 // components it publishes (`.meta({ id })` returns a registered copy).
-
-const unit = z.enum(['lines', 'points', 'spokes']);
 
 export const summarySchema = z.object({
   mean: z.number().nullable().describe('mean over seeds; null = +∞ (PSNR of an exact reconstruction)'),
@@ -40,7 +39,7 @@ export const planRowSchema = z.object({
   requestedR: z.number().nullable().describe('requested R; 1 for the reference row, null for a custom mask'),
   actualR: z.number().describe("mean over seeds of the mask's actual R"),
   acquired: z.number().describe('mean over seeds of the count that costs scan time, in acquiredUnit'),
-  acquiredUnit: unit,
+  acquiredUnit: acquiredUnitSchema,
   scanSeconds: z.number().describe('mean over seeds of the scan time in seconds'),
   scanFormatted: z.string().describe('scanSeconds as m:ss'),
   timeSavedPct: z.number().describe('100 · (1 − scanSeconds / fully sampled seconds)'),

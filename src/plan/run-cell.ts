@@ -1,4 +1,4 @@
-import { scanTime } from '../protocol/scan-time.ts';
+import { scanTime } from '../protocol/index.ts';
 import type { CellResult } from './cell-result.ts';
 import { jsonNumber } from './metric-direction.ts';
 import type { PlanCell } from './plan-cells.ts';

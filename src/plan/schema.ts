@@ -1,6 +1,5 @@
 import { z } from 'zod';
-import { protocolSchema } from '../protocol/schema.ts';
-import { allowedText, fieldPath } from '../protocol/zod-problems.ts';
+import { allowedText, fieldPath, protocolSchema } from '../protocol/index.ts';
 import { patternSpecs } from './pattern-specs.ts';
 import { targetSchema } from './target-schema.ts';
 import { methodSchema, noiseSchema, type SamplingSpec, samplingSchema, sourceSchema } from './upstream.ts';

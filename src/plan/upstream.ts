@@ -3,7 +3,13 @@
  * place (their module contracts: sampling/ generateMask and SampledMask, src/recon methodSchema,
  * src/acquisition noiseSchema, src/pipeline runReconstruction).
  */
-export { generateMask, type SampledMask, type SamplingSpec, samplingSchema } from '../../sampling/index.ts';
+export {
+  acquiredUnitSchema,
+  generateMask,
+  type SampledMask,
+  type SamplingSpec,
+  samplingSchema,
+} from '../../sampling/index.ts';
 export { noiseSchema } from '../acquisition/index.ts';
 export { getPhantom } from '../phantoms/index.ts';
 export {

@@ -1,7 +1,6 @@
 import { type FieldProblem, LimitError, ValidationError } from '../core/errors.ts';
 import { defaultLimits, type Limits } from '../core/limits.ts';
-import { scanTime } from '../protocol/scan-time.ts';
-import { parseOrThrow } from '../protocol/zod-problems.ts';
+import { parseOrThrow, scanTime } from '../protocol/index.ts';
 import { patternSpecs } from './pattern-specs.ts';
 import { checkPlanSize } from './plan-cells.ts';
 import { type Plan, planSchema } from './schema.ts';

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { acquiredUnitSchema } from '../../sampling/index.ts';
 
 /** What the scan-time model returns (POST /v1/scan-time answers with it; plan tables embed it). */
 export const scanTimeResultSchema = z.object({
@@ -7,7 +8,7 @@ export const scanTimeResultSchema = z.object({
   acquired: z
     .number()
     .describe('count that costs time: phase-encode lines (2D), ky–kz points (3D) or spokes (radial)'),
-  unit: z.enum(['lines', 'points', 'spokes']),
+  unit: acquiredUnitSchema,
   shots: z.int().describe('⌈acquired / echoTrainLength⌉: TRs per pass and per average'),
   passes: z.int().describe('⌈slices / slicesPerPass⌉ (2D); 1 in 3D'),
 });

@@ -1,5 +1,5 @@
 import sharp from 'sharp';
-import type { SampledMask } from '../../sampling/sampled-mask.ts';
+import type { SampledMask } from '../../sampling/index.ts';
 import { ValidationError } from '../core/errors.ts';
 import type { RealImage } from '../core/real-image.ts';
 

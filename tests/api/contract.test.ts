@@ -2,7 +2,7 @@ import { readFileSync } from 'node:fs';
 import SwaggerParser from '@apidevtools/swagger-parser';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { parse } from 'yaml';
-import { generateOpenapiYaml, openapiPath } from '../../src/http/openapi-file.ts';
+import { generateOpenapiYaml, openapiPath } from '../../scripts/openapi-file.ts';
 import { loadSpec, type TestApp, testApp } from './helpers.ts';
 
 const methods = ['get', 'post', 'put', 'patch', 'delete'];
@@ -25,7 +25,7 @@ describe('the OpenAPI 3.1 contract (openapi.yaml)', () => {
     await expect(SwaggerParser.validate(document)).resolves.toBeTruthy();
   });
 
-  it('is not stale: regenerating from the route schemas gives the committed file (run `npx tsx src/http/openapi-file.ts`)', async () => {
+  it('is not stale: regenerating from the route schemas gives the committed file (run `npm run openapi`)', async () => {
     expect(await generateOpenapiYaml()).toBe(readFileSync(openapiPath, 'utf8'));
   });
 

@@ -8,8 +8,8 @@ import addFormats from 'ajv-formats';
 import type { FastifyInstance } from 'fastify';
 import request from 'supertest';
 import { expect } from 'vitest';
+import { openapiPath } from '../../scripts/openapi-file.ts';
 import { type AppOptions, buildApp } from '../../src/app.ts';
-import { openapiPath } from '../../src/http/openapi-file.ts';
 
 export interface TestApp {
   app: FastifyInstance;

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import type { MaskDiagnostics, SampledMask } from '../../sampling/index.ts';
+import { acquiredUnitSchema, type MaskDiagnostics, type SampledMask } from '../../sampling/index.ts';
 
 /** What a response says about a drawn mask (the typed arrays stay on the server). */
 export const sampledSummarySchema = z
@@ -11,7 +11,7 @@ export const sampledSummarySchema = z
       requested: z.number().nullable().describe('null for a custom mask'),
       actual: z.number().describe('R = total / acquired'),
     }),
-    acquired: z.object({ count: z.number(), unit: z.enum(['lines', 'points', 'spokes']) }),
+    acquired: z.object({ count: z.number(), unit: acquiredUnitSchema }),
     total: z.number().describe('Nyquist count in the same unit'),
     fraction: z.number().describe('acquired k-space grid points / (nx·ny)'),
     acs: z

@@ -2,10 +2,10 @@ import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
-import { buildApp } from '../app.ts';
+import { buildApp } from '../src/app.ts';
 
 /** The committed contract: openapi.yaml at the repository root. */
-export const openapiPath = fileURLToPath(new URL('../../openapi.yaml', import.meta.url));
+export const openapiPath = fileURLToPath(new URL('../openapi.yaml', import.meta.url));
 
 /** The OpenAPI document the route schemas produce, as YAML (what GET /openapi.yaml serves). */
 export async function generateOpenapiYaml(): Promise<string> {
@@ -19,7 +19,7 @@ export async function generateOpenapiYaml(): Promise<string> {
   }
 }
 
-// `npx tsx src/http/openapi-file.ts` regenerates openapi.yaml after a schema change.
+// `npm run openapi` (`npx tsx scripts/openapi-file.ts`) regenerates openapi.yaml after a schema change.
 if (process.argv[1] && import.meta.url === pathToFileURL(process.argv[1]).href) {
   writeFileSync(openapiPath, await generateOpenapiYaml());
   process.stdout.write(`wrote ${openapiPath}\n`);

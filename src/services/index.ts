@@ -1,0 +1,23 @@
+export type { Caller, MissingImage } from './caller.ts';
+export { contentId } from './content-id.ts';
+export { finiteOrNull, jsonSafe } from './json-safe.ts';
+export { type MaskRequest, type MaskResult, MaskService, maskResultSchema } from './masks.ts';
+export { PhantomService, type RasterRequest } from './phantoms.ts';
+export {
+  isTerminal,
+  PlanService,
+  type PlanStatusView,
+  planProgressSchema,
+  planStatusNames,
+  planStatusSchema,
+} from './plans.ts';
+export {
+  type Reconstruction,
+  ReconstructionService,
+  reconstructionSchema,
+  type SeededReconstructionRequest,
+} from './reconstructions.ts';
+export { type ResultImageKey, resultImageNames, resultImageUrl } from './result-images.ts';
+export { psfSummary, psfSummarySchema, sampledSummary, sampledSummarySchema } from './sampled-summary.ts';
+export { ScanTimeService } from './scan-times.ts';
+export { type ImageInfo, imageInfoSchema, type PictureChoice, UploadService } from './uploads.ts';

@@ -1,0 +1,90 @@
+import { z } from 'zod';
+import type { Limits } from '../core/limits.ts';
+import type { PlanQueue } from '../jobs/plan-queue.ts';
+import type { Store, StoredPlan } from '../jobs/store.ts';
+import type { WorkerPool } from '../jobs/worker-pool.ts';
+import { type Plan, type PlanTable, planTableSchema } from '../plan/index.ts';
+import type { Caller, MissingImage } from './caller.ts';
+
+export const planStatusNames = ['queued', 'running', 'done', 'failed', 'cancelled'] as const;
+
+export const planProgressSchema = z.object({
+  done: z.int().describe('finished cells'),
+  total: z.int().describe('cells of the plan: (1 reference + patterns × accelerations × methods) × seeds'),
+  etaSeconds: z.number().nullable().describe('estimate from this run’s cell rate; null when unknown'),
+});
+
+/** A plan as GET /v1/plans/{id} shows it: stored state, live progress, and the table once done. */
+export const planStatusSchema = z.object({
+  id: z.string(),
+  status: z.enum(planStatusNames),
+  progress: planProgressSchema,
+  table: planTableSchema.optional().describe('when status is done'),
+  recommendation: planTableSchema.shape.recommendation.optional(),
+  error: z
+    .object({ status: z.int(), kind: z.string(), detail: z.string(), errors: z.array(z.unknown()) })
+    .optional()
+    .describe('when status is failed'),
+  createdAt: z.string(),
+  updatedAt: z.string(),
+  links: z.object({ self: z.string(), events: z.string(), csv: z.string() }),
+});
+
+export type PlanStatusView = z.infer<typeof planStatusSchema>;
+
+export function isTerminal(status: string): boolean {
+  return status === 'done' || status === 'failed' || status === 'cancelled';
+}
+
+function links(id: string): PlanStatusView['links'] {
+  return { self: `/v1/plans/${id}`, events: `/v1/plans/${id}/events`, csv: `/v1/plans/${id}/table.csv` };
+}
+
+/** Plans as jobs: validated on a worker, linked to their upload, queued, and shown with live progress. */
+export class PlanService {
+  constructor(private readonly deps: { pool: WorkerPool; store: Store; plans: PlanQueue; limits: Limits }) {}
+
+  /**
+   * Limits (matrix, iterations, cells) and one draw of every mask, before anything is queued
+   * (src/plan validatePlan, on a worker thread); `signal` (the client leaving) ends that thread.
+   */
+  async submit(body: Plan, caller: Caller, signal?: AbortSignal): Promise<StoredPlan | MissingImage> {
+    const { pool, store, plans, limits } = this.deps;
+    plans.checkCapacity();
+    const plan = await pool.runForRequest('validate-plan', { plan: body, limits }, signal);
+    const source = plan.source as { imageId?: string };
+    if (source.imageId !== undefined && !store.getImageInfo(source.imageId, caller.scope)) {
+      return { missingImage: source.imageId };
+    }
+    // The link to the upload lets deleting the upload delete this plan too.
+    const inputs = source.imageId === undefined ? [] : [{ kind: 'image' as const, id: source.imageId }];
+    return plans.submit(plan, { owner: caller.owner, inputs });
+  }
+
+  /** A plan the caller may see. */
+  get(id: string, caller: Caller): StoredPlan | undefined {
+    return this.deps.store.getPlan(id, caller.scope);
+  }
+
+  /** The stored plan with its live progress while it is queued or running. */
+  status(stored: StoredPlan): PlanStatusView {
+    const live = isTerminal(stored.status) ? undefined : this.deps.plans.progress(stored.id);
+    const table = stored.status === 'done' ? (stored.table as PlanTable | null) : null;
+    return {
+      id: stored.id,
+      status: live?.status ?? stored.status,
+      progress: {
+        done: live?.done ?? stored.done,
+        total: stored.total,
+        etaSeconds: live?.etaSeconds ?? null,
+      },
+      ...(table ? { table, recommendation: table.recommendation } : {}),
+      ...(stored.status === 'failed' && stored.error
+        ? { error: stored.error as PlanStatusView['error'] }
+        : {}),
+      createdAt: stored.createdAt,
+      updatedAt: stored.updatedAt,
+      links: links(stored.id),
+    };
+  }
+}
