@@ -2,6 +2,7 @@ import type { FastifyInstance } from 'fastify';
 import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
 import { type MaskDiagnostics, type SampledMask, samplingSchema } from '../sampling/index.ts';
+import type { Limits } from '../src/core/limits.ts';
 import { preferredType } from '../src/http/accept.ts';
 import { contentId } from '../src/http/content-id.ts';
 import { disconnectSignal } from '../src/http/disconnect-signal.ts';
@@ -13,12 +14,14 @@ import {
   sampledSummary,
   sampledSummarySchema,
 } from '../src/http/sampled-summary.ts';
-import { checkMatrixLimit, matrixSchema } from '../src/http/schemas.ts';
+import { requestSchemas } from '../src/http/schemas.ts';
 import { greyPng, maskPng } from '../src/render/png.ts';
 
-const maskBody = z
-  .strictObject({ matrix: matrixSchema, sampling: samplingSchema })
-  .meta({ id: 'MaskRequest' });
+/** The request body with the configured matrix limit baked in. */
+const maskBody = (limits: Limits) =>
+  z
+    .strictObject({ matrix: requestSchemas(limits).matrix, sampling: samplingSchema })
+    .meta({ id: 'MaskRequest' });
 
 const maskResponse = sampledSummarySchema
   .extend({
@@ -39,7 +42,7 @@ export async function maskRoutes(app: FastifyInstance): Promise<void> {
       schema: {
         summary: 'Draw a sampling mask and its point-spread function',
         tags: ['sampling'],
-        body: maskBody,
+        body: maskBody(limits),
         response: {
           200: {
             description: 'The mask summary, or the mask as PNG with Accept: image/png',
@@ -54,7 +57,6 @@ export async function maskRoutes(app: FastifyInstance): Promise<void> {
     },
     async (request, reply) => {
       const { matrix, sampling } = request.body;
-      checkMatrixLimit(matrix, limits);
       const wantsPng = preferredType(request, ['application/json', 'image/png']) === 'image/png';
       // Masks are a pure function of the request, so equal requests share one id and one stored result
       // (per tenant under isolation: the owner digest joins the id, undefined otherwise).

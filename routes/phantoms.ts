@@ -3,11 +3,11 @@ import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
 import { LimitError } from '../src/core/errors.ts';
 import type { Limits } from '../src/core/limits.ts';
+import { validateMatrix } from '../src/core/matrix.ts';
 import type { RealImage } from '../src/core/real-image.ts';
 import { preferredType } from '../src/http/accept.ts';
 import { disconnectSignal } from '../src/http/disconnect-signal.ts';
 import { HttpProblem, jsonResponse, problemResponses } from '../src/http/problem.ts';
-import { checkMatrixLimit } from '../src/http/schemas.ts';
 import { listPhantoms } from '../src/phantoms/index.ts';
 import { greyPng } from '../src/render/png.ts';
 
@@ -144,7 +144,7 @@ export async function phantomRoutes(app: FastifyInstance): Promise<void> {
       const { name } = request.params;
       known(name);
       const { nx, ny, supersample } = request.query;
-      checkMatrixLimit({ nx, ny }, limits);
+      validateMatrix({ nx, ny }, limits);
       const image = await pool.runForRequest<RealImage>(
         { kind: 'phantom-raster', name, nx, ny, supersample },
         disconnectSignal(request, reply),

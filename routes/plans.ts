@@ -6,7 +6,7 @@ import { HttpProblem, jsonResponse, problemResponses } from '../src/http/problem
 import { idParams } from '../src/http/schemas.ts';
 import type { PlanProgress } from '../src/jobs/plan-queue.ts';
 import type { StoredPlan } from '../src/jobs/store.ts';
-import { type Plan, type PlanTable, planSchema, tableToCsv } from '../src/plan/index.ts';
+import { type Plan, type PlanTable, planSchemaFor, tableToCsv } from '../src/plan/index.ts';
 
 const statusSchema = z.enum(['queued', 'running', 'done', 'failed', 'cancelled']);
 
@@ -126,7 +126,7 @@ export async function planRoutes(app: FastifyInstance): Promise<void> {
         summary: 'Queue a sweep of patterns × accelerations × methods × seeds',
         description: 'Answers 202 at once; follow progress at Location, or as Server-Sent Events.',
         tags: ['plans'],
-        body: planSchema,
+        body: planSchemaFor(limits),
         response: {
           202: jsonResponse('Queued (Location: the plan)', planStatusSchema),
           ...problemResponses(400, 401, 404, 413, 422, 429),

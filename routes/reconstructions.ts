@@ -4,6 +4,7 @@ import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
 import { type MaskDiagnostics, samplingSchema } from '../sampling/index.ts';
 import { noiseSchema } from '../src/acquisition/index.ts';
+import type { Limits } from '../src/core/limits.ts';
 import type { RealImage } from '../src/core/real-image.ts';
 import { disconnectSignal } from '../src/http/disconnect-signal.ts';
 import { finiteOrNull, jsonSafe } from '../src/http/json-safe.ts';
@@ -15,27 +16,28 @@ import {
   sampledSummary,
   sampledSummarySchema,
 } from '../src/http/sampled-summary.ts';
-import { checkIterationLimit, checkMatrixLimit, idParams, matrixSchema } from '../src/http/schemas.ts';
+import { idParams, requestSchemas } from '../src/http/schemas.ts';
 import type { UploadedPixels } from '../src/jobs/tasks.ts';
 import { type ReconstructionOutcome, sourceSchema } from '../src/pipeline/run-reconstruction.ts';
-import { methodSchema } from '../src/recon/index.ts';
 import { greyPng, maskPng } from '../src/render/png.ts';
 
-const reconstructionBody = z
-  .strictObject({
-    source: sourceSchema,
-    matrix: matrixSchema,
-    sampling: samplingSchema,
-    noise: noiseSchema.optional().describe('complex Gaussian k-space noise; omitted or "none": noiseless'),
-    method: methodSchema,
-    seed: z
-      .int()
-      .min(0)
-      .max(4294967295)
-      .optional()
-      .describe('overrides sampling.seed and seeds the noise (the same request gives the same bytes)'),
-  })
-  .meta({ id: 'ReconstructionRequest' });
+/** The request body with the configured limits baked in (matrix sides, iterations). */
+const reconstructionBody = (limits: Limits) =>
+  z
+    .strictObject({
+      source: sourceSchema,
+      matrix: requestSchemas(limits).scoredMatrix,
+      sampling: samplingSchema,
+      noise: noiseSchema.optional().describe('complex Gaussian k-space noise; omitted or "none": noiseless'),
+      method: requestSchemas(limits).method,
+      seed: z
+        .int()
+        .min(0)
+        .max(4294967295)
+        .optional()
+        .describe('overrides sampling.seed and seeds the noise (the same request gives the same bytes)'),
+    })
+    .meta({ id: 'ReconstructionRequest' });
 
 const metricValue = z.number().nullable().describe('null when not finite (PSNR of an exact reconstruction)');
 
@@ -92,7 +94,7 @@ export async function reconstructionRoutes(app: FastifyInstance): Promise<void> 
       schema: {
         summary: 'Simulate one undersampled acquisition, reconstruct it and score it',
         tags: ['reconstructions'],
-        body: reconstructionBody,
+        body: reconstructionBody(limits),
         response: {
           201: jsonResponse('The scored reconstruction (Location: its URL)', reconstructionResponse),
           ...problemResponses(400, 401, 404, 413, 415, 422, 429),
@@ -101,8 +103,6 @@ export async function reconstructionRoutes(app: FastifyInstance): Promise<void> 
     },
     async (request, reply) => {
       const { seed, ...pipelineRequest } = request.body;
-      checkMatrixLimit(pipelineRequest.matrix, limits);
-      checkIterationLimit(pipelineRequest.method, limits);
       const { owner, scope } = tenancy(request);
       let image: UploadedPixels | undefined;
       if ('imageId' in pipelineRequest.source) {

@@ -3,17 +3,20 @@ import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
 import type { SampledMask } from '../sampling/index.ts';
 import { samplingSchema } from '../sampling/index.ts';
+import type { Limits } from '../src/core/limits.ts';
 import { jsonResponse, problemResponses } from '../src/http/problem.ts';
-import { checkMatrixLimit, matrixSchema } from '../src/http/schemas.ts';
+import { requestSchemas } from '../src/http/schemas.ts';
 import { protocolSchema, scanTime } from '../src/protocol/index.ts';
 
-const scanTimeBody = z
-  .strictObject({
-    matrix: matrixSchema,
-    protocol: protocolSchema,
-    sampling: samplingSchema.optional().describe('Without sampling: fully sampled'),
-  })
-  .meta({ id: 'ScanTimeRequest' });
+/** The request body with the configured matrix limit baked in. */
+const scanTimeBody = (limits: Limits) =>
+  z
+    .strictObject({
+      matrix: requestSchemas(limits).matrix,
+      protocol: protocolSchema,
+      sampling: samplingSchema.optional().describe('Without sampling: fully sampled'),
+    })
+    .meta({ id: 'ScanTimeRequest' });
 
 const scanTimeResponse = z
   .object({
@@ -35,7 +38,7 @@ export async function scanTimeRoutes(app: FastifyInstance): Promise<void> {
       schema: {
         summary: 'Scan time of a protocol, fully sampled or with a sampling mask',
         tags: ['protocol'],
-        body: scanTimeBody,
+        body: scanTimeBody(limits),
         response: {
           200: jsonResponse('The acquisition time', scanTimeResponse),
           ...problemResponses(400, 401, 413, 422, 429),
@@ -44,7 +47,6 @@ export async function scanTimeRoutes(app: FastifyInstance): Promise<void> {
     },
     async (request) => {
       const { matrix, protocol, sampling } = request.body;
-      checkMatrixLimit(matrix, limits);
       let sampled: SampledMask | undefined;
       if (sampling) {
         ({ sampled } = await pool.runForRequest<{ sampled: SampledMask }>({

@@ -20,7 +20,8 @@ import type { SamplingSpec } from './schema.ts';
 export function generateMask(
   matrix: Matrix,
   spec: SamplingSpec,
-  limits: Limits = defaultLimits,
+  // Kept in the signature for resolveSampling's callers: the limits were checked at the edge.
+  _limits: Limits = defaultLimits,
   signal?: AbortSignal,
 ): SampledMask {
   assertMatrixSize(matrix.nx, matrix.ny);

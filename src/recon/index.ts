@@ -5,7 +5,7 @@ import type { ReconInput, ReconOptions, ReconOutput } from './method.ts';
 import { type MethodSpec, reconMethods } from './registry.ts';
 
 export type { ReconInput, ReconMethod, ReconOptions, ReconOutput } from './method.ts';
-export { type MethodName, type MethodSpec, methodSchema, reconMethods } from './registry.ts';
+export { type MethodName, type MethodSpec, methodSchema, methodSchemaFor, reconMethods } from './registry.ts';
 export { zeroFilledImage } from './zero-filled.ts';
 
 /**

@@ -81,7 +81,10 @@ describe('bad sampling input gives a ValidationError naming the field and the al
     );
     expect(lines[0]).toMatchObject({ field: 'sampling.acs', allowed: '0 ≤ acs ≤ 64 (ny)' });
     const squareAcs = problemsOf(() =>
-      generateChecked({ nx: 64, ny: 32 }, spec({ pattern: 'poisson-disc', acceleration: 1, acs: 33, seed: 1 })),
+      generateChecked(
+        { nx: 64, ny: 32 },
+        spec({ pattern: 'poisson-disc', acceleration: 1, acs: 33, seed: 1 }),
+      ),
     );
     expect(squareAcs[0]).toMatchObject({ field: 'sampling.acs', allowed: '0 ≤ acs ≤ 32 (min(nx, ny))' });
   });
@@ -209,7 +212,9 @@ describe('bad sampling input gives a ValidationError naming the field and the al
   });
 
   it('a custom mask through the synchronous generator is refused with a typed error', () => {
-    const [p] = problemsOf(() => generateChecked(square, spec({ pattern: 'custom', maskPng: 'iVBORw0KGgo=' })));
+    const [p] = problemsOf(() =>
+      generateChecked(square, spec({ pattern: 'custom', maskPng: 'iVBORw0KGgo=' })),
+    );
     expect(p.field).toBe('sampling.pattern');
   });
 
