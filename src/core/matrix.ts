@@ -28,7 +28,8 @@ export function matrixSchemaFor(limits: Limits, minSide = 1, whyMin = ''): z.Zod
         nx: side().describe('readout columns (kx); in 3D the second phase-encode axis kz'),
         ny: side().describe('phase-encode rows (ky)'),
       })
-      .describe('Image matrix: ny rows (phase encode) × nx columns (readout)');
+      .describe('Image matrix: ny rows (phase encode) × nx columns (readout)')
+      .meta({ id: minSide > 1 ? 'ScoredMatrix' : 'Matrix' });
     cache.set(key, schema);
   }
   return schema;
