@@ -2,7 +2,7 @@ import type { FastifyInstance } from 'fastify';
 import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
 import { type MaskDiagnostics, type SampledMask, samplingSchema } from '../sampling/index.ts';
-import type { Limits } from '../src/core/limits.ts';
+import { allLimitFields, type Limits, limitsId } from '../src/core/limits.ts';
 import { preferredType } from '../src/http/accept.ts';
 import { contentId } from '../src/http/content-id.ts';
 import { disconnectSignal } from '../src/http/disconnect-signal.ts';
@@ -14,14 +14,15 @@ import {
   sampledSummary,
   sampledSummarySchema,
 } from '../src/http/sampled-summary.ts';
-import { requestSchemas } from '../src/http/schemas.ts';
+import { perLimits, requestSchemas } from '../src/http/schemas.ts';
 import { greyPng, maskPng } from '../src/render/png.ts';
 
 /** The request body with the configured matrix limit baked in. */
-const maskBody = (limits: Limits) =>
+const maskBody = perLimits((limits: Limits) =>
   z
     .strictObject({ matrix: requestSchemas(limits).matrix, sampling: samplingSchema })
-    .meta({ id: 'MaskRequest' });
+    .meta({ id: limitsId('MaskRequest', limits, allLimitFields) }),
+);
 
 const maskResponse = sampledSummarySchema
   .extend({

@@ -4,7 +4,7 @@ import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
 import { type MaskDiagnostics, samplingSchema } from '../sampling/index.ts';
 import { noiseSchema } from '../src/acquisition/index.ts';
-import type { Limits } from '../src/core/limits.ts';
+import { allLimitFields, type Limits, limitsId } from '../src/core/limits.ts';
 import type { RealImage } from '../src/core/real-image.ts';
 import { disconnectSignal } from '../src/http/disconnect-signal.ts';
 import { finiteOrNull, jsonSafe } from '../src/http/json-safe.ts';
@@ -16,13 +16,13 @@ import {
   sampledSummary,
   sampledSummarySchema,
 } from '../src/http/sampled-summary.ts';
-import { idParams, requestSchemas } from '../src/http/schemas.ts';
+import { idParams, perLimits, requestSchemas } from '../src/http/schemas.ts';
 import type { UploadedPixels } from '../src/jobs/tasks.ts';
 import { type ReconstructionOutcome, sourceSchema } from '../src/pipeline/run-reconstruction.ts';
 import { greyPng, maskPng } from '../src/render/png.ts';
 
 /** The request body with the configured limits baked in (matrix sides, iterations). */
-const reconstructionBody = (limits: Limits) =>
+const reconstructionBody = perLimits((limits: Limits) =>
   z
     .strictObject({
       source: sourceSchema,
@@ -37,7 +37,8 @@ const reconstructionBody = (limits: Limits) =>
         .optional()
         .describe('overrides sampling.seed and seeds the noise (the same request gives the same bytes)'),
     })
-    .meta({ id: 'ReconstructionRequest' });
+    .meta({ id: limitsId('ReconstructionRequest', limits, allLimitFields) }),
+);
 
 const metricValue = z.number().nullable().describe('null when not finite (PSNR of an exact reconstruction)');
 

@@ -3,20 +3,21 @@ import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
 import type { SampledMask } from '../sampling/index.ts';
 import { samplingSchema } from '../sampling/index.ts';
-import type { Limits } from '../src/core/limits.ts';
+import { allLimitFields, type Limits, limitsId } from '../src/core/limits.ts';
 import { jsonResponse, problemResponses } from '../src/http/problem.ts';
-import { requestSchemas } from '../src/http/schemas.ts';
+import { perLimits, requestSchemas } from '../src/http/schemas.ts';
 import { protocolSchema, scanTime } from '../src/protocol/index.ts';
 
 /** The request body with the configured matrix limit baked in. */
-const scanTimeBody = (limits: Limits) =>
+const scanTimeBody = perLimits((limits: Limits) =>
   z
     .strictObject({
       matrix: requestSchemas(limits).matrix,
       protocol: protocolSchema,
       sampling: samplingSchema.optional().describe('Without sampling: fully sampled'),
     })
-    .meta({ id: 'ScanTimeRequest' });
+    .meta({ id: limitsId('ScanTimeRequest', limits, allLimitFields) }),
+);
 
 const scanTimeResponse = z
   .object({

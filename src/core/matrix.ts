@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { defaultLimits, type Limits } from './limits.ts';
+import { defaultLimits, type Limits, limitsId } from './limits.ts';
 import { parseOrThrow, withinLimit } from './zod-problems.ts';
 
 export interface Matrix {
@@ -29,7 +29,7 @@ export function matrixSchemaFor(limits: Limits, minSide = 1, whyMin = ''): z.Zod
         ny: side().describe('phase-encode rows (ky)'),
       })
       .describe('Image matrix: ny rows (phase encode) × nx columns (readout)')
-      .meta({ id: minSide > 1 ? 'ScoredMatrix' : 'Matrix' });
+      .meta({ id: limitsId(minSide > 1 ? 'ScoredMatrix' : 'Matrix', limits, ['maxMatrixSide']) });
     cache.set(key, schema);
   }
   return schema;

@@ -23,3 +23,21 @@ export function requestSchemas(limits: Limits) {
 }
 
 export const idParams = z.object({ id: z.string().min(1).max(200).describe('Resource id') });
+
+/**
+ * One schema object per set of limits: a route body built from the limits carries an OpenAPI id,
+ * and zod's registry maps an id to one object, so every app with the same limits (tests build
+ * several in one process) must share it.
+ */
+export function perLimits<T>(build: (limits: Limits) => T): (limits: Limits) => T {
+  const built = new Map<string, T>();
+  return (limits) => {
+    const key = JSON.stringify(limits);
+    let value = built.get(key);
+    if (value === undefined) {
+      value = build(limits);
+      built.set(key, value);
+    }
+    return value;
+  };
+}
