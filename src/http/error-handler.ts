@@ -42,12 +42,13 @@ function dottedPath(instancePath: string, context: string | undefined): string {
 
 /** The type provider's issue back in zod's own form, for the one converter (src/core/zod-problems.ts). */
 function zodIssueOf(issue: ValidationIssue): z.core.$ZodIssue {
-  return {
+  const fields: object = {
     ...issue.params,
     code: issue.keyword,
     message: issue.message,
     path: [],
-  } as unknown as z.core.$ZodIssue;
+  };
+  return fields as z.core.$ZodIssue;
 }
 
 /** Maps the type provider's zod issues to field problems and picks 400 (shape) or 422 (values). */
