@@ -2,16 +2,20 @@ import type { FastifyInstance } from 'fastify';
 import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
 import { samplingSchema } from '../sampling/index.ts';
+import { allLimitFields, type Limits, limitsId } from '../src/core/limits.ts';
 import { preferredType } from '../src/http/accept.ts';
 import { disconnectSignal } from '../src/http/disconnect-signal.ts';
 import { sendPng } from '../src/http/png-reply.ts';
 import { problemResponses } from '../src/http/problem.ts';
-import { checkMatrixLimit, matrixSchema } from '../src/http/schemas.ts';
+import { perLimits, requestSchemas } from '../src/http/schemas.ts';
 import { maskResultSchema } from '../src/services/index.ts';
 
-const maskBody = z
-  .strictObject({ matrix: matrixSchema, sampling: samplingSchema })
-  .meta({ id: 'MaskRequest' });
+/** The request body with the configured matrix limit baked in. */
+const maskBody = perLimits((limits: Limits) =>
+  z
+    .strictObject({ matrix: requestSchemas(limits).matrix, sampling: samplingSchema })
+    .meta({ id: limitsId('MaskRequest', limits, allLimitFields) }),
+);
 
 const maskResponse = maskResultSchema.meta({ id: 'MaskResult' });
 
@@ -24,7 +28,7 @@ export async function maskRoutes(app: FastifyInstance): Promise<void> {
       schema: {
         summary: 'Draw a sampling mask and its point-spread function',
         tags: ['sampling'],
-        body: maskBody,
+        body: maskBody(limits),
         response: {
           200: {
             description: 'The mask summary, or the mask as PNG with Accept: image/png',
@@ -38,7 +42,6 @@ export async function maskRoutes(app: FastifyInstance): Promise<void> {
       },
     },
     async (request, reply) => {
-      checkMatrixLimit(request.body.matrix, limits);
       const signal = disconnectSignal(request, reply);
       if (preferredType(request, ['application/json', 'image/png']) === 'image/png') {
         return sendPng(reply, await masks.png(request.body, signal));

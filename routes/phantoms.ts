@@ -3,11 +3,11 @@ import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
 import { LimitError } from '../src/core/errors.ts';
 import type { Limits } from '../src/core/limits.ts';
+import { validateMatrix } from '../src/core/matrix.ts';
 import { preferredType } from '../src/http/accept.ts';
 import { disconnectSignal } from '../src/http/disconnect-signal.ts';
 import { sendPng } from '../src/http/png-reply.ts';
 import { HttpProblem, jsonResponse, problemResponses } from '../src/http/problem.ts';
-import { checkMatrixLimit } from '../src/http/schemas.ts';
 import { listPhantoms } from '../src/phantoms/index.ts';
 
 const phantomInfoSchema = z.object({ name: z.string(), description: z.string() }).meta({ id: 'PhantomInfo' });
@@ -138,7 +138,7 @@ export async function phantomRoutes(app: FastifyInstance): Promise<void> {
       const { name } = request.params;
       known(name);
       const { nx, ny, supersample } = request.query;
-      checkMatrixLimit({ nx, ny }, limits);
+      validateMatrix({ nx, ny }, limits);
       const raster = { name, nx, ny, supersample };
       const signal = disconnectSignal(request, reply);
       if (preferredType(request, ['image/png', 'application/json']) === 'application/json') {

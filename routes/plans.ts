@@ -7,7 +7,7 @@ import { idParams } from '../src/http/schemas.ts';
 import type { PlanEvent } from '../src/jobs/plan-queue.ts';
 import {
   planRowSchema,
-  planSchema,
+  planSchemaFor,
   planTableSchema,
   recommendationSchema,
   tableToCsv,
@@ -53,7 +53,7 @@ function notFound(id: string): HttpProblem {
  */
 export async function planRoutes(app: FastifyInstance): Promise<void> {
   const r = app.withTypeProvider<ZodTypeProvider>();
-  const { plans, planning, lifecycle, tenancy } = app.services;
+  const { plans, planning, lifecycle, tenancy, limits } = app.services;
   // Open event streams are ended before the server closes, or close would wait for them.
   const streams = new Set<() => void>();
   app.addHook('preClose', async () => {
@@ -67,7 +67,7 @@ export async function planRoutes(app: FastifyInstance): Promise<void> {
         summary: 'Queue a sweep of patterns × accelerations × methods × seeds',
         description: 'Answers 202 at once; follow progress at Location, or as Server-Sent Events.',
         tags: ['plans'],
-        body: planSchema,
+        body: planSchemaFor(limits),
         response: {
           202: jsonResponse('Queued (Location: the plan)', planStatusResponse),
           ...problemResponses(400, 401, 404, 413, 422, 429),

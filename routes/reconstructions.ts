@@ -3,28 +3,31 @@ import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
 import { samplingSchema } from '../sampling/index.ts';
 import { noiseSchema } from '../src/acquisition/index.ts';
+import { allLimitFields, type Limits, limitsId } from '../src/core/limits.ts';
 import { disconnectSignal } from '../src/http/disconnect-signal.ts';
 import { HttpProblem, jsonResponse, problemResponses } from '../src/http/problem.ts';
-import { checkIterationLimit, checkMatrixLimit, idParams, matrixSchema } from '../src/http/schemas.ts';
+import { idParams, perLimits, requestSchemas } from '../src/http/schemas.ts';
 import { sourceSchema } from '../src/pipeline/run-reconstruction.ts';
-import { methodSchema } from '../src/recon/index.ts';
 import { reconstructionSchema } from '../src/services/index.ts';
 
-const reconstructionBody = z
-  .strictObject({
-    source: sourceSchema,
-    matrix: matrixSchema,
-    sampling: samplingSchema,
-    noise: noiseSchema.optional().describe('complex Gaussian k-space noise; omitted or "none": noiseless'),
-    method: methodSchema,
-    seed: z
-      .int()
-      .min(0)
-      .max(4294967295)
-      .optional()
-      .describe('overrides sampling.seed and seeds the noise (the same request gives the same bytes)'),
-  })
-  .meta({ id: 'ReconstructionRequest' });
+/** The request body with the configured limits baked in (matrix sides, iterations). */
+const reconstructionBody = perLimits((limits: Limits) =>
+  z
+    .strictObject({
+      source: sourceSchema,
+      matrix: requestSchemas(limits).scoredMatrix,
+      sampling: samplingSchema,
+      noise: noiseSchema.optional().describe('complex Gaussian k-space noise; omitted or "none": noiseless'),
+      method: requestSchemas(limits).method,
+      seed: z
+        .int()
+        .min(0)
+        .max(4294967295)
+        .optional()
+        .describe('overrides sampling.seed and seeds the noise (the same request gives the same bytes)'),
+    })
+    .meta({ id: limitsId('ReconstructionRequest', limits, allLimitFields) }),
+);
 
 const reconstructionResponse = reconstructionSchema.meta({ id: 'Reconstruction' });
 
@@ -45,7 +48,7 @@ export async function reconstructionRoutes(app: FastifyInstance): Promise<void> 
       schema: {
         summary: 'Simulate one undersampled acquisition, reconstruct it and score it',
         tags: ['reconstructions'],
-        body: reconstructionBody,
+        body: reconstructionBody(limits),
         response: {
           201: jsonResponse('The scored reconstruction (Location: its URL)', reconstructionResponse),
           ...problemResponses(400, 401, 404, 413, 415, 422, 429),
@@ -53,8 +56,6 @@ export async function reconstructionRoutes(app: FastifyInstance): Promise<void> 
       },
     },
     async (request, reply) => {
-      checkMatrixLimit(request.body.matrix, limits);
-      checkIterationLimit(request.body.method, limits);
       // A client that goes away stops the computation (the worker thread is ended).
       const result = await reconstructions.create(
         request.body,

@@ -2,17 +2,21 @@ import type { FastifyInstance } from 'fastify';
 import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
 import { samplingSchema } from '../sampling/index.ts';
+import { allLimitFields, type Limits, limitsId } from '../src/core/limits.ts';
 import { jsonResponse, problemResponses } from '../src/http/problem.ts';
-import { checkMatrixLimit, matrixSchema } from '../src/http/schemas.ts';
+import { perLimits, requestSchemas } from '../src/http/schemas.ts';
 import { protocolSchema, scanTimeResultSchema } from '../src/protocol/index.ts';
 
-const scanTimeBody = z
-  .strictObject({
-    matrix: matrixSchema,
-    protocol: protocolSchema,
-    sampling: samplingSchema.optional().describe('Without sampling: fully sampled'),
-  })
-  .meta({ id: 'ScanTimeRequest' });
+/** The request body with the configured matrix limit baked in. */
+const scanTimeBody = perLimits((limits: Limits) =>
+  z
+    .strictObject({
+      matrix: requestSchemas(limits).matrix,
+      protocol: protocolSchema,
+      sampling: samplingSchema.optional().describe('Without sampling: fully sampled'),
+    })
+    .meta({ id: limitsId('ScanTimeRequest', limits, allLimitFields) }),
+);
 
 // The response is the scan-time model's own result schema (src/protocol), published as a component.
 const scanTimeResponse = scanTimeResultSchema.meta({ id: 'ScanTime' });
@@ -26,7 +30,7 @@ export async function scanTimeRoutes(app: FastifyInstance): Promise<void> {
       schema: {
         summary: 'Scan time of a protocol, fully sampled or with a sampling mask',
         tags: ['protocol'],
-        body: scanTimeBody,
+        body: scanTimeBody(limits),
         response: {
           200: jsonResponse('The acquisition time', scanTimeResponse),
           ...problemResponses(400, 401, 413, 422, 429),
@@ -35,7 +39,6 @@ export async function scanTimeRoutes(app: FastifyInstance): Promise<void> {
     },
     async (request) => {
       const { matrix, protocol, sampling } = request.body;
-      checkMatrixLimit(matrix, limits);
       return scanTimes.compute(matrix, protocol, sampling);
     },
   );

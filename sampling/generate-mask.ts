@@ -1,3 +1,4 @@
+import { assertMatrixSize } from '../src/core/complex-image.ts';
 import { ValidationError } from '../src/core/errors.ts';
 import { defaultLimits, type Limits } from '../src/core/limits.ts';
 import { type Matrix, validateMatrix } from '../src/core/matrix.ts';
@@ -7,31 +8,32 @@ import { decodeCustomMask } from './custom.ts';
 import { poissonDiscMask } from './poisson-disc.ts';
 import { radialMask } from './radial.ts';
 import type { SampledMask } from './sampled-mask.ts';
-import { parseSampling, type SamplingSpec } from './schema.ts';
+import type { SamplingSpec } from './schema.ts';
 
 /**
  * Generates the mask of a sampling spec on a matrix, synchronously, for every pattern but `custom`
- * (whose PNG is decoded asynchronously by resolveSampling). Matrix and spec are validated here too,
- * so a caller that skipped the schema still gets ValidationError / LimitError naming the field.
- * `signal` lets a caller cancel the one pattern that takes long on big matrices (poisson-disc).
+ * (whose PNG is decoded asynchronously by resolveSampling). Matrix and spec are validated once, at
+ * the edge (the request schema, or validateMatrix + parseSampling); this trusts them and checks only
+ * what needs the matrix (R too high for it, ACS wider than N/R). A malformed matrix is a programming
+ * mistake (RangeError). `signal` lets a caller cancel the one pattern that takes long on big matrices (poisson-disc).
  */
 export function generateMask(
   matrix: Matrix,
   spec: SamplingSpec,
-  limits: Limits = defaultLimits,
+  // Kept in the signature for resolveSampling's callers: the limits were checked at the edge.
+  _limits: Limits = defaultLimits,
   signal?: AbortSignal,
 ): SampledMask {
-  const size = validateMatrix(matrix, limits);
-  const parsed = parseSampling(spec);
-  switch (parsed.pattern) {
+  assertMatrixSize(matrix.nx, matrix.ny);
+  switch (spec.pattern) {
     case 'cartesian-uniform':
-      return cartesianUniformMask(size, parsed);
+      return cartesianUniformMask(matrix, spec);
     case 'cartesian-random':
-      return cartesianRandomMask(size, parsed);
+      return cartesianRandomMask(matrix, spec);
     case 'poisson-disc':
-      return poissonDiscMask(size, parsed, signal);
+      return poissonDiscMask(matrix, spec, signal);
     case 'radial':
-      return radialMask(size, parsed);
+      return radialMask(matrix, spec);
     case 'custom':
       throw new ValidationError({
         field: 'sampling.pattern',
@@ -49,8 +51,9 @@ export async function resolveSampling(
   limits: Limits = defaultLimits,
   signal?: AbortSignal,
 ): Promise<SampledMask> {
-  const size = validateMatrix(matrix, limits);
-  const parsed = parseSampling(spec);
-  if (parsed.pattern === 'custom') return decodeCustomMask(size, parsed, limits);
-  return generateMask(size, parsed, limits, signal);
+  if (spec.pattern === 'custom') {
+    assertMatrixSize(matrix.nx, matrix.ny);
+    return decodeCustomMask(matrix, spec, limits);
+  }
+  return generateMask(matrix, spec, limits, signal);
 }

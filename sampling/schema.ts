@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { type FieldProblem, ValidationError } from '../src/core/errors.ts';
+import { problemsFromIssues } from '../src/core/zod-problems.ts';
 
 /**
  * The "sampling" piece of a request (docs/design.md §4.3): one object per mask family, told apart by `pattern`.
@@ -134,42 +135,9 @@ export type PoissonDiscSpec = z.infer<typeof poissonDiscSchema>;
 export type RadialSpec = z.infer<typeof radialSchema>;
 export type CustomSpec = z.infer<typeof customSchema>;
 
-/** Human-readable allowed range or set for one zod issue, where zod tells it. */
-function allowedFor(issue: z.core.$ZodIssue): string | undefined {
-  switch (issue.code) {
-    case 'too_small':
-      return `${issue.inclusive ? '≥' : '>'} ${String(issue.minimum)}`;
-    case 'too_big':
-      return `${issue.inclusive ? '≤' : '<'} ${String(issue.maximum)}`;
-    case 'invalid_union': {
-      const options = (issue as { options?: unknown[] }).options;
-      return options ? `one of ${options.map((o) => `'${String(o)}'`).join(', ')}` : undefined;
-    }
-    case 'invalid_value':
-      return `one of ${issue.values.map((v) => `'${String(v)}'`).join(', ')}`;
-    case 'invalid_type':
-      return issue.expected === 'int' ? 'an integer' : `a ${issue.expected}`;
-    default:
-      return undefined;
-  }
-}
-
-/** zod issues → field problems whose paths start with `prefix` (e.g. "sampling"); one per unknown key. */
+/** zod issues → field problems whose paths start with `prefix` (e.g. "sampling"): the one converter. */
 export function zodProblems(error: z.ZodError, prefix: string): FieldProblem[] {
-  return error.issues.flatMap((issue) => {
-    const path = [prefix, ...issue.path.map(String)].join('.');
-    if (issue.code === 'unrecognized_keys') {
-      return issue.keys.map((key) => ({
-        field: `${path}.${key}`,
-        message: 'unknown field',
-        allowed: 'the documented fields only',
-      }));
-    }
-    const allowed = allowedFor(issue);
-    return allowed === undefined
-      ? { field: path, message: issue.message }
-      : { field: path, message: issue.message, allowed };
-  });
+  return problemsFromIssues(error.issues, prefix);
 }
 
 /** Validates a sampling spec; throws ValidationError with `sampling.*` field paths. */

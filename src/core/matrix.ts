@@ -1,41 +1,41 @@
-import { type FieldProblem, LimitError, ValidationError } from './errors.ts';
-import { defaultLimits, type Limits } from './limits.ts';
+import { z } from 'zod';
+import { defaultLimits, type Limits, limitsId } from './limits.ts';
+import { parseOrThrow, withinLimit } from './zod-problems.ts';
 
 export interface Matrix {
   nx: number;
   ny: number;
 }
 
+const cache = new Map<string, z.ZodType<Matrix, Matrix>>();
+
 /**
- * Checks the matrix of a request: integer sides from 1 to limits.maxMatrixSide. Non-integers and
- * non-numbers give a ValidationError; sides beyond the configured limit a LimitError.
+ * The matrix piece of every request, built from the configured limits: integer sides from
+ * `minSide` (1, or the SSIM window for requests that are scored) to limits.maxMatrixSide, the
+ * one upper bound (a LimitError beyond it). One schema object per (limit, lower bound), so that the
+ * OpenAPI names it once.
  */
+export function matrixSchemaFor(limits: Limits, minSide = 1, whyMin = ''): z.ZodType<Matrix, Matrix> {
+  const key = `${limits.maxMatrixSide}|${minSide}|${whyMin}`;
+  let schema = cache.get(key);
+  if (!schema) {
+    const tooSmall = whyMin
+      ? { error: (issue: { input?: unknown }) => `${String(issue.input)} is too small: ${whyMin}` }
+      : {};
+    const side = () => withinLimit(z.int().min(minSide, tooSmall), limits.maxMatrixSide);
+    schema = z
+      .strictObject({
+        nx: side().describe('readout columns (kx); in 3D the second phase-encode axis kz'),
+        ny: side().describe('phase-encode rows (ky)'),
+      })
+      .describe('Image matrix: ny rows (phase encode) × nx columns (readout)')
+      .meta({ id: limitsId(minSide > 1 ? 'ScoredMatrix' : 'Matrix', limits, ['maxMatrixSide']) });
+    cache.set(key, schema);
+  }
+  return schema;
+}
+
+/** Checks a matrix outside a request schema (scripts, tests): the same schema, the same problems. */
 export function validateMatrix(matrix: unknown, limits: Limits = defaultLimits): Matrix {
-  const max = limits.maxMatrixSide;
-  if (typeof matrix !== 'object' || matrix === null) {
-    throw new ValidationError({ field: 'matrix', message: 'must be an object { nx, ny }' });
-  }
-  const record = matrix as Record<string, unknown>;
-  const invalid: FieldProblem[] = [];
-  const tooLarge: FieldProblem[] = [];
-  for (const side of ['nx', 'ny'] as const) {
-    const value = record[side];
-    const allowed = `integer, 1 ≤ ${side} ≤ ${max}`;
-    if (typeof value !== 'number' || !Number.isInteger(value) || value < 1) {
-      invalid.push({
-        field: `matrix.${side}`,
-        message: `must be a positive integer, got ${String(value)}`,
-        allowed,
-      });
-    } else if (value > max) {
-      tooLarge.push({
-        field: `matrix.${side}`,
-        message: `${value} exceeds the configured limit ${max}`,
-        allowed,
-      });
-    }
-  }
-  if (invalid.length > 0) throw new ValidationError([...invalid, ...tooLarge]);
-  if (tooLarge.length > 0) throw new LimitError(tooLarge);
-  return { nx: record.nx as number, ny: record.ny as number };
+  return parseOrThrow(matrixSchemaFor(limits), matrix, 'matrix');
 }

@@ -1,6 +1,8 @@
 import type { FastifyError, FastifyInstance } from 'fastify';
 import { hasZodFastifySchemaValidationErrors } from 'fastify-type-provider-zod';
+import type { z } from 'zod';
 import { type FieldProblem, KnownError } from '../core/errors.ts';
+import { allowedText, isLimitIssue } from '../core/zod-problems.ts';
 import {
   HttpProblem,
   limitProblemKind,
@@ -35,27 +37,25 @@ function dottedPath(instancePath: string, context: string | undefined): string {
   return out;
 }
 
-function describeAllowed(issue: ValidationIssue): string | undefined {
-  const p = issue.params;
-  if (issue.keyword === 'too_big' && p.maximum !== undefined)
-    return `${p.inclusive === false ? '<' : '≤'} ${p.maximum}`;
-  if (issue.keyword === 'too_small' && p.minimum !== undefined)
-    return `${p.inclusive === false ? '>' : '≥'} ${p.minimum}`;
-  if (issue.keyword === 'invalid_value' && Array.isArray(p.values))
-    return `one of ${p.values.map((v) => JSON.stringify(v)).join(', ')}`;
-  if (issue.keyword === 'invalid_type' && typeof p.expected === 'string') return String(p.expected);
-  const custom = p.params as { allowed?: unknown } | undefined;
-  if (issue.keyword === 'custom' && typeof custom?.allowed === 'string') return custom.allowed;
-  if (issue.keyword === 'not_multiple_of' && p.divisor !== undefined) return `a multiple of ${p.divisor}`;
-  return undefined;
+/** The type provider's issue back in zod's own form, for the one converter (src/core/zod-problems.ts). */
+function zodIssueOf(issue: ValidationIssue): z.core.$ZodIssue {
+  const fields: object = {
+    ...issue.params,
+    code: issue.keyword,
+    message: issue.message,
+    path: [],
+  };
+  return fields as z.core.$ZodIssue;
 }
 
 /** Maps the type provider's zod issues to field problems and picks 400 (shape) or 422 (values). */
 export function classifyValidation(
   issues: ValidationIssue[],
   context: string | undefined,
-): { status: 400 | 422; errors: FieldProblem[] } {
+): { status: 400 | 422; errors: FieldProblem[]; limit: boolean } {
   let shape = false;
+  // Only configured limits (matrix side, iterations, plan cells) broken: /problems/limit-exceeded.
+  const limit = issues.length > 0 && issues.every((issue) => isLimitIssue(zodIssueOf(issue)));
   const errors: FieldProblem[] = [];
   for (const issue of issues) {
     // An unknown key is named by its own path (`sampling.density.powr`), one entry per key.
@@ -80,12 +80,12 @@ export function classifyValidation(
       isShape = false;
     }
     shape ||= isShape;
-    const allowed = describeAllowed(issue);
+    const allowed = allowedText(zodIssueOf(issue));
     errors.push(
       allowed === undefined ? { field, message: issue.message } : { field, message: issue.message, allowed },
     );
   }
-  return { status: shape ? 400 : 422, errors };
+  return { status: shape ? 400 : 422, errors, limit };
 }
 
 const fastifyStatusByCode: Record<string, ProblemStatus> = {
@@ -120,10 +120,14 @@ export function installErrorHandling(app: FastifyInstance): void {
     }
     if (hasZodFastifySchemaValidationErrors(error)) {
       const context = (error as FastifyError).validationContext;
-      const { status, errors } = classifyValidation(
+      const { status, errors, limit } = classifyValidation(
         error.validation as unknown as ValidationIssue[],
         context,
       );
+      if (limit) {
+        const message = errors.map((p) => `${p.field}: ${p.message}`).join('; ');
+        return sendProblem(reply, makeProblem(422, message, errors, limitProblemKind));
+      }
       const detail =
         status === 400
           ? `the ${context ?? 'request'} does not have the expected shape or types`

@@ -1,41 +1,43 @@
 import { z } from 'zod';
-import { LimitError } from '../core/errors.ts';
 import type { Limits } from '../core/limits.ts';
+import { matrixSchemaFor } from '../core/matrix.ts';
+import { scoredMatrixSchemaFor } from '../pipeline/run-reconstruction.ts';
+import { planSchemaFor } from '../plan/schema.ts';
+import { methodSchemaFor } from '../recon/index.ts';
 
-/** The matrix piece (docs/design.md §4.3). The configured per-side limit is checked by checkMatrixLimit. */
-export const matrixSchema = z
-  .strictObject({
-    nx: z.int().min(2).max(65_536).describe('readout columns (kx)'),
-    ny: z.int().min(2).max(65_536).describe('phase-encode rows (ky)'),
-  })
-  .meta({ id: 'Matrix', description: 'Image matrix: ny rows (phase encode) × nx columns (readout)' });
+/**
+ * The request pieces with the configured limits baked in (docs/design.md §4.3), so the parse at the
+ * HTTP boundary checks everything that needs no computation: matrix sides (1, or 11 for scored
+ * requests, up to limits.maxMatrixSide), method iterations (≤ limits.maxIterations) and plan cells.
+ * A limit beyond its bound is a 422 /problems/limit-exceeded naming the field (error-handler.ts).
+ */
+export function requestSchemas(limits: Limits) {
+  return {
+    /** Masks and scan time: any side from 1. */
+    matrix: matrixSchemaFor(limits),
+    /** Reconstructions: one whole SSIM window (11×11) at least. */
+    scoredMatrix: scoredMatrixSchemaFor(limits),
+    method: methodSchemaFor(limits),
+    plan: planSchemaFor(limits),
+  };
+}
 
 export const idParams = z.object({ id: z.string().min(1).max(200).describe('Resource id') });
 
-/** Refuses matrices beyond the configured limit (422, LimitError) before any work starts. */
-export function checkMatrixLimit(
-  matrix: { nx: number; ny: number },
-  limits: Limits,
-  prefix = 'matrix',
-): void {
-  const problems = (['nx', 'ny'] as const)
-    .filter((key) => matrix[key] > limits.maxMatrixSide)
-    .map((key) => ({
-      field: `${prefix}.${key}`,
-      message: `${matrix[key]} is larger than the configured limit`,
-      allowed: `≤ ${limits.maxMatrixSide}`,
-    }));
-  if (problems.length > 0) throw new LimitError(problems);
-}
-
-/** Refuses iteration counts beyond the configured limit. */
-export function checkIterationLimit(method: unknown, limits: Limits, field = 'method.iterations'): void {
-  const iterations = (method as { iterations?: unknown } | null)?.iterations;
-  if (typeof iterations === 'number' && iterations > limits.maxIterations) {
-    throw new LimitError({
-      field,
-      message: `${iterations} iterations is more than the configured limit`,
-      allowed: `≤ ${limits.maxIterations}`,
-    });
-  }
+/**
+ * One schema object per set of limits: a route body built from the limits carries an OpenAPI id,
+ * and zod's registry maps an id to one object, so every app with the same limits (tests build
+ * several in one process) must share it.
+ */
+export function perLimits<T>(build: (limits: Limits) => T): (limits: Limits) => T {
+  const built = new Map<string, T>();
+  return (limits) => {
+    const key = JSON.stringify(limits);
+    let value = built.get(key);
+    if (value === undefined) {
+      value = build(limits);
+      built.set(key, value);
+    }
+    return value;
+  };
 }

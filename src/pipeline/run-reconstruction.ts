@@ -1,21 +1,27 @@
 import { z } from 'zod';
-import { resolveSampling, type SampledMask, type SamplingSpec } from '../../sampling/index.ts';
+import {
+  resolveSampling,
+  type SampledMask,
+  type SamplingSpec,
+  samplingSchema,
+} from '../../sampling/index.ts';
 import {
   acquire,
-  checkedSnr,
   type FullAcquisition,
   fullKspaceFromImage,
   fullKspaceFromPhantom,
   type NoiseSpec,
+  noiseSchema,
 } from '../acquisition/index.ts';
 import { type ComplexImage, magnitude } from '../core/complex-image.ts';
 import { ValidationError } from '../core/errors.ts';
 import { defaultLimits, type Limits } from '../core/limits.ts';
-import { validateMatrix } from '../core/matrix.ts';
+import { matrixSchemaFor } from '../core/matrix.ts';
 import type { RealImage } from '../core/real-image.ts';
+import { parseOrThrow } from '../core/zod-problems.ts';
 import { type MetricSet, SSIM_RADIUS, scoreAll } from '../metrics/index.ts';
 import { getPhantom } from '../phantoms/index.ts';
-import { type MethodSpec, reconstruct, zeroFilledImage } from '../recon/index.ts';
+import { type MethodSpec, methodSchemaFor, reconstruct, zeroFilledImage } from '../recon/index.ts';
 import { resampleBilinear } from './resample.ts';
 
 export const sourceSchema = z.union([
@@ -143,18 +149,36 @@ function magnitudeImage(image: ComplexImage): RealImage {
 export const MIN_SCORED_SIDE = 2 * SSIM_RADIUS + 1;
 
 /**
- * Refuses matrices too small to score, naming the request's field rather than the metric's
- * internal argument (checked before any work, by single reconstructions and by plan validation).
+ * The matrix of a scored request (reconstructions, plans): sides from MIN_SCORED_SIDE, the one lower
+ * bound, to the configured limit, the one upper bound.
  */
-export function checkScorableMatrix(matrix: { nx: number; ny: number }): void {
-  const problems = (['nx', 'ny'] as const)
-    .filter((side) => matrix[side] < MIN_SCORED_SIDE)
-    .map((side) => ({
-      field: `matrix.${side}`,
-      message: `${matrix[side]} is too small to score: SSIM needs an ${MIN_SCORED_SIDE}×${MIN_SCORED_SIDE} window`,
-      allowed: `${side} ≥ ${MIN_SCORED_SIDE}`,
-    }));
-  if (problems.length > 0) throw new ValidationError(problems);
+export function scoredMatrixSchemaFor(limits: Limits) {
+  return matrixSchemaFor(
+    limits,
+    MIN_SCORED_SIDE,
+    `SSIM needs an ${MIN_SCORED_SIDE}×${MIN_SCORED_SIDE} window to score`,
+  );
+}
+
+/**
+ * A reconstruction request checked as the HTTP schema checks it, for callers outside HTTP (scripts,
+ * tests): the same schemas, so the same field problems and limits.
+ */
+export function parseReconstructionRequest(
+  input: unknown,
+  limits: Limits = defaultLimits,
+): ReconstructionRequest {
+  return parseOrThrow(reconstructionRequestSchemaFor(limits), input, '');
+}
+
+export function reconstructionRequestSchemaFor(limits: Limits) {
+  return z.strictObject({
+    source: sourceSchema,
+    matrix: scoredMatrixSchemaFor(limits),
+    sampling: samplingSchema,
+    noise: noiseSchema.optional().describe('complex Gaussian k-space noise; omitted or "none": noiseless'),
+    method: methodSchemaFor(limits),
+  });
 }
 
 /**
@@ -170,9 +194,8 @@ export async function runReconstruction(
   ctx: PipelineContext = {},
 ): Promise<ReconstructionOutcome> {
   const limits = ctx.limits ?? defaultLimits;
-  const { nx, ny } = validateMatrix(req.matrix, limits);
-  checkScorableMatrix({ nx, ny });
-  checkedSnr(req.noise);
+  // The request was checked once at the edge (reconstructionRequestSchemaFor): trusted here.
+  const { nx, ny } = req.matrix;
   const notes: string[] = [];
   const full = await fullAcquisition(req.source, nx, ny, ctx, notes);
   const sampling =

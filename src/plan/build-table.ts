@@ -1,5 +1,5 @@
 import { ValidationError } from '../core/errors.ts';
-import { formatDuration, parseOrThrow, protocolSchema, scanTime } from '../protocol/index.ts';
+import { formatDuration, scanTime } from '../protocol/index.ts';
 import type { CellResult } from './cell-result.ts';
 import { specLabels } from './labels.ts';
 import { metricNames } from './metric-direction.ts';
@@ -126,7 +126,7 @@ function tableNotes(plan: TablePlan, rows: readonly PlanRow[], cellResults: read
     'The recommendation uses the mean target metric over seeds; ties go to the shorter scan, then the ' +
       'better metric, then plan order.',
   ];
-  const { partialFourier, dimensions } = parseOrThrow(protocolSchema, plan.protocol, 'protocol');
+  const { partialFourier, dimensions } = plan.protocol;
   if (dimensions === '2d' && cellResults.some((r) => r.mask?.unit === 'points')) {
     notes.push(
       'A point mask (e.g. poisson-disc) in a 2D protocol: every phase-encode row holding a sampled point ' +

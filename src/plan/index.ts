@@ -38,7 +38,7 @@ export { type GridPosition, rowKey } from './row-key.ts';
 export { runCell } from './run-cell.ts';
 export { type RunCellFn, type RunPlanOptions, runPlan } from './run-plan.ts';
 export { type RunPlanCellsOptions, runPlanCells } from './run-plan-cells.ts';
-export { type Plan, type PlanInput, planMatrixSchema, planPatternSchema, planSchema } from './schema.ts';
+export { type Plan, type PlanInput, planPatternSchema, planSchema, planSchemaFor } from './schema.ts';
 export { type Summary, summarize } from './statistics.ts';
 export { csvColumns, csvField, tableToCsv } from './table-csv.ts';
 export { type Target, targetBound, targetSchema } from './target-schema.ts';

@@ -3,7 +3,7 @@ import { defaultLimits, type Limits } from '../core/limits.ts';
 import { patternSpecs } from './pattern-specs.ts';
 import type { GridPosition } from './row-key.ts';
 import type { Plan } from './schema.ts';
-import { type MethodSpec, methodSchema, type SamplingSpec, samplingSchema } from './upstream.ts';
+import type { MethodSpec, SamplingSpec } from './upstream.ts';
 
 /** One simulated acquisition + reconstruction of a plan. Plain data, so it can cross to a worker thread. */
 export interface PlanCell extends GridPosition {
@@ -22,8 +22,8 @@ export interface PlanCell extends GridPosition {
 }
 
 /** Fully sampled reference: every line (R = 1), zero-filled reconstruction. */
-export const referenceSampling = { pattern: 'cartesian-uniform', acceleration: 1 } as const;
-export const referenceMethod = { name: 'zero-filled' } as const;
+export const referenceSampling: SamplingSpec = { pattern: 'cartesian-uniform', acceleration: 1 };
+export const referenceMethod: MethodSpec = { name: 'zero-filled' };
 
 /** Number of cells a plan expands to: (reference + Σ patterns' R counts × methods) × seeds. */
 export function planCellCount(plan: Pick<Plan, 'patterns' | 'accelerations' | 'methods' | 'seeds'>): number {
@@ -34,7 +34,8 @@ export function planCellCount(plan: Pick<Plan, 'patterns' | 'accelerations' | 'm
 }
 
 /**
- * Expands a validated plan into cells in a fixed order (so results and tables are reproducible).
+ * Expands a validated plan into cells in a fixed order (so results and tables are reproducible);
+ * the specs are the plan's own typed values, never parsed again.
  * Plans larger than `limits.maxPlanCells` are refused with a LimitError before any work starts.
  */
 export function planCells(plan: Plan, limits: Limits = defaultLimits): PlanCell[] {
@@ -52,13 +53,12 @@ export function planCells(plan: Plan, limits: Limits = defaultLimits): PlanCell[
   };
   push(
     { reference: true, patternIndex: null, accelerationIndex: null, methodIndex: null },
-    samplingSchema.parse(referenceSampling),
+    referenceSampling,
     1,
-    methodSchema.parse(referenceMethod),
+    referenceMethod,
   );
   plan.patterns.forEach((pattern, patternIndex) => {
-    for (const [accelerationIndex, spec] of patternSpecs(pattern, plan.accelerations)) {
-      const sampling = samplingSchema.parse(spec);
+    for (const [accelerationIndex, sampling] of patternSpecs(pattern, plan.accelerations)) {
       const acceleration = accelerationIndex === null ? null : plan.accelerations[accelerationIndex];
       plan.methods.forEach((method, methodIndex) => {
         push(

@@ -1,8 +1,18 @@
 import { z } from 'zod';
-import { allowedText, fieldPath, protocolSchema } from '../protocol/index.ts';
+import { defaultLimits, type Limits } from '../core/limits.ts';
+import { allowedText, fieldPath } from '../core/zod-problems.ts';
+import { protocolSchema } from '../protocol/index.ts';
 import { patternSpecs } from './pattern-specs.ts';
+import { planCellCount } from './plan-cells.ts';
 import { targetSchema } from './target-schema.ts';
-import { methodSchema, noiseSchema, type SamplingSpec, samplingSchema, sourceSchema } from './upstream.ts';
+import {
+  methodSchemaFor,
+  noiseSchema,
+  type SamplingSpec,
+  samplingSchema,
+  scoredMatrixSchemaFor,
+  sourceSchema,
+} from './upstream.ts';
 
 type WithoutPlanKeys<T> = T extends unknown ? Omit<T, 'acceleration' | 'seed'> : never;
 /** A sampling spec as a plan lists it: no acceleration, no seed. */
@@ -28,66 +38,104 @@ export const planPatternSchema = z
     'A sampling spec without acceleration (from accelerations) and seed (from seeds)',
   ) as unknown as z.ZodType<PlanPattern, PlanPattern>;
 
-export const planMatrixSchema = z
-  .strictObject({
-    nx: z.int().min(1).max(65_536).describe('readout columns (kx); in 3D the second phase-encode axis kz'),
-    ny: z.int().min(1).max(65_536).describe('phase-encode rows (ky)'),
-  })
-  .describe('Matrix size');
-
 const accelerationSchema = z.number().min(1).max(64);
 
-export const planSchema = z
-  .strictObject({
-    source: sourceSchema,
-    matrix: planMatrixSchema,
-    protocol: protocolSchema,
-    patterns: z.array(planPatternSchema).min(1).max(16),
-    accelerations: z
-      .array(accelerationSchema)
-      .min(1)
-      .max(32)
-      .describe('acceleration factors R swept for every (non-custom) pattern'),
-    methods: z.array(methodSchema).min(1).max(8),
-    seeds: z.int().min(1).max(100).describe('repetitions; repetition s uses seed s for mask and noise draws'),
-    noise: noiseSchema.optional(),
-    target: targetSchema.optional(),
-  })
-  .superRefine((plan, ctx) => {
-    // zod runs refinements on data that already has issues: check the shapes this relies on.
-    if (!Array.isArray(plan.accelerations) || !Array.isArray(plan.patterns)) return;
-    plan.accelerations.forEach((r, j) => {
-      if (plan.accelerations.indexOf(r) !== j) {
+const planSchemas = new Map<string, ReturnType<typeof buildPlanSchema>>();
+
+/**
+ * The plan body with the configured limits baked in: matrix sides (11 … maxMatrixSide), method
+ * iterations (≤ maxIterations) and the number of cells (≤ maxPlanCells), each a LimitError naming
+ * the field. One schema object per set of limits. Checks that need a mask draw are validatePlan's.
+ */
+export function planSchemaFor(limits: Limits): ReturnType<typeof buildPlanSchema> {
+  const key = `${limits.maxMatrixSide}|${limits.maxIterations}|${limits.maxPlanCells}`;
+  let schema = planSchemas.get(key);
+  if (!schema) {
+    schema = buildPlanSchema(limits);
+    planSchemas.set(key, schema);
+  }
+  return schema;
+}
+
+function buildPlanSchema(limits: Limits) {
+  return z
+    .strictObject({
+      source: sourceSchema,
+      matrix: scoredMatrixSchemaFor(limits),
+      protocol: protocolSchema,
+      patterns: z.array(planPatternSchema).min(1).max(16),
+      accelerations: z
+        .array(accelerationSchema)
+        .min(1)
+        .max(32)
+        .describe('acceleration factors R swept for every (non-custom) pattern'),
+      methods: z.array(methodSchemaFor(limits)).min(1).max(8),
+      seeds: z
+        .int()
+        .min(1)
+        .max(100)
+        .describe('repetitions; repetition s uses seed s for mask and noise draws'),
+      noise: noiseSchema.optional(),
+      target: targetSchema.optional(),
+    })
+    .superRefine((plan, ctx) => {
+      // zod runs refinements on data that already has issues: check the shapes this relies on.
+      if (!Array.isArray(plan.accelerations) || !Array.isArray(plan.patterns)) return;
+      plan.accelerations.forEach((r, j) => {
+        if (plan.accelerations.indexOf(r) !== j) {
+          ctx.addIssue({
+            code: 'custom',
+            path: ['accelerations', j],
+            message: `R = ${r} is listed twice`,
+            params: { allowed: 'distinct values' },
+          });
+        }
+      });
+      plan.patterns.forEach((pattern, i) => {
+        // Only patterns and R values that passed their own schemas: their problems are reported already.
+        if (!planPatternSchema.safeParse(pattern).success) return;
+        const seen = new Set<string>();
+        for (const [j, spec] of patternSpecs(pattern, plan.accelerations)) {
+          if (j !== null && !accelerationSchema.safeParse(plan.accelerations[j]).success) continue;
+          const result = samplingSchema.safeParse(spec);
+          if (result.success) continue;
+          for (const issue of result.error.issues) {
+            const path =
+              issue.path[0] === 'acceleration' && j !== null
+                ? ['accelerations', j, ...issue.path.slice(1)]
+                : ['patterns', i, ...issue.path];
+            const id = `${fieldPath('', path)}|${issue.message}`;
+            if (seen.has(id)) continue; // the same pattern problem for every R: report it once
+            seen.add(id);
+            ctx.addIssue({
+              ...issue,
+              code: 'custom',
+              path,
+              params: { allowed: allowedText(issue) },
+            } as never);
+          }
+        }
+      });
+      // The cell count needs arrays of objects and an integer seed count; other shapes are reported already.
+      const objects = plan.patterns.every((p) => typeof p === 'object' && p !== null);
+      if (!objects || !Array.isArray(plan.methods) || !Number.isInteger(plan.seeds)) return;
+      const cells = planCellCount(plan);
+      if (cells > limits.maxPlanCells) {
         ctx.addIssue({
           code: 'custom',
-          path: ['accelerations', j],
-          message: `R = ${r} is listed twice`,
-          params: { allowed: 'distinct values' },
+          path: ['seeds'],
+          message:
+            `the plan expands to ${cells} cells ((1 reference + patterns × accelerations × methods) × seeds), ` +
+            'more than the configured limit',
+          params: { limit: true, allowed: `at most ${limits.maxPlanCells} cells` },
         });
       }
-    });
-    plan.patterns.forEach((pattern, i) => {
-      // Only patterns and R values that passed their own schemas: their problems are reported already.
-      if (!planPatternSchema.safeParse(pattern).success) return;
-      const seen = new Set<string>();
-      for (const [j, spec] of patternSpecs(pattern, plan.accelerations)) {
-        if (j !== null && !accelerationSchema.safeParse(plan.accelerations[j]).success) continue;
-        const result = samplingSchema.safeParse(spec);
-        if (result.success) continue;
-        for (const issue of result.error.issues) {
-          const path =
-            issue.path[0] === 'acceleration' && j !== null
-              ? ['accelerations', j, ...issue.path.slice(1)]
-              : ['patterns', i, ...issue.path];
-          const id = `${fieldPath('', path)}|${issue.message}`;
-          if (seen.has(id)) continue; // the same pattern problem for every R: report it once
-          seen.add(id);
-          ctx.addIssue({ ...issue, code: 'custom', path, params: { allowed: allowedText(issue) } } as never);
-        }
-      }
-    });
-  })
-  .describe('A sweep over patterns × accelerations × methods × seeds');
+    })
+    .describe('A sweep over patterns × accelerations × methods × seeds');
+}
+
+/** The plan schema with the default limits (types, scripts; the service uses planSchemaFor). */
+export const planSchema = planSchemaFor(defaultLimits);
 
 export type Plan = z.output<typeof planSchema>;
 export type PlanInput = z.input<typeof planSchema>;

@@ -13,10 +13,10 @@ export {
 export { noiseSchema } from '../acquisition/index.ts';
 export { getPhantom } from '../phantoms/index.ts';
 export {
-  checkScorableMatrix,
   type PipelineContext,
   type ReconstructionOutcome,
   runReconstruction,
+  scoredMatrixSchemaFor,
   sourceSchema,
 } from '../pipeline/run-reconstruction.ts';
-export { type MethodSpec, methodSchema } from '../recon/index.ts';
+export { type MethodSpec, methodSchema, methodSchemaFor } from '../recon/index.ts';

@@ -1,10 +1,10 @@
-import { type FieldProblem, LimitError, ValidationError } from '../core/errors.ts';
+import { type FieldProblem, ValidationError } from '../core/errors.ts';
 import { defaultLimits, type Limits } from '../core/limits.ts';
-import { parseOrThrow, scanTime } from '../protocol/index.ts';
+import { parseOrThrow } from '../core/zod-problems.ts';
+import { scanTime } from '../protocol/index.ts';
 import { patternSpecs } from './pattern-specs.ts';
-import { checkPlanSize } from './plan-cells.ts';
-import { type Plan, planSchema } from './schema.ts';
-import { checkScorableMatrix, generateMask, getPhantom, samplingSchema } from './upstream.ts';
+import { type Plan, planSchemaFor } from './schema.ts';
+import { generateMask, getPhantom } from './upstream.ts';
 
 export interface ValidatePlanOptions {
   limits?: Limits;
@@ -17,42 +17,23 @@ export interface ValidatePlanOptions {
 }
 
 /**
- * Validates a plan body: the zod schema (field paths as in the request: `protocol.trMs`,
- * `accelerations[2]`, `patterns[0].acs`, `seeds`), the configured limits (LimitError for the matrix
- * side, method iterations and the number of cells) and, by default, one draw of every mask.
+ * Validates a plan body outside HTTP (runPlan, tests): the schema built from the configured limits
+ * (field paths as in the request: `protocol.trMs`, `accelerations[2]`, `patterns[0].acs`, `seeds`;
+ * LimitError for the matrix side, method iterations and the number of cells), then checkPlan.
  */
 export function validatePlan(input: unknown, options: ValidatePlanOptions = {}): Plan {
   const limits = options.limits ?? defaultLimits;
-  const plan = parseOrThrow(planSchema, input, '');
-  // An unknown phantom is refused now (422 on source.phantom), as a reconstruction request is,
-  // not found halfway through the plan. (Image ids are checked against the store by the route.)
+  return checkPlan(parseOrThrow(planSchemaFor(limits), input, ''), options);
+}
+
+/**
+ * The checks of a parsed plan that the schema cannot make: the phantom exists (422 on
+ * source.phantom now, not halfway through the plan; image ids are checked against the store by the
+ * route) and, by default, one draw of every mask.
+ */
+export function checkPlan(plan: Plan, options: ValidatePlanOptions = {}): Plan {
   if ('phantom' in plan.source) getPhantom(plan.source.phantom);
-
-  const tooLarge: FieldProblem[] = [];
-  for (const key of ['nx', 'ny'] as const) {
-    if (plan.matrix[key] > limits.maxMatrixSide) {
-      tooLarge.push({
-        field: `matrix.${key}`,
-        message: `${plan.matrix[key]} exceeds the configured limit`,
-        allowed: `1 ≤ ${key} ≤ ${limits.maxMatrixSide}`,
-      });
-    }
-  }
-  plan.methods.forEach((method, k) => {
-    const iterations = (method as { iterations?: unknown }).iterations;
-    if (typeof iterations === 'number' && iterations > limits.maxIterations) {
-      tooLarge.push({
-        field: `methods[${k}].iterations`,
-        message: `${iterations} iterations exceed the configured limit`,
-        allowed: `1 ≤ iterations ≤ ${limits.maxIterations}`,
-      });
-    }
-  });
-  if (tooLarge.length > 0) throw new LimitError(tooLarge);
-  checkScorableMatrix(plan.matrix);
-  checkPlanSize(plan, limits);
-
-  if (options.checkMasks ?? true) checkMasks(plan, limits);
+  if (options.checkMasks ?? true) checkMasks(plan, options.limits ?? defaultLimits);
   return plan;
 }
 
@@ -64,11 +45,7 @@ function checkMasks(plan: Plan, limits: Limits): void {
       if (j === null) continue; // custom masks are decoded asynchronously by the pipeline
       try {
         // The scan-time model too: radial masks refuse 3D and partial Fourier.
-        scanTime(
-          plan.matrix,
-          plan.protocol,
-          generateMask(plan.matrix, samplingSchema.parse({ ...spec, seed: 1 }), limits),
-        );
+        scanTime(plan.matrix, plan.protocol, generateMask(plan.matrix, { ...spec, seed: 1 }, limits));
       } catch (error) {
         if (!(error instanceof ValidationError)) throw error;
         for (const problem of error.problems) {

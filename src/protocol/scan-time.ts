@@ -1,8 +1,7 @@
 import { ValidationError } from '../core/errors.ts';
 import { formatDuration } from './format-duration.ts';
 import type { ScanTime } from './scan-time-result.ts';
-import { type Protocol, type ProtocolInput, protocolSchema } from './schema.ts';
-import { parseOrThrow } from './zod-problems.ts';
+import type { Protocol } from './schema.ts';
 
 export type { ScanTime } from './scan-time-result.ts';
 
@@ -29,14 +28,15 @@ export interface ScanTimeSampling {
  * ⌊ny/2⌋ and the extra rows beyond it); rows outside that band are skipped even where the mask
  * samples them. Without a mask this is the handbook ⌈p·N_pe⌉. The simulated reconstruction does not
  * model partial Fourier: image errors are those of the mask alone. Radial sampling takes p = 1.
+ *
+ * Matrix and protocol come parsed (the request schema, or protocolSchema through parseOrThrow);
+ * only what needs the mask is checked here.
  */
 export function scanTime(
   matrix: { nx: number; ny: number },
-  protocolInput: ProtocolInput | Protocol,
+  protocol: Protocol,
   sampled?: ScanTimeSampling,
 ): ScanTime {
-  checkMatrix(matrix);
-  const protocol = parseOrThrow(protocolSchema, protocolInput, 'protocol');
   const { nx, ny } = matrix;
   if (sampled && (sampled.nx !== nx || sampled.ny !== ny)) {
     throw new ValidationError({
@@ -84,19 +84,6 @@ export function scanTime(
   // Integer product first, one division last: 10 ms × 16384 gives exactly 163.84 s.
   const seconds = (protocol.trMs * shots * protocol.averages * passes) / 1000;
   return { seconds, formatted: formatDuration(seconds), acquired, unit, shots, passes };
-}
-
-function checkMatrix(matrix: { nx: number; ny: number }): void {
-  for (const key of ['nx', 'ny'] as const) {
-    const value = matrix?.[key];
-    if (!Number.isInteger(value) || value < 1) {
-      throw new ValidationError({
-        field: `matrix.${key}`,
-        message: `got ${value}`,
-        allowed: 'an integer ≥ 1',
-      });
-    }
-  }
 }
 
 /** Rows in [firstRow, lastRow) with at least one sampled point. */

@@ -3,7 +3,7 @@ import { fft2c, ifft2c } from '../core/centered-fft.ts';
 import { type ComplexImage, createComplexImage } from '../core/complex-image.ts';
 import { throwIfAborted } from '../core/errors.ts';
 import type { ReconInput, ReconMethod, ReconOutput } from './method.ts';
-import { checkedIterations, checkedNumber, type NumberRule } from './parameters.ts';
+import { checkedNumber, iterationsToRun, type NumberRule } from './parameters.ts';
 import { divergence, gradient, totalVariation } from './total-variation.ts';
 
 export const LAMBDA_RULE: NumberRule = { min: 0, max: 10 };
@@ -187,7 +187,7 @@ export const csTv: ReconMethod<CsTvSpec> = {
   run(input, spec, { signal, limits }): ReconOutput {
     const fraction = acquiredFraction(input.mask);
     const lambda = checkedNumber(spec.lambda, 'method.lambda', LAMBDA_RULE, defaultTvLambda(fraction));
-    const iterations = checkedIterations(spec.iterations, CS_TV_DEFAULT_ITERATIONS, limits);
+    const iterations = iterationsToRun(spec.iterations, CS_TV_DEFAULT_ITERATIONS, limits);
     const tolerance = checkedNumber(
       spec.tolerance,
       'method.tolerance',

@@ -1,11 +1,11 @@
+import { assertMatrixSize } from '../core/complex-image.ts';
 import { ValidationError } from '../core/errors.ts';
 import { defaultLimits } from '../core/limits.ts';
-import { validateMatrix } from '../core/matrix.ts';
 import type { ReconInput, ReconOptions, ReconOutput } from './method.ts';
 import { type MethodSpec, reconMethods } from './registry.ts';
 
 export type { ReconInput, ReconMethod, ReconOptions, ReconOutput } from './method.ts';
-export { type MethodName, type MethodSpec, methodSchema, reconMethods } from './registry.ts';
+export { type MethodName, type MethodSpec, methodSchema, methodSchemaFor, reconMethods } from './registry.ts';
 export { zeroFilledImage } from './zero-filled.ts';
 
 /**
@@ -25,7 +25,8 @@ export function reconstruct(input: ReconInput, method: MethodSpec, options: Reco
     });
   }
   const { kspace, mask, density } = input;
-  validateMatrix(kspace, limits);
+  // The matrix was checked against the limits at the edge; a malformed one is a programming mistake.
+  assertMatrixSize(kspace.nx, kspace.ny);
   const n = kspace.nx * kspace.ny;
   if (kspace.data.length !== 2 * n || mask.length !== n || (density !== undefined && density.length !== n)) {
     throw new ValidationError({

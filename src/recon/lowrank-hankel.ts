@@ -5,7 +5,7 @@ import { throwIfAborted, ValidationError } from '../core/errors.ts';
 import { BlockHankel } from './block-hankel.ts';
 import { HermitianEigenSolver } from './hermitian-eigen.ts';
 import type { ReconInput, ReconMethod, ReconOutput } from './method.ts';
-import { checkedChoice, checkedIterations, checkedNumber, type NumberRule } from './parameters.ts';
+import { checkedChoice, checkedNumber, iterationsToRun, type NumberRule } from './parameters.ts';
 
 export const KERNEL_SIDE_RULE: NumberRule = { min: 1, max: 64, integer: true };
 /** Largest window area w_y·w_x (the Gram matrix is area × area). */
@@ -280,7 +280,7 @@ export const lowrankHankel: ReconMethod<LowrankHankelSpec> = {
       WEIGHTINGS,
       HANKEL_DEFAULTS.weighting,
     );
-    const iterations = checkedIterations(spec.iterations, HANKEL_DEFAULTS.iterations, limits);
+    const iterations = iterationsToRun(spec.iterations, HANKEL_DEFAULTS.iterations, limits);
     const tolerance = checkedNumber(
       spec.tolerance,
       'method.tolerance',

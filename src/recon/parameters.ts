@@ -1,4 +1,4 @@
-import { LimitError, ValidationError } from '../core/errors.ts';
+import { ValidationError } from '../core/errors.ts';
 import type { Limits } from '../core/limits.ts';
 
 /**
@@ -42,22 +42,18 @@ export function checkedNumber(value: unknown, field: string, rule: NumberRule, f
   return value as number;
 }
 
-/** Iteration counts above the configured limit are refused as a LimitError (not silently clipped). */
-export function checkedIterations(value: unknown, fallback: number, limits: Limits): number {
-  const iterations = checkedNumber(
-    value,
-    'method.iterations',
-    { min: 1, max: Number.MAX_SAFE_INTEGER, integer: true },
-    Math.min(fallback, limits.maxIterations),
-  );
-  if (iterations > limits.maxIterations) {
-    throw new LimitError({
-      field: 'method.iterations',
-      message: `${iterations} iterations exceed the configured limit`,
-      allowed: `1 ≤ iterations ≤ ${limits.maxIterations}`,
-    });
+/**
+ * The iteration count to run: the request's (already checked against limits.maxIterations by the
+ * method schema, methodSchemaFor) or the method's default, never above the configured limit.
+ */
+export function iterationsToRun(value: number | undefined, fallback: number, limits: Limits): number {
+  if (value === undefined) return Math.min(fallback, limits.maxIterations);
+  if (!Number.isInteger(value) || value < 1 || value > limits.maxIterations) {
+    throw new RangeError(
+      `iterations must be an integer in 1…${limits.maxIterations} (the method schema checks requests), got ${value}`,
+    );
   }
-  return iterations;
+  return value;
 }
 
 export function checkedChoice<T extends string>(

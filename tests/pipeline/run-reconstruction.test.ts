@@ -4,7 +4,12 @@ import { ValidationError } from '../../src/core/errors.ts';
 import { defaultLimits } from '../../src/core/limits.ts';
 import type { RealImage } from '../../src/core/real-image.ts';
 import { sheppLoganModified } from '../../src/phantoms/shepp-logan.ts';
-import { noiseSeedFor, runReconstruction, sourceSchema } from '../../src/pipeline/run-reconstruction.ts';
+import {
+  noiseSeedFor,
+  parseReconstructionRequest,
+  runReconstruction,
+  sourceSchema,
+} from '../../src/pipeline/run-reconstruction.ts';
 
 const matrix = { nx: 64, ny: 64 };
 
@@ -139,17 +144,15 @@ describe('runReconstruction', () => {
     expect(await field(runReconstruction({ ...base, source: { phantom: 'nope' } }, undefined))).toBe(
       'source.phantom',
     );
-    expect(await field(runReconstruction({ ...base, noise: { snr: -1 } }, undefined))).toBe('noise.snr');
+    // Request values are checked once, at the edge (the request schema built from the limits).
+    const edge = async (input: unknown, limits = defaultLimits) => parseReconstructionRequest(input, limits);
+    expect(await field(edge({ ...base, noise: { snr: -1 } }))).toBe('noise.snr');
     // Too small to score: SSIM needs one whole 11×11 window (Wang et al. 2004), so the matrix is named.
-    expect(await field(runReconstruction({ ...base, matrix: { nx: 10, ny: 32 } }, undefined))).toBe(
-      'matrix.nx',
-    );
+    expect(await field(edge({ ...base, matrix: { nx: 10, ny: 32 } }))).toBe('matrix.nx');
     expect(await field(runReconstruction({ ...base, source: { imageId: 'x' } }, undefined))).toBe(
       'source.imageId',
     );
-    expect(
-      await field(runReconstruction(base, undefined, { limits: { ...defaultLimits, maxMatrixSide: 32 } })),
-    ).toBe('matrix.nx');
+    expect(await field(edge(base, { ...defaultLimits, maxMatrixSide: 32 }))).toBe('matrix.nx');
     expect(
       await field(runReconstruction({ ...base, method: { name: 'cs-tv', lambda: 11 } }, undefined)),
     ).toBe('method.lambda');

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { ValidationError } from '../../src/core/errors.ts';
+import { parseOrThrow } from '../../src/core/zod-problems.ts';
 import { targetSchema } from '../../src/plan/target-schema.ts';
-import { parseOrThrow } from '../../src/protocol/zod-problems.ts';
 
 function problem(value: unknown) {
   try {

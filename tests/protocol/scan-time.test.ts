@@ -1,7 +1,17 @@
 import { describe, expect, it } from 'vitest';
 import { ValidationError } from '../../src/core/errors.ts';
-import { type ScanTimeSampling, scanTime } from '../../src/protocol/scan-time.ts';
-import { protocolSchema } from '../../src/protocol/schema.ts';
+import { validateMatrix } from '../../src/core/matrix.ts';
+import { parseOrThrow } from '../../src/core/zod-problems.ts';
+import { type ScanTimeSampling, scanTime as scanTimeParsed } from '../../src/protocol/scan-time.ts';
+import { type ProtocolInput, protocolSchema } from '../../src/protocol/schema.ts';
+
+/**
+ * The scan-time model trusts its parsed inputs; a request's matrix and protocol are checked once at
+ * the edge (the request schema). This runs both, as a request does.
+ */
+function scanTime(matrix: { nx: number; ny: number }, protocol: ProtocolInput, sampled?: ScanTimeSampling) {
+  return scanTimeParsed(validateMatrix(matrix), parseOrThrow(protocolSchema, protocol, 'protocol'), sampled);
+}
 
 /** A Cartesian mask sampling whole phase-encode rows (1 = acquired). */
 function lineMask(nx: number, ny: number, rows: number[]): ScanTimeSampling {

@@ -4,8 +4,10 @@ import { fft2c, ifft2c } from '../../src/core/centered-fft.ts';
 import { complexFromReal, createComplexImage } from '../../src/core/complex-image.ts';
 import { CancelledError, LimitError, ValidationError } from '../../src/core/errors.ts';
 import { defaultLimits } from '../../src/core/limits.ts';
+import { validateMatrix } from '../../src/core/matrix.ts';
+import { parseOrThrow } from '../../src/core/zod-problems.ts';
 import { solveCsTv } from '../../src/recon/cs-tv.ts';
-import { reconstruct } from '../../src/recon/index.ts';
+import { methodSchemaFor, reconstruct } from '../../src/recon/index.ts';
 import { totalVariation } from '../../src/recon/total-variation.ts';
 import {
   fullMask,
@@ -216,6 +218,10 @@ describe('cs-tv parameters (docs/design.md §4.1: typed errors naming the field 
   const ny = 16;
   const input = { kspace: fft2c(randomComplexImage(nx, ny, 1)), mask: fullMask(nx, ny) };
 
+  /** A method spec through the request's method schema (limits baked in), then the engine. */
+  const viaSchema = (spec: unknown, limits = defaultLimits) =>
+    reconstruct(input, parseOrThrow(methodSchemaFor(limits), spec, 'method'), { limits });
+
   function problem(fn: () => unknown): { field: string; allowed?: string; type: string } {
     try {
       fn();
@@ -237,10 +243,11 @@ describe('cs-tv parameters (docs/design.md §4.1: typed errors naming the field 
     expect(problem(() => reconstruct(input, { name: 'cs-tv', lambda: Number.NaN }))).toMatchObject({
       field: 'method.lambda',
     });
-    expect(problem(() => reconstruct(input, { name: 'cs-tv', iterations: 0 }))).toMatchObject({
+    // Iteration counts are the method schema's (checked once at the edge, methodSchemaFor).
+    expect(problem(() => viaSchema({ name: 'cs-tv', iterations: 0 }))).toMatchObject({
       field: 'method.iterations',
     });
-    expect(problem(() => reconstruct(input, { name: 'cs-tv', iterations: 2.5 }))).toMatchObject({
+    expect(problem(() => viaSchema({ name: 'cs-tv', iterations: 2.5 }))).toMatchObject({
       field: 'method.iterations',
     });
     expect(problem(() => reconstruct(input, { name: 'cs-tv', tolerance: 1 }))).toMatchObject({
@@ -251,14 +258,15 @@ describe('cs-tv parameters (docs/design.md §4.1: typed errors naming the field 
 
   it('refuses work beyond the limits with a LimitError', () => {
     expect(
-      problem(() => reconstruct(input, { name: 'cs-tv', iterations: defaultLimits.maxIterations + 1 })),
+      problem(() => viaSchema({ name: 'cs-tv', iterations: defaultLimits.maxIterations + 1 })),
     ).toMatchObject({ field: 'method.iterations', type: 'LimitError' });
+    // The matrix limit is the request schema's (checked once at the edge, src/core/matrix.ts).
     const limits = { ...defaultLimits, maxMatrixSide: 8 };
-    expect(problem(() => reconstruct(input, { name: 'cs-tv' }, { limits }))).toMatchObject({
+    expect(problem(() => validateMatrix({ nx, ny }, limits))).toMatchObject({
       field: 'matrix.nx',
       type: 'LimitError',
     });
-    expect(() => reconstruct(input, { name: 'cs-tv' }, { limits })).toThrow(LimitError);
+    expect(() => validateMatrix({ nx, ny }, limits)).toThrow(LimitError);
   });
 
   it('rejects an unknown method by name', () => {

@@ -3,7 +3,8 @@ import { fft2c, ifft2c } from '../../src/core/centered-fft.ts';
 import { createComplexImage } from '../../src/core/complex-image.ts';
 import { CancelledError, LimitError, ValidationError } from '../../src/core/errors.ts';
 import { defaultLimits } from '../../src/core/limits.ts';
-import { reconstruct } from '../../src/recon/index.ts';
+import { parseOrThrow } from '../../src/core/zod-problems.ts';
+import { methodSchemaFor, reconstruct } from '../../src/recon/index.ts';
 import { solveLowrankHankel } from '../../src/recon/lowrank-hankel.ts';
 import {
   friSignal1d,
@@ -141,9 +142,14 @@ describe('lowrank-hankel parameters (docs/design.md §4.1: typed errors naming t
   const nx = 16;
   const ny = 12;
   const input = { kspace: fft2c(randomComplexImage(nx, ny, 1)), mask: fullMask(nx, ny) };
-  function problem(spec: Record<string, unknown>, limits = defaultLimits) {
+  function problem(spec: Record<string, unknown>, limits = defaultLimits, viaSchema = false) {
     try {
-      reconstruct(input, { name: 'lowrank-hankel', ...spec } as never, { limits });
+      const method = { name: 'lowrank-hankel', ...spec };
+      reconstruct(
+        input,
+        viaSchema ? parseOrThrow(methodSchemaFor(limits), method, 'method') : (method as never),
+        { limits },
+      );
     } catch (error) {
       if (error instanceof ValidationError) return { ...error.problems[0], type: error.name };
       throw error;
@@ -182,7 +188,8 @@ describe('lowrank-hankel parameters (docs/design.md §4.1: typed errors naming t
       field: 'method.weighting',
       allowed: 'none | gradient',
     });
-    expect(problem({ iterations: -3 })).toMatchObject({
+    // Iteration counts are the method schema's (checked once at the edge, methodSchemaFor).
+    expect(problem({ iterations: -3 }, defaultLimits, true)).toMatchObject({
       field: 'method.iterations',
       type: 'ValidationError',
     });
@@ -190,18 +197,26 @@ describe('lowrank-hankel parameters (docs/design.md §4.1: typed errors naming t
   });
 
   it('refuses iterations beyond the limit with a LimitError and honours cancellation', () => {
-    expect(problem({ iterations: 11 }, { ...defaultLimits, maxIterations: 10 })).toMatchObject({
+    expect(problem({ iterations: 11 }, { ...defaultLimits, maxIterations: 10 }, true)).toMatchObject({
       field: 'method.iterations',
       type: 'LimitError',
       allowed: '1 ≤ iterations ≤ 10',
     });
+    expect(() =>
+      parseOrThrow(
+        methodSchemaFor({ ...defaultLimits, maxIterations: 10 }),
+        { name: 'lowrank-hankel', iterations: 11 },
+        'method',
+      ),
+    ).toThrow(LimitError);
+    // Past the edge, a count beyond the limit can only be a programming mistake.
     expect(() =>
       reconstruct(
         input,
         { name: 'lowrank-hankel', iterations: 11 },
         { limits: { ...defaultLimits, maxIterations: 10 } },
       ),
-    ).toThrow(LimitError);
+    ).toThrow(RangeError);
     const controller = new AbortController();
     controller.abort();
     expect(() => reconstruct(input, { name: 'lowrank-hankel' }, { signal: controller.signal })).toThrow(

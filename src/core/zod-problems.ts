@@ -1,10 +1,12 @@
 import type { z } from 'zod';
-import { type FieldProblem, ValidationError } from '../core/errors.ts';
+import { type FieldProblem, LimitError, ValidationError } from './errors.ts';
 
 /**
- * Turns zod issues into the engine's field problems: a dotted/bracketed path under the request's
- * names (`protocol.trMs`, `accelerations[2]`) and, where zod knows it, the allowed range or set.
- * Refinements pass their allowed range through `params.allowed`.
+ * The one converter from zod issues to field problems, used by the HTTP error handler and by every
+ * engine-side parse: a dotted/bracketed path under the request's names (`protocol.trMs`,
+ * `accelerations[2]`) and, where zod knows it, the allowed range or set. Refinements pass their
+ * allowed range through `params.allowed`; a configured limit (withinLimit) also sets `params.limit`,
+ * so that the answer is a LimitError (422 /problems/limit-exceeded) rather than a plain bad value.
  */
 export function problemsFromIssues(issues: readonly z.core.$ZodIssue[], prefix: string): FieldProblem[] {
   return issues.flatMap((issue) => {
@@ -24,11 +26,39 @@ export function problemsFromIssues(issues: readonly z.core.$ZodIssue[], prefix: 
   });
 }
 
-/** Parses `value` with `schema` or throws a ValidationError naming each bad field under `prefix`. */
+/** True for the issue of a configured limit (matrix side, iterations, …) made by withinLimit. */
+export function isLimitIssue(issue: { code: string; params?: unknown }): boolean {
+  return issue.code === 'custom' && (issue.params as { limit?: unknown } | undefined)?.limit === true;
+}
+
+/**
+ * Parses `value` with `schema` or throws naming each bad field under `prefix`: a LimitError when
+ * every issue is a configured limit, a ValidationError otherwise.
+ */
 export function parseOrThrow<S extends z.ZodType>(schema: S, value: unknown, prefix: string): z.output<S> {
   const result = schema.safeParse(value);
-  if (!result.success) throw new ValidationError(problemsFromIssues(result.error.issues, prefix));
-  return result.data;
+  if (result.success) return result.data;
+  const problems = problemsFromIssues(result.error.issues, prefix);
+  if (result.error.issues.every(isLimitIssue)) throw new LimitError(problems);
+  throw new ValidationError(problems);
+}
+
+/**
+ * `schema` (a number) refused above the configured `max`, as a limit: the issue carries
+ * `params.limit` and the allowed range, and the OpenAPI shows `maximum: max`.
+ */
+export function withinLimit<S extends z.ZodNumber>(
+  schema: S,
+  max: number,
+  what = '',
+  allowed = `≤ ${max}`,
+): S {
+  return schema
+    .refine((value) => value <= max, {
+      error: (issue) => `${String(issue.input)}${what} is larger than the configured limit`,
+      params: { limit: true, allowed },
+    })
+    .meta({ maximum: max }) as S;
 }
 
 /** `prefix` + path in the request's notation: object keys dotted, array indices in brackets. */
@@ -60,6 +90,8 @@ export function allowedText(issue: z.core.$ZodIssue): string | undefined {
       const options = (issue as { options?: unknown[] }).options;
       return options ? `one of ${options.map((o) => JSON.stringify(o)).join(', ')}` : undefined;
     }
+    case 'not_multiple_of':
+      return `a multiple of ${String(issue.divisor)}`;
     case 'custom': {
       const allowed = (issue.params as { allowed?: unknown } | undefined)?.allowed;
       return typeof allowed === 'string' ? allowed : undefined;
