@@ -1,7 +1,7 @@
 import { assertMatrixSize } from '../src/core/complex-image.ts';
 import { ValidationError } from '../src/core/errors.ts';
 import { defaultLimits, type Limits } from '../src/core/limits.ts';
-import { type Matrix, validateMatrix } from '../src/core/matrix.ts';
+import type { Matrix } from '../src/core/matrix.ts';
 import { cartesianRandomMask } from './cartesian-random.ts';
 import { cartesianUniformMask } from './cartesian-uniform.ts';
 import { decodeCustomMask } from './custom.ts';
