@@ -29,13 +29,13 @@ export function discFilterMap(image: Float64Array, nx: number, ny: number, diame
 /**
  * False lesions in a reconstruction of lesion-free data: blobs of the error map (signed,
  * |x̂| − |x_ref|) that a matched filter of the lesion's size calls a lesion at the threshold a true
- * lesion is called at. A pixel of the object is called when sign·filter ≥ threshold (sign of the
+ * lesion is called at. A pixel of `region` (the object, or where lesions may sit) is called when sign·filter ≥ threshold (sign of the
  * lesion contrast: a bright-lesion study counts bright blobs); called pixels that touch (8-neighbours)
  * form one blob, reported at its strongest pixel.
  */
 export function countFalseLesions(
   errorMap: Float64Array,
-  objectMask: Uint8Array,
+  region: Uint8Array,
   nx: number,
   ny: number,
   diameter: number,
@@ -45,7 +45,7 @@ export function countFalseLesions(
   const filtered = discFilterMap(errorMap, nx, ny, diameter);
   const called = new Uint8Array(nx * ny);
   for (let i = 0; i < called.length; i++) {
-    if (objectMask[i] && sign * filtered[i] >= threshold) called[i] = 1;
+    if (region[i] && sign * filtered[i] >= threshold) called[i] = 1;
   }
   const positions: { row: number; col: number }[] = [];
   const stack = new Int32Array(nx * ny);

@@ -17,7 +17,7 @@ export {
   lesionDiscPixels,
 } from './lesion.ts';
 export { discLesionShape, lesionGridKspace } from './lesion-kspace.ts';
-export { lesionMargins, placeLesions } from './lesion-placement.ts';
+export { lesionCandidates, lesionMargins, placeLesions } from './lesion-placement.ts';
 export { LESION_SUPERSAMPLE, rasterizeLesions } from './lesion-raster.ts';
 export { imageLesionSet, type LesionSet, phantomLesionSet } from './lesion-sources.ts';
 export {

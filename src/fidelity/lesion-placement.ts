@@ -27,25 +27,10 @@ export function placeLesions(
   spec: LesionSpec,
 ): Lesion[] {
   checkLesionSpec(spec);
-  const { edgeClearance, separation } = lesionMargins(spec.diameter);
-  const reach = Math.ceil(edgeClearance);
-  const ring: number[] = [];
-  for (let dr = -reach; dr <= reach; dr++) {
-    for (let dc = -reach; dc <= reach; dc++) {
-      if (dr * dr + dc * dc <= edgeClearance * edgeClearance) ring.push(dr, dc);
-    }
-  }
+  const { separation } = lesionMargins(spec.diameter);
+  const candidates = lesionCandidates(objectMask, nx, ny, spec.diameter);
   const eligible: number[] = [];
-  for (let row = reach; row < ny - reach; row++) {
-    for (let col = reach; col < nx - reach; col++) {
-      if (!objectMask[row * nx + col]) continue;
-      let inside = true;
-      for (let k = 0; k < ring.length && inside; k += 2) {
-        inside = objectMask[(row + ring[k]) * nx + col + ring[k + 1]] === 1;
-      }
-      if (inside) eligible.push(row * nx + col);
-    }
-  }
+  for (let i = 0; i < candidates.length; i++) if (candidates[i]) eligible.push(i);
   const rng = new SeededRandom(spec.seed);
   for (let i = eligible.length - 1; i > 0; i--) {
     const j = rng.integer(i + 1);
@@ -70,4 +55,37 @@ export function placeLesions(
     });
   }
   return lesions;
+}
+
+/**
+ * Where a lesion of this diameter may be centred: object pixels whose every pixel within the edge
+ * clearance is object too (the object eroded by a disc). False lesions are counted over the same
+ * region, so edge artefacts that no lesion could sit on are not called lesions.
+ */
+export function lesionCandidates(
+  objectMask: Uint8Array,
+  nx: number,
+  ny: number,
+  diameter: number,
+): Uint8Array {
+  const { edgeClearance } = lesionMargins(diameter);
+  const reach = Math.ceil(edgeClearance);
+  const ring: number[] = [];
+  for (let dr = -reach; dr <= reach; dr++) {
+    for (let dc = -reach; dc <= reach; dc++) {
+      if (dr * dr + dc * dc <= edgeClearance * edgeClearance) ring.push(dr, dc);
+    }
+  }
+  const out = new Uint8Array(nx * ny);
+  for (let row = reach; row < ny - reach; row++) {
+    for (let col = reach; col < nx - reach; col++) {
+      if (!objectMask[row * nx + col]) continue;
+      let inside = true;
+      for (let k = 0; k < ring.length && inside; k += 2) {
+        inside = objectMask[(row + ring[k]) * nx + col + ring[k + 1]] === 1;
+      }
+      if (inside) out[row * nx + col] = 1;
+    }
+  }
+  return out;
 }

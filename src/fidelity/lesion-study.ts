@@ -6,7 +6,7 @@ import { contrastRecovery, lesionResponse } from './contrast-recovery.ts';
 import { lesionCnr, npwDetectability, ROSE_K, roseResolved } from './detectability.ts';
 import { countFalseLesions, type FalseLesions } from './false-lesions.ts';
 import { type Lesion, lesionDiscPixels } from './lesion.ts';
-import { lesionMargins } from './lesion-placement.ts';
+import { lesionCandidates, lesionMargins } from './lesion-placement.ts';
 import { replicaVariance, zeroFilledVariance } from './observer-noise.ts';
 
 /**
@@ -110,8 +110,9 @@ function windowed(r: ComplexImage, row: number, col: number, radius: number): Co
  *   centre (neighbours excluded);
  * - `called`: the disc mean of Re r reaches the threshold, half the disc mean of t (halfway between
  *   absent and perfectly reconstructed), raised to k × the noise SD of that disc mean when noisy;
- * and false lesions: blobs of the lesion-free error map |x̂| − |x_ref| inside the object that the
- * same disc filter calls at the same threshold (with the first lesion's size and sign).
+ * and false lesions: blobs of the lesion-free error map |x̂| − |x_ref| that the same disc filter
+ * calls at the same threshold (with the first lesion's size and sign), counted where a lesion could
+ * have been placed (the object less the edge clearance).
  * Noise replicas reuse the lesion-free data with draws seed + 1 … seed + M.
  */
 export function runLesionStudy(input: LesionStudyInput): LesionStudy {
@@ -183,7 +184,7 @@ export function runLesionStudy(input: LesionStudyInput): LesionStudy {
   const first = lesions[0];
   const falseLesions = countFalseLesions(
     errorMap,
-    input.objectMask,
+    lesionCandidates(input.objectMask, nx, ny, first.diameter),
     nx,
     ny,
     first.diameter,
