@@ -9,7 +9,7 @@ export interface ContrastDetailCell {
   /** Diameter in phantom units (the column) and contrast (the row). */
   diameterUnits: number;
   contrast: number;
-  /** Centre rounded to the nearest pixel (exact when the side is a multiple of 32); diameter in pixels along x. */
+  /** Centre rounded to the nearest pixel (exact when the side is a multiple of 16); diameter in pixels along x. */
   lesion: Lesion;
   /** ifft2c of the disc's exact grid k-space: its fully sampled noiseless response. */
   template: ComplexImage;

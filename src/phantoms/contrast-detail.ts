@@ -7,15 +7,16 @@ import { Rectangle } from './rectangle.ts';
  * background 1.8 wide of intensity 1 carrying a 5 × 5 grid of discs. Columns (left to right) hold
  * the diameters 0.12, 0.06, 0.03, 0.02, 0.012 units (15.4, 7.7, 3.8, 2.6, 1.5 px at 256²); rows
  * (top to bottom) the contrasts 0.4, 0.2, 0.1, 0.05, 0.025, each disc adding contrast × the
- * background intensity. Centres are 0.3125 = 5/16 units apart on x, y ∈ {0, ±0.3125, ±0.625}, so
- * they fall on pixel centres whenever the side is a multiple of 32. The discs add about 0.4 % to the
+ * background intensity. Centres are 0.375 = 3/8 units apart on x, y ∈ {0, ±0.375, ±0.75}, so they
+ * fall on pixel centres whenever the side is a multiple of 16, and the alias of a row half a field
+ * of view (1 unit) away lands 0.125 units from the nearest disc row, between rows. The discs add about 0.4 % to the
  * object's mean, so the contrasts are also relative to the mean intensity to that accuracy.
  */
 export const CONTRAST_DETAIL_LAYOUT = Object.freeze({
   background: { width: 1.8, intensity: 1 },
   diameters: [0.12, 0.06, 0.03, 0.02, 0.012],
   contrasts: [0.4, 0.2, 0.1, 0.05, 0.025],
-  positions: [-0.625, -0.3125, 0, 0.3125, 0.625],
+  positions: [-0.75, -0.375, 0, 0.375, 0.75],
 });
 
 /** The lesion-free background alone (the "without" run of a contrast–detail study). */
