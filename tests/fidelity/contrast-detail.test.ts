@@ -9,9 +9,9 @@ import {
   runLesionStudy,
 } from '../../src/fidelity/index.ts';
 import {
-  CONTRAST_DETAIL_LAYOUT as LAYOUT,
   contrastDetail,
   contrastDetailBackground,
+  CONTRAST_DETAIL_LAYOUT as LAYOUT,
 } from '../../src/phantoms/contrast-detail.ts';
 import { getPhantom, phantomGridKspace } from '../../src/phantoms/index.ts';
 import { zeroFilledImage } from '../../src/recon/zero-filled.ts';
