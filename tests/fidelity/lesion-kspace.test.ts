@@ -34,7 +34,7 @@ describe('lesion k-space (exact, grid scaling of phantomGridKspace)', () => {
     const fromRaster = fft2c(complexFromReal(raster, n, n));
     const analytic = lesionGridKspace([lesion], n, n);
     const diff = maxAbsDiff(fromRaster.data, analytic.data);
-    // Measured 2.9e-16 (peak |K| ≈ 0.54): rounding only.
+    // Measured 2.1e-16 (peak |K| ≈ 0.23): rounding only.
     expect(diff).toBeLessThan(1e-13);
   });
 
@@ -68,8 +68,8 @@ describe('lesion k-space (exact, grid scaling of phantomGridKspace)', () => {
         worst = Math.max(worst, d / peak);
       }
     }
-    // Measured 1.6e-3 of the peak (the raster's remaining edge error); slack 2×.
-    expect(worst).toBeLessThan(4e-3);
+    // Measured 2.8e-3 of the peak (the raster's remaining edge error); slack 2×.
+    expect(worst).toBeLessThan(6e-3);
   });
 
   it('phantom + lesions as one shape list equals phantom grid k-space + lesion grid k-space (1e-12)', () => {
