@@ -50,8 +50,11 @@ export function placeLesions(
   if (lesions.length < spec.count) {
     throw new ValidationError({
       field: 'lesions.count',
-      message: `only ${lesions.length} lesions of diameter ${spec.diameter} px fit inside the object with the margins`,
-      allowed: `count ≤ ${lesions.length} (or a smaller diameter)`,
+      message: `only ${lesions.length} lesions of diameter ${spec.diameter} px could be placed inside the object with the margins`,
+      allowed:
+        lesions.length > 0
+          ? `count ≤ ${lesions.length} (or a smaller diameter)`
+          : 'a smaller diameter (the object has no room for one lesion with its margins)',
     });
   }
   return lesions;
