@@ -1,11 +1,12 @@
 import { ValidationError } from '../core/errors.ts';
+import { contrastDetail } from './contrast-detail.ts';
 import type { Phantom, PhantomInfo } from './phantom.ts';
 import { resolutionContrast } from './resolution-contrast.ts';
 import { sheppLogan, sheppLoganModified } from './shepp-logan.ts';
 
 /** Every phantom the service offers, built once (they are immutable). */
 const PHANTOMS: ReadonlyMap<string, Phantom> = new Map(
-  [sheppLogan(), sheppLoganModified(), resolutionContrast()].map((p) => [p.name, p]),
+  [sheppLogan(), sheppLoganModified(), resolutionContrast(), contrastDetail()].map((p) => [p.name, p]),
 );
 
 export function listPhantoms(): PhantomInfo[] {

@@ -14,7 +14,7 @@ describe('phantoms, masks and result images', () => {
   });
   afterAll(async () => t.close());
 
-  it('GET /v1/phantoms lists the three analytic phantoms', async () => {
+  it('GET /v1/phantoms lists the four analytic phantoms', async () => {
     const res = await t.http().get('/v1/phantoms');
     expect(res.status).toBe(200);
     await expectDocumented('GET', '/v1/phantoms', res);
@@ -22,6 +22,7 @@ describe('phantoms, masks and result images', () => {
       'shepp-logan',
       'shepp-logan-modified',
       'resolution-contrast',
+      'contrast-detail',
     ]);
   });
 

@@ -13,9 +13,14 @@ function caught(fn: () => unknown): ValidationError {
 }
 
 describe('phantom catalogue', () => {
-  it('lists the three phantoms of INTERFACES.md with descriptions', () => {
+  it('lists the four phantoms with descriptions', () => {
     const list = listPhantoms();
-    expect(list.map((p) => p.name)).toEqual(['shepp-logan', 'shepp-logan-modified', 'resolution-contrast']);
+    expect(list.map((p) => p.name)).toEqual([
+      'shepp-logan',
+      'shepp-logan-modified',
+      'resolution-contrast',
+      'contrast-detail',
+    ]);
     for (const p of list) expect(p.description.length).toBeGreaterThan(20);
   });
 
@@ -32,7 +37,9 @@ describe('phantom catalogue', () => {
     const error = caught(() => getPhantom('shepp_logan'));
     expect(error.problems).toHaveLength(1);
     expect(error.problems[0].field).toBe('source.phantom');
-    expect(error.problems[0].allowed).toBe('shepp-logan, shepp-logan-modified, resolution-contrast');
+    expect(error.problems[0].allowed).toBe(
+      'shepp-logan, shepp-logan-modified, resolution-contrast, contrast-detail',
+    );
   });
 
   it('rejects mismatched or non-finite frequency lists with ValidationErrors on points', () => {
