@@ -1,0 +1,148 @@
+import { readFileSync } from 'node:fs';
+import { describe, expect, it } from 'vitest';
+import { ifft2c } from '../../../src/core/centered-fft.ts';
+import { LimitError, ValidationError } from '../../../src/core/errors.ts';
+import { defaultLimits } from '../../../src/core/limits.ts';
+import { readRawKspace } from '../../../src/io/ismrmrd/read-raw-kspace.ts';
+
+/**
+ * The ISMRMRD importer against files made by the standard's reference tools and numpy:
+ * tests/fixtures/ismrmrd/shepp-logan-4coil.h5 from `ismrmrd_generate_cartesian_shepp_logan`
+ * (Debian ismrmrd-tools 1.8), partial.h5 and subject.h5 derived from it with h5py, and
+ * tests/reference/fixtures/ismrmrd-rss.json (numpy's RSS image and noise covariance); all made by
+ * tests/reference/generate_ismrmrd_fixture.sh.
+ */
+const fixtureFile = (name: string): Uint8Array =>
+  new Uint8Array(readFileSync(new URL(`../../fixtures/ismrmrd/${name}`, import.meta.url)));
+const reference: {
+  coils: number;
+  readoutSamples: number;
+  encodedMatrix: [number, number];
+  reconMatrix: [number, number];
+  records: { total: number; imaging: number; noise: number };
+  nx: number;
+  ny: number;
+  rss: number[];
+  noiseSamples: number;
+  noiseCovariance: number[];
+} = JSON.parse(readFileSync(new URL('../../reference/fixtures/ismrmrd-rss.json', import.meta.url), 'utf8'));
+
+async function refusal(bytes: Uint8Array): Promise<ValidationError> {
+  const error = await readRawKspace(bytes).then(
+    () => null,
+    (e: unknown) => e,
+  );
+  expect(error).toBeInstanceOf(ValidationError);
+  return error as ValidationError;
+}
+
+describe('readRawKspace on the ismrmrd-tools Shepp–Logan file', () => {
+  it('reports the coils, matrices and samples of the header (ismrmrd-tools generator, read by h5py)', async () => {
+    const raw = await readRawKspace(fixtureFile('shepp-logan-4coil.h5'));
+    expect(raw.coils).toBe(reference.coils);
+    expect(raw.readoutSamples).toBe(reference.readoutSamples);
+    expect([raw.encodedMatrix.x, raw.encodedMatrix.y]).toEqual(reference.encodedMatrix);
+    expect([raw.reconMatrix.x, raw.reconMatrix.y]).toEqual(reference.reconMatrix);
+    expect(raw.readoutOversampling).toBe(2);
+    expect(raw.records).toEqual({ ...reference.records, skipped: 0 });
+    expect(raw.repeatedLines).toBe(0);
+    expect([raw.kspace.coils, raw.kspace.ny, raw.kspace.nx]).toEqual([
+      reference.coils,
+      reference.ny,
+      reference.nx,
+    ]);
+    expect(Array.from(raw.encodeCounters.step1)).toEqual(Array.from({ length: reference.ny }, (_, i) => i));
+    expect(raw.step1Limits).toEqual({ minimum: 0, maximum: 63, center: 32 });
+  });
+
+  it('gives the RSS image numpy computes to 1e-6 relative (inverse centred FFT, oversampling cropped)', async () => {
+    const raw = await readRawKspace(fixtureFile('shepp-logan-4coil.h5'));
+    const { nx, ny, coils } = raw.kspace;
+    const rss = new Float64Array(nx * ny);
+    for (let c = 0; c < coils; c++) {
+      const plane = raw.kspace.data.slice(2 * c * nx * ny, 2 * (c + 1) * nx * ny);
+      const image = ifft2c({ nx, ny, data: plane });
+      for (let p = 0; p < nx * ny; p++) rss[p] += image.data[2 * p] ** 2 + image.data[2 * p + 1] ** 2;
+    }
+    let worst = 0;
+    let peak = 0;
+    for (let p = 0; p < nx * ny; p++) {
+      worst = Math.max(worst, Math.abs(Math.sqrt(rss[p]) - reference.rss[p]));
+      peak = Math.max(peak, reference.rss[p]);
+    }
+    // Measured 3.4e-16 relative to the peak 1.98 (both sides in float64 from the same float32 samples).
+    expect(worst / peak).toBeLessThan(1e-6);
+    expect(peak).toBeGreaterThan(0.5); // the phantom is there, not an empty image
+  });
+
+  it('estimates the noise covariance as numpy.cov of the noise-scan record (flag bit 19)', async () => {
+    const raw = await readRawKspace(fixtureFile('shepp-logan-4coil.h5'));
+    expect(raw.noise?.samples).toBe(reference.noiseSamples);
+    const got = raw.noise!.covariance;
+    expect(got.length).toBe(reference.noiseCovariance.length);
+    let worst = 0;
+    let peak = 0;
+    for (let k = 0; k < got.length; k++) {
+      worst = Math.max(worst, Math.abs(got[k] - reference.noiseCovariance[k]));
+      peak = Math.max(peak, Math.abs(reference.noiseCovariance[k]));
+    }
+    expect(worst / peak).toBeLessThan(1e-12); // measured 5.0e-16: same estimator, float64 sums
+  });
+
+  it('keeps numbers only: the invented subject and study never reach the result', async () => {
+    const raw = await readRawKspace(fixtureFile('subject.h5'));
+    const bytes = fixtureFile('subject.h5');
+    // The file does carry the identifiers (so the check below can fail).
+    expect(Buffer.from(bytes).includes('Quillfeather')).toBe(true);
+    const json = JSON.stringify(raw, (_key, value) =>
+      ArrayBuffer.isView(value) ? Array.from(value as Float64Array) : value,
+    );
+    for (const word of ['Quillfeather', 'Odalys', 'INV-4471', 'Tarnwick', 'ISMRM Synthetic Imaging Lab']) {
+      expect(json).not.toContain(word);
+    }
+    const strings: string[] = [];
+    JSON.parse(json, (_key, value) => {
+      if (typeof value === 'string') strings.push(value);
+      return value;
+    });
+    expect(strings).toEqual([]);
+  });
+});
+
+describe('readRawKspace refusals', () => {
+  it('refuses a partially sampled file naming how many lines are missing', async () => {
+    const error = await refusal(fixtureFile('partial.h5'));
+    // The h5py script drops every line with kspace_encode_step_1 % 8 == 0: 8 of 64.
+    expect(error.problems[0].field).toBe('file.data.head.idx.kspace_encode_step_1');
+    expect(error.message).toContain('8 of 64 phase-encode lines');
+  });
+
+  it('refuses bytes that are not HDF5 (signature check)', async () => {
+    const png = new Uint8Array(readFileSync(new URL('../../fixtures/io/camera64.png', import.meta.url)));
+    const error = await refusal(png);
+    expect(error.problems[0].field).toBe('file');
+    expect(error.message).toContain('not an HDF5 file');
+    expect((await refusal(new Uint8Array(0))).message).toContain('not an HDF5 file');
+  });
+
+  it('refuses a damaged HDF5 file without crashing', async () => {
+    const whole = fixtureFile('shepp-logan-4coil.h5');
+    const error = await refusal(whole.slice(0, 4096));
+    expect(error.problems[0].field).toBe('file');
+  });
+
+  it('refuses matrices beyond the configured limit with a LimitError', async () => {
+    const error = await readRawKspace(fixtureFile('shepp-logan-4coil.h5'), {
+      ...defaultLimits,
+      maxMatrixSide: 32,
+    }).then(
+      () => null,
+      (e: unknown) => e,
+    );
+    expect(error).toBeInstanceOf(LimitError);
+    expect((error as LimitError).problems.map((p) => p.field)).toEqual([
+      'file.header.encoding.reconSpace.matrixSize.x',
+      'file.header.encoding.encodedSpace.matrixSize.y',
+    ]);
+  });
+});
