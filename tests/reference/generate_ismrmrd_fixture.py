@@ -4,7 +4,13 @@ Reads the generated ISMRMRD file (see generate_ismrmrd_fixture.sh), writes
   fixtures/ismrmrd-rss.json      header numbers, the root-sum-of-squares image of the fully sampled
                                  data and the noise covariance (numpy.cov over the noise-scan samples);
   ../fixtures/ismrmrd/partial.h5 a copy with every 8th phase-encode line dropped (records removed);
-  ../fixtures/ismrmrd/subject.h5 a copy whose XML header carries invented subject and study information.
+  ../fixtures/ismrmrd/subject.h5 a copy whose XML header carries invented subject and study information;
+  ../fixtures/ismrmrd/averaged.h5 a copy where lines 0–3 are recorded a second time (average = 1)
+                                 with negated samples, so their mean is exactly zero;
+  ../fixtures/ismrmrd/radial-header.h5, trajectory-records.h5, two-slices.h5: the noise record and
+                                 the first 8 lines only, with the XML trajectory set to radial, with
+                                 trajectory_dimensions = 2 and 2 × samples trajectory values per
+                                 record, and with lines 4–7 moved to slice 1.
 Readout oversampling is removed as the importer does: centred orthonormal inverse DFT along the
 readout, keep the central n/oversampling pixels starting at n//2 − kept//2, and the RSS image is
 sqrt(Σ_c |ifft2c(k_c)|²) with ifft2c = fftshift ∘ ifft2(norm='ortho') ∘ ifftshift.
@@ -112,4 +118,22 @@ identified = xml.replace(
     "</studyInformation><acquisitionSystemInformation>",
 )
 write_copy("subject.h5", records, identified)
+first = records[:9].copy()  # the noise record and lines 0-7
+write_copy("radial-header.h5", first, xml.replace("<trajectory>cartesian</trajectory>", "<trajectory>radial</trajectory>"))
+
+bent = first.copy()
+for i in range(1, len(bent)):
+    bent[i]["head"]["trajectory_dimensions"] = 2
+    n = int(bent[i]["head"]["number_of_samples"])
+    bent[i]["traj"] = np.linspace(-0.5, 0.5, 2 * n, dtype=np.float32)
+write_copy("trajectory-records.h5", bent, xml)
+
+sliced = first.copy()
+sliced["head"]["idx"]["slice"][5:] = 1
+write_copy("two-slices.h5", sliced, xml)
+
+repeat = records[~is_noise & (steps < 4)].copy()
+repeat["head"]["idx"]["average"] = 1
+repeat["data"] = [(-r["data"]).astype(np.float32) for r in repeat]
+write_copy("averaged.h5", np.concatenate([records, repeat]), xml)
 print("wrote", os.path.join(here, "fixtures", "ismrmrd-rss.json"), "partial.h5", "subject.h5")

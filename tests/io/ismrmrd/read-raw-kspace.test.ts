@@ -1,4 +1,5 @@
 import { readFileSync } from 'node:fs';
+import h5wasm from 'h5wasm';
 import { describe, expect, it } from 'vitest';
 import { ifft2c } from '../../../src/core/centered-fft.ts';
 import { LimitError, ValidationError } from '../../../src/core/errors.ts';
@@ -8,7 +9,7 @@ import { readRawKspace } from '../../../src/io/ismrmrd/read-raw-kspace.ts';
 /**
  * The ISMRMRD importer against files made by the standard's reference tools and numpy:
  * tests/fixtures/ismrmrd/shepp-logan-4coil.h5 from `ismrmrd_generate_cartesian_shepp_logan`
- * (Debian ismrmrd-tools 1.8), partial.h5 and subject.h5 derived from it with h5py, and
+ * (Debian ismrmrd-tools 1.8), the other .h5 files there derived from it with h5py, and
  * tests/reference/fixtures/ismrmrd-rss.json (numpy's RSS image and noise covariance); all made by
  * tests/reference/generate_ismrmrd_fixture.sh.
  */
@@ -109,12 +110,67 @@ describe('readRawKspace on the ismrmrd-tools Shepp–Logan file', () => {
   });
 });
 
+describe('readRawKspace with repeated lines', () => {
+  it('averages the records of a line (lines 0–3 recorded again negated: mean exactly 0)', async () => {
+    const once = await readRawKspace(fixtureFile('shepp-logan-4coil.h5'));
+    const twice = await readRawKspace(fixtureFile('averaged.h5'));
+    expect(twice.repeatedLines).toBe(4);
+    expect(twice.records.imaging).toBe(68);
+    const { nx, ny, coils } = twice.kspace;
+    let repeatedMax = 0;
+    let otherDiff = 0;
+    for (let c = 0; c < coils; c++) {
+      for (let row = 0; row < ny; row++) {
+        for (let k = 0; k < 2 * nx; k++) {
+          const at = 2 * (c * ny * nx + row * nx) + k;
+          if (row < 4) repeatedMax = Math.max(repeatedMax, Math.abs(twice.kspace.data[at]));
+          else otherDiff = Math.max(otherDiff, Math.abs(twice.kspace.data[at] - once.kspace.data[at]));
+        }
+      }
+    }
+    // x and −x averaged; the cropped transform is linear, so the mean is zero to rounding.
+    expect(repeatedMax).toBeLessThan(1e-15);
+    expect(otherDiff).toBe(0);
+  });
+});
+
 describe('readRawKspace refusals', () => {
   it('refuses a partially sampled file naming how many lines are missing', async () => {
     const error = await refusal(fixtureFile('partial.h5'));
     // The h5py script drops every line with kspace_encode_step_1 % 8 == 0: 8 of 64.
     expect(error.problems[0].field).toBe('file.data.head.idx.kspace_encode_step_1');
     expect(error.message).toContain('8 of 64 phase-encode lines');
+  });
+
+  it('refuses an HDF5 file without the ISMRMRD datasets', async () => {
+    // Written here with h5wasm itself: a plain HDF5 file whose /dataset group holds no xml or data.
+    const { FS } = await h5wasm.ready;
+    const file = new h5wasm.File('/not-ismrmrd.h5', 'w');
+    file.create_group('dataset');
+    file.create_dataset({ name: 'dataset/values', data: new Float64Array([1, 2, 3]) });
+    file.close();
+    const bytes = FS.readFile('/not-ismrmrd.h5');
+    FS.unlink('/not-ismrmrd.h5');
+    const error = await refusal(bytes);
+    expect(error.message).toContain('not an ISMRMRD file: no /dataset/xml');
+  });
+
+  it('refuses a non-Cartesian trajectory in the XML header', async () => {
+    const error = await refusal(fixtureFile('radial-header.h5'));
+    expect(error.problems[0].field).toBe('file.header.encoding.trajectory');
+    expect(error.message).toContain('non-Cartesian trajectory (radial)');
+  });
+
+  it('refuses records that carry trajectories (trajectory_dimensions > 0)', async () => {
+    const error = await refusal(fixtureFile('trajectory-records.h5'));
+    expect(error.problems[0].field).toBe('file.data.head.trajectory_dimensions');
+    expect(error.message).toContain('2-dimensional trajectory');
+  });
+
+  it('refuses more than one slice, naming the counter', async () => {
+    const error = await refusal(fixtureFile('two-slices.h5'));
+    expect(error.problems[0].field).toBe('file.data.head.idx.slice');
+    expect(error.message).toContain('2 different values');
   });
 
   it('refuses bytes that are not HDF5 (signature check)', async () => {
