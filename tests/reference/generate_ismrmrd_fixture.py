@@ -10,7 +10,8 @@ Reads the generated ISMRMRD file (see generate_ismrmrd_fixture.sh), writes
   ../fixtures/ismrmrd/radial-header.h5, trajectory-records.h5, two-slices.h5: the noise record and
                                  the first 8 lines only, with the XML trajectory set to radial, with
                                  trajectory_dimensions = 2 and 2 × samples trajectory values per
-                                 record, and with lines 4–7 moved to slice 1.
+                                 record, and with lines 4–7 moved to slice 1;
+  ../fixtures/ismrmrd/declared-records.h5 declares 1 000 000 records and stores none.
 Readout oversampling is removed as the importer does: centred orthonormal inverse DFT along the
 readout, keep the central n/oversampling pixels starting at n//2 − kept//2, and the RSS image is
 sqrt(Σ_c |ifft2c(k_c)|²) with ifft2c = fftshift ∘ ifft2(norm='ortho') ∘ ifftshift.
@@ -136,4 +137,8 @@ repeat = records[~is_noise & (steps < 4)].copy()
 repeat["head"]["idx"]["average"] = 1
 repeat["data"] = [(-r["data"]).astype(np.float32) for r in repeat]
 write_copy("averaged.h5", np.concatenate([records, repeat]), xml)
+# A file that declares a million records but stores none (chunked, never written: fill values).
+with h5py.File(os.path.join(fixture_dir, "declared-records.h5"), "w") as g:
+    g.create_dataset("dataset/xml", data=[xml.encode()], dtype=h5py.string_dtype())
+    g.create_dataset("dataset/data", shape=(1_000_000,), dtype=record_dtype, chunks=(1024,))
 print("wrote", os.path.join(here, "fixtures", "ismrmrd-rss.json"), "partial.h5", "subject.h5")

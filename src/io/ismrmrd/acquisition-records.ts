@@ -98,7 +98,7 @@ export async function readIsmrmrdContents(bytes: Uint8Array, group = 'dataset'):
     if (!(xmlNode instanceof h5wasm.Dataset)) refuse('file', `not an ISMRMRD file: no /${group}/xml dataset`);
     if (!(dataNode instanceof h5wasm.Dataset))
       refuse('file', `not an ISMRMRD file: no /${group}/data dataset`);
-    return { xml: readXml(xmlNode, group), records: readRecords(dataNode, group) };
+    return { xml: readXml(xmlNode, group), records: readRecords(dataNode, group, bytes.length) };
   } catch (error) {
     if (error instanceof ValidationError) throw error;
     throw new ValidationError({
@@ -118,7 +118,10 @@ function readXml(dataset: Dataset, group: string): string {
   return text;
 }
 
-function readRecords(dataset: Dataset, group: string): AcquisitionRecords {
+/** Records read per call: keeps h5wasm's heap bounded while the running total is checked. */
+const RECORDS_PER_READ = 16;
+
+function readRecords(dataset: Dataset, group: string, fileBytes: number): AcquisitionRecords {
   const where = `/${group}/data`;
   const members = (dataset.metadata.compound_type?.members ?? []) as Member[];
   if (members.length === 0) refuse('file', `not an ISMRMRD file: ${where} is not a compound dataset`);
@@ -132,7 +135,15 @@ function readRecords(dataset: Dataset, group: string): AcquisitionRecords {
   const shape = dataset.shape ?? [];
   if (shape.length !== 1) refuse('file', `not an ISMRMRD file: ${where} is not one-dimensional`);
   const count = shape[0];
-  const rows = (count > 0 ? dataset.value : []) as unknown[][];
+  // Every record's samples need a global-heap object of at least 16 bytes in the file, so a
+  // larger count can only come from fill values or shared references: refused before reading.
+  if (count > fileBytes / 16) {
+    refuse('file', `${where} declares ${count} records, more than a file of ${fileBytes} bytes can hold`);
+  }
+  // Samples are stored uncompressed in the global heap, so their total cannot honestly exceed the
+  // file; records that share heap objects to inflate past it are refused as they are read.
+  const sampleBudget = 2 * fileBytes + 1_048_576;
+  let sampleBytes = 0;
   const records: AcquisitionRecords = {
     count,
     flags: new BigUint64Array(count),
@@ -167,8 +178,12 @@ function readRecords(dataset: Dataset, group: string): AcquisitionRecords {
     ];
     return { column: records[key], at: memberIndex(idxMembers, name, `${where}.head.idx`) };
   });
+  let rows: unknown[][] = [];
   for (let r = 0; r < count; r++) {
-    const row = rows[r];
+    if (r % RECORDS_PER_READ === 0) {
+      rows = dataset.slice([[r, Math.min(count, r + RECORDS_PER_READ)]]) as unknown as unknown[][];
+    }
+    const row = rows[r % RECORDS_PER_READ];
     const head = row[headIndex] as unknown[];
     const idx = head[idxIndex] as number[];
     records.flags[r] = BigInt(head[flagsIndex] as bigint | number);
@@ -178,6 +193,10 @@ function readRecords(dataset: Dataset, group: string): AcquisitionRecords {
     const samples = row[dataIndex];
     if (!(samples instanceof Float32Array) || !(traj instanceof Float32Array)) {
       refuse('file', `not an ISMRMRD file: ${where} record ${r} does not hold float32 traj and data arrays`);
+    }
+    sampleBytes += samples.byteLength + traj.byteLength;
+    if (sampleBytes > sampleBudget) {
+      refuse('file', `${where} holds more samples than a file of ${fileBytes} bytes can store`);
     }
     records.data[r] = samples;
   }

@@ -155,6 +155,12 @@ describe('readRawKspace refusals', () => {
     expect(error.message).toContain('not an ISMRMRD file: no /dataset/xml');
   });
 
+  it('refuses a record count the file cannot hold before reading the records', async () => {
+    const bytes = fixtureFile('declared-records.h5');
+    const error = await refusal(bytes);
+    expect(error.message).toContain(`declares 1000000 records, more than a file of ${bytes.length} bytes`);
+  });
+
   it('refuses a non-Cartesian trajectory in the XML header', async () => {
     const error = await refusal(fixtureFile('radial-header.h5'));
     expect(error.problems[0].field).toBe('file.header.encoding.trajectory');
