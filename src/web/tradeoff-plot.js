@@ -21,6 +21,14 @@ const noLine = () => null;
 /** Hover reach in CSS pixels: the nearest point within it is described. */
 const hoverRadius = 14;
 
+/** [min, max] of the values widened by 6 % of their span (or of their size when all are equal). */
+function paddedRange(values) {
+  const min = Math.min(...values);
+  const max = Math.max(...values);
+  const pad = (max > min ? max - min : Math.abs(max) || 1) * 0.06;
+  return [min - pad, max + pad];
+}
+
 function pointLabel(point) {
   return point.reference ? 'R 1 (full)' : point.R === null ? 'custom' : `R ${point.R}`;
 }
@@ -84,10 +92,19 @@ export function drawTradeoffPlot(container, points, metric, paretoMetric, list) 
     ctx.fillStyle = '#1d2b2f';
     ctx.textBaseline = 'bottom';
     const items = list ? list.children : [];
+    const lineHeight = 12 * ratio;
+    const placed = []; // label boxes drawn so far: rows sharing a spot get their labels stacked
     ordered.forEach((p, i) => {
       const cx = u.valToPos(p.x, 'x', true);
       const cy = u.valToPos(p.y, 'y', true);
-      ctx.fillText(pointLabel(p), cx + 6 * ratio, cy - 5 * ratio);
+      const text = pointLabel(p);
+      const w = ctx.measureText(text).width;
+      const x = cx + 6 * ratio;
+      let y = cy - 5 * ratio;
+      const overlaps = (b) => x < b.x + b.w && b.x < x + w && y - lineHeight < b.y && b.y - lineHeight < y;
+      for (let tries = 0; tries < 8 && placed.some(overlaps); tries++) y -= lineHeight;
+      placed.push({ x, y, w });
+      ctx.fillText(text, x, y);
       const item = items[i];
       if (item) {
         item.dataset.canvasX = String(Math.round(cx));
@@ -118,7 +135,12 @@ export function drawTradeoffPlot(container, points, metric, paretoMetric, list) 
       width,
       height: 320,
       series,
-      scales: { x: { time: false } },
+      // Fixed ranges over every point: uPlot's automatic ranges stop at the first of several equal
+      // x values, which would leave rows sharing the longest scan time off the plot.
+      scales: {
+        x: { time: false, range: () => paddedRange(xs) },
+        y: { range: () => paddedRange(ordered.map((p) => p.y)) },
+      },
       axes: [
         {
           label: 'scan time (s)',
