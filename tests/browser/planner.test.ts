@@ -803,6 +803,7 @@ describe('planner page in Chromium', () => {
       );
     }
     // Hover describes the row under the pointer.
+    await page.locator('#tradeoffPlot').scrollIntoViewIfNeeded();
     const canvasBox = (await page.locator('#tradeoffPlot canvas').boundingBox())!;
     const ratio = await page.evaluate(() => devicePixelRatio);
     const target =
