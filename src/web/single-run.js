@@ -175,22 +175,35 @@ export class SingleRun {
 
   /** Removes every image and number of an earlier run (they would not belong to the new message). */
   clear() {
-    for (const id of [...linkedImages, ...ownImages]) hideImage(id);
+    this.clearReconstruction();
+    for (const id of ownImages) hideImage(id);
     for (const cell of document.querySelectorAll('#single [data-key]')) {
       delete cell.dataset.value;
       cell.textContent = '–';
     }
     drawPsfProfile(byId('psfProfile'), null);
+    this.lastMask = null;
+  }
+
+  /** Removes the reconstruction's images and numbers (e.g. when a new mask no longer matches them). */
+  clearReconstruction() {
+    for (const id of linkedImages) hideImage(id);
+    for (const cell of document.querySelectorAll('#reconNumbers [data-key]')) {
+      delete cell.dataset.value;
+      cell.textContent = '–';
+    }
     showNotes([]);
     this.errors = null;
     byId('errorScale').hidden = true;
-    this.lastMask = null;
     this.lastOutcome = null;
+    this.reconstructed = null;
   }
 
   async showMask() {
     showStatus(this.status, 'Drawing the mask…', true);
     const body = { matrix: this.setup.matrix(), sampling: this.setup.sampling() };
+    // Images reconstructed from another matrix or mask would sit beside this mask as if they matched.
+    if (this.reconstructed !== JSON.stringify(body)) this.clearReconstruction();
     const [mask, png, [full, under]] = await Promise.all([
       postJson('v1/masks', body),
       postForBlob('v1/masks', body, 'image/png'),
@@ -244,6 +257,7 @@ export class SingleRun {
     showMetrics(outcome);
     showScanTimes(full, under);
     this.lastOutcome = outcome;
+    this.reconstructed = JSON.stringify({ matrix: body.matrix, sampling: body.sampling });
     showStatus(this.status, `Reconstruction ${outcome.id} done (${body.method.name}).`);
   }
 

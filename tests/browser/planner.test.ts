@@ -864,9 +864,9 @@ describe('planner page in Chromium', () => {
   it('labels the 3D phase-encode plane and sends what the service accepts', async () => {
     await page.selectOption('#preset', '2'); // 3D draft C
     expect(await page.inputValue('#dimensions')).toBe('3d');
-    expect(await page.locator('label[for="nx"]').innerText()).toContain('Partitions');
-    expect(await page.locator('label[for="ny"]').innerText()).toContain('Phase encode');
-    expect(await page.locator('#maskAxes').innerText()).toContain('z across');
+    expect(await page.locator('label[for="nx"] span:not([hidden])').textContent()).toContain('Partitions');
+    expect(await page.locator('label[for="ny"] span:not([hidden])').textContent()).toContain('Phase encode');
+    expect(await page.locator('#maskAxes span:not([hidden])').textContent()).toContain('z across');
     expect(await page.isVisible('#slices')).toBe(false);
     await page.fill('#nx', '40');
     await page.fill('#ny', '32');
@@ -888,9 +888,13 @@ describe('planner page in Chromium', () => {
     // 3D counts every point of the ky×kz plane: 32 × 40 × TR 12 ms × 1 average, ETL 1, partial
     // Fourier 0.75 keeps ⌈0.75·32⌉ = 24 rows (DEVELOPERS.md "Scan time and plans").
     expect(full.seconds).toBeCloseTo((24 * 40 * 12) / 1000, 9);
+    // The earlier reconstruction (another matrix) no longer matches this mask: it is cleared.
+    expect(await page.isVisible('#imgReconstruction')).toBe(false);
+    expect(await page.locator('[data-key="recon.nrmse"]').textContent()).toBe('–');
+    expect(await page.$eval('#imgMask', (img) => (img as HTMLImageElement).naturalWidth)).toBe(40);
     await page.screenshot({ path: join(artifacts, 'planner-3d-setup-1280x800.png') });
     await page.selectOption('#preset', '0');
-    expect(await page.locator('label[for="nx"]').innerText()).toContain('Readout');
+    expect(await page.locator('label[for="nx"] span:not([hidden])').textContent()).toContain('Readout');
     expect(await page.isVisible('#slices')).toBe(true);
   });
 
