@@ -17,7 +17,13 @@ export class ImageDialog {
     this.dialog.addEventListener('close', () => this.detach());
     // A click on the backdrop (outside the dialog's box) closes it too.
     this.dialog.addEventListener('click', (event) => {
-      if (event.target === this.dialog) this.dialog.close();
+      const r = this.dialog.getBoundingClientRect();
+      const inside =
+        event.clientX >= r.left &&
+        event.clientX <= r.right &&
+        event.clientY >= r.top &&
+        event.clientY <= r.bottom;
+      if (event.target === this.dialog && !inside) this.dialog.close();
     });
   }
 

@@ -84,7 +84,8 @@ export function steerZoom(surface, groupOf, onActivate) {
     'wheel',
     (event) => {
       const group = groupOf();
-      if (!group) return;
+      // Nothing to zoom (no group, or no image yet): the wheel scrolls the page as usual.
+      if (!group || surface.querySelector('img')?.hidden) return;
       event.preventDefault();
       const rect = box();
       const factor = Math.exp(-event.deltaY * 0.0015);
