@@ -817,6 +817,18 @@ describe('planner page in Chromium', () => {
     );
     await page.screenshot({ path: join(artifacts, 'planner-2d-poisson-plot-hover-1280x800.png') });
     await page.mouse.move(0, 0);
+    // On PSNR the fully sampled row is +∞ (an exact reconstruction): listed as off the axis, not lost.
+    const psnrNull = rows.filter(
+      (r) => (r as unknown as { metrics: { psnr: { mean: number | null } } }).metrics.psnr.mean === null,
+    );
+    expect(psnrNull.map((r) => r.key)).toContain('reference');
+    await page.selectOption('#plotMetric', 'psnr');
+    expect(await page.locator('#plotPoints li').count()).toBe(rows.length - psnrNull.length);
+    expect(await page.locator('#plotPointsSummary').textContent()).toBe(
+      `Plotted points: ${rows.length - psnrNull.length} of ${rows.length} table rows`,
+    );
+    expect(await page.locator('#plotOffAxis').textContent()).toContain('fully sampled');
+    await page.selectOption('#plotMetric', 'ssim');
 
     // The service's notes, word for word, visible without a click.
     const notes = await page.$$eval('#planNotes li', (items) => items.map((li) => li.textContent));
