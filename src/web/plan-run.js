@@ -32,6 +32,10 @@ export class PlanRun {
     this.cancelButton.addEventListener('click', () => this.cancel());
     byId('plotMetric').addEventListener('change', () => this.redrawPlot());
     byId('targetMetric').addEventListener('change', () => this.suggestTarget());
+    const allColumns = byId('allColumns');
+    allColumns.addEventListener('change', () => {
+      byId('planTable').classList.toggle('compact', !allColumns.checked);
+    });
   }
 
   /** A sensible threshold when the target metric changes (SSIM 0.9, PSNR 30 dB, NRMSE 0.1, HFEN 0.2). */
@@ -97,6 +101,7 @@ export class PlanRun {
       const final = await this.follow(accepted.id);
       await this.finish(final);
     } catch (error) {
+      this.clearResults();
       showProblem(this.status, this.problems, error, this.setup);
     } finally {
       this.stopFollowing();
@@ -163,6 +168,10 @@ export class PlanRun {
     this.plot?.destroy();
     this.plot = null;
     byId('tradeoffPlot').replaceChildren();
+    byId('plotPoints').replaceChildren();
+    byId('plotPointsBox').hidden = true;
+    byId('planNotes').replaceChildren();
+    byId('planNotesBox').hidden = true;
     const table = byId('planTable');
     table.tHead.replaceChildren();
     table.tBodies[0].replaceChildren();
@@ -192,6 +201,7 @@ export class PlanRun {
   async finish(plan) {
     this.plan = plan;
     if (plan.status !== 'done') {
+      this.clearResults();
       const reason = plan.error?.detail ?? '';
       showStatus(this.status, `Plan ${plan.id} ${plan.status}${reason ? `: ${reason}` : ''}.`);
       return;
@@ -201,6 +211,7 @@ export class PlanRun {
     renderPlanTable(byId('planTable'), plan);
     this.redrawPlot();
     this.showRecommendation(plan);
+    this.showNotes(plan.table?.notes ?? []);
     await this.offerCsv(plan);
     showStatus(this.status, `Plan ${plan.id} done.`);
   }
@@ -211,7 +222,29 @@ export class PlanRun {
     this.plot?.destroy();
     const metric = byId('plotMetric').value;
     const paretoMetric = this.plan.table.paretoMetric;
-    this.plot = drawTradeoffPlot(byId('tradeoffPlot'), planPoints(this.plan, metric), metric, paretoMetric);
+    const { points, offAxis } = planPoints(this.plan, metric);
+    const list = byId('plotPoints');
+    this.plot = drawTradeoffPlot(byId('tradeoffPlot'), points, metric, paretoMetric, list);
+    const rows = this.plan.table.rows.length;
+    byId('plotPointsSummary').textContent = `Plotted points: ${points.length} of ${rows} table rows`;
+    const off = byId('plotOffAxis');
+    off.textContent = offAxis.length
+      ? `Not on the axis (value +∞, an exact reconstruction): ${offAxis.map((row) => `${row.pattern} · ${row.method}`).join('; ')}.`
+      : '';
+    off.hidden = offAxis.length === 0;
+    byId('plotPointsBox').hidden = false;
+  }
+
+  /** The service's notes on the plan, word for word (what the numbers do and do not model). */
+  showNotes(notes) {
+    byId('planNotes').replaceChildren(
+      ...notes.map((note) => {
+        const li = document.createElement('li');
+        li.textContent = note;
+        return li;
+      }),
+    );
+    byId('planNotesBox').hidden = notes.length === 0;
   }
 
   /** The service's own sentence (its numbers, its rounding); the table row it names is highlighted. */

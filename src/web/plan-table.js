@@ -1,36 +1,98 @@
 // The plan's tradeoff table as the service computed it (GET /v1/plans/{id} → table), and the points
 // of the tradeoff plot taken from the same rows. Every number cell keeps the API's value in data-value.
+// Key columns (what the row is, its scan time, the target metric, Pareto, meets target) come first
+// and always show; the others are secondary and hidden until "All columns" is ticked, so the table
+// needs no sideways scroll on a laptop screen.
 
 import { formatMeanSd, formatNumber } from './format.js';
 
-const metricColumns = [
+export const metricColumns = [
   { metric: 'nrmse', label: 'NRMSE', kind: 'nrmse' },
   { metric: 'psnr', label: 'PSNR (dB)', kind: 'psnr' },
   { metric: 'ssim', label: 'SSIM', kind: 'ssim' },
   { metric: 'hfen', label: 'HFEN', kind: 'hfen' },
 ];
 
-/** Column: header, the row field shown (dotted path), its number kind, or a text renderer. */
-const columns = [
-  { label: 'Pattern', text: (row) => row.pattern },
-  { label: 'Method', text: (row) => row.method },
-  { label: 'R requested', path: 'requestedR', kind: 'acceleration', missing: 'custom' },
-  { label: 'R actual', path: 'actualR', kind: 'acceleration' },
-  { label: 'Acquired', path: 'acquired', kind: 'count', suffix: (row) => ` ${row.acquiredUnit}` },
-  { label: 'Scan (s)', path: 'scanSeconds', kind: 'seconds' },
-  { label: 'Scan m:ss', text: (row) => row.scanFormatted },
-  { label: 'Saved %', path: 'timeSavedPct', kind: 'percent' },
-  ...metricColumns.map(({ metric, label, kind }) => ({
+const metricLabel = (metric) => metricColumns.find((c) => c.metric === metric)?.label ?? metric;
+
+function metricColumn({ metric, label, kind }, secondary) {
+  return {
     label: `${label} mean ± sd`,
+    title: `${label}: mean over the seeds ± sample standard deviation (n − 1)`,
     path: `metrics.${metric}.mean`,
     kind,
     render: (row) => formatMeanSd(row.metrics[metric].mean, row.metrics[metric].sd, kind),
     missing: '∞',
-  })),
-  { label: 'Recon (ms)', path: 'reconMs', kind: 'ms' },
-  { label: 'Pareto', text: (row) => (row.reference ? '' : row.pareto ? 'yes' : '') },
-  { label: 'Meets target', text: (row) => (row.meetsTarget === null ? '' : row.meetsTarget ? 'yes' : 'no') },
-];
+    secondary,
+    metric,
+  };
+}
+
+/**
+ * Columns: header, hover definition, the row field shown (dotted path), its number kind or a text
+ * renderer, and whether it is secondary. The target metric's column sits beside the scan time.
+ */
+function columnsFor(targetMetric) {
+  const target = metricColumns.find((c) => c.metric === targetMetric) ?? metricColumns[0];
+  return [
+    { label: 'Pattern', title: 'Sampling pattern', text: (row) => row.pattern, sticky: true },
+    { label: 'Method', title: 'Reconstruction method', text: (row) => row.method },
+    {
+      label: 'R',
+      title: 'Requested acceleration R (fully sampled count ÷ acquired count)',
+      path: 'requestedR',
+      kind: 'acceleration',
+      missing: 'custom',
+    },
+    {
+      label: 'Scan (s)',
+      title: 'Scan time in seconds, then as m:ss',
+      path: 'scanSeconds',
+      kind: 'seconds',
+      suffix: (row) => ` · ${row.scanFormatted}`,
+    },
+    {
+      label: 'Saved (%)',
+      title: 'Time saved against the fully sampled scan, in per cent',
+      path: 'timeSavedPct',
+      kind: 'percent',
+    },
+    { ...metricColumn(target, false), target: true },
+    {
+      label: 'Pareto',
+      title: `On the Pareto front of scan time against ${target.label}`,
+      text: (row) => (row.reference ? '' : row.pareto ? 'yes' : ''),
+    },
+    {
+      label: 'Meets target',
+      title: 'Mean target metric meets the target value',
+      text: (row) => (row.meetsTarget === null ? '' : row.meetsTarget ? 'yes' : 'no'),
+    },
+    {
+      label: 'R actual',
+      title: 'Acceleration the mask reached (mean over seeds)',
+      path: 'actualR',
+      kind: 'acceleration',
+      secondary: true,
+    },
+    {
+      label: 'Acquired',
+      title: 'Lines, points or spokes that cost scan time (mean over seeds)',
+      path: 'acquired',
+      kind: 'count',
+      suffix: (row) => ` ${row.acquiredUnit}`,
+      secondary: true,
+    },
+    ...metricColumns.filter((c) => c !== target).map((c) => metricColumn(c, true)),
+    {
+      label: 'Recon (ms)',
+      title: 'Mean reconstruction wall time in milliseconds (varies between runs)',
+      path: 'reconMs',
+      kind: 'ms',
+      secondary: true,
+    },
+  ];
+}
 
 const at = (row, path) => path.split('.').reduce((value, key) => value?.[key], row);
 
@@ -40,8 +102,11 @@ function formatCount(value) {
 
 function cell(row, column) {
   const td = document.createElement('td');
+  if (column.secondary) td.classList.add('secondary');
+  if (column.sticky) td.classList.add('sticky');
+  if (column.target) td.classList.add('target');
   if (column.text) {
-    td.className = 'text';
+    td.classList.add('text');
     td.textContent = column.text(row) ?? '';
     return td;
   }
@@ -67,12 +132,18 @@ export function recommendedKey(plan) {
 }
 
 export function renderPlanTable(table, plan) {
+  const columns = columnsFor(plan.table?.paretoMetric);
   const head = document.createElement('tr');
   for (const column of columns) {
     const th = document.createElement('th');
     th.scope = 'col';
     th.textContent = column.label;
-    if (column.text) th.className = 'text';
+    th.title = column.title;
+    if (column.text) th.classList.add('text');
+    if (column.secondary) th.classList.add('secondary');
+    if (column.sticky) th.classList.add('sticky');
+    if (column.target) th.classList.add('target');
+    if (column.metric) th.dataset.metric = column.metric;
     head.append(th);
   }
   table.tHead.replaceChildren(head);
@@ -90,25 +161,56 @@ export function renderPlanTable(table, plan) {
     }),
   );
   const caption = table.createCaption();
-  caption.textContent = `Means over ${rows[0]?.seeds ?? '?'} seed(s); Pareto front on ${String(
+  caption.textContent = `Means over ${rows[0]?.seeds ?? '?'} seed(s); Pareto front on ${metricLabel(
     plan.table?.paretoMetric ?? 'nrmse',
-  ).toUpperCase()} against scan time; highlighted: the recommendation.`;
+  )} against scan time; highlighted: the recommendation.`;
 }
 
-/** One point per undersampled row (and the fully sampled reference), as the plot wants them. */
+/** One sentence per row for the plot's hover box and its list of points. */
+function describeRow(row, metric, picked) {
+  const value = row.metrics?.[metric];
+  const kind = metricColumns.find((c) => c.metric === metric)?.kind;
+  const r = row.reference
+    ? 'R 1, fully sampled'
+    : row.requestedR === null
+      ? `custom mask, R ${formatNumber(row.actualR, 'acceleration')}`
+      : `R ${row.requestedR} (actual ${formatNumber(row.actualR, 'acceleration')})`;
+  const flags = [
+    row.pareto && !row.reference ? 'Pareto front' : '',
+    row.key === picked ? 'recommended' : '',
+  ].filter(Boolean);
+  return (
+    `${row.pattern} · ${row.method}, ${r}: scan ${row.scanFormatted} (${formatNumber(row.scanSeconds, 'seconds')} s), ` +
+    `saved ${formatNumber(row.timeSavedPct, 'percent')} %, ${metricLabel(metric)} ${formatMeanSd(value?.mean, value?.sd, kind)}` +
+    (flags.length ? `; ${flags.join(', ')}` : '')
+  );
+}
+
+/**
+ * Every row of the table as a plot point (the reference included); rows whose plotted value is +∞
+ * (PSNR of an exact reconstruction) have no place on the axis and come back in `offAxis`.
+ */
 export function planPoints(plan, metric) {
   const picked = recommendedKey(plan);
   const points = [];
+  const offAxis = [];
   for (const row of plan.table?.rows ?? []) {
     const y = row.metrics?.[metric]?.mean;
-    if (typeof y !== 'number') continue; // +∞ (exact PSNR) has no place on the axis
+    if (typeof y !== 'number') {
+      offAxis.push(row);
+      continue;
+    }
     points.push({
+      key: row.key,
       series: row.reference ? 'fully sampled' : `${row.pattern} · ${row.method}`,
       x: row.scanSeconds,
       y,
+      R: row.reference ? 1 : row.requestedR,
+      reference: Boolean(row.reference),
       pareto: Boolean(row.pareto) && !row.reference,
       recommended: row.key === picked,
+      describe: describeRow(row, metric, picked),
     });
   }
-  return points;
+  return { points, offAxis };
 }

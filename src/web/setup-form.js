@@ -1,6 +1,7 @@
 // The acquisition setup form: turns the controls into the request pieces of the HTTP contract
 // (source, matrix, sampling, method, noise, protocol) and shows field errors next to their controls.
 
+import { largestSensibleAcs, suggestedAcs } from './acs-default.js';
 import { getJson, uploadImage } from './api.js';
 
 /** Draft protocols of the invented demo site (values are plausible, not taken from any real protocol). */
@@ -44,9 +45,12 @@ export class SetupForm {
   constructor(form) {
     this.form = form;
     this.uploaded = null;
+    // Until the user sets the ACS, it follows the matrix and R (see acs-default.js).
+    this.acsEdited = false;
     this.fillPresets();
     this.applyPreset(0);
     form.addEventListener('change', (event) => this.onChange(event));
+    byId('nx').addEventListener('input', () => this.syncPartitions());
     this.syncVisibility();
   }
 
@@ -62,23 +66,74 @@ export class SetupForm {
     const preset = protocolPresets[index];
     if (!preset) return;
     byId('preset').value = String(index);
-    for (const [key, value] of Object.entries(preset.protocol)) byId(key).value = String(value);
-    this.syncSlices();
+    for (const [key, value] of Object.entries(preset.protocol)) {
+      // A 3D preset's slices (always 1) would overwrite the 2D slice count kept in the field.
+      if (key === 'slices' && preset.protocol.dimensions === '3d') continue;
+      byId(key).value = String(value);
+    }
+    this.syncDimensions();
   }
 
-  /** In 3D the matrix plane is ky×kz, so there is exactly one slab (the service requires slices = 1). */
-  syncSlices() {
-    const slices = byId('slices');
-    const threeD = byId('dimensions').value === '3d';
-    if (threeD) slices.value = '1';
-    slices.disabled = threeD;
+  threeD() {
+    return byId('dimensions').value === '3d';
+  }
+
+  /**
+   * In 3D the matrix's ny×nx plane is the ky×kz phase-encode plane: nx counts the partitions and the
+   * protocol is one slab (the service requires slices = 1). Labels, hints and the mask's axes say so.
+   */
+  syncDimensions() {
+    const dims = this.threeD() ? '3d' : '2d';
+    for (const el of document.querySelectorAll('[data-dim]')) el.hidden = el.dataset.dim !== dims;
+    this.syncPartitions();
+  }
+
+  syncPartitions() {
+    const nx = numberOf('nx');
+    const output = byId('partitions');
+    output.value = Number.isInteger(nx) ? `${nx} (= nx), one slab` : '–';
+    output.dataset.value = Number.isInteger(nx) ? String(nx) : '';
+  }
+
+  /**
+   * Keeps the ACS usable when the matrix or R changes: an ACS the user never set follows the
+   * suggestion; one the user set is lowered on a matrix change when it would fill over half the
+   * lines the mask may hold. The hint says what changed.
+   */
+  adaptAcs(reason) {
+    const ny = numberOf('ny');
+    const R = numberOf('acceleration');
+    const acs = numberOf('acs');
+    if (!Number.isInteger(ny) || ny < 1) return;
+    let next = acs;
+    if (!this.acsEdited) next = suggestedAcs(ny, R);
+    else if (reason === 'matrix' && acs !== undefined) next = Math.min(acs, largestSensibleAcs(ny, R));
+    const hint = byId('acsHint');
+    if (next === acs || next === null) {
+      hint.hidden = true;
+      return;
+    }
+    byId('acs').value = String(next);
+    hint.textContent =
+      `ACS set to ${next} for ${ny} rows at R ${R ?? 1}` +
+      (acs === undefined
+        ? '.'
+        : ` (was ${acs}): the mask holds round(ny / R) = ${Math.round(ny / (R || 1))} lines, the ACS at most half.`);
+    hint.hidden = false;
   }
 
   onChange(event) {
     const target = event.target;
     if (target.id === 'preset') this.applyPreset(Number(target.value));
     else if (target.closest('fieldset')?.querySelector('#trMs')) byId('preset').value = 'custom';
-    if (target.id === 'dimensions') this.syncSlices();
+    if (target.id === 'dimensions') this.syncDimensions();
+    if (target.id === 'nx') this.syncPartitions();
+    if (target.id === 'acs') {
+      this.acsEdited = true;
+      byId('acsHint').hidden = true;
+    }
+    if (target.id === 'nx' || target.id === 'ny') this.adaptAcs('matrix');
+    if (target.id === 'acceleration') this.adaptAcs('acceleration');
     if (target.id === 'noiseOn') byId('snr').disabled = !target.checked;
     if (target.name === 'sourceKind' || target.id === 'pattern' || target.id === 'method')
       this.syncVisibility();
@@ -97,6 +152,10 @@ export class SetupForm {
     for (const el of this.form.querySelectorAll('[data-method]')) {
       el.hidden = !el.dataset.method.split(' ').includes(method);
     }
+    // Poisson-disc keeps a central square of points; the line patterns keep whole lines.
+    const square = pattern === 'poisson-disc';
+    for (const el of this.form.querySelectorAll('[data-acs]'))
+      el.hidden = (el.dataset.acs === 'square') !== square;
   }
 
   async loadPhantoms() {
@@ -119,6 +178,8 @@ export class SetupForm {
     if (Number.isInteger(info.nx) && Number.isInteger(info.ny)) {
       byId('nx').value = String(info.nx);
       byId('ny').value = String(info.ny);
+      this.syncPartitions();
+      this.adaptAcs('matrix');
     }
     return info;
   }
@@ -148,20 +209,19 @@ export class SetupForm {
     return spec;
   }
 
+  /** The method piece; a blank iteration count is left out, so the service's default applies. */
   method(name = byId('method').value) {
+    const iterations = numberOf('iterations');
     if (name === 'cs-tv') {
-      const spec = { name, iterations: numberOf('iterations') };
+      const spec = { name };
+      if (iterations !== undefined) spec.iterations = iterations;
       const lambda = numberOf('lambda');
       if (lambda !== undefined) spec.lambda = lambda;
       return spec;
     }
     if (name === 'lowrank-hankel') {
-      const spec = {
-        name,
-        kernel: numberOf('kernel'),
-        weighting: byId('weighting').value,
-        iterations: numberOf('iterations'),
-      };
+      const spec = { name, kernel: numberOf('kernel'), weighting: byId('weighting').value };
+      if (iterations !== undefined) spec.iterations = iterations;
       const rank = numberOf('rank');
       if (rank !== undefined) spec.rank = rank;
       return spec;
@@ -179,7 +239,8 @@ export class SetupForm {
       trMs: numberOf('trMs'),
       averages: numberOf('averages'),
       echoTrainLength: numberOf('echoTrainLength'),
-      slices: numberOf('slices'),
+      // 3D: one slab; the partitions are the matrix's nx.
+      slices: this.threeD() ? 1 : numberOf('slices'),
       partialFourier: numberOf('partialFourier'),
     };
   }

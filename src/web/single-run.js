@@ -1,23 +1,22 @@
 // One acquisition: the mask and its numbers, the reconstruction with its images and metrics, and the
 // scan time of the protocol entered on the page — every number straight from the service's answers.
+// An error clears everything shown before, so no old image or number stands beside the message.
 
 import { getBlob, pageRelative, postForBlob, postJson } from './api.js';
-import { showNumber } from './format.js';
+import { colouredErrorPng, drawColourBar, errorLevels } from './error-map.js';
+import { formatNumber, showNumber } from './format.js';
+import { ImageDialog } from './image-dialog.js';
 import { drawPsfProfile } from './psf-profile.js';
 import { showProblem, showStatus } from './status.js';
+import { steerZoom, ZoomGroup } from './zoom-group.js';
 
 const byId = (id) => document.getElementById(id);
 const numberCell = (key) => document.querySelector(`[data-key="${key}"]`);
 
-/** <img> id → key of the reconstruction's `images` member (URLs under /v1/results/{id}/). */
-const resultImages = {
-  imgReconstruction: 'reconstruction',
-  imgZeroFilled: 'zeroFilled',
-  imgReference: 'reference',
-  imgErrorMap: 'errorMap',
-  imgMask: 'mask',
-  imgPsf: 'psf',
-};
+/** <img> ids of the images that zoom and pan together (one matrix, one object). */
+const linkedImages = ['imgReconstruction', 'imgZeroFilled', 'imgReference', 'imgErrorMap'];
+/** <img> ids of the k-space views, enlarged on their own. */
+const ownImages = ['imgMask', 'imgPsf'];
 
 /** Shows a PNG blob in an <img>, releasing the blob URL it showed before. */
 async function showBlob(id, blob) {
@@ -29,8 +28,11 @@ async function showBlob(id, blob) {
   img.hidden = false;
 }
 
-async function showImage(id, url) {
-  await showBlob(id, await getBlob(url, 'image/png'));
+function hideImage(id) {
+  const img = byId(id);
+  if (img.src.startsWith('blob:')) URL.revokeObjectURL(img.src);
+  img.removeAttribute('src');
+  img.hidden = true;
 }
 
 function showAcquired(cell, acquired, total) {
@@ -58,6 +60,33 @@ function showScanTimes(full, under) {
   showNumber(numberCell('time.saved'), saved, 'percent', ' %');
 }
 
+/** Iterations run of the most allowed, and whether the solver met its tolerance (when it says). */
+function showSolver(info) {
+  const iterations = numberCell('recon.iterations');
+  const converged = numberCell('recon.converged');
+  if (typeof info?.iterations === 'number') {
+    showNumber(iterations, info.iterations, 'count');
+    iterations.textContent =
+      typeof info.iterationLimit === 'number'
+        ? `${info.iterations} of ${info.iterationLimit}`
+        : String(info.iterations);
+  } else {
+    showNumber(iterations, null);
+    iterations.textContent = 'not iterative';
+  }
+  if (typeof info?.converged === 'boolean') {
+    converged.dataset.value = String(info.converged);
+    const change =
+      typeof info.relativeChange === 'number' && typeof info.tolerance === 'number'
+        ? ` (change ${info.relativeChange.toExponential(1)} ${info.converged ? '<' : '≥'} ${info.tolerance})`
+        : '';
+    converged.textContent = `${info.converged ? 'yes' : 'no, stopped at the limit'}${change}`;
+  } else {
+    delete converged.dataset.value;
+    converged.textContent = '–';
+  }
+}
+
 function showMetrics(outcome) {
   const metrics = outcome.metrics ?? {};
   showNumber(numberCell('recon.nrmse'), metrics.nrmse, 'nrmse');
@@ -65,8 +94,12 @@ function showMetrics(outcome) {
   showNumber(numberCell('recon.ssim'), metrics.ssim, 'ssim');
   showNumber(numberCell('recon.hfen'), metrics.hfen, 'hfen');
   showNumber(numberCell('recon.reconMs'), outcome.timing?.reconMs, 'ms');
+  showSolver(outcome.info);
+  showNotes(Array.isArray(outcome.notes) ? outcome.notes : []);
+}
+
+function showNotes(list) {
   const notes = byId('reconNotes');
-  const list = Array.isArray(outcome.notes) ? outcome.notes : [];
   notes.replaceChildren(
     ...list.map((note) => {
       const li = document.createElement('li');
@@ -92,8 +125,38 @@ export class SingleRun {
     this.status = byId('singleStatus');
     this.problems = byId('singleProblems');
     this.buttons = [byId('maskButton'), byId('reconButton')];
+    this.errors = null;
     byId('maskButton').addEventListener('click', () => this.run(() => this.showMask()));
     byId('reconButton').addEventListener('click', () => this.run(() => this.reconstruct()));
+    byId('errorScaleMax').addEventListener('change', () => this.recolourErrorMap());
+    this.wireImages();
+  }
+
+  /** Zoom and pan shared by the four result images; a click enlarges any image. */
+  wireImages() {
+    const level = byId('zoomLevel');
+    this.zoom = new ZoomGroup((group) => {
+      level.textContent = `${Number(group.scale.toFixed(2))}×`;
+      level.dataset.value = String(group.scale);
+    });
+    this.dialog = new ImageDialog();
+    const caption = (img) => img.closest('figure')?.querySelector('figcaption')?.textContent?.trim() ?? '';
+    for (const id of [...linkedImages, ...ownImages]) {
+      const img = byId(id);
+      const tile = img.closest('.tile');
+      const linked = linkedImages.includes(id);
+      if (linked) this.zoom.add(img);
+      tile.tabIndex = 0;
+      tile.setAttribute('aria-label', `${img.alt}: Enter enlarges${linked ? ', + and − zoom all four' : ''}`);
+      steerZoom(
+        tile,
+        () => (linked ? this.zoom : null),
+        () => this.dialog.open(img, caption(img), linked ? this.zoom : null),
+      );
+    }
+    byId('zoomIn').addEventListener('click', () => this.zoom.zoomAt(1.5));
+    byId('zoomOut').addEventListener('click', () => this.zoom.zoomAt(1 / 1.5));
+    byId('zoomReset').addEventListener('click', () => this.zoom.reset());
   }
 
   async run(task) {
@@ -103,22 +166,51 @@ export class SingleRun {
     try {
       await task();
     } catch (error) {
+      this.clear();
       showProblem(this.status, this.problems, error, this.setup);
     } finally {
       for (const button of this.buttons) button.disabled = false;
     }
   }
 
+  /** Removes every image and number of an earlier run (they would not belong to the new message). */
+  clear() {
+    this.clearReconstruction();
+    for (const id of ownImages) hideImage(id);
+    for (const cell of document.querySelectorAll('#single [data-key]')) {
+      delete cell.dataset.value;
+      cell.textContent = '–';
+    }
+    drawPsfProfile(byId('psfProfile'), null);
+    this.lastMask = null;
+  }
+
+  /** Removes the reconstruction's images and numbers (e.g. when a new mask no longer matches them). */
+  clearReconstruction() {
+    for (const id of linkedImages) hideImage(id);
+    for (const cell of document.querySelectorAll('#reconNumbers [data-key]')) {
+      delete cell.dataset.value;
+      cell.textContent = '–';
+    }
+    showNotes([]);
+    this.errors = null;
+    byId('errorScale').hidden = true;
+    this.lastOutcome = null;
+    this.reconstructed = null;
+  }
+
   async showMask() {
     showStatus(this.status, 'Drawing the mask…', true);
     const body = { matrix: this.setup.matrix(), sampling: this.setup.sampling() };
+    // Images reconstructed from another matrix or mask would sit beside this mask as if they matched.
+    if (this.reconstructed !== JSON.stringify(body)) this.clearReconstruction();
     const [mask, png, [full, under]] = await Promise.all([
       postJson('v1/masks', body),
       postForBlob('v1/masks', body, 'image/png'),
       scanTimes(this.setup),
     ]);
     await showBlob('imgMask', png);
-    await showImage('imgPsf', pageRelative(mask.images.psf));
+    await showBlob('imgPsf', await getBlob(pageRelative(mask.images.psf), 'image/png'));
     showMaskNumbers(mask);
     showScanTimes(full, under);
     this.lastMask = mask;
@@ -144,15 +236,50 @@ export class SingleRun {
       postJson('v1/masks', { matrix: body.matrix, sampling: body.sampling }),
       scanTimes(setup),
     ]);
-    await Promise.all(
-      Object.entries(resultImages).map(([element, key]) =>
-        showImage(element, pageRelative(outcome.images[key])),
+    const fetched = Object.fromEntries(
+      await Promise.all(
+        ['reconstruction', 'zeroFilled', 'reference', 'mask', 'psf'].map(async (key) => [
+          key,
+          await getBlob(pageRelative(outcome.images[key]), 'image/png'),
+        ]),
       ),
     );
+    this.errors = await errorLevels(fetched.reconstruction, fetched.reference);
+    await Promise.all([
+      showBlob('imgReconstruction', fetched.reconstruction),
+      showBlob('imgZeroFilled', fetched.zeroFilled),
+      showBlob('imgReference', fetched.reference),
+      showBlob('imgMask', fetched.mask),
+      showBlob('imgPsf', fetched.psf),
+      this.recolourErrorMap(),
+    ]);
     showMaskNumbers(mask);
     showMetrics(outcome);
     showScanTimes(full, under);
     this.lastOutcome = outcome;
+    this.reconstructed = JSON.stringify({ matrix: body.matrix, sampling: body.sampling });
     showStatus(this.status, `Reconstruction ${outcome.id} done (${body.method.name}).`);
+  }
+
+  /** Draws the error map and its colour bar on the scale chosen (kept from run to run). */
+  async recolourErrorMap() {
+    const errors = this.errors;
+    if (!errors) return;
+    const scaleMax = Number(byId('errorScaleMax').value);
+    await showBlob('imgErrorMap', await colouredErrorPng(errors, scaleMax));
+    const box = byId('errorScale');
+    drawColourBar(byId('errorColourBar'), byId('errorColourTicks'), scaleMax);
+    const maxError = errors.maxLevel / 255;
+    box.dataset.scaleMax = String(scaleMax);
+    box.dataset.maxError = String(maxError);
+    const clipped =
+      errors.clipped > 0
+        ? ` ${errors.clipped} px of the reconstruction reach the reference maximum (white): the error shown there is a lower bound.`
+        : '';
+    byId('errorScaleNote').textContent =
+      `Largest error in this image ${formatNumber(maxError, 'fraction')} × the reference maximum` +
+      `${maxError > scaleMax ? ' (above the scale: shown in its top colour)' : ''}. Formed on this page from the ` +
+      `8-bit reconstruction and reference images (±1/255).${clipped}`;
+    box.hidden = false;
   }
 }

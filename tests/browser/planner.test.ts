@@ -7,6 +7,7 @@ import { type BrowserContext, chromium, type Page, type Response } from 'playwri
 import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { buildApp } from '../../src/app.ts';
+import { debianFile } from '../io/debian-files.ts';
 
 /**
  * The planner page in a real browser: Debian's chromium driven by playwright-core against the real
@@ -232,6 +233,107 @@ describe('planner page in Chromium', () => {
     expect(await page.isVisible('#phantom')).toBe(true);
   });
 
+  it('defines every field in one line and shows units', async () => {
+    // Each control of the setup and plan forms sits under a one-line hover definition (title).
+    const undefined_ = await page.$$eval(
+      '#setup input, #setup select, #planForm input, #planForm select',
+      (els) =>
+        els
+          .map((el) => ({
+            id: el.id || (el as HTMLInputElement).name,
+            title: el.closest('[title]')?.getAttribute('title') ?? '',
+          }))
+          .filter(({ title }) => title.trim() === '' || title.includes('\n')),
+    );
+    expect(undefined_).toEqual([]);
+    const titleOf = (id: string) =>
+      page.$eval(`#${id}`, (el) => el.closest('[title]')?.getAttribute('title') ?? '');
+    // What R, ACS, density power, λ and SNR mean here (DEVELOPERS.md "Engines: definitions worth knowing").
+    expect(await titleOf('acceleration')).toMatch(/fully sampled count ÷ acquired count/);
+    expect(await titleOf('acs')).toMatch(/centre of k-space/);
+    expect(await titleOf('densityPower')).toMatch(/sampling density falls from the centre/);
+    expect(await titleOf('lambda')).toMatch(/total-variation penalty/);
+    expect(await titleOf('snr')).toMatch(/÷ noise standard deviation/);
+    // Units in the labels: px for the matrix, ms for TR and the reconstruction time.
+    for (const [selector, unit] of [
+      ['label[for="nx"]', '(px)'],
+      ['label[for="ny"]', '(px)'],
+      ['label[for="kernel"]', '(px)'],
+      ['label[for="trMs"]', '(ms)'],
+      ['#reconNumbers', 'Reconstruction (ms)'],
+    ] as const) {
+      expect(await page.locator(selector).textContent()).toContain(unit);
+    }
+    // A blank iteration count means the service's default (sent as nothing).
+    expect(await page.inputValue('#iterations')).toBe('');
+    expect(await page.getAttribute('#iterations', 'placeholder')).toBe('default');
+  });
+
+  it('adapts the ACS to an uploaded 64×64 DICOM and runs it with the service’s default iterations', async () => {
+    // MR_small.dcm: 64×64 MR slice from Debian's python3-pydicom test files (see tests/io/debian-files.ts).
+    await page.check('input[name="sourceKind"][value="upload"]');
+    const uploaded = waitForApi('/v1/images');
+    await page.setInputFiles('#uploadFile', {
+      name: 'MR_small.dcm',
+      mimeType: 'application/dicom',
+      buffer: debianFile('pydicom', 'MR_small.dcm'),
+    });
+    expect((await uploaded).status()).toBe(201);
+    await page.waitForFunction(() =>
+      document.querySelector('#uploadInfo')?.textContent?.startsWith('Uploaded'),
+    );
+    expect([await page.inputValue('#nx'), await page.inputValue('#ny')]).toEqual(['64', '64']);
+    // The old fixed default (ACS 16 at R 4) is refused by the service at 64 rows: round(64/4) = 16
+    // lines cannot hold 16 ACS lines and one drawn at random (sampling/cartesian-lines.ts).
+    const refused = await fetch(`${baseUrl}/v1/masks`, {
+      method: 'POST',
+      headers: { 'content-type': 'application/json', accept: 'application/json' },
+      body: JSON.stringify({
+        matrix: { nx: 64, ny: 64 },
+        sampling: { pattern: 'cartesian-random', acceleration: 4, acs: 16, density: { power: 2 }, seed: 7 },
+      }),
+    });
+    expect(refused.status).toBe(422);
+    // The page proposes half the round(64/4) = 16 lines instead, and says so.
+    expect(await page.inputValue('#acceleration')).toBe('4');
+    expect(await page.inputValue('#acs')).toBe('8');
+    expect(await page.locator('#acsHint').textContent()).toContain('ACS set to 8 for 64 rows at R 4');
+
+    await page.selectOption('#method', 'cs-tv');
+    const reconResponse = waitForApi('/v1/reconstructions');
+    await page.click('#reconButton');
+    const response = await reconResponse;
+    expect(response.status()).toBe(201);
+    const sent = response.request().postDataJSON();
+    expect(sent.sampling.acs).toBe(8);
+    expect(sent.source).toHaveProperty('imageId');
+    expect(sent.method).toEqual({ name: 'cs-tv' }); // no iteration count: the service's default applies
+    const outcome = (await response.json()) as {
+      info: { iterations: number; iterationLimit: number; converged: boolean };
+    };
+    await page.waitForFunction(() => !(document.querySelector('#reconButton') as HTMLButtonElement).disabled);
+    expect(await page.locator('#singleStatus').textContent()).toContain('done');
+    // Iterations run and convergence as the service reports them in `info`.
+    expect(typeof outcome.info.iterations).toBe('number');
+    const iterations = await shown('[data-key="recon.iterations"]');
+    expect(iterations.value).toBe(outcome.info.iterations);
+    expect(iterations.text).toBe(`${outcome.info.iterations} of ${outcome.info.iterationLimit}`);
+    expect(await page.getAttribute('[data-key="recon.converged"]', 'data-value')).toBe(
+      String(outcome.info.converged),
+    );
+    expect(await page.locator('[data-key="recon.converged"]').textContent()).toMatch(
+      outcome.info.converged ? /^yes/ : /^no/,
+    );
+    // A count typed in is sent.
+    await page.fill('#iterations', '15');
+    const again = waitForApi('/v1/reconstructions');
+    await page.click('#reconButton');
+    expect((await again).request().postDataJSON().method).toEqual({ name: 'cs-tv', iterations: 15 });
+    await page.waitForFunction(() => !(document.querySelector('#reconButton') as HTMLButtonElement).disabled);
+    expect((await shown('[data-key="recon.iterations"]')).text).toMatch(/ of 15$/);
+    await page.check('input[name="sourceKind"][value="phantom"]');
+  });
+
   it('makes a mask and shows the service’s numbers', async () => {
     await page.fill('#nx', '32');
     await page.fill('#ny', '32');
@@ -360,6 +462,141 @@ describe('planner page in Chromium', () => {
     await expectShownEquals('[data-key="time.saved"]', (100 * (full.seconds - under.seconds)) / full.seconds);
   });
 
+  it('enlarges images, zooms the four together and keeps the error map on a fixed colour scale', async () => {
+    await page.selectOption('#errorScaleMax', '0.05');
+    const reconResponse = waitForApi('/v1/reconstructions');
+    await page.click('#reconButton');
+    const outcome = (await (await reconResponse).json()) as { images: Record<string, string> };
+    await page.waitForFunction(() => !(document.querySelector('#reconButton') as HTMLButtonElement).disabled);
+
+    // Room for the images at 1280×800: each result tile is at least 190 px wide (it was 138 px).
+    const tile = await page.locator('#imgReconstruction').boundingBox();
+    expect(tile!.width).toBeGreaterThanOrEqual(190);
+
+    // The error map, formed from the service's reconstruction and reference PNGs (same grey scale,
+    // white = the reference maximum), independently here with sharp: | recon − reference | / 255.
+    const levels = async (url: string) =>
+      sharp(Buffer.from(await (await api(url)).arrayBuffer()))
+        .extractChannel(0)
+        .raw()
+        .toBuffer();
+    const [recon, reference] = await Promise.all([
+      levels(outcome.images.reconstruction),
+      levels(outcome.images.reference),
+    ]);
+    const diff = Array.from(recon, (v, i) => Math.abs(v - reference[i]));
+    const maxLevel = Math.max(...diff);
+    expect(Number(await page.getAttribute('#errorScale', 'data-max-error'))).toBe(maxLevel / 255);
+    expect(await page.getAttribute('#errorScale', 'data-scale-max')).toBe('0.05');
+    expect(await page.locator('#errorScaleNote').textContent()).toContain(
+      `Largest error in this image ${(maxLevel / 255).toFixed(3)} × the reference maximum`,
+    );
+    // The colour bar states its numeric range.
+    const ticks = await page.$$eval('#errorColourTicks span', (spans) => spans.map((s) => s.textContent));
+    expect(ticks).toEqual(['0', '0.0125', '0.025', '0.0375', '≥ 0.05']);
+    expect(await inkedPixels('#errorColourBar')).toBeGreaterThan(1000);
+    // Pixels without error take viridis(0) = (68, 1, 84), pixels at or above the scale's end take
+    // viridis(1) = (253, 231, 37): the end colours of matplotlib's viridis (Debian python3-matplotlib).
+    const shownMap = await page.$eval('#imgErrorMap', (img) => {
+      const el = img as HTMLImageElement;
+      const canvas = document.createElement('canvas');
+      canvas.width = el.naturalWidth;
+      canvas.height = el.naturalHeight;
+      const ctx = canvas.getContext('2d')!;
+      ctx.drawImage(el, 0, 0);
+      return Array.from(ctx.getImageData(0, 0, canvas.width, canvas.height).data);
+    });
+    expect(shownMap.length).toBe(4 * diff.length);
+    let zeros = 0;
+    let saturated = 0;
+    const wrong: number[] = [];
+    diff.forEach((d, i) => {
+      const rgb = shownMap.slice(4 * i, 4 * i + 3);
+      if (d === 0) {
+        zeros++;
+        if (rgb.join() !== '68,1,84') wrong.push(i);
+      } else if (d / 255 >= 0.05) {
+        saturated++;
+        if (rgb.join() !== '253,231,37') wrong.push(i);
+      }
+    });
+    expect(wrong).toEqual([]);
+    expect(zeros).toBeGreaterThan(0);
+    expect(saturated).toBeGreaterThan(0);
+
+    // Zoom and pan: one transform for the four result images.
+    const transforms = () =>
+      page.$$eval('#resultFigures img', (imgs) => imgs.map((img) => (img as HTMLElement).style.transform));
+    const box = (await page.locator('#imgReconstruction').boundingBox())!;
+    await page.mouse.move(box.x + box.width * 0.3, box.y + box.height * 0.4);
+    await page.mouse.wheel(0, -500);
+    await page.waitForFunction(
+      () => Number(document.querySelector('#zoomLevel')?.getAttribute('data-value')) > 1,
+    );
+    const zoomed = await transforms();
+    expect(zoomed).toHaveLength(4);
+    expect(zoomed[0]).toMatch(/scale\(/);
+    expect(new Set(zoomed).size).toBe(1);
+    // Drag on the error map: all four move.
+    const errorBox = (await page.locator('#imgErrorMap').boundingBox())!;
+    await page.mouse.move(errorBox.x + 100, errorBox.y + 100);
+    await page.mouse.down();
+    await page.mouse.move(errorBox.x + 130, errorBox.y + 120, { steps: 4 });
+    await page.mouse.up();
+    const panned = await transforms();
+    expect(new Set(panned).size).toBe(1);
+    expect(panned[0]).not.toBe(zoomed[0]);
+    await page.screenshot({ path: join(artifacts, 'planner-zoomed-1280x800.png') });
+
+    // A click (no drag) enlarges the image in a dialog that follows the same zoom.
+    const zeroBox = (await page.locator('#imgZeroFilled').boundingBox())!;
+    await page.mouse.click(zeroBox.x + zeroBox.width / 2, zeroBox.y + zeroBox.height / 2);
+    await page.waitForSelector('#imageDialog[open]');
+    expect(await page.getAttribute('#imageDialog', 'data-source')).toBe('imgZeroFilled');
+    const large = (await page.locator('#imageDialogImg').boundingBox())!;
+    expect(large.width).toBeGreaterThanOrEqual(2 * tile!.width);
+    expect(await page.$eval('#imageDialogImg', (img) => (img as HTMLElement).style.transform)).toBe(
+      panned[0],
+    );
+    await page.screenshot({ path: join(artifacts, 'planner-image-dialog-1280x800.png') });
+    await page.keyboard.press('Escape');
+    await page.waitForSelector('#imageDialog:not([open])', { state: 'attached' });
+    await page.click('#zoomReset');
+    expect(new Set(await transforms())).toEqual(new Set(['']));
+  });
+
+  it('clears earlier images and numbers when a request fails', async () => {
+    const errorsBefore = pageErrors.length;
+    expect(await page.isVisible('#imgReconstruction')).toBe(true);
+    await page.fill('#acceleration', '0.5');
+    const refused = waitForApi('/v1/reconstructions');
+    await page.click('#reconButton');
+    expect((await refused).status()).toBe(422);
+    await page.waitForFunction(() => !(document.querySelector('#reconButton') as HTMLButtonElement).disabled);
+    expect(await page.locator('#singleProblems').textContent()).toContain('sampling.acceleration');
+    const visibleImages = await page.$$eval('#single img', (imgs) =>
+      imgs.filter((img) => !(img as HTMLImageElement).hidden).map((img) => img.id),
+    );
+    expect(visibleImages).toEqual([]);
+    const leftNumbers = await page.$$eval('#single [data-key]', (cells) =>
+      cells
+        .filter((c) => c.hasAttribute('data-value') || c.textContent !== '–')
+        .map((c) => c.getAttribute('data-key')),
+    );
+    expect(leftNumbers).toEqual([]);
+    expect(await page.isVisible('#errorScale')).toBe(false);
+    expect(await page.locator('#psfProfile canvas').count()).toBe(0);
+    await page.screenshot({ path: join(artifacts, 'planner-after-error-1280x800.png') });
+    // The browser logs the refused requests; they are the point of this check, not page errors.
+    const logged = pageErrors.splice(errorsBefore);
+    expect(logged.every((line) => /status of 4\d\d/.test(line))).toBe(true);
+    // The scale chosen stays for the next run, so two runs compare on the same colours.
+    await page.fill('#acceleration', '2');
+    await page.click('#reconButton');
+    await page.waitForSelector('#errorScale:not([hidden])');
+    expect(await page.getAttribute('#errorScale', 'data-scale-max')).toBe('0.05');
+  });
+
   it('runs a small plan to completion and draws the tradeoff plot and table', async () => {
     await page.fill('#planAccelerations', '2, 4');
     await page.fill('#planSeeds', '1');
@@ -471,6 +708,206 @@ describe('planner page in Chromium', () => {
     expect(csvFromPage).toBe(csvFromApi);
 
     await page.screenshot({ path: join(artifacts, 'planner-after-plan-1280x800.png'), fullPage: true });
+  });
+
+  it('plots every row of a 2D Poisson-disc plan, shows its notes and the key columns without scrolling', async () => {
+    await page.fill('#nx', '32');
+    await page.fill('#ny', '32');
+    await page.fill('#iterations', '10');
+    await page.selectOption('#preset', '0'); // 2D draft A
+    await page.fill('#partialFourier', '0.75');
+    await page.fill('#planAccelerations', '2, 4');
+    await page.fill('#planSeeds', '1');
+    for (const box of await page.$$('input[name="planPattern"]')) await box.setChecked(false);
+    await page.check('input[name="planPattern"][value="cartesian-random"]');
+    await page.check('input[name="planPattern"][value="poisson-disc"]');
+    for (const box of await page.$$('input[name="planMethod"]')) await box.setChecked(false);
+    await page.check('input[name="planMethod"][value="zero-filled"]');
+    await page.check('input[name="planMethod"][value="cs-tv"]');
+    await page.selectOption('#targetMetric', 'ssim');
+    await page.fill('#targetValue', '0.5');
+    const accepted = waitForApi('/v1/plans');
+    await page.click('#planButton');
+    const { id } = (await (await accepted).json()) as { id: string };
+    await page.waitForFunction(
+      () => !(document.querySelector('#planButton') as HTMLButtonElement).disabled,
+      undefined,
+      {
+        timeout: 45_000,
+      },
+    );
+    expect(await page.locator('#planStatus').textContent()).toContain('done');
+    const plan = (await (await api(`/v1/plans/${id}`)).json()) as {
+      table: {
+        rows: Array<{
+          key: string;
+          pattern: string;
+          reference: boolean;
+          pareto: boolean;
+          scanSeconds: number;
+        }>;
+        notes: string[];
+        recommendation: { overall: { key: string } | null };
+      };
+    };
+    const rows = plan.table.rows;
+    expect(rows.length).toBe(1 + 2 * 2 * 2);
+    // In 2D every Poisson-disc row costs (nearly) every line: rows share scan times, which the old
+    // plot (one value per scan time) collapsed.
+    const times = rows.map((r) => r.scanSeconds);
+    expect(new Set(times).size).toBeLessThan(times.length);
+
+    // One drawn point per table row (SSIM is finite for every row, the reference's is 1).
+    type Point = { row: string; x: number; y: number; pareto: string; recommended: string };
+    const points: Point[] = await page.$$eval('#plotPoints li', (items) =>
+      items.map((li) => {
+        const d = (li as HTMLElement).dataset;
+        return {
+          row: d.row ?? '',
+          x: Number(d.canvasX),
+          y: Number(d.canvasY),
+          pareto: d.paretoMarker ?? '',
+          recommended: d.recommendedMarker ?? '',
+        };
+      }),
+    );
+    expect(points.map((p) => p.row).sort()).toEqual(rows.map((r) => r.key).sort());
+    expect(await page.locator('#planTable tbody tr[data-row]').count()).toBe(points.length);
+    expect(await page.locator('#plotPointsSummary').textContent()).toBe(
+      `Plotted points: ${rows.length} of ${rows.length} table rows`,
+    );
+    // Each point is drawn: the canvas has ink at its position.
+    const inkAt = await page.$eval(
+      '#tradeoffPlot canvas',
+      (canvas, spots) => {
+        const ctx = (canvas as HTMLCanvasElement).getContext('2d')!;
+        return spots.map(({ x, y }) => {
+          const [r, g, b, a] = ctx.getImageData(x, y, 1, 1).data;
+          return a > 0 && (r < 200 || g < 200 || b < 200);
+        });
+      },
+      points.map(({ x, y }) => ({ x, y })),
+    );
+    await page.screenshot({ path: join(artifacts, 'planner-2d-poisson-plan-1280x800.png'), fullPage: true });
+    expect(
+      points.filter((_, i) => !inkAt[i]),
+      'points without ink',
+    ).toEqual([]);
+    // Pareto and recommended markers sit on the service's rows.
+    const byKey = new Map(rows.map((r) => [r.key, r]));
+    for (const p of points) {
+      const row = byKey.get(p.row)!;
+      expect(p.pareto, `${p.row} pareto`).toBe(String(row.pareto && !row.reference));
+      expect(p.recommended, `${p.row} recommended`).toBe(
+        String(p.row === plan.table.recommendation.overall?.key),
+      );
+    }
+    // Hover describes the row under the pointer.
+    await page.locator('#tradeoffPlot').scrollIntoViewIfNeeded();
+    const canvasBox = (await page.locator('#tradeoffPlot canvas').boundingBox())!;
+    const ratio = await page.evaluate(() => devicePixelRatio);
+    const target =
+      points.find((p) => points.filter((q) => Math.hypot(q.x - p.x, q.y - p.y) < 30 * ratio).length === 1) ??
+      points[0];
+    await page.mouse.move(canvasBox.x + target.x / ratio, canvasBox.y + target.y / ratio);
+    await page.waitForSelector('#tradeoffPlot .plot-tooltip:not([hidden])');
+    expect(await page.getAttribute('#tradeoffPlot .plot-tooltip', 'data-row')).toBe(target.row);
+    expect(await page.locator('#tradeoffPlot .plot-tooltip').textContent()).toContain(
+      byKey.get(target.row)!.pattern,
+    );
+    await page.screenshot({ path: join(artifacts, 'planner-2d-poisson-plot-hover-1280x800.png') });
+    await page.mouse.move(0, 0);
+    // On PSNR the fully sampled row is +∞ (an exact reconstruction): listed as off the axis, not lost.
+    const psnrNull = rows.filter(
+      (r) => (r as unknown as { metrics: { psnr: { mean: number | null } } }).metrics.psnr.mean === null,
+    );
+    expect(psnrNull.map((r) => r.key)).toContain('reference');
+    await page.selectOption('#plotMetric', 'psnr');
+    expect(await page.locator('#plotPoints li').count()).toBe(rows.length - psnrNull.length);
+    expect(await page.locator('#plotPointsSummary').textContent()).toBe(
+      `Plotted points: ${rows.length - psnrNull.length} of ${rows.length} table rows`,
+    );
+    expect(await page.locator('#plotOffAxis').textContent()).toContain('fully sampled');
+    await page.selectOption('#plotMetric', 'ssim');
+
+    // The service's notes, word for word, visible without a click.
+    const notes = await page.$$eval('#planNotes li', (items) => items.map((li) => li.textContent));
+    expect(notes).toEqual(plan.table.notes);
+    expect(await page.isVisible('#planNotes')).toBe(true);
+    expect(notes.some((n) => /point mask \(e\.g\. poisson-disc\) in a 2D protocol/.test(n ?? ''))).toBe(true);
+    expect(notes.some((n) => /^Partial Fourier 0\.75: .*does not model partial Fourier/.test(n ?? ''))).toBe(
+      true,
+    );
+
+    // At 1280 px the target metric, Pareto and meets-target columns show without sideways scrolling.
+    const wrap = await page.$eval('.table-wrap', (el) => ({
+      scroll: el.scrollWidth,
+      client: el.clientWidth,
+      right: el.getBoundingClientRect().right,
+    }));
+    expect(wrap.scroll).toBeLessThanOrEqual(wrap.client);
+    const headers = await page.$$eval('#planTable thead th', (ths) =>
+      ths.map((th) => ({
+        text: th.textContent,
+        visible: (th as HTMLElement).offsetParent !== null,
+        right: th.getBoundingClientRect().right,
+      })),
+    );
+    for (const name of ['SSIM mean ± sd', 'Pareto', 'Meets target']) {
+      const header = headers.find((h) => h.text === name);
+      expect(header?.visible, name).toBe(true);
+      expect(header!.right).toBeLessThanOrEqual(wrap.right);
+    }
+    expect(await page.getAttribute('#planTable th.target', 'data-metric')).toBe('ssim');
+    await page.screenshot({ path: join(artifacts, 'planner-2d-poisson-plan-1280x800.png'), fullPage: true });
+    // "All columns" shows the secondary ones; the key columns stay in view.
+    await page.check('#allColumns');
+    const all = await page.$$eval('#planTable thead th', (ths) =>
+      ths.filter((th) => (th as HTMLElement).offsetParent !== null).map((th) => th.textContent),
+    );
+    expect(all).toContain('HFEN mean ± sd');
+    expect(all).toContain('Recon (ms)');
+    const pareto = await page.locator('#planTable thead th', { hasText: 'Meets target' }).boundingBox();
+    expect(pareto!.x + pareto!.width).toBeLessThanOrEqual(wrap.right);
+    await page.uncheck('#allColumns');
+    await page.selectOption('#preset', '0');
+  });
+
+  it('labels the 3D phase-encode plane and sends what the service accepts', async () => {
+    await page.selectOption('#preset', '2'); // 3D draft C
+    expect(await page.inputValue('#dimensions')).toBe('3d');
+    expect(await page.locator('label[for="nx"] span:not([hidden])').textContent()).toContain('Partitions');
+    expect(await page.locator('label[for="ny"] span:not([hidden])').textContent()).toContain('Phase encode');
+    expect(await page.locator('#maskAxes span:not([hidden])').textContent()).toContain('z across');
+    expect(await page.isVisible('#slices')).toBe(false);
+    await page.fill('#nx', '40');
+    await page.fill('#ny', '32');
+    expect(await page.locator('#partitions').textContent()).toBe('40 (= nx), one slab');
+    const scanTime = page.waitForResponse(
+      (r) =>
+        new URL(r.url()).pathname === '/v1/scan-time' && r.request().postDataJSON().sampling === undefined,
+    );
+    await page.click('#maskButton');
+    const response = await scanTime;
+    expect(response.status()).toBe(200);
+    const sent = response.request().postDataJSON();
+    // protocol schema: slices must be 1 in 3D, the partitions are the matrix's nx.
+    expect(sent.protocol.dimensions).toBe('3d');
+    expect(sent.protocol.slices).toBe(1);
+    await page.waitForFunction(() => !(document.querySelector('#maskButton') as HTMLButtonElement).disabled);
+    const full = (await response.json()) as { seconds: number };
+    await expectShownEquals('[data-key="time.full"]', full.seconds);
+    // 3D counts every point of the ky×kz plane: 32 × 40 × TR 12 ms × 1 average, ETL 1, partial
+    // Fourier 0.75 keeps ⌈0.75·32⌉ = 24 rows (DEVELOPERS.md "Scan time and plans").
+    expect(full.seconds).toBeCloseTo((24 * 40 * 12) / 1000, 9);
+    // The earlier reconstruction (another matrix) no longer matches this mask: it is cleared.
+    expect(await page.isVisible('#imgReconstruction')).toBe(false);
+    expect(await page.locator('[data-key="recon.nrmse"]').textContent()).toBe('–');
+    expect(await page.$eval('#imgMask', (img) => (img as HTMLImageElement).naturalWidth)).toBe(40);
+    await page.screenshot({ path: join(artifacts, 'planner-3d-setup-1280x800.png') });
+    await page.selectOption('#preset', '0');
+    expect(await page.locator('label[for="nx"] span:not([hidden])').textContent()).toContain('Readout');
+    expect(await page.isVisible('#slices')).toBe(true);
   });
 
   it('stays usable at 420 px wide', async () => {
