@@ -42,8 +42,9 @@ const handlers: { [K in TaskKind]: (input: TaskInput<K>) => Promise<TaskOutput<K
   },
   async 'validate-plan'({ plan, limits }) {
     // Draws every pattern × R mask once: at large matrices that is real work, so not on the event loop.
-    const { validatePlan } = await import('../plan/index.ts');
-    return validatePlan(plan, { limits, checkMasks: true });
+    // The plan was parsed once at the edge (route or runPlan); here only what needs a computation.
+    const { checkPlan } = await import('../plan/index.ts');
+    return checkPlan(plan, { limits, checkMasks: true });
   },
   async cell({ plan, cell, image, limits }) {
     const { runCell } = await import('../plan/index.ts');

@@ -42,4 +42,4 @@ export { type Plan, type PlanInput, planPatternSchema, planSchema, planSchemaFor
 export { type Summary, summarize } from './statistics.ts';
 export { csvColumns, csvField, tableToCsv } from './table-csv.ts';
 export { type Target, targetBound, targetSchema } from './target-schema.ts';
-export { type ValidatePlanOptions, validatePlan } from './validate-plan.ts';
+export { checkPlan, type ValidatePlanOptions, validatePlan } from './validate-plan.ts';
