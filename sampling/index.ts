@@ -7,7 +7,12 @@ export { DEFAULT_POISSON_POWER, poissonRadiusProfile } from './poisson-disc.ts';
 export { GOLDEN_ANGLE, GOLDEN_RATIO, nyquistSpokes, spokeAngles } from './radial.ts';
 export { countSampled, type SampledMask } from './sampled-mask.ts';
 export {
+  cartesianRandomSchema,
+  cartesianUniformSchema,
+  customSchema,
   parseSampling,
+  poissonDiscSchema,
+  radialSchema,
   SAMPLING_PATTERNS,
   type SamplingPattern,
   type SamplingSpec,

@@ -1,3 +1,4 @@
+// fft.js indexes its buffers only, so Float64Array works; its declarations take `any` for them.
 import FFT from 'fft.js';
 
 /**
@@ -25,7 +26,7 @@ function radixPlan(size: number): FftPlan {
   return {
     size,
     forward(output, input) {
-      fft.transform(output as unknown as number[], input as unknown as number[]);
+      fft.transform(output, input);
     },
   };
 }
@@ -74,7 +75,7 @@ function bluesteinPlan(size: number): FftPlan {
     }
   }
   const bHat = new Float64Array(2 * m);
-  inner.transform(bHat as unknown as number[], b as unknown as number[]);
+  inner.transform(bHat, b);
   const a = new Float64Array(2 * m);
   const aHat = new Float64Array(2 * m);
   const conv = new Float64Array(2 * m);
@@ -83,10 +84,10 @@ function bluesteinPlan(size: number): FftPlan {
     forward(output, input) {
       a.fill(0);
       multiplyComplex(a, input, chirp, size);
-      inner.transform(aHat as unknown as number[], a as unknown as number[]);
+      inner.transform(aHat, a);
       multiplyComplex(aHat, aHat, bHat, m);
       // fft.js's inverse includes the 1/M factor the convolution theorem needs.
-      inner.inverseTransform(conv as unknown as number[], aHat as unknown as number[]);
+      inner.inverseTransform(conv, aHat);
       multiplyComplex(output, conv, chirp, size);
     },
   };

@@ -1,4 +1,4 @@
-import type { FastifyError, FastifyInstance } from 'fastify';
+import type { FastifyError, FastifyInstance, FastifySchemaValidationError } from 'fastify';
 import { hasZodFastifySchemaValidationErrors } from 'fastify-type-provider-zod';
 import type { z } from 'zod';
 import { type FieldProblem, KnownError } from '../core/errors.ts';
@@ -21,12 +21,8 @@ const shapeIssueCodes = new Set([
   'invalid_union',
 ]);
 
-interface ValidationIssue {
-  keyword: string;
-  instancePath: string;
-  message: string;
-  params: Record<string, unknown>;
-}
+/** One issue as the zod type provider reports it (ajv's shape: keyword, instancePath, params). */
+type ValidationIssue = FastifySchemaValidationError;
 
 /** JSON-pointer path → the request's notation: keys dotted, array indices in brackets (`patterns[0].acs`). */
 function dottedPath(instancePath: string, context: string | undefined): string {
@@ -50,7 +46,7 @@ function zodIssueOf(issue: ValidationIssue): z.core.$ZodIssue {
 
 /** Maps the type provider's zod issues to field problems and picks 400 (shape) or 422 (values). */
 export function classifyValidation(
-  issues: ValidationIssue[],
+  issues: readonly ValidationIssue[],
   context: string | undefined,
 ): { status: 400 | 422; errors: FieldProblem[]; limit: boolean } {
   let shape = false;
@@ -81,9 +77,9 @@ export function classifyValidation(
     }
     shape ||= isShape;
     const allowed = allowedText(zodIssueOf(issue));
-    errors.push(
-      allowed === undefined ? { field, message: issue.message } : { field, message: issue.message, allowed },
-    );
+    // zod gives every issue a message; the fallback only satisfies fastify's optional field.
+    const message = issue.message ?? 'invalid value';
+    errors.push(allowed === undefined ? { field, message } : { field, message, allowed });
   }
   return { status: shape ? 400 : 422, errors, limit };
 }
@@ -119,11 +115,8 @@ export function installErrorHandling(app: FastifyInstance): void {
       return sendProblem(reply, makeProblem(error.status, detail, errors, kind), headers);
     }
     if (hasZodFastifySchemaValidationErrors(error)) {
-      const context = (error as FastifyError).validationContext;
-      const { status, errors, limit } = classifyValidation(
-        error.validation as unknown as ValidationIssue[],
-        context,
-      );
+      const context = error.validationContext;
+      const { status, errors, limit } = classifyValidation(error.validation, context);
       if (limit) {
         const message = errors.map((p) => `${p.field}: ${p.message}`).join('; ');
         return sendProblem(reply, makeProblem(422, message, errors, limitProblemKind));

@@ -30,13 +30,13 @@ function transform(input: TransformInput) {
   if (url === '/' && methods.includes('GET')) {
     return { schema: { summary: 'The planner web page', tags: ['web'], response: pageResponse }, url };
   }
-  const result = jsonSchemaTransform(input as never) as { schema: Record<string, unknown>; url: string };
-  const extras = (route.config as { openapi?: OpenApiExtras } | undefined)?.openapi;
-  if (extras?.multipartBody) {
-    result.schema.body = extras.multipartBody;
-    result.schema.consumes = ['multipart/form-data'];
-  }
-  return result;
+  const result = jsonSchemaTransform(input);
+  const extras = route.config?.openapi;
+  if (!extras?.multipartBody) return result;
+  return {
+    schema: { ...result.schema, body: extras.multipartBody, consumes: ['multipart/form-data'] },
+    url: result.url,
+  };
 }
 
 export const swaggerOptions: FastifyDynamicSwaggerOptions = {

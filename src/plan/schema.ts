@@ -6,8 +6,13 @@ import { patternSpecs } from './pattern-specs.ts';
 import { planCellCount } from './plan-cells.ts';
 import { targetSchema } from './target-schema.ts';
 import {
+  cartesianRandomSchema,
+  cartesianUniformSchema,
+  customSchema,
   methodSchemaFor,
   noiseSchema,
+  poissonDiscSchema,
+  radialSchema,
   type SamplingSpec,
   samplingSchema,
   scoredMatrixSchemaFor,
@@ -18,25 +23,30 @@ type WithoutPlanKeys<T> = T extends unknown ? Omit<T, 'acceleration' | 'seed'> :
 /** A sampling spec as a plan lists it: no acceleration, no seed. */
 export type PlanPattern = WithoutPlanKeys<SamplingSpec>;
 
+const planKeys = { acceleration: true, seed: true } as const;
+
 /**
  * A pattern of a plan: one of the sampling piece's specs without `acceleration` (the plan's
  * `accelerations` set it) and without `seed` (repetition s of the plan uses seed s); unknown keys are
- * refused. A custom mask (`maskPng`) has its own acceleration and gives one row per method. Each
- * pattern × R is also checked against the sampling schema itself, reported under `patterns[i].…` or
- * `accelerations[j]`.
+ * refused (omit keeps the objects strict). A custom mask (`maskPng`) has its own acceleration and
+ * gives one row per method. Each pattern × R is also checked against the sampling schema itself,
+ * reported under `patterns[i].…` or `accelerations[j]`. Adding a sampling pattern: one line here.
  */
 export const planPatternSchema = z
-  .discriminatedUnion(
-    'pattern',
-    (samplingSchema.options as readonly z.ZodObject[]).map((option) => {
-      const omit: Record<string, true> = {};
-      for (const key of ['acceleration', 'seed']) if (key in option.shape) omit[key] = true;
-      return option.omit(omit).strict();
-    }) as unknown as [z.ZodObject, ...z.ZodObject[]],
-  )
-  .describe(
-    'A sampling spec without acceleration (from accelerations) and seed (from seeds)',
-  ) as unknown as z.ZodType<PlanPattern, PlanPattern>;
+  .discriminatedUnion('pattern', [
+    cartesianUniformSchema.omit(planKeys),
+    cartesianRandomSchema.omit(planKeys),
+    poissonDiscSchema.omit(planKeys),
+    radialSchema.omit(planKeys),
+    customSchema.omit({ seed: true }),
+  ])
+  .describe('A sampling spec without acceleration (from accelerations) and seed (from seeds)');
+
+type SameType<A, B> = [A] extends [B] ? ([B] extends [A] ? true : false) : false;
+type Holds<T extends true> = T;
+/** Compile-time check that the list above has every sampling pattern and nothing else. */
+// biome-ignore lint/correctness/noUnusedVariables: read by the compiler only, which fails on a mismatch
+type PlanPatternsMatchSampling = Holds<SameType<z.output<typeof planPatternSchema>, PlanPattern>>;
 
 const accelerationSchema = z.number().min(1).max(64);
 
@@ -112,7 +122,7 @@ function buildPlanSchema(limits: Limits) {
               code: 'custom',
               path,
               params: { allowed: allowedText(issue) },
-            } as never);
+            });
           }
         }
       });

@@ -5,7 +5,12 @@
  */
 export {
   acquiredUnitSchema,
+  cartesianRandomSchema,
+  cartesianUniformSchema,
+  customSchema,
   generateMask,
+  poissonDiscSchema,
+  radialSchema,
   type SampledMask,
   type SamplingSpec,
   samplingSchema,

@@ -83,13 +83,16 @@ const protocolParsed = z.strictObject({
   ...trailingFields,
 });
 
-type ParsedProtocol = z.output<typeof protocolParsed>;
-
 export const protocolSchema = protocolRequest
-  .transform(({ nex, averages, ...rest }) => ({ ...rest, averages: averages ?? nex ?? 1 }))
-  // zod types a pipe's target by its input, which has the defaults still open; the value here is
-  // complete, so the target is typed by its output.
-  .pipe(protocolParsed as unknown as z.ZodType<ParsedProtocol, ParsedProtocol>)
+  // zod wants the transform's type to be the pipe target's input type (defaults still optional);
+  // the complete value made here is one such input.
+  .transform(
+    ({ nex, averages, ...rest }): z.input<typeof protocolParsed> => ({
+      ...rest,
+      averages: averages ?? nex ?? 1,
+    }),
+  )
+  .pipe(protocolParsed)
   .describe('Scan-time parameters');
 
 export type Protocol = z.output<typeof protocolSchema>;

@@ -2,7 +2,7 @@ import { assertMatrixSize } from '../core/complex-image.ts';
 import { ValidationError } from '../core/errors.ts';
 import { defaultLimits } from '../core/limits.ts';
 import type { ReconInput, ReconOptions, ReconOutput } from './method.ts';
-import { type MethodSpec, reconMethods } from './registry.ts';
+import { type MethodSpec, reconMethods, runMethod } from './registry.ts';
 
 export type { ReconInput, ReconMethod, ReconOptions, ReconOutput } from './method.ts';
 export { type MethodName, type MethodSpec, methodSchema, methodSchemaFor, reconMethods } from './registry.ts';
@@ -16,8 +16,7 @@ export { zeroFilledImage } from './zero-filled.ts';
 export function reconstruct(input: ReconInput, method: MethodSpec, options: ReconOptions = {}): ReconOutput {
   const limits = options.limits ?? defaultLimits;
   const name = (method as { name?: unknown } | undefined)?.name;
-  const entry = typeof name === 'string' ? reconMethods.get(name) : undefined;
-  if (!entry) {
+  if (typeof name !== 'string' || !reconMethods.has(name)) {
     throw new ValidationError({
       field: 'method.name',
       message: `unknown method ${JSON.stringify(name)}`,
@@ -35,5 +34,5 @@ export function reconstruct(input: ReconInput, method: MethodSpec, options: Reco
       allowed: `mask length ${n}, k-space length ${2 * n}`,
     });
   }
-  return entry.run(input, method, { signal: options.signal, limits });
+  return runMethod(input, method, { signal: options.signal, limits });
 }

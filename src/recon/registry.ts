@@ -3,17 +3,40 @@ import type { Limits } from '../core/limits.ts';
 import { withinLimit } from '../core/zod-problems.ts';
 import { csTv, csTvSchema } from './cs-tv.ts';
 import { lowrankHankel, lowrankHankelSchema } from './lowrank-hankel.ts';
-import type { ReconMethod } from './method.ts';
+import type { ReconInput, ReconMethod, ReconOutput } from './method.ts';
 import { zeroFilled, zeroFilledSchema } from './zero-filled.ts';
-
-/** Every reconstruction method by name. Adding a method: its file, then one entry here and in methodSchema. */
-export const reconMethods: ReadonlyMap<string, ReconMethod<{ name: string }>> = new Map(
-  [zeroFilled, csTv, lowrankHankel].map((m) => [m.name, m as unknown as ReconMethod<{ name: string }>]),
-);
 
 export const methodSchema = z.discriminatedUnion('name', [zeroFilledSchema, csTvSchema, lowrankHankelSchema]);
 export type MethodSpec = z.infer<typeof methodSchema>;
 export type MethodName = MethodSpec['name'];
+
+/** Each method's spec by its name, from the schema's inferred union. */
+type SpecByName = { [S in MethodSpec as S['name']]: S };
+
+/**
+ * Every reconstruction method by name, each typed with its own spec (the key must equal the
+ * method's name). Adding a method: its file, then one entry here and in methodSchema.
+ */
+const methodByName: { readonly [N in MethodName]: ReconMethod<SpecByName[N]> } = {
+  'zero-filled': zeroFilled,
+  'cs-tv': csTv,
+  'lowrank-hankel': lowrankHankel,
+};
+
+/** The registered methods by name, for lookups of a name not yet known to be valid. */
+export const reconMethods: ReadonlyMap<string, ReconMethod<MethodSpec>> = new Map(
+  Object.entries(methodByName),
+);
+
+/** Runs the method `spec` names, with `spec` typed as that method's own spec. */
+export function runMethod<N extends MethodName>(
+  input: ReconInput,
+  spec: SpecByName[N] & { name: N },
+  options: Parameters<ReconMethod['run']>[2],
+): ReconOutput {
+  const method: ReconMethod<SpecByName[N]> = methodByName[spec.name];
+  return method.run(input, spec, options);
+}
 
 const limitedSchemas = new Map<number, typeof methodSchema>();
 

@@ -1,4 +1,4 @@
-import h5wasm, { type Dataset, type File as Hdf5File } from 'h5wasm';
+import h5wasm, { type Dataset, type File as Hdf5File, type OutputData } from 'h5wasm';
 import { ValidationError } from '../../core/errors.ts';
 import { hasHdf5Signature } from './hdf5-signature.ts';
 
@@ -118,6 +118,15 @@ function readXml(dataset: Dataset, group: string): string {
   return text;
 }
 
+/** Records `from`…`to` − 1 of a compound dataset, each as the list of its member values. */
+function recordRows(dataset: Dataset, from: number, to: number, where: string): OutputData[][] {
+  const rows = dataset.slice([[from, to]]);
+  if (!Array.isArray(rows) || !rows.every((row): row is OutputData[] => Array.isArray(row))) {
+    refuse('file', `not an ISMRMRD file: ${where} records are not compound values`);
+  }
+  return rows;
+}
+
 /** Records read per call: keeps h5wasm's heap bounded while the running total is checked. */
 const RECORDS_PER_READ = 16;
 
@@ -178,10 +187,10 @@ function readRecords(dataset: Dataset, group: string, fileBytes: number): Acquis
     ];
     return { column: records[key], at: memberIndex(idxMembers, name, `${where}.head.idx`) };
   });
-  let rows: unknown[][] = [];
+  let rows: OutputData[][] = [];
   for (let r = 0; r < count; r++) {
     if (r % RECORDS_PER_READ === 0) {
-      rows = dataset.slice([[r, Math.min(count, r + RECORDS_PER_READ)]]) as unknown as unknown[][];
+      rows = recordRows(dataset, r, Math.min(count, r + RECORDS_PER_READ), where);
     }
     const row = rows[r % RECORDS_PER_READ];
     const head = row[headIndex] as unknown[];
