@@ -1,4 +1,3 @@
-import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { fft2c, ifft2c } from '../../src/core/centered-fft.ts';
 import { complexFromReal, createComplexImage } from '../../src/core/complex-image.ts';
@@ -16,24 +15,13 @@ import {
   randomPointMask,
   relativeError,
   sampledKspace,
+  type TvRofCase,
+  tvRofFixture,
 } from './helpers.ts';
 
-interface TvCase {
-  name: string;
-  nx: number;
-  ny: number;
-  weight: number;
-  inputScale: number;
-  input: number[];
-  output: number[];
-  objective: number;
-  selfConvergence: number;
-}
-const fixture = JSON.parse(
-  readFileSync(new URL('../reference/fixtures/tv-rof.json', import.meta.url), 'utf8'),
-) as { cases: TvCase[] };
+const fixture = tvRofFixture();
 
-function caseImage(c: TvCase): Float64Array {
+function caseImage(c: TvRofCase): Float64Array {
   return Float64Array.from(c.input, (v) => v * c.inputScale);
 }
 

@@ -1,4 +1,3 @@
-import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { generateMask } from '../../sampling/index.ts';
 import { acquire } from '../../src/acquisition/acquire.ts';
@@ -24,6 +23,7 @@ import {
   randomPointMask,
   relativeError,
   sampledKspace,
+  tvRofFixture,
 } from './helpers.ts';
 
 /** ½‖M F x − y‖² + λ‖Ψx‖₁ (+ λ_TV TV(x)) computed from scratch with the public transforms. */
@@ -222,18 +222,7 @@ describe('cs-wavelet with a full mask is ROF denoising when λ = 0 and λ_TV > 0
   // tests/reference/generate_tv_fixture.py; its weight is our absolute λ_TV (see cs-tv.test.ts).
   // Tolerance as there (3e-4; the fixture's own convergence error is ~1.2e-4); measured 1.8e-4 after
   // 5000 primal–dual iterations.
-  interface TvCase {
-    name: string;
-    nx: number;
-    ny: number;
-    weight: number;
-    inputScale: number;
-    input: number[];
-    output: number[];
-  }
-  const fixture = JSON.parse(
-    readFileSync(new URL('../reference/fixtures/tv-rof.json', import.meta.url), 'utf8'),
-  ) as { cases: TvCase[] };
+  const fixture = tvRofFixture();
   const c = fixture.cases[0];
   it(`matches denoise_tv_chambolle: ${c.name}`, () => {
     const f = Float64Array.from(c.input, (v) => v * c.inputScale);

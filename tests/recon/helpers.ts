@@ -1,3 +1,4 @@
+import { readFileSync } from 'node:fs';
 import { fft2c } from '../../src/core/centered-fft.ts';
 import { type ComplexImage, createComplexImage } from '../../src/core/complex-image.ts';
 import { SeededRandom } from '../../src/core/random.ts';
@@ -111,4 +112,24 @@ export function friSignal1d(): Float64Array {
     }
   }
   return x;
+}
+
+/** One case of the ROF (TV-denoising) fixture made by tests/reference/generate_tv_fixture.py. */
+export interface TvRofCase {
+  name: string;
+  nx: number;
+  ny: number;
+  weight: number;
+  inputScale: number;
+  input: number[];
+  output: number[];
+  objective: number;
+  selfConvergence: number;
+}
+
+/** skimage.restoration.denoise_tv_chambolle outputs (Debian python3-skimage), tests/reference/fixtures/tv-rof.json. */
+export function tvRofFixture(): { cases: TvRofCase[] } {
+  return JSON.parse(readFileSync(new URL('../reference/fixtures/tv-rof.json', import.meta.url), 'utf8')) as {
+    cases: TvRofCase[];
+  };
 }
