@@ -34,6 +34,17 @@ export async function testApp(options: AppOptions = {}): Promise<TestApp> {
   return { app, dataDir, logs, http: () => request(app.server), close: () => app.close() };
 }
 
+/** The smallest valid plan: 32×32 Shepp–Logan, one uniform pattern at R 2, zero-filled, one seed. */
+export const oneCellPlan = {
+  source: { phantom: 'shepp-logan' },
+  matrix: { nx: 32, ny: 32 },
+  protocol: { trMs: 500 },
+  patterns: [{ pattern: 'cartesian-uniform' }],
+  accelerations: [2],
+  methods: [{ name: 'zero-filled' }],
+  seeds: 1,
+};
+
 type OpenApiDocument = {
   paths: Record<
     string,

@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { postProblem, type TestApp, testApp } from './helpers.ts';
+import { oneCellPlan, postProblem, type TestApp, testApp } from './helpers.ts';
 
 // noise.snr has a documented range, 0.1 ≤ snr ≤ 1e6 (reasons in the schema description); outside it
 // a 422 (RFC 9110 §15.5.21) RFC 9457 problem names noise.snr. Before, 1e-300 gave 201 with every
@@ -33,22 +33,7 @@ describe('noise.snr range', () => {
   });
 
   it('the same range for plans', async () => {
-    await postProblem(
-      t,
-      '/v1/plans',
-      {
-        source: { phantom: 'shepp-logan' },
-        matrix: { nx: 32, ny: 32 },
-        protocol: { trMs: 500 },
-        patterns: [{ pattern: 'cartesian-uniform' }],
-        accelerations: [2],
-        methods: [{ name: 'zero-filled' }],
-        seeds: 1,
-        noise: { snr: 1e-300 },
-      },
-      422,
-      'noise.snr',
-    );
+    await postProblem(t, '/v1/plans', { ...oneCellPlan, noise: { snr: 1e-300 } }, 422, 'noise.snr');
   });
 
   it('the lower end, snr 0.1, is accepted and scored with finite metrics', async () => {
