@@ -10,3 +10,14 @@ export function caughtValidationError(fn: () => unknown): ValidationError {
   }
   throw new Error('expected a ValidationError');
 }
+
+/** The field the first problem of `fn`'s ValidationError names, or 'no error' when `fn` returns. */
+export function validationFieldOf(fn: () => unknown): string {
+  try {
+    fn();
+  } catch (error) {
+    if (error instanceof ValidationError) return error.problems[0].field;
+    throw error;
+  }
+  return 'no error';
+}
