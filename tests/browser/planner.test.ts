@@ -117,6 +117,23 @@ async function planEnded(timeout?: number): Promise<void> {
   );
 }
 
+/**
+ * Runs a plan of R 2 and 4, one seed, zero-filled and CS-TV over the given patterns with an SSIM
+ * target of 0.5, waits until it is done and returns its id.
+ */
+async function runPlanToDone(patterns: string[]): Promise<string> {
+  await page.fill('#planAccelerations', '2, 4');
+  await page.fill('#planSeeds', '1');
+  await tickOnly('planPattern', patterns);
+  await tickOnly('planMethod', ['zero-filled', 'cs-tv']);
+  await page.selectOption('#targetMetric', 'ssim');
+  await page.fill('#targetValue', '0.5');
+  const id = await submitPlan();
+  await planEnded(45_000);
+  expect(await page.locator('#planStatus').textContent()).toContain('done');
+  return id;
+}
+
 function waitForApi(path: string, method = 'POST', accept?: string): Promise<Response> {
   return page.waitForResponse((r) => {
     const request = r.request();
@@ -621,17 +638,8 @@ describe('planner page in Chromium', () => {
   });
 
   it('runs a small plan to completion and draws the tradeoff plot and table', async () => {
-    await page.fill('#planAccelerations', '2, 4');
-    await page.fill('#planSeeds', '1');
     await page.fill('#iterations', '10');
-    await tickOnly('planPattern', ['cartesian-random', 'cartesian-uniform']);
-    await tickOnly('planMethod', ['zero-filled', 'cs-tv']);
-    await page.selectOption('#targetMetric', 'ssim');
-    await page.fill('#targetValue', '0.5');
-
-    const id = await submitPlan();
-    await planEnded(45_000);
-    expect(await page.locator('#planStatus').textContent()).toContain('done');
+    const id = await runPlanToDone(['cartesian-random', 'cartesian-uniform']);
 
     // The progress bar was fed by the events stream and ends full.
     expect(requested.some((url) => url.endsWith(`/v1/plans/${id}/events`))).toBe(true);
@@ -726,15 +734,7 @@ describe('planner page in Chromium', () => {
     await page.fill('#iterations', '10');
     await page.selectOption('#preset', '0'); // 2D draft A
     await page.fill('#partialFourier', '0.75');
-    await page.fill('#planAccelerations', '2, 4');
-    await page.fill('#planSeeds', '1');
-    await tickOnly('planPattern', ['cartesian-random', 'poisson-disc']);
-    await tickOnly('planMethod', ['zero-filled', 'cs-tv']);
-    await page.selectOption('#targetMetric', 'ssim');
-    await page.fill('#targetValue', '0.5');
-    const id = await submitPlan();
-    await planEnded(45_000);
-    expect(await page.locator('#planStatus').textContent()).toContain('done');
+    const id = await runPlanToDone(['cartesian-random', 'poisson-disc']);
     const plan = (await (await api(`/v1/plans/${id}`)).json()) as {
       table: {
         rows: Array<{

@@ -9,6 +9,7 @@ import { solveCsTv } from '../../src/recon/cs-tv.ts';
 import { methodSchemaFor, reconstruct } from '../../src/recon/index.ts';
 import { totalVariation } from '../../src/recon/total-variation.ts';
 import {
+  blockObjectProblem,
   fullMask,
   maxAbsDifference,
   randomComplexImage,
@@ -157,10 +158,7 @@ describe('cs-tv solver', () => {
   it('reports iterations run and the final objective ½‖MFx − y‖² + λ TV(x); stops on the tolerance', () => {
     const nx = 32;
     const ny = 32;
-    const image = createComplexImage(nx, ny);
-    for (let i = 8; i < 24; i++) for (let j = 10; j < 22; j++) image.data[2 * (i * nx + j)] = 1;
-    const mask = randomPointMask(nx, ny, 0.4, 3);
-    const kspace = sampledKspace(image, mask);
+    const { image, mask, kspace } = blockObjectProblem();
     const out = reconstruct(
       { kspace, mask },
       { name: 'cs-tv', lambda: 0.01, iterations: 2000, tolerance: 1e-4 },

@@ -133,3 +133,15 @@ export function tvRofFixture(): { cases: TvRofCase[] } {
     cases: TvRofCase[];
   };
 }
+
+/**
+ * A piecewise-constant 32×32 object (a unit block, rows 8–23 × columns 10–21) seen through a random
+ * 40 % point mask (seed 3): the TV reconstructions' shared test problem.
+ */
+export function blockObjectProblem(): { image: ComplexImage; mask: Uint8Array; kspace: ComplexImage } {
+  const n = 32;
+  const image = createComplexImage(n, n);
+  for (let i = 8; i < 24; i++) for (let j = 10; j < 22; j++) image.data[2 * (i * n + j)] = 1;
+  const mask = randomPointMask(n, n, 0.4, 3);
+  return { image, mask, kspace: sampledKspace(image, mask) };
+}
