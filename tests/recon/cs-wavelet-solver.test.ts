@@ -20,6 +20,7 @@ import {
   blockObjectProblem,
   fullMask,
   maxAbsDifference,
+  poissonDiscAcquisition,
   randomComplexImage,
   randomPointMask,
   relativeError,
@@ -124,12 +125,7 @@ describe('cs-wavelet solver', () => {
     // plain FISTA's objective rises at 6 of the 300 steps (FISTA is not a descent method, Beck &
     // Teboulle 2009b); the monotone variant at none, and both end within 3.4e-8 relative.
     const n = 64;
-    const full = fullKspaceFromPhantom(getPhantom('shepp-logan'), n, n, 'analytic');
-    const sampled = generateMask(
-      { nx: n, ny: n },
-      { pattern: 'poisson-disc', acceleration: 4, acs: 8, seed: 2 },
-    );
-    const { kspace } = acquire(full, sampled.mask, undefined, 2);
+    const { kspace, sampled } = poissonDiscAcquisition('shepp-logan', n, 8, 2);
     const input = { kspace, mask: sampled.mask };
     const options: CsWaveletOptions = {
       lambda: 0.005,
