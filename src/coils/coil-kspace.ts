@@ -1,9 +1,6 @@
 import { createMultiCoilArray, type MultiCoilKspace } from '../encoding/index.ts';
-import { gridScale, type Phantom, ShapePhantom } from '../phantoms/index.ts';
+import { gridScale, kspaceOnAxesByRows, type Phantom, ShapePhantom } from '../phantoms/index.ts';
 import type { TrigPolynomialMaps } from './trig-fit.ts';
-
-/** Points per kspaceAt call for phantoms without a grid fast path. */
-const CHUNK_POINTS = 16384;
 
 /**
  * The exact k-space of each coil image S_c·f of an analytic phantom f whose sensitivities are the
@@ -80,20 +77,7 @@ export function analyticCoilKspace(
 /** K on the Cartesian product of two axes, interleaved (kyAxis.length × kxAxis.length). */
 function transformOnAxes(phantom: Phantom, kxAxis: Float64Array, kyAxis: Float64Array): Float64Array {
   if (phantom instanceof ShapePhantom) return phantom.kspaceOnAxes(kxAxis, kyAxis);
-  const nx = kxAxis.length;
-  const ny = kyAxis.length;
-  const out = new Float64Array(2 * nx * ny);
-  const rowsPerChunk = Math.max(1, Math.floor(CHUNK_POINTS / nx));
-  const kx = new Float64Array(rowsPerChunk * nx);
-  const ky = new Float64Array(rowsPerChunk * nx);
-  for (let v0 = 0; v0 < ny; v0 += rowsPerChunk) {
-    const rows = Math.min(rowsPerChunk, ny - v0);
-    for (let r = 0; r < rows; r++) {
-      kx.set(kxAxis, r * nx);
-      ky.fill(kyAxis[v0 + r], r * nx, (r + 1) * nx);
-    }
-    const count = rows * nx;
-    out.set(phantom.kspaceAt(kx.subarray(0, count), ky.subarray(0, count)), 2 * v0 * nx);
-  }
+  const out = new Float64Array(2 * kxAxis.length * kyAxis.length);
+  kspaceOnAxesByRows(phantom, kxAxis, kyAxis, (values, offset) => out.set(values, offset));
   return out;
 }

@@ -1,7 +1,7 @@
 import { type ComplexImage, createComplexImage } from '../core/complex-image.ts';
 import { Ellipse } from '../phantoms/ellipse.ts';
 import { gridKx, gridKy, gridScale, pixelX, pixelY } from '../phantoms/grid.ts';
-import { axisPhasors } from '../phantoms/shape.ts';
+import { addRowTimesColumn, axisPhasors } from '../phantoms/shape.ts';
 import { gaussianSigma, type Lesion } from './lesion.ts';
 
 /**
@@ -49,13 +49,7 @@ function addGaussianGridTransform(
     const rr = row[2 * v] * g;
     const ri = row[2 * v + 1] * g;
     if (rr === 0 && ri === 0) continue;
-    const base = 2 * v * nx;
-    for (let u = 0; u < nx; u++) {
-      const cr = col[2 * u];
-      const ci = col[2 * u + 1];
-      out[base + 2 * u] += cr * rr - ci * ri;
-      out[base + 2 * u + 1] += cr * ri + ci * rr;
-    }
+    addRowTimesColumn(out, 2 * v * nx, col, rr, ri);
   }
 }
 

@@ -23,6 +23,25 @@ export function phantomGridKspace(phantom: Phantom, nx: number, ny: number): Com
     for (let i = 0; i < data.length; i++) data[i] *= scale;
     return image;
   }
+  kspaceOnAxesByRows(phantom, kxAxis, kyAxis, (values, offset) => {
+    for (let i = 0; i < values.length; i++) image.data[offset + i] = values[i] * scale;
+  });
+  return image;
+}
+
+/**
+ * K on the Cartesian product of two axes (kyAxis.length rows × kxAxis.length), evaluated through
+ * kspaceAt in chunks of whole rows so that the point lists stay cache-sized; `take` receives each
+ * chunk's interleaved values and its offset into the interleaved ny×nx array.
+ */
+export function kspaceOnAxesByRows(
+  phantom: Phantom,
+  kxAxis: Float64Array,
+  kyAxis: Float64Array,
+  take: (values: Float64Array, offset: number) => void,
+): void {
+  const nx = kxAxis.length;
+  const ny = kyAxis.length;
   const rowsPerChunk = Math.max(1, Math.floor(CHUNK_POINTS / nx));
   const kx = new Float64Array(rowsPerChunk * nx);
   const ky = new Float64Array(rowsPerChunk * nx);
@@ -33,9 +52,6 @@ export function phantomGridKspace(phantom: Phantom, nx: number, ny: number): Com
       ky.fill(kyAxis[v0 + r], r * nx, (r + 1) * nx);
     }
     const count = rows * nx;
-    const values = phantom.kspaceAt(kx.subarray(0, count), ky.subarray(0, count));
-    const offset = 2 * v0 * nx;
-    for (let i = 0; i < 2 * count; i++) image.data[offset + i] = values[i] * scale;
+    take(phantom.kspaceAt(kx.subarray(0, count), ky.subarray(0, count)), 2 * v0 * nx);
   }
-  return image;
 }

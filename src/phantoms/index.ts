@@ -2,7 +2,7 @@ export { getPhantom, listPhantoms } from './catalog.ts';
 export { besselJ1, discTransform } from './disc-transform.ts';
 export { Ellipse, type EllipseParams } from './ellipse.ts';
 export { gridKx, gridKy, gridScale, pixelX, pixelY } from './grid.ts';
-export { phantomGridKspace } from './grid-kspace.ts';
+export { kspaceOnAxesByRows, phantomGridKspace } from './grid-kspace.ts';
 export { type Phantom, type PhantomInfo, ShapePhantom } from './phantom.ts';
 export { Rectangle, type RectangleParams, sinc } from './rectangle.ts';
 export { RESOLUTION_CONTRAST_LAYOUT, resolutionContrast } from './resolution-contrast.ts';

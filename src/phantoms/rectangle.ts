@@ -1,4 +1,4 @@
-import { axisPhasors, degreesCosSin, type Placement, type Shape } from './shape.ts';
+import { addRowTimesColumn, axisPhasors, degreesCosSin, type Placement, type Shape } from './shape.ts';
 import { checkFinite } from './validate.ts';
 
 /** Rectangle of full widths wx (along x before rotation) and wy, rotated by θ about its centre. */
@@ -119,13 +119,7 @@ export class Rectangle implements Shape {
       const rr = row[2 * v] * f;
       const ri = row[2 * v + 1] * f;
       if (rr === 0 && ri === 0) continue;
-      const base = 2 * v * nx;
-      for (let u = 0; u < nx; u++) {
-        const cr = col[2 * u];
-        const ci = col[2 * u + 1];
-        out[base + 2 * u] += cr * rr - ci * ri;
-        out[base + 2 * u + 1] += cr * ri + ci * rr;
-      }
+      addRowTimesColumn(out, 2 * v * nx, col, rr, ri);
     }
   }
 }

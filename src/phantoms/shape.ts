@@ -65,3 +65,22 @@ export function axisPhasors(k: Float64Array, x0: number): Float64Array {
   }
   return out;
 }
+
+/**
+ * Adds one grid row of a separable transform: out[base + 2u…] += col[u] · (rr + i·ri) for every u of
+ * the interleaved column factor `col` (a row factor of zero is skipped by the callers).
+ */
+export function addRowTimesColumn(
+  out: Float64Array,
+  base: number,
+  col: Float64Array,
+  rr: number,
+  ri: number,
+): void {
+  for (let u = 0; 2 * u < col.length; u++) {
+    const cr = col[2 * u];
+    const ci = col[2 * u + 1];
+    out[base + 2 * u] += cr * rr - ci * ri;
+    out[base + 2 * u + 1] += cr * ri + ci * rr;
+  }
+}

@@ -3,7 +3,7 @@ import type { CellResult } from './cell-result.ts';
 import { jsonNumber } from './metric-direction.ts';
 import type { PlanCell } from './plan-cells.ts';
 import type { Plan } from './schema.ts';
-import { type PipelineContext, runReconstruction } from './upstream.ts';
+import { type PipelineContext, runReconstruction, type SampledMask } from './upstream.ts';
 
 /**
  * Runs one cell: simulated acquisition with the cell's seed (mask draw and noise draw),
@@ -21,24 +21,8 @@ export async function runCell(plan: Plan, cell: PlanCell, ctx?: PipelineContext)
     cell.seed,
     ctx,
   );
-  const time = scanTime(plan.matrix, plan.protocol, outcome.sampled);
   return {
-    index: cell.index,
-    reference: cell.reference,
-    patternIndex: cell.patternIndex,
-    accelerationIndex: cell.accelerationIndex,
-    methodIndex: cell.methodIndex,
-    seed: cell.seed,
-    requestedR: cell.acceleration,
-    actualR: outcome.acceleration.actual,
-    acquired: time.acquired,
-    acquiredUnit: time.unit,
-    scanSeconds: time.seconds,
-    mask: {
-      acquired: outcome.sampled.acquired.count,
-      unit: outcome.sampled.acquired.unit,
-      fraction: outcome.sampled.fraction,
-    },
+    ...cellScanColumns(plan, cell, outcome.sampled),
     metrics: {
       nrmse: jsonNumber(outcome.metrics.nrmse),
       psnr: jsonNumber(outcome.metrics.psnr),
@@ -47,5 +31,31 @@ export async function runCell(plan: Plan, cell: PlanCell, ctx?: PipelineContext)
     },
     reconMs: outcome.timing.reconMs,
     notes: [...outcome.notes],
+  };
+}
+
+/**
+ * The columns of a cell result that the cell and the mask drawn for it fix: which cell it is,
+ * the requested and actual acceleration, the scan time and what the mask acquired.
+ */
+export function cellScanColumns(
+  plan: Plan,
+  cell: PlanCell,
+  sampled: SampledMask,
+): Omit<CellResult, 'metrics' | 'reconMs' | 'notes'> {
+  const time = scanTime(plan.matrix, plan.protocol, sampled);
+  return {
+    index: cell.index,
+    reference: cell.reference,
+    patternIndex: cell.patternIndex,
+    accelerationIndex: cell.accelerationIndex,
+    methodIndex: cell.methodIndex,
+    seed: cell.seed,
+    requestedR: cell.acceleration,
+    actualR: sampled.acceleration.actual,
+    acquired: time.acquired,
+    acquiredUnit: time.unit,
+    scanSeconds: time.seconds,
+    mask: { acquired: sampled.acquired.count, unit: sampled.acquired.unit, fraction: sampled.fraction },
   };
 }

@@ -1,9 +1,9 @@
 import { readFileSync } from 'node:fs';
 import SwaggerParser from '@apidevtools/swagger-parser';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { parse } from 'yaml';
 import { generateOpenapiYaml, openapiPath } from '../../scripts/openapi-file.ts';
-import { loadSpec, type TestApp, testApp } from './helpers.ts';
+import { loadSpec, sharedTestApp } from './helpers.ts';
 
 const methods = ['get', 'post', 'put', 'patch', 'delete'];
 
@@ -13,11 +13,7 @@ function template(url: string): string {
 }
 
 describe('the OpenAPI 3.1 contract (openapi.yaml)', () => {
-  let t: TestApp;
-  beforeAll(async () => {
-    t = await testApp();
-  });
-  afterAll(async () => t.close());
+  const t = sharedTestApp();
 
   it('is a valid OpenAPI 3.1.0 document per @apidevtools/swagger-parser (docs/references.md §10.6)', async () => {
     const document = parse(readFileSync(openapiPath, 'utf8'));

@@ -1,9 +1,9 @@
 import { readFileSync } from 'node:fs';
 import { gunzipSync, gzipSync } from 'node:zlib';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { SeededRandom } from '../../src/core/random.ts';
 import { debianFile } from '../io/debian-files.ts';
-import { type TestApp, testApp } from './helpers.ts';
+import { sharedTestApp } from './helpers.ts';
 
 /**
  * Seeded corruption of real files: every damaged upload must end in a 2xx or a 4xx problem+json
@@ -72,11 +72,7 @@ function mutations(random: SeededRandom, count: number, gzip: boolean): Mutation
 }
 
 describe('seeded corrupt uploads (15 files × 14 mutations, seed 2026): no 5xx, every 4xx is problem+json', () => {
-  let t: TestApp;
-  beforeAll(async () => {
-    t = await testApp({ limits: { maxMatrixSide: 1024 } });
-  });
-  afterAll(async () => t.close());
+  const t = sharedTestApp({ limits: { maxMatrixSide: 1024 } });
 
   for (const [index, source] of sources.entries()) {
     it(`${source.name}`, async () => {

@@ -1,23 +1,15 @@
 import { readdirSync, statSync } from 'node:fs';
 import { join } from 'node:path';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { MAX_DETAIL_CHARS, MAX_ECHO_CHARS } from '../../src/core/echo-bound.ts';
-import { expectProblem, postProblem, type TestApp, testApp } from './helpers.ts';
+import { expectProblem, oneCellPlan, postProblem, sharedTestApp } from './helpers.ts';
 
 // Problem details (RFC 9457) echo request parts; they are bounded, and request strings have
 // maximum lengths. Before: a 7 MiB phantom name came back twice (14.7 MB) and, in a plan, grew the
 // data folder by 52 MB.
 
 const huge = 'x'.repeat(1024 * 1024);
-const plan = {
-  source: { phantom: 'shepp-logan' },
-  matrix: { nx: 32, ny: 32 },
-  protocol: { trMs: 500 },
-  patterns: [{ pattern: 'cartesian-uniform' }],
-  accelerations: [2],
-  methods: [{ name: 'zero-filled' }],
-  seeds: 1,
-};
+const plan = oneCellPlan;
 
 function folderBytes(dir: string): number {
   return readdirSync(dir).reduce((sum, name) => sum + statSync(join(dir, name)).size, 0);
@@ -33,11 +25,7 @@ function expectBounded(problem: ReturnType<typeof expectProblem>): void {
 }
 
 describe('bounded echoes and bounded request strings', () => {
-  let t: TestApp;
-  beforeAll(async () => {
-    t = await testApp({ maxJsonBytes: 4 * 1024 * 1024 });
-  });
-  afterAll(async () => t.close());
+  const t = sharedTestApp({ maxJsonBytes: 4 * 1024 * 1024 });
 
   it('a 1 MiB phantom name in a reconstruction: 422 naming source.phantom, a small answer', async () => {
     const res = await t

@@ -1,14 +1,10 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { expectDocumented, expectProblem, postProblem, type TestApp, testApp } from './helpers.ts';
+import { describe, expect, it } from 'vitest';
+import { expectDocumented, expectProblem, postProblem, sharedTestApp, testApp } from './helpers.ts';
 
 const scanTime = { matrix: { nx: 64, ny: 64 }, protocol: { trMs: 500 } };
 
 describe('RFC 9457 problem details for every class of bad input (docs/references.md §10.4)', () => {
-  let t: TestApp;
-  beforeAll(async () => {
-    t = await testApp({ maxJsonBytes: 4096, limits: { maxMatrixSide: 128 } });
-  });
-  afterAll(async () => t.close());
+  const t = sharedTestApp({ maxJsonBytes: 4096, limits: { maxMatrixSide: 128 } });
 
   it('400 malformed JSON', async () => {
     const res = await t
@@ -161,11 +157,7 @@ describe('RFC 9457 problem details for every class of bad input (docs/references
 });
 
 describe('API keys (HOST not loopback ⇒ every /v1 request needs a valid key)', () => {
-  let t: TestApp;
-  beforeAll(async () => {
-    t = await testApp({ apiKeys: ['k-one', 'k-two'] });
-  });
-  afterAll(async () => t.close());
+  const t = sharedTestApp({ apiKeys: ['k-one', 'k-two'] });
 
   it('401 problem without a key or with a wrong one; WWW-Authenticate set (RFC 9110 11.6.1)', async () => {
     const none = await t.http().post('/v1/scan-time').send(scanTime);

@@ -7,7 +7,7 @@ import { Ajv2020 } from 'ajv/dist/2020.js';
 import addFormats from 'ajv-formats';
 import type { FastifyInstance } from 'fastify';
 import request from 'supertest';
-import { expect } from 'vitest';
+import { afterAll, beforeAll, expect } from 'vitest';
 import { openapiPath } from '../../scripts/openapi-file.ts';
 import { type AppOptions, buildApp } from '../../src/app.ts';
 
@@ -33,6 +33,46 @@ export async function testApp(options: AppOptions = {}): Promise<TestApp> {
   const app = await buildApp({ workers: 1, logger: { level: 'info' }, logStream, ...options, dataDir });
   return { app, dataDir, logs, http: () => request(app.server), close: () => app.close() };
 }
+
+/**
+ * One test app for the enclosing describe block (or file): started in its beforeAll, closed in its
+ * afterAll. The returned handle reads the running app, so it is used only inside the tests.
+ */
+export function sharedTestApp(options: AppOptions = {}): TestApp {
+  let current: TestApp | undefined;
+  beforeAll(async () => {
+    current = await testApp(options);
+  });
+  afterAll(async () => current?.close());
+  const running = (): TestApp => {
+    if (current === undefined) throw new Error('the shared test app is used before its beforeAll ran');
+    return current;
+  };
+  return {
+    get app() {
+      return running().app;
+    },
+    get dataDir() {
+      return running().dataDir;
+    },
+    get logs() {
+      return running().logs;
+    },
+    http: () => running().http(),
+    close: () => running().close(),
+  };
+}
+
+/** The smallest valid plan: 32×32 Shepp–Logan, one uniform pattern at R 2, zero-filled, one seed. */
+export const oneCellPlan = {
+  source: { phantom: 'shepp-logan' },
+  matrix: { nx: 32, ny: 32 },
+  protocol: { trMs: 500 },
+  patterns: [{ pattern: 'cartesian-uniform' }],
+  accelerations: [2],
+  methods: [{ name: 'zero-filled' }],
+  seeds: 1,
+};
 
 type OpenApiDocument = {
   paths: Record<

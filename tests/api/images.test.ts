@@ -1,17 +1,13 @@
 import { readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { debianFile } from '../io/debian-files.ts';
-import { expectDocumented, expectProblem, postProblem, type TestApp, testApp } from './helpers.ts';
+import { expectDocumented, expectProblem, postProblem, sharedTestApp, testApp } from './helpers.ts';
 
 const fixture = (name: string) => readFileSync(new URL(`../fixtures/io/${name}`, import.meta.url));
 
 describe('POST/GET/DELETE /v1/images', () => {
-  let t: TestApp;
-  beforeAll(async () => {
-    t = await testApp({ limits: { maxUploadBytes: 200_000, maxMatrixSide: 256 } });
-  });
-  afterAll(async () => t.close());
+  const t = sharedTestApp({ limits: { maxUploadBytes: 200_000, maxMatrixSide: 256 } });
 
   it('uploads MR_small.dcm: 201, Location, 64×64 DICOM with the docs/references.md §12.1 statistics', async () => {
     const res = await t

@@ -1,6 +1,6 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { defaultLimits } from '../../src/core/limits.ts';
-import { expectDocumented, expectProblem, loadSpec, type TestApp, testApp } from './helpers.ts';
+import { expectDocumented, expectProblem, loadSpec, sharedTestApp } from './helpers.ts';
 
 // A bounded point count for POST /v1/phantoms/{name}/kspace (configurable as MAX_KSPACE_POINTS);
 // beyond it a 422 problem (RFC 9457; RFC 9110 §15.5.21) of type /problems/limit-exceeded naming `points`.
@@ -8,11 +8,7 @@ import { expectDocumented, expectProblem, loadSpec, type TestApp, testApp } from
 const points = (n: number) => Array.from({ length: n }, (_, i) => [i / n, -i / n]);
 
 describe('k-space points limit', () => {
-  let t: TestApp;
-  beforeAll(async () => {
-    t = await testApp({ limits: { maxKspacePoints: 1000 } });
-  });
-  afterAll(async () => t.close());
+  const t = sharedTestApp({ limits: { maxKspacePoints: 1000 } });
 
   it('one point over the configured limit: 422 limit-exceeded naming points, with the limit', async () => {
     const res = await t

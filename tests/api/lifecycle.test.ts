@@ -9,7 +9,7 @@ import { buildApp } from '../../src/app.ts';
 import { SeededRandom } from '../../src/core/random.ts';
 import { DataLifecycle } from '../../src/jobs/lifecycle.ts';
 import { Store } from '../../src/jobs/store.ts';
-import { binary, expectDocumented, expectProblem, type TestApp, testApp } from './helpers.ts';
+import { binary, expectDocumented, expectProblem, sharedTestApp, type TestApp, testApp } from './helpers.ts';
 
 // Source for the checks below: the project's data-lifecycle rules (DEVELOPERS.md "Data lifecycle"):
 // what a user deletes is gone, from the API and from every file under DATA_DIR; SQLite's documented
@@ -90,11 +90,7 @@ async function waitForStatus(t: TestApp, id: string, wanted: string[], key?: str
 }
 
 describe('deleting an upload deletes everything made from it, and its pixels leave the data folder', () => {
-  let t: TestApp;
-  beforeAll(async () => {
-    t = await testApp({ workers: 2, limits: { maxIterations: 500 } });
-  });
-  afterAll(async () => t.close());
+  const t = sharedTestApp({ workers: 2, limits: { maxIterations: 500 } });
 
   it('results and plans from the upload go (a running plan is cancelled first); pixels are scrubbed', async () => {
     const { png, values } = await distinctivePng(20261202);
@@ -158,11 +154,7 @@ describe('deleting an upload deletes everything made from it, and its pixels lea
 });
 
 describe('DELETE /v1/results/{id} and DELETE /v1/plans/{id}?purge=true', () => {
-  let t: TestApp;
-  beforeAll(async () => {
-    t = await testApp({ workers: 2, limits: { maxIterations: 500 } });
-  });
-  afterAll(async () => t.close());
+  const t = sharedTestApp({ workers: 2, limits: { maxIterations: 500 } });
 
   it('a reconstruction and a mask: 204, then their images and the result are 404; again 404', async () => {
     const recon = await t
@@ -314,11 +306,7 @@ describe('retention: oldest first, never what a queued or running plan needs', (
 describe('tenant isolation: each API key sees and deletes only what it created', () => {
   const alpha = 'alpha-key-5d1e9';
   const beta = 'beta-key-82c0a';
-  let t: TestApp;
-  beforeAll(async () => {
-    t = await testApp({ apiKeys: [alpha, beta], tenantIsolation: true });
-  });
-  afterAll(async () => t.close());
+  const t = sharedTestApp({ apiKeys: [alpha, beta], tenantIsolation: true });
 
   it('another key gets 404 for uploads, results, reconstructions and plans; the owner is a digest', async () => {
     const imageId = await upload(t, (await distinctivePng(51)).png, alpha);

@@ -1,18 +1,14 @@
 import sharp from 'sharp';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { getPhantom } from '../../src/phantoms/index.ts';
-import { binary, expectDocumented, expectProblem, postProblem, type TestApp, testApp } from './helpers.ts';
+import { binary, expectDocumented, expectProblem, postProblem, sharedTestApp } from './helpers.ts';
 
 // Source for the checks below: the v1 HTTP contract of docs/design.md §4 (routes, status codes, 202 jobs,
 // persistence under DATA_DIR), problem bodies per RFC 9457 (docs/references.md §10.4) and every documented
 // response validated against openapi.yaml (OpenAPI 3.1, docs/references.md §10.6) by expectDocumented.
 
 describe('phantoms, masks and result images', () => {
-  let t: TestApp;
-  beforeAll(async () => {
-    t = await testApp({ limits: { maxMatrixSide: 128 } });
-  });
-  afterAll(async () => t.close());
+  const t = sharedTestApp({ limits: { maxMatrixSide: 128 } });
 
   it('GET /v1/phantoms lists the four analytic phantoms', async () => {
     const res = await t.http().get('/v1/phantoms');

@@ -1,5 +1,5 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { postProblem, type TestApp, testApp } from './helpers.ts';
+import { describe, expect, it } from 'vitest';
+import { oneCellPlan, postProblem, sharedTestApp } from './helpers.ts';
 
 // noise.snr has a documented range, 0.1 ≤ snr ≤ 1e6 (reasons in the schema description); outside it
 // a 422 (RFC 9110 §15.5.21) RFC 9457 problem names noise.snr. Before, 1e-300 gave 201 with every
@@ -14,11 +14,7 @@ const reconstruction = {
 };
 
 describe('noise.snr range', () => {
-  let t: TestApp;
-  beforeAll(async () => {
-    t = await testApp();
-  });
-  afterAll(async () => t.close());
+  const t = sharedTestApp();
 
   it.each([1e-300, 1e-320, 0.09, 0, 2e6])('snr %s: 422 naming noise.snr with the range', async (snr) => {
     const problem = await postProblem(
@@ -33,22 +29,7 @@ describe('noise.snr range', () => {
   });
 
   it('the same range for plans', async () => {
-    await postProblem(
-      t,
-      '/v1/plans',
-      {
-        source: { phantom: 'shepp-logan' },
-        matrix: { nx: 32, ny: 32 },
-        protocol: { trMs: 500 },
-        patterns: [{ pattern: 'cartesian-uniform' }],
-        accelerations: [2],
-        methods: [{ name: 'zero-filled' }],
-        seeds: 1,
-        noise: { snr: 1e-300 },
-      },
-      422,
-      'noise.snr',
-    );
+    await postProblem(t, '/v1/plans', { ...oneCellPlan, noise: { snr: 1e-300 } }, 422, 'noise.snr');
   });
 
   it('the lower end, snr 0.1, is accepted and scored with finite metrics', async () => {

@@ -1,19 +1,11 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { postProblem, type TestApp, testApp } from './helpers.ts';
+import { describe, expect, it } from 'vitest';
+import { oneCellPlan, postProblem, sharedTestApp } from './helpers.ts';
 
 // A plan's source is checked when it is submitted, as POST /v1/reconstructions checks it: an unknown
 // phantom is 422 (RFC 9110 §15.5.21) naming source.phantom; an unknown image id is 404 naming
 // source.imageId on both routes. Problems per RFC 9457.
 
-const plan = {
-  source: { phantom: 'shepp-logan' },
-  matrix: { nx: 32, ny: 32 },
-  protocol: { trMs: 500 },
-  patterns: [{ pattern: 'cartesian-uniform' }],
-  accelerations: [2],
-  methods: [{ name: 'zero-filled' }],
-  seeds: 1,
-};
+const plan = oneCellPlan;
 const reconstruction = {
   source: { phantom: 'shepp-logan' },
   matrix: { nx: 32, ny: 32 },
@@ -23,11 +15,7 @@ const reconstruction = {
 const missingImage = '00000000-0000-0000-0000-000000000000';
 
 describe('plan sources are validated at submit', () => {
-  let t: TestApp;
-  beforeAll(async () => {
-    t = await testApp();
-  });
-  afterAll(async () => t.close());
+  const t = sharedTestApp();
 
   it('unknown phantom: 422 naming source.phantom, listing the known ones, as the reconstruction route', async () => {
     const body = { source: { phantom: 'no-such-phantom' } };

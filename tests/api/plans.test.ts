@@ -1,10 +1,17 @@
 import { parse as parseCsv } from 'csv-parse/sync';
 import { createParser, type EventSourceMessage } from 'eventsource-parser';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { decodeImage } from '../../src/io/decode-image.ts';
 import { runPlan } from '../../src/plan/run-plan.ts';
 import { debianFile } from '../io/debian-files.ts';
-import { expectDocumented, expectProblem, postProblem, type TestApp, testApp } from './helpers.ts';
+import {
+  expectDocumented,
+  expectProblem,
+  postProblem,
+  sharedTestApp,
+  type TestApp,
+  testApp,
+} from './helpers.ts';
 
 // Source for the checks below: the v1 HTTP contract of docs/design.md §4 (routes, status codes, 202 jobs,
 // persistence under DATA_DIR), problem bodies per RFC 9457 (docs/references.md §10.4) and every documented
@@ -53,11 +60,7 @@ function withoutTiming(table: { rows: Array<Record<string, unknown>> }) {
 }
 
 describe('plans as jobs', () => {
-  let t: TestApp;
-  beforeAll(async () => {
-    t = await testApp({ workers: 2, limits: { maxPlanCells: 200, maxIterations: 500 } });
-  });
-  afterAll(async () => t.close());
+  const t = sharedTestApp({ workers: 2, limits: { maxPlanCells: 200, maxIterations: 500 } });
 
   it('POST answers 202 at once with Location; polling reaches done with the table and recommendation', async () => {
     const res = await t.http().post('/v1/plans').send(smallPlan);

@@ -1,5 +1,5 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { expectProblem, type TestApp, testApp } from './helpers.ts';
+import { describe, expect, it } from 'vitest';
+import { expectProblem, sharedTestApp } from './helpers.ts';
 import { rawRequest } from './raw-http.ts';
 
 // Every error is application/problem+json with `status` equal to the HTTP status (RFC 9457 §3.1.4),
@@ -7,11 +7,7 @@ import { rawRequest } from './raw-http.ts';
 // RFC 6585 §5 (431). Node's default header limit (16 KiB, `--max-http-header-size`) is from its docs.
 
 describe('errors raised by the router and by the HTTP parser are RFC 9457 problems', () => {
-  let t: TestApp;
-  beforeAll(async () => {
-    t = await testApp();
-  });
-  afterAll(async () => t.close());
+  const t = sharedTestApp();
 
   it('400 for a URL that is not valid percent-encoding (RFC 3986 §2.1), naming url', async () => {
     const res = await rawRequest(

@@ -1,9 +1,9 @@
 import sharp from 'sharp';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { decodeImage } from '../../src/io/decode-image.ts';
 import { runReconstruction } from '../../src/pipeline/run-reconstruction.ts';
 import { debianFile } from '../io/debian-files.ts';
-import { binary, expectDocumented, expectProblem, postProblem, type TestApp, testApp } from './helpers.ts';
+import { binary, expectDocumented, expectProblem, postProblem, sharedTestApp, testApp } from './helpers.ts';
 
 // Source for the checks below: the v1 HTTP contract of docs/design.md §4 (routes, status codes, 202 jobs,
 // persistence under DATA_DIR), problem bodies per RFC 9457 (docs/references.md §10.4) and every documented
@@ -17,11 +17,7 @@ const request = {
 };
 
 describe('POST /v1/reconstructions (runs on the worker pool)', () => {
-  let t: TestApp;
-  beforeAll(async () => {
-    t = await testApp({ limits: { maxIterations: 100, maxMatrixSide: 128 } });
-  });
-  afterAll(async () => t.close());
+  const t = sharedTestApp({ limits: { maxIterations: 100, maxMatrixSide: 128 } });
 
   it('201 with metrics, R, timing and six image URLs; the numbers are the engine’s for the same request', async () => {
     const res = await t.http().post('/v1/reconstructions').send(request);

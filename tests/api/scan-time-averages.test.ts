@@ -1,15 +1,11 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { expectDocumented, loadSpec, postProblem, type TestApp, testApp } from './helpers.ts';
+import { describe, expect, it } from 'vitest';
+import { expectDocumented, loadSpec, postProblem, sharedTestApp } from './helpers.ts';
 
 // `protocol.averages` is DICOM Number of Averages (0018,0083); `nex` is its deprecated alias for one
 // version (docs/design.md §4.3). Expected times from the TA formula of docs/references.md §8:
 // TR 1000 ms × 64 lines × averages.
 describe('POST /v1/scan-time: averages and the deprecated alias nex', () => {
-  let t: TestApp;
-  beforeAll(async () => {
-    t = await testApp();
-  });
-  afterAll(async () => t.close());
+  const t = sharedTestApp();
 
   const matrix = { nx: 64, ny: 64 };
 

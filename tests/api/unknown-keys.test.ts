@@ -1,5 +1,5 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { expectProblem, postProblem, type TestApp, testApp } from './helpers.ts';
+import { describe, expect, it } from 'vitest';
+import { expectProblem, postProblem, sharedTestApp } from './helpers.ts';
 
 // Unknown keys are refused everywhere the same way the rest of the API refuses them: 400
 // (a body of the wrong shape, RFC 9110 §15.5.1) as RFC 9457 problem+json naming the key's own path.
@@ -22,11 +22,7 @@ const plan = {
 };
 
 describe('unknown keys are refused with their path', () => {
-  let t: TestApp;
-  beforeAll(async () => {
-    t = await testApp();
-  });
-  afterAll(async () => t.close());
+  const t = sharedTestApp();
 
   it('top level (already refused before): 400 naming the key', async () => {
     await postProblem(t, '/v1/reconstructions', { ...reconstruction, extra: 1 }, 400, 'extra');

@@ -2,7 +2,7 @@ import { crc32, deflateSync } from 'node:zlib';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { debianFile } from '../io/debian-files.ts';
 import { deflatedDicomBomb, gzippedNifti2Bomb } from '../io/inflation-bombs.ts';
-import { expectDocumented, expectProblem, type TestApp, testApp } from './helpers.ts';
+import { expectDocumented, expectProblem, sharedTestApp, type TestApp, testApp } from './helpers.ts';
 
 /** A PNG chunk: length, type, data, CRC-32 of type and data (PNG specification, W3C 2003, §5.3). */
 function pngChunk(type: string, data: Buffer): Buffer {
@@ -134,11 +134,7 @@ describe('RLE output is bounded by the matrix limit before it is decoded', () =>
 });
 
 describe('malformed multipart bodies → 400 problem+json (RFC 2046 §5.1.1), never 500', () => {
-  let t: TestApp;
-  beforeAll(async () => {
-    t = await testApp();
-  });
-  afterAll(async () => t.close());
+  const t = sharedTestApp();
 
   const part = Buffer.from(
     '--XYZ\r\nContent-Disposition: form-data; name="file"; filename="a.png"\r\n' +

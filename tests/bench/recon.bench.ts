@@ -1,10 +1,7 @@
-import { generateMask } from '../../sampling/index.ts';
-import { acquire } from '../../src/acquisition/acquire.ts';
-import { fullKspaceFromPhantom } from '../../src/acquisition/phantom-source.ts';
 import { fft2c, ifft2c } from '../../src/core/centered-fft.ts';
 import { createComplexImage } from '../../src/core/complex-image.ts';
-import { getPhantom } from '../../src/phantoms/index.ts';
 import { reconstruct } from '../../src/recon/index.ts';
+import { poissonDiscAcquisition } from '../recon/helpers.ts';
 import type { BenchRow } from './timing.ts';
 
 /** This process's CPU time in ms (user + system). */
@@ -31,12 +28,7 @@ function median(values: number[]): number {
  */
 export async function benchRecon(): Promise<BenchRow[]> {
   const n = 256;
-  const full = fullKspaceFromPhantom(getPhantom('shepp-logan-modified'), n, n, 'analytic');
-  const sampled = generateMask(
-    { nx: n, ny: n },
-    { pattern: 'poisson-disc', acceleration: 4, acs: 24, seed: 1 },
-  );
-  const { kspace } = acquire(full, sampled.mask, undefined, 1);
+  const { kspace, sampled } = poissonDiscAcquisition('shepp-logan-modified', n, 24, 1);
   const input = { kspace, mask: sampled.mask, density: sampled.density };
 
   const scratch = createComplexImage(n, n);

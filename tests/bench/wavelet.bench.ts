@@ -1,13 +1,10 @@
-import { generateMask } from '../../sampling/index.ts';
-import { acquire } from '../../src/acquisition/acquire.ts';
-import { fullKspaceFromPhantom } from '../../src/acquisition/phantom-source.ts';
 import { fft2c, ifft2c } from '../../src/core/centered-fft.ts';
 import { createComplexImage } from '../../src/core/complex-image.ts';
 import { SeededRandom } from '../../src/core/random.ts';
-import { getPhantom } from '../../src/phantoms/index.ts';
 import { type CsWaveletOptions, solveCsWavelet } from '../../src/recon/cs-wavelet-solver.ts';
 import { daubechiesFilters } from '../../src/wavelets/daubechies-filters.ts';
 import { forwardDwt2, inverseDwt2 } from '../../src/wavelets/dwt2.ts';
+import { poissonDiscAcquisition } from '../recon/helpers.ts';
 import { type BenchRow, medianMs } from './timing.ts';
 
 /**
@@ -41,12 +38,7 @@ export async function benchWavelet(): Promise<BenchRow[]> {
     },
   ];
 
-  const full = fullKspaceFromPhantom(getPhantom('shepp-logan-modified'), n, n, 'analytic');
-  const sampled = generateMask(
-    { nx: n, ny: n },
-    { pattern: 'poisson-disc', acceleration: 4, acs: 24, seed: 1 },
-  );
-  const { kspace } = acquire(full, sampled.mask, undefined, 1);
+  const { kspace, sampled } = poissonDiscAcquisition('shepp-logan-modified', n, 24, 1);
   const input = { kspace, mask: sampled.mask };
   const iterations = 50;
   const cases: { label: string; options: CsWaveletOptions }[] = [

@@ -94,6 +94,46 @@ async function inkedPixels(selector: string): Promise<number> {
   });
 }
 
+/** Ticks exactly the named boxes of one checkbox group of the plan form (patterns or methods). */
+async function tickOnly(group: 'planPattern' | 'planMethod', values: string[]): Promise<void> {
+  for (const box of await page.$$(`input[name="${group}"]`)) await box.setChecked(false);
+  for (const value of values) await page.check(`input[name="${group}"][value="${value}"]`);
+}
+
+/** Presses "Run plan" and returns the id of the plan the service accepted. */
+async function submitPlan(): Promise<string> {
+  const accepted = waitForApi('/v1/plans');
+  await page.click('#planButton');
+  const { id } = (await (await accepted).json()) as { id: string };
+  return id;
+}
+
+/** Waits until the page re-enables "Run plan": the plan ended (done, failed or cancelled) or was refused. */
+async function planEnded(timeout?: number): Promise<void> {
+  await page.waitForFunction(
+    () => !(document.querySelector('#planButton') as HTMLButtonElement).disabled,
+    undefined,
+    timeout === undefined ? {} : { timeout },
+  );
+}
+
+/**
+ * Runs a plan of R 2 and 4, one seed, zero-filled and CS-TV over the given patterns with an SSIM
+ * target of 0.5, waits until it is done and returns its id.
+ */
+async function runPlanToDone(patterns: string[]): Promise<string> {
+  await page.fill('#planAccelerations', '2, 4');
+  await page.fill('#planSeeds', '1');
+  await tickOnly('planPattern', patterns);
+  await tickOnly('planMethod', ['zero-filled', 'cs-tv']);
+  await page.selectOption('#targetMetric', 'ssim');
+  await page.fill('#targetValue', '0.5');
+  const id = await submitPlan();
+  await planEnded(45_000);
+  expect(await page.locator('#planStatus').textContent()).toContain('done');
+  return id;
+}
+
 function waitForApi(path: string, method = 'POST', accept?: string): Promise<Response> {
   return page.waitForResponse((r) => {
     const request = r.request();
@@ -598,30 +638,8 @@ describe('planner page in Chromium', () => {
   });
 
   it('runs a small plan to completion and draws the tradeoff plot and table', async () => {
-    await page.fill('#planAccelerations', '2, 4');
-    await page.fill('#planSeeds', '1');
     await page.fill('#iterations', '10');
-    for (const box of await page.$$('input[name="planPattern"]')) await box.setChecked(false);
-    await page.check('input[name="planPattern"][value="cartesian-random"]');
-    await page.check('input[name="planPattern"][value="cartesian-uniform"]');
-    for (const box of await page.$$('input[name="planMethod"]')) await box.setChecked(false);
-    await page.check('input[name="planMethod"][value="zero-filled"]');
-    await page.check('input[name="planMethod"][value="cs-tv"]');
-    await page.selectOption('#targetMetric', 'ssim');
-    await page.fill('#targetValue', '0.5');
-
-    const accepted = waitForApi('/v1/plans');
-    await page.click('#planButton');
-    const { id } = (await (await accepted).json()) as { id: string };
-    // The page re-enables "Run plan" when the plan ends (done, failed or cancelled) or is refused.
-    await page.waitForFunction(
-      () => !(document.querySelector('#planButton') as HTMLButtonElement).disabled,
-      undefined,
-      {
-        timeout: 45_000,
-      },
-    );
-    expect(await page.locator('#planStatus').textContent()).toContain('done');
+    const id = await runPlanToDone(['cartesian-random', 'cartesian-uniform']);
 
     // The progress bar was fed by the events stream and ends full.
     expect(requested.some((url) => url.endsWith(`/v1/plans/${id}/events`))).toBe(true);
@@ -716,27 +734,7 @@ describe('planner page in Chromium', () => {
     await page.fill('#iterations', '10');
     await page.selectOption('#preset', '0'); // 2D draft A
     await page.fill('#partialFourier', '0.75');
-    await page.fill('#planAccelerations', '2, 4');
-    await page.fill('#planSeeds', '1');
-    for (const box of await page.$$('input[name="planPattern"]')) await box.setChecked(false);
-    await page.check('input[name="planPattern"][value="cartesian-random"]');
-    await page.check('input[name="planPattern"][value="poisson-disc"]');
-    for (const box of await page.$$('input[name="planMethod"]')) await box.setChecked(false);
-    await page.check('input[name="planMethod"][value="zero-filled"]');
-    await page.check('input[name="planMethod"][value="cs-tv"]');
-    await page.selectOption('#targetMetric', 'ssim');
-    await page.fill('#targetValue', '0.5');
-    const accepted = waitForApi('/v1/plans');
-    await page.click('#planButton');
-    const { id } = (await (await accepted).json()) as { id: string };
-    await page.waitForFunction(
-      () => !(document.querySelector('#planButton') as HTMLButtonElement).disabled,
-      undefined,
-      {
-        timeout: 45_000,
-      },
-    );
-    expect(await page.locator('#planStatus').textContent()).toContain('done');
+    const id = await runPlanToDone(['cartesian-random', 'poisson-disc']);
     const plan = (await (await api(`/v1/plans/${id}`)).json()) as {
       table: {
         rows: Array<{
@@ -934,17 +932,13 @@ describe('planner page in Chromium', () => {
     await page.fill('#iterations', '400');
     await page.fill('#planAccelerations', '2, 3, 4, 5, 6, 8');
     await page.fill('#planSeeds', '10');
-    for (const box of await page.$$('input[name="planPattern"]')) await box.setChecked(false);
-    await page.check('input[name="planPattern"][value="cartesian-random"]');
-    for (const box of await page.$$('input[name="planMethod"]')) await box.setChecked(false);
-    await page.check('input[name="planMethod"][value="cs-tv"]');
-    const accepted = waitForApi('/v1/plans');
-    await page.click('#planButton');
-    const { id } = (await (await accepted).json()) as { id: string };
+    await tickOnly('planPattern', ['cartesian-random']);
+    await tickOnly('planMethod', ['cs-tv']);
+    const id = await submitPlan();
     const cancelled = waitForApi(`/v1/plans/${id}`, 'DELETE');
     await page.click('#cancelButton');
     expect((await cancelled).status()).toBe(200);
-    await page.waitForFunction(() => !(document.querySelector('#planButton') as HTMLButtonElement).disabled);
+    await planEnded();
     const plan = (await (await api(`/v1/plans/${id}`)).json()) as {
       status: string;
       progress: { done: number; total: number };

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { type CoilArraySpec, coilArrayMaps } from '../../src/coils/coil-array.ts';
 import { ValidationError } from '../../src/core/errors.ts';
 import type { CoilMaps } from '../../src/encoding/multi-coil.ts';
-import { coilFixture } from './fixture.ts';
+import { coilFixture, gaussianArrayMaps } from './fixture.ts';
 
 const n = 33; // odd: the pixel grid is symmetric about the centre, so mirrors and 90° turns map pixels onto pixels
 const at = (maps: CoilMaps, c: number, i: number, j: number): [number, number] => {
@@ -108,17 +108,7 @@ describe('coil arrays: symmetry of the Biot–Savart maps', () => {
 describe('Gaussian-profile arrays against numpy (generate_coil_fixtures.py)', () => {
   it('normalised maps equal the numpy ones at the sampled pixels to 1e-13', () => {
     const f = coilFixture.gaussian_array;
-    const maps = coilArrayMaps(
-      {
-        array: 'gaussian',
-        count: f.count,
-        width: f.width,
-        ringRadius: f.ringRadius,
-        startAngleDeg: f.startAngleDeg,
-      },
-      f.nx,
-      f.ny,
-    );
+    const maps = gaussianArrayMaps();
     let worst = 0;
     for (let c = 0; c < f.count; c++) {
       f.samplePixels.forEach((p, k) => {

@@ -1,5 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
+import { coilArrayMaps } from '../../src/coils/coil-array.ts';
 
 /** tests/reference/fixtures/coils.json, made by tests/reference/generate_coil_fixtures.py (numpy, scipy). */
 export interface CoilFixture {
@@ -34,3 +35,19 @@ export interface CoilFixture {
 export const coilFixture: CoilFixture = JSON.parse(
   readFileSync(fileURLToPath(new URL('../reference/fixtures/coils.json', import.meta.url)), 'utf8'),
 );
+
+/** Our maps of the fixture's Gaussian-profile array (its count, width, ring radius and start angle) on its grid. */
+export function gaussianArrayMaps(): ReturnType<typeof coilArrayMaps> {
+  const f = coilFixture.gaussian_array;
+  return coilArrayMaps(
+    {
+      array: 'gaussian',
+      count: f.count,
+      width: f.width,
+      ringRadius: f.ringRadius,
+      startAngleDeg: f.startAngleDeg,
+    },
+    f.nx,
+    f.ny,
+  );
+}

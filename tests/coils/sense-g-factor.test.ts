@@ -4,7 +4,7 @@ import { CoilNoise } from '../../src/coils/noise-covariance.ts';
 import { SenseFoldSolver, senseGFactorMap, summariseGFactor } from '../../src/coils/sense-g-factor.ts';
 import { ValidationError } from '../../src/core/errors.ts';
 import { createMultiCoilArray } from '../../src/encoding/multi-coil.ts';
-import { coilFixture } from './fixture.ts';
+import { coilFixture, gaussianArrayMaps } from './fixture.ts';
 
 /** Real C×R matrix (rows = coils) as interleaved complex. */
 function complexMatrix(rows: number[][]): Float64Array {
@@ -88,17 +88,7 @@ describe('SENSE g-factor of one fold (Pruessmann, Weiger, Scheidegger & Boesiger
 
 describe('SENSE g-factor maps for uniform Cartesian undersampling', () => {
   const f = coilFixture.gaussian_array;
-  const maps = coilArrayMaps(
-    {
-      array: 'gaussian',
-      count: f.count,
-      width: f.width,
-      ringRadius: f.ringRadius,
-      startAngleDeg: f.startAngleDeg,
-    },
-    f.nx,
-    f.ny,
-  );
+  const maps = gaussianArrayMaps();
   const disc = Uint8Array.from(f.disc);
 
   for (const [label, noise, expected, summary] of [

@@ -7,21 +7,11 @@ import {
   trigFitError,
 } from '../../src/coils/trig-fit.ts';
 import { ValidationError } from '../../src/core/errors.ts';
-import { coilFixture } from './fixture.ts';
+import { coilFixture, gaussianArrayMaps } from './fixture.ts';
 
 describe('trigonometric-polynomial fit of coil maps', () => {
   const f = coilFixture.gaussian_array;
-  const maps = coilArrayMaps(
-    {
-      array: 'gaussian',
-      count: f.count,
-      width: f.width,
-      ringRadius: f.ringRadius,
-      startAngleDeg: f.startAngleDeg,
-    },
-    f.nx,
-    f.ny,
-  );
+  const maps = gaussianArrayMaps();
 
   for (const reference of coilFixture.trig_fit) {
     const { order, periodFactor, coil } = reference;

@@ -2,6 +2,7 @@ import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { fft2c, ifft2c } from '../../src/core/centered-fft.ts';
 import type { ComplexImage } from '../../src/core/complex-image.ts';
+import { relativeMaxError } from './relative-max-error.ts';
 
 /**
  * fft2c / ifft2c against numpy.fft (Debian python3-numpy): tests/reference/fixtures/fft-numpy.json,
@@ -23,17 +24,6 @@ const fixture: { inputScale: number; cases: FftCase[] } = JSON.parse(
 
 function inputImage(c: FftCase): ComplexImage {
   return { nx: c.nx, ny: c.ny, data: Float64Array.from(c.input, (v) => v * fixture.inputScale) };
-}
-
-/** max |Δ| over elements divided by max |expected| (complex moduli). */
-function relativeMaxError(actual: Float64Array, expected: number[]): number {
-  let err = 0;
-  let peak = 0;
-  for (let i = 0; i < expected.length; i += 2) {
-    err = Math.max(err, Math.hypot(actual[i] - expected[i], actual[i + 1] - expected[i + 1]));
-    peak = Math.max(peak, Math.hypot(expected[i], expected[i + 1]));
-  }
-  return err / peak;
 }
 
 // Tolerance: measured ≤ 1.2e-15 on every case (both are float64 FFTs, rounding O(ε·log N)); 1e-13

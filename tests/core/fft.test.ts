@@ -3,6 +3,7 @@ import { centeredLineTransform, fft2c, ifft2c } from '../../src/core/centered-ff
 import { createComplexImage, energy } from '../../src/core/complex-image.ts';
 import { fftPlan } from '../../src/core/fft-plan.ts';
 import { SeededRandom } from '../../src/core/random.ts';
+import { relativeMaxError } from './relative-max-error.ts';
 
 /** Direct O(N²) unnormalised DFT, the textbook definition (docs/references.md §2.1, common practice). */
 function directDft(x: Float64Array): Float64Array {
@@ -27,16 +28,6 @@ function directDft(x: Float64Array): Float64Array {
 function randomComplex(n: number, seed: number): Float64Array {
   const rng = new SeededRandom(seed);
   return Float64Array.from({ length: 2 * n }, () => rng.normal());
-}
-
-function relativeMaxError(a: Float64Array, b: Float64Array): number {
-  let err = 0;
-  let peak = 0;
-  for (let i = 0; i < a.length; i += 2) {
-    err = Math.max(err, Math.hypot(a[i] - b[i], a[i + 1] - b[i + 1]));
-    peak = Math.max(peak, Math.hypot(b[i], b[i + 1]));
-  }
-  return err / peak;
 }
 
 describe('1D plans against the direct DFT (definition, docs/references.md §2.1–2.2)', () => {

@@ -1,6 +1,5 @@
 import { describe, expect, it } from 'vitest';
 import { ifft2c } from '../../src/core/centered-fft.ts';
-import { ValidationError } from '../../src/core/errors.ts';
 import {
   checkLesionSpec,
   type LesionSpec,
@@ -10,16 +9,9 @@ import {
   rasterizeLesions,
 } from '../../src/fidelity/index.ts';
 import { phantomGridKspace, sheppLoganModified } from '../../src/phantoms/index.ts';
+import { caughtValidationError } from '../core/caught-validation-error.ts';
 
-function caught(fn: () => unknown): ValidationError {
-  try {
-    fn();
-  } catch (error) {
-    if (error instanceof ValidationError) return error;
-    throw error;
-  }
-  throw new Error('expected a ValidationError');
-}
+const caught = caughtValidationError;
 
 describe('lesion placement', () => {
   const n = 128;

@@ -44,17 +44,6 @@ export function directNdft(image: ComplexImage, kx: Float64Array, ky: Float64Arr
   return out;
 }
 
-/** ‖a − b‖₂ / ‖b‖₂ over interleaved arrays. */
-export function relativeError(a: Float64Array, b: Float64Array): number {
-  let e = 0;
-  let n = 0;
-  for (let i = 0; i < b.length; i++) {
-    e += (a[i] - b[i]) ** 2;
-    n += b[i] ** 2;
-  }
-  return Math.sqrt(e / n);
-}
-
 /**
  * The exact adjoint sum x[i][j] = (1/√(nx·ny)) Σ_p y_p e^(+i2π(kx_p·n/nx − ky_p·m/ny)) by direct
  * summation, same conventions as directNdft.

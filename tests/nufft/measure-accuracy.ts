@@ -7,7 +7,8 @@
 import { createComplexImage } from '../../src/core/complex-image.ts';
 import { SeededRandom } from '../../src/core/random.ts';
 import { createNufftPlan } from '../../src/nufft/nufft-plan.ts';
-import { directNdft, relativeError } from './direct-ndft.ts';
+import { relativeError } from '../recon/helpers.ts';
+import { directNdft } from './direct-ndft.ts';
 
 const side = 64;
 const points = 2000;

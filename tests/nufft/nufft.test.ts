@@ -1,11 +1,14 @@
 import { describe, expect, it } from 'vitest';
 import { fft2c } from '../../src/core/centered-fft.ts';
 import { type ComplexImage, createComplexImage } from '../../src/core/complex-image.ts';
-import { LimitError, ValidationError } from '../../src/core/errors.ts';
+import { LimitError } from '../../src/core/errors.ts';
 import { SeededRandom } from '../../src/core/random.ts';
 import { expectedRelativeError } from '../../src/nufft/accuracy-table.ts';
 import { createNufftPlan, fastGridSize, MAX_PLAN_WEIGHTS } from '../../src/nufft/nufft-plan.ts';
-import { directNdft, relativeError } from './direct-ndft.ts';
+import { validationFieldOf } from '../core/caught-validation-error.ts';
+import { inner } from '../encoding/helpers.ts';
+import { relativeError } from '../recon/helpers.ts';
+import { directNdft } from './direct-ndft.ts';
 import { nufftFixture } from './nufft-fixture.ts';
 
 function randomImage(nx: number, ny: number, seed: number): ComplexImage {
@@ -37,17 +40,6 @@ function gridPoints(nx: number, ny: number) {
     }
   }
   return { kx, ky };
-}
-
-/** ⟨a, b⟩ = Σ conj(a)·b over interleaved arrays, as [re, im]. */
-function inner(a: Float64Array, b: Float64Array): [number, number] {
-  let re = 0;
-  let im = 0;
-  for (let i = 0; i < a.length; i += 2) {
-    re += a[i] * b[i] + a[i + 1] * b[i + 1];
-    im += a[i] * b[i + 1] - a[i + 1] * b[i];
-  }
-  return [re, im];
 }
 
 describe('type-2 NUFFT against the direct non-uniform DFT', () => {
@@ -225,15 +217,7 @@ describe('plan parameters and bad input', () => {
   it('names the field of a bad width, oversampling or coordinate', () => {
     const k = new Float64Array([0, 1, 2, Number.NaN]);
     const ok = new Float64Array(4);
-    const fieldOf = (fn: () => unknown) => {
-      try {
-        fn();
-      } catch (error) {
-        expect(error).toBeInstanceOf(ValidationError);
-        return (error as ValidationError).problems[0].field;
-      }
-      return 'no error';
-    };
+    const fieldOf = validationFieldOf;
     expect(fieldOf(() => createNufftPlan(8, 8, ok, ok, { width: 1 }))).toBe('nufft.width');
     expect(fieldOf(() => createNufftPlan(8, 8, ok, ok, { width: 4.5 }))).toBe('nufft.width');
     expect(fieldOf(() => createNufftPlan(8, 8, ok, ok, { oversampling: 1 }))).toBe('nufft.oversampling');

@@ -1,16 +1,8 @@
 import { describe, expect, it } from 'vitest';
-import { ValidationError } from '../../src/core/errors.ts';
 import { getPhantom, listPhantoms, phantomGridKspace } from '../../src/phantoms/index.ts';
+import { caughtValidationError } from '../core/caught-validation-error.ts';
 
-function caught(fn: () => unknown): ValidationError {
-  try {
-    fn();
-  } catch (error) {
-    if (error instanceof ValidationError) return error;
-    throw error;
-  }
-  throw new Error('expected a ValidationError');
-}
+const caught = caughtValidationError;
 
 describe('phantom catalogue', () => {
   it('lists the four phantoms with descriptions', () => {

@@ -5,10 +5,10 @@ import { defaultLimits } from '../../src/core/limits.ts';
 import type { CellResult } from '../../src/plan/cell-result.ts';
 import type { PlanCell } from '../../src/plan/plan-cells.ts';
 import { planCells } from '../../src/plan/plan-cells.ts';
+import { cellScanColumns } from '../../src/plan/run-cell.ts';
 import { type RunCellFn, runPlan } from '../../src/plan/run-plan.ts';
 import type { Plan } from '../../src/plan/schema.ts';
 import { validatePlan } from '../../src/plan/validate-plan.ts';
-import { scanTime } from '../../src/protocol/scan-time.ts';
 import { smallPlanBody } from './small-plan.ts';
 
 // The sweep engine with an injected cell runner: real masks from sampling/ and the real scan-time
@@ -19,22 +19,10 @@ const body = smallPlanBody;
 
 const syntheticCell: RunCellFn = async (plan: Plan, cell: PlanCell): Promise<CellResult> => {
   const sampled = generateMask(plan.matrix, { ...cell.sampling, seed: cell.seed });
-  const time = scanTime(plan.matrix, plan.protocol, sampled);
   const r = sampled.acceleration.actual;
   const wobble = cell.sampling.pattern === 'cartesian-random' ? 0.01 * cell.seed : 0;
   return {
-    index: cell.index,
-    reference: cell.reference,
-    patternIndex: cell.patternIndex,
-    accelerationIndex: cell.accelerationIndex,
-    methodIndex: cell.methodIndex,
-    seed: cell.seed,
-    requestedR: cell.acceleration,
-    actualR: r,
-    acquired: time.acquired,
-    acquiredUnit: time.unit,
-    scanSeconds: time.seconds,
-    mask: { acquired: sampled.acquired.count, unit: sampled.acquired.unit, fraction: sampled.fraction },
+    ...cellScanColumns(plan, cell, sampled),
     metrics: {
       nrmse: 0.05 * (r - 1) + wobble,
       psnr: r === 1 ? null : 40 / r,

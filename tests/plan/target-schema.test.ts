@@ -1,16 +1,10 @@
 import { describe, expect, it } from 'vitest';
-import { ValidationError } from '../../src/core/errors.ts';
 import { parseOrThrow } from '../../src/core/zod-problems.ts';
 import { targetSchema } from '../../src/plan/target-schema.ts';
+import { caughtValidationError } from '../core/caught-validation-error.ts';
 
 function problem(value: unknown) {
-  try {
-    parseOrThrow(targetSchema, value, 'target');
-  } catch (error) {
-    expect(error).toBeInstanceOf(ValidationError);
-    return (error as ValidationError).problems[0];
-  }
-  throw new Error('expected a ValidationError');
+  return caughtValidationError(() => parseOrThrow(targetSchema, value, 'target')).problems[0];
 }
 
 // Metric directions per docs/design.md §3.6: SSIM and PSNR higher is better, NRMSE and HFEN lower is better.

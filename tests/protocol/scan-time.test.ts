@@ -4,6 +4,7 @@ import { validateMatrix } from '../../src/core/matrix.ts';
 import { parseOrThrow } from '../../src/core/zod-problems.ts';
 import { type ScanTimeSampling, scanTime as scanTimeParsed } from '../../src/protocol/scan-time.ts';
 import { type ProtocolInput, protocolSchema } from '../../src/protocol/schema.ts';
+import { caughtValidationError } from '../core/caught-validation-error.ts';
 
 /**
  * The scan-time model trusts its parsed inputs; a request's matrix and protocol are checked once at
@@ -27,13 +28,7 @@ function range(start: number, stop: number, step = 1): number[] {
 }
 
 function problemOf(fn: () => unknown): { field: string; allowed?: string } {
-  try {
-    fn();
-  } catch (error) {
-    expect(error).toBeInstanceOf(ValidationError);
-    return (error as ValidationError).problems[0];
-  }
-  throw new Error('expected a ValidationError');
+  return caughtValidationError(fn).problems[0];
 }
 
 describe('scan time: worked examples of docs/references.md §8', () => {

@@ -1,7 +1,13 @@
 import { describe, expect, it } from 'vitest';
 import { BlockHankel } from '../../src/recon/block-hankel.ts';
 import { HermitianEigenSolver } from '../../src/recon/hermitian-eigen.ts';
-import { friSignal1d, POINT_SOURCES, pointSourceKspace, randomComplexImage } from './helpers.ts';
+import {
+  friSignal1d,
+  POINT_SOURCES,
+  pointSourceKspace,
+  randomComplexImage,
+  relativeError,
+} from './helpers.ts';
 
 /** The explicit block-Hankel matrix (rows = windows fully inside, columns = window offsets). */
 function explicitHankel(z: Float64Array, nx: number, ny: number, wx: number, wy: number): Float64Array[] {
@@ -220,16 +226,6 @@ function patchLoopProjection(
   return sum;
 }
 
-function relativeDifference(a: Float64Array, b: Float64Array): number {
-  let num = 0;
-  let den = 0;
-  for (let i = 0; i < b.length; i++) {
-    num += (a[i] - b[i]) ** 2;
-    den += b[i] ** 2;
-  }
-  return Math.sqrt(num / den);
-}
-
 // Sizes odd and even, windows odd, even and mixed; 8×6 in 12×9 has no sample that sees every
 // window and its wrap bands overlap (2·6 − 2 > 9); 1×32 on 64×1 is the 1-D case.
 describe.each([
@@ -252,7 +248,7 @@ describe.each([
       for (const arrays of [[z1], [z1, z2]]) {
         const fast = new Float64Array(2 * n * n);
         lift.gram(fast, arrays);
-        expect(relativeDifference(fast, patchLoopGram(arrays, nx, ny, wx, wy))).toBeLessThan(1e-10);
+        expect(relativeError(fast, patchLoopGram(arrays, nx, ny, wx, wy))).toBeLessThan(1e-10);
       }
     });
 
@@ -270,11 +266,11 @@ describe.each([
         const out1 = new Float64Array(2 * nx * ny);
         const out2 = new Float64Array(2 * nx * ny);
         lift.projectAverage(out1, z1);
-        expect(relativeDifference(out1, expected1)).toBeLessThan(1e-10);
+        expect(relativeError(out1, expected1)).toBeLessThan(1e-10);
         lift.gram(gram, [z1, z2]);
         lift.projectLifted(out1, out2);
-        expect(relativeDifference(out1, expected1)).toBeLessThan(1e-10);
-        expect(relativeDifference(out2, expected2)).toBeLessThan(1e-10);
+        expect(relativeError(out1, expected1)).toBeLessThan(1e-10);
+        expect(relativeError(out2, expected2)).toBeLessThan(1e-10);
       }
     });
   },

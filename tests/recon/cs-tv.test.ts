@@ -1,4 +1,3 @@
-import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { fft2c, ifft2c } from '../../src/core/centered-fft.ts';
 import { complexFromReal, createComplexImage } from '../../src/core/complex-image.ts';
@@ -10,30 +9,20 @@ import { solveCsTv } from '../../src/recon/cs-tv.ts';
 import { methodSchemaFor, reconstruct } from '../../src/recon/index.ts';
 import { totalVariation } from '../../src/recon/total-variation.ts';
 import {
+  blockObjectProblem,
   fullMask,
   maxAbsDifference,
   randomComplexImage,
   randomPointMask,
   relativeError,
   sampledKspace,
+  type TvRofCase,
+  tvRofFixture,
 } from './helpers.ts';
 
-interface TvCase {
-  name: string;
-  nx: number;
-  ny: number;
-  weight: number;
-  inputScale: number;
-  input: number[];
-  output: number[];
-  objective: number;
-  selfConvergence: number;
-}
-const fixture = JSON.parse(
-  readFileSync(new URL('../reference/fixtures/tv-rof.json', import.meta.url), 'utf8'),
-) as { cases: TvCase[] };
+const fixture = tvRofFixture();
 
-function caseImage(c: TvCase): Float64Array {
+function caseImage(c: TvRofCase): Float64Array {
   return Float64Array.from(c.input, (v) => v * c.inputScale);
 }
 
@@ -169,10 +158,7 @@ describe('cs-tv solver', () => {
   it('reports iterations run and the final objective ½‖MFx − y‖² + λ TV(x); stops on the tolerance', () => {
     const nx = 32;
     const ny = 32;
-    const image = createComplexImage(nx, ny);
-    for (let i = 8; i < 24; i++) for (let j = 10; j < 22; j++) image.data[2 * (i * nx + j)] = 1;
-    const mask = randomPointMask(nx, ny, 0.4, 3);
-    const kspace = sampledKspace(image, mask);
+    const { image, mask, kspace } = blockObjectProblem();
     const out = reconstruct(
       { kspace, mask },
       { name: 'cs-tv', lambda: 0.01, iterations: 2000, tolerance: 1e-4 },

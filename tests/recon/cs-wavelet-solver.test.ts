@@ -1,4 +1,3 @@
-import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { generateMask } from '../../sampling/index.ts';
 import { acquire } from '../../src/acquisition/acquire.ts';
@@ -18,12 +17,15 @@ import { totalVariation } from '../../src/recon/total-variation.ts';
 import { dwt2, idwt2 } from '../../src/wavelets/dwt2.ts';
 import { detailL1 } from '../../src/wavelets/soft-threshold.ts';
 import {
+  blockObjectProblem,
   fullMask,
   maxAbsDifference,
+  poissonDiscAcquisition,
   randomComplexImage,
   randomPointMask,
   relativeError,
   sampledKspace,
+  tvRofFixture,
 } from './helpers.ts';
 
 /** ½‖M F x − y‖² + λ‖Ψx‖₁ (+ λ_TV TV(x)) computed from scratch with the public transforms. */
@@ -123,12 +125,7 @@ describe('cs-wavelet solver', () => {
     // plain FISTA's objective rises at 6 of the 300 steps (FISTA is not a descent method, Beck &
     // Teboulle 2009b); the monotone variant at none, and both end within 3.4e-8 relative.
     const n = 64;
-    const full = fullKspaceFromPhantom(getPhantom('shepp-logan'), n, n, 'analytic');
-    const sampled = generateMask(
-      { nx: n, ny: n },
-      { pattern: 'poisson-disc', acceleration: 4, acs: 8, seed: 2 },
-    );
-    const { kspace } = acquire(full, sampled.mask, undefined, 2);
+    const { kspace, sampled } = poissonDiscAcquisition('shepp-logan', n, 8, 2);
     const input = { kspace, mask: sampled.mask };
     const options: CsWaveletOptions = {
       lambda: 0.005,
@@ -170,11 +167,7 @@ describe('cs-wavelet solver', () => {
   });
 
   it('with λ = 0 and TV only it solves the cs-tv problem (same minimum as solveCsTv)', () => {
-    const n = 32;
-    const image = createComplexImage(n, n);
-    for (let i = 8; i < 24; i++) for (let j = 10; j < 22; j++) image.data[2 * (i * n + j)] = 1;
-    const mask = randomPointMask(n, n, 0.4, 3);
-    const kspace = sampledKspace(image, mask);
+    const { mask, kspace } = blockObjectProblem();
     // Measured: the two objectives agree to 1.5e-7 relative after 3000 iterations each.
     const ours = solveCsWavelet(
       { kspace, mask },
@@ -222,18 +215,7 @@ describe('cs-wavelet with a full mask is ROF denoising when λ = 0 and λ_TV > 0
   // tests/reference/generate_tv_fixture.py; its weight is our absolute λ_TV (see cs-tv.test.ts).
   // Tolerance as there (3e-4; the fixture's own convergence error is ~1.2e-4); measured 1.8e-4 after
   // 5000 primal–dual iterations.
-  interface TvCase {
-    name: string;
-    nx: number;
-    ny: number;
-    weight: number;
-    inputScale: number;
-    input: number[];
-    output: number[];
-  }
-  const fixture = JSON.parse(
-    readFileSync(new URL('../reference/fixtures/tv-rof.json', import.meta.url), 'utf8'),
-  ) as { cases: TvCase[] };
+  const fixture = tvRofFixture();
   const c = fixture.cases[0];
   it(`matches denoise_tv_chambolle: ${c.name}`, () => {
     const f = Float64Array.from(c.input, (v) => v * c.inputScale);

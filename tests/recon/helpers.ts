@@ -1,6 +1,11 @@
+import { readFileSync } from 'node:fs';
+import { generateMask, type SampledMask } from '../../sampling/index.ts';
+import { acquire } from '../../src/acquisition/acquire.ts';
+import { fullKspaceFromPhantom } from '../../src/acquisition/phantom-source.ts';
 import { fft2c } from '../../src/core/centered-fft.ts';
 import { type ComplexImage, createComplexImage } from '../../src/core/complex-image.ts';
 import { SeededRandom } from '../../src/core/random.ts';
+import { getPhantom } from '../../src/phantoms/index.ts';
 
 /** Random complex ny×nx image (standard normal parts). */
 export function randomComplexImage(nx: number, ny: number, seed: number): ComplexImage {
@@ -111,4 +116,52 @@ export function friSignal1d(): Float64Array {
     }
   }
   return x;
+}
+
+/** One case of the ROF (TV-denoising) fixture made by tests/reference/generate_tv_fixture.py. */
+export interface TvRofCase {
+  name: string;
+  nx: number;
+  ny: number;
+  weight: number;
+  inputScale: number;
+  input: number[];
+  output: number[];
+  objective: number;
+  selfConvergence: number;
+}
+
+/** skimage.restoration.denoise_tv_chambolle outputs (Debian python3-skimage), tests/reference/fixtures/tv-rof.json. */
+export function tvRofFixture(): { cases: TvRofCase[] } {
+  return JSON.parse(readFileSync(new URL('../reference/fixtures/tv-rof.json', import.meta.url), 'utf8')) as {
+    cases: TvRofCase[];
+  };
+}
+
+/**
+ * A piecewise-constant 32×32 object (a unit block, rows 8–23 × columns 10–21) seen through a random
+ * 40 % point mask (seed 3): the TV reconstructions' shared test problem.
+ */
+export function blockObjectProblem(): { image: ComplexImage; mask: Uint8Array; kspace: ComplexImage } {
+  const n = 32;
+  const image = createComplexImage(n, n);
+  for (let i = 8; i < 24; i++) for (let j = 10; j < 22; j++) image.data[2 * (i * n + j)] = 1;
+  const mask = randomPointMask(n, n, 0.4, 3);
+  return { image, mask, kspace: sampledKspace(image, mask) };
+}
+
+/**
+ * Noiseless acquisition of a phantom's exact (analytic) k-space on n×n through a Poisson-disc mask at
+ * R = 4 with an acs×acs block, drawn with `seed`: the CS solver tests' and benchmarks' input.
+ */
+export function poissonDiscAcquisition(
+  phantom: string,
+  n: number,
+  acs: number,
+  seed: number,
+): { kspace: ComplexImage; sampled: SampledMask } {
+  const full = fullKspaceFromPhantom(getPhantom(phantom), n, n, 'analytic');
+  const sampled = generateMask({ nx: n, ny: n }, { pattern: 'poisson-disc', acceleration: 4, acs, seed });
+  const { kspace } = acquire(full, sampled.mask, undefined, seed);
+  return { kspace, sampled };
 }

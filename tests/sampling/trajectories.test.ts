@@ -2,7 +2,8 @@ import { describe, expect, it } from 'vitest';
 import { radialAngles, tinyGoldenAngle } from '../../sampling/trajectories/radial-angles.ts';
 import { nyquistSpokeCount, radialTrajectory } from '../../sampling/trajectories/radial-trajectory.ts';
 import { nyquistSpiralInterleaves, spiralTrajectory } from '../../sampling/trajectories/spiral-trajectory.ts';
-import { LimitError, ValidationError } from '../../src/core/errors.ts';
+import { LimitError } from '../../src/core/errors.ts';
+import { validationFieldOf } from '../core/caught-validation-error.ts';
 import { nufftFixture } from '../nufft/nufft-fixture.ts';
 
 const degrees = (radians: number) => (radians * 180) / Math.PI;
@@ -71,15 +72,7 @@ describe('radial trajectory', () => {
   });
 
   it('bad specs name their field', () => {
-    const field = (fn: () => unknown) => {
-      try {
-        fn();
-      } catch (error) {
-        expect(error).toBeInstanceOf(ValidationError);
-        return (error as ValidationError).problems[0].field;
-      }
-      return 'no error';
-    };
+    const field = validationFieldOf;
     expect(field(() => radialTrajectory({ side: 0 }))).toBe('trajectory.side');
     expect(field(() => radialTrajectory({ side: 16, spokes: 2.5 }))).toBe('trajectory.spokes');
     expect(field(() => radialTrajectory({ side: 16, readoutOversampling: 0 }))).toBe(
