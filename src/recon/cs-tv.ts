@@ -4,7 +4,7 @@ import { type ComplexImage, createComplexImage } from '../core/complex-image.ts'
 import { throwIfAborted } from '../core/errors.ts';
 import type { ReconInput, ReconMethod, ReconOutput } from './method.ts';
 import { checkedNumber, iterationsToRun, type NumberRule } from './parameters.ts';
-import { divergence, gradient, totalVariation } from './total-variation.ts';
+import { divergence, gradient, totalVariation, tvDualStep } from './total-variation.ts';
 
 export const LAMBDA_RULE: NumberRule = { min: 0, max: 10 };
 export const TOLERANCE_RULE: NumberRule = { min: 0, max: 1, maxExclusive: true };
@@ -92,7 +92,6 @@ export function solveCsTv(
   }
   ifft2c(x, x);
   xBar.set(x.data);
-  const lambda2 = lambdaAbs * lambdaAbs;
   const damp = 1 / (1 + TAU);
   let run = 0;
   let change = Number.POSITIVE_INFINITY;
@@ -100,18 +99,7 @@ export function solveCsTv(
     throwIfAborted(signal);
     // Dual ascent and projection onto the λ-ball per pixel (isotropic over both directions and re/im).
     gradient(gx, gy, xBar, nx, ny);
-    for (let i = 0; i < 2 * n; i += 2) {
-      const a = px[i] + SIGMA * gx[i];
-      const b = px[i + 1] + SIGMA * gx[i + 1];
-      const c = py[i] + SIGMA * gy[i];
-      const d = py[i + 1] + SIGMA * gy[i + 1];
-      const s = a * a + b * b + c * c + d * d;
-      const scale = s > lambda2 ? lambdaAbs / Math.sqrt(s) : 1;
-      px[i] = a * scale;
-      px[i + 1] = b * scale;
-      py[i] = c * scale;
-      py[i + 1] = d * scale;
-    }
+    tvDualStep(px, py, gx, gy, SIGMA, lambdaAbs);
     // Primal step v = x − τ∇ᴴp = x + τ div p, then the exact data-term prox in k-space.
     divergence(div, px, py, nx, ny);
     const xd = x.data;

@@ -8,7 +8,7 @@ import { checkDwtShape, forwardDwt2, inverseDwt2 } from '../wavelets/dwt2.ts';
 import { detailL1, softThresholdDetails } from '../wavelets/soft-threshold.ts';
 import { zeroFilledPeak } from './cs-tv.ts';
 import type { ReconInput } from './method.ts';
-import { divergence, gradient, totalVariation } from './total-variation.ts';
+import { divergence, gradient, totalVariation, tvDualStep } from './total-variation.ts';
 
 export const CS_WAVELET_DEFAULT_WAVELET: WaveletName = 'db4';
 export const CS_WAVELET_DEFAULT_LEVELS = 4;
@@ -321,7 +321,6 @@ function primalDual(setup: Setup): Run {
   const kspace = new Float64Array(size);
   const h0 = ny >> levels;
   const w0 = nx >> levels;
-  const tv2 = lambdaTvAbs * lambdaTvAbs;
   const wl2 = lambdaAbs * lambdaAbs;
   const damp = 1 / (1 + PD_TAU);
   let run = 0;
@@ -330,18 +329,7 @@ function primalDual(setup: Setup): Run {
     throwIfAborted(signal);
     // Dual ascent on p (TV): projection onto the λ_TV ball per pixel, as cs-tv.
     gradient(gx, gy, xBar, nx, ny);
-    for (let i = 0; i < size; i += 2) {
-      const a = px[i] + PD_SIGMA * gx[i];
-      const b = px[i + 1] + PD_SIGMA * gx[i + 1];
-      const c = py[i] + PD_SIGMA * gy[i];
-      const d = py[i + 1] + PD_SIGMA * gy[i + 1];
-      const s = a * a + b * b + c * c + d * d;
-      const scale = s > tv2 ? lambdaTvAbs / Math.sqrt(s) : 1;
-      px[i] = a * scale;
-      px[i + 1] = b * scale;
-      py[i] = c * scale;
-      py[i + 1] = d * scale;
-    }
+    tvDualStep(px, py, gx, gy, PD_SIGMA, lambdaTvAbs);
     // Dual ascent on q (wavelet): projection onto |q| ≤ λ per detail coefficient; the unpenalised
     // approximation band has q = 0 (its conjugate is the indicator of {0}).
     forwardDwt2(coefficients, xBar, nx, ny, filters, levels);

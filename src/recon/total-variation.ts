@@ -71,6 +71,34 @@ export function divergence(
   }
 }
 
+/**
+ * One dual step of isotropic TV in a primal–dual scheme (Chambolle & Pock 2011): p ← p + σ∇x̄, then
+ * the projection onto the λ-ball per pixel, |p| taken over both directions and re/im. `gx`, `gy`
+ * hold ∇x̄ (from `gradient`); all arrays are interleaved complex of the same length.
+ */
+export function tvDualStep(
+  px: Float64Array,
+  py: Float64Array,
+  gx: Float64Array,
+  gy: Float64Array,
+  sigma: number,
+  lambda: number,
+): void {
+  const lambda2 = lambda * lambda;
+  for (let i = 0; i < px.length; i += 2) {
+    const a = px[i] + sigma * gx[i];
+    const b = px[i + 1] + sigma * gx[i + 1];
+    const c = py[i] + sigma * gy[i];
+    const d = py[i + 1] + sigma * gy[i + 1];
+    const s = a * a + b * b + c * c + d * d;
+    const scale = s > lambda2 ? lambda / Math.sqrt(s) : 1;
+    px[i] = a * scale;
+    px[i + 1] = b * scale;
+    py[i] = c * scale;
+    py[i + 1] = d * scale;
+  }
+}
+
 /** Isotropic TV of a complex image: Σ sqrt(|(∇x)₁|² + |(∇x)₂|²), complex moduli (docs/references.md §5.2). */
 export function totalVariation(x: Float64Array, nx: number, ny: number): number {
   let tv = 0;
