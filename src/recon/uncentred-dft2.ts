@@ -1,0 +1,111 @@
+import { type FftPlan, fftPlan } from '../core/fft-plan.ts';
+
+/**
+ * Unnormalised 2D DFT, X[k] = Σ_m x[m] e^(−i2π(ky·my/ny + kx·mx/nx)), of interleaved ny×nx arrays:
+ * rows into a scratch array, then columns (gathered into a plain line buffer, which fft.js runs
+ * faster on than on views) into the target. Options fold the pointwise steps of a convolution into the passes: the input
+ * rows can be taken as conj(source · m) for a real m, the output conjugated. Source and target
+ * may be the same array.
+ */
+export class Dft2 {
+  private readonly nx: number;
+  private readonly ny: number;
+  private readonly planX: FftPlan;
+  private readonly planY: FftPlan;
+  private readonly scratch: Float64Array;
+  private readonly scratchRows: Float64Array[];
+  private readonly rowIn: Float64Array;
+  private readonly columnIn: Float64Array;
+  private readonly columnOut: Float64Array;
+  /** Row views of the arrays transformed so far (a handful of fixed buffers). */
+  private readonly views = new Map<Float64Array, Float64Array[]>();
+
+  constructor(nx: number, ny: number) {
+    this.nx = nx;
+    this.ny = ny;
+    this.planX = fftPlan(nx);
+    this.planY = fftPlan(ny);
+    this.scratch = new Float64Array(2 * nx * ny);
+    this.scratchRows = rowViews(this.scratch, nx, ny);
+    this.rowIn = new Float64Array(2 * nx);
+    this.columnIn = new Float64Array(2 * ny);
+    this.columnOut = new Float64Array(2 * ny);
+  }
+
+  forward(
+    source: Float64Array,
+    target: Float64Array,
+    options: { multiplyConj?: Float64Array; conjugateOutput?: boolean } = {},
+  ): void {
+    const { nx, ny, planX, planY, scratch, scratchRows, rowIn, columnIn, columnOut } = this;
+    const { multiplyConj: m, conjugateOutput } = options;
+    let sourceRows = this.views.get(source);
+    if (sourceRows === undefined) {
+      sourceRows = rowViews(source, nx, ny);
+      this.views.set(source, sourceRows);
+    }
+    for (let r = 0; r < ny; r++) {
+      if (m === undefined) {
+        planX.forward(scratchRows[r], sourceRows[r]);
+        continue;
+      }
+      for (let c = 0, i = r * nx; c < nx; c++, i++) {
+        rowIn[2 * c] = source[2 * i] * m[i];
+        rowIn[2 * c + 1] = -source[2 * i + 1] * m[i];
+      }
+      planX.forward(scratchRows[r], rowIn);
+    }
+    const sign = conjugateOutput ? -1 : 1;
+    for (let c = 0; c < nx; c++) {
+      for (let r = 0, i = 2 * c; r < ny; r++, i += 2 * nx) {
+        columnIn[2 * r] = scratch[i];
+        columnIn[2 * r + 1] = scratch[i + 1];
+      }
+      planY.forward(columnOut, columnIn);
+      for (let r = 0, i = 2 * c; r < ny; r++, i += 2 * nx) {
+        target[i] = columnOut[2 * r];
+        target[i + 1] = sign * columnOut[2 * r + 1];
+      }
+    }
+  }
+
+  /**
+   * target (real, ny×nx) ← DFT(x) for an x whose DFT is known to be real (Hermitian symmetric
+   * about the origin) and whose non-zero rows are given compactly: grid row r is rows[slotOfRow[r]]
+   * (zero where the slot is −1). Columns c and c + 1 go through one complex FFT as
+   * col_c + i·col_{c+1}, whose real and imaginary parts are then the two real transforms.
+   */
+  forwardToReal(rows: Float64Array, slotOfRow: Int32Array, target: Float64Array): void {
+    const { nx, ny, planX, planY, scratch, scratchRows } = this;
+    let sourceRows = this.views.get(rows);
+    if (sourceRows === undefined) {
+      sourceRows = rowViews(rows, nx, rows.length / (2 * nx));
+      this.views.set(rows, sourceRows);
+    }
+    for (let r = 0; r < ny; r++) {
+      if (slotOfRow[r] < 0) scratch.fill(0, 2 * r * nx, 2 * (r + 1) * nx);
+      else planX.forward(scratchRows[r], sourceRows[slotOfRow[r]]);
+    }
+    const input = this.columnIn;
+    const output = this.columnOut;
+    for (let c = 0; c < nx; c += 2) {
+      const pair = c + 1 < nx;
+      for (let r = 0; r < ny; r++) {
+        const i = 2 * (r * nx + c);
+        input[2 * r] = pair ? scratch[i] - scratch[i + 3] : scratch[i];
+        input[2 * r + 1] = pair ? scratch[i + 1] + scratch[i + 2] : scratch[i + 1];
+      }
+      planY.forward(output, input);
+      for (let r = 0; r < ny; r++) {
+        target[r * nx + c] = output[2 * r];
+        if (pair) target[r * nx + c + 1] = output[2 * r + 1];
+      }
+    }
+  }
+}
+
+function rowViews(data: Float64Array, nx: number, ny: number): Float64Array[] {
+  const views: Float64Array[] = [];
+  for (let r = 0; r < ny; r++) views.push(data.subarray(2 * r * nx, 2 * (r + 1) * nx));
+  return views;
+}
