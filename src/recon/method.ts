@@ -1,14 +1,38 @@
 import type { z } from 'zod';
 import type { ComplexImage } from '../core/complex-image.ts';
+import { ValidationError } from '../core/errors.ts';
 import type { Limits } from '../core/limits.ts';
+import type { CoilMaps, MultiCoilKspace } from '../encoding/multi-coil.ts';
+
+/**
+ * Multi-coil data of a receive array (any array but the uniform single coil), in the encoding
+ * operator's coil-major layout (src/encoding/multi-coil.ts). Already prewhitened when the noise
+ * covariance Ψ is known, so methods treat the coils' noise as white and independent.
+ */
+export interface CoilData {
+  /** Acquired coil k-space, one centred plane per coil; zeros where not sampled. */
+  kspace: MultiCoilKspace;
+  /**
+   * Sensitivities the simulation used (the truth, prewhitened like the data) or uploaded maps;
+   * absent when none are known (raw data). Methods that estimate their own maps ignore them.
+   */
+  maps?: CoilMaps;
+}
 
 /** Acquired k-space (zeros where not sampled) with its mask and, for variable-density patterns, the sampling density. */
 export interface ReconInput {
+  /**
+   * Single coil: the acquired k-space. With `coils`: the k-space of the zero-filled coil combination
+   * (sensitivity-weighted when maps are known, else root-sum-of-squares), for scales and display
+   * only; a method reconstructs from `coils`.
+   */
   kspace: ComplexImage;
   /** ny·nx, 1 = acquired; same row-major layout as `kspace`. */
   mask: Uint8Array;
   /** Per grid point sampling probability (0 < p ≤ 1 where sampled), for density compensation. */
   density?: Float64Array;
+  /** Present for a receive array of more than the one uniform coil. */
+  coils?: CoilData;
 }
 
 export interface ReconOptions {
@@ -31,4 +55,18 @@ export interface ReconMethod<Spec extends { name: string } = { name: string }> {
   readonly name: Spec['name'];
   readonly schema: z.ZodType<Spec>;
   run(input: ReconInput, spec: Spec, options: { signal?: AbortSignal; limits: Limits }): ReconOutput;
+}
+
+/**
+ * Refuses multi-coil data in a method that has no multi-coil form yet (a ValidationError naming
+ * `coils`), so a coil array is never silently reduced to one coil.
+ */
+export function refuseCoilArray(input: ReconInput, method: string): void {
+  if (input.coils) {
+    throw new ValidationError({
+      field: 'coils',
+      message: `${method} does not reconstruct receive-array data yet`,
+      allowed: 'coils: { array: "uniform" }',
+    });
+  }
 }

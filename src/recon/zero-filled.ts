@@ -2,7 +2,7 @@ import { z } from 'zod';
 import { ifft2c } from '../core/centered-fft.ts';
 import { createComplexImage } from '../core/complex-image.ts';
 import { ValidationError } from '../core/errors.ts';
-import type { ReconInput, ReconMethod, ReconOutput } from './method.ts';
+import { type ReconInput, type ReconMethod, type ReconOutput, refuseCoilArray } from './method.ts';
 
 export const zeroFilledSchema = z.strictObject({
   name: z.literal('zero-filled'),
@@ -47,6 +47,7 @@ export const zeroFilled: ReconMethod<ZeroFilledSpec> = {
   name: 'zero-filled',
   schema: zeroFilledSchema,
   run(input, spec) {
+    refuseCoilArray(input, 'zero-filled');
     if (spec.densityCompensation !== undefined && typeof spec.densityCompensation !== 'boolean') {
       throw new ValidationError({
         field: 'method.densityCompensation',
