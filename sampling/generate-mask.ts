@@ -5,6 +5,8 @@ import type { Matrix } from '../src/core/matrix.ts';
 import { cartesianRandomMask } from './cartesian-random.ts';
 import { cartesianUniformMask } from './cartesian-uniform.ts';
 import { decodeCustomMask } from './custom.ts';
+import { latticeMask } from './lattice.ts';
+import { applyPartialFourier } from './partial-fourier.ts';
 import { poissonDiscMask } from './poisson-disc.ts';
 import { radialMask } from './radial.ts';
 import type { SampledMask } from './sampled-mask.ts';
@@ -27,11 +29,13 @@ export function generateMask(
   assertMatrixSize(matrix.nx, matrix.ny);
   switch (spec.pattern) {
     case 'cartesian-uniform':
-      return cartesianUniformMask(matrix, spec);
+      return applyPartialFourier(cartesianUniformMask(matrix, spec), spec.partialFourier);
     case 'cartesian-random':
-      return cartesianRandomMask(matrix, spec);
+      return applyPartialFourier(cartesianRandomMask(matrix, spec), spec.partialFourier);
     case 'poisson-disc':
-      return poissonDiscMask(matrix, spec, signal);
+      return applyPartialFourier(poissonDiscMask(matrix, spec, signal), spec.partialFourier);
+    case 'lattice':
+      return applyPartialFourier(latticeMask(matrix, spec), spec.partialFourier);
     case 'radial':
       return radialMask(matrix, spec);
     case 'custom':
@@ -39,7 +43,7 @@ export function generateMask(
         field: 'sampling.pattern',
         message: "a 'custom' mask is a PNG to decode: use resolveSampling",
         allowed:
-          "'cartesian-uniform', 'cartesian-random', 'poisson-disc', 'radial' (custom through resolveSampling)",
+          "'cartesian-uniform', 'cartesian-random', 'poisson-disc', 'radial', 'lattice' (custom through resolveSampling)",
       });
   }
 }
@@ -53,7 +57,7 @@ export async function resolveSampling(
 ): Promise<SampledMask> {
   if (spec.pattern === 'custom') {
     assertMatrixSize(matrix.nx, matrix.ny);
-    return decodeCustomMask(matrix, spec, limits);
+    return applyPartialFourier(await decodeCustomMask(matrix, spec, limits), spec.partialFourier);
   }
   return generateMask(matrix, spec, limits, signal);
 }

@@ -3,6 +3,14 @@ export { DEFAULT_DENSITY_POWER, lineDensityWeights } from './cartesian-random.ts
 export { customMaskFromArray } from './custom.ts';
 export { DEFAULT_MAIN_LOBE_RADIUS, type MaskDiagnostics, maskDiagnostics } from './diagnostics.ts';
 export { generateMask, resolveSampling } from './generate-mask.ts';
+export { latticeAliasOffsets } from './lattice.ts';
+export {
+  applyPartialFourier,
+  keptRowCount,
+  occupiedRows,
+  type PartialFourierBand,
+  partialFourierBand,
+} from './partial-fourier.ts';
 export { DEFAULT_POISSON_POWER, poissonRadiusProfile } from './poisson-disc.ts';
 export { GOLDEN_ANGLE, GOLDEN_RATIO, nyquistSpokes, spokeAngles } from './radial.ts';
 export { countSampled, type SampledMask } from './sampled-mask.ts';
@@ -10,6 +18,8 @@ export {
   cartesianRandomSchema,
   cartesianUniformSchema,
   customSchema,
+  type LatticeSpec,
+  latticeSchema,
   parseSampling,
   poissonDiscSchema,
   radialSchema,

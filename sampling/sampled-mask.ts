@@ -1,4 +1,5 @@
 import type { AcquiredUnit } from './acquired-unit.ts';
+import type { PartialFourierBand } from './partial-fourier.ts';
 
 /**
  * A generated k-space sampling mask and its bookkeeping. The mask is ny×nx row-major (rows = phase
@@ -24,6 +25,8 @@ export interface SampledMask {
   /** Per grid point sampling probability of the variable-density patterns (ny·nx), for density compensation. */
   density?: Float64Array;
   seed: number | null;
+  /** Present when partial Fourier removed the rows before `firstRow` (sampling.partialFourier < 1). */
+  partialFourier?: PartialFourierBand;
   /** Pattern-specific facts worth reporting (radius law and scale, acceleration basis, …). */
   details?: Record<string, number | string>;
 }

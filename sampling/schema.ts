@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { type FieldProblem, ValidationError } from '../src/core/errors.ts';
 import { problemsFromIssues } from '../src/core/zod-problems.ts';
+import { partialFourierFraction } from './partial-fourier.ts';
 
 /**
  * The "sampling" piece of a request (docs/design.md §4.3): one object per mask family, told apart by `pattern`.
@@ -14,6 +15,7 @@ export const SAMPLING_PATTERNS = [
   'poisson-disc',
   'radial',
   'custom',
+  'lattice',
 ] as const;
 export type SamplingPattern = (typeof SAMPLING_PATTERNS)[number];
 
@@ -72,6 +74,7 @@ export const cartesianUniformSchema = z.strictObject({
   acceleration,
   acs,
   seed,
+  partialFourier: partialFourierFraction,
 });
 
 export const cartesianRandomSchema = z.strictObject({
@@ -80,6 +83,7 @@ export const cartesianRandomSchema = z.strictObject({
   acs,
   seed,
   density: densitySchema(0, MAX_LINE_DENSITY_POWER, 'probability ∝ (1 − |ky|/max|ky|)^power'),
+  partialFourier: partialFourierFraction,
 });
 
 export const poissonDiscSchema = z.strictObject({
@@ -92,6 +96,7 @@ export const poissonDiscSchema = z.strictObject({
     MAX_POISSON_DENSITY_POWER,
     'disc radius ∝ (1 + ρ)^(power/2), density ∝ (1 + ρ)^(−power)',
   ),
+  partialFourier: partialFourierFraction,
 });
 
 export const radialSchema = z.strictObject({
@@ -118,6 +123,32 @@ export const customSchema = z.strictObject({
         'Its length is bounded by the JSON body limit (MAX_JSON_BYTES).',
     ),
   seed,
+  partialFourier: partialFourierFraction,
+});
+
+/** Lattice sides: a step of more than 64 along either axis leaves too little to reconstruct. */
+export const MAX_LATTICE_STEP = 64;
+
+export const latticeSchema = z.strictObject({
+  pattern: z.literal('lattice'),
+  acceleration: z
+    .int()
+    .min(1)
+    .describe('Exact R of the lattice (ACS excluded): an integer multiple of `rows`, R/rows the kz step.'),
+  rows: z
+    .int()
+    .min(1)
+    .max(MAX_LATTICE_STEP)
+    .describe('step of the lattice along ky (rows of the ny×nx plane)'),
+  shift: z
+    .int()
+    .min(0)
+    .max(MAX_LATTICE_STEP - 1)
+    .optional()
+    .describe('kz offset added from one lattice row to the next, 0 ≤ shift < R/rows (default 0)'),
+  acs,
+  seed,
+  partialFourier: partialFourierFraction,
 });
 
 export const samplingSchema = z.discriminatedUnion('pattern', [
@@ -126,6 +157,7 @@ export const samplingSchema = z.discriminatedUnion('pattern', [
   poissonDiscSchema,
   radialSchema,
   customSchema,
+  latticeSchema,
 ]);
 
 export type SamplingSpec = z.infer<typeof samplingSchema>;
@@ -134,6 +166,7 @@ export type CartesianRandomSpec = z.infer<typeof cartesianRandomSchema>;
 export type PoissonDiscSpec = z.infer<typeof poissonDiscSchema>;
 export type RadialSpec = z.infer<typeof radialSchema>;
 export type CustomSpec = z.infer<typeof customSchema>;
+export type LatticeSpec = z.infer<typeof latticeSchema>;
 
 /** zod issues → field problems whose paths start with `prefix` (e.g. "sampling"): the one converter. */
 export function zodProblems(error: z.ZodError, prefix: string): FieldProblem[] {

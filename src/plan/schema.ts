@@ -9,6 +9,7 @@ import {
   cartesianRandomSchema,
   cartesianUniformSchema,
   customSchema,
+  latticeSchema,
   methodSchemaFor,
   noiseSchema,
   poissonDiscSchema,
@@ -39,6 +40,7 @@ export const planPatternSchema = z
     poissonDiscSchema.omit(planKeys),
     radialSchema.omit(planKeys),
     customSchema.omit({ seed: true }),
+    latticeSchema.omit(planKeys),
   ])
   .describe('A sampling spec without acceleration (from accelerations) and seed (from seeds)');
 

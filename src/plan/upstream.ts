@@ -8,6 +8,7 @@ export {
   cartesianRandomSchema,
   cartesianUniformSchema,
   customSchema,
+  latticeSchema,
   generateMask,
   poissonDiscSchema,
   radialSchema,
