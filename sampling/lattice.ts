@@ -5,7 +5,7 @@ import type { LatticeSpec } from './schema.ts';
 
 /**
  * Two-direction undersampling of the ky–kz plane on a sheared lattice (the idea of Breuer et al.
- * 2006, docs/references.md §15): with ky, kz counted from the centre (⌊ny/2⌋, ⌊nx/2⌋), the point
+ * 2006, docs/references.md §3.7): with ky, kz counted from the centre (⌊ny/2⌋, ⌊nx/2⌋), the point
  * (ky, kz) is sampled when
  *   ky ≡ 0 (mod rows)  and  kz ≡ shift·ky/rows (mod R/rows),
  * i.e. every `rows`-th ky row, every (R/rows)-th kz column in it, each lattice row moved along kz by

@@ -17,6 +17,19 @@ export const partialFourierFraction = z
       'ny − ⌈p·ny⌉ … ny − 1, which hold the centre row ⌊ny/2⌋. Cartesian patterns only',
   );
 
+/**
+ * The field on non-Cartesian patterns: only 1 (full ky) is accepted, anything else a 422 naming
+ * `sampling.partialFourier` (a spoke through the centre has no half to leave out).
+ */
+export const noPartialFourier = z
+  .number()
+  .refine((p) => p === 1, {
+    message: 'partial Fourier applies to Cartesian patterns only',
+    params: { allowed: '1 or omitted for non-Cartesian patterns' },
+  })
+  .optional()
+  .describe('not available for non-Cartesian sampling: 1 or omitted');
+
 /** The kept band of a partial-Fourier acquisition: rows [firstRow, ny). */
 export interface PartialFourierBand {
   /** The requested fraction p. */

@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { type FieldProblem, ValidationError } from '../src/core/errors.ts';
 import { problemsFromIssues } from '../src/core/zod-problems.ts';
-import { partialFourierFraction } from './partial-fourier.ts';
+import { noPartialFourier, partialFourierFraction } from './partial-fourier.ts';
 
 /**
  * The "sampling" piece of a request (docs/design.md §4.3): one object per mask family, told apart by `pattern`.
@@ -107,6 +107,7 @@ export const radialSchema = z.strictObject({
     .optional()
     .describe('Spoke angles: equally spaced over 180°, or golden-angle increments 180°/φ (default uniform).'),
   seed,
+  partialFourier: noPartialFourier,
 });
 
 /** Standard base64 alphabet with optional padding (RFC 4648 §4); whitespace is not accepted. */

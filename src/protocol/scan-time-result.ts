@@ -10,7 +10,20 @@ export const scanTimeResultSchema = z.object({
     .describe('count that costs time: phase-encode lines (2D), ky–kz points (3D) or spokes (radial)'),
   unit: acquiredUnitSchema,
   shots: z.int().describe('⌈acquired / echoTrainLength⌉: TRs per pass and per average'),
-  passes: z.int().describe('⌈slices / slicesPerPass⌉ (2D); 1 in 3D'),
+  passes: z.int().describe('⌈slices / slicesPerPass⌉, slicesPerPass defaulting to slicesPerTr (2D); 1 in 3D'),
+  slicesPerTr: z
+    .int()
+    .describe(
+      '2D slices acquired within one TR: ⌊TR / (echoTrainLength × echoSpacingMs + sliceOverheadMs)⌋ with ' +
+        'echoSpacingMs, else slicesPerPass (default all slices); 1 in 3D',
+    ),
+  effectiveTeMs: z
+    .number()
+    .nullable()
+    .describe(
+      'time of the echo that acquires the k-space centre, ms (from echoSpacingMs and the ordering, or teMs); ' +
+        'null when neither is given',
+    ),
 });
 
 export type ScanTime = z.infer<typeof scanTimeResultSchema>;

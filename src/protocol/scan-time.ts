@@ -1,4 +1,6 @@
+import { occupiedRows } from '../../sampling/index.ts';
 import { ValidationError } from '../core/errors.ts';
+import { effectiveTeMs, sliceTiming } from './echo-train-timing.ts';
 import { formatDuration } from './format-duration.ts';
 import type { ScanTime } from './scan-time-result.ts';
 import type { Protocol } from './schema.ts';
@@ -12,6 +14,8 @@ export interface ScanTimeSampling {
   mask: Uint8Array;
   acquired: { count: number; unit: string };
   representation: 'cartesian' | 'radial-rasterised';
+  /** Set when the sampling itself applied partial Fourier (sampling.partialFourier). */
+  partialFourier?: { fraction: number };
 }
 
 /**
@@ -26,8 +30,12 @@ export interface ScanTimeSampling {
  *
  * Partial Fourier p keeps the ⌈p·ny⌉ rows `ny − ⌈p·ny⌉ … ny − 1` (one half of ky plus the centre row
  * ⌊ny/2⌋ and the extra rows beyond it); rows outside that band are skipped even where the mask
- * samples them. Without a mask this is the handbook ⌈p·N_pe⌉. The simulated reconstruction does not
- * model partial Fourier: image errors are those of the mask alone. Radial sampling takes p = 1.
+ * samples them. Without a mask this is the handbook ⌈p·N_pe⌉. `sampling.partialFourier` removes
+ * those rows from the mask itself (so the simulation sees them missing too); the protocol's
+ * `partialFourier` is its deprecated alias for the same rows, and the two must agree when both are
+ * given. Radial sampling takes p = 1.
+ *
+ * Passes, slices per TR and the effective TE: echo-train-timing.ts.
  *
  * Matrix and protocol come parsed (the request schema, or protocolSchema through parseOrThrow);
  * only what needs the mask is checked here.
@@ -45,12 +53,24 @@ export function scanTime(
       allowed: 'the mask size equal to the matrix',
     });
   }
-  const passes =
-    protocol.dimensions === '2d'
-      ? Math.ceil(protocol.slices / (protocol.slicesPerPass ?? protocol.slices))
-      : 1;
+  const sampledFraction = sampled?.partialFourier?.fraction;
+  if (
+    sampledFraction !== undefined &&
+    protocol.partialFourier !== 1 &&
+    protocol.partialFourier !== sampledFraction
+  ) {
+    const message = `sampling.partialFourier ${sampledFraction} and its deprecated alias protocol.partialFourier ${protocol.partialFourier} disagree`;
+    const allowed = 'sampling.partialFourier alone, or protocol.partialFourier equal to it';
+    throw new ValidationError([
+      { field: 'sampling.partialFourier', message, allowed },
+      { field: 'protocol.partialFourier', message, allowed },
+    ]);
+  }
+  const { slicesPerTr, passes } = sliceTiming(protocol);
 
   let acquired: number;
+  // Acquired units ahead of the k-space centre in ky order (linear echo ordering); null for radial.
+  let before: number | null = null;
   let unit: ScanTime['unit'];
   if (sampled?.representation === 'radial-rasterised') {
     if (protocol.dimensions !== '2d') {
@@ -72,38 +92,36 @@ export function scanTime(
   } else {
     const keptRows = Math.ceil(protocol.partialFourier * ny - 1e-9);
     const firstRow = ny - keptRows;
+    const centreRow = Math.floor(ny / 2);
     if (protocol.dimensions === '2d') {
       acquired = sampled ? occupiedRows(sampled.mask, nx, firstRow, ny) : keptRows;
+      before = sampled ? occupiedRows(sampled.mask, nx, firstRow, centreRow) : centreRow - firstRow;
       unit = 'lines';
     } else {
-      acquired = sampled ? sampledPoints(sampled.mask, nx, firstRow, ny) : keptRows * nx;
+      const centre = centreRow * nx + Math.floor(nx / 2);
+      acquired = sampled ? sampledPoints(sampled.mask, firstRow * nx, ny * nx) : keptRows * nx;
+      before = sampled ? sampledPoints(sampled.mask, firstRow * nx, centre) : centre - firstRow * nx;
       unit = 'points';
     }
   }
   const shots = Math.ceil(acquired / protocol.echoTrainLength);
   // Integer product first, one division last: 10 ms × 16384 gives exactly 163.84 s.
   const seconds = (protocol.trMs * shots * protocol.averages * passes) / 1000;
-  return { seconds, formatted: formatDuration(seconds), acquired, unit, shots, passes };
+  return {
+    seconds,
+    formatted: formatDuration(seconds),
+    acquired,
+    unit,
+    shots,
+    passes,
+    slicesPerTr,
+    effectiveTeMs: effectiveTeMs(protocol, before, shots),
+  };
 }
 
-/** Rows in [firstRow, lastRow) with at least one sampled point. */
-function occupiedRows(mask: Uint8Array, nx: number, firstRow: number, lastRow: number): number {
-  let rows = 0;
-  for (let row = firstRow; row < lastRow; row++) {
-    const start = row * nx;
-    for (let col = 0; col < nx; col++) {
-      if (mask[start + col] !== 0) {
-        rows++;
-        break;
-      }
-    }
-  }
-  return rows;
-}
-
-/** Sampled points in rows [firstRow, lastRow). */
-function sampledPoints(mask: Uint8Array, nx: number, firstRow: number, lastRow: number): number {
+/** Sampled points at flat indices [from, to). */
+function sampledPoints(mask: Uint8Array, from: number, to: number): number {
   let points = 0;
-  for (let i = firstRow * nx; i < lastRow * nx; i++) if (mask[i] !== 0) points++;
+  for (let i = from; i < to; i++) if (mask[i] !== 0) points++;
   return points;
 }

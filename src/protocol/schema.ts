@@ -15,6 +15,42 @@ import { z } from 'zod';
  */
 const averagesValue = z.int().min(1).max(64);
 
+/**
+ * Echo-train timing (docs/design.md §2.2): with `echoSpacingMs` the slices per TR follow from the
+ * train's length, ⌊TR / (echoTrainLength × echoSpacingMs + sliceOverheadMs)⌋; without it the model
+ * is the one above (`slicesPerPass`, default all slices). `teMs` is the requested effective TE.
+ */
+const timingFields = {
+  echoSpacingMs: z
+    .number()
+    .positive()
+    .max(1000)
+    .optional()
+    .describe('time between echoes of a train, ms; enables the slices-per-TR and effective-TE model'),
+  teMs: z
+    .number()
+    .positive()
+    .max(100_000)
+    .optional()
+    .describe(
+      'requested effective TE, ms: the echo that acquires the k-space centre is the one nearest it ' +
+        '(needs ES ≤ teMs ≤ echoTrainLength × ES with echoSpacingMs)',
+    ),
+  echoOrder: z
+    .enum(['linear', 'centric'])
+    .optional()
+    .describe(
+      "echo ordering without teMs: 'linear' sweeps ky across the train (the centre where the sweep reaches it), " +
+        "'centric' starts at the centre (effective TE = one echo spacing); default linear",
+    ),
+  sliceOverheadMs: z
+    .number()
+    .min(0)
+    .max(100_000)
+    .optional()
+    .describe('time each slice needs beyond its echo train (excitation, spoilers), ms; default 0'),
+};
+
 // Two groups so that `averages` sits after `trMs` in both schemas (and in openapi.yaml).
 const leadingFields = {
   dimensions: z.enum(['2d', '3d']).default('2d').describe("'2d' multi-slice or '3d' (ny×nx = ky×kz)"),
@@ -40,7 +76,11 @@ const trailingFields = {
     .min(0.5)
     .max(1)
     .default(1)
-    .describe('fraction p of the phase-encode (ky) extent acquired, 0.5…1; keeps ⌈p·ny⌉ rows'),
+    .describe(
+      'fraction p of the phase-encode (ky) extent acquired, 0.5…1; keeps ⌈p·ny⌉ rows. Deprecated alias of ' +
+        'sampling.partialFourier (the same rows), accepted in this version; when both are given they must agree',
+    ),
+  ...timingFields,
 };
 
 const averagesDescription = 'number of signal averages (DICOM Number of Averages, 0018,0083), integer ≥ 1';
