@@ -21,7 +21,13 @@ import type { RealImage } from '../core/real-image.ts';
 import { parseOrThrow } from '../core/zod-problems.ts';
 import { type MetricSet, SSIM_RADIUS, scoreAll } from '../metrics/index.ts';
 import { getPhantom } from '../phantoms/index.ts';
-import { type MethodSpec, methodSchemaFor, reconstruct, zeroFilledImage } from '../recon/index.ts';
+import {
+  type MethodSpec,
+  methodSchemaFor,
+  partialFourierStep,
+  reconstruct,
+  zeroFilledImage,
+} from '../recon/index.ts';
 import { resampleBilinear } from './resample.ts';
 
 export const sourceSchema = z.union([
@@ -209,13 +215,14 @@ export async function runReconstruction(
   const input = { kspace, mask: sampled.mask, density: sampled.density };
 
   const started = performance.now();
-  const result = reconstruct(input, req.method, { signal: ctx.signal, limits });
+  const methodOutput = reconstruct(input, req.method, { signal: ctx.signal, limits });
+  const result = partialFourierStep(methodOutput, input, req.method, sampled.partialFourier, ctx.signal);
   const reconMs = performance.now() - started;
   if (result.info.note) notes.push(String(result.info.note));
 
   const reconstruction = magnitudeImage(result.image);
   const zeroFilled =
-    req.method.name === 'zero-filled' && !req.method.densityCompensation
+    req.method.name === 'zero-filled' && !req.method.densityCompensation && result.image === methodOutput.image
       ? reconstruction
       : magnitudeImage(zeroFilledImage(input).image);
   const reference = magnitudeImage(full.reference);

@@ -4,9 +4,15 @@ import { withinLimit } from '../core/zod-problems.ts';
 import { csTv, csTvSchema } from './cs-tv.ts';
 import { lowrankHankel, lowrankHankelSchema } from './lowrank-hankel.ts';
 import type { ReconInput, ReconMethod, ReconOutput } from './method.ts';
+import { partialFourierMethodField as pf } from './partial-fourier/partial-fourier-step.ts';
 import { zeroFilled, zeroFilledSchema } from './zero-filled.ts';
 
-export const methodSchema = z.discriminatedUnion('name', [zeroFilledSchema, csTvSchema, lowrankHankelSchema]);
+// Every method takes `partialFourier` (how rows left out by partial Fourier are filled; a step after the method).
+export const methodSchema = z.discriminatedUnion('name', [
+  zeroFilledSchema.extend(pf),
+  csTvSchema.extend(pf),
+  lowrankHankelSchema.extend(pf),
+]);
 export type MethodSpec = z.infer<typeof methodSchema>;
 export type MethodName = MethodSpec['name'];
 
@@ -53,10 +59,11 @@ export function methodSchemaFor(limits: Limits): typeof methodSchema {
   let schema = limitedSchemas.get(max);
   if (!schema) {
     schema = z.discriminatedUnion('name', [
-      zeroFilledSchema,
-      csTvSchema.extend({ iterations: limitedIterations(csTvSchema.shape.iterations, max) }),
+      zeroFilledSchema.extend(pf),
+      csTvSchema.extend({ iterations: limitedIterations(csTvSchema.shape.iterations, max), ...pf }),
       lowrankHankelSchema.extend({
         iterations: limitedIterations(lowrankHankelSchema.shape.iterations, max),
+        ...pf,
       }),
     ]) as typeof methodSchema;
     limitedSchemas.set(max, schema);
