@@ -100,16 +100,16 @@ function errors(truth: ComplexImage, fraction: number) {
 
 describe('homodyne (Noll, Nishimura & Macovski 1991) and POCS (Haacke, Lindskog & Lin 1991) at p = 0.625, 64²', () => {
   // NRMSE of the magnitude against the true magnitude. Measured values; slack ±0.002.
-  it('a smooth phase (0.8·x + 0.5·y²): zero-fill 0.2393, homodyne 0.0420, POCS 0.0155', () => {
+  it('a smooth phase (0.8·x + 0.5·y²): zero-fill 0.2393, homodyne 0.0420, POCS 0.0393', () => {
     const e = errors(
       phasedObject(64, (x, y) => 0.8 * x + 0.5 * y * y),
       0.625,
     );
     expect(Math.abs(e.zeroFill - 0.2393)).toBeLessThan(0.002);
     expect(Math.abs(e.homodyne - 0.042)).toBeLessThan(0.002);
-    expect(Math.abs(e.pocs - 0.0155)).toBeLessThan(0.002);
+    expect(Math.abs(e.pocs - 0.0393)).toBeLessThan(0.002);
     expect(e.homodyne).toBeLessThan(e.zeroFill / 5);
-    expect(e.pocs).toBeLessThan(e.zeroFill / 10);
+    expect(e.pocs).toBeLessThan(e.zeroFill / 5);
   });
 
   it('the error grows with the phase bandwidth: φ = cos(π·f·y), f cycles per FOV, band half-width h = 8 rows', () => {
@@ -117,7 +117,7 @@ describe('homodyne (Noll, Nishimura & Macovski 1991) and POCS (Haacke, Lindskog 
     // resolves phase variations up to about 8 cycles per FOV, less after its Hann window.
     const measured = {
       homodyne: [0.0752, 0.1445, 0.2625, 0.4716, 0.5382],
-      pocs: [0.0336, 0.0746, 0.1343, 0.2526, 0.5507],
+      pocs: [0.0417, 0.0876, 0.1696, 0.3673, 0.5384],
     };
     const rows = [1, 2, 4, 8, 16].map((f) =>
       errors(
@@ -135,27 +135,28 @@ describe('homodyne (Noll, Nishimura & Macovski 1991) and POCS (Haacke, Lindskog 
     });
     // Well inside the band both beat zero-filling; at and beyond h homodyne is worse than zero-filling.
     expect(rows[0].homodyne).toBeLessThan(rows[0].zeroFill / 3);
-    expect(rows[0].pocs).toBeLessThan(rows[0].zeroFill / 6);
+    expect(rows[0].pocs).toBeLessThan(rows[0].zeroFill / 5);
+    expect(rows[3].pocs).toBeGreaterThan(rows[3].zeroFill);
     expect(rows[3].homodyne).toBeGreaterThan(rows[3].zeroFill);
   });
 
   it('a real object (φ = 0): exact on an odd grid; on an even one only the unpartnered row and column are lost', () => {
     // Odd 63²: H(k) + H(−k) = 2 on every row, so homodyne is exact for a Hermitian spectrum (measured
-    // 2.8e-14); POCS converges towards it (3.5e-7 after its 30 iterations). Zero-fill: 0.2234.
+    // 2.8e-14); POCS converges towards it (2.1e-10 after its 30 iterations). Zero-fill: 0.2234.
     const odd = errors(
       phasedObject(63, () => 0),
       0.625,
     );
     expect(odd.homodyne).toBeLessThan(1e-12);
-    expect(odd.pocs).toBeLessThan(1e-6);
+    expect(odd.pocs).toBeLessThan(1e-8);
     expect(Math.abs(odd.zeroFill - 0.2234)).toBeLessThan(0.002);
-    // Even 64²: measured homodyne 0.0370, POCS 0.0102, zero-fill 0.2372 (slack ±0.002).
+    // Even 64²: measured homodyne 0.0370, POCS 0.0370 (it converges to the same fixed point), zero-fill 0.2372 (slack ±0.002).
     const even = errors(
       phasedObject(64, () => 0),
       0.625,
     );
     expect(Math.abs(even.homodyne - 0.037)).toBeLessThan(0.002);
-    expect(Math.abs(even.pocs - 0.0102)).toBeLessThan(0.002);
+    expect(Math.abs(even.pocs - 0.037)).toBeLessThan(0.002);
     expect(Math.abs(even.zeroFill - 0.2372)).toBeLessThan(0.002);
   });
 });

@@ -8,8 +8,10 @@ export const POCS_ITERATIONS = 30;
 
 /**
  * Projection onto convex sets for partial Fourier (Haacke, Lindskog & Lin 1991; docs/references.md
- * §5.4). Starting from the zero-filled image, alternate (1) the phase constraint: keep the
- * magnitude, take the low-resolution phase φ, x ← |x|·e^{iφ}; (2) data consistency: the k-space of
+ * §5.4). Starting from the zero-filled image, alternate (1) the phase constraint, the projection
+ * onto the images whose phase is the low-resolution φ (mod π), a linear subspace:
+ * x ← Re{x·e^{−iφ}}·e^{iφ} (a real value may be negative, as band-limited ringing is);
+ * (2) data consistency: the k-space of
  * x with every `known` sample put back. The last iterate's image is returned. `known` (ny·nx, 1 = a
  * measured or already reconstructed value) marks what is kept; rows before `firstRow` are never known.
  */
@@ -34,7 +36,7 @@ export function pocsReconstruction(
   for (let it = 0; it < iterations; it++) {
     throwIfAborted(options.signal);
     for (let i = 0; i < n; i++) {
-      const r = Math.hypot(e[2 * i], e[2 * i + 1]);
+      const r = e[2 * i] * phase[2 * i] + e[2 * i + 1] * phase[2 * i + 1];
       e[2 * i] = r * phase[2 * i];
       e[2 * i + 1] = r * phase[2 * i + 1];
     }
