@@ -222,7 +222,9 @@ export async function runReconstruction(
 
   const reconstruction = magnitudeImage(result.image);
   const zeroFilled =
-    req.method.name === 'zero-filled' && !req.method.densityCompensation && result.image === methodOutput.image
+    req.method.name === 'zero-filled' &&
+    !req.method.densityCompensation &&
+    result.image === methodOutput.image
       ? reconstruction
       : magnitudeImage(zeroFilledImage(input).image);
   const reference = magnitudeImage(full.reference);

@@ -72,6 +72,7 @@ export function buildTable(plan: TablePlan, cellResults: readonly CellResult[]):
       scanSeconds,
       scanFormatted: formatDuration(scanSeconds),
       timeSavedPct: full.seconds > 0 ? 100 * (1 - scanSeconds / full.seconds) : 0,
+      effectiveTeMs: meanOrNull(results.map((r) => r.effectiveTeMs ?? null)),
       metrics,
       reconMs: mean(results.map((r) => r.reconMs)),
       seeds: results.length,
@@ -135,8 +136,21 @@ function tableNotes(plan: TablePlan, rows: readonly PlanRow[], cellResults: read
   }
   if (partialFourier < 1) {
     notes.push(
-      `Partial Fourier ${partialFourier}: scan times count only the kept phase-encode rows; ` +
-        'the simulated reconstruction does not model partial Fourier, so errors are those of the mask alone.',
+      `Partial Fourier ${partialFourier}: scan times count only the kept phase-encode rows, and the simulated ` +
+        'acquisitions of Cartesian patterns leave the other rows out too (protocol.partialFourier is the ' +
+        'deprecated alias of sampling.partialFourier).',
+    );
+  }
+  const partialFourierPatterns = plan.patterns.filter(
+    (p): p is typeof p & { partialFourier: number } =>
+      'partialFourier' in p && typeof p.partialFourier === 'number' && p.partialFourier < 1,
+  );
+  if (partialFourierPatterns.length > 0) {
+    const fractions = [...new Set(partialFourierPatterns.map((p) => p.partialFourier))].join(', ');
+    notes.push(
+      `Partial Fourier (${fractions}) in the sampling: part of those rows' time saved comes from leaving ` +
+        'out one side of ky (⌈p·ny⌉ of ny rows kept), not from undersampling; the methods fill the missing rows ' +
+        "as their partialFourier choice says (zero-fill unless 'homodyne' or 'pocs').",
     );
   }
   if (rows.some((row) => row.acquiredUnit === 'spokes')) {
@@ -153,4 +167,9 @@ function tableNotes(plan: TablePlan, rows: readonly PlanRow[], cellResults: read
   for (const result of cellResults)
     for (const note of result.notes) if (!notes.includes(note)) notes.push(note);
   return notes;
+}
+
+/** Mean of the values, or null when any is null (a cell without a TE model). */
+function meanOrNull(values: readonly (number | null)[]): number | null {
+  return values.every((v): v is number => v !== null) ? mean(values) : null;
 }

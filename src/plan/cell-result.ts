@@ -21,6 +21,11 @@ export const cellResultSchema = z.object({
   acquired: z.number().describe('count that costs scan time, in acquiredUnit (src/protocol/scan-time.ts)'),
   acquiredUnit: unit,
   scanSeconds: z.number(),
+  effectiveTeMs: z
+    .number()
+    .nullable()
+    .optional()
+    .describe('effective TE of the mask drawn (src/protocol/echo-train-timing.ts); absent in older results'),
   mask: z
     .object({ acquired: z.number(), unit, fraction: z.number() })
     .describe('the mask as drawn: its own count and unit (a 2D point mask counts points), grid fraction'),

@@ -18,3 +18,13 @@ export function patternSpecs(
   if (pattern.pattern === 'custom') return [[null, { ...pattern }]];
   return accelerations.map((acceleration, j) => [j, { ...pattern, acceleration }]);
 }
+
+/**
+ * The protocol's `partialFourier` is the deprecated alias of `sampling.partialFourier` (the same
+ * rows): a Cartesian spec without its own fraction takes the protocol's, so the simulation leaves
+ * those rows out as the scan time does. Radial specs have none (the scan-time model refuses them).
+ */
+export function withProtocolPartialFourier(spec: SamplingSpec, fraction: number): SamplingSpec {
+  if (fraction >= 1 || spec.pattern === 'radial' || spec.partialFourier !== undefined) return spec;
+  return { ...spec, partialFourier: fraction };
+}

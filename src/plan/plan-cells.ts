@@ -1,6 +1,6 @@
 import { LimitError } from '../core/errors.ts';
 import { defaultLimits, type Limits } from '../core/limits.ts';
-import { patternSpecs } from './pattern-specs.ts';
+import { patternSpecs, withProtocolPartialFourier } from './pattern-specs.ts';
 import type { GridPosition } from './row-key.ts';
 import type { Plan } from './schema.ts';
 import type { MethodSpec, SamplingSpec } from './upstream.ts';
@@ -63,7 +63,7 @@ export function planCells(plan: Plan, limits: Limits = defaultLimits): PlanCell[
       plan.methods.forEach((method, methodIndex) => {
         push(
           { reference: false, patternIndex, accelerationIndex, methodIndex },
-          sampling,
+          withProtocolPartialFourier(sampling, plan.protocol.partialFourier),
           acceleration,
           method,
         );

@@ -43,6 +43,13 @@ export const planRowSchema = z.object({
   scanSeconds: z.number().describe('mean over seeds of the scan time in seconds'),
   scanFormatted: z.string().describe('scanSeconds as m:ss'),
   timeSavedPct: z.number().describe('100 · (1 − scanSeconds / fully sampled seconds)'),
+  effectiveTeMs: z
+    .number()
+    .nullable()
+    .describe(
+      'mean over seeds of the effective TE in ms (the echo acquiring the k-space centre); null without ' +
+        "echoSpacingMs or teMs. Passes and slices per TR are the protocol's: see fullySampled",
+    ),
   metrics: z.object(
     Object.fromEntries(metricNames.map((m) => [m, summarySchema])) as Record<
       (typeof metricNames)[number],

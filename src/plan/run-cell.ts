@@ -56,6 +56,7 @@ export function cellScanColumns(
     acquired: time.acquired,
     acquiredUnit: time.unit,
     scanSeconds: time.seconds,
+    effectiveTeMs: time.effectiveTeMs,
     mask: { acquired: sampled.acquired.count, unit: sampled.acquired.unit, fraction: sampled.fraction },
   };
 }

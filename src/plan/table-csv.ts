@@ -29,6 +29,7 @@ export const csvColumns: readonly Column[] = [
   { name: 'scan_s', value: fixed(3, (r) => r.scanSeconds) },
   { name: 'scan_mmss', value: (r) => r.scanFormatted },
   { name: 'time_saved_pct', value: fixed(2, (r) => r.timeSavedPct) },
+  { name: 'effective_te_ms', value: fixed(1, (r) => r.effectiveTeMs, '') },
   { name: 'nrmse_mean', value: fixed(6, (r) => r.metrics.nrmse.mean) },
   { name: 'nrmse_sd', value: fixed(6, (r) => r.metrics.nrmse.sd, '') },
   { name: 'psnr_db_mean', value: fixed(3, (r) => r.metrics.psnr.mean) },

@@ -2,7 +2,7 @@ import { type FieldProblem, ValidationError } from '../core/errors.ts';
 import { defaultLimits, type Limits } from '../core/limits.ts';
 import { parseOrThrow } from '../core/zod-problems.ts';
 import { scanTime } from '../protocol/index.ts';
-import { patternSpecs } from './pattern-specs.ts';
+import { patternSpecs, withProtocolPartialFourier } from './pattern-specs.ts';
 import { type Plan, planSchemaFor } from './schema.ts';
 import { generateMask, getPhantom } from './upstream.ts';
 
@@ -45,7 +45,8 @@ function checkMasks(plan: Plan, limits: Limits): void {
       if (j === null) continue; // custom masks are decoded asynchronously by the pipeline
       try {
         // The scan-time model too: radial masks refuse 3D and partial Fourier.
-        scanTime(plan.matrix, plan.protocol, generateMask(plan.matrix, { ...spec, seed: 1 }, limits));
+        const sampling = withProtocolPartialFourier({ ...spec, seed: 1 }, plan.protocol.partialFourier);
+        scanTime(plan.matrix, plan.protocol, generateMask(plan.matrix, sampling, limits));
       } catch (error) {
         if (!(error instanceof ValidationError)) throw error;
         for (const problem of error.problems) {

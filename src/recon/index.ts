@@ -5,12 +5,12 @@ import type { ReconInput, ReconOptions, ReconOutput } from './method.ts';
 import { type MethodSpec, reconMethods, runMethod } from './registry.ts';
 
 export type { ReconInput, ReconMethod, ReconOptions, ReconOutput } from './method.ts';
-export { type MethodName, type MethodSpec, methodSchema, methodSchemaFor, reconMethods } from './registry.ts';
 export {
   PARTIAL_FOURIER_METHODS,
   type PartialFourierMethod,
   partialFourierStep,
 } from './partial-fourier/partial-fourier-step.ts';
+export { type MethodName, type MethodSpec, methodSchema, methodSchemaFor, reconMethods } from './registry.ts';
 export { zeroFilledImage } from './zero-filled.ts';
 
 /**

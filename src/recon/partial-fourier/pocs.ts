@@ -1,6 +1,6 @@
-import { throwIfAborted } from '../../core/errors.ts';
 import { fft2c, ifft2c } from '../../core/centered-fft.ts';
 import { type ComplexImage, createComplexImage } from '../../core/complex-image.ts';
+import { throwIfAborted } from '../../core/errors.ts';
 import { lowResolutionPhase } from './phase-estimate.ts';
 
 /** POCS iterations: the update falls below 1e-6 of the image within this many on the checked objects. */
