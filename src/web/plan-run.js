@@ -172,6 +172,7 @@ export class PlanRun {
     byId('plotPointsBox').hidden = true;
     byId('planNotes').replaceChildren();
     byId('planNotesBox').hidden = true;
+    byId('planTiming').hidden = true;
     const table = byId('planTable');
     table.tHead.replaceChildren();
     table.tBodies[0].replaceChildren();
@@ -212,6 +213,7 @@ export class PlanRun {
     this.redrawPlot();
     this.showRecommendation(plan);
     this.showNotes(plan.table?.notes ?? []);
+    this.showTiming(plan.table?.fullySampled);
     await this.offerCsv(plan);
     showStatus(this.status, `Plan ${plan.id} done.`);
   }
@@ -233,6 +235,21 @@ export class PlanRun {
       : '';
     off.hidden = offAxis.length === 0;
     byId('plotPointsBox').hidden = false;
+  }
+
+  /** Passes, slices per TR and effective TE of the plan's protocol (its fully sampled scan). */
+  showTiming(fullySampled) {
+    const line = byId('planTiming');
+    line.hidden = !fullySampled;
+    if (!fullySampled) return;
+    const te =
+      typeof fullySampled.effectiveTeMs === 'number' ? `${fullySampled.effectiveTeMs} ms` : 'not modelled';
+    line.textContent =
+      `Protocol timing (fully sampled): ${fullySampled.passes} pass${fullySampled.passes === 1 ? '' : 'es'}, ` +
+      `${fullySampled.slicesPerTr} slice${fullySampled.slicesPerTr === 1 ? '' : 's'} per TR, effective TE ${te}.`;
+    line.dataset.passes = String(fullySampled.passes);
+    line.dataset.slicesPerTr = String(fullySampled.slicesPerTr);
+    line.dataset.effectiveTeMs = String(fullySampled.effectiveTeMs);
   }
 
   /** The service's notes on the plan, word for word (what the numbers do and do not model). */

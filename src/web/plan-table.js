@@ -69,6 +69,14 @@ function columnsFor(targetMetric) {
       text: (row) => (row.meetsTarget === null ? '' : row.meetsTarget ? 'yes' : 'no'),
     },
     {
+      label: 'TE eff (ms)',
+      title:
+        'Effective TE: time of the echo acquiring the k-space centre (mean over seeds; needs an echo spacing or a TE)',
+      path: 'effectiveTeMs',
+      kind: 'ms',
+      secondary: true,
+    },
+    {
       label: 'R actual',
       title: 'Acceleration the mask reached (mean over seeds)',
       path: 'actualR',

@@ -206,11 +206,23 @@ export class SetupForm {
       spec.density = { power: numberOf('densityPower') };
     if (pattern === 'radial') spec.angles = byId('angles').value;
     if (!forPlan) spec.seed = numberOf('seed');
+    // A single run carries partial Fourier in its sampling (the simulation leaves the rows out); a plan
+    // gets it through the protocol, which applies it to every Cartesian pattern.
+    const partialFourier = numberOf('partialFourier');
+    if (!forPlan && pattern !== 'radial' && partialFourier !== undefined && partialFourier < 1)
+      spec.partialFourier = partialFourier;
     return spec;
   }
 
   /** The method piece; a blank iteration count is left out, so the service's default applies. */
   method(name = byId('method').value) {
+    const spec = this.methodWithoutFill(name);
+    const fill = byId('partialFourierFill').value;
+    if ((numberOf('partialFourier') ?? 1) < 1 && fill !== 'zero-fill') spec.partialFourier = fill;
+    return spec;
+  }
+
+  methodWithoutFill(name) {
     const iterations = numberOf('iterations');
     if (name === 'cs-tv') {
       const spec = { name };
@@ -242,6 +254,11 @@ export class SetupForm {
       // 3D: one slab; the partitions are the matrix's nx.
       slices: this.threeD() ? 1 : numberOf('slices'),
       partialFourier: numberOf('partialFourier'),
+      // Echo-train timing only with an echo spacing; blanks are left out (JSON drops undefined).
+      echoSpacingMs: numberOf('echoSpacingMs'),
+      teMs: numberOf('teMs'),
+      echoOrder: numberOf('echoSpacingMs') === undefined ? undefined : byId('echoOrder').value,
+      sliceOverheadMs: numberOf('echoSpacingMs') === undefined ? undefined : numberOf('sliceOverheadMs'),
     };
   }
 

@@ -833,7 +833,8 @@ describe('planner page in Chromium', () => {
     expect(notes).toEqual(plan.table.notes);
     expect(await page.isVisible('#planNotes')).toBe(true);
     expect(notes.some((n) => /point mask \(e\.g\. poisson-disc\) in a 2D protocol/.test(n ?? ''))).toBe(true);
-    expect(notes.some((n) => /^Partial Fourier 0\.75: .*does not model partial Fourier/.test(n ?? ''))).toBe(
+    // protocol.partialFourier is now the alias of sampling.partialFourier: the simulation leaves the rows out too.
+    expect(notes.some((n) => /^Partial Fourier 0\.75: .*leave the other rows out too/.test(n ?? ''))).toBe(
       true,
     );
 
@@ -1002,6 +1003,43 @@ describe('planner page in Chromium', () => {
     expect(csvHref.startsWith('blob:')).toBe(true);
     expect(keyedErrors).toEqual([]);
     await keyed.close();
+  });
+
+  it('shows passes, slices per TR and effective TE, and notes the saving from partial Fourier', async () => {
+    await page.selectOption('#preset', '0'); // 2D draft A: TR 2800 ms, ETL 8, 28 slices
+    await page.fill('#nx', '32');
+    await page.fill('#ny', '32');
+    await page.selectOption('#pattern', 'cartesian-uniform');
+    await page.fill('#acceleration', '2');
+    await page.fill('#acs', '4');
+    await page.fill('#partialFourier', '0.625');
+    await page.fill('#echoSpacingMs', '10');
+    const scanTime = page.waitForResponse(
+      (r) =>
+        new URL(r.url()).pathname === '/v1/scan-time' &&
+        r.request().postDataJSON().sampling?.partialFourier === 0.625,
+    );
+    await page.click('#maskButton');
+    const response = await scanTime;
+    const sent = response.request().postDataJSON();
+    expect(sent.protocol).toMatchObject({ echoSpacingMs: 10, echoOrder: 'linear', partialFourier: 0.625 });
+    const under = (await response.json()) as { passes: number; slicesPerTr: number; effectiveTeMs: number };
+    await page.waitForFunction(() => !(document.querySelector('#maskButton') as HTMLButtonElement).disabled);
+    // By hand (docs/design.md §2.2): ⌊2800 / (8 × 10)⌋ = 35 slices per TR ≥ 28 → 1 pass. R = 2 with 4 ACS rows
+    // keeps rows 12…31 at p = 0.625: 10 even rows + ACS rows 15, 17 = 12 lines, 2 shots; rows 12, 14, 15 lie
+    // ahead of the centre row 16, so echo ⌊3 / 2⌋ + 1 = 2 acquires it: 20 ms.
+    expect(under).toMatchObject({ passes: 1, slicesPerTr: 35, effectiveTeMs: 20 });
+    await expectShownEquals('[data-key="time.passes"]', under.passes);
+    await expectShownEquals('[data-key="time.slicesPerTr"]', under.slicesPerTr);
+    await expectShownEquals('[data-key="time.effectiveTe"]', under.effectiveTeMs);
+    expect(await page.isVisible('#timeNote')).toBe(true);
+    expect(await page.locator('#timeNote').textContent()).toMatch(
+      /^Partial Fourier keeps 12 of the 18 lines .* comes from partial Fourier, not from undersampling\.$/,
+    );
+    await page.screenshot({ path: join(artifacts, 'planner-timing-1280x800.png') });
+    // Back to the preset's protocol for what follows.
+    await page.fill('#echoSpacingMs', '');
+    await page.fill('#partialFourier', '1');
   });
 
   it('made no request off the service origin and raised no page errors', () => {
