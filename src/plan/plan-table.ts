@@ -46,6 +46,7 @@ export const planRowSchema = z.object({
   effectiveTeMs: z
     .number()
     .nullable()
+    .optional() // tables stored before the field existed are served as they were stored
     .describe(
       'mean over seeds of the effective TE in ms (the echo acquiring the k-space centre); null without ' +
         "echoSpacingMs or teMs. Passes and slices per TR are the protocol's: see fullySampled",
@@ -94,7 +95,8 @@ export const planTableSchema = z.object({
   rows: z
     .array(planRowSchema)
     .describe('rows[0] is the fully sampled reference; the others follow plan order'),
-  fullySampled: scanTimeResultSchema,
+  // Tables stored before slicesPerTr and effectiveTeMs existed are served as they were stored.
+  fullySampled: scanTimeResultSchema.partial({ slicesPerTr: true, effectiveTeMs: true }),
   paretoMetric: z.enum(metricNames).describe("the target's metric; nrmse without a target"),
   recommendation: recommendationSchema,
   cells: z.object({ done: z.int(), total: z.int() }),

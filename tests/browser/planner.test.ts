@@ -134,6 +134,15 @@ async function runPlanToDone(patterns: string[]): Promise<string> {
   return id;
 }
 
+/** A 32×32 matrix and the pattern, R and ACS of the sampling controls. */
+async function fillSampling(pattern: string, acceleration: number, acs: number): Promise<void> {
+  await page.fill('#nx', '32');
+  await page.fill('#ny', '32');
+  await page.selectOption('#pattern', pattern);
+  await page.fill('#acceleration', String(acceleration));
+  await page.fill('#acs', String(acs));
+}
+
 function waitForApi(path: string, method = 'POST', accept?: string): Promise<Response> {
   return page.waitForResponse((r) => {
     const request = r.request();
@@ -375,11 +384,7 @@ describe('planner page in Chromium', () => {
   });
 
   it('makes a mask and shows the service’s numbers', async () => {
-    await page.fill('#nx', '32');
-    await page.fill('#ny', '32');
-    await page.selectOption('#pattern', 'cartesian-random');
-    await page.fill('#acceleration', '2');
-    await page.fill('#acs', '6');
+    await fillSampling('cartesian-random', 2, 6);
     await page.fill('#iterations', '20');
     const maskJson = waitForApi('/v1/masks', 'POST', 'application/json');
     await page.click('#maskButton');
@@ -1007,11 +1012,7 @@ describe('planner page in Chromium', () => {
 
   it('shows passes, slices per TR and effective TE, and notes the saving from partial Fourier', async () => {
     await page.selectOption('#preset', '0'); // 2D draft A: TR 2800 ms, ETL 8, 28 slices
-    await page.fill('#nx', '32');
-    await page.fill('#ny', '32');
-    await page.selectOption('#pattern', 'cartesian-uniform');
-    await page.fill('#acceleration', '2');
-    await page.fill('#acs', '4');
+    await fillSampling('cartesian-uniform', 2, 4);
     await page.fill('#partialFourier', '0.625');
     await page.fill('#echoSpacingMs', '10');
     const scanTime = page.waitForResponse(
