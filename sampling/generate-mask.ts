@@ -5,6 +5,7 @@ import type { Matrix } from '../src/core/matrix.ts';
 import { cartesianRandomMask } from './cartesian-random.ts';
 import { cartesianUniformMask } from './cartesian-uniform.ts';
 import { decodeCustomMask } from './custom.ts';
+import { spiralMask } from './non-cartesian.ts';
 import { poissonDiscMask } from './poisson-disc.ts';
 import { radialMask } from './radial.ts';
 import type { SampledMask } from './sampled-mask.ts';
@@ -34,12 +35,14 @@ export function generateMask(
       return poissonDiscMask(matrix, spec, signal);
     case 'radial':
       return radialMask(matrix, spec);
+    case 'spiral':
+      return spiralMask(matrix, spec);
     case 'custom':
       throw new ValidationError({
         field: 'sampling.pattern',
         message: "a 'custom' mask is a PNG to decode: use resolveSampling",
         allowed:
-          "'cartesian-uniform', 'cartesian-random', 'poisson-disc', 'radial' (custom through resolveSampling)",
+          "'cartesian-uniform', 'cartesian-random', 'poisson-disc', 'radial', 'spiral' (custom through resolveSampling)",
       });
   }
 }

@@ -13,6 +13,7 @@ export const SAMPLING_PATTERNS = [
   'cartesian-random',
   'poisson-disc',
   'radial',
+  'spiral',
   'custom',
 ] as const;
 export type SamplingPattern = (typeof SAMPLING_PATTERNS)[number];
@@ -94,13 +95,77 @@ export const poissonDiscSchema = z.strictObject({
   ),
 });
 
+const trajectory = z
+  .enum(['non-cartesian', 'rasterised'])
+  .optional()
+  .describe(
+    "'non-cartesian' (default): samples at the exact trajectory points, reconstructed through a NUFFT; " +
+      "'rasterised': each sample moved to its nearest grid point (a Cartesian mask shaped like the trajectory).",
+  );
+
 export const radialSchema = z.strictObject({
   pattern: z.literal('radial'),
   acceleration,
   angles: z
-    .enum(['uniform', 'golden'])
+    .enum(['uniform', 'golden', 'tiny-golden'])
     .optional()
-    .describe('Spoke angles: equally spaced over 180°, or golden-angle increments 180°/φ (default uniform).'),
+    .describe(
+      'Spoke angles: equally spaced over 180°, golden-angle increments 180°/φ, or tiny golden angles ' +
+        '180°/(φ + N − 1) with N = tinyN (default uniform).',
+    ),
+  tinyN: z
+    .number()
+    .int()
+    .min(1)
+    .max(100)
+    .optional()
+    .describe('N of the tiny golden angle (angles "tiny-golden" only; default 7).'),
+  readoutOversampling: z
+    .number()
+    .int()
+    .min(1)
+    .max(8)
+    .optional()
+    .describe('Samples per spoke = oversampling × max(nx, ny), non-Cartesian only (default 2).'),
+  trajectory,
+  seed,
+});
+
+export const spiralSchema = z.strictObject({
+  pattern: z.literal('spiral'),
+  acceleration: acceleration.describe(
+    'Outermost turn spacing of the combined interleaves in cycles per FOV; R = Nyquist interleaves / interleaves.',
+  ),
+  interleaves: z
+    .number()
+    .int()
+    .min(1)
+    .max(4096)
+    .optional()
+    .describe('Interleaves, rotated by 360°/interleaves (default 16); at most 4·max(nx, ny).'),
+  samplesPerInterleaf: z
+    .number()
+    .int()
+    .min(2)
+    .max(1_000_000)
+    .optional()
+    .describe(
+      'Readout samples per interleaf, equally spaced in arc length (default: spacing ≤ ½ cycle/FOV).',
+    ),
+  density: z
+    .strictObject({
+      power: z
+        .number()
+        .min(1)
+        .max(8)
+        .optional()
+        .describe(
+          'k ∝ τ^power: 1 = uniform-density Archimedean spiral, > 1 denser at the centre (default 1).',
+        ),
+    })
+    .optional()
+    .describe('Variable-density law.'),
+  trajectory,
   seed,
 });
 
@@ -125,6 +190,7 @@ export const samplingSchema = z.discriminatedUnion('pattern', [
   cartesianRandomSchema,
   poissonDiscSchema,
   radialSchema,
+  spiralSchema,
   customSchema,
 ]);
 
@@ -133,6 +199,7 @@ export type CartesianUniformSpec = z.infer<typeof cartesianUniformSchema>;
 export type CartesianRandomSpec = z.infer<typeof cartesianRandomSchema>;
 export type PoissonDiscSpec = z.infer<typeof poissonDiscSchema>;
 export type RadialSpec = z.infer<typeof radialSchema>;
+export type SpiralSpec = z.infer<typeof spiralSchema>;
 export type CustomSpec = z.infer<typeof customSchema>;
 
 /** zod issues → field problems whose paths start with `prefix` (e.g. "sampling"): the one converter. */

@@ -17,6 +17,7 @@ import {
   samplingSchema,
   scoredMatrixSchemaFor,
   sourceSchema,
+  spiralSchema,
 } from './upstream.ts';
 
 type WithoutPlanKeys<T> = T extends unknown ? Omit<T, 'acceleration' | 'seed'> : never;
@@ -38,6 +39,7 @@ export const planPatternSchema = z
     cartesianRandomSchema.omit(planKeys),
     poissonDiscSchema.omit(planKeys),
     radialSchema.omit(planKeys),
+    spiralSchema.omit(planKeys),
     customSchema.omit({ seed: true }),
   ])
   .describe('A sampling spec without acceleration (from accelerations) and seed (from seeds)');

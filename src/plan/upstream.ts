@@ -14,6 +14,7 @@ export {
   type SampledMask,
   type SamplingSpec,
   samplingSchema,
+  spiralSchema,
 } from '../../sampling/index.ts';
 export { noiseSchema } from '../acquisition/index.ts';
 export { getPhantom } from '../phantoms/index.ts';
