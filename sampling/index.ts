@@ -7,6 +7,7 @@ export { DEFAULT_RADIAL_OVERSAMPLING, DEFAULT_SPIRAL_INTERLEAVES, trajectoryOf }
 export { DEFAULT_POISSON_POWER, poissonRadiusProfile } from './poisson-disc.ts';
 export { GOLDEN_ANGLE, GOLDEN_RATIO, nyquistSpokes, spokeAngles } from './radial.ts';
 export { rasteriseTrajectory } from './rasterise-trajectory.ts';
+export { type SampleTable, sampleTable, sampleTableCsv, sampleTableJson } from './sample-table.ts';
 export { countSampled, type SampledMask } from './sampled-mask.ts';
 export {
   cartesianRandomSchema,

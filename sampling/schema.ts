@@ -178,9 +178,18 @@ export const customSchema = z.strictObject({
     .string()
     .min(1)
     .regex(BASE64, 'must be standard base64 (RFC 4648) without whitespace')
+    .optional()
     .describe(
       'Base64 PNG of exactly ny×nx pixels; a pixel with any non-zero colour channel is sampled. ' +
-        'Its length is bounded by the JSON body limit (MAX_JSON_BYTES).',
+        'Its length is bounded by the JSON body limit (MAX_JSON_BYTES). Give this or `table`.',
+    ),
+  table: z
+    .string()
+    .min(1)
+    .optional()
+    .describe(
+      'A sample table as GET /v1/masks/{id}/table.csv writes it: CSV with the header order,ky,kx and ' +
+        'integer indices relative to the k-space centre (ky up). Give this or `maskPng`.',
     ),
   seed,
 });
