@@ -6,7 +6,7 @@ import { allLimitFields, type Limits, limitsId } from '../src/core/limits.ts';
 import { preferredType } from '../src/http/accept.ts';
 import { disconnectSignal } from '../src/http/disconnect-signal.ts';
 import { sendPng } from '../src/http/png-reply.ts';
-import { problemResponses } from '../src/http/problem.ts';
+import { HttpProblem, problemResponses } from '../src/http/problem.ts';
 import { perLimits, requestSchemas } from '../src/http/schemas.ts';
 import { maskResultSchema } from '../src/services/index.ts';
 
@@ -50,4 +50,53 @@ export async function maskRoutes(app: FastifyInstance): Promise<void> {
       return reply.type('application/json').send(body);
     },
   );
+
+  const tableParams = z.object({
+    id: z.string().min(1).max(200).describe('Mask id from POST /v1/masks'),
+  });
+  for (const format of ['csv', 'json'] as const) {
+    const type = format === 'csv' ? 'text/csv' : 'application/json';
+    app.withTypeProvider<ZodTypeProvider>().get(
+      `/v1/masks/:id/table.${format}`,
+      {
+        schema: {
+          summary: `The mask's sampled positions in acquisition order, as ${format.toUpperCase()}`,
+          description:
+            'Cartesian: header order,ky,kx with integer indices relative to the k-space centre (ky up), ' +
+            'linear order; non-Cartesian: header order,kx,ky in cycles per FOV, readout by readout. ' +
+            (format === 'csv'
+              ? 'RFC 4180, one header row, CRLF line ends, no comment lines.'
+              : 'The same rows with the matrix, R, ACS, seed and ordering.'),
+          tags: ['sampling'],
+          params: tableParams,
+          response: {
+            200: {
+              description: `The sample table (${type})`,
+              content: {
+                [type]: {
+                  schema:
+                    format === 'csv'
+                      ? z.string().describe('CSV text')
+                      : z.looseObject({}).describe('header facts and samples'),
+                },
+              },
+            },
+            ...problemResponses(401, 404),
+          },
+        },
+      },
+      async (request, reply) => {
+        const { id } = request.params;
+        const table = masks.table(id, format, tenancy(request));
+        if (!table) {
+          throw new HttpProblem(404, `no mask ${id}`, [{ field: 'id', message: 'unknown mask id' }]);
+        }
+        if (format === 'json') return reply.type('application/json').send(JSON.parse(table.toString('utf8')));
+        return reply
+          .type('text/csv; charset=utf-8; header=present')
+          .header('content-disposition', `attachment; filename="mask-${id}.csv"`)
+          .send(table.toString('utf8'));
+      },
+    );
+  }
 }

@@ -7,17 +7,67 @@ import type { CustomSpec } from './schema.ts';
 
 const PNG_SIGNATURE = Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]);
 const FIELD = 'sampling.maskPng';
+const TABLE_FIELD = 'sampling.table';
+
+function tableProblem(message: string, allowed: string): ValidationError {
+  return new ValidationError({ field: TABLE_FIELD, message, allowed });
+}
+
+/**
+ * The mask of a sample table in the form GET /v1/masks/{id}/table.csv writes (sample-table.ts):
+ * header `order,ky,kx`, then integer indices relative to the k-space centre, ky up. The order
+ * column is read and checked to be an integer, not used (a mask has no order). Trajectory tables
+ * (`order,kx,ky` in cycles per FOV) are not masks and are refused.
+ */
+function maskFromTable(matrix: Matrix, csv: string): Uint8Array {
+  const { nx, ny } = matrix;
+  const lines = csv.split(/\r?\n/);
+  if (lines.length > 0 && lines[lines.length - 1] === '') lines.pop();
+  const header = (lines[0] ?? '').trim();
+  if (header === 'order,kx,ky') {
+    throw tableProblem(
+      'is a non-Cartesian trajectory table; only Cartesian sample tables can be read back as a mask',
+      'header order,ky,kx',
+    );
+  }
+  if (header !== 'order,ky,kx')
+    throw tableProblem(`header is ${JSON.stringify(header.slice(0, 40))}`, 'header order,ky,kx');
+  const mask = new Uint8Array(nx * ny);
+  const cx = Math.floor(nx / 2);
+  const cy = Math.floor(ny / 2);
+  for (let i = 1; i < lines.length; i++) {
+    const fields = lines[i].split(',');
+    const numbers = fields.map(Number);
+    if (fields.length !== 3 || !numbers.every(Number.isInteger)) {
+      throw tableProblem(`row ${i + 1} is not three integers`, 'rows order,ky,kx of integers');
+    }
+    const row = cy - numbers[1];
+    const col = cx + numbers[2];
+    if (row < 0 || row >= ny || col < 0 || col >= nx) {
+      throw tableProblem(
+        `row ${i + 1}: ky ${numbers[1]}, kx ${numbers[2]} lies outside the ${ny}×${nx} grid`,
+        `${cy - ny + 1} ≤ ky ≤ ${cy}, ${-cx} ≤ kx ≤ ${nx - 1 - cx}`,
+      );
+    }
+    mask[row * nx + col] = 1;
+  }
+  return mask;
+}
 
 /**
  * Bookkeeping for a mask given point by point (ny×nx, non-zero = sampled). If every sampled row is
  * sampled across all nx columns the mask is a line mask and R counts lines (total ny); otherwise
  * R counts points (total nx·ny). `details.accelerationBasis` says which.
  */
-export function customMaskFromArray(matrix: Matrix, values: ArrayLike<number>): SampledMask {
+export function customMaskFromArray(
+  matrix: Matrix,
+  values: ArrayLike<number>,
+  field: string = FIELD,
+): SampledMask {
   const { nx, ny } = matrix;
   if (values.length !== nx * ny) {
     throw new ValidationError({
-      field: FIELD,
+      field,
       message: `mask holds ${values.length} values, expected ny·nx = ${ny * nx}`,
       allowed: `exactly ${nx}×${ny} (width × height) pixels`,
     });
@@ -42,7 +92,7 @@ export function customMaskFromArray(matrix: Matrix, values: ArrayLike<number>): 
   }
   if (points === 0) {
     throw new ValidationError({
-      field: FIELD,
+      field,
       message: 'the mask samples no k-space point',
       allowed: 'at least one non-zero pixel',
     });
@@ -81,7 +131,16 @@ export async function decodeCustomMask(
   limits: Limits = defaultLimits,
 ): Promise<SampledMask> {
   const { nx, ny } = matrix;
-  const bytes = Buffer.from(spec.maskPng, 'base64');
+  if ((spec.maskPng === undefined) === (spec.table === undefined)) {
+    throw new ValidationError({
+      field: 'sampling',
+      message: 'a custom mask needs exactly one of maskPng and table',
+      allowed: 'maskPng (base64 PNG) or table (CSV of order,ky,kx)',
+    });
+  }
+  if (spec.table !== undefined)
+    return customMaskFromArray(matrix, maskFromTable(matrix, spec.table), TABLE_FIELD);
+  const bytes = Buffer.from(spec.maskPng as string, 'base64');
   if (bytes.length > limits.maxUploadBytes) {
     throw new LimitError({
       field: FIELD,

@@ -1,8 +1,24 @@
 import { ifft2c } from '../src/core/centered-fft.ts';
-import { createComplexImage } from '../src/core/complex-image.ts';
+import { type ComplexImage, createComplexImage } from '../src/core/complex-image.ts';
 import { ValidationError } from '../src/core/errors.ts';
 import type { RealImage } from '../src/core/real-image.ts';
+import { nufftPlanFor } from '../src/nufft/plan-cache.ts';
+import { densityWeightsFor } from '../src/nufft/trajectory-weights.ts';
 import type { SampledMask } from './sampled-mask.ts';
+import type { Trajectory } from './trajectories/trajectory.ts';
+
+/**
+ * PSF of a non-Cartesian trajectory through the NUFFT: the gridding reconstruction of unit samples,
+ * Aᴴ(w ⊙ 1) with the density compensation w the reconstruction uses. Its centre is its peak
+ * (|Σ w e^{iφ}| ≤ Σ w for w ≥ 0).
+ */
+function trajectoryPsf(trajectory: Trajectory, nx: number, ny: number): ComplexImage {
+  const plan = nufftPlanFor(trajectory, nx, ny);
+  const { weights } = densityWeightsFor(trajectory, nx, ny);
+  const samples = new Float64Array(2 * plan.count);
+  for (let p = 0; p < plan.count; p++) samples[2 * p] = weights[p];
+  return plan.adjoint(samples);
+}
 
 /**
  * Default main-lobe radius in pixels, √2: the centre and its 8 neighbours. A fully sampled grid has a
@@ -26,7 +42,8 @@ export interface MaskDiagnostics {
 /**
  * Point-spread function of a sampling mask: psf = ifft2c(M) (centred orthonormal inverse DFT,
  * src/core/centered-fft.ts), |psf| divided by its value at the centre, which is its peak
- * (|Σ M e^{iφ}| ≤ Σ M = the centre value). For radial masks it is the PSF of the rasterised mask.
+ * (|Σ M e^{iφ}| ≤ Σ M = the centre value). Rasterised trajectories: the PSF of the rasterised mask;
+ * non-Cartesian ones: the PSF through the NUFFT (trajectoryPsf).
  * Distances are Euclidean in pixels from the centre, in the centred frame (offsets −⌊n/2⌋ … ⌈n/2⌉ − 1).
  */
 export function maskDiagnostics(m: SampledMask, options: { mainLobeRadius?: number } = {}): MaskDiagnostics {
@@ -40,9 +57,14 @@ export function maskDiagnostics(m: SampledMask, options: { mainLobeRadius?: numb
   }
   const { nx, ny, mask } = m;
   const n = nx * ny;
-  const k = createComplexImage(nx, ny);
-  for (let i = 0; i < n; i++) k.data[2 * i] = mask[i] !== 0 ? 1 : 0;
-  ifft2c(k, k);
+  let k: ComplexImage;
+  if (m.trajectory) {
+    k = trajectoryPsf(m.trajectory, nx, ny);
+  } else {
+    k = createComplexImage(nx, ny);
+    for (let i = 0; i < n; i++) k.data[2 * i] = mask[i] !== 0 ? 1 : 0;
+    ifft2c(k, k);
+  }
   const cx = Math.floor(nx / 2);
   const cy = Math.floor(ny / 2);
   const d = k.data;

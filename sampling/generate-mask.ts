@@ -6,6 +6,7 @@ import { cartesianRandomMask } from './cartesian-random.ts';
 import { cartesianUniformMask } from './cartesian-uniform.ts';
 import { decodeCustomMask } from './custom.ts';
 import { latticeMask } from './lattice.ts';
+import { spiralMask } from './non-cartesian.ts';
 import { applyPartialFourier } from './partial-fourier.ts';
 import { poissonDiscMask } from './poisson-disc.ts';
 import { radialMask } from './radial.ts';
@@ -38,12 +39,14 @@ export function generateMask(
       return applyPartialFourier(latticeMask(matrix, spec), spec.partialFourier);
     case 'radial':
       return radialMask(matrix, spec);
+    case 'spiral':
+      return spiralMask(matrix, spec);
     case 'custom':
       throw new ValidationError({
         field: 'sampling.pattern',
         message: "a 'custom' mask is a PNG to decode: use resolveSampling",
         allowed:
-          "'cartesian-uniform', 'cartesian-random', 'poisson-disc', 'radial', 'lattice' (custom through resolveSampling)",
+          "'cartesian-uniform', 'cartesian-random', 'poisson-disc', 'radial', 'spiral', 'lattice' (custom through resolveSampling)",
       });
   }
 }

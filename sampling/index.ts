@@ -4,6 +4,7 @@ export { customMaskFromArray } from './custom.ts';
 export { DEFAULT_MAIN_LOBE_RADIUS, type MaskDiagnostics, maskDiagnostics } from './diagnostics.ts';
 export { generateMask, resolveSampling } from './generate-mask.ts';
 export { latticeAliasOffsets } from './lattice.ts';
+export { DEFAULT_RADIAL_OVERSAMPLING, DEFAULT_SPIRAL_INTERLEAVES, trajectoryOf } from './non-cartesian.ts';
 export {
   applyPartialFourier,
   keptRowCount,
@@ -13,6 +14,8 @@ export {
 } from './partial-fourier.ts';
 export { DEFAULT_POISSON_POWER, poissonRadiusProfile } from './poisson-disc.ts';
 export { GOLDEN_ANGLE, GOLDEN_RATIO, nyquistSpokes, spokeAngles } from './radial.ts';
+export { rasteriseTrajectory } from './rasterise-trajectory.ts';
+export { type SampleTable, sampleTable, sampleTableCsv, sampleTableJson } from './sample-table.ts';
 export { countSampled, type SampledMask } from './sampled-mask.ts';
 export {
   cartesianRandomSchema,
@@ -26,6 +29,9 @@ export {
   SAMPLING_PATTERNS,
   type SamplingPattern,
   type SamplingSpec,
+  type SpiralSpec,
   samplingSchema,
+  spiralSchema,
   zodProblems,
 } from './schema.ts';
+export type { Trajectory } from './trajectories/trajectory.ts';

@@ -1,7 +1,10 @@
 import { ValidationError } from '../src/core/errors.ts';
 import type { Matrix } from '../src/core/matrix.ts';
+import { DEFAULT_RADIAL_OVERSAMPLING, trajectoryOf } from './non-cartesian.ts';
+import { rasteriseTrajectory } from './rasterise-trajectory.ts';
 import { countSampled, type SampledMask } from './sampled-mask.ts';
 import type { RadialSpec } from './schema.ts';
+import type { RadialTrajectory } from './trajectories/radial-trajectory.ts';
 
 /** Golden ratio φ = (1 + √5)/2. */
 export const GOLDEN_RATIO = (1 + Math.sqrt(5)) / 2;
@@ -77,21 +80,46 @@ export function radialMask(matrix: Matrix, spec: RadialSpec): SampledMask {
   }
   const count = Math.ceil(total / R);
   const angles = spec.angles ?? 'uniform';
-  const theta = spokeAngles(count, angles);
+  const nonCartesian = (spec.trajectory ?? 'non-cartesian') === 'non-cartesian';
+  if (nonCartesian || angles === 'tiny-golden') {
+    const trajectory = trajectoryOf(matrix, spec, count);
+    const mask = nonCartesian
+      ? rasteriseTrajectory(matrix, trajectory)
+      : rasteriseSpokes(matrix, (trajectory as RadialTrajectory).angles);
+    return {
+      ...radialFacts(matrix, spec, total, count, mask),
+      representation: nonCartesian ? 'non-cartesian' : 'radial-rasterised',
+      spokeAngles: (trajectory as RadialTrajectory).angles,
+      ...(nonCartesian ? { trajectory } : {}),
+      details: {
+        angles,
+        samplesPerSpoke: trajectory.samplesPerReadout,
+        readoutOversampling: spec.readoutOversampling ?? DEFAULT_RADIAL_OVERSAMPLING,
+        ...(angles === 'tiny-golden' ? { tinyN: spec.tinyN ?? 7 } : {}),
+      },
+    };
+  }
+  const theta = spokeAngles(count, angles as 'uniform' | 'golden');
   const mask = rasteriseSpokes(matrix, theta);
+  return {
+    ...radialFacts(matrix, spec, total, count, mask),
+    representation: 'radial-rasterised',
+    spokeAngles: theta,
+    details: { angles, samplesPerSpoke: Math.max(matrix.nx, matrix.ny) },
+  };
+}
+
+function radialFacts(matrix: Matrix, spec: RadialSpec, total: number, count: number, mask: Uint8Array) {
   return {
     nx: matrix.nx,
     ny: matrix.ny,
     mask,
     pattern: 'radial',
-    acceleration: { requested: R, actual: total / count },
+    acceleration: { requested: spec.acceleration, actual: total / count },
     acquired: { count, unit: 'spokes' },
     total,
     fraction: countSampled(mask) / (matrix.nx * matrix.ny),
     acs: null,
-    representation: 'radial-rasterised',
-    spokeAngles: theta,
     seed: null,
-    details: { angles, samplesPerSpoke: Math.max(matrix.nx, matrix.ny) },
-  };
+  } satisfies Partial<SampledMask>;
 }

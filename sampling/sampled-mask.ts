@@ -1,5 +1,6 @@
 import type { AcquiredUnit } from './acquired-unit.ts';
 import type { PartialFourierBand } from './partial-fourier.ts';
+import type { Trajectory } from './trajectories/trajectory.ts';
 
 /**
  * A generated k-space sampling mask and its bookkeeping. The mask is ny×nx row-major (rows = phase
@@ -19,7 +20,13 @@ export interface SampledMask {
   /** Acquired grid points / (nx·ny). */
   fraction: number;
   acs: { lines?: number; size?: [number, number] } | null;
-  representation: 'cartesian' | 'radial-rasterised';
+  /**
+   * 'cartesian': the mask is the acquisition; '*-rasterised': trajectory samples moved to their
+   * nearest grid points; 'non-cartesian': the samples are `trajectory`, the mask only its picture.
+   */
+  representation: 'cartesian' | 'radial-rasterised' | 'spiral-rasterised' | 'non-cartesian';
+  /** The exact k-space points of a non-Cartesian acquisition. */
+  trajectory?: Trajectory;
   /** Spoke angles in radians, measured from +kx towards +ky (radial only). */
   spokeAngles?: Float64Array;
   /** Per grid point sampling probability of the variable-density patterns (ny·nx), for density compensation. */

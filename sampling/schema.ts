@@ -14,6 +14,7 @@ export const SAMPLING_PATTERNS = [
   'cartesian-random',
   'poisson-disc',
   'radial',
+  'spiral',
   'custom',
   'lattice',
 ] as const;
@@ -99,13 +100,78 @@ export const poissonDiscSchema = z.strictObject({
   partialFourier: partialFourierFraction,
 });
 
+const trajectory = z
+  .enum(['non-cartesian', 'rasterised'])
+  .optional()
+  .describe(
+    "'non-cartesian' (default): samples at the exact trajectory points, reconstructed through a NUFFT; " +
+      "'rasterised': each sample moved to its nearest grid point (a Cartesian mask shaped like the trajectory).",
+  );
+
 export const radialSchema = z.strictObject({
   pattern: z.literal('radial'),
   acceleration,
   angles: z
-    .enum(['uniform', 'golden'])
+    .enum(['uniform', 'golden', 'tiny-golden'])
     .optional()
-    .describe('Spoke angles: equally spaced over 180°, or golden-angle increments 180°/φ (default uniform).'),
+    .describe(
+      'Spoke angles: equally spaced over 180°, golden-angle increments 180°/φ, or tiny golden angles ' +
+        '180°/(φ + N − 1) with N = tinyN (default uniform).',
+    ),
+  tinyN: z
+    .number()
+    .int()
+    .min(1)
+    .max(100)
+    .optional()
+    .describe('N of the tiny golden angle (angles "tiny-golden" only; default 7).'),
+  readoutOversampling: z
+    .number()
+    .int()
+    .min(1)
+    .max(8)
+    .optional()
+    .describe('Samples per spoke = oversampling × max(nx, ny), non-Cartesian only (default 2).'),
+  trajectory,
+  seed,
+  partialFourier: noPartialFourier,
+});
+
+export const spiralSchema = z.strictObject({
+  pattern: z.literal('spiral'),
+  acceleration: acceleration.describe(
+    'Outermost turn spacing of the combined interleaves in cycles per FOV; R = Nyquist interleaves / interleaves.',
+  ),
+  interleaves: z
+    .number()
+    .int()
+    .min(1)
+    .max(4096)
+    .optional()
+    .describe('Interleaves, rotated by 360°/interleaves (default 16); at most 4·max(nx, ny).'),
+  samplesPerInterleaf: z
+    .number()
+    .int()
+    .min(2)
+    .max(1_000_000)
+    .optional()
+    .describe(
+      'Readout samples per interleaf, equally spaced in arc length (default: spacing ≤ ½ cycle/FOV).',
+    ),
+  density: z
+    .strictObject({
+      power: z
+        .number()
+        .min(1)
+        .max(8)
+        .optional()
+        .describe(
+          'k ∝ τ^power: 1 = uniform-density Archimedean spiral, > 1 denser at the centre (default 1).',
+        ),
+    })
+    .optional()
+    .describe('Variable-density law.'),
+  trajectory,
   seed,
   partialFourier: noPartialFourier,
 });
@@ -119,9 +185,18 @@ export const customSchema = z.strictObject({
     .string()
     .min(1)
     .regex(BASE64, 'must be standard base64 (RFC 4648) without whitespace')
+    .optional()
     .describe(
       'Base64 PNG of exactly ny×nx pixels; a pixel with any non-zero colour channel is sampled. ' +
-        'Its length is bounded by the JSON body limit (MAX_JSON_BYTES).',
+        'Its length is bounded by the JSON body limit (MAX_JSON_BYTES). Give this or `table`.',
+    ),
+  table: z
+    .string()
+    .min(1)
+    .optional()
+    .describe(
+      'A sample table as GET /v1/masks/{id}/table.csv writes it: CSV with the header order,ky,kx and ' +
+        'integer indices relative to the k-space centre (ky up). Give this or `maskPng`.',
     ),
   seed,
   partialFourier: partialFourierFraction,
@@ -157,6 +232,7 @@ export const samplingSchema = z.discriminatedUnion('pattern', [
   cartesianRandomSchema,
   poissonDiscSchema,
   radialSchema,
+  spiralSchema,
   customSchema,
   latticeSchema,
 ]);
@@ -166,6 +242,7 @@ export type CartesianUniformSpec = z.infer<typeof cartesianUniformSchema>;
 export type CartesianRandomSpec = z.infer<typeof cartesianRandomSchema>;
 export type PoissonDiscSpec = z.infer<typeof poissonDiscSchema>;
 export type RadialSpec = z.infer<typeof radialSchema>;
+export type SpiralSpec = z.infer<typeof spiralSchema>;
 export type CustomSpec = z.infer<typeof customSchema>;
 export type LatticeSpec = z.infer<typeof latticeSchema>;
 

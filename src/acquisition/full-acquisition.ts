@@ -13,4 +13,10 @@ export interface FullAcquisition {
   inverseCrime: boolean;
   /** Pixels of |reference| above OBJECT_THRESHOLD of its maximum (the SNR is defined over these). */
   objectMask: Uint8Array;
+  /**
+   * Exact k-space at arbitrary points (kx, ky) in cycles per FOV, scaled like `kspace` (phantoms in
+   * analytic mode); absent when the source is a set of pixels, whose trajectory samples come from
+   * the NUFFT of `reference` (an inverse crime).
+   */
+  kspaceAt?: (kx: Float64Array, ky: Float64Array) => Float64Array;
 }

@@ -1,4 +1,5 @@
 export { acquire } from './acquire.ts';
+export { acquireTrajectory } from './acquire-trajectory.ts';
 export type { FullAcquisition } from './full-acquisition.ts';
 export { fullKspaceFromImage } from './image-source.ts';
 export {

@@ -1,7 +1,7 @@
 import { fft2c, ifft2c } from '../core/centered-fft.ts';
 import { complexFromReal } from '../core/complex-image.ts';
 import { ValidationError } from '../core/errors.ts';
-import { type Phantom, phantomGridKspace } from '../phantoms/index.ts';
+import { gridScale, type Phantom, phantomGridKspace } from '../phantoms/index.ts';
 import type { FullAcquisition } from './full-acquisition.ts';
 import { objectMaskOf } from './noise.ts';
 
@@ -39,5 +39,15 @@ export function fullKspaceFromPhantom(
   }
   const kspace = phantomGridKspace(phantom, nx, ny);
   const reference = ifft2c(kspace);
-  return { kspace, reference, raster, inverseCrime: false, objectMask: objectMaskOf(reference) };
+  const scale = gridScale(nx, ny);
+  // Cycles per FOV are twice cycles per phantom unit (the FOV is [−1, 1]); same scale as the grid.
+  const kspaceAt = (kx: Float64Array, ky: Float64Array): Float64Array => {
+    const values = phantom.kspaceAt(
+      Float64Array.from(kx, (k) => k / 2),
+      Float64Array.from(ky, (k) => k / 2),
+    );
+    for (let i = 0; i < values.length; i++) values[i] *= scale;
+    return values;
+  };
+  return { kspace, reference, raster, inverseCrime: false, objectMask: objectMaskOf(reference), kspaceAt };
 }

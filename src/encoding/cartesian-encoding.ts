@@ -7,6 +7,7 @@ import {
   createMultiCoilArray,
   type MultiCoilKspace,
 } from './multi-coil.ts';
+import { addConjugateSensitivityProduct, sensitivityProduct } from './sensitivity-products.ts';
 
 /**
  * Cartesian encoding E x = { M ⊙ F(S_c ⊙ x) }_c with the mask M (Uint8Array, ny·nx, 1 = acquired),
@@ -104,38 +105,13 @@ export class CartesianEncoding implements EncodingOperator<MultiCoilKspace> {
 
   /** target[offset…] = S_c ⊙ x (a plain copy without sensitivities). */
   private coilImage(x: Float64Array, coil: number, target: Float64Array, offset: number): void {
-    const n = this.shapes.nx * this.shapes.ny;
-    const maps = this.sensitivities;
-    if (!maps) {
-      target.set(x, 2 * offset);
-      return;
-    }
-    const s = maps.data;
-    const base = 2 * coil * n;
-    const t = 2 * offset;
-    for (let i = 0; i < 2 * n; i += 2) {
-      const sr = s[base + i];
-      const si = s[base + i + 1];
-      const xr = x[i];
-      const xi = x[i + 1];
-      target[t + i] = sr * xr - si * xi;
-      target[t + i + 1] = sr * xi + si * xr;
-    }
+    if (!this.sensitivities) target.set(x, 2 * offset);
+    else sensitivityProduct(this.sensitivities, coil, x, target, offset);
   }
 
   /** target += conj(S_c) ⊙ image. */
   private addConjugateProduct(target: Float64Array, coil: number, image: Float64Array): void {
-    const n = this.shapes.nx * this.shapes.ny;
-    const s = (this.sensitivities as CoilMaps).data;
-    const base = 2 * coil * n;
-    for (let i = 0; i < 2 * n; i += 2) {
-      const sr = s[base + i];
-      const si = s[base + i + 1];
-      const zr = image[i];
-      const zi = image[i + 1];
-      target[i] += sr * zr + si * zi;
-      target[i + 1] += sr * zi - si * zr;
-    }
+    addConjugateSensitivityProduct(this.sensitivities as CoilMaps, coil, image, target);
   }
 
   /** Zeroes the unacquired samples of the plane at complex offset `offset`. */

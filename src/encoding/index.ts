@@ -8,3 +8,4 @@ export {
   type MultiCoilArray,
   type MultiCoilKspace,
 } from './multi-coil.ts';
+export { NonCartesianEncoding } from './non-cartesian-encoding.ts';

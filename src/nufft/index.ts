@@ -7,3 +7,4 @@ export { PIPE_MENON_KERNEL, type PipeMenonOptions, pipeMenonWeights } from './pi
 export { nufftPlanFor } from './plan-cache.ts';
 export { radialRampWeights, spokeAngularShares } from './radial-ramp-weights.ts';
 export { type ToeplitzOperator, toeplitzNormalOperator } from './toeplitz.ts';
+export { type DensityWeighting, densityWeightsFor, type TrajectoryWeights } from './trajectory-weights.ts';

@@ -5,14 +5,17 @@ import {
   type SamplingSpec,
   samplingSchema,
 } from '../../sampling/index.ts';
+import type { Trajectory } from '../../sampling/trajectories/trajectory.ts';
 import {
   acquire,
+  acquireTrajectory,
   type FullAcquisition,
   fullKspaceFromImage,
   fullKspaceFromPhantom,
   type NoiseSpec,
   noiseSchema,
 } from '../acquisition/index.ts';
+import { fft2c } from '../core/centered-fft.ts';
 import { type ComplexImage, magnitude } from '../core/complex-image.ts';
 import { ValidationError } from '../core/errors.ts';
 import { defaultLimits, type Limits } from '../core/limits.ts';
@@ -20,12 +23,16 @@ import { matrixSchemaFor } from '../core/matrix.ts';
 import type { RealImage } from '../core/real-image.ts';
 import { parseOrThrow } from '../core/zod-problems.ts';
 import { type MetricSet, SSIM_RADIUS, scoreAll } from '../metrics/index.ts';
+import { densityWeightsFor, nufftPlanFor } from '../nufft/index.ts';
 import { getPhantom } from '../phantoms/index.ts';
+import { griddingImage } from '../recon/gridding-recon.ts';
 import {
   type MethodSpec,
   methodSchemaFor,
   partialFourierStep,
+  type ReconInput,
   reconstruct,
+  type TrajectoryData,
   zeroFilledImage,
 } from '../recon/index.ts';
 import { resampleBilinear } from './resample.ts';
@@ -147,6 +154,41 @@ async function fullAcquisition(
   return fullKspaceFromImage(image);
 }
 
+function cartesianInput(
+  full: FullAcquisition,
+  sampled: SampledMask,
+  noise: NoiseSpec | undefined,
+  noiseSeed: number,
+): { input: ReconInput; sigma: number } {
+  const { kspace, sigma } = acquire(full, sampled.mask, noise, noiseSeed);
+  return { input: { kspace, mask: sampled.mask, density: sampled.density }, sigma };
+}
+
+/**
+ * A non-Cartesian acquisition (docs/design.md §2.1): samples at the exact trajectory points, its
+ * NUFFT plan (cached per trajectory) and density compensation; `kspace` holds the gridded data.
+ */
+function trajectoryInput(
+  full: FullAcquisition,
+  sampled: SampledMask,
+  noise: NoiseSpec | undefined,
+  noiseSeed: number,
+  notes: string[],
+): { input: ReconInput; sigma: number } {
+  const trajectory = sampled.trajectory as Trajectory;
+  const plan = nufftPlanFor(trajectory, sampled.nx, sampled.ny);
+  const { samples, sigma, inverseCrime } = acquireTrajectory(full, trajectory, plan, noise, noiseSeed);
+  if (inverseCrime) {
+    notes.push(
+      'non-Cartesian samples are the NUFFT of the same pixels the reconstruction inverts (inverse crime)',
+    );
+  }
+  const { weights, weighting } = densityWeightsFor(trajectory, sampled.nx, sampled.ny);
+  const data: TrajectoryData = { trajectory, plan, samples: { coils: 1, data: samples }, weights, weighting };
+  const kspace = fft2c(griddingImage(data).image);
+  return { input: { kspace, mask: sampled.mask, trajectory: data }, sigma };
+}
+
 function magnitudeImage(image: ComplexImage): RealImage {
   return { nx: image.nx, ny: image.ny, data: magnitude(image) };
 }
@@ -210,9 +252,10 @@ export async function runReconstruction(
       : req.sampling;
   const sampled = await resolveSampling({ nx, ny }, sampling, limits);
   const baseSeed = seed ?? sampled.seed ?? 0;
-  const { kspace, sigma } = acquire(full, sampled.mask, req.noise, noiseSeedFor(baseSeed));
+  const { input, sigma } = sampled.trajectory
+    ? trajectoryInput(full, sampled, req.noise, noiseSeedFor(baseSeed), notes)
+    : cartesianInput(full, sampled, req.noise, noiseSeedFor(baseSeed));
   if (sigma > 0) notes.push(`complex Gaussian noise, σ = ${sigma.toPrecision(4)} per real channel`);
-  const input = { kspace, mask: sampled.mask, density: sampled.density };
 
   const started = performance.now();
   const methodOutput = reconstruct(input, req.method, { signal: ctx.signal, limits });

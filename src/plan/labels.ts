@@ -19,7 +19,7 @@ export function specLabels(specs: readonly Record<string, unknown>[], nameKey: s
 function describeParameters(spec: Record<string, unknown>, nameKey: string, prefix = ''): string {
   const parts: string[] = [];
   for (const key of Object.keys(spec).sort()) {
-    if (prefix === '' && (key === nameKey || key === 'maskPng')) continue;
+    if (prefix === '' && (key === nameKey || key === 'maskPng' || key === 'table')) continue;
     const value = spec[key];
     if (value !== null && typeof value === 'object' && !Array.isArray(value)) {
       const inner = describeParameters(value as Record<string, unknown>, nameKey, `${prefix}${key}.`);

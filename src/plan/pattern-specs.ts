@@ -22,9 +22,10 @@ export function patternSpecs(
 /**
  * The protocol's `partialFourier` is the deprecated alias of `sampling.partialFourier` (the same
  * rows): a Cartesian spec without its own fraction takes the protocol's, so the simulation leaves
- * those rows out as the scan time does. Radial specs have none (the scan-time model refuses them).
+ * those rows out as the scan time does. Radial and spiral specs have none (the scan-time model refuses them).
  */
 export function withProtocolPartialFourier(spec: SamplingSpec, fraction: number): SamplingSpec {
-  if (fraction >= 1 || spec.pattern === 'radial' || spec.partialFourier !== undefined) return spec;
+  if (fraction >= 1 || spec.pattern === 'radial' || spec.pattern === 'spiral') return spec;
+  if (spec.partialFourier !== undefined) return spec;
   return { ...spec, partialFourier: fraction };
 }

@@ -18,6 +18,7 @@ import {
   samplingSchema,
   scoredMatrixSchemaFor,
   sourceSchema,
+  spiralSchema,
 } from './upstream.ts';
 
 type WithoutPlanKeys<T> = T extends unknown ? Omit<T, 'acceleration' | 'seed'> : never;
@@ -39,6 +40,7 @@ export const planPatternSchema = z
     cartesianRandomSchema.omit(planKeys),
     poissonDiscSchema.omit(planKeys),
     radialSchema.omit(planKeys),
+    spiralSchema.omit(planKeys),
     customSchema.omit({ seed: true }),
     latticeSchema.omit(planKeys),
   ])

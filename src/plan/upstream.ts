@@ -15,6 +15,7 @@ export {
   type SampledMask,
   type SamplingSpec,
   samplingSchema,
+  spiralSchema,
 } from '../../sampling/index.ts';
 export { noiseSchema } from '../acquisition/index.ts';
 export { getPhantom } from '../phantoms/index.ts';

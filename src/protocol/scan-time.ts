@@ -13,7 +13,7 @@ export interface ScanTimeSampling {
   ny: number;
   mask: Uint8Array;
   acquired: { count: number; unit: string };
-  representation: 'cartesian' | 'radial-rasterised';
+  representation: 'cartesian' | 'radial-rasterised' | 'spiral-rasterised' | 'non-cartesian';
   /** Set when the sampling itself applied partial Fourier (sampling.partialFourier). */
   partialFourier?: { fraction: number };
 }
@@ -23,6 +23,8 @@ export interface ScanTimeSampling {
  *   2D Cartesian  TA = TR × ⌈lines / ETL⌉ × averages × passes
  *   3D Cartesian  TA = TR × ⌈points(ky,kz) / ETL⌉ × averages      (matrix ny×nx = ky×kz)
  *   radial        TA = TR × ⌈spokes / ETL⌉ × averages × passes         (ETL > 1: several spokes per TR)
+ *   spiral        TA = TR × ⌈interleaves / ETL⌉ × averages × passes
+ *   stack of stars (radial or spiral with dimensions 3d): TA = TR × ⌈readouts × partitions / ETL⌉ × averages
  *
  * Counting with a mask: in 2D every phase-encode row with at least one sampled point costs a whole
  * line (the readout direction kx is free), so a 2D point mask counts its occupied rows; in 3D every
@@ -72,23 +74,28 @@ export function scanTime(
   // Acquired units ahead of the k-space centre in ky order (linear echo ordering); null for radial.
   let before: number | null = null;
   let unit: ScanTime['unit'];
-  if (sampled?.representation === 'radial-rasterised') {
-    if (protocol.dimensions !== '2d') {
-      throw new ValidationError({
-        field: 'protocol.dimensions',
-        message: 'radial sampling is modelled as 2D spokes',
-        allowed: "'2d' for radial sampling",
-      });
-    }
+  const readoutUnit = sampled?.acquired.unit;
+  const stack = protocol.dimensions === '3d' && (readoutUnit === 'spokes' || readoutUnit === 'interleaves');
+  // Protocols built in code before `partitions` existed lack it: one partition.
+  const partitions = protocol.partitions ?? 1;
+  if (partitions !== 1 && !stack) {
+    throw new ValidationError({
+      field: 'protocol.partitions',
+      message: 'partitions count the kz planes of a 3D stack of stars or spirals',
+      allowed: "1 unless dimensions is '3d' with radial or spiral sampling",
+    });
+  }
+  if (readoutUnit === 'spokes' || readoutUnit === 'interleaves') {
     if (protocol.partialFourier !== 1) {
       throw new ValidationError({
         field: 'protocol.partialFourier',
-        message: 'partial Fourier is not modelled for radial sampling',
-        allowed: '1 for radial sampling',
+        message: `partial Fourier is not modelled for ${readoutUnit === 'spokes' ? 'radial' : 'spiral'} sampling`,
+        allowed: '1 for radial and spiral sampling',
       });
     }
-    acquired = sampled.acquired.count;
-    unit = 'spokes';
+    // 3D: a stack of stars (or spirals), the in-plane pattern repeated for every kz partition.
+    acquired = (sampled as ScanTimeSampling).acquired.count * (stack ? partitions : 1);
+    unit = readoutUnit;
   } else {
     const keptRows = Math.ceil(protocol.partialFourier * ny - 1e-9);
     const firstRow = ny - keptRows;

@@ -71,6 +71,15 @@ const trailingFields = {
     .max(1024)
     .optional()
     .describe('slices that fit in one TR (default: all of them, one pass)'),
+  partitions: z
+    .int()
+    .min(1)
+    .max(1024)
+    .default(1)
+    .describe(
+      'kz partitions of a 3D stack of stars or spirals (radial or spiral in the simulated plane); ' +
+        'Cartesian 3D takes kz from the matrix and needs 1',
+    ),
   partialFourier: z
     .number()
     .min(0.5)

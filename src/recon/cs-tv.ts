@@ -2,7 +2,13 @@ import { z } from 'zod';
 import { fft2c, ifft2c } from '../core/centered-fft.ts';
 import { type ComplexImage, createComplexImage } from '../core/complex-image.ts';
 import { throwIfAborted } from '../core/errors.ts';
-import { type ReconInput, type ReconMethod, type ReconOutput, refuseCoilArray } from './method.ts';
+import {
+  type ReconInput,
+  type ReconMethod,
+  type ReconOutput,
+  refuseCoilArray,
+  refuseTrajectory,
+} from './method.ts';
 import { checkedNumber, iterationsToRun, type NumberRule } from './parameters.ts';
 import { divergence, gradient, totalVariation, tvDualStep } from './total-variation.ts';
 
@@ -174,6 +180,7 @@ export const csTv: ReconMethod<CsTvSpec> = {
   schema: csTvSchema,
   run(input, spec, { signal, limits }): ReconOutput {
     refuseCoilArray(input, 'cs-tv');
+    refuseTrajectory(input, 'cs-tv');
     const fraction = acquiredFraction(input.mask);
     const lambda = checkedNumber(spec.lambda, 'method.lambda', LAMBDA_RULE, defaultTvLambda(fraction));
     const iterations = iterationsToRun(spec.iterations, CS_TV_DEFAULT_ITERATIONS, limits);

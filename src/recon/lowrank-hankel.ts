@@ -4,7 +4,13 @@ import { createComplexImage } from '../core/complex-image.ts';
 import { throwIfAborted, ValidationError } from '../core/errors.ts';
 import { BlockHankel } from './block-hankel.ts';
 import { HermitianEigenSolver } from './hermitian-eigen.ts';
-import { type ReconInput, type ReconMethod, type ReconOutput, refuseCoilArray } from './method.ts';
+import {
+  type ReconInput,
+  type ReconMethod,
+  type ReconOutput,
+  refuseCoilArray,
+  refuseTrajectory,
+} from './method.ts';
 import { checkedChoice, checkedNumber, iterationsToRun, type NumberRule } from './parameters.ts';
 
 export const KERNEL_SIDE_RULE: NumberRule = { min: 1, max: 64, integer: true };
@@ -253,6 +259,7 @@ export const lowrankHankel: ReconMethod<LowrankHankelSpec> = {
   schema: lowrankHankelSchema,
   run(input, spec, { signal, limits }): ReconOutput {
     refuseCoilArray(input, 'lowrank-hankel');
+    refuseTrajectory(input, 'lowrank-hankel');
     const { nx, ny } = input.kspace;
     const kernel = checkedKernel(spec.kernel, nx, ny);
     const area = kernel[0] * kernel[1];

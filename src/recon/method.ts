@@ -1,8 +1,12 @@
 import type { z } from 'zod';
+import type { Trajectory } from '../../sampling/trajectories/trajectory.ts';
 import type { ComplexImage } from '../core/complex-image.ts';
 import { ValidationError } from '../core/errors.ts';
 import type { Limits } from '../core/limits.ts';
+import type { CoilSamples } from '../encoding/encoding-operator.ts';
 import type { CoilMaps, MultiCoilKspace } from '../encoding/multi-coil.ts';
+import type { NufftPlan } from '../nufft/nufft-plan.ts';
+import type { DensityWeighting } from '../nufft/trajectory-weights.ts';
 
 /**
  * Multi-coil data of a receive array (any array but the uniform single coil), in the encoding
@@ -19,6 +23,19 @@ export interface CoilData {
   maps?: CoilMaps;
 }
 
+/**
+ * The samples of a non-Cartesian acquisition at the exact trajectory points, with the NUFFT plan
+ * that maps images to them and the density compensation weights (k-space area per sample).
+ */
+export interface TrajectoryData {
+  trajectory: Trajectory;
+  plan: NufftPlan;
+  /** Coil-major interleaved samples, `plan.count` per coil (one coil for single-coil data). */
+  samples: CoilSamples;
+  weights: Float64Array;
+  weighting: DensityWeighting;
+}
+
 /** Acquired k-space (zeros where not sampled) with its mask and, for variable-density patterns, the sampling density. */
 export interface ReconInput {
   /**
@@ -33,6 +50,11 @@ export interface ReconInput {
   density?: Float64Array;
   /** Present for a receive array of more than the one uniform coil. */
   coils?: CoilData;
+  /**
+   * Present for a non-Cartesian acquisition: the data are these samples; `mask` is then only the
+   * trajectory's picture (its nearest grid points) and `kspace` the gridded data, for scales.
+   */
+  trajectory?: TrajectoryData;
 }
 
 export interface ReconOptions {
@@ -67,6 +89,17 @@ export function refuseCoilArray(input: ReconInput, method: string): void {
       field: 'coils',
       message: `${method} does not reconstruct receive-array data yet`,
       allowed: 'coils: { array: "uniform" }',
+    });
+  }
+}
+
+/** Refuses non-Cartesian samples in a method that needs a Cartesian grid (naming `sampling.trajectory`). */
+export function refuseTrajectory(input: ReconInput, method: string): void {
+  if (input.trajectory) {
+    throw new ValidationError({
+      field: 'sampling.trajectory',
+      message: `${method} needs samples on the Cartesian grid; this acquisition is non-Cartesian`,
+      allowed: "trajectory: 'rasterised', or a method that works on trajectories (zero-filled, cs-tv)",
     });
   }
 }

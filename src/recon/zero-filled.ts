@@ -2,6 +2,7 @@ import { z } from 'zod';
 import { ifft2c } from '../core/centered-fft.ts';
 import { createComplexImage } from '../core/complex-image.ts';
 import { ValidationError } from '../core/errors.ts';
+import { griddingImage } from './gridding-recon.ts';
 import { type ReconInput, type ReconMethod, type ReconOutput, refuseCoilArray } from './method.ts';
 
 export const zeroFilledSchema = z.strictObject({
@@ -21,6 +22,7 @@ export type ZeroFilledSpec = z.infer<typeof zeroFilledSchema>;
  * density; `info.densityCompensated` says whether it was.
  */
 export function zeroFilledImage(input: ReconInput, densityCompensation = false): ReconOutput {
+  if (input.trajectory) return griddingImage(input.trajectory);
   const { kspace, mask, density } = input;
   const n = kspace.nx * kspace.ny;
   const masked = createComplexImage(kspace.nx, kspace.ny);

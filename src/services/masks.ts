@@ -1,5 +1,12 @@
 import { z } from 'zod';
-import type { MaskDiagnostics, SampledMask, SamplingSpec } from '../../sampling/index.ts';
+import {
+  type MaskDiagnostics,
+  type SampledMask,
+  type SamplingSpec,
+  sampleTable,
+  sampleTableCsv,
+  sampleTableJson,
+} from '../../sampling/index.ts';
 import type { Limits } from '../core/limits.ts';
 import type { Matrix } from '../core/matrix.ts';
 import type { Store } from '../jobs/store.ts';
@@ -10,6 +17,10 @@ import { contentId } from './content-id.ts';
 import { resultImageUrl } from './result-images.ts';
 import { psfSummary, psfSummarySchema, sampledSummary, sampledSummarySchema } from './sampled-summary.ts';
 
+/** Stored beside a mask's PNGs: its sample table (served by GET /v1/masks/{id}/table.csv|.json). */
+const TABLE_CSV = 'table.csv';
+const TABLE_JSON = 'table.json';
+
 /** A drawn mask as stored and answered: its summary, PSF side lobes and the URLs of its two PNGs. */
 export const maskResultSchema = sampledSummarySchema.extend({
   id: z.string().describe('Result id: the PNGs stay available under /v1/results/{id}/'),
@@ -17,6 +28,9 @@ export const maskResultSchema = sampledSummarySchema.extend({
   images: z
     .object({ mask: z.string(), psf: z.string() })
     .describe('URLs of the mask and |PSF| (log scale) PNGs'),
+  tables: z
+    .object({ csv: z.string(), json: z.string() })
+    .describe('URLs of the sample table in acquisition order (GET /v1/masks/{id}/table.csv|.json)'),
 });
 
 export type MaskResult = z.infer<typeof maskResultSchema>;
@@ -45,7 +59,8 @@ export class MaskService {
     const { store } = this.deps;
     const { matrix, sampling } = request;
     const { owner, scope } = caller;
-    const id = contentId('mask', { matrix, sampling, owner: scope === 'all' ? undefined : owner });
+    // 'mask-tables': masks stored before sample tables existed keep their own ids.
+    const id = contentId('mask-tables', { matrix, sampling, owner: scope === 'all' ? undefined : owner });
     const stored = store.getResult(id, scope);
     if (stored) return stored.body as MaskResult;
     const { sampled, diagnostics } = await this.draw(request, true, signal);
@@ -55,10 +70,27 @@ export class MaskService {
       ...sampledSummary(sampled),
       psf: psfSummary(psf),
       images: { mask: resultImageUrl(id, 'mask'), psf: resultImageUrl(id, 'psf') },
+      tables: { csv: `/v1/masks/${id}/table.csv`, json: `/v1/masks/${id}/table.json` },
     };
-    const pngs = { mask: await maskPng(sampled), psf: await greyPng(psf.psf, { scale: 'log' }) };
-    store.putResult(id, 'mask', body, pngs, { owner });
+    const table = sampleTable(sampled);
+    const files = {
+      mask: await maskPng(sampled),
+      psf: await greyPng(psf.psf, { scale: 'log' }),
+      [TABLE_CSV]: Buffer.from(sampleTableCsv(table)),
+      [TABLE_JSON]: Buffer.from(JSON.stringify(sampleTableJson(sampled, table))),
+    };
+    store.putResult(id, 'mask', body, files, { owner });
     return body;
+  }
+
+  /**
+   * The stored sample table of a described mask (docs/design.md §4.7), CSV or JSON; undefined for
+   * an unknown id, another tenant's mask or a result that is not a mask.
+   */
+  table(id: string, format: 'csv' | 'json', caller: Caller): Buffer | undefined {
+    const { store } = this.deps;
+    if (store.getResult(id, caller.scope)?.kind !== 'mask') return undefined;
+    return store.getResultImage(id, format === 'csv' ? TABLE_CSV : TABLE_JSON, caller.scope);
   }
 
   private draw(

@@ -17,7 +17,11 @@ export const sampledSummarySchema = z
     acs: z
       .object({ lines: z.number().optional(), size: z.tuple([z.number(), z.number()]).optional() })
       .nullable(),
-    representation: z.enum(['cartesian', 'radial-rasterised']),
+    representation: z
+      .enum(['cartesian', 'radial-rasterised', 'spiral-rasterised', 'non-cartesian'])
+      .describe(
+        "how the samples sit: on the grid, moved to the grid ('*-rasterised'), or at exact trajectory points",
+      ),
     seed: z.number().nullable(),
     details: z.record(z.string(), z.union([z.number(), z.string()])).optional(),
   })

@@ -194,11 +194,14 @@ describe('plan validation names the field and the allowed range', () => {
     );
   });
 
-  it('protocol and pattern that do not fit together are refused up front (radial in 3D)', () => {
+  it('protocol and pattern that do not fit together are refused up front (radial with partial Fourier)', () => {
     const { problems: list } = problems(
-      body({ patterns: [{ pattern: 'radial' }], protocol: { trMs: 5, dimensions: '3d' } }),
+      body({ patterns: [{ pattern: 'radial' }], protocol: { trMs: 5, partialFourier: 0.75 } }),
     );
-    expect(list[0]).toMatchObject({ field: 'protocol.dimensions', allowed: "'2d' for radial sampling" });
+    expect(list[0]).toMatchObject({
+      field: 'protocol.partialFourier',
+      allowed: '1 for radial and spiral sampling',
+    });
   });
 
   it('too many cells is a LimitError before any work', async () => {

@@ -196,17 +196,25 @@ describe('scan time: validation names the field and the allowed range (TR > 0, a
     );
   });
 
-  it('radial sampling rejects 3D and partial Fourier', () => {
+  it('radial sampling in 3D is a stack of stars; it rejects partial Fourier, and partitions elsewhere', () => {
     const radial: ScanTimeSampling = {
       nx: 8,
       ny: 8,
       mask: new Uint8Array(64),
       acquired: { count: 13, unit: 'spokes' },
-      representation: 'radial-rasterised',
+      representation: 'non-cartesian',
     };
-    expect(problemOf(() => scanTime({ nx: 8, ny: 8 }, { trMs: 5, dimensions: '3d' }, radial)).field).toBe(
-      'protocol.dimensions',
+    // Stack of stars (common practice): 13 spokes in every one of 16 kz partitions, TR 5 ms each:
+    // 13 × 16 × 5 ms = 1.04 s.
+    const stack = scanTime({ nx: 8, ny: 8 }, { trMs: 5, dimensions: '3d', partitions: 16 }, radial);
+    expect(stack.acquired).toBe(208);
+    expect(stack.seconds).toBeCloseTo(1.04, 12);
+    expect(problemOf(() => scanTime({ nx: 8, ny: 8 }, { trMs: 5, partitions: 16 }, radial)).field).toBe(
+      'protocol.partitions',
     );
+    expect(
+      problemOf(() => scanTime({ nx: 8, ny: 8 }, { trMs: 5, dimensions: '3d', partitions: 2 })).field,
+    ).toBe('protocol.partitions');
     expect(problemOf(() => scanTime({ nx: 8, ny: 8 }, { trMs: 5, partialFourier: 0.75 }, radial)).field).toBe(
       'protocol.partialFourier',
     );

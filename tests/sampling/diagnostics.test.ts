@@ -72,7 +72,10 @@ describe('PSF diagnostics', () => {
   it('Parseval: Σ_{x≠0} |psf(x)|² = 1/f − 1 for any 0/1 mask (orthonormal DFT, docs/references.md §2.1)', () => {
     for (const m of [
       iidMask(64, 48, 0.3, 1),
-      generateMask({ nx: 64, ny: 48 }, { pattern: 'radial', acceleration: 3, angles: 'golden' }),
+      generateMask(
+        { nx: 64, ny: 48 },
+        { pattern: 'radial', acceleration: 3, angles: 'golden', trajectory: 'rasterised' },
+      ),
     ]) {
       const psf = maskDiagnostics(m).psf.data;
       let s = 0;

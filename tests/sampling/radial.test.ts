@@ -15,7 +15,7 @@ function distinctGaps(theta: Float64Array): number[] {
   return distinct;
 }
 
-describe('radial sampling', () => {
+describe('radial sampling, rasterised onto the grid', () => {
   it('Nyquist spoke count ⌈π/2·N⌉: 128 → 202, 256 → 403, 320 → 503 (docs/references.md §3.5 [C])', () => {
     expect(nyquistSpokes({ nx: 128, ny: 128 })).toBe(202);
     expect(nyquistSpokes({ nx: 256, ny: 256 })).toBe(403);
@@ -31,7 +31,10 @@ describe('radial sampling', () => {
       [128, 3, 68], // 202/3 = 67.33
       [320, 10, 51], // 503/10 = 50.3
     ]) {
-      const m = generateMask({ nx: n, ny: n }, { pattern: 'radial', acceleration: R });
+      const m = generateMask(
+        { nx: n, ny: n },
+        { pattern: 'radial', acceleration: R, trajectory: 'rasterised' },
+      );
       expect(m.acquired).toEqual({ count: spokes, unit: 'spokes' });
       expect(m.total).toBe(nyquistSpokes({ nx: n, ny: n }));
       expect(m.acceleration).toEqual({ requested: R, actual: m.total / spokes });
@@ -42,7 +45,10 @@ describe('radial sampling', () => {
 
   it('golden-angle increment ψ = 180°/φ = 111.2461° (Winkelmann et al. 2007; docs/references.md §3.5)', () => {
     expect(GOLDEN_ANGLE * DEG).toBeCloseTo(111.2461, 4);
-    const m = generateMask({ nx: 128, ny: 128 }, { pattern: 'radial', acceleration: 2, angles: 'golden' });
+    const m = generateMask(
+      { nx: 128, ny: 128 },
+      { pattern: 'radial', acceleration: 2, angles: 'golden', trajectory: 'rasterised' },
+    );
     const theta = m.spokeAngles!;
     expect(theta[0]).toBe(0);
     for (let j = 1; j < theta.length; j++) {
@@ -85,7 +91,10 @@ describe('radial sampling', () => {
     // the 0° spoke covers columns 0…255 of row 128; the 90° spoke (ky up = rows up) rows 128 − t = 1…256,
     // so row 0 (ky = +N/2, the far edge) is not on it and row 256 is off the grid.
     const n = 256;
-    const m = generateMask({ nx: n, ny: n }, { pattern: 'radial', acceleration: 201.5 });
+    const m = generateMask(
+      { nx: n, ny: n },
+      { pattern: 'radial', acceleration: 201.5, trajectory: 'rasterised' },
+    );
     expect(Array.from(m.spokeAngles!)).toEqual([0, Math.PI / 2]);
     let mismatches = 0;
     for (let v = 0; v < n; v++)
@@ -96,7 +105,10 @@ describe('radial sampling', () => {
   });
 
   it('rasterisation: a 45° spoke marks the main diagonal through the centre; non-square grids clip', () => {
-    const m = generateMask({ nx: 64, ny: 64 }, { pattern: 'radial', acceleration: 101 / 4 });
+    const m = generateMask(
+      { nx: 64, ny: 64 },
+      { pattern: 'radial', acceleration: 101 / 4, trajectory: 'rasterised' },
+    );
     // Spokes at 0, 45, 90, 135 degrees. The 45° spoke (ky up = row down) visits (row, col) = (32 − t', 32 + t')
     // where t' = round(t·cos45°), t = −32…31, so the anti-diagonal cells of the picture are set.
     for (let t = -32; t < 32; t++) {
@@ -104,14 +116,20 @@ describe('radial sampling', () => {
       expect(m.mask[(32 - d) * 64 + 32 + d]).toBe(1);
       expect(m.mask[(32 - d) * 64 + 32 - d]).toBe(1);
     }
-    const wide = generateMask({ nx: 64, ny: 32 }, { pattern: 'radial', acceleration: 101 / 2 });
+    const wide = generateMask(
+      { nx: 64, ny: 32 },
+      { pattern: 'radial', acceleration: 101 / 2, trajectory: 'rasterised' },
+    );
     let column = 0;
     for (let v = 0; v < 32; v++) column += wide.mask[v * 64 + 32];
     expect(column).toBe(32);
   });
 
   it('every spoke passes through the k-space centre, which is sampled', () => {
-    const m = generateMask({ nx: 96, ny: 80 }, { pattern: 'radial', acceleration: 7, angles: 'golden' });
+    const m = generateMask(
+      { nx: 96, ny: 80 },
+      { pattern: 'radial', acceleration: 7, angles: 'golden', trajectory: 'rasterised' },
+    );
     expect(m.mask[40 * 96 + 48]).toBe(1);
     expect(m.fraction).toBe(m.mask.reduce((a, b) => a + b, 0) / (96 * 80));
   });
