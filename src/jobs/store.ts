@@ -578,12 +578,15 @@ export class Store {
         `SELECT '${kind}' AS kind, id, created_at, ${spec.bytesSql} AS bytes,
           ${pinnedInput(kind, spec.table)} AS pinned, 0 AS rank FROM ${spec.table}`,
     );
-    const results = `SELECT 'result', id, created_at,
-      length(body) + COALESCE((SELECT SUM(length(png)) FROM result_images WHERE result_id = results.id), 0),
-      0, 1 FROM results`;
+    const resultBytes = (r: string) =>
+      `length(${r}.body) + COALESCE((SELECT SUM(length(png)) FROM result_images WHERE result_id = ${r}.id), 0)`;
+    // A plan's row results are part of the plan: counted in its bytes, aged and removed with it.
+    const results = `SELECT 'result', id, created_at, ${resultBytes('results')}, 0, 1 FROM results
+      WHERE plan_id IS NULL`;
     const plans = `SELECT 'plan', id, created_at,
       length(body) + COALESCE(length(table_json), 0) + COALESCE(length(error), 0)
-        + COALESCE((SELECT SUM(length(result)) FROM plan_cells WHERE plan_id = plans.id), 0),
+        + COALESCE((SELECT SUM(length(result)) FROM plan_cells WHERE plan_id = plans.id), 0)
+        + COALESCE((SELECT SUM(${resultBytes('r')}) FROM results r WHERE r.plan_id = plans.id), 0),
       status IN ${activePlanStatuses}, 1 FROM plans`;
     const rows = this.db
       .prepare(`${[...inputs, results, plans].join(' UNION ALL ')} ORDER BY created_at, rank, id`)
