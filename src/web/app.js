@@ -16,7 +16,7 @@ async function main() {
   // Every plan shown goes into the address (so the link reopens it) and the list is read again.
   const plan = new PlanRun(setup, (id) => {
     writeAddress(setup, { plan: id });
-    plans.load();
+    plans.showing(id);
   });
   const plans = new PlanList((id) => plan.reopen(id));
   // The setup follows every edit into the address, so a copied link reproduces it.

@@ -19,7 +19,7 @@ function item(plan, onOpen) {
   facts.className = 'muted plan-facts';
   const created = new Date(plan.createdAt);
   const when = Number.isNaN(created.getTime()) ? plan.createdAt : created.toLocaleString();
-  facts.textContent = `${plan.status} · ${plan.progress.done} / ${plan.progress.total} cells · ${when}`;
+  facts.textContent = `${plan.status} · ${plan.progress.done} / ${plan.progress.total} cells · ${when} · ${plan.id.slice(0, 8)}`;
   const open = document.createElement('button');
   open.type = 'button';
   open.className = 'secondary small';
@@ -45,10 +45,18 @@ export class PlanList {
     // Cursors of the pages shown so far: [undefined (the first page), page 2's, …].
     this.cursors = [undefined];
     this.next = null;
+    // The plan shown in the plan section, marked in the list.
+    this.current = null;
     this.filter.addEventListener('change', () => this.load());
     byId('planListRefresh').addEventListener('click', () => this.load());
     this.older.addEventListener('click', () => this.show(this.cursors.length, this.next));
     this.newer.addEventListener('click', () => this.show(this.cursors.length - 2));
+  }
+
+  /** Marks the plan shown in the plan section (and reads the first page again). */
+  showing(id) {
+    this.current = id;
+    return this.load();
   }
 
   /** Reads the first page again (after a filter change, a refresh or a new plan). */
@@ -69,6 +77,9 @@ export class PlanList {
       this.cursors = [...this.cursors.slice(0, index), cursor];
       this.next = page.next;
       this.list.replaceChildren(...page.items.map((plan) => item(plan, this.onOpen)));
+      for (const li of this.list.children) {
+        if (li.dataset.plan === this.current) li.setAttribute('aria-current', 'true');
+      }
       this.older.disabled = !page.next;
       this.newer.disabled = index === 0;
       byId('planListPage').textContent = `page ${index + 1}`;
