@@ -3,7 +3,7 @@ import { tmpdir } from 'node:os';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { FastifyInstance } from 'fastify';
-import { type BrowserContext, chromium } from 'playwright-core';
+import { type BrowserContext, chromium, type Page } from 'playwright-core';
 
 /** What every browser test shares: Debian's chromium, its flags, the artifacts folder, a listener. */
 export const chromiumPath = '/usr/bin/chromium';
@@ -31,12 +31,14 @@ export async function listen(server: FastifyInstance): Promise<string> {
 
 /**
  * A fresh chromium profile at 1280×800 whose requests may reach only `origins` (and blob:/data:);
- * anything else is aborted and recorded in `offOrigin`. `close` also removes the profile.
+ * anything else is aborted and recorded in `offOrigin`. Its first page records uncaught errors and
+ * console errors in `pageErrors`. `close` also removes the profile.
  */
 export async function launchBrowser(
   origins: string[],
   offOrigin: string[],
-): Promise<{ context: BrowserContext; close: () => Promise<void> }> {
+  pageErrors: string[],
+): Promise<{ context: BrowserContext; page: Page; close: () => Promise<void> }> {
   if (!existsSync(chromiumPath)) {
     throw new Error(
       `${chromiumPath} is missing: the browser test needs Debian's chromium (apt-get install chromium)`,
@@ -57,8 +59,14 @@ export async function launchBrowser(
     offOrigin.push(url);
     return route.abort();
   });
+  const page = context.pages()[0] ?? (await context.newPage());
+  page.on('pageerror', (error) => pageErrors.push(String(error)));
+  page.on('console', (message) => {
+    if (message.type() === 'error') pageErrors.push(message.text());
+  });
   return {
     context,
+    page,
     close: async () => {
       await context.close();
       rmSync(userDataDir, { recursive: true, force: true });

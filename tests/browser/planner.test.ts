@@ -137,12 +137,7 @@ beforeAll(async () => {
   keyedUrl = await listen(keyedApp);
 
   // Nothing leaves the service's origin: no CDN, no fonts, no telemetry.
-  ({ context, close: closeBrowser } = await launchBrowser([baseUrl, keyedUrl], offOrigin));
-  page = context.pages()[0] ?? (await context.newPage());
-  page.on('pageerror', (error) => pageErrors.push(String(error)));
-  page.on('console', (message) => {
-    if (message.type() === 'error') pageErrors.push(message.text());
-  });
+  ({ context, page, close: closeBrowser } = await launchBrowser([baseUrl, keyedUrl], offOrigin, pageErrors));
   page.on('request', (request) => requested.push(request.url()));
 });
 

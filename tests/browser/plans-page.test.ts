@@ -132,12 +132,7 @@ beforeAll(async () => {
   keyedDataDir = mkdtempSync(join(tmpdir(), 'kspace-plans-page-keyed-'));
   keyedApp = await buildApp({ dataDir: keyedDataDir, apiKeys: [apiKey], workers: 1 });
   keyedUrl = await listen(keyedApp);
-  ({ context, close: closeBrowser } = await launchBrowser([baseUrl, keyedUrl], offOrigin));
-  page = context.pages()[0] ?? (await context.newPage());
-  page.on('pageerror', (error) => pageErrors.push(String(error)));
-  page.on('console', (message) => {
-    if (message.type() === 'error') pageErrors.push(message.text());
-  });
+  ({ context, page, close: closeBrowser } = await launchBrowser([baseUrl, keyedUrl], offOrigin, pageErrors));
 }, 60_000);
 
 afterAll(async () => {
