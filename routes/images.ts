@@ -2,6 +2,7 @@ import type { FastifyInstance } from 'fastify';
 import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
 import { ValidationError } from '../src/core/errors.ts';
+import { cursorAfter, listLimit, listQuery, pageSchema } from '../src/http/list-query.ts';
 import { HttpProblem, jsonResponse, problemResponses } from '../src/http/problem.ts';
 import { idParams } from '../src/http/schemas.ts';
 import { imageInfoSchema } from '../src/services/index.ts';
@@ -10,6 +11,8 @@ const imageInfoResponse = imageInfoSchema.meta({
   id: 'ImageInfo',
   description: 'An uploaded image (decoded pixels only; the original file is not kept)',
 });
+
+const imageListResponse = pageSchema(imageInfoResponse).meta({ id: 'ImageList' });
 
 const uploadQuery = z.object({
   frame: z.coerce
@@ -97,6 +100,32 @@ export async function imageRoutes(app: FastifyInstance): Promise<void> {
       const choice = { ...request.query, ...formChoices(part.fields) };
       const info = await uploads.upload(bytes, choice, tenancy(request));
       return reply.code(201).header('location', info.url).send(info);
+    },
+  );
+
+  r.get(
+    '/v1/images',
+    {
+      schema: {
+        summary: "The caller's uploads, newest first, a page at a time (metadata only)",
+        description:
+          'Each item is what GET /v1/images/{id} answers: size, format facts and statistics, never pixels ' +
+          'or patient data. Pages follow `next` (an opaque cursor); uploads made meanwhile do not shift them.',
+        tags: ['images'],
+        querystring: listQuery,
+        response: {
+          200: jsonResponse('One page of uploads', imageListResponse),
+          ...problemResponses(401, 422),
+        },
+      },
+    },
+    async (request) => {
+      const { limit, cursor } = request.query;
+      const page = uploads.list(tenancy(request), {
+        limit: limit ?? listLimit.default,
+        ...(cursor === undefined ? {} : { after: cursor }),
+      });
+      return { items: page.items, next: cursorAfter(page.after) };
     },
   );
 

@@ -2,26 +2,29 @@ import type { FastifyInstance, FastifyReply } from 'fastify';
 import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
 import { disconnectSignal } from '../src/http/disconnect-signal.ts';
+import { cursorAfter, listLimit, listQuery, pageSchema } from '../src/http/list-query.ts';
 import { HttpProblem, jsonResponse, problemResponses } from '../src/http/problem.ts';
 import { idParams } from '../src/http/schemas.ts';
 import type { PlanEvent } from '../src/jobs/plan-queue.ts';
+import { planSchemaFor, recommendationSchema, tableToCsv } from '../src/plan/index.ts';
 import {
-  planRowSchema,
-  planSchemaFor,
-  planTableSchema,
-  recommendationSchema,
-  tableToCsv,
-} from '../src/plan/index.ts';
-import { isTerminal, planProgressSchema, planStatusSchema } from '../src/services/index.ts';
+  isTerminal,
+  planListItemSchema,
+  planProgressSchema,
+  planRowViewSchema,
+  planStatusNames,
+  planStatusSchema,
+  planTableViewSchema,
+} from '../src/services/index.ts';
 
 // The plan status as src/services builds it, its parts published as components (`.meta` returns
 // registered copies; the tradeoff table is src/plan's own schema).
 const recommendationComponent = recommendationSchema.meta({ id: 'Recommendation' });
-const tableComponent = planTableSchema
+const tableComponent = planTableViewSchema
   .extend({
     rows: z
-      .array(planRowSchema.meta({ id: 'PlanRow' }))
-      .describe(planTableSchema.shape.rows.description ?? ''),
+      .array(planRowViewSchema.meta({ id: 'PlanRow' }))
+      .describe(planTableViewSchema.shape.rows.description ?? ''),
     recommendation: recommendationComponent,
   })
   .meta({ id: 'PlanTable' });
@@ -32,6 +35,11 @@ const planStatusResponse = planStatusSchema
     recommendation: recommendationComponent.optional(),
   })
   .meta({ id: 'PlanStatus' });
+
+const planListQuery = listQuery.extend({
+  status: z.enum(planStatusNames).optional().describe('only plans with this status'),
+});
+const planListResponse = pageSchema(planListItemSchema.meta({ id: 'PlanListItem' })).meta({ id: 'PlanList' });
 
 const purgeQuery = z.object({
   purge: z
@@ -82,6 +90,30 @@ export async function planRoutes(app: FastifyInstance): Promise<void> {
         ]);
       }
       return reply.code(202).header('location', `/v1/plans/${stored.id}`).send(planning.status(stored));
+    },
+  );
+
+  r.get(
+    '/v1/plans',
+    {
+      schema: {
+        summary: "The caller's plans, newest first, a page at a time",
+        description:
+          'Pages follow `next` (an opaque cursor); plans created meanwhile appear only on a new first page, ' +
+          'never shifting the pages still to read. With tenant isolation a key lists only its own plans.',
+        tags: ['plans'],
+        querystring: planListQuery,
+        response: { 200: jsonResponse('One page of plans', planListResponse), ...problemResponses(401, 422) },
+      },
+    },
+    async (request) => {
+      const { limit, cursor, status } = request.query;
+      const page = planning.list(tenancy(request), {
+        limit: limit ?? listLimit.default,
+        ...(cursor === undefined ? {} : { after: cursor }),
+        ...(status === undefined ? {} : { status }),
+      });
+      return { items: page.items, next: cursorAfter(page.after) };
     },
   );
 

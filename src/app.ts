@@ -172,10 +172,20 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
   const workers = options.workers ?? availableParallelism();
   const pool = new WorkerPool(workers, options.maxRequestTasks ?? 8 * workers);
   const engine = options.planEngine ?? defaultPlanEngine;
-  const plans = new PlanQueue(store, pool, engine, limits, options.maxQueuedPlans ?? 16, app.log);
+  const deps = { pool, store, limits };
+  const reconstructions = new ReconstructionService(deps);
+  // Each plan row keeps its seed-1 reconstruction as a result of the plan (images to open from the table).
+  const plans = new PlanQueue(
+    store,
+    pool,
+    engine,
+    limits,
+    options.maxQueuedPlans ?? 16,
+    app.log,
+    (id, scored) => reconstructions.keepPlanRow(id, scored),
+  );
   const lifecycle = new DataLifecycle(store, plans, { ...defaultRetention, ...options.retention }, app.log);
   const tenancy = (request: FastifyRequest) => tenancyOf(request, isolation);
-  const deps = { pool, store, limits };
   app.decorate('services', {
     store,
     pool,
@@ -183,7 +193,7 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
     lifecycle,
     tenancy,
     limits,
-    reconstructions: new ReconstructionService(deps),
+    reconstructions,
     masks: new MaskService(deps),
     uploads: new UploadService(deps),
     phantoms: new PhantomService(deps),

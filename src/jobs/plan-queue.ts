@@ -14,7 +14,7 @@ import {
 } from '../plan/index.ts';
 import type { JobLog } from './job-log.ts';
 import type { InputRef, PlanFailure, PlanStatus, Store, StoredPlan } from './store.ts';
-import type { UploadedPixels } from './tasks.ts';
+import type { ScoredOutcome, UploadedPixels } from './tasks.ts';
 import type { WorkerPool } from './worker-pool.ts';
 
 /** The plan engine as the queue needs it (src/plan: planCells, buildTable; runCell runs in the workers). */
@@ -22,6 +22,12 @@ export interface PlanEngine {
   cells(plan: Plan, limits: Limits): PlanCell[];
   buildTable(plan: Plan, results: CellResult[]): PlanTable;
 }
+
+/**
+ * Stores a row's representative outcome (its seed-1 cell) as a result belonging to the plan and
+ * returns its id; undefined when it could not be stored (the plan or its input went meanwhile).
+ */
+export type RowResultKeeper = (planId: string, scored: ScoredOutcome) => Promise<string | undefined>;
 
 /** What the queue emits as 'progress': a plan's progress with its id and status. */
 export interface PlanEvent extends PlanProgress {
@@ -58,6 +64,7 @@ export class PlanQueue extends EventEmitter {
     private readonly limits: Limits,
     private readonly capacity: number,
     private readonly log: JobLog | undefined,
+    private readonly keepRowResult?: RowResultKeeper,
   ) {
     super();
     this.setMaxListeners(0);
@@ -165,7 +172,16 @@ export class PlanQueue extends EventEmitter {
       const results = await runPlanCells(cells, {
         runCell: async (cell) => {
           const started = Date.now();
-          const result = await this.pool.run('cell', { plan, cell, image, limits: this.limits }, signal);
+          const keepOutcome = this.keepRowResult !== undefined && cell.seed === 1;
+          const { result, outcome } = await this.pool.run(
+            'cell',
+            { plan, cell, image, limits: this.limits, ...(keepOutcome ? { keepOutcome } : {}) },
+            signal,
+          );
+          if (outcome && this.keepRowResult && !signal.aborted) {
+            const resultId = await this.keepRowResult(active.id, outcome);
+            if (resultId !== undefined) result.resultId = resultId;
+          }
           const seconds = (Date.now() - started) / 1000;
           this.secondsPerCell =
             this.secondsPerCell === null ? seconds : 0.8 * this.secondsPerCell + 0.2 * seconds;

@@ -45,6 +45,36 @@ export interface UnfinishedPlan {
   done: number;
 }
 
+/** One page of a list, newest first: `after` is the position to pass back for the next page. */
+export interface ListPage<T> {
+  items: T[];
+  /** Position of the last item when more may follow; null on the last page. */
+  after: number | null;
+}
+
+/** A stored plan as a list shows it: its state and its body (the label is drawn from it). */
+export interface PlanListEntry {
+  id: string;
+  createdAt: string;
+  status: PlanStatus;
+  total: number;
+  done: number;
+  body: unknown;
+}
+
+/** An uploaded image's row without its pixels. */
+interface ImageSqlRow {
+  id: string;
+  created_at: string;
+  meta: string;
+  nx: number;
+  ny: number;
+}
+
+function imageFromRow(row: ImageSqlRow): StoredImage {
+  return { id: row.id, createdAt: row.created_at, meta: JSON.parse(row.meta), nx: row.nx, ny: row.ny };
+}
+
 /** One row of the plans table in SQLite, columns as stored (JSON in TEXT columns). */
 interface PlanSqlRow {
   id: string;
@@ -83,6 +113,8 @@ const addedColumns: Array<{ table: string; column: string; type: string }> = [
   { table: 'images', column: 'owner', type: 'TEXT' },
   { table: 'results', column: 'owner', type: 'TEXT' },
   { table: 'plans', column: 'owner', type: 'TEXT' },
+  // The plan a result belongs to (a row's representative seed-1 result), deleted with the plan.
+  { table: 'results', column: 'plan_id', type: 'TEXT' },
 ];
 
 interface InputKindSpec {
@@ -227,12 +259,8 @@ export class Store {
   getImageInfo(id: string, scope: Scope = 'all'): StoredImage | undefined {
     const row = this.db
       .prepare(`SELECT id, created_at, meta, nx, ny FROM images WHERE id = @id AND ${visible}`)
-      .get({ id, ...scopeParams(scope) }) as
-      | { id: string; created_at: string; meta: string; nx: number; ny: number }
-      | undefined;
-    return (
-      row && { id: row.id, createdAt: row.created_at, meta: JSON.parse(row.meta), nx: row.nx, ny: row.ny }
-    );
+      .get({ id, ...scopeParams(scope) }) as ImageSqlRow | undefined;
+    return row && imageFromRow(row);
   }
 
   getImagePixels(id: string, scope: Scope = 'all'): RealImage | undefined {
@@ -257,7 +285,7 @@ export class Store {
     kind: string,
     body: unknown,
     images: Record<string, Buffer>,
-    provenance: { owner?: string | null; inputs?: InputRef[] } = {},
+    provenance: { owner?: string | null; inputs?: InputRef[]; planId?: string } = {},
   ): boolean {
     const createdAt = new Date().toISOString();
     const inputs = provenance.inputs ?? [];
@@ -267,9 +295,13 @@ export class Store {
     );
     return this.db.transaction(() => {
       if (!inputs.every((input) => this.inputExists(input))) return false;
+      const planId = provenance.planId ?? null;
+      if (planId !== null && !this.db.prepare('SELECT 1 FROM plans WHERE id = ?').get(planId)) return false;
       this.db
-        .prepare('INSERT OR IGNORE INTO results (id, created_at, kind, body, owner) VALUES (?, ?, ?, ?, ?)')
-        .run(id, createdAt, kind, JSON.stringify(body), provenance.owner ?? null);
+        .prepare(
+          'INSERT OR IGNORE INTO results (id, created_at, kind, body, owner, plan_id) VALUES (?, ?, ?, ?, ?, ?)',
+        )
+        .run(id, createdAt, kind, JSON.stringify(body), provenance.owner ?? null, planId);
       for (const [name, png] of Object.entries(images)) insertImage.run(id, name, png);
       this.link('result', id, inputs);
       return true;
@@ -322,6 +354,72 @@ export class Store {
       .prepare(`SELECT * FROM plans WHERE id = @id AND ${visible}`)
       .get({ id, ...scopeParams(scope) }) as PlanSqlRow | undefined;
     return row && planFromRow(row);
+  }
+
+  /** Who owns a plan and which inputs it reads: what the results made for it are stored with. */
+  planProvenance(id: string): { owner: string | null; inputs: InputRef[] } | undefined {
+    const row = this.db.prepare('SELECT owner FROM plans WHERE id = ?').get(id) as
+      | { owner: string | null }
+      | undefined;
+    if (!row) return undefined;
+    const inputs = this.db
+      .prepare(
+        `SELECT input_kind AS kind, input_id AS id FROM input_links WHERE holder_kind = 'plan' AND holder_id = ?`,
+      )
+      .all(id) as InputRef[];
+    return { owner: row.owner, inputs };
+  }
+
+  /**
+   * Plans the scope may see, newest first, `limit` at most, after position `after` (exclusive).
+   * Positions are the insertion sequence, so a plan created while a client pages never shifts the
+   * pages it has still to read.
+   */
+  listPlans(
+    scope: Scope,
+    options: { limit: number; after?: number; status?: PlanStatus },
+  ): ListPage<PlanListEntry> {
+    const rows = this.db
+      .prepare(
+        `SELECT seq, id, created_at, status, total, done, body FROM plans
+         WHERE ${visible} AND (@after IS NULL OR seq < @after) AND (@status IS NULL OR status = @status)
+         ORDER BY seq DESC LIMIT @take`,
+      )
+      .all({
+        ...scopeParams(scope),
+        after: options.after ?? null,
+        status: options.status ?? null,
+        take: options.limit + 1,
+      }) as Array<{
+      seq: number;
+      id: string;
+      created_at: string;
+      status: PlanStatus;
+      total: number;
+      done: number;
+      body: string;
+    }>;
+    return pageOf(rows, options.limit, (row) => ({
+      id: row.id,
+      createdAt: row.created_at,
+      status: row.status,
+      total: row.total,
+      done: row.done,
+      body: parseJson(row.body),
+    }));
+  }
+
+  /** Uploaded images the scope may see, newest first, paged like `listPlans` (by rowid). */
+  listImages(scope: Scope, options: { limit: number; after?: number }): ListPage<StoredImage> {
+    const rows = this.db
+      .prepare(
+        `SELECT rowid AS seq, id, created_at, meta, nx, ny FROM images
+         WHERE ${visible} AND (@after IS NULL OR rowid < @after) ORDER BY rowid DESC LIMIT @take`,
+      )
+      .all({ ...scopeParams(scope), after: options.after ?? null, take: options.limit + 1 }) as Array<
+      ImageSqlRow & { seq: number }
+    >;
+    return pageOf(rows, options.limit, imageFromRow);
   }
 
   /**
@@ -459,6 +557,10 @@ export class Store {
       this.db.prepare('DELETE FROM result_images WHERE result_id = ?').run(id);
       this.db.prepare('DELETE FROM results WHERE id = ?').run(id);
     } else {
+      const results = this.db.prepare('SELECT id FROM results WHERE plan_id = ?').all(id) as Array<{
+        id: string;
+      }>;
+      for (const result of results) this.deleteHolder('result', result.id);
       this.db.prepare('DELETE FROM plan_cells WHERE plan_id = ?').run(id);
       this.db.prepare('DELETE FROM plans WHERE id = ?').run(id);
     }
@@ -476,12 +578,15 @@ export class Store {
         `SELECT '${kind}' AS kind, id, created_at, ${spec.bytesSql} AS bytes,
           ${pinnedInput(kind, spec.table)} AS pinned, 0 AS rank FROM ${spec.table}`,
     );
-    const results = `SELECT 'result', id, created_at,
-      length(body) + COALESCE((SELECT SUM(length(png)) FROM result_images WHERE result_id = results.id), 0),
-      0, 1 FROM results`;
+    const resultBytes = (r: string) =>
+      `length(${r}.body) + COALESCE((SELECT SUM(length(png)) FROM result_images WHERE result_id = ${r}.id), 0)`;
+    // A plan's row results are part of the plan: counted in its bytes, aged and removed with it.
+    const results = `SELECT 'result', id, created_at, ${resultBytes('results')}, 0, 1 FROM results
+      WHERE plan_id IS NULL`;
     const plans = `SELECT 'plan', id, created_at,
       length(body) + COALESCE(length(table_json), 0) + COALESCE(length(error), 0)
-        + COALESCE((SELECT SUM(length(result)) FROM plan_cells WHERE plan_id = plans.id), 0),
+        + COALESCE((SELECT SUM(length(result)) FROM plan_cells WHERE plan_id = plans.id), 0)
+        + COALESCE((SELECT SUM(${resultBytes('r')}) FROM results r WHERE r.plan_id = plans.id), 0),
       status IN ${activePlanStatuses}, 1 FROM plans`;
     const rows = this.db
       .prepare(`${[...inputs, results, plans].join(' UNION ALL ')} ORDER BY created_at, rank, id`)
@@ -494,6 +599,13 @@ export class Store {
       pinned: row.pinned === 1,
     }));
   }
+}
+
+/** `limit` rows of the `limit + 1` read, and the position after the last when there were more. */
+function pageOf<R extends { seq: number }, T>(rows: R[], limit: number, map: (row: R) => T): ListPage<T> {
+  const more = rows.length > limit;
+  const kept = more ? rows.slice(0, limit) : rows;
+  return { items: kept.map(map), after: more ? kept[kept.length - 1].seq : null };
 }
 
 function parseJson(text: string): unknown {

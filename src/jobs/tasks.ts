@@ -4,6 +4,7 @@ import type { Limits } from '../core/limits.ts';
 import type { Matrix } from '../core/matrix.ts';
 import type { RealImage } from '../core/real-image.ts';
 import type { DecodedImage, DecodeOptions } from '../io/decoded-image.ts';
+import type { MetricSet } from '../metrics/index.ts';
 import type { ReconstructionOutcome, ReconstructionRequest } from '../pipeline/run-reconstruction.ts';
 import type { CellResult, Plan, PlanCell } from '../plan/index.ts';
 
@@ -11,6 +12,13 @@ import type { CellResult, Plan, PlanCell } from '../plan/index.ts';
 export interface UploadedPixels {
   id: string;
   image: RealImage;
+}
+
+/** A reconstruction with what its answer shows beside it: mask diagnostics, zero-filled scores. */
+export interface ScoredOutcome {
+  outcome: ReconstructionOutcome;
+  diagnostics: MaskDiagnostics;
+  zeroFilledMetrics: MetricSet;
 }
 
 /**
@@ -31,13 +39,14 @@ export interface TaskMap {
   };
   reconstruction: {
     input: { request: ReconstructionRequest; seed?: number; image?: UploadedPixels; limits: Limits };
-    output: { outcome: ReconstructionOutcome; diagnostics: MaskDiagnostics };
+    output: ScoredOutcome;
   };
   /** Limits and one draw of every mask of a plan that already has the plan schema's shape. */
   'validate-plan': { input: { plan: Plan; limits: Limits }; output: Plan };
+  /** With `keepOutcome`, a seed-1 cell also returns its outcome, to be stored as the row's result. */
   cell: {
-    input: { plan: Plan; cell: PlanCell; image?: UploadedPixels; limits: Limits };
-    output: CellResult;
+    input: { plan: Plan; cell: PlanCell; image?: UploadedPixels; limits: Limits; keepOutcome?: boolean };
+    output: { result: CellResult; outcome?: ScoredOutcome };
   };
 }
 

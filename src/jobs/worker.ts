@@ -6,12 +6,32 @@
 import { toWorkerFailure } from '../core/error-transport.ts';
 import { ValidationError } from '../core/errors.ts';
 import type { RealImage } from '../core/real-image.ts';
-import type { TaskInput, TaskKind, TaskOutput, UploadedPixels, WorkerReply, WorkerTask } from './tasks.ts';
+import type { ReconstructionOutcome } from '../pipeline/run-reconstruction.ts';
+import type {
+  ScoredOutcome,
+  TaskInput,
+  TaskKind,
+  TaskOutput,
+  UploadedPixels,
+  WorkerReply,
+  WorkerTask,
+} from './tasks.ts';
 
 function imageLoader(uploaded: UploadedPixels | undefined): (id: string) => Promise<RealImage> {
   return async (id: string) => {
     if (uploaded && uploaded.id === id) return uploaded.image;
     throw new ValidationError({ field: 'source.imageId', message: `no uploaded image ${id}` });
+  };
+}
+
+/** The outcome with its mask diagnostics and the zero-filled image's scores. */
+async function scored(outcome: ReconstructionOutcome): Promise<ScoredOutcome> {
+  const { maskDiagnostics } = await import('../../sampling/index.ts');
+  const { zeroFilledMetrics } = await import('../pipeline/zero-filled-metrics.ts');
+  return {
+    outcome,
+    diagnostics: maskDiagnostics(outcome.sampled),
+    zeroFilledMetrics: zeroFilledMetrics(outcome),
   };
 }
 
@@ -36,9 +56,8 @@ const handlers: { [K in TaskKind]: (input: TaskInput<K>) => Promise<TaskOutput<K
   },
   async reconstruction({ request, seed, image, limits }) {
     const { runReconstruction } = await import('../pipeline/run-reconstruction.ts');
-    const { maskDiagnostics } = await import('../../sampling/index.ts');
     const outcome = await runReconstruction(request, seed, { loadImage: imageLoader(image), limits });
-    return { outcome, diagnostics: maskDiagnostics(outcome.sampled) };
+    return scored(outcome);
   },
   async 'validate-plan'({ plan, limits }) {
     // Draws every pattern × R mask once: at large matrices that is real work, so not on the event loop.
@@ -46,9 +65,11 @@ const handlers: { [K in TaskKind]: (input: TaskInput<K>) => Promise<TaskOutput<K
     const { checkPlan } = await import('../plan/index.ts');
     return checkPlan(plan, { limits, checkMasks: true });
   },
-  async cell({ plan, cell, image, limits }) {
-    const { runCell } = await import('../plan/index.ts');
-    return runCell(plan, cell, { loadImage: imageLoader(image), limits });
+  async cell({ plan, cell, image, limits, keepOutcome }) {
+    const { runCellOutcome } = await import('../plan/index.ts');
+    const { result, outcome } = await runCellOutcome(plan, cell, { loadImage: imageLoader(image), limits });
+    // Only the row's representative (seed 1) pays for diagnostics, zero-filled scores and the transfer.
+    return keepOutcome && cell.seed === 1 ? { result, outcome: await scored(outcome) } : { result };
   },
 };
 

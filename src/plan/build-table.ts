@@ -78,6 +78,7 @@ export function buildTable(plan: TablePlan, cellResults: readonly CellResult[]):
       seeds: results.length,
       pareto: false,
       meetsTarget: target === null ? null : meetsTarget(metrics[target.metric].mean, target),
+      ...representative(results),
     });
   }
 
@@ -97,6 +98,12 @@ export function buildTable(plan: TablePlan, cellResults: readonly CellResult[]):
     cells: { done: cellResults.length, total: positions.length * plan.seeds },
     notes: tableNotes(plan, rows, cellResults),
   };
+}
+
+/** The row's representative result: that of its seed-1 cell, when one was stored. */
+function representative(results: readonly CellResult[]): { resultId?: string } {
+  const resultId = results.find((r) => r.seed === 1)?.resultId;
+  return resultId === undefined ? {} : { resultId };
 }
 
 function groupResults(cellResults: readonly CellResult[]): Map<string, CellResult[]> {

@@ -37,6 +37,10 @@ export const cellResultSchema = z.object({
   ),
   reconMs: z.number(),
   notes: z.array(z.string()).describe('pipeline notes (inverse crime for uploads, rescaling, …)'),
+  resultId: z
+    .string()
+    .optional()
+    .describe("the stored result of this cell (seed 1 only, when the runner keeps the row's images)"),
 });
 
 export type CellResult = z.infer<typeof cellResultSchema>;

@@ -35,7 +35,7 @@ export {
 } from './plan-table.ts';
 export { describeTarget, meetsTarget, recommend } from './recommend.ts';
 export { type GridPosition, rowKey } from './row-key.ts';
-export { runCell } from './run-cell.ts';
+export { runCell, runCellOutcome } from './run-cell.ts';
 export { type RunCellFn, type RunPlanOptions, runPlan } from './run-plan.ts';
 export { type RunPlanCellsOptions, runPlanCells } from './run-plan-cells.ts';
 export { type Plan, type PlanInput, planPatternSchema, planSchema, planSchemaFor } from './schema.ts';

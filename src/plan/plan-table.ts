@@ -61,6 +61,10 @@ export const planRowSchema = z.object({
   seeds: z.int().describe('seeds aggregated in this row'),
   pareto: z.boolean().describe('on the Pareto front of scan time vs paretoMetric'),
   meetsTarget: z.boolean().nullable().describe('mean target metric meets the target; null without a target'),
+  resultId: z
+    .string()
+    .optional()
+    .describe("the row's representative reconstruction (its seed-1 cell), when the runner stored one"),
 });
 
 export const rowPickSchema = z.object({

@@ -3,13 +3,27 @@ import type { CellResult } from './cell-result.ts';
 import { jsonNumber } from './metric-direction.ts';
 import type { PlanCell } from './plan-cells.ts';
 import type { Plan } from './schema.ts';
-import { type PipelineContext, runReconstruction, type SampledMask } from './upstream.ts';
+import {
+  type PipelineContext,
+  type ReconstructionOutcome,
+  runReconstruction,
+  type SampledMask,
+} from './upstream.ts';
 
 /**
  * Runs one cell: simulated acquisition with the cell's seed (mask draw and noise draw),
  * reconstruction, scoring, and the scan time of the mask that was drawn. Returns plain data only.
  */
 export async function runCell(plan: Plan, cell: PlanCell, ctx?: PipelineContext): Promise<CellResult> {
+  return (await runCellOutcome(plan, cell, ctx)).result;
+}
+
+/** runCell that also hands back the pipeline's outcome (images included), for a runner that keeps it. */
+export async function runCellOutcome(
+  plan: Plan,
+  cell: PlanCell,
+  ctx?: PipelineContext,
+): Promise<{ result: CellResult; outcome: ReconstructionOutcome }> {
   const outcome = await runReconstruction(
     {
       source: plan.source,
@@ -21,7 +35,7 @@ export async function runCell(plan: Plan, cell: PlanCell, ctx?: PipelineContext)
     cell.seed,
     ctx,
   );
-  return {
+  const result: CellResult = {
     ...cellScanColumns(plan, cell, outcome.sampled),
     metrics: {
       nrmse: jsonNumber(outcome.metrics.nrmse),
@@ -32,6 +46,7 @@ export async function runCell(plan: Plan, cell: PlanCell, ctx?: PipelineContext)
     reconMs: outcome.timing.reconMs,
     notes: [...outcome.notes],
   };
+  return { result, outcome };
 }
 
 /**

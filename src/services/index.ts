@@ -3,13 +3,18 @@ export { contentId } from './content-id.ts';
 export { finiteOrNull, jsonSafe } from './json-safe.ts';
 export { type MaskRequest, type MaskResult, MaskService, maskResultSchema } from './masks.ts';
 export { PhantomService, type RasterRequest } from './phantoms.ts';
+export { planLabel } from './plan-label.ts';
 export {
   isTerminal,
+  type PlanListItem,
   PlanService,
   type PlanStatusView,
+  planListItemSchema,
   planProgressSchema,
+  planRowViewSchema,
   planStatusNames,
   planStatusSchema,
+  planTableViewSchema,
 } from './plans.ts';
 export {
   type Reconstruction,

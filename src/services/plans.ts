@@ -3,8 +3,11 @@ import type { Limits } from '../core/limits.ts';
 import type { PlanQueue } from '../jobs/plan-queue.ts';
 import type { Store, StoredPlan } from '../jobs/store.ts';
 import type { WorkerPool } from '../jobs/worker-pool.ts';
-import { type Plan, type PlanTable, planTableSchema } from '../plan/index.ts';
+import { type Plan, type PlanRow, type PlanTable, planRowSchema, planTableSchema } from '../plan/index.ts';
 import type { Caller, MissingImage } from './caller.ts';
+import { planLabel } from './plan-label.ts';
+import { reconstructionSchema } from './reconstructions.ts';
+import { type ResultImageKey, resultImageNames, resultImageUrl } from './result-images.ts';
 
 export const planStatusNames = ['queued', 'running', 'done', 'failed', 'cancelled'] as const;
 
@@ -14,12 +17,25 @@ export const planProgressSchema = z.object({
   etaSeconds: z.number().nullable().describe('estimate from this run’s cell rate; null when unknown'),
 });
 
+/** A table row as answered: the engine's row plus the image URLs of its representative result. */
+export const planRowViewSchema = planRowSchema.extend({
+  images: reconstructionSchema.shape.images
+    .optional()
+    .describe(
+      "PNG URLs of the row's seed-1 reconstruction (with resultId; GET /v1/reconstructions/{resultId})",
+    ),
+});
+
+export const planTableViewSchema = planTableSchema.extend({
+  rows: z.array(planRowViewSchema).describe(planTableSchema.shape.rows.description ?? ''),
+});
+
 /** A plan as GET /v1/plans/{id} shows it: stored state, live progress, and the table once done. */
 export const planStatusSchema = z.object({
   id: z.string(),
   status: z.enum(planStatusNames),
   progress: planProgressSchema,
-  table: planTableSchema.optional().describe('when status is done'),
+  table: planTableViewSchema.optional().describe('when status is done'),
   recommendation: planTableSchema.shape.recommendation.optional(),
   error: z
     .object({ status: z.int(), kind: z.string(), detail: z.string(), errors: z.array(z.unknown()) })
@@ -31,6 +47,29 @@ export const planStatusSchema = z.object({
 });
 
 export type PlanStatusView = z.infer<typeof planStatusSchema>;
+
+/** One plan as GET /v1/plans lists it. */
+export const planListItemSchema = z.object({
+  id: z.string(),
+  status: z.enum(planStatusNames),
+  createdAt: z.string(),
+  progress: planProgressSchema.pick({ done: true, total: true }),
+  label: z
+    .string()
+    .describe('source, matrix, patterns × R × methods, seeds (an upload is not named by its id)'),
+  links: z.object({ self: z.string() }),
+});
+
+export type PlanListItem = z.infer<typeof planListItemSchema>;
+
+function rowView(row: PlanRow): z.infer<typeof planRowViewSchema> {
+  if (row.resultId === undefined) return row;
+  const id = row.resultId;
+  const images = Object.fromEntries(
+    (Object.keys(resultImageNames) as ResultImageKey[]).map((key) => [key, resultImageUrl(id, key)]),
+  ) as z.infer<typeof reconstructionSchema>['images'];
+  return { ...row, images };
+}
 
 export function isTerminal(status: string): boolean {
   return status === 'done' || status === 'failed' || status === 'cancelled';
@@ -66,6 +105,29 @@ export class PlanService {
     return this.deps.store.getPlan(id, caller.scope);
   }
 
+  /**
+   * The caller's plans, newest first, `limit` per page after position `after`; a status filter
+   * matches the stored status (a plan counts as running once its first cell started).
+   */
+  list(
+    caller: Caller,
+    options: { limit: number; after?: number; status?: PlanStatusView['status'] },
+  ): { items: PlanListItem[]; after: number | null } {
+    const page = this.deps.store.listPlans(caller.scope, options);
+    const items = page.items.map((entry) => {
+      const live = isTerminal(entry.status) ? undefined : this.deps.plans.progress(entry.id);
+      return {
+        id: entry.id,
+        status: entry.status,
+        createdAt: entry.createdAt,
+        progress: { done: live?.done ?? entry.done, total: entry.total },
+        label: planLabel(entry.body),
+        links: { self: links(entry.id).self },
+      };
+    });
+    return { items, after: page.after };
+  }
+
   /** The stored plan with its live progress while it is queued or running. */
   status(stored: StoredPlan): PlanStatusView {
     const live = isTerminal(stored.status) ? undefined : this.deps.plans.progress(stored.id);
@@ -78,7 +140,9 @@ export class PlanService {
         total: stored.total,
         etaSeconds: live?.etaSeconds ?? null,
       },
-      ...(table ? { table, recommendation: table.recommendation } : {}),
+      ...(table
+        ? { table: { ...table, rows: table.rows.map(rowView) }, recommendation: table.recommendation }
+        : {}),
       ...(stored.status === 'failed' && stored.error
         ? { error: stored.error as PlanStatusView['error'] }
         : {}),

@@ -3,9 +3,10 @@ import { z } from 'zod';
 import type { MaskDiagnostics } from '../../sampling/index.ts';
 import type { Limits } from '../core/limits.ts';
 import type { RealImage } from '../core/real-image.ts';
-import type { Store } from '../jobs/store.ts';
-import type { UploadedPixels } from '../jobs/tasks.ts';
+import type { InputRef, Store } from '../jobs/store.ts';
+import type { ScoredOutcome, UploadedPixels } from '../jobs/tasks.ts';
 import type { WorkerPool } from '../jobs/worker-pool.ts';
+import type { MetricSet } from '../metrics/index.ts';
 import type { ReconstructionOutcome, ReconstructionRequest } from '../pipeline/run-reconstruction.ts';
 import { greyPng, maskPng } from '../render/png.ts';
 import type { Caller, MissingImage } from './caller.ts';
@@ -14,13 +15,26 @@ import { type ResultImageKey, resultImageNames, resultImageUrl } from './result-
 import { psfSummary, psfSummarySchema, sampledSummary, sampledSummarySchema } from './sampled-summary.ts';
 
 const metricValue = z.number().nullable().describe('null when not finite (PSNR of an exact reconstruction)');
+const metricSetSchema = z.object({
+  nrmse: metricValue,
+  psnr: metricValue,
+  ssim: metricValue,
+  hfen: metricValue,
+});
 
 /** The stored, scored reconstruction (its images are stored beside it as PNGs). */
 export const reconstructionSchema = z.object({
   id: z.string(),
-  metrics: z
-    .object({ nrmse: metricValue, psnr: metricValue, ssim: metricValue, hfen: metricValue })
-    .describe('|x̂| against |reference| (fully sampled, noiseless): NRMSE, PSNR dB, SSIM, HFEN'),
+  metrics: metricSetSchema.describe(
+    '|x̂| against |reference| (fully sampled, noiseless): NRMSE, PSNR dB, SSIM, HFEN',
+  ),
+  zeroFilledMetrics: metricSetSchema
+    .optional()
+    .describe(
+      'the same four scores of the zero-filled image (inverse DFT of the acquired samples, unsampled ' +
+        'points zero) against the same reference; equal to metrics when the method is zero-filled. ' +
+        'Absent from results stored before it was added.',
+    ),
   acceleration: sampledSummarySchema.shape.acceleration,
   acquired: sampledSummarySchema.shape.acquired,
   fraction: sampledSummarySchema.shape.fraction,
@@ -74,7 +88,7 @@ export class ReconstructionService {
       if (!pixels) return { missingImage: id };
       image = { id, image: pixels };
     }
-    const { outcome, diagnostics } = await pool.runForRequest(
+    const scored = await pool.runForRequest(
       'reconstruction',
       {
         request: pipelineRequest,
@@ -84,15 +98,31 @@ export class ReconstructionService {
       },
       signal,
     );
-    const id = randomUUID();
-    const pngs = await renderImages(outcome, diagnostics);
-    const body = describe(id, outcome, diagnostics);
     // Linked to its upload, so deleting the upload deletes it; refused if the upload went meanwhile.
     const inputs = image ? [{ kind: 'image' as const, id: image.id }] : [];
-    if (!store.putResult(id, 'reconstruction', body, pngs, { owner: caller.owner, inputs })) {
-      return { missingImage: image!.id };
-    }
-    return body;
+    const body = await this.keep(scored, { owner: caller.owner, inputs });
+    return body ?? { missingImage: image!.id };
+  }
+
+  /**
+   * Stores a plan row's representative outcome (its seed-1 cell) as a reconstruction owned like the
+   * plan, linked to the plan's inputs and to the plan itself (purging the plan deletes it).
+   */
+  async keepPlanRow(planId: string, scored: ScoredOutcome): Promise<string | undefined> {
+    const provenance = this.deps.store.planProvenance(planId);
+    if (!provenance) return undefined;
+    return (await this.keep(scored, { ...provenance, planId }))?.id;
+  }
+
+  /** Renders and stores a scored outcome; undefined when an input or the plan went meanwhile. */
+  private async keep(
+    scored: ScoredOutcome,
+    provenance: { owner: string | null; inputs: InputRef[]; planId?: string },
+  ): Promise<Reconstruction | undefined> {
+    const id = randomUUID();
+    const pngs = await renderImages(scored.outcome, scored.diagnostics);
+    const body = describe(id, scored);
+    return this.deps.store.putResult(id, 'reconstruction', body, pngs, provenance) ? body : undefined;
   }
 
   /** A stored reconstruction the caller may see. */
@@ -120,18 +150,23 @@ async function renderImages(
   };
 }
 
-function describe(id: string, outcome: ReconstructionOutcome, diagnostics: MaskDiagnostics): Reconstruction {
+function scoresOf(metrics: MetricSet): Reconstruction['metrics'] {
+  return {
+    nrmse: finiteOrNull(metrics.nrmse),
+    psnr: finiteOrNull(metrics.psnr),
+    ssim: finiteOrNull(metrics.ssim),
+    hfen: finiteOrNull(metrics.hfen),
+  };
+}
+
+function describe(id: string, { outcome, diagnostics, zeroFilledMetrics }: ScoredOutcome): Reconstruction {
   const urls = Object.fromEntries(
     (Object.keys(resultImageNames) as ResultImageKey[]).map((key) => [key, resultImageUrl(id, key)]),
   ) as Reconstruction['images'];
   return {
     id,
-    metrics: {
-      nrmse: finiteOrNull(outcome.metrics.nrmse),
-      psnr: finiteOrNull(outcome.metrics.psnr),
-      ssim: finiteOrNull(outcome.metrics.ssim),
-      hfen: finiteOrNull(outcome.metrics.hfen),
-    },
+    metrics: scoresOf(outcome.metrics),
+    zeroFilledMetrics: scoresOf(zeroFilledMetrics),
     acceleration: outcome.acceleration,
     acquired: outcome.acquired,
     fraction: outcome.fraction,

@@ -86,6 +86,15 @@ export class UploadService {
     return infoOf(store.putImage(randomUUID(), decoded.image, meta, caller.owner));
   }
 
+  /** The caller's uploads, newest first, `limit` per page after position `after`. */
+  list(
+    caller: Caller,
+    options: { limit: number; after?: number },
+  ): { items: ImageInfo[]; after: number | null } {
+    const page = this.deps.store.listImages(caller.scope, options);
+    return { items: page.items.map(infoOf), after: page.after };
+  }
+
   /** An uploaded image the caller may see. */
   info(id: string, caller: Caller): ImageInfo | undefined {
     const stored = this.deps.store.getImageInfo(id, caller.scope);

@@ -1,8 +1,10 @@
 // Entry point of the planner page: wires the setup form, the single acquisition and the plan sections.
 
-import { apiKey, setApiKey } from './api.js';
+import { apiKey, getJson, setApiKey } from './api.js';
+import { PlanList } from './plan-list.js';
 import { PlanRun } from './plan-run.js';
 import { SetupForm } from './setup-form.js';
+import { planParam, restoreSetup, writeAddress } from './setup-url.js';
 import { SingleRun } from './single-run.js';
 import { showProblem, showStatus } from './status.js';
 
@@ -11,7 +13,14 @@ const byId = (id) => document.getElementById(id);
 async function main() {
   const setup = new SetupForm(byId('setup'));
   const single = new SingleRun(setup);
-  const plan = new PlanRun(setup);
+  // Every plan shown goes into the address (so the link reopens it) and the list is read again.
+  const plan = new PlanRun(setup, (id) => {
+    writeAddress(setup, { plan: id });
+    plans.showing(id);
+  });
+  const plans = new PlanList((id) => plan.reopen(id));
+  // The setup follows every edit into the address, so a copied link reproduces it.
+  setup.form.addEventListener('change', () => writeAddress(setup));
 
   // Enter in a field must not submit (and reload) the page: the buttons run everything.
   for (const form of document.querySelectorAll('form')) {
@@ -27,6 +36,11 @@ async function main() {
       await setup.loadPhantoms();
       showStatus(single.status, 'Key accepted. Choose a setup, then show the mask or reconstruct.');
       single.problems.hidden = true;
+      // What the address names (a setup, a plan) and the plan list were refused without the key.
+      await restoreFromAddress(setup);
+      const planId = new URLSearchParams(location.search).get(planParam);
+      if (planId && plan.planId !== planId) plan.reopen(planId);
+      plans.load();
     } catch (error) {
       showProblem(single.status, single.problems, error, setup);
     }
@@ -40,6 +54,7 @@ async function main() {
     try {
       const image = await setup.upload(file);
       showStatus(info, `Uploaded ${image.format ?? 'image'} ${image.nx}×${image.ny} as ${image.id}.`);
+      writeAddress(setup);
     } catch (error) {
       showProblem(info, byId('singleProblems'), error, setup);
     }
@@ -47,11 +62,26 @@ async function main() {
 
   try {
     await setup.loadPhantoms();
+    await restoreFromAddress(setup);
   } catch (error) {
     showProblem(single.status, single.problems, error, setup);
   }
+  const planId = new URLSearchParams(location.search).get(planParam);
+  // Not awaited: a plan still running is followed until it ends.
+  if (planId) plan.reopen(planId);
+  await plans.load();
   document.body.dataset.ready = 'true';
-  return { setup, single, plan };
+  return { setup, single, plan, plans };
+}
+
+/** The setup named in the address (a shared link), including the upload it used when still stored. */
+async function restoreFromAddress(setup) {
+  const { imageId } = restoreSetup(setup);
+  if (!imageId) return;
+  const info = byId('uploadInfo');
+  const image = await getJson(`v1/images/${encodeURIComponent(imageId)}`);
+  setup.uploaded = image;
+  showStatus(info, `Using uploaded ${image.format ?? 'image'} ${image.nx}×${image.ny} (${image.id}).`);
 }
 
 main();

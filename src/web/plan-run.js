@@ -1,8 +1,10 @@
 // Plan a sweep: post the grid, follow its progress on the Server-Sent Events stream, then show the
 // tradeoff plot and table the service computed (Pareto front and recommendation included).
 
-import { apiKey, deleteResource, getBlob, getJson, pageRelative, postJson } from './api.js';
+import { apiKey, deleteResource, getJson, postJson } from './api.js';
+import { offerResource } from './downloads.js';
 import { planPoints, renderPlanTable } from './plan-table.js';
+import { hideRowImages, showRowImages } from './row-images.js';
 import { showProblem, showStatus } from './status.js';
 import { drawTradeoffPlot } from './tradeoff-plot.js';
 
@@ -18,8 +20,10 @@ function parseAccelerations(text) {
 }
 
 export class PlanRun {
-  constructor(setup) {
+  /** `onPlan(id)` hears of every plan shown (a new one or one reopened), e.g. to put it in the address. */
+  constructor(setup, onPlan = () => {}) {
     this.setup = setup;
+    this.onPlan = onPlan;
     this.status = byId('planStatus');
     this.problems = byId('planProblems');
     this.progress = byId('planProgress');
@@ -32,6 +36,11 @@ export class PlanRun {
     this.cancelButton.addEventListener('click', () => this.cancel());
     byId('plotMetric').addEventListener('change', () => this.redrawPlot());
     byId('targetMetric').addEventListener('change', () => this.suggestTarget());
+    byId('planTable').tBodies[0].addEventListener('click', (event) => {
+      const key = event.target.closest?.('[data-open-row]')?.dataset.openRow;
+      const row = this.plan?.table?.rows.find((r) => r.key === key);
+      if (row) showRowImages(row, this.plan, this.problems, this.status);
+    });
     const allColumns = byId('allColumns');
     allColumns.addEventListener('change', () => {
       byId('planTable').classList.toggle('compact', !allColumns.checked);
@@ -85,21 +94,32 @@ export class PlanRun {
     this.progressText.dataset.total = String(total);
   }
 
-  async start() {
+  start() {
+    return this.guarded(async () => {
+      const body = this.body();
+      showStatus(this.status, 'Submitting the plan…', true);
+      const accepted = await postJson('v1/plans', body);
+      await this.track(accepted);
+    });
+  }
+
+  /** Shows a stored plan: its table and plot when done, its progress (followed) while it runs. */
+  reopen(id) {
+    return this.guarded(async () => {
+      showStatus(this.status, `Opening plan ${id}…`, true);
+      await this.track(await getJson(`v1/plans/${encodeURIComponent(id)}`));
+    });
+  }
+
+  /** Runs `task` from a clean slate with Run plan disabled; a problem clears the results and shows. */
+  async guarded(task) {
     this.problems.hidden = true;
     this.setup.markProblems([]);
     this.stopFollowing();
     this.clearResults();
     this.setRunning(true);
     try {
-      const body = this.body();
-      showStatus(this.status, 'Submitting the plan…', true);
-      const accepted = await postJson('v1/plans', body);
-      this.planId = accepted.id;
-      this.showProgress(accepted.progress.done, accepted.progress.total);
-      showStatus(this.status, `Plan ${accepted.id} ${accepted.status}…`, true);
-      const final = await this.follow(accepted.id);
-      await this.finish(final);
+      await task();
     } catch (error) {
       this.clearResults();
       showProblem(this.status, this.problems, error, this.setup);
@@ -107,6 +127,20 @@ export class PlanRun {
       this.stopFollowing();
       this.setRunning(false);
     }
+  }
+
+  /** Follows a plan (as a status answer) until it ends, then shows it. */
+  async track(plan) {
+    this.planId = plan.id;
+    this.onPlan(plan.id);
+    this.showProgress(plan.progress.done, plan.progress.total, plan.progress.etaSeconds);
+    const final = terminal.has(plan.status) ? plan : await this.followWithStatus(plan);
+    await this.finish(final);
+  }
+
+  followWithStatus(plan) {
+    showStatus(this.status, `Plan ${plan.id} ${plan.status}…`, true);
+    return this.follow(plan.id);
   }
 
   /**
@@ -179,6 +213,7 @@ export class PlanRun {
     table.caption?.remove();
     byId('recommendation').hidden = true;
     byId('csvLink').hidden = true;
+    hideRowImages();
     this.showProgress(0, 0);
   }
 
@@ -273,16 +308,6 @@ export class PlanRun {
   }
 
   async offerCsv(plan) {
-    const link = byId('csvLink');
-    const path = pageRelative(plan.links.csv);
-    if (apiKey()) {
-      const blob = await getBlob(path, 'text/csv');
-      if (link.href.startsWith('blob:')) URL.revokeObjectURL(link.href);
-      link.href = URL.createObjectURL(blob);
-    } else {
-      link.href = path;
-    }
-    link.download = `plan-${plan.id}.csv`;
-    link.hidden = false;
+    await offerResource(byId('csvLink'), plan.links.csv, 'text/csv', `plan-${plan.id}.csv`);
   }
 }

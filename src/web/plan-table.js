@@ -77,6 +77,11 @@ function columnsFor(targetMetric) {
       secondary: true,
     },
     {
+      label: 'Images',
+      title: "The row's seed-1 reconstruction, error map and mask",
+      action: (row) => (row.resultId ? 'View' : null),
+    },
+    {
       label: 'R actual',
       title: 'Acceleration the mask reached (mean over seeds)',
       path: 'actualR',
@@ -113,6 +118,20 @@ function cell(row, column) {
   if (column.secondary) td.classList.add('secondary');
   if (column.sticky) td.classList.add('sticky');
   if (column.target) td.classList.add('target');
+  if (column.action) {
+    td.classList.add('text');
+    const label = column.action(row);
+    if (label) {
+      const button = document.createElement('button');
+      button.type = 'button';
+      button.className = 'secondary small';
+      button.textContent = label;
+      button.dataset.openRow = row.key;
+      button.setAttribute('aria-label', `${label} the images of ${row.pattern} · ${row.method}`);
+      td.append(button);
+    }
+    return td;
+  }
   if (column.text) {
     td.classList.add('text');
     td.textContent = column.text(row) ?? '';
@@ -147,7 +166,7 @@ export function renderPlanTable(table, plan) {
     th.scope = 'col';
     th.textContent = column.label;
     th.title = column.title;
-    if (column.text) th.classList.add('text');
+    if (column.text || column.action) th.classList.add('text');
     if (column.secondary) th.classList.add('secondary');
     if (column.sticky) th.classList.add('sticky');
     if (column.target) th.classList.add('target');

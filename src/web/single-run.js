@@ -3,6 +3,7 @@
 // An error clears everything shown before, so no old image or number stands beside the message.
 
 import { getBlob, pageRelative, postForBlob, postJson } from './api.js';
+import { offerBlob, offerResource, withdraw } from './downloads.js';
 import { colouredErrorPng, drawColourBar, errorLevels } from './error-map.js';
 import { formatNumber, showNumber } from './format.js';
 import { ImageDialog } from './image-dialog.js';
@@ -101,12 +102,18 @@ function showSolver(info) {
   }
 }
 
+/** The four scores under `prefix` (recon, zeroFilled); a score the service left null is +∞. */
+function showScores(prefix, metrics) {
+  for (const name of ['nrmse', 'psnr', 'ssim', 'hfen']) {
+    const cell = numberCell(`${prefix}.${name}`);
+    showNumber(cell, metrics?.[name], name);
+    if (metrics && metrics[name] === null) cell.textContent = '∞';
+  }
+}
+
 function showMetrics(outcome) {
-  const metrics = outcome.metrics ?? {};
-  showNumber(numberCell('recon.nrmse'), metrics.nrmse, 'nrmse');
-  showNumber(numberCell('recon.psnr'), metrics.psnr, 'psnr');
-  showNumber(numberCell('recon.ssim'), metrics.ssim, 'ssim');
-  showNumber(numberCell('recon.hfen'), metrics.hfen, 'hfen');
+  showScores('recon', outcome.metrics);
+  showScores('zeroFilled', outcome.zeroFilledMetrics);
   showNumber(numberCell('recon.reconMs'), outcome.timing?.reconMs, 'ms');
   showSolver(outcome.info);
   showNotes(Array.isArray(outcome.notes) ? outcome.notes : []);
@@ -215,6 +222,8 @@ export class SingleRun {
       cell.textContent = '–';
     }
     showNotes([]);
+    byId('singleDownloads').hidden = true;
+    for (const link of byId('singleDownloads').querySelectorAll('a')) withdraw(link);
     this.errors = null;
     byId('errorScale').hidden = true;
     this.lastOutcome = null;
@@ -253,9 +262,11 @@ export class SingleRun {
     };
     const noise = setup.noise();
     if (noise) body.noise = noise;
-    const [outcome, mask, [full, under, withoutPartialFourier]] = await Promise.all([
+    const maskBody = { matrix: body.matrix, sampling: body.sampling };
+    const [outcome, mask, maskPng, [full, under, withoutPartialFourier]] = await Promise.all([
       postJson('v1/reconstructions', body),
-      postJson('v1/masks', { matrix: body.matrix, sampling: body.sampling }),
+      postJson('v1/masks', maskBody),
+      postForBlob('v1/masks', maskBody, 'image/png'),
       scanTimes(setup),
     ]);
     const fetched = Object.fromEntries(
@@ -278,9 +289,28 @@ export class SingleRun {
     showMaskNumbers(mask);
     showMetrics(outcome);
     showScanTimes(full, under, withoutPartialFourier);
+    await this.offerDownloads(outcome, maskPng);
     this.lastOutcome = outcome;
     this.reconstructed = JSON.stringify({ matrix: body.matrix, sampling: body.sampling });
     showStatus(this.status, `Reconstruction ${outcome.id} done (${body.method.name}).`);
+  }
+
+  /** Links to each image as the service serves it, and to the mask the mask route drew as PNG. */
+  async offerDownloads(outcome, maskPng) {
+    const name = (image) => `${image}-${outcome.id}.png`;
+    await Promise.all([
+      offerResource(
+        byId('downloadReconstruction'),
+        outcome.images.reconstruction,
+        'image/png',
+        name('reconstruction'),
+      ),
+      offerResource(byId('downloadZeroFilled'), outcome.images.zeroFilled, 'image/png', name('zero-filled')),
+      offerResource(byId('downloadReference'), outcome.images.reference, 'image/png', name('reference')),
+      offerResource(byId('downloadErrorMap'), outcome.images.errorMap, 'image/png', name('error-map')),
+    ]);
+    offerBlob(byId('downloadMask'), maskPng, name('mask'));
+    byId('singleDownloads').hidden = false;
   }
 
   /** Draws the error map and its colour bar on the scale chosen (kept from run to run). */

@@ -56,7 +56,7 @@ export async function benchPlan(): Promise<BenchRow[]> {
     const t1 = performance.now();
     const pooled = await runPlan(benchPlanBody, {
       concurrency: pool.size,
-      runCellFn: (plan, cell) => pool.run('cell', { plan, cell, limits: defaultLimits }),
+      runCellFn: async (plan, cell) => (await pool.run('cell', { plan, cell, limits: defaultLimits })).result,
     });
     const pooledMs = performance.now() - t1;
     rows.push({

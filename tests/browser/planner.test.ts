@@ -1,13 +1,13 @@
-import { existsSync, mkdirSync, mkdtempSync, rmSync } from 'node:fs';
+import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
-import { dirname, join } from 'node:path';
-import { fileURLToPath } from 'node:url';
+import { join } from 'node:path';
 import type { FastifyInstance } from 'fastify';
-import { type BrowserContext, chromium, type Page, type Response } from 'playwright-core';
+import type { BrowserContext, Page, Response } from 'playwright-core';
 import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { buildApp } from '../../src/app.ts';
 import { debianFile } from '../io/debian-files.ts';
+import { artifacts, launchBrowser, listen } from './browser-session.ts';
 
 /**
  * The planner page in a real browser: Debian's chromium driven by playwright-core against the real
@@ -15,25 +15,11 @@ import { debianFile } from '../io/debian-files.ts';
  * (the page keeps each exact value in data-value and shows a rounding of it).
  */
 
-const chromiumPath = '/usr/bin/chromium';
-const artifacts = join(dirname(fileURLToPath(import.meta.url)), '..', 'artifacts');
-/** Flags that keep chromium from dialling out on a closed network (background services, QUIC, sync). */
-const chromiumArgs = [
-  '--headless',
-  '--no-sandbox',
-  '--disable-gpu',
-  '--disable-quic',
-  '--no-first-run',
-  '--disable-background-networking',
-  '--disable-component-update',
-  '--disable-sync',
-];
-
 let app: FastifyInstance;
 let baseUrl: string;
 let context: BrowserContext;
 let page: Page;
-let userDataDir: string;
+let closeBrowser: () => Promise<void>;
 let dataDir: string;
 let keyedApp: FastifyInstance;
 let keyedUrl: string;
@@ -151,20 +137,7 @@ function waitForApi(path: string, method = 'POST', accept?: string): Promise<Res
   });
 }
 
-async function listen(server: FastifyInstance): Promise<string> {
-  await server.listen({ port: 0, host: '127.0.0.1' });
-  const address = server.server.address();
-  if (address === null || typeof address === 'string') throw new Error('no TCP address');
-  return `http://127.0.0.1:${address.port}`;
-}
-
 beforeAll(async () => {
-  if (!existsSync(chromiumPath)) {
-    throw new Error(
-      `${chromiumPath} is missing: the browser test needs Debian's chromium (apt-get install chromium)`,
-    );
-  }
-  mkdirSync(artifacts, { recursive: true });
   dataDir = mkdtempSync(join(tmpdir(), 'kspace-planner-browser-data-'));
   app = await buildApp({ dataDir });
   baseUrl = await listen(app);
@@ -172,36 +145,16 @@ beforeAll(async () => {
   keyedApp = await buildApp({ dataDir: keyedDataDir, apiKeys: [apiKey], workers: 1 });
   keyedUrl = await listen(keyedApp);
 
-  userDataDir = mkdtempSync(join(tmpdir(), 'kspace-planner-chromium-'));
-  context = await chromium.launchPersistentContext(userDataDir, {
-    executablePath: chromiumPath,
-    headless: true,
-    args: chromiumArgs,
-    viewport: { width: 1280, height: 800 },
-    acceptDownloads: true,
-  });
   // Nothing leaves the service's origin: no CDN, no fonts, no telemetry.
-  await context.route('**/*', (route) => {
-    const url = route.request().url();
-    const local = [baseUrl, keyedUrl, 'blob:', 'data:'].some((origin) => url.startsWith(origin));
-    if (local) return route.continue();
-    offOrigin.push(url);
-    return route.abort();
-  });
-  page = context.pages()[0] ?? (await context.newPage());
-  page.on('pageerror', (error) => pageErrors.push(String(error)));
-  page.on('console', (message) => {
-    if (message.type() === 'error') pageErrors.push(message.text());
-  });
+  ({ context, page, close: closeBrowser } = await launchBrowser([baseUrl, keyedUrl], offOrigin, pageErrors));
   page.on('request', (request) => requested.push(request.url()));
 });
 
 afterAll(async () => {
-  await context?.close();
+  await closeBrowser?.();
   await app?.close();
   await keyedApp?.close();
   if (keyedDataDir) rmSync(keyedDataDir, { recursive: true, force: true });
-  if (userDataDir) rmSync(userDataDir, { recursive: true, force: true });
   if (dataDir) rmSync(dataDir, { recursive: true, force: true });
 });
 
