@@ -2,6 +2,7 @@ import type { FastifyInstance } from 'fastify';
 import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
 import { ValidationError } from '../src/core/errors.ts';
+import { readFilePart } from '../src/http/multipart-file.ts';
 import { HttpProblem, jsonResponse, problemResponses } from '../src/http/problem.ts';
 import { idParams } from '../src/http/schemas.ts';
 import { imageInfoSchema } from '../src/services/index.ts';
@@ -87,14 +88,8 @@ export async function imageRoutes(app: FastifyInstance): Promise<void> {
       },
     },
     async (request, reply) => {
-      const part = await request.file().catch(malformedMultipart('body'));
-      if (part?.fieldname !== 'file') {
-        throw new HttpProblem(400, 'send the image as a multipart part named "file"', [
-          { field: 'file', message: 'missing' },
-        ]);
-      }
-      const bytes = await part.toBuffer().catch(malformedMultipart('file'));
-      const choice = { ...request.query, ...formChoices(part.fields) };
+      const { bytes, fields } = await readFilePart(request, 'the image');
+      const choice = { ...request.query, ...formChoices(fields) };
       const info = await uploads.upload(bytes, choice, tenancy(request));
       return reply.code(201).header('location', info.url).send(info);
     },
@@ -164,27 +159,6 @@ function formChoices(fields: Record<string, unknown>): z.infer<typeof uploadQuer
     );
   }
   return Object.fromEntries(Object.entries(parsed.data).filter(([, v]) => v !== undefined));
-}
-
-/**
- * The multipart parser (busboy) reports a body that breaks RFC 2046 §5.1.1 — no boundary parameter,
- * a boundary that never occurs, a body cut off before the closing delimiter — as a bare Error with a
- * fixed message; the plugin's own limits come as fastify errors with a code and pass through as they are.
- */
-function malformedMultipart(field: 'body' | 'file'): (error: unknown) => never {
-  return (error) => {
-    if (error instanceof Error && (error as { code?: unknown }).code === undefined) {
-      const message = `malformed multipart/form-data: ${error.message}`;
-      throw new HttpProblem(400, message, [
-        {
-          field,
-          message,
-          allowed: 'a boundary parameter, parts between its delimiters, a closing delimiter',
-        },
-      ]);
-    }
-    throw error;
-  };
 }
 
 function notFound(id: string): HttpProblem {

@@ -3,6 +3,8 @@ import type { WorkerFailure } from '../core/error-transport.ts';
 import type { Limits } from '../core/limits.ts';
 import type { Matrix } from '../core/matrix.ts';
 import type { RealImage } from '../core/real-image.ts';
+import type { CoilMaps } from '../encoding/index.ts';
+import type { CoilMapsUpload, DecodedCoilMaps } from '../io/decode-coil-maps.ts';
 import type { DecodedImage, DecodeOptions } from '../io/decoded-image.ts';
 import type { ReconstructionOutcome, ReconstructionRequest } from '../pipeline/run-reconstruction.ts';
 import type { CellResult, Plan, PlanCell } from '../plan/index.ts';
@@ -13,6 +15,12 @@ export interface UploadedPixels {
   image: RealImage;
 }
 
+/** Uploaded coil maps a task needs, sent along like images (workers never open the database). */
+export interface UploadedCoilMaps {
+  id: string;
+  maps: CoilMaps;
+}
+
 /**
  * Every task a worker thread runs: its input (typed values the HTTP edge or the plan schema already
  * validated; plain, structured-clonable data) and its output. The worker trusts its inputs and does
@@ -20,6 +28,7 @@ export interface UploadedPixels {
  */
 export interface TaskMap {
   decode: { input: { bytes: Uint8Array; options: DecodeOptions }; output: DecodedImage };
+  'decode-coil-maps': { input: CoilMapsUpload; output: DecodedCoilMaps };
   'phantom-kspace': { input: { name: string; kx: Float64Array; ky: Float64Array }; output: Float64Array };
   'phantom-raster': {
     input: { name: string; nx: number; ny: number; supersample?: number };
@@ -30,13 +39,25 @@ export interface TaskMap {
     output: { sampled: SampledMask; diagnostics: MaskDiagnostics | null };
   };
   reconstruction: {
-    input: { request: ReconstructionRequest; seed?: number; image?: UploadedPixels; limits: Limits };
+    input: {
+      request: ReconstructionRequest;
+      seed?: number;
+      image?: UploadedPixels;
+      coilMaps?: UploadedCoilMaps[];
+      limits: Limits;
+    };
     output: { outcome: ReconstructionOutcome; diagnostics: MaskDiagnostics };
   };
   /** Limits and one draw of every mask of a plan that already has the plan schema's shape. */
   'validate-plan': { input: { plan: Plan; limits: Limits }; output: Plan };
   cell: {
-    input: { plan: Plan; cell: PlanCell; image?: UploadedPixels; limits: Limits };
+    input: {
+      plan: Plan;
+      cell: PlanCell;
+      image?: UploadedPixels;
+      coilMaps?: UploadedCoilMaps[];
+      limits: Limits;
+    };
     output: CellResult;
   };
 }

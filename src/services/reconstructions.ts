@@ -9,6 +9,8 @@ import type { WorkerPool } from '../jobs/worker-pool.ts';
 import type { ReconstructionOutcome, ReconstructionRequest } from '../pipeline/run-reconstruction.ts';
 import { greyPng, maskPng } from '../render/png.ts';
 import type { Caller, MissingImage } from './caller.ts';
+import { coilMapInputs, coilMapRefs, loadNamedCoilMaps } from './coil-map-refs.ts';
+import { coilMapsNotFound } from './coil-maps.ts';
 import { finiteOrNull, jsonSafe } from './json-safe.ts';
 import { type ResultImageKey, resultImageNames, resultImageUrl } from './result-images.ts';
 import { psfSummary, psfSummarySchema, sampledSummary, sampledSummarySchema } from './sampled-summary.ts';
@@ -74,12 +76,15 @@ export class ReconstructionService {
       if (!pixels) return { missingImage: id };
       image = { id, image: pixels };
     }
+    const mapRefs = coilMapRefs(pipelineRequest);
+    const coilMaps = loadNamedCoilMaps(store, mapRefs, caller);
     const { outcome, diagnostics } = await pool.runForRequest(
       'reconstruction',
       {
         request: pipelineRequest,
         ...(seed === undefined ? {} : { seed }),
         ...(image ? { image } : {}),
+        ...(coilMaps.length > 0 ? { coilMaps } : {}),
         limits,
       },
       signal,
@@ -88,8 +93,10 @@ export class ReconstructionService {
     const pngs = await renderImages(outcome, diagnostics);
     const body = describe(id, outcome, diagnostics);
     // Linked to its upload, so deleting the upload deletes it; refused if the upload went meanwhile.
-    const inputs = image ? [{ kind: 'image' as const, id: image.id }] : [];
+    const inputs = [...(image ? [{ kind: 'image' as const, id: image.id }] : []), ...coilMapInputs(mapRefs)];
     if (!store.putResult(id, 'reconstruction', body, pngs, { owner: caller.owner, inputs })) {
+      const goneMaps = mapRefs.find((ref) => !store.inputExists({ kind: 'coilMaps', id: ref.id }));
+      if (goneMaps) throw coilMapsNotFound(goneMaps.id, goneMaps.field);
       return { missingImage: image!.id };
     }
     return body;
