@@ -46,7 +46,7 @@ export function decodeCoilPlanes(planes: CoilPlanes): CoilMaps {
         throw new ValidationError({
           field,
           message: `decodes to ${bytes.length} bytes`,
-          allowed: `exactly 4·nx·ny = ${4 * plane} bytes (${ny}×${nx} float32)`,
+          allowed: `exactly 4·nx·ny = ${4 * plane} bytes (${ny}×${nx} float32; ${base64Length(4 * plane)} base64 characters)`,
         });
       }
       const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
