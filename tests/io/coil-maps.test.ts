@@ -5,6 +5,7 @@ import { DecodeError, LimitError, ValidationError } from '../../src/core/errors.
 import { base64Length, decodeCoilPlanes } from '../../src/io/coil-planes.ts';
 import { decodeNiftiCoilMaps } from '../../src/io/nifti-coil-maps.ts';
 import { caughtValidationError } from '../core/caught-validation-error.ts';
+import { float32Base64 } from './float32-base64.ts';
 
 // NIfTI files and expected maps: tests/reference/generate_coil_map_niftis.py (Debian python3-nibabel
 // wrote the files, numpy laid the expected maps out: row r = voxel j = ny − 1 − r, coil-major,
@@ -93,12 +94,7 @@ describe('NIfTI coil maps: coils along the last dimension (nibabel-written files
   });
 });
 
-/** Little-endian float32 bytes of `values` as padded base64. */
-function planeOf(values: number[]): string {
-  const bytes = Buffer.alloc(4 * values.length);
-  values.forEach((v, i) => bytes.writeFloatLE(v, 4 * i));
-  return bytes.toString('base64');
-}
+const planeOf = float32Base64;
 
 describe('JSON coil planes: base64 little-endian float32, ny×nx row-major', () => {
   // 3 columns × 2 rows, two coils; values exact in float32 (small dyadic fractions and 2^-24·3).
