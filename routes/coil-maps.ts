@@ -6,8 +6,9 @@ import { type Limits, limitsId } from '../src/core/limits.ts';
 import { withinLimit } from '../src/core/zod-problems.ts';
 import { disconnectSignal } from '../src/http/disconnect-signal.ts';
 import { readFilePart } from '../src/http/multipart-file.ts';
-import { HttpProblem, jsonResponse, problemResponses } from '../src/http/problem.ts';
-import { idParams, perLimits } from '../src/http/schemas.ts';
+import { jsonResponse, problemResponses } from '../src/http/problem.ts';
+import { perLimits } from '../src/http/schemas.ts';
+import { storedInputRoutes } from '../src/http/stored-input-routes.ts';
 import { coilMapsInfoSchema } from '../src/services/index.ts';
 
 const coilMapsInfoResponse = coilMapsInfoSchema.meta({
@@ -47,7 +48,7 @@ type CoilPlanesBody = z.infer<ReturnType<typeof coilPlanesBody>>;
  */
 export async function coilMapRoutes(app: FastifyInstance): Promise<void> {
   const r = app.withTypeProvider<ZodTypeProvider>();
-  const { coilMaps, lifecycle, limits, tenancy } = app.services;
+  const { coilMaps, limits, tenancy } = app.services;
 
   r.post(
     '/v1/coil-maps',
@@ -94,51 +95,21 @@ export async function coilMapRoutes(app: FastifyInstance): Promise<void> {
     },
   );
 
-  r.get(
-    '/v1/coil-maps/:id',
-    {
-      schema: {
-        summary: 'Metadata of uploaded coil maps',
-        tags: ['coil-maps'],
-        params: idParams,
-        response: {
-          200: jsonResponse('The maps’ metadata', coilMapsInfoResponse),
-          ...problemResponses(401, 404),
-        },
-      },
+  storedInputRoutes(app, {
+    path: '/v1/coil-maps',
+    kind: 'coilMaps',
+    tag: 'coil-maps',
+    noun: 'coil maps',
+    infoResponse: coilMapsInfoResponse,
+    info: (id, caller) => coilMaps.info(id, caller),
+    summaries: {
+      get: 'Metadata of uploaded coil maps',
+      getResponse: 'The maps’ metadata',
+      delete: 'Delete uploaded coil maps and everything made with them',
+      deleteDescription:
+        'Also deletes the reconstructions and plans that used them (plans cancelled first when ' +
+        'queued or running) with their results; the values are overwritten in the database file ' +
+        'and its write-ahead log.',
     },
-    async (request) => {
-      const info = coilMaps.info(request.params.id, tenancy(request));
-      if (!info) throw notFound(request.params.id);
-      return info;
-    },
-  );
-
-  r.delete(
-    '/v1/coil-maps/:id',
-    {
-      schema: {
-        summary: 'Delete uploaded coil maps and everything made with them',
-        description:
-          'Also deletes the reconstructions and plans that used them (plans cancelled first when ' +
-          'queued or running) with their results; the values are overwritten in the database file ' +
-          'and its write-ahead log.',
-        tags: ['coil-maps'],
-        params: idParams,
-        response: { 204: z.null().describe('Deleted'), ...problemResponses(401, 404) },
-      },
-    },
-    async (request, reply) => {
-      if (!lifecycle.delete('coilMaps', request.params.id, tenancy(request).scope)) {
-        throw notFound(request.params.id);
-      }
-      return reply.code(204).send(null);
-    },
-  );
-}
-
-function notFound(id: string): HttpProblem {
-  return new HttpProblem(404, `no uploaded coil maps ${id}`, [
-    { field: 'id', message: 'unknown coil maps id' },
-  ]);
+  });
 }

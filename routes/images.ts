@@ -3,8 +3,8 @@ import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
 import { ValidationError } from '../src/core/errors.ts';
 import { readFilePart } from '../src/http/multipart-file.ts';
-import { HttpProblem, jsonResponse, problemResponses } from '../src/http/problem.ts';
-import { idParams } from '../src/http/schemas.ts';
+import { jsonResponse, problemResponses } from '../src/http/problem.ts';
+import { storedInputRoutes } from '../src/http/stored-input-routes.ts';
 import { imageInfoSchema } from '../src/services/index.ts';
 
 const imageInfoResponse = imageInfoSchema.meta({
@@ -41,7 +41,7 @@ const uploadQuery = z.object({
  */
 export async function imageRoutes(app: FastifyInstance): Promise<void> {
   const r = app.withTypeProvider<ZodTypeProvider>();
-  const { uploads, lifecycle, tenancy } = app.services;
+  const { uploads, tenancy } = app.services;
 
   r.post(
     '/v1/images',
@@ -95,47 +95,23 @@ export async function imageRoutes(app: FastifyInstance): Promise<void> {
     },
   );
 
-  r.get(
-    '/v1/images/:id',
-    {
-      schema: {
-        summary: 'Metadata of an uploaded image',
-        tags: ['images'],
-        params: idParams,
-        response: {
-          200: jsonResponse('The image metadata', imageInfoResponse),
-          ...problemResponses(401, 404),
-        },
-      },
+  storedInputRoutes(app, {
+    path: '/v1/images',
+    kind: 'image',
+    tag: 'images',
+    noun: 'image',
+    infoResponse: imageInfoResponse,
+    info: (id, caller) => uploads.info(id, caller),
+    summaries: {
+      get: 'Metadata of an uploaded image',
+      getResponse: 'The image metadata',
+      delete: 'Delete an uploaded image and everything made from it',
+      deleteDescription:
+        'Also deletes the reconstructions made from it and the plans using it as their source ' +
+        '(cancelled first when queued or running) with their results; the pixels are overwritten ' +
+        'in the database file and its write-ahead log.',
     },
-    async (request) => {
-      const info = uploads.info(request.params.id, tenancy(request));
-      if (!info) throw notFound(request.params.id);
-      return info;
-    },
-  );
-
-  r.delete(
-    '/v1/images/:id',
-    {
-      schema: {
-        summary: 'Delete an uploaded image and everything made from it',
-        description:
-          'Also deletes the reconstructions made from it and the plans using it as their source ' +
-          '(cancelled first when queued or running) with their results; the pixels are overwritten ' +
-          'in the database file and its write-ahead log.',
-        tags: ['images'],
-        params: idParams,
-        response: { 204: z.null().describe('Deleted'), ...problemResponses(401, 404) },
-      },
-    },
-    async (request, reply) => {
-      if (!lifecycle.delete('image', request.params.id, tenancy(request).scope)) {
-        throw notFound(request.params.id);
-      }
-      return reply.code(204).send(null);
-    },
-  );
+  });
 }
 
 /**
@@ -159,8 +135,4 @@ function formChoices(fields: Record<string, unknown>): z.infer<typeof uploadQuer
     );
   }
   return Object.fromEntries(Object.entries(parsed.data).filter(([, v]) => v !== undefined));
-}
-
-function notFound(id: string): HttpProblem {
-  return new HttpProblem(404, `no uploaded image ${id}`, [{ field: 'id', message: 'unknown image id' }]);
 }
