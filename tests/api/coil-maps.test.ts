@@ -13,10 +13,11 @@ import { float32Base64 } from '../io/float32-base64.ts';
 import { expectDocumented, expectProblem, oneCellPlan, sharedTestApp, type TestApp } from './helpers.ts';
 
 // Sources: the upload contract of POST /v1/coil-maps (docs/design.md §4.7): planes of
-// ny×nx little-endian float32 in base64 (RFC 4648 §4), values kept as sent; errors as RFC 9457
+// ny×nx little-endian float32 in base64 (RFC 4648 §4, docs/references.md §10.8), values kept as sent; errors as RFC 9457
 // problems naming the field; deletion, retention and tenant isolation as for image uploads
 // (DEVELOPERS.md "Data lifecycle"). NIfTI files: tests/reference/generate_coil_map_niftis.py
-// (Debian python3-nibabel), expected maps laid out by numpy in the same script.
+// (Debian python3-nibabel; complex64 layout docs/references.md §10.2), expected maps laid out by
+// numpy in the same script.
 
 const everyone: Caller = { owner: null, scope: 'all' };
 const parsedPlan = () => parseOrThrow(planSchema, oneCellPlan, '');

@@ -9,7 +9,8 @@ import { float32Base64 } from './float32-base64.ts';
 
 // NIfTI files and expected maps: tests/reference/generate_coil_map_niftis.py (Debian python3-nibabel
 // wrote the files, numpy laid the expected maps out: row r = voxel j = ny − 1 − r, coil-major,
-// interleaved re/im). Header byte offsets from nifti1.h (datatype 70, bitpix 72, vox_offset 108).
+// interleaved re/im). Header byte offsets from nifti1.h (datatype 70, bitpix 72, vox_offset 108;
+// docs/references.md §10.2); base64 per RFC 4648 §4 (docs/references.md §10.8).
 
 const fixtureDir = new URL('../fixtures/coil-maps/', import.meta.url);
 const fixture = (name: string) => readFileSync(new URL(name, fixtureDir));
