@@ -265,8 +265,8 @@ export class Store {
   // --- uploaded coil maps -----------------------------------------------------------------
 
   /**
-   * Stores maps as little-endian float32 (what both upload forms carry, so nothing is rounded):
-   * half the bytes of float64 for the largest inputs the service keeps.
+   * Stores maps as float32 in the host's byte order, as pixels are stored: both upload forms carry
+   * float32, so nothing is rounded, and it is half the bytes of float64 for the largest inputs kept.
    */
   putCoilMaps(
     id: string,
