@@ -3,8 +3,9 @@ import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
 import { ValidationError } from '../src/core/errors.ts';
 import { cursorAfter, listLimit, listQuery, pageSchema } from '../src/http/list-query.ts';
-import { HttpProblem, jsonResponse, problemResponses } from '../src/http/problem.ts';
-import { idParams } from '../src/http/schemas.ts';
+import { readFilePart } from '../src/http/multipart-file.ts';
+import { jsonResponse, problemResponses } from '../src/http/problem.ts';
+import { storedInputRoutes } from '../src/http/stored-input-routes.ts';
 import { imageInfoSchema } from '../src/services/index.ts';
 
 const imageInfoResponse = imageInfoSchema.meta({
@@ -43,7 +44,7 @@ const uploadQuery = z.object({
  */
 export async function imageRoutes(app: FastifyInstance): Promise<void> {
   const r = app.withTypeProvider<ZodTypeProvider>();
-  const { uploads, lifecycle, tenancy } = app.services;
+  const { uploads, tenancy } = app.services;
 
   r.post(
     '/v1/images',
@@ -90,14 +91,8 @@ export async function imageRoutes(app: FastifyInstance): Promise<void> {
       },
     },
     async (request, reply) => {
-      const part = await request.file().catch(malformedMultipart('body'));
-      if (part?.fieldname !== 'file') {
-        throw new HttpProblem(400, 'send the image as a multipart part named "file"', [
-          { field: 'file', message: 'missing' },
-        ]);
-      }
-      const bytes = await part.toBuffer().catch(malformedMultipart('file'));
-      const choice = { ...request.query, ...formChoices(part.fields) };
+      const { bytes, fields } = await readFilePart(request, 'the image');
+      const choice = { ...request.query, ...formChoices(fields) };
       const info = await uploads.upload(bytes, choice, tenancy(request));
       return reply.code(201).header('location', info.url).send(info);
     },
@@ -129,47 +124,23 @@ export async function imageRoutes(app: FastifyInstance): Promise<void> {
     },
   );
 
-  r.get(
-    '/v1/images/:id',
-    {
-      schema: {
-        summary: 'Metadata of an uploaded image',
-        tags: ['images'],
-        params: idParams,
-        response: {
-          200: jsonResponse('The image metadata', imageInfoResponse),
-          ...problemResponses(401, 404),
-        },
-      },
+  storedInputRoutes(app, {
+    path: '/v1/images',
+    kind: 'image',
+    tag: 'images',
+    noun: 'image',
+    infoResponse: imageInfoResponse,
+    info: (id, caller) => uploads.info(id, caller),
+    summaries: {
+      get: 'Metadata of an uploaded image',
+      getResponse: 'The image metadata',
+      delete: 'Delete an uploaded image and everything made from it',
+      deleteDescription:
+        'Also deletes the reconstructions made from it and the plans using it as their source ' +
+        '(cancelled first when queued or running) with their results; the pixels are overwritten ' +
+        'in the database file and its write-ahead log.',
     },
-    async (request) => {
-      const info = uploads.info(request.params.id, tenancy(request));
-      if (!info) throw notFound(request.params.id);
-      return info;
-    },
-  );
-
-  r.delete(
-    '/v1/images/:id',
-    {
-      schema: {
-        summary: 'Delete an uploaded image and everything made from it',
-        description:
-          'Also deletes the reconstructions made from it and the plans using it as their source ' +
-          '(cancelled first when queued or running) with their results; the pixels are overwritten ' +
-          'in the database file and its write-ahead log.',
-        tags: ['images'],
-        params: idParams,
-        response: { 204: z.null().describe('Deleted'), ...problemResponses(401, 404) },
-      },
-    },
-    async (request, reply) => {
-      if (!lifecycle.delete('image', request.params.id, tenancy(request).scope)) {
-        throw notFound(request.params.id);
-      }
-      return reply.code(204).send(null);
-    },
-  );
+  });
 }
 
 /**
@@ -193,29 +164,4 @@ function formChoices(fields: Record<string, unknown>): z.infer<typeof uploadQuer
     );
   }
   return Object.fromEntries(Object.entries(parsed.data).filter(([, v]) => v !== undefined));
-}
-
-/**
- * The multipart parser (busboy) reports a body that breaks RFC 2046 §5.1.1 — no boundary parameter,
- * a boundary that never occurs, a body cut off before the closing delimiter — as a bare Error with a
- * fixed message; the plugin's own limits come as fastify errors with a code and pass through as they are.
- */
-function malformedMultipart(field: 'body' | 'file'): (error: unknown) => never {
-  return (error) => {
-    if (error instanceof Error && (error as { code?: unknown }).code === undefined) {
-      const message = `malformed multipart/form-data: ${error.message}`;
-      throw new HttpProblem(400, message, [
-        {
-          field,
-          message,
-          allowed: 'a boundary parameter, parts between its delimiters, a closing delimiter',
-        },
-      ]);
-    }
-    throw error;
-  };
-}
-
-function notFound(id: string): HttpProblem {
-  return new HttpProblem(404, `no uploaded image ${id}`, [{ field: 'id', message: 'unknown image id' }]);
 }

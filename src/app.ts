@@ -12,6 +12,7 @@ import Fastify, {
   type RouteOptions,
 } from 'fastify';
 import { serializerCompiler, validatorCompiler } from 'fastify-type-provider-zod';
+import { coilMapRoutes } from '../routes/coil-maps.ts';
 import { healthRoutes } from '../routes/health.ts';
 import { imageRoutes } from '../routes/images.ts';
 import { maskRoutes } from '../routes/masks.ts';
@@ -34,6 +35,7 @@ import { Store } from './jobs/store.ts';
 import { WorkerPool } from './jobs/worker-pool.ts';
 import { buildTable, planCells } from './plan/index.ts';
 import {
+  CoilMapService,
   MaskService,
   PhantomService,
   PlanService,
@@ -82,6 +84,7 @@ export interface Services {
   reconstructions: ReconstructionService;
   masks: MaskService;
   uploads: UploadService;
+  coilMaps: CoilMapService;
   phantoms: PhantomService;
   scanTimes: ScanTimeService;
   planning: PlanService;
@@ -104,6 +107,7 @@ declare module 'fastify' {
 const apiPlugins: FastifyPluginAsync[] = [
   phantomRoutes,
   imageRoutes,
+  coilMapRoutes,
   maskRoutes,
   reconstructionRoutes,
   resultRoutes,
@@ -196,6 +200,7 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
     reconstructions,
     masks: new MaskService(deps),
     uploads: new UploadService(deps),
+    coilMaps: new CoilMapService(deps),
     phantoms: new PhantomService(deps),
     scanTimes: new ScanTimeService(deps),
     planning: new PlanService({ ...deps, plans }),

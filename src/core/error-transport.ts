@@ -5,6 +5,7 @@ import {
   type FieldProblem,
   KnownError,
   LimitError,
+  NotFoundError,
   QueueFullError,
   ValidationError,
   WorkerError,
@@ -26,6 +27,9 @@ export interface WorkerFailure {
 /** The data form of an error thrown in a worker. */
 export function toWorkerFailure(error: unknown): WorkerFailure {
   if (error instanceof ValidationError) {
+    return { kind: error.kind, message: error.message, problems: error.problems };
+  }
+  if (error instanceof NotFoundError) {
     return { kind: error.kind, message: error.message, problems: error.problems };
   }
   if (error instanceof DecodeError) {
@@ -56,6 +60,8 @@ export function fromWorkerFailure(failure: WorkerFailure): Error {
       return new LimitError(problems);
     case 'validation':
       return new ValidationError(problems);
+    case 'not-found':
+      return new NotFoundError(problems[0] ?? { field: 'id', message });
     case 'cancelled':
       return new CancelledError();
     case 'decode':

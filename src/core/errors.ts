@@ -20,12 +20,19 @@ export interface ProblemParts {
 }
 
 /** Wire name of each known error: worker transport and stored plan failures use it. */
-export type ErrorKind = 'validation' | 'limit' | 'cancelled' | 'decode' | 'queue-full' | 'workers-busy';
+export type ErrorKind =
+  | 'validation'
+  | 'limit'
+  | 'not-found'
+  | 'cancelled'
+  | 'decode'
+  | 'queue-full'
+  | 'workers-busy';
 
 /** An error with a defined HTTP answer (anything else is a 500). */
 export abstract class KnownError extends Error {
   abstract readonly kind: ErrorKind;
-  abstract readonly status: 409 | 415 | 422 | 429;
+  abstract readonly status: 404 | 409 | 415 | 422 | 429;
   abstract problem(): ProblemParts;
 }
 
@@ -49,6 +56,21 @@ export class ValidationError extends KnownError {
 export class LimitError extends ValidationError {
   override readonly name = 'LimitError';
   override readonly kind = 'limit';
+}
+
+/** A stored input the request names does not exist for this caller (HTTP 404), named by its field. */
+export class NotFoundError extends KnownError {
+  override readonly name = 'NotFoundError';
+  readonly kind = 'not-found';
+  readonly status = 404;
+  readonly problems: FieldProblem[];
+  constructor(problem: FieldProblem) {
+    super(`${problem.field}: ${problem.message}`);
+    this.problems = [problem];
+  }
+  problem(): ProblemParts {
+    return { detail: this.message, errors: this.problems };
+  }
 }
 
 /** Raised when a long computation is cancelled through an AbortSignal (HTTP 409). */

@@ -30,13 +30,30 @@ function transform(input: TransformInput) {
   if (url === '/' && methods.includes('GET')) {
     return { schema: { summary: 'The planner web page', tags: ['web'], response: pageResponse }, url };
   }
-  const result = jsonSchemaTransform(input);
   const extras = route.config?.openapi;
+  const jsonBody = jsonContentSchema(input.schema?.body);
+  if (jsonBody !== undefined && extras?.multipartBody) {
+    // A route taking JSON or multipart: fastify validates the JSON form only (a per-type body schema).
+    const result = jsonSchemaTransform({ ...input, schema: { ...input.schema, body: jsonBody } });
+    const content = {
+      'application/json': { schema: result.schema.body },
+      'multipart/form-data': { schema: extras.multipartBody },
+    };
+    return { schema: { ...result.schema, body: { content } }, url: result.url };
+  }
+  const result = jsonSchemaTransform(input);
   if (!extras?.multipartBody) return result;
   return {
     schema: { ...result.schema, body: extras.multipartBody, consumes: ['multipart/form-data'] },
     url: result.url,
   };
+}
+
+/** The application/json schema of a body given per content type (`{ content: { … } }`), if any. */
+function jsonContentSchema(body: unknown): unknown {
+  if (typeof body !== 'object' || body === null || !('content' in body)) return undefined;
+  const { content } = body as { content: Record<string, { schema?: unknown } | undefined> };
+  return content['application/json']?.schema;
 }
 
 export const swaggerOptions: FastifyDynamicSwaggerOptions = {

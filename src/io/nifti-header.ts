@@ -126,15 +126,19 @@ function layoutOf(bytes: Uint8Array): { layout: Layout; littleEndian: boolean } 
   return null;
 }
 
+/** What a reader accepts: size bounds and, when not the real scalar types, its own datatypes. */
+export interface NiftiHeaderOptions {
+  maxSide?: number;
+  maxBytes?: number;
+  datatypes?: { codes: ReadonlySet<number>; described: string };
+}
+
 /**
  * Reads and checks the geometry fields of a single-file NIfTI-1/-2 header. `maxSide` bounds the
  * slice (LimitError), `maxBytes` the whole file as the header declares it (LimitError), so a
  * compressed upload can be refused before it is inflated.
  */
-export function checkNiftiHeader(
-  bytes: Uint8Array,
-  options: { maxSide?: number; maxBytes?: number } = {},
-): NiftiHeaderFacts {
+export function checkNiftiHeader(bytes: Uint8Array, options: NiftiHeaderOptions = {}): NiftiHeaderFacts {
   const found = layoutOf(bytes);
   if (!found) throw new DecodeError('not a single-file NIfTI-1/-2 header');
   const { layout, littleEndian } = found;
@@ -167,9 +171,10 @@ export function checkNiftiHeader(
       `bitpix ${bitpix} contradicts datatype ${datatype}`,
       `${bits} for datatype ${datatype}`,
     );
-  if (!supportedDatatypes.has(datatype)) {
+  const accepted = options.datatypes ?? { codes: supportedDatatypes, described: 'real scalar types only' };
+  if (!accepted.codes.has(datatype)) {
     throw new DecodeError(
-      `NIfTI datatype ${datatype} is not supported (real scalar types only)`,
+      `NIfTI datatype ${datatype} is not supported (${accepted.described})`,
       'file.datatype',
     );
   }

@@ -1,7 +1,7 @@
 import { DecodeError } from '../core/errors.ts';
 import type { DecodedImage, DecodeOptions } from './decoded-image.ts';
 import { checkIndex } from './image-size.ts';
-import { checkNiftiHeader } from './nifti-header.ts';
+import { checkNiftiHeader, type NiftiHeaderOptions } from './nifti-header.ts';
 
 /** nifti1.h datatype codes we read, with their typed-array reader. */
 const datatypes: Record<
@@ -61,7 +61,10 @@ export const niftiHeaderBytes = 540;
  * single-file header is checked in full (checkNiftiHeader); other NIfTI-like headers stop the
  * inflation at once so that decodeNifti can say what they are.
  */
-export function niftiDeclaredLength(head: Uint8Array, options: DecodeOptions = {}): number {
+export function niftiDeclaredLength(
+  head: Uint8Array,
+  options: DecodeOptions & NiftiHeaderOptions = {},
+): number {
   const kind = niftiKind(head);
   if (kind === null) throw new DecodeError(unrecognisedFile);
   if (kind !== 'nifti-1' && kind !== 'nifti-2') return head.length;
@@ -71,13 +74,8 @@ export function niftiDeclaredLength(head: Uint8Array, options: DecodeOptions = {
 export const unrecognisedFile =
   'unrecognised file: send PNG, JPEG, TIFF, DICOM Part 10 or single-file NIfTI (.nii, .nii.gz)';
 
-/**
- * Single-file NIfTI-1 or NIfTI-2 (.nii, or .nii.gz after gunzipBounded): one slice of one volume,
- * scaled by scl_slope/scl_inter (value = scl_slope × stored + scl_inter; slope 0 means no scaling,
- * nifti1.h). Voxel index i becomes the column and j the row counted from the bottom, so the first
- * row of the image is the largest j (j increases upward, as in a radiological display of an axial slice).
- */
-export function decodeNifti(bytes: Uint8Array, options: DecodeOptions = {}): DecodedImage {
+/** The version of a single-file NIfTI, or a DecodeError saying what the bytes are instead. */
+export function singleFileNiftiKind(bytes: Uint8Array): 'nifti-1' | 'nifti-2' {
   const kind = niftiKind(bytes);
   if (kind === 'analyze')
     throw new DecodeError('ANALYZE 7.5 headers are not supported; convert to single-file NIfTI (.nii)');
@@ -87,6 +85,17 @@ export function decodeNifti(bytes: Uint8Array, options: DecodeOptions = {}): Dec
     );
   }
   if (kind === null) throw new DecodeError('not a NIfTI file');
+  return kind;
+}
+
+/**
+ * Single-file NIfTI-1 or NIfTI-2 (.nii, or .nii.gz after gunzipBounded): one slice of one volume,
+ * scaled by scl_slope/scl_inter (value = scl_slope × stored + scl_inter; slope 0 means no scaling,
+ * nifti1.h). Voxel index i becomes the column and j the row counted from the bottom, so the first
+ * row of the image is the largest j (j increases upward, as in a radiological display of an axial slice).
+ */
+export function decodeNifti(bytes: Uint8Array, options: DecodeOptions = {}): DecodedImage {
+  const kind = singleFileNiftiKind(bytes);
   // Geometry, datatype and vox_offset are checked before any voxel is read.
   const facts = checkNiftiHeader(bytes, options);
   const dims = facts.dims;

@@ -14,7 +14,7 @@ import {
 } from '../plan/index.ts';
 import type { JobLog } from './job-log.ts';
 import type { InputRef, PlanFailure, PlanStatus, Store, StoredPlan } from './store.ts';
-import type { ScoredOutcome, UploadedPixels } from './tasks.ts';
+import type { ScoredOutcome, UploadedCoilMaps, UploadedPixels } from './tasks.ts';
 import type { WorkerPool } from './worker-pool.ts';
 
 /** The plan engine as the queue needs it (src/plan: planCells, buildTable; runCell runs in the workers). */
@@ -169,15 +169,20 @@ export class PlanQueue extends EventEmitter {
       active.clock = new ProgressClock(active.total, finished.size);
       this.emitProgress(active, 'running');
       const image = this.uploadedImage(plan);
+      const coilMaps = this.uploadedCoilMaps(active.id);
       const results = await runPlanCells(cells, {
         runCell: async (cell) => {
           const started = Date.now();
           const keepOutcome = this.keepRowResult !== undefined && cell.seed === 1;
-          const { result, outcome } = await this.pool.run(
-            'cell',
-            { plan, cell, image, limits: this.limits, ...(keepOutcome ? { keepOutcome } : {}) },
-            signal,
-          );
+          const input = {
+            plan,
+            cell,
+            image,
+            ...(coilMaps.length > 0 ? { coilMaps } : {}),
+            limits: this.limits,
+            ...(keepOutcome ? { keepOutcome } : {}),
+          };
+          const { result, outcome } = await this.pool.run('cell', input, signal);
           if (outcome && this.keepRowResult && !signal.aborted) {
             const resultId = await this.keepRowResult(active.id, outcome);
             if (resultId !== undefined) result.resultId = resultId;
@@ -206,6 +211,23 @@ export class PlanQueue extends EventEmitter {
       this.store.setPlanStatus(active.id, 'failed', { error: failure });
       this.emitProgress(active, 'failed');
     }
+  }
+
+  /** The coil maps the plan was linked to at submit (checked then for its owner). */
+  private uploadedCoilMaps(planId: string): UploadedCoilMaps[] {
+    return this.store
+      .inputsOf('plan', planId)
+      .filter((input) => input.kind === 'coilMaps')
+      .map((input) => {
+        const maps = this.store.getCoilMaps(input.id);
+        if (!maps) {
+          throw new ValidationError({
+            field: 'coilArrays',
+            message: `the coil maps ${input.id} no longer exist`,
+          });
+        }
+        return { id: input.id, maps };
+      });
   }
 
   private uploadedImage(plan: Plan): UploadedPixels | undefined {

@@ -4,9 +4,21 @@ import Database from 'better-sqlite3';
 import { boundEcho, boundFieldProblems, MAX_DETAIL_CHARS } from '../core/echo-bound.ts';
 import type { FieldProblem } from '../core/errors.ts';
 import type { RealImage } from '../core/real-image.ts';
+import type { CoilMaps } from '../encoding/index.ts';
 import { type CellResult, cellResultSchema, type Plan, type PlanTable, planSchema } from '../plan/index.ts';
 
 export type PlanStatus = 'queued' | 'running' | 'done' | 'failed' | 'cancelled';
+
+/** Uploaded coil sensitivity maps as stored (the planes are read separately). */
+export interface StoredCoilMaps {
+  id: string;
+  createdAt: string;
+  /** Whitelisted facts only (format, datatype, dims); never a header string. */
+  meta: Record<string, unknown>;
+  nx: number;
+  ny: number;
+  coils: number;
+}
 
 export interface StoredImage {
   id: string;
@@ -92,6 +104,9 @@ const schemaSql = `
 CREATE TABLE IF NOT EXISTS images (
   id TEXT PRIMARY KEY, created_at TEXT NOT NULL, meta TEXT NOT NULL,
   nx INTEGER NOT NULL, ny INTEGER NOT NULL, pixels BLOB NOT NULL);
+CREATE TABLE IF NOT EXISTS coil_maps (
+  id TEXT PRIMARY KEY, created_at TEXT NOT NULL, owner TEXT, meta TEXT NOT NULL,
+  nx INTEGER NOT NULL, ny INTEGER NOT NULL, coils INTEGER NOT NULL, planes BLOB NOT NULL);
 CREATE TABLE IF NOT EXISTS results (
   id TEXT PRIMARY KEY, created_at TEXT NOT NULL, kind TEXT NOT NULL, body TEXT NOT NULL);
 CREATE TABLE IF NOT EXISTS result_images (
@@ -133,6 +148,7 @@ interface InputKindSpec {
  */
 export const inputKinds = {
   image: { table: 'images', bytesSql: 'length(meta) + length(pixels)' },
+  coilMaps: { table: 'coil_maps', bytesSql: 'length(meta) + length(planes)' },
 } as const satisfies Record<string, InputKindSpec>;
 
 export type InputKind = keyof typeof inputKinds;
@@ -272,6 +288,60 @@ export class Store {
     const data = new Float64Array(row.nx * row.ny);
     new Uint8Array(data.buffer).set(row.pixels.subarray(0, data.byteLength));
     return { nx: row.nx, ny: row.ny, data };
+  }
+
+  // --- uploaded coil maps -----------------------------------------------------------------
+
+  /**
+   * Stores maps as float32 in the host's byte order, as pixels are stored: both upload forms carry
+   * float32, so nothing is rounded, and it is half the bytes of float64 for the largest inputs kept.
+   */
+  putCoilMaps(
+    id: string,
+    maps: CoilMaps,
+    meta: Record<string, unknown>,
+    owner: string | null = null,
+  ): StoredCoilMaps {
+    const createdAt = new Date().toISOString();
+    const planes = Buffer.from(Float32Array.from(maps.data).buffer);
+    this.db
+      .prepare(
+        `INSERT INTO coil_maps (id, created_at, owner, meta, nx, ny, coils, planes)
+         VALUES (?, ?, ?, ?, ?, ?, ?, ?)`,
+      )
+      .run(id, createdAt, owner, JSON.stringify(meta), maps.nx, maps.ny, maps.coils, planes);
+    return { id, createdAt, meta, nx: maps.nx, ny: maps.ny, coils: maps.coils };
+  }
+
+  getCoilMapsInfo(id: string, scope: Scope = 'all'): StoredCoilMaps | undefined {
+    const row = this.db
+      .prepare(`SELECT id, created_at, meta, nx, ny, coils FROM coil_maps WHERE id = @id AND ${visible}`)
+      .get({ id, ...scopeParams(scope) }) as
+      | { id: string; created_at: string; meta: string; nx: number; ny: number; coils: number }
+      | undefined;
+    return (
+      row && {
+        id: row.id,
+        createdAt: row.created_at,
+        meta: JSON.parse(row.meta),
+        nx: row.nx,
+        ny: row.ny,
+        coils: row.coils,
+      }
+    );
+  }
+
+  getCoilMaps(id: string, scope: Scope = 'all'): CoilMaps | undefined {
+    const row = this.db
+      .prepare(`SELECT nx, ny, coils, planes FROM coil_maps WHERE id = @id AND ${visible}`)
+      .get({ id, ...scopeParams(scope) }) as
+      | { nx: number; ny: number; coils: number; planes: Buffer }
+      | undefined;
+    if (!row) return undefined;
+    // Copy into a fresh, aligned buffer: SQLite blobs need not be 4-byte aligned.
+    const stored = new Float32Array(2 * row.coils * row.nx * row.ny);
+    new Uint8Array(stored.buffer).set(row.planes.subarray(0, stored.byteLength));
+    return { coils: row.coils, nx: row.nx, ny: row.ny, data: Float64Array.from(stored) };
   }
 
   // --- single results (reconstructions, masks) ---------------------------------------------
@@ -513,6 +583,15 @@ export class Store {
         .prepare(`SELECT 1 FROM ${tableOf(kind)} WHERE id = @id AND ${visible}`)
         .get({ id, ...scopeParams(scope) }) !== undefined
     );
+  }
+
+  /** The inputs a result or plan was made from (through input_links). */
+  inputsOf(holderKind: HolderKind, holderId: string): InputRef[] {
+    return this.db
+      .prepare(
+        'SELECT input_kind AS kind, input_id AS id FROM input_links WHERE holder_kind = ? AND holder_id = ?',
+      )
+      .all(holderKind, holderId) as InputRef[];
   }
 
   /** Plans and results made from an input (through input_links). */

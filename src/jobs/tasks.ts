@@ -3,6 +3,8 @@ import type { WorkerFailure } from '../core/error-transport.ts';
 import type { Limits } from '../core/limits.ts';
 import type { Matrix } from '../core/matrix.ts';
 import type { RealImage } from '../core/real-image.ts';
+import type { CoilMaps } from '../encoding/index.ts';
+import type { CoilMapsUpload, DecodedCoilMaps } from '../io/decode-coil-maps.ts';
 import type { DecodedImage, DecodeOptions } from '../io/decoded-image.ts';
 import type { MetricSet } from '../metrics/index.ts';
 import type { ReconstructionOutcome, ReconstructionRequest } from '../pipeline/run-reconstruction.ts';
@@ -21,6 +23,12 @@ export interface ScoredOutcome {
   zeroFilledMetrics: MetricSet;
 }
 
+/** Uploaded coil maps a task needs, sent along like images (workers never open the database). */
+export interface UploadedCoilMaps {
+  id: string;
+  maps: CoilMaps;
+}
+
 /**
  * Every task a worker thread runs: its input (typed values the HTTP edge or the plan schema already
  * validated; plain, structured-clonable data) and its output. The worker trusts its inputs and does
@@ -28,6 +36,7 @@ export interface ScoredOutcome {
  */
 export interface TaskMap {
   decode: { input: { bytes: Uint8Array; options: DecodeOptions }; output: DecodedImage };
+  'decode-coil-maps': { input: CoilMapsUpload; output: DecodedCoilMaps };
   'phantom-kspace': { input: { name: string; kx: Float64Array; ky: Float64Array }; output: Float64Array };
   'phantom-raster': {
     input: { name: string; nx: number; ny: number; supersample?: number };
@@ -38,14 +47,27 @@ export interface TaskMap {
     output: { sampled: SampledMask; diagnostics: MaskDiagnostics | null };
   };
   reconstruction: {
-    input: { request: ReconstructionRequest; seed?: number; image?: UploadedPixels; limits: Limits };
+    input: {
+      request: ReconstructionRequest;
+      seed?: number;
+      image?: UploadedPixels;
+      coilMaps?: UploadedCoilMaps[];
+      limits: Limits;
+    };
     output: ScoredOutcome;
   };
   /** Limits and one draw of every mask of a plan that already has the plan schema's shape. */
   'validate-plan': { input: { plan: Plan; limits: Limits }; output: Plan };
   /** With `keepOutcome`, a seed-1 cell also returns its outcome, to be stored as the row's result. */
   cell: {
-    input: { plan: Plan; cell: PlanCell; image?: UploadedPixels; limits: Limits; keepOutcome?: boolean };
+    input: {
+      plan: Plan;
+      cell: PlanCell;
+      image?: UploadedPixels;
+      coilMaps?: UploadedCoilMaps[];
+      limits: Limits;
+      keepOutcome?: boolean;
+    };
     output: { result: CellResult; outcome?: ScoredOutcome };
   };
 }

@@ -4,14 +4,16 @@
  * Engine errors come back as data (WorkerFailure) and are rebuilt as the same classes by the pool.
  */
 import { toWorkerFailure } from '../core/error-transport.ts';
-import { ValidationError } from '../core/errors.ts';
+import { NotFoundError, ValidationError } from '../core/errors.ts';
 import type { RealImage } from '../core/real-image.ts';
+import type { CoilMaps } from '../encoding/index.ts';
 import type { ReconstructionOutcome } from '../pipeline/run-reconstruction.ts';
 import type {
   ScoredOutcome,
   TaskInput,
   TaskKind,
   TaskOutput,
+  UploadedCoilMaps,
   UploadedPixels,
   WorkerReply,
   WorkerTask,
@@ -35,11 +37,24 @@ async function scored(outcome: ReconstructionOutcome): Promise<ScoredOutcome> {
   };
 }
 
+/** Maps the service loaded for this task (the caller's own, checked there); any other id is a 404. */
+function coilMapsLoader(uploaded: UploadedCoilMaps[] | undefined): (id: string) => Promise<CoilMaps> {
+  return async (id: string) => {
+    const found = uploaded?.find((entry) => entry.id === id);
+    if (found) return found.maps;
+    throw new NotFoundError({ field: 'coils.mapsId', message: `no uploaded coil maps ${id}` });
+  };
+}
+
 /** One handler per task kind; the mapped type keeps each input and output tied to its kind. */
 const handlers: { [K in TaskKind]: (input: TaskInput<K>) => Promise<TaskOutput<K>> } = {
   async decode({ bytes, options }) {
     const { decodeImage } = await import('../io/decode-image.ts');
     return decodeImage(Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength), options);
+  },
+  async 'decode-coil-maps'(upload) {
+    const { decodeCoilMaps } = await import('../io/decode-coil-maps.ts');
+    return decodeCoilMaps(upload);
   },
   async 'phantom-kspace'({ name, kx, ky }) {
     const { getPhantom } = await import('../phantoms/index.ts');
@@ -54,9 +69,10 @@ const handlers: { [K in TaskKind]: (input: TaskInput<K>) => Promise<TaskOutput<K
     const sampled = await resolveSampling(matrix, sampling, limits);
     return { sampled, diagnostics: diagnostics ? maskDiagnostics(sampled) : null };
   },
-  async reconstruction({ request, seed, image, limits }) {
+  async reconstruction({ request, seed, image, coilMaps, limits }) {
     const { runReconstruction } = await import('../pipeline/run-reconstruction.ts');
-    const outcome = await runReconstruction(request, seed, { loadImage: imageLoader(image), limits });
+    const ctx = { loadImage: imageLoader(image), loadCoilMaps: coilMapsLoader(coilMaps), limits };
+    const outcome = await runReconstruction(request, seed, ctx);
     return scored(outcome);
   },
   async 'validate-plan'({ plan, limits }) {
@@ -65,9 +81,10 @@ const handlers: { [K in TaskKind]: (input: TaskInput<K>) => Promise<TaskOutput<K
     const { checkPlan } = await import('../plan/index.ts');
     return checkPlan(plan, { limits, checkMasks: true });
   },
-  async cell({ plan, cell, image, limits, keepOutcome }) {
+  async cell({ plan, cell, image, coilMaps, limits, keepOutcome }) {
     const { runCellOutcome } = await import('../plan/index.ts');
-    const { result, outcome } = await runCellOutcome(plan, cell, { loadImage: imageLoader(image), limits });
+    const ctx = { loadImage: imageLoader(image), loadCoilMaps: coilMapsLoader(coilMaps), limits };
+    const { result, outcome } = await runCellOutcome(plan, cell, ctx);
     // Only the row's representative (seed 1) pays for diagnostics, zero-filled scores and the transfer.
     return keepOutcome && cell.seed === 1 ? { result, outcome: await scored(outcome) } : { result };
   },

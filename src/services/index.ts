@@ -1,4 +1,5 @@
 export type { Caller, MissingImage } from './caller.ts';
+export { CoilMapService, type CoilMapsInfo, coilMapsInfoSchema } from './coil-maps.ts';
 export { contentId } from './content-id.ts';
 export { finiteOrNull, jsonSafe } from './json-safe.ts';
 export { type MaskRequest, type MaskResult, MaskService, maskResultSchema } from './masks.ts';

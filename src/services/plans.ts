@@ -5,6 +5,7 @@ import type { Store, StoredPlan } from '../jobs/store.ts';
 import type { WorkerPool } from '../jobs/worker-pool.ts';
 import { type Plan, type PlanRow, type PlanTable, planRowSchema, planTableSchema } from '../plan/index.ts';
 import type { Caller, MissingImage } from './caller.ts';
+import { checkPlanCoilMaps } from './coil-map-refs.ts';
 import { planLabel } from './plan-label.ts';
 import { reconstructionSchema } from './reconstructions.ts';
 import { type ResultImageKey, resultImageNames, resultImageUrl } from './result-images.ts';
@@ -95,9 +96,10 @@ export class PlanService {
     if (source.imageId !== undefined && !store.getImageInfo(source.imageId, caller.scope)) {
       return { missingImage: source.imageId };
     }
+    const mapInputs = checkPlanCoilMaps(store, plan, caller);
     // The link to the upload lets deleting the upload delete this plan too.
     const inputs = source.imageId === undefined ? [] : [{ kind: 'image' as const, id: source.imageId }];
-    return plans.submit(plan, { owner: caller.owner, inputs });
+    return plans.submit(plan, { owner: caller.owner, inputs: [...inputs, ...mapInputs] });
   }
 
   /** A plan the caller may see. */

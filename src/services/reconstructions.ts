@@ -10,6 +10,8 @@ import type { MetricSet } from '../metrics/index.ts';
 import type { ReconstructionOutcome, ReconstructionRequest } from '../pipeline/run-reconstruction.ts';
 import { greyPng, maskPng } from '../render/png.ts';
 import type { Caller, MissingImage } from './caller.ts';
+import { coilMapInputs, coilMapRefs, loadNamedCoilMaps } from './coil-map-refs.ts';
+import { coilMapsNotFound } from './coil-maps.ts';
 import { finiteOrNull, jsonSafe } from './json-safe.ts';
 import { type ResultImageKey, resultImageNames, resultImageUrl } from './result-images.ts';
 import { psfSummary, psfSummarySchema, sampledSummary, sampledSummarySchema } from './sampled-summary.ts';
@@ -88,20 +90,26 @@ export class ReconstructionService {
       if (!pixels) return { missingImage: id };
       image = { id, image: pixels };
     }
+    const mapRefs = coilMapRefs(pipelineRequest);
+    const coilMaps = loadNamedCoilMaps(store, mapRefs, caller);
     const scored = await pool.runForRequest(
       'reconstruction',
       {
         request: pipelineRequest,
         ...(seed === undefined ? {} : { seed }),
         ...(image ? { image } : {}),
+        ...(coilMaps.length > 0 ? { coilMaps } : {}),
         limits,
       },
       signal,
     );
     // Linked to its upload, so deleting the upload deletes it; refused if the upload went meanwhile.
-    const inputs = image ? [{ kind: 'image' as const, id: image.id }] : [];
+    const inputs = [...(image ? [{ kind: 'image' as const, id: image.id }] : []), ...coilMapInputs(mapRefs)];
     const body = await this.keep(scored, { owner: caller.owner, inputs });
-    return body ?? { missingImage: image!.id };
+    if (body) return body;
+    const goneMaps = mapRefs.find((ref) => !store.inputExists({ kind: 'coilMaps', id: ref.id }));
+    if (goneMaps) throw coilMapsNotFound(goneMaps.id, goneMaps.field);
+    return { missingImage: image!.id };
   }
 
   /**

@@ -30,6 +30,7 @@ for (const [title, path, name] of [
   ['wavelets', './wavelet.bench.ts', 'benchWavelet'],
   ['planning', './plan.bench.ts', 'benchPlan'],
   ['service', './service.bench.ts', 'benchService'],
+  ['coil maps', './coil-maps.bench.ts', 'benchCoilMaps'],
 ] as const) {
   const group = await optional(title, path, name);
   if (group) groups.push(group);

@@ -1,0 +1,41 @@
+import type { FastifyRequest } from 'fastify';
+import { HttpProblem } from './problem.ts';
+
+/**
+ * The one file part of a multipart upload, named `file`, with the form fields that came before it.
+ * No part, or a first part with another name, is a 400 naming `file`; `what` says what to send.
+ */
+export async function readFilePart(
+  request: FastifyRequest,
+  what: string,
+): Promise<{ bytes: Buffer; fields: Record<string, unknown> }> {
+  const part = await request.file().catch(malformedMultipart('body'));
+  if (part?.fieldname !== 'file') {
+    throw new HttpProblem(400, `send ${what} as a multipart part named "file"`, [
+      { field: 'file', message: 'missing' },
+    ]);
+  }
+  const bytes = await part.toBuffer().catch(malformedMultipart('file'));
+  return { bytes, fields: part.fields };
+}
+
+/**
+ * The multipart parser (busboy) reports a body that breaks RFC 2046 §5.1.1 — no boundary parameter,
+ * a boundary that never occurs, a body cut off before the closing delimiter — as a bare Error with a
+ * fixed message; the plugin's own limits come as fastify errors with a code and pass through as they are.
+ */
+function malformedMultipart(field: 'body' | 'file'): (error: unknown) => never {
+  return (error) => {
+    if (error instanceof Error && (error as { code?: unknown }).code === undefined) {
+      const message = `malformed multipart/form-data: ${error.message}`;
+      throw new HttpProblem(400, message, [
+        {
+          field,
+          message,
+          allowed: 'a boundary parameter, parts between its delimiters, a closing delimiter',
+        },
+      ]);
+    }
+    throw error;
+  };
+}
