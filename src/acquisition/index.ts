@@ -1,3 +1,5 @@
+export { type CoilAcquisition, acquireCoils } from './acquire-coils.ts';
+export type { CoilSimulation } from './coil-simulation.ts';
 export { acquire } from './acquire.ts';
 export type { FullAcquisition } from './full-acquisition.ts';
 export { fullKspaceFromImage } from './image-source.ts';
@@ -12,4 +14,5 @@ export {
   SNR_MAX,
   sigmaForSnr,
 } from './noise.ts';
+export { objectPhaseFactor } from './object-phase.ts';
 export { fullKspaceFromPhantom, RASTER_SUPERSAMPLE } from './phantom-source.ts';

@@ -4,7 +4,8 @@ import { defaultLimits } from '../core/limits.ts';
 import type { ReconInput, ReconOptions, ReconOutput } from './method.ts';
 import { type MethodSpec, reconMethods, runMethod } from './registry.ts';
 
-export type { ReconInput, ReconMethod, ReconOptions, ReconOutput } from './method.ts';
+export { coilImages, combineCoilImages, zeroFilledCoilCombination } from './coil-combine.ts';
+export type { CoilData, ReconInput, ReconMethod, ReconOptions, ReconOutput } from './method.ts';
 export { type MethodName, type MethodSpec, methodSchema, methodSchemaFor, reconMethods } from './registry.ts';
 export { zeroFilledImage } from './zero-filled.ts';
 
