@@ -1,6 +1,6 @@
-export { type CoilAcquisition, acquireCoils } from './acquire-coils.ts';
-export type { CoilSimulation } from './coil-simulation.ts';
 export { acquire } from './acquire.ts';
+export { acquireCoils, type CoilAcquisition } from './acquire-coils.ts';
+export type { CoilSimulation } from './coil-simulation.ts';
 export type { FullAcquisition } from './full-acquisition.ts';
 export { fullKspaceFromImage } from './image-source.ts';
 export {

@@ -108,7 +108,9 @@ export function phasedSingleCoil(
   const phaseFactor = objectPhaseFactor(phase.order, phase.seed, nx, ny);
   if ('image' in source || source.mode === 'raster') {
     const real =
-      'image' in source ? source.image : source.phantom.rasterize(nx, ny, { supersample: RASTER_SUPERSAMPLE });
+      'image' in source
+        ? source.image
+        : source.phantom.rasterize(nx, ny, { supersample: RASTER_SUPERSAMPLE });
     const reference = objectOf(real, phaseFactor);
     return {
       kspace: fft2c(reference),

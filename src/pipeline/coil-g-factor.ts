@@ -40,7 +40,13 @@ export function reconstructionGFactor(input: GFactorInput): GFactorResult | unde
   const R = uniformLatticeStep(input.sampled);
   if (input.method === 'sense' && R !== null && R <= input.maps.coils) {
     const map = senseGFactorMap(input.maps, R);
-    return { ...summariseGFactor(map, input.objectMask), method: 'analytic', replicas: null, map, ...retained(map, input.objectMask, R) };
+    return {
+      ...summariseGFactor(map, input.objectMask),
+      method: 'analytic',
+      replicas: null,
+      map,
+      ...retained(map, input.objectMask, R),
+    };
   }
   return undefined;
 }
@@ -62,7 +68,11 @@ export function uniformLatticeStep(sampled: SampledMask): number | null {
   return R;
 }
 
-function retained(g: Float64Array, objectMask: Uint8Array, R: number): { snrRetained: { mean: number; min: number } } {
+function retained(
+  g: Float64Array,
+  objectMask: Uint8Array,
+  R: number,
+): { snrRetained: { mean: number; min: number } } {
   let sum = 0;
   let count = 0;
   let min = Number.POSITIVE_INFINITY;

@@ -22,14 +22,14 @@ import { defaultLimits, type Limits } from '../core/limits.ts';
 import { matrixSchemaFor } from '../core/matrix.ts';
 import type { RealImage } from '../core/real-image.ts';
 import { parseOrThrow } from '../core/zod-problems.ts';
+import type { CoilMaps } from '../encoding/index.ts';
 import { type MetricSet, SSIM_RADIUS, scoreAll } from '../metrics/index.ts';
 import { getPhantom } from '../phantoms/index.ts';
-import type { CoilMaps } from '../encoding/index.ts';
 import {
   type CoilData,
   type MethodSpec,
-  type ReconInput,
   methodSchemaFor,
+  type ReconInput,
   reconstruct,
   zeroFilledCoilCombination,
   zeroFilledImage,
@@ -428,7 +428,10 @@ function isUniform(spec: CoilsSpec): spec is { array: 'uniform' } {
   return 'array' in spec && spec.array === 'uniform';
 }
 
-function coilsEcho(spec: Exclude<CoilsSpec, { array: 'uniform' }>, simulation: CoilSimulation): { coils: CoilsEcho } {
+function coilsEcho(
+  spec: Exclude<CoilsSpec, { array: 'uniform' }>,
+  simulation: CoilSimulation,
+): { coils: CoilsEcho } {
   return {
     coils: {
       array: 'mapsId' in spec ? 'maps' : spec.array,
