@@ -15,6 +15,18 @@ export const cellResultSchema = z.object({
   patternIndex: z.int().nullable(),
   accelerationIndex: z.int().nullable(),
   methodIndex: z.int().nullable(),
+  coilIndex: z.int().optional().describe('index into the plan coilArrays; absent = 0'),
+  coils: z.string().optional().describe('receive-array label; absent = "uniform"'),
+  coilCount: z.int().optional().describe('number of coils; absent = 1'),
+  gFactor: z
+    .object({
+      mean: z.number(),
+      p95: z.number(),
+      max: z.number(),
+      method: z.enum(['analytic', 'pseudo-replica']),
+    })
+    .optional()
+    .describe('g over the object, where one applies'),
   seed: z.int().describe('seed of the mask draw and the noise draw'),
   requestedR: z.number().nullable().describe('null for a custom mask'),
   actualR: z.number(),

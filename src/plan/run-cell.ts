@@ -3,7 +3,7 @@ import type { CellResult } from './cell-result.ts';
 import { jsonNumber } from './metric-direction.ts';
 import type { PlanCell } from './plan-cells.ts';
 import type { Plan } from './schema.ts';
-import { type PipelineContext, runReconstruction, type SampledMask } from './upstream.ts';
+import { coilsLabel, type PipelineContext, runReconstruction, type SampledMask } from './upstream.ts';
 
 /**
  * Runs one cell: simulated acquisition with the cell's seed (mask draw and noise draw),
@@ -17,12 +17,18 @@ export async function runCell(plan: Plan, cell: PlanCell, ctx?: PipelineContext)
       sampling: cell.sampling,
       ...(plan.noise === undefined ? {} : { noise: plan.noise }),
       method: cell.method,
+      coils: cell.coils,
+      ...(plan.phase === undefined ? {} : { phase: plan.phase }),
     },
     cell.seed,
     ctx,
   );
+  const g = outcome.gFactor;
   return {
     ...cellScanColumns(plan, cell, outcome.sampled),
+    coils: outcome.coils?.label ?? coilsLabel(cell.coils),
+    coilCount: outcome.coils?.count ?? 1,
+    ...(g ? { gFactor: { mean: g.mean, p95: g.p95, max: g.max, method: g.method } } : {}),
     metrics: {
       nrmse: jsonNumber(outcome.metrics.nrmse),
       psnr: jsonNumber(outcome.metrics.psnr),
@@ -42,7 +48,7 @@ export function cellScanColumns(
   plan: Plan,
   cell: PlanCell,
   sampled: SampledMask,
-): Omit<CellResult, 'metrics' | 'reconMs' | 'notes'> {
+): Omit<CellResult, 'metrics' | 'reconMs' | 'notes' | 'coils' | 'coilCount' | 'gFactor'> {
   const time = scanTime(plan.matrix, plan.protocol, sampled);
   return {
     index: cell.index,
@@ -50,6 +56,7 @@ export function cellScanColumns(
     patternIndex: cell.patternIndex,
     accelerationIndex: cell.accelerationIndex,
     methodIndex: cell.methodIndex,
+    ...(cell.coilIndex === undefined ? {} : { coilIndex: cell.coilIndex }),
     seed: cell.seed,
     requestedR: cell.acceleration,
     actualR: sampled.acceleration.actual,

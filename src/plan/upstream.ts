@@ -18,6 +18,13 @@ export {
 export { noiseSchema } from '../acquisition/index.ts';
 export { getPhantom } from '../phantoms/index.ts';
 export {
+  type CoilsSpec,
+  coilsLabel,
+  coilsSchema,
+  type PhaseSpec,
+  phaseSchema,
+} from '../pipeline/coil-request.ts';
+export {
   type PipelineContext,
   type ReconstructionOutcome,
   runReconstruction,
