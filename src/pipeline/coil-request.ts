@@ -89,7 +89,8 @@ export const coilsSchema = z
   .union([arraySchema, mapsSchema])
   .describe(
     'the receive array: { array: "uniform" } (default, one coil), loops or gaussian on a ring, or uploaded maps { mapsId }',
-  );
+  )
+  .meta({ id: 'CoilArray' });
 export type CoilsSpec = z.output<typeof coilsSchema>;
 
 export const PHASE_MAX_ORDER = 4;
@@ -103,7 +104,8 @@ export const phaseSchema = z
       .describe(`total degree of the polynomial phase in x and y, 0–${PHASE_MAX_ORDER}`),
     seed: z.int().min(0).max(4294967295).describe('seeds the polynomial coefficients'),
   })
-  .describe('a smooth object phase: a seeded polynomial in x, y (the object becomes complex)');
+  .describe('a smooth object phase: a seeded polynomial in x, y (the object becomes complex)')
+  .meta({ id: 'ObjectPhase' });
 export type PhaseSpec = z.output<typeof phaseSchema>;
 
 /** The label a table and a response use for an array: "uniform", "8 loops", "maps abc…". */
