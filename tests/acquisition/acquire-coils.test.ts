@@ -2,8 +2,8 @@ import { describe, expect, it } from 'vitest';
 import { acquire, acquireCoils, fullKspaceFromPhantom } from '../../src/acquisition/index.ts';
 import { ifft2c } from '../../src/core/centered-fft.ts';
 import type { ComplexImage } from '../../src/core/complex-image.ts';
-import { arrayModel, phantomCoilSimulation } from '../../src/pipeline/coil-acquisition.ts';
 import { getPhantom } from '../../src/phantoms/index.ts';
+import { arrayModel, phantomCoilSimulation } from '../../src/pipeline/coil-acquisition.ts';
 import { coilImages, combineCoilImages } from '../../src/recon/index.ts';
 
 // SNR keeps its single-coil meaning (docs/design.md §3.5, §3.8): σ = mean |x| over the object / SNR per
@@ -21,7 +21,8 @@ function measuredSigma(noisy: ComplexImage, clean: ComplexImage, objectMask: Uin
   let count = 0;
   for (let i = 0; i < objectMask.length; i++) {
     if (!objectMask[i]) continue;
-    sum += (noisy.data[2 * i] - clean.data[2 * i]) ** 2 + (noisy.data[2 * i + 1] - clean.data[2 * i + 1]) ** 2;
+    sum +=
+      (noisy.data[2 * i] - clean.data[2 * i]) ** 2 + (noisy.data[2 * i + 1] - clean.data[2 * i + 1]) ** 2;
     count++;
   }
   return Math.sqrt(sum / (2 * count));
