@@ -1,6 +1,8 @@
 import type { SampledMask } from '../../sampling/index.ts';
 import { senseGFactorMap, summariseGFactor } from '../coils/index.ts';
+import type { Limits } from '../core/limits.ts';
 import type { CoilMaps } from '../encoding/index.ts';
+import type { MethodSpec, ReconInput } from '../recon/index.ts';
 
 /** How a g-factor was found: the closed form of SENSE on a uniform lattice, or noise replicas. */
 export type GFactorMethod = 'analytic' | 'pseudo-replica';
@@ -27,6 +29,17 @@ export interface GFactorInput {
   /** The maps the reconstruction uses, prewhitened like its data (so Ψ = I here). */
   maps: CoilMaps;
   objectMask: Uint8Array;
+  /**
+   * What a pseudo-replica estimate re-runs: the reconstruction's input (prewhitened coil data and
+   * maps), its method, the per-coil noise σ after prewhitening (white, independent) and the options.
+   */
+  replicas?: {
+    input: ReconInput;
+    method: MethodSpec;
+    coilSigma: number;
+    seed: number;
+    options: { signal?: AbortSignal; limits: Limits };
+  };
 }
 
 /**

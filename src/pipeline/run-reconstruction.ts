@@ -358,6 +358,7 @@ export async function runReconstruction(
   let coilZeroFilled: ComplexImage | undefined;
   let referenceImage: ComplexImage;
   let objectMask: Uint8Array;
+  let coilSigma = 0;
   if (simulation) {
     const acquired = acquireCoils(simulation, sampled.mask, req.noise, noiseSeedFor(baseSeed));
     if (acquired.sigma > 0) {
@@ -366,6 +367,7 @@ export async function runReconstruction(
           `fully sampled image, σ = ${acquired.coilSigma.toPrecision(4)} per coil before prewhitening`,
       );
     }
+    coilSigma = acquired.coilSigma;
     const coilData: CoilData = { kspace: acquired.kspace, maps: acquired.maps };
     coilZeroFilled = zeroFilledCoilCombination(coilData);
     input = { kspace: fft2c(coilZeroFilled), mask: sampled.mask, density: sampled.density, coils: coilData };
@@ -397,7 +399,19 @@ export async function runReconstruction(
     errorMap[i] = Math.abs(reconstruction.data[i] - reference.data[i]);
   const gFactor =
     simulation && input.coils?.maps
-      ? reconstructionGFactor({ method: req.method.name, sampled, maps: input.coils.maps, objectMask })
+      ? reconstructionGFactor({
+          method: req.method.name,
+          sampled,
+          maps: input.coils.maps,
+          objectMask,
+          replicas: {
+            input,
+            method: req.method,
+            coilSigma,
+            seed: noiseSeedFor(baseSeed),
+            options: { signal: ctx.signal, limits },
+          },
+        })
       : undefined;
   const coilFacts = simulation && coils ? coilsEcho(coils, simulation) : {};
   const gFactorFacts = gFactor ? gFactorEcho(gFactor, nx, ny) : { facts: {}, images: {} };

@@ -44,12 +44,14 @@ describe('plan cells over coil arrays', () => {
     expect(cells.length).toBe(26);
     expect(planCellCount(plan)).toBe(26);
     expect(cells[0].coils).toEqual({ array: 'uniform' });
-    expect(cells.filter((c) => c.coilIndex === 1).every((c) => c.coils.array === 'loops')).toBe(true);
+    expect(
+      cells.filter((c) => c.coilIndex === 1).every((c) => 'array' in c.coils && c.coils.array === 'loops'),
+    ).toBe(true);
     expect(cells.filter((c) => c.coilIndex === 1).length).toBe(12);
     // Without coilArrays the plan is today's: (1 + 6) × 2 = 14 cells, all uniform.
     const plain = planCells(validatePlan(smallPlanBody(), { checkMasks: false }));
     expect(plain.length).toBe(14);
-    expect(plain.every((c) => c.coils.array === 'uniform')).toBe(true);
+    expect(plain.every((c) => 'array' in c.coils && c.coils.array === 'uniform')).toBe(true);
   });
 
   it('schema errors name the array and the target: coilArrays[1].count 33, a reserved lesion metric', () => {
