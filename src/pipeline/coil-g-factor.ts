@@ -1,3 +1,4 @@
+import { z } from 'zod';
 import type { SampledMask } from '../../sampling/index.ts';
 import { senseGFactorMap, summariseGFactor } from '../coils/index.ts';
 import type { Limits } from '../core/limits.ts';
@@ -6,6 +7,14 @@ import type { MethodSpec, ReconInput } from '../recon/index.ts';
 
 /** How a g-factor was found: the closed form of SENSE on a uniform lattice, or noise replicas. */
 export type GFactorMethod = 'analytic' | 'pseudo-replica';
+
+/** The g-factor over the object as responses and plan cells carry it. */
+export const gFactorSummarySchema = z.object({
+  mean: z.number(),
+  p95: z.number(),
+  max: z.number(),
+  method: z.enum(['analytic', 'pseudo-replica']).describe('analytic: SENSE on a uniform lattice'),
+});
 
 /** The g-factor of a reconstruction over the object, with its map (for g-factor.png). */
 export interface GFactorResult {

@@ -10,8 +10,13 @@ const count = z
   .max(COIL_LIMITS.maxCoils)
   .describe(`number of coils on the ring, 1–${COIL_LIMITS.maxCoils}`);
 
+/** A number within one of COIL_LIMITS' [low, high] ranges. */
+function within([low, high]: readonly [number, number]) {
+  return z.number().min(low).max(high);
+}
+
 function ringRadius([low, high]: readonly [number, number], what: string) {
-  const side = z.number().min(low).max(high);
+  const side = within([low, high]);
   return z
     .union([side, z.tuple([side, side])])
     .describe(
@@ -31,19 +36,12 @@ const correlation = z
 const loopsSchema = z.strictObject({
   array: z.literal('loops'),
   count,
-  loopRadius: z
-    .number()
-    .min(COIL_LIMITS.loopRadius[0])
-    .max(COIL_LIMITS.loopRadius[1])
-    .describe(
-      `loop radius, phantom units (${COIL_LIMITS.loopRadius[0]}–${COIL_LIMITS.loopRadius[1]}); sensitivity from the Biot–Savart field`,
-    ),
+  loopRadius: within(COIL_LIMITS.loopRadius).describe(
+    `loop radius, phantom units (${COIL_LIMITS.loopRadius[0]}–${COIL_LIMITS.loopRadius[1]}); sensitivity from the Biot–Savart field`,
+  ),
   ringRadius: ringRadius(COIL_LIMITS.loopRing, 'ring of loop centres'),
   correlation,
-  tiltDeg: z
-    .number()
-    .min(COIL_LIMITS.tiltDeg[0])
-    .max(COIL_LIMITS.tiltDeg[1])
+  tiltDeg: within(COIL_LIMITS.tiltDeg)
     .optional()
     .describe('out-of-plane tilt of every loop axis, degrees (default 0: axes point at the FOV centre)'),
 });
@@ -51,11 +49,7 @@ const loopsSchema = z.strictObject({
 const gaussianSchema = z.strictObject({
   array: z.literal('gaussian'),
   count,
-  width: z
-    .number()
-    .min(COIL_LIMITS.width[0])
-    .max(COIL_LIMITS.width[1])
-    .describe('standard deviation of each Gaussian profile, phantom units'),
+  width: within(COIL_LIMITS.width).describe('standard deviation of each Gaussian profile, phantom units'),
   ringRadius: ringRadius(COIL_LIMITS.gaussianRing, 'ring of profile centres'),
   correlation,
 });

@@ -17,6 +17,7 @@ export {
 } from '../../sampling/index.ts';
 export { noiseSchema } from '../acquisition/index.ts';
 export { getPhantom } from '../phantoms/index.ts';
+export { gFactorSummarySchema } from '../pipeline/coil-g-factor.ts';
 export {
   type CoilsSpec,
   coilsLabel,

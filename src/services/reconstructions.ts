@@ -6,6 +6,7 @@ import type { RealImage } from '../core/real-image.ts';
 import type { Store } from '../jobs/store.ts';
 import type { UploadedPixels } from '../jobs/tasks.ts';
 import type { WorkerPool } from '../jobs/worker-pool.ts';
+import { gFactorSummarySchema } from '../pipeline/coil-g-factor.ts';
 import type { ReconstructionOutcome, ReconstructionRequest } from '../pipeline/run-reconstruction.ts';
 import { coilMagnitudeMontage, G_FACTOR_WHITE } from '../render/coil-montage.ts';
 import { greyPng, maskPng } from '../render/png.ts';
@@ -61,12 +62,8 @@ export const reconstructionSchema = z.object({
     })
     .optional()
     .describe('the receive array, when it is not the uniform single coil'),
-  gFactor: z
-    .object({
-      mean: z.number(),
-      p95: z.number(),
-      max: z.number(),
-      method: z.enum(['analytic', 'pseudo-replica']),
+  gFactor: gFactorSummarySchema
+    .extend({
       replicas: z
         .int()
         .nullable()

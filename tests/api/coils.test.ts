@@ -1,6 +1,13 @@
 import sharp from 'sharp';
 import { describe, expect, it } from 'vitest';
-import { binary, expectDocumented, postProblem, sharedTestApp, type TestApp } from './helpers.ts';
+import {
+  binary,
+  expectDocumented,
+  oneCellPlan,
+  postProblem,
+  sharedTestApp,
+  type TestApp,
+} from './helpers.ts';
 
 // Receive arrays end to end (docs/design.md §3.8, §4.3, §4.4): request pieces, response echoes,
 // images and plan rows. Every response is validated against openapi.yaml by expectDocumented; problems
@@ -102,13 +109,7 @@ describe('receive arrays through the HTTP API', () => {
       .http()
       .post('/v1/plans')
       .send({
-        source: { phantom: 'shepp-logan-modified' },
-        matrix: { nx: 32, ny: 32 },
-        protocol: { trMs: 500 },
-        patterns: [{ pattern: 'cartesian-uniform' }],
-        accelerations: [2],
-        methods: [{ name: 'zero-filled' }],
-        seeds: 1,
+        ...oneCellPlan,
         coilArrays: [{ array: 'uniform' }, loops],
         target: { metric: 'ssim', atLeast: 0.5 },
         targets: [{ metric: 'nrmse', atMost: 1 }],
@@ -142,13 +143,7 @@ describe('receive arrays through the HTTP API', () => {
       t,
       '/v1/plans',
       {
-        source: { phantom: 'shepp-logan-modified' },
-        matrix: { nx: 32, ny: 32 },
-        protocol: { trMs: 500 },
-        patterns: [{ pattern: 'cartesian-uniform' }],
-        accelerations: [2],
-        methods: [{ name: 'zero-filled' }],
-        seeds: 1,
+        ...oneCellPlan,
         targets: [{ metric: 'falseLesions', atMost: 0 }],
       },
       422,
