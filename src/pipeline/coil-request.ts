@@ -108,8 +108,3 @@ export function coilsLabel(spec: CoilsSpec): string {
   if (spec.array === 'uniform') return 'uniform';
   return `${spec.count} ${spec.array === 'loops' ? 'loops' : 'gaussian'}`;
 }
-
-/** True when the request is today's single coil: no array, or the uniform one. */
-export function isUniformCoil(spec: CoilsSpec | undefined): boolean {
-  return spec === undefined || ('array' in spec && spec.array === 'uniform');
-}
