@@ -7,6 +7,7 @@ import { allLimitFields, type Limits, limitsId } from '../src/core/limits.ts';
 import { disconnectSignal } from '../src/http/disconnect-signal.ts';
 import { HttpProblem, jsonResponse, problemResponses } from '../src/http/problem.ts';
 import { idParams, perLimits, requestSchemas } from '../src/http/schemas.ts';
+import { coilsSchema, phaseSchema } from '../src/pipeline/coil-request.ts';
 import { sourceSchema } from '../src/pipeline/run-reconstruction.ts';
 import { reconstructionSchema } from '../src/services/index.ts';
 
@@ -19,6 +20,8 @@ const reconstructionBody = perLimits((limits: Limits) =>
       sampling: samplingSchema,
       noise: noiseSchema.optional().describe('complex Gaussian k-space noise; omitted or "none": noiseless'),
       method: requestSchemas(limits).method,
+      coils: coilsSchema.optional(),
+      phase: phaseSchema.optional(),
       seed: z
         .int()
         .min(0)

@@ -23,7 +23,8 @@ function notFound(id: string): HttpProblem {
 
 /**
  * GET /v1/results/{id}/{image}.png: images stored with a result (SQLite, so they survive restarts).
- * Reconstructions have all six; masks have mask and psf. DELETE /v1/results/{id} removes a result.
+ * Reconstructions have all six (receive arrays add coil-maps, and g-factor where it applies); masks have
+ * mask and psf. DELETE /v1/results/{id} removes a result.
  */
 export async function resultRoutes(app: FastifyInstance): Promise<void> {
   const { store, lifecycle, tenancy } = app.services;

@@ -1,5 +1,7 @@
 export { acquire } from './acquire.ts';
+export { acquireCoils, type CoilAcquisition } from './acquire-coils.ts';
 export { acquireTrajectory } from './acquire-trajectory.ts';
+export type { CoilSimulation } from './coil-simulation.ts';
 export type { FullAcquisition } from './full-acquisition.ts';
 export { fullKspaceFromImage } from './image-source.ts';
 export {
@@ -13,4 +15,5 @@ export {
   SNR_MAX,
   sigmaForSnr,
 } from './noise.ts';
+export { objectPhaseFactor } from './object-phase.ts';
 export { fullKspaceFromPhantom, RASTER_SUPERSAMPLE } from './phantom-source.ts';

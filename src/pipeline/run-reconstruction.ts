@@ -8,7 +8,9 @@ import {
 import type { Trajectory } from '../../sampling/trajectories/trajectory.ts';
 import {
   acquire,
+  acquireCoils,
   acquireTrajectory,
+  type CoilSimulation,
   type FullAcquisition,
   fullKspaceFromImage,
   fullKspaceFromPhantom,
@@ -22,19 +24,30 @@ import { defaultLimits, type Limits } from '../core/limits.ts';
 import { matrixSchemaFor } from '../core/matrix.ts';
 import type { RealImage } from '../core/real-image.ts';
 import { parseOrThrow } from '../core/zod-problems.ts';
+import type { CoilMaps } from '../encoding/index.ts';
 import { type MetricSet, SSIM_RADIUS, scoreAll } from '../metrics/index.ts';
 import { densityWeightsFor, nufftPlanFor } from '../nufft/index.ts';
 import { getPhantom } from '../phantoms/index.ts';
 import { griddingImage } from '../recon/gridding-recon.ts';
 import {
+  type CoilData,
   type MethodSpec,
   methodSchemaFor,
   partialFourierStep,
   type ReconInput,
   reconstruct,
   type TrajectoryData,
+  zeroFilledCoilCombination,
   zeroFilledImage,
 } from '../recon/index.ts';
+import {
+  arrayModel,
+  imageCoilSimulation,
+  phantomCoilSimulation,
+  phasedSingleCoil,
+} from './coil-acquisition.ts';
+import { type GFactorResult, reconstructionGFactor } from './coil-g-factor.ts';
+import { type CoilsSpec, coilsLabel, coilsSchema, type PhaseSpec, phaseSchema } from './coil-request.ts';
 import { resampleBilinear } from './resample.ts';
 
 export const sourceSchema = z.union([
@@ -59,6 +72,19 @@ export interface ReconstructionRequest {
   sampling: SamplingSpec;
   noise?: NoiseSpec;
   method: MethodSpec;
+  /** The receive array; absent or `uniform`: today's single coil. */
+  coils?: CoilsSpec;
+  /** A smooth object phase (the object becomes complex). */
+  phase?: PhaseSpec;
+}
+
+/** The receive array as a response echoes it. */
+export interface CoilsEcho {
+  array: 'uniform' | 'loops' | 'gaussian' | 'maps';
+  count: number;
+  label: string;
+  /** Phantoms: the trigonometric fit's largest relative error over the object (see coil-acquisition.ts). */
+  fitError?: number;
 }
 
 export interface ReconstructionOutcome {
@@ -70,12 +96,29 @@ export interface ReconstructionOutcome {
   timing: { reconMs: number };
   info: Record<string, unknown>;
   notes: string[];
-  images: { reconstruction: RealImage; zeroFilled: RealImage; reference: RealImage; errorMap: RealImage };
+  images: {
+    reconstruction: RealImage;
+    zeroFilled: RealImage;
+    reference: RealImage;
+    errorMap: RealImage;
+    /** |S_c| of every coil (the maps the simulation used), for the coil-maps montage. */
+    coilMaps?: CoilMaps;
+    /** The g-factor map, where a g-factor is reported. */
+    gFactor?: RealImage;
+  };
   sampled: SampledMask;
+  /** Present for a receive array other than the uniform single coil. */
+  coils?: CoilsEcho;
+  /** Where one applies (reconstructionGFactor): over the object; the map is in images.gFactor. */
+  gFactor?: Omit<GFactorResult, 'map' | 'snrRetained'>;
+  /** 1/(g·√R) over the object, beside gFactor. */
+  snrRetained?: GFactorResult['snrRetained'];
 }
 
 export interface PipelineContext {
   loadImage?: (id: string) => Promise<RealImage>;
+  /** Uploaded sensitivity maps by id (POST /v1/coil-maps), for `coils: { mapsId }`. */
+  loadCoilMaps?: (id: string) => Promise<CoilMaps>;
   signal?: AbortSignal;
   limits?: Limits;
 }
@@ -117,21 +160,115 @@ function cachedPhantomAcquisition(
   return full;
 }
 
+/**
+ * Multi-coil phantom simulations (maps, their fit and the coil k-space) cost far more than one
+ * reconstruction, so the last two are kept per thread like the phantom acquisitions. Entries are
+ * shared read-only: acquireCoils copies k-space and maps before adding noise and prewhitening.
+ */
+const COIL_CACHE_SIZE = 2;
+const coilCache = new Map<string, CoilSimulation>();
+
+function cachedCoilSimulation(key: string, build: () => CoilSimulation): CoilSimulation {
+  const hit = coilCache.get(key);
+  if (hit) {
+    coilCache.delete(key);
+    coilCache.set(key, hit);
+    return hit;
+  }
+  const simulation = build();
+  coilCache.set(key, simulation);
+  if (coilCache.size > COIL_CACHE_SIZE) coilCache.delete(coilCache.keys().next().value as string);
+  return simulation;
+}
+
+/** The simulation of a receive array (not `uniform`): phantoms through the fit, uploads through F(S_c·x). */
+async function coilSimulation(
+  source: SourceSpec,
+  coils: Exclude<CoilsSpec, { array: 'uniform' }>,
+  phase: PhaseSpec | undefined,
+  nx: number,
+  ny: number,
+  ctx: PipelineContext,
+  notes: string[],
+): Promise<CoilSimulation> {
+  let uploadedMaps: CoilMaps | undefined;
+  if ('mapsId' in coils) {
+    if (!ctx.loadCoilMaps) {
+      throw new ValidationError({
+        field: 'coils.mapsId',
+        message: 'uploaded coil maps are not available here',
+        allowed: 'an array: { array: "uniform" | "loops" | "gaussian", … }',
+      });
+    }
+    uploadedMaps = await ctx.loadCoilMaps(coils.mapsId);
+  }
+  const build = (image?: RealImage): CoilSimulation => {
+    const model = arrayModel(coils, nx, ny, uploadedMaps);
+    if (image) return imageCoilSimulation(image, model.maps, model.noise, phase);
+    if (!('phantom' in source)) throw new RangeError('a phantom source is needed here');
+    return phantomCoilSimulation({
+      phantom: getPhantom(source.phantom),
+      nx,
+      ny,
+      mode: source.kspace ?? 'analytic',
+      ...model,
+      ...(phase ? { phase } : {}),
+    });
+  };
+  if ('phantom' in source) {
+    const mode = source.kspace ?? 'analytic';
+    const simulation =
+      uploadedMaps === undefined
+        ? cachedCoilSimulation(JSON.stringify([source.phantom, nx, ny, mode, coils, phase ?? null]), () =>
+            build(),
+          )
+        : build();
+    if (simulation.inverseCrime) {
+      notes.push('k-space is the DFT of the phantom raster (inverse crime): errors are optimistic');
+    }
+    if (simulation.fitError !== undefined) {
+      notes.push(
+        `coil k-space is exact for the trigonometric fit of each coil's sensitivity (Guerquin-Kern et al. 2012); ` +
+          `the fit differs from the ${uploadedMaps ? 'uploaded' : 'Biot–Savart or Gaussian'} maps by at most ` +
+          `${(100 * simulation.fitError).toPrecision(3)} % (relative ℓ2 over the object, worst coil)`,
+      );
+    }
+    return simulation;
+  }
+  const image = await uploadedImage(source, nx, ny, ctx, notes);
+  return build(image);
+}
+
 async function fullAcquisition(
   source: SourceSpec,
   nx: number,
   ny: number,
   ctx: PipelineContext,
   notes: string[],
+  phase?: PhaseSpec,
 ): Promise<FullAcquisition> {
   if ('phantom' in source) {
     const mode = source.kspace ?? 'analytic';
-    const full = cachedPhantomAcquisition(source.phantom, nx, ny, mode);
+    const full = phase
+      ? phasedSingleCoil({ phantom: getPhantom(source.phantom), mode }, nx, ny, phase)
+      : cachedPhantomAcquisition(source.phantom, nx, ny, mode);
     if (full.inverseCrime) {
       notes.push('k-space is the DFT of the phantom raster (inverse crime): errors are optimistic');
     }
     return full;
   }
+  const image = await uploadedImage(source, nx, ny, ctx, notes);
+  return phase ? phasedSingleCoil({ image }, nx, ny, phase) : fullKspaceFromImage(image);
+}
+
+/** The uploaded image of `source`, resampled to the matrix when it differs. */
+async function uploadedImage(
+  source: SourceSpec,
+  nx: number,
+  ny: number,
+  ctx: PipelineContext,
+  notes: string[],
+): Promise<RealImage> {
   if (!('imageId' in source) || typeof source.imageId !== 'string') {
     throw new ValidationError({
       field: 'source',
@@ -151,7 +288,7 @@ async function fullAcquisition(
   notes.push(
     'uploaded image: k-space is the DFT of the same pixels the reconstruction inverts (inverse crime)',
   );
-  return fullKspaceFromImage(image);
+  return image;
 }
 
 function cartesianInput(
@@ -226,6 +363,8 @@ export function reconstructionRequestSchemaFor(limits: Limits) {
     sampling: samplingSchema,
     noise: noiseSchema.optional().describe('complex Gaussian k-space noise; omitted or "none": noiseless'),
     method: methodSchemaFor(limits),
+    coils: coilsSchema.optional(),
+    phase: phaseSchema.optional(),
   });
 }
 
@@ -245,17 +384,56 @@ export async function runReconstruction(
   // The request was checked once at the edge (reconstructionRequestSchemaFor): trusted here.
   const { nx, ny } = req.matrix;
   const notes: string[] = [];
-  const full = await fullAcquisition(req.source, nx, ny, ctx, notes);
+  const coils = req.coils !== undefined && !isUniform(req.coils) ? req.coils : undefined;
+  const simulation = coils
+    ? await coilSimulation(req.source, coils, req.phase, nx, ny, ctx, notes)
+    : undefined;
+  const full = simulation ? undefined : await fullAcquisition(req.source, nx, ny, ctx, notes, req.phase);
   const sampling =
     seed !== undefined && req.sampling.pattern !== 'custom'
       ? ({ ...req.sampling, seed } as SamplingSpec)
       : req.sampling;
   const sampled = await resolveSampling({ nx, ny }, sampling, limits);
   const baseSeed = seed ?? sampled.seed ?? 0;
-  const { input, sigma } = sampled.trajectory
-    ? trajectoryInput(full, sampled, req.noise, noiseSeedFor(baseSeed), notes)
-    : cartesianInput(full, sampled, req.noise, noiseSeedFor(baseSeed));
-  if (sigma > 0) notes.push(`complex Gaussian noise, σ = ${sigma.toPrecision(4)} per real channel`);
+  let input: ReconInput;
+  let coilZeroFilled: ComplexImage | undefined;
+  let referenceImage: ComplexImage;
+  let objectMask: Uint8Array;
+  let coilSigma = 0;
+  if (simulation) {
+    if (sampled.trajectory) {
+      throw new ValidationError({
+        field: 'sampling.trajectory',
+        message: 'receive arrays are simulated on the Cartesian grid only; this trajectory is non-Cartesian',
+        allowed: "trajectory: 'rasterised' with a receive array, or coils: { array: 'uniform' }",
+      });
+    }
+    const acquired = acquireCoils(simulation, sampled.mask, req.noise, noiseSeedFor(baseSeed));
+    if (acquired.sigma > 0) {
+      notes.push(
+        `complex Gaussian noise: σ = ${acquired.sigma.toPrecision(4)} per real channel in the optimally combined ` +
+          `fully sampled image, σ = ${acquired.coilSigma.toPrecision(4)} per coil before prewhitening`,
+      );
+    }
+    coilSigma = acquired.coilSigma;
+    const coilData: CoilData = { kspace: acquired.kspace, maps: acquired.maps };
+    coilZeroFilled = zeroFilledCoilCombination(coilData);
+    input = { kspace: fft2c(coilZeroFilled), mask: sampled.mask, density: sampled.density, coils: coilData };
+    referenceImage = simulation.reference;
+    objectMask = simulation.objectMask;
+  } else {
+    const single = full as FullAcquisition;
+    const noiseSeed = noiseSeedFor(baseSeed);
+    const acquired = sampled.trajectory
+      ? trajectoryInput(single, sampled, req.noise, noiseSeed, notes)
+      : cartesianInput(single, sampled, req.noise, noiseSeed);
+    if (acquired.sigma > 0) {
+      notes.push(`complex Gaussian noise, σ = ${acquired.sigma.toPrecision(4)} per real channel`);
+    }
+    input = acquired.input;
+    referenceImage = single.reference;
+    objectMask = single.objectMask;
+  }
 
   const started = performance.now();
   const methodOutput = reconstruct(input, req.method, { signal: ctx.signal, limits });
@@ -264,16 +442,35 @@ export async function runReconstruction(
   if (result.info.note) notes.push(String(result.info.note));
 
   const reconstruction = magnitudeImage(result.image);
-  const zeroFilled =
-    req.method.name === 'zero-filled' &&
-    !req.method.densityCompensation &&
-    result.image === methodOutput.image
+  const zeroFilled = coilZeroFilled
+    ? magnitudeImage(coilZeroFilled)
+    : req.method.name === 'zero-filled' &&
+        !req.method.densityCompensation &&
+        result.image === methodOutput.image
       ? reconstruction
       : magnitudeImage(zeroFilledImage(input).image);
-  const reference = magnitudeImage(full.reference);
+  const reference = magnitudeImage(referenceImage);
   const errorMap = new Float64Array(nx * ny);
   for (let i = 0; i < errorMap.length; i++)
     errorMap[i] = Math.abs(reconstruction.data[i] - reference.data[i]);
+  const gFactor =
+    simulation && input.coils?.maps
+      ? reconstructionGFactor({
+          method: req.method.name,
+          sampled,
+          maps: input.coils.maps,
+          objectMask,
+          replicas: {
+            input,
+            method: req.method,
+            coilSigma,
+            seed: noiseSeedFor(baseSeed),
+            options: { signal: ctx.signal, limits },
+          },
+        })
+      : undefined;
+  const coilFacts = simulation && coils ? coilsEcho(coils, simulation) : {};
+  const gFactorFacts = gFactor ? gFactorEcho(gFactor, nx, ny) : { facts: {}, images: {} };
 
   return {
     acceleration: sampled.acceleration,
@@ -283,7 +480,43 @@ export async function runReconstruction(
     timing: { reconMs },
     info: result.info,
     notes,
-    images: { reconstruction, zeroFilled, reference, errorMap: { nx, ny, data: errorMap } },
+    images: {
+      reconstruction,
+      zeroFilled,
+      reference,
+      errorMap: { nx, ny, data: errorMap },
+      ...(simulation ? { coilMaps: simulation.maps } : {}),
+      ...gFactorFacts.images,
+    },
     sampled,
+    ...coilFacts,
+    ...gFactorFacts.facts,
   };
+}
+
+function isUniform(spec: CoilsSpec): spec is { array: 'uniform' } {
+  return 'array' in spec && spec.array === 'uniform';
+}
+
+function coilsEcho(
+  spec: Exclude<CoilsSpec, { array: 'uniform' }>,
+  simulation: CoilSimulation,
+): { coils: CoilsEcho } {
+  return {
+    coils: {
+      array: 'mapsId' in spec ? 'maps' : spec.array,
+      count: simulation.maps.coils,
+      label: coilsLabel(spec),
+      ...(simulation.fitError === undefined ? {} : { fitError: simulation.fitError }),
+    },
+  };
+}
+
+function gFactorEcho(
+  result: GFactorResult,
+  nx: number,
+  ny: number,
+): { facts: Pick<ReconstructionOutcome, 'gFactor' | 'snrRetained'>; images: { gFactor: RealImage } } {
+  const { map, snrRetained, ...summary } = result;
+  return { facts: { gFactor: summary, snrRetained }, images: { gFactor: { nx, ny, data: map } } };
 }

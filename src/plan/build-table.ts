@@ -5,11 +5,14 @@ import { specLabels } from './labels.ts';
 import { metricNames } from './metric-direction.ts';
 import { paretoFront } from './pareto.ts';
 import { patternSpecs } from './pattern-specs.ts';
+import { planCoilArrays } from './plan-cells.ts';
 import type { PlanRow, PlanTable } from './plan-table.ts';
-import { meetsTarget, recommend } from './recommend.ts';
+import { planTargets, rankingMetric } from './plan-targets.ts';
+import { meetsAllTargets, recommend } from './recommend.ts';
 import { type GridPosition, rowKey } from './row-key.ts';
 import type { Plan } from './schema.ts';
 import { mean, summarize } from './statistics.ts';
+import { coilsLabel } from './upstream.ts';
 
 export const referencePatternLabel = 'fully sampled';
 export const referenceMethodLabel = 'zero-filled';
@@ -20,6 +23,8 @@ export type TablePlan = Pick<
   'matrix' | 'protocol' | 'patterns' | 'accelerations' | 'methods' | 'seeds'
 > & {
   target?: Plan['target'];
+  targets?: Plan['targets'];
+  coilArrays?: Plan['coilArrays'];
 };
 
 /**
@@ -33,6 +38,8 @@ export function buildTable(plan: TablePlan, cellResults: readonly CellResult[]):
   const full = scanTime(plan.matrix, plan.protocol);
   const patternLabels = specLabels(plan.patterns, 'pattern');
   const methodLabels = specLabels(plan.methods as Record<string, unknown>[], 'name');
+  const arrays = planCoilArrays(plan);
+  const coilLabels = arrays.map(coilsLabel);
 
   const positions: GridPosition[] = [
     { reference: true, patternIndex: null, accelerationIndex: null, methodIndex: null },
@@ -40,13 +47,21 @@ export function buildTable(plan: TablePlan, cellResults: readonly CellResult[]):
   plan.patterns.forEach((pattern, patternIndex) => {
     for (const [accelerationIndex] of patternSpecs(pattern, plan.accelerations)) {
       plan.methods.forEach((_, methodIndex) => {
-        positions.push({ reference: false, patternIndex, accelerationIndex, methodIndex });
+        arrays.forEach((_, coilIndex) => {
+          positions.push({
+            reference: false,
+            patternIndex,
+            accelerationIndex,
+            methodIndex,
+            ...(arrays.length > 1 || plan.coilArrays ? { coilIndex } : {}),
+          });
+        });
       });
     }
   });
 
-  const paretoMetric = plan.target?.metric ?? 'nrmse';
-  const target = plan.target ?? null;
+  const targets = planTargets(plan);
+  const paretoMetric = rankingMetric(targets);
   const rows: PlanRow[] = [];
   for (const position of positions) {
     const results = groups.get(rowKey(position));
@@ -65,6 +80,9 @@ export function buildTable(plan: TablePlan, cellResults: readonly CellResult[]):
       key: rowKey(position),
       pattern: position.reference ? referencePatternLabel : patternLabels[position.patternIndex as number],
       method: position.reference ? referenceMethodLabel : methodLabels[position.methodIndex as number],
+      coils: results[0].coils ?? coilLabels[position.coilIndex ?? 0],
+      coilCount: results[0].coilCount ?? 1,
+      ...gFactorColumns(results),
       requestedR,
       actualR: mean(results.map((r) => r.actualR)),
       acquired: mean(results.map((r) => r.acquired)),
@@ -77,10 +95,11 @@ export function buildTable(plan: TablePlan, cellResults: readonly CellResult[]):
       reconMs: mean(results.map((r) => r.reconMs)),
       seeds: results.length,
       pareto: false,
-      meetsTarget: target === null ? null : meetsTarget(metrics[target.metric].mean, target),
+      meetsTarget: null,
       ...representative(results),
     });
   }
+  for (const row of rows) row.meetsTarget = targets.length === 0 ? null : meetsAllTargets(row, targets);
 
   const front = paretoFront(
     rows.map((row) => ({ scanSeconds: row.scanSeconds, value: row.metrics[paretoMetric].mean })),
@@ -94,7 +113,7 @@ export function buildTable(plan: TablePlan, cellResults: readonly CellResult[]):
     rows,
     fullySampled: full,
     paretoMetric,
-    recommendation: recommend(rows, target, methodLabels, paretoMetric),
+    recommendation: recommend(rows, targets, methodLabels, paretoMetric),
     cells: { done: cellResults.length, total: positions.length * plan.seeds },
     notes: tableNotes(plan, rows, cellResults),
   };
@@ -104,6 +123,24 @@ export function buildTable(plan: TablePlan, cellResults: readonly CellResult[]):
 function representative(results: readonly CellResult[]): { resultId?: string } {
   const resultId = results.find((r) => r.seed === 1)?.resultId;
   return resultId === undefined ? {} : { resultId };
+}
+
+/**
+ * The g-factor columns of a row: means over seeds of the mean and largest g, when every seed has one
+ * (a g-factor is a property of the maps and the mask, so seeds differ only through a drawn mask).
+ */
+function gFactorColumns(
+  results: readonly CellResult[],
+): Pick<PlanRow, 'gFactorMean' | 'gFactorMax' | 'gFactorMethod'> {
+  const known = results.map((r) => r.gFactor).filter((g) => g !== undefined);
+  if (known.length === 0 || known.length !== results.length) {
+    return { gFactorMean: null, gFactorMax: null, gFactorMethod: null };
+  }
+  return {
+    gFactorMean: mean(known.map((g) => g.mean)),
+    gFactorMax: mean(known.map((g) => g.max)),
+    gFactorMethod: known[0].method,
+  };
 }
 
 function groupResults(cellResults: readonly CellResult[]): Map<string, CellResult[]> {

@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { metricNames } from './metric-direction.ts';
-import { acquiredUnitSchema as unit } from './upstream.ts';
+import { gFactorSummarySchema, acquiredUnitSchema as unit } from './upstream.ts';
 
 const metricValue = z.number().nullable().describe('null = +∞ (PSNR of an exact reconstruction)');
 
@@ -15,6 +15,10 @@ export const cellResultSchema = z.object({
   patternIndex: z.int().nullable(),
   accelerationIndex: z.int().nullable(),
   methodIndex: z.int().nullable(),
+  coilIndex: z.int().optional().describe('index into the plan coilArrays; absent = 0'),
+  coils: z.string().optional().describe('receive-array label; absent = "uniform"'),
+  coilCount: z.int().optional().describe('number of coils; absent = 1'),
+  gFactor: gFactorSummarySchema.optional().describe('g over the object, where one applies'),
   seed: z.int().describe('seed of the mask draw and the noise draw'),
   requestedR: z.number().nullable().describe('null for a custom mask'),
   actualR: z.number(),

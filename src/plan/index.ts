@@ -16,6 +16,7 @@ export {
   type PlanCell,
   planCellCount,
   planCells,
+  planCoilArrays,
   referenceMethod,
   referenceSampling,
 } from './plan-cells.ts';
@@ -33,7 +34,15 @@ export {
   rowPickSchema,
   summarySchema,
 } from './plan-table.ts';
-export { describeTarget, meetsTarget, recommend } from './recommend.ts';
+export {
+  type GFactorTarget,
+  gFactorTargetSchema,
+  type PlanTarget,
+  planTargetSchema,
+  planTargets,
+  RESERVED_TARGET_METRICS,
+} from './plan-targets.ts';
+export { describeTarget, meetsAllTargets, meetsPlanTarget, meetsTarget, recommend } from './recommend.ts';
 export { type GridPosition, rowKey } from './row-key.ts';
 export { runCell, runCellOutcome } from './run-cell.ts';
 export { type RunCellFn, type RunPlanOptions, runPlan } from './run-plan.ts';

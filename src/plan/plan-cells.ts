@@ -3,7 +3,7 @@ import { defaultLimits, type Limits } from '../core/limits.ts';
 import { patternSpecs, withProtocolPartialFourier } from './pattern-specs.ts';
 import type { GridPosition } from './row-key.ts';
 import type { Plan } from './schema.ts';
-import type { MethodSpec, SamplingSpec } from './upstream.ts';
+import type { CoilsSpec, MethodSpec, SamplingSpec } from './upstream.ts';
 
 /** One simulated acquisition + reconstruction of a plan. Plain data, so it can cross to a worker thread. */
 export interface PlanCell extends GridPosition {
@@ -17,6 +17,8 @@ export interface PlanCell extends GridPosition {
   /** Requested R; null for a custom mask. */
   acceleration: number | null;
   method: MethodSpec;
+  /** The receive array of this cell (coilArrays[coilIndex]). */
+  coils: CoilsSpec;
   /** 1…seeds: seeds the mask draw and the noise draw of this repetition. */
   seed: number;
 }
@@ -25,11 +27,20 @@ export interface PlanCell extends GridPosition {
 export const referenceSampling: SamplingSpec = { pattern: 'cartesian-uniform', acceleration: 1 };
 export const referenceMethod: MethodSpec = { name: 'zero-filled' };
 
-/** Number of cells a plan expands to: (reference + Σ patterns' R counts × methods) × seeds. */
-export function planCellCount(plan: Pick<Plan, 'patterns' | 'accelerations' | 'methods' | 'seeds'>): number {
+/** The receive arrays a plan sweeps: its coilArrays, or the uniform single coil. */
+export function planCoilArrays(plan: Pick<Plan, 'coilArrays'>): readonly CoilsSpec[] {
+  return plan.coilArrays ?? [{ array: 'uniform' }];
+}
+
+type SizedPlan = Pick<Plan, 'patterns' | 'accelerations' | 'methods' | 'seeds'> &
+  Partial<Pick<Plan, 'coilArrays'>>;
+
+/** Number of cells a plan expands to: (reference + Σ patterns' R counts × methods × coil arrays) × seeds. */
+export function planCellCount(plan: SizedPlan): number {
+  const arrays = planCoilArrays(plan).length;
   let rows = 1;
   for (const pattern of plan.patterns)
-    rows += patternSpecs(pattern, plan.accelerations).length * plan.methods.length;
+    rows += patternSpecs(pattern, plan.accelerations).length * plan.methods.length * arrays;
   return rows * plan.seeds;
 }
 
@@ -40,6 +51,7 @@ export function planCellCount(plan: Pick<Plan, 'patterns' | 'accelerations' | 'm
  */
 export function planCells(plan: Plan, limits: Limits = defaultLimits): PlanCell[] {
   checkPlanSize(plan, limits);
+  const arrays = planCoilArrays(plan);
   const cells: PlanCell[] = [];
   const push = (
     position: GridPosition,
@@ -47,12 +59,13 @@ export function planCells(plan: Plan, limits: Limits = defaultLimits): PlanCell[
     acceleration: number | null,
     method: MethodSpec,
   ) => {
+    const coils = arrays[position.coilIndex ?? 0];
     for (let seed = 1; seed <= plan.seeds; seed++) {
-      cells.push({ ...position, index: cells.length, sampling, acceleration, method, seed });
+      cells.push({ ...position, index: cells.length, sampling, acceleration, method, coils, seed });
     }
   };
   push(
-    { reference: true, patternIndex: null, accelerationIndex: null, methodIndex: null },
+    { reference: true, patternIndex: null, accelerationIndex: null, methodIndex: null, coilIndex: 0 },
     referenceSampling,
     1,
     referenceMethod,
@@ -61,28 +74,27 @@ export function planCells(plan: Plan, limits: Limits = defaultLimits): PlanCell[
     for (const [accelerationIndex, sampling] of patternSpecs(pattern, plan.accelerations)) {
       const acceleration = accelerationIndex === null ? null : plan.accelerations[accelerationIndex];
       plan.methods.forEach((method, methodIndex) => {
-        push(
-          { reference: false, patternIndex, accelerationIndex, methodIndex },
-          withProtocolPartialFourier(sampling, plan.protocol.partialFourier),
-          acceleration,
-          method,
-        );
+        arrays.forEach((_, coilIndex) => {
+          push(
+            { reference: false, patternIndex, accelerationIndex, methodIndex, coilIndex },
+            withProtocolPartialFourier(sampling, plan.protocol.partialFourier),
+            acceleration,
+            method,
+          );
+        });
       });
     }
   });
   return cells;
 }
 
-export function checkPlanSize(
-  plan: Pick<Plan, 'patterns' | 'accelerations' | 'methods' | 'seeds'>,
-  limits: Limits,
-): void {
+export function checkPlanSize(plan: SizedPlan, limits: Limits): void {
   const count = planCellCount(plan);
   if (count > limits.maxPlanCells) {
     throw new LimitError({
       field: 'seeds',
       message:
-        `the plan expands to ${count} cells ((1 reference + patterns × accelerations × methods) × seeds), ` +
+        `the plan expands to ${count} cells ((1 reference + patterns × accelerations × methods × coil arrays) × seeds), ` +
         `more than the configured limit`,
       allowed: `at most ${limits.maxPlanCells} cells`,
     });

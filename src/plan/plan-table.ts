@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { scanTimeResultSchema } from '../protocol/index.ts';
 import { metricNames } from './metric-direction.ts';
-import { targetSchema } from './target-schema.ts';
+import { planTargetSchema } from './plan-targets.ts';
 import { acquiredUnitSchema } from './upstream.ts';
 
 // The tradeoff table as zod schemas: one source for the TypeScript types, for response validation
@@ -24,6 +24,12 @@ const gridPosition = {
     .nullable()
     .describe('index into the plan accelerations; null for the reference row and custom masks'),
   methodIndex: z.int().nullable().describe('index into the plan methods; null for the reference row'),
+  coilIndex: z
+    .int()
+    .optional()
+    .describe(
+      'index into the plan coilArrays (0 when the plan has none); the reference row uses coilArrays[0]',
+    ),
 };
 
 /**
@@ -36,6 +42,20 @@ export const planRowSchema = z.object({
   key: z.string().describe("stable id: 'reference', 'p0-r2-m1', 'p3-m0' (custom mask)"),
   pattern: z.string().describe("pattern label ('fully sampled' for the reference row)"),
   method: z.string().describe('method label'),
+  coils: z.string().describe('receive-array label: "uniform", "8 loops", "maps <id>"'),
+  coilCount: z.int().describe('number of coils'),
+  gFactorMean: z
+    .number()
+    .nullable()
+    .describe('mean over seeds of the mean g over the object; null where no g-factor applies'),
+  gFactorMax: z
+    .number()
+    .nullable()
+    .describe('mean over seeds of the largest g over the object; null where no g-factor applies'),
+  gFactorMethod: z
+    .enum(['analytic', 'pseudo-replica'])
+    .nullable()
+    .describe('how g was found; null where no g-factor applies'),
   requestedR: z.number().nullable().describe('requested R; 1 for the reference row, null for a custom mask'),
   actualR: z.number().describe("mean over seeds of the mask's actual R"),
   acquired: z.number().describe('mean over seeds of the count that costs scan time, in acquiredUnit'),
@@ -60,7 +80,10 @@ export const planRowSchema = z.object({
   reconMs: z.number().describe('mean reconstruction wall time in ms (varies between runs)'),
   seeds: z.int().describe('seeds aggregated in this row'),
   pareto: z.boolean().describe('on the Pareto front of scan time vs paretoMetric'),
-  meetsTarget: z.boolean().nullable().describe('mean target metric meets the target; null without a target'),
+  meetsTarget: z
+    .boolean()
+    .nullable()
+    .describe('the row meets every target (target and targets); null without a target'),
   resultId: z
     .string()
     .optional()
@@ -87,8 +110,9 @@ export const methodRecommendationSchema = z.object({
 });
 
 export const recommendationSchema = z.object({
-  target: targetSchema.nullable(),
-  met: z.boolean().describe('some undersampled row meets the target'),
+  target: planTargetSchema.nullable().describe('the first target (target, else targets[0])'),
+  targets: z.array(planTargetSchema).describe('every target a recommended row meets: target, then targets'),
+  met: z.boolean().describe('some undersampled row meets every target'),
   overall: rowPickSchema.nullable().describe('shortest scan meeting the target over all methods'),
   closest: rowPickSchema.nullable().describe('when nothing meets the target: the closest row'),
   perMethod: z.array(methodRecommendationSchema),
@@ -101,7 +125,7 @@ export const planTableSchema = z.object({
     .describe('rows[0] is the fully sampled reference; the others follow plan order'),
   // Tables stored before slicesPerTr and effectiveTeMs existed are served as they were stored.
   fullySampled: scanTimeResultSchema.partial({ slicesPerTr: true, effectiveTeMs: true }),
-  paretoMetric: z.enum(metricNames).describe("the target's metric; nrmse without a target"),
+  paretoMetric: z.enum(metricNames).describe("the first image-quality target's metric; nrmse without one"),
   recommendation: recommendationSchema,
   cells: z.object({ done: z.int(), total: z.int() }),
   notes: z.array(z.string()),

@@ -1,5 +1,6 @@
 import { compareMetric, type MetricName, metricDisplayName, metricValue } from './metric-direction.ts';
 import type { PlanRow, Recommendation, RowPick } from './plan-table.ts';
+import { isMetricTarget, type PlanTarget } from './plan-targets.ts';
 import { type Target, targetBound } from './target-schema.ts';
 
 /** Whether a row's mean of the target metric meets the target (null = +∞). */
@@ -7,6 +8,17 @@ export function meetsTarget(value: number | null, target: Target): boolean {
   const { threshold, atLeast } = targetBound(target);
   const x = metricValue(value);
   return atLeast ? x >= threshold : x <= threshold;
+}
+
+/** Whether a row meets one target: a metric's mean, or its mean largest g (a row without a g-factor does not). */
+export function meetsPlanTarget(row: PlanRow, target: PlanTarget): boolean {
+  if (isMetricTarget(target)) return meetsTarget(row.metrics[target.metric].mean, target);
+  return row.gFactorMax !== null && row.gFactorMax <= target.atMost;
+}
+
+/** Whether a row meets every target of the plan. */
+export function meetsAllTargets(row: PlanRow, targets: readonly PlanTarget[]): boolean {
+  return targets.every((target) => meetsPlanTarget(row, target));
 }
 
 /** Scan times closer than this (relative) count as equal, so float noise in means cannot break a tie. */
@@ -20,21 +32,25 @@ function compareScan(a: number, b: number): number {
  * The recommendation over the undersampled rows (the fully sampled reference row is the baseline,
  * not a candidate; a plan that lists R = 1 has its own candidate rows). Judged on the mean over seeds.
  *
- * - Shortest scan meeting the target, overall and per method. Ties: the shorter mean scan, then the
- *   better mean target metric, then the earlier row in plan order (pattern, R as listed, method).
- * - Nothing meets it: the closest row, i.e. the best mean target metric; ties: shorter scan, then
- *   plan order.
+ * - Shortest scan meeting every target, overall and per method. Ties: the shorter mean scan, then
+ *   the better mean ranking metric (`paretoMetric`: the first image-quality target's), then the
+ *   earlier row in plan order (pattern, R as listed, method, coil array).
+ * - Nothing meets them all: the closest row, i.e. the one meeting the most targets, then the best
+ *   mean ranking metric; ties: shorter scan, then plan order. With one target this is the best mean
+ *   of its metric.
  */
 export function recommend(
   rows: readonly PlanRow[],
-  target: Target | null,
+  targets: readonly PlanTarget[],
   methods: readonly string[],
   paretoMetric: MetricName,
 ): Recommendation {
   const candidates = rows.map((row, rowIndex) => ({ row, rowIndex })).filter(({ row }) => !row.reference);
+  const target = targets[0] ?? null;
   if (target === null) {
     return {
       target: null,
+      targets: [],
       met: false,
       overall: null,
       closest: null,
@@ -44,17 +60,19 @@ export function recommend(
         'are flagged; add a target ({ metric, atLeast | atMost }) for a recommendation.',
     };
   }
-  const metric = target.metric;
+  const metric = paretoMetric;
+  const met = (row: PlanRow) => targets.filter((t) => meetsPlanTarget(row, t)).length;
   const shortestFirst = (a: Candidate, b: Candidate) =>
     compareScan(a.row.scanSeconds, b.row.scanSeconds) ||
     compareMetric(metric, b.row.metrics[metric].mean, a.row.metrics[metric].mean) ||
     a.rowIndex - b.rowIndex;
   const closestFirst = (a: Candidate, b: Candidate) =>
+    met(b.row) - met(a.row) ||
     compareMetric(metric, b.row.metrics[metric].mean, a.row.metrics[metric].mean) ||
     compareScan(a.row.scanSeconds, b.row.scanSeconds) ||
     a.rowIndex - b.rowIndex;
   const pickFrom = (list: Candidate[]) => {
-    const meeting = list.filter(({ row }) => meetsTarget(row.metrics[metric].mean, target));
+    const meeting = list.filter(({ row }) => meetsAllTargets(row, targets));
     if (meeting.length > 0)
       return { pick: toPick([...meeting].sort(shortestFirst)[0], metric), closest: null };
     return { pick: null, closest: list.length > 0 ? toPick([...list].sort(closestFirst)[0], metric) : null };
@@ -68,11 +86,12 @@ export function recommend(
   }));
   return {
     target,
+    targets: [...targets],
     met: overall.pick !== null,
     overall: overall.pick,
     closest: overall.closest,
     perMethod,
-    statement: statementFor(target, overall.pick, overall.closest),
+    statement: statementFor(targets, metric, overall.pick, overall.closest),
   };
 }
 
@@ -95,7 +114,8 @@ function toPick({ row, rowIndex }: Candidate, metric: MetricName): RowPick {
   };
 }
 
-export function describeTarget(target: Target): string {
+export function describeTarget(target: PlanTarget): string {
+  if (!isMetricTarget(target)) return `largest g-factor ≤ ${target.atMost}`;
   const { threshold, atLeast } = targetBound(target);
   return `${metricDisplayName(target.metric)} ${atLeast ? '≥' : '≤'} ${threshold}`;
 }
@@ -114,11 +134,16 @@ function describePick(pick: RowPick, metric: MetricName): string {
   );
 }
 
-function statementFor(target: Target, pick: RowPick | null, closest: RowPick | null): string {
-  const wanted = describeTarget(target);
-  if (pick) return `Shortest scan meeting ${wanted}: ${describePick(pick, target.metric)}.`;
+function statementFor(
+  targets: readonly PlanTarget[],
+  metric: MetricName,
+  pick: RowPick | null,
+  closest: RowPick | null,
+): string {
+  const wanted = targets.map(describeTarget).join(' and ');
+  if (pick) return `Shortest scan meeting ${wanted}: ${describePick(pick, metric)}.`;
   if (closest) {
-    return `Nothing in this plan meets ${wanted}. Closest: ${describePick(closest, target.metric)}.`;
+    return `Nothing in this plan meets ${wanted}. Closest: ${describePick(closest, metric)}.`;
   }
   return `Nothing in this plan meets ${wanted}: no undersampled row has results yet.`;
 }

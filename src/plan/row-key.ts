@@ -5,11 +5,18 @@ export interface GridPosition {
   /** Index into the plan's accelerations; null for the reference row and custom masks. */
   accelerationIndex: number | null;
   methodIndex: number | null;
+  /** Index into the plan's coilArrays; absent or 0 for the first (the reference row uses it). */
+  coilIndex?: number;
 }
 
-/** Stable row id: 'reference', 'p0-r2-m1' (pattern 0, accelerations[2], methods[1]) or 'p3-m0' (custom mask). */
+/**
+ * Stable row id: 'reference', 'p0-r2-m1' (pattern 0, accelerations[2], methods[1]), 'p3-m0' (custom
+ * mask), with '-c1' appended for coilArrays[1] (nothing for the first array, so plans without
+ * coilArrays keep their keys).
+ */
 export function rowKey(position: GridPosition): string {
   if (position.reference) return 'reference';
   const r = position.accelerationIndex === null ? '' : `-r${position.accelerationIndex}`;
-  return `p${position.patternIndex}${r}-m${position.methodIndex}`;
+  const c = position.coilIndex ? `-c${position.coilIndex}` : '';
+  return `p${position.patternIndex}${r}-m${position.methodIndex}${c}`;
 }

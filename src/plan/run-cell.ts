@@ -4,6 +4,7 @@ import { jsonNumber } from './metric-direction.ts';
 import type { PlanCell } from './plan-cells.ts';
 import type { Plan } from './schema.ts';
 import {
+  coilsLabel,
   type PipelineContext,
   type ReconstructionOutcome,
   runReconstruction,
@@ -31,12 +32,18 @@ export async function runCellOutcome(
       sampling: cell.sampling,
       ...(plan.noise === undefined ? {} : { noise: plan.noise }),
       method: cell.method,
+      coils: cell.coils,
+      ...(plan.phase === undefined ? {} : { phase: plan.phase }),
     },
     cell.seed,
     ctx,
   );
+  const g = outcome.gFactor;
   const result: CellResult = {
     ...cellScanColumns(plan, cell, outcome.sampled),
+    coils: outcome.coils?.label ?? coilsLabel(cell.coils),
+    coilCount: outcome.coils?.count ?? 1,
+    ...(g ? { gFactor: { mean: g.mean, p95: g.p95, max: g.max, method: g.method } } : {}),
     metrics: {
       nrmse: jsonNumber(outcome.metrics.nrmse),
       psnr: jsonNumber(outcome.metrics.psnr),
@@ -57,7 +64,7 @@ export function cellScanColumns(
   plan: Plan,
   cell: PlanCell,
   sampled: SampledMask,
-): Omit<CellResult, 'metrics' | 'reconMs' | 'notes'> {
+): Omit<CellResult, 'metrics' | 'reconMs' | 'notes' | 'coils' | 'coilCount' | 'gFactor'> {
   const time = scanTime(plan.matrix, plan.protocol, sampled);
   return {
     index: cell.index,
@@ -65,6 +72,7 @@ export function cellScanColumns(
     patternIndex: cell.patternIndex,
     accelerationIndex: cell.accelerationIndex,
     methodIndex: cell.methodIndex,
+    ...(cell.coilIndex === undefined ? {} : { coilIndex: cell.coilIndex }),
     seed: cell.seed,
     requestedR: cell.acceleration,
     actualR: sampled.acceleration.actual,

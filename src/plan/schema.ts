@@ -4,14 +4,17 @@ import { allowedText, fieldPath } from '../core/zod-problems.ts';
 import { protocolSchema } from '../protocol/index.ts';
 import { patternSpecs } from './pattern-specs.ts';
 import { planCellCount } from './plan-cells.ts';
+import { planTargetSchema } from './plan-targets.ts';
 import { targetSchema } from './target-schema.ts';
 import {
   cartesianRandomSchema,
   cartesianUniformSchema,
+  coilsSchema,
   customSchema,
   latticeSchema,
   methodSchemaFor,
   noiseSchema,
+  phaseSchema,
   poissonDiscSchema,
   radialSchema,
   type SamplingSpec,
@@ -90,7 +93,24 @@ function buildPlanSchema(limits: Limits) {
         .max(100)
         .describe('repetitions; repetition s uses seed s for mask and noise draws'),
       noise: noiseSchema.optional(),
+      coilArrays: z
+        .array(coilsSchema)
+        .min(1)
+        .max(8)
+        .optional()
+        .describe(
+          'receive arrays swept for every pattern × R × method (default [{ "array": "uniform" }]); the reference row uses the first',
+        ),
+      phase: phaseSchema.optional(),
       target: targetSchema.optional(),
+      targets: z
+        .array(planTargetSchema)
+        .min(1)
+        .max(8)
+        .optional()
+        .describe(
+          'targets a recommended row must all meet, beside target (e.g. { "metric": "gFactorMax", "atMost": 1.5 })',
+        ),
     })
     .superRefine((plan, ctx) => {
       // zod runs refinements on data that already has issues: check the shapes this relies on.
@@ -133,19 +153,20 @@ function buildPlanSchema(limits: Limits) {
       // The cell count needs arrays of objects and an integer seed count; other shapes are reported already.
       const objects = plan.patterns.every((p) => typeof p === 'object' && p !== null);
       if (!objects || !Array.isArray(plan.methods) || !Number.isInteger(plan.seeds)) return;
+      if (plan.coilArrays !== undefined && !Array.isArray(plan.coilArrays)) return;
       const cells = planCellCount(plan);
       if (cells > limits.maxPlanCells) {
         ctx.addIssue({
           code: 'custom',
           path: ['seeds'],
           message:
-            `the plan expands to ${cells} cells ((1 reference + patterns × accelerations × methods) × seeds), ` +
+            `the plan expands to ${cells} cells ((1 reference + patterns × accelerations × methods × coil arrays) × seeds), ` +
             'more than the configured limit',
           params: { limit: true, allowed: `at most ${limits.maxPlanCells} cells` },
         });
       }
     })
-    .describe('A sweep over patterns × accelerations × methods × seeds');
+    .describe('A sweep over patterns × accelerations × methods × coil arrays × seeds');
 }
 
 /** The plan schema with the default limits (types, scripts; the service uses planSchemaFor). */

@@ -19,6 +19,14 @@ export {
 } from '../../sampling/index.ts';
 export { noiseSchema } from '../acquisition/index.ts';
 export { getPhantom } from '../phantoms/index.ts';
+export { gFactorSummarySchema } from '../pipeline/coil-g-factor.ts';
+export {
+  type CoilsSpec,
+  coilsLabel,
+  coilsSchema,
+  type PhaseSpec,
+  phaseSchema,
+} from '../pipeline/coil-request.ts';
 export {
   type PipelineContext,
   type ReconstructionOutcome,

@@ -4,7 +4,15 @@ import { defaultLimits } from '../core/limits.ts';
 import type { ReconInput, ReconOptions, ReconOutput } from './method.ts';
 import { type MethodSpec, reconMethods, runMethod } from './registry.ts';
 
-export type { ReconInput, ReconMethod, ReconOptions, ReconOutput, TrajectoryData } from './method.ts';
+export { coilImages, combineCoilImages, zeroFilledCoilCombination } from './coil-combine.ts';
+export type {
+  CoilData,
+  ReconInput,
+  ReconMethod,
+  ReconOptions,
+  ReconOutput,
+  TrajectoryData,
+} from './method.ts';
 export {
   PARTIAL_FOURIER_METHODS,
   type PartialFourierMethod,

@@ -14,7 +14,9 @@ export const planStatusNames = ['queued', 'running', 'done', 'failed', 'cancelle
 
 export const planProgressSchema = z.object({
   done: z.int().describe('finished cells'),
-  total: z.int().describe('cells of the plan: (1 reference + patterns × accelerations × methods) × seeds'),
+  total: z
+    .int()
+    .describe('cells of the plan: (1 reference + patterns × accelerations × methods × coil arrays) × seeds'),
   etaSeconds: z.number().nullable().describe('estimate from this run’s cell rate; null when unknown'),
 });
 

@@ -7,7 +7,9 @@ import type { InputRef, Store } from '../jobs/store.ts';
 import type { ScoredOutcome, UploadedPixels } from '../jobs/tasks.ts';
 import type { WorkerPool } from '../jobs/worker-pool.ts';
 import type { MetricSet } from '../metrics/index.ts';
+import { gFactorSummarySchema } from '../pipeline/coil-g-factor.ts';
 import type { ReconstructionOutcome, ReconstructionRequest } from '../pipeline/run-reconstruction.ts';
+import { coilMagnitudeMontage, G_FACTOR_WHITE } from '../render/coil-montage.ts';
 import { greyPng, maskPng } from '../render/png.ts';
 import type { Caller, MissingImage } from './caller.ts';
 import { coilMapInputs, coilMapRefs, loadNamedCoilMaps } from './coil-map-refs.ts';
@@ -53,8 +55,44 @@ export const reconstructionSchema = z.object({
       errorMap: z.string(),
       mask: z.string(),
       psf: z.string(),
+      coilMaps: z.string().optional().describe('montage of |S_c|, one tile per coil (receive arrays only)'),
+      gFactor: z
+        .string()
+        .optional()
+        .describe(
+          `g-factor map, linear grey from 0 (black) to g = ${G_FACTOR_WHITE} (white); where a g-factor applies`,
+        ),
     })
     .describe('PNG URLs (GET /v1/results/{id}/{image}.png)'),
+  coils: z
+    .object({
+      array: z.enum(['uniform', 'loops', 'gaussian', 'maps']),
+      count: z.int(),
+      label: z.string().describe('"8 loops", "maps <id>"'),
+      fitError: z
+        .number()
+        .optional()
+        .describe(
+          "phantoms: largest relative ℓ2 error over the object between a coil's map and its trigonometric fit (the simulation's truth)",
+        ),
+    })
+    .optional()
+    .describe('the receive array, when it is not the uniform single coil'),
+  gFactor: gFactorSummarySchema
+    .extend({
+      replicas: z
+        .int()
+        .nullable()
+        .describe('noise replicas of a pseudo-replica estimate; null when analytic'),
+    })
+    .optional()
+    .describe(
+      'noise amplification g over the object, where it applies (analytic: SENSE on a uniform lattice)',
+    ),
+  snrRetained: z
+    .object({ mean: z.number(), min: z.number() })
+    .optional()
+    .describe('1/(g·√R) over the object: the SNR kept against the fully sampled scan (beside gFactor)'),
   createdAt: z.string(),
 });
 
@@ -155,6 +193,12 @@ async function renderImages(
     [resultImageNames.errorMap]: await greyPng(images.errorMap),
     [resultImageNames.mask]: await maskPng(outcome.sampled),
     [resultImageNames.psf]: await greyPng(diagnostics.psf, { scale: 'log' }),
+    ...(images.coilMaps
+      ? { [resultImageNames.coilMaps]: await greyPng(coilMagnitudeMontage(images.coilMaps)) }
+      : {}),
+    ...(images.gFactor
+      ? { [resultImageNames.gFactor]: await greyPng(images.gFactor, { max: G_FACTOR_WHITE }) }
+      : {}),
   };
 }
 
@@ -168,8 +212,16 @@ function scoresOf(metrics: MetricSet): Reconstruction['metrics'] {
 }
 
 function describe(id: string, { outcome, diagnostics, zeroFilledMetrics }: ScoredOutcome): Reconstruction {
+  const shown = (key: ResultImageKey) =>
+    key === 'coilMaps'
+      ? outcome.images.coilMaps !== undefined
+      : key === 'gFactor'
+        ? outcome.images.gFactor !== undefined
+        : true;
   const urls = Object.fromEntries(
-    (Object.keys(resultImageNames) as ResultImageKey[]).map((key) => [key, resultImageUrl(id, key)]),
+    (Object.keys(resultImageNames) as ResultImageKey[])
+      .filter(shown)
+      .map((key) => [key, resultImageUrl(id, key)]),
   ) as Reconstruction['images'];
   return {
     id,
@@ -184,6 +236,9 @@ function describe(id: string, { outcome, diagnostics, zeroFilledMetrics }: Score
     sampling: sampledSummary(outcome.sampled),
     psf: psfSummary(diagnostics),
     images: urls,
+    ...(outcome.coils ? { coils: outcome.coils } : {}),
+    ...(outcome.gFactor ? { gFactor: outcome.gFactor } : {}),
+    ...(outcome.snrRetained ? { snrRetained: outcome.snrRetained } : {}),
     createdAt: new Date().toISOString(),
   };
 }

@@ -6,6 +6,8 @@ export const resultImageNames = {
   errorMap: 'error-map',
   mask: 'mask',
   psf: 'psf',
+  coilMaps: 'coil-maps',
+  gFactor: 'g-factor',
 } as const;
 
 export type ResultImageKey = keyof typeof resultImageNames;

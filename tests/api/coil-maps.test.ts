@@ -236,7 +236,7 @@ describe('coil maps follow uploads: deletion cascades, retention, tenant isolati
     );
 
     // The plan as the route hands it over (parsed), plus the coil-array sweep a plan may name.
-    const planBody = { ...parsedPlan(), coilArrays: [{ array: 'uniform' }, { mapsId: id }] };
+    const planBody = { ...parsedPlan(), coilArrays: [{ array: 'uniform' as const }, { mapsId: id }] };
     const plan = await t.app.services.planning.submit(planBody, alice);
     expect('id' in plan).toBe(true);
     const planId = (plan as { id: string }).id;

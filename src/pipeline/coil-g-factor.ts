@@ -1,0 +1,110 @@
+import { z } from 'zod';
+import type { SampledMask } from '../../sampling/index.ts';
+import { senseGFactorMap, summariseGFactor } from '../coils/index.ts';
+import type { Limits } from '../core/limits.ts';
+import type { CoilMaps } from '../encoding/index.ts';
+import type { MethodSpec, ReconInput } from '../recon/index.ts';
+
+/** How a g-factor was found: the closed form of SENSE on a uniform lattice, or noise replicas. */
+export type GFactorMethod = 'analytic' | 'pseudo-replica';
+
+/** The g-factor over the object as responses and plan cells carry it. */
+export const gFactorSummarySchema = z.object({
+  mean: z.number(),
+  p95: z.number(),
+  max: z.number(),
+  method: z.enum(['analytic', 'pseudo-replica']).describe('analytic: SENSE on a uniform lattice'),
+});
+
+/** The g-factor of a reconstruction over the object, with its map (for g-factor.png). */
+export interface GFactorResult {
+  mean: number;
+  p95: number;
+  max: number;
+  method: GFactorMethod;
+  /** Noise replicas behind a pseudo-replica estimate; null for the analytic form. */
+  replicas: number | null;
+  /** g per pixel, row-major ny·nx (0 where not computed). */
+  map: Float64Array;
+  /** SNR retained against the fully sampled scan, 1/(g·√R) over the object: its mean and its minimum. */
+  snrRetained: { mean: number; min: number };
+}
+
+/** What the g-factor of one reconstruction depends on. */
+export interface GFactorInput {
+  /** The method's name (the request's `method.name`). */
+  method: string;
+  sampled: SampledMask;
+  /** The maps the reconstruction uses, prewhitened like its data (so Ψ = I here). */
+  maps: CoilMaps;
+  objectMask: Uint8Array;
+  /**
+   * What a pseudo-replica estimate re-runs: the reconstruction's input (prewhitened coil data and
+   * maps), its method, the per-coil noise σ after prewhitening (white, independent) and the options.
+   */
+  replicas?: {
+    input: ReconInput;
+    method: MethodSpec;
+    coilSigma: number;
+    seed: number;
+    options: { signal?: AbortSignal; limits: Limits };
+  };
+}
+
+/**
+ * The g-factor of a multi-coil reconstruction, where one applies. This is the one call site that
+ * chooses how: the analytic SENSE g-factor (Pruessmann et al. 1999) when the method is `sense` and the
+ * mask is a uniform Cartesian lattice (every R-th row, no extra calibration rows, R dividing ny and at
+ * most the coil count). A pseudo-replica estimate for any other method and mask belongs here, in
+ * place of the final `return undefined`; until it exists no g-factor is reported for those.
+ */
+export function reconstructionGFactor(input: GFactorInput): GFactorResult | undefined {
+  const R = uniformLatticeStep(input.sampled);
+  if (input.method === 'sense' && R !== null && R <= input.maps.coils) {
+    const map = senseGFactorMap(input.maps, R);
+    return {
+      ...summariseGFactor(map, input.objectMask),
+      method: 'analytic',
+      replicas: null,
+      map,
+      ...retained(map, input.objectMask, R),
+    };
+  }
+  return undefined;
+}
+
+/** R when the mask acquires exactly the rows ⌊ny/2⌋ + k·R (every column), R an integer dividing ny; else null. */
+export function uniformLatticeStep(sampled: SampledMask): number | null {
+  const { nx, ny, mask } = sampled;
+  const rows: number[] = [];
+  for (let i = 0; i < ny; i++) {
+    let count = 0;
+    for (let j = 0; j < nx; j++) count += mask[i * nx + j] ? 1 : 0;
+    if (count === nx) rows.push(i);
+    else if (count !== 0) return null;
+  }
+  if (rows.length === 0 || ny % rows.length !== 0) return null;
+  const R = ny / rows.length;
+  const centre = Math.floor(ny / 2);
+  for (const i of rows) if ((((i - centre) % R) + R) % R !== 0) return null;
+  return R;
+}
+
+function retained(
+  g: Float64Array,
+  objectMask: Uint8Array,
+  R: number,
+): { snrRetained: { mean: number; min: number } } {
+  let sum = 0;
+  let count = 0;
+  let min = Number.POSITIVE_INFINITY;
+  const root = Math.sqrt(R);
+  for (let i = 0; i < g.length; i++) {
+    if (!objectMask[i] || !(g[i] > 0)) continue;
+    const value = 1 / (g[i] * root);
+    sum += value;
+    count++;
+    if (value < min) min = value;
+  }
+  return { snrRetained: { mean: count > 0 ? sum / count : 0, min: count > 0 ? min : 0 } };
+}
