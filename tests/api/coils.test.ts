@@ -95,7 +95,7 @@ describe('receive arrays through the HTTP API', () => {
     expect(phased.body.metrics.nrmse).not.toBe(plain.body.metrics.nrmse);
   });
 
-  it('bad pieces are 422 naming the field: coils.count 33, coils.correlation, phase.order; uploaded maps unknown here', async () => {
+  it('bad pieces are 422 naming the field: coils.count 33, coils.correlation, phase.order; unknown uploaded maps a 404', async () => {
     const tooMany = await postProblem(
       t,
       '/v1/reconstructions',
@@ -122,7 +122,7 @@ describe('receive arrays through the HTTP API', () => {
       t,
       '/v1/reconstructions',
       { ...request, coils: { mapsId: 'nothing' } },
-      422,
+      404,
       'coils.mapsId',
     );
   });

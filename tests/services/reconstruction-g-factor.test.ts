@@ -51,7 +51,11 @@ describe('ReconstructionService with a g-factor', () => {
       images: { ...outcome.images, coilMaps: maps, gFactor: { nx: f.nx, ny: f.ny, data: map } },
     };
     const pool = {
-      runForRequest: async () => ({ outcome: withG, diagnostics: maskDiagnostics(outcome.sampled) }),
+      runForRequest: async () => ({
+        outcome: withG,
+        diagnostics: maskDiagnostics(outcome.sampled),
+        zeroFilledMetrics: outcome.metrics,
+      }),
     } as unknown as WorkerPool;
     const service = new ReconstructionService({ pool, store, limits: defaultLimits });
     const body = await service.create(request, { owner: null, scope: 'all' });
