@@ -5,6 +5,7 @@
  * well-kept npm linear-algebra packages are real-valued; n is small (coils, aliased pixels).
  * The algorithm is the textbook one (Golub & Van Loan, "Matrix Computations", §4.2 — from memory).
  */
+import { adjoint, multiplyInto, rowMajor } from './complex-matrix.ts';
 
 /** Relative pivot below which a matrix counts as singular (not numerically positive definite). */
 export const DEFAULT_PIVOT_TOLERANCE = 1e-12;
@@ -142,23 +143,8 @@ export function hermitianInverseFromCholesky(
   scratch: Float64Array = new Float64Array(2 * n * n),
 ): void {
   invertLower(l, n, scratch);
-  for (let i = 0; i < n; i++) {
-    for (let j = 0; j < n; j++) {
-      // (A⁻¹)_ij = Σ_k conj(M_ki)·M_kj with M = L⁻¹ (zero above the diagonal, so k ≥ max(i, j)).
-      let re = 0;
-      let im = 0;
-      for (let k = Math.max(i, j); k < n; k++) {
-        const ar = scratch[2 * (k * n + i)];
-        const ai = scratch[2 * (k * n + i) + 1];
-        const br = scratch[2 * (k * n + j)];
-        const bi = scratch[2 * (k * n + j) + 1];
-        re += ar * br + ai * bi;
-        im += ar * bi - ai * br;
-      }
-      out[2 * (i * n + j)] = re;
-      out[2 * (i * n + j) + 1] = im;
-    }
-  }
+  // (A⁻¹)_ij = Σ_k conj(M_ki)·M_kj with M = L⁻¹; the zeros above M's diagonal add exact zeros.
+  multiplyInto(rowMajor(out, n), adjoint(rowMajor(scratch, n)), rowMajor(scratch, n), n, n, n);
 }
 
 function checkSquare(m: Float64Array, n: number, name: string): void {
