@@ -136,7 +136,8 @@ export function evaluateTrigPolynomial(fit: TrigPolynomialMaps, nx: number, ny: 
   const n = nx * ny;
   for (let c = 0; c < coils; c++) {
     multiplyInto(rowMajor(rowSums, m), rowMajor(by, m), rowMajor(coefficients, m, c * m * m), ny, m, m);
-    multiplyInto(rowMajor(maps.data, nx, c * n), rowMajor(rowSums, m), transposed(rowMajor(bx, m)), ny, m, nx);
+    const map = rowMajor(maps.data, nx, c * n);
+    multiplyInto(map, rowMajor(rowSums, m), transposed(rowMajor(bx, m)), ny, m, nx);
   }
   return maps;
 }
