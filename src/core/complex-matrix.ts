@@ -42,30 +42,17 @@ export function multiplyInto(
   cols: number,
 ): void {
   if (out.conjugate) throw new RangeError('out cannot be a conjugate view');
-  const ad = a.data;
-  const bd = b.data;
-  const od = out.data;
-  const aSign = a.conjugate ? -1 : 1;
-  const bSign = b.conjugate ? -1 : 1;
+  const conjugate = a.conjugate ? (b.conjugate ? 'both' : 'a') : b.conjugate ? 'b' : 'none';
+  const acc = new Float64Array(2);
   for (let i = 0; i < rows; i++) {
     const aRow = (a.offset ?? 0) + i * a.rowStride;
     for (let j = 0; j < cols; j++) {
       const bCol = (b.offset ?? 0) + j * b.colStride;
-      let re = 0;
-      let im = 0;
-      for (let k = 0; k < inner; k++) {
-        const at = 2 * (aRow + k * a.colStride);
-        const bt = 2 * (bCol + k * b.rowStride);
-        const ar = ad[at];
-        const ai = aSign * ad[at + 1];
-        const br = bd[bt];
-        const bi = bSign * bd[bt + 1];
-        re += ar * br - ai * bi;
-        im += ar * bi + ai * br;
-      }
+      acc.fill(0);
+      addProducts(acc, 1, a.data, aRow, a.colStride, b.data, bCol, b.rowStride, inner, conjugate);
       const ot = 2 * ((out.offset ?? 0) + i * out.rowStride + j * out.colStride);
-      od[ot] = re;
-      od[ot + 1] = im;
+      out.data[ot] = acc[0];
+      out.data[ot + 1] = acc[1];
     }
   }
 }
@@ -81,4 +68,44 @@ export function multiply(
   const out = new Float64Array(2 * rows * cols);
   multiplyInto(rowMajor(out, cols), a, b, rows, inner, cols);
   return out;
+}
+
+/** Which factors of each product `addProducts` reads as their conjugates. */
+export type ConjugateFactors = 'none' | 'a' | 'b' | 'both';
+
+/**
+ * acc ← acc + sign·a_k·b_k term by term for k = 0 … count − 1, in order: with sign 1 a dot product,
+ * with sign −1 the inner step of forward and back substitution (acc − a_0·b_0 − a_1·b_1 − …).
+ * a_k is the complex number at complex index aAt + k·aStep of `a`, b_k likewise; `conjugate` names
+ * the factors read as their conjugates. `acc` holds [re, im].
+ */
+export function addProducts(
+  acc: Float64Array,
+  sign: 1 | -1,
+  a: Float64Array,
+  aAt: number,
+  aStep: number,
+  b: Float64Array,
+  bAt: number,
+  bStep: number,
+  count: number,
+  conjugate: ConjugateFactors = 'none',
+): void {
+  const aSign = conjugate === 'a' || conjugate === 'both' ? -1 : 1;
+  const bSign = conjugate === 'b' || conjugate === 'both' ? -1 : 1;
+  let re = acc[0];
+  let im = acc[1];
+  for (let k = 0; k < count; k++) {
+    const at = 2 * (aAt + k * aStep);
+    const bt = 2 * (bAt + k * bStep);
+    const ar = a[at];
+    const ai = aSign * a[at + 1];
+    const br = b[bt];
+    const bi = bSign * b[bt + 1];
+    // −(x) added is x subtracted, exactly: sign = −1 rounds as the textbook `re −= …` does.
+    re += sign * (ar * br - ai * bi);
+    im += sign * (ar * bi + ai * br);
+  }
+  acc[0] = re;
+  acc[1] = im;
 }
