@@ -8,7 +8,8 @@ import {
 } from '../../src/core/complex-cholesky.ts';
 import { adjoint, multiply, rowMajor } from '../../src/core/complex-matrix.ts';
 import { SeededRandom } from '../../src/core/random.ts';
-import { identity, maxAbsDifference as maxDiff, randomHpd } from './complex-matrices.ts';
+import { maxAbsDifference } from '../error-measures.ts';
+import { identity, randomHpd } from './complex-matrices.ts';
 
 /** C = A·B, or A·Bᴴ, for interleaved complex n×n. */
 const product = (a: Float64Array, b: Float64Array, n: number, conjugateB = false): Float64Array =>
@@ -28,7 +29,7 @@ describe('complex Cholesky and triangular solves (Golub & Van Loan §4.2; identi
       const l = new Float64Array(a.length);
       expect(choleskyLower(a, n, l)).toBe(-1);
       const scale = Math.max(...a.map(Math.abs));
-      expect(maxDiff(product(l, l, n, true), a) / scale).toBeLessThan(1e-14);
+      expect(maxAbsDifference(product(l, l, n, true), a) / scale).toBeLessThan(1e-14);
 
       const rng = new SeededRandom(100 + n);
       const b = Float64Array.from({ length: 2 * n }, () => rng.normal());
@@ -37,14 +38,14 @@ describe('complex Cholesky and triangular solves (Golub & Van Loan §4.2; identi
       solveLowerConjugateTranspose(l, n, x);
       // A·x = b
       const ax = multiply(rowMajor(a, n), rowMajor(x, 1), n, n, 1);
-      expect(maxDiff(ax, b)).toBeLessThan(1e-12);
+      expect(maxAbsDifference(ax, b)).toBeLessThan(1e-12);
 
       const inverse = new Float64Array(a.length);
       hermitianInverseFromCholesky(l, n, inverse);
-      expect(maxDiff(product(a, inverse, n), identity(n))).toBeLessThan(1e-12);
+      expect(maxAbsDifference(product(a, inverse, n), identity(n))).toBeLessThan(1e-12);
       const lInverse = new Float64Array(a.length);
       invertLower(l, n, lInverse);
-      expect(maxDiff(product(l, lInverse, n), identity(n))).toBeLessThan(1e-12);
+      expect(maxAbsDifference(product(l, lInverse, n), identity(n))).toBeLessThan(1e-12);
     });
   }
 

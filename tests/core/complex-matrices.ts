@@ -48,10 +48,3 @@ export function identity(n: number): Float64Array {
   for (let i = 0; i < n; i++) out[2 * (i * n + i)] = 1;
   return out;
 }
-
-/** max |a_i − b_i| over the numbers (real and imaginary parts) of two arrays. */
-export function maxAbsDifference(a: ArrayLike<number>, b: ArrayLike<number>): number {
-  let max = 0;
-  for (let i = 0; i < a.length; i++) max = Math.max(max, Math.abs(a[i] - b[i]));
-  return max;
-}

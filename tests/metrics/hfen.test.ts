@@ -2,17 +2,12 @@ import { describe, expect, it } from 'vitest';
 import { SeededRandom } from '../../src/core/random.ts';
 import type { RealImage } from '../../src/core/real-image.ts';
 import { hfen, highFrequencyErrorNorm, laplacianOfGaussian } from '../../src/metrics/index.ts';
+import { maxAbsDifference } from '../error-measures.ts';
 import { caseImages, FIXTURE_TOLERANCE, fixtureImage, fixtures, maskedCases } from './metric-fixtures.ts';
 
 function randomImage(nx: number, ny: number, seed: number): RealImage {
   const rng = new SeededRandom(seed);
   return { nx, ny, data: Float64Array.from({ length: nx * ny }, () => rng.uniform()) };
-}
-
-function maxAbsDifference(a: ArrayLike<number>, b: ArrayLike<number>): number {
-  let m = 0;
-  for (let i = 0; i < a.length; i++) m = Math.max(m, Math.abs(a[i] - b[i]));
-  return m;
 }
 
 describe('hfen against scipy.ndimage (fixture by tests/reference/generate_fixtures.py)', () => {

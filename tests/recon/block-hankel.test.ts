@@ -1,13 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { BlockHankel } from '../../src/recon/block-hankel.ts';
 import { HermitianEigenSolver } from '../../src/recon/hermitian-eigen.ts';
-import {
-  friSignal1d,
-  POINT_SOURCES,
-  pointSourceKspace,
-  randomComplexImage,
-  relativeError,
-} from './helpers.ts';
+import { relativeError } from '../error-measures.ts';
+import { friSignal1d, POINT_SOURCES, pointSourceKspace, randomComplexImage } from './helpers.ts';
 
 /** The explicit block-Hankel matrix (rows = windows fully inside, columns = window offsets). */
 function explicitHankel(z: Float64Array, nx: number, ny: number, wx: number, wy: number): Float64Array[] {

@@ -16,14 +16,13 @@ import { type CsWaveletOptions, solveCsWavelet } from '../../src/recon/cs-wavele
 import { totalVariation } from '../../src/recon/total-variation.ts';
 import { dwt2, idwt2 } from '../../src/wavelets/dwt2.ts';
 import { detailL1 } from '../../src/wavelets/soft-threshold.ts';
+import { maxAbsDifference, relativeError } from '../error-measures.ts';
 import {
   blockObjectProblem,
   fullMask,
-  maxAbsDifference,
   poissonDiscAcquisition,
   randomComplexImage,
   randomPointMask,
-  relativeError,
   sampledKspace,
   tvRofFixture,
 } from './helpers.ts';

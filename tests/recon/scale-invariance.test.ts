@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { reconstruct } from '../../src/recon/index.ts';
-import { randomComplexImage, randomPointMask, relativeError, sampledKspace } from './helpers.ts';
+import { relativeError } from '../error-measures.ts';
+import { randomComplexImage, randomPointMask, sampledKspace } from './helpers.ts';
 
 describe('methods do not depend on the image scale (DEVELOPERS.md: λ is relative to max |F_cᴴ y|)', () => {
   // Scaling the data by s must scale the reconstruction by s: cs-tv's λ_abs scales with
