@@ -11,6 +11,7 @@ import {
   sharedTestApp,
   type TestApp,
   testApp,
+  uploadFile,
 } from './helpers.ts';
 
 // Source for the checks below: the v1 HTTP contract of docs/design.md §4 (routes, status codes, 202 jobs,
@@ -162,10 +163,7 @@ describe('plans as jobs', () => {
   });
 
   it('an uploaded DICOM as the plan source (pixels sent to the workers with each cell)', async () => {
-    const upload = await t
-      .http()
-      .post('/v1/images')
-      .attach('file', debianFile('pydicom', 'MR_small.dcm'), 'm.dcm');
+    const upload = await uploadFile(t, debianFile('pydicom', 'MR_small.dcm'), 'm.dcm');
     const plan = {
       ...smallPlan,
       source: { imageId: upload.body.id },
