@@ -4,6 +4,7 @@ import { describe, expect, it } from 'vitest';
 import { decodeImage } from '../../src/io/decode-image.ts';
 import { runPlan } from '../../src/plan/run-plan.ts';
 import { debianFile } from '../io/debian-files.ts';
+import { smallPlanBody } from '../plan/small-plan.ts';
 import {
   expectDocumented,
   expectProblem,
@@ -19,15 +20,11 @@ import {
 // response validated against openapi.yaml (OpenAPI 3.1, docs/references.md §10.6) by expectDocumented.
 
 /** A small sweep: 32² phantom, 1 pattern × 2 R × 2 methods × 2 seeds + reference = 10 cells. */
-const smallPlan = {
-  source: { phantom: 'shepp-logan-modified' },
-  matrix: { nx: 32, ny: 32 },
-  protocol: { trMs: 500 },
+const smallPlan = smallPlanBody({
   patterns: [{ pattern: 'cartesian-random', acs: 4 }],
   accelerations: [2, 3],
   methods: [{ name: 'zero-filled' }, { name: 'cs-tv', iterations: 15 }],
-  seeds: 2,
-};
+});
 
 /** Slower cells (more iterations, 48²) so a test can act while the plan runs. */
 const slowPlan = {
