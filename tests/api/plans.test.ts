@@ -182,23 +182,14 @@ describe('plans as jobs', () => {
   });
 
   it('bad plans: wrong types 400, out of range 422, too many cells 422 (limit), unknown image 404', async () => {
-    await postProblem(t, '/v1/plans', { ...smallPlan, seeds: 'three' }, 400, 'seeds');
-    await postProblem(t, '/v1/plans', { ...smallPlan, accelerations: [0.5] }, 422, 'accelerations[0]');
-    const many = await postProblem(t, '/v1/plans', { ...smallPlan, seeds: 100 }, 422);
+    const refused = (body: object, status: number, field?: string) =>
+      postProblem(t, '/v1/plans', body, status, field);
+    await refused({ ...smallPlan, seeds: 'three' }, 400, 'seeds');
+    await refused({ ...smallPlan, accelerations: [0.5] }, 422, 'accelerations[0]');
+    const many = await refused({ ...smallPlan, seeds: 100 }, 422);
     expect(many.type).toBe('/problems/limit-exceeded');
-    await postProblem(
-      t,
-      '/v1/plans',
-      { ...smallPlan, source: { imageId: 'missing' } },
-      404,
-      'source.imageId',
-    );
-    await postProblem(
-      t,
-      '/v1/plans',
-      { ...smallPlan, patterns: [{ pattern: 'cartesian-uniform' }], accelerations: [40] },
-      422,
-    );
+    await refused({ ...smallPlan, source: { imageId: 'missing' } }, 404, 'source.imageId');
+    await refused({ ...smallPlan, patterns: [{ pattern: 'cartesian-uniform' }], accelerations: [40] }, 422);
   });
 });
 

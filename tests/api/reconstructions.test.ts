@@ -89,35 +89,17 @@ describe('POST /v1/reconstructions (runs on the worker pool)', () => {
   });
 
   it('errors: unknown imageId 404, iterations above the limit 422 (limit), unknown method 422, wrong type 400', async () => {
-    await postProblem(
-      t,
-      '/v1/reconstructions',
-      { ...request, source: { imageId: 'missing' } },
-      404,
-      'source.imageId',
-    );
-    const limit = await postProblem(
-      t,
-      '/v1/reconstructions',
+    const refused = (body: object, status: number, field?: string) =>
+      postProblem(t, '/v1/reconstructions', body, status, field);
+    await refused({ ...request, source: { imageId: 'missing' } }, 404, 'source.imageId');
+    const limit = await refused(
       { ...request, method: { name: 'cs-tv', iterations: 500 } },
       422,
       'method.iterations',
     );
     expect(limit.type).toBe('/problems/limit-exceeded');
-    await postProblem(
-      t,
-      '/v1/reconstructions',
-      { ...request, method: { name: 'magic' } },
-      422,
-      'method.name',
-    );
-    await postProblem(
-      t,
-      '/v1/reconstructions',
-      { ...request, matrix: { nx: '32', ny: 32 } },
-      400,
-      'matrix.nx',
-    );
+    await refused({ ...request, method: { name: 'magic' } }, 422, 'method.name');
+    await refused({ ...request, matrix: { nx: '32', ny: 32 } }, 400, 'matrix.nx');
     expectProblem(await t.http().get('/v1/reconstructions/nope'), 404, 'id');
   });
 });
