@@ -62,6 +62,22 @@ export function pointSourceKspace(
   return k;
 }
 
+/**
+ * A random complex ny×nx image (seed `imageSeed`) seen through a random point mask keeping
+ * `fraction` of the grid (seed `maskSeed`): the solvers' generic test problem.
+ */
+export function randomProblem(
+  nx: number,
+  ny: number,
+  imageSeed: number,
+  fraction: number,
+  maskSeed: number,
+): { image: ComplexImage; mask: Uint8Array; kspace: ComplexImage } {
+  const image = randomComplexImage(nx, ny, imageSeed);
+  const mask = randomPointMask(nx, ny, fraction, maskSeed);
+  return { image, mask, kspace: sampledKspace(image, mask) };
+}
+
 /** Random mask with each point kept with probability `fraction`. */
 export function randomPointMask(nx: number, ny: number, fraction: number, seed: number): Uint8Array {
   const rng = new SeededRandom(seed);
