@@ -59,12 +59,29 @@ export const maskedCases = fixtures.cases.filter((c) => c.mask && c.masked);
  */
 export const FIXTURE_TOLERANCE = 1e-12;
 
+/** The metrics every fixture case carries a value of, over the whole image and over its mask. */
+export type FixtureMetric = keyof NonNullable<MetricCase['masked']>;
+
+/** One `it` per fixture case: `metric` over the whole images equals the fixture value to FIXTURE_TOLERANCE. */
+export function itMatchesFixtures(
+  key: FixtureMetric,
+  metric: (estimate: RealImage, reference: RealImage) => number,
+  title: (c: MetricCase) => string,
+): void {
+  for (const c of fixtures.cases) {
+    it(title(c), () => {
+      const { estimate, reference } = caseImages(c);
+      expect(Math.abs(metric(estimate, reference) - c[key])).toBeLessThanOrEqual(FIXTURE_TOLERANCE);
+    });
+  }
+}
+
 /**
  * One `it` per masked fixture case: `metric` over the mask equals the fixture's masked value to
  * FIXTURE_TOLERANCE, and differs from the whole-image value by more than `apart`, so the mask mattered.
  */
 export function itMatchesMaskedFixtures(
-  key: keyof NonNullable<MetricCase['masked']>,
+  key: FixtureMetric,
   metric: (estimate: RealImage, reference: RealImage, mask: Uint8Array) => number,
   apart: number,
   title: (c: MetricCase) => string,

@@ -1,15 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import { nrmse } from '../../src/metrics/index.ts';
-import { caseImages, FIXTURE_TOLERANCE, fixtures, itMatchesMaskedFixtures } from './metric-fixtures.ts';
+import { itMatchesFixtures, itMatchesMaskedFixtures } from './metric-fixtures.ts';
 
 describe('nrmse against scikit-image (fixture by tests/reference/generate_fixtures.py)', () => {
   // skimage.metrics.normalized_root_mse(reference, estimate, normalization='euclidean').
-  for (const c of fixtures.cases) {
-    it(`${c.name}: matches skimage to 1e-12`, () => {
-      const { estimate, reference } = caseImages(c);
-      expect(Math.abs(nrmse(estimate, reference) - c.nrmse)).toBeLessThanOrEqual(FIXTURE_TOLERANCE);
-    });
-  }
+  itMatchesFixtures('nrmse', nrmse, (c) => `${c.name}: matches skimage to 1e-12`);
   itMatchesMaskedFixtures(
     'nrmse',
     (estimate, reference, mask) => nrmse(estimate, reference, mask),

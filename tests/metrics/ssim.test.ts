@@ -5,6 +5,7 @@ import {
   caseImages,
   FIXTURE_TOLERANCE,
   fixtures,
+  itMatchesFixtures,
   itMatchesMaskedFixtures,
   maskedCases,
   randomUniformImage,
@@ -17,12 +18,7 @@ function constant(nx: number, ny: number, value: number): RealImage {
 describe('ssim against scikit-image (fixture by tests/reference/generate_fixtures.py)', () => {
   // skimage.metrics.structural_similarity(gaussian_weights=True, sigma=1.5,
   // use_sample_covariance=False, data_range=max−min of the reference), Debian python3-skimage.
-  for (const c of fixtures.cases) {
-    it(`${c.name}: matches skimage to 1e-12`, () => {
-      const { estimate, reference } = caseImages(c);
-      expect(Math.abs(ssim(estimate, reference) - c.ssim)).toBeLessThanOrEqual(FIXTURE_TOLERANCE);
-    });
-  }
+  itMatchesFixtures('ssim', ssim, (c) => `${c.name}: matches skimage to 1e-12`);
 
   const explicit = fixtures.cases.filter((c) => c.ssimExplicit);
   it('the fixture holds one explicit-data-range case and one masked case', () => {
