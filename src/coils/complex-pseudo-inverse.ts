@@ -1,3 +1,5 @@
+import { addProducts } from '../core/complex-matrix.ts';
+
 /**
  * Least-squares pseudo-inverse B⁺ = R⁻¹·Qᴴ of a tall complex n×m matrix B (n ≥ m, full column rank)
  * through its thin QR factorisation by modified Gram–Schmidt with one reorthogonalisation pass
@@ -13,6 +15,7 @@ export function pseudoInverse(b: Float64Array, n: number, m: number): Float64Arr
   // Q stored column-major (column k at 2·k·n) for contiguous dot products.
   const q = new Float64Array(2 * n * m);
   const r = new Float64Array(2 * m * m);
+  const acc = new Float64Array(2);
   for (let k = 0; k < m; k++) {
     const col = 2 * k * n;
     let original = 0;
@@ -24,16 +27,10 @@ export function pseudoInverse(b: Float64Array, n: number, m: number): Float64Arr
     for (let pass = 0; pass < 2; pass++) {
       for (let j = 0; j < k; j++) {
         const qj = 2 * j * n;
-        let re = 0;
-        let im = 0;
-        for (let i = 0; i < n; i++) {
-          const ar = q[qj + 2 * i];
-          const ai = q[qj + 2 * i + 1];
-          const vr = q[col + 2 * i];
-          const vi = q[col + 2 * i + 1];
-          re += ar * vr + ai * vi;
-          im += ar * vi - ai * vr;
-        }
+        // ⟨q_j, v⟩ = Σ_i conj(q_ij)·v_i
+        acc.fill(0);
+        addProducts(acc, 1, q, j * n, 1, q, k * n, 1, n, 'a');
+        const [re, im] = acc;
         for (let i = 0; i < n; i++) {
           const ar = q[qj + 2 * i];
           const ai = q[qj + 2 * i + 1];
@@ -55,19 +52,12 @@ export function pseudoInverse(b: Float64Array, n: number, m: number): Float64Arr
   const x = new Float64Array(2 * m * n);
   for (let i = 0; i < n; i++) {
     for (let k = m - 1; k >= 0; k--) {
-      let re = q[2 * (k * n + i)];
-      let im = -q[2 * (k * n + i) + 1];
-      for (let j = k + 1; j < m; j++) {
-        const rr = r[2 * (k * m + j)];
-        const ri = r[2 * (k * m + j) + 1];
-        const xr = x[2 * (j * n + i)];
-        const xi = x[2 * (j * n + i) + 1];
-        re -= rr * xr - ri * xi;
-        im -= rr * xi + ri * xr;
-      }
+      acc[0] = q[2 * (k * n + i)];
+      acc[1] = -q[2 * (k * n + i) + 1];
+      addProducts(acc, -1, r, k * m + k + 1, 1, x, (k + 1) * n + i, n, m - 1 - k);
       const d = r[2 * (k * m + k)];
-      x[2 * (k * n + i)] = re / d;
-      x[2 * (k * n + i) + 1] = im / d;
+      x[2 * (k * n + i)] = acc[0] / d;
+      x[2 * (k * n + i) + 1] = acc[1] / d;
     }
   }
   // Rounding can still defeat a basis that is nearly dependent without any one column being so:
@@ -75,17 +65,10 @@ export function pseudoInverse(b: Float64Array, n: number, m: number): Float64Arr
   // deviation grows like cond(B)²·ε: 5e-5 for 25 harmonics of period 4 on 64 points, 31 for period 6).
   for (let a = 0; a < m; a++) {
     for (let c = 0; c < m; c++) {
-      let re = a === c ? -1 : 0;
-      let im = 0;
-      for (let i = 0; i < n; i++) {
-        const xr = x[2 * (a * n + i)];
-        const xi = x[2 * (a * n + i) + 1];
-        const br = b[2 * (i * m + c)];
-        const bi = b[2 * (i * m + c) + 1];
-        re += xr * br - xi * bi;
-        im += xr * bi + xi * br;
-      }
-      if (!(Math.hypot(re, im) <= PSEUDO_INVERSE_TOLERANCE)) return null;
+      acc[0] = a === c ? -1 : 0;
+      acc[1] = 0;
+      addProducts(acc, 1, x, a * n, 1, b, c, m, n);
+      if (!(Math.hypot(acc[0], acc[1]) <= PSEUDO_INVERSE_TOLERANCE)) return null;
     }
   }
   return x;

@@ -1,4 +1,5 @@
 import { choleskyLower, solveLower } from '../core/complex-cholesky.ts';
+import { addProducts } from '../core/complex-matrix.ts';
 import { ValidationError } from '../core/errors.ts';
 import type { SeededRandom } from '../core/random.ts';
 import type { MultiCoilArray } from '../encoding/index.ts';
@@ -105,22 +106,15 @@ export class CoilNoise {
     this.checkCoils(target);
     const n = target.nx * target.ny;
     const d = target.data;
+    const lz = new Float64Array(2);
     for (let i = 0; i < n; i++) {
+      for (let k = 0; k < 2 * coils; k++) vector[k] = random.normal();
       for (let c = 0; c < coils; c++) {
-        vector[2 * c] = random.normal();
-        vector[2 * c + 1] = random.normal();
-      }
-      for (let c = 0; c < coils; c++) {
-        let re = 0;
-        let im = 0;
-        for (let k = 0; k <= c; k++) {
-          const lr = lower[2 * (c * coils + k)];
-          const li = lower[2 * (c * coils + k) + 1];
-          re += lr * vector[2 * k] - li * vector[2 * k + 1];
-          im += lr * vector[2 * k + 1] + li * vector[2 * k];
-        }
-        d[2 * (c * n + i)] += sigma * re;
-        d[2 * (c * n + i) + 1] += sigma * im;
+        // (L·z)_c = Σ_{k ≤ c} l_ck·z_k
+        lz.fill(0);
+        addProducts(lz, 1, lower, c * coils, 1, vector, 0, 1, c + 1);
+        d[2 * (c * n + i)] += sigma * lz[0];
+        d[2 * (c * n + i) + 1] += sigma * lz[1];
       }
     }
   }
@@ -130,17 +124,11 @@ export class CoilNoise {
     const { coils, lower, vector } = this;
     this.checkCoils(target);
     const n = target.nx * target.ny;
-    const d = target.data;
+    const samples = strided(target.data, n);
     for (let i = 0; i < n; i++) {
-      for (let c = 0; c < coils; c++) {
-        vector[2 * c] = d[2 * (c * n + i)];
-        vector[2 * c + 1] = d[2 * (c * n + i) + 1];
-      }
+      samples.gather(vector, i, coils);
       solveLower(lower, coils, vector);
-      for (let c = 0; c < coils; c++) {
-        d[2 * (c * n + i)] = vector[2 * c];
-        d[2 * (c * n + i) + 1] = vector[2 * c + 1];
-      }
+      samples.scatter(vector, i, coils);
     }
   }
 
@@ -149,4 +137,22 @@ export class CoilNoise {
       throw new RangeError(`data has ${target.coils} coils, the noise model ${this.coils}`);
     }
   }
+}
+
+/** The coil vector of sample i in coil-major data (n samples per coil): copied out, or back in. */
+function strided(data: Float64Array, n: number) {
+  return {
+    gather(vector: Float64Array, i: number, coils: number): void {
+      for (let c = 0; c < coils; c++) {
+        vector[2 * c] = data[2 * (c * n + i)];
+        vector[2 * c + 1] = data[2 * (c * n + i) + 1];
+      }
+    },
+    scatter(vector: Float64Array, i: number, coils: number): void {
+      for (let c = 0; c < coils; c++) {
+        data[2 * (c * n + i)] = vector[2 * c];
+        data[2 * (c * n + i) + 1] = vector[2 * c + 1];
+      }
+    },
+  };
 }

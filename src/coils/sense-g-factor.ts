@@ -1,4 +1,5 @@
 import { choleskyLower, hermitianInverseFromCholesky, solveLower } from '../core/complex-cholesky.ts';
+import { adjoint, multiplyInto, rowMajor } from '../core/complex-matrix.ts';
 import { ValidationError } from '../core/errors.ts';
 import type { CoilMaps } from '../encoding/index.ts';
 
@@ -55,22 +56,8 @@ export class SenseFoldSolver {
         whitened[2 * (c * R + r) + 1] = column[2 * c + 1];
       }
     }
-    for (let a = 0; a < R; a++) {
-      for (let b = 0; b < R; b++) {
-        let re = 0;
-        let im = 0;
-        for (let c = 0; c < C; c++) {
-          const xr = whitened[2 * (c * R + a)];
-          const xi = whitened[2 * (c * R + a) + 1];
-          const yr = whitened[2 * (c * R + b)];
-          const yi = whitened[2 * (c * R + b) + 1];
-          re += xr * yr + xi * yi;
-          im += xr * yi - xi * yr;
-        }
-        gram[2 * (a * R + b)] = re;
-        gram[2 * (a * R + b) + 1] = im;
-      }
-    }
+    // SᴴΨ⁻¹S = S′ᴴ·S′
+    multiplyInto(rowMajor(gram, R), adjoint(rowMajor(whitened, R)), rowMajor(whitened, R), R, C, R);
     if (R === 1) {
       // One pixel per fold: (SᴴΨ⁻¹S)⁻¹·(SᴴΨ⁻¹S) = 1 identically, so g = 1 exactly unless S′ = 0.
       if (!(gram[0] > 0)) return false;

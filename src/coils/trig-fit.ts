@@ -1,3 +1,4 @@
+import { multiplyInto, rowMajor, transposed } from '../core/complex-matrix.ts';
 import { ValidationError } from '../core/errors.ts';
 import { type CoilMaps, createMultiCoilArray } from '../encoding/index.ts';
 import { pixelX, pixelY } from '../phantoms/index.ts';
@@ -49,6 +50,20 @@ function fourierBasis(t: Float64Array, order: number, period: number): Float64Ar
   return b;
 }
 
+/** The 1D basis at the pixel coordinates of one axis (`pixelX` for columns, `pixelY` for rows). */
+function axisBasis(
+  size: number,
+  coordinate: (index: number, size: number) => number,
+  order: number,
+  period: number,
+): Float64Array {
+  return fourierBasis(
+    Float64Array.from({ length: size }, (_, i) => coordinate(i, size)),
+    order,
+    period,
+  );
+}
+
 /**
  * Least-squares fit over every pixel of the grid. The basis is a tensor product and the grid is a
  * full Cartesian product, so the 2D problem S ≈ B_y·A·B_xᵀ separates: A = B_y⁺·S·(B_x⁺)ᵀ exactly
@@ -89,24 +104,8 @@ export function fitTrigPolynomial(
     });
   }
   const period = 2 * periodFactor;
-  const px = pseudoInverse(
-    fourierBasis(
-      Float64Array.from({ length: nx }, (_, j) => pixelX(j, nx)),
-      order,
-      period,
-    ),
-    nx,
-    m,
-  );
-  const py = pseudoInverse(
-    fourierBasis(
-      Float64Array.from({ length: ny }, (_, i) => pixelY(i, ny)),
-      order,
-      period,
-    ),
-    ny,
-    m,
-  );
+  const px = pseudoInverse(axisBasis(nx, pixelX, order, period), nx, m);
+  const py = pseudoInverse(axisBasis(ny, pixelY, order, period), ny, m);
   if (!px || !py) {
     throw new ValidationError({
       field: `${field}.order`,
@@ -118,41 +117,9 @@ export function fitTrigPolynomial(
   const coefficients = new Float64Array(2 * coils * m * m);
   const rowsByP = new Float64Array(2 * ny * m); // S·(B_x⁺)ᵀ, ny×m
   for (let c = 0; c < coils; c++) {
-    const s = maps.data;
-    const base = 2 * c * n;
-    for (let i = 0; i < ny; i++) {
-      for (let k = 0; k < m; k++) {
-        let re = 0;
-        let im = 0;
-        for (let j = 0; j < nx; j++) {
-          const sr = s[base + 2 * (i * nx + j)];
-          const si = s[base + 2 * (i * nx + j) + 1];
-          const pr = px[2 * (k * nx + j)];
-          const pi = px[2 * (k * nx + j) + 1];
-          re += sr * pr - si * pi;
-          im += sr * pi + si * pr;
-        }
-        rowsByP[2 * (i * m + k)] = re;
-        rowsByP[2 * (i * m + k) + 1] = im;
-      }
-    }
-    for (let q = 0; q < m; q++) {
-      for (let k = 0; k < m; k++) {
-        let re = 0;
-        let im = 0;
-        for (let i = 0; i < ny; i++) {
-          const ar = py[2 * (q * ny + i)];
-          const ai = py[2 * (q * ny + i) + 1];
-          const br = rowsByP[2 * (i * m + k)];
-          const bi = rowsByP[2 * (i * m + k) + 1];
-          re += ar * br - ai * bi;
-          im += ar * bi + ai * br;
-        }
-        const at = 2 * ((c * m + q) * m + k);
-        coefficients[at] = re;
-        coefficients[at + 1] = im;
-      }
-    }
+    const map = rowMajor(maps.data, nx, c * n);
+    multiplyInto(rowMajor(rowsByP, m), map, transposed(rowMajor(px, nx)), ny, nx, m);
+    multiplyInto(rowMajor(coefficients, m, c * m * m), rowMajor(py, ny), rowMajor(rowsByP, m), m, ny, m);
   }
   return { coils, order, periodFactor, coefficients };
 }
@@ -162,47 +129,15 @@ export function evaluateTrigPolynomial(fit: TrigPolynomialMaps, nx: number, ny: 
   const { coils, order, periodFactor, coefficients } = fit;
   const m = 2 * order + 1;
   const period = 2 * periodFactor;
-  const bx = fourierBasis(
-    Float64Array.from({ length: nx }, (_, j) => pixelX(j, nx)),
-    order,
-    period,
-  );
-  const by = fourierBasis(
-    Float64Array.from({ length: ny }, (_, i) => pixelY(i, ny)),
-    order,
-    period,
-  );
+  const bx = axisBasis(nx, pixelX, order, period);
+  const by = axisBasis(ny, pixelY, order, period);
   const maps = createMultiCoilArray(coils, nx, ny);
-  const rowSums = new Float64Array(2 * m); // Σ_q a_{q,p}·B_y[i][q] for one row i
+  const rowSums = new Float64Array(2 * ny * m); // B_y·A_c: Σ_q B_y[i][q]·a_{c,q,p}, ny×m
   const n = nx * ny;
   for (let c = 0; c < coils; c++) {
-    for (let i = 0; i < ny; i++) {
-      rowSums.fill(0);
-      for (let q = 0; q < m; q++) {
-        const yr = by[2 * (i * m + q)];
-        const yi = by[2 * (i * m + q) + 1];
-        for (let k = 0; k < m; k++) {
-          const at = 2 * ((c * m + q) * m + k);
-          const ar = coefficients[at];
-          const ai = coefficients[at + 1];
-          rowSums[2 * k] += ar * yr - ai * yi;
-          rowSums[2 * k + 1] += ar * yi + ai * yr;
-        }
-      }
-      for (let j = 0; j < nx; j++) {
-        let re = 0;
-        let im = 0;
-        for (let k = 0; k < m; k++) {
-          const xr = bx[2 * (j * m + k)];
-          const xi = bx[2 * (j * m + k) + 1];
-          re += rowSums[2 * k] * xr - rowSums[2 * k + 1] * xi;
-          im += rowSums[2 * k] * xi + rowSums[2 * k + 1] * xr;
-        }
-        const at = 2 * (c * n + i * nx + j);
-        maps.data[at] = re;
-        maps.data[at + 1] = im;
-      }
-    }
+    multiplyInto(rowMajor(rowSums, m), rowMajor(by, m), rowMajor(coefficients, m, c * m * m), ny, m, m);
+    const map = rowMajor(maps.data, nx, c * n);
+    multiplyInto(map, rowMajor(rowSums, m), transposed(rowMajor(bx, m)), ny, m, nx);
   }
   return maps;
 }

@@ -5,6 +5,7 @@
  * well-kept npm linear-algebra packages are real-valued; n is small (coils, aliased pixels).
  * The algorithm is the textbook one (Golub & Van Loan, "Matrix Computations", §4.2 — from memory).
  */
+import { addProducts, adjoint, multiplyInto, rowMajor } from './complex-matrix.ts';
 
 /** Relative pivot below which a matrix counts as singular (not numerically positive definite). */
 export const DEFAULT_PIVOT_TOLERANCE = 1e-12;
@@ -26,6 +27,7 @@ export function choleskyLower(
   let maxDiagonal = 0;
   for (let i = 0; i < n; i++) maxDiagonal = Math.max(maxDiagonal, Math.abs(a[2 * (i * n + i)]));
   const floor = tolerance * maxDiagonal;
+  const acc = new Float64Array(2);
   for (let j = 0; j < n; j++) {
     let d = a[2 * (j * n + j)];
     for (let k = 0; k < j; k++) {
@@ -39,18 +41,11 @@ export function choleskyLower(
     l[2 * (j * n + j) + 1] = 0;
     for (let i = j + 1; i < n; i++) {
       // l_ij = (a_ij − Σ_k l_ik·conj(l_jk)) / l_jj
-      let re = a[2 * (i * n + j)];
-      let im = a[2 * (i * n + j) + 1];
-      for (let k = 0; k < j; k++) {
-        const ar = l[2 * (i * n + k)];
-        const ai = l[2 * (i * n + k) + 1];
-        const br = l[2 * (j * n + k)];
-        const bi = l[2 * (j * n + k) + 1];
-        re -= ar * br + ai * bi;
-        im -= ai * br - ar * bi;
-      }
-      l[2 * (i * n + j)] = re / ljj;
-      l[2 * (i * n + j) + 1] = im / ljj;
+      acc[0] = a[2 * (i * n + j)];
+      acc[1] = a[2 * (i * n + j) + 1];
+      addProducts(acc, -1, l, i * n, 1, l, j * n, 1, j, 'b');
+      l[2 * (i * n + j)] = acc[0] / ljj;
+      l[2 * (i * n + j) + 1] = acc[1] / ljj;
     }
     for (let i = 0; i < j; i++) {
       l[2 * (i * n + j)] = 0;
@@ -62,44 +57,24 @@ export function choleskyLower(
 
 /** Solves L·x = b in place for lower-triangular L; b is n complex numbers from `offset` (complex index). */
 export function solveLower(l: Float64Array, n: number, b: Float64Array, offset = 0): void {
+  const acc = new Float64Array(2);
   for (let i = 0; i < n; i++) {
-    let re = b[2 * (offset + i)];
-    let im = b[2 * (offset + i) + 1];
-    for (let k = 0; k < i; k++) {
-      const lr = l[2 * (i * n + k)];
-      const li = l[2 * (i * n + k) + 1];
-      const xr = b[2 * (offset + k)];
-      const xi = b[2 * (offset + k) + 1];
-      re -= lr * xr - li * xi;
-      im -= lr * xi + li * xr;
-    }
-    const dr = l[2 * (i * n + i)];
-    const di = l[2 * (i * n + i) + 1];
-    const den = dr * dr + di * di;
-    b[2 * (offset + i)] = (re * dr + im * di) / den;
-    b[2 * (offset + i) + 1] = (im * dr - re * di) / den;
+    acc[0] = b[2 * (offset + i)];
+    acc[1] = b[2 * (offset + i) + 1];
+    addProducts(acc, -1, l, i * n, 1, b, offset, 1, i);
+    storeQuotient(b, offset + i, acc, l[2 * (i * n + i)], l[2 * (i * n + i) + 1]);
   }
 }
 
 /** Solves Lᴴ·x = b in place for lower-triangular L (an upper-triangular solve with conj(L)ᵀ). */
 export function solveLowerConjugateTranspose(l: Float64Array, n: number, b: Float64Array, offset = 0): void {
+  const acc = new Float64Array(2);
   for (let i = n - 1; i >= 0; i--) {
-    let re = b[2 * (offset + i)];
-    let im = b[2 * (offset + i) + 1];
-    for (let k = i + 1; k < n; k++) {
-      // (Lᴴ)_ik = conj(l_ki)
-      const lr = l[2 * (k * n + i)];
-      const li = -l[2 * (k * n + i) + 1];
-      const xr = b[2 * (offset + k)];
-      const xi = b[2 * (offset + k) + 1];
-      re -= lr * xr - li * xi;
-      im -= lr * xi + li * xr;
-    }
-    const dr = l[2 * (i * n + i)];
-    const di = -l[2 * (i * n + i) + 1];
-    const den = dr * dr + di * di;
-    b[2 * (offset + i)] = (re * dr + im * di) / den;
-    b[2 * (offset + i) + 1] = (im * dr - re * di) / den;
+    acc[0] = b[2 * (offset + i)];
+    acc[1] = b[2 * (offset + i) + 1];
+    // (Lᴴ)_ik = conj(l_ki), k > i: down column i of L.
+    addProducts(acc, -1, l, (i + 1) * n + i, n, b, offset + i + 1, 1, n - 1 - i, 'a');
+    storeQuotient(b, offset + i, acc, l[2 * (i * n + i)], -l[2 * (i * n + i) + 1]);
   }
 }
 
@@ -109,26 +84,23 @@ export function invertLower(l: Float64Array, n: number, out: Float64Array): void
   checkSquare(out, n, 'out');
   if (out === l) throw new RangeError('out must differ from l');
   out.fill(0);
+  const acc = new Float64Array(2);
   for (let j = 0; j < n; j++) {
     // Column j of L⁻¹ solves L·x = e_j; entries above j are zero.
     for (let i = j; i < n; i++) {
-      let re = i === j ? 1 : 0;
-      let im = 0;
-      for (let k = j; k < i; k++) {
-        const lr = l[2 * (i * n + k)];
-        const li = l[2 * (i * n + k) + 1];
-        const xr = out[2 * (k * n + j)];
-        const xi = out[2 * (k * n + j) + 1];
-        re -= lr * xr - li * xi;
-        im -= lr * xi + li * xr;
-      }
-      const dr = l[2 * (i * n + i)];
-      const di = l[2 * (i * n + i) + 1];
-      const den = dr * dr + di * di;
-      out[2 * (i * n + j)] = (re * dr + im * di) / den;
-      out[2 * (i * n + j) + 1] = (im * dr - re * di) / den;
+      acc[0] = i === j ? 1 : 0;
+      acc[1] = 0;
+      addProducts(acc, -1, l, i * n + j, 1, out, j * n + j, n, i - j);
+      storeQuotient(out, i * n + j, acc, l[2 * (i * n + i)], l[2 * (i * n + i) + 1]);
     }
   }
+}
+
+/** target[at] = acc / (dr + i·di), complex numbers (at is a complex index). */
+function storeQuotient(target: Float64Array, at: number, acc: Float64Array, dr: number, di: number): void {
+  const den = dr * dr + di * di;
+  target[2 * at] = (acc[0] * dr + acc[1] * di) / den;
+  target[2 * at + 1] = (acc[1] * dr - acc[0] * di) / den;
 }
 
 /**
@@ -142,23 +114,8 @@ export function hermitianInverseFromCholesky(
   scratch: Float64Array = new Float64Array(2 * n * n),
 ): void {
   invertLower(l, n, scratch);
-  for (let i = 0; i < n; i++) {
-    for (let j = 0; j < n; j++) {
-      // (A⁻¹)_ij = Σ_k conj(M_ki)·M_kj with M = L⁻¹ (zero above the diagonal, so k ≥ max(i, j)).
-      let re = 0;
-      let im = 0;
-      for (let k = Math.max(i, j); k < n; k++) {
-        const ar = scratch[2 * (k * n + i)];
-        const ai = scratch[2 * (k * n + i) + 1];
-        const br = scratch[2 * (k * n + j)];
-        const bi = scratch[2 * (k * n + j) + 1];
-        re += ar * br + ai * bi;
-        im += ar * bi - ai * br;
-      }
-      out[2 * (i * n + j)] = re;
-      out[2 * (i * n + j) + 1] = im;
-    }
-  }
+  // (A⁻¹)_ij = Σ_k conj(M_ki)·M_kj with M = L⁻¹; the zeros above M's diagonal add exact zeros.
+  multiplyInto(rowMajor(out, n), adjoint(rowMajor(scratch, n)), rowMajor(scratch, n), n, n, n);
 }
 
 function checkSquare(m: Float64Array, n: number, name: string): void {

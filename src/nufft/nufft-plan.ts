@@ -301,6 +301,29 @@ export function createNufftPlan(
     }
   }
 
+  /**
+   * Pixel (i, j) of the image ↔ its place on the oversampled grid, scaled by the deapodisation
+   * dy[i]·dx[j]: the forward transform writes the image onto the grid, the adjoint reads it back.
+   */
+  const exchangeImage = (image: Float64Array, direction: 'toGrid' | 'fromGrid'): void => {
+    const toGrid = direction === 'toGrid';
+    for (let i = 0; i < ny; i++) {
+      const rowBase = 2 * rowOfPixel[i] * px;
+      for (let j = 0; j < nx; j++) {
+        const s = dy[i] * dx[j];
+        const at = rowBase + 2 * colOfPixel[j];
+        const pixel = 2 * (i * nx + j);
+        if (toGrid) {
+          grid[at] = image[pixel] * s;
+          grid[at + 1] = image[pixel + 1] * s;
+        } else {
+          image[pixel] = grid[at] * s;
+          image[pixel + 1] = grid[at + 1] * s;
+        }
+      }
+    }
+  };
+
   return {
     nx,
     ny,
@@ -319,16 +342,7 @@ export function createNufftPlan(
       const target = out ?? new Float64Array(2 * count);
       if (target.length !== 2 * count) throw new RangeError(`out must hold ${2 * count} numbers`);
       grid.fill(0);
-      const src = image.data;
-      for (let i = 0; i < ny; i++) {
-        const rowBase = 2 * rowOfPixel[i] * px;
-        for (let j = 0; j < nx; j++) {
-          const s = dy[i] * dx[j];
-          const at = rowBase + 2 * colOfPixel[j];
-          grid[at] = src[2 * (i * nx + j)] * s;
-          grid[at + 1] = src[2 * (i * nx + j) + 1] * s;
-        }
-      }
+      exchangeImage(image.data, 'toGrid');
       // Only the ny image rows hold data, so only they need a row transform.
       for (let i = 0; i < ny; i++) rowTransform(rowOfPixel[i], -1);
       for (let c = pad; c < pad + gx; c++) columnTransform(c, -1);
@@ -349,16 +363,7 @@ export function createNufftPlan(
       for (let c = pad; c < pad + gx; c++) columnTransform(c, 1);
       // Only the ny image rows are read back, so only they need a row transform.
       for (let i = 0; i < ny; i++) rowTransform(rowOfPixel[i], 1);
-      const dst = target.data;
-      for (let i = 0; i < ny; i++) {
-        const rowBase = 2 * rowOfPixel[i] * px;
-        for (let j = 0; j < nx; j++) {
-          const s = dy[i] * dx[j];
-          const at = rowBase + 2 * colOfPixel[j];
-          dst[2 * (i * nx + j)] = grid[at] * s;
-          dst[2 * (i * nx + j) + 1] = grid[at + 1] * s;
-        }
-      }
+      exchangeImage(target.data, 'fromGrid');
       return target;
     },
 

@@ -1,6 +1,6 @@
 import { discTransform } from './disc-transform.ts';
-import { axisPhasors, degreesCosSin, type Placement, type Shape } from './shape.ts';
-import { checkFinite } from './validate.ts';
+import { PlacedShape } from './placed-shape.ts';
+import { axisPhasors, type Placement } from './shape.ts';
 
 /** Ellipse with semi-axes a (along x before rotation) and b, rotated by θ about its centre. */
 export interface EllipseParams extends Placement {
@@ -15,36 +15,23 @@ export interface EllipseParams extends Placement {
  *   k′x = kx cosθ + ky sinθ,  k′y = −kx sinθ + ky cosθ,  q = √((a k′x)² + (b k′y)²)
  *   E(k) = ρ·a·b·J1(2πq)/q · e^(−i2π(kx x0 + ky y0)),   E(0) = ρπab.
  */
-export class Ellipse implements Shape {
+export class Ellipse extends PlacedShape {
   readonly kind = 'ellipse';
-  readonly x0: number;
-  readonly y0: number;
   readonly a: number;
   readonly b: number;
-  readonly thetaDeg: number;
-  readonly intensity: number;
-  private readonly cos: number;
-  private readonly sin: number;
   // Quadratic A·dx² + B·dx + C ≤ 0 on a horizontal line: A fixed, B = dy·bPerDy, C = dy²·cPerDy2 − 1.
   private readonly quadA: number;
   private readonly bPerDy: number;
   private readonly cPerDy2: number;
-  private readonly halfHeight: number;
+  protected readonly halfHeight: number;
 
   constructor(p: EllipseParams) {
-    checkFinite(p.x0, 'ellipse.x0');
-    checkFinite(p.y0, 'ellipse.y0');
-    checkFinite(p.a, 'ellipse.a', true);
-    checkFinite(p.b, 'ellipse.b', true);
-    checkFinite(p.thetaDeg ?? 0, 'ellipse.thetaDeg');
-    checkFinite(p.intensity, 'ellipse.intensity');
-    this.x0 = p.x0;
-    this.y0 = p.y0;
+    super('ellipse', p, [
+      ['a', p.a],
+      ['b', p.b],
+    ]);
     this.a = p.a;
     this.b = p.b;
-    this.thetaDeg = p.thetaDeg ?? 0;
-    this.intensity = p.intensity;
-    [this.cos, this.sin] = degreesCosSin(this.thetaDeg);
     const ia2 = 1 / (p.a * p.a);
     const ib2 = 1 / (p.b * p.b);
     const c = this.cos;
@@ -55,17 +42,10 @@ export class Ellipse implements Shape {
     this.halfHeight = Math.sqrt(p.a * p.a * s * s + p.b * p.b * c * c);
   }
 
-  contains(x: number, y: number): boolean {
-    const dx = x - this.x0;
-    const dy = y - this.y0;
-    const u = (dx * this.cos + dy * this.sin) / this.a;
-    const v = (-dx * this.sin + dy * this.cos) / this.b;
-    return u * u + v * v <= 1;
-  }
-
-  yRange(out: Float64Array): void {
-    out[0] = this.y0 - this.halfHeight;
-    out[1] = this.y0 + this.halfHeight;
+  protected containsLocal(u: number, v: number): boolean {
+    const ua = u / this.a;
+    const vb = v / this.b;
+    return ua * ua + vb * vb <= 1;
   }
 
   spanAtY(y: number, out: Float64Array): boolean {

@@ -1,5 +1,5 @@
-import { addRowTimesColumn, axisPhasors, degreesCosSin, type Placement, type Shape } from './shape.ts';
-import { checkFinite } from './validate.ts';
+import { PlacedShape } from './placed-shape.ts';
+import { addRowTimesColumn, axisPhasors, type Placement } from './shape.ts';
 
 /** Rectangle of full widths wx (along x before rotation) and wy, rotated by θ about its centre. */
 export interface RectangleParams extends Placement {
@@ -20,46 +20,24 @@ export function sinc(t: number): number {
  * rotated offsets of an ellipse (docs/references.md §1.1). Transform (standard pair, shift and rotation theorems):
  *   R(k) = ρ·wx·wy·sinc(wx k′x)·sinc(wy k′y)·e^(−i2π(kx x0 + ky y0)),  sinc(t) = sin(πt)/(πt).
  */
-export class Rectangle implements Shape {
+export class Rectangle extends PlacedShape {
   readonly kind = 'rectangle';
-  readonly x0: number;
-  readonly y0: number;
   readonly wx: number;
   readonly wy: number;
-  readonly thetaDeg: number;
-  readonly intensity: number;
-  private readonly cos: number;
-  private readonly sin: number;
-  private readonly halfHeight: number;
+  protected readonly halfHeight: number;
 
   constructor(p: RectangleParams) {
-    checkFinite(p.x0, 'rectangle.x0');
-    checkFinite(p.y0, 'rectangle.y0');
-    checkFinite(p.wx, 'rectangle.wx', true);
-    checkFinite(p.wy, 'rectangle.wy', true);
-    checkFinite(p.thetaDeg ?? 0, 'rectangle.thetaDeg');
-    checkFinite(p.intensity, 'rectangle.intensity');
-    this.x0 = p.x0;
-    this.y0 = p.y0;
+    super('rectangle', p, [
+      ['wx', p.wx],
+      ['wy', p.wy],
+    ]);
     this.wx = p.wx;
     this.wy = p.wy;
-    this.thetaDeg = p.thetaDeg ?? 0;
-    this.intensity = p.intensity;
-    [this.cos, this.sin] = degreesCosSin(this.thetaDeg);
     this.halfHeight = 0.5 * (p.wx * Math.abs(this.sin) + p.wy * Math.abs(this.cos));
   }
 
-  contains(x: number, y: number): boolean {
-    const dx = x - this.x0;
-    const dy = y - this.y0;
-    const u = dx * this.cos + dy * this.sin;
-    const v = -dx * this.sin + dy * this.cos;
+  protected containsLocal(u: number, v: number): boolean {
     return Math.abs(u) <= 0.5 * this.wx && Math.abs(v) <= 0.5 * this.wy;
-  }
-
-  yRange(out: Float64Array): void {
-    out[0] = this.y0 - this.halfHeight;
-    out[1] = this.y0 + this.halfHeight;
   }
 
   spanAtY(y: number, out: Float64Array): boolean {

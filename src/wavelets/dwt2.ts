@@ -1,6 +1,6 @@
 import type { ComplexImage } from '../core/complex-image.ts';
 import { daubechiesFilters, type WaveletFilters } from './daubechies-filters.ts';
-import { analyzeLine, synthesizeLine } from './wavelet-line.ts';
+import { analyzeLine, type LineKernel, synthesizeLine } from './wavelet-line.ts';
 
 /**
  * Separable multi-level 2D discrete wavelet transform with periodic boundary (PyWavelets'
@@ -44,69 +44,71 @@ export function maxDwtLevels(nx: number, ny: number): number {
 }
 
 /**
- * W x on raw interleaved arrays: `target` (may be `source`) receives the coefficients of the
- * ny×nx complex `source` in the Mallat layout.
+ * A whole multi-level transform on raw interleaved arrays: `target` (may be `source`) receives the
+ * transform of the ny×nx complex `source`.
  */
-export function forwardDwt2(
+export type Dwt2Transform = (
   target: Float64Array,
   source: Float64Array,
   nx: number,
   ny: number,
   filters: WaveletFilters,
   levels: number,
-): void {
-  checkDwtShape(nx, ny, levels);
-  if (target !== source) target.set(source.subarray(0, 2 * nx * ny));
+) => void;
+
+/** W x: the coefficients in the Mallat layout (rows, then columns, finest level first). */
+export const forwardDwt2: Dwt2Transform = (target, source, nx, ny, filters, levels) => {
+  copyChecked(target, source, nx, ny, levels);
   for (let level = 0; level < levels; level++) {
-    const w = nx >> level;
-    const h = ny >> level;
-    for (let row = 0; row < h; row++) analyzeLine(target, target, row * nx, w, 1, filters);
-    for (let col = 0; col < w; col++) analyzeLine(target, target, col, h, nx, filters);
+    transformBlock(analyzeLine, target, nx, ny, level, 'rows', filters);
+    transformBlock(analyzeLine, target, nx, ny, level, 'columns', filters);
   }
-}
+};
 
 /** Wᴴ c = W⁻¹ c: the inverse of `forwardDwt2` (columns, then rows, coarsest level first). */
-export function inverseDwt2(
-  target: Float64Array,
-  source: Float64Array,
-  nx: number,
-  ny: number,
-  filters: WaveletFilters,
-  levels: number,
-): void {
+export const inverseDwt2: Dwt2Transform = (target, source, nx, ny, filters, levels) => {
+  copyChecked(target, source, nx, ny, levels);
+  for (let level = levels - 1; level >= 0; level--) {
+    transformBlock(synthesizeLine, target, nx, ny, level, 'columns', filters);
+    transformBlock(synthesizeLine, target, nx, ny, level, 'rows', filters);
+  }
+};
+
+function copyChecked(target: Float64Array, source: Float64Array, nx: number, ny: number, levels: number) {
   checkDwtShape(nx, ny, levels);
   if (target !== source) target.set(source.subarray(0, 2 * nx * ny));
-  for (let level = levels - 1; level >= 0; level--) {
-    const w = nx >> level;
-    const h = ny >> level;
-    for (let col = 0; col < w; col++) synthesizeLine(target, target, col, h, nx, filters);
-    for (let row = 0; row < h; row++) synthesizeLine(target, target, row * nx, w, 1, filters);
-  }
+}
+
+/** One line kernel over every row, or every column, of the level's top-left (ny/2ˡ)×(nx/2ˡ) block. */
+function transformBlock(
+  kernel: LineKernel,
+  data: Float64Array,
+  nx: number,
+  ny: number,
+  level: number,
+  lines: 'rows' | 'columns',
+  filters: WaveletFilters,
+): void {
+  const w = nx >> level;
+  const h = ny >> level;
+  if (lines === 'rows') for (let row = 0; row < h; row++) kernel(data, data, row * nx, w, 1, filters);
+  else for (let col = 0; col < w; col++) kernel(data, data, col, h, nx, filters);
+}
+
+/** The image-level form of a raw transform: a new image unless `target` is given (it may be `source`). */
+function onImages(transform: Dwt2Transform) {
+  return (source: ComplexImage, wavelet: string, levels: number, target?: ComplexImage): ComplexImage => {
+    const out = checkedTarget(source, target);
+    transform(out.data, source.data, source.nx, source.ny, daubechiesFilters(wavelet), levels);
+    return out;
+  };
 }
 
 /** Coefficients of a complex image (new image unless `target` is given; it may be `source`). */
-export function dwt2(
-  source: ComplexImage,
-  wavelet: string,
-  levels: number,
-  target?: ComplexImage,
-): ComplexImage {
-  const out = checkedTarget(source, target);
-  forwardDwt2(out.data, source.data, source.nx, source.ny, daubechiesFilters(wavelet), levels);
-  return out;
-}
+export const dwt2 = onImages(forwardDwt2);
 
 /** The image whose `dwt2` is `source`. */
-export function idwt2(
-  source: ComplexImage,
-  wavelet: string,
-  levels: number,
-  target?: ComplexImage,
-): ComplexImage {
-  const out = checkedTarget(source, target);
-  inverseDwt2(out.data, source.data, source.nx, source.ny, daubechiesFilters(wavelet), levels);
-  return out;
-}
+export const idwt2 = onImages(inverseDwt2);
 
 function checkedTarget(source: ComplexImage, target: ComplexImage | undefined): ComplexImage {
   if (!target) return { nx: source.nx, ny: source.ny, data: new Float64Array(2 * source.nx * source.ny) };

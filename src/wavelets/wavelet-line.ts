@@ -14,22 +14,19 @@ import type { WaveletFilters } from './daubechies-filters.ts';
  * is reduced mod size as often as needed, so lines shorter than the filter wrap around repeatedly,
  * as PyWavelets does.
  */
-export function analyzeLine(
+export type LineKernel = (
   target: Float64Array,
   source: Float64Array,
   start: number,
   size: number,
   step: number,
   filters: WaveletFilters,
-): void {
-  const f = filters.length;
-  const h = filters.recLo;
-  const g = filters.recHi;
-  const half = size >> 1;
-  const offset = 1 - (f >> 1);
+) => void;
+
+/** The analysis of one line (see `LineKernel`). */
+export const analyzeLine: LineKernel = (target, source, start, size, step, filters) => {
+  const { f, h, g, half, offset, extLength, ext } = lineSetup(size, filters);
   // Periodic extension ext[j] = x[(j + offset) mod size], j < size + f − 2, so the taps run unwrapped.
-  const ext = scratch(size + f);
-  const extLength = size + f - 2;
   let i = ((offset % size) + size) % size;
   for (let j = 0; j < extLength; j++) {
     const src = 2 * (start + i * step);
@@ -58,28 +55,15 @@ export function analyzeLine(
     target[hi] = dRe;
     target[hi + 1] = dIm;
   }
-}
+};
 
 /**
  * The inverse (= adjoint) of `analyzeLine`: reads a at positions 0 … size/2 − 1 and d at
  * size/2 … size − 1 of the line in `source` and writes x to the line in `target` (may be `source`):
  *   x[(2o + m + 1 − F/2) mod size] += h[m]·a[o] + g[m]·d[o].
  */
-export function synthesizeLine(
-  target: Float64Array,
-  source: Float64Array,
-  start: number,
-  size: number,
-  step: number,
-  filters: WaveletFilters,
-): void {
-  const f = filters.length;
-  const h = filters.recLo;
-  const g = filters.recHi;
-  const half = size >> 1;
-  const offset = 1 - (f >> 1);
-  const extLength = size + f - 2;
-  const ext = scratch(size + f);
+export const synthesizeLine: LineKernel = (target, source, start, size, step, filters) => {
+  const { f, h, g, half, offset, extLength, ext } = lineSetup(size, filters);
   ext.fill(0, 0, 2 * extLength);
   for (let o = 0; o < half; o++) {
     const lo = 2 * (start + o * step);
@@ -107,6 +91,23 @@ export function synthesizeLine(
     target[dst] = re;
     target[dst + 1] = im;
   }
+};
+
+/**
+ * What both kernels need for one line: F taps, h = recLo, g = recHi, the offset 1 − F/2 and the
+ * scratch periodic extension of size + F − 2 complex numbers.
+ */
+function lineSetup(size: number, filters: WaveletFilters) {
+  const f = filters.length;
+  return {
+    f,
+    h: filters.recLo,
+    g: filters.recHi,
+    half: size >> 1,
+    offset: 1 - (f >> 1),
+    extLength: size + f - 2,
+    ext: scratch(size + f),
+  };
 }
 
 // One scratch line per length (complex, interleaved); the kernels are synchronous, so one suffices.

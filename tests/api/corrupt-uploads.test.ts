@@ -3,7 +3,7 @@ import { gunzipSync, gzipSync } from 'node:zlib';
 import { describe, expect, it } from 'vitest';
 import { SeededRandom } from '../../src/core/random.ts';
 import { debianFile } from '../io/debian-files.ts';
-import { sharedTestApp } from './helpers.ts';
+import { sharedTestApp, uploadFile } from './helpers.ts';
 
 /**
  * Seeded corruption of real files: every damaged upload must end in a 2xx or a 4xx problem+json
@@ -81,7 +81,7 @@ describe('seeded corrupt uploads (15 files × 14 mutations, seed 2026): no 5xx, 
       const seen: Record<number, number> = {};
       for (const mutation of mutations(random, 14, source.gzip === true)) {
         const bytes = mutation.apply(original);
-        const res = await t.http().post('/v1/images').attach('file', bytes, 'upload.bin');
+        const res = await uploadFile(t, bytes, 'upload.bin');
         seen[res.status] = (seen[res.status] ?? 0) + 1;
         const context = `${source.name}, ${mutation.label}: ${res.status} ${res.text.slice(0, 300)}`;
         expect(res.status, context).toBeLessThan(500);

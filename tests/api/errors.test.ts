@@ -43,14 +43,19 @@ describe('RFC 9457 problem details for every class of bad input (docs/references
     await expectDocumented('POST', '/v1/scan-time', res);
   });
 
-  it('422 from an engine ValidationError (R too high for the matrix) names the field', async () => {
-    await postProblem(
-      t,
-      '/v1/scan-time',
-      { ...scanTime, sampling: { pattern: 'cartesian-uniform', acceleration: 100 } },
-      422,
+  it.each([
+    [
+      '422 from an engine ValidationError (R too high for the matrix) names the field',
+      { sampling: { pattern: 'cartesian-uniform', acceleration: 100 } },
       'sampling.acceleration',
-    );
+    ],
+    [
+      '422 for an unknown discriminator value (sampling.pattern)',
+      { sampling: { pattern: 'spiral', acceleration: 2 } },
+      'sampling.pattern',
+    ],
+  ])('%s', async (_title, change, field) => {
+    await postProblem(t, '/v1/scan-time', { ...scanTime, ...change }, 422, field);
   });
 
   it('422 limit problem beyond the configured matrix limit (128 here)', async () => {
@@ -63,16 +68,6 @@ describe('RFC 9457 problem details for every class of bad input (docs/references
     );
     expect(problem.type).toBe('/problems/limit-exceeded');
     expect(problem.errors[0].allowed).toBe('≤ 128');
-  });
-
-  it('422 for an unknown discriminator value (sampling.pattern)', async () => {
-    await postProblem(
-      t,
-      '/v1/scan-time',
-      { ...scanTime, sampling: { pattern: 'spiral', acceleration: 2 } },
-      422,
-      'sampling.pattern',
-    );
   });
 
   it('404 unknown route and unknown id', async () => {

@@ -108,6 +108,26 @@ function specPathFor(spec: OpenApiDocument, url: string): string {
 }
 
 /**
+ * POSTs `file` under the multipart field "file" with the client's `filename` to an upload route
+ * (default /v1/images); the request can still be awaited or extended.
+ */
+export function uploadFile(t: Pick<TestApp, 'http'>, file: Buffer, filename: string, path = '/v1/images') {
+  return t.http().post(path).attach('file', file, filename);
+}
+
+/** GET the resource a 201 named in Location: 200, documented, and the very body the POST answered. */
+export async function expectStoredCopy(
+  t: Pick<TestApp, 'http'>,
+  created: { headers: Record<string, string>; body: unknown },
+): Promise<void> {
+  const location = created.headers.location;
+  const stored = await t.http().get(location);
+  expect(stored.status).toBe(200);
+  await expectDocumented('GET', location, stored);
+  expect(stored.body).toEqual(created.body);
+}
+
+/**
  * Asserts that a response is documented: its status and media type appear under the operation
  * in openapi.yaml, and a JSON body validates against that schema with ajv's JSON Schema 2020-12
  * (the dialect of OpenAPI 3.1, docs/references.md §10.6).

@@ -2,7 +2,15 @@ import { readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { debianFile } from '../io/debian-files.ts';
-import { expectDocumented, expectProblem, postProblem, sharedTestApp, testApp } from './helpers.ts';
+import {
+  expectDocumented,
+  expectProblem,
+  expectStoredCopy,
+  postProblem,
+  sharedTestApp,
+  testApp,
+  uploadFile,
+} from './helpers.ts';
 
 const fixture = (name: string) => readFileSync(new URL(`../fixtures/io/${name}`, import.meta.url));
 
@@ -10,27 +18,23 @@ describe('POST/GET/DELETE /v1/images', () => {
   const t = sharedTestApp({ limits: { maxUploadBytes: 200_000, maxMatrixSide: 256 } });
 
   it('uploads MR_small.dcm: 201, Location, 64×64 DICOM with the docs/references.md §12.1 statistics', async () => {
-    const res = await t
-      .http()
-      .post('/v1/images')
-      .attach('file', debianFile('pydicom', 'MR_small.dcm'), 'scan.dcm');
+    const res = await uploadFile(t, debianFile('pydicom', 'MR_small.dcm'), 'scan.dcm');
     expect(res.status).toBe(201);
     await expectDocumented('POST', '/v1/images', res);
     expect(res.headers.location).toBe(`/v1/images/${res.body.id}`);
     expect(res.body).toMatchObject({ nx: 64, ny: 64, format: 'dicom' });
     // min 127, max 2145, mean 518.88134765625 (docs/references.md §12.1, pydicom)
     expect(res.body.stats).toEqual({ min: 127, max: 2145, mean: 518.88134765625 });
-    const got = await t.http().get(res.headers.location);
-    expect(got.status).toBe(200);
-    await expectDocumented('GET', res.headers.location, got);
-    expect(got.body).toEqual(res.body);
+    await expectStoredCopy(t, res);
   });
 
   it('uploads NIfTI with a slice choice (functional.nii slice 0: 17×21, scl scaling noted)', async () => {
-    const res = await t
-      .http()
-      .post('/v1/images?slice=0&volume=3')
-      .attach('file', debianFile('nibabel', 'functional.nii'), 'f.nii');
+    const res = await uploadFile(
+      t,
+      debianFile('nibabel', 'functional.nii'),
+      'f.nii',
+      '/v1/images?slice=0&volume=3',
+    );
     expect(res.status).toBe(201);
     expect(res.body).toMatchObject({ nx: 17, ny: 21, format: 'nifti' });
     expect(res.body.details).toMatchObject({ slice: 0, volume: 3, sclSlope: 0.07540696859359741 });
@@ -55,16 +59,16 @@ describe('POST/GET/DELETE /v1/images', () => {
   });
 
   it('uploads 16-bit PNG and colour PNG (luminance noted)', async () => {
-    const grey = await t.http().post('/v1/images').attach('file', fixture('ramp16.png'), 'r.png');
+    const grey = await uploadFile(t, fixture('ramp16.png'), 'r.png');
     expect(grey.status).toBe(201);
     expect(grey.body.stats.max).toBe(65246); // 34·1919, tests/reference/io_raster_facts.py
-    const colour = await t.http().post('/v1/images').attach('file', fixture('astronaut64.png'), 'a.png');
+    const colour = await uploadFile(t, fixture('astronaut64.png'), 'a.png');
     expect(colour.status).toBe(201);
     expect(colour.body.notes.join(' ')).toMatch(/luminance/);
   });
 
   it('DELETE removes the image: 204, then GET is a 404 problem', async () => {
-    const res = await t.http().post('/v1/images').attach('file', fixture('camera64.png'), 'c.png');
+    const res = await uploadFile(t, fixture('camera64.png'), 'c.png');
     const del = await t.http().delete(`/v1/images/${res.body.id}`);
     expect(del.status).toBe(204);
     expectProblem(await t.http().get(`/v1/images/${res.body.id}`), 404, 'id');
@@ -73,7 +77,7 @@ describe('POST/GET/DELETE /v1/images', () => {
 
   it('JPEG-LS / JPEG 2000 DICOM → 415 naming the transfer syntax (docs/references.md §12.1)', async () => {
     for (const name of ['MR_small_jpeg_ls_lossless.dcm', 'MR_small_jp2klossless.dcm']) {
-      const res = await t.http().post('/v1/images').attach('file', debianFile('pydicom', name), 'x.dcm');
+      const res = await uploadFile(t, debianFile('pydicom', name), 'x.dcm');
       const problem = expectProblem(res, 415, 'file');
       expect(problem.detail).toMatch(/1\.2\.840\.10008\.1\.2\.4\.(80|90)/);
       await expectDocumented('POST', '/v1/images', res);
@@ -87,31 +91,26 @@ describe('POST/GET/DELETE /v1/images', () => {
       [Buffer.from('not an image'), 'x.txt'],
       [fixture('truncated.png'), 't.png'],
     ] as const) {
-      expectProblem(await t.http().post('/v1/images').attach('file', bytes, name), 415, 'file');
+      expectProblem(await uploadFile(t, bytes, name), 415, 'file');
     }
   });
 
   it('frame / slice out of range → 422 naming the field; negative → 422 from the schema', async () => {
-    const frame = await t
-      .http()
-      .post('/v1/images?frame=3')
-      .attach('file', debianFile('pydicom', 'MR_small.dcm'), 'm.dcm');
+    const frame = await uploadFile(t, debianFile('pydicom', 'MR_small.dcm'), 'm.dcm', '/v1/images?frame=3');
     expect(expectProblem(frame, 422, 'frame').errors[0].allowed).toBe('0 ≤ frame ≤ 0');
-    const slice = await t
-      .http()
-      .post('/v1/images?slice=99')
-      .attach('file', debianFile('nibabel', 'anatomical.nii'), 'a.nii');
-    expectProblem(slice, 422, 'slice');
-    expectProblem(
-      await t.http().post('/v1/images?slice=-1').attach('file', fixture('camera64.png'), 'c.png'),
-      422,
-      'slice',
+    const slice = await uploadFile(
+      t,
+      debianFile('nibabel', 'anatomical.nii'),
+      'a.nii',
+      '/v1/images?slice=99',
     );
+    expectProblem(slice, 422, 'slice');
+    expectProblem(await uploadFile(t, fixture('camera64.png'), 'c.png', '/v1/images?slice=-1'), 422, 'slice');
   });
 
   it('upload larger than the configured 200 000-byte limit → 413 problem on field "file"', async () => {
     const big = Buffer.alloc(250_000, 1);
-    expectProblem(await t.http().post('/v1/images').attach('file', big, 'big.bin'), 413, 'file');
+    expectProblem(await uploadFile(t, big, 'big.bin'), 413, 'file');
   });
 
   it('no file part → 400; not multipart → 415', async () => {
@@ -124,10 +123,7 @@ describe('an image larger than maxMatrixSide is refused with 422 (limit)', () =>
   it('MR_small (64×64) with maxMatrixSide 32', async () => {
     const t = await testApp({ limits: { maxMatrixSide: 32 } });
     try {
-      const res = await t
-        .http()
-        .post('/v1/images')
-        .attach('file', debianFile('pydicom', 'MR_small.dcm'), 'm.dcm');
+      const res = await uploadFile(t, debianFile('pydicom', 'MR_small.dcm'), 'm.dcm');
       const problem = expectProblem(res, 422, 'file');
       expect(problem.type).toBe('/problems/limit-exceeded');
       expect(problem.errors[0].allowed).toBe('≤ 32 per side');
@@ -148,13 +144,13 @@ describe('no patient identifier from a DICOM header is ever stored, logged or re
     const t = await testApp({ logger: { level: 'trace' } });
     const responses: string[] = [];
     // Even the client's file name carries the patient name: it must not be kept either.
-    const upload = await t.http().post('/v1/images').attach('file', file, 'CompressedSamples^MR1-4MR1.dcm');
+    const upload = await uploadFile(t, file, 'CompressedSamples^MR1-4MR1.dcm');
     expect(upload.status).toBe(201);
     responses.push(upload.text, JSON.stringify(upload.headers));
     const info = await t.http().get(`/v1/images/${upload.body.id}`);
     responses.push(info.text, JSON.stringify(info.headers));
     // A second copy with a bad frame: the error path must be clean as well.
-    const bad = await t.http().post('/v1/images?frame=7').attach('file', file, 'CompressedSamples^MR1.dcm');
+    const bad = await uploadFile(t, file, 'CompressedSamples^MR1.dcm', '/v1/images?frame=7');
     expect(bad.status).toBe(422);
     responses.push(bad.text);
     await t.close();
@@ -175,7 +171,7 @@ describe('a NIfTI header with a bad field → 422 naming it (nifti1.h, NIfTI Dat
     bytes.writeFloatBE(-4, 108);
     const t = await testApp();
     try {
-      const res = await t.http().post('/v1/images').attach('file', bytes, 'a.nii');
+      const res = await uploadFile(t, bytes, 'a.nii');
       const problem = expectProblem(res, 422, 'file.vox_offset');
       expect(problem.type).toBe('/problems/out-of-range');
       expect(problem.errors[0].allowed).toMatch(/≥ 352/);

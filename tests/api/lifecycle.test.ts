@@ -404,27 +404,21 @@ describe('a data folder from the previous version keeps working', () => {
     old
       .prepare('INSERT INTO images VALUES (?, ?, ?, 2, 2, ?)')
       .run('img-1', '2026-01-01T00:00:00.000Z', '{}', pixels);
-    old
-      .prepare(
-        `INSERT INTO plans (id, created_at, updated_at, status, body, total, done) VALUES (?, ?, ?, 'done', ?, 1, 1)`,
-      )
-      .run(
-        'plan-1',
+    const insertDonePlan = old.prepare(
+      `INSERT INTO plans (id, created_at, updated_at, status, body, total, done) VALUES (?, ?, ?, 'done', ?, 1, 1)`,
+    );
+    for (const [id, source] of [
+      ['plan-1', { imageId: 'img-1' }],
+      ['plan-2', { phantom: 'shepp-logan' }],
+    ] as const) {
+      insertDonePlan.run(
+        id,
         '2026-01-01T00:00:01.000Z',
         '2026-01-01T00:00:02.000Z',
-        JSON.stringify({ source: { imageId: 'img-1' } }),
+        JSON.stringify({ source }),
       );
+    }
     old.prepare('INSERT INTO plan_cells VALUES (?, 0, ?)').run('plan-1', '{"ok":true}');
-    old
-      .prepare(
-        `INSERT INTO plans (id, created_at, updated_at, status, body, total, done) VALUES (?, ?, ?, 'done', ?, 1, 1)`,
-      )
-      .run(
-        'plan-2',
-        '2026-01-01T00:00:01.000Z',
-        '2026-01-01T00:00:02.000Z',
-        JSON.stringify({ source: { phantom: 'shepp-logan' } }),
-      );
     old.close();
 
     const store = new Store(dataDir);

@@ -17,16 +17,22 @@ const missingImage = '00000000-0000-0000-0000-000000000000';
 describe('plan sources are validated at submit', () => {
   const t = sharedTestApp();
 
-  it('unknown phantom: 422 naming source.phantom, listing the known ones, as the reconstruction route', async () => {
-    const body = { source: { phantom: 'no-such-phantom' } };
-    const fromPlan = await postProblem(t, '/v1/plans', { ...plan, ...body }, 422, 'source.phantom');
+  /** The same source change posted as a plan and as a reconstruction: the problem each route answers. */
+  async function onBothRoutes(body: object, status: number, field: string) {
+    const fromPlan = await postProblem(t, '/v1/plans', { ...plan, ...body }, status, field);
     const fromRecon = await postProblem(
       t,
       '/v1/reconstructions',
       { ...reconstruction, ...body },
-      422,
-      'source.phantom',
+      status,
+      field,
     );
+    return { fromPlan, fromRecon };
+  }
+
+  it('unknown phantom: 422 naming source.phantom, listing the known ones, as the reconstruction route', async () => {
+    const body = { source: { phantom: 'no-such-phantom' } };
+    const { fromPlan, fromRecon } = await onBothRoutes(body, 422, 'source.phantom');
     expect(fromPlan.errors[0]).toEqual(fromRecon.errors[0]);
     expect(fromPlan.errors[0].allowed).toContain('shepp-logan');
     // Nothing was queued.
@@ -35,14 +41,7 @@ describe('plan sources are validated at submit', () => {
 
   it('unknown image id: 404 naming source.imageId on both routes', async () => {
     const body = { source: { imageId: missingImage } };
-    const fromPlan = await postProblem(t, '/v1/plans', { ...plan, ...body }, 404, 'source.imageId');
-    const fromRecon = await postProblem(
-      t,
-      '/v1/reconstructions',
-      { ...reconstruction, ...body },
-      404,
-      'source.imageId',
-    );
+    const { fromPlan, fromRecon } = await onBothRoutes(body, 404, 'source.imageId');
     expect(fromPlan.errors).toEqual(fromRecon.errors);
   });
 

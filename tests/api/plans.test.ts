@@ -4,6 +4,7 @@ import { describe, expect, it } from 'vitest';
 import { decodeImage } from '../../src/io/decode-image.ts';
 import { runPlan } from '../../src/plan/run-plan.ts';
 import { debianFile } from '../io/debian-files.ts';
+import { smallPlanBody } from '../plan/small-plan.ts';
 import {
   expectDocumented,
   expectProblem,
@@ -11,6 +12,7 @@ import {
   sharedTestApp,
   type TestApp,
   testApp,
+  uploadFile,
 } from './helpers.ts';
 
 // Source for the checks below: the v1 HTTP contract of docs/design.md §4 (routes, status codes, 202 jobs,
@@ -18,15 +20,11 @@ import {
 // response validated against openapi.yaml (OpenAPI 3.1, docs/references.md §10.6) by expectDocumented.
 
 /** A small sweep: 32² phantom, 1 pattern × 2 R × 2 methods × 2 seeds + reference = 10 cells. */
-const smallPlan = {
-  source: { phantom: 'shepp-logan-modified' },
-  matrix: { nx: 32, ny: 32 },
-  protocol: { trMs: 500 },
+const smallPlan = smallPlanBody({
   patterns: [{ pattern: 'cartesian-random', acs: 4 }],
   accelerations: [2, 3],
   methods: [{ name: 'zero-filled' }, { name: 'cs-tv', iterations: 15 }],
-  seeds: 2,
-};
+});
 
 /** Slower cells (more iterations, 48²) so a test can act while the plan runs. */
 const slowPlan = {
@@ -168,10 +166,7 @@ describe('plans as jobs', () => {
   });
 
   it('an uploaded DICOM as the plan source (pixels sent to the workers with each cell)', async () => {
-    const upload = await t
-      .http()
-      .post('/v1/images')
-      .attach('file', debianFile('pydicom', 'MR_small.dcm'), 'm.dcm');
+    const upload = await uploadFile(t, debianFile('pydicom', 'MR_small.dcm'), 'm.dcm');
     const plan = {
       ...smallPlan,
       source: { imageId: upload.body.id },
@@ -193,23 +188,14 @@ describe('plans as jobs', () => {
   });
 
   it('bad plans: wrong types 400, out of range 422, too many cells 422 (limit), unknown image 404', async () => {
-    await postProblem(t, '/v1/plans', { ...smallPlan, seeds: 'three' }, 400, 'seeds');
-    await postProblem(t, '/v1/plans', { ...smallPlan, accelerations: [0.5] }, 422, 'accelerations[0]');
-    const many = await postProblem(t, '/v1/plans', { ...smallPlan, seeds: 100 }, 422);
+    const refused = (body: object, status: number, field?: string) =>
+      postProblem(t, '/v1/plans', body, status, field);
+    await refused({ ...smallPlan, seeds: 'three' }, 400, 'seeds');
+    await refused({ ...smallPlan, accelerations: [0.5] }, 422, 'accelerations[0]');
+    const many = await refused({ ...smallPlan, seeds: 100 }, 422);
     expect(many.type).toBe('/problems/limit-exceeded');
-    await postProblem(
-      t,
-      '/v1/plans',
-      { ...smallPlan, source: { imageId: 'missing' } },
-      404,
-      'source.imageId',
-    );
-    await postProblem(
-      t,
-      '/v1/plans',
-      { ...smallPlan, patterns: [{ pattern: 'cartesian-uniform' }], accelerations: [40] },
-      422,
-    );
+    await refused({ ...smallPlan, source: { imageId: 'missing' } }, 404, 'source.imageId');
+    await refused({ ...smallPlan, patterns: [{ pattern: 'cartesian-uniform' }], accelerations: [40] }, 422);
   });
 });
 

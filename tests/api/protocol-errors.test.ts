@@ -9,12 +9,25 @@ import { rawRequest } from './raw-http.ts';
 describe('errors raised by the router and by the HTTP parser are RFC 9457 problems', () => {
   const t = sharedTestApp();
 
-  it('400 for a URL that is not valid percent-encoding (RFC 3986 §2.1), naming url', async () => {
-    const res = await rawRequest(
-      t.app,
+  it.each([
+    [
+      '400 for a URL that is not valid percent-encoding (RFC 3986 §2.1), naming url',
       'GET /v1/images/%zz HTTP/1.1\r\nHost: x\r\nConnection: close\r\n\r\n',
-    );
-    expectProblem(res, 400, 'url');
+      'url',
+    ],
+    [
+      '400 for a Content-Length that is not a number, written by the clientError handler',
+      'POST /v1/scan-time HTTP/1.1\r\nHost: x\r\nContent-Type: application/json\r\nContent-Length: ten\r\n\r\n{}',
+      'request',
+    ],
+    [
+      '400 for two different Content-Length values (RFC 9112 §6.3)',
+      'POST /v1/scan-time HTTP/1.1\r\nHost: x\r\nContent-Type: application/json\r\n' +
+        'Content-Length: 2\r\nContent-Length: 3\r\n\r\n{}',
+      'request',
+    ],
+  ])('%s', async (_title, raw, field) => {
+    expectProblem(await rawRequest(t.app, raw), 400, field);
   });
 
   it('414 for a path segment longer than the ids the service issues, naming url', async () => {
@@ -49,23 +62,6 @@ describe('errors raised by the router and by the HTTP parser are RFC 9457 proble
     );
     const problem = expectProblem(res, 431, 'headers');
     expect(problem.type).toBe('/problems/headers-too-large');
-  });
-
-  it('400 for a Content-Length that is not a number, written by the clientError handler', async () => {
-    const res = await rawRequest(
-      t.app,
-      'POST /v1/scan-time HTTP/1.1\r\nHost: x\r\nContent-Type: application/json\r\nContent-Length: ten\r\n\r\n{}',
-    );
-    expectProblem(res, 400, 'request');
-  });
-
-  it('400 for two different Content-Length values (RFC 9112 §6.3)', async () => {
-    const res = await rawRequest(
-      t.app,
-      'POST /v1/scan-time HTTP/1.1\r\nHost: x\r\nContent-Type: application/json\r\n' +
-        'Content-Length: 2\r\nContent-Length: 3\r\n\r\n{}',
-    );
-    expectProblem(res, 400, 'request');
   });
 
   it('the service keeps answering after the refused connections', async () => {

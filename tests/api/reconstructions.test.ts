@@ -3,7 +3,16 @@ import { describe, expect, it } from 'vitest';
 import { decodeImage } from '../../src/io/decode-image.ts';
 import { runReconstruction } from '../../src/pipeline/run-reconstruction.ts';
 import { debianFile } from '../io/debian-files.ts';
-import { binary, expectDocumented, expectProblem, postProblem, sharedTestApp, testApp } from './helpers.ts';
+import {
+  binary,
+  expectDocumented,
+  expectProblem,
+  expectStoredCopy,
+  postProblem,
+  sharedTestApp,
+  testApp,
+  uploadFile,
+} from './helpers.ts';
 
 // Source for the checks below: the v1 HTTP contract of docs/design.md §4 (routes, status codes, 202 jobs,
 // persistence under DATA_DIR), problem bodies per RFC 9457 (docs/references.md §10.4) and every documented
@@ -41,10 +50,7 @@ describe('POST /v1/reconstructions (runs on the worker pool)', () => {
       const meta = await sharp(png.body).metadata();
       expect([meta.format, meta.width, meta.height]).toEqual(['png', 32, 32]);
     }
-    const stored = await t.http().get(res.headers.location);
-    expect(stored.status).toBe(200);
-    await expectDocumented('GET', res.headers.location, stored);
-    expect(stored.body).toEqual(res.body);
+    await expectStoredCopy(t, res);
   });
 
   it('fully sampled zero-filled equals the reference: NRMSE 0, SSIM 1, PSNR not finite (null) — by definition (docs/design.md §3.6)', async () => {
@@ -64,10 +70,7 @@ describe('POST /v1/reconstructions (runs on the worker pool)', () => {
   });
 
   it('an uploaded DICOM (MR_small.dcm, 64×64) as source', async () => {
-    const upload = await t
-      .http()
-      .post('/v1/images')
-      .attach('file', debianFile('pydicom', 'MR_small.dcm'), 'm.dcm');
+    const upload = await uploadFile(t, debianFile('pydicom', 'MR_small.dcm'), 'm.dcm');
     const res = await t
       .http()
       .post('/v1/reconstructions')
@@ -86,35 +89,17 @@ describe('POST /v1/reconstructions (runs on the worker pool)', () => {
   });
 
   it('errors: unknown imageId 404, iterations above the limit 422 (limit), unknown method 422, wrong type 400', async () => {
-    await postProblem(
-      t,
-      '/v1/reconstructions',
-      { ...request, source: { imageId: 'missing' } },
-      404,
-      'source.imageId',
-    );
-    const limit = await postProblem(
-      t,
-      '/v1/reconstructions',
+    const refused = (body: object, status: number, field?: string) =>
+      postProblem(t, '/v1/reconstructions', body, status, field);
+    await refused({ ...request, source: { imageId: 'missing' } }, 404, 'source.imageId');
+    const limit = await refused(
       { ...request, method: { name: 'cs-tv', iterations: 500 } },
       422,
       'method.iterations',
     );
     expect(limit.type).toBe('/problems/limit-exceeded');
-    await postProblem(
-      t,
-      '/v1/reconstructions',
-      { ...request, method: { name: 'magic' } },
-      422,
-      'method.name',
-    );
-    await postProblem(
-      t,
-      '/v1/reconstructions',
-      { ...request, matrix: { nx: '32', ny: 32 } },
-      400,
-      'matrix.nx',
-    );
+    await refused({ ...request, method: { name: 'magic' } }, 422, 'method.name');
+    await refused({ ...request, matrix: { nx: '32', ny: 32 } }, 400, 'matrix.nx');
     expectProblem(await t.http().get('/v1/reconstructions/nope'), 404, 'id');
   });
 });

@@ -2,7 +2,14 @@ import { crc32, deflateSync } from 'node:zlib';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { debianFile } from '../io/debian-files.ts';
 import { deflatedDicomBomb, gzippedNifti2Bomb } from '../io/inflation-bombs.ts';
-import { expectDocumented, expectProblem, sharedTestApp, type TestApp, testApp } from './helpers.ts';
+import {
+  expectDocumented,
+  expectProblem,
+  sharedTestApp,
+  type TestApp,
+  testApp,
+  uploadFile,
+} from './helpers.ts';
 
 /** A PNG chunk: length, type, data, CRC-32 of type and data (PNG specification, W3C 2003, §5.3). */
 function pngChunk(type: string, data: Buffer): Buffer {
@@ -64,10 +71,7 @@ describe('decompression bombs are refused with 422 limit-exceeded and bounded me
   beforeAll(async () => {
     t = await testApp(); // default limits: 64 MiB uploads, 1024-pixel sides
     // Warm the worker up (modules loaded, deflate path taken once) so that only the bomb is measured.
-    const warm = await t
-      .http()
-      .post('/v1/images')
-      .attach('file', debianFile('pydicom', 'image_dfl.dcm'), 'w.dcm');
+    const warm = await uploadFile(t, debianFile('pydicom', 'image_dfl.dcm'), 'w.dcm');
     expect(warm.status).toBe(201);
   });
   afterAll(async () => t.close());
@@ -75,9 +79,7 @@ describe('decompression bombs are refused with 422 limit-exceeded and bounded me
   it('a 0.3 MB deflated DICOM that would inflate to 400 MiB: 422 on "file", peak growth < 200 MB', async () => {
     const bomb = deflatedDicomBomb(400);
     expect(bomb.length).toBeLessThan(500_000);
-    const { result, rss, arrayBuffers } = await peakGrowth(() =>
-      t.http().post('/v1/images').attach('file', bomb, 'bomb.dcm'),
-    );
+    const { result, rss, arrayBuffers } = await peakGrowth(() => uploadFile(t, bomb, 'bomb.dcm'));
     const problem = expectProblem(result, 422, 'file');
     expect(problem.type).toBe('/problems/limit-exceeded');
     await expectDocumented('POST', '/v1/images', result);
@@ -89,9 +91,7 @@ describe('decompression bombs are refused with 422 limit-exceeded and bounded me
 
   it('a .nii.gz declaring 153 MB of voxels behind 400 MiB of gzip: 422 on "file", peak growth < 200 MB', async () => {
     const bomb = gzippedNifti2Bomb(400, (header) => header.writeBigInt64LE(60000n, 16 + 8 * 3));
-    const { result, rss, arrayBuffers } = await peakGrowth(() =>
-      t.http().post('/v1/images').attach('file', bomb, 'bomb.nii.gz'),
-    );
+    const { result, rss, arrayBuffers } = await peakGrowth(() => uploadFile(t, bomb, 'bomb.nii.gz'));
     expect(expectProblem(result, 422, 'file').type).toBe('/problems/limit-exceeded');
     expect(rss).toBeLessThan(200 * mebibyte);
     expect(arrayBuffers).toBeLessThan(200 * mebibyte);
@@ -100,7 +100,7 @@ describe('decompression bombs are refused with 422 limit-exceeded and bounded me
   it('a .nii.gz with 400 MiB of zeros after a valid image decodes (201) without inflating the zeros', async () => {
     const bomb = gzippedNifti2Bomb(400);
     const { result, rss } = await peakGrowth(() =>
-      t.http().post('/v1/images?slice=0&volume=1').attach('file', bomb, 'padded.nii.gz'),
+      uploadFile(t, bomb, 'padded.nii.gz', '/v1/images?slice=0&volume=1'),
     );
     expect(result.status).toBe(201);
     expect(result.body).toMatchObject({ nx: 32, ny: 20, format: 'nifti' });
@@ -110,7 +110,7 @@ describe('decompression bombs are refused with 422 limit-exceeded and bounded me
   it('a PNG declaring 60000×60000 pixels (a few hundred bytes) → 422 limit-exceeded, not "damaged"', async () => {
     const png = pngDeclaring(60000, 60000);
     expect(png.length).toBeLessThan(1000);
-    const res = await t.http().post('/v1/images').attach('file', png, 'huge.png');
+    const res = await uploadFile(t, png, 'huge.png');
     const problem = expectProblem(res, 422, 'file');
     expect(problem.type).toBe('/problems/limit-exceeded');
     expect(problem.errors[0].message).toContain('60000×60000');
@@ -122,10 +122,7 @@ describe('RLE output is bounded by the matrix limit before it is decoded', () =>
   it('MR_small_RLE.dcm (64×64) with maxMatrixSide 32 → 422 limit-exceeded', async () => {
     const t = await testApp({ limits: { maxMatrixSide: 32 } });
     try {
-      const res = await t
-        .http()
-        .post('/v1/images')
-        .attach('file', debianFile('pydicom', 'MR_small_RLE.dcm'), 'r.dcm');
+      const res = await uploadFile(t, debianFile('pydicom', 'MR_small_RLE.dcm'), 'r.dcm');
       expect(expectProblem(res, 422, 'file').type).toBe('/problems/limit-exceeded');
     } finally {
       await t.close();

@@ -1,8 +1,6 @@
-import { fft2c, ifft2c } from '../../src/core/centered-fft.ts';
-import { createComplexImage } from '../../src/core/complex-image.ts';
 import { fftPlan } from '../../src/core/fft-plan.ts';
-import { SeededRandom } from '../../src/core/random.ts';
-import { type BenchRow, medianMs } from './timing.ts';
+import { randomComplexImage } from '../recon/helpers.ts';
+import { type BenchRow, fftPairMs, medianMs } from './timing.ts';
 
 /**
  * Forward + inverse centred 2D pair. The ratio compares the pair with the bare 1D plan calls it
@@ -16,13 +14,8 @@ export async function benchFft(): Promise<BenchRow[]> {
     [320, 320],
     [512, 512],
   ]) {
-    const rng = new SeededRandom(nx);
-    const image = createComplexImage(nx, ny);
-    for (let i = 0; i < image.data.length; i++) image.data[i] = rng.normal();
-    const pair = await medianMs(() => {
-      fft2c(image, image);
-      ifft2c(image, image);
-    }, 11);
+    const image = randomComplexImage(nx, ny, nx);
+    const pair = await fftPairMs(image);
     const rowIn = new Float64Array(2 * nx);
     const rowOut = new Float64Array(2 * nx);
     const colIn = new Float64Array(2 * ny);

@@ -2,6 +2,7 @@ import { defaultLimits } from '../../src/core/limits.ts';
 import { WorkerPool } from '../../src/jobs/worker-pool.ts';
 import { runPlan } from '../../src/plan/run-plan.ts';
 import { validatePlan } from '../../src/plan/validate-plan.ts';
+import { smallPlanBody } from '../plan/small-plan.ts';
 import { type BenchRow, medianMs } from './timing.ts';
 
 /**
@@ -11,10 +12,8 @@ import { type BenchRow, medianMs } from './timing.ts';
  * repeats); the median column is that run's wall time. Iterations are kept moderate and stated in the note:
  * cs-tv 30, lowrank-hankel 10 (window 9×5, gradient weighting default).
  */
-export const benchPlanBody = {
-  source: { phantom: 'shepp-logan-modified' },
+export const benchPlanBody = smallPlanBody({
   matrix: { nx: 256, ny: 256 },
-  protocol: { trMs: 500 },
   patterns: [
     { pattern: 'cartesian-uniform', acs: 24 },
     { pattern: 'cartesian-random', acs: 24 },
@@ -29,7 +28,7 @@ export const benchPlanBody = {
   seeds: 3,
   noise: { snr: 40 },
   target: { metric: 'ssim', atLeast: 0.9 },
-};
+});
 
 export async function benchPlan(): Promise<BenchRow[]> {
   const validation = await medianMs(() => validatePlan(benchPlanBody), 3, 1);

@@ -2,22 +2,19 @@ import { mkdtempSync, rmSync } from 'node:fs';
 import { availableParallelism, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { buildApp } from '../../src/app.ts';
+import { smallPlanBody } from '../plan/small-plan.ts';
 import type { BenchRow } from './timing.ts';
 
 /** A small sweep: 48² modified Shepp–Logan, 2 patterns × 3 R × 2 methods × seeds (+ reference): 13 cells per seed. */
 function smallPlan(iterations: number) {
-  return {
-    source: { phantom: 'shepp-logan-modified' },
+  return smallPlanBody({
     matrix: { nx: 48, ny: 48 },
-    protocol: { trMs: 500 },
     patterns: [
       { pattern: 'cartesian-random', acs: 8 },
       { pattern: 'poisson-disc', acs: 8 },
     ],
-    accelerations: [2, 3, 4],
     methods: [{ name: 'zero-filled' }, { name: 'cs-tv', iterations }],
-    seeds: 2,
-  };
+  });
 }
 
 async function withServer<T>(workers: number, fn: (base: string) => Promise<T>): Promise<T> {

@@ -1,11 +1,8 @@
-import { fft2c, ifft2c } from '../../src/core/centered-fft.ts';
-import { createComplexImage } from '../../src/core/complex-image.ts';
-import { SeededRandom } from '../../src/core/random.ts';
 import { type CsWaveletOptions, solveCsWavelet } from '../../src/recon/cs-wavelet-solver.ts';
 import { daubechiesFilters } from '../../src/wavelets/daubechies-filters.ts';
 import { forwardDwt2, inverseDwt2 } from '../../src/wavelets/dwt2.ts';
-import { poissonDiscAcquisition } from '../recon/helpers.ts';
-import { type BenchRow, medianMs } from './timing.ts';
+import { poissonDiscAcquisition, randomComplexImage } from '../recon/helpers.ts';
+import { type BenchRow, fftPairMs, medianMs } from './timing.ts';
 
 /**
  * Wavelet cost at 256×256: one 4-level db4 forward + inverse DWT pair against one fft2c + ifft2c
@@ -16,13 +13,8 @@ import { type BenchRow, medianMs } from './timing.ts';
  */
 export async function benchWavelet(): Promise<BenchRow[]> {
   const n = 256;
-  const rng = new SeededRandom(n);
-  const image = createComplexImage(n, n);
-  for (let i = 0; i < image.data.length; i++) image.data[i] = rng.normal();
-  const pair = await medianMs(() => {
-    fft2c(image, image);
-    ifft2c(image, image);
-  }, 11);
+  const image = randomComplexImage(n, n, n);
+  const pair = await fftPairMs(image);
   const filters = daubechiesFilters('db4');
   const coefficients = new Float64Array(image.data.length);
   const dwtPair = await medianMs(() => {

@@ -1,32 +1,17 @@
 import { describe, expect, it } from 'vitest';
 import { coilArrayNoise } from '../../src/coils/coil-array.ts';
 import { CoilNoise, ringCorrelationRange, ringNoiseCovariance } from '../../src/coils/noise-covariance.ts';
+import { adjoint, multiply, rowMajor } from '../../src/core/complex-matrix.ts';
 import { ValidationError } from '../../src/core/errors.ts';
 import { SeededRandom } from '../../src/core/random.ts';
 import { createMultiCoilArray, type MultiCoilArray } from '../../src/encoding/multi-coil.ts';
 
-/** Sample covariance Σ_i n_a,i·conj(n_b,i) / N as interleaved complex C×C. */
+/** Sample covariance Σ_i n_a,i·conj(n_b,i) / N as interleaved complex C×C: X·Xᴴ / N. */
 function sampleCovariance(data: MultiCoilArray): Float64Array {
   const { coils } = data;
   const n = data.nx * data.ny;
-  const out = new Float64Array(2 * coils * coils);
-  for (let a = 0; a < coils; a++) {
-    for (let b = 0; b < coils; b++) {
-      let re = 0;
-      let im = 0;
-      for (let i = 0; i < n; i++) {
-        const ar = data.data[2 * (a * n + i)];
-        const ai = data.data[2 * (a * n + i) + 1];
-        const br = data.data[2 * (b * n + i)];
-        const bi = data.data[2 * (b * n + i) + 1];
-        re += ar * br + ai * bi;
-        im += ai * br - ar * bi;
-      }
-      out[2 * (a * coils + b)] = re / n;
-      out[2 * (a * coils + b) + 1] = im / n;
-    }
-  }
-  return out;
+  const x = rowMajor(data.data, n);
+  return multiply(x, adjoint(x), coils, n, coils).map((v) => v / n);
 }
 
 describe('receiver noise correlated across coils', () => {

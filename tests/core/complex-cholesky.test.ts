@@ -6,42 +6,14 @@ import {
   solveLower,
   solveLowerConjugateTranspose,
 } from '../../src/core/complex-cholesky.ts';
+import { adjoint, multiply, rowMajor } from '../../src/core/complex-matrix.ts';
 import { SeededRandom } from '../../src/core/random.ts';
+import { maxAbsDifference } from '../error-measures.ts';
+import { identity, randomHpd } from './complex-matrices.ts';
 
-/** C = A·B for interleaved complex n×n. */
-function multiply(a: Float64Array, b: Float64Array, n: number, conjugateB = false): Float64Array {
-  const out = new Float64Array(2 * n * n);
-  for (let i = 0; i < n; i++) {
-    for (let j = 0; j < n; j++) {
-      let re = 0;
-      let im = 0;
-      for (let k = 0; k < n; k++) {
-        const ar = a[2 * (i * n + k)];
-        const ai = a[2 * (i * n + k) + 1];
-        // B or Bᴴ: (Bᴴ)_kj = conj(B_jk)
-        const br = conjugateB ? b[2 * (j * n + k)] : b[2 * (k * n + j)];
-        const bi = conjugateB ? -b[2 * (j * n + k) + 1] : b[2 * (k * n + j) + 1];
-        re += ar * br - ai * bi;
-        im += ar * bi + ai * br;
-      }
-      out[2 * (i * n + j)] = re;
-      out[2 * (i * n + j) + 1] = im;
-    }
-  }
-  return out;
-}
-
-/** A random Hermitian positive definite matrix G·Gᴴ + n·I. */
-function randomHpd(n: number, seed: number): Float64Array {
-  const rng = new SeededRandom(seed);
-  const g = Float64Array.from({ length: 2 * n * n }, () => rng.normal());
-  const a = multiply(g, g, n, true);
-  for (let i = 0; i < n; i++) a[2 * (i * n + i)] += n;
-  return a;
-}
-
-const maxDiff = (a: Float64Array, b: Float64Array) =>
-  a.reduce((m, v, i) => Math.max(m, Math.abs(v - b[i])), 0);
+/** C = A·B, or A·Bᴴ, for interleaved complex n×n. */
+const product = (a: Float64Array, b: Float64Array, n: number, conjugateB = false): Float64Array =>
+  multiply(rowMajor(a, n), conjugateB ? adjoint(rowMajor(b, n)) : rowMajor(b, n), n, n, n);
 
 describe('complex Cholesky and triangular solves (Golub & Van Loan §4.2; identities are common practice)', () => {
   it('factorises a hand-worked 2×2: [[4, 2+2i], [2−2i, 6]] = L·Lᴴ with L = [[2, 0], [1−i, 2]]', () => {
@@ -57,7 +29,7 @@ describe('complex Cholesky and triangular solves (Golub & Van Loan §4.2; identi
       const l = new Float64Array(a.length);
       expect(choleskyLower(a, n, l)).toBe(-1);
       const scale = Math.max(...a.map(Math.abs));
-      expect(maxDiff(multiply(l, l, n, true), a) / scale).toBeLessThan(1e-14);
+      expect(maxAbsDifference(product(l, l, n, true), a) / scale).toBeLessThan(1e-14);
 
       const rng = new SeededRandom(100 + n);
       const b = Float64Array.from({ length: 2 * n }, () => rng.normal());
@@ -65,25 +37,15 @@ describe('complex Cholesky and triangular solves (Golub & Van Loan §4.2; identi
       solveLower(l, n, x);
       solveLowerConjugateTranspose(l, n, x);
       // A·x = b
-      const ax = new Float64Array(2 * n);
-      for (let i = 0; i < n; i++) {
-        for (let k = 0; k < n; k++) {
-          const ar = a[2 * (i * n + k)];
-          const ai = a[2 * (i * n + k) + 1];
-          ax[2 * i] += ar * x[2 * k] - ai * x[2 * k + 1];
-          ax[2 * i + 1] += ar * x[2 * k + 1] + ai * x[2 * k];
-        }
-      }
-      expect(maxDiff(ax, b)).toBeLessThan(1e-12);
+      const ax = multiply(rowMajor(a, n), rowMajor(x, 1), n, n, 1);
+      expect(maxAbsDifference(ax, b)).toBeLessThan(1e-12);
 
       const inverse = new Float64Array(a.length);
       hermitianInverseFromCholesky(l, n, inverse);
-      const identity = new Float64Array(a.length);
-      for (let i = 0; i < n; i++) identity[2 * (i * n + i)] = 1;
-      expect(maxDiff(multiply(a, inverse, n), identity)).toBeLessThan(1e-12);
+      expect(maxAbsDifference(product(a, inverse, n), identity(n))).toBeLessThan(1e-12);
       const lInverse = new Float64Array(a.length);
       invertLower(l, n, lInverse);
-      expect(maxDiff(multiply(l, lInverse, n), identity)).toBeLessThan(1e-12);
+      expect(maxAbsDifference(product(l, lInverse, n), identity(n))).toBeLessThan(1e-12);
     });
   }
 

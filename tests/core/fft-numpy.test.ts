@@ -2,7 +2,7 @@ import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { fft2c, ifft2c } from '../../src/core/centered-fft.ts';
 import type { ComplexImage } from '../../src/core/complex-image.ts';
-import { relativeMaxError } from './relative-max-error.ts';
+import { relativeMaxError } from '../error-measures.ts';
 
 /**
  * fft2c / ifft2c against numpy.fft (Debian python3-numpy): tests/reference/fixtures/fft-numpy.json,

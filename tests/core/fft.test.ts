@@ -3,7 +3,7 @@ import { centeredLineTransform, fft2c, ifft2c } from '../../src/core/centered-ff
 import { createComplexImage, energy } from '../../src/core/complex-image.ts';
 import { fftPlan } from '../../src/core/fft-plan.ts';
 import { SeededRandom } from '../../src/core/random.ts';
-import { relativeMaxError } from './relative-max-error.ts';
+import { relativeMaxError } from '../error-measures.ts';
 
 /** Direct O(N²) unnormalised DFT, the textbook definition (docs/references.md §2.1, common practice). */
 function directDft(x: Float64Array): Float64Array {

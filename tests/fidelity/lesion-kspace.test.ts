@@ -8,12 +8,7 @@ import {
   rasterizeLesions,
 } from '../../src/fidelity/index.ts';
 import { phantomGridKspace, ShapePhantom, sheppLoganModified } from '../../src/phantoms/index.ts';
-
-function maxAbsDiff(a: Float64Array, b: Float64Array): number {
-  let m = 0;
-  for (let i = 0; i < a.length; i++) m = Math.max(m, Math.abs(a[i] - b[i]));
-  return m;
-}
+import { maxAbsDifference } from '../error-measures.ts';
 
 describe('lesion k-space (exact, grid scaling of phantomGridKspace)', () => {
   it('a Gaussian lesion: fft2c of its point-sampled raster equals the closed form (Gaussian pair + Poisson summation)', () => {
@@ -33,7 +28,7 @@ describe('lesion k-space (exact, grid scaling of phantomGridKspace)', () => {
     }
     const fromRaster = fft2c(complexFromReal(raster, n, n));
     const analytic = lesionGridKspace([lesion], n, n);
-    const diff = maxAbsDiff(fromRaster.data, analytic.data);
+    const diff = maxAbsDifference(fromRaster.data, analytic.data);
     // Measured 2.1e-16 (peak |K| ≈ 0.23): rounding only.
     expect(diff).toBeLessThan(1e-13);
   });
@@ -87,7 +82,7 @@ describe('lesion k-space (exact, grid scaling of phantomGridKspace)', () => {
     const b = phantomGridKspace(base, n, n);
     const l = lesionGridKspace(lesions, n, n);
     for (let i = 0; i < b.data.length; i++) b.data[i] += l.data[i];
-    expect(maxAbsDiff(a.data, b.data)).toBeLessThan(1e-12);
+    expect(maxAbsDifference(a.data, b.data)).toBeLessThan(1e-12);
     // And its inverse DFT shows the disc at its pixel: mean over the 21 centres of the 5-px disc
     // close to the amplitude (band-limited disc: ≈ 0.9–1.0 of it, common practice).
     const t = ifft2c(lesionGridKspace([lesions[0]], n, n));

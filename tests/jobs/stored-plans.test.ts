@@ -5,16 +5,9 @@ import Database from 'better-sqlite3';
 import { describe, expect, it } from 'vitest';
 import { Store } from '../../src/jobs/store.ts';
 import { planSchema } from '../../src/plan/index.ts';
+import { oneCellPlan } from '../api/helpers.ts';
 
-const planBody = {
-  source: { phantom: 'shepp-logan' },
-  matrix: { nx: 32, ny: 32 },
-  protocol: { trMs: 5 },
-  patterns: [{ pattern: 'cartesian-uniform' }],
-  accelerations: [2],
-  methods: [{ name: 'zero-filled' }],
-  seeds: 1,
-};
+const planBody = { ...oneCellPlan, protocol: { trMs: 5 } };
 
 /** A data folder with one queued plan whose body was written as given (as an older version might have). */
 function folderWithQueuedPlan(body: string, cells: Array<[number, string]> = []): string {

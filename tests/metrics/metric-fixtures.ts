@@ -1,4 +1,6 @@
 import { readFileSync } from 'node:fs';
+import { expect, it } from 'vitest';
+import { SeededRandom } from '../../src/core/random.ts';
 import type { RealImage } from '../../src/core/real-image.ts';
 
 /**
@@ -56,3 +58,46 @@ export const maskedCases = fixtures.cases.filter((c) => c.mask && c.masked);
  * of window, boundary rule or normalisation moves the values by 1e-4 or more.
  */
 export const FIXTURE_TOLERANCE = 1e-12;
+
+/** The metrics every fixture case carries a value of, over the whole image and over its mask. */
+export type FixtureMetric = keyof NonNullable<MetricCase['masked']>;
+
+/** One `it` per fixture case: `metric` over the whole images equals the fixture value to FIXTURE_TOLERANCE. */
+export function itMatchesFixtures(
+  key: FixtureMetric,
+  metric: (estimate: RealImage, reference: RealImage) => number,
+  title: (c: MetricCase) => string,
+): void {
+  for (const c of fixtures.cases) {
+    it(title(c), () => {
+      const { estimate, reference } = caseImages(c);
+      expect(Math.abs(metric(estimate, reference) - c[key])).toBeLessThanOrEqual(FIXTURE_TOLERANCE);
+    });
+  }
+}
+
+/**
+ * One `it` per masked fixture case: `metric` over the mask equals the fixture's masked value to
+ * FIXTURE_TOLERANCE, and differs from the whole-image value by more than `apart`, so the mask mattered.
+ */
+export function itMatchesMaskedFixtures(
+  key: FixtureMetric,
+  metric: (estimate: RealImage, reference: RealImage, mask: Uint8Array) => number,
+  apart: number,
+  title: (c: MetricCase) => string,
+): void {
+  for (const c of maskedCases) {
+    it(title(c), () => {
+      const { estimate, reference, mask } = caseImages(c);
+      const value = metric(estimate, reference, mask!);
+      expect(Math.abs(value - c.masked![key])).toBeLessThanOrEqual(FIXTURE_TOLERANCE);
+      expect(Math.abs(value - c[key])).toBeGreaterThan(apart);
+    });
+  }
+}
+
+/** A random ny×nx image with values uniform in [0, 1). */
+export function randomUniformImage(nx: number, ny: number, seed: number): RealImage {
+  const rng = new SeededRandom(seed);
+  return { nx, ny, data: Float64Array.from({ length: nx * ny }, () => rng.uniform()) };
+}

@@ -1,23 +1,16 @@
 import { describe, expect, it } from 'vitest';
 import { nrmse } from '../../src/metrics/index.ts';
-import { caseImages, FIXTURE_TOLERANCE, fixtures, maskedCases } from './metric-fixtures.ts';
+import { itMatchesFixtures, itMatchesMaskedFixtures } from './metric-fixtures.ts';
 
 describe('nrmse against scikit-image (fixture by tests/reference/generate_fixtures.py)', () => {
   // skimage.metrics.normalized_root_mse(reference, estimate, normalization='euclidean').
-  for (const c of fixtures.cases) {
-    it(`${c.name}: matches skimage to 1e-12`, () => {
-      const { estimate, reference } = caseImages(c);
-      expect(Math.abs(nrmse(estimate, reference) - c.nrmse)).toBeLessThanOrEqual(FIXTURE_TOLERANCE);
-    });
-  }
-  for (const c of maskedCases) {
-    it(`${c.name}: over the mask matches skimage on the masked pixels to 1e-12`, () => {
-      const { estimate, reference, mask } = caseImages(c);
-      const value = nrmse(estimate, reference, mask);
-      expect(Math.abs(value - c.masked!.nrmse)).toBeLessThanOrEqual(FIXTURE_TOLERANCE);
-      expect(Math.abs(value - c.nrmse)).toBeGreaterThan(1e-4);
-    });
-  }
+  itMatchesFixtures('nrmse', nrmse, (c) => `${c.name}: matches skimage to 1e-12`);
+  itMatchesMaskedFixtures(
+    'nrmse',
+    (estimate, reference, mask) => nrmse(estimate, reference, mask),
+    1e-4,
+    (c) => `${c.name}: over the mask matches skimage on the masked pixels to 1e-12`,
+  );
 });
 
 describe('nrmse worked values (docs/references.md §6)', () => {

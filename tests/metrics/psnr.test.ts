@@ -1,24 +1,17 @@
 import { describe, expect, it } from 'vitest';
 import { psnr } from '../../src/metrics/index.ts';
-import { caseImages, FIXTURE_TOLERANCE, fixtures, maskedCases } from './metric-fixtures.ts';
+import { itMatchesFixtures, itMatchesMaskedFixtures } from './metric-fixtures.ts';
 
 describe('psnr against scikit-image (fixture by tests/reference/generate_fixtures.py)', () => {
   // skimage.metrics.peak_signal_noise_ratio(reference, estimate, data_range=max|reference|): skimage's
   // data_range plays the peak's part, so passing max |x| gives the definition of docs/design.md §3.6.
-  for (const c of fixtures.cases) {
-    it(`${c.name}: matches skimage to 1e-12 dB`, () => {
-      const { estimate, reference } = caseImages(c);
-      expect(Math.abs(psnr(estimate, reference) - c.psnr)).toBeLessThanOrEqual(FIXTURE_TOLERANCE);
-    });
-  }
-  for (const c of maskedCases) {
-    it(`${c.name}: MSE over the mask, peak of the whole reference, matches skimage to 1e-12 dB`, () => {
-      const { estimate, reference, mask } = caseImages(c);
-      const value = psnr(estimate, reference, mask);
-      expect(Math.abs(value - c.masked!.psnr)).toBeLessThanOrEqual(FIXTURE_TOLERANCE);
-      expect(Math.abs(value - c.psnr)).toBeGreaterThan(1e-2);
-    });
-  }
+  itMatchesFixtures('psnr', psnr, (c) => `${c.name}: matches skimage to 1e-12 dB`);
+  itMatchesMaskedFixtures(
+    'psnr',
+    (estimate, reference, mask) => psnr(estimate, reference, mask),
+    1e-2,
+    (c) => `${c.name}: MSE over the mask, peak of the whole reference, matches skimage to 1e-12 dB`,
+  );
 });
 
 describe('psnr worked values (docs/references.md §6)', () => {

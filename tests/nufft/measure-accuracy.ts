@@ -7,7 +7,7 @@
 import { createComplexImage } from '../../src/core/complex-image.ts';
 import { SeededRandom } from '../../src/core/random.ts';
 import { createNufftPlan } from '../../src/nufft/nufft-plan.ts';
-import { relativeError } from '../recon/helpers.ts';
+import { relativeError } from '../error-measures.ts';
 import { directNdft } from './direct-ndft.ts';
 
 const side = 64;

@@ -7,7 +7,7 @@ import { expectedRelativeError } from '../../src/nufft/accuracy-table.ts';
 import { createNufftPlan, fastGridSize, MAX_PLAN_WEIGHTS } from '../../src/nufft/nufft-plan.ts';
 import { validationFieldOf } from '../core/caught-validation-error.ts';
 import { inner } from '../encoding/helpers.ts';
-import { relativeError } from '../recon/helpers.ts';
+import { relativeError } from '../error-measures.ts';
 import { directNdft } from './direct-ndft.ts';
 import { nufftFixture } from './nufft-fixture.ts';
 

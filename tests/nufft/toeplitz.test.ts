@@ -5,7 +5,7 @@ import { SeededRandom } from '../../src/core/random.ts';
 import { createNufftPlan } from '../../src/nufft/nufft-plan.ts';
 import { radialRampWeights } from '../../src/nufft/radial-ramp-weights.ts';
 import { toeplitzNormalOperator } from '../../src/nufft/toeplitz.ts';
-import { relativeError } from '../recon/helpers.ts';
+import { relativeError } from '../error-measures.ts';
 import { directAdjointNdft, directNdft } from './direct-ndft.ts';
 
 describe('Toeplitz embedding of AᴴWA (Fessler et al. 2005)', () => {

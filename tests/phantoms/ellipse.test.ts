@@ -4,16 +4,13 @@ import { ellipseTransformByQuadrature } from './quadrature.ts';
 import {
   type Complex,
   distance,
-  expectHermitian,
-  expectRotationTheorem,
   expectSameTransform,
-  expectShiftTheorem,
+  itObeysTransformTheorems,
   shapeTransform,
   spanLinesAgreeingWithContains,
+  transformAt,
   validationField,
 } from './transform-checks.ts';
-
-const transformAt = (e: Ellipse, kx: number, ky: number): Complex => shapeTransform(e)(kx, ky);
 
 const ELLIPSE_3: EllipseParams = { x0: 0.22, y0: 0, a: 0.11, b: 0.31, thetaDeg: -18, intensity: 1 };
 const TILTED: EllipseParams = { x0: 0.3, y0: -0.2, a: 0.25, b: 0.1, thetaDeg: 37, intensity: 1.5 };
@@ -50,23 +47,15 @@ describe('ellipse transform', () => {
     }
   });
 
-  it('obeys the shift theorem: moving the ellipse by d multiplies its transform by e^(−i2πk·d) (Bracewell, common practice)', () => {
-    const d = [0.137, -0.41] as const;
-    const moved = new Ellipse({ ...TILTED, x0: TILTED.x0 + d[0], y0: TILTED.y0 + d[1] });
-    expectShiftTheorem(shapeTransform(new Ellipse(TILTED)), shapeTransform(moved), d, FREQUENCIES, 1e-13);
-  });
-
-  it('obeys the rotation theorem: rotating the object by φ rotates its transform by φ (common practice)', () => {
-    const phi = 23;
-    const centred: EllipseParams = { ...TILTED, x0: 0, y0: 0 };
-    const turned = new Ellipse({ ...centred, thetaDeg: (centred.thetaDeg ?? 0) + phi });
-    expectRotationTheorem(
-      shapeTransform(new Ellipse(centred)),
-      shapeTransform(turned),
-      phi,
-      FREQUENCIES,
-      1e-13,
-    );
+  itObeysTransformTheorems({
+    make: (p: EllipseParams) => new Ellipse(p),
+    tilted: TILTED,
+    frequencies: FREQUENCIES,
+    shift: [0.137, -0.41],
+    shiftTolerance: 1e-13,
+    rotationDeg: 23,
+    rotationTolerance: 1e-13,
+    hermitianTolerance: 1e-15,
   });
 
   it('treats the swapped-axis variants of docs/references.md §1.1 (a ↔ b, θ + 90°) as the same shape', () => {
@@ -84,10 +73,6 @@ describe('ellipse transform', () => {
     for (const [p, q] of pairs) {
       expectSameTransform(shapeTransform(new Ellipse(p)), shapeTransform(new Ellipse(q)), FREQUENCIES, 1e-14);
     }
-  });
-
-  it('is Hermitian for a real shape: E(−k) = conj E(k) (docs/references.md §1.2, 1e-15)', () => {
-    expectHermitian(shapeTransform(new Ellipse(TILTED)), FREQUENCIES, 1e-15);
   });
 });
 

@@ -6,6 +6,7 @@ import { type Phantom, ShapePhantom } from '../../src/phantoms/phantom.ts';
 import { Rectangle } from '../../src/phantoms/rectangle.ts';
 import { resolutionContrast } from '../../src/phantoms/resolution-contrast.ts';
 import { sheppLogan, sheppLoganModified } from '../../src/phantoms/shepp-logan.ts';
+import { maxAbsDifference } from '../error-measures.ts';
 
 /** The grid by its definition (docs/design.md §3.3): K at kx = (u − ⌊nx/2⌋)/2, ky = −(v − ⌊ny/2⌋)/2, times √(nx·ny)/4. */
 function gridByDefinition(phantom: Phantom, nx: number, ny: number): Float64Array {
@@ -20,12 +21,6 @@ function gridByDefinition(phantom: Phantom, nx: number, ny: number): Float64Arra
   const values = phantom.kspaceAt(kx, ky);
   const scale = Math.sqrt(nx * ny) / 4;
   return values.map((x) => x * scale);
-}
-
-function maxDifference(a: Float64Array, b: Float64Array): number {
-  let m = 0;
-  for (let i = 0; i < a.length; i++) m = Math.max(m, Math.abs(a[i] - b[i]));
-  return m;
 }
 
 const MIXED = new ShapePhantom('mixed', 'every shape kind and orientation', [
@@ -45,7 +40,7 @@ describe('phantomGridKspace', () => {
         const grid = phantomGridKspace(phantom, nx, ny);
         expect(grid.nx).toBe(nx);
         expect(grid.ny).toBe(ny);
-        expect(maxDifference(grid.data, gridByDefinition(phantom, nx, ny))).toBeLessThan(1e-12);
+        expect(maxAbsDifference(grid.data, gridByDefinition(phantom, nx, ny))).toBeLessThan(1e-12);
       }
     }
   });
@@ -63,7 +58,7 @@ describe('phantomGridKspace', () => {
           py.push(y);
         }
       }
-      expect(maxDifference(grid, phantom.kspaceAt(px, py))).toBeLessThan(1e-13);
+      expect(maxAbsDifference(grid, phantom.kspaceAt(px, py))).toBeLessThan(1e-13);
     }
   });
 
@@ -76,7 +71,7 @@ describe('phantomGridKspace', () => {
       kspaceAt: (kx, ky) => inner.kspaceAt(kx, ky),
     };
     expect(
-      maxDifference(phantomGridKspace(opaque, 40, 37).data, phantomGridKspace(inner, 40, 37).data),
+      maxAbsDifference(phantomGridKspace(opaque, 40, 37).data, phantomGridKspace(inner, 40, 37).data),
     ).toBeLessThan(1e-12);
   });
 

@@ -3,6 +3,7 @@ import { ValidationError } from '../../src/core/errors.ts';
 import type { ShapePhantom } from '../../src/phantoms/phantom.ts';
 import { resolutionContrast } from '../../src/phantoms/resolution-contrast.ts';
 import { sheppLoganModified } from '../../src/phantoms/shepp-logan.ts';
+import { maxAbsDifference } from '../error-measures.ts';
 
 /**
  * The box average by definition: the mean over ss×ss sub-pixel points of the summed intensities of
@@ -29,12 +30,6 @@ function bruteForceRaster(phantom: ShapePhantom, nx: number, ny: number, ss: num
   return out;
 }
 
-function maxDifference(a: Float64Array, b: Float64Array): number {
-  let m = 0;
-  for (let i = 0; i < a.length; i++) m = Math.max(m, Math.abs(a[i] - b[i]));
-  return m;
-}
-
 describe('rasterisation', () => {
   it('equals the sample-by-sample box average at the docs/design.md §3.3 positions (non-square, odd and even sizes)', () => {
     const cases: [ShapePhantom, number, number, number][] = [
@@ -46,7 +41,7 @@ describe('rasterisation', () => {
       const image = phantom.rasterize(nx, ny, { supersample: ss });
       expect(image.nx).toBe(nx);
       expect(image.ny).toBe(ny);
-      expect(maxDifference(image.data, bruteForceRaster(phantom, nx, ny, ss))).toBeLessThan(1e-12);
+      expect(maxAbsDifference(image.data, bruteForceRaster(phantom, nx, ny, ss))).toBeLessThan(1e-12);
     }
   });
 

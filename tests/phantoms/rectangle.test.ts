@@ -2,18 +2,14 @@ import { describe, expect, it } from 'vitest';
 import { Rectangle, type RectangleParams, sinc } from '../../src/phantoms/rectangle.ts';
 import { rectangleTransformByQuadrature } from './quadrature.ts';
 import {
-  type Complex,
   distance,
-  expectHermitian,
-  expectRotationTheorem,
   expectSameTransform,
-  expectShiftTheorem,
+  itObeysTransformTheorems,
   shapeTransform,
   spanLinesAgreeingWithContains,
+  transformAt,
   validationField,
 } from './transform-checks.ts';
-
-const transformAt = (r: Rectangle, kx: number, ky: number): Complex => shapeTransform(r)(kx, ky);
 
 // The check rectangle of docs/references.md §1.5: ρ = 1, w = (0.4, 0.2), centre (0.1, −0.3).
 const CHECK: RectangleParams = { x0: 0.1, y0: -0.3, wx: 0.4, wy: 0.2, intensity: 1 };
@@ -63,30 +59,21 @@ describe('rectangle transform', () => {
     }
   });
 
-  it('obeys the shift theorem (phase e^(−i2πk·d), common practice)', () => {
-    const d = [-0.31, 0.077] as const;
-    const moved = new Rectangle({ ...TILTED, x0: TILTED.x0 + d[0], y0: TILTED.y0 + d[1] });
-    expectShiftTheorem(shapeTransform(new Rectangle(TILTED)), shapeTransform(moved), d, FREQUENCIES, 1e-14);
+  itObeysTransformTheorems({
+    make: (p: RectangleParams) => new Rectangle(p),
+    tilted: TILTED,
+    frequencies: FREQUENCIES,
+    shift: [-0.31, 0.077],
+    shiftTolerance: 1e-14,
+    rotationDeg: -41,
+    rotationTolerance: 1e-14,
+    hermitianTolerance: 1e-15,
   });
 
-  it('obeys the rotation theorem, and a 90° turn equals swapping the widths (common practice)', () => {
-    const centred: RectangleParams = { ...TILTED, x0: 0, y0: 0 };
-    const phi = -41;
-    const turned = new Rectangle({ ...centred, thetaDeg: 30 + phi });
-    expectRotationTheorem(
-      shapeTransform(new Rectangle(centred)),
-      shapeTransform(turned),
-      phi,
-      FREQUENCIES,
-      1e-14,
-    );
+  it('a 90° turn equals swapping the widths (common practice)', () => {
     const upright = new Rectangle({ ...CHECK, thetaDeg: 90 });
     const swapped = new Rectangle({ ...CHECK, wx: CHECK.wy, wy: CHECK.wx });
     expectSameTransform(shapeTransform(upright), shapeTransform(swapped), FREQUENCIES, 1e-15);
-  });
-
-  it('is Hermitian: R(−k) = conj R(k) (docs/references.md §1.2 property, 1e-15)', () => {
-    expectHermitian(shapeTransform(new Rectangle(TILTED)), FREQUENCIES, 1e-15);
   });
 });
 

@@ -1,6 +1,6 @@
-import { expect } from 'vitest';
+import { expect, it } from 'vitest';
 import { ValidationError } from '../../src/core/errors.ts';
-import type { Shape } from '../../src/phantoms/shape.ts';
+import type { Placement, Shape } from '../../src/phantoms/shape.ts';
 
 /**
  * Checks shared by the shape and phantom transform tests: the Fourier shift and rotation theorems
@@ -22,6 +22,11 @@ export function shapeTransform(shape: Pick<Shape, 'addTransform'>): TransformAt 
     shape.addTransform([kx], [ky], out);
     return [out[0], out[1]];
   };
+}
+
+/** The exact transform of one shape at (kx, ky). */
+export function transformAt(shape: Pick<Shape, 'addTransform'>, kx: number, ky: number): Complex {
+  return shapeTransform(shape)(kx, ky);
 }
 
 /** Shift theorem: the object moved by d has the transform K(k)·e^(−i2πk·d). */
@@ -125,4 +130,46 @@ export function expectSameTransform(
   for (const [kx, ky] of frequencies) {
     expect(distance(a(kx, ky), b(kx, ky)), `k = (${kx}, ${ky})`).toBeLessThan(tolerance);
   }
+}
+
+/** One kind of shape and the values its theorem checks use. */
+export interface ShapeTheoremCase<P extends Placement> {
+  make: (params: P) => Shape;
+  /** A rotated, off-centre instance. */
+  tilted: P;
+  frequencies: ReadonlyArray<readonly [number, number]>;
+  shift: readonly [number, number];
+  shiftTolerance: number;
+  rotationDeg: number;
+  rotationTolerance: number;
+  hermitianTolerance: number;
+}
+
+/**
+ * The shift and rotation theorems and Hermitian symmetry for one kind of shape, as `it` blocks of
+ * the caller's describe: the same three checks every primitive must pass.
+ */
+export function itObeysTransformTheorems<P extends Placement>(c: ShapeTheoremCase<P>): void {
+  const { make, tilted, frequencies } = c;
+  it(`obeys the shift theorem: moving the shape by d multiplies its transform by e^(−i2πk·d) (Bracewell, common practice; ${c.shiftTolerance})`, () => {
+    const d = c.shift;
+    const moved = make({ ...tilted, x0: tilted.x0 + d[0], y0: tilted.y0 + d[1] });
+    expectShiftTheorem(shapeTransform(make(tilted)), shapeTransform(moved), d, frequencies, c.shiftTolerance);
+  });
+
+  it(`obeys the rotation theorem: rotating the object by φ rotates its transform by φ (common practice; ${c.rotationTolerance})`, () => {
+    const centred: P = { ...tilted, x0: 0, y0: 0 };
+    const turned = make({ ...centred, thetaDeg: (centred.thetaDeg ?? 0) + c.rotationDeg });
+    expectRotationTheorem(
+      shapeTransform(make(centred)),
+      shapeTransform(turned),
+      c.rotationDeg,
+      frequencies,
+      c.rotationTolerance,
+    );
+  });
+
+  it(`is Hermitian for a real shape: K(−k) = conj K(k) (docs/references.md §1.2; ${c.hermitianTolerance})`, () => {
+    expectHermitian(shapeTransform(make(tilted)), frequencies, c.hermitianTolerance);
+  });
 }

@@ -8,13 +8,12 @@ import { parseOrThrow } from '../../src/core/zod-problems.ts';
 import { solveCsTv } from '../../src/recon/cs-tv.ts';
 import { methodSchemaFor, reconstruct } from '../../src/recon/index.ts';
 import { totalVariation } from '../../src/recon/total-variation.ts';
+import { maxAbsDifference, relativeError } from '../error-measures.ts';
 import {
   blockObjectProblem,
   fullMask,
-  maxAbsDifference,
   randomComplexImage,
   randomPointMask,
-  relativeError,
   sampledKspace,
   type TvRofCase,
   tvRofFixture,

@@ -16,14 +16,14 @@ import { type CsWaveletOptions, solveCsWavelet } from '../../src/recon/cs-wavele
 import { totalVariation } from '../../src/recon/total-variation.ts';
 import { dwt2, idwt2 } from '../../src/wavelets/dwt2.ts';
 import { detailL1 } from '../../src/wavelets/soft-threshold.ts';
+import { maxAbsDifference, relativeError } from '../error-measures.ts';
 import {
   blockObjectProblem,
   fullMask,
-  maxAbsDifference,
   poissonDiscAcquisition,
   randomComplexImage,
   randomPointMask,
-  relativeError,
+  randomProblem,
   sampledKspace,
   tvRofFixture,
 } from './helpers.ts';
@@ -111,9 +111,7 @@ describe('cs-wavelet solver', () => {
   it('reports the final objective ½‖MFx − y‖² + λ‖Ψx‖₁ recomputed from scratch, and λ relative to max|Fᴴy|', () => {
     const nx = 32;
     const ny = 32;
-    const image = randomComplexImage(nx, ny, 5);
-    const mask = randomPointMask(nx, ny, 0.4, 6);
-    const kspace = sampledKspace(image, mask);
+    const { mask, kspace } = randomProblem(nx, ny, 5, 0.4, 6);
     const out = solveCsWavelet({ kspace, mask }, { lambda: 0.05, levels: 3, iterations: 30 });
     expect(out.info.lambdaAbsolute).toBeCloseTo(0.05 * peakOf(ifft2c(kspace)), 12);
     const expected = objectiveOf(out.image, kspace, mask, out.info.lambdaAbsolute, 3);
@@ -155,9 +153,7 @@ describe('cs-wavelet solver', () => {
     // measured after 3000 / 400 iterations, the primal–dual objective is 0.21 % above FISTA's
     // (0.33 % after 1600); asserted: above FISTA's minimum and within 0.3 %.
     const n = 32;
-    const image = randomComplexImage(n, n, 12);
-    const mask = randomPointMask(n, n, 0.5, 13);
-    const kspace = sampledKspace(image, mask);
+    const { mask, kspace } = randomProblem(n, n, 12, 0.5, 13);
     const base = { lambda: 0.05, levels: 3, tolerance: 0 };
     const fista = solveCsWavelet({ kspace, mask }, { ...base, iterations: 400 });
     const pd = solveCsWavelet({ kspace, mask }, { ...base, lambdaTv: 1e-12, iterations: 3000 });

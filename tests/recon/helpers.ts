@@ -31,23 +31,6 @@ export function fullMask(nx: number, ny: number): Uint8Array {
   return new Uint8Array(nx * ny).fill(1);
 }
 
-/** ‖a − b‖₂ / ‖b‖₂ over interleaved complex (or real) arrays. */
-export function relativeError(a: ArrayLike<number>, b: ArrayLike<number>): number {
-  let num = 0;
-  let den = 0;
-  for (let i = 0; i < b.length; i++) {
-    num += (a[i] - b[i]) ** 2;
-    den += b[i] ** 2;
-  }
-  return Math.sqrt(num / den);
-}
-
-export function maxAbsDifference(a: ArrayLike<number>, b: ArrayLike<number>): number {
-  let m = 0;
-  for (let i = 0; i < b.length; i++) m = Math.max(m, Math.abs(a[i] - b[i]));
-  return m;
-}
-
 /**
  * k-space of K point sources (Diracs) at (X_k, Y_k) in the phantom frame [−1, 1]², y up, with
  * complex amplitudes c_k, on the grid of DEVELOPERS.md: F(kx, ky) = Σ c_k e^(−i2π(kx X_k + ky Y_k)),
@@ -77,6 +60,22 @@ export function pointSourceKspace(
     }
   }
   return k;
+}
+
+/**
+ * A random complex ny×nx image (seed `imageSeed`) seen through a random point mask keeping
+ * `fraction` of the grid (seed `maskSeed`): the solvers' generic test problem.
+ */
+export function randomProblem(
+  nx: number,
+  ny: number,
+  imageSeed: number,
+  fraction: number,
+  maskSeed: number,
+): { image: ComplexImage; mask: Uint8Array; kspace: ComplexImage } {
+  const image = randomComplexImage(nx, ny, imageSeed);
+  const mask = randomPointMask(nx, ny, fraction, maskSeed);
+  return { image, mask, kspace: sampledKspace(image, mask) };
 }
 
 /** Random mask with each point kept with probability `fraction`. */

@@ -1,103 +1,33 @@
 import { describe, expect, it } from 'vitest';
+import { adjoint, multiply, rowMajor } from '../../src/core/complex-matrix.ts';
 import { SeededRandom } from '../../src/core/random.ts';
 import { HermitianEigenSolver } from '../../src/recon/hermitian-eigen.ts';
-
-/** Random unitary n×n (interleaved, row-major) by Gram–Schmidt on random complex columns. */
-function randomUnitary(n: number, seed: number): Float64Array {
-  const rng = new SeededRandom(seed);
-  const q = new Float64Array(2 * n * n);
-  for (let i = 0; i < q.length; i++) q[i] = rng.normal();
-  for (let k = 0; k < n; k++) {
-    for (let j = 0; j < k; j++) {
-      let re = 0;
-      let im = 0;
-      for (let i = 0; i < n; i++) {
-        const ar = q[2 * (i * n + j)];
-        const ai = q[2 * (i * n + j) + 1];
-        const br = q[2 * (i * n + k)];
-        const bi = q[2 * (i * n + k) + 1];
-        re += ar * br + ai * bi;
-        im += ar * bi - ai * br;
-      }
-      for (let i = 0; i < n; i++) {
-        const ar = q[2 * (i * n + j)];
-        const ai = q[2 * (i * n + j) + 1];
-        q[2 * (i * n + k)] -= re * ar - im * ai;
-        q[2 * (i * n + k) + 1] -= re * ai + im * ar;
-      }
-    }
-    let norm = 0;
-    for (let i = 0; i < n; i++) norm += q[2 * (i * n + k)] ** 2 + q[2 * (i * n + k) + 1] ** 2;
-    norm = Math.sqrt(norm);
-    for (let i = 0; i < n; i++) {
-      q[2 * (i * n + k)] /= norm;
-      q[2 * (i * n + k) + 1] /= norm;
-    }
-  }
-  return q;
-}
+import { randomUnitary } from '../core/complex-matrices.ts';
 
 /** U diag(λ) Uᴴ. */
 function withSpectrum(u: Float64Array, values: number[]): Float64Array {
   const n = values.length;
-  const a = new Float64Array(2 * n * n);
-  for (let i = 0; i < n; i++) {
-    for (let j = 0; j < n; j++) {
-      let re = 0;
-      let im = 0;
-      for (let k = 0; k < n; k++) {
-        const ar = u[2 * (i * n + k)];
-        const ai = u[2 * (i * n + k) + 1];
-        const br = u[2 * (j * n + k)];
-        const bi = -u[2 * (j * n + k) + 1];
-        re += values[k] * (ar * br - ai * bi);
-        im += values[k] * (ar * bi + ai * br);
-      }
-      a[2 * (i * n + j)] = re;
-      a[2 * (i * n + j) + 1] = im;
-    }
-  }
-  return a;
+  const scaled = u.map((v, at) => v * values[(at >> 1) % n]); // column k times λ_k
+  return multiply(rowMajor(scaled, n), adjoint(rowMajor(u, n)), n, n, n);
 }
 
 /** max_k ‖A v_k − λ_k v_k‖ and max |V ᴴV − I|. */
 function residuals(a: Float64Array, solver: HermitianEigenSolver): { eig: number; orth: number } {
   const n = solver.n;
-  const v = solver.vectors;
+  const v = rowMajor(solver.vectors, n);
+  const av = multiply(rowMajor(a, n), v, n, n, n);
+  const gram = multiply(adjoint(v), v, n, n, n);
   let eig = 0;
   let orth = 0;
   for (let k = 0; k < n; k++) {
     for (let i = 0; i < n; i++) {
-      let re = 0;
-      let im = 0;
-      for (let j = 0; j < n; j++) {
-        const ar = a[2 * (i * n + j)];
-        const ai = a[2 * (i * n + j) + 1];
-        const vr = v[2 * (j * n + k)];
-        const vi = v[2 * (j * n + k) + 1];
-        re += ar * vr - ai * vi;
-        im += ar * vi + ai * vr;
-      }
-      eig = Math.max(
-        eig,
-        Math.hypot(
-          re - solver.values[k] * v[2 * (i * n + k)],
-          im - solver.values[k] * v[2 * (i * n + k) + 1],
-        ),
-      );
+      const at = 2 * (i * n + k);
+      const lambda = solver.values[k];
+      eig = Math.max(eig, Math.hypot(av[at] - lambda * v.data[at], av[at + 1] - lambda * v.data[at + 1]));
     }
     for (let l = 0; l < n; l++) {
-      let re = 0;
-      let im = 0;
-      for (let i = 0; i < n; i++) {
-        const ar = v[2 * (i * n + k)];
-        const ai = -v[2 * (i * n + k) + 1];
-        const br = v[2 * (i * n + l)];
-        const bi = v[2 * (i * n + l) + 1];
-        re += ar * br - ai * bi;
-        im += ar * bi + ai * br;
-      }
-      orth = Math.max(orth, Math.hypot(re - (k === l ? 1 : 0), im));
+      const at = 2 * (k * n + l);
+      orth = Math.max(orth, Math.hypot(gram[at] - (k === l ? 1 : 0), gram[at + 1]));
     }
   }
   return { eig, orth };

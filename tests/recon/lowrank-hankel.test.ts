@@ -6,6 +6,7 @@ import { defaultLimits } from '../../src/core/limits.ts';
 import { parseOrThrow } from '../../src/core/zod-problems.ts';
 import { methodSchemaFor, reconstruct } from '../../src/recon/index.ts';
 import { solveLowrankHankel } from '../../src/recon/lowrank-hankel.ts';
+import { relativeError } from '../error-measures.ts';
 import {
   friSignal1d,
   fullMask,
@@ -13,7 +14,6 @@ import {
   pointSourceKspace,
   randomComplexImage,
   randomPointMask,
-  relativeError,
 } from './helpers.ts';
 
 describe('lowrank-hankel completion', () => {

@@ -1,15 +1,14 @@
 import { describe, expect, it } from 'vitest';
 import { reconstruct } from '../../src/recon/index.ts';
-import { randomComplexImage, randomPointMask, relativeError, sampledKspace } from './helpers.ts';
+import { relativeError } from '../error-measures.ts';
+import { randomProblem } from './helpers.ts';
 
 describe('methods do not depend on the image scale (DEVELOPERS.md: λ is relative to max |F_cᴴ y|)', () => {
   // Scaling the data by s must scale the reconstruction by s: cs-tv's λ_abs scales with
   // max |F_cᴴ y|, and the Hankel projection is invariant to the scale. Odd 25×18 matrix.
   const nx = 25;
   const ny = 18;
-  const image = randomComplexImage(nx, ny, 12);
-  const mask = randomPointMask(nx, ny, 0.5, 13);
-  const kspace = sampledKspace(image, mask);
+  const { mask, kspace } = randomProblem(nx, ny, 12, 0.5, 13);
   const scaled = { nx, ny, data: kspace.data.map((v) => 1000 * v) };
   for (const method of [
     { name: 'cs-tv' as const, iterations: 40 },

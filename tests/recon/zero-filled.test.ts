@@ -3,7 +3,8 @@ import { fft2c, ifft2c } from '../../src/core/centered-fft.ts';
 import { createComplexImage } from '../../src/core/complex-image.ts';
 import { SeededRandom } from '../../src/core/random.ts';
 import { reconstruct } from '../../src/recon/index.ts';
-import { fullMask, randomComplexImage, relativeError } from './helpers.ts';
+import { relativeError } from '../error-measures.ts';
+import { fullMask, randomComplexImage } from './helpers.ts';
 
 describe('zero-filled', () => {
   it('full sampling, no noise: returns the reference to 1e-10 (docs/references.md §5.1, odd and even sizes)', () => {

@@ -6,7 +6,8 @@ import { circularShift, randomShift } from '../../src/wavelets/cycle-spin.ts';
 import { daubechiesFilters, WAVELET_NAMES } from '../../src/wavelets/daubechies-filters.ts';
 import { checkDwtShape, dwt2, idwt2, maxDwtLevels } from '../../src/wavelets/dwt2.ts';
 import { detailL1, softThresholdComplex, softThresholdDetails } from '../../src/wavelets/soft-threshold.ts';
-import { maxAbsDifference, randomComplexImage } from '../recon/helpers.ts';
+import { maxAbsDifference } from '../error-measures.ts';
+import { randomComplexImage } from '../recon/helpers.ts';
 
 interface Part {
   input: number[];
