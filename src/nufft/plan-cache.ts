@@ -1,9 +1,10 @@
 import type { Trajectory } from '../../sampling/trajectories/trajectory.ts';
 import { checkNufftOptions, type NufftOptions } from './nufft-options.ts';
 import { createNufftPlan, type NufftPlan } from './nufft-plan.ts';
+import { TrajectoryCache } from './trajectory-cache.ts';
 
 /** Plans per trajectory object (weakly held, so a dropped trajectory frees its plans) and size. */
-const cache = new WeakMap<Trajectory, Map<string, NufftPlan>>();
+const cache = new TrajectoryCache<NufftPlan>();
 
 /** The cached plan for this trajectory, image size and kernel; made on first use. */
 export function nufftPlanFor(
@@ -14,15 +15,7 @@ export function nufftPlanFor(
 ): NufftPlan {
   const { width, oversampling } = checkNufftOptions(options);
   const key = `${nx}×${ny}|W${width}|α${oversampling}`;
-  let plans = cache.get(trajectory);
-  if (!plans) {
-    plans = new Map();
-    cache.set(trajectory, plans);
-  }
-  let plan = plans.get(key);
-  if (!plan) {
-    plan = createNufftPlan(nx, ny, trajectory.kx, trajectory.ky, { width, oversampling });
-    plans.set(key, plan);
-  }
-  return plan;
+  return cache.get(trajectory, key, () =>
+    createNufftPlan(nx, ny, trajectory.kx, trajectory.ky, { width, oversampling }),
+  );
 }

@@ -3,6 +3,7 @@ import type { Trajectory } from '../../sampling/trajectories/trajectory.ts';
 import { PIPE_MENON_KERNEL, pipeMenonWeights } from './pipe-menon-weights.ts';
 import { nufftPlanFor } from './plan-cache.ts';
 import { radialRampWeights } from './radial-ramp-weights.ts';
+import { TrajectoryCache } from './trajectory-cache.ts';
 
 export type DensityWeighting = 'radial-ramp' | 'pipe-menon';
 
@@ -12,7 +13,7 @@ export interface TrajectoryWeights {
 }
 
 /** Weights per trajectory object and image size (weakly held, like the NUFFT plans). */
-const cache = new WeakMap<Trajectory, Map<string, TrajectoryWeights>>();
+const cache = new TrajectoryCache<TrajectoryWeights>();
 
 /**
  * Density compensation of a trajectory, k-space area per sample in (cycles per FOV)²: the analytic
@@ -20,22 +21,12 @@ const cache = new WeakMap<Trajectory, Map<string, TrajectoryWeights>>();
  * Menon 1999 (their own W = 6, α = 2 plan) for any other trajectory. Cached per trajectory.
  */
 export function densityWeightsFor(trajectory: Trajectory, nx: number, ny: number): TrajectoryWeights {
-  const key = `${nx}×${ny}`;
-  let bySize = cache.get(trajectory);
-  if (!bySize) {
-    bySize = new Map();
-    cache.set(trajectory, bySize);
-  }
-  let entry = bySize.get(key);
-  if (!entry) {
-    entry =
-      trajectory.kind === 'radial'
-        ? { weights: radialRampWeights(trajectory as RadialTrajectory), weighting: 'radial-ramp' }
-        : {
-            weights: pipeMenonWeights(nufftPlanFor(trajectory, nx, ny, PIPE_MENON_KERNEL)),
-            weighting: 'pipe-menon',
-          };
-    bySize.set(key, entry);
-  }
-  return entry;
+  return cache.get(trajectory, `${nx}×${ny}`, () =>
+    trajectory.kind === 'radial'
+      ? { weights: radialRampWeights(trajectory as RadialTrajectory), weighting: 'radial-ramp' }
+      : {
+          weights: pipeMenonWeights(nufftPlanFor(trajectory, nx, ny, PIPE_MENON_KERNEL)),
+          weighting: 'pipe-menon',
+        },
+  );
 }

@@ -5,17 +5,7 @@ import { createComplexImage } from '../../src/core/complex-image.ts';
 import { SeededRandom } from '../../src/core/random.ts';
 import { NonCartesianEncoding } from '../../src/encoding/index.ts';
 import { nufftPlanFor } from '../../src/nufft/plan-cache.ts';
-
-/** ⟨a, b⟩ = Σ conj(a)·b over interleaved complex arrays. */
-function inner(a: Float64Array, b: Float64Array): [number, number] {
-  let re = 0;
-  let im = 0;
-  for (let i = 0; i < a.length; i += 2) {
-    re += a[i] * b[i] + a[i + 1] * b[i + 1];
-    im += a[i] * b[i + 1] - a[i + 1] * b[i];
-  }
-  return [re, im];
-}
+import { inner } from './helpers.ts';
 
 function randomFill(data: Float64Array, seed: number): Float64Array {
   const rng = new SeededRandom(seed);
