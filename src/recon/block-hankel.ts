@@ -645,7 +645,7 @@ function twiddles(n: number): Float64Array {
  * For each position along one axis of length `length` (window `w`), the range [b0, b1] of window
  * offsets whose window still fits; positions with the same range share one box index.
  */
-function offsetBoxes(length: number, w: number): { boxOf: Int32Array; ranges: Int32Array } {
+export function offsetBoxes(length: number, w: number): { boxOf: Int32Array; ranges: Int32Array } {
   const boxOf = new Int32Array(length);
   const found: number[] = [];
   for (let q = 0; q < length; q++) {
