@@ -560,48 +560,126 @@ export class StackedBlockHankel {
   }
 
   /**
-   * out[q] = (1/#b) Σ_c Σ_δ K^{cd}_box(q)[δ] z_c[q + δ] at every sample outside the interior (all
-   * samples when no full box exists), with the box kernels of the current output coil d.
+   * out[q] = (1/#b) Σ_c Σ_δ K^{cd}_box(q)[δ] z_c[q + δ] at every sample outside the interior, with
+   * the box kernels of the current output coil d. Along a border row the interior columns share
+   * one box, so each kernel tap runs over the whole strip (likewise border columns); the corners,
+   * or every sample when no full box exists, are summed sample by sample.
    */
   private averageBorder(out: Float64Array, inputs: readonly Float64Array[]): void {
-    const { nx, ny, wx, wy, coils, rowBox, colBox, rowBoxes, colBoxes, boxKernels, fullBox } = this;
+    const { nx, ny, rowBox, colBox, fullBox } = this;
+    if (fullBox === null) {
+      for (let qy = 0; qy < ny; qy++) for (let qx = 0; qx < nx; qx++) this.averageSample(out, inputs, qy, qx);
+      return;
+    }
+    for (let qy = 0; qy < ny; qy++) {
+      if (rowBox[qy] === fullBox.ry) {
+        for (let qx = 0; qx < nx; qx++)
+          if (colBox[qx] !== fullBox.rx) this.averageStrip(out, inputs, qx, 'column');
+        break;
+      }
+    }
+    for (let qy = 0; qy < ny; qy++) {
+      if (rowBox[qy] === fullBox.ry) continue;
+      this.averageStrip(out, inputs, qy, 'row');
+      for (let qx = 0; qx < nx; qx++) if (colBox[qx] !== fullBox.rx) this.averageSample(out, inputs, qy, qx);
+    }
+  }
+
+  /**
+   * The interior part of border row `line` (columns of the full column box) or of border column
+   * `line` (rows of the full row box): one box, so out = (1/#b) Σ_c Σ_δ K[δ] z_c[· + δ] tap by tap.
+   */
+  private averageStrip(
+    out: Float64Array,
+    inputs: readonly Float64Array[],
+    line: number,
+    axis: 'row' | 'column',
+  ): void {
+    const { nx, ny, wx, wy, coils, rowBox, colBox, rowBoxes, colBoxes, boxKernels } = this;
+    const fullBox = this.fullBox as { ry: number; rx: number };
+    const byRow = axis === 'row';
     const lx = 2 * wx - 1;
     const kernelSize = 2 * lx * (2 * wy - 1);
     const nCol = colBoxes.length / 2;
     const boxCount = (rowBoxes.length / 2) * nCol;
-    for (let qy = 0; qy < ny; qy++) {
-      const ry = rowBox[qy];
-      const rowCount = rowBoxes[2 * ry + 1] - rowBoxes[2 * ry] + 1;
-      const interiorRow = fullBox !== null && ry === fullBox.ry;
-      const dy0 = Math.max(-(wy - 1), -qy);
-      const dy1 = Math.min(wy - 1, ny - 1 - qy);
-      for (let qx = 0; qx < nx; qx++) {
-        const rx = colBox[qx];
-        if (interiorRow && rx === (fullBox as { rx: number }).rx) continue;
-        const count = rowCount * (colBoxes[2 * rx + 1] - colBoxes[2 * rx] + 1);
-        const dx0 = Math.max(-(wx - 1), -qx);
-        const dx1 = Math.min(wx - 1, nx - 1 - qx);
-        let re = 0;
-        let im = 0;
-        for (let c = 0; c < coils; c++) {
-          const z = inputs[c];
-          const base = (c * boxCount + ry * nCol + rx) * kernelSize;
-          for (let dy = dy0; dy <= dy1; dy++) {
-            const zRow = 2 * ((qy + dy) * nx + qx);
-            const kRow = base + 2 * ((dy + wy - 1) * lx + wx - 1);
-            for (let dx = dx0; dx <= dx1; dx++) {
-              const kr = boxKernels[kRow + 2 * dx];
-              const ki = boxKernels[kRow + 2 * dx + 1];
-              const zr = z[zRow + 2 * dx];
-              const zi = z[zRow + 2 * dx + 1];
-              re += kr * zr - ki * zi;
-              im += kr * zi + ki * zr;
-            }
+    const ry = byRow ? rowBox[line] : fullBox.ry;
+    const rx = byRow ? fullBox.rx : colBox[line];
+    const count =
+      (rowBoxes[2 * ry + 1] - rowBoxes[2 * ry] + 1) * (colBoxes[2 * rx + 1] - colBoxes[2 * rx] + 1);
+    // Positions along the strip: the interior columns (row strip) or rows (column strip).
+    const first = byRow ? wx - 1 : wy - 1;
+    const last = byRow ? nx - wx : ny - wy;
+    const step = byRow ? 2 : 2 * nx;
+    const start = 2 * (byRow ? line * nx + first : first * nx + line);
+    const end = start + (last - first) * step;
+    for (let o = start; o <= end; o += step) {
+      out[o] = 0;
+      out[o + 1] = 0;
+    }
+    const dy0 = byRow ? Math.max(-(wy - 1), -line) : -(wy - 1);
+    const dy1 = byRow ? Math.min(wy - 1, ny - 1 - line) : wy - 1;
+    const dx0 = byRow ? -(wx - 1) : Math.max(-(wx - 1), -line);
+    const dx1 = byRow ? wx - 1 : Math.min(wx - 1, nx - 1 - line);
+    for (let c = 0; c < coils; c++) {
+      const z = inputs[c];
+      const base = (c * boxCount + ry * nCol + rx) * kernelSize;
+      for (let dy = dy0; dy <= dy1; dy++) {
+        for (let dx = dx0; dx <= dx1; dx++) {
+          const k = base + 2 * ((dy + wy - 1) * lx + dx + wx - 1);
+          const kr = boxKernels[k];
+          const ki = boxKernels[k + 1];
+          if (kr === 0 && ki === 0) continue;
+          const shift = 2 * (dy * nx + dx);
+          for (let o = start; o <= end; o += step) {
+            const zr = z[o + shift];
+            const zi = z[o + shift + 1];
+            out[o] += kr * zr - ki * zi;
+            out[o + 1] += kr * zi + ki * zr;
           }
         }
-        out[2 * (qy * nx + qx)] = re / count;
-        out[2 * (qy * nx + qx) + 1] = im / count;
       }
     }
+    const scale = 1 / count;
+    for (let o = start; o <= end; o += step) {
+      out[o] *= scale;
+      out[o + 1] *= scale;
+    }
+  }
+
+  /** One sample q = (qy, qx) by the direct sum over its box kernel. */
+  private averageSample(out: Float64Array, inputs: readonly Float64Array[], qy: number, qx: number): void {
+    const { nx, ny, wx, wy, coils, rowBox, colBox, rowBoxes, colBoxes, boxKernels } = this;
+    const lx = 2 * wx - 1;
+    const kernelSize = 2 * lx * (2 * wy - 1);
+    const nCol = colBoxes.length / 2;
+    const boxCount = (rowBoxes.length / 2) * nCol;
+    const ry = rowBox[qy];
+    const rx = colBox[qx];
+    const count =
+      (rowBoxes[2 * ry + 1] - rowBoxes[2 * ry] + 1) * (colBoxes[2 * rx + 1] - colBoxes[2 * rx] + 1);
+    const dy0 = Math.max(-(wy - 1), -qy);
+    const dy1 = Math.min(wy - 1, ny - 1 - qy);
+    const dx0 = Math.max(-(wx - 1), -qx);
+    const dx1 = Math.min(wx - 1, nx - 1 - qx);
+    let re = 0;
+    let im = 0;
+    for (let c = 0; c < coils; c++) {
+      const z = inputs[c];
+      const base = (c * boxCount + ry * nCol + rx) * kernelSize;
+      for (let dy = dy0; dy <= dy1; dy++) {
+        const zRow = 2 * ((qy + dy) * nx + qx);
+        const kRow = base + 2 * ((dy + wy - 1) * lx + wx - 1);
+        for (let dx = dx0; dx <= dx1; dx++) {
+          const kr = boxKernels[kRow + 2 * dx];
+          const ki = boxKernels[kRow + 2 * dx + 1];
+          const zr = z[zRow + 2 * dx];
+          const zi = z[zRow + 2 * dx + 1];
+          re += kr * zr - ki * zi;
+          im += kr * zi + ki * zr;
+        }
+      }
+    }
+    out[2 * (qy * nx + qx)] = re / count;
+    out[2 * (qy * nx + qx) + 1] = im / count;
   }
 }
