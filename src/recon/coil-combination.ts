@@ -3,7 +3,7 @@ import type { CoilMaps, MultiCoilArray } from '../encoding/index.ts';
 
 /**
  * One image from per-coil images: with maps the sensitivity-weighted combination
- * Σ_c conj(S_c)·x_c / Σ_c |S_c|² (Roemer et al. 1990; 0 where Σ|S_c|² = 0), without maps the
+ * Σ_c conj(S_c)·x_c / Σ_c |S_c|² (Roemer et al. 1990, docs/references.md §5.4; 0 where Σ|S_c|² = 0), without maps the
  * root-sum-of-squares √(Σ_c |x_c|²) (real, non-negative; Roemer et al. 1990).
  */
 export function combineCoilImages(images: MultiCoilArray, maps?: CoilMaps): ComplexImage {

@@ -24,7 +24,7 @@ export interface CsTvEncodingResult {
 
 /**
  * min_x ½‖E x − y‖² + λ·TV_iso(x) on any encoding operator E (multi-coil SENSE with a TV penalty,
- * Block, Uecker & Frahm 2007), by the same Chambolle–Pock iteration as the single-coil cs-tv
+ * Block, Uecker & Frahm 2007; docs/references.md §5.4), by the same Chambolle–Pock iteration as the single-coil cs-tv
  * (Chambolle & Pock 2011, θ = 1, K = ∇, τ = σ = 0.99/√8) with the data term kept in the primal
  * prox: prox_τG(v) = (I + τEᴴE)⁻¹(v + τEᴴy), solved by warm-started conjugate gradients
  * (NormalProxSolver) instead of the k-space division that only a single unit coil allows.

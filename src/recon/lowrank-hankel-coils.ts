@@ -19,7 +19,7 @@ export interface CoilHankelParams {
 
 /**
  * Calibrationless structured low-rank completion of multi-coil k-space (SAKE, Shin et al. 2014,
- * docs/references.md §5.3): the coils' block-Hankel matrices side by side, [H(z_1) … H(z_C)], are
+ * docs/references.md §5.3–5.4): the coils' block-Hankel matrices side by side, [H(z_1) … H(z_C)], are
  * low rank because the coil images are one object times smooth sensitivities; alternate a rank-r
  * truncation of that matrix (eigendecomposition of its (C·n)² Gram matrix), averaging back per
  * coil (StackedBlockHankel) and data consistency per coil. Needs no maps.

@@ -5,7 +5,7 @@ import type { CoilSamples, EncodingOperator } from '../encoding/index.ts';
  * Solves (I + τ EᴴE) x = b for x by conjugate gradients (Hestenes & Stiefel 1952), the proximal
  * step of the data term ½‖E x − y‖² with b = v + τ Eᴴy. I + τEᴴE is Hermitian positive definite
  * with eigenvalues in [1, 1 + τ‖E‖²], so CG contracts the error by at least
- * (√κ − 1)/(√κ + 1), κ = 1 + τ‖E‖², per step (Golub & Van Loan §11.3, from memory); on an operator
+ * (√κ − 1)/(√κ + 1), κ = 1 + τ‖E‖², per step (Golub & Van Loan, "Matrix Computations", §11.3 — from memory; docs/references.md §5.4); on an operator
  * with two distinct eigenvalues (one coil, S = 1: EᴴE = F⁻¹MF) it is exact after two steps.
  * `x` holds the warm start on entry and the solution on return. Stops when ‖b − A x‖ ≤
  * tolerance·‖b‖ or after `maxSteps`; each step costs one normal-operator product. The operator's

@@ -3,7 +3,7 @@ import { offsetBoxes } from './block-hankel.ts';
 import { Dft2 } from './uncentred-dft2.ts';
 
 /**
- * The coils' block-Hankel matrices side by side (Shin et al. 2014, docs/references.md §5.3):
+ * The coils' block-Hankel matrices side by side (Shin et al. 2014, docs/references.md §5.4):
  *   H = [H(z_1) … H(z_C)],  one row per window p ∈ V (windows fully inside the ny×nx grid, as in
  *   BlockHankel), column (c, a) = c·n + a holding z_c[p + a], n = wy·wx,
  * optionally with K = 2 lifted arrays per coil stacked below each other (the 'gradient'
