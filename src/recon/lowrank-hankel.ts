@@ -2,7 +2,7 @@ import { z } from 'zod';
 import { ifft2c } from '../core/centered-fft.ts';
 import { createComplexImage } from '../core/complex-image.ts';
 import { throwIfAborted, ValidationError } from '../core/errors.ts';
-import { transformPlaneInPlace } from '../encoding/index.ts';
+import { checkMultiCoilShape, transformPlaneInPlace } from '../encoding/index.ts';
 import { BlockHankel } from './block-hankel.ts';
 import { combineCoilImages } from './coil-combination.ts';
 import { HermitianEigenSolver } from './hermitian-eigen.ts';
@@ -42,13 +42,17 @@ export const lowrankHankelSchema = z.strictObject({
   kernel: z
     .union([kernelSide, z.tuple([kernelSide, kernelSide])])
     .optional()
-    .describe(`window side w (w×w) or [rows (ky), columns (kx)]; area ≤ ${KERNEL_AREA_MAX}; default 7`),
+    .describe(
+      `window side w (w×w) or [rows (ky), columns (kx)]; area ≤ ${KERNEL_AREA_MAX}; default 7 (3 for a coil array, coils × area ≤ ${STACKED_COLUMNS_MAX})`,
+    ),
   rank: z
     .number()
     .int()
     .min(1)
     .optional()
-    .describe('truncation rank ≤ window area; default half the window area unless energy is given'),
+    .describe(
+      'truncation rank ≤ window area (× coils for a coil array); default half the window area (twice it for a coil array) unless energy is given',
+    ),
   energy: z
     .number()
     .gt(0)
@@ -60,7 +64,9 @@ export const lowrankHankelSchema = z.strictObject({
   weighting: z
     .enum(WEIGHTINGS)
     .optional()
-    .describe("'gradient' (default): lift k-space weighted by the derivative's spectral factor; 'none'"),
+    .describe(
+      "'gradient' (default for one coil): lift k-space weighted by the derivative's spectral factor; 'none' (default for a coil array)",
+    ),
   iterations: z.number().int().min(1).optional().describe('iteration limit (default 100)'),
   tolerance: z
     .number()
@@ -403,6 +409,8 @@ function runOnCoils(
 ): ReconOutput {
   const { kspace, maps } = coils;
   const { nx, ny } = kspace;
+  if (mask.length !== nx * ny) throw new RangeError(`mask must cover the ${ny}×${nx} coil k-space`);
+  if (maps) checkMultiCoilShape(maps, kspace.coils, nx, ny, 'coils.maps');
   const result = solveLowrankHankelCoils(kspace, mask, { ...params, rankForEnergy }, signal);
   const images = result.kspace;
   for (let c = 0; c < images.coils; c++) transformPlaneInPlace(images.data, c * nx * ny, nx, ny, 1);
