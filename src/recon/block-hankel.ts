@@ -239,28 +239,7 @@ export class BlockHankel {
         }
       }
     }
-    const scale = 1 / (nx * ny);
-    for (let dy = -(wy - 1); dy < wy; dy++) {
-      // e^(+i2π ky·dy/ny) = twiddleY[−ky·dy mod ny].
-      const step = ((-dy % ny) + ny) % ny;
-      for (let dx = -(wx - 1); dx < wx; dx++) {
-        let re = 0;
-        let im = 0;
-        let t = 0;
-        for (let row = 0; row < ny; row++) {
-          const qr = rowLags[2 * (row * lx + dx + wx - 1)];
-          const qi = rowLags[2 * (row * lx + dx + wx - 1) + 1];
-          const wr = twiddleY[2 * t];
-          const wi = twiddleY[2 * t + 1];
-          re += qr * wr - qi * wi;
-          im += qr * wi + qi * wr;
-          t += step;
-          if (t >= ny) t -= ny;
-        }
-        autocorrelation[2 * ((dy + wy - 1) * lx + dx + wx - 1)] = re * scale;
-        autocorrelation[2 * ((dy + wy - 1) * lx + dx + wx - 1) + 1] = im * scale;
-      }
-    }
+    lagsOverRows(autocorrelation, rowLags, nx, ny, wx, wy, twiddleY);
   }
 
   /**
@@ -304,16 +283,13 @@ export class BlockHankel {
         line.fill(0);
         for (let k = 0; k < arrays.length; k++) {
           for (let t = 0; t < w - 1; t++) {
-            const r = 2 * (k * count + t + a) * length;
-            const s = 2 * (k * count + t + b) * length;
-            for (let f = 0; f < 2 * length; f += 2) {
-              const rr = spectra[r + f];
-              const ri = spectra[r + f + 1];
-              const sr = spectra[s + f];
-              const si = spectra[s + f + 1];
-              line[f] += rr * sr + ri * si;
-              line[f + 1] -= rr * si - ri * sr;
-            }
+            addConjugatedCrossSpectrum(
+              line,
+              spectra,
+              2 * (k * count + t + a) * length,
+              2 * (k * count + t + b) * length,
+              length,
+            );
           }
         }
         plan.forward(out, line);
@@ -361,25 +337,7 @@ export class BlockHankel {
    */
   setProjector(projector: Float64Array, vectors: Float64Array, rank: number): void {
     const { size: n, wx, wy, kernels, rowBoxes, colBoxes } = this;
-    projector.fill(0);
-    for (let a = 0; a < n; a++) {
-      for (let b = a; b < n; b++) {
-        let re = 0;
-        let im = 0;
-        for (let k = 0; k < rank; k++) {
-          const ur = vectors[2 * (a * n + k)];
-          const ui = vectors[2 * (a * n + k) + 1];
-          const vr = vectors[2 * (b * n + k)];
-          const vi = -vectors[2 * (b * n + k) + 1];
-          re += ur * vr - ui * vi;
-          im += ur * vi + ui * vr;
-        }
-        projector[2 * (a * n + b)] = re;
-        projector[2 * (a * n + b) + 1] = im;
-        projector[2 * (b * n + a)] = re;
-        projector[2 * (b * n + a) + 1] = -im;
-      }
-    }
+    rankProjector(projector, vectors, n, rank);
     // Per column box: the kernel of each window row by (prefix-summed over by), then every row
     // box [b0, b1] as a difference of two prefix sums.
     const kw = 2 * wx - 1;
@@ -632,7 +590,7 @@ export class BlockHankel {
 }
 
 /** e^(−i2πm/n) for m = 0…n−1, interleaved. */
-function twiddles(n: number): Float64Array {
+export function twiddles(n: number): Float64Array {
   const t = new Float64Array(2 * n);
   for (let m = 0; m < n; m++) {
     t[2 * m] = Math.cos((2 * Math.PI * m) / n);
@@ -665,4 +623,91 @@ export function offsetBoxes(length: number, w: number): { boxOf: Int32Array; ran
     boxOf[q] = index;
   }
   return { boxOf, ranges: Int32Array.from(found) };
+}
+
+/**
+ * target[dy, dx] = (1/N) Σ_row rowLags[row, dx] e^(+i2π row·dy/ny) for |dy| < wy, |dx| < wx: the
+ * column direction of a correlation read off a power spectrum, as a direct sum over the rows
+ * (rowLags holds each row's lags dx, 2wx−1 per row; twiddleY = twiddles(ny)).
+ */
+export function lagsOverRows(
+  target: Float64Array,
+  rowLags: Float64Array,
+  nx: number,
+  ny: number,
+  wx: number,
+  wy: number,
+  twiddleY: Float64Array,
+): void {
+  const lx = 2 * wx - 1;
+  const scale = 1 / (nx * ny);
+  for (let dy = -(wy - 1); dy < wy; dy++) {
+    // e^(+i2π ky·dy/ny) = twiddleY[−ky·dy mod ny].
+    const step = ((-dy % ny) + ny) % ny;
+    for (let dx = -(wx - 1); dx < wx; dx++) {
+      let re = 0;
+      let im = 0;
+      let t = 0;
+      for (let row = 0; row < ny; row++) {
+        const qr = rowLags[2 * (row * lx + dx + wx - 1)];
+        const qi = rowLags[2 * (row * lx + dx + wx - 1) + 1];
+        const wr = twiddleY[2 * t];
+        const wi = twiddleY[2 * t + 1];
+        re += qr * wr - qi * wi;
+        im += qr * wi + qi * wr;
+        t += step;
+        if (t >= ny) t -= ny;
+      }
+      target[2 * ((dy + wy - 1) * lx + dx + wx - 1)] = re * scale;
+      target[2 * ((dy + wy - 1) * lx + dx + wx - 1) + 1] = im * scale;
+    }
+  }
+}
+
+/**
+ * projector ← Σ_{k<rank} v_k v_kᴴ (n×n, interleaved row-major) from the eigenvectors in the columns
+ * of `vectors` (as HermitianEigenSolver leaves them); Hermitian, so the lower half is mirrored.
+ */
+export function rankProjector(projector: Float64Array, vectors: Float64Array, n: number, rank: number): void {
+  projector.fill(0);
+  for (let a = 0; a < n; a++) {
+    for (let b = a; b < n; b++) {
+      let re = 0;
+      let im = 0;
+      for (let k = 0; k < rank; k++) {
+        const ur = vectors[2 * (a * n + k)];
+        const ui = vectors[2 * (a * n + k) + 1];
+        const vr = vectors[2 * (b * n + k)];
+        const vi = -vectors[2 * (b * n + k) + 1];
+        re += ur * vr - ui * vi;
+        im += ur * vi + ui * vr;
+      }
+      projector[2 * (a * n + b)] = re;
+      projector[2 * (a * n + b) + 1] = im;
+      projector[2 * (b * n + a)] = re;
+      projector[2 * (b * n + a) + 1] = -im;
+    }
+  }
+}
+
+/**
+ * line += conj(conj(R)·S) over `length` complex entries, R and S the spectra at offsets r and s of
+ * `store`: the band correlations accumulate the conjugated cross-spectrum, so one forward DFT and
+ * a conjugation give the inverse DFT.
+ */
+export function addConjugatedCrossSpectrum(
+  line: Float64Array,
+  store: Float64Array,
+  r: number,
+  s: number,
+  length: number,
+): void {
+  for (let f = 0; f < 2 * length; f += 2) {
+    const rr = store[r + f];
+    const ri = store[r + f + 1];
+    const sr = store[s + f];
+    const si = store[s + f + 1];
+    line[f] += rr * sr + ri * si;
+    line[f + 1] -= rr * si - ri * sr;
+  }
 }

@@ -2,7 +2,8 @@ import type { ComplexImage } from '../core/complex-image.ts';
 import { throwIfAborted } from '../core/errors.ts';
 import type { CoilSamples, EncodingOperator } from '../encoding/index.ts';
 import { NormalProxSolver } from './normal-prox.ts';
-import { divergence, gradient, totalVariation, tvDualStep } from './total-variation.ts';
+import { extrapolate } from './primal-extrapolation.ts';
+import { totalVariation, tvDualAscent } from './total-variation.ts';
 
 // The same steps as the single-coil solver (cs-tv.ts): K = ∇ only, τσ‖∇‖² < 1 with ‖∇‖² ≤ 8.
 const TAU = 0.99 / Math.sqrt(8);
@@ -61,25 +62,14 @@ export function solveCsTvEncoding(
   let change = Number.POSITIVE_INFINITY;
   for (let it = 0; it < iterations; it++) {
     throwIfAborted(signal);
-    gradient(gx, gy, xBar, nx, ny);
-    tvDualStep(px, py, gx, gy, SIGMA, lambdaAbs);
-    divergence(div, px, py, nx, ny);
+    tvDualAscent(div, px, py, gx, gy, xBar, nx, ny, SIGMA, lambdaAbs);
     const xd = x.data;
     xOld.set(xd);
     // b = v + τEᴴy with v = x + τ div p; the warm start is the current x.
     for (let i = 0; i < 2 * n; i++) rhs[i] = xd[i] + TAU * div[i] + TAU * backProjection[i];
     proxSteps += prox.solve(x, rhs, TAU, PROX_TOLERANCE, PROX_MAX_STEPS);
-    let diff = 0;
-    let norm = 0;
-    for (let i = 0; i < 2 * n; i++) {
-      const v = xd[i];
-      const dv = v - xOld[i];
-      diff += dv * dv;
-      norm += v * v;
-      xBar[i] = v + dv;
-    }
+    change = extrapolate(xBar, xd, xOld);
     run = it + 1;
-    change = norm > 0 ? Math.sqrt(diff / norm) : Math.sqrt(diff);
     if (change < tolerance) break;
   }
   const ex = operator.forward(x);

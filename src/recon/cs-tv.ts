@@ -6,7 +6,8 @@ import { CartesianEncoding } from '../encoding/index.ts';
 import { backProjectionPeak, PROX_TOLERANCE, solveCsTvEncoding } from './cs-tv-encoding.ts';
 import type { CoilData, ReconInput, ReconMethod, ReconOutput } from './method.ts';
 import { checkedNumber, iterationsToRun, type NumberRule } from './parameters.ts';
-import { divergence, gradient, totalVariation, tvDualStep } from './total-variation.ts';
+import { extrapolate } from './primal-extrapolation.ts';
+import { totalVariation, tvDualAscent } from './total-variation.ts';
 
 export const LAMBDA_RULE: NumberRule = { min: 0, max: 10 };
 export const TOLERANCE_RULE: NumberRule = { min: 0, max: 1, maxExclusive: true };
@@ -100,10 +101,8 @@ export function solveCsTv(
   for (let it = 0; it < iterations; it++) {
     throwIfAborted(signal);
     // Dual ascent and projection onto the λ-ball per pixel (isotropic over both directions and re/im).
-    gradient(gx, gy, xBar, nx, ny);
-    tvDualStep(px, py, gx, gy, SIGMA, lambdaAbs);
+    tvDualAscent(div, px, py, gx, gy, xBar, nx, ny, SIGMA, lambdaAbs);
     // Primal step v = x − τ∇ᴴp = x + τ div p, then the exact data-term prox in k-space.
-    divergence(div, px, py, nx, ny);
     const xd = x.data;
     xOld.set(xd);
     for (let i = 0; i < 2 * n; i++) work.data[i] = xd[i] + TAU * div[i];
@@ -116,17 +115,8 @@ export function solveCsTv(
       }
     }
     ifft2c(work, x);
-    let diff = 0;
-    let norm = 0;
-    for (let i = 0; i < 2 * n; i++) {
-      const v = xd[i];
-      const dv = v - xOld[i];
-      diff += dv * dv;
-      norm += v * v;
-      xBar[i] = v + dv;
-    }
+    change = extrapolate(xBar, xd, xOld);
     run = it + 1;
-    change = norm > 0 ? Math.sqrt(diff / norm) : Math.sqrt(diff);
     if (change < tolerance) break;
   }
   // Final objective ½‖M F x − y‖² + λ TV(x).
@@ -193,20 +183,31 @@ export const csTv: ReconMethod<CsTvSpec> = {
       image: result.image,
       info: {
         solver: 'Chambolle–Pock primal–dual, τ = σ = 0.99/√8',
-        lambda,
-        lambdaSource,
-        lambdaAbsolute: lambda * peak,
-        iterations: result.iterations,
-        iterationLimit: iterations,
-        tolerance,
-        relativeChange: result.relativeChange,
-        converged: result.relativeChange < tolerance,
-        objective: result.objective,
-        totalVariation: result.tv,
+        ...solverInfo({ lambda, lambdaSource, iterations, tolerance }, lambda * peak, result),
       },
     };
   },
 };
+
+/** The info every cs-tv run reports: λ (relative, its source, absolute), iterations, convergence, objective. */
+function solverInfo(
+  params: { lambda: number; lambdaSource: string; iterations: number; tolerance: number },
+  lambdaAbsolute: number,
+  result: { iterations: number; relativeChange: number; objective: number; tv: number },
+): Record<string, unknown> {
+  return {
+    lambda: params.lambda,
+    lambdaSource: params.lambdaSource,
+    lambdaAbsolute,
+    iterations: result.iterations,
+    iterationLimit: params.iterations,
+    tolerance: params.tolerance,
+    relativeChange: result.relativeChange,
+    converged: result.relativeChange < params.tolerance,
+    objective: result.objective,
+    totalVariation: result.tv,
+  };
+}
 
 /**
  * Multi-coil cs-tv: SENSE with a TV penalty on the encoding operator built from the mask and the
@@ -228,10 +229,16 @@ function runOnCoils(
       allowed: 'coil data with maps, or lowrank-hankel (needs no maps)',
     });
   }
-  const { lambda, lambdaSource, iterations, tolerance } = params;
   const operator = new CartesianEncoding(kspace.nx, kspace.ny, input.mask, maps);
-  const peak = backProjectionPeak(operator, kspace);
-  const result = solveCsTvEncoding(operator, kspace, lambda * peak, iterations, tolerance, signal);
+  const lambdaAbsolute = params.lambda * backProjectionPeak(operator, kspace);
+  const result = solveCsTvEncoding(
+    operator,
+    kspace,
+    lambdaAbsolute,
+    params.iterations,
+    params.tolerance,
+    signal,
+  );
   return {
     image: result.image,
     info: {
@@ -239,16 +246,7 @@ function runOnCoils(
         'Chambolle–Pock primal–dual on the multi-coil encoding operator, τ = σ = 0.99/√8; data prox (I + τEᴴE)⁻¹ by conjugate gradients',
       coils: kspace.coils,
       maps: 'given',
-      lambda,
-      lambdaSource,
-      lambdaAbsolute: lambda * peak,
-      iterations: result.iterations,
-      iterationLimit: iterations,
-      tolerance,
-      relativeChange: result.relativeChange,
-      converged: result.relativeChange < tolerance,
-      objective: result.objective,
-      totalVariation: result.tv,
+      ...solverInfo(params, lambdaAbsolute, result),
       proxTolerance: PROX_TOLERANCE,
       meanProxSteps: result.iterations > 0 ? result.proxSteps / result.iterations : 0,
     },

@@ -1,19 +1,15 @@
 import { throwIfAborted } from '../core/errors.ts';
 import type { MultiCoilKspace } from '../encoding/index.ts';
+import { derivativeWeights } from './derivative-weights.ts';
 import { HermitianEigenSolver } from './hermitian-eigen.ts';
+import type { HankelSolveParams } from './lowrank-hankel.ts';
 import { StackedBlockHankel } from './stacked-block-hankel.ts';
 
 /** Largest coils × window area (the Gram matrix is that square; its eigendecomposition grows as the cube). */
 export const STACKED_COLUMNS_MAX = 400;
 
-export interface CoilHankelParams {
-  kernel: [number, number];
-  /** Fixed rank, or undefined to pick it from `energy` each iteration. */
-  rank?: number;
-  energy: number;
-  weighting: 'none' | 'gradient';
-  iterations: number;
-  tolerance: number;
+/** The single-coil parameters plus the energy rule (passed in: lowrank-hankel.ts imports this file). */
+export interface CoilHankelParams extends HankelSolveParams {
   rankForEnergy: (values: Float64Array, energy: number) => number;
 }
 
@@ -56,20 +52,7 @@ export function solveLowrankHankelCoils(
     }
   }
   const plane = (c: number) => x.subarray(2 * c * n, 2 * (c + 1) * n);
-  const weightX = new Float64Array(n);
-  const weightY = new Float64Array(n);
-  const inverseWeight = new Float64Array(n);
-  const cx = Math.floor(nx / 2);
-  const cy = Math.floor(ny / 2);
-  for (let v = 0; v < ny; v++) {
-    for (let u = 0; u < nx; u++) {
-      const i = v * nx + u;
-      weightX[i] = u - cx;
-      weightY[i] = cy - v;
-      const w2 = weightX[i] * weightX[i] + weightY[i] * weightY[i];
-      inverseWeight[i] = w2 > 0 ? 1 / w2 : 0;
-    }
-  }
+  const { weightX, weightY, inverseWeight } = derivativeWeights(nx, ny);
   const planes = () => Array.from({ length: coils }, () => new Float64Array(2 * n));
   const lifted = gradientWeighting
     ? [planes(), planes()]

@@ -5,6 +5,7 @@ import { throwIfAborted, ValidationError } from '../core/errors.ts';
 import { checkMultiCoilShape, transformPlaneInPlace } from '../encoding/index.ts';
 import { BlockHankel } from './block-hankel.ts';
 import { combineCoilImages } from './coil-combination.ts';
+import { derivativeWeights } from './derivative-weights.ts';
 import { HermitianEigenSolver } from './hermitian-eigen.ts';
 import { STACKED_COLUMNS_MAX, solveLowrankHankelCoils } from './lowrank-hankel-coils.ts';
 import type { CoilData, ReconInput, ReconMethod, ReconOutput } from './method.ts';
@@ -126,6 +127,17 @@ function checkedKernel(
   return [wy, wx];
 }
 
+/** What the completion loops take: window, fixed rank (or the energy to keep), weighting, stopping. */
+export interface HankelSolveParams {
+  kernel: [number, number];
+  /** Fixed rank, or undefined to pick it from `energy` each iteration. */
+  rank?: number;
+  energy: number;
+  weighting: HankelWeighting;
+  iterations: number;
+  tolerance: number;
+}
+
 /** Smallest r whose leading eigenvalues keep `energy` of the trace (eigenvalues descending, ≥ 0). */
 export function rankForEnergy(values: Float64Array, energy: number): number {
   let total = 0;
@@ -160,14 +172,7 @@ export function rankForEnergy(values: Float64Array, energy: number): number {
  */
 export function solveLowrankHankel(
   input: ReconInput,
-  params: {
-    kernel: [number, number];
-    rank?: number;
-    energy: number;
-    weighting: HankelWeighting;
-    iterations: number;
-    tolerance: number;
-  },
+  params: HankelSolveParams,
   signal?: AbortSignal,
 ): {
   kspace: Float64Array;
@@ -194,21 +199,7 @@ export function solveLowrankHankel(
     }
   }
   const gradientWeighting = params.weighting === 'gradient';
-  // Weights kx, ky in grid units (u − ⌊nx/2⌋, ⌊ny/2⌋ − v): the spectral factor of the derivatives up to i2π/2.
-  const weightX = new Float64Array(n);
-  const weightY = new Float64Array(n);
-  const inverseWeight = new Float64Array(n);
-  const cx = Math.floor(nx / 2);
-  const cy = Math.floor(ny / 2);
-  for (let v = 0; v < ny; v++) {
-    for (let u = 0; u < nx; u++) {
-      const i = v * nx + u;
-      weightX[i] = u - cx;
-      weightY[i] = cy - v;
-      const w2 = weightX[i] * weightX[i] + weightY[i] * weightY[i];
-      inverseWeight[i] = w2 > 0 ? 1 / w2 : 0;
-    }
-  }
+  const { weightX, weightY, inverseWeight } = derivativeWeights(nx, ny);
   const zx = gradientWeighting ? new Float64Array(2 * n) : x;
   const zy = gradientWeighting ? new Float64Array(2 * n) : x;
   const px = new Float64Array(2 * n);
@@ -361,32 +352,47 @@ export const lowrankHankel: ReconMethod<LowrankHankelSpec> = {
       info: {
         solver:
           'alternating projections: block-Hankel rank truncation (Householder–QL eigendecomposition of the Gram matrix), averaging, data consistency',
-        kernel: kernel,
-        weighting,
-        rankMode,
-        rank: result.rank,
-        ...(energy !== undefined ? { energy } : {}),
-        energyKept: keptEnergy(result.spectrum, result.rank),
-        iterations: result.iterations,
-        iterationLimit: iterations,
-        tolerance,
-        relativeChange: result.relativeChange,
-        converged: result.relativeChange < tolerance,
+        ...runInfo({ kernel, weighting, rankMode, energy, iterations, tolerance }, result),
       },
     };
   },
 };
 
-/** The part of the spectrum's energy the first `rank` eigenvalues keep (negative rounding noise as 0). */
-function keptEnergy(spectrum: Float64Array, rank: number): number {
+/**
+ * The info every lowrank-hankel run reports: window, weighting, rank and the spectrum's energy
+ * its leading eigenvalues keep (negative rounding noise counted as 0), iterations, convergence.
+ */
+function runInfo(
+  params: {
+    kernel: [number, number];
+    weighting: HankelWeighting;
+    rankMode: string;
+    energy?: number;
+    iterations: number;
+    tolerance: number;
+  },
+  result: { rank: number; spectrum: Float64Array; iterations: number; relativeChange: number },
+): Record<string, unknown> {
   let total = 0;
   let kept = 0;
-  for (let i = 0; i < spectrum.length; i++) {
-    const v = Math.max(0, spectrum[i]);
+  for (let i = 0; i < result.spectrum.length; i++) {
+    const v = Math.max(0, result.spectrum[i]);
     total += v;
-    if (i < rank) kept += v;
+    if (i < result.rank) kept += v;
   }
-  return total > 0 ? kept / total : 1;
+  return {
+    kernel: params.kernel,
+    weighting: params.weighting,
+    rankMode: params.rankMode,
+    rank: result.rank,
+    ...(params.energy !== undefined ? { energy: params.energy } : {}),
+    energyKept: total > 0 ? kept / total : 1,
+    iterations: result.iterations,
+    iterationLimit: params.iterations,
+    tolerance: params.tolerance,
+    relativeChange: result.relativeChange,
+    converged: result.relativeChange < params.tolerance,
+  };
 }
 
 /**
@@ -396,15 +402,7 @@ function keptEnergy(spectrum: Float64Array, rank: number): number {
 function runOnCoils(
   mask: Uint8Array,
   coils: CoilData,
-  params: {
-    kernel: [number, number];
-    rank?: number;
-    energy: number;
-    weighting: HankelWeighting;
-    iterations: number;
-    tolerance: number;
-    rankMode: string;
-  },
+  params: HankelSolveParams & { rankMode: string },
   signal?: AbortSignal,
 ): ReconOutput {
   const { kspace, maps } = coils;
@@ -422,18 +420,8 @@ function runOnCoils(
         'alternating projections on the coils’ stacked block-Hankel matrices (Shin et al. 2014): rank truncation, averaging per coil, data consistency per coil',
       coils: kspace.coils,
       combination: maps ? 'sensitivity-weighted (given maps)' : 'root-sum-of-squares',
-      kernel: params.kernel,
-      weighting: params.weighting,
-      rankMode: params.rankMode,
-      rank: result.rank,
       columns: kspace.coils * params.kernel[0] * params.kernel[1],
-      ...(params.rankMode === 'energy' ? { energy: params.energy } : {}),
-      energyKept: keptEnergy(result.spectrum, result.rank),
-      iterations: result.iterations,
-      iterationLimit: params.iterations,
-      tolerance: params.tolerance,
-      relativeChange: result.relativeChange,
-      converged: result.relativeChange < params.tolerance,
+      ...runInfo({ ...params, energy: params.rankMode === 'energy' ? params.energy : undefined }, result),
     },
   };
 }

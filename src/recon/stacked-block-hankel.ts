@@ -1,5 +1,11 @@
 import { type FftPlan, fftPlan } from '../core/fft-plan.ts';
-import { offsetBoxes } from './block-hankel.ts';
+import {
+  addConjugatedCrossSpectrum,
+  lagsOverRows,
+  offsetBoxes,
+  rankProjector,
+  twiddles,
+} from './block-hankel.ts';
 import { Dft2 } from './uncentred-dft2.ts';
 
 /**
@@ -100,11 +106,7 @@ export class StackedBlockHankel {
     this.dft = new Dft2(nx, ny);
     this.planX = fftPlan(nx);
     this.planY = fftPlan(ny);
-    this.twiddleY = new Float64Array(2 * ny);
-    for (let m = 0; m < ny; m++) {
-      this.twiddleY[2 * m] = Math.cos((2 * Math.PI * m) / ny);
-      this.twiddleY[2 * m + 1] = -Math.sin((2 * Math.PI * m) / ny);
-    }
+    this.twiddleY = twiddles(ny);
     const planes = () =>
       Array.from({ length: arrays }, () => Array.from({ length: coils }, () => new Float64Array(2 * n)));
     this.spectra = planes();
@@ -218,27 +220,7 @@ export class StackedBlockHankel {
         rowLags[o + 1] = lineOut[m + 1];
       }
     }
-    const scale = 1 / (nx * ny);
-    for (let dy = -(wy - 1); dy < wy; dy++) {
-      const step = ((-dy % ny) + ny) % ny;
-      for (let dx = -(wx - 1); dx < wx; dx++) {
-        let re = 0;
-        let im = 0;
-        let t = 0;
-        for (let row = 0; row < ny; row++) {
-          const qr = rowLags[2 * (row * lx + dx + wx - 1)];
-          const qi = rowLags[2 * (row * lx + dx + wx - 1) + 1];
-          const wr = twiddleY[2 * t];
-          const wi = twiddleY[2 * t + 1];
-          re += qr * wr - qi * wi;
-          im += qr * wi + qi * wr;
-          t += step;
-          if (t >= ny) t -= ny;
-        }
-        correlation[2 * ((dy + wy - 1) * lx + dx + wx - 1)] = re * scale;
-        correlation[2 * ((dy + wy - 1) * lx + dx + wx - 1) + 1] = im * scale;
-      }
-    }
+    lagsOverRows(correlation, rowLags, nx, ny, wx, wy, twiddleY);
   }
 
   /** Line DFTs of the 2w−2 band rows (or columns) (start + i) mod lines of every lifted array. */
@@ -296,16 +278,13 @@ export class StackedBlockHankel {
         line.fill(0);
         for (let k = 0; k < this.arrays; k++) {
           for (let t = 0; t < w - 1; t++) {
-            const r = 2 * (((k * coils + c) * count + t + a) * length);
-            const s = 2 * (((k * coils + d) * count + t + b) * length);
-            for (let f = 0; f < 2 * length; f += 2) {
-              const rr = store[r + f];
-              const ri = store[r + f + 1];
-              const sr = store[s + f];
-              const si = store[s + f + 1];
-              line[f] += rr * sr + ri * si;
-              line[f + 1] -= rr * si - ri * sr;
-            }
+            addConjugatedCrossSpectrum(
+              line,
+              store,
+              2 * (((k * coils + c) * count + t + a) * length),
+              2 * (((k * coils + d) * count + t + b) * length),
+              length,
+            );
           }
         }
         plan.forward(out, line);
@@ -381,25 +360,7 @@ export class StackedBlockHankel {
    * row-major size×size, as HermitianEigenSolver leaves them).
    */
   setProjector(vectors: Float64Array, rank: number): void {
-    const { size, projector } = this;
-    for (let a = 0; a < size; a++) {
-      for (let b = a; b < size; b++) {
-        let re = 0;
-        let im = 0;
-        for (let k = 0; k < rank; k++) {
-          const ur = vectors[2 * (a * size + k)];
-          const ui = vectors[2 * (a * size + k) + 1];
-          const vr = vectors[2 * (b * size + k)];
-          const vi = -vectors[2 * (b * size + k) + 1];
-          re += ur * vr - ui * vi;
-          im += ur * vi + ui * vr;
-        }
-        projector[2 * (a * size + b)] = re;
-        projector[2 * (a * size + b) + 1] = im;
-        projector[2 * (b * size + a)] = re;
-        projector[2 * (b * size + a) + 1] = -im;
-      }
-    }
+    rankProjector(this.projector, vectors, this.size, rank);
   }
 
   /**

@@ -42,6 +42,13 @@ export function relativeError(a: ArrayLike<number>, b: ArrayLike<number>): numbe
   return Math.sqrt(num / den);
 }
 
+/** max over pixels of |a_i − b_i| for interleaved complex arrays (the per-pixel distance). */
+export function maxPixelDistance(a: Float64Array, b: Float64Array): number {
+  let worst = 0;
+  for (let i = 0; i < b.length; i += 2) worst = Math.max(worst, Math.hypot(a[i] - b[i], a[i + 1] - b[i + 1]));
+  return worst;
+}
+
 export function maxAbsDifference(a: ArrayLike<number>, b: ArrayLike<number>): number {
   let m = 0;
   for (let i = 0; i < b.length; i++) m = Math.max(m, Math.abs(a[i] - b[i]));
