@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { coilArrayMaps } from '../../src/coils/index.ts';
+import { complexFromReal, magnitude } from '../../src/core/complex-image.ts';
 import { ValidationError } from '../../src/core/errors.ts';
 import { transformPlaneInPlace } from '../../src/encoding/index.ts';
 import { combineCoilImages } from '../../src/recon/coil-combination.ts';
@@ -47,6 +48,8 @@ describe('lowrank-hankel on the coils’ stacked block-Hankel matrices (Shin et 
     const { truth, maps, kspace } = loopCoilProblem(n, mask);
     const plain = reconstruct(coilInput(mask, kspace), { name: 'lowrank-hankel', iterations: 3 });
     expect(relativeError(plain.image.data, rssImage(kspace).data)).toBeLessThan(1e-12);
+    // Σ_c |S_c|² = 1, so the RSS of the coil images S_c·x is |x| (the raster is non-negative).
+    expect(relativeError(plain.image.data, complexFromReal(magnitude(truth), n, n).data)).toBeLessThan(1e-12);
     const weighted = reconstruct(coilInput(mask, kspace, maps), { name: 'lowrank-hankel', iterations: 3 });
     expect(weighted.info.combination).toBe('sensitivity-weighted (given maps)');
     expect(relativeError(weighted.image.data, truth.data)).toBeLessThan(1e-12);
@@ -95,5 +98,25 @@ describe('lowrank-hankel on the coils’ stacked block-Hankel matrices (Shin et 
       field: 'method.rank',
       allowed: 'integer 1 ≤ rank ≤ 72',
     });
+  });
+
+  it('does not depend on the data scale: reconstruct(1000·y) = 1000·reconstruct(y), both methods (λ and rank rules are relative)', () => {
+    const n = 32;
+    const mask = lineMask(n, 'cartesian-uniform', 2, 8);
+    const { maps, kspace } = loopCoilProblem(n, mask);
+    const scaled = { ...kspace, data: kspace.data.map((v) => 1000 * v) };
+    for (const spec of [
+      { name: 'cs-tv', iterations: 20 },
+      { name: 'lowrank-hankel', iterations: 5 },
+    ] as const) {
+      const a = reconstruct(coilInput(mask, kspace, maps), spec);
+      const b = reconstruct(coilInput(mask, scaled, maps), spec);
+      expect(
+        relativeError(
+          b.image.data.map((v) => v / 1000),
+          a.image.data,
+        ),
+      ).toBeLessThan(1e-10);
+    }
   });
 });
