@@ -65,6 +65,8 @@ export class BlockHankel {
   private readonly rowPrefix: Float64Array;
   /** Averaging kernels K_box[d], d ∈ [−(wy−1), wy−1]×[−(wx−1), wx−1], one per (row box, column box). */
   private readonly kernels: Float64Array;
+  /** One sample's running kernel sum (re, im). */
+  private readonly sampleSum = new Float64Array(2);
 
   constructor(nx: number, ny: number, wx: number, wy: number) {
     if (wx < 1 || wy < 1 || wx > nx || wy > ny)
@@ -555,8 +557,6 @@ export class BlockHankel {
       const rowCount = rowBoxes[2 * ry + 1] - rowBoxes[2 * ry] + 1;
       const borderRow = qy < wy - 1 || qy > ny - wy;
       if (!all && !borderRow) continue;
-      const dy0 = Math.max(-(wy - 1), -qy);
-      const dy1 = Math.min(wy - 1, ny - 1 - qy);
       for (let qx = 0; qx < nx; qx++) {
         if (!all && qx >= wx - 1 && qx <= nx - wx) {
           qx = nx - wx;
@@ -565,28 +565,55 @@ export class BlockHankel {
         const rx = colBox[qx];
         const count = rowCount * (colBoxes[2 * rx + 1] - colBoxes[2 * rx] + 1);
         const base = (ry * nCol + rx) * kernelSize;
-        const dx0 = Math.max(-(wx - 1), -qx);
-        const dx1 = Math.min(wx - 1, nx - 1 - qx);
-        let re = 0;
-        let im = 0;
-        for (let dy = dy0; dy <= dy1; dy++) {
-          const zRow = 2 * ((qy + dy) * nx + qx);
-          const kRow = base + 2 * ((dy + wy - 1) * kw + wx - 1);
-          for (let dx = dx0; dx <= dx1; dx++) {
-            const kr = kernels[kRow + 2 * dx];
-            const ki = kernels[kRow + 2 * dx + 1];
-            const zr = z[zRow + 2 * dx];
-            const zi = z[zRow + 2 * dx + 1];
-            re += kr * zr - ki * zi;
-            im += kr * zi + ki * zr;
-          }
-        }
+        const sum = this.sampleSum;
+        sum[0] = 0;
+        sum[1] = 0;
+        addKernelSum(sum, kernels, base, z, nx, ny, wx, wy, qy, qx);
         const o = 2 * (qy * nx + qx);
-        out[o] = re / count;
-        out[o + 1] = im / count;
+        out[o] = sum[0] / count;
+        out[o + 1] = sum[1] / count;
       }
     }
   }
+}
+
+/**
+ * sum += Σ_δ K[δ] z[q + δ] over the taps δ ∈ [−(wy−1), wy−1]×[−(wx−1), wx−1] that stay inside the
+ * ny×nx grid, K the (2wy−1)×(2wx−1) kernel starting at `base` of `kernels`, q = (qy, qx).
+ */
+export function addKernelSum(
+  sum: Float64Array,
+  kernels: Float64Array,
+  base: number,
+  z: Float64Array,
+  nx: number,
+  ny: number,
+  wx: number,
+  wy: number,
+  qy: number,
+  qx: number,
+): void {
+  const kw = 2 * wx - 1;
+  const dy0 = Math.max(-(wy - 1), -qy);
+  const dy1 = Math.min(wy - 1, ny - 1 - qy);
+  const dx0 = Math.max(-(wx - 1), -qx);
+  const dx1 = Math.min(wx - 1, nx - 1 - qx);
+  let re = sum[0];
+  let im = sum[1];
+  for (let dy = dy0; dy <= dy1; dy++) {
+    const zRow = 2 * ((qy + dy) * nx + qx);
+    const kRow = base + 2 * ((dy + wy - 1) * kw + wx - 1);
+    for (let dx = dx0; dx <= dx1; dx++) {
+      const kr = kernels[kRow + 2 * dx];
+      const ki = kernels[kRow + 2 * dx + 1];
+      const zr = z[zRow + 2 * dx];
+      const zi = z[zRow + 2 * dx + 1];
+      re += kr * zr - ki * zi;
+      im += kr * zi + ki * zr;
+    }
+  }
+  sum[0] = re;
+  sum[1] = im;
 }
 
 /** e^(−i2πm/n) for m = 0…n−1, interleaved. */

@@ -1,6 +1,7 @@
 import { type FftPlan, fftPlan } from '../core/fft-plan.ts';
 import {
   addConjugatedCrossSpectrum,
+  addKernelSum,
   lagsOverRows,
   offsetBoxes,
   rankProjector,
@@ -86,6 +87,8 @@ export class StackedBlockHankel {
   private readonly colBox: Int32Array;
   private readonly colBoxes: Int32Array;
   private readonly fullBox: { ry: number; rx: number } | null;
+  /** One sample's running kernel sum (re, im). */
+  private readonly sampleSum = new Float64Array(2);
 
   constructor(nx: number, ny: number, wx: number, wy: number, coils: number, arrays: 1 | 2) {
     if (wx < 1 || wy < 1 || wx > nx || wy > ny) {
@@ -607,40 +610,33 @@ export class StackedBlockHankel {
     }
   }
 
-  /** One sample q = (qy, qx) by the direct sum over its box kernel. */
+  /** One sample q = (qy, qx) by the direct sum over its box kernels, coil by coil. */
   private averageSample(out: Float64Array, inputs: readonly Float64Array[], qy: number, qx: number): void {
-    const { nx, ny, wx, wy, coils, rowBox, colBox, rowBoxes, colBoxes, boxKernels } = this;
-    const lx = 2 * wx - 1;
-    const kernelSize = 2 * lx * (2 * wy - 1);
+    const { nx, ny, wx, wy, coils, rowBox, colBox, rowBoxes, colBoxes, boxKernels, sampleSum: sum } = this;
+    const kernelSize = 2 * (2 * wx - 1) * (2 * wy - 1);
     const nCol = colBoxes.length / 2;
     const boxCount = (rowBoxes.length / 2) * nCol;
     const ry = rowBox[qy];
     const rx = colBox[qx];
     const count =
       (rowBoxes[2 * ry + 1] - rowBoxes[2 * ry] + 1) * (colBoxes[2 * rx + 1] - colBoxes[2 * rx] + 1);
-    const dy0 = Math.max(-(wy - 1), -qy);
-    const dy1 = Math.min(wy - 1, ny - 1 - qy);
-    const dx0 = Math.max(-(wx - 1), -qx);
-    const dx1 = Math.min(wx - 1, nx - 1 - qx);
-    let re = 0;
-    let im = 0;
+    sum[0] = 0;
+    sum[1] = 0;
     for (let c = 0; c < coils; c++) {
-      const z = inputs[c];
-      const base = (c * boxCount + ry * nCol + rx) * kernelSize;
-      for (let dy = dy0; dy <= dy1; dy++) {
-        const zRow = 2 * ((qy + dy) * nx + qx);
-        const kRow = base + 2 * ((dy + wy - 1) * lx + wx - 1);
-        for (let dx = dx0; dx <= dx1; dx++) {
-          const kr = boxKernels[kRow + 2 * dx];
-          const ki = boxKernels[kRow + 2 * dx + 1];
-          const zr = z[zRow + 2 * dx];
-          const zi = z[zRow + 2 * dx + 1];
-          re += kr * zr - ki * zi;
-          im += kr * zi + ki * zr;
-        }
-      }
+      addKernelSum(
+        sum,
+        boxKernels,
+        (c * boxCount + ry * nCol + rx) * kernelSize,
+        inputs[c],
+        nx,
+        ny,
+        wx,
+        wy,
+        qy,
+        qx,
+      );
     }
-    out[2 * (qy * nx + qx)] = re / count;
-    out[2 * (qy * nx + qx) + 1] = im / count;
+    out[2 * (qy * nx + qx)] = sum[0] / count;
+    out[2 * (qy * nx + qx) + 1] = sum[1] / count;
   }
 }
