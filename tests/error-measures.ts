@@ -28,3 +28,10 @@ export function relativeMaxError(actual: ArrayLike<number>, expected: ArrayLike<
   }
   return err / peak;
 }
+
+/** max over pixels of |a_i − b_i| for interleaved complex arrays (the per-pixel distance). */
+export function maxPixelDistance(a: Float64Array, b: Float64Array): number {
+  let worst = 0;
+  for (let i = 0; i < b.length; i += 2) worst = Math.max(worst, Math.hypot(a[i] - b[i], a[i + 1] - b[i + 1]));
+  return worst;
+}

@@ -65,6 +65,8 @@ export class BlockHankel {
   private readonly rowPrefix: Float64Array;
   /** Averaging kernels K_box[d], d ∈ [−(wy−1), wy−1]×[−(wx−1), wx−1], one per (row box, column box). */
   private readonly kernels: Float64Array;
+  /** One sample's running kernel sum (re, im). */
+  private readonly sampleSum = new Float64Array(2);
 
   constructor(nx: number, ny: number, wx: number, wy: number) {
     if (wx < 1 || wy < 1 || wx > nx || wy > ny)
@@ -239,28 +241,7 @@ export class BlockHankel {
         }
       }
     }
-    const scale = 1 / (nx * ny);
-    for (let dy = -(wy - 1); dy < wy; dy++) {
-      // e^(+i2π ky·dy/ny) = twiddleY[−ky·dy mod ny].
-      const step = ((-dy % ny) + ny) % ny;
-      for (let dx = -(wx - 1); dx < wx; dx++) {
-        let re = 0;
-        let im = 0;
-        let t = 0;
-        for (let row = 0; row < ny; row++) {
-          const qr = rowLags[2 * (row * lx + dx + wx - 1)];
-          const qi = rowLags[2 * (row * lx + dx + wx - 1) + 1];
-          const wr = twiddleY[2 * t];
-          const wi = twiddleY[2 * t + 1];
-          re += qr * wr - qi * wi;
-          im += qr * wi + qi * wr;
-          t += step;
-          if (t >= ny) t -= ny;
-        }
-        autocorrelation[2 * ((dy + wy - 1) * lx + dx + wx - 1)] = re * scale;
-        autocorrelation[2 * ((dy + wy - 1) * lx + dx + wx - 1) + 1] = im * scale;
-      }
-    }
+    lagsOverRows(autocorrelation, rowLags, nx, ny, wx, wy, twiddleY);
   }
 
   /**
@@ -304,16 +285,13 @@ export class BlockHankel {
         line.fill(0);
         for (let k = 0; k < arrays.length; k++) {
           for (let t = 0; t < w - 1; t++) {
-            const r = 2 * (k * count + t + a) * length;
-            const s = 2 * (k * count + t + b) * length;
-            for (let f = 0; f < 2 * length; f += 2) {
-              const rr = spectra[r + f];
-              const ri = spectra[r + f + 1];
-              const sr = spectra[s + f];
-              const si = spectra[s + f + 1];
-              line[f] += rr * sr + ri * si;
-              line[f + 1] -= rr * si - ri * sr;
-            }
+            addConjugatedCrossSpectrum(
+              line,
+              spectra,
+              2 * (k * count + t + a) * length,
+              2 * (k * count + t + b) * length,
+              length,
+            );
           }
         }
         plan.forward(out, line);
@@ -361,25 +339,7 @@ export class BlockHankel {
    */
   setProjector(projector: Float64Array, vectors: Float64Array, rank: number): void {
     const { size: n, wx, wy, kernels, rowBoxes, colBoxes } = this;
-    projector.fill(0);
-    for (let a = 0; a < n; a++) {
-      for (let b = a; b < n; b++) {
-        let re = 0;
-        let im = 0;
-        for (let k = 0; k < rank; k++) {
-          const ur = vectors[2 * (a * n + k)];
-          const ui = vectors[2 * (a * n + k) + 1];
-          const vr = vectors[2 * (b * n + k)];
-          const vi = -vectors[2 * (b * n + k) + 1];
-          re += ur * vr - ui * vi;
-          im += ur * vi + ui * vr;
-        }
-        projector[2 * (a * n + b)] = re;
-        projector[2 * (a * n + b) + 1] = im;
-        projector[2 * (b * n + a)] = re;
-        projector[2 * (b * n + a) + 1] = -im;
-      }
-    }
+    rankProjector(projector, vectors, n, rank);
     // Per column box: the kernel of each window row by (prefix-summed over by), then every row
     // box [b0, b1] as a difference of two prefix sums.
     const kw = 2 * wx - 1;
@@ -597,8 +557,6 @@ export class BlockHankel {
       const rowCount = rowBoxes[2 * ry + 1] - rowBoxes[2 * ry] + 1;
       const borderRow = qy < wy - 1 || qy > ny - wy;
       if (!all && !borderRow) continue;
-      const dy0 = Math.max(-(wy - 1), -qy);
-      const dy1 = Math.min(wy - 1, ny - 1 - qy);
       for (let qx = 0; qx < nx; qx++) {
         if (!all && qx >= wx - 1 && qx <= nx - wx) {
           qx = nx - wx;
@@ -607,32 +565,59 @@ export class BlockHankel {
         const rx = colBox[qx];
         const count = rowCount * (colBoxes[2 * rx + 1] - colBoxes[2 * rx] + 1);
         const base = (ry * nCol + rx) * kernelSize;
-        const dx0 = Math.max(-(wx - 1), -qx);
-        const dx1 = Math.min(wx - 1, nx - 1 - qx);
-        let re = 0;
-        let im = 0;
-        for (let dy = dy0; dy <= dy1; dy++) {
-          const zRow = 2 * ((qy + dy) * nx + qx);
-          const kRow = base + 2 * ((dy + wy - 1) * kw + wx - 1);
-          for (let dx = dx0; dx <= dx1; dx++) {
-            const kr = kernels[kRow + 2 * dx];
-            const ki = kernels[kRow + 2 * dx + 1];
-            const zr = z[zRow + 2 * dx];
-            const zi = z[zRow + 2 * dx + 1];
-            re += kr * zr - ki * zi;
-            im += kr * zi + ki * zr;
-          }
-        }
+        const sum = this.sampleSum;
+        sum[0] = 0;
+        sum[1] = 0;
+        addKernelSum(sum, kernels, base, z, nx, ny, wx, wy, qy, qx);
         const o = 2 * (qy * nx + qx);
-        out[o] = re / count;
-        out[o + 1] = im / count;
+        out[o] = sum[0] / count;
+        out[o + 1] = sum[1] / count;
       }
     }
   }
 }
 
+/**
+ * sum += Σ_δ K[δ] z[q + δ] over the taps δ ∈ [−(wy−1), wy−1]×[−(wx−1), wx−1] that stay inside the
+ * ny×nx grid, K the (2wy−1)×(2wx−1) kernel starting at `base` of `kernels`, q = (qy, qx).
+ */
+export function addKernelSum(
+  sum: Float64Array,
+  kernels: Float64Array,
+  base: number,
+  z: Float64Array,
+  nx: number,
+  ny: number,
+  wx: number,
+  wy: number,
+  qy: number,
+  qx: number,
+): void {
+  const kw = 2 * wx - 1;
+  const dy0 = Math.max(-(wy - 1), -qy);
+  const dy1 = Math.min(wy - 1, ny - 1 - qy);
+  const dx0 = Math.max(-(wx - 1), -qx);
+  const dx1 = Math.min(wx - 1, nx - 1 - qx);
+  let re = sum[0];
+  let im = sum[1];
+  for (let dy = dy0; dy <= dy1; dy++) {
+    const zRow = 2 * ((qy + dy) * nx + qx);
+    const kRow = base + 2 * ((dy + wy - 1) * kw + wx - 1);
+    for (let dx = dx0; dx <= dx1; dx++) {
+      const kr = kernels[kRow + 2 * dx];
+      const ki = kernels[kRow + 2 * dx + 1];
+      const zr = z[zRow + 2 * dx];
+      const zi = z[zRow + 2 * dx + 1];
+      re += kr * zr - ki * zi;
+      im += kr * zi + ki * zr;
+    }
+  }
+  sum[0] = re;
+  sum[1] = im;
+}
+
 /** e^(−i2πm/n) for m = 0…n−1, interleaved. */
-function twiddles(n: number): Float64Array {
+export function twiddles(n: number): Float64Array {
   const t = new Float64Array(2 * n);
   for (let m = 0; m < n; m++) {
     t[2 * m] = Math.cos((2 * Math.PI * m) / n);
@@ -645,7 +630,7 @@ function twiddles(n: number): Float64Array {
  * For each position along one axis of length `length` (window `w`), the range [b0, b1] of window
  * offsets whose window still fits; positions with the same range share one box index.
  */
-function offsetBoxes(length: number, w: number): { boxOf: Int32Array; ranges: Int32Array } {
+export function offsetBoxes(length: number, w: number): { boxOf: Int32Array; ranges: Int32Array } {
   const boxOf = new Int32Array(length);
   const found: number[] = [];
   for (let q = 0; q < length; q++) {
@@ -665,4 +650,91 @@ function offsetBoxes(length: number, w: number): { boxOf: Int32Array; ranges: In
     boxOf[q] = index;
   }
   return { boxOf, ranges: Int32Array.from(found) };
+}
+
+/**
+ * target[dy, dx] = (1/N) Σ_row rowLags[row, dx] e^(+i2π row·dy/ny) for |dy| < wy, |dx| < wx: the
+ * column direction of a correlation read off a power spectrum, as a direct sum over the rows
+ * (rowLags holds each row's lags dx, 2wx−1 per row; twiddleY = twiddles(ny)).
+ */
+export function lagsOverRows(
+  target: Float64Array,
+  rowLags: Float64Array,
+  nx: number,
+  ny: number,
+  wx: number,
+  wy: number,
+  twiddleY: Float64Array,
+): void {
+  const lx = 2 * wx - 1;
+  const scale = 1 / (nx * ny);
+  for (let dy = -(wy - 1); dy < wy; dy++) {
+    // e^(+i2π ky·dy/ny) = twiddleY[−ky·dy mod ny].
+    const step = ((-dy % ny) + ny) % ny;
+    for (let dx = -(wx - 1); dx < wx; dx++) {
+      let re = 0;
+      let im = 0;
+      let t = 0;
+      for (let row = 0; row < ny; row++) {
+        const qr = rowLags[2 * (row * lx + dx + wx - 1)];
+        const qi = rowLags[2 * (row * lx + dx + wx - 1) + 1];
+        const wr = twiddleY[2 * t];
+        const wi = twiddleY[2 * t + 1];
+        re += qr * wr - qi * wi;
+        im += qr * wi + qi * wr;
+        t += step;
+        if (t >= ny) t -= ny;
+      }
+      target[2 * ((dy + wy - 1) * lx + dx + wx - 1)] = re * scale;
+      target[2 * ((dy + wy - 1) * lx + dx + wx - 1) + 1] = im * scale;
+    }
+  }
+}
+
+/**
+ * projector ← Σ_{k<rank} v_k v_kᴴ (n×n, interleaved row-major) from the eigenvectors in the columns
+ * of `vectors` (as HermitianEigenSolver leaves them); Hermitian, so the lower half is mirrored.
+ */
+export function rankProjector(projector: Float64Array, vectors: Float64Array, n: number, rank: number): void {
+  projector.fill(0);
+  for (let a = 0; a < n; a++) {
+    for (let b = a; b < n; b++) {
+      let re = 0;
+      let im = 0;
+      for (let k = 0; k < rank; k++) {
+        const ur = vectors[2 * (a * n + k)];
+        const ui = vectors[2 * (a * n + k) + 1];
+        const vr = vectors[2 * (b * n + k)];
+        const vi = -vectors[2 * (b * n + k) + 1];
+        re += ur * vr - ui * vi;
+        im += ur * vi + ui * vr;
+      }
+      projector[2 * (a * n + b)] = re;
+      projector[2 * (a * n + b) + 1] = im;
+      projector[2 * (b * n + a)] = re;
+      projector[2 * (b * n + a) + 1] = -im;
+    }
+  }
+}
+
+/**
+ * line += conj(conj(R)·S) over `length` complex entries, R and S the spectra at offsets r and s of
+ * `store`: the band correlations accumulate the conjugated cross-spectrum, so one forward DFT and
+ * a conjugation give the inverse DFT.
+ */
+export function addConjugatedCrossSpectrum(
+  line: Float64Array,
+  store: Float64Array,
+  r: number,
+  s: number,
+  length: number,
+): void {
+  for (let f = 0; f < 2 * length; f += 2) {
+    const rr = store[r + f];
+    const ri = store[r + f + 1];
+    const sr = store[s + f];
+    const si = store[s + f + 1];
+    line[f] += rr * sr + ri * si;
+    line[f + 1] -= rr * si - ri * sr;
+  }
 }

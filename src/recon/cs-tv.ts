@@ -1,16 +1,14 @@
 import { z } from 'zod';
 import { fft2c, ifft2c } from '../core/centered-fft.ts';
 import { type ComplexImage, createComplexImage } from '../core/complex-image.ts';
-import { throwIfAborted } from '../core/errors.ts';
-import {
-  type ReconInput,
-  type ReconMethod,
-  type ReconOutput,
-  refuseCoilArray,
-  refuseTrajectory,
-} from './method.ts';
+import { throwIfAborted, ValidationError } from '../core/errors.ts';
+import type { CoilSamples } from '../encoding/encoding-operator.ts';
+import { CartesianEncoding, type EncodingOperator, NonCartesianEncoding } from '../encoding/index.ts';
+import { backProjectionPeak, PROX_TOLERANCE, solveCsTvEncoding } from './cs-tv-encoding.ts';
+import type { CoilData, ReconInput, ReconMethod, ReconOutput } from './method.ts';
 import { checkedNumber, iterationsToRun, type NumberRule } from './parameters.ts';
-import { divergence, gradient, totalVariation, tvDualStep } from './total-variation.ts';
+import { extrapolate } from './primal-extrapolation.ts';
+import { totalVariation, tvDualAscent } from './total-variation.ts';
 
 export const LAMBDA_RULE: NumberRule = { min: 0, max: 10 };
 export const TOLERANCE_RULE: NumberRule = { min: 0, max: 1, maxExclusive: true };
@@ -104,10 +102,8 @@ export function solveCsTv(
   for (let it = 0; it < iterations; it++) {
     throwIfAborted(signal);
     // Dual ascent and projection onto the λ-ball per pixel (isotropic over both directions and re/im).
-    gradient(gx, gy, xBar, nx, ny);
-    tvDualStep(px, py, gx, gy, SIGMA, lambdaAbs);
+    tvDualAscent(div, px, py, gx, gy, xBar, nx, ny, SIGMA, lambdaAbs);
     // Primal step v = x − τ∇ᴴp = x + τ div p, then the exact data-term prox in k-space.
-    divergence(div, px, py, nx, ny);
     const xd = x.data;
     xOld.set(xd);
     for (let i = 0; i < 2 * n; i++) work.data[i] = xd[i] + TAU * div[i];
@@ -120,17 +116,8 @@ export function solveCsTv(
       }
     }
     ifft2c(work, x);
-    let diff = 0;
-    let norm = 0;
-    for (let i = 0; i < 2 * n; i++) {
-      const v = xd[i];
-      const dv = v - xOld[i];
-      diff += dv * dv;
-      norm += v * v;
-      xBar[i] = v + dv;
-    }
+    change = extrapolate(xBar, xd, xOld);
     run = it + 1;
-    change = norm > 0 ? Math.sqrt(diff / norm) : Math.sqrt(diff);
     if (change < tolerance) break;
   }
   // Final objective ½‖M F x − y‖² + λ TV(x).
@@ -179,8 +166,6 @@ export const csTv: ReconMethod<CsTvSpec> = {
   name: 'cs-tv',
   schema: csTvSchema,
   run(input, spec, { signal, limits }): ReconOutput {
-    refuseCoilArray(input, 'cs-tv');
-    refuseTrajectory(input, 'cs-tv');
     const fraction = acquiredFraction(input.mask);
     const lambda = checkedNumber(spec.lambda, 'method.lambda', LAMBDA_RULE, defaultTvLambda(fraction));
     const iterations = iterationsToRun(spec.iterations, CS_TV_DEFAULT_ITERATIONS, limits);
@@ -190,23 +175,97 @@ export const csTv: ReconMethod<CsTvSpec> = {
       TOLERANCE_RULE,
       CS_TV_DEFAULT_TOLERANCE,
     );
+    const lambdaSource = spec.lambda === undefined ? 'default from acquired fraction' : 'request';
+    const params = { lambda, lambdaSource, iterations, tolerance };
+    if (input.trajectory) {
+      const operator = new NonCartesianEncoding(input.trajectory.plan);
+      return runOnOperator(operator, input.trajectory.samples, params, 'the trajectory (NUFFT)', signal);
+    }
+    if (input.coils) return runOnCoils(input, input.coils, params, signal);
     const peak = zeroFilledPeak(input);
     const result = solveCsTv(input, lambda * peak, iterations, tolerance, signal);
     return {
       image: result.image,
       info: {
         solver: 'Chambolle–Pock primal–dual, τ = σ = 0.99/√8',
-        lambda,
-        lambdaSource: spec.lambda === undefined ? 'default from acquired fraction' : 'request',
-        lambdaAbsolute: lambda * peak,
-        iterations: result.iterations,
-        iterationLimit: iterations,
-        tolerance,
-        relativeChange: result.relativeChange,
-        converged: result.relativeChange < tolerance,
-        objective: result.objective,
-        totalVariation: result.tv,
+        ...solverInfo({ lambda, lambdaSource, iterations, tolerance }, lambda * peak, result),
       },
     };
   },
 };
+
+/** The info every cs-tv run reports: λ (relative, its source, absolute), iterations, convergence, objective. */
+function solverInfo(
+  params: { lambda: number; lambdaSource: string; iterations: number; tolerance: number },
+  lambdaAbsolute: number,
+  result: { iterations: number; relativeChange: number; objective: number; tv: number },
+): Record<string, unknown> {
+  return {
+    lambda: params.lambda,
+    lambdaSource: params.lambdaSource,
+    lambdaAbsolute,
+    iterations: result.iterations,
+    iterationLimit: params.iterations,
+    tolerance: params.tolerance,
+    relativeChange: result.relativeChange,
+    converged: result.relativeChange < params.tolerance,
+    objective: result.objective,
+    totalVariation: result.tv,
+  };
+}
+
+/**
+ * Multi-coil cs-tv: SENSE with a TV penalty on the encoding operator built from the mask and the
+ * known maps (solveCsTvEncoding). Without maps there is nothing to build E from: refused, since an
+ * estimate from the calibration lines is not available to this method.
+ */
+function runOnCoils(
+  input: ReconInput,
+  coils: CoilData,
+  params: { lambda: number; lambdaSource: string; iterations: number; tolerance: number },
+  signal?: AbortSignal,
+): ReconOutput {
+  const { maps, kspace } = coils;
+  if (!maps) {
+    throw new ValidationError({
+      field: 'method.name',
+      message:
+        'cs-tv on receive-array data needs coil sensitivity maps (known or uploaded); none are given for these data',
+      allowed: 'coil data with maps, or lowrank-hankel (needs no maps)',
+    });
+  }
+  const operator = new CartesianEncoding(kspace.nx, kspace.ny, input.mask, maps);
+  const output = runOnOperator(operator, kspace, params, 'the multi-coil encoding operator', signal);
+  return { image: output.image, info: { ...output.info, coils: kspace.coils, maps: 'given' } };
+}
+
+/**
+ * cs-tv on an encoding operator E (multi-coil Cartesian, or a trajectory through the NUFFT), with
+ * λ relative to max|Eᴴy| (solveCsTvEncoding).
+ */
+function runOnOperator(
+  operator: EncodingOperator<CoilSamples>,
+  data: CoilSamples,
+  params: { lambda: number; lambdaSource: string; iterations: number; tolerance: number },
+  operatorName: string,
+  signal?: AbortSignal,
+): ReconOutput {
+  const lambdaAbsolute = params.lambda * backProjectionPeak(operator, data);
+  const result = solveCsTvEncoding(
+    operator,
+    data,
+    lambdaAbsolute,
+    params.iterations,
+    params.tolerance,
+    signal,
+  );
+  return {
+    image: result.image,
+    info: {
+      solver: `Chambolle–Pock primal–dual on ${operatorName}, τ = σ = 0.99/√8; data prox (I + τEᴴE)⁻¹ by conjugate gradients`,
+      ...solverInfo(params, lambdaAbsolute, result),
+      proxTolerance: PROX_TOLERANCE,
+      meanProxSteps: result.iterations > 0 ? result.proxSteps / result.iterations : 0,
+    },
+  };
+}

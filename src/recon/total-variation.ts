@@ -151,3 +151,24 @@ export function gradientNormSquared(nx: number, ny: number, iterations = 500, se
   }
   return estimate;
 }
+
+/**
+ * One dual step of the TV term in Chambolle–Pock (K = ∇): p ← proj_{‖·‖≤λ}(p + σ∇x̄), then
+ * div ← div p for the primal step x − τ∇ᴴp = x + τ div p. gx, gy are scratch.
+ */
+export function tvDualAscent(
+  div: Float64Array,
+  px: Float64Array,
+  py: Float64Array,
+  gx: Float64Array,
+  gy: Float64Array,
+  xBar: Float64Array,
+  nx: number,
+  ny: number,
+  sigma: number,
+  lambda: number,
+): void {
+  gradient(gx, gy, xBar, nx, ny);
+  tvDualStep(px, py, gx, gy, sigma, lambda);
+  divergence(div, px, py, nx, ny);
+}

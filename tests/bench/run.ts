@@ -26,6 +26,7 @@ for (const [title, path, name] of [
   ['encoding', './encoding.bench.ts', 'benchEncoding'],
   ['nufft', './nufft.bench.ts', 'benchNufft'],
   ['reconstruction', './recon.bench.ts', 'benchRecon'],
+  ['coil reconstruction', './coil-recon.bench.ts', 'benchCoilRecon'],
   ['fidelity', './fidelity.bench.ts', 'benchFidelity'],
   ['wavelets', './wavelet.bench.ts', 'benchWavelet'],
   ['planning', './plan.bench.ts', 'benchPlan'],
