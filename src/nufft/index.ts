@@ -4,7 +4,7 @@ export { besselI0, kaiserBessel, kaiserBesselBeta, kaiserBesselTransform } from 
 export { NUFFT_DEFAULTS, type NufftOptions } from './nufft-options.ts';
 export { createNufftPlan, fastGridSize, type NufftPlan } from './nufft-plan.ts';
 export { PIPE_MENON_KERNEL, type PipeMenonOptions, pipeMenonWeights } from './pipe-menon-weights.ts';
-export { nufftPlanFor } from './plan-cache.ts';
+export { nufftPlanFor, toeplitzFor } from './plan-cache.ts';
 export { radialRampWeights, spokeAngularShares } from './radial-ramp-weights.ts';
 export { type ToeplitzOperator, toeplitzNormalOperator } from './toeplitz.ts';
 export { type DensityWeighting, densityWeightsFor, type TrajectoryWeights } from './trajectory-weights.ts';

@@ -4,6 +4,7 @@ import { type ComplexImage, createComplexImage } from '../core/complex-image.ts'
 import { throwIfAborted, ValidationError } from '../core/errors.ts';
 import type { CoilSamples } from '../encoding/encoding-operator.ts';
 import { CartesianEncoding, type EncodingOperator, NonCartesianEncoding } from '../encoding/index.ts';
+import { toeplitzFor } from '../nufft/plan-cache.ts';
 import { backProjectionPeak, PROX_TOLERANCE, solveCsTvEncoding } from './cs-tv-encoding.ts';
 import type { CoilData, ReconInput, ReconMethod, ReconOutput } from './method.ts';
 import { checkedNumber, iterationsToRun, type NumberRule } from './parameters.ts';
@@ -178,8 +179,26 @@ export const csTv: ReconMethod<CsTvSpec> = {
     const lambdaSource = spec.lambda === undefined ? 'default from acquired fraction' : 'request';
     const params = { lambda, lambdaSource, iterations, tolerance };
     if (input.trajectory) {
-      const operator = new NonCartesianEncoding(input.trajectory.plan);
-      return runOnOperator(operator, input.trajectory.samples, params, 'the trajectory (NUFFT)', signal);
+      const { plan, trajectory, weights, weighting, samples } = input.trajectory;
+      // A density-weighted data term (W = the gridding weights) keeps EᴴE = AᴴWA near the identity,
+      // so the CG steps of the data prox converge fast; EᴴE runs through the Toeplitz kernel.
+      const kernel = toeplitzFor(trajectory, plan.nx, plan.ny, { name: weighting, values: weights });
+      const operator = new NonCartesianEncoding(plan, undefined, kernel, weights);
+      const weighted = operator.createData();
+      weighted.data.set(samples.data);
+      for (let p = 0; p < weights.length; p++) {
+        const root = Math.sqrt(weights[p]);
+        weighted.data[2 * p] *= root;
+        weighted.data[2 * p + 1] *= root;
+      }
+      const output = runOnOperator(
+        operator,
+        weighted,
+        params,
+        'the trajectory (NUFFT, Toeplitz EᴴE)',
+        signal,
+      );
+      return { image: output.image, info: { ...output.info, dataWeighting: weighting } };
     }
     if (input.coils) return runOnCoils(input, input.coils, params, signal);
     const peak = zeroFilledPeak(input);
