@@ -2,11 +2,19 @@ import { z } from 'zod';
 import type { Limits } from '../core/limits.ts';
 import { withinLimit } from '../core/zod-problems.ts';
 import { csTv, csTvSchema } from './cs-tv.ts';
+import { grappa, grappaSchema } from './grappa.ts';
 import { lowrankHankel, lowrankHankelSchema } from './lowrank-hankel.ts';
 import type { ReconInput, ReconMethod, ReconOutput } from './method.ts';
+import { sense, senseSchema } from './sense.ts';
 import { zeroFilled, zeroFilledSchema } from './zero-filled.ts';
 
-export const methodSchema = z.discriminatedUnion('name', [zeroFilledSchema, csTvSchema, lowrankHankelSchema]);
+export const methodSchema = z.discriminatedUnion('name', [
+  zeroFilledSchema,
+  csTvSchema,
+  lowrankHankelSchema,
+  senseSchema,
+  grappaSchema,
+]);
 export type MethodSpec = z.infer<typeof methodSchema>;
 export type MethodName = MethodSpec['name'];
 
@@ -21,6 +29,8 @@ const methodByName: { readonly [N in MethodName]: ReconMethod<SpecByName[N]> } =
   'zero-filled': zeroFilled,
   'cs-tv': csTv,
   'lowrank-hankel': lowrankHankel,
+  sense,
+  grappa,
 };
 
 /** The registered methods by name, for lookups of a name not yet known to be valid. */
@@ -58,6 +68,8 @@ export function methodSchemaFor(limits: Limits): typeof methodSchema {
       lowrankHankelSchema.extend({
         iterations: limitedIterations(lowrankHankelSchema.shape.iterations, max),
       }),
+      senseSchema.extend({ iterations: limitedIterations(senseSchema.shape.iterations, max) }),
+      grappaSchema,
     ]) as typeof methodSchema;
     limitedSchemas.set(max, schema);
   }
