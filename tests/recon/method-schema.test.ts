@@ -37,7 +37,13 @@ describe('methodSchema (the request piece, docs/design.md §4.3 "method")', () =
   });
 
   it('every registered method has a schema member and vice versa', () => {
-    expect([...reconMethods.keys()].sort()).toEqual(['cs-tv', 'grappa', 'lowrank-hankel', 'sense', 'zero-filled']);
+    expect([...reconMethods.keys()].sort()).toEqual([
+      'cs-tv',
+      'grappa',
+      'lowrank-hankel',
+      'sense',
+      'zero-filled',
+    ]);
     for (const name of reconMethods.keys()) expect(methodSchema.safeParse({ name }).success).toBe(true);
   });
 });
