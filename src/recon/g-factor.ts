@@ -1,6 +1,6 @@
 import { type CoilNoise, senseGFactorMap, summariseGFactor } from '../coils/index.ts';
-import { createMultiCoilArray, type MultiCoilKspace } from '../encoding/index.ts';
 import type { Limits } from '../core/limits.ts';
+import { createMultiCoilArray, type MultiCoilKspace } from '../encoding/index.ts';
 import { coilImages, combineCoilImages } from './coil-combination.ts';
 import { csTv } from './cs-tv.ts';
 import { prepareGrappa } from './grappa.ts';

@@ -4,8 +4,6 @@ import { defaultLimits } from '../core/limits.ts';
 import type { ReconInput, ReconOptions, ReconOutput } from './method.ts';
 import { type MethodSpec, reconMethods, runMethod } from './registry.ts';
 
-export type { ReconInput, ReconMethod, ReconOptions, ReconOutput } from './method.ts';
-export { type MethodName, type MethodSpec, methodSchema, methodSchemaFor, reconMethods } from './registry.ts';
 export { ACS_MAP_METHOD, ACS_MAP_SUPPORT_THRESHOLD, estimateAcsMaps } from './acs-maps.ts';
 export { type AcsBlock, findAcsBlock } from './acs-region.ts';
 export { type CoilCombination, coilImages, combineCoilImages } from './coil-combination.ts';
@@ -18,12 +16,14 @@ export {
   uniformCartesianAcceleration,
 } from './g-factor.ts';
 export { type GrappaSpec, type PreparedGrappa, prepareGrappa } from './grappa.ts';
+export type { ReconInput, ReconMethod, ReconOptions, ReconOutput } from './method.ts';
 export {
   type PseudoReplicaOptions,
   type PseudoReplicaResult,
   pseudoReplicaGFactor,
   type ReplicaReconstruction,
 } from './pseudo-replica.ts';
+export { type MethodName, type MethodSpec, methodSchema, methodSchemaFor, reconMethods } from './registry.ts';
 export { type PreparedSense, prepareSense, type SenseSpec } from './sense.ts';
 export { zeroFilledImage } from './zero-filled.ts';
 
