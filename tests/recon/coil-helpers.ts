@@ -1,9 +1,14 @@
 import { generateMask } from '../../sampling/index.ts';
-import { coilArrayMaps } from '../../src/coils/coil-array.ts';
+import {
+  analyticCoilKspace,
+  coilArrayMaps,
+  evaluateTrigPolynomial,
+  fitTrigPolynomial,
+} from '../../src/coils/index.ts';
 import { type ComplexImage, complexFromReal } from '../../src/core/complex-image.ts';
 import { CartesianEncoding, type CoilMaps, type MultiCoilKspace } from '../../src/encoding/index.ts';
 import { getPhantom } from '../../src/phantoms/index.ts';
-import type { ReconInput } from '../../src/recon/index.ts';
+import { coilImages, combineCoilImages, type ReconInput } from '../../src/recon/index.ts';
 
 /** The 8-loop array of the coil tests (loop radius 0.35, ring radius 1.25), normalised Σ|S_c|² = 1. */
 export function loopMaps(n: number, count = 8): CoilMaps {
@@ -58,4 +63,34 @@ export function magnitudeNrmse(a: ComplexImage, b: ComplexImage): number {
     den += mb * mb;
   }
   return Math.sqrt(num / den);
+}
+
+/** Zeroes the unacquired samples of every coil plane, in place. */
+export function maskCoils(kspace: MultiCoilKspace, mask: Uint8Array): MultiCoilKspace {
+  const n = kspace.nx * kspace.ny;
+  for (let c = 0; c < kspace.coils; c++) {
+    for (let i = 0; i < n; i++) {
+      if (mask[i]) continue;
+      kspace.data[2 * (c * n + i)] = 0;
+      kspace.data[2 * (c * n + i) + 1] = 0;
+    }
+  }
+  return kspace;
+}
+
+/**
+ * The 8-loop array fitted by trigonometric polynomials (P = 6, L = 2) and the exact analytic coil
+ * k-space of the modified Shepp–Logan through those maps (Guerquin-Kern et al. 2012), with the
+ * multi-coil reference Σ S_c*·F⁻¹y_c / Σ|S_c|² of the fully sampled data.
+ */
+export function analyticCoilProblem(n: number): {
+  maps: CoilMaps;
+  full: MultiCoilKspace;
+  reference: ComplexImage;
+} {
+  const fit = fitTrigPolynomial(loopMaps(n), { order: 6, periodFactor: 2 });
+  const maps = evaluateTrigPolynomial(fit, n, n);
+  const full = analyticCoilKspace(getPhantom('shepp-logan-modified'), fit, n, n);
+  const reference = combineCoilImages(coilImages(full), maps).image;
+  return { maps, full, reference };
 }
