@@ -30,8 +30,8 @@ export interface GrappaKernel {
  * k-space. For every-R-th-row sampling this is the usual kernel of ky acquired lines R apart
  * around the target (Griswold et al. 2002), one geometry per missing offset 1 … R − 1; for random
  * lines it adapts to each gap. Sources too far apart for the kernel to sit at MIN_TRAINING_ROWS
- * positions inside the ACS rows are dropped, farthest first, so a kernel can always be trained; a missing row with no acquired row
- * close enough is refused (ValidationError naming `sampling.acs`).
+ * positions inside the ACS rows are dropped, farthest first; null (the row stays empty) when none
+ * is left or the row lies too far beyond the outermost acquired line (see below).
  */
 export function kernelGeometryFor(
   target: number,
@@ -39,7 +39,7 @@ export function kernelGeometryFor(
   ky: number,
   width: number,
   acsRows: number,
-): KernelGeometry {
+): KernelGeometry | null {
   const ny = acquiredRows.length;
   const above: number[] = [];
   const below: number[] = [];
@@ -55,19 +55,27 @@ export function kernelGeometryFor(
     wantAbove = Math.min(above.length, wantAbove + wantBelow - below.length);
     wantBelow = below.length;
   }
-  const chosen = [...above.slice(0, wantAbove), ...below.slice(0, wantBelow)];
+  // Locality: no source farther than ⌈ky/2⌉ local gaps (between the nearest acquired lines either
+  // side; at the edge of k-space, between the two nearest on the one side). A line beyond the
+  // outermost acquired line is extrapolated only as far as that spacing (every-R-th-row sampling
+  // keeps its last rows; the sparse edge of variable-density random lines stays empty, as the ACS
+  // cannot calibrate a long extrapolation).
+  const side = above.length > 0 ? above : below;
+  let gap: number;
+  if (above.length > 0 && below.length > 0) gap = below[0] - above[0];
+  else if (side.length >= 2 && Math.abs(side[0]) <= Math.abs(side[1] - side[0]))
+    gap = Math.abs(side[1] - side[0]);
+  else return null;
+  const reach = Math.ceil(ky / 2) * gap;
+  const chosen = [...above.slice(0, wantAbove), ...below.slice(0, wantBelow)].filter(
+    (o) => Math.abs(o) <= reach,
+  );
   // Drop the farthest source while the kernel (target row included) leaves fewer than
   // MIN_TRAINING_ROWS positions for it inside the ACS rows.
   const span = (list: number[]): number => Math.max(0, ...list) - Math.min(0, ...list) + 1;
   chosen.sort((a, b) => Math.abs(a) - Math.abs(b) || a - b);
   while (chosen.length > 0 && acsRows - span(chosen) + 1 < MIN_TRAINING_ROWS) chosen.pop();
-  if (chosen.length === 0) {
-    throw new ValidationError({
-      field: 'sampling.acs',
-      message: `row ${target} has no acquired row close enough to train a GRAPPA kernel on ${acsRows} ACS rows (the gap is wider than the ACS)`,
-      allowed: 'more ACS lines than the widest gap between acquired lines',
-    });
-  }
+  if (chosen.length === 0) return null;
   chosen.sort((a, b) => a - b);
   return { offsets: Int32Array.from(chosen), width };
 }
@@ -190,12 +198,12 @@ export function calibrateKernel(
 /**
  * Fills the missing rows of `kspace` (rows with `acquiredRows[i] = 0`) with the kernel of each row's
  * geometry: y_c(row, col) = Σ_m s_m·W_cm over the source samples s around (row, col), samples
- * beyond the k-space edge taken as 0. Acquired rows are copied unchanged.
+ * beyond the k-space edge taken as 0. Acquired rows are copied unchanged; rows without a kernel stay 0.
  */
 export function applyKernels(
   kspace: MultiCoilKspace,
   acquiredRows: Uint8Array,
-  kernelForRow: (row: number) => GrappaKernel,
+  kernelForRow: (row: number) => GrappaKernel | null,
 ): MultiCoilKspace {
   const { coils: C, nx, ny } = kspace;
   const plane = nx * ny;
@@ -213,6 +221,7 @@ export function applyKernels(
   for (let row = 0; row < ny; row++) {
     if (acquiredRows[row]) continue;
     const kernel = kernelForRow(row);
+    if (!kernel) continue;
     const { offsets, width } = kernel.geometry;
     const K = offsets.length;
     const half = Math.floor(width / 2);

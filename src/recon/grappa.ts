@@ -51,6 +51,8 @@ export interface PreparedGrappa {
   fill(kspace: MultiCoilKspace, mask: Uint8Array): MultiCoilKspace;
   /** Kernels calibrated so far. */
   readonly kernels: ReadonlyMap<string, GrappaKernel>;
+  /** Missing lines of the last fill that no kernel could reach (gap wider than the ACS): left 0. */
+  readonly linesLeftEmpty: number;
 }
 
 /**
@@ -119,17 +121,26 @@ export function prepareGrappa(input: ReconInput, spec: GrappaSpec): PreparedGrap
     ? null
     : requireAcsBlock(input.mask, nx, ny, MIN_TRAINING_ROWS + 1, kernel[1], 'GRAPPA');
   const kernels = new Map<string, GrappaKernel>();
+  let linesLeftEmpty = 0;
   return {
     kernel,
     tikhonov,
     acs,
     kernels,
+    get linesLeftEmpty() {
+      return linesLeftEmpty;
+    },
     fill(kspace, mask) {
       const rows = mask === input.mask ? baseRows : acquiredLines(mask, nx, ny);
+      linesLeftEmpty = 0;
       if (rows.every((r) => r === 1)) return { ...kspace, data: kspace.data.slice() };
       if (!acs) throw new RangeError('GRAPPA was prepared on fully sampled data: no ACS to calibrate from');
       return applyKernels(kspace, rows, (row) => {
         const geometry = kernelGeometryFor(row, rows, kernel[0], kernel[1], acs.rows);
+        if (!geometry) {
+          linesLeftEmpty++;
+          return null;
+        }
         const key = geometryKey(geometry);
         let trained = kernels.get(key);
         if (!trained) {
@@ -146,7 +157,8 @@ export function prepareGrappa(input: ReconInput, spec: GrappaSpec): PreparedGrap
  * GRAPPA (Griswold et al. 2002): each missing phase-encode line of each coil is a linear
  * combination of the acquired neighbouring lines of all coils (kernel [ky, kx]), with weights
  * calibrated on the ACS block by Tikhonov-regularised least squares (grappa-kernel.ts). Uniform and
- * random line patterns alike (one kernel per distinct source geometry). The filled coil k-spaces
+ * random line patterns alike (one kernel per distinct source geometry); a line farther from every
+ * acquired line than the ACS is tall stays empty and is counted in `info.linesLeftEmpty`. The filled coil k-spaces
  * are transformed and combined: sensitivity-weighted when maps are known, else root-sum-of-squares
  * (`info.combination`). Fully sampled data (R = 1) are returned as they are, then combined.
  */
@@ -178,6 +190,7 @@ function grappaInfo(
     tikhonovScale: 'trace(AᴴA)/n (mean squared singular value of the calibration matrix)',
     acs: prepared.acs ? { rows: prepared.acs.rows, columns: prepared.acs.cols } : null,
     kernelsCalibrated: prepared.kernels.size,
+    linesLeftEmpty: prepared.linesLeftEmpty,
     trainingSamples,
     combination,
     coils,
