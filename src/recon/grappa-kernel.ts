@@ -137,22 +137,13 @@ export function calibrateKernel(
     }
   }
   const gram = new Float64Array(2 * n * n);
+  const dot = new Float64Array(2);
   let trace = 0;
   for (let p = 0; p < n; p++) {
     for (let q = 0; q <= p; q++) {
       // (AᴴA)_pq = Σ_t conj(a_tp)·a_tq
-      let re = 0;
-      let im = 0;
-      const ap = 2 * p * T;
-      const aq = 2 * q * T;
-      for (let s = 0; s < 2 * T; s += 2) {
-        const xr = a[ap + s];
-        const xi = a[ap + s + 1];
-        const yr = a[aq + s];
-        const yi = a[aq + s + 1];
-        re += xr * yr + xi * yi;
-        im += xr * yi - xi * yr;
-      }
+      conjugateDot(a, 2 * p * T, a, 2 * q * T, T, dot);
+      const [re, im] = dot;
       gram[2 * (p * n + q)] = re;
       gram[2 * (p * n + q) + 1] = im;
       gram[2 * (q * n + p)] = re;
@@ -165,18 +156,8 @@ export function calibrateKernel(
   const weights = new Float64Array(2 * C * n);
   for (let c = 0; c < C; c++) {
     for (let m = 0; m < n; m++) {
-      let re = 0;
-      let im = 0;
-      const am = 2 * m * T;
-      const bc = 2 * c * T;
-      for (let s = 0; s < 2 * T; s += 2) {
-        const xr = a[am + s];
-        const xi = a[am + s + 1];
-        const yr = b[bc + s];
-        const yi = b[bc + s + 1];
-        re += xr * yr + xi * yi;
-        im += xr * yi - xi * yr;
-      }
+      conjugateDot(a, 2 * m * T, b, 2 * c * T, T, dot);
+      const [re, im] = dot;
       weights[2 * (c * n + m)] = re;
       weights[2 * (c * n + m) + 1] = im;
     }
@@ -193,6 +174,29 @@ export function calibrateKernel(
     solveLowerConjugateTranspose(gram, n, weights, c * n);
   }
   return { geometry, weights, trainingSamples: T, sources: n };
+}
+
+/** out = Σ_t conj(x_t)·y_t over `length` complex numbers from the offsets (interleaved arrays). */
+function conjugateDot(
+  x: Float64Array,
+  xOffset: number,
+  y: Float64Array,
+  yOffset: number,
+  length: number,
+  out: Float64Array,
+): void {
+  let re = 0;
+  let im = 0;
+  for (let s = 0; s < 2 * length; s += 2) {
+    const xr = x[xOffset + s];
+    const xi = x[xOffset + s + 1];
+    const yr = y[yOffset + s];
+    const yi = y[yOffset + s + 1];
+    re += xr * yr + xi * yi;
+    im += xr * yi - xi * yr;
+  }
+  out[0] = re;
+  out[1] = im;
 }
 
 /**

@@ -50,7 +50,8 @@ export interface PseudoReplicaResult {
  * noise-only form: it equals the SNR form g = SNR_full / (SNR_accelerated·√R) when the reconstruction
  * keeps the object's scale (SENSE, GRAPPA); zero-filled uniform undersampling scales the object by
  * 1/R as well, so its noise-only g is 1/R, not 1. Noise: n = σ·L·z per sample (Ψ = L·Lᴴ, CoilNoise),
- * drawn from SeededRandom(seed), accelerated replicas first; unacquired samples are zeroed.
+ * drawn from SeededRandom(seed), accelerated replicas first (white noise at the acquired samples
+ * only, coil by coil); unacquired samples are zeroed.
  * monteCarloError: the std from M replicas has relative standard error ≈ 1/√(2ν), ν = 2(M − 1)
  * degrees of freedom for complex images and M − 1 for real ones (root-sum-of-squares), and g is a
  * ratio of two such estimates: √(2/(2ν)) = 1/√ν.
@@ -81,7 +82,7 @@ export function pseudoReplicaGFactor(options: PseudoReplicaOptions): PseudoRepli
   if (acquiredCount === 0) throw new RangeError('the mask acquires nothing');
   const acceleration = n / acquiredCount;
   const fullMask = new Uint8Array(n).fill(1);
-  const white = noise ?? null;
+  const correlated = noise ?? null;
   const random = new SeededRandom(seed);
   const replica = createMultiCoilArray(coils, nx, ny);
 
@@ -92,13 +93,19 @@ export function pseudoReplicaGFactor(options: PseudoReplicaOptions): PseudoRepli
     for (let k = 0; k < replicas; k++) {
       throwIfAborted(signal);
       replica.data.set(data.data);
-      if (white) white.addNoise(replica, sigma, random);
-      else for (let i = 0; i < replica.data.length; i++) replica.data[i] += sigma * random.normal();
+      if (correlated) correlated.addNoise(replica, sigma, random);
+      const d = replica.data;
       for (let c = 0; c < coils; c++) {
         for (let i = 0; i < n; i++) {
-          if (sampled[i]) continue;
-          replica.data[2 * (c * n + i)] = 0;
-          replica.data[2 * (c * n + i) + 1] = 0;
+          const at = 2 * (c * n + i);
+          if (!sampled[i]) {
+            d[at] = 0;
+            d[at + 1] = 0;
+          } else if (!correlated) {
+            // White noise is drawn at the acquired samples only (the draws dominate the cost).
+            d[at] += sigma * random.normal();
+            d[at + 1] += sigma * random.normal();
+          }
         }
       }
       const x = reconstruct(replica, sampled).data;

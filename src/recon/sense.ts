@@ -6,13 +6,13 @@ import { CartesianEncoding, type CoilMaps, type MultiCoilKspace } from '../encod
 import { ACS_MAP_METHOD, estimateAcsMaps } from './acs-maps.ts';
 import { requireAcsBlock } from './acs-region.ts';
 import { conjugateGradient } from './conjugate-gradient.ts';
+import { TOLERANCE_RULE } from './cs-tv.ts';
 import type { ReconInput, ReconMethod, ReconOutput } from './method.ts';
 import { checkedChoice, checkedNumber, iterationsToRun, type NumberRule } from './parameters.ts';
 
 export const SENSE_DEFAULT_ITERATIONS = 50;
 export const SENSE_DEFAULT_TOLERANCE = 1e-6;
 export const SENSE_TIKHONOV_RULE: NumberRule = { min: 0, max: 1 };
-export const SENSE_TOLERANCE_RULE: NumberRule = { min: 0, max: 1, maxExclusive: true };
 /** The smallest ACS block the map estimate accepts: a few lines give a map, fewer give noise. */
 export const SENSE_MIN_ACS_ROWS = 4;
 
@@ -118,7 +118,7 @@ export function prepareSense(input: ReconInput, spec: SenseSpec, limits: Limits)
   const tolerance = checkedNumber(
     spec.tolerance,
     'method.tolerance',
-    SENSE_TOLERANCE_RULE,
+    TOLERANCE_RULE,
     SENSE_DEFAULT_TOLERANCE,
   );
   const tikhonov = checkedNumber(spec.tikhonov, 'method.tikhonov', SENSE_TIKHONOV_RULE, 0);
