@@ -54,7 +54,7 @@ describe('g-factor maps: analytic SENSE (Pruessmann et al. 1999) and pseudo mult
     });
     const ratios: number[] = [];
     for (let i = 0; i < n * n; i++) if (support[i]) ratios.push(result.map[i] / analytic[i]);
-    // Measured 0.9946 (100 replicas: 0.995 with seed 3, 0.994 with seed 5). Per pixel the relative standard
+    // Measured 1.0022 (an earlier noise order gave 0.9946; 100 replicas: 0.995 and 0.994). Per pixel the relative standard
     // error is 1/√(2·49) = 0.10, the value reported.
     expect(Math.abs(median(ratios) - 1)).toBeLessThan(0.05);
     expect(result.monteCarloError).toBeCloseTo(1 / Math.sqrt(98), 12);
@@ -79,7 +79,7 @@ describe('g-factor maps: analytic SENSE (Pruessmann et al. 1999) and pseudo mult
     expect(result.method).toBe('pseudo-replica');
     expect(result.replicas).toBe(40);
     // Two independent estimates of the same noise; the mean of their ratio is biased up by about the
-    // relative variance, 1/(2·dof). Measured 1.028 with 20 replicas.
+    // relative variance, 1/(2·dof). Measured 0.997 (1.028 with 20 replicas).
     expect(Math.abs(result.mean - 1)).toBeLessThan(0.05);
   });
 
