@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { ValidationError } from '../core/errors.ts';
+import { throwIfAborted, ValidationError } from '../core/errors.ts';
 import type { MultiCoilKspace } from '../encoding/index.ts';
 import { type AcsBlock, requireAcsBlock } from './acs-region.ts';
 import { type CoilCombination, coilImages, combineCoilImages } from './coil-combination.ts';
@@ -48,7 +48,7 @@ export interface PreparedGrappa {
   tikhonov: number;
   acs: AcsBlock | null;
   /** The filled coil k-space of `kspace` (same line mask or another one; kernels are cached per geometry). */
-  fill(kspace: MultiCoilKspace, mask: Uint8Array): MultiCoilKspace;
+  fill(kspace: MultiCoilKspace, mask: Uint8Array, signal?: AbortSignal): MultiCoilKspace;
   /** Kernels calibrated so far. */
   readonly kernels: ReadonlyMap<string, GrappaKernel>;
   /** Missing lines of the last fill that no kernel could reach (gap wider than the ACS): left 0. */
@@ -130,12 +130,13 @@ export function prepareGrappa(input: ReconInput, spec: GrappaSpec): PreparedGrap
     get linesLeftEmpty() {
       return linesLeftEmpty;
     },
-    fill(kspace, mask) {
+    fill(kspace, mask, signal) {
       const rows = mask === input.mask ? baseRows : acquiredLines(mask, nx, ny);
       linesLeftEmpty = 0;
       if (rows.every((r) => r === 1)) return { ...kspace, data: kspace.data.slice() };
       if (!acs) throw new RangeError('GRAPPA was prepared on fully sampled data: no ACS to calibrate from');
       return applyKernels(kspace, rows, (row) => {
+        throwIfAborted(signal);
         const geometry = kernelGeometryFor(row, rows, kernel[0], kernel[1], acs.rows);
         if (!geometry) {
           linesLeftEmpty++;
@@ -165,9 +166,9 @@ export function prepareGrappa(input: ReconInput, spec: GrappaSpec): PreparedGrap
 export const grappa: ReconMethod<GrappaSpec> = {
   name: 'grappa',
   schema: grappaSchema,
-  run(input, spec): ReconOutput {
+  run(input, spec, { signal }): ReconOutput {
     const prepared = prepareGrappa(input, spec);
-    const filled = prepared.fill(coilKspaceOf(input), input.mask);
+    const filled = prepared.fill(coilKspaceOf(input), input.mask, signal);
     const maps = input.coils?.maps;
     const { image, combination } = combineCoilImages(coilImages(filled), maps);
     return {

@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { CancelledError } from '../../src/core/errors.ts';
 import { defaultLimits } from '../../src/core/limits.ts';
 import { reconstruct } from '../../src/recon/index.ts';
 import { caughtValidationError } from '../core/caught-validation-error.ts';
@@ -88,5 +89,17 @@ describe('iterative SENSE (Pruessmann, Weiger, Börnert & Boesiger 2001)', () =>
     expect(
       caughtValidationError(() => reconstruct(coilInput(y, mask), { name: 'sense' })).problems[0].field,
     ).toBe('sampling.acs');
+  });
+
+  it('SENSE and GRAPPA stop with CancelledError when the signal has fired', () => {
+    const n = 32;
+    const maps = loopMaps(n);
+    const mask = uniformLines(n, 2, 8);
+    const y = encodedKspace(phantomRaster(n), mask, maps);
+    const controller = new AbortController();
+    controller.abort();
+    const options = { signal: controller.signal, limits };
+    expect(() => reconstruct(coilInput(y, mask, maps), { name: 'sense' }, options)).toThrow(CancelledError);
+    expect(() => reconstruct(coilInput(y, mask), { name: 'grappa' }, options)).toThrow(CancelledError);
   });
 });
