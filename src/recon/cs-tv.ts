@@ -3,11 +3,11 @@ import { fft2c, ifft2c } from '../core/centered-fft.ts';
 import { type ComplexImage, createComplexImage } from '../core/complex-image.ts';
 import { throwIfAborted } from '../core/errors.ts';
 import { type ReconInput, type ReconMethod, type ReconOutput, refuseCoilArray } from './method.ts';
-import { checkedNumber, iterationsToRun, type NumberRule } from './parameters.ts';
+import { checkedNumber, checkedTolerance, iterationsToRun, type NumberRule } from './parameters.ts';
 import { divergence, gradient, totalVariation, tvDualStep } from './total-variation.ts';
 
 export const LAMBDA_RULE: NumberRule = { min: 0, max: 10 };
-export const TOLERANCE_RULE: NumberRule = { min: 0, max: 1, maxExclusive: true };
+export { TOLERANCE_RULE } from './parameters.ts';
 export const CS_TV_DEFAULT_ITERATIONS = 300;
 export const CS_TV_DEFAULT_TOLERANCE = 1e-5;
 
@@ -177,12 +177,7 @@ export const csTv: ReconMethod<CsTvSpec> = {
     const fraction = acquiredFraction(input.mask);
     const lambda = checkedNumber(spec.lambda, 'method.lambda', LAMBDA_RULE, defaultTvLambda(fraction));
     const iterations = iterationsToRun(spec.iterations, CS_TV_DEFAULT_ITERATIONS, limits);
-    const tolerance = checkedNumber(
-      spec.tolerance,
-      'method.tolerance',
-      TOLERANCE_RULE,
-      CS_TV_DEFAULT_TOLERANCE,
-    );
+    const tolerance = checkedTolerance(spec.tolerance, CS_TV_DEFAULT_TOLERANCE);
     const peak = zeroFilledPeak(input);
     const result = solveCsTv(input, lambda * peak, iterations, tolerance, signal);
     return {

@@ -6,9 +6,14 @@ import { CartesianEncoding, type CoilMaps, type MultiCoilKspace } from '../encod
 import { ACS_MAP_METHOD, estimateAcsMaps } from './acs-maps.ts';
 import { requireAcsBlock } from './acs-region.ts';
 import { conjugateGradient } from './conjugate-gradient.ts';
-import { TOLERANCE_RULE } from './cs-tv.ts';
 import type { ReconInput, ReconMethod, ReconOutput } from './method.ts';
-import { checkedChoice, checkedNumber, iterationsToRun, type NumberRule } from './parameters.ts';
+import {
+  checkedChoice,
+  checkedNumber,
+  checkedTolerance,
+  iterationsToRun,
+  type NumberRule,
+} from './parameters.ts';
 
 export const SENSE_DEFAULT_ITERATIONS = 50;
 export const SENSE_DEFAULT_TOLERANCE = 1e-6;
@@ -115,12 +120,7 @@ export function prepareSense(input: ReconInput, spec: SenseSpec, limits: Limits)
     });
   }
   const iterationLimit = iterationsToRun(spec.iterations, SENSE_DEFAULT_ITERATIONS, limits);
-  const tolerance = checkedNumber(
-    spec.tolerance,
-    'method.tolerance',
-    TOLERANCE_RULE,
-    SENSE_DEFAULT_TOLERANCE,
-  );
+  const tolerance = checkedTolerance(spec.tolerance, SENSE_DEFAULT_TOLERANCE);
   const tikhonov = checkedNumber(spec.tikhonov, 'method.tikhonov', SENSE_TIKHONOV_RULE, 0);
   const tikhonovAbsolute = tikhonov * (maps ? peakSensitivityPower(maps) : 1);
   return {
