@@ -9,6 +9,8 @@ export interface CoilAcquisition {
   kspace: MultiCoilKspace;
   /** The simulation's maps, prewhitened like the data. */
   maps: CoilMaps;
+  /** The fully sampled noiseless coil k-space, prewhitened like the data (for noise replicas). */
+  full: MultiCoilKspace;
   /** σ of the optimally combined fully sampled image (per real channel): mean |x_ref| over the object / SNR. */
   sigma: number;
   /** σ per real channel of each coil's receiver noise before prewhitening (the unit diagonal of Ψ). */
@@ -54,8 +56,12 @@ export function acquireCoils(
       kspace.data[at + 1] = noisy.data[at + 1];
     }
   }
-  if (!white) model.prewhiten(kspace);
-  return { kspace, maps, sigma, coilSigma };
+  const whitenedFull = { ...full, data: full.data.slice() };
+  if (!white) {
+    model.prewhiten(kspace);
+    model.prewhiten(whitenedFull);
+  }
+  return { kspace, maps, full: whitenedFull, sigma, coilSigma };
 }
 
 /** Ψ = I exactly: prewhitening would divide by ones, so it is skipped. */

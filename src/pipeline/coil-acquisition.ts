@@ -62,7 +62,7 @@ export function phantomCoilSimulation(source: PhantomCoilSource): CoilSimulation
   const fitted = evaluateTrigPolynomial(fit, nx, ny);
   const kspace = analyticCoilKspace(phantom, fit, nx, ny);
   const truth = phaseFactor ? multiplyPlanes(fitted, phaseFactor, true) : fitted;
-  const reference = combineCoilImages(coilImages(kspace), truth);
+  const reference = combineCoilImages(coilImages(kspace), truth).image;
   const objectMask = objectMaskOf(reference);
   const error = trigFitError(smooth, fitted, objectMask);
   return {
@@ -91,7 +91,7 @@ function imageSimulation(object: ComplexImage, maps: CoilMaps, noise: CoilNoise)
   const { nx, ny } = object;
   const kspace = multiplyPlanes(maps, object.data, false);
   for (let c = 0; c < maps.coils; c++) transformPlaneInPlace(kspace.data, c * nx * ny, nx, ny, -1);
-  const reference = combineCoilImages(coilImages(kspace), maps);
+  const reference = combineCoilImages(coilImages(kspace), maps).image;
   return { kspace, maps, noise, reference, objectMask: objectMaskOf(reference), inverseCrime: true };
 }
 

@@ -1,9 +1,11 @@
 import { z } from 'zod';
 import type { SampledMask } from '../../sampling/index.ts';
+import { sigmaForSnr } from '../acquisition/noise.ts';
 import { senseGFactorMap, summariseGFactor } from '../coils/index.ts';
+import type { ComplexImage } from '../core/complex-image.ts';
 import type { Limits } from '../core/limits.ts';
-import type { CoilMaps } from '../encoding/index.ts';
-import type { MethodSpec, ReconInput } from '../recon/index.ts';
+import type { CoilMaps, MultiCoilKspace } from '../encoding/index.ts';
+import { gFactorFor, type MethodSpec, type ReconInput } from '../recon/index.ts';
 
 /** How a g-factor was found: the closed form of SENSE on a uniform lattice, or noise replicas. */
 export type GFactorMethod = 'analytic' | 'pseudo-replica';
@@ -48,15 +50,28 @@ export interface GFactorInput {
     coilSigma: number;
     seed: number;
     options: { signal?: AbortSignal; limits: Limits };
+    /** The fully sampled noiseless coil k-space, prewhitened (the replicas' reference scan). */
+    full: MultiCoilKspace;
+    /** The base run's info: its λ and iteration count are what the replicas reuse. */
+    baseInfo: Record<string, unknown>;
+    /** The reference image (its mean over the object sets σ for noiseless runs). */
+    reference: ComplexImage;
+    /** Replicas requested (`gFactor.replicas`); without it no pseudo-replica estimate is made. */
+    count?: number;
   };
 }
+
+/** SNR whose noise the replicas of a noiseless run use (any level works for a linear method). */
+export const NOISELESS_REPLICA_SNR = 40;
 
 /**
  * The g-factor of a multi-coil reconstruction, where one applies. This is the one call site that
  * chooses how: the analytic SENSE g-factor (Pruessmann et al. 1999) when the method is `sense` and the
  * mask is a uniform Cartesian lattice (every R-th row, no extra calibration rows, R dividing ny and at
- * most the coil count). A pseudo-replica estimate for any other method and mask belongs here, in
- * place of the final `return undefined`; until it exists no g-factor is reported for those.
+ * most the coil count). Any other method and mask: a pseudo-replica estimate (Robson et al. 2008,
+ * gFactorFor) when the request asks for replicas — each costs a reconstruction — else none. The
+ * replicas reuse the base run's λ and iteration count; a noiseless run uses the noise of SNR
+ * NOISELESS_REPLICA_SNR.
  */
 export function reconstructionGFactor(input: GFactorInput): GFactorResult | undefined {
   const R = uniformLatticeStep(input.sampled);
@@ -70,7 +85,34 @@ export function reconstructionGFactor(input: GFactorInput): GFactorResult | unde
       ...retained(map, input.objectMask, R),
     };
   }
-  return undefined;
+  const replicas = input.replicas;
+  if (!replicas?.count) return undefined;
+  const sigma =
+    replicas.coilSigma > 0
+      ? replicas.coilSigma
+      : sigmaForSnr(replicas.reference, input.objectMask, NOISELESS_REPLICA_SNR);
+  const result = gFactorFor({
+    input: replicas.input,
+    method: replicas.method,
+    baseInfo: replicas.baseInfo,
+    full: replicas.full,
+    sigma,
+    support: input.objectMask,
+    replicas: replicas.count,
+    seed: replicas.seed,
+    limits: replicas.options.limits,
+    signal: replicas.options.signal,
+  });
+  const { mean, p95, max, map } = result;
+  return {
+    mean,
+    p95,
+    max,
+    method: result.method,
+    replicas: result.method === 'analytic' ? null : result.replicas,
+    map,
+    ...retained(map, input.objectMask, input.sampled.acceleration.actual),
+  };
 }
 
 /** R when the mask acquires exactly the rows ⌊ny/2⌋ + k·R (every column), R an integer dividing ny; else null. */

@@ -102,6 +102,26 @@ export const phaseSchema = z
   .meta({ id: 'ObjectPhase' });
 export type PhaseSpec = z.output<typeof phaseSchema>;
 
+/** Replica counts a pseudo-replica g-factor may ask for. */
+export const G_FACTOR_REPLICAS = { min: 2, max: 200 } as const;
+
+export const gFactorRequestSchema = z
+  .strictObject({
+    replicas: z
+      .int()
+      .min(G_FACTOR_REPLICAS.min)
+      .max(G_FACTOR_REPLICAS.max)
+      .describe(
+        'noise replicas of the pseudo-replica g-factor (Robson et al. 2008); each costs one reconstruction, ' +
+          'plus one at full sampling',
+      ),
+  })
+  .describe(
+    'a pseudo-replica g-factor for methods without a closed form (SENSE on a uniform lattice always has the analytic one)',
+  )
+  .meta({ id: 'GFactorRequest' });
+export type GFactorRequestSpec = z.output<typeof gFactorRequestSchema>;
+
 /** The label a table and a response use for an array: "uniform", "8 loops", "maps abc…". */
 export function coilsLabel(spec: CoilsSpec): string {
   if ('mapsId' in spec) return `maps ${spec.mapsId}`;

@@ -24,7 +24,7 @@ import { defaultLimits, type Limits } from '../core/limits.ts';
 import { matrixSchemaFor } from '../core/matrix.ts';
 import type { RealImage } from '../core/real-image.ts';
 import { parseOrThrow } from '../core/zod-problems.ts';
-import type { CoilMaps } from '../encoding/index.ts';
+import type { CoilMaps, MultiCoilKspace } from '../encoding/index.ts';
 import { type MetricSet, SSIM_RADIUS, scoreAll } from '../metrics/index.ts';
 import { densityWeightsFor, nufftPlanFor } from '../nufft/index.ts';
 import { getPhantom } from '../phantoms/index.ts';
@@ -47,7 +47,15 @@ import {
   phasedSingleCoil,
 } from './coil-acquisition.ts';
 import { type GFactorResult, reconstructionGFactor } from './coil-g-factor.ts';
-import { type CoilsSpec, coilsLabel, coilsSchema, type PhaseSpec, phaseSchema } from './coil-request.ts';
+import {
+  type CoilsSpec,
+  coilsLabel,
+  coilsSchema,
+  type GFactorRequestSpec,
+  gFactorRequestSchema,
+  type PhaseSpec,
+  phaseSchema,
+} from './coil-request.ts';
 import { resampleBilinear } from './resample.ts';
 
 export const sourceSchema = z.union([
@@ -76,6 +84,8 @@ export interface ReconstructionRequest {
   coils?: CoilsSpec;
   /** A smooth object phase (the object becomes complex). */
   phase?: PhaseSpec;
+  /** Ask for a pseudo-replica g-factor where no closed form applies. */
+  gFactor?: GFactorRequestSpec;
 }
 
 /** The receive array as a response echoes it. */
@@ -365,6 +375,7 @@ export function reconstructionRequestSchemaFor(limits: Limits) {
     method: methodSchemaFor(limits),
     coils: coilsSchema.optional(),
     phase: phaseSchema.optional(),
+    gFactor: gFactorRequestSchema.optional(),
   });
 }
 
@@ -400,6 +411,7 @@ export async function runReconstruction(
   let referenceImage: ComplexImage;
   let objectMask: Uint8Array;
   let coilSigma = 0;
+  let whitenedFull: MultiCoilKspace | undefined;
   if (simulation) {
     if (sampled.trajectory) {
       throw new ValidationError({
@@ -416,6 +428,7 @@ export async function runReconstruction(
       );
     }
     coilSigma = acquired.coilSigma;
+    whitenedFull = acquired.full;
     const coilData: CoilData = { kspace: acquired.kspace, maps: acquired.maps };
     coilZeroFilled = zeroFilledCoilCombination(coilData);
     input = { kspace: fft2c(coilZeroFilled), mask: sampled.mask, density: sampled.density, coils: coilData };
@@ -454,7 +467,7 @@ export async function runReconstruction(
   for (let i = 0; i < errorMap.length; i++)
     errorMap[i] = Math.abs(reconstruction.data[i] - reference.data[i]);
   const gFactor =
-    simulation && input.coils?.maps
+    whitenedFull && input.coils?.maps
       ? reconstructionGFactor({
           method: req.method.name,
           sampled,
@@ -466,6 +479,10 @@ export async function runReconstruction(
             coilSigma,
             seed: noiseSeedFor(baseSeed),
             options: { signal: ctx.signal, limits },
+            full: whitenedFull,
+            baseInfo: methodOutput.info,
+            reference: referenceImage,
+            ...(req.gFactor ? { count: req.gFactor.replicas } : {}),
           },
         })
       : undefined;

@@ -34,6 +34,7 @@ export async function runCellOutcome(
       method: cell.method,
       coils: cell.coils,
       ...(plan.phase === undefined ? {} : { phase: plan.phase }),
+      ...(plan.gFactor === undefined ? {} : { gFactor: plan.gFactor }),
     },
     cell.seed,
     ctx,

@@ -11,6 +11,7 @@ import {
   cartesianUniformSchema,
   coilsSchema,
   customSchema,
+  gFactorRequestSchema,
   latticeSchema,
   methodSchemaFor,
   noiseSchema,
@@ -102,6 +103,7 @@ function buildPlanSchema(limits: Limits) {
           'receive arrays swept for every pattern × R × method (default [{ "array": "uniform" }]); the reference row uses the first',
         ),
       phase: phaseSchema.optional(),
+      gFactor: gFactorRequestSchema.optional(),
       target: targetSchema.optional(),
       targets: z
         .array(planTargetSchema)

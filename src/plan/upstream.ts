@@ -24,6 +24,7 @@ export {
   type CoilsSpec,
   coilsLabel,
   coilsSchema,
+  gFactorRequestSchema,
   type PhaseSpec,
   phaseSchema,
 } from '../pipeline/coil-request.ts';

@@ -7,12 +7,12 @@ import { CartesianEncoding, type EncodingOperator, NonCartesianEncoding } from '
 import { toeplitzFor } from '../nufft/plan-cache.ts';
 import { backProjectionPeak, PROX_TOLERANCE, solveCsTvEncoding } from './cs-tv-encoding.ts';
 import type { CoilData, ReconInput, ReconMethod, ReconOutput } from './method.ts';
-import { checkedNumber, iterationsToRun, type NumberRule } from './parameters.ts';
+import { checkedNumber, checkedTolerance, iterationsToRun, type NumberRule } from './parameters.ts';
 import { extrapolate } from './primal-extrapolation.ts';
 import { totalVariation, tvDualAscent } from './total-variation.ts';
 
 export const LAMBDA_RULE: NumberRule = { min: 0, max: 10 };
-export const TOLERANCE_RULE: NumberRule = { min: 0, max: 1, maxExclusive: true };
+export { TOLERANCE_RULE } from './parameters.ts';
 export const CS_TV_DEFAULT_ITERATIONS = 300;
 export const CS_TV_DEFAULT_TOLERANCE = 1e-5;
 
@@ -170,12 +170,7 @@ export const csTv: ReconMethod<CsTvSpec> = {
     const fraction = acquiredFraction(input.mask);
     const lambda = checkedNumber(spec.lambda, 'method.lambda', LAMBDA_RULE, defaultTvLambda(fraction));
     const iterations = iterationsToRun(spec.iterations, CS_TV_DEFAULT_ITERATIONS, limits);
-    const tolerance = checkedNumber(
-      spec.tolerance,
-      'method.tolerance',
-      TOLERANCE_RULE,
-      CS_TV_DEFAULT_TOLERANCE,
-    );
+    const tolerance = checkedTolerance(spec.tolerance, CS_TV_DEFAULT_TOLERANCE);
     const lambdaSource = spec.lambda === undefined ? 'default from acquired fraction' : 'request';
     const params = { lambda, lambdaSource, iterations, tolerance };
     if (input.trajectory) {

@@ -4,7 +4,23 @@ import { defaultLimits } from '../core/limits.ts';
 import type { ReconInput, ReconOptions, ReconOutput } from './method.ts';
 import { type MethodSpec, reconMethods, runMethod } from './registry.ts';
 
-export { coilImages, combineCoilImages, zeroFilledCoilCombination } from './coil-combine.ts';
+export { ACS_MAP_METHOD, ACS_MAP_SUPPORT_THRESHOLD, estimateAcsMaps } from './acs-maps.ts';
+export { type AcsBlock, findAcsBlock } from './acs-region.ts';
+export {
+  type CoilCombination,
+  coilImages,
+  combineCoilImages,
+  zeroFilledCoilCombination,
+} from './coil-combination.ts';
+export {
+  DEFAULT_G_REPLICAS,
+  type GFactorRequest,
+  type GFactorResult,
+  gFactorFor,
+  replicaReconstructor,
+  uniformCartesianAcceleration,
+} from './g-factor.ts';
+export { type GrappaSpec, type PreparedGrappa, prepareGrappa } from './grappa.ts';
 export type {
   CoilData,
   ReconInput,
@@ -18,7 +34,14 @@ export {
   type PartialFourierMethod,
   partialFourierStep,
 } from './partial-fourier/partial-fourier-step.ts';
+export {
+  type PseudoReplicaOptions,
+  type PseudoReplicaResult,
+  pseudoReplicaGFactor,
+  type ReplicaReconstruction,
+} from './pseudo-replica.ts';
 export { type MethodName, type MethodSpec, methodSchema, methodSchemaFor, reconMethods } from './registry.ts';
+export { type PreparedSense, prepareSense, type SenseSpec } from './sense.ts';
 export { zeroFilledImage } from './zero-filled.ts';
 
 /**

@@ -419,7 +419,7 @@ function runOnCoils(
   const result = solveLowrankHankelCoils(kspace, mask, { ...params, rankForEnergy }, signal);
   const images = result.kspace;
   for (let c = 0; c < images.coils; c++) transformPlaneInPlace(images.data, c * nx * ny, nx, ny, 1);
-  const image = combineCoilImages(images, maps);
+  const image = combineCoilImages(images, maps).image;
   return {
     image,
     info: {

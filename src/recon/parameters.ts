@@ -42,6 +42,14 @@ export function checkedNumber(value: unknown, field: string, rule: NumberRule, f
   return value as number;
 }
 
+/** A relative stopping tolerance: 0 ≤ tolerance < 1. */
+export const TOLERANCE_RULE: NumberRule = { min: 0, max: 1, maxExclusive: true };
+
+/** `method.tolerance` checked against TOLERANCE_RULE, or the method's default. */
+export function checkedTolerance(value: unknown, fallback: number): number {
+  return checkedNumber(value, 'method.tolerance', TOLERANCE_RULE, fallback);
+}
+
 /**
  * The iteration count to run: the request's (already checked against limits.maxIterations by the
  * method schema, methodSchemaFor) or the method's default, never above the configured limit.

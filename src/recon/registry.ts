@@ -2,9 +2,11 @@ import { z } from 'zod';
 import type { Limits } from '../core/limits.ts';
 import { withinLimit } from '../core/zod-problems.ts';
 import { csTv, csTvSchema } from './cs-tv.ts';
+import { grappa, grappaSchema } from './grappa.ts';
 import { lowrankHankel, lowrankHankelSchema } from './lowrank-hankel.ts';
 import type { ReconInput, ReconMethod, ReconOutput } from './method.ts';
 import { partialFourierMethodField as pf } from './partial-fourier/partial-fourier-step.ts';
+import { sense, senseSchema } from './sense.ts';
 import { zeroFilled, zeroFilledSchema } from './zero-filled.ts';
 
 // Every method takes `partialFourier` (how rows left out by partial Fourier are filled; a step after the method).
@@ -12,6 +14,8 @@ export const methodSchema = z.discriminatedUnion('name', [
   zeroFilledSchema.extend(pf),
   csTvSchema.extend(pf),
   lowrankHankelSchema.extend(pf),
+  senseSchema.extend(pf),
+  grappaSchema.extend(pf),
 ]);
 export type MethodSpec = z.infer<typeof methodSchema>;
 export type MethodName = MethodSpec['name'];
@@ -27,6 +31,8 @@ const methodByName: { readonly [N in MethodName]: ReconMethod<SpecByName[N]> } =
   'zero-filled': zeroFilled,
   'cs-tv': csTv,
   'lowrank-hankel': lowrankHankel,
+  sense,
+  grappa,
 };
 
 /** The registered methods by name, for lookups of a name not yet known to be valid. */
@@ -65,6 +71,8 @@ export function methodSchemaFor(limits: Limits): typeof methodSchema {
         iterations: limitedIterations(lowrankHankelSchema.shape.iterations, max),
         ...pf,
       }),
+      senseSchema.extend({ iterations: limitedIterations(senseSchema.shape.iterations, max) }),
+      grappaSchema,
     ]) as typeof methodSchema;
     limitedSchemas.set(max, schema);
   }

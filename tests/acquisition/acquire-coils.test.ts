@@ -48,7 +48,7 @@ describe('acquireCoils: SNR of the combined image', () => {
     for (const correlation of [0, 0.3]) {
       const simulation = loops(correlation);
       const acquired = acquireCoils(simulation, everything, { snr }, 11);
-      const combined = combineCoilImages(coilImages(acquired.kspace), acquired.maps);
+      const combined = combineCoilImages(coilImages(acquired.kspace), acquired.maps).image;
       measured.push(measuredSigma(combined, simulation.reference, simulation.objectMask) / acquired.sigma);
       // The target σ itself is the single-coil definition on the multi-coil reference.
       expect(acquired.sigma).toBeGreaterThan(0);
@@ -63,7 +63,7 @@ describe('acquireCoils: SNR of the combined image', () => {
     const simulation = loops(0);
     const acquired = acquireCoils(simulation, everything, undefined, 1);
     expect(acquired.sigma).toBe(0);
-    const combined = combineCoilImages(coilImages(acquired.kspace), acquired.maps);
+    const combined = combineCoilImages(coilImages(acquired.kspace), acquired.maps).image;
     expect(measuredSigma(combined, simulation.reference, everything)).toBeLessThan(1e-12);
   });
 

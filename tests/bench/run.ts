@@ -24,6 +24,7 @@ for (const [title, path, name] of [
   ['metrics', './metrics.bench.ts', 'benchMetrics'],
   ['sampling', './sampling.bench.ts', 'benchSampling'],
   ['encoding', './encoding.bench.ts', 'benchEncoding'],
+  ['parallel imaging', './parallel-imaging.bench.ts', 'benchParallelImaging'],
   ['nufft', './nufft.bench.ts', 'benchNufft'],
   ['reconstruction', './recon.bench.ts', 'benchRecon'],
   ['coil reconstruction', './coil-recon.bench.ts', 'benchCoilRecon'],

@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { generateMask } from '../../sampling/index.ts';
 import { CoilNoise } from '../../src/coils/index.ts';
 import { reconstructionGFactor, uniformLatticeStep } from '../../src/pipeline/coil-g-factor.ts';
+import { runReconstruction } from '../../src/pipeline/run-reconstruction.ts';
 import { coilFixture, gaussianArrayMaps } from '../coils/fixture.ts';
 
 // The g-factor a reconstruction reports, through the pipeline's one call site. Check values: the
@@ -84,5 +85,52 @@ describe('uniformLatticeStep', () => {
     expect(
       uniformLatticeStep(generateMask(m, { pattern: 'cartesian-random', acceleration: 2, seed: 1 })),
     ).toBeNull();
+  });
+});
+
+describe('g-factor through a reconstruction request', () => {
+  const request = (method: { name: 'sense' } | { name: 'grappa' }, extra: object = {}) =>
+    runReconstruction(
+      {
+        source: { phantom: 'shepp-logan-modified' },
+        matrix: { nx: 64, ny: 64 },
+        sampling: { pattern: 'cartesian-uniform', acceleration: 2, acs: 16 },
+        method,
+        noise: { snr: 40 },
+        coils: { array: 'loops', count: 8, loopRadius: 0.35, ringRadius: 1.25 },
+        ...extra,
+      },
+      1,
+    );
+
+  it('no closed form (ACS lines in the mask): pseudo-replica only when replicas are asked for', async () => {
+    expect((await request({ name: 'grappa' })).gFactor).toBeUndefined();
+    const out = await request({ name: 'grappa' }, { gFactor: { replicas: 10 } });
+    expect(out.gFactor).toMatchObject({ method: 'pseudo-replica', replicas: 10 });
+    // Measured mean 1.17 (g ≥ 1 expected on average for GRAPPA at R = 2 with 8 coils; Robson et
+    // al. 2008 report g of the same order), max 3.1 at the object's edge where 10 replicas are noisy.
+    expect(out.gFactor?.mean).toBeGreaterThan(0.9);
+    expect(out.gFactor?.mean).toBeLessThan(1.5);
+    // SNR retained is 1/(g·√R) pixel by pixel, so its mean is at most 1/(min g·√2).
+    expect(out.snrRetained?.mean).toBeGreaterThan(0);
+    expect(out.images.gFactor?.data.length).toBe(64 * 64);
+  });
+
+  it('SENSE on every second row keeps the analytic form, whatever the replicas', async () => {
+    const out = await runReconstruction(
+      {
+        source: { phantom: 'shepp-logan-modified' },
+        matrix: { nx: 64, ny: 64 },
+        sampling: { pattern: 'cartesian-uniform', acceleration: 2 },
+        method: { name: 'sense' },
+        coils: { array: 'loops', count: 8, loopRadius: 0.35, ringRadius: 1.25 },
+        gFactor: { replicas: 10 },
+      },
+      1,
+    );
+    expect(out.gFactor).toMatchObject({ method: 'analytic', replicas: null });
+    // Measured mean 1.034, max 1.078 for 8 loops at R = 2 (64²).
+    expect(out.gFactor?.mean).toBeGreaterThanOrEqual(1);
+    expect(out.gFactor?.max).toBeLessThan(1.2);
   });
 });

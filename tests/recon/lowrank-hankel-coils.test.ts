@@ -15,7 +15,7 @@ function rssImage(kspace: { coils: number; nx: number; ny: number; data: Float64
   for (let c = 0; c < kspace.coils; c++) {
     transformPlaneInPlace(data, c * kspace.nx * kspace.ny, kspace.nx, kspace.ny, 1);
   }
-  return combineCoilImages({ ...kspace, data });
+  return combineCoilImages({ ...kspace, data }).image;
 }
 
 describe('lowrank-hankel on the coils’ stacked block-Hankel matrices (Shin et al. 2014, docs/references.md §5.3)', () => {

@@ -9,6 +9,9 @@ describe('methodSchema (the request piece, docs/design.md §4.3 "method")', () =
       { name: 'cs-tv', lambda: 0.005, iterations: 100 },
       { name: 'lowrank-hankel', kernel: 7, rank: 20, iterations: 50 },
       { name: 'lowrank-hankel', kernel: [9, 5], energy: 0.98, weighting: 'none' },
+      { name: 'sense', maps: 'acs', iterations: 30, tikhonov: 0.01, tolerance: 1e-6 },
+      { name: 'sense', maps: 'true' },
+      { name: 'grappa', kernel: [4, 5], tikhonov: 0.001 },
     ]) {
       expect(methodSchema.safeParse(spec).success).toBe(true);
     }
@@ -23,13 +26,24 @@ describe('methodSchema (the request piece, docs/design.md §4.3 "method")', () =
       { name: 'lowrank-hankel', kernel: 0 },
       { name: 'lowrank-hankel', weighting: 'laplacian' },
       { name: 'lowrank-hankel', energy: 1 },
+      { name: 'sense', maps: 'espirit' },
+      { name: 'sense', tikhonov: -0.1 },
+      { name: 'grappa', kernel: [4] },
+      { name: 'grappa', kernel: [0, 5] },
+      { name: 'grappa', lambda: 0.1 },
     ]) {
       expect(methodSchema.safeParse(spec).success).toBe(false);
     }
   });
 
   it('every registered method has a schema member and vice versa', () => {
-    expect([...reconMethods.keys()].sort()).toEqual(['cs-tv', 'lowrank-hankel', 'zero-filled']);
+    expect([...reconMethods.keys()].sort()).toEqual([
+      'cs-tv',
+      'grappa',
+      'lowrank-hankel',
+      'sense',
+      'zero-filled',
+    ]);
     for (const name of reconMethods.keys()) expect(methodSchema.safeParse({ name }).success).toBe(true);
   });
 });
