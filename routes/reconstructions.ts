@@ -4,6 +4,7 @@ import { z } from 'zod';
 import { samplingSchema } from '../sampling/index.ts';
 import { noiseSchema } from '../src/acquisition/index.ts';
 import { allLimitFields, type Limits, limitsId } from '../src/core/limits.ts';
+import { lesionsSchema } from '../src/fidelity/index.ts';
 import { disconnectSignal } from '../src/http/disconnect-signal.ts';
 import { HttpProblem, jsonResponse, problemResponses } from '../src/http/problem.ts';
 import { idParams, perLimits, requestSchemas } from '../src/http/schemas.ts';
@@ -19,6 +20,7 @@ const reconstructionBody = perLimits((limits: Limits) =>
       sampling: samplingSchema,
       noise: noiseSchema.optional().describe('complex Gaussian k-space noise; omitted or "none": noiseless'),
       method: requestSchemas(limits).method,
+      lesions: lesionsSchema.optional(),
       seed: z
         .int()
         .min(0)

@@ -39,6 +39,12 @@ export interface LesionStudyInput {
    * depends on the data), so that paired runs and replicas differ only in their data.
    */
   reconstruct: (input: ReconInput) => ComplexImage;
+  /**
+   * The lesion-free run already done with this mask, noise draw and `reconstruct` (its acquired
+   * k-space and its image): the study then reuses that image as recon(without) and forms the
+   * with-lesion data as acquired + M ⊙ (withLesions − without), the same draw without a new one.
+   */
+  paired?: { acquired: ComplexImage; image: ComplexImage };
   signal?: AbortSignal;
 }
 
@@ -62,7 +68,27 @@ export interface LesionStudy {
   threshold: number;
   roseK: number;
   noise: { method: 'replicas' | 'zero-filled'; replicas: number };
+  /** Reconstructions this study ran (a shared lesion-free run not counted). */
   reconstructions: number;
+  /** recon(with lesions): the paired run's image. */
+  withImage: ComplexImage;
+}
+
+/** The lesion-free acquired data plus M ⊙ (with − without): the with-lesion data of the same noise draw. */
+function withAdded(
+  acquiredWithout: ComplexImage,
+  withLesions: ComplexImage,
+  without: ComplexImage,
+  mask: Uint8Array,
+): ComplexImage {
+  const k = createComplexImage(without.nx, without.ny);
+  k.data.set(acquiredWithout.data);
+  for (let i = 0; i < mask.length; i++) {
+    if (!mask[i]) continue;
+    k.data[2 * i] += withLesions.data[2 * i] - without.data[2 * i];
+    k.data[2 * i + 1] += withLesions.data[2 * i + 1] - without.data[2 * i + 1];
+  }
+  return k;
 }
 
 function acquired(full: ComplexImage, mask: Uint8Array, sigma: number, seed: number): ComplexImage {
@@ -125,10 +151,15 @@ export function runLesionStudy(input: LesionStudyInput): LesionStudy {
     throwIfAborted(signal);
     return reconstruct({ kspace: k, mask, density });
   };
-  const withImage = recon(acquired(input.withLesions, mask, sigma, seed));
-  const withoutImage = recon(acquired(input.without, mask, sigma, seed));
+  const { paired } = input;
+  const withImage = recon(
+    paired
+      ? withAdded(paired.acquired, input.withLesions, input.without, mask)
+      : acquired(input.withLesions, mask, sigma, seed),
+  );
+  const withoutImage = paired ? paired.image : recon(acquired(input.without, mask, sigma, seed));
   const response = lesionResponse(withImage, withoutImage);
-  let reconstructions = 2;
+  let reconstructions = paired ? 1 : 2;
 
   const replicas: ComplexImage[] = [];
   if (noise.kind === 'replicas' && sigma > 0) {
@@ -203,5 +234,6 @@ export function runLesionStudy(input: LesionStudyInput): LesionStudy {
     roseK: ROSE_K,
     noise: { method: noise.kind, replicas: replicas.length },
     reconstructions,
+    withImage,
   };
 }

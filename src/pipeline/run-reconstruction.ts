@@ -7,6 +7,7 @@ import {
 } from '../../sampling/index.ts';
 import {
   acquire,
+  checkedSnr,
   type FullAcquisition,
   fullKspaceFromImage,
   fullKspaceFromPhantom,
@@ -20,8 +21,10 @@ import { matrixSchemaFor } from '../core/matrix.ts';
 import type { RealImage } from '../core/real-image.ts';
 import { parseOrThrow } from '../core/zod-problems.ts';
 import { type MetricSet, SSIM_RADIUS, scoreAll } from '../metrics/index.ts';
+import { type LesionsRequest, lesionsSchema } from '../fidelity/index.ts';
 import { getPhantom } from '../phantoms/index.ts';
 import { type MethodSpec, methodSchemaFor, reconstruct, zeroFilledImage } from '../recon/index.ts';
+import { type FidelityOutcome, runLesionFidelity } from './lesion-run.ts';
 import { resampleBilinear } from './resample.ts';
 
 export const sourceSchema = z.union([
@@ -46,6 +49,7 @@ export interface ReconstructionRequest {
   sampling: SamplingSpec;
   noise?: NoiseSpec;
   method: MethodSpec;
+  lesions?: LesionsRequest;
 }
 
 export interface ReconstructionOutcome {
@@ -59,6 +63,8 @@ export interface ReconstructionOutcome {
   notes: string[];
   images: { reconstruction: RealImage; zeroFilled: RealImage; reference: RealImage; errorMap: RealImage };
   sampled: SampledMask;
+  /** Feature-fidelity scores when the request has `lesions` (src/pipeline/lesion-run.ts). */
+  fidelity?: FidelityOutcome;
 }
 
 export interface PipelineContext {
@@ -178,6 +184,7 @@ export function reconstructionRequestSchemaFor(limits: Limits) {
     sampling: samplingSchema,
     noise: noiseSchema.optional().describe('complex Gaussian k-space noise; omitted or "none": noiseless'),
     method: methodSchemaFor(limits),
+    lesions: lesionsSchema.optional(),
   });
 }
 
@@ -204,7 +211,8 @@ export async function runReconstruction(
       : req.sampling;
   const sampled = await resolveSampling({ nx, ny }, sampling, limits);
   const baseSeed = seed ?? sampled.seed ?? 0;
-  const { kspace, sigma } = acquire(full, sampled.mask, req.noise, noiseSeedFor(baseSeed));
+  const noiseSeed = noiseSeedFor(baseSeed);
+  const { kspace, sigma } = acquire(full, sampled.mask, req.noise, noiseSeed);
   if (sigma > 0) notes.push(`complex Gaussian noise, σ = ${sigma.toPrecision(4)} per real channel`);
   const input = { kspace, mask: sampled.mask, density: sampled.density };
 
@@ -223,6 +231,25 @@ export async function runReconstruction(
   for (let i = 0; i < errorMap.length; i++)
     errorMap[i] = Math.abs(reconstruction.data[i] - reference.data[i]);
 
+  const fidelity = req.lesions
+    ? runLesionFidelity({
+        lesions: req.lesions,
+        full,
+        kind: 'phantom' in req.source && !full.inverseCrime ? 'analytic' : 'raster',
+        sampled,
+        acquired: kspace,
+        image: result.image,
+        method: req.method,
+        info: result.info,
+        sigma,
+        snr: checkedSnr(req.noise),
+        noiseSeed,
+        signal: ctx.signal,
+        limits,
+      })
+    : undefined;
+  if (fidelity) notes.push(...fidelity.notes);
+
   return {
     acceleration: sampled.acceleration,
     acquired: sampled.acquired,
@@ -233,5 +260,6 @@ export async function runReconstruction(
     notes,
     images: { reconstruction, zeroFilled, reference, errorMap: { nx, ny, data: errorMap } },
     sampled,
+    ...(fidelity ? { fidelity } : {}),
   };
 }

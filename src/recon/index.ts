@@ -6,6 +6,7 @@ import { type MethodSpec, reconMethods, runMethod } from './registry.ts';
 
 export type { ReconInput, ReconMethod, ReconOptions, ReconOutput } from './method.ts';
 export { type MethodName, type MethodSpec, methodSchema, methodSchemaFor, reconMethods } from './registry.ts';
+export { zeroFilledPeak } from './cs-tv.ts';
 export { zeroFilledImage } from './zero-filled.ts';
 
 /**

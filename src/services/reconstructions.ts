@@ -9,6 +9,7 @@ import type { WorkerPool } from '../jobs/worker-pool.ts';
 import type { ReconstructionOutcome, ReconstructionRequest } from '../pipeline/run-reconstruction.ts';
 import { greyPng, maskPng } from '../render/png.ts';
 import type { Caller, MissingImage } from './caller.ts';
+import { describeFidelity, fidelitySchema } from './fidelity-summary.ts';
 import { finiteOrNull, jsonSafe } from './json-safe.ts';
 import { type ResultImageKey, resultImageNames, resultImageUrl } from './result-images.ts';
 import { psfSummary, psfSummarySchema, sampledSummary, sampledSummarySchema } from './sampled-summary.ts';
@@ -37,8 +38,10 @@ export const reconstructionSchema = z.object({
       errorMap: z.string(),
       mask: z.string(),
       psf: z.string(),
+      lesions: z.string().optional().describe('the reconstruction of the data with lesions (lesions only)'),
     })
     .describe('PNG URLs (GET /v1/results/{id}/{image}.png)'),
+  fidelity: fidelitySchema.optional(),
   createdAt: z.string(),
 });
 
@@ -117,12 +120,18 @@ async function renderImages(
     [resultImageNames.errorMap]: await greyPng(images.errorMap),
     [resultImageNames.mask]: await maskPng(outcome.sampled),
     [resultImageNames.psf]: await greyPng(diagnostics.psf, { scale: 'log' }),
+    ...(outcome.fidelity
+      ? { [resultImageNames.lesions]: await greyPng(outcome.fidelity.image, { max: white }) }
+      : {}),
   };
 }
 
 function describe(id: string, outcome: ReconstructionOutcome, diagnostics: MaskDiagnostics): Reconstruction {
+  const keys = (Object.keys(resultImageNames) as ResultImageKey[]).filter(
+    (key) => key !== 'lesions' || outcome.fidelity,
+  );
   const urls = Object.fromEntries(
-    (Object.keys(resultImageNames) as ResultImageKey[]).map((key) => [key, resultImageUrl(id, key)]),
+    keys.map((key) => [key, resultImageUrl(id, key)]),
   ) as Reconstruction['images'];
   return {
     id,
@@ -141,6 +150,7 @@ function describe(id: string, outcome: ReconstructionOutcome, diagnostics: MaskD
     sampling: sampledSummary(outcome.sampled),
     psf: psfSummary(diagnostics),
     images: urls,
+    ...(outcome.fidelity ? { fidelity: describeFidelity(outcome.fidelity) } : {}),
     createdAt: new Date().toISOString(),
   };
 }

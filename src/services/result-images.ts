@@ -6,6 +6,8 @@ export const resultImageNames = {
   errorMap: 'error-map',
   mask: 'mask',
   psf: 'psf',
+  /** |recon(with lesions)|, stored only for a request with lesions. */
+  lesions: 'lesions',
 } as const;
 
 export type ResultImageKey = keyof typeof resultImageNames;
