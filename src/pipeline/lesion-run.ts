@@ -8,11 +8,11 @@ import {
   contrastDetailCurve,
   contrastDetailLesionSet,
   DEFAULT_LESION_REPLICAS,
+  LESION_SUPERSAMPLE,
   type LesionSet,
   type LesionStudy,
   type LesionsRequest,
   lesionSetOn,
-  LESION_SUPERSAMPLE,
   type NoiseKnowledge,
   runLesionStudy,
 } from '../fidelity/index.ts';

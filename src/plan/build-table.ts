@@ -1,15 +1,18 @@
 import { ValidationError } from '../core/errors.ts';
 import { formatDuration, scanTime } from '../protocol/index.ts';
 import type { CellResult } from './cell-result.ts';
+import { fidelityGroup } from './fidelity-group.ts';
 import { specLabels } from './labels.ts';
-import { metricNames } from './metric-direction.ts';
+import { type MetricName, metricNames } from './metric-direction.ts';
 import { paretoFront } from './pareto.ts';
 import { patternSpecs } from './pattern-specs.ts';
 import type { PlanRow, PlanTable } from './plan-table.ts';
-import { meetsTarget, recommend } from './recommend.ts';
+import { meetsTargets, recommend } from './recommend.ts';
 import { type GridPosition, rowKey } from './row-key.ts';
 import type { Plan } from './schema.ts';
 import { mean, summarize } from './statistics.ts';
+import type { Target } from './target-schema.ts';
+import { isTaskMetric } from './task-metrics.ts';
 
 export const referencePatternLabel = 'fully sampled';
 export const referenceMethodLabel = 'zero-filled';
@@ -20,6 +23,7 @@ export type TablePlan = Pick<
   'matrix' | 'protocol' | 'patterns' | 'accelerations' | 'methods' | 'seeds'
 > & {
   target?: Plan['target'];
+  targets?: Plan['targets'];
 };
 
 /**
@@ -45,8 +49,9 @@ export function buildTable(plan: TablePlan, cellResults: readonly CellResult[]):
     }
   });
 
-  const paretoMetric = plan.target?.metric ?? 'nrmse';
-  const target = plan.target ?? null;
+  const targets = planTargets(plan);
+  // The Pareto front is drawn on an image-quality metric: the first target's, else NRMSE.
+  const paretoMetric = (targets.find((t) => !isTaskMetric(t.metric))?.metric ?? 'nrmse') as MetricName;
   const rows: PlanRow[] = [];
   for (const position of positions) {
     const results = groups.get(rowKey(position));
@@ -73,11 +78,14 @@ export function buildTable(plan: TablePlan, cellResults: readonly CellResult[]):
       scanFormatted: formatDuration(scanSeconds),
       timeSavedPct: full.seconds > 0 ? 100 * (1 - scanSeconds / full.seconds) : 0,
       metrics,
+      ...fidelityGroup(results),
       reconMs: mean(results.map((r) => r.reconMs)),
       seeds: results.length,
       pareto: false,
-      meetsTarget: target === null ? null : meetsTarget(metrics[target.metric].mean, target),
+      meetsTarget: null,
     });
+    const row = rows[rows.length - 1];
+    row.meetsTarget = targets.length === 0 ? null : meetsTargets(row, targets);
   }
 
   const front = paretoFront(
@@ -92,10 +100,15 @@ export function buildTable(plan: TablePlan, cellResults: readonly CellResult[]):
     rows,
     fullySampled: full,
     paretoMetric,
-    recommendation: recommend(rows, target, methodLabels, paretoMetric),
+    recommendation: recommend(rows, targets, methodLabels, paretoMetric),
     cells: { done: cellResults.length, total: positions.length * plan.seeds },
     notes: tableNotes(plan, rows, cellResults),
   };
+}
+
+/** Every target of a plan: `target` first, then `targets` (all must be met). */
+export function planTargets(plan: Pick<TablePlan, 'target' | 'targets'>): Target[] {
+  return [...(plan.target ? [plan.target] : []), ...(plan.targets ?? [])];
 }
 
 function groupResults(cellResults: readonly CellResult[]): Map<string, CellResult[]> {

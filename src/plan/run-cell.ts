@@ -3,7 +3,12 @@ import type { CellResult } from './cell-result.ts';
 import { jsonNumber } from './metric-direction.ts';
 import type { PlanCell } from './plan-cells.ts';
 import type { Plan } from './schema.ts';
-import { type PipelineContext, runReconstruction, type SampledMask } from './upstream.ts';
+import {
+  type FidelityOutcome,
+  type PipelineContext,
+  runReconstruction,
+  type SampledMask,
+} from './upstream.ts';
 
 /**
  * Runs one cell: simulated acquisition with the cell's seed (mask draw and noise draw),
@@ -17,6 +22,7 @@ export async function runCell(plan: Plan, cell: PlanCell, ctx?: PipelineContext)
       sampling: cell.sampling,
       ...(plan.noise === undefined ? {} : { noise: plan.noise }),
       method: cell.method,
+      ...(plan.lesions === undefined ? {} : { lesions: plan.lesions }),
     },
     cell.seed,
     ctx,
@@ -29,8 +35,20 @@ export async function runCell(plan: Plan, cell: PlanCell, ctx?: PipelineContext)
       ssim: jsonNumber(outcome.metrics.ssim),
       hfen: jsonNumber(outcome.metrics.hfen),
     },
+    ...(outcome.fidelity ? { fidelity: cellFidelity(outcome.fidelity) } : {}),
     reconMs: outcome.timing.reconMs,
     notes: [...outcome.notes],
+  };
+}
+
+/** The task scores of a cell's lesion study as plain numbers (src/plan/task-metrics.ts). */
+function cellFidelity(f: FidelityOutcome): NonNullable<CellResult['fidelity']> {
+  return {
+    contrastRecovery: f.contrastRecovery.mean,
+    falseLesions: f.falseLesions.count,
+    detectability: jsonNumber(f.detectability.mean),
+    resolvedFraction: f.resolved / f.lesions.length,
+    ...(f.contrastDetail ? { contrastDetail: f.contrastDetail } : {}),
   };
 }
 

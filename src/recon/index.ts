@@ -4,9 +4,9 @@ import { defaultLimits } from '../core/limits.ts';
 import type { ReconInput, ReconOptions, ReconOutput } from './method.ts';
 import { type MethodSpec, reconMethods, runMethod } from './registry.ts';
 
+export { zeroFilledPeak } from './cs-tv.ts';
 export type { ReconInput, ReconMethod, ReconOptions, ReconOutput } from './method.ts';
 export { type MethodName, type MethodSpec, methodSchema, methodSchemaFor, reconMethods } from './registry.ts';
-export { zeroFilledPeak } from './cs-tv.ts';
 export { zeroFilledImage } from './zero-filled.ts';
 
 /**
