@@ -1,6 +1,7 @@
 // Entry point of the planner page: wires the setup form, the single acquisition and the plan sections.
 
 import { apiKey, setApiKey } from './api.js';
+import { wireLesionForm } from './lesion-form.js';
 import { PlanRun } from './plan-run.js';
 import { SetupForm } from './setup-form.js';
 import { SingleRun } from './single-run.js';
@@ -10,6 +11,7 @@ const byId = (id) => document.getElementById(id);
 
 async function main() {
   const setup = new SetupForm(byId('setup'));
+  wireLesionForm();
   const single = new SingleRun(setup);
   const plan = new PlanRun(setup);
 

@@ -2,8 +2,10 @@
 // tradeoff plot and table the service computed (Pareto front and recommendation included).
 
 import { apiKey, deleteResource, getBlob, getJson, pageRelative, postJson } from './api.js';
+import { lesionsPiece, taskTargets } from './lesion-form.js';
 import { planPoints, renderPlanTable } from './plan-table.js';
 import { showProblem, showStatus } from './status.js';
+import { offerTaskScores } from './task-scores.js';
 import { drawTradeoffPlot } from './tradeoff-plot.js';
 
 const byId = (id) => document.getElementById(id);
@@ -67,6 +69,12 @@ export class PlanRun {
     };
     const noise = setup.noise();
     if (noise) body.noise = noise;
+    const lesions = lesionsPiece();
+    if (lesions) {
+      body.lesions = lesions;
+      const targets = taskTargets();
+      if (targets.length > 0) body.targets = targets;
+    }
     return body;
   }
 
@@ -207,6 +215,7 @@ export class PlanRun {
       return;
     }
     const metric = plan.table?.paretoMetric ?? byId('targetMetric').value;
+    offerTaskScores(byId('plotMetric'), plan.table?.rows ?? []);
     byId('plotMetric').value = metric;
     renderPlanTable(byId('planTable'), plan);
     this.redrawPlot();

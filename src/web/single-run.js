@@ -6,6 +6,9 @@ import { getBlob, pageRelative, postForBlob, postJson } from './api.js';
 import { colouredErrorPng, drawColourBar, errorLevels } from './error-map.js';
 import { formatNumber, showNumber } from './format.js';
 import { ImageDialog } from './image-dialog.js';
+import { lesionsPiece } from './lesion-form.js';
+import { markedPng } from './lesion-marks.js';
+import { hideFidelity, lesionMarks, showFidelity } from './lesion-view.js';
 import { drawPsfProfile } from './psf-profile.js';
 import { showProblem, showStatus } from './status.js';
 import { steerZoom, ZoomGroup } from './zoom-group.js';
@@ -193,6 +196,8 @@ export class SingleRun {
       cell.textContent = '–';
     }
     showNotes([]);
+    hideFidelity();
+    this.marks = null;
     this.errors = null;
     byId('errorScale').hidden = true;
     this.lastOutcome = null;
@@ -231,6 +236,8 @@ export class SingleRun {
     };
     const noise = setup.noise();
     if (noise) body.noise = noise;
+    const lesions = lesionsPiece();
+    if (lesions) body.lesions = lesions;
     const [outcome, mask, [full, under]] = await Promise.all([
       postJson('v1/reconstructions', body),
       postJson('v1/masks', { matrix: body.matrix, sampling: body.sampling }),
@@ -245,7 +252,9 @@ export class SingleRun {
       ),
     );
     this.errors = await errorLevels(fetched.reconstruction, fetched.reference);
+    this.marks = lesionMarks(outcome);
     await Promise.all([
+      showFidelity(outcome),
       showBlob('imgReconstruction', fetched.reconstruction),
       showBlob('imgZeroFilled', fetched.zeroFilled),
       showBlob('imgReference', fetched.reference),
@@ -266,7 +275,9 @@ export class SingleRun {
     const errors = this.errors;
     if (!errors) return;
     const scaleMax = Number(byId('errorScaleMax').value);
-    await showBlob('imgErrorMap', await colouredErrorPng(errors, scaleMax));
+    const coloured = await colouredErrorPng(errors, scaleMax);
+    // With lesions, the true positions (circles) and the false lesions (squares) are marked on it.
+    await showBlob('imgErrorMap', this.marks ? (await markedPng(coloured, this.marks)).png : coloured);
     const box = byId('errorScale');
     drawColourBar(byId('errorColourBar'), byId('errorColourTicks'), scaleMax);
     const maxError = errors.maxLevel / 255;
