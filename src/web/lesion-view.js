@@ -81,7 +81,7 @@ export async function showFidelity(outcome) {
     ...f.lesions.map((lesion, i) => {
       const tr = document.createElement('tr');
       tr.append(
-        cellWith(i + 1),
+        cellWith(String(i + 1)),
         cellWith(`${lesion.row}, ${lesion.col}`),
         cellWith(lesion.contrastRecovery, 'fraction'),
         cellWith(lesion.cnr, 'psnr'),
