@@ -3,7 +3,7 @@ import { type ComplexImage, complexFromReal, createComplexImage } from '../core/
 import { phantomGridKspace } from '../phantoms/grid-kspace.ts';
 import type { Phantom } from '../phantoms/phantom.ts';
 import type { Lesion, LesionSpec } from './lesion.ts';
-import { lesionGridKspace } from './lesion-kspace.ts';
+import { lesionKspaceAndTemplates } from './lesion-kspace.ts';
 import { placeLesions } from './lesion-placement.ts';
 import { rasterizeLesions } from './lesion-raster.ts';
 import { objectSupport } from './object-support.ts';
@@ -47,8 +47,9 @@ export function lesionSetOn(
   let withLesions: ComplexImage;
   let templates: ComplexImage[];
   if (kind === 'analytic') {
-    withLesions = added(without, lesionGridKspace(lesions, nx, ny));
-    templates = lesions.map((l) => ifft2c(lesionGridKspace([l], nx, ny)));
+    const lesionK = lesionKspaceAndTemplates(lesions, nx, ny);
+    withLesions = added(without, lesionK.kspace);
+    templates = lesionK.templates;
   } else {
     templates = lesions.map((l) => complexFromReal(rasterizeLesions([l], nx, ny), nx, ny));
     withLesions = added(without, fft2c(complexFromReal(rasterizeLesions(lesions, nx, ny), nx, ny)));

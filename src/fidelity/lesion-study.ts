@@ -7,7 +7,13 @@ import { lesionCnr, npwDetectability, ROSE_K, roseResolved } from './detectabili
 import { countFalseLesions, type FalseLesions } from './false-lesions.ts';
 import { type Lesion, lesionDiscPixels } from './lesion.ts';
 import { lesionCandidates, lesionMargins } from './lesion-placement.ts';
-import { replicaVariance, zeroFilledVariance } from './observer-noise.ts';
+import {
+  kernelVariance,
+  replicaVariance,
+  weightSupport,
+  zeroFilledNoiseKernel,
+  zeroFilledVariance,
+} from './observer-noise.ts';
 
 /**
  * How the noise in the reconstruction is known: `replicas` reconstructs the lesion-free data with
@@ -168,10 +174,17 @@ export function runLesionStudy(input: LesionStudyInput): LesionStudy {
       reconstructions++;
     }
   }
+  // Known σ: one kernel for every observer of small support (pairs ≤ 4N), a transform otherwise.
+  const knownDensity = noise.kind === 'zero-filled' && noise.densityCompensation ? density : undefined;
+  const kernel =
+    noise.kind === 'zero-filled' && sigma > 0 ? zeroFilledNoiseKernel(mask, nx, ny, knownDensity) : null;
   const variance = (w: ComplexImage): number => {
     if (sigma === 0) return 0;
-    if (noise.kind === 'zero-filled') {
-      return zeroFilledVariance(w, mask, sigma, noise.densityCompensation ? density : undefined);
+    if (kernel) {
+      const support = weightSupport(w);
+      return support.length ** 2 <= 4 * nx * ny
+        ? kernelVariance(w, support, kernel, sigma)
+        : zeroFilledVariance(w, mask, sigma, knownDensity);
     }
     return replicaVariance(w, replicas);
   };
