@@ -23,10 +23,17 @@ export { LESION_SUPERSAMPLE, rasterizeLesions } from './lesion-raster.ts';
 export {
   DEFAULT_LESION_REPLICAS,
   type LesionsRequest,
+  lesionSpecOf,
   lesionsSchema,
   MAX_LESION_REPLICAS,
 } from './lesion-schema.ts';
-export { imageLesionSet, type LesionSet, lesionSetOn, phantomLesionSet } from './lesion-sources.ts';
+export {
+  imageLesionSet,
+  type LesionSet,
+  lesionSetOn,
+  phantomLesionPositions,
+  phantomLesionSet,
+} from './lesion-sources.ts';
 export {
   type LesionScore,
   type LesionStudy,

@@ -1,5 +1,11 @@
 import { z } from 'zod';
-import { MAX_LESION_CONTRAST, MAX_LESION_DIAMETER, MAX_LESIONS, MIN_LESION_DIAMETER } from './lesion.ts';
+import {
+  type LesionSpec,
+  MAX_LESION_CONTRAST,
+  MAX_LESION_DIAMETER,
+  MAX_LESIONS,
+  MIN_LESION_DIAMETER,
+} from './lesion.ts';
 
 /** Noise replicas a study draws for the detectability of a method without a known-σ form (our choice). */
 export const DEFAULT_LESION_REPLICAS = 8;
@@ -47,3 +53,14 @@ export const lesionsSchema = z
   );
 
 export type LesionsRequest = z.output<typeof lesionsSchema>;
+
+/** The placement spec of a request, defaults filled in (disc, seed 1). */
+export function lesionSpecOf(request: LesionsRequest): LesionSpec {
+  return {
+    count: request.count,
+    diameter: request.diameter,
+    contrast: request.contrast,
+    shape: request.shape ?? 'disc',
+    seed: request.seed ?? 1,
+  };
+}

@@ -57,6 +57,12 @@ export function lesionSetOn(
   return { without, withLesions, reference, objectMask: mask, meanIntensity, lesions, templates };
 }
 
+/** Where lesions of `spec` go in a phantom at nx×ny (ValidationError on lesions.count when they do not fit). */
+export function phantomLesionPositions(phantom: Phantom, nx: number, ny: number, spec: LesionSpec): Lesion[] {
+  const { mask, meanIntensity } = objectSupport(ifft2c(phantomGridKspace(phantom, nx, ny)));
+  return placeLesions(mask, nx, ny, meanIntensity, spec);
+}
+
 /** Lesions in an analytic phantom: lesionSetOn its exact grid k-space, `analytic`. */
 export function phantomLesionSet(phantom: Phantom, nx: number, ny: number, spec: LesionSpec): LesionSet {
   const without = phantomGridKspace(phantom, nx, ny);

@@ -13,6 +13,7 @@ import {
   type LesionStudy,
   type LesionsRequest,
   lesionSetOn,
+  lesionSpecOf,
   type NoiseKnowledge,
   runLesionStudy,
 } from '../fidelity/index.ts';
@@ -112,13 +113,7 @@ function finiteMean(values: number[]): number {
  */
 export function runLesionFidelity(input: LesionRunInput): FidelityOutcome {
   const { lesions: request, full, sampled, method, signal, limits } = input;
-  const spec = {
-    count: request.count,
-    diameter: request.diameter,
-    contrast: request.contrast,
-    shape: request.shape ?? 'disc',
-    seed: request.seed ?? 1,
-  };
+  const spec = lesionSpecOf(request);
   const set = lesionSetOn(full.kspace, full.reference, spec, input.kind);
   const pinned = pinnedReconstruction(method, input.info, { signal, limits });
   const noise = noiseKnowledge(pinned.linear, method, request.replicas);

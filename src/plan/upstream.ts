@@ -16,7 +16,7 @@ export {
   samplingSchema,
 } from '../../sampling/index.ts';
 export { noiseSchema } from '../acquisition/index.ts';
-export { lesionsSchema } from '../fidelity/index.ts';
+export { lesionSpecOf, lesionsSchema, phantomLesionPositions } from '../fidelity/index.ts';
 export { getPhantom } from '../phantoms/index.ts';
 export type { FidelityOutcome } from '../pipeline/lesion-run.ts';
 export {

@@ -134,4 +134,76 @@ describe('POST /v1/reconstructions with lesions', () => {
     );
     expect(crowded.errors[0].message).toMatch(/could be placed/);
   });
+
+  it('a plan with lesions and two task-score targets: 202, done, rows with fidelity, the recommendation honours both and names the deciding one', async () => {
+    const res = await t
+      .http()
+      .post('/v1/plans')
+      .send({
+        source: base.source,
+        matrix: base.matrix,
+        protocol: { trMs: 500 },
+        patterns: [{ pattern: 'cartesian-uniform' }, { pattern: 'cartesian-random', acs: 8 }],
+        accelerations: [2, 4],
+        methods: [{ name: 'zero-filled' }],
+        seeds: 1,
+        lesions: { count: 2, diameter: 3, contrast: 0.2, seed: 1 },
+        targets: [
+          { metric: 'contrastRecovery', atLeast: 0.6 },
+          { metric: 'falseLesions', atMost: 25 },
+        ],
+      });
+    expect(res.status).toBe(202);
+    let done = await t.http().get(res.headers.location);
+    for (let i = 0; i < 2400 && !['done', 'failed', 'cancelled'].includes(done.body.status); i++) {
+      await new Promise((resolve) => setTimeout(resolve, 25));
+      done = await t.http().get(res.headers.location);
+    }
+    expect(done.body.status).toBe('done');
+    await expectDocumented('GET', res.headers.location, done);
+    const { rows, recommendation } = done.body.table;
+    for (const row of rows) expect(row.fidelity.contrastRecovery.mean).toBeGreaterThan(0);
+    expect(recommendation.targets).toHaveLength(2);
+    // Measured (noiseless, so deterministic): uniform R 2 / 4 recover 0.500 / 0.250 with 8 / 11 false
+    // lesions (aliasing ghosts), random lines R 2 / 4 0.864 / 0.584 with 23 / 16. Only random R = 2 meets
+    // both; the 8 s rows fail contrast recovery alone, so that target decided it.
+    expect(recommendation.overall.key).toBe('p1-r0-m0');
+    const picked = rows[recommendation.overall.rowIndex];
+    expect(picked.fidelity.contrastRecovery.mean).toBeGreaterThanOrEqual(0.6);
+    expect(picked.fidelity.falseLesions.mean).toBeLessThanOrEqual(25);
+    expect(recommendation.decidedBy).toEqual({ metric: 'contrastRecovery', atLeast: 0.6 });
+    expect(recommendation.statement).toMatch(
+      /^Shortest scan meeting contrast recovery ≥ 0\.6 and false lesions ≤ 25: .* Decided by contrast recovery ≥ 0\.6: without it, .*R = 4.* would be chosen\.$/,
+    );
+    const csv = await t.http().get(`${res.headers.location}/table.csv`);
+    expect(csv.text.split('\r\n')[0]).toContain(
+      'contrast_recovery_mean,contrast_recovery_sd,false_lesions_mean',
+    );
+  });
+
+  it('plans: a task-score target without lesions is a 422 on targets[0].metric; lesions that do not fit, on lesions.count', async () => {
+    const plan = {
+      source: base.source,
+      matrix: base.matrix,
+      protocol: { trMs: 500 },
+      patterns: [{ pattern: 'cartesian-uniform' }],
+      accelerations: [2],
+      methods: [{ name: 'zero-filled' }],
+      seeds: 1,
+    };
+    await postProblem(
+      t,
+      '/v1/plans',
+      { ...plan, targets: [{ metric: 'falseLesions', atMost: 0 }] },
+      422,
+      'targets[0].metric',
+    );
+    await postProblem(
+      t,
+      '/v1/plans',
+      { ...plan, lesions: { count: 64, diameter: 6, contrast: 0.05 } },
+      422,
+      'lesions.count',
+    );
+  });
 });
