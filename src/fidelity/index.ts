@@ -35,6 +35,7 @@ export {
   phantomLesionSet,
 } from './lesion-sources.ts';
 export {
+  acquiredWithNoise,
   type LesionScore,
   type LesionStudy,
   type LesionStudyInput,

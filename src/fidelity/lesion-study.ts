@@ -97,7 +97,13 @@ function withAdded(
   return k;
 }
 
-function acquired(full: ComplexImage, mask: Uint8Array, sigma: number, seed: number): ComplexImage {
+/** M ⊙ (full + noise of σ per real channel drawn from `seed`): one simulated acquisition of full k-space. */
+export function acquiredWithNoise(
+  full: ComplexImage,
+  mask: Uint8Array,
+  sigma: number,
+  seed: number,
+): ComplexImage {
   const noisy = full.data.slice();
   if (sigma > 0) addComplexNoise(noisy, sigma, seed);
   const k = createComplexImage(full.nx, full.ny);
@@ -161,16 +167,16 @@ export function runLesionStudy(input: LesionStudyInput): LesionStudy {
   const withImage = recon(
     paired
       ? withAdded(paired.acquired, input.withLesions, input.without, mask)
-      : acquired(input.withLesions, mask, sigma, seed),
+      : acquiredWithNoise(input.withLesions, mask, sigma, seed),
   );
-  const withoutImage = paired ? paired.image : recon(acquired(input.without, mask, sigma, seed));
+  const withoutImage = paired ? paired.image : recon(acquiredWithNoise(input.without, mask, sigma, seed));
   const response = lesionResponse(withImage, withoutImage);
   let reconstructions = paired ? 1 : 2;
 
   const replicas: ComplexImage[] = [];
   if (noise.kind === 'replicas' && sigma > 0) {
     for (let m = 0; m < noise.count; m++) {
-      replicas.push(recon(acquired(input.without, mask, sigma, seed + 1 + m)));
+      replicas.push(recon(acquiredWithNoise(input.without, mask, sigma, seed + 1 + m)));
       reconstructions++;
     }
   }

@@ -1,14 +1,16 @@
 import type { SampledMask } from '../../sampling/index.ts';
-import { addComplexNoise, type FullAcquisition, sigmaForSnr } from '../acquisition/index.ts';
-import { type ComplexImage, createComplexImage, magnitude } from '../core/complex-image.ts';
+import { type FullAcquisition, sigmaForSnr } from '../acquisition/index.ts';
+import { type ComplexImage, magnitude } from '../core/complex-image.ts';
 import type { Limits } from '../core/limits.ts';
 import type { RealImage } from '../core/real-image.ts';
 import {
+  acquiredWithNoise,
   type ContrastDetailPoint,
   contrastDetailCurve,
   contrastDetailLesionSet,
   DEFAULT_LESION_REPLICAS,
   LESION_SUPERSAMPLE,
+  type LesionScore,
   type LesionSet,
   type LesionStudy,
   type LesionsRequest,
@@ -20,20 +22,10 @@ import {
 import { type MethodSpec, reconstruct } from '../recon/index.ts';
 import { pinnedReconstruction } from './pinned-method.ts';
 
-export interface LesionScoreOutcome {
-  row: number;
-  col: number;
-  contrastRecovery: number;
-  /** +∞ when noiseless. */
-  cnr: number;
-  resolved: boolean;
-  detectability: number;
-  called: boolean;
-}
-
 /** The feature-fidelity scores of one reconstruction request with `lesions`. */
 export interface FidelityOutcome {
-  lesions: LesionScoreOutcome[];
+  /** Each lesion as placed (centre row, col) with its scores; CNR and d' +∞ when noiseless. */
+  lesions: LesionScore[];
   contrastRecovery: { mean: number; min: number };
   /** Lesions resolved by Rose's criterion (CNR ≥ roseK). */
   resolved: number;
@@ -89,18 +81,6 @@ function noiseKnowledge(linear: boolean, method: MethodSpec, replicas: number | 
   return { kind: 'replicas', count: replicas ?? DEFAULT_LESION_REPLICAS };
 }
 
-function masked(full: ComplexImage, mask: Uint8Array, sigma: number, seed: number): ComplexImage {
-  const noisy = full.data.slice();
-  if (sigma > 0) addComplexNoise(noisy, sigma, seed);
-  const k = createComplexImage(full.nx, full.ny);
-  for (let i = 0; i < mask.length; i++) {
-    if (!mask[i]) continue;
-    k.data[2 * i] = noisy[2 * i];
-    k.data[2 * i + 1] = noisy[2 * i + 1];
-  }
-  return k;
-}
-
 function finiteMean(values: number[]): number {
   return values.reduce((a, b) => a + b, 0) / values.length;
 }
@@ -154,15 +134,7 @@ function describeStudy(
 ): FidelityOutcome {
   const d = study.lesions.map((l) => l.detectability);
   return {
-    lesions: study.lesions.map(({ row, col, contrastRecovery, cnr, resolved, detectability, called }) => ({
-      row,
-      col,
-      contrastRecovery,
-      cnr,
-      resolved,
-      detectability,
-      called,
-    })),
+    lesions: study.lesions,
     contrastRecovery: study.contrastRecovery,
     resolved: study.resolved,
     detectability: {
@@ -198,7 +170,7 @@ function contrastDetailOf(
   const { nx, ny } = input.full.reference;
   const set = contrastDetailLesionSet(nx, ny);
   const sigma = input.snr === null ? 0 : sigmaForSnr(set.reference, set.objectMask, input.snr);
-  const acquired = masked(set.without, sampled.mask, sigma, input.noiseSeed);
+  const acquired = acquiredWithNoise(set.without, sampled.mask, sigma, input.noiseSeed);
   const base = reconstruct({ kspace: acquired, mask: sampled.mask, density: sampled.density }, method, {
     signal,
     limits,

@@ -1,11 +1,11 @@
-import { existsSync, mkdirSync, mkdtempSync, rmSync } from 'node:fs';
+import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
-import { dirname, join } from 'node:path';
-import { fileURLToPath } from 'node:url';
+import { join } from 'node:path';
 import type { FastifyInstance } from 'fastify';
-import { type BrowserContext, chromium, type Page } from 'playwright-core';
+import type { BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { buildApp } from '../../src/app.ts';
+import { artifacts, launchChromium, listen, requireChromium } from './chromium.ts';
 
 /**
  * Feature fidelity on the planner page, in Debian's chromium driven by playwright-core against the
@@ -13,19 +13,6 @@ import { buildApp } from '../../src/app.ts';
  * per-lesion scores the service computed, the contrast–detail plot, and a plan's task-score column
  * and plot axis.
  */
-
-const chromiumPath = '/usr/bin/chromium';
-const artifacts = join(dirname(fileURLToPath(import.meta.url)), '..', 'artifacts');
-const chromiumArgs = [
-  '--headless',
-  '--no-sandbox',
-  '--disable-gpu',
-  '--disable-quic',
-  '--no-first-run',
-  '--disable-background-networking',
-  '--disable-component-update',
-  '--disable-sync',
-];
 
 let app: FastifyInstance;
 let baseUrl: string;
@@ -59,25 +46,12 @@ async function pixelOf(selector: string, x: number, y: number): Promise<number[]
 }
 
 beforeAll(async () => {
-  if (!existsSync(chromiumPath)) {
-    throw new Error(
-      `${chromiumPath} is missing: the browser test needs Debian's chromium (apt-get install chromium)`,
-    );
-  }
-  mkdirSync(artifacts, { recursive: true });
+  requireChromium();
   dataDir = mkdtempSync(join(tmpdir(), 'kspace-planner-lesions-data-'));
   app = await buildApp({ dataDir, workers: 1 });
-  await app.listen({ port: 0, host: '127.0.0.1' });
-  const address = app.server.address();
-  if (address === null || typeof address === 'string') throw new Error('no TCP address');
-  baseUrl = `http://127.0.0.1:${address.port}`;
+  baseUrl = await listen(app);
   userDataDir = mkdtempSync(join(tmpdir(), 'kspace-planner-lesions-chromium-'));
-  context = await chromium.launchPersistentContext(userDataDir, {
-    executablePath: chromiumPath,
-    headless: true,
-    args: chromiumArgs,
-    viewport: { width: 1280, height: 800 },
-  });
+  context = await launchChromium(userDataDir);
   await context.route('**/*', (route) => {
     const url = route.request().url();
     return [baseUrl, 'blob:', 'data:'].some((o) => url.startsWith(o)) ? route.continue() : route.abort();

@@ -1,33 +1,19 @@
-import { existsSync, mkdirSync, mkdtempSync, rmSync } from 'node:fs';
+import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
-import { dirname, join } from 'node:path';
-import { fileURLToPath } from 'node:url';
+import { join } from 'node:path';
 import type { FastifyInstance } from 'fastify';
-import { type BrowserContext, chromium, type Page, type Response } from 'playwright-core';
+import type { BrowserContext, Page, Response } from 'playwright-core';
 import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { buildApp } from '../../src/app.ts';
 import { debianFile } from '../io/debian-files.ts';
+import { artifacts, launchChromium, listen, requireChromium } from './chromium.ts';
 
 /**
  * The planner page in a real browser: Debian's chromium driven by playwright-core against the real
  * service on an ephemeral port. Numbers on the page are checked against the service's own answers
  * (the page keeps each exact value in data-value and shows a rounding of it).
  */
-
-const chromiumPath = '/usr/bin/chromium';
-const artifacts = join(dirname(fileURLToPath(import.meta.url)), '..', 'artifacts');
-/** Flags that keep chromium from dialling out on a closed network (background services, QUIC, sync). */
-const chromiumArgs = [
-  '--headless',
-  '--no-sandbox',
-  '--disable-gpu',
-  '--disable-quic',
-  '--no-first-run',
-  '--disable-background-networking',
-  '--disable-component-update',
-  '--disable-sync',
-];
 
 let app: FastifyInstance;
 let baseUrl: string;
@@ -142,20 +128,8 @@ function waitForApi(path: string, method = 'POST', accept?: string): Promise<Res
   });
 }
 
-async function listen(server: FastifyInstance): Promise<string> {
-  await server.listen({ port: 0, host: '127.0.0.1' });
-  const address = server.server.address();
-  if (address === null || typeof address === 'string') throw new Error('no TCP address');
-  return `http://127.0.0.1:${address.port}`;
-}
-
 beforeAll(async () => {
-  if (!existsSync(chromiumPath)) {
-    throw new Error(
-      `${chromiumPath} is missing: the browser test needs Debian's chromium (apt-get install chromium)`,
-    );
-  }
-  mkdirSync(artifacts, { recursive: true });
+  requireChromium();
   dataDir = mkdtempSync(join(tmpdir(), 'kspace-planner-browser-data-'));
   app = await buildApp({ dataDir });
   baseUrl = await listen(app);
@@ -164,13 +138,7 @@ beforeAll(async () => {
   keyedUrl = await listen(keyedApp);
 
   userDataDir = mkdtempSync(join(tmpdir(), 'kspace-planner-chromium-'));
-  context = await chromium.launchPersistentContext(userDataDir, {
-    executablePath: chromiumPath,
-    headless: true,
-    args: chromiumArgs,
-    viewport: { width: 1280, height: 800 },
-    acceptDownloads: true,
-  });
+  context = await launchChromium(userDataDir, true);
   // Nothing leaves the service's origin: no CDN, no fonts, no telemetry.
   await context.route('**/*', (route) => {
     const url = route.request().url();
