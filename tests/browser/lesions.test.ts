@@ -181,9 +181,25 @@ describe('lesions on the planner page', () => {
       },
     );
     expect(await page.locator('#planStatus').textContent()).toContain('done');
-    const headers = await page.$$eval('#planTable thead th', (ths) => ths.map((th) => th.textContent));
-    expect(headers).toContain('Contrast recovery mean ± sd');
-    expect(headers).toContain('False lesions mean ± sd');
+    const headers = await page.$$eval('#planTable thead th', (ths) =>
+      ths.map((th) => ({
+        text: th.textContent,
+        visible: (th as HTMLElement).offsetParent !== null,
+        right: th.getBoundingClientRect().right,
+      })),
+    );
+    // The two task scores a target usually names show beside the key columns without sideways
+    // scrolling at 1280 px; detectability and the resolved fraction come with "All columns".
+    const wrapRight = await page.$eval(
+      '#planTable',
+      (t) => t.closest('.table-wrap')!.getBoundingClientRect().right,
+    );
+    for (const name of ['Contrast recovery', 'False lesions']) {
+      const header = headers.find((h) => h.text === name);
+      expect(header?.visible, name).toBe(true);
+      expect(header!.right, name).toBeLessThanOrEqual(wrapRight);
+    }
+    expect(headers.find((h) => h.text === 'Detectability d′')?.visible).toBe(false);
     const rows = await page.locator('#planTable tbody tr').count();
     await page.selectOption('#plotMetric', 'contrastRecovery');
     expect(await page.locator('#plotPointsSummary').textContent()).toBe(
