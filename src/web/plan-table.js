@@ -68,7 +68,7 @@ function columnsFor(targetMetric, rows) {
     },
     {
       label: 'Meets target',
-      title: 'Mean target metric meets the target value',
+      title: 'The means meet every target (the metric target and any task-score targets)',
       text: (row) => (row.meetsTarget === null ? '' : row.meetsTarget ? 'yes' : 'no'),
     },
     {

@@ -4,7 +4,13 @@
 import { formatMeanSd } from './format.js';
 
 export const taskColumns = [
-  { metric: 'contrastRecovery', label: 'Contrast recovery', kind: 'fraction', higherIsBetter: true },
+  {
+    metric: 'contrastRecovery',
+    label: 'Contrast recovery',
+    short: 'Recovery',
+    kind: 'fraction',
+    higherIsBetter: true,
+  },
   { metric: 'falseLesions', label: 'False lesions', kind: 'percent', higherIsBetter: false },
   // Secondary (shown with "All columns"), so the key columns still fit a laptop screen.
   { metric: 'detectability', label: 'Detectability d′', kind: 'psnr', higherIsBetter: true, secondary: true },
@@ -28,9 +34,9 @@ export function rowSummary(row, metric) {
 /** Table columns for the task scores, shown (not secondary) when the plan had lesions. */
 export function taskTableColumns(rows) {
   if (!rows.some((row) => row.fidelity)) return [];
-  return taskColumns.map(({ metric, label, kind, secondary }) => ({
-    // The header is the score's name alone (its cells show mean ± sd), so the key columns fit.
-    label,
+  return taskColumns.map(({ metric, label, short, kind, secondary }) => ({
+    // A short header without "mean ± sd" (the cells show both; the title says so), so the key columns fit.
+    label: short ?? label,
     title: `${label}: mean over the seeds ± sample standard deviation (n − 1), from the inserted lesions`,
     path: `fidelity.${metric}.mean`,
     kind,

@@ -194,7 +194,7 @@ describe('lesions on the planner page', () => {
       '#planTable',
       (t) => t.closest('.table-wrap')!.getBoundingClientRect().right,
     );
-    for (const name of ['Contrast recovery', 'False lesions']) {
+    for (const name of ['Recovery', 'False lesions', 'Pareto', 'Meets target']) {
       const header = headers.find((h) => h.text === name);
       expect(header?.visible, name).toBe(true);
       expect(header!.right, name).toBeLessThanOrEqual(wrapRight);
