@@ -4,6 +4,7 @@ import { z } from 'zod';
 import { samplingSchema } from '../sampling/index.ts';
 import { noiseSchema } from '../src/acquisition/index.ts';
 import { allLimitFields, type Limits, limitsId } from '../src/core/limits.ts';
+import { lesionsSchema } from '../src/fidelity/index.ts';
 import { disconnectSignal } from '../src/http/disconnect-signal.ts';
 import { HttpProblem, jsonResponse, problemResponses } from '../src/http/problem.ts';
 import { idParams, perLimits, requestSchemas } from '../src/http/schemas.ts';
@@ -22,6 +23,7 @@ const reconstructionBody = perLimits((limits: Limits) =>
       method: requestSchemas(limits).method,
       coils: coilsSchema.optional(),
       phase: phaseSchema.optional(),
+      lesions: lesionsSchema.optional(),
       seed: z
         .int()
         .min(0)

@@ -55,7 +55,8 @@ export async function resultRoutes(app: FastifyInstance): Promise<void> {
         summary: 'A result image as PNG: reconstruction, zero-filled, reference, error-map, mask or psf',
         description:
           'Magnitude images are 8-bit grey scaled to the reference maximum (the error map to its own ' +
-          'maximum); the PSF on a log scale over 3 decades; the mask 255 = acquired.',
+          'maximum); the PSF on a log scale over 3 decades; the mask 255 = acquired. A reconstruction ' +
+          'with lesions also has lesions (the reconstruction of the data with the lesions, on the same grey scale).',
         tags: ['results'],
         params: imageParams,
         response: {

@@ -4,6 +4,7 @@ export {
   contrastDetailCells,
   contrastDetailCurve,
 } from './contrast-detail-curve.ts';
+export { contrastDetailLesionSet } from './contrast-detail-set.ts';
 export { contrastRecovery, fullySampledResponse, lesionResponse } from './contrast-recovery.ts';
 export { lesionCnr, npwDetectability, ROSE_K, roseResolved } from './detectability.ts';
 export { countFalseLesions, discFilterMap, type FalseLesions } from './false-lesions.ts';
@@ -19,8 +20,22 @@ export {
 export { discLesionShape, lesionGridKspace } from './lesion-kspace.ts';
 export { lesionCandidates, lesionMargins, placeLesions } from './lesion-placement.ts';
 export { LESION_SUPERSAMPLE, rasterizeLesions } from './lesion-raster.ts';
-export { imageLesionSet, type LesionSet, phantomLesionSet } from './lesion-sources.ts';
 export {
+  DEFAULT_LESION_REPLICAS,
+  type LesionsRequest,
+  lesionSpecOf,
+  lesionsSchema,
+  MAX_LESION_REPLICAS,
+} from './lesion-schema.ts';
+export {
+  imageLesionSet,
+  type LesionSet,
+  lesionSetOn,
+  phantomLesionPositions,
+  phantomLesionSet,
+} from './lesion-sources.ts';
+export {
+  acquiredWithNoise,
   type LesionScore,
   type LesionStudy,
   type LesionStudyInput,

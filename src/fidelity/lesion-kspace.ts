@@ -1,3 +1,4 @@
+import { ifft2c } from '../core/centered-fft.ts';
 import { type ComplexImage, createComplexImage } from '../core/complex-image.ts';
 import { Ellipse } from '../phantoms/ellipse.ts';
 import { gridKx, gridKy, gridScale, pixelX, pixelY } from '../phantoms/grid.ts';
@@ -69,4 +70,65 @@ export function lesionGridKspace(lesions: readonly Lesion[], nx: number, ny: num
   const scale = gridScale(nx, ny);
   for (let i = 0; i < image.data.length; i++) image.data[i] *= scale;
   return image;
+}
+
+/** The image circularly shifted by (rows, cols): out[(i + rows) mod ny][(j + cols) mod nx] = in[i][j]. */
+function rolled(image: ComplexImage, rows: number, cols: number): ComplexImage {
+  const { nx, ny } = image;
+  const out = createComplexImage(nx, ny);
+  for (let i = 0; i < ny; i++) {
+    const target = (((i + rows) % ny) + ny) % ny;
+    for (let j = 0; j < nx; j++) {
+      const p = 2 * (target * nx + ((((j + cols) % nx) + nx) % nx));
+      const q = 2 * (i * nx + j);
+      out.data[p] = image.data[q];
+      out.data[p + 1] = image.data[q + 1];
+    }
+  }
+  return out;
+}
+
+/**
+ * The summed exact grid k-space of a set of lesions and each lesion's template t = ifft2c(its grid
+ * k-space), the transform evaluated once per kind of lesion (shape, diameter, amplitude) at the
+ * centre pixel. A lesion elsewhere differs by the shift theorem's phase e^(−i2π(kx·Δx + ky·Δy)),
+ * separable on the grid, and, its shift being whole pixels, its template is the centred one rolled by
+ * those pixels (the grid phase is exactly a circular shift of the centred DFT).
+ */
+export function lesionKspaceAndTemplates(
+  lesions: readonly Lesion[],
+  nx: number,
+  ny: number,
+): { kspace: ComplexImage; templates: ComplexImage[] } {
+  const kxAxis = Float64Array.from({ length: nx }, (_, u) => gridKx(u, nx));
+  const kyAxis = Float64Array.from({ length: ny }, (_, v) => gridKy(v, ny));
+  const cy = Math.floor(ny / 2);
+  const cx = Math.floor(nx / 2);
+  const kinds = new Map<string, { kspace: ComplexImage; template: ComplexImage }>();
+  const kspace = createComplexImage(nx, ny);
+  const templates = lesions.map((lesion) => {
+    const key = `${lesion.shape}|${lesion.diameter}|${lesion.amplitude}`;
+    let kind = kinds.get(key);
+    if (!kind) {
+      const centred = lesionGridKspace([{ ...lesion, row: cy, col: cx }], nx, ny);
+      kind = { kspace: centred, template: ifft2c(centred) };
+      kinds.set(key, kind);
+    }
+    const col = axisPhasors(kxAxis, pixelX(lesion.col, nx) - pixelX(cx, nx));
+    const row = axisPhasors(kyAxis, pixelY(lesion.row, ny) - pixelY(cy, ny));
+    const k = kind.kspace.data;
+    for (let v = 0; v < ny; v++) {
+      const rr = row[2 * v];
+      const ri = row[2 * v + 1];
+      for (let u = 0; u < nx; u++) {
+        const pr = rr * col[2 * u] - ri * col[2 * u + 1];
+        const pi = rr * col[2 * u + 1] + ri * col[2 * u];
+        const p = 2 * (v * nx + u);
+        kspace.data[p] += k[p] * pr - k[p + 1] * pi;
+        kspace.data[p + 1] += k[p] * pi + k[p + 1] * pr;
+      }
+    }
+    return rolled(kind.template, lesion.row - cy, lesion.col - cx);
+  });
+  return { kspace, templates };
 }

@@ -3,7 +3,7 @@ import { type ComplexImage, complexFromReal, createComplexImage } from '../core/
 import { phantomGridKspace } from '../phantoms/grid-kspace.ts';
 import type { Phantom } from '../phantoms/phantom.ts';
 import type { Lesion, LesionSpec } from './lesion.ts';
-import { lesionGridKspace } from './lesion-kspace.ts';
+import { lesionKspaceAndTemplates } from './lesion-kspace.ts';
 import { placeLesions } from './lesion-placement.ts';
 import { rasterizeLesions } from './lesion-raster.ts';
 import { objectSupport } from './object-support.ts';
@@ -26,42 +26,50 @@ function added(a: ComplexImage, b: ComplexImage): ComplexImage {
 }
 
 /**
- * Lesions in an analytic phantom: k-space stays exact, with = phantom grid k-space + the lesions'
- * grid k-space (both analytic), and each template t = ifft2c(that lesion's grid k-space). Positions
- * come from the reference ifft2c(phantom grid k-space), the object and its mean intensity.
+ * Lesions added to a source whose full grid k-space (`without`) and reference ifft2c(without) are
+ * known. Positions come from the reference: its object and mean intensity (DEVELOPERS.md "Feature
+ * fidelity").
+ * - `analytic` (phantoms): with = without + the lesions' exact grid k-space, so k-space stays
+ *   analytic, and each template t = ifft2c(that lesion's grid k-space).
+ * - `raster` (uploads, raster phantoms): each lesion is rasterised with supersampled edges and
+ *   added to the image, k-space is fft2c of the result (the discrete model the reconstruction
+ *   inverts), and t is the lesion's raster, which full sampling returns exactly.
  */
-export function phantomLesionSet(phantom: Phantom, nx: number, ny: number, spec: LesionSpec): LesionSet {
-  const without = phantomGridKspace(phantom, nx, ny);
-  const reference = ifft2c(without);
-  const { mask, meanIntensity } = objectSupport(reference);
-  const lesions = placeLesions(mask, nx, ny, meanIntensity, spec);
-  const withLesions = added(without, lesionGridKspace(lesions, nx, ny));
-  const templates = lesions.map((l) => ifft2c(lesionGridKspace([l], nx, ny)));
-  return { without, withLesions, reference, objectMask: mask, meanIntensity, lesions, templates };
-}
-
-/**
- * Lesions in an uploaded image (the reference itself; no analytic k-space): each lesion is
- * rasterised with supersampled edges and added to the image, k-space is fft2c of the result (the
- * discrete model the reconstruction inverts), and t is the lesion's raster, which full sampling
- * returns exactly.
- */
-export function imageLesionSet(reference: ComplexImage, spec: LesionSpec): LesionSet {
+export function lesionSetOn(
+  without: ComplexImage,
+  reference: ComplexImage,
+  spec: LesionSpec,
+  kind: 'analytic' | 'raster',
+): LesionSet {
   const { nx, ny } = reference;
   const { mask, meanIntensity } = objectSupport(reference);
   const lesions = placeLesions(mask, nx, ny, meanIntensity, spec);
-  const templates = lesions.map((l) => complexFromReal(rasterizeLesions([l], nx, ny), nx, ny));
-  const all = rasterizeLesions(lesions, nx, ny);
-  const withImage = createComplexImage(nx, ny);
-  withImage.data.set(reference.data);
-  for (let i = 0; i < all.length; i++) withImage.data[2 * i] += all[i];
-  return {
-    without: fft2c(reference),
-    withLesions: fft2c(withImage),
-    reference,
-    objectMask: mask,
-    meanIntensity,
-    lesions,
-    templates,
-  };
+  let withLesions: ComplexImage;
+  let templates: ComplexImage[];
+  if (kind === 'analytic') {
+    const lesionK = lesionKspaceAndTemplates(lesions, nx, ny);
+    withLesions = added(without, lesionK.kspace);
+    templates = lesionK.templates;
+  } else {
+    templates = lesions.map((l) => complexFromReal(rasterizeLesions([l], nx, ny), nx, ny));
+    withLesions = added(without, fft2c(complexFromReal(rasterizeLesions(lesions, nx, ny), nx, ny)));
+  }
+  return { without, withLesions, reference, objectMask: mask, meanIntensity, lesions, templates };
+}
+
+/** Where lesions of `spec` go in a phantom at nx×ny (ValidationError on lesions.count when they do not fit). */
+export function phantomLesionPositions(phantom: Phantom, nx: number, ny: number, spec: LesionSpec): Lesion[] {
+  const { mask, meanIntensity } = objectSupport(ifft2c(phantomGridKspace(phantom, nx, ny)));
+  return placeLesions(mask, nx, ny, meanIntensity, spec);
+}
+
+/** Lesions in an analytic phantom: lesionSetOn its exact grid k-space, `analytic`. */
+export function phantomLesionSet(phantom: Phantom, nx: number, ny: number, spec: LesionSpec): LesionSet {
+  const without = phantomGridKspace(phantom, nx, ny);
+  return lesionSetOn(without, ifft2c(without), spec, 'analytic');
+}
+
+/** Lesions in an uploaded image (the reference itself; no analytic k-space): lesionSetOn, `raster`. */
+export function imageLesionSet(reference: ComplexImage, spec: LesionSpec): LesionSet {
+  return lesionSetOn(fft2c(reference), reference, spec, 'raster');
 }

@@ -7,7 +7,13 @@ import { lesionCnr, npwDetectability, ROSE_K, roseResolved } from './detectabili
 import { countFalseLesions, type FalseLesions } from './false-lesions.ts';
 import { type Lesion, lesionDiscPixels } from './lesion.ts';
 import { lesionCandidates, lesionMargins } from './lesion-placement.ts';
-import { replicaVariance, zeroFilledVariance } from './observer-noise.ts';
+import {
+  kernelVariance,
+  replicaVariance,
+  weightSupport,
+  zeroFilledNoiseKernel,
+  zeroFilledVariance,
+} from './observer-noise.ts';
 
 /**
  * How the noise in the reconstruction is known: `replicas` reconstructs the lesion-free data with
@@ -39,6 +45,12 @@ export interface LesionStudyInput {
    * depends on the data), so that paired runs and replicas differ only in their data.
    */
   reconstruct: (input: ReconInput) => ComplexImage;
+  /**
+   * The lesion-free run already done with this mask, noise draw and `reconstruct` (its acquired
+   * k-space and its image): the study then reuses that image as recon(without) and forms the
+   * with-lesion data as acquired + M ⊙ (withLesions − without), the same draw without a new one.
+   */
+  paired?: { acquired: ComplexImage; image: ComplexImage };
   signal?: AbortSignal;
 }
 
@@ -62,10 +74,36 @@ export interface LesionStudy {
   threshold: number;
   roseK: number;
   noise: { method: 'replicas' | 'zero-filled'; replicas: number };
+  /** Reconstructions this study ran (a shared lesion-free run not counted). */
   reconstructions: number;
+  /** recon(with lesions): the paired run's image. */
+  withImage: ComplexImage;
 }
 
-function acquired(full: ComplexImage, mask: Uint8Array, sigma: number, seed: number): ComplexImage {
+/** The lesion-free acquired data plus M ⊙ (with − without): the with-lesion data of the same noise draw. */
+function withAdded(
+  acquiredWithout: ComplexImage,
+  withLesions: ComplexImage,
+  without: ComplexImage,
+  mask: Uint8Array,
+): ComplexImage {
+  const k = createComplexImage(without.nx, without.ny);
+  k.data.set(acquiredWithout.data);
+  for (let i = 0; i < mask.length; i++) {
+    if (!mask[i]) continue;
+    k.data[2 * i] += withLesions.data[2 * i] - without.data[2 * i];
+    k.data[2 * i + 1] += withLesions.data[2 * i + 1] - without.data[2 * i + 1];
+  }
+  return k;
+}
+
+/** M ⊙ (full + noise of σ per real channel drawn from `seed`): one simulated acquisition of full k-space. */
+export function acquiredWithNoise(
+  full: ComplexImage,
+  mask: Uint8Array,
+  sigma: number,
+  seed: number,
+): ComplexImage {
   const noisy = full.data.slice();
   if (sigma > 0) addComplexNoise(noisy, sigma, seed);
   const k = createComplexImage(full.nx, full.ny);
@@ -125,22 +163,34 @@ export function runLesionStudy(input: LesionStudyInput): LesionStudy {
     throwIfAborted(signal);
     return reconstruct({ kspace: k, mask, density });
   };
-  const withImage = recon(acquired(input.withLesions, mask, sigma, seed));
-  const withoutImage = recon(acquired(input.without, mask, sigma, seed));
+  const { paired } = input;
+  const withImage = recon(
+    paired
+      ? withAdded(paired.acquired, input.withLesions, input.without, mask)
+      : acquiredWithNoise(input.withLesions, mask, sigma, seed),
+  );
+  const withoutImage = paired ? paired.image : recon(acquiredWithNoise(input.without, mask, sigma, seed));
   const response = lesionResponse(withImage, withoutImage);
-  let reconstructions = 2;
+  let reconstructions = paired ? 1 : 2;
 
   const replicas: ComplexImage[] = [];
   if (noise.kind === 'replicas' && sigma > 0) {
     for (let m = 0; m < noise.count; m++) {
-      replicas.push(recon(acquired(input.without, mask, sigma, seed + 1 + m)));
+      replicas.push(recon(acquiredWithNoise(input.without, mask, sigma, seed + 1 + m)));
       reconstructions++;
     }
   }
+  // Known σ: one kernel for every observer of small support (pairs ≤ 4N), a transform otherwise.
+  const knownDensity = noise.kind === 'zero-filled' && noise.densityCompensation ? density : undefined;
+  const kernel =
+    noise.kind === 'zero-filled' && sigma > 0 ? zeroFilledNoiseKernel(mask, nx, ny, knownDensity) : null;
   const variance = (w: ComplexImage): number => {
     if (sigma === 0) return 0;
-    if (noise.kind === 'zero-filled') {
-      return zeroFilledVariance(w, mask, sigma, noise.densityCompensation ? density : undefined);
+    if (kernel) {
+      const support = weightSupport(w);
+      return support.length ** 2 <= 4 * nx * ny
+        ? kernelVariance(w, support, kernel, sigma)
+        : zeroFilledVariance(w, mask, sigma, knownDensity);
     }
     return replicaVariance(w, replicas);
   };
@@ -203,5 +253,6 @@ export function runLesionStudy(input: LesionStudyInput): LesionStudy {
     roseK: ROSE_K,
     noise: { method: noise.kind, replicas: replicas.length },
     reconstructions,
+    withImage,
   };
 }

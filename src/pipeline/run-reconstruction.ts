@@ -11,6 +11,7 @@ import {
   acquireCoils,
   acquireTrajectory,
   type CoilSimulation,
+  checkedSnr,
   type FullAcquisition,
   fullKspaceFromImage,
   fullKspaceFromPhantom,
@@ -25,6 +26,7 @@ import { matrixSchemaFor } from '../core/matrix.ts';
 import type { RealImage } from '../core/real-image.ts';
 import { parseOrThrow } from '../core/zod-problems.ts';
 import type { CoilMaps, MultiCoilKspace } from '../encoding/index.ts';
+import { type LesionsRequest, lesionsSchema } from '../fidelity/index.ts';
 import { type MetricSet, SSIM_RADIUS, scoreAll } from '../metrics/index.ts';
 import { densityWeightsFor, nufftPlanFor } from '../nufft/index.ts';
 import { getPhantom } from '../phantoms/index.ts';
@@ -56,6 +58,7 @@ import {
   type PhaseSpec,
   phaseSchema,
 } from './coil-request.ts';
+import { type FidelityOutcome, runLesionFidelity } from './lesion-run.ts';
 import { resampleBilinear } from './resample.ts';
 
 export const sourceSchema = z.union([
@@ -86,6 +89,8 @@ export interface ReconstructionRequest {
   phase?: PhaseSpec;
   /** Ask for a pseudo-replica g-factor where no closed form applies. */
   gFactor?: GFactorRequestSpec;
+  /** Lesions inserted for a feature-fidelity study (single coil, Cartesian). */
+  lesions?: LesionsRequest;
 }
 
 /** The receive array as a response echoes it. */
@@ -123,6 +128,8 @@ export interface ReconstructionOutcome {
   gFactor?: Omit<GFactorResult, 'map' | 'snrRetained'>;
   /** 1/(g·√R) over the object, beside gFactor. */
   snrRetained?: GFactorResult['snrRetained'];
+  /** Feature-fidelity scores when the request has `lesions` (src/pipeline/lesion-run.ts). */
+  fidelity?: FidelityOutcome;
 }
 
 export interface PipelineContext {
@@ -376,6 +383,7 @@ export function reconstructionRequestSchemaFor(limits: Limits) {
     coils: coilsSchema.optional(),
     phase: phaseSchema.optional(),
     gFactor: gFactorRequestSchema.optional(),
+    lesions: lesionsSchema.optional(),
   });
 }
 
@@ -412,6 +420,15 @@ export async function runReconstruction(
   let objectMask: Uint8Array;
   let coilSigma = 0;
   let whitenedFull: MultiCoilKspace | undefined;
+  let sigma = 0;
+  const noiseSeed = noiseSeedFor(baseSeed);
+  if (req.lesions && (simulation || sampled.trajectory)) {
+    throw new ValidationError({
+      field: 'lesions',
+      message: 'lesion studies run on single-coil Cartesian acquisitions only, for now',
+      allowed: "coils: { array: 'uniform' } and a Cartesian (or rasterised) pattern with lesions",
+    });
+  }
   if (simulation) {
     if (sampled.trajectory) {
       throw new ValidationError({
@@ -420,7 +437,7 @@ export async function runReconstruction(
         allowed: "trajectory: 'rasterised' with a receive array, or coils: { array: 'uniform' }",
       });
     }
-    const acquired = acquireCoils(simulation, sampled.mask, req.noise, noiseSeedFor(baseSeed));
+    const acquired = acquireCoils(simulation, sampled.mask, req.noise, noiseSeed);
     if (acquired.sigma > 0) {
       notes.push(
         `complex Gaussian noise: σ = ${acquired.sigma.toPrecision(4)} per real channel in the optimally combined ` +
@@ -429,6 +446,7 @@ export async function runReconstruction(
     }
     coilSigma = acquired.coilSigma;
     whitenedFull = acquired.full;
+    sigma = acquired.sigma;
     const coilData: CoilData = { kspace: acquired.kspace, maps: acquired.maps };
     coilZeroFilled = zeroFilledCoilCombination(coilData);
     input = { kspace: fft2c(coilZeroFilled), mask: sampled.mask, density: sampled.density, coils: coilData };
@@ -436,13 +454,11 @@ export async function runReconstruction(
     objectMask = simulation.objectMask;
   } else {
     const single = full as FullAcquisition;
-    const noiseSeed = noiseSeedFor(baseSeed);
     const acquired = sampled.trajectory
       ? trajectoryInput(single, sampled, req.noise, noiseSeed, notes)
       : cartesianInput(single, sampled, req.noise, noiseSeed);
-    if (acquired.sigma > 0) {
-      notes.push(`complex Gaussian noise, σ = ${acquired.sigma.toPrecision(4)} per real channel`);
-    }
+    sigma = acquired.sigma;
+    if (sigma > 0) notes.push(`complex Gaussian noise, σ = ${sigma.toPrecision(4)} per real channel`);
     input = acquired.input;
     referenceImage = single.reference;
     objectMask = single.objectMask;
@@ -489,6 +505,27 @@ export async function runReconstruction(
   const coilFacts = simulation && coils ? coilsEcho(coils, simulation) : {};
   const gFactorFacts = gFactor ? gFactorEcho(gFactor, nx, ny) : { facts: {}, images: {} };
 
+  // Lesion studies are single-coil Cartesian (refused above otherwise): `full` is then defined.
+  const fidelity =
+    req.lesions && full
+      ? runLesionFidelity({
+          lesions: req.lesions,
+          full,
+          kind: 'phantom' in req.source && !full.inverseCrime ? 'analytic' : 'raster',
+          sampled,
+          acquired: input.kspace,
+          image: result.image,
+          method: req.method,
+          info: result.info,
+          sigma,
+          snr: checkedSnr(req.noise),
+          noiseSeed,
+          signal: ctx.signal,
+          limits,
+        })
+      : undefined;
+  if (fidelity) notes.push(...fidelity.notes);
+
   return {
     acceleration: sampled.acceleration,
     acquired: sampled.acquired,
@@ -508,6 +545,7 @@ export async function runReconstruction(
     sampled,
     ...coilFacts,
     ...gFactorFacts.facts,
+    ...(fidelity ? { fidelity } : {}),
   };
 }
 

@@ -1,17 +1,19 @@
 import { ValidationError } from '../core/errors.ts';
 import { formatDuration, scanTime } from '../protocol/index.ts';
 import type { CellResult } from './cell-result.ts';
+import { fidelityGroup } from './fidelity-group.ts';
 import { specLabels } from './labels.ts';
-import { metricNames } from './metric-direction.ts';
+import { type MetricName, metricNames } from './metric-direction.ts';
 import { paretoFront } from './pareto.ts';
 import { patternSpecs } from './pattern-specs.ts';
 import { planCoilArrays } from './plan-cells.ts';
 import type { PlanRow, PlanTable } from './plan-table.ts';
-import { planTargets, rankingMetric } from './plan-targets.ts';
-import { meetsAllTargets, recommend } from './recommend.ts';
+import { meetsTargets, recommend } from './recommend.ts';
 import { type GridPosition, rowKey } from './row-key.ts';
 import type { Plan } from './schema.ts';
 import { mean, summarize } from './statistics.ts';
+import { G_FACTOR_MAX, type Target } from './target-schema.ts';
+import { isTaskMetric } from './task-metrics.ts';
 import { coilsLabel } from './upstream.ts';
 
 export const referencePatternLabel = 'fully sampled';
@@ -61,7 +63,9 @@ export function buildTable(plan: TablePlan, cellResults: readonly CellResult[]):
   });
 
   const targets = planTargets(plan);
-  const paretoMetric = rankingMetric(targets);
+  // The Pareto front is drawn on an image-quality metric: the first target's, else NRMSE.
+  const paretoMetric = (targets.find((t) => !isTaskMetric(t.metric) && t.metric !== G_FACTOR_MAX)?.metric ??
+    'nrmse') as MetricName;
   const rows: PlanRow[] = [];
   for (const position of positions) {
     const results = groups.get(rowKey(position));
@@ -92,14 +96,16 @@ export function buildTable(plan: TablePlan, cellResults: readonly CellResult[]):
       timeSavedPct: full.seconds > 0 ? 100 * (1 - scanSeconds / full.seconds) : 0,
       effectiveTeMs: meanOrNull(results.map((r) => r.effectiveTeMs ?? null)),
       metrics,
+      ...fidelityGroup(results),
       reconMs: mean(results.map((r) => r.reconMs)),
       seeds: results.length,
       pareto: false,
       meetsTarget: null,
       ...representative(results),
     });
+    const row = rows[rows.length - 1];
+    row.meetsTarget = targets.length === 0 ? null : meetsTargets(row, targets);
   }
-  for (const row of rows) row.meetsTarget = targets.length === 0 ? null : meetsAllTargets(row, targets);
 
   const front = paretoFront(
     rows.map((row) => ({ scanSeconds: row.scanSeconds, value: row.metrics[paretoMetric].mean })),
@@ -141,6 +147,11 @@ function gFactorColumns(
     gFactorMax: mean(known.map((g) => g.max)),
     gFactorMethod: known[0].method,
   };
+}
+
+/** Every target of a plan: `target` first, then `targets` (all must be met). */
+export function planTargets(plan: Pick<TablePlan, 'target' | 'targets'>): Target[] {
+  return [...(plan.target ? [plan.target] : []), ...(plan.targets ?? [])];
 }
 
 function groupResults(cellResults: readonly CellResult[]): Map<string, CellResult[]> {

@@ -2,6 +2,13 @@ import { z } from 'zod';
 import { metricNames } from './metric-direction.ts';
 import { gFactorSummarySchema, acquiredUnitSchema as unit } from './upstream.ts';
 
+/** One point of a contrast–detail curve: the smallest contrast resolved at a diameter (null: none). */
+export const contrastDetailPointSchema = z.object({
+  diameterUnits: z.number(),
+  diameterPixels: z.number(),
+  smallestContrast: z.number().nullable().describe('null: not resolved at any contrast'),
+});
+
 const metricValue = z.number().nullable().describe('null = +∞ (PSNR of an exact reconstruction)');
 
 /**
@@ -39,6 +46,21 @@ export const cellResultSchema = z.object({
       typeof metricValue
     >,
   ),
+  fidelity: z
+    .object({
+      contrastRecovery: z.number(),
+      falseLesions: z.number(),
+      detectability: z.number().nullable().describe('mean over lesions; null = +∞ (noiseless)'),
+      resolvedFraction: z.number(),
+      contrastDetail: z
+        .object({
+          curve: z.array(contrastDetailPointSchema),
+          fullySampled: z.array(contrastDetailPointSchema),
+        })
+        .optional(),
+    })
+    .optional()
+    .describe('task scores of the lesion study (plans with lesions)'),
   reconMs: z.number(),
   notes: z.array(z.string()).describe('pipeline notes (inverse crime for uploads, rescaling, …)'),
   resultId: z

@@ -34,15 +34,7 @@ export {
   rowPickSchema,
   summarySchema,
 } from './plan-table.ts';
-export {
-  type GFactorTarget,
-  gFactorTargetSchema,
-  type PlanTarget,
-  planTargetSchema,
-  planTargets,
-  RESERVED_TARGET_METRICS,
-} from './plan-targets.ts';
-export { describeTarget, meetsAllTargets, meetsPlanTarget, meetsTarget, recommend } from './recommend.ts';
+export { describeTarget, meetsTarget, meetsTargets, recommend } from './recommend.ts';
 export { type GridPosition, rowKey } from './row-key.ts';
 export { runCell, runCellOutcome } from './run-cell.ts';
 export { type RunCellFn, type RunPlanOptions, runPlan } from './run-plan.ts';

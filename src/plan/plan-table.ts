@@ -1,7 +1,9 @@
 import { z } from 'zod';
 import { scanTimeResultSchema } from '../protocol/index.ts';
+import { contrastDetailPointSchema } from './cell-result.ts';
 import { metricNames } from './metric-direction.ts';
-import { planTargetSchema } from './plan-targets.ts';
+import { targetSchema } from './target-schema.ts';
+import { type TaskMetricName, taskMetricNames } from './task-metrics.ts';
 import { acquiredUnitSchema } from './upstream.ts';
 
 // The tradeoff table as zod schemas: one source for the TypeScript types, for response validation
@@ -14,6 +16,23 @@ export const summarySchema = z.object({
     .number()
     .nullable()
     .describe('sample standard deviation (n − 1), 0 for one seed; null when the mean is +∞'),
+});
+
+/**
+ * The fidelity column group of a plan with lesions: each task score's mean and sd over seeds
+ * (detectability null = +∞ when noiseless), and, when asked, the contrast–detail curves.
+ */
+export const fidelityColumnsSchema = z.object({
+  ...(Object.fromEntries(taskMetricNames.map((m) => [m, summarySchema])) as Record<
+    TaskMetricName,
+    typeof summarySchema
+  >),
+  contrastDetail: z
+    .object({ curve: z.array(contrastDetailPointSchema), fullySampled: z.array(contrastDetailPointSchema) })
+    .optional()
+    .describe(
+      'on the contrast-detail phantom; per diameter the largest smallest-resolved contrast over seeds (null if any seed resolves none)',
+    ),
 });
 
 const gridPosition = {
@@ -77,6 +96,11 @@ export const planRowSchema = z.object({
       typeof summarySchema
     >,
   ),
+  fidelity: fidelityColumnsSchema
+    .optional()
+    .describe(
+      'task scores of the inserted lesions (plans with lesions): contrast recovery, false lesions, …',
+    ),
   reconMs: z.number().describe('mean reconstruction wall time in ms (varies between runs)'),
   seeds: z.int().describe('seeds aggregated in this row'),
   pareto: z.boolean().describe('on the Pareto front of scan time vs paretoMetric'),
@@ -110,8 +134,11 @@ export const methodRecommendationSchema = z.object({
 });
 
 export const recommendationSchema = z.object({
-  target: planTargetSchema.nullable().describe('the first target (target, else targets[0])'),
-  targets: z.array(planTargetSchema).describe('every target a recommended row meets: target, then targets'),
+  target: targetSchema.nullable().describe('the first target (target, else targets[0])'),
+  targets: z.array(targetSchema).describe('every target a recommended row meets: target, then targets'),
+  decidedBy: targetSchema
+    .nullable()
+    .describe('the target that ruled out the shorter scans; null when the shortest candidate meets all'),
   met: z.boolean().describe('some undersampled row meets every target'),
   overall: rowPickSchema.nullable().describe('shortest scan meeting the target over all methods'),
   closest: rowPickSchema.nullable().describe('when nothing meets the target: the closest row'),
@@ -132,6 +159,7 @@ export const planTableSchema = z.object({
 });
 
 export type PlanRow = z.infer<typeof planRowSchema>;
+export type FidelityColumns = z.infer<typeof fidelityColumnsSchema>;
 export type RowPick = z.infer<typeof rowPickSchema>;
 export type MethodRecommendation = z.infer<typeof methodRecommendationSchema>;
 export type Recommendation = z.infer<typeof recommendationSchema>;

@@ -5,6 +5,7 @@ import type { PlanCell } from './plan-cells.ts';
 import type { Plan } from './schema.ts';
 import {
   coilsLabel,
+  type FidelityOutcome,
   type PipelineContext,
   type ReconstructionOutcome,
   runReconstruction,
@@ -35,6 +36,7 @@ export async function runCellOutcome(
       coils: cell.coils,
       ...(plan.phase === undefined ? {} : { phase: plan.phase }),
       ...(plan.gFactor === undefined ? {} : { gFactor: plan.gFactor }),
+      ...(plan.lesions === undefined ? {} : { lesions: plan.lesions }),
     },
     cell.seed,
     ctx,
@@ -51,10 +53,22 @@ export async function runCellOutcome(
       ssim: jsonNumber(outcome.metrics.ssim),
       hfen: jsonNumber(outcome.metrics.hfen),
     },
+    ...(outcome.fidelity ? { fidelity: cellFidelity(outcome.fidelity) } : {}),
     reconMs: outcome.timing.reconMs,
     notes: [...outcome.notes],
   };
   return { result, outcome };
+}
+
+/** The task scores of a cell's lesion study as plain numbers (src/plan/task-metrics.ts). */
+function cellFidelity(f: FidelityOutcome): NonNullable<CellResult['fidelity']> {
+  return {
+    contrastRecovery: f.contrastRecovery.mean,
+    falseLesions: f.falseLesions.count,
+    detectability: jsonNumber(f.detectability.mean),
+    resolvedFraction: f.resolved / f.lesions.length,
+    ...(f.contrastDetail ? { contrastDetail: f.contrastDetail } : {}),
+  };
 }
 
 /**

@@ -4,8 +4,8 @@ import { allowedText, fieldPath } from '../core/zod-problems.ts';
 import { protocolSchema } from '../protocol/index.ts';
 import { patternSpecs } from './pattern-specs.ts';
 import { planCellCount } from './plan-cells.ts';
-import { planTargetSchema } from './plan-targets.ts';
 import { targetSchema } from './target-schema.ts';
+import { isTaskMetric } from './task-metrics.ts';
 import {
   cartesianRandomSchema,
   cartesianUniformSchema,
@@ -13,6 +13,7 @@ import {
   customSchema,
   gFactorRequestSchema,
   latticeSchema,
+  lesionsSchema,
   methodSchemaFor,
   noiseSchema,
   phaseSchema,
@@ -106,15 +107,29 @@ function buildPlanSchema(limits: Limits) {
       gFactor: gFactorRequestSchema.optional(),
       target: targetSchema.optional(),
       targets: z
-        .array(planTargetSchema)
+        .array(targetSchema)
         .min(1)
         .max(8)
         .optional()
         .describe(
           'targets a recommended row must all meet, beside target (e.g. { "metric": "gFactorMax", "atMost": 1.5 })',
         ),
+      lesions: lesionsSchema
+        .optional()
+        .describe('lesions inserted in every cell; rows gain the fidelity column group'),
     })
     .superRefine((plan, ctx) => {
+      // A task score needs lesions to score it.
+      const named = [plan.target, ...(Array.isArray(plan.targets) ? plan.targets : [])];
+      named.forEach((t, i) => {
+        if (!t || plan.lesions !== undefined || !isTaskMetric(t.metric)) return;
+        ctx.addIssue({
+          code: 'custom',
+          path: i === 0 ? ['target', 'metric'] : ['targets', i - 1, 'metric'],
+          message: `${t.metric} is a task score: the plan needs lesions to score it`,
+          params: { allowed: 'a plan with lesions, or an image-quality metric (nrmse, psnr, ssim, hfen)' },
+        });
+      });
       // zod runs refinements on data that already has issues: check the shapes this relies on.
       if (!Array.isArray(plan.accelerations) || !Array.isArray(plan.patterns)) return;
       plan.accelerations.forEach((r, j) => {

@@ -1,4 +1,5 @@
 import type { PlanRow, PlanTable } from './plan-table.ts';
+import { taskMetricNames, taskMetrics } from './task-metrics.ts';
 
 /** One CSV column: header name (units in the name) and how a row fills it. */
 interface Column {
@@ -49,6 +50,22 @@ export const csvColumns: readonly Column[] = [
   { name: 'meets_target', value: (r) => (r.meetsTarget === null ? '' : String(r.meetsTarget)) },
 ];
 
+/** The fidelity column group (plans with lesions): each task score's mean and sd, empty where a row has none. */
+export const fidelityCsvColumns: readonly Column[] = taskMetricNames.flatMap((m) => {
+  const decimals = taskMetrics[m].decimals + 2;
+  const read = (key: 'mean' | 'sd') => (r: PlanRow) => {
+    const summary = r.fidelity?.[m];
+    if (!summary) return '';
+    const v = summary[key];
+    return v === null ? (key === 'mean' ? 'Infinity' : '') : v.toFixed(decimals);
+  };
+  const name = m.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`);
+  return [
+    { name: `${name}_mean`, value: read('mean') },
+    { name: `${name}_sd`, value: read('sd') },
+  ];
+});
+
 /** RFC 4180 field: quoted when it holds a comma, a double quote, CR or LF; inner quotes doubled. */
 export function csvField(text: string): string {
   return /[",\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
@@ -56,7 +73,8 @@ export function csvField(text: string): string {
 
 /** The tradeoff table as RFC 4180 CSV: header row, one record per table row, every record ends in CRLF. */
 export function tableToCsv(table: PlanTable): string {
-  const lines = [csvColumns.map((c) => csvField(c.name)).join(',')];
-  for (const row of table.rows) lines.push(csvColumns.map((c) => csvField(c.value(row))).join(','));
+  const columns = table.rows.some((r) => r.fidelity) ? [...csvColumns, ...fidelityCsvColumns] : csvColumns;
+  const lines = [columns.map((c) => csvField(c.name)).join(',')];
+  for (const row of table.rows) lines.push(columns.map((c) => csvField(c.value(row))).join(','));
   return `${lines.join('\r\n')}\r\n`;
 }

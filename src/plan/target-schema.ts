@@ -1,5 +1,27 @@
 import { z } from 'zod';
 import { higherIsBetter, metricNames } from './metric-direction.ts';
+import { taskMetricNames, taskMetrics } from './task-metrics.ts';
+
+/**
+ * The noise-amplification target: a row's largest g over the object (mean over seeds); a row
+ * without a g-factor does not meet it.
+ */
+export const G_FACTOR_MAX = 'gFactorMax';
+
+/**
+ * What a target may name: an image-quality metric, a task score (src/plan/task-metrics.ts) or the
+ * largest g-factor.
+ */
+export const targetMetricNames = [...metricNames, ...taskMetricNames, G_FACTOR_MAX] as const;
+export type TargetMetric = (typeof targetMetricNames)[number];
+
+/** Whether higher values of a target's metric are better. */
+export function targetHigherIsBetter(metric: TargetMetric): boolean {
+  if (metric === G_FACTOR_MAX) return false;
+  return metric in taskMetrics
+    ? taskMetrics[metric as keyof typeof taskMetrics].higherIsBetter
+    : higherIsBetter[metric as keyof typeof higherIsBetter];
+}
 
 /**
  * The image-quality target of a plan: `{ metric, atLeast }` for higher-is-better metrics (ssim,
@@ -7,13 +29,25 @@ import { higherIsBetter, metricNames } from './metric-direction.ts';
  */
 export const targetSchema = z
   .strictObject({
-    metric: z.enum(metricNames).describe('metric the recommendation and the Pareto front use'),
-    atLeast: z.number().optional().describe('lowest acceptable mean value (ssim, psnr)'),
-    atMost: z.number().optional().describe('highest acceptable mean value (nrmse, hfen)'),
+    metric: z
+      .enum(targetMetricNames)
+      .describe(
+        'metric the recommendation and the Pareto front use; task scores need the plan to have lesions',
+      ),
+    atLeast: z
+      .number()
+      .optional()
+      .describe(
+        'lowest acceptable mean value (ssim, psnr, contrastRecovery, detectability, resolvedFraction)',
+      ),
+    atMost: z
+      .number()
+      .optional()
+      .describe('highest acceptable mean value (nrmse, hfen, falseLesions, gFactorMax)'),
   })
   .superRefine((t, ctx) => {
-    if (!metricNames.includes(t.metric)) return; // already reported; zod refines invalid data too
-    const wanted = higherIsBetter[t.metric] ? 'atLeast' : 'atMost';
+    if (!targetMetricNames.includes(t.metric)) return; // already reported; zod refines invalid data too
+    const wanted = targetHigherIsBetter(t.metric) ? 'atLeast' : 'atMost';
     const other = wanted === 'atLeast' ? 'atMost' : 'atLeast';
     if (t[other] !== undefined) {
       ctx.addIssue({

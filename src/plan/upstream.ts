@@ -18,6 +18,7 @@ export {
   spiralSchema,
 } from '../../sampling/index.ts';
 export { noiseSchema } from '../acquisition/index.ts';
+export { lesionSpecOf, lesionsSchema, phantomLesionPositions } from '../fidelity/index.ts';
 export { getPhantom } from '../phantoms/index.ts';
 export { gFactorSummarySchema } from '../pipeline/coil-g-factor.ts';
 export {
@@ -28,6 +29,7 @@ export {
   type PhaseSpec,
   phaseSchema,
 } from '../pipeline/coil-request.ts';
+export type { FidelityOutcome } from '../pipeline/lesion-run.ts';
 export {
   type PipelineContext,
   type ReconstructionOutcome,

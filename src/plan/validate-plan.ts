@@ -4,7 +4,7 @@ import { parseOrThrow } from '../core/zod-problems.ts';
 import { scanTime } from '../protocol/index.ts';
 import { patternSpecs, withProtocolPartialFourier } from './pattern-specs.ts';
 import { type Plan, planSchemaFor } from './schema.ts';
-import { generateMask, getPhantom } from './upstream.ts';
+import { generateMask, getPhantom, lesionSpecOf, phantomLesionPositions } from './upstream.ts';
 
 export interface ValidatePlanOptions {
   limits?: Limits;
@@ -29,11 +29,18 @@ export function validatePlan(input: unknown, options: ValidatePlanOptions = {}):
 /**
  * The checks of a parsed plan that the schema cannot make: the phantom exists (422 on
  * source.phantom now, not halfway through the plan; image ids are checked against the store by the
- * route) and, by default, one draw of every mask.
+ * route) and, by default, one draw of every mask and the placement of the lesions in a phantom.
  */
 export function checkPlan(plan: Plan, options: ValidatePlanOptions = {}): Plan {
   if ('phantom' in plan.source) getPhantom(plan.source.phantom);
-  if (options.checkMasks ?? true) checkMasks(plan, options.limits ?? defaultLimits);
+  if (options.checkMasks ?? true) {
+    checkMasks(plan, options.limits ?? defaultLimits);
+    // Lesions that do not fit the phantom's object are a 422 on lesions.count now (uploads: per cell).
+    if (plan.lesions && 'phantom' in plan.source) {
+      const { nx, ny } = plan.matrix;
+      phantomLesionPositions(getPhantom(plan.source.phantom), nx, ny, lesionSpecOf(plan.lesions));
+    }
+  }
   return plan;
 }
 

@@ -12,6 +12,7 @@ export {
   combineCoilImages,
   zeroFilledCoilCombination,
 } from './coil-combination.ts';
+export { zeroFilledPeak } from './cs-tv.ts';
 export {
   DEFAULT_G_REPLICAS,
   type GFactorRequest,

@@ -14,6 +14,7 @@ import { greyPng, maskPng } from '../render/png.ts';
 import type { Caller, MissingImage } from './caller.ts';
 import { coilMapInputs, coilMapRefs, loadNamedCoilMaps } from './coil-map-refs.ts';
 import { coilMapsNotFound } from './coil-maps.ts';
+import { describeFidelity, fidelitySchema } from './fidelity-summary.ts';
 import { finiteOrNull, jsonSafe } from './json-safe.ts';
 import { type ResultImageKey, resultImageNames, resultImageUrl } from './result-images.ts';
 import { psfSummary, psfSummarySchema, sampledSummary, sampledSummarySchema } from './sampled-summary.ts';
@@ -62,6 +63,7 @@ export const reconstructionSchema = z.object({
         .describe(
           `g-factor map, linear grey from 0 (black) to g = ${G_FACTOR_WHITE} (white); where a g-factor applies`,
         ),
+      lesions: z.string().optional().describe('the reconstruction of the data with lesions (lesions only)'),
     })
     .describe('PNG URLs (GET /v1/results/{id}/{image}.png)'),
   coils: z
@@ -93,6 +95,7 @@ export const reconstructionSchema = z.object({
     .object({ mean: z.number(), min: z.number() })
     .optional()
     .describe('1/(g·√R) over the object: the SNR kept against the fully sampled scan (beside gFactor)'),
+  fidelity: fidelitySchema.optional(),
   createdAt: z.string(),
 });
 
@@ -199,6 +202,9 @@ async function renderImages(
     ...(images.gFactor
       ? { [resultImageNames.gFactor]: await greyPng(images.gFactor, { max: G_FACTOR_WHITE }) }
       : {}),
+    ...(outcome.fidelity
+      ? { [resultImageNames.lesions]: await greyPng(outcome.fidelity.image, { max: white }) }
+      : {}),
   };
 }
 
@@ -217,7 +223,9 @@ function describe(id: string, { outcome, diagnostics, zeroFilledMetrics }: Score
       ? outcome.images.coilMaps !== undefined
       : key === 'gFactor'
         ? outcome.images.gFactor !== undefined
-        : true;
+        : key === 'lesions'
+          ? outcome.fidelity !== undefined
+          : true;
   const urls = Object.fromEntries(
     (Object.keys(resultImageNames) as ResultImageKey[])
       .filter(shown)
@@ -239,6 +247,7 @@ function describe(id: string, { outcome, diagnostics, zeroFilledMetrics }: Score
     ...(outcome.coils ? { coils: outcome.coils } : {}),
     ...(outcome.gFactor ? { gFactor: outcome.gFactor } : {}),
     ...(outcome.snrRetained ? { snrRetained: outcome.snrRetained } : {}),
+    ...(outcome.fidelity ? { fidelity: describeFidelity(outcome.fidelity) } : {}),
     createdAt: new Date().toISOString(),
   };
 }

@@ -8,6 +8,8 @@ export const resultImageNames = {
   psf: 'psf',
   coilMaps: 'coil-maps',
   gFactor: 'g-factor',
+  /** |recon(with lesions)|, stored only for a request with lesions. */
+  lesions: 'lesions',
 } as const;
 
 export type ResultImageKey = keyof typeof resultImageNames;

@@ -1,6 +1,7 @@
 // Entry point of the planner page: wires the setup form, the single acquisition and the plan sections.
 
 import { apiKey, getJson, setApiKey } from './api.js';
+import { wireLesionForm } from './lesion-form.js';
 import { PlanList } from './plan-list.js';
 import { PlanRun } from './plan-run.js';
 import { SetupForm } from './setup-form.js';
@@ -12,6 +13,7 @@ const byId = (id) => document.getElementById(id);
 
 async function main() {
   const setup = new SetupForm(byId('setup'));
+  wireLesionForm();
   const single = new SingleRun(setup);
   // Every plan shown goes into the address (so the link reopens it) and the list is read again.
   const plan = new PlanRun(setup, (id) => {

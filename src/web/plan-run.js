@@ -3,9 +3,11 @@
 
 import { apiKey, deleteResource, getJson, postJson } from './api.js';
 import { offerResource } from './downloads.js';
+import { lesionsPiece, taskTargets } from './lesion-form.js';
 import { planPoints, renderPlanTable } from './plan-table.js';
 import { hideRowImages, showRowImages } from './row-images.js';
 import { showProblem, showStatus } from './status.js';
+import { offerTaskScores } from './task-scores.js';
 import { drawTradeoffPlot } from './tradeoff-plot.js';
 
 const byId = (id) => document.getElementById(id);
@@ -76,6 +78,12 @@ export class PlanRun {
     };
     const noise = setup.noise();
     if (noise) body.noise = noise;
+    const lesions = lesionsPiece();
+    if (lesions) {
+      body.lesions = lesions;
+      const targets = taskTargets();
+      if (targets.length > 0) body.targets = targets;
+    }
     return body;
   }
 
@@ -243,6 +251,7 @@ export class PlanRun {
       return;
     }
     const metric = plan.table?.paretoMetric ?? byId('targetMetric').value;
+    offerTaskScores(byId('plotMetric'), plan.table?.rows ?? []);
     byId('plotMetric').value = metric;
     renderPlanTable(byId('planTable'), plan);
     this.redrawPlot();

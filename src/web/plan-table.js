@@ -5,6 +5,7 @@
 // needs no sideways scroll on a laptop screen.
 
 import { formatMeanSd, formatNumber } from './format.js';
+import { rowSummary, taskColumns, taskLabel, taskTableColumns } from './task-scores.js';
 
 export const metricColumns = [
   { metric: 'nrmse', label: 'NRMSE', kind: 'nrmse' },
@@ -13,7 +14,8 @@ export const metricColumns = [
   { metric: 'hfen', label: 'HFEN', kind: 'hfen' },
 ];
 
-const metricLabel = (metric) => metricColumns.find((c) => c.metric === metric)?.label ?? metric;
+const metricLabel = (metric) =>
+  metricColumns.find((c) => c.metric === metric)?.label ?? taskLabel(metric) ?? metric;
 
 function metricColumn({ metric, label, kind }, secondary) {
   return {
@@ -32,7 +34,7 @@ function metricColumn({ metric, label, kind }, secondary) {
  * Columns: header, hover definition, the row field shown (dotted path), its number kind or a text
  * renderer, and whether it is secondary. The target metric's column sits beside the scan time.
  */
-function columnsFor(targetMetric) {
+function columnsFor(targetMetric, rows) {
   const target = metricColumns.find((c) => c.metric === targetMetric) ?? metricColumns[0];
   return [
     { label: 'Pattern', title: 'Sampling pattern', text: (row) => row.pattern, sticky: true },
@@ -58,6 +60,7 @@ function columnsFor(targetMetric) {
       kind: 'percent',
     },
     { ...metricColumn(target, false), target: true },
+    ...taskTableColumns(rows),
     {
       label: 'Pareto',
       title: `On the Pareto front of scan time against ${target.label}`,
@@ -65,7 +68,7 @@ function columnsFor(targetMetric) {
     },
     {
       label: 'Meets target',
-      title: 'Mean target metric meets the target value',
+      title: 'The means meet every target (the metric target and any task-score targets)',
       text: (row) => (row.meetsTarget === null ? '' : row.meetsTarget ? 'yes' : 'no'),
     },
     {
@@ -159,7 +162,7 @@ export function recommendedKey(plan) {
 }
 
 export function renderPlanTable(table, plan) {
-  const columns = columnsFor(plan.table?.paretoMetric);
+  const columns = columnsFor(plan.table?.paretoMetric, plan.table?.rows ?? []);
   const head = document.createElement('tr');
   for (const column of columns) {
     const th = document.createElement('th');
@@ -195,8 +198,8 @@ export function renderPlanTable(table, plan) {
 
 /** One sentence per row for the plot's hover box and its list of points. */
 function describeRow(row, metric, picked) {
-  const value = row.metrics?.[metric];
-  const kind = metricColumns.find((c) => c.metric === metric)?.kind;
+  const value = rowSummary(row, metric);
+  const kind = [...metricColumns, ...taskColumns].find((c) => c.metric === metric)?.kind;
   const r = row.reference
     ? 'R 1, fully sampled'
     : row.requestedR === null
@@ -222,7 +225,7 @@ export function planPoints(plan, metric) {
   const points = [];
   const offAxis = [];
   for (const row of plan.table?.rows ?? []) {
-    const y = row.metrics?.[metric]?.mean;
+    const y = rowSummary(row, metric)?.mean;
     if (typeof y !== 'number') {
       offAxis.push(row);
       continue;

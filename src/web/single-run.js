@@ -7,6 +7,9 @@ import { offerBlob, offerResource, withdraw } from './downloads.js';
 import { colouredErrorPng, drawColourBar, errorLevels } from './error-map.js';
 import { formatNumber, showNumber } from './format.js';
 import { ImageDialog } from './image-dialog.js';
+import { lesionsPiece } from './lesion-form.js';
+import { markedPng } from './lesion-marks.js';
+import { hideFidelity, lesionMarks, showFidelity } from './lesion-view.js';
 import { drawPsfProfile } from './psf-profile.js';
 import { showProblem, showStatus } from './status.js';
 import { steerZoom, ZoomGroup } from './zoom-group.js';
@@ -224,6 +227,8 @@ export class SingleRun {
     showNotes([]);
     byId('singleDownloads').hidden = true;
     for (const link of byId('singleDownloads').querySelectorAll('a')) withdraw(link);
+    hideFidelity();
+    this.marks = null;
     this.errors = null;
     byId('errorScale').hidden = true;
     this.lastOutcome = null;
@@ -262,6 +267,8 @@ export class SingleRun {
     };
     const noise = setup.noise();
     if (noise) body.noise = noise;
+    const lesions = lesionsPiece();
+    if (lesions) body.lesions = lesions;
     const maskBody = { matrix: body.matrix, sampling: body.sampling };
     const [outcome, mask, maskPng, [full, under, withoutPartialFourier]] = await Promise.all([
       postJson('v1/reconstructions', body),
@@ -278,7 +285,9 @@ export class SingleRun {
       ),
     );
     this.errors = await errorLevels(fetched.reconstruction, fetched.reference);
+    this.marks = lesionMarks(outcome);
     await Promise.all([
+      showFidelity(outcome),
       showBlob('imgReconstruction', fetched.reconstruction),
       showBlob('imgZeroFilled', fetched.zeroFilled),
       showBlob('imgReference', fetched.reference),
@@ -318,7 +327,9 @@ export class SingleRun {
     const errors = this.errors;
     if (!errors) return;
     const scaleMax = Number(byId('errorScaleMax').value);
-    await showBlob('imgErrorMap', await colouredErrorPng(errors, scaleMax));
+    const coloured = await colouredErrorPng(errors, scaleMax);
+    // With lesions, the true positions (circles) and the false lesions (squares) are marked on it.
+    await showBlob('imgErrorMap', this.marks ? (await markedPng(coloured, this.marks)).png : coloured);
     const box = byId('errorScale');
     drawColourBar(byId('errorColourBar'), byId('errorColourTicks'), scaleMax);
     const maxError = errors.maxLevel / 255;

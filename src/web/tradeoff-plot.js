@@ -3,6 +3,7 @@
 // series per pattern and method, each point labelled with its R, the plan's Pareto front and its
 // recommendation marked on their own rows. Drawn with uPlot (served from node_modules).
 
+import { taskColumns } from './task-scores.js';
 import uPlot from './vendor/uplot/uPlot.esm.js';
 
 /** Okabe–Ito colour-blind-safe palette (Okabe & Ito 2008), one colour per pattern+method series. */
@@ -13,6 +14,9 @@ const metricLabels = {
   psnr: 'PSNR in dB (higher is better)',
   ssim: 'SSIM (higher is better)',
   hfen: 'HFEN (lower is better)',
+  ...Object.fromEntries(
+    taskColumns.map((c) => [c.metric, `${c.label} (${c.higherIsBetter ? 'higher' : 'lower'} is better)`]),
+  ),
 };
 
 /** Draws only markers: rows are points, not a curve. */

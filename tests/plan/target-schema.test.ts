@@ -29,7 +29,9 @@ describe('plan target', () => {
     expect(problem({ metric: 'psnr' })).toMatchObject({ field: 'target.atLeast' });
     expect(problem({ metric: 'mse', atMost: 1 })).toMatchObject({
       field: 'target.metric',
-      allowed: 'one of "nrmse", "psnr", "ssim", "hfen"',
+      // The contract adds the task scores a plan with lesions can target.
+      allowed:
+        'one of "nrmse", "psnr", "ssim", "hfen", "contrastRecovery", "falseLesions", "detectability", "resolvedFraction"',
     });
   });
 });
