@@ -56,6 +56,13 @@ export const targetSchema = z
         message: `${t.metric} is ${wanted === 'atLeast' ? 'higher' : 'lower'}-is-better: give ${wanted}`,
         params: { allowed: `${wanted} for ${t.metric}` },
       });
+    } else if (t.metric === G_FACTOR_MAX && t.atMost !== undefined && t.atMost < 1) {
+      ctx.addIssue({
+        code: 'custom',
+        path: ['atMost'],
+        message: `g ≥ 1 by definition: a bound of ${t.atMost} can never be met`,
+        params: { allowed: 'atMost ≥ 1 for gFactorMax' },
+      });
     } else if (t[wanted] === undefined) {
       ctx.addIssue({
         code: 'custom',

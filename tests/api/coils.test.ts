@@ -161,7 +161,7 @@ describe('receive arrays through the HTTP API', () => {
     expect(csv.text.split('\r\n')[3].split(',')[header.indexOf('coils')]).toBe('8 loops');
   });
 
-  it('plan targets: a reserved lesion metric is a 422 naming targets[0].metric', async () => {
+  it('plan targets: a lesion task score in a plan without lesions is a 422 naming targets[0].metric', async () => {
     const problem = await postProblem(
       t,
       '/v1/plans',
@@ -172,6 +172,6 @@ describe('receive arrays through the HTTP API', () => {
       422,
       'targets[0].metric',
     );
-    expect(problem.errors[0].message).toMatch(/reserved/);
+    expect(problem.errors[0].message).toMatch(/task score/);
   });
 });

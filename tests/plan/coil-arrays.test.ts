@@ -54,7 +54,7 @@ describe('plan cells over coil arrays', () => {
     expect(plain.every((c) => 'array' in c.coils && c.coils.array === 'uniform')).toBe(true);
   });
 
-  it('schema errors name the array and the target: coilArrays[1].count 33, a reserved lesion metric', () => {
+  it('schema errors name the array and the target: coilArrays[1].count 33, a task score without lesions', () => {
     const bad = caughtValidationError(() =>
       validatePlan(smallPlanBody({ coilArrays: [{ array: 'uniform' }, { ...loops, count: 33 }] })),
     );
@@ -63,7 +63,7 @@ describe('plan cells over coil arrays', () => {
       validatePlan(smallPlanBody({ targets: [{ metric: 'contrastRecovery', atLeast: 0.9 }] })),
     );
     expect(reserved.problems[0]).toMatchObject({ field: 'targets[0].metric' });
-    expect(reserved.problems[0].message).toMatch(/reserved/);
+    expect(reserved.problems[0].message).toMatch(/task score/);
     const g = caughtValidationError(() =>
       validatePlan(smallPlanBody({ targets: [{ metric: 'gFactorMax', atMost: 0.5 }] })),
     );

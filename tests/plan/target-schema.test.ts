@@ -29,9 +29,9 @@ describe('plan target', () => {
     expect(problem({ metric: 'psnr' })).toMatchObject({ field: 'target.atLeast' });
     expect(problem({ metric: 'mse', atMost: 1 })).toMatchObject({
       field: 'target.metric',
-      // The contract adds the task scores a plan with lesions can target.
+      // The contract adds the task scores a plan with lesions can target, and the largest g-factor.
       allowed:
-        'one of "nrmse", "psnr", "ssim", "hfen", "contrastRecovery", "falseLesions", "detectability", "resolvedFraction"',
+        'one of "nrmse", "psnr", "ssim", "hfen", "contrastRecovery", "falseLesions", "detectability", "resolvedFraction", "gFactorMax"',
     });
   });
 });
