@@ -62,7 +62,7 @@ describe('g-factor maps: analytic SENSE (Pruessmann et al. 1999) and pseudo mult
     expect(result.summary.max).toBeGreaterThan(2);
   });
 
-  it('R = 1 (any S, one pixel per fold): g = 1 (docs/references.md §5.4); GRAPPA through gFactorFor, 40 replicas, mean within 0.05', () => {
+  it('R = 1 (any S, one pixel per fold): g = 1 (docs/references.md §5.5); GRAPPA through gFactorFor, 40 replicas, mean within 0.05', () => {
     const input = coilInput(full, fullMask(n, n), maps);
     const base = reconstruct(input, { name: 'grappa' });
     const result = gFactorFor({

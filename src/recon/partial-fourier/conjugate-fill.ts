@@ -13,7 +13,7 @@ export function conjugatePartner(index: number, n: number): number {
 /**
  * Fills the rows before `firstRow` from their conjugate partners: a real-valued object has a
  * Hermitian spectrum, K(−k) = K(k)*, so a missing row is the conjugate of its mirror through the
- * centre (Bernstein, King & Zhou 2004, partial Fourier; docs/references.md §5.4). Points without a
+ * centre (Bernstein, King & Zhou 2004, partial Fourier; docs/references.md §5.6). Points without a
  * partner on the grid (row or column 0 of an even side) stay as they are. Writes `kspace` in place.
  */
 export function conjugateFill(kspace: ComplexImage, firstRow: number): ComplexImage {

@@ -11,7 +11,7 @@ export function symmetricHalfWidth(ny: number, firstRow: number): number {
 
 /**
  * The low-resolution phase estimate both homodyne and POCS rely on (Noll, Nishimura & Macovski
- * 1991; Haacke, Lindskog & Lin 1991; docs/references.md §5.4): the image of the symmetric band
+ * 1991; Haacke, Lindskog & Lin 1991; docs/references.md §5.6): the image of the symmetric band
  * alone, weighted along ky by a Hann window w = ½(1 + cos(π·ky/(h + 1))) so the cut does not ring.
  * Returns e^{iφ} per pixel as a unit complex image (1 where the low-resolution image is 0).
  */
