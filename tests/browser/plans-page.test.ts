@@ -286,9 +286,17 @@ describe('stored plans, addresses and downloads in Chromium', () => {
     const masks = page.waitForResponse((r) => new URL(r.url()).pathname === '/v1/masks');
     await page.click('#maskButton');
     const sent = (await masks).request().postDataJSON();
+    // The protocol's partial Fourier 0.875 belongs to the sampling (docs/design.md §4.3): it is sent there.
     expect(sent).toEqual({
       matrix: { nx: 48, ny: 40 },
-      sampling: { pattern: 'poisson-disc', acceleration: 3, acs: 10, density: { power: 1.5 }, seed: 11 },
+      sampling: {
+        pattern: 'poisson-disc',
+        acceleration: 3,
+        acs: 10,
+        density: { power: 1.5 },
+        seed: 11,
+        partialFourier: 0.875,
+      },
     });
     // An edit goes into the address; loading that address gives the same form.
     await page.fill('#nx', '56');
