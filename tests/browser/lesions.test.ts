@@ -2,10 +2,10 @@ import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { FastifyInstance } from 'fastify';
-import type { BrowserContext, Page } from 'playwright-core';
+import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { buildApp } from '../../src/app.ts';
-import { artifacts, launchChromium, listen, requireChromium } from './chromium.ts';
+import { artifacts, launchBrowser, listen } from './browser-session.ts';
 
 /**
  * Feature fidelity on the planner page, in Debian's chromium driven by playwright-core against the
@@ -16,11 +16,11 @@ import { artifacts, launchChromium, listen, requireChromium } from './chromium.t
 
 let app: FastifyInstance;
 let baseUrl: string;
-let context: BrowserContext;
 let page: Page;
-let userDataDir: string;
+let closeBrowser: (() => Promise<void>) | undefined;
 let dataDir: string;
 const pageErrors: string[] = [];
+const offOrigin: string[] = [];
 
 interface Circle {
   x: number;
@@ -46,27 +46,15 @@ async function pixelOf(selector: string, x: number, y: number): Promise<number[]
 }
 
 beforeAll(async () => {
-  requireChromium();
   dataDir = mkdtempSync(join(tmpdir(), 'kspace-planner-lesions-data-'));
   app = await buildApp({ dataDir, workers: 1 });
   baseUrl = await listen(app);
-  userDataDir = mkdtempSync(join(tmpdir(), 'kspace-planner-lesions-chromium-'));
-  context = await launchChromium(userDataDir);
-  await context.route('**/*', (route) => {
-    const url = route.request().url();
-    return [baseUrl, 'blob:', 'data:'].some((o) => url.startsWith(o)) ? route.continue() : route.abort();
-  });
-  page = context.pages()[0] ?? (await context.newPage());
-  page.on('pageerror', (error) => pageErrors.push(String(error)));
-  page.on('console', (message) => {
-    if (message.type() === 'error') pageErrors.push(message.text());
-  });
+  ({ page, close: closeBrowser } = await launchBrowser([baseUrl], offOrigin, pageErrors));
 });
 
 afterAll(async () => {
-  await context?.close();
+  await closeBrowser?.();
   await app?.close();
-  if (userDataDir) rmSync(userDataDir, { recursive: true, force: true });
   if (dataDir) rmSync(dataDir, { recursive: true, force: true });
 });
 
