@@ -4,10 +4,21 @@ import Database from 'better-sqlite3';
 import { boundEcho, boundFieldProblems, MAX_DETAIL_CHARS } from '../core/echo-bound.ts';
 import type { FieldProblem } from '../core/errors.ts';
 import type { RealImage } from '../core/real-image.ts';
-import type { CoilMaps } from '../encoding/index.ts';
+import type { CoilMaps, MultiCoilKspace } from '../encoding/index.ts';
 import { type CellResult, cellResultSchema, type Plan, type PlanTable, planSchema } from '../plan/index.ts';
 
 export type PlanStatus = 'queued' | 'running' | 'done' | 'failed' | 'cancelled';
+
+/** An imported raw k-space file as stored (the k-space and noise covariance are read separately). */
+export interface StoredRawKspace {
+  id: string;
+  createdAt: string;
+  /** Numbers of the file only (readout oversampling, counts); never a header string. */
+  meta: Record<string, unknown>;
+  nx: number;
+  ny: number;
+  coils: number;
+}
 
 /** Uploaded coil sensitivity maps as stored (the planes are read separately). */
 export interface StoredCoilMaps {
@@ -107,6 +118,10 @@ CREATE TABLE IF NOT EXISTS images (
 CREATE TABLE IF NOT EXISTS coil_maps (
   id TEXT PRIMARY KEY, created_at TEXT NOT NULL, owner TEXT, meta TEXT NOT NULL,
   nx INTEGER NOT NULL, ny INTEGER NOT NULL, coils INTEGER NOT NULL, planes BLOB NOT NULL);
+CREATE TABLE IF NOT EXISTS raw_kspace (
+  id TEXT PRIMARY KEY, created_at TEXT NOT NULL, owner TEXT, meta TEXT NOT NULL,
+  nx INTEGER NOT NULL, ny INTEGER NOT NULL, coils INTEGER NOT NULL, kspace BLOB NOT NULL,
+  noise_covariance BLOB);
 CREATE TABLE IF NOT EXISTS results (
   id TEXT PRIMARY KEY, created_at TEXT NOT NULL, kind TEXT NOT NULL, body TEXT NOT NULL);
 CREATE TABLE IF NOT EXISTS result_images (
@@ -149,6 +164,10 @@ interface InputKindSpec {
 export const inputKinds = {
   image: { table: 'images', bytesSql: 'length(meta) + length(pixels)' },
   coilMaps: { table: 'coil_maps', bytesSql: 'length(meta) + length(planes)' },
+  raw: {
+    table: 'raw_kspace',
+    bytesSql: 'length(meta) + length(kspace) + COALESCE(length(noise_covariance), 0)',
+  },
 } as const satisfies Record<string, InputKindSpec>;
 
 export type InputKind = keyof typeof inputKinds;
@@ -342,6 +361,73 @@ export class Store {
     const stored = new Float32Array(2 * row.coils * row.nx * row.ny);
     new Uint8Array(stored.buffer).set(row.planes.subarray(0, stored.byteLength));
     return { coils: row.coils, nx: row.nx, ny: row.ny, data: Float64Array.from(stored) };
+  }
+
+  // --- imported raw k-space (ISMRMRD) -----------------------------------------------------
+
+  /**
+   * Stores the fully sampled coil k-space as float32 (ISMRMRD carries float32 samples; the readout
+   * crop in float64 is rounded back once) and the noise covariance as float64, both host byte order.
+   */
+  putRawKspace(
+    id: string,
+    raw: { kspace: MultiCoilKspace; noiseCovariance: Float64Array | null },
+    meta: Record<string, unknown>,
+    owner: string | null = null,
+  ): StoredRawKspace {
+    const createdAt = new Date().toISOString();
+    const { kspace, noiseCovariance } = raw;
+    const samples = Buffer.from(Float32Array.from(kspace.data).buffer);
+    const noise = noiseCovariance ? Buffer.from(Float64Array.from(noiseCovariance).buffer) : null;
+    this.db
+      .prepare(
+        `INSERT INTO raw_kspace (id, created_at, owner, meta, nx, ny, coils, kspace, noise_covariance)
+         VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+      )
+      .run(id, createdAt, owner, JSON.stringify(meta), kspace.nx, kspace.ny, kspace.coils, samples, noise);
+    return { id, createdAt, meta, nx: kspace.nx, ny: kspace.ny, coils: kspace.coils };
+  }
+
+  getRawKspaceInfo(id: string, scope: Scope = 'all'): StoredRawKspace | undefined {
+    const row = this.db
+      .prepare(`SELECT id, created_at, meta, nx, ny, coils FROM raw_kspace WHERE id = @id AND ${visible}`)
+      .get({ id, ...scopeParams(scope) }) as
+      | { id: string; created_at: string; meta: string; nx: number; ny: number; coils: number }
+      | undefined;
+    return (
+      row && {
+        id: row.id,
+        createdAt: row.created_at,
+        meta: JSON.parse(row.meta),
+        nx: row.nx,
+        ny: row.ny,
+        coils: row.coils,
+      }
+    );
+  }
+
+  getRawKspace(
+    id: string,
+    scope: Scope = 'all',
+  ): { kspace: MultiCoilKspace; noiseCovariance: Float64Array | null } | undefined {
+    const row = this.db
+      .prepare(`SELECT nx, ny, coils, kspace, noise_covariance FROM raw_kspace WHERE id = @id AND ${visible}`)
+      .get({ id, ...scopeParams(scope) }) as
+      | { nx: number; ny: number; coils: number; kspace: Buffer; noise_covariance: Buffer | null }
+      | undefined;
+    if (!row) return undefined;
+    // Copies into fresh, aligned buffers: SQLite blobs need not be aligned.
+    const samples = new Float32Array(2 * row.coils * row.nx * row.ny);
+    new Uint8Array(samples.buffer).set(row.kspace.subarray(0, samples.byteLength));
+    let noiseCovariance: Float64Array | null = null;
+    if (row.noise_covariance) {
+      noiseCovariance = new Float64Array(2 * row.coils * row.coils);
+      new Uint8Array(noiseCovariance.buffer).set(
+        row.noise_covariance.subarray(0, noiseCovariance.byteLength),
+      );
+    }
+    const kspace = { coils: row.coils, nx: row.nx, ny: row.ny, data: Float64Array.from(samples) };
+    return { kspace, noiseCovariance };
   }
 
   // --- single results (reconstructions, masks) ---------------------------------------------

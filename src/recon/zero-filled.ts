@@ -2,8 +2,9 @@ import { z } from 'zod';
 import { ifft2c } from '../core/centered-fft.ts';
 import { createComplexImage } from '../core/complex-image.ts';
 import { ValidationError } from '../core/errors.ts';
+import { zeroFilledCoilCombination } from './coil-combine.ts';
 import { griddingImage } from './gridding-recon.ts';
-import { type ReconInput, type ReconMethod, type ReconOutput, refuseCoilArray } from './method.ts';
+import type { ReconInput, ReconMethod, ReconOutput } from './method.ts';
 
 export const zeroFilledSchema = z.strictObject({
   name: z.literal('zero-filled'),
@@ -49,13 +50,27 @@ export const zeroFilled: ReconMethod<ZeroFilledSpec> = {
   name: 'zero-filled',
   schema: zeroFilledSchema,
   run(input, spec) {
-    refuseCoilArray(input, 'zero-filled');
     if (spec.densityCompensation !== undefined && typeof spec.densityCompensation !== 'boolean') {
       throw new ValidationError({
         field: 'method.densityCompensation',
         message: 'must be a boolean',
         allowed: 'true | false',
       });
+    }
+    if (input.coils) {
+      if (spec.densityCompensation) {
+        throw new ValidationError({
+          field: 'method.densityCompensation',
+          message: 'not applied to receive-array data',
+          allowed: 'false with coil data',
+        });
+      }
+      // Each coil's acquired k-space inverted, then combined: maps when known, else root-sum-of-squares.
+      const combination = input.coils.maps ? 'sensitivity-weighted' : 'root-sum-of-squares';
+      return {
+        image: zeroFilledCoilCombination(input.coils),
+        info: { densityCompensated: false, combination },
+      };
     }
     return zeroFilledImage(input, spec.densityCompensation ?? false);
   },

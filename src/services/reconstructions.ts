@@ -15,6 +15,7 @@ import type { Caller, MissingImage } from './caller.ts';
 import { coilMapInputs, coilMapRefs, loadNamedCoilMaps } from './coil-map-refs.ts';
 import { coilMapsNotFound } from './coil-maps.ts';
 import { finiteOrNull, jsonSafe } from './json-safe.ts';
+import { rawIdOf, rawNotFound, readRawKspace } from './raw-data.ts';
 import { type ResultImageKey, resultImageNames, resultImageUrl } from './result-images.ts';
 import { psfSummary, psfSummarySchema, sampledSummary, sampledSummarySchema } from './sampled-summary.ts';
 
@@ -130,6 +131,8 @@ export class ReconstructionService {
     }
     const mapRefs = coilMapRefs(pipelineRequest);
     const coilMaps = loadNamedCoilMaps(store, mapRefs, caller);
+    const rawId = rawIdOf(pipelineRequest);
+    const raw = rawId === undefined ? undefined : { id: rawId, raw: readRawKspace(store, rawId, caller) };
     const scored = await pool.runForRequest(
       'reconstruction',
       {
@@ -137,14 +140,20 @@ export class ReconstructionService {
         ...(seed === undefined ? {} : { seed }),
         ...(image ? { image } : {}),
         ...(coilMaps.length > 0 ? { coilMaps } : {}),
+        ...(raw ? { raw } : {}),
         limits,
       },
       signal,
     );
     // Linked to its upload, so deleting the upload deletes it; refused if the upload went meanwhile.
-    const inputs = [...(image ? [{ kind: 'image' as const, id: image.id }] : []), ...coilMapInputs(mapRefs)];
+    const inputs = [
+      ...(image ? [{ kind: 'image' as const, id: image.id }] : []),
+      ...(raw ? [{ kind: 'raw' as const, id: raw.id }] : []),
+      ...coilMapInputs(mapRefs),
+    ];
     const body = await this.keep(scored, { owner: caller.owner, inputs });
     if (body) return body;
+    if (raw && !store.inputExists({ kind: 'raw', id: raw.id })) throw rawNotFound(raw.id);
     const goneMaps = mapRefs.find((ref) => !store.inputExists({ kind: 'coilMaps', id: ref.id }));
     if (goneMaps) throw coilMapsNotFound(goneMaps.id, goneMaps.field);
     return { missingImage: image!.id };
