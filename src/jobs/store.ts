@@ -20,6 +20,17 @@ export interface StoredRawKspace {
   coils: number;
 }
 
+/**
+ * A result image at full precision: float32 values in the reconstruction's own units, row-major,
+ * row 0 at the top, and the value its PNGs show as white.
+ */
+export interface ResultArray {
+  nx: number;
+  ny: number;
+  white: number;
+  data: Float32Array;
+}
+
 /** Uploaded coil sensitivity maps as stored (the planes are read separately). */
 export interface StoredCoilMaps {
   id: string;
@@ -126,6 +137,9 @@ CREATE TABLE IF NOT EXISTS results (
   id TEXT PRIMARY KEY, created_at TEXT NOT NULL, kind TEXT NOT NULL, body TEXT NOT NULL);
 CREATE TABLE IF NOT EXISTS result_images (
   result_id TEXT NOT NULL, name TEXT NOT NULL, png BLOB NOT NULL, PRIMARY KEY (result_id, name));
+CREATE TABLE IF NOT EXISTS result_arrays (
+  result_id TEXT NOT NULL, name TEXT NOT NULL, nx INTEGER NOT NULL, ny INTEGER NOT NULL,
+  white REAL NOT NULL, data BLOB NOT NULL, PRIMARY KEY (result_id, name));
 CREATE TABLE IF NOT EXISTS plans (
   seq INTEGER PRIMARY KEY AUTOINCREMENT, id TEXT NOT NULL UNIQUE, created_at TEXT NOT NULL,
   updated_at TEXT NOT NULL, status TEXT NOT NULL, body TEXT NOT NULL, total INTEGER NOT NULL,
@@ -442,9 +456,13 @@ export class Store {
     body: unknown,
     images: Record<string, Buffer>,
     provenance: { owner?: string | null; inputs?: InputRef[]; planId?: string } = {},
+    arrays: Record<string, ResultArray> = {},
   ): boolean {
     const createdAt = new Date().toISOString();
     const inputs = provenance.inputs ?? [];
+    const insertArray = this.db.prepare(
+      'INSERT OR IGNORE INTO result_arrays (result_id, name, nx, ny, white, data) VALUES (?, ?, ?, ?, ?, ?)',
+    );
     // OR IGNORE: content-addressed results (equal requests, equal ids) may be stored twice by racing requests.
     const insertImage = this.db.prepare(
       'INSERT OR IGNORE INTO result_images (result_id, name, png) VALUES (?, ?, ?)',
@@ -459,9 +477,37 @@ export class Store {
         )
         .run(id, createdAt, kind, JSON.stringify(body), provenance.owner ?? null, planId);
       for (const [name, png] of Object.entries(images)) insertImage.run(id, name, png);
+      for (const [name, a] of Object.entries(arrays)) {
+        const bytes = Buffer.from(a.data.buffer, a.data.byteOffset, a.data.byteLength);
+        insertArray.run(id, name, a.nx, a.ny, a.white, bytes);
+      }
       this.link('result', id, inputs);
       return true;
     })();
+  }
+
+  /** The full-precision images of a result the scope may see, in the order they were stored. */
+  getResultArrays(id: string, scope: Scope = 'all'): Map<string, ResultArray> {
+    const rows = this.db
+      .prepare(
+        `SELECT name, nx, ny, white, data FROM result_arrays WHERE result_id = @id
+         AND EXISTS (SELECT 1 FROM results WHERE id = @id AND ${visible}) ORDER BY rowid`,
+      )
+      .all({ id, ...scopeParams(scope) }) as Array<{
+      name: string;
+      nx: number;
+      ny: number;
+      white: number;
+      data: Buffer;
+    }>;
+    const arrays = new Map<string, ResultArray>();
+    for (const row of rows) {
+      // A fresh, aligned copy: SQLite blobs need not be 4-byte aligned.
+      const data = new Float32Array(row.nx * row.ny);
+      new Uint8Array(data.buffer).set(row.data.subarray(0, data.byteLength));
+      arrays.set(row.name, { nx: row.nx, ny: row.ny, white: row.white, data });
+    }
+    return arrays;
   }
 
   getResult(
@@ -720,6 +766,7 @@ export class Store {
   private deleteHolder(kind: HolderKind, id: string): void {
     if (kind === 'result') {
       this.db.prepare('DELETE FROM result_images WHERE result_id = ?').run(id);
+      this.db.prepare('DELETE FROM result_arrays WHERE result_id = ?').run(id);
       this.db.prepare('DELETE FROM results WHERE id = ?').run(id);
     } else {
       const results = this.db.prepare('SELECT id FROM results WHERE plan_id = ?').all(id) as Array<{
@@ -744,7 +791,8 @@ export class Store {
           ${pinnedInput(kind, spec.table)} AS pinned, 0 AS rank FROM ${spec.table}`,
     );
     const resultBytes = (r: string) =>
-      `length(${r}.body) + COALESCE((SELECT SUM(length(png)) FROM result_images WHERE result_id = ${r}.id), 0)`;
+      `length(${r}.body) + COALESCE((SELECT SUM(length(png)) FROM result_images WHERE result_id = ${r}.id), 0)
+        + COALESCE((SELECT SUM(length(data)) FROM result_arrays WHERE result_id = ${r}.id), 0)`;
     // A plan's row results are part of the plan: counted in its bytes, aged and removed with it.
     const results = `SELECT 'result', id, created_at, ${resultBytes('results')}, 0, 1 FROM results
       WHERE plan_id IS NULL`;

@@ -16,6 +16,7 @@ import { coilMapInputs, coilMapRefs, loadNamedCoilMaps } from './coil-map-refs.t
 import { coilMapsNotFound } from './coil-maps.ts';
 import { finiteOrNull, jsonSafe } from './json-safe.ts';
 import { rawIdOf, rawNotFound, readRawKspace } from './raw-data.ts';
+import { resultArrays } from './result-arrays.ts';
 import { type ResultImageKey, resultImageNames, resultImageUrl } from './result-images.ts';
 import { psfSummary, psfSummarySchema, sampledSummary, sampledSummarySchema } from './sampled-summary.ts';
 
@@ -177,7 +178,8 @@ export class ReconstructionService {
     const id = randomUUID();
     const pngs = await renderImages(scored.outcome, scored.diagnostics);
     const body = describe(id, scored);
-    return this.deps.store.putResult(id, 'reconstruction', body, pngs, provenance) ? body : undefined;
+    const arrays = resultArrays(scored.outcome);
+    return this.deps.store.putResult(id, 'reconstruction', body, pngs, provenance, arrays) ? body : undefined;
   }
 
   /** A stored reconstruction the caller may see. */
