@@ -13,7 +13,7 @@ export interface NiftiVolume {
  * A single-file NIfTI-1 (".nii", magic "n+1") of float32 images (datatype 16, bitpix 32), one per
  * index of the 4th dimension: dim = [4, nx, ny, 1, volumes, 1, 1, 1], little-endian, no scaling
  * (scl_slope 0: values as stored), unit voxels (pixdim 1, xyzt_units 0: unknown), and no orientation
- * (qform_code = sform_code = 0), as the NIfTI-1 standard (Cox et al. 2004) lays the header out.
+ * (qform_code = sform_code = 0), as nifti1.h lays the header out (docs/references.md §10.2).
  * Voxel (i, j) is image column i and row ny − 1 − j, so j runs upward as y does in the phantom frame
  * (the same flip the NIfTI decoders undo). `description` (≤ 79 ASCII characters) goes into `descrip`.
  */

@@ -5,7 +5,7 @@ import { binary, expectDocumented, expectProblem, sharedTestApp } from './helper
 
 const volumeOrder = ['reconstruction', 'zero-filled', 'reference', 'error-map'];
 
-/** A NIfTI-1 file's header fields at their standard offsets (Cox et al. 2004), little-endian. */
+/** A NIfTI-1 file's header fields at the offsets of nifti1.h (docs/references.md §10.2), little-endian. */
 function niftiHeader(bytes: Buffer) {
   return {
     sizeofHdr: bytes.readInt32LE(0),

@@ -9,7 +9,7 @@ const facts = JSON.parse(
 ) as { dim: number[]; values: number[]; descrip: string; vox_offset: number; shape: number[] };
 const committed = readFileSync(new URL('../fixtures/io/written-volumes.nii', import.meta.url));
 
-describe('niftiFloat32Volumes (NIfTI-1, Cox et al. 2004)', () => {
+describe('niftiFloat32Volumes (NIfTI-1, docs/references.md §10.2)', () => {
   it('writes the very bytes nibabel read for the committed file', () => {
     const written = niftiFloat32Volumes(writerCase.volumes, writerCase.description);
     expect(written.equals(committed)).toBe(true);
