@@ -1,6 +1,6 @@
 import type { FastifyInstance } from 'fastify';
 import { disconnectSignal } from '../src/http/disconnect-signal.ts';
-import { readFilePart } from '../src/http/multipart-file.ts';
+import { fileOnlyMultipartBody, readFilePart } from '../src/http/multipart-file.ts';
 import { jsonResponse, problemResponses } from '../src/http/problem.ts';
 import { storedInputRoutes } from '../src/http/stored-input-routes.ts';
 import { rawInfoSchema } from '../src/services/index.ts';
@@ -23,19 +23,10 @@ export async function rawRoutes(app: FastifyInstance): Promise<void> {
     {
       config: {
         openapi: {
-          multipartBody: {
-            type: 'object',
-            required: ['file'],
-            properties: {
-              file: {
-                type: 'string',
-                format: 'binary',
-                description:
-                  'ISMRMRD HDF5 file (/dataset/xml and /dataset/data): one fully sampled Cartesian 2D slice, ' +
-                  'any number of coils, optional noise-scan records',
-              },
-            },
-          },
+          multipartBody: fileOnlyMultipartBody(
+            'ISMRMRD HDF5 file (/dataset/xml and /dataset/data): one fully sampled Cartesian 2D slice, ' +
+              'any number of coils, optional noise-scan records',
+          ),
         },
       },
       schema: {

@@ -9,16 +9,11 @@ import { type CellResult, cellResultSchema, type Plan, type PlanTable, planSchem
 
 export type PlanStatus = 'queued' | 'running' | 'done' | 'failed' | 'cancelled';
 
-/** An imported raw k-space file as stored (the k-space and noise covariance are read separately). */
-export interface StoredRawKspace {
-  id: string;
-  createdAt: string;
-  /** Numbers of the file only (readout oversampling, counts); never a header string. */
-  meta: Record<string, unknown>;
-  nx: number;
-  ny: number;
-  coils: number;
-}
+/**
+ * An imported raw k-space file as stored, shaped like stored coil maps (the k-space and noise
+ * covariance are read separately); meta holds numbers of the file only, never a header string.
+ */
+export type StoredRawKspace = StoredCoilMaps;
 
 /**
  * A result image at full precision: float32 values in the reconstruction's own units, row-major,
@@ -347,8 +342,17 @@ export class Store {
   }
 
   getCoilMapsInfo(id: string, scope: Scope = 'all'): StoredCoilMaps | undefined {
+    return this.coilInputInfo('coil_maps', id, scope);
+  }
+
+  /** The row of a multi-coil input (coil maps, raw k-space) without its arrays. */
+  private coilInputInfo(
+    table: 'coil_maps' | 'raw_kspace',
+    id: string,
+    scope: Scope,
+  ): StoredCoilMaps | undefined {
     const row = this.db
-      .prepare(`SELECT id, created_at, meta, nx, ny, coils FROM coil_maps WHERE id = @id AND ${visible}`)
+      .prepare(`SELECT id, created_at, meta, nx, ny, coils FROM ${table} WHERE id = @id AND ${visible}`)
       .get({ id, ...scopeParams(scope) }) as
       | { id: string; created_at: string; meta: string; nx: number; ny: number; coils: number }
       | undefined;
@@ -403,21 +407,7 @@ export class Store {
   }
 
   getRawKspaceInfo(id: string, scope: Scope = 'all'): StoredRawKspace | undefined {
-    const row = this.db
-      .prepare(`SELECT id, created_at, meta, nx, ny, coils FROM raw_kspace WHERE id = @id AND ${visible}`)
-      .get({ id, ...scopeParams(scope) }) as
-      | { id: string; created_at: string; meta: string; nx: number; ny: number; coils: number }
-      | undefined;
-    return (
-      row && {
-        id: row.id,
-        createdAt: row.created_at,
-        meta: JSON.parse(row.meta),
-        nx: row.nx,
-        ny: row.ny,
-        coils: row.coils,
-      }
-    );
+    return this.coilInputInfo('raw_kspace', id, scope);
   }
 
   getRawKspace(
