@@ -38,7 +38,7 @@ export async function rawRoutes(app: FastifyInstance): Promise<void> {
         tags: ['raw'],
         response: {
           201: jsonResponse('The imported data (Location: its URL)', rawInfoResponse),
-          ...problemResponses(400, 401, 413, 415, 422, 429),
+          ...problemResponses(400, 401, 413, 422, 429),
         },
       },
     },

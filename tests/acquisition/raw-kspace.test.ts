@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { acquireRawLines, whitenedRawKspace } from '../../src/acquisition/index.ts';
+import { checkPrewhitening } from '../../src/io/ismrmrd/import-raw-kspace.ts';
 
 const coils = 4;
 const nx = 64;
@@ -53,5 +54,15 @@ describe('whitenedRawKspace', () => {
     const kspace = { coils: 2, nx: 1, ny: 1, data: new Float64Array(4) };
     const singular = Float64Array.of(1, 0, 1, 0, 1, 0, 1, 0);
     expect(() => whitenedRawKspace({ kspace, noiseCovariance: singular })).toThrow(/source\.rawId/);
+  });
+});
+
+describe('checkPrewhitening (import of the noise scans)', () => {
+  it('accepts a positive definite covariance and refuses a singular one naming file.data.noise', () => {
+    expect(() => checkPrewhitening(Float64Array.of(4, 0, 2, 0, 2, 0, 5, 0), 2, 128)).not.toThrow();
+    // One noise sample for two coils: rank one, Ψ = v·vᴴ.
+    expect(() => checkPrewhitening(Float64Array.of(1, 0, 1, 0, 1, 0, 1, 0), 2, 1)).toThrow(
+      /file\.data\.noise/,
+    );
   });
 });

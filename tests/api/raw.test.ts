@@ -82,6 +82,10 @@ describe('POST /v1/raw (ISMRMRD)', () => {
     expect(JSON.stringify(radial.body)).toMatch(/trajectory/);
     await expectDocumented('POST', '/v1/raw', radial);
     expectProblem(await t.http().post('/v1/raw').attach('raw', fixture('partial.h5'), 'p.h5'), 400, 'file');
+    const png = readFileSync(new URL('../fixtures/io/camera64.png', import.meta.url));
+    const notHdf5 = await t.http().post('/v1/raw').attach('file', png, 'camera.png');
+    expectProblem(notHdf5, 422, 'file');
+    await expectDocumented('POST', '/v1/raw', notHdf5);
   });
 
   it('subject and study never reach the answer, the data folder or the logs', async () => {

@@ -1,3 +1,5 @@
+import { CoilNoise } from '../../coils/index.ts';
+import { ValidationError } from '../../core/errors.ts';
 import type { Limits } from '../../core/limits.ts';
 import type { MultiCoilKspace } from '../../encoding/multi-coil.ts';
 import { readRawKspace } from './read-raw-kspace.ts';
@@ -40,6 +42,7 @@ export interface RawKspaceFacts {
 export async function importRawKspace(bytes: Uint8Array, limits: Limits): Promise<ImportedRawKspace> {
   const raw = await readRawKspace(bytes, limits);
   const { kspace, noise, records } = raw;
+  if (noise) checkPrewhitening(noise.covariance, raw.coils, noise.samples);
   const fov = (s: { x: number; y: number; z: number }): [number, number, number] => [s.x, s.y, s.z];
   return {
     kspace,
@@ -60,4 +63,22 @@ export async function importRawKspace(bytes: Uint8Array, limits: Limits): Promis
       reconFieldOfViewMm: fov(raw.reconFieldOfViewMm),
     },
   };
+}
+
+/**
+ * The noise covariance must be positive definite to prewhiten with (its Cholesky factor exists):
+ * fewer noise samples than coils, or a dead channel, make it singular. Refused at import, naming
+ * the noise records, rather than at every reconstruction.
+ */
+export function checkPrewhitening(covariance: Float64Array, coils: number, samples: number): void {
+  try {
+    new CoilNoise(covariance, coils, 'file.data.noise');
+  } catch (error) {
+    if (!(error instanceof ValidationError)) throw error;
+    throw new ValidationError({
+      field: 'file.data.noise',
+      message: `the noise scans (${samples} samples per coil, ${coils} coils) give a covariance that cannot prewhiten the data (not positive definite)`,
+      allowed: 'noise scans with more samples than coils and no dead channel, or none',
+    });
+  }
 }
