@@ -2,7 +2,7 @@ import { readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { runReconstruction } from '../../src/pipeline/run-reconstruction.ts';
-import { expectDocumented, expectProblem, expectStoredCopy, sharedTestApp } from './helpers.ts';
+import { expectDocumented, expectProblem, expectStoredCopy, oneCellPlan, sharedTestApp } from './helpers.ts';
 
 /** Files made by Debian's ismrmrd-tools generator and derived by tests/reference/generate_ismrmrd_fixture.py. */
 const fixture = (name: string) => readFileSync(new URL(`../fixtures/ismrmrd/${name}`, import.meta.url));
@@ -163,15 +163,8 @@ describe('raw data follow uploads: deletion cascades, tenant isolation, plans', 
     expect(recon.status).toBe(201);
     expect(t.app.services.store.inputsOf('result', recon.body.id)).toEqual([{ kind: 'raw', id }]);
 
-    const plan = {
-      source: { rawId: id },
-      matrix: { nx: 64, ny: 64 },
-      protocol: { trMs: 500 },
-      patterns: [{ pattern: 'cartesian-uniform' }],
-      accelerations: [2],
-      methods: [{ name: 'zero-filled' }],
-      seeds: 1,
-    };
+    // Uniform R = 2, zero-filled, one seed, on the data's own matrix.
+    const plan = { ...oneCellPlan, source: { rawId: id }, matrix: { nx: 64, ny: 64 } };
     const wrong = await t
       .http()
       .post('/v1/plans')
