@@ -5,7 +5,7 @@ import { COIL_LIMITS } from '../src/coils/index.ts';
 import { type Limits, limitsId } from '../src/core/limits.ts';
 import { withinLimit } from '../src/core/zod-problems.ts';
 import { disconnectSignal } from '../src/http/disconnect-signal.ts';
-import { readFilePart } from '../src/http/multipart-file.ts';
+import { fileOnlyMultipartBody, readFilePart } from '../src/http/multipart-file.ts';
 import { jsonResponse, problemResponses } from '../src/http/problem.ts';
 import { perLimits } from '../src/http/schemas.ts';
 import { storedInputRoutes } from '../src/http/stored-input-routes.ts';
@@ -55,19 +55,10 @@ export async function coilMapRoutes(app: FastifyInstance): Promise<void> {
     {
       config: {
         openapi: {
-          multipartBody: {
-            type: 'object',
-            required: ['file'],
-            properties: {
-              file: {
-                type: 'string',
-                format: 'binary',
-                description:
-                  'single-file NIfTI-1/-2 (.nii, .nii.gz), coils along the last dimension: (x, y, coils) or ' +
-                  '(x, y, 1, coils); complex64 (datatype 32) or float32 (16, real maps); no scaling',
-              },
-            },
-          },
+          multipartBody: fileOnlyMultipartBody(
+            'single-file NIfTI-1/-2 (.nii, .nii.gz), coils along the last dimension: (x, y, coils) or ' +
+              '(x, y, 1, coils); complex64 (datatype 32) or float32 (16, real maps); no scaling',
+          ),
         },
       },
       schema: {

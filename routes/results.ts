@@ -1,12 +1,32 @@
 import type { FastifyInstance } from 'fastify';
 import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
-import { sendPng } from '../src/http/png-reply.ts';
+import { sendBytes, sendPng } from '../src/http/png-reply.ts';
 import { HttpProblem, problemResponses } from '../src/http/problem.ts';
 import { idParams } from '../src/http/schemas.ts';
+import { niftiFloat32Volumes } from '../src/io/nifti-writer.ts';
+import { greyPng } from '../src/render/png.ts';
 import { resultImageNames } from '../src/services/index.ts';
 
 const names = Object.values(resultImageNames);
+
+/** Images kept at full precision (result-arrays.ts), in the order images.nii stacks them. */
+const fullPrecision = [
+  resultImageNames.reconstruction,
+  resultImageNames.zeroFilled,
+  resultImageNames.reference,
+  resultImageNames.errorMap,
+  resultImageNames.gFactor,
+];
+
+const depthQuery = z.strictObject({
+  depth: z
+    .enum(['8', '16'])
+    .optional()
+    .describe(
+      `bits per grey level (default 8); 16 for ${fullPrecision.join(', ')} of reconstructions: round(65535·v/white)`,
+    ),
+});
 
 const imageParams = z.object({
   id: z.string().min(1).max(200).describe('Result id (a reconstruction or a mask)'),
@@ -59,18 +79,49 @@ export async function resultRoutes(app: FastifyInstance): Promise<void> {
           'with lesions also has lesions (the reconstruction of the data with the lesions, on the same grey scale).',
         tags: ['results'],
         params: imageParams,
+        querystring: depthQuery,
         response: {
           200: {
-            description: 'PNG image',
+            description:
+              'PNG image. With depth=16: 16-bit grey, level round(65535·min(max(v, 0), white)/white) on the ' +
+              'same scale as the 8-bit image (white: the reference maximum for magnitudes, its own ' +
+              'maximum for the error map), stated in the X-Grey-White header (the value shown white, in the ' +
+              "reconstruction's units) and X-Grey-Scale (linear)",
+            headers: {
+              'x-grey-white': {
+                schema: { type: 'number' },
+                description: 'depth=16: the value shown as 65535',
+              },
+              'x-grey-scale': { schema: { type: 'string' }, description: 'depth=16: linear' },
+            },
             content: { 'image/png': { schema: z.string().describe('PNG bytes') } },
           },
-          ...problemResponses(401, 404),
+          ...problemResponses(401, 404, 422),
         },
       },
     },
     async (request, reply) => {
       const { id, image } = request.params;
       const { scope } = tenancy(request);
+      if (request.query.depth === '16') {
+        const array = store.getResultArrays(id, scope).get(image);
+        if (!array) {
+          if (store.getResult(id, scope) === undefined) throw notFound(id);
+          throw new HttpProblem(422, `result ${id} has no 16-bit ${image} image`, [
+            {
+              field: 'depth',
+              message: `16 bits are kept for reconstructions' ${fullPrecision.join(', ')}`,
+              allowed: '8',
+            },
+          ]);
+        }
+        const png = await greyPng(
+          { nx: array.nx, ny: array.ny, data: Float64Array.from(array.data) },
+          { bits: 16, max: array.white },
+        );
+        reply.header('x-grey-white', String(array.white)).header('x-grey-scale', 'linear');
+        return sendPng(reply.header('cache-control', 'private, max-age=86400, immutable'), png);
+      }
       const png = (names as readonly string[]).includes(image)
         ? store.getResultImage(id, image, scope)
         : undefined;
@@ -81,6 +132,59 @@ export async function resultRoutes(app: FastifyInstance): Promise<void> {
         ]);
       }
       return sendPng(reply.header('cache-control', 'private, max-age=86400, immutable'), png);
+    },
+  );
+
+  r.get(
+    '/v1/results/:id/images.nii',
+    {
+      schema: {
+        summary: 'A reconstruction’s images at full precision as one float32 NIfTI-1 file',
+        description:
+          `Single-file NIfTI-1 (.nii), float32, dim = [4, nx, ny, 1, volumes]: the volumes along the 4th ` +
+          `dimension in the order ${fullPrecision.join(', ')} (g-factor only where one applies; the order is ` +
+          'also in the X-Volumes header and the descrip field). Values in the reconstruction’s own units ' +
+          '(magnitudes, no scaling: scl_slope 0); voxel (i, j) is image column i, row ny − 1 − j (j upward); ' +
+          'unit voxel sizes, no orientation (qform_code = sform_code = 0).',
+        tags: ['results'],
+        params: idParams,
+        response: {
+          200: {
+            description: 'NIfTI-1 bytes',
+            headers: {
+              'x-volumes': {
+                schema: { type: 'string' },
+                description: 'volume names in order, comma separated',
+              },
+            },
+            content: { 'application/octet-stream': { schema: z.string().describe('NIfTI-1 bytes') } },
+          },
+          ...problemResponses(401, 404),
+        },
+      },
+    },
+    async (request, reply) => {
+      const { id } = request.params;
+      const arrays = store.getResultArrays(id, tenancy(request).scope);
+      if (arrays.size === 0) {
+        if (store.getResult(id, tenancy(request).scope) === undefined) throw notFound(id);
+        throw new HttpProblem(404, `result ${id} has no full-precision images`, [
+          {
+            field: 'id',
+            message: 'only reconstructions stored since full-precision images were added have them',
+          },
+        ]);
+      }
+      const order = fullPrecision.filter((name) => arrays.has(name));
+      const nifti = niftiFloat32Volumes(
+        order.map((name) => arrays.get(name)!),
+        `kspace-planner: ${order.join(',')}`,
+      );
+      reply
+        .header('x-volumes', order.join(','))
+        .header('content-disposition', `attachment; filename="${id}-images.nii"`)
+        .header('cache-control', 'private, max-age=86400, immutable');
+      return sendBytes(reply, 'application/octet-stream', nifti);
     },
   );
 }

@@ -20,6 +20,7 @@ import { openapiRoutes } from '../routes/openapi.ts';
 import { phantomRoutes } from '../routes/phantoms.ts';
 import { planRoutes } from '../routes/plans.ts';
 import { problemRoutes } from '../routes/problems.ts';
+import { rawRoutes } from '../routes/raw.ts';
 import { reconstructionRoutes } from '../routes/reconstructions.ts';
 import { resultRoutes } from '../routes/results.ts';
 import { scanTimeRoutes } from '../routes/scan-time.ts';
@@ -39,6 +40,7 @@ import {
   MaskService,
   PhantomService,
   PlanService,
+  RawDataService,
   ReconstructionService,
   ScanTimeService,
   UploadService,
@@ -85,6 +87,7 @@ export interface Services {
   masks: MaskService;
   uploads: UploadService;
   coilMaps: CoilMapService;
+  raw: RawDataService;
   phantoms: PhantomService;
   scanTimes: ScanTimeService;
   planning: PlanService;
@@ -108,6 +111,7 @@ const apiPlugins: FastifyPluginAsync[] = [
   phantomRoutes,
   imageRoutes,
   coilMapRoutes,
+  rawRoutes,
   maskRoutes,
   reconstructionRoutes,
   resultRoutes,
@@ -201,6 +205,7 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
     masks: new MaskService(deps),
     uploads: new UploadService(deps),
     coilMaps: new CoilMapService(deps),
+    raw: new RawDataService(deps),
     phantoms: new PhantomService(deps),
     scanTimes: new ScanTimeService(deps),
     planning: new PlanService({ ...deps, plans }),

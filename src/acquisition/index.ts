@@ -17,3 +17,4 @@ export {
 } from './noise.ts';
 export { objectPhaseFactor } from './object-phase.ts';
 export { fullKspaceFromPhantom, RASTER_SUPERSAMPLE } from './phantom-source.ts';
+export { acquireRawLines, type RawKspace, whitenedRawKspace } from './raw-kspace.ts';

@@ -39,3 +39,12 @@ function malformedMultipart(field: 'body' | 'file'): (error: unknown) => never {
     throw error;
   };
 }
+
+/** The OpenAPI body of an upload whose only part is `file` (route `config.openapi.multipartBody`). */
+export function fileOnlyMultipartBody(description: string) {
+  return {
+    type: 'object',
+    required: ['file'],
+    properties: { file: { type: 'string', format: 'binary', description } },
+  };
+}

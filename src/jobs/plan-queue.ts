@@ -14,7 +14,7 @@ import {
 } from '../plan/index.ts';
 import type { JobLog } from './job-log.ts';
 import type { InputRef, PlanFailure, PlanStatus, Store, StoredPlan } from './store.ts';
-import type { ScoredOutcome, UploadedCoilMaps, UploadedPixels } from './tasks.ts';
+import type { ScoredOutcome, UploadedCoilMaps, UploadedPixels, UploadedRawKspace } from './tasks.ts';
 import type { WorkerPool } from './worker-pool.ts';
 
 /** The plan engine as the queue needs it (src/plan: planCells, buildTable; runCell runs in the workers). */
@@ -170,6 +170,7 @@ export class PlanQueue extends EventEmitter {
       this.emitProgress(active, 'running');
       const image = this.uploadedImage(plan);
       const coilMaps = this.uploadedCoilMaps(active.id);
+      const raw = this.uploadedRaw(plan);
       const results = await runPlanCells(cells, {
         runCell: async (cell) => {
           const started = Date.now();
@@ -179,6 +180,7 @@ export class PlanQueue extends EventEmitter {
             cell,
             image,
             ...(coilMaps.length > 0 ? { coilMaps } : {}),
+            ...(raw ? { raw } : {}),
             limits: this.limits,
             ...(keepOutcome ? { keepOutcome } : {}),
           };
@@ -228,6 +230,15 @@ export class PlanQueue extends EventEmitter {
         }
         return { id: input.id, maps };
       });
+  }
+
+  /** The raw k-space the plan names (checked at submit for its owner). */
+  private uploadedRaw(plan: Plan): UploadedRawKspace | undefined {
+    if (!('rawId' in plan.source)) return undefined;
+    const id = plan.source.rawId;
+    const raw = this.store.getRawKspace(id);
+    if (!raw) throw new ValidationError({ field: 'source.rawId', message: 'the raw data no longer exist' });
+    return { id, raw };
   }
 
   private uploadedImage(plan: Plan): UploadedPixels | undefined {

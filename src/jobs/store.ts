@@ -4,10 +4,27 @@ import Database from 'better-sqlite3';
 import { boundEcho, boundFieldProblems, MAX_DETAIL_CHARS } from '../core/echo-bound.ts';
 import type { FieldProblem } from '../core/errors.ts';
 import type { RealImage } from '../core/real-image.ts';
-import type { CoilMaps } from '../encoding/index.ts';
+import type { CoilMaps, MultiCoilKspace } from '../encoding/index.ts';
 import { type CellResult, cellResultSchema, type Plan, type PlanTable, planSchema } from '../plan/index.ts';
 
 export type PlanStatus = 'queued' | 'running' | 'done' | 'failed' | 'cancelled';
+
+/**
+ * An imported raw k-space file as stored, shaped like stored coil maps (the k-space and noise
+ * covariance are read separately); meta holds numbers of the file only, never a header string.
+ */
+export type StoredRawKspace = StoredCoilMaps;
+
+/**
+ * A result image at full precision: float32 values in the reconstruction's own units, row-major,
+ * row 0 at the top, and the value its PNGs show as white.
+ */
+export interface ResultArray {
+  nx: number;
+  ny: number;
+  white: number;
+  data: Float32Array;
+}
 
 /** Uploaded coil sensitivity maps as stored (the planes are read separately). */
 export interface StoredCoilMaps {
@@ -107,10 +124,17 @@ CREATE TABLE IF NOT EXISTS images (
 CREATE TABLE IF NOT EXISTS coil_maps (
   id TEXT PRIMARY KEY, created_at TEXT NOT NULL, owner TEXT, meta TEXT NOT NULL,
   nx INTEGER NOT NULL, ny INTEGER NOT NULL, coils INTEGER NOT NULL, planes BLOB NOT NULL);
+CREATE TABLE IF NOT EXISTS raw_kspace (
+  id TEXT PRIMARY KEY, created_at TEXT NOT NULL, owner TEXT, meta TEXT NOT NULL,
+  nx INTEGER NOT NULL, ny INTEGER NOT NULL, coils INTEGER NOT NULL, kspace BLOB NOT NULL,
+  noise_covariance BLOB);
 CREATE TABLE IF NOT EXISTS results (
   id TEXT PRIMARY KEY, created_at TEXT NOT NULL, kind TEXT NOT NULL, body TEXT NOT NULL);
 CREATE TABLE IF NOT EXISTS result_images (
   result_id TEXT NOT NULL, name TEXT NOT NULL, png BLOB NOT NULL, PRIMARY KEY (result_id, name));
+CREATE TABLE IF NOT EXISTS result_arrays (
+  result_id TEXT NOT NULL, name TEXT NOT NULL, nx INTEGER NOT NULL, ny INTEGER NOT NULL,
+  white REAL NOT NULL, data BLOB NOT NULL, PRIMARY KEY (result_id, name));
 CREATE TABLE IF NOT EXISTS plans (
   seq INTEGER PRIMARY KEY AUTOINCREMENT, id TEXT NOT NULL UNIQUE, created_at TEXT NOT NULL,
   updated_at TEXT NOT NULL, status TEXT NOT NULL, body TEXT NOT NULL, total INTEGER NOT NULL,
@@ -149,6 +173,10 @@ interface InputKindSpec {
 export const inputKinds = {
   image: { table: 'images', bytesSql: 'length(meta) + length(pixels)' },
   coilMaps: { table: 'coil_maps', bytesSql: 'length(meta) + length(planes)' },
+  raw: {
+    table: 'raw_kspace',
+    bytesSql: 'length(meta) + length(kspace) + COALESCE(length(noise_covariance), 0)',
+  },
 } as const satisfies Record<string, InputKindSpec>;
 
 export type InputKind = keyof typeof inputKinds;
@@ -314,8 +342,17 @@ export class Store {
   }
 
   getCoilMapsInfo(id: string, scope: Scope = 'all'): StoredCoilMaps | undefined {
+    return this.coilInputInfo('coil_maps', id, scope);
+  }
+
+  /** The row of a multi-coil input (coil maps, raw k-space) without its arrays. */
+  private coilInputInfo(
+    table: 'coil_maps' | 'raw_kspace',
+    id: string,
+    scope: Scope,
+  ): StoredCoilMaps | undefined {
     const row = this.db
-      .prepare(`SELECT id, created_at, meta, nx, ny, coils FROM coil_maps WHERE id = @id AND ${visible}`)
+      .prepare(`SELECT id, created_at, meta, nx, ny, coils FROM ${table} WHERE id = @id AND ${visible}`)
       .get({ id, ...scopeParams(scope) }) as
       | { id: string; created_at: string; meta: string; nx: number; ny: number; coils: number }
       | undefined;
@@ -344,6 +381,59 @@ export class Store {
     return { coils: row.coils, nx: row.nx, ny: row.ny, data: Float64Array.from(stored) };
   }
 
+  // --- imported raw k-space (ISMRMRD) -----------------------------------------------------
+
+  /**
+   * Stores the fully sampled coil k-space as float32 (ISMRMRD carries float32 samples; the readout
+   * crop in float64 is rounded back once) and the noise covariance as float64, both host byte order.
+   */
+  putRawKspace(
+    id: string,
+    raw: { kspace: MultiCoilKspace; noiseCovariance: Float64Array | null },
+    meta: Record<string, unknown>,
+    owner: string | null = null,
+  ): StoredRawKspace {
+    const createdAt = new Date().toISOString();
+    const { kspace, noiseCovariance } = raw;
+    const samples = Buffer.from(Float32Array.from(kspace.data).buffer);
+    const noise = noiseCovariance ? Buffer.from(Float64Array.from(noiseCovariance).buffer) : null;
+    this.db
+      .prepare(
+        `INSERT INTO raw_kspace (id, created_at, owner, meta, nx, ny, coils, kspace, noise_covariance)
+         VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+      )
+      .run(id, createdAt, owner, JSON.stringify(meta), kspace.nx, kspace.ny, kspace.coils, samples, noise);
+    return { id, createdAt, meta, nx: kspace.nx, ny: kspace.ny, coils: kspace.coils };
+  }
+
+  getRawKspaceInfo(id: string, scope: Scope = 'all'): StoredRawKspace | undefined {
+    return this.coilInputInfo('raw_kspace', id, scope);
+  }
+
+  getRawKspace(
+    id: string,
+    scope: Scope = 'all',
+  ): { kspace: MultiCoilKspace; noiseCovariance: Float64Array | null } | undefined {
+    const row = this.db
+      .prepare(`SELECT nx, ny, coils, kspace, noise_covariance FROM raw_kspace WHERE id = @id AND ${visible}`)
+      .get({ id, ...scopeParams(scope) }) as
+      | { nx: number; ny: number; coils: number; kspace: Buffer; noise_covariance: Buffer | null }
+      | undefined;
+    if (!row) return undefined;
+    // Copies into fresh, aligned buffers: SQLite blobs need not be aligned.
+    const samples = new Float32Array(2 * row.coils * row.nx * row.ny);
+    new Uint8Array(samples.buffer).set(row.kspace.subarray(0, samples.byteLength));
+    let noiseCovariance: Float64Array | null = null;
+    if (row.noise_covariance) {
+      noiseCovariance = new Float64Array(2 * row.coils * row.coils);
+      new Uint8Array(noiseCovariance.buffer).set(
+        row.noise_covariance.subarray(0, noiseCovariance.byteLength),
+      );
+    }
+    const kspace = { coils: row.coils, nx: row.nx, ny: row.ny, data: Float64Array.from(samples) };
+    return { kspace, noiseCovariance };
+  }
+
   // --- single results (reconstructions, masks) ---------------------------------------------
 
   /**
@@ -356,9 +446,13 @@ export class Store {
     body: unknown,
     images: Record<string, Buffer>,
     provenance: { owner?: string | null; inputs?: InputRef[]; planId?: string } = {},
+    arrays: Record<string, ResultArray> = {},
   ): boolean {
     const createdAt = new Date().toISOString();
     const inputs = provenance.inputs ?? [];
+    const insertArray = this.db.prepare(
+      'INSERT OR IGNORE INTO result_arrays (result_id, name, nx, ny, white, data) VALUES (?, ?, ?, ?, ?, ?)',
+    );
     // OR IGNORE: content-addressed results (equal requests, equal ids) may be stored twice by racing requests.
     const insertImage = this.db.prepare(
       'INSERT OR IGNORE INTO result_images (result_id, name, png) VALUES (?, ?, ?)',
@@ -373,9 +467,37 @@ export class Store {
         )
         .run(id, createdAt, kind, JSON.stringify(body), provenance.owner ?? null, planId);
       for (const [name, png] of Object.entries(images)) insertImage.run(id, name, png);
+      for (const [name, a] of Object.entries(arrays)) {
+        const bytes = Buffer.from(a.data.buffer, a.data.byteOffset, a.data.byteLength);
+        insertArray.run(id, name, a.nx, a.ny, a.white, bytes);
+      }
       this.link('result', id, inputs);
       return true;
     })();
+  }
+
+  /** The full-precision images of a result the scope may see, in the order they were stored. */
+  getResultArrays(id: string, scope: Scope = 'all'): Map<string, ResultArray> {
+    const rows = this.db
+      .prepare(
+        `SELECT name, nx, ny, white, data FROM result_arrays WHERE result_id = @id
+         AND EXISTS (SELECT 1 FROM results WHERE id = @id AND ${visible}) ORDER BY rowid`,
+      )
+      .all({ id, ...scopeParams(scope) }) as Array<{
+      name: string;
+      nx: number;
+      ny: number;
+      white: number;
+      data: Buffer;
+    }>;
+    const arrays = new Map<string, ResultArray>();
+    for (const row of rows) {
+      // A fresh, aligned copy: SQLite blobs need not be 4-byte aligned.
+      const data = new Float32Array(row.nx * row.ny);
+      new Uint8Array(data.buffer).set(row.data.subarray(0, data.byteLength));
+      arrays.set(row.name, { nx: row.nx, ny: row.ny, white: row.white, data });
+    }
+    return arrays;
   }
 
   getResult(
@@ -634,6 +756,7 @@ export class Store {
   private deleteHolder(kind: HolderKind, id: string): void {
     if (kind === 'result') {
       this.db.prepare('DELETE FROM result_images WHERE result_id = ?').run(id);
+      this.db.prepare('DELETE FROM result_arrays WHERE result_id = ?').run(id);
       this.db.prepare('DELETE FROM results WHERE id = ?').run(id);
     } else {
       const results = this.db.prepare('SELECT id FROM results WHERE plan_id = ?').all(id) as Array<{
@@ -658,7 +781,8 @@ export class Store {
           ${pinnedInput(kind, spec.table)} AS pinned, 0 AS rank FROM ${spec.table}`,
     );
     const resultBytes = (r: string) =>
-      `length(${r}.body) + COALESCE((SELECT SUM(length(png)) FROM result_images WHERE result_id = ${r}.id), 0)`;
+      `length(${r}.body) + COALESCE((SELECT SUM(length(png)) FROM result_images WHERE result_id = ${r}.id), 0)
+        + COALESCE((SELECT SUM(length(data)) FROM result_arrays WHERE result_id = ${r}.id), 0)`;
     // A plan's row results are part of the plan: counted in its bytes, aged and removed with it.
     const results = `SELECT 'result', id, created_at, ${resultBytes('results')}, 0, 1 FROM results
       WHERE plan_id IS NULL`;

@@ -1,4 +1,5 @@
 import type { MaskDiagnostics, SampledMask, SamplingSpec } from '../../sampling/index.ts';
+import type { RawKspace } from '../acquisition/index.ts';
 import type { WorkerFailure } from '../core/error-transport.ts';
 import type { Limits } from '../core/limits.ts';
 import type { Matrix } from '../core/matrix.ts';
@@ -6,6 +7,7 @@ import type { RealImage } from '../core/real-image.ts';
 import type { CoilMaps } from '../encoding/index.ts';
 import type { CoilMapsUpload, DecodedCoilMaps } from '../io/decode-coil-maps.ts';
 import type { DecodedImage, DecodeOptions } from '../io/decoded-image.ts';
+import type { ImportedRawKspace } from '../io/ismrmrd/import-raw-kspace.ts';
 import type { MetricSet } from '../metrics/index.ts';
 import type { ReconstructionOutcome, ReconstructionRequest } from '../pipeline/run-reconstruction.ts';
 import type { CellResult, Plan, PlanCell } from '../plan/index.ts';
@@ -29,6 +31,12 @@ export interface UploadedCoilMaps {
   maps: CoilMaps;
 }
 
+/** Imported raw k-space a task needs, sent along like images (workers never open the database). */
+export interface UploadedRawKspace {
+  id: string;
+  raw: RawKspace;
+}
+
 /**
  * Every task a worker thread runs: its input (typed values the HTTP edge or the plan schema already
  * validated; plain, structured-clonable data) and its output. The worker trusts its inputs and does
@@ -37,6 +45,7 @@ export interface UploadedCoilMaps {
 export interface TaskMap {
   decode: { input: { bytes: Uint8Array; options: DecodeOptions }; output: DecodedImage };
   'decode-coil-maps': { input: CoilMapsUpload; output: DecodedCoilMaps };
+  'read-raw-kspace': { input: { bytes: Uint8Array; limits: Limits }; output: ImportedRawKspace };
   'phantom-kspace': { input: { name: string; kx: Float64Array; ky: Float64Array }; output: Float64Array };
   'phantom-raster': {
     input: { name: string; nx: number; ny: number; supersample?: number };
@@ -52,6 +61,7 @@ export interface TaskMap {
       seed?: number;
       image?: UploadedPixels;
       coilMaps?: UploadedCoilMaps[];
+      raw?: UploadedRawKspace;
       limits: Limits;
     };
     output: ScoredOutcome;
@@ -65,6 +75,7 @@ export interface TaskMap {
       cell: PlanCell;
       image?: UploadedPixels;
       coilMaps?: UploadedCoilMaps[];
+      raw?: UploadedRawKspace;
       limits: Limits;
       keepOutcome?: boolean;
     };

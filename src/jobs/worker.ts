@@ -3,6 +3,8 @@
  * modules are imported on first use, so a worker starts fast and loads only what its tasks need.
  * Engine errors come back as data (WorkerFailure) and are rebuilt as the same classes by the pool.
  */
+
+import type { RawKspace } from '../acquisition/index.ts';
 import { toWorkerFailure } from '../core/error-transport.ts';
 import { NotFoundError, ValidationError } from '../core/errors.ts';
 import type { RealImage } from '../core/real-image.ts';
@@ -15,6 +17,7 @@ import type {
   TaskOutput,
   UploadedCoilMaps,
   UploadedPixels,
+  UploadedRawKspace,
   WorkerReply,
   WorkerTask,
 } from './tasks.ts';
@@ -46,6 +49,14 @@ function coilMapsLoader(uploaded: UploadedCoilMaps[] | undefined): (id: string) 
   };
 }
 
+/** The raw k-space the service loaded for this task (the caller's own, checked there); any other id is a 404. */
+function rawLoader(uploaded: UploadedRawKspace | undefined): (id: string) => Promise<RawKspace> {
+  return async (id: string) => {
+    if (uploaded && uploaded.id === id) return uploaded.raw;
+    throw new NotFoundError({ field: 'source.rawId', message: `no imported raw data ${id}` });
+  };
+}
+
 /** One handler per task kind; the mapped type keeps each input and output tied to its kind. */
 const handlers: { [K in TaskKind]: (input: TaskInput<K>) => Promise<TaskOutput<K>> } = {
   async decode({ bytes, options }) {
@@ -55,6 +66,10 @@ const handlers: { [K in TaskKind]: (input: TaskInput<K>) => Promise<TaskOutput<K
   async 'decode-coil-maps'(upload) {
     const { decodeCoilMaps } = await import('../io/decode-coil-maps.ts');
     return decodeCoilMaps(upload);
+  },
+  async 'read-raw-kspace'({ bytes, limits }) {
+    const { importRawKspace } = await import('../io/ismrmrd/import-raw-kspace.ts');
+    return importRawKspace(bytes, limits);
   },
   async 'phantom-kspace'({ name, kx, ky }) {
     const { getPhantom } = await import('../phantoms/index.ts');
@@ -69,9 +84,14 @@ const handlers: { [K in TaskKind]: (input: TaskInput<K>) => Promise<TaskOutput<K
     const sampled = await resolveSampling(matrix, sampling, limits);
     return { sampled, diagnostics: diagnostics ? maskDiagnostics(sampled) : null };
   },
-  async reconstruction({ request, seed, image, coilMaps, limits }) {
+  async reconstruction({ request, seed, image, coilMaps, raw, limits }) {
     const { runReconstruction } = await import('../pipeline/run-reconstruction.ts');
-    const ctx = { loadImage: imageLoader(image), loadCoilMaps: coilMapsLoader(coilMaps), limits };
+    const ctx = {
+      loadImage: imageLoader(image),
+      loadCoilMaps: coilMapsLoader(coilMaps),
+      loadRaw: rawLoader(raw),
+      limits,
+    };
     const outcome = await runReconstruction(request, seed, ctx);
     return scored(outcome);
   },
@@ -81,9 +101,14 @@ const handlers: { [K in TaskKind]: (input: TaskInput<K>) => Promise<TaskOutput<K
     const { checkPlan } = await import('../plan/index.ts');
     return checkPlan(plan, { limits, checkMasks: true });
   },
-  async cell({ plan, cell, image, coilMaps, limits, keepOutcome }) {
+  async cell({ plan, cell, image, coilMaps, raw, limits, keepOutcome }) {
     const { runCellOutcome } = await import('../plan/index.ts');
-    const ctx = { loadImage: imageLoader(image), loadCoilMaps: coilMapsLoader(coilMaps), limits };
+    const ctx = {
+      loadImage: imageLoader(image),
+      loadCoilMaps: coilMapsLoader(coilMaps),
+      loadRaw: rawLoader(raw),
+      limits,
+    };
     const { result, outcome } = await runCellOutcome(plan, cell, ctx);
     // Only the row's representative (seed 1) pays for diagnostics, zero-filled scores and the transfer.
     return keepOutcome && cell.seed === 1 ? { result, outcome: await scored(outcome) } : { result };

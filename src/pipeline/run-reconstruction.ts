@@ -17,6 +17,7 @@ import {
   fullKspaceFromPhantom,
   type NoiseSpec,
   noiseSchema,
+  type RawKspace,
 } from '../acquisition/index.ts';
 import { fft2c } from '../core/centered-fft.ts';
 import { type ComplexImage, magnitude } from '../core/complex-image.ts';
@@ -59,6 +60,7 @@ import {
   phaseSchema,
 } from './coil-request.ts';
 import { type FidelityOutcome, runLesionFidelity } from './lesion-run.ts';
+import { rawAcquisition } from './raw-acquisition.ts';
 import { resampleBilinear } from './resample.ts';
 
 export const sourceSchema = z.union([
@@ -73,6 +75,15 @@ export const sourceSchema = z.union([
   }),
   z.strictObject({
     imageId: z.string().min(1).max(200).describe('id of an uploaded image (POST /v1/images)'),
+  }),
+  z.strictObject({
+    rawId: z
+      .string()
+      .min(1)
+      .max(200)
+      .describe(
+        'id of imported raw k-space (POST /v1/raw): its fully sampled coil k-space is the data; the matrix must be its own',
+      ),
   }),
 ]);
 export type SourceSpec = z.infer<typeof sourceSchema>;
@@ -136,6 +147,8 @@ export interface PipelineContext {
   loadImage?: (id: string) => Promise<RealImage>;
   /** Uploaded sensitivity maps by id (POST /v1/coil-maps), for `coils: { mapsId }`. */
   loadCoilMaps?: (id: string) => Promise<CoilMaps>;
+  /** Imported raw k-space by id (POST /v1/raw), for `source: { rawId }`. */
+  loadRaw?: (id: string) => Promise<RawKspace>;
   signal?: AbortSignal;
   limits?: Limits;
 }
@@ -403,11 +416,13 @@ export async function runReconstruction(
   // The request was checked once at the edge (reconstructionRequestSchemaFor): trusted here.
   const { nx, ny } = req.matrix;
   const notes: string[] = [];
-  const coils = req.coils !== undefined && !isUniform(req.coils) ? req.coils : undefined;
+  const raw = 'rawId' in req.source ? await loadedRaw(req.source.rawId, req.phase, ctx) : undefined;
+  const coils = req.coils !== undefined && !isUniform(req.coils) && !raw ? req.coils : undefined;
   const simulation = coils
     ? await coilSimulation(req.source, coils, req.phase, nx, ny, ctx, notes)
     : undefined;
-  const full = simulation ? undefined : await fullAcquisition(req.source, nx, ny, ctx, notes, req.phase);
+  const full =
+    simulation || raw ? undefined : await fullAcquisition(req.source, nx, ny, ctx, notes, req.phase);
   const sampling =
     seed !== undefined && req.sampling.pattern !== 'custom'
       ? ({ ...req.sampling, seed } as SamplingSpec)
@@ -422,14 +437,25 @@ export async function runReconstruction(
   let whitenedFull: MultiCoilKspace | undefined;
   let sigma = 0;
   const noiseSeed = noiseSeedFor(baseSeed);
-  if (req.lesions && (simulation || sampled.trajectory)) {
+  if (req.lesions && (simulation || raw || sampled.trajectory)) {
     throw new ValidationError({
       field: 'lesions',
       message: 'lesion studies run on single-coil Cartesian acquisitions only, for now',
       allowed: "coils: { array: 'uniform' } and a Cartesian (or rasterised) pattern with lesions",
     });
   }
-  if (simulation) {
+  if (raw) {
+    const acquired = rawAcquisition(raw, req, sampled, noiseSeed, notes);
+    coilZeroFilled = zeroFilledCoilCombination(acquired.coils);
+    input = {
+      kspace: fft2c(coilZeroFilled),
+      mask: sampled.mask,
+      density: sampled.density,
+      coils: acquired.coils,
+    };
+    referenceImage = acquired.reference;
+    objectMask = acquired.objectMask;
+  } else if (simulation) {
     if (sampled.trajectory) {
       throw new ValidationError({
         field: 'sampling.trajectory',
@@ -547,6 +573,21 @@ export async function runReconstruction(
     ...gFactorFacts.facts,
     ...(fidelity ? { fidelity } : {}),
   };
+}
+
+/** The raw k-space a `rawId` source names (the service loaded it for the caller); no object phase. */
+async function loadedRaw(id: string, phase: PhaseSpec | undefined, ctx: PipelineContext): Promise<RawKspace> {
+  if (phase) {
+    throw new ValidationError({
+      field: 'phase',
+      message: 'raw data carry their own phase; a simulated object phase cannot be added',
+      allowed: 'no phase piece with source.rawId',
+    });
+  }
+  if (!ctx.loadRaw) {
+    throw new ValidationError({ field: 'source.rawId', message: 'raw data are not available here' });
+  }
+  return ctx.loadRaw(id);
 }
 
 function isUniform(spec: CoilsSpec): spec is { array: 'uniform' } {

@@ -17,6 +17,7 @@ export {
   planStatusSchema,
   planTableViewSchema,
 } from './plans.ts';
+export { RawDataService, type RawInfo, rawInfoSchema } from './raw-data.ts';
 export {
   type Reconstruction,
   ReconstructionService,

@@ -7,6 +7,7 @@ import { type Plan, type PlanRow, type PlanTable, planRowSchema, planTableSchema
 import type { Caller, MissingImage } from './caller.ts';
 import { checkPlanCoilMaps } from './coil-map-refs.ts';
 import { planLabel } from './plan-label.ts';
+import { checkRawMatrix, rawIdOf } from './raw-data.ts';
 import { reconstructionSchema } from './reconstructions.ts';
 import { type ResultImageKey, resultImageNames, resultImageUrl } from './result-images.ts';
 
@@ -99,8 +100,13 @@ export class PlanService {
       return { missingImage: source.imageId };
     }
     const mapInputs = checkPlanCoilMaps(store, plan, caller);
+    const rawId = rawIdOf(plan);
+    if (rawId !== undefined) checkRawMatrix(store.getRawKspaceInfo(rawId, caller.scope), rawId, plan.matrix);
     // The link to the upload lets deleting the upload delete this plan too.
-    const inputs = source.imageId === undefined ? [] : [{ kind: 'image' as const, id: source.imageId }];
+    const inputs = [
+      ...(source.imageId === undefined ? [] : [{ kind: 'image' as const, id: source.imageId }]),
+      ...(rawId === undefined ? [] : [{ kind: 'raw' as const, id: rawId }]),
+    ];
     return plans.submit(plan, { owner: caller.owner, inputs: [...inputs, ...mapInputs] });
   }
 

@@ -16,6 +16,8 @@ import { coilMapInputs, coilMapRefs, loadNamedCoilMaps } from './coil-map-refs.t
 import { coilMapsNotFound } from './coil-maps.ts';
 import { describeFidelity, fidelitySchema } from './fidelity-summary.ts';
 import { finiteOrNull, jsonSafe } from './json-safe.ts';
+import { rawIdOf, rawNotFound, readRawKspace } from './raw-data.ts';
+import { resultArrays } from './result-arrays.ts';
 import { type ResultImageKey, resultImageNames, resultImageUrl } from './result-images.ts';
 import { psfSummary, psfSummarySchema, sampledSummary, sampledSummarySchema } from './sampled-summary.ts';
 
@@ -133,6 +135,8 @@ export class ReconstructionService {
     }
     const mapRefs = coilMapRefs(pipelineRequest);
     const coilMaps = loadNamedCoilMaps(store, mapRefs, caller);
+    const rawId = rawIdOf(pipelineRequest);
+    const raw = rawId === undefined ? undefined : { id: rawId, raw: readRawKspace(store, rawId, caller) };
     const scored = await pool.runForRequest(
       'reconstruction',
       {
@@ -140,14 +144,20 @@ export class ReconstructionService {
         ...(seed === undefined ? {} : { seed }),
         ...(image ? { image } : {}),
         ...(coilMaps.length > 0 ? { coilMaps } : {}),
+        ...(raw ? { raw } : {}),
         limits,
       },
       signal,
     );
     // Linked to its upload, so deleting the upload deletes it; refused if the upload went meanwhile.
-    const inputs = [...(image ? [{ kind: 'image' as const, id: image.id }] : []), ...coilMapInputs(mapRefs)];
+    const inputs = [
+      ...(image ? [{ kind: 'image' as const, id: image.id }] : []),
+      ...(raw ? [{ kind: 'raw' as const, id: raw.id }] : []),
+      ...coilMapInputs(mapRefs),
+    ];
     const body = await this.keep(scored, { owner: caller.owner, inputs });
     if (body) return body;
+    if (raw && !store.inputExists({ kind: 'raw', id: raw.id })) throw rawNotFound(raw.id);
     const goneMaps = mapRefs.find((ref) => !store.inputExists({ kind: 'coilMaps', id: ref.id }));
     if (goneMaps) throw coilMapsNotFound(goneMaps.id, goneMaps.field);
     return { missingImage: image!.id };
@@ -171,7 +181,8 @@ export class ReconstructionService {
     const id = randomUUID();
     const pngs = await renderImages(scored.outcome, scored.diagnostics);
     const body = describe(id, scored);
-    return this.deps.store.putResult(id, 'reconstruction', body, pngs, provenance) ? body : undefined;
+    const arrays = resultArrays(scored.outcome);
+    return this.deps.store.putResult(id, 'reconstruction', body, pngs, provenance, arrays) ? body : undefined;
   }
 
   /** A stored reconstruction the caller may see. */

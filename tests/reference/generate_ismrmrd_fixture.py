@@ -2,7 +2,8 @@
 
 Reads the generated ISMRMRD file (see generate_ismrmrd_fixture.sh), writes
   fixtures/ismrmrd-rss.json      header numbers, the root-sum-of-squares image of the fully sampled
-                                 data and the noise covariance (numpy.cov over the noise-scan samples);
+                                 data, the noise covariance (numpy.cov over the noise-scan samples) and the
+                                 RSS image of the coil images prewhitened with it (L⁻¹, Ψ = L·Lᴴ);
   ../fixtures/ismrmrd/partial.h5 a copy with every 8th phase-encode line dropped (records removed);
   ../fixtures/ismrmrd/subject.h5 a copy whose XML header carries invented subject and study information;
   ../fixtures/ismrmrd/averaged.h5 a copy where lines 0–3 are recorded a second time (average = 1)
@@ -79,6 +80,10 @@ noise_samples = np.concatenate(
     [r["data"].astype(np.float64).view(np.complex128).reshape(coils, -1) for r in noise], axis=1
 )
 cov = np.cov(noise_samples)
+# Prewhitened coil images: L⁻¹ applied across coils at every pixel, Ψ = L·Lᴴ (numpy's Cholesky).
+lower = np.linalg.cholesky(cov)
+whitened = np.einsum("ab,bij->aij", np.linalg.inv(lower), image)
+rss_whitened = np.sqrt(np.sum(np.abs(whitened) ** 2, axis=0))
 
 result = {
     "source": "ismrmrd_generate_cartesian_shepp_logan (Debian ismrmrd-tools 1.8) read with h5py "
@@ -96,6 +101,7 @@ result = {
     "rss": [float(v) for v in rss.ravel()],
     "noiseSamples": int(noise_samples.shape[1]),
     "noiseCovariance": [float(v) for z in cov.ravel() for v in (z.real, z.imag)],
+    "rssWhitened": [float(v) for v in rss_whitened.ravel()],
 }
 with open(os.path.join(here, "fixtures", "ismrmrd-rss.json"), "w") as out:
     json.dump(result, out, indent=None, separators=(",", ":"))

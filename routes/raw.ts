@@ -1,0 +1,70 @@
+import type { FastifyInstance } from 'fastify';
+import { disconnectSignal } from '../src/http/disconnect-signal.ts';
+import { fileOnlyMultipartBody, readFilePart } from '../src/http/multipart-file.ts';
+import { jsonResponse, problemResponses } from '../src/http/problem.ts';
+import { storedInputRoutes } from '../src/http/stored-input-routes.ts';
+import { rawInfoSchema } from '../src/services/index.ts';
+
+const rawInfoResponse = rawInfoSchema.meta({
+  id: 'RawInfo',
+  description:
+    'Imported raw k-space: the fully sampled coil k-space and noise covariance are kept, the file and every header text are not',
+});
+
+/**
+ * POST /v1/raw (multipart ISMRMRD file), GET and DELETE /v1/raw/{id} (the deletion cascades to what
+ * was made from the data: src/jobs/lifecycle.ts). Only numbers are read from the XML header.
+ */
+export async function rawRoutes(app: FastifyInstance): Promise<void> {
+  const { raw, tenancy } = app.services;
+
+  app.post(
+    '/v1/raw',
+    {
+      config: {
+        openapi: {
+          multipartBody: fileOnlyMultipartBody(
+            'ISMRMRD HDF5 file (/dataset/xml and /dataset/data): one fully sampled Cartesian 2D slice, ' +
+              'any number of coils, optional noise-scan records',
+          ),
+        },
+      },
+      schema: {
+        summary: 'Import raw multi-coil k-space (ISMRMRD)',
+        description:
+          'multipart/form-data with the file in the part `file` (within the upload limit). Refused (422, naming ' +
+          'the field) when non-Cartesian, partially sampled, 3D, or with several slices, contrasts or repetitions. ' +
+          'Subject, study and free text of the header are never read, stored, logged or returned.',
+        tags: ['raw'],
+        response: {
+          201: jsonResponse('The imported data (Location: its URL)', rawInfoResponse),
+          ...problemResponses(400, 401, 413, 422, 429),
+        },
+      },
+    },
+    async (request, reply) => {
+      const caller = tenancy(request);
+      const signal = disconnectSignal(request, reply);
+      const { bytes } = await readFilePart(request, 'the ISMRMRD file');
+      const info = await raw.upload(bytes, caller, signal);
+      return reply.code(201).header('location', info.url).send(info);
+    },
+  );
+
+  storedInputRoutes(app, {
+    path: '/v1/raw',
+    kind: 'raw',
+    tag: 'raw',
+    noun: 'raw data',
+    infoResponse: rawInfoResponse,
+    info: (id, caller) => raw.info(id, caller),
+    summaries: {
+      get: 'Metadata of imported raw k-space',
+      getResponse: 'The raw data’s numeric facts',
+      delete: 'Delete imported raw k-space and everything made from it',
+      deleteDescription:
+        'Also deletes the reconstructions and plans that used it (plans cancelled first when queued ' +
+        'or running) with their results; the samples are overwritten in the database file and its write-ahead log.',
+    },
+  });
+}

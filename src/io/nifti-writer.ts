@@ -1,0 +1,52 @@
+/** Bytes of a NIfTI-1 single-file header (sizeof_hdr) and the offset of the first voxel (vox_offset). */
+const HEADER_BYTES = 348;
+const VOXEL_OFFSET = 352;
+
+/** One volume of a 4D float32 NIfTI file: ny×nx values, row-major, row 0 at the top of the picture. */
+export interface NiftiVolume {
+  nx: number;
+  ny: number;
+  data: Float32Array;
+}
+
+/**
+ * A single-file NIfTI-1 (".nii", magic "n+1") of float32 images (datatype 16, bitpix 32), one per
+ * index of the 4th dimension: dim = [4, nx, ny, 1, volumes, 1, 1, 1], little-endian, no scaling
+ * (scl_slope 0: values as stored), unit voxels (pixdim 1, xyzt_units 0: unknown), and no orientation
+ * (qform_code = sform_code = 0), as nifti1.h lays the header out (docs/references.md §10.2).
+ * Voxel (i, j) is image column i and row ny − 1 − j, so j runs upward as y does in the phantom frame
+ * (the same flip the NIfTI decoders undo). `description` (≤ 79 ASCII characters) goes into `descrip`.
+ */
+export function niftiFloat32Volumes(volumes: readonly NiftiVolume[], description: string): Buffer {
+  if (volumes.length < 1) throw new RangeError('at least one volume is needed');
+  const { nx, ny } = volumes[0];
+  if (volumes.some((v) => v.nx !== nx || v.ny !== ny || v.data.length !== nx * ny)) {
+    throw new RangeError('every volume must hold nx·ny values of one size');
+  }
+  if (!/^[\x20-\x7e]{0,79}$/.test(description)) throw new RangeError('descrip: at most 79 ASCII characters');
+  const plane = nx * ny;
+  const out = Buffer.alloc(VOXEL_OFFSET + 4 * plane * volumes.length);
+  out.writeInt32LE(HEADER_BYTES, 0); // sizeof_hdr
+  out.writeUInt8(0x72, 38); // regular = 'r' (an Analyze 7.5 field NIfTI-1 keeps); dim_info 0
+  const dim = [4, nx, ny, 1, volumes.length, 1, 1, 1];
+  for (let i = 0; i < dim.length; i++) out.writeInt16LE(dim[i], 40 + 2 * i);
+  out.writeInt16LE(16, 70); // datatype: DT_FLOAT32
+  out.writeInt16LE(32, 72); // bitpix
+  for (let i = 0; i < 8; i++) out.writeFloatLE(1, 76 + 4 * i); // pixdim: qfac 1, unit steps
+  out.writeFloatLE(VOXEL_OFFSET, 108); // vox_offset
+  out.writeFloatLE(0, 112); // scl_slope 0: no scaling
+  out.writeFloatLE(0, 116); // scl_inter
+  out.write(description, 148, 80, 'latin1'); // descrip (zero padded)
+  out.write('n+1\0', 344, 4, 'latin1'); // magic
+  let at = VOXEL_OFFSET;
+  for (const volume of volumes) {
+    for (let j = 0; j < ny; j++) {
+      const row = ny - 1 - j;
+      for (let i = 0; i < nx; i++) {
+        out.writeFloatLE(volume.data[row * nx + i], at);
+        at += 4;
+      }
+    }
+  }
+  return out;
+}
