@@ -1,5 +1,7 @@
+import { readFileSync } from 'node:fs';
+import type { AddressInfo } from 'node:net';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { type TestApp, testApp } from '../api/helpers.ts';
+import { type TestApp, testApp, uploadFile } from '../api/helpers.ts';
 import { type Child, type RedisServer, startRedis, startWorker } from './redis-process.ts';
 
 // Plans on the Redis job queue (QUEUE_URL) computed by `npm run worker` processes: the same table as
@@ -106,4 +108,170 @@ describe('plans on the Redis job queue with worker processes', () => {
       await b.stop();
     }
   }, 180_000);
+
+  it('a worker killed mid-plan: its cell goes back to the queue, the plan completes, no cell lost or doubled', async () => {
+    const [a, b] = await Promise.all([worker(), worker()]);
+    const t = await service();
+    try {
+      const res = await t.http().post('/v1/plans').send(plan);
+      const id = res.body.id as string;
+      // Kill `a` right after its first cell: it has already taken its next one (one thread, one cell).
+      await a.line(new RegExp(`cell computed.*${id}|${id}.*cell computed`));
+      await a.stop('SIGKILL');
+      const done = await waitFor(t, id, finished);
+      expect(done.status).toBe('done');
+      expect(done.progress).toMatchObject({ done: totalCells, total: totalCells });
+      expect(withoutTiming(done.table)).toEqual(embeddedTable);
+      // Every cell reached the table: those `a` finished before it died, the rest (its lost one too) by `b`.
+      const byA = computedBy(a, id);
+      const byB = computedBy(b, id);
+      expect(new Set([...byA, ...byB]).size).toBe(totalCells);
+      expect(byB.length).toBeGreaterThan(0);
+    } finally {
+      await t.close();
+      await b.stop();
+    }
+  }, 180_000);
+
+  it('the service restarted mid-plan resumes: finished cells are collected, none computed twice', async () => {
+    const [a, b] = await Promise.all([worker(), worker()]);
+    const first = await service();
+    const res = await first.http().post('/v1/plans').send(plan);
+    const id = res.body.id as string;
+    await waitFor(first, id, (body) => body.progress.done >= 2);
+    await first.close();
+    // The workers go on with the cells already queued while no service listens.
+    await sleep(1000);
+    const second = await service(first.dataDir);
+    try {
+      const done = await waitFor(second, id, finished);
+      expect(done.status).toBe('done');
+      expect(withoutTiming(done.table)).toEqual(embeddedTable);
+      const cells = [...computedBy(a, id), ...computedBy(b, id)].sort((x, y) => x - y);
+      expect(cells).toEqual(Array.from({ length: totalCells }, (_, i) => i));
+    } finally {
+      await second.close();
+      await a.stop();
+      await b.stop();
+    }
+  }, 180_000);
+
+  it('cancel drops the waiting cells and stops the running ones within seconds', async () => {
+    const [a, b] = await Promise.all([worker(), worker()]);
+    const t = await testApp({
+      workers: 1,
+      limits: { maxIterations: 20_000 },
+      queue: { url: redis.url, planConcurrency: 4 },
+    });
+    try {
+      // Cells of many seconds each, so cancel meets them running.
+      const slow = { ...plan, matrix: { nx: 64, ny: 64 }, methods: [{ name: 'cs-tv', iterations: 20_000 }] };
+      const res = await t.http().post('/v1/plans').send(slow);
+      const id = res.body.id as string;
+      let health = await t.http().get('/health');
+      for (let i = 0; i < 200 && health.body.cellQueue.runningCells < 2; i++) {
+        await sleep(50);
+        health = await t.http().get('/health');
+      }
+      expect(health.body.cellQueue.runningCells).toBe(2);
+      expect(health.body.cellQueue.waitingCells).toBe(2);
+      const cancelled = await t.http().delete(`/v1/plans/${id}`);
+      expect(cancelled.status).toBe(200);
+      expect(cancelled.body.status).toBe('cancelled');
+      let emptied = false;
+      for (let i = 0; i < 100 && !emptied; i++) {
+        await sleep(50);
+        health = await t.http().get('/health');
+        emptied = health.body.cellQueue.runningCells === 0 && health.body.cellQueue.waitingCells === 0;
+      }
+      expect(health.body.cellQueue).toMatchObject({ runningCells: 0, waitingCells: 0, workerProcesses: 2 });
+      expect([...computedBy(a, id), ...computedBy(b, id)]).toEqual([]);
+      expect((await t.http().get(`/v1/plans/${id}`)).body.status).toBe('cancelled');
+    } finally {
+      await t.close();
+      await a.stop();
+      await b.stop();
+    }
+  }, 180_000);
+
+  describe('uploads reach the workers from the service, with the worker key', () => {
+    const apiKey = 'portal-key-1';
+    const workerKey = 'worker-key-1';
+    const camera = readFileSync(new URL('../fixtures/io/camera64.png', import.meta.url));
+    const onUpload = (imageId: string) => ({
+      ...plan,
+      source: { imageId },
+      matrix: { nx: 64, ny: 64 },
+      accelerations: [2],
+      methods: [{ name: 'zero-filled' }],
+      seeds: 1,
+    });
+
+    it('a plan on an uploaded image: same table as embedded; the worker route takes only the worker key', async () => {
+      const embedded = await testApp({ workers: 1, limits });
+      const t = await testApp({
+        workers: 1,
+        limits,
+        apiKeys: [apiKey],
+        workerKey,
+        queue: { url: redis.url },
+      });
+      try {
+        await t.app.listen({ port: 0, host: '127.0.0.1' });
+        const serviceUrl = `http://127.0.0.1:${(t.app.server.address() as AddressInfo).port}`;
+        const a = await worker({ SERVICE_URL: serviceUrl, WORKER_KEY: workerKey });
+        const upload = await uploadFile(t, camera, 'c.png').set('x-api-key', apiKey);
+        expect(upload.status).toBe(201);
+        const imageId = upload.body.id as string;
+        // Not named by a queued plan yet: not served, even with the worker key.
+        expect(
+          (await t.http().get(`/internal/worker/images/${imageId}`).set('x-api-key', workerKey)).status,
+        ).toBe(404);
+        const res = await t.http().post('/v1/plans').set('x-api-key', apiKey).send(onUpload(imageId));
+        expect(res.status).toBe(202);
+        // While queued: an API key does not open the worker route, the worker key does not open /v1.
+        expect(
+          (await t.http().get(`/internal/worker/images/${imageId}`).set('x-api-key', apiKey)).status,
+        ).toBe(401);
+        expect((await t.http().get(`/v1/plans/${res.body.id}`).set('x-api-key', workerKey)).status).toBe(401);
+        const done = await (async () => {
+          for (let i = 0; i < 2400; i++) {
+            const got = await t.http().get(`/v1/plans/${res.body.id}`).set('x-api-key', apiKey);
+            if (finished(got.body)) return got.body as PlanBody;
+            await sleep(50);
+          }
+          throw new Error('the plan on the upload did not finish');
+        })();
+        expect(done.status).toBe('done');
+        const reference = await uploadFile(embedded, camera, 'c.png');
+        const fresh = await embedded.http().post('/v1/plans').send(onUpload(reference.body.id));
+        const freshDone = await waitFor(embedded, fresh.body.id, finished);
+        expect(withoutTiming(done.table)).toEqual(withoutTiming(freshDone.table));
+        expect(computedBy(a, res.body.id).sort()).toEqual([0, 1]);
+        await a.stop();
+      } finally {
+        await t.close();
+        await embedded.close();
+      }
+    }, 180_000);
+
+    it('a worker that cannot fetch the upload fails the cell twice: the plan fails naming the cell', async () => {
+      const a = await worker();
+      const t = await testApp({ workers: 1, limits, queue: { url: redis.url } });
+      try {
+        const upload = await uploadFile(t, camera, 'c.png');
+        const res = await t.http().post('/v1/plans').send(onUpload(upload.body.id));
+        const failed = await waitFor(t, res.body.id, finished);
+        expect(failed.status).toBe('failed');
+        expect(failed.error).toMatchObject({
+          status: 500,
+          errors: [{ field: expect.stringMatching(/^cells\[\d\]$/) }],
+        });
+        expect(JSON.stringify(failed.error)).toMatch(/failed twice.*SERVICE_URL/);
+      } finally {
+        await t.close();
+        await a.stop();
+      }
+    }, 180_000);
+  });
 });

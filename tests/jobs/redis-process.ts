@@ -37,7 +37,8 @@ function watch(child: ChildProcess, name: string): Child {
       if (found) return Promise.resolve(found);
       return new Promise((resolve, reject) => {
         const timer = setTimeout(
-          () => reject(new Error(`${name} printed no line matching ${pattern}:\n${lines.slice(-20).join('\n')}`)),
+          () =>
+            reject(new Error(`${name} printed no line matching ${pattern}:\n${lines.slice(-20).join('\n')}`)),
           timeoutMs,
         );
         waiters.push({
@@ -80,7 +81,18 @@ export interface RedisServer {
 export async function startRedis(password?: string): Promise<RedisServer> {
   const dir = mkdtempSync(join(tmpdir(), 'kspace-redis-'));
   const port = await freePort();
-  const args = ['--port', String(port), '--bind', '127.0.0.1', '--dir', dir, '--save', '', '--appendonly', 'no'];
+  const args = [
+    '--port',
+    String(port),
+    '--bind',
+    '127.0.0.1',
+    '--dir',
+    dir,
+    '--save',
+    '',
+    '--appendonly',
+    'no',
+  ];
   if (password) args.push('--requirepass', password);
   const server = watch(spawn('redis-server', args, { stdio: ['ignore', 'pipe', 'pipe'] }), 'redis-server');
   await server.line(/Ready to accept connections/, 20_000);
