@@ -275,3 +275,24 @@ describe('plans on the Redis job queue with worker processes', () => {
     }, 180_000);
   });
 });
+
+describe('a Redis that needs a password', () => {
+  it('the password travels in QUEUE_URL to the service and the workers', async () => {
+    const redis = await startRedis('queue pass/word');
+    const worker = await startWorker({ QUEUE_URL: redis.url });
+    const t = await testApp({ workers: 1, queue: { url: redis.url } });
+    try {
+      const res = await t
+        .http()
+        .post('/v1/plans')
+        .send({ ...plan, methods: [{ name: 'zero-filled' }], seeds: 1 });
+      const done = await waitFor(t, res.body.id, finished);
+      expect(done.status).toBe('done');
+      expect(computedBy(worker, res.body.id).sort()).toEqual([0, 1, 2, 3]);
+    } finally {
+      await t.close();
+      await worker.stop();
+      await redis.stop();
+    }
+  }, 120_000);
+});
