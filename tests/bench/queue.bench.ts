@@ -65,7 +65,7 @@ function row(name: string, run: { seconds: number; cells: number }, note = ''): 
 }
 
 /**
- * One plan each (not a median): embedded on one thread, then on the Redis queue (Debian's
+ * One plan each (not a median), after a warm-up: embedded on one thread, then on the Redis queue (Debian's
  * redis-server on loopback) with one and with two `npm run worker` processes of one thread each.
  */
 export async function benchQueue(): Promise<BenchRow[]> {
@@ -74,14 +74,15 @@ export async function benchQueue(): Promise<BenchRow[]> {
   try {
     const queue = { queue: { url: redis.url, planConcurrency: 8 } };
     const rows: BenchRow[] = [];
-    const embeddedHeavy = await planSeconds({}, heavyPlan);
-    rows.push(row('heavy plan, embedded, 1 thread', embeddedHeavy));
+    // Each process's threads load the engine modules on their first cell: the light plan runs first
+    // as the warm-up, so the heavy rows compare steady states.
     const embeddedLight = await planSeconds({}, lightPlan);
     rows.push(row('light plan, embedded, 1 thread', embeddedLight));
+    const embeddedHeavy = await planSeconds({}, heavyPlan);
+    rows.push(row('heavy plan, embedded, 1 thread', embeddedHeavy));
 
     workers.push(await startWorker({ QUEUE_URL: redis.url }));
-    const oneHeavy = await planSeconds(queue, heavyPlan);
-    rows.push(row('heavy plan, queue, 1 worker process', oneHeavy));
+    await planSeconds(queue, lightPlan);
     const oneLight = await planSeconds(queue, lightPlan);
     const overheadMs = ((oneLight.seconds - embeddedLight.seconds) * 1000) / oneLight.cells;
     rows.push(
@@ -91,8 +92,11 @@ export async function benchQueue(): Promise<BenchRow[]> {
         `; queue overhead ${overheadMs.toFixed(1)} ms/cell`,
       ),
     );
+    const oneHeavy = await planSeconds(queue, heavyPlan);
+    rows.push(row('heavy plan, queue, 1 worker process', oneHeavy));
 
     workers.push(await startWorker({ QUEUE_URL: redis.url }));
+    await planSeconds(queue, lightPlan);
     const twoHeavy = await planSeconds(queue, heavyPlan);
     const ratio = oneHeavy.seconds / twoHeavy.seconds;
     rows.push(row('heavy plan, queue, 2 worker processes', twoHeavy, `; ${ratio.toFixed(2)}× one process`));
