@@ -11,6 +11,7 @@ import {
   cancelledKey,
   cellJobId,
   type QueueSettings,
+  redactedQueueUrl,
   redisConnection,
 } from './queue-connection.ts';
 import type { TaskInput, TaskOutput } from './tasks.ts';
@@ -43,12 +44,31 @@ export class QueueCellRunner implements CellRunner {
     const events = new QueueEvents(CELL_QUEUE_NAME, { connection });
     const { url, ...options } = connection as { url: string };
     const redis = new Redis(url, options);
+    // Connection errors are retried by the clients; logged here instead of as unhandled events.
+    const logError = (error: Error) => log?.warn({ err: error }, 'job queue connection');
+    queue.on('error', logError);
+    events.on('error', logError);
+    redis.on('error', logError);
+    let timer: NodeJS.Timeout | undefined;
     try {
-      await Promise.all([queue.waitUntilReady(), events.waitUntilReady()]);
+      // Redis clients reconnect forever; a service that cannot reach its queue says so instead of hanging.
+      const unreachable = new Promise<never>((_resolve, reject) => {
+        timer = setTimeout(
+          () =>
+            reject(
+              new Error(`the job queue at ${redactedQueueUrl(settings.url)} did not answer within 15 s`),
+            ),
+          15_000,
+        );
+      });
+      await Promise.race([Promise.all([queue.waitUntilReady(), events.waitUntilReady()]), unreachable]);
     } catch (error) {
-      await Promise.allSettled([queue.close(), events.close()]);
+      // Neither close() nor disconnect() returns while the connection never came: not awaited.
+      void Promise.allSettled([queue.disconnect(), events.disconnect()]);
       redis.disconnect();
       throw error;
+    } finally {
+      clearTimeout(timer);
     }
     return new QueueCellRunner(queue, events, redis, concurrency, log);
   }
