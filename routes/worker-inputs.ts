@@ -26,25 +26,22 @@ export function workerInputRoutes(options: { apiKeys: readonly string[]; workerK
         { field: 'id', message: 'not an input of a queued plan' },
       ]);
 
-    app.get<{ Params: { id: string } }>(
-      '/internal/worker/images/:id',
-      { schema: { hide: true } },
-      async (request, reply) => {
-        const { id } = request.params;
-        const image = namedByUnfinishedPlan('image', id) ? store.getImagePixels(id) : undefined;
-        if (!image) throw notQueued(id);
-        return reply.type('application/json').send(toWireJson(image));
-      },
-    );
-    app.get<{ Params: { id: string } }>(
-      '/internal/worker/coil-maps/:id',
-      { schema: { hide: true } },
-      async (request, reply) => {
-        const { id } = request.params;
-        const maps = namedByUnfinishedPlan('coilMaps', id) ? store.getCoilMaps(id) : undefined;
-        if (!maps) throw notQueued(id);
-        return reply.type('application/json').send(toWireJson(maps));
-      },
-    );
+    // The path segment, the input kind the plans link, and the stored value.
+    const inputs = [
+      { path: 'images', kind: 'image', load: (id: string) => store.getImagePixels(id) },
+      { path: 'coil-maps', kind: 'coilMaps', load: (id: string) => store.getCoilMaps(id) },
+    ] as const;
+    for (const input of inputs) {
+      app.get<{ Params: { id: string } }>(
+        `/internal/worker/${input.path}/:id`,
+        { schema: { hide: true } },
+        async (request, reply) => {
+          const { id } = request.params;
+          const value = namedByUnfinishedPlan(input.kind, id) ? input.load(id) : undefined;
+          if (!value) throw notQueued(id);
+          return reply.type('application/json').send(toWireJson(value));
+        },
+      );
+    }
   };
 }

@@ -3,32 +3,28 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { type AppOptions, buildApp } from '../../src/app.ts';
 import { type Child, startRedis, startWorker } from '../jobs/redis-process.ts';
+import { smallPlanBody } from '../plan/small-plan.ts';
 import type { BenchRow } from './timing.ts';
 
 /** CPU-bound cells: 48² phantom, 2 patterns × 3 R × CS-TV 200 iterations × 2 seeds + 2 reference = 14 cells. */
-const heavyPlan = {
+const heavyPlan = smallPlanBody({
   source: { phantom: 'shepp-logan' },
   matrix: { nx: 48, ny: 48 },
-  protocol: { trMs: 500 },
   patterns: [
     { pattern: 'cartesian-random', acs: 4 },
     { pattern: 'poisson-disc', acs: 4 },
   ],
-  accelerations: [2, 3, 4],
   methods: [{ name: 'cs-tv', iterations: 200 }],
-  seeds: 2,
-};
+});
 
 /** Near-free cells (16², zero-filled), so the queue's own cost per cell shows: 4 R × 10 seeds + 10 = 50 cells. */
-const lightPlan = {
+const lightPlan = smallPlanBody({
   source: { phantom: 'shepp-logan' },
   matrix: { nx: 16, ny: 16 },
-  protocol: { trMs: 500 },
   patterns: [{ pattern: 'cartesian-uniform' }],
   accelerations: [2, 3, 4, 5],
-  methods: [{ name: 'zero-filled' }],
   seeds: 10,
-};
+});
 
 /** Wall time of one plan from submit to done, and its cell count. */
 async function planSeconds(options: AppOptions, body: unknown): Promise<{ seconds: number; cells: number }> {
