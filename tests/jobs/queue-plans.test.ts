@@ -1,5 +1,6 @@
 import { readFileSync } from 'node:fs';
 import type { AddressInfo } from 'node:net';
+import { createParser, type EventSourceMessage } from 'eventsource-parser';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { type TestApp, testApp, uploadFile } from '../api/helpers.ts';
 import { type Child, type RedisServer, startRedis, startWorker } from './redis-process.ts';
@@ -89,8 +90,21 @@ describe('plans on the Redis job queue with worker processes', () => {
     try {
       const health = await t.http().get('/health');
       expect(health.body.cellQueue).toMatchObject({ kind: 'redis', reachable: true, workerProcesses: 2 });
+      await t.app.listen({ port: 0, host: '127.0.0.1' });
+      const port = (t.app.server.address() as AddressInfo).port;
       const res = await t.http().post('/v1/plans').send(plan);
       expect(res.status).toBe(202);
+      // Progress reaches the event stream (WHATWG SSE, read with eventsource-parser) as cells come back.
+      const stream = await fetch(`http://127.0.0.1:${port}/v1/plans/${res.body.id}/events`);
+      const events: EventSourceMessage[] = [];
+      const parser = createParser({ onEvent: (event) => events.push(event) });
+      const decoder = new TextDecoder();
+      for await (const chunk of stream.body as unknown as AsyncIterable<Uint8Array>) {
+        parser.feed(decoder.decode(chunk, { stream: true }));
+      }
+      expect(events.at(-1)?.event).toBe('done');
+      const progress = events.filter((e) => e.event === 'progress').map((e) => JSON.parse(e.data).done);
+      expect(progress.at(-1)).toBe(totalCells);
       const done = await waitFor(t, res.body.id, finished);
       expect(done.status).toBe('done');
       expect(done.progress).toMatchObject({ done: totalCells, total: totalCells });
