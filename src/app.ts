@@ -24,14 +24,17 @@ import { rawRoutes } from '../routes/raw.ts';
 import { reconstructionRoutes } from '../routes/reconstructions.ts';
 import { resultRoutes } from '../routes/results.ts';
 import { scanTimeRoutes } from '../routes/scan-time.ts';
+import { workerInputRoutes } from '../routes/worker-inputs.ts';
 import { defaultLimits, type Limits } from './core/limits.ts';
 import { installApiKeyAuth } from './http/auth.ts';
 import { installErrorHandling } from './http/error-handler.ts';
 import { clientErrorHandler, frameworkErrorHandler } from './http/framework-errors.ts';
 import { swaggerOptions, swaggerUiOptions } from './http/openapi.ts';
 import { type Tenancy, tenancyOf } from './http/tenant.ts';
+import { type CellRunner, LocalCellRunner } from './jobs/cell-runner.ts';
 import { DataLifecycle, defaultRetention, type RetentionPolicy } from './jobs/lifecycle.ts';
 import { type PlanEngine, PlanQueue } from './jobs/plan-queue.ts';
+import type { QueueSettings } from './jobs/queue-connection.ts';
 import { Store } from './jobs/store.ts';
 import { WorkerPool } from './jobs/worker-pool.ts';
 import { buildTable, planCells } from './plan/index.ts';
@@ -71,12 +74,21 @@ export interface AppOptions {
   retention?: Partial<RetentionPolicy>;
   /** Each API key sees and deletes only what it created (needs apiKeys). */
   tenantIsolation?: boolean;
+  /**
+   * Plan cells on a Redis job queue (QUEUE_URL) for `npm run worker` processes instead of the
+   * worker threads; `planConcurrency` caps one plan's cells in the queue at once (default 8).
+   */
+  queue?: QueueSettings & { planConcurrency?: number };
+  /** The worker processes' key for the uploads their cells name (needed with apiKeys). */
+  workerKey?: string;
 }
 
 export interface Services {
   store: Store;
   pool: WorkerPool;
   plans: PlanQueue;
+  /** Where plan cells run: the worker threads, or the Redis job queue. */
+  cells: CellRunner;
   /** Deletion cascades and the retention policy. */
   lifecycle: DataLifecycle;
   /** The caller's owner digest and what it may see (tenant isolation). */
@@ -181,11 +193,25 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
   const pool = new WorkerPool(workers, options.maxRequestTasks ?? 8 * workers);
   const engine = options.planEngine ?? defaultPlanEngine;
   const deps = { pool, store, limits };
+  let cells: CellRunner;
+  try {
+    cells = options.queue
+      ? await (await import('./jobs/queue-cell-runner.ts')).QueueCellRunner.open(
+          options.queue,
+          options.queue.planConcurrency ?? 8,
+          app.log,
+        )
+      : new LocalCellRunner(pool);
+  } catch (error) {
+    await pool.destroy();
+    store.close();
+    throw error;
+  }
   const reconstructions = new ReconstructionService(deps);
   // Each plan row keeps its seed-1 reconstruction as a result of the plan (images to open from the table).
   const plans = new PlanQueue(
     store,
-    pool,
+    cells,
     engine,
     limits,
     options.maxQueuedPlans ?? 16,
@@ -198,6 +224,7 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
     store,
     pool,
     plans,
+    cells,
     lifecycle,
     tenancy,
     limits,
@@ -214,6 +241,7 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
   app.addHook('onClose', async () => {
     lifecycle.stop();
     await plans.close();
+    await cells.close();
     await pool.destroy();
     store.close();
   });
@@ -225,6 +253,9 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
       limits: { fileSize: limits.maxUploadBytes, files: 1, fields: 8, parts: 9, fieldSize: 1024 },
     });
     for (const plugin of openPlugins) await app.register(plugin);
+    if (options.queue) {
+      await app.register(workerInputRoutes({ apiKeys: options.apiKeys ?? [], workerKey: options.workerKey }));
+    }
     await app.register(async (api) => {
       installApiKeyAuth(api, options.apiKeys ?? []);
       for (const plugin of apiPlugins) await api.register(plugin);
@@ -236,7 +267,8 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
     }
     await app.ready();
   } catch (error) {
-    // Do not leave worker threads or the database open behind a failed start.
+    // Do not leave worker threads, the queue or the database open behind a failed start.
+    await cells.close();
     await pool.destroy();
     store.close();
     throw error;

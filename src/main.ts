@@ -23,6 +23,8 @@ const app = await buildApp({
   maxRequestTasks: config.maxRequestTasks,
   retention: config.retention,
   tenantIsolation: config.tenantIsolation,
+  ...(config.queue ? { queue: config.queue } : {}),
+  ...(config.workerKey ? { workerKey: config.workerKey } : {}),
 });
 
 // Finish the request in flight and leave queued/running plans in the store to resume on restart.

@@ -1,6 +1,7 @@
 import { availableParallelism } from 'node:os';
 import { resolve } from 'node:path';
 import { defaultLimits, type Limits, MAX_KSPACE_POINTS_CEILING } from '../core/limits.ts';
+import type { QueueSettings } from '../jobs/queue-connection.ts';
 
 /** Everything the service reads from its environment, with safe defaults. */
 export interface ServiceConfig {
@@ -23,6 +24,10 @@ export interface ServiceConfig {
   retention: { maxAgeHours: number; maxBytes: number; intervalMs: number };
   /** Each API key sees and deletes only what it created. */
   tenantIsolation: boolean;
+  /** QUEUE_URL set: plan cells go to that Redis queue for `npm run worker` processes. */
+  queue?: QueueSettings & { planConcurrency: number };
+  /** WORKER_KEY: the worker processes' key for the uploads their cells name. */
+  workerKey?: string;
 }
 
 export class ConfigError extends Error {
@@ -36,7 +41,13 @@ export function isLoopbackHost(host: string): boolean {
   return loopbackHosts.has(host) || /^127\.\d+\.\d+\.\d+$/.test(host);
 }
 
-function integer(env: NodeJS.ProcessEnv, name: string, fallback: number, min: number, max: number): number {
+export function integer(
+  env: NodeJS.ProcessEnv,
+  name: string,
+  fallback: number,
+  min: number,
+  max: number,
+): number {
   const raw = env[name];
   if (raw === undefined || raw.trim() === '') return fallback;
   const value = Number(raw);
@@ -51,6 +62,26 @@ function flag(env: NodeJS.ProcessEnv, name: string): boolean {
   if (raw === undefined || raw === '' || raw === 'false' || raw === '0') return false;
   if (raw === 'true' || raw === '1') return true;
   throw new ConfigError(`${name} must be true or false, got "${env[name]}"`);
+}
+
+/** QUEUE_URL (redis:// or rediss://, password in the URL) and QUEUE_TLS_CA_FILE; undefined when unset. */
+export function queueSettings(env: NodeJS.ProcessEnv): QueueSettings | undefined {
+  const raw = env.QUEUE_URL?.trim();
+  if (!raw) return undefined;
+  let url: URL;
+  try {
+    url = new URL(raw);
+  } catch {
+    throw new ConfigError('QUEUE_URL must be a URL such as redis://:password@host:6379');
+  }
+  if (url.protocol !== 'redis:' && url.protocol !== 'rediss:') {
+    throw new ConfigError(`QUEUE_URL must start with redis:// or rediss:// (TLS), got ${url.protocol}//`);
+  }
+  const tlsCaFile = env.QUEUE_TLS_CA_FILE?.trim();
+  if (tlsCaFile && url.protocol !== 'rediss:') {
+    throw new ConfigError('QUEUE_TLS_CA_FILE needs a rediss:// QUEUE_URL');
+  }
+  return { url: raw, ...(tlsCaFile ? { tlsCaFile } : {}) };
 }
 
 /** Reads the configuration from environment variables (documented in README.md). */
@@ -70,6 +101,11 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): ServiceConfig 
     throw new ConfigError('TENANT_ISOLATION=true needs API_KEYS: each key is a tenant');
   }
   const workers = integer(env, 'WORKERS', availableParallelism(), 1, 256);
+  const queue = queueSettings(env);
+  const workerKey = env.WORKER_KEY?.trim() || undefined;
+  if (workerKey && apiKeys.includes(workerKey)) {
+    throw new ConfigError('WORKER_KEY must differ from every API key: it reads uploads across tenants');
+  }
   return {
     port: integer(env, 'PORT', 8080, 0, 65535),
     host,
@@ -99,5 +135,9 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): ServiceConfig 
       intervalMs: 1000 * integer(env, 'RETENTION_INTERVAL_SECONDS', 600, 1, 86_400),
     },
     tenantIsolation,
+    ...(queue
+      ? { queue: { ...queue, planConcurrency: integer(env, 'PLAN_CELL_CONCURRENCY', 8, 1, 10_000) } }
+      : {}),
+    ...(workerKey ? { workerKey } : {}),
   };
 }

@@ -12,10 +12,10 @@ import {
   ProgressClock,
   runPlanCells,
 } from '../plan/index.ts';
+import { CellFailedError, type CellRunner } from './cell-runner.ts';
 import type { JobLog } from './job-log.ts';
 import type { InputRef, PlanFailure, PlanStatus, Store, StoredPlan } from './store.ts';
 import type { ScoredOutcome, UploadedCoilMaps, UploadedPixels, UploadedRawKspace } from './tasks.ts';
-import type { WorkerPool } from './worker-pool.ts';
 
 /** The plan engine as the queue needs it (src/plan: planCells, buildTable; runCell runs in the workers). */
 export interface PlanEngine {
@@ -46,8 +46,8 @@ interface ActivePlan {
 }
 
 /**
- * A bounded FIFO of plans. One plan runs at a time, its cells spread over every worker thread by
- * src/plan's runPlanCells; each finished cell is written to the store before it counts, so a restart
+ * A bounded FIFO of plans. One plan runs at a time, its cells spread by src/plan's runPlanCells over
+ * a CellRunner (the worker threads, or worker processes behind QUEUE_URL); each finished cell is written to the store before it counts, so a restart
  * resumes after the last finished cell. Emits 'progress' (PlanEvent) after every cell and on every
  * status change.
  */
@@ -59,7 +59,7 @@ export class PlanQueue extends EventEmitter {
 
   constructor(
     private readonly store: Store,
-    private readonly pool: WorkerPool,
+    private readonly cells: CellRunner,
     private readonly engine: PlanEngine,
     private readonly limits: Limits,
     private readonly capacity: number,
@@ -101,6 +101,9 @@ export class PlanQueue extends EventEmitter {
     if (index < 0) return false;
     const [plan] = this.active.splice(index, 1);
     plan.controller.abort();
+    this.cells
+      .cancelPlan(id)
+      .catch((error) => this.log?.error({ err: error, planId: id }, 'cancelling queued cells failed'));
     this.store.setPlanStatus(id, 'cancelled');
     this.emitProgress(plan, 'cancelled');
     return true;
@@ -121,7 +124,7 @@ export class PlanQueue extends EventEmitter {
   retryAfterSeconds(): number {
     const perCell = this.secondsPerCell ?? 1;
     const remaining = this.active.length > 0 ? this.active[0].total - this.active[0].done : 1;
-    return Math.min(3600, Math.max(1, Math.ceil((remaining * perCell) / this.pool.size)));
+    return Math.min(3600, Math.max(1, Math.ceil((remaining * perCell) / this.cells.parallelism)));
   }
 
   /** Stops work without marking plans cancelled: they stay queued/running in the store and resume. */
@@ -184,7 +187,7 @@ export class PlanQueue extends EventEmitter {
             limits: this.limits,
             ...(keepOutcome ? { keepOutcome } : {}),
           };
-          const { result, outcome } = await this.pool.run('cell', input, signal);
+          const { result, outcome } = await this.cells.run(active.id, input, signal);
           if (outcome && this.keepRowResult && !signal.aborted) {
             const resultId = await this.keepRowResult(active.id, outcome);
             if (resultId !== undefined) result.resultId = resultId;
@@ -194,7 +197,7 @@ export class PlanQueue extends EventEmitter {
             this.secondsPerCell === null ? seconds : 0.8 * this.secondsPerCell + 0.2 * seconds;
           return result;
         },
-        concurrency: this.pool.size,
+        concurrency: this.cells.concurrency,
         signal,
         finished,
         clock: active.clock,
@@ -254,6 +257,15 @@ export class PlanQueue extends EventEmitter {
 
 /** What a failed plan stores: bad values name their fields (422); anything else is the service's fault. */
 function planFailure(error: unknown): PlanFailure {
+  if (error instanceof CellFailedError) {
+    const detail = boundEcho(error.message, MAX_DETAIL_CHARS);
+    return {
+      status: 500,
+      kind: 'internal',
+      detail,
+      errors: [{ field: `cells[${error.cellIndex}]`, message: detail }],
+    };
+  }
   if (error instanceof ValidationError) {
     // Stored with the plan: bounded like every problem the HTTP layer sends.
     return {
