@@ -2,6 +2,7 @@
 // tradeoff plot and table the service computed (Pareto front and recommendation included).
 
 import { apiKey, deleteResource, getJson, postJson } from './api.js';
+import { planCoilArrays } from './coil-array.js';
 import { offerResource } from './downloads.js';
 import { planPoints, renderPlanTable } from './plan-table.js';
 import { hideRowImages, showRowImages } from './row-images.js';
@@ -76,6 +77,11 @@ export class PlanRun {
     };
     const noise = setup.noise();
     if (noise) body.noise = noise;
+    // One uniform coil is the service's default: a plan without an array is sent as before.
+    const coilArrays = planCoilArrays(setup.coils(), byId('planCompareUniform').checked);
+    if (coilArrays.length > 1 || coilArrays[0].array !== 'uniform') body.coilArrays = coilArrays;
+    const gMax = byId('targetGMax').value.trim();
+    if (gMax !== '') body.targets = [{ metric: 'gFactorMax', atMost: Number(gMax) }];
     return body;
   }
 

@@ -4,6 +4,8 @@
 
 import { getBlob, pageRelative, postForBlob, postJson } from './api.js';
 import { offerBlob, offerResource, withdraw } from './downloads.js';
+import { isUniform } from './coil-array.js';
+import { clearCoilResults, showCoilResults } from './coil-results.js';
 import { colouredErrorPng, drawColourBar, errorLevels } from './error-map.js';
 import { formatNumber, showNumber } from './format.js';
 import { ImageDialog } from './image-dialog.js';
@@ -15,7 +17,7 @@ const byId = (id) => document.getElementById(id);
 const numberCell = (key) => document.querySelector(`[data-key="${key}"]`);
 
 /** <img> ids of the images that zoom and pan together (one matrix, one object). */
-const linkedImages = ['imgReconstruction', 'imgZeroFilled', 'imgReference', 'imgErrorMap'];
+const linkedImages = ['imgReconstruction', 'imgZeroFilled', 'imgReference', 'imgErrorMap', 'imgGFactor'];
 /** <img> ids of the k-space views, enlarged on their own. */
 const ownImages = ['imgMask', 'imgPsf'];
 
@@ -222,6 +224,7 @@ export class SingleRun {
       cell.textContent = '–';
     }
     showNotes([]);
+    clearCoilResults();
     byId('singleDownloads').hidden = true;
     for (const link of byId('singleDownloads').querySelectorAll('a')) withdraw(link);
     this.errors = null;
@@ -262,6 +265,9 @@ export class SingleRun {
     };
     const noise = setup.noise();
     if (noise) body.noise = noise;
+    // The single uniform coil is the service's default: left out, the request stays as it was.
+    const coils = setup.coils();
+    if (!isUniform(coils)) body.coils = coils;
     const maskBody = { matrix: body.matrix, sampling: body.sampling };
     const [outcome, mask, maskPng, [full, under, withoutPartialFourier]] = await Promise.all([
       postJson('v1/reconstructions', body),
@@ -288,6 +294,7 @@ export class SingleRun {
     ]);
     showMaskNumbers(mask);
     showMetrics(outcome);
+    await showCoilResults(outcome);
     showScanTimes(full, under, withoutPartialFourier);
     await this.offerDownloads(outcome, maskPng);
     this.lastOutcome = outcome;

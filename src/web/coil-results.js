@@ -1,0 +1,76 @@
+// What a reconstruction answers about its receive array (docs/design.md §3.8): the sensitivity montage
+// (coil-maps.png), the g-factor map beside the error map, and their numbers, straight from the
+// service's answer. A single-coil answer has none of them and the section stays hidden.
+
+import { getBlob, pageRelative } from './api.js';
+import { formatNumber, showNumber } from './format.js';
+
+const byId = (id) => document.getElementById(id);
+const numberCell = (key) => document.querySelector(`#coilNumbers [data-key="${key}"]`);
+
+async function showImage(id, url) {
+  const img = byId(id);
+  const blob = await getBlob(pageRelative(url), 'image/png');
+  const previous = img.src;
+  img.src = URL.createObjectURL(blob);
+  if (previous.startsWith('blob:')) URL.revokeObjectURL(previous);
+  await img.decode();
+  img.hidden = false;
+}
+
+function hideImage(id) {
+  const img = byId(id);
+  if (img.src.startsWith('blob:')) URL.revokeObjectURL(img.src);
+  img.removeAttribute('src');
+  img.hidden = true;
+}
+
+/** Hides the coil section and the g-factor figure and blanks their numbers. */
+export function clearCoilResults() {
+  hideImage('imgCoilMaps');
+  hideImage('imgGFactor');
+  byId('gFactorFigure').hidden = true;
+  byId('resultFigures').classList.remove('with-g');
+  for (const cell of document.querySelectorAll('#coilNumbers [data-key]')) {
+    delete cell.dataset.value;
+    cell.textContent = '–';
+  }
+  byId('coilResultsLabel').textContent = '';
+  byId('coilResultsNote').textContent = '';
+  byId('coilResults').hidden = true;
+}
+
+/** Shows the array's answer: montage, g-factor map and numbers, where the service gave them. */
+export async function showCoilResults(outcome) {
+  clearCoilResults();
+  const coils = outcome.coils;
+  const g = outcome.gFactor;
+  if (!coils && !g) return;
+  const images = outcome.images ?? {};
+  const loads = [];
+  if (images.coilMaps) loads.push(showImage('imgCoilMaps', images.coilMaps));
+  if (images.gFactor) {
+    byId('gFactorFigure').hidden = false;
+    byId('resultFigures').classList.add('with-g');
+    loads.push(showImage('imgGFactor', images.gFactor));
+  }
+  await Promise.all(loads);
+  byId('coilResultsLabel').textContent = coils?.label ?? '';
+  const count = numberCell('coils.count');
+  showNumber(count, coils?.count, 'count');
+  if (typeof coils?.count === 'number') count.textContent = String(coils.count);
+  showNumber(numberCell('coils.fitError'), coils?.fitError, 'fraction');
+  showNumber(numberCell('g.mean'), g?.mean, 'g');
+  showNumber(numberCell('g.p95'), g?.p95, 'g');
+  showNumber(numberCell('g.max'), g?.max, 'g');
+  const method = numberCell('g.method');
+  method.textContent = g
+    ? `${g.method}${typeof g.replicas === 'number' ? ` (${g.replicas} replicas)` : ''}`
+    : 'not given';
+  showNumber(numberCell('snr.mean'), outcome.snrRetained?.mean, 'fraction');
+  showNumber(numberCell('snr.min'), outcome.snrRetained?.min, 'fraction');
+  byId('coilResultsNote').textContent = g
+    ? `g from the maps this reconstruction used, over the object; SNR retained = 1/(g·√R), e.g. mean ${formatNumber(outcome.snrRetained?.mean, 'fraction')}.`
+    : 'The service gives no g-factor for this method and mask (analytic only for SENSE on a uniform lattice).';
+  byId('coilResults').hidden = false;
+}
