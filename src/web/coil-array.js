@@ -111,14 +111,15 @@ export function drawCoilPicture(svg, spec) {
   const a = spec.array === 'loops' ? (spec.loopRadius ?? 0) : 0;
   const width = spec.array === 'gaussian' ? (spec.width ?? 0) : 0;
   const ring = geometry.length ? spec.ringRadius : 0;
-  const extent = 1.08 * Math.max(1, ring + Math.max(a, 0.06));
+  const extent = 1.08 * Math.max(1, ring + Math.max(a, 0.2));
   svg.setAttribute('viewBox', `${-extent} ${-extent} ${2 * extent} ${2 * extent}`);
   const parts = [
     svgElement('rect', { class: 'coil-fov', x: -1, y: -1, width: 2, height: 2 }),
     svgElement('line', { class: 'coil-axis', x1: -1, y1: 0, x2: 1, y2: 0 }),
     svgElement('line', { class: 'coil-axis', x1: 0, y1: -1, x2: 0, y2: 1 }),
   ];
-  if (geometry.length && ring > 0) parts.push(svgElement('circle', { class: 'coil-ring', cx: 0, cy: 0, r: ring }));
+  if (geometry.length && ring > 0)
+    parts.push(svgElement('circle', { class: 'coil-ring', cx: 0, cy: 0, r: ring }));
   geometry.forEach(({ x, y, tx, ty }, c) => {
     const title = svgElement('title', {});
     if (spec.array === 'loops') {
@@ -151,9 +152,9 @@ export function drawCoilPicture(svg, spec) {
     }
   });
   if (geometry.length) {
-    // Coil 1 is marked, so the order of the montage tiles can be read off the picture.
+    // Coil 1 (at the top) is numbered just outside the ring, so the montage's tile order can be read off.
     const { x, y } = geometry[0];
-    const label = svgElement('text', { class: 'coil-first', x: r4(x + 0.08), y: r4(-y - 0.08) });
+    const label = svgElement('text', { class: 'coil-first', x: r4(x), y: r4(-y - 0.1) });
     label.textContent = '1';
     parts.push(label);
   }
@@ -164,7 +165,8 @@ export function drawCoilPicture(svg, spec) {
 /** A sentence under the picture: what is drawn, or why nothing is. */
 function pictureCaption(spec) {
   if ('mapsId' in spec) return 'Uploaded maps: the coil positions are not known to the page.';
-  if (spec.array === 'uniform') return 'One coil with S = 1 over the field of view (the single-coil acquisition).';
+  if (spec.array === 'uniform')
+    return 'One coil with S = 1 over the field of view (the single-coil acquisition).';
   const drawn = coilGeometry(spec).length;
   if (!drawn) return 'Enter a coil count (1–32) and a ring radius to see the array.';
   if (spec.array === 'loops')

@@ -3,7 +3,7 @@
 // service's answer. A single-coil answer has none of them and the section stays hidden.
 
 import { getBlob, pageRelative } from './api.js';
-import { formatNumber, showNumber } from './format.js';
+import { showNumber } from './format.js';
 
 const byId = (id) => document.getElementById(id);
 const numberCell = (key) => document.querySelector(`#coilNumbers [data-key="${key}"]`);
@@ -56,10 +56,9 @@ export async function showCoilResults(outcome) {
   }
   await Promise.all(loads);
   byId('coilResultsLabel').textContent = coils?.label ?? '';
-  const count = numberCell('coils.count');
-  showNumber(count, coils?.count, 'count');
-  if (typeof coils?.count === 'number') count.textContent = String(coils.count);
-  showNumber(numberCell('coils.fitError'), coils?.fitError, 'fraction');
+  showNumber(numberCell('coils.count'), coils?.count, 'count');
+  // A relative ℓ2 distance, shown to the decimals of NRMSE.
+  showNumber(numberCell('coils.fitError'), coils?.fitError, 'nrmse');
   showNumber(numberCell('g.mean'), g?.mean, 'g');
   showNumber(numberCell('g.p95'), g?.p95, 'g');
   showNumber(numberCell('g.max'), g?.max, 'g');
@@ -70,7 +69,7 @@ export async function showCoilResults(outcome) {
   showNumber(numberCell('snr.mean'), outcome.snrRetained?.mean, 'fraction');
   showNumber(numberCell('snr.min'), outcome.snrRetained?.min, 'fraction');
   byId('coilResultsNote').textContent = g
-    ? `g from the maps this reconstruction used, over the object; SNR retained = 1/(g·√R), e.g. mean ${formatNumber(outcome.snrRetained?.mean, 'fraction')}.`
+    ? 'g from the maps this reconstruction used, over the object; SNR retained = 1/(g·√R) against the fully sampled scan.'
     : 'The service gives no g-factor for this method and mask (analytic only for SENSE on a uniform lattice).';
   byId('coilResults').hidden = false;
 }

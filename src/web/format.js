@@ -12,6 +12,7 @@ const decimalsByKind = {
   ms: 0,
   seconds: 1,
   percent: 1,
+  count: 0,
   g: 3,
 };
 

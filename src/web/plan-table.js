@@ -79,7 +79,8 @@ function columnsFor(targetMetric, rows = []) {
     },
     {
       label: 'g max',
-      title: 'Largest g-factor over the object, mean over seeds (blank: no g-factor for this method and mask)',
+      title:
+        'Largest g-factor over the object, mean over seeds (blank: no g-factor for this method and mask)',
       path: 'gFactorMax',
       kind: 'g',
       secondary: !withG,

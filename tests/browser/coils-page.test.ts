@@ -27,9 +27,7 @@ const offOrigin: string[] = [];
 const pageErrors: string[] = [];
 
 function waitForApi(path: string, method = 'POST'): Promise<Response> {
-  return page.waitForResponse(
-    (r) => r.request().method() === method && new URL(r.url()).pathname === path,
-  );
+  return page.waitForResponse((r) => r.request().method() === method && new URL(r.url()).pathname === path);
 }
 
 async function chooseEightLoops(): Promise<void> {
