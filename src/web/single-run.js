@@ -3,9 +3,9 @@
 // An error clears everything shown before, so no old image or number stands beside the message.
 
 import { getBlob, pageRelative, postForBlob, postJson } from './api.js';
-import { offerBlob, offerResource, withdraw } from './downloads.js';
 import { isUniform } from './coil-array.js';
 import { clearCoilResults, showCoilResults } from './coil-results.js';
+import { offerBlob, offerResource, withdraw } from './downloads.js';
 import { colouredErrorPng, drawColourBar, errorLevels } from './error-map.js';
 import { formatNumber, showNumber } from './format.js';
 import { ImageDialog } from './image-dialog.js';
