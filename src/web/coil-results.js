@@ -30,7 +30,7 @@ export function clearCoilResults() {
   hideImage('imgCoilMaps');
   hideImage('imgGFactor');
   byId('gFactorFigure').hidden = true;
-  byId('resultFigures').classList.remove('with-g');
+  byId('resultRow').classList.remove('with-g');
   for (const cell of document.querySelectorAll('#coilNumbers [data-key]')) {
     delete cell.dataset.value;
     cell.textContent = '–';
@@ -51,7 +51,7 @@ export async function showCoilResults(outcome) {
   if (images.coilMaps) loads.push(showImage('imgCoilMaps', images.coilMaps));
   if (images.gFactor) {
     byId('gFactorFigure').hidden = false;
-    byId('resultFigures').classList.add('with-g');
+    byId('resultRow').classList.add('with-g');
     loads.push(showImage('imgGFactor', images.gFactor));
   }
   await Promise.all(loads);
