@@ -26,31 +26,17 @@ function numberOf(id) {
 export function coilSpec() {
   const array = byId('coilArray').value;
   if (array === 'maps') return { mapsId: byId('coilMapsId').value.trim() };
-  if (array === 'loops') {
-    const spec = {
-      array,
-      count: numberOf('coilCount'),
-      loopRadius: numberOf('coilLoopRadius'),
-      ringRadius: numberOf('coilRingRadius'),
-    };
-    const correlation = numberOf('coilCorrelation');
-    if (correlation !== undefined) spec.correlation = correlation;
-    const tiltDeg = numberOf('coilTilt');
-    if (tiltDeg !== undefined) spec.tiltDeg = tiltDeg;
-    return spec;
-  }
-  if (array === 'gaussian') {
-    const spec = {
-      array,
-      count: numberOf('coilCount'),
-      width: numberOf('coilWidth'),
-      ringRadius: numberOf('coilRingRadius'),
-    };
-    const correlation = numberOf('coilCorrelation');
-    if (correlation !== undefined) spec.correlation = correlation;
-    return spec;
-  }
-  return { array: 'uniform' };
+  if (array !== 'loops' && array !== 'gaussian') return { array: 'uniform' };
+  // Both ring arrays: count, their own size (loop radius or profile width), ring radius, ρ.
+  const spec = { array, count: numberOf('coilCount') };
+  if (array === 'loops') spec.loopRadius = numberOf('coilLoopRadius');
+  else spec.width = numberOf('coilWidth');
+  spec.ringRadius = numberOf('coilRingRadius');
+  const correlation = numberOf('coilCorrelation');
+  if (correlation !== undefined) spec.correlation = correlation;
+  const tiltDeg = numberOf('coilTilt');
+  if (array === 'loops' && tiltDeg !== undefined) spec.tiltDeg = tiltDeg;
+  return spec;
 }
 
 export function isUniform(spec) {

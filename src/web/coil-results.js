@@ -3,26 +3,14 @@
 // service's answer. A single-coil answer has none of them and the section stays hidden.
 
 import { getBlob, pageRelative } from './api.js';
+import { hideImage, showBlob } from './blob-image.js';
 import { showNumber } from './format.js';
 
 const byId = (id) => document.getElementById(id);
 const numberCell = (key) => document.querySelector(`#coilNumbers [data-key="${key}"]`);
 
 async function showImage(id, url) {
-  const img = byId(id);
-  const blob = await getBlob(pageRelative(url), 'image/png');
-  const previous = img.src;
-  img.src = URL.createObjectURL(blob);
-  if (previous.startsWith('blob:')) URL.revokeObjectURL(previous);
-  await img.decode();
-  img.hidden = false;
-}
-
-function hideImage(id) {
-  const img = byId(id);
-  if (img.src.startsWith('blob:')) URL.revokeObjectURL(img.src);
-  img.removeAttribute('src');
-  img.hidden = true;
+  await showBlob(id, await getBlob(pageRelative(url), 'image/png'));
 }
 
 /** Hides the coil section and the g-factor figure and blanks their numbers. */

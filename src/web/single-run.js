@@ -3,6 +3,7 @@
 // An error clears everything shown before, so no old image or number stands beside the message.
 
 import { getBlob, pageRelative, postForBlob, postJson } from './api.js';
+import { hideImage, showBlob } from './blob-image.js';
 import { isUniform } from './coil-array.js';
 import { clearCoilResults, showCoilResults } from './coil-results.js';
 import { offerBlob, offerResource, withdraw } from './downloads.js';
@@ -20,23 +21,6 @@ const numberCell = (key) => document.querySelector(`[data-key="${key}"]`);
 const linkedImages = ['imgReconstruction', 'imgZeroFilled', 'imgReference', 'imgErrorMap', 'imgGFactor'];
 /** <img> ids of the k-space views, enlarged on their own. */
 const ownImages = ['imgMask', 'imgPsf'];
-
-/** Shows a PNG blob in an <img>, releasing the blob URL it showed before. */
-async function showBlob(id, blob) {
-  const img = byId(id);
-  const previous = img.src;
-  img.src = URL.createObjectURL(blob);
-  if (previous.startsWith('blob:')) URL.revokeObjectURL(previous);
-  await img.decode();
-  img.hidden = false;
-}
-
-function hideImage(id) {
-  const img = byId(id);
-  if (img.src.startsWith('blob:')) URL.revokeObjectURL(img.src);
-  img.removeAttribute('src');
-  img.hidden = true;
-}
 
 function showAcquired(cell, acquired, total) {
   if (!acquired) return showNumber(cell, null);

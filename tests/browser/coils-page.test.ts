@@ -203,7 +203,7 @@ describe('receive arrays on the planner page', () => {
       );
       expect(header).toContainEqual(['Coils', false]);
       const shown = await page.$$eval('#planTable tbody tr', (trs) =>
-        trs.map((tr) => [...tr.querySelectorAll('td')][2].textContent),
+        trs.map((tr) => Array.from(tr.querySelectorAll('td'))[2].textContent),
       );
       expect(shown).toEqual(plan.table.rows.map((row: { coils: string }) => row.coils));
       expect(new Set(shown)).toEqual(new Set(['8 loops', 'uniform']));
