@@ -12,6 +12,8 @@ const decimalsByKind = {
   ms: 0,
   seconds: 1,
   percent: 1,
+  count: 0,
+  g: 3,
 };
 
 export function formatNumber(value, kind) {

@@ -2,6 +2,7 @@
 // tradeoff plot and table the service computed (Pareto front and recommendation included).
 
 import { apiKey, deleteResource, getJson, postJson } from './api.js';
+import { planCoilArrays } from './coil-array.js';
 import { offerResource } from './downloads.js';
 import { lesionsPiece, taskTargets } from './lesion-form.js';
 import { planPoints, renderPlanTable } from './plan-table.js';
@@ -78,12 +79,18 @@ export class PlanRun {
     };
     const noise = setup.noise();
     if (noise) body.noise = noise;
+    const targets = [];
     const lesions = lesionsPiece();
     if (lesions) {
       body.lesions = lesions;
-      const targets = taskTargets();
-      if (targets.length > 0) body.targets = targets;
+      targets.push(...taskTargets());
     }
+    // One uniform coil is the service's default: a plan without an array is sent as before.
+    const coilArrays = planCoilArrays(setup.coils(), byId('planCompareUniform').checked);
+    if (coilArrays.length > 1 || coilArrays[0].array !== 'uniform') body.coilArrays = coilArrays;
+    const gMax = byId('targetGMax').value.trim();
+    if (gMax !== '') targets.push({ metric: 'gFactorMax', atMost: Number(gMax) });
+    if (targets.length > 0) body.targets = targets;
     return body;
   }
 

@@ -34,11 +34,20 @@ function metricColumn({ metric, label, kind }, secondary) {
  * Columns: header, hover definition, the row field shown (dotted path), its number kind or a text
  * renderer, and whether it is secondary. The target metric's column sits beside the scan time.
  */
-function columnsFor(targetMetric, rows) {
+function columnsFor(targetMetric, rows = []) {
   const target = metricColumns.find((c) => c.metric === targetMetric) ?? metricColumns[0];
+  // The array and g columns are key columns only when the plan has a receive array or a g-factor.
+  const arrays = !rows.every((row) => (row.coils ?? 'uniform') === 'uniform');
+  const withG = rows.some((row) => typeof row.gFactorMax === 'number');
   return [
     { label: 'Pattern', title: 'Sampling pattern', text: (row) => row.pattern, sticky: true },
     { label: 'Method', title: 'Reconstruction method', text: (row) => row.method },
+    {
+      label: 'Coils',
+      title: 'Receive array of the row (its label and coil count)',
+      text: (row) => row.coils ?? '',
+      secondary: !arrays,
+    },
     {
       label: 'R',
       title: 'Requested acceleration R (fully sampled count ÷ acquired count)',
@@ -70,6 +79,27 @@ function columnsFor(targetMetric, rows) {
       label: 'Meets target',
       title: 'The means meet every target (the metric target and any task-score targets)',
       text: (row) => (row.meetsTarget === null ? '' : row.meetsTarget ? 'yes' : 'no'),
+    },
+    {
+      label: 'g max',
+      title:
+        'Largest g-factor over the object, mean over seeds (blank: no g-factor for this method and mask)',
+      path: 'gFactorMax',
+      kind: 'g',
+      secondary: !withG,
+    },
+    {
+      label: 'g mean',
+      title: 'Mean g-factor over the object, mean over seeds',
+      path: 'gFactorMean',
+      kind: 'g',
+      secondary: true,
+    },
+    {
+      label: 'g method',
+      title: 'How g was found: analytic (SENSE on a uniform lattice) or pseudo-replica',
+      text: (row) => row.gFactorMethod ?? '',
+      secondary: true,
     },
     {
       label: 'TE eff (ms)',
@@ -197,7 +227,12 @@ export function renderPlanTable(table, plan) {
 }
 
 /** One sentence per row for the plot's hover box and its list of points. */
-function describeRow(row, metric, picked) {
+/** A row's name in the plot: pattern and method, and its array when the plan sweeps several. */
+function seriesName(row, arrays) {
+  return `${row.pattern} · ${row.method}${arrays ? ` · ${row.coils}` : ''}`;
+}
+
+function describeRow(row, metric, picked, arrays) {
   const value = rowSummary(row, metric);
   const kind = [...metricColumns, ...taskColumns].find((c) => c.metric === metric)?.kind;
   const r = row.reference
@@ -210,7 +245,7 @@ function describeRow(row, metric, picked) {
     row.key === picked ? 'recommended' : '',
   ].filter(Boolean);
   return (
-    `${row.pattern} · ${row.method}, ${r}: scan ${row.scanFormatted} (${formatNumber(row.scanSeconds, 'seconds')} s), ` +
+    `${seriesName(row, arrays)}, ${r}: scan ${row.scanFormatted} (${formatNumber(row.scanSeconds, 'seconds')} s), ` +
     `saved ${formatNumber(row.timeSavedPct, 'percent')} %, ${metricLabel(metric)} ${formatMeanSd(value?.mean, value?.sd, kind)}` +
     (flags.length ? `; ${flags.join(', ')}` : '')
   );
@@ -224,6 +259,7 @@ export function planPoints(plan, metric) {
   const picked = recommendedKey(plan);
   const points = [];
   const offAxis = [];
+  const arrays = new Set((plan.table?.rows ?? []).map((row) => row.coils ?? 'uniform')).size > 1;
   for (const row of plan.table?.rows ?? []) {
     const y = rowSummary(row, metric)?.mean;
     if (typeof y !== 'number') {
@@ -232,14 +268,14 @@ export function planPoints(plan, metric) {
     }
     points.push({
       key: row.key,
-      series: row.reference ? 'fully sampled' : `${row.pattern} · ${row.method}`,
+      series: row.reference ? 'fully sampled' : seriesName(row, arrays),
       x: row.scanSeconds,
       y,
       R: row.reference ? 1 : row.requestedR,
       reference: Boolean(row.reference),
       pareto: Boolean(row.pareto) && !row.reference,
       recommended: row.key === picked,
-      describe: describeRow(row, metric, picked),
+      describe: describeRow(row, metric, picked, arrays),
     });
   }
   return { points, offAxis };

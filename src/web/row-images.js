@@ -76,8 +76,9 @@ export async function showRowImages(row, plan, problems, status) {
         const img = byId(imgId);
         img.src = URL.createObjectURL(await getBlob(pageRelative(url), 'image/png'));
         await img.decode();
-        img.hidden = false;
+        // The link first: an image on screen always has its download ready (with a key, a fetch).
         await offerResource(byId(linkId), url, 'image/png', `plan-${plan.id}-${row.key}-${key}.png`);
+        img.hidden = false;
       }),
     ]);
     showCellScores(result);

@@ -3,6 +3,7 @@
 
 import { largestSensibleAcs, suggestedAcs } from './acs-default.js';
 import { getJson, uploadImage } from './api.js';
+import { CoilPicker } from './coil-array.js';
 
 /** Draft protocols of the invented demo site (values are plausible, not taken from any real protocol). */
 export const protocolPresets = [
@@ -51,6 +52,7 @@ export class SetupForm {
     this.applyPreset(0);
     form.addEventListener('change', (event) => this.onChange(event));
     byId('nx').addEventListener('input', () => this.syncPartitions());
+    this.coilPicker = new CoilPicker(form);
     this.syncVisibility();
   }
 
@@ -241,6 +243,11 @@ export class SetupForm {
     return { name };
   }
 
+  /** The receive array (`coils` piece); { array: 'uniform' } is the service's default. */
+  coils() {
+    return this.coilPicker.spec();
+  }
+
   noise() {
     return byId('noiseOn').checked ? { snr: numberOf('snr') } : undefined;
   }
@@ -287,6 +294,10 @@ function controlForField(field) {
     dotted.replace(/^methods\.\d+\./, 'method.'),
     dotted.replace(/^accelerations\.\d+$/, 'accelerations'),
     dotted.replace(/^target\..*$/, 'target'),
+    dotted.replace(/^coilArrays\.\d+/, 'coils'),
+    dotted.replace(/^coilArrays\.\d+\..*$/, 'coils'),
+    dotted.replace(/^coils\..*$/, 'coils'),
+    dotted.replace(/^targets\..*$/, 'targets'),
   ];
   for (const candidate of candidates) {
     const control = document.querySelector(`[data-field="${CSS.escape(candidate)}"]`);

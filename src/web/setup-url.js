@@ -2,6 +2,8 @@
 // the control, so a copied link reproduces the setup and loading it restores the form. `plan=ID`
 // beside them reopens a stored plan. The API key is never written to the address.
 
+import { coilControls } from './coil-array.js';
+
 const byId = (id) => document.getElementById(id);
 
 /** Controls kept in the address, in the order they are restored (the preset before its fields). */
@@ -22,7 +24,12 @@ const controls = [
   'rank',
   'weighting',
   'iterations',
+  'senseMaps',
+  'grappaKy',
+  'grappaKx',
+  'tikhonov',
   'snr',
+  ...coilControls,
   'preset',
   'dimensions',
   'trMs',
@@ -89,5 +96,6 @@ export function restoreSetup(setup, params = new URLSearchParams(location.search
   if (params.has('acs')) setup.acsEdited = true;
   setup.syncDimensions();
   setup.syncVisibility();
+  setup.coilPicker.sync();
   return { imageId: kind === 'upload' ? params.get(imageParam) : null };
 }

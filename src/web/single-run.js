@@ -3,6 +3,9 @@
 // An error clears everything shown before, so no old image or number stands beside the message.
 
 import { getBlob, pageRelative, postForBlob, postJson } from './api.js';
+import { hideImage, showBlob } from './blob-image.js';
+import { isUniform } from './coil-array.js';
+import { clearCoilResults, showCoilResults } from './coil-results.js';
 import { offerBlob, offerResource, withdraw } from './downloads.js';
 import { colouredErrorPng, drawColourBar, errorLevels } from './error-map.js';
 import { formatNumber, showNumber } from './format.js';
@@ -18,26 +21,9 @@ const byId = (id) => document.getElementById(id);
 const numberCell = (key) => document.querySelector(`[data-key="${key}"]`);
 
 /** <img> ids of the images that zoom and pan together (one matrix, one object). */
-const linkedImages = ['imgReconstruction', 'imgZeroFilled', 'imgReference', 'imgErrorMap'];
+const linkedImages = ['imgReconstruction', 'imgZeroFilled', 'imgReference', 'imgErrorMap', 'imgGFactor'];
 /** <img> ids of the k-space views, enlarged on their own. */
 const ownImages = ['imgMask', 'imgPsf'];
-
-/** Shows a PNG blob in an <img>, releasing the blob URL it showed before. */
-async function showBlob(id, blob) {
-  const img = byId(id);
-  const previous = img.src;
-  img.src = URL.createObjectURL(blob);
-  if (previous.startsWith('blob:')) URL.revokeObjectURL(previous);
-  await img.decode();
-  img.hidden = false;
-}
-
-function hideImage(id) {
-  const img = byId(id);
-  if (img.src.startsWith('blob:')) URL.revokeObjectURL(img.src);
-  img.removeAttribute('src');
-  img.hidden = true;
-}
 
 function showAcquired(cell, acquired, total) {
   if (!acquired) return showNumber(cell, null);
@@ -225,6 +211,7 @@ export class SingleRun {
       cell.textContent = '–';
     }
     showNotes([]);
+    clearCoilResults();
     byId('singleDownloads').hidden = true;
     for (const link of byId('singleDownloads').querySelectorAll('a')) withdraw(link);
     hideFidelity();
@@ -269,6 +256,9 @@ export class SingleRun {
     if (noise) body.noise = noise;
     const lesions = lesionsPiece();
     if (lesions) body.lesions = lesions;
+    // The single uniform coil is the service's default: left out, the request stays as it was.
+    const coils = setup.coils();
+    if (!isUniform(coils)) body.coils = coils;
     const maskBody = { matrix: body.matrix, sampling: body.sampling };
     const [outcome, mask, maskPng, [full, under, withoutPartialFourier]] = await Promise.all([
       postJson('v1/reconstructions', body),
@@ -297,6 +287,7 @@ export class SingleRun {
     ]);
     showMaskNumbers(mask);
     showMetrics(outcome);
+    await showCoilResults(outcome);
     showScanTimes(full, under, withoutPartialFourier);
     await this.offerDownloads(outcome, maskPng);
     this.lastOutcome = outcome;
