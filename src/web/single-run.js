@@ -289,14 +289,17 @@ export class SingleRun {
     showMetrics(outcome);
     await showCoilResults(outcome);
     showScanTimes(full, under, withoutPartialFourier);
-    await this.offerDownloads(outcome, maskPng);
+    await this.offerDownloads(outcome, maskPng, mask);
     this.lastOutcome = outcome;
     this.reconstructed = JSON.stringify({ matrix: body.matrix, sampling: body.sampling });
     showStatus(this.status, `Reconstruction ${outcome.id} done (${body.method.name}).`);
   }
 
-  /** Links to each image as the service serves it, and to the mask the mask route drew as PNG. */
-  async offerDownloads(outcome, maskPng) {
+  /**
+   * Links to each image as the service serves it (8-bit and 16-bit PNG, float32 NIfTI), to the mask
+   * the mask route drew as PNG, and to its sample table.
+   */
+  async offerDownloads(outcome, maskPng, mask) {
     const name = (image) => `${image}-${outcome.id}.png`;
     await Promise.all([
       offerResource(
@@ -308,6 +311,19 @@ export class SingleRun {
       offerResource(byId('downloadZeroFilled'), outcome.images.zeroFilled, 'image/png', name('zero-filled')),
       offerResource(byId('downloadReference'), outcome.images.reference, 'image/png', name('reference')),
       offerResource(byId('downloadErrorMap'), outcome.images.errorMap, 'image/png', name('error-map')),
+      offerResource(
+        byId('downloadReconstruction16'),
+        `${outcome.images.reconstruction}?depth=16`,
+        'image/png',
+        `reconstruction-16bit-${outcome.id}.png`,
+      ),
+      offerResource(
+        byId('downloadImagesNifti'),
+        `v1/results/${outcome.id}/images.nii`,
+        'application/octet-stream',
+        `images-${outcome.id}.nii`,
+      ),
+      offerResource(byId('downloadMaskTable'), mask.tables.csv, 'text/csv', `mask-${mask.id}.csv`),
     ]);
     offerBlob(byId('downloadMask'), maskPng, name('mask'));
     byId('singleDownloads').hidden = false;

@@ -374,6 +374,19 @@ describe('stored plans, addresses and downloads in Chromium', () => {
     expect(maskLink.bytes.equals(maskPng)).toBe(true);
     const meta = await sharp(maskPng).metadata();
     expect([meta.width, meta.height]).toEqual([32, 32]);
+    // Full precision: a 16-bit PNG of the reconstruction, and every image as a float32 NIfTI-1
+    // (sizeof_hdr 348, datatype 16 = float32: nifti1.h).
+    const deep = await fetchLink('#downloadReconstruction16');
+    expect(deep.type).toBe('image/png');
+    expect((await sharp(deep.bytes).metadata()).depth).toBe('ushort');
+    const nifti = await fetchLink('#downloadImagesNifti');
+    expect(nifti.type).toBe('application/octet-stream');
+    expect(nifti.bytes.readInt32LE(0)).toBe(348);
+    expect(nifti.bytes.readInt16LE(70)).toBe(16);
+    // The mask's sample table: RFC 4180 CSV with the Cartesian header.
+    const table = await fetchLink('#downloadMaskTable');
+    expect(table.type).toMatch(/^text\/csv/);
+    expect(table.bytes.toString('utf8').split('\r\n')[0]).toBe('order,ky,kx');
     await page.locator('#reconNumbers').scrollIntoViewIfNeeded();
     await page.screenshot({ path: join(artifacts, 'plans-zero-filled-scores-1280x800.png') });
   });
