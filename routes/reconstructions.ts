@@ -8,7 +8,7 @@ import { lesionsSchema } from '../src/fidelity/index.ts';
 import { disconnectSignal } from '../src/http/disconnect-signal.ts';
 import { HttpProblem, jsonResponse, problemResponses } from '../src/http/problem.ts';
 import { idParams, perLimits, requestSchemas } from '../src/http/schemas.ts';
-import { coilsSchema, phaseSchema } from '../src/pipeline/coil-request.ts';
+import { coilsSchema, gFactorRequestSchema, phaseSchema } from '../src/pipeline/coil-request.ts';
 import { sourceSchema } from '../src/pipeline/run-reconstruction.ts';
 import { reconstructionSchema } from '../src/services/index.ts';
 
@@ -23,6 +23,7 @@ const reconstructionBody = perLimits((limits: Limits) =>
       method: requestSchemas(limits).method,
       coils: coilsSchema.optional(),
       phase: phaseSchema.optional(),
+      gFactor: gFactorRequestSchema.optional(),
       lesions: lesionsSchema.optional(),
       seed: z
         .int()
