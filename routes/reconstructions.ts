@@ -1,30 +1,21 @@
 import type { FastifyInstance } from 'fastify';
 import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
-import { samplingSchema } from '../sampling/index.ts';
-import { noiseSchema } from '../src/acquisition/index.ts';
 import { allLimitFields, type Limits, limitsId } from '../src/core/limits.ts';
-import { lesionsSchema } from '../src/fidelity/index.ts';
 import { disconnectSignal } from '../src/http/disconnect-signal.ts';
 import { HttpProblem, jsonResponse, problemResponses } from '../src/http/problem.ts';
-import { idParams, perLimits, requestSchemas } from '../src/http/schemas.ts';
-import { coilsSchema, gFactorRequestSchema, phaseSchema } from '../src/pipeline/coil-request.ts';
-import { sourceSchema } from '../src/pipeline/run-reconstruction.ts';
+import { idParams, perLimits } from '../src/http/schemas.ts';
+import { reconstructionRequestSchemaFor } from '../src/pipeline/run-reconstruction.ts';
 import { reconstructionSchema } from '../src/services/index.ts';
 
-/** The request body with the configured limits baked in (matrix sides, iterations). */
+/**
+ * The request body: the pipeline's own request schema with the configured limits baked in (matrix
+ * sides, iterations), plus the seed a route call may set; one schema, so a field the pipeline takes
+ * is never missing here.
+ */
 const reconstructionBody = perLimits((limits: Limits) =>
-  z
-    .strictObject({
-      source: sourceSchema,
-      matrix: requestSchemas(limits).scoredMatrix,
-      sampling: samplingSchema,
-      noise: noiseSchema.optional().describe('complex Gaussian k-space noise; omitted or "none": noiseless'),
-      method: requestSchemas(limits).method,
-      coils: coilsSchema.optional(),
-      phase: phaseSchema.optional(),
-      gFactor: gFactorRequestSchema.optional(),
-      lesions: lesionsSchema.optional(),
+  reconstructionRequestSchemaFor(limits)
+    .extend({
       seed: z
         .int()
         .min(0)
