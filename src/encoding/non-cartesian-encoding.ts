@@ -133,8 +133,11 @@ export class NonCartesianEncoding implements EncodingOperator<CoilSamples> {
     return out;
   }
 
-  /** block ⊙= √w (nothing without weights). */
-  private weigh(block: Float64Array): void {
+  /**
+   * block ⊙= √w (nothing without weights): what turns acquired samples of one coil into the data
+   * of this operator's weighted data term.
+   */
+  weigh(block: Float64Array): void {
     const root = this.rootWeights;
     if (!root) return;
     for (let p = 0; p < root.length; p++) {

@@ -5,7 +5,12 @@ import { senseGFactorMap, summariseGFactor } from '../coils/index.ts';
 import type { ComplexImage } from '../core/complex-image.ts';
 import type { Limits } from '../core/limits.ts';
 import type { CoilMaps, MultiCoilKspace } from '../encoding/index.ts';
-import { gFactorFor, type MethodSpec, type ReconInput } from '../recon/index.ts';
+import {
+  gFactorFor,
+  type MethodSpec,
+  type ReconInput,
+  uniformCartesianAcceleration,
+} from '../recon/index.ts';
 
 /** How a g-factor was found: the closed form of SENSE on a uniform lattice, or noise replicas. */
 export type GFactorMethod = 'analytic' | 'pseudo-replica';
@@ -118,17 +123,13 @@ export function reconstructionGFactor(input: GFactorInput): GFactorResult | unde
 /** R when the mask acquires exactly the rows ⌊ny/2⌋ + k·R (every column), R an integer dividing ny; else null. */
 export function uniformLatticeStep(sampled: SampledMask): number | null {
   const { nx, ny, mask } = sampled;
-  const rows: number[] = [];
-  for (let i = 0; i < ny; i++) {
-    let count = 0;
-    for (let j = 0; j < nx; j++) count += mask[i * nx + j] ? 1 : 0;
-    if (count === nx) rows.push(i);
-    else if (count !== 0) return null;
-  }
-  if (rows.length === 0 || ny % rows.length !== 0) return null;
-  const R = ny / rows.length;
+  // Every R-th whole row (uniformCartesianAcceleration), and those rows pass through the centre.
+  const R = uniformCartesianAcceleration(mask, nx, ny);
+  if (R === null) return null;
   const centre = Math.floor(ny / 2);
-  for (const i of rows) if ((((i - centre) % R) + R) % R !== 0) return null;
+  for (let i = 0; i < ny; i++) {
+    if (mask[i * nx] && (((i - centre) % R) + R) % R !== 0) return null;
+  }
   return R;
 }
 

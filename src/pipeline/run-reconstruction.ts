@@ -341,7 +341,7 @@ function trajectoryInput(
   noise: NoiseSpec | undefined,
   noiseSeed: number,
   notes: string[],
-): { input: ReconInput; sigma: number } {
+): { input: ReconInput; sigma: number; gridded: ComplexImage } {
   const trajectory = sampled.trajectory as Trajectory;
   const plan = nufftPlanFor(trajectory, sampled.nx, sampled.ny);
   const { samples, sigma, inverseCrime } = acquireTrajectory(full, trajectory, plan, noise, noiseSeed);
@@ -352,8 +352,8 @@ function trajectoryInput(
   }
   const { weights, weighting } = densityWeightsFor(trajectory, sampled.nx, sampled.ny);
   const data: TrajectoryData = { trajectory, plan, samples: { coils: 1, data: samples }, weights, weighting };
-  const kspace = fft2c(griddingImage(data).image);
-  return { input: { kspace, mask: sampled.mask, trajectory: data }, sigma };
+  const gridded = griddingImage(data).image;
+  return { input: { kspace: fft2c(gridded), mask: sampled.mask, trajectory: data }, sigma, gridded };
 }
 
 function magnitudeImage(image: ComplexImage): RealImage {
@@ -430,7 +430,8 @@ export async function runReconstruction(
   const sampled = await resolveSampling({ nx, ny }, sampling, limits);
   const baseSeed = seed ?? sampled.seed ?? 0;
   let input: ReconInput;
-  let coilZeroFilled: ComplexImage | undefined;
+  /** The zero-filled comparison image when the acquisition already made it (coils, trajectories). */
+  let knownZeroFilled: ComplexImage | undefined;
   let referenceImage: ComplexImage;
   let objectMask: Uint8Array;
   let coilSigma = 0;
@@ -446,9 +447,9 @@ export async function runReconstruction(
   }
   if (raw) {
     const acquired = rawAcquisition(raw, req, sampled, noiseSeed, notes);
-    coilZeroFilled = zeroFilledCoilCombination(acquired.coils);
+    knownZeroFilled = zeroFilledCoilCombination(acquired.coils);
     input = {
-      kspace: fft2c(coilZeroFilled),
+      kspace: fft2c(knownZeroFilled),
       mask: sampled.mask,
       density: sampled.density,
       coils: acquired.coils,
@@ -474,18 +475,20 @@ export async function runReconstruction(
     whitenedFull = acquired.full;
     sigma = acquired.sigma;
     const coilData: CoilData = { kspace: acquired.kspace, maps: acquired.maps };
-    coilZeroFilled = zeroFilledCoilCombination(coilData);
-    input = { kspace: fft2c(coilZeroFilled), mask: sampled.mask, density: sampled.density, coils: coilData };
+    knownZeroFilled = zeroFilledCoilCombination(coilData);
+    input = { kspace: fft2c(knownZeroFilled), mask: sampled.mask, density: sampled.density, coils: coilData };
     referenceImage = simulation.reference;
     objectMask = simulation.objectMask;
   } else {
     const single = full as FullAcquisition;
-    const acquired = sampled.trajectory
+    const acquired: { input: ReconInput; sigma: number; gridded?: ComplexImage } = sampled.trajectory
       ? trajectoryInput(single, sampled, req.noise, noiseSeed, notes)
       : cartesianInput(single, sampled, req.noise, noiseSeed);
     sigma = acquired.sigma;
     if (sigma > 0) notes.push(`complex Gaussian noise, σ = ${sigma.toPrecision(4)} per real channel`);
     input = acquired.input;
+    // Non-Cartesian: the gridded image already made for `kspace` is the zero-filled comparison.
+    knownZeroFilled = acquired.gridded;
     referenceImage = single.reference;
     objectMask = single.objectMask;
   }
@@ -497,8 +500,8 @@ export async function runReconstruction(
   if (result.info.note) notes.push(String(result.info.note));
 
   const reconstruction = magnitudeImage(result.image);
-  const zeroFilled = coilZeroFilled
-    ? magnitudeImage(coilZeroFilled)
+  const zeroFilled = knownZeroFilled
+    ? magnitudeImage(knownZeroFilled)
     : req.method.name === 'zero-filled' &&
         !req.method.densityCompensation &&
         result.image === methodOutput.image

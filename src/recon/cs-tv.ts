@@ -181,11 +181,7 @@ export const csTv: ReconMethod<CsTvSpec> = {
       const operator = new NonCartesianEncoding(plan, undefined, kernel, weights);
       const weighted = operator.createData();
       weighted.data.set(samples.data);
-      for (let p = 0; p < weights.length; p++) {
-        const root = Math.sqrt(weights[p]);
-        weighted.data[2 * p] *= root;
-        weighted.data[2 * p + 1] *= root;
-      }
+      operator.weigh(weighted.data);
       const output = runOnOperator(
         operator,
         weighted,
