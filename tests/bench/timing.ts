@@ -10,16 +10,37 @@ export interface BenchRow {
 
 /** Median wall time in ms of `runs` calls after `warmup` untimed calls. */
 export async function medianMs(fn: () => unknown | Promise<unknown>, runs = 7, warmup = 2): Promise<number> {
+  return (await medianWallAndCpuMs(fn, runs, warmup)).wallMs;
+}
+
+function median(values: number[]): number {
+  const sorted = [...values].sort((a, b) => a - b);
+  const mid = sorted.length >> 1;
+  return sorted.length % 2 ? sorted[mid] : (sorted[mid - 1] + sorted[mid]) / 2;
+}
+
+/**
+ * Medians of wall time and of the process's CPU time (user + system over all its threads) in ms of
+ * `runs` calls after `warmup` untimed calls. On a shared machine the CPU time is the steadier cost:
+ * other processes stretch the wall time, not this process's CPU time.
+ */
+export async function medianWallAndCpuMs(
+  fn: () => unknown | Promise<unknown>,
+  runs = 7,
+  warmup = 2,
+): Promise<{ wallMs: number; cpuMs: number }> {
   for (let i = 0; i < warmup; i++) await fn();
-  const times: number[] = [];
+  const wall: number[] = [];
+  const cpu: number[] = [];
   for (let i = 0; i < runs; i++) {
+    const c0 = process.cpuUsage();
     const t0 = performance.now();
     await fn();
-    times.push(performance.now() - t0);
+    wall.push(performance.now() - t0);
+    const c = process.cpuUsage(c0);
+    cpu.push((c.user + c.system) / 1000);
   }
-  times.sort((a, b) => a - b);
-  const mid = times.length >> 1;
-  return times.length % 2 ? times[mid] : (times[mid - 1] + times[mid]) / 2;
+  return { wallMs: median(wall), cpuMs: median(cpu) };
 }
 
 /**
