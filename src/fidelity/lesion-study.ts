@@ -51,6 +51,11 @@ export interface LesionStudyInput {
    * with-lesion data as acquired + M ⊙ (withLesions − without), the same draw without a new one.
    */
   paired?: { acquired: ComplexImage; image: ComplexImage };
+  /**
+   * |recon(without)| and |reference| when the caller already has them (a plan cell scores the same
+   * two images): the false-lesion error map then reuses them instead of taking them again.
+   */
+  magnitudes?: { without: Float64Array; reference: Float64Array };
   signal?: AbortSignal;
 }
 
@@ -228,8 +233,8 @@ export function runLesionStudy(input: LesionStudyInput): LesionStudy {
   });
 
   const recovered = scores.map((s) => s.contrastRecovery);
-  const errorMap = magnitude(withoutImage);
-  const referenceMagnitude = magnitude(input.reference);
+  const errorMap = input.magnitudes ? input.magnitudes.without.slice() : magnitude(withoutImage);
+  const referenceMagnitude = input.magnitudes?.reference ?? magnitude(input.reference);
   for (let i = 0; i < errorMap.length; i++) errorMap[i] -= referenceMagnitude[i];
   const first = lesions[0];
   const falseLesions = countFalseLesions(

@@ -67,6 +67,8 @@ export interface LesionRunInput {
   sigma: number;
   snr: number | null;
   noiseSeed: number;
+  /** |image| and |reference| as the base run scored them (shared with the study's error map). */
+  magnitudes?: { without: Float64Array; reference: Float64Array };
   signal?: AbortSignal;
   limits: Limits;
 }
@@ -106,6 +108,7 @@ export function runLesionFidelity(input: LesionRunInput): FidelityOutcome {
     noise,
     reconstruct: pinned.reconstruct,
     paired: { acquired: input.acquired, image: input.image },
+    ...(input.magnitudes ? { magnitudes: input.magnitudes } : {}),
     signal,
   });
   const notes = [pinned.description];

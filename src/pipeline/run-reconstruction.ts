@@ -549,6 +549,7 @@ export async function runReconstruction(
           sigma,
           snr: checkedSnr(req.noise),
           noiseSeed,
+          magnitudes: { without: reconstruction.data, reference: reference.data },
           signal: ctx.signal,
           limits,
         })
