@@ -6,8 +6,9 @@ import FFT from 'fft.js';
  *   X[k] = Σ_n x[n] e^(−i2π nk/N),
  * on interleaved complex buffers. Powers of two go straight to fft.js (radix-4). A length
  * N = P·Q with P a power of two and Q odd is split once, Cooley–Tukey style, into Q transforms of
- * length P, twiddles, and P transforms of length Q (so the common MR sizes 320 = 64·5 and
- * 384 = 128·3 cost little more than a power of two). Odd lengths up to 32 use a direct table;
+ * length P, twiddles, and P transforms of length Q (butterflies for Q = 3 and 5, a direct sum for
+ * other Q ≤ 32; so the common MR sizes 320 = 64·5 and 384 = 128·3 cost little more than a power
+ * of two). Odd lengths up to 32 use a direct table;
  * longer odd lengths use Bluestein's chirp-z identity nk = (n² + k² − (k − n)²)/2, which turns the
  * DFT into a linear convolution done with a power-of-two fft.js transform of length M ≥ 2N − 1
  * (Bluestein 1970). Chirp exponents use n² mod 2N so they stay exact for large N.
