@@ -62,7 +62,9 @@ export async function benchPlan(): Promise<BenchRow[]> {
     if (warmCell === undefined) throw new Error('the bench plan has no reference cell');
     const warm = performance.now();
     await Promise.all(
-      Array.from({ length: pool.size }, () => pool.run('cell', { plan, cell: warmCell, limits: defaultLimits })),
+      Array.from({ length: pool.size }, () =>
+        pool.run('cell', { plan, cell: warmCell, limits: defaultLimits }),
+      ),
     );
     const warmMs = performance.now() - warm;
     rows.push({
