@@ -22,13 +22,10 @@ The eigenvectors are stored as well (columns, any phase): the projector they mak
 on the phase, and the test hands them to the code under test.
 """
 
-import json
-import os
-
 import numpy as np
 
-HERE = os.path.dirname(os.path.abspath(__file__))
-OUT = os.path.join(HERE, 'fixtures')
+from fixture_io import interleave, write
+
 SCALE = 2.0**-4
 
 # (ny, nx, wy, wx, rank): odd and even sizes; a 7x7 window as the single-coil default; a window
@@ -61,14 +58,6 @@ def adjoint_average(m, ny, nx, wy, wx):
     return total / count
 
 
-def interleave(z):
-    flat = np.asarray(z, dtype=complex).reshape(-1)
-    out = np.empty(2 * flat.size)
-    out[0::2] = flat.real
-    out[1::2] = flat.imag
-    return out.tolist()
-
-
 def case(rng, ny, nx, wy, wx, rank):
     ints = [rng.integers(-64, 65, size=(ny, nx, 2)) for _ in range(2)]
     z1, z2 = [(q[..., 0] + 1j * q[..., 1]) * SCALE for q in ints]
@@ -90,12 +79,12 @@ def case(rng, ny, nx, wy, wx, rank):
         'rank': rank,
         'z1': [int(v) for v in ints[0].reshape(-1)],
         'z2': [int(v) for v in ints[1].reshape(-1)],
-        'gramOne': interleave(gram_one),
-        'gramTwo': interleave(gram_two),
+        'gramOne': interleave(gram_one).tolist(),
+        'gramTwo': interleave(gram_two).tolist(),
         # vectors[a][k] for k < rank, row-major (a = window offset), interleaved re/im.
-        'vectors': interleave(u),
-        'projection1': interleave(proj1),
-        'projection2': interleave(proj2),
+        'vectors': interleave(u).tolist(),
+        'projection1': interleave(proj1).tolist(),
+        'projection2': interleave(proj2).tolist(),
     }
 
 
@@ -109,10 +98,7 @@ def main():
         'projection = anti-diagonal average of H Pi, Pi = U_r U_r^H',
         'cases': [case(rng, *c) for c in CASES],
     }
-    os.makedirs(OUT, exist_ok=True)
-    with open(os.path.join(OUT, 'block-hankel.json'), 'w') as f:
-        json.dump(payload, f, separators=(',', ':'))
-        f.write('\n')
+    write('block-hankel.json', payload)
 
 
 if __name__ == '__main__':
