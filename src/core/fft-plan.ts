@@ -6,8 +6,9 @@ import FFT from 'fft.js';
  *   X[k] = Σ_n x[n] e^(−i2π nk/N),
  * on interleaved complex buffers. Powers of two go straight to fft.js (radix-4). A length
  * N = P·Q with P a power of two and Q odd is split once, Cooley–Tukey style, into Q transforms of
- * length P, twiddles, and P transforms of length Q (so the common MR sizes 320 = 64·5 and
- * 384 = 128·3 cost little more than a power of two). Odd lengths up to 32 use a direct table;
+ * length P, twiddles, and P transforms of length Q (butterflies for Q = 3 and 5, a direct sum for
+ * other Q ≤ 32; so the common MR sizes 320 = 64·5 and 384 = 128·3 cost little more than a power
+ * of two). Odd lengths up to 32 use a direct table;
  * longer odd lengths use Bluestein's chirp-z identity nk = (n² + k² − (k − n)²)/2, which turns the
  * DFT into a linear convolution done with a power-of-two fft.js transform of length M ≥ 2N − 1
  * (Bluestein 1970). Chirp exponents use n² mod 2N so they stay exact for large N.
@@ -167,6 +168,14 @@ function splitPlan(size: number, p: number, q: number): FftPlan {
           y[base + 2 * k1 + 1] = vr * ti + vi * tr;
         }
       }
+      if (q === 3) {
+        radix3Columns(output, y, p);
+        return;
+      }
+      if (q === 5) {
+        radix5Columns(output, y, p);
+        return;
+      }
       if (smallQ) {
         // Short odd factor: the length-Q DFTs run across all k1 at once (contiguous inner loop).
         for (let k2 = 0; k2 < q; k2++) {
@@ -200,6 +209,88 @@ function splitPlan(size: number, p: number, q: number): FftPlan {
       }
     },
   };
+}
+
+const SIN_60 = Math.sqrt(3) / 2;
+
+/**
+ * out[k1 + P·k2] = Σ_{n2<3} y[n2·P + k1] e^(−i2π n2·k2/3) for every k1 < P: the length-3 DFT as a
+ * butterfly (t = y1 + y2, X0 = y0 + t, X1,2 = y0 − t/2 ∓ i·(√3/2)(y1 − y2)), 4 real multiplies
+ * per column instead of the direct sum's 36.
+ */
+function radix3Columns(out: Float64Array, y: Float64Array, p: number): void {
+  const s1 = 2 * p;
+  const s2 = 4 * p;
+  for (let k = 0; k < 2 * p; k += 2) {
+    const x0r = y[k];
+    const x0i = y[k + 1];
+    const x1r = y[s1 + k];
+    const x1i = y[s1 + k + 1];
+    const x2r = y[s2 + k];
+    const x2i = y[s2 + k + 1];
+    const tr = x1r + x2r;
+    const ti = x1i + x2i;
+    const ar = x0r - 0.5 * tr;
+    const ai = x0i - 0.5 * ti;
+    const br = SIN_60 * (x1r - x2r);
+    const bi = SIN_60 * (x1i - x2i);
+    out[k] = x0r + tr;
+    out[k + 1] = x0i + ti;
+    out[s1 + k] = ar + bi;
+    out[s1 + k + 1] = ai - br;
+    out[s2 + k] = ar - bi;
+    out[s2 + k + 1] = ai + br;
+  }
+}
+
+const COS_72 = Math.cos((2 * Math.PI) / 5);
+const COS_144 = Math.cos((4 * Math.PI) / 5);
+const SIN_72 = Math.sin((2 * Math.PI) / 5);
+const SIN_144 = Math.sin((4 * Math.PI) / 5);
+
+/**
+ * The length-5 DFT across columns as radix3Columns does the length-3 one. With t1 = y1 + y4,
+ * t2 = y2 + y3, t3 = y1 − y4, t4 = y2 − y3 and W = e^(−i2π/5), pairing W^n with W^(5−n) = conj(W^n):
+ *   X0 = y0 + t1 + t2,
+ *   X1,4 = y0 + cos72°·t1 + cos144°·t2 ∓ i(sin72°·t3 + sin144°·t4),
+ *   X2,3 = y0 + cos144°·t1 + cos72°·t2 ∓ i(sin144°·t3 − sin72°·t4).
+ */
+function radix5Columns(out: Float64Array, y: Float64Array, p: number): void {
+  const s1 = 2 * p;
+  const s2 = 4 * p;
+  const s3 = 6 * p;
+  const s4 = 8 * p;
+  for (let k = 0; k < 2 * p; k += 2) {
+    const x0r = y[k];
+    const x0i = y[k + 1];
+    const t1r = y[s1 + k] + y[s4 + k];
+    const t1i = y[s1 + k + 1] + y[s4 + k + 1];
+    const t2r = y[s2 + k] + y[s3 + k];
+    const t2i = y[s2 + k + 1] + y[s3 + k + 1];
+    const t3r = y[s1 + k] - y[s4 + k];
+    const t3i = y[s1 + k + 1] - y[s4 + k + 1];
+    const t4r = y[s2 + k] - y[s3 + k];
+    const t4i = y[s2 + k + 1] - y[s3 + k + 1];
+    const a1r = x0r + COS_72 * t1r + COS_144 * t2r;
+    const a1i = x0i + COS_72 * t1i + COS_144 * t2i;
+    const a2r = x0r + COS_144 * t1r + COS_72 * t2r;
+    const a2i = x0i + COS_144 * t1i + COS_72 * t2i;
+    const b1r = SIN_72 * t3r + SIN_144 * t4r;
+    const b1i = SIN_72 * t3i + SIN_144 * t4i;
+    const b2r = SIN_144 * t3r - SIN_72 * t4r;
+    const b2i = SIN_144 * t3i - SIN_72 * t4i;
+    out[k] = x0r + t1r + t2r;
+    out[k + 1] = x0i + t1i + t2i;
+    // −i·b = (b.im, −b.re).
+    out[s1 + k] = a1r + b1i;
+    out[s1 + k + 1] = a1i - b1r;
+    out[s4 + k] = a1r - b1i;
+    out[s4 + k + 1] = a1i + b1r;
+    out[s2 + k] = a2r + b2i;
+    out[s2 + k + 1] = a2i - b2r;
+    out[s3 + k] = a2r - b2i;
+    out[s3 + k + 1] = a2i + b2r;
+  }
 }
 
 function makePlan(size: number): FftPlan {

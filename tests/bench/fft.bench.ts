@@ -6,12 +6,15 @@ import { type BenchRow, fftPairMs, medianMs } from './timing.ts';
  * Forward + inverse centred 2D pair. The ratio compares the pair with the bare 1D plan calls it
  * contains (ny row and nx column transforms, twice), so it shows what gathers, shifts and scaling
  * cost. Rate: 5·N·log2(N) flops per complex transform of N points (the usual radix-2 count).
+ * 320 = 64·5 and 384 = 128·3 run the split plan (fft.js lengths 64 / 128, then radix-5 / radix-3
+ * butterflies), so their rate against 256 and 512 shows what the split costs.
  */
 export async function benchFft(): Promise<BenchRow[]> {
   const rows: BenchRow[] = [];
   for (const [nx, ny] of [
     [256, 256],
     [320, 320],
+    [384, 384],
     [512, 512],
   ]) {
     const image = randomComplexImage(nx, ny, nx);

@@ -12,7 +12,6 @@ same float64 values; outputs are written as shortest round-trip float64 literals
 """
 
 import json
-import os
 
 import numpy as np
 import scipy
@@ -20,8 +19,8 @@ import scipy.ndimage as ndi
 import skimage
 from skimage.metrics import normalized_root_mse, peak_signal_noise_ratio, structural_similarity
 
-HERE = os.path.dirname(os.path.abspath(__file__))
-OUT = os.path.join(HERE, 'fixtures')
+from fixture_io import interleave, write
+
 
 # Image values are integers times 2^-10; FFT inputs integers times 2^-9 (exact in float64).
 IMAGE_SCALE = 2.0**-10
@@ -218,13 +217,6 @@ def centred_fft(x, inverse=False):
     return np.fft.fftshift(transform(np.fft.ifftshift(x), norm='ortho'))
 
 
-def interleave(z):
-    out = np.empty(2 * z.size)
-    out[0::2] = z.real.ravel()
-    out[1::2] = z.imag.ravel()
-    return out
-
-
 def fft_cases():
     cases = []
     rng = np.random.default_rng(808)
@@ -241,15 +233,6 @@ def fft_cases():
             }
         )
     return cases
-
-
-def write(name, payload):
-    os.makedirs(OUT, exist_ok=True)
-    path = os.path.join(OUT, name)
-    with open(path, 'w') as f:
-        json.dump(payload, f, separators=(',', ':'))
-        f.write('\n')
-    print(f'{path}: {os.path.getsize(path)} bytes')
 
 
 def main():
