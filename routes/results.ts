@@ -249,7 +249,7 @@ export async function resultRoutes(app: FastifyInstance): Promise<void> {
           'per complex sample, covariance form, seed), the sampling summary, the ordering and the ' +
           'sample table (Cartesian: order,ky,kx grid indices relative to the centre; non-Cartesian: ' +
           'order,kx,ky in cycles per FOV), the scaling and how the zero-filled image is formed. ' +
-          'Format: docs/design.md §4.10.',
+          'Format: docs/design.md §4.11.',
         tags: ['results'],
         params: idParams,
         response: {
@@ -280,7 +280,7 @@ export async function resultRoutes(app: FastifyInstance): Promise<void> {
           'ISMRMRD stores each readout as a compound record holding variable-length arrays, which ' +
           'h5wasm 0.10.3 cannot write (no npm HDF5 library without a native build can). The answer is ' +
           `a 404 of type ${formatUnavailableProblemKind.type} whose Link header names acquisition.nii ` +
-          'and acquisition.json, which carry the same content (docs/design.md §4.10).',
+          'and acquisition.json, which carry the same content (docs/design.md §4.11).',
         tags: ['results'],
         params: idParams,
         response: { ...problemResponses(401, 404) },

@@ -130,7 +130,7 @@ export const limitProblemKind: ProblemKind = {
 /**
  * A representation the contract names but this server cannot produce (404 with its own type): the
  * acquisition as ISMRMRD HDF5, which no npm HDF5 library without a native build can write
- * (docs/design.md §4.10); the `Link` header points at the bundle that carries the same content.
+ * (docs/design.md §4.11); the `Link` header points at the bundle that carries the same content.
  */
 export const formatUnavailableProblemKind: ProblemKind = {
   type: '/problems/format-not-available',

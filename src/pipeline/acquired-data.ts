@@ -3,7 +3,7 @@ import type { ReconInput } from '../recon/index.ts';
 /**
  * The data a reconstruction method was given, kept with the result so a user's own pipeline can
  * reconstruct exactly what the planner simulated (GET /v1/results/{id}/acquisition.nii|.json,
- * docs/design.md §4.10). Compact: Cartesian data keep only the acquired grid points (the mask says
+ * docs/design.md §4.11). Compact: Cartesian data keep only the acquired grid points (the mask says
  * where), so a result at R = 4 stores a quarter of the grid.
  */
 export interface AcquiredData {

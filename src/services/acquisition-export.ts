@@ -5,7 +5,7 @@ import type { AcquiredData } from '../pipeline/acquired-data.ts';
 import type { ReconstructionOutcome } from '../pipeline/run-reconstruction.ts';
 import { sampledSummary } from './sampled-summary.ts';
 
-/** Export format name and version written into acquisition.json (docs/design.md §4.10). */
+/** Export format name and version written into acquisition.json (docs/design.md §4.11). */
 export const ACQUISITION_FORMAT = 'kspace-planner acquisition 1';
 
 /** The URLs of a reconstruction's acquisition bundle. */

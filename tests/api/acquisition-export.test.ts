@@ -8,7 +8,7 @@ import { readRawKspace } from '../../src/io/ismrmrd/read-raw-kspace.ts';
 import { binary, expectDocumented, expectProblem, sharedTestApp, type TestApp } from './helpers.ts';
 
 /**
- * The acquisition bundle (docs/design.md §4.10) read outside the service: Debian's python3-nibabel
+ * The acquisition bundle (docs/design.md §4.11) read outside the service: Debian's python3-nibabel
  * and python3-numpy (tests/reference/acquisition_bundle_check.py) reconstruct the zero-filled image
  * from acquisition.nii and acquisition.json and compare it with the service's images.nii.
  */

@@ -1,5 +1,5 @@
 """Reads an exported acquisition bundle with Debian's python3-nibabel and python3-numpy and
-reconstructs its zero-filled image independently of the service (docs/design.md §4.10).
+reconstructs its zero-filled image independently of the service (docs/design.md §4.11).
 
 Usage: /usr/bin/python3 tests/reference/acquisition_bundle_check.py DIR
 DIR holds acquisition.nii, acquisition.json and images.nii of one Cartesian reconstruction whose
