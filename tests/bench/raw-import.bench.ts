@@ -1,5 +1,5 @@
 import { execFileSync } from 'node:child_process';
-import { mkdtempSync, rmSync, statSync } from 'node:fs';
+import { existsSync, mkdtempSync, rmSync, statSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { BenchRow } from './timing.ts';
@@ -15,6 +15,10 @@ const generator = '/usr/bin/ismrmrd_generate_cartesian_shepp_logan';
  * its peak resident set. Without ismrmrd-tools (apt-get install ismrmrd-tools) the group says so.
  */
 export async function benchRawImport(): Promise<BenchRow[]> {
+  if (!existsSync(generator)) {
+    console.error(`(raw import: not run — ${generator} missing; apt-get install ismrmrd-tools)`);
+    return [];
+  }
   const folder = mkdtempSync(join(tmpdir(), 'kspace-bench-ismrmrd-'));
   try {
     const file = join(folder, 'shepp-logan-32coil.h5');
