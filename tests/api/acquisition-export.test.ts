@@ -76,8 +76,9 @@ describe('acquisition export', () => {
     });
     const facts = await numpyCheck(t, id);
     expect(facts).toMatchObject({ dtype: 'complex64', shape: [64, 64, 1, 4], datatype: 32 });
-    // 32 of 64 lines outside the 8 ACS lines' half, each of 64 points: as the table counts them.
+    // Every 2nd line plus the 8 ACS lines (36 of 64, 64 points each): the table counts the fraction's points.
     expect(facts.tableCount).toBe(header.sampling.fraction * 64 * 64);
+    expect(facts.tableCount).toBe(36 * 64);
     expect(facts.nonzeroOutsideTable).toBe(0);
     expect(facts.maxRelativeDifference).toBeLessThan(1e-6);
   });
