@@ -1,7 +1,7 @@
 import type { FastifyInstance } from 'fastify';
 import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
-import { samplingSchema } from '../sampling/index.ts';
+import { sampleOrderingSchema, samplingSchema } from '../sampling/index.ts';
 import { allLimitFields, type Limits, limitsId } from '../src/core/limits.ts';
 import { preferredType } from '../src/http/accept.ts';
 import { disconnectSignal } from '../src/http/disconnect-signal.ts';
@@ -54,6 +54,7 @@ export async function maskRoutes(app: FastifyInstance): Promise<void> {
   const tableParams = z.object({
     id: z.string().min(1).max(200).describe('Mask id from POST /v1/masks'),
   });
+  const tableQuery = z.strictObject({ order: sampleOrderingSchema.optional() });
   for (const format of ['csv', 'json'] as const) {
     const type = format === 'csv' ? 'text/csv' : 'application/json';
     app.withTypeProvider<ZodTypeProvider>().get(
@@ -63,12 +64,14 @@ export async function maskRoutes(app: FastifyInstance): Promise<void> {
           summary: `The mask's sampled positions in acquisition order, as ${format.toUpperCase()}`,
           description:
             'Cartesian: header order,ky,kx with integer indices relative to the k-space centre (ky up), ' +
-            'linear order; non-Cartesian: header order,kx,ky in cycles per FOV, readout by readout. ' +
+            'in the order `order` names (linear by default, centre-out, spiral-out; docs/design.md §4.10); ' +
+            'non-Cartesian: header order,kx,ky in cycles per FOV, readout by readout (only order=linear). ' +
             (format === 'csv'
               ? 'RFC 4180, one header row, CRLF line ends, no comment lines.'
               : 'The same rows with the matrix, R, ACS, seed and ordering.'),
           tags: ['sampling'],
           params: tableParams,
+          querystring: tableQuery,
           response: {
             200: {
               description: `The sample table (${type})`,
@@ -81,15 +84,29 @@ export async function maskRoutes(app: FastifyInstance): Promise<void> {
                 },
               },
             },
-            ...problemResponses(401, 404),
+            ...problemResponses(401, 404, 422),
           },
         },
       },
       async (request, reply) => {
         const { id } = request.params;
-        const table = masks.table(id, format, tenancy(request));
+        const order = request.query.order ?? 'linear';
+        const table = masks.table(id, format, tenancy(request), order);
         if (!table) {
           throw new HttpProblem(404, `no mask ${id}`, [{ field: 'id', message: 'unknown mask id' }]);
+        }
+        if (!Buffer.isBuffer(table)) {
+          throw new HttpProblem(
+            422,
+            `mask ${id} is a non-Cartesian trajectory: its table keeps the readout order`,
+            [
+              {
+                field: 'order',
+                message: 'trajectory tables are listed readout by readout',
+                allowed: 'linear',
+              },
+            ],
+          );
         }
         if (format === 'json') return reply.type('application/json').send(JSON.parse(table.toString('utf8')));
         return reply

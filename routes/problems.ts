@@ -1,7 +1,13 @@
 import type { FastifyInstance } from 'fastify';
 import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
-import { HttpProblem, jsonResponse, limitProblemKind, problemKinds } from '../src/http/problem.ts';
+import {
+  formatUnavailableProblemKind,
+  HttpProblem,
+  jsonResponse,
+  limitProblemKind,
+  problemKinds,
+} from '../src/http/problem.ts';
 
 const problemTypeSchema = z
   .object({ type: z.string(), title: z.string(), status: z.int(), description: z.string() })
@@ -10,6 +16,7 @@ const problemTypeSchema = z
 const allTypes = [
   ...Object.entries(problemKinds).map(([status, kind]) => ({ ...kind, status: Number(status) })),
   { ...limitProblemKind, status: 422 },
+  { ...formatUnavailableProblemKind, status: 404 },
 ];
 
 /** GET /problems/{name}: the documentation a problem's `type` URI points at (RFC 9457 §3.1.1). */

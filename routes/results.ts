@@ -2,11 +2,16 @@ import type { FastifyInstance } from 'fastify';
 import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
 import { sendBytes, sendPng } from '../src/http/png-reply.ts';
-import { HttpProblem, problemResponses } from '../src/http/problem.ts';
+import { formatUnavailableProblemKind, HttpProblem, problemResponses } from '../src/http/problem.ts';
 import { idParams } from '../src/http/schemas.ts';
 import { niftiFloat32Volumes } from '../src/io/nifti-writer.ts';
 import { greyPng } from '../src/render/png.ts';
-import { resultImageNames } from '../src/services/index.ts';
+import {
+  acquisitionJson,
+  acquisitionNifti,
+  acquisitionUrls,
+  resultImageNames,
+} from '../src/services/index.ts';
 
 const names = Object.values(resultImageNames);
 
@@ -185,6 +190,118 @@ export async function resultRoutes(app: FastifyInstance): Promise<void> {
         .header('content-disposition', `attachment; filename="${id}-images.nii"`)
         .header('cache-control', 'private, max-age=86400, immutable');
       return sendBytes(reply, 'application/octet-stream', nifti);
+    },
+  );
+
+  /** The stored acquisition of a reconstruction the caller may see, or the 404 that says why not. */
+  const acquisitionOf = (id: string, scope: ReturnType<typeof tenancy>['scope']) => {
+    const stored = store.getResultAcquisition(id, scope);
+    if (stored) return stored;
+    if (store.getResult(id, scope) === undefined) throw notFound(id);
+    throw new HttpProblem(404, `result ${id} has no stored acquisition`, [
+      {
+        field: 'id',
+        message: 'only reconstructions stored since acquisitions were kept have one (masks never do)',
+      },
+    ]);
+  };
+
+  r.get(
+    '/v1/results/:id/acquisition.nii',
+    {
+      schema: {
+        summary: 'The acquired k-space of a reconstruction as a complex64 NIfTI-1 file',
+        description:
+          'What the reconstruction method was given (after noise and prewhitening), coil as the last ' +
+          'dimension. Cartesian: dim = [4, nx, ny, 1, coils], voxel (u, v, 0, c) = k-space column u ' +
+          '(kx = u − ⌊nx/2⌋), row v (ky = ⌊ny/2⌋ − v), zeros where not acquired; non-Cartesian: ' +
+          'dim = [4, samples per readout, readouts, 1, coils] in acquisition order. ' +
+          'acquisition.json carries the header (mask table or trajectory, noise, seed, scaling).',
+        tags: ['results'],
+        params: idParams,
+        response: {
+          200: {
+            description: 'NIfTI-1 bytes (datatype 32, complex64)',
+            content: { 'application/octet-stream': { schema: z.string().describe('NIfTI-1 bytes') } },
+          },
+          ...problemResponses(401, 404),
+        },
+      },
+    },
+    async (request, reply) => {
+      const { id } = request.params;
+      const nifti = acquisitionNifti(acquisitionOf(id, tenancy(request).scope));
+      reply
+        .header('content-disposition', `attachment; filename="${id}-acquisition.nii"`)
+        .header('link', `<${acquisitionUrls(id).json}>; rel="describedby"; type="application/json"`)
+        .header('cache-control', 'private, max-age=86400, immutable');
+      return sendBytes(reply, 'application/octet-stream', nifti);
+    },
+  );
+
+  r.get(
+    '/v1/results/:id/acquisition.json',
+    {
+      schema: {
+        summary: 'The header of a reconstruction’s acquisition bundle',
+        description:
+          'Matrix, field of view, coils, the layout of acquisition.nii, noise (prewhitened, variance ' +
+          'per complex sample, covariance form, seed), the sampling summary, the ordering and the ' +
+          'sample table (Cartesian: order,ky,kx grid indices relative to the centre; non-Cartesian: ' +
+          'order,kx,ky in cycles per FOV), the scaling and how the zero-filled image is formed. ' +
+          'Format: docs/design.md §4.11.',
+        tags: ['results'],
+        params: idParams,
+        response: {
+          200: {
+            description: 'The acquisition header',
+            content: { 'application/json': { schema: z.looseObject({}).describe('acquisition header') } },
+          },
+          ...problemResponses(401, 404),
+        },
+      },
+    },
+    async (request, reply) => {
+      const { id } = request.params;
+      const body = acquisitionJson(id, acquisitionOf(id, tenancy(request).scope));
+      return reply
+        .header('cache-control', 'private, max-age=86400, immutable')
+        .type('application/json')
+        .send(body);
+    },
+  );
+
+  r.get(
+    '/v1/results/:id/acquisition.h5',
+    {
+      schema: {
+        summary: 'The acquisition as ISMRMRD HDF5: not available on this server (404 with a Link)',
+        description:
+          'ISMRMRD stores each readout as a compound record holding variable-length arrays, which ' +
+          'h5wasm 0.10.3 cannot write (no npm HDF5 library without a native build can). The answer is ' +
+          `a 404 of type ${formatUnavailableProblemKind.type} whose Link header names acquisition.nii ` +
+          'and acquisition.json, which carry the same content (docs/design.md §4.11).',
+        tags: ['results'],
+        params: idParams,
+        response: { ...problemResponses(401, 404) },
+      },
+    },
+    async (request) => {
+      const { id } = request.params;
+      acquisitionOf(id, tenancy(request).scope);
+      const urls = acquisitionUrls(id);
+      throw new HttpProblem(
+        404,
+        `the acquisition of ${id} is not available as ISMRMRD HDF5 on this server; ` +
+          `the same content is at ${urls.nifti} (samples) and ${urls.json} (header)`,
+        [{ field: 'id', message: 'ISMRMRD export is not available', allowed: `${urls.nifti}, ${urls.json}` }],
+        {
+          kind: formatUnavailableProblemKind,
+          headers: {
+            link: `<${urls.nifti}>; rel="alternate"; type="application/octet-stream", <${urls.json}>; rel="describedby"; type="application/json"`,
+          },
+        },
+      );
     },
   );
 }

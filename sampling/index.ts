@@ -15,6 +15,12 @@ export {
 export { DEFAULT_POISSON_POWER, poissonRadiusProfile } from './poisson-disc.ts';
 export { GOLDEN_ANGLE, GOLDEN_RATIO, nyquistSpokes, spokeAngles } from './radial.ts';
 export { rasteriseTrajectory } from './rasterise-trajectory.ts';
+export {
+  orderedSampleTable,
+  type SampleOrdering,
+  sampleOrderingSchema,
+  sampleOrderings,
+} from './sample-order.ts';
 export { type SampleTable, sampleTable, sampleTableCsv, sampleTableJson } from './sample-table.ts';
 export { countSampled, type SampledMask } from './sampled-mask.ts';
 export {

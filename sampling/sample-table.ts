@@ -1,3 +1,4 @@
+import type { SampleOrdering } from './sample-order.ts';
 import type { SampledMask } from './sampled-mask.ts';
 
 /**
@@ -6,14 +7,15 @@ import type { SampledMask } from './sampled-mask.ts';
  * - Cartesian (and rasterised trajectories): `order,ky,kx`, integer grid indices relative to the
  *   k-space centre (⌊ny/2⌋, ⌊nx/2⌋), ky pointing up (ky = ⌊ny/2⌋ − row). Order "linear": ky from
  *   its most negative value upwards, kx ascending within a ky line (common practice for a
- *   sequential Cartesian acquisition).
+ *   sequential Cartesian acquisition); other orders in sample-order.ts.
  * - Non-Cartesian: `order,kx,ky` in cycles per field of view, readout by readout in the order the
  *   readouts are acquired (spokes in their angle order, interleaves by rotation), sample by sample.
  */
 export interface SampleTable {
   columns: readonly ['order', 'ky', 'kx'] | readonly ['order', 'kx', 'ky'];
   unit: 'grid index' | 'cycles per FOV';
-  ordering: 'linear' | 'readout';
+  /** Cartesian: one of sample-order.ts (`linear` as drawn); trajectories: their readout order. */
+  ordering: SampleOrdering | 'readout';
   /** order, then the two coordinates, flat: 3 numbers per sample. */
   values: Float64Array;
   count: number;

@@ -15,6 +15,8 @@ export interface CoilAcquisition {
   sigma: number;
   /** σ per real channel of each coil's receiver noise before prewhitening (the unit diagonal of Ψ). */
   coilSigma: number;
+  /** False when Ψ = I exactly and the data were left as they are. */
+  prewhitened: boolean;
 }
 
 /**
@@ -61,7 +63,7 @@ export function acquireCoils(
     model.prewhiten(kspace);
     model.prewhiten(whitenedFull);
   }
-  return { kspace, maps, full: whitenedFull, sigma, coilSigma };
+  return { kspace, maps, full: whitenedFull, sigma, coilSigma, prewhitened: !white };
 }
 
 /** Ψ = I exactly: prewhitening would divide by ones, so it is skipped. */

@@ -16,6 +16,13 @@ export async function readFilePart(
     ]);
   }
   const bytes = await part.toBuffer().catch(malformedMultipart('file'));
+  // busboy marks the stream truncated at the size limit; when the limit falls on the last chunk
+  // the plugin's toBuffer returns the cut bytes without its 413, so a cut file is refused here.
+  if (part.file.truncated) {
+    throw new HttpProblem(413, 'the file is larger than the upload limit', [
+      { field: 'file', message: 'larger than the upload limit (MAX_UPLOAD_BYTES)' },
+    ]);
+  }
   return { bytes, fields: part.fields };
 }
 

@@ -127,6 +127,18 @@ export const limitProblemKind: ProblemKind = {
     'Matrix side, iterations, plan cells, image size, k-space points or the decompressed size of an upload exceed the limits this server is configured with (422).',
 };
 
+/**
+ * A representation the contract names but this server cannot produce (404 with its own type): the
+ * acquisition as ISMRMRD HDF5, which no npm HDF5 library without a native build can write
+ * (docs/design.md §4.11); the `Link` header points at the bundle that carries the same content.
+ */
+export const formatUnavailableProblemKind: ProblemKind = {
+  type: '/problems/format-not-available',
+  title: 'Format not available',
+  description:
+    'The resource exists but not in the requested file format on this server (404); the Link header and detail name the format that carries the same content.',
+};
+
 /** An error the HTTP layer turns into a problem+json response as it is. */
 export class HttpProblem extends Error {
   override readonly name = 'HttpProblem';

@@ -23,21 +23,7 @@ export function niftiFloat32Volumes(volumes: readonly NiftiVolume[], description
   if (volumes.some((v) => v.nx !== nx || v.ny !== ny || v.data.length !== nx * ny)) {
     throw new RangeError('every volume must hold nx·ny values of one size');
   }
-  if (!/^[\x20-\x7e]{0,79}$/.test(description)) throw new RangeError('descrip: at most 79 ASCII characters');
-  const plane = nx * ny;
-  const out = Buffer.alloc(VOXEL_OFFSET + 4 * plane * volumes.length);
-  out.writeInt32LE(HEADER_BYTES, 0); // sizeof_hdr
-  out.writeUInt8(0x72, 38); // regular = 'r' (an Analyze 7.5 field NIfTI-1 keeps); dim_info 0
-  const dim = [4, nx, ny, 1, volumes.length, 1, 1, 1];
-  for (let i = 0; i < dim.length; i++) out.writeInt16LE(dim[i], 40 + 2 * i);
-  out.writeInt16LE(16, 70); // datatype: DT_FLOAT32
-  out.writeInt16LE(32, 72); // bitpix
-  for (let i = 0; i < 8; i++) out.writeFloatLE(1, 76 + 4 * i); // pixdim: qfac 1, unit steps
-  out.writeFloatLE(VOXEL_OFFSET, 108); // vox_offset
-  out.writeFloatLE(0, 112); // scl_slope 0: no scaling
-  out.writeFloatLE(0, 116); // scl_inter
-  out.write(description, 148, 80, 'latin1'); // descrip (zero padded)
-  out.write('n+1\0', 344, 4, 'latin1'); // magic
+  const out = niftiWithHeader([nx, ny, 1, volumes.length], FLOAT32, description);
   let at = VOXEL_OFFSET;
   for (const volume of volumes) {
     for (let j = 0; j < ny; j++) {
@@ -48,5 +34,53 @@ export function niftiFloat32Volumes(volumes: readonly NiftiVolume[], description
       }
     }
   }
+  return out;
+}
+
+/**
+ * A single-file NIfTI-1 of complex64 values (datatype 32, bitpix 64: re, im as float32 pairs),
+ * dim = [4, d1, d2, d3, d4], the first index fastest; `data` holds the interleaved pairs in that
+ * order as they are (no flip), with the same header conventions as niftiFloat32Volumes.
+ */
+export function niftiComplex64(
+  dims: readonly [number, number, number, number],
+  data: Float32Array,
+  description: string,
+): Buffer {
+  if (data.length !== 2 * dims.reduce((a, b) => a * b, 1)) {
+    throw new RangeError(`${data.length / 2} complex values for dims ${dims.join('×')}`);
+  }
+  const out = niftiWithHeader(dims, COMPLEX64, description);
+  Buffer.from(data.buffer, data.byteOffset, data.byteLength).copy(out, VOXEL_OFFSET);
+  return out;
+}
+
+const FLOAT32 = { datatype: 16, bitpix: 32 };
+const COMPLEX64 = { datatype: 32, bitpix: 64 };
+
+/** A zeroed file with the NIfTI-1 header filled in (nifti1.h, docs/references.md §10.2). */
+function niftiWithHeader(
+  dims: readonly [number, number, number, number],
+  type: { datatype: number; bitpix: number },
+  description: string,
+): Buffer {
+  if (!/^[\x20-\x7e]{0,79}$/.test(description)) throw new RangeError('descrip: at most 79 ASCII characters');
+  if (dims.some((d) => !Number.isInteger(d) || d < 1 || d > 32767)) {
+    throw new RangeError(`NIfTI-1 dimensions are 1 … 32767: ${dims.join('×')}`);
+  }
+  const voxels = dims.reduce((a, b) => a * b, 1);
+  const out = Buffer.alloc(VOXEL_OFFSET + (type.bitpix / 8) * voxels);
+  out.writeInt32LE(HEADER_BYTES, 0); // sizeof_hdr
+  out.writeUInt8(0x72, 38); // regular = 'r' (an Analyze 7.5 field NIfTI-1 keeps); dim_info 0
+  const dim = [4, ...dims, 1, 1, 1];
+  for (let i = 0; i < dim.length; i++) out.writeInt16LE(dim[i], 40 + 2 * i);
+  out.writeInt16LE(type.datatype, 70);
+  out.writeInt16LE(type.bitpix, 72);
+  for (let i = 0; i < 8; i++) out.writeFloatLE(1, 76 + 4 * i); // pixdim: qfac 1, unit steps
+  out.writeFloatLE(VOXEL_OFFSET, 108); // vox_offset
+  out.writeFloatLE(0, 112); // scl_slope 0: no scaling
+  out.writeFloatLE(0, 116); // scl_inter
+  out.write(description, 148, 80, 'latin1'); // descrip (zero padded)
+  out.write('n+1\0', 344, 4, 'latin1'); // magic
   return out;
 }

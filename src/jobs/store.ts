@@ -26,6 +26,17 @@ export interface ResultArray {
   data: Float32Array;
 }
 
+/**
+ * A reconstruction's acquired data as stored (src/pipeline/acquired-data.ts): the export header
+ * (JSON), the complex64 samples and the layout bytes (Cartesian: the uint8 mask; non-Cartesian:
+ * none, the header's table has the points).
+ */
+export interface StoredAcquisition {
+  header: Record<string, unknown>;
+  samples: Float32Array;
+  layout: Uint8Array;
+}
+
 /** Uploaded coil sensitivity maps as stored (the planes are read separately). */
 export interface StoredCoilMaps {
   id: string;
@@ -135,6 +146,8 @@ CREATE TABLE IF NOT EXISTS result_images (
 CREATE TABLE IF NOT EXISTS result_arrays (
   result_id TEXT NOT NULL, name TEXT NOT NULL, nx INTEGER NOT NULL, ny INTEGER NOT NULL,
   white REAL NOT NULL, data BLOB NOT NULL, PRIMARY KEY (result_id, name));
+CREATE TABLE IF NOT EXISTS result_acquisitions (
+  result_id TEXT PRIMARY KEY, header TEXT NOT NULL, samples BLOB NOT NULL, layout BLOB NOT NULL);
 CREATE TABLE IF NOT EXISTS plans (
   seq INTEGER PRIMARY KEY AUTOINCREMENT, id TEXT NOT NULL UNIQUE, created_at TEXT NOT NULL,
   updated_at TEXT NOT NULL, status TEXT NOT NULL, body TEXT NOT NULL, total INTEGER NOT NULL,
@@ -447,6 +460,7 @@ export class Store {
     images: Record<string, Buffer>,
     provenance: { owner?: string | null; inputs?: InputRef[]; planId?: string } = {},
     arrays: Record<string, ResultArray> = {},
+    acquisition?: StoredAcquisition,
   ): boolean {
     const createdAt = new Date().toISOString();
     const inputs = provenance.inputs ?? [];
@@ -471,9 +485,37 @@ export class Store {
         const bytes = Buffer.from(a.data.buffer, a.data.byteOffset, a.data.byteLength);
         insertArray.run(id, name, a.nx, a.ny, a.white, bytes);
       }
+      if (acquisition) {
+        const { samples, layout } = acquisition;
+        this.db
+          .prepare(
+            'INSERT OR IGNORE INTO result_acquisitions (result_id, header, samples, layout) VALUES (?, ?, ?, ?)',
+          )
+          .run(
+            id,
+            JSON.stringify(acquisition.header),
+            Buffer.from(samples.buffer, samples.byteOffset, samples.byteLength),
+            Buffer.from(layout.buffer, layout.byteOffset, layout.byteLength),
+          );
+      }
       this.link('result', id, inputs);
       return true;
     })();
+  }
+
+  /** The acquired data stored with a result the scope may see. */
+  getResultAcquisition(id: string, scope: Scope = 'all'): StoredAcquisition | undefined {
+    const row = this.db
+      .prepare(
+        `SELECT header, samples, layout FROM result_acquisitions WHERE result_id = @id
+         AND EXISTS (SELECT 1 FROM results WHERE id = @id AND ${visible})`,
+      )
+      .get({ id, ...scopeParams(scope) }) as { header: string; samples: Buffer; layout: Buffer } | undefined;
+    if (!row) return undefined;
+    // Fresh, aligned copies: SQLite blobs need not be 4-byte aligned.
+    const samples = new Float32Array(row.samples.byteLength / 4);
+    new Uint8Array(samples.buffer).set(row.samples);
+    return { header: JSON.parse(row.header), samples, layout: Uint8Array.from(row.layout) };
   }
 
   /** The full-precision images of a result the scope may see, in the order they were stored. */
@@ -757,6 +799,7 @@ export class Store {
     if (kind === 'result') {
       this.db.prepare('DELETE FROM result_images WHERE result_id = ?').run(id);
       this.db.prepare('DELETE FROM result_arrays WHERE result_id = ?').run(id);
+      this.db.prepare('DELETE FROM result_acquisitions WHERE result_id = ?').run(id);
       this.db.prepare('DELETE FROM results WHERE id = ?').run(id);
     } else {
       const results = this.db.prepare('SELECT id FROM results WHERE plan_id = ?').all(id) as Array<{
@@ -782,7 +825,9 @@ export class Store {
     );
     const resultBytes = (r: string) =>
       `length(${r}.body) + COALESCE((SELECT SUM(length(png)) FROM result_images WHERE result_id = ${r}.id), 0)
-        + COALESCE((SELECT SUM(length(data)) FROM result_arrays WHERE result_id = ${r}.id), 0)`;
+        + COALESCE((SELECT SUM(length(data)) FROM result_arrays WHERE result_id = ${r}.id), 0)
+        + COALESCE((SELECT length(samples) + length(layout) + length(header) FROM result_acquisitions
+          WHERE result_id = ${r}.id), 0)`;
     // A plan's row results are part of the plan: counted in its bytes, aged and removed with it.
     const results = `SELECT 'result', id, created_at, ${resultBytes('results')}, 0, 1 FROM results
       WHERE plan_id IS NULL`;

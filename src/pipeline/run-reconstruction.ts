@@ -43,6 +43,7 @@ import {
   zeroFilledCoilCombination,
   zeroFilledImage,
 } from '../recon/index.ts';
+import { type AcquiredData, type AcquiredNoise, acquiredDataOf } from './acquired-data.ts';
 import {
   arrayModel,
   imageCoilSimulation,
@@ -141,6 +142,8 @@ export interface ReconstructionOutcome {
   snrRetained?: GFactorResult['snrRetained'];
   /** Feature-fidelity scores when the request has `lesions` (src/pipeline/lesion-run.ts). */
   fidelity?: FidelityOutcome;
+  /** The samples the method was given, kept with the result for export (acquired-data.ts). */
+  acquisition: AcquiredData;
 }
 
 export interface PipelineContext {
@@ -437,6 +440,7 @@ export async function runReconstruction(
   let coilSigma = 0;
   let whitenedFull: MultiCoilKspace | undefined;
   let sigma = 0;
+  let noise: Omit<AcquiredNoise, 'seed'>;
   const noiseSeed = noiseSeedFor(baseSeed);
   if (req.lesions && (simulation || raw || sampled.trajectory)) {
     throw new ValidationError({
@@ -456,6 +460,9 @@ export async function runReconstruction(
     };
     referenceImage = acquired.reference;
     objectMask = acquired.objectMask;
+    // Prewhitened scan noise has unit variance per complex sample; the added noise 2σ² on top.
+    const prewhitened = raw.noiseCovariance !== null;
+    noise = { prewhitened, variance: prewhitened ? 1 + 2 * acquired.sigma ** 2 : null };
   } else if (simulation) {
     if (sampled.trajectory) {
       throw new ValidationError({
@@ -472,6 +479,8 @@ export async function runReconstruction(
       );
     }
     coilSigma = acquired.coilSigma;
+    // CN(0, 2σ_c²Ψ) times L⁻¹ is CN(0, 2σ_c²·I).
+    noise = { prewhitened: acquired.prewhitened, variance: 2 * coilSigma ** 2 };
     whitenedFull = acquired.full;
     sigma = acquired.sigma;
     const coilData: CoilData = { kspace: acquired.kspace, maps: acquired.maps };
@@ -485,6 +494,7 @@ export async function runReconstruction(
       ? trajectoryInput(single, sampled, req.noise, noiseSeed, notes)
       : cartesianInput(single, sampled, req.noise, noiseSeed);
     sigma = acquired.sigma;
+    noise = { prewhitened: false, variance: 2 * sigma ** 2 };
     if (sigma > 0) notes.push(`complex Gaussian noise, σ = ${sigma.toPrecision(4)} per real channel`);
     input = acquired.input;
     // Non-Cartesian: the gridded image already made for `kspace` is the zero-filled comparison.
@@ -576,6 +586,7 @@ export async function runReconstruction(
     ...coilFacts,
     ...gFactorFacts.facts,
     ...(fidelity ? { fidelity } : {}),
+    acquisition: acquiredDataOf(input, { ...noise, seed: noiseSeed }),
   };
 }
 

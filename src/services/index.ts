@@ -1,3 +1,9 @@
+export {
+  ACQUISITION_FORMAT,
+  acquisitionJson,
+  acquisitionNifti,
+  acquisitionUrls,
+} from './acquisition-export.ts';
 export type { Caller, MissingImage } from './caller.ts';
 export { CoilMapService, type CoilMapsInfo, coilMapsInfoSchema } from './coil-maps.ts';
 export { contentId } from './content-id.ts';

@@ -1,7 +1,10 @@
 import { z } from 'zod';
 import {
   type MaskDiagnostics,
+  orderedSampleTable,
   type SampledMask,
+  type SampleOrdering,
+  type SampleTable,
   type SamplingSpec,
   sampleTable,
   sampleTableCsv,
@@ -20,6 +23,13 @@ import { psfSummary, psfSummarySchema, sampledSummary, sampledSummarySchema } fr
 /** Stored beside a mask's PNGs: its sample table (served by GET /v1/masks/{id}/table.csv|.json). */
 const TABLE_CSV = 'table.csv';
 const TABLE_JSON = 'table.json';
+
+/** The stored JSON sample table (sampleTableJson), as far as reordering reads it. */
+interface StoredTableJson {
+  unit: SampleTable['unit'];
+  count: number;
+  samples: number[][];
+}
 
 /** A drawn mask as stored and answered: its summary, PSF side lobes and the URLs of its two PNGs. */
 export const maskResultSchema = sampledSummarySchema.extend({
@@ -87,10 +97,36 @@ export class MaskService {
    * The stored sample table of a described mask (docs/design.md §4.7), CSV or JSON; undefined for
    * an unknown id, another tenant's mask or a result that is not a mask.
    */
-  table(id: string, format: 'csv' | 'json', caller: Caller): Buffer | undefined {
+  table(
+    id: string,
+    format: 'csv' | 'json',
+    caller: Caller,
+    ordering: SampleOrdering = 'linear',
+  ): Buffer | { notCartesian: true } | undefined {
     const { store } = this.deps;
     if (store.getResult(id, caller.scope)?.kind !== 'mask') return undefined;
-    return store.getResultImage(id, format === 'csv' ? TABLE_CSV : TABLE_JSON, caller.scope);
+    if (ordering === 'linear') {
+      return store.getResultImage(id, format === 'csv' ? TABLE_CSV : TABLE_JSON, caller.scope);
+    }
+    // Other orders are the stored (linear) table's rows permuted: nothing to draw again.
+    const stored = store.getResultImage(id, TABLE_JSON, caller.scope);
+    if (!stored) return undefined;
+    const json = JSON.parse(stored.toString('utf8')) as StoredTableJson;
+    if (json.unit !== 'grid index') return { notCartesian: true };
+    const linear: SampleTable = {
+      columns: ['order', 'ky', 'kx'],
+      unit: 'grid index',
+      ordering: 'linear',
+      values: Float64Array.from(json.samples.flat()),
+      count: json.count,
+    };
+    const table = orderedSampleTable(linear, ordering);
+    if (format === 'csv') return Buffer.from(sampleTableCsv(table));
+    const samples: number[][] = [];
+    for (let i = 0; i < table.values.length; i += 3) {
+      samples.push([table.values[i], table.values[i + 1], table.values[i + 2]]);
+    }
+    return Buffer.from(JSON.stringify({ ...json, ordering, samples }));
   }
 
   private draw(

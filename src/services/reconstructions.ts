@@ -11,6 +11,7 @@ import { gFactorSummarySchema } from '../pipeline/coil-g-factor.ts';
 import type { ReconstructionOutcome, ReconstructionRequest } from '../pipeline/run-reconstruction.ts';
 import { coilMagnitudeMontage, G_FACTOR_WHITE } from '../render/coil-montage.ts';
 import { greyPng, maskPng } from '../render/png.ts';
+import { acquisitionUrls, storedAcquisition } from './acquisition-export.ts';
 import type { Caller, MissingImage } from './caller.ts';
 import { coilMapInputs, coilMapRefs, loadNamedCoilMaps } from './coil-map-refs.ts';
 import { coilMapsNotFound } from './coil-maps.ts';
@@ -98,6 +99,13 @@ export const reconstructionSchema = z.object({
     .optional()
     .describe('1/(g·√R) over the object: the SNR kept against the fully sampled scan (beside gFactor)'),
   fidelity: fidelitySchema.optional(),
+  acquisition: z
+    .object({ nifti: z.string(), json: z.string() })
+    .optional()
+    .describe(
+      'the acquired data the method was given, for your own pipeline: complex64 NIfTI and its JSON header ' +
+        '(absent from results stored before acquisitions were kept)',
+    ),
   createdAt: z.string(),
 });
 
@@ -182,7 +190,10 @@ export class ReconstructionService {
     const pngs = await renderImages(scored.outcome, scored.diagnostics);
     const body = describe(id, scored);
     const arrays = resultArrays(scored.outcome);
-    return this.deps.store.putResult(id, 'reconstruction', body, pngs, provenance, arrays) ? body : undefined;
+    const acquisition = storedAcquisition(scored.outcome);
+    return this.deps.store.putResult(id, 'reconstruction', body, pngs, provenance, arrays, acquisition)
+      ? body
+      : undefined;
   }
 
   /** A stored reconstruction the caller may see. */
@@ -259,6 +270,7 @@ function describe(id: string, { outcome, diagnostics, zeroFilledMetrics }: Score
     ...(outcome.gFactor ? { gFactor: outcome.gFactor } : {}),
     ...(outcome.snrRetained ? { snrRetained: outcome.snrRetained } : {}),
     ...(outcome.fidelity ? { fidelity: describeFidelity(outcome.fidelity) } : {}),
+    acquisition: acquisitionUrls(id),
     createdAt: new Date().toISOString(),
   };
 }

@@ -297,7 +297,7 @@ export class SingleRun {
 
   /**
    * Links to each image as the service serves it (8-bit and 16-bit PNG, float32 NIfTI), to the mask
-   * the mask route drew as PNG, and to its sample table.
+   * the mask route drew as PNG, to its sample table, and to the acquired k-space with its header.
    */
   async offerDownloads(outcome, maskPng, mask) {
     const name = (image) => `${image}-${outcome.id}.png`;
@@ -324,6 +324,18 @@ export class SingleRun {
         `images-${outcome.id}.nii`,
       ),
       offerResource(byId('downloadMaskTable'), mask.tables.csv, 'text/csv', `mask-${mask.id}.csv`),
+      offerResource(
+        byId('downloadAcquisitionNifti'),
+        outcome.acquisition.nifti,
+        'application/octet-stream',
+        `acquisition-${outcome.id}.nii`,
+      ),
+      offerResource(
+        byId('downloadAcquisitionJson'),
+        outcome.acquisition.json,
+        'application/json',
+        `acquisition-${outcome.id}.json`,
+      ),
     ]);
     offerBlob(byId('downloadMask'), maskPng, name('mask'));
     byId('singleDownloads').hidden = false;

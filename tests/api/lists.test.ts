@@ -2,7 +2,14 @@ import { parse as parseCsv } from 'csv-parse/sync';
 import sharp from 'sharp';
 import { describe, expect, it } from 'vitest';
 import { csvColumns } from '../../src/plan/index.ts';
-import { expectDocumented, expectProblem, oneCellPlan, sharedTestApp, type TestApp } from './helpers.ts';
+import {
+  binary,
+  expectDocumented,
+  expectProblem,
+  oneCellPlan,
+  sharedTestApp,
+  type TestApp,
+} from './helpers.ts';
 
 // Source for the checks below: the v1 HTTP contract (docs/design.md §4: GET /v1/plans and GET
 // /v1/images answer { items, next }, newest first, cursor paging), RFC 9457 problem bodies naming the
@@ -221,6 +228,11 @@ describe('each plan row keeps its seed-1 reconstruction', () => {
       expect(stored.body.metrics, row.key).toEqual(single.body.metrics);
       expect(stored.body.zeroFilledMetrics, row.key).toEqual(single.body.zeroFilledMetrics);
       expect(stored.body.acceleration).toEqual(single.body.acceleration);
+      // The acquired data kept with the row (docs/design.md §4.11) are the single run's, byte for byte.
+      const nii = async (resultId: string) =>
+        (await t.http().get(`/v1/results/${resultId}/acquisition.nii`).buffer(true).parse(binary))
+          .body as Buffer;
+      expect((await nii(row.resultId)).equals(await nii(single.body.id)), row.key).toBe(true);
     }
   });
 

@@ -33,6 +33,7 @@ for (const [title, path, name] of [
   ['planning', './plan.bench.ts', 'benchPlan'],
   ['service', './service.bench.ts', 'benchService'],
   ['coil maps', './coil-maps.bench.ts', 'benchCoilMaps'],
+  ['raw import', './raw-import.bench.ts', 'benchRawImport'],
   ['job queue', './queue.bench.ts', 'benchQueue'],
 ] as const) {
   const group = await optional(title, path, name);

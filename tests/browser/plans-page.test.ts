@@ -383,6 +383,14 @@ describe('stored plans, addresses and downloads in Chromium', () => {
     expect(nifti.type).toBe('application/octet-stream');
     expect(nifti.bytes.readInt32LE(0)).toBe(348);
     expect(nifti.bytes.readInt16LE(70)).toBe(16);
+    // The acquired k-space: complex64 NIfTI-1 (datatype 32, nifti1.h), 32×32 grid, one coil, and its header.
+    const acquisition = await fetchLink('#downloadAcquisitionNifti');
+    expect(acquisition.bytes.readInt16LE(70)).toBe(32);
+    expect([1, 2, 3, 4].map((i) => acquisition.bytes.readInt16LE(40 + 2 * i))).toEqual([32, 32, 1, 1]);
+    const acquisitionHeader = JSON.parse(
+      (await fetchLink('#downloadAcquisitionJson')).bytes.toString('utf8'),
+    );
+    expect(acquisitionHeader).toMatchObject({ resultId: outcome.id, geometry: 'cartesian', coils: 1 });
     // The mask's sample table: RFC 4180 CSV with the Cartesian header.
     const table = await fetchLink('#downloadMaskTable');
     expect(table.type).toMatch(/^text\/csv/);
