@@ -1,0 +1,196 @@
+import { resolveSampling, type SamplingSpec } from '../../sampling/index.ts';
+import { magnitude } from '../core/complex-image.ts';
+import { ValidationError } from '../core/errors.ts';
+import { defaultLimits } from '../core/limits.ts';
+import type { RealImage } from '../core/real-image.ts';
+import type { RealVolume } from '../core/real-volume.ts';
+import type { MetricSet } from '../metrics/index.ts';
+import type { ReconInput } from '../recon/index.ts';
+import { type PlaneReconstructions, reconstructPlanes } from '../volume/plane-reconstruction.ts';
+import { resampleTrilinear } from '../volume/resample-volume.ts';
+import { acquireMultiSlice, acquireVolume3d, type PlaneStack } from '../volume/volume-acquisition.ts';
+import type { VolumeAcquisitionMode } from '../volume/volume-schema.ts';
+import { type SliceScores, scoreVolume } from '../volume/volume-scores.ts';
+import type { PipelineContext, ReconstructionOutcome, ReconstructionRequest } from './run-reconstruction.ts';
+
+/** What a volume adds to a reconstruction outcome (docs/design.md §2.4). */
+export interface VolumeOutcome {
+  acquisition: VolumeAcquisitionMode;
+  matrix: { nx: number; ny: number; nz: number };
+  /** The axis the reconstructed planes are stacked along: x (3D hybrid space) or z (multi-slice). */
+  planeAxis: 'x' | 'z';
+  /** Scores of every reconstructed plane, in planeAxis order. */
+  slices: SliceScores;
+  /** The volume scores of the zero-filled planes. */
+  zeroFilledMetrics: MetricSet;
+  /** Magnitudes as volumes (x fastest), for the float32 NIfTI download. */
+  volumes: { reconstruction: RealVolume; zeroFilled: RealVolume; reference: RealVolume };
+}
+
+/** Reconstructs a run of planes: in this thread by default, across the worker pool when the service says so. */
+export type PlaneRunner = (
+  inputs: ReconInput[],
+  request: Pick<ReconstructionRequest, 'method'>,
+  partialFourier: PlaneStackBand,
+) => Promise<PlaneReconstructions>;
+type PlaneStackBand = Parameters<typeof reconstructPlanes>[2];
+
+/** Refuses what the volume pipeline does not model, naming the field. */
+function refuseUnsupported(req: ReconstructionRequest): void {
+  const refuse = (field: string, message: string, allowed: string) => {
+    throw new ValidationError({ field, message, allowed });
+  };
+  if (!('imageId' in req.source)) {
+    refuse(
+      'phantom' in req.source ? 'source.phantom' : 'source.rawId',
+      'volumes (matrix.nz > 1) come from an uploaded NIfTI volume only, for now',
+      'source: { imageId } of an image uploaded with slices=all',
+    );
+  }
+  if (req.coils && !('array' in req.coils && req.coils.array === 'uniform')) {
+    refuse('coils', 'volumes are simulated with the uniform single coil only', "coils: { array: 'uniform' }");
+  }
+  if (req.lesions)
+    refuse('lesions', 'lesion studies run on 2D acquisitions only', 'no lesions with matrix.nz');
+  if (req.phase)
+    refuse('phase', 'a simulated object phase is not modelled for volumes', 'no phase with matrix.nz');
+  if (req.gFactor)
+    refuse('gFactor', 'g-factors need a receive array; volumes use one coil', 'no gFactor with matrix.nz');
+}
+
+/** Stacks planes back into a volume (x fastest), from x-planes (ny × nz) or z-slices (ny × nx). */
+function assemble(
+  planes: readonly RealImage[],
+  axis: 'x' | 'z',
+  nx: number,
+  ny: number,
+  nz: number,
+): RealVolume {
+  const data = new Float64Array(nx * ny * nz);
+  if (axis === 'z') {
+    planes.forEach((plane, z) => {
+      data.set(plane.data, z * nx * ny);
+    });
+  } else {
+    planes.forEach((plane, x) => {
+      for (let y = 0; y < ny; y++)
+        for (let z = 0; z < nz; z++) data[(z * ny + y) * nx + x] = plane.data[y * nz + z];
+    });
+  }
+  return { nx, ny, nz, data };
+}
+
+function centralSlice(volume: RealVolume): RealImage {
+  const n = volume.nx * volume.ny;
+  const z = Math.floor(volume.nz / 2);
+  return { nx: volume.nx, ny: volume.ny, data: volume.data.slice(z * n, (z + 1) * n) };
+}
+
+/**
+ * A volume request (matrix.nz > 1): the upload's volume, the acquisition (3D: ky–kz pattern, exact
+ * readout transform, hybrid-space x-planes; multi-slice: the ky–kx pattern on every z-slice), the
+ * 2D method on every plane, scores per plane and over the volume. Images: the central z-slice.
+ */
+export async function runVolumeReconstruction(
+  req: ReconstructionRequest,
+  seed: number | undefined,
+  ctx: PipelineContext & { runPlanes?: PlaneRunner },
+  noiseSeedFor: (seed: number) => number,
+): Promise<ReconstructionOutcome> {
+  refuseUnsupported(req);
+  const limits = ctx.limits ?? defaultLimits;
+  const { nx, ny } = req.matrix;
+  const nz = req.matrix.nz as number;
+  const acquisition = req.acquisition ?? '3d';
+  const notes: string[] = [];
+  const id = (req.source as { imageId: string }).imageId;
+  if (!ctx.loadVolume) {
+    throw new ValidationError({
+      field: 'source.imageId',
+      message: 'uploaded volumes are not available here',
+    });
+  }
+  const loaded = await ctx.loadVolume(id);
+  const volume = resampleTrilinear(loaded, nx, ny, nz);
+  if (volume !== loaded) {
+    notes.push(
+      `uploaded volume resampled from ${loaded.nz}×${loaded.ny}×${loaded.nx} to ${nz}×${ny}×${nx} (trilinear)`,
+    );
+  }
+  notes.push(
+    'uploaded volume: k-space is the DFT of the same voxels the reconstruction inverts (inverse crime)',
+  );
+  const sampling =
+    seed !== undefined && req.sampling.pattern !== 'custom'
+      ? ({ ...req.sampling, seed } as SamplingSpec)
+      : req.sampling;
+  // 3D: the pattern lives on the ky–kz plane (ny rows × nz columns); multi-slice: on ky–kx.
+  const grid = acquisition === '3d' ? { nx: nz, ny } : { nx, ny };
+  const sampled = await resolveSampling(grid, sampling, limits);
+  if (sampled.trajectory) {
+    throw new ValidationError({
+      field: 'sampling.trajectory',
+      message: 'volumes are acquired on the Cartesian grid only; this trajectory is non-Cartesian',
+      allowed: "a Cartesian pattern, or trajectory: 'rasterised'",
+    });
+  }
+  const noiseSeed = noiseSeedFor(seed ?? sampled.seed ?? 0);
+  const stack: PlaneStack =
+    acquisition === '3d'
+      ? acquireVolume3d(volume, sampled, req.noise, noiseSeed)
+      : acquireMultiSlice(volume, sampled, req.noise, noiseSeed);
+  if (stack.sigma > 0)
+    notes.push(`complex Gaussian noise, σ = ${stack.sigma.toPrecision(4)} per real channel`);
+  notes.push(
+    acquisition === '3d'
+      ? `3D: readout x transformed exactly, ${nx} hybrid-space x-planes (ky × kz = ${ny}×${nz}) reconstructed`
+      : `multi-slice: ${nz} z-slices (ky × kx = ${ny}×${nx}) acquired and reconstructed separately`,
+  );
+  const runPlanes: PlaneRunner =
+    ctx.runPlanes ??
+    (async (inputs, { method }, band) =>
+      reconstructPlanes(inputs, method, band, { signal: ctx.signal, limits }));
+  const planes = await runPlanes(stack.inputs, req, sampled.partialFourier);
+  if (planes.info.note) notes.push(String(planes.info.note));
+  const toReal = (images: typeof planes.images): RealImage[] =>
+    images.map((image) => ({ nx: image.nx, ny: image.ny, data: magnitude(image) }));
+  const estimates = toReal(planes.images);
+  const zeroFilledPlanes = toReal(planes.zeroFilled);
+  const scored = scoreVolume(estimates, stack.references);
+  const zeroFilledScores = scoreVolume(zeroFilledPlanes, stack.references);
+  const axis = acquisition === '3d' ? 'x' : 'z';
+  const volumes = {
+    reconstruction: assemble(estimates, axis, nx, ny, nz),
+    zeroFilled: assemble(zeroFilledPlanes, axis, nx, ny, nz),
+    reference: assemble(stack.references, axis, nx, ny, nz),
+  };
+  const reconstruction = centralSlice(volumes.reconstruction);
+  const reference = centralSlice(volumes.reference);
+  const errorMap = new Float64Array(nx * ny);
+  for (let i = 0; i < errorMap.length; i++)
+    errorMap[i] = Math.abs(reconstruction.data[i] - reference.data[i]);
+  return {
+    acceleration: sampled.acceleration,
+    acquired: sampled.acquired,
+    fraction: sampled.fraction,
+    metrics: scored.volume,
+    timing: { reconMs: planes.reconMs },
+    info: planes.info,
+    notes,
+    images: {
+      reconstruction,
+      zeroFilled: centralSlice(volumes.zeroFilled),
+      reference,
+      errorMap: { nx, ny, data: errorMap },
+    },
+    sampled,
+    volume: {
+      acquisition,
+      matrix: { nx, ny, nz },
+      planeAxis: axis,
+      slices: scored.slices,
+      zeroFilledMetrics: zeroFilledScores.volume,
+      volumes,
+    },
+  };
+}
