@@ -1,4 +1,5 @@
-import { DecodeError } from '../core/errors.ts';
+import { DecodeError, LimitError } from '../core/errors.ts';
+import { MAX_VOLUME_VOXELS } from '../core/matrix.ts';
 import type { DecodedImage, DecodeOptions } from './decoded-image.ts';
 import { checkIndex } from './image-size.ts';
 import { checkNiftiHeader, type NiftiHeaderOptions } from './nifti-header.ts';
@@ -136,6 +137,13 @@ export function decodeNifti(bytes: Uint8Array, options: DecodeOptions = {}): Dec
   readSlice(data, slice, 0);
   let whole: Float64Array | undefined;
   if (options.wholeVolume) {
+    if (nx * ny * nz > MAX_VOLUME_VOXELS || (options.maxSide !== undefined && nz > options.maxSide)) {
+      throw new LimitError({
+        field: 'file.dim[3]',
+        message: `a ${nx}×${ny}×${nz} volume is larger than the configured limit`,
+        allowed: `nz ≤ ${options.maxSide ?? 'the matrix limit'} and nx·ny·nz ≤ ${MAX_VOLUME_VOXELS}`,
+      });
+    }
     whole = new Float64Array(sliceVoxels * nz);
     for (let k = 0; k < nz; k++) readSlice(whole, k, k * sliceVoxels);
   }

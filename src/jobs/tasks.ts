@@ -4,6 +4,7 @@ import type { WorkerFailure } from '../core/error-transport.ts';
 import type { Limits } from '../core/limits.ts';
 import type { Matrix } from '../core/matrix.ts';
 import type { RealImage } from '../core/real-image.ts';
+import type { RealVolume } from '../core/real-volume.ts';
 import type { CoilMaps } from '../encoding/index.ts';
 import type { CoilMapsUpload, DecodedCoilMaps } from '../io/decode-coil-maps.ts';
 import type { DecodedImage, DecodeOptions } from '../io/decoded-image.ts';
@@ -16,6 +17,8 @@ import type { CellResult, Plan, PlanCell } from '../plan/index.ts';
 export interface UploadedPixels {
   id: string;
   image: RealImage;
+  /** The whole volume, for volume requests (matrix.nz > 1). */
+  volume?: RealVolume;
 }
 
 /** A reconstruction with what its answer shows beside it: mask diagnostics, zero-filled scores. */

@@ -8,6 +8,7 @@ import type { RawKspace } from '../acquisition/index.ts';
 import { toWorkerFailure } from '../core/error-transport.ts';
 import { NotFoundError, ValidationError } from '../core/errors.ts';
 import type { RealImage } from '../core/real-image.ts';
+import type { RealVolume } from '../core/real-volume.ts';
 import type { CoilMaps } from '../encoding/index.ts';
 import type { ReconstructionOutcome } from '../pipeline/run-reconstruction.ts';
 import type {
@@ -26,6 +27,13 @@ function imageLoader(uploaded: UploadedPixels | undefined): (id: string) => Prom
   return async (id: string) => {
     if (uploaded && uploaded.id === id) return uploaded.image;
     throw new ValidationError({ field: 'source.imageId', message: `no uploaded image ${id}` });
+  };
+}
+
+function volumeLoader(uploaded: UploadedPixels | undefined): (id: string) => Promise<RealVolume> {
+  return async (id: string) => {
+    if (uploaded?.volume && uploaded.id === id) return uploaded.volume;
+    throw new ValidationError({ field: 'source.imageId', message: `no uploaded volume ${id}` });
   };
 }
 
@@ -88,6 +96,7 @@ const handlers: { [K in TaskKind]: (input: TaskInput<K>) => Promise<TaskOutput<K
     const { runReconstruction } = await import('../pipeline/run-reconstruction.ts');
     const ctx = {
       loadImage: imageLoader(image),
+      loadVolume: volumeLoader(image),
       loadCoilMaps: coilMapsLoader(coilMaps),
       loadRaw: rawLoader(raw),
       limits,
@@ -105,6 +114,7 @@ const handlers: { [K in TaskKind]: (input: TaskInput<K>) => Promise<TaskOutput<K
     const { runCellOutcome } = await import('../plan/index.ts');
     const ctx = {
       loadImage: imageLoader(image),
+      loadVolume: volumeLoader(image),
       loadCoilMaps: coilMapsLoader(coilMaps),
       loadRaw: rawLoader(raw),
       limits,

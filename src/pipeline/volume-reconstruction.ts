@@ -5,12 +5,14 @@ import { defaultLimits } from '../core/limits.ts';
 import type { RealImage } from '../core/real-image.ts';
 import type { RealVolume } from '../core/real-volume.ts';
 import type { MetricSet } from '../metrics/index.ts';
+import { patternGrid } from '../protocol/volume-scan-time.ts';
 import type { ReconInput } from '../recon/index.ts';
 import { type PlaneReconstructions, reconstructPlanes } from '../volume/plane-reconstruction.ts';
 import { resampleTrilinear } from '../volume/resample-volume.ts';
 import { acquireMultiSlice, acquireVolume3d, type PlaneStack } from '../volume/volume-acquisition.ts';
 import type { VolumeAcquisitionMode } from '../volume/volume-schema.ts';
 import { type SliceScores, scoreVolume } from '../volume/volume-scores.ts';
+import { unsupportedVolumePieces } from '../volume/volume-support.ts';
 import type { PipelineContext, ReconstructionOutcome, ReconstructionRequest } from './run-reconstruction.ts';
 
 /** What a volume adds to a reconstruction outcome (docs/design.md §2.4). */
@@ -34,29 +36,6 @@ export type PlaneRunner = (
   partialFourier: PlaneStackBand,
 ) => Promise<PlaneReconstructions>;
 type PlaneStackBand = Parameters<typeof reconstructPlanes>[2];
-
-/** Refuses what the volume pipeline does not model, naming the field. */
-function refuseUnsupported(req: ReconstructionRequest): void {
-  const refuse = (field: string, message: string, allowed: string) => {
-    throw new ValidationError({ field, message, allowed });
-  };
-  if (!('imageId' in req.source)) {
-    refuse(
-      'phantom' in req.source ? 'source.phantom' : 'source.rawId',
-      'volumes (matrix.nz > 1) come from an uploaded NIfTI volume only, for now',
-      'source: { imageId } of an image uploaded with slices=all',
-    );
-  }
-  if (req.coils && !('array' in req.coils && req.coils.array === 'uniform')) {
-    refuse('coils', 'volumes are simulated with the uniform single coil only', "coils: { array: 'uniform' }");
-  }
-  if (req.lesions)
-    refuse('lesions', 'lesion studies run on 2D acquisitions only', 'no lesions with matrix.nz');
-  if (req.phase)
-    refuse('phase', 'a simulated object phase is not modelled for volumes', 'no phase with matrix.nz');
-  if (req.gFactor)
-    refuse('gFactor', 'g-factors need a receive array; volumes use one coil', 'no gFactor with matrix.nz');
-}
 
 /** Stacks planes back into a volume (x fastest), from x-planes (ny × nz) or z-slices (ny × nx). */
 function assemble(
@@ -97,7 +76,14 @@ export async function runVolumeReconstruction(
   ctx: PipelineContext & { runPlanes?: PlaneRunner },
   noiseSeedFor: (seed: number) => number,
 ): Promise<ReconstructionOutcome> {
-  refuseUnsupported(req);
+  const problems = unsupportedVolumePieces({
+    source: req.source,
+    coils: req.coils ? [{ field: 'coils', spec: req.coils }] : [],
+    lesions: req.lesions,
+    phase: req.phase,
+    gFactor: req.gFactor,
+  });
+  if (problems.length > 0) throw new ValidationError(problems);
   const limits = ctx.limits ?? defaultLimits;
   const { nx, ny } = req.matrix;
   const nz = req.matrix.nz as number;
@@ -124,9 +110,7 @@ export async function runVolumeReconstruction(
     seed !== undefined && req.sampling.pattern !== 'custom'
       ? ({ ...req.sampling, seed } as SamplingSpec)
       : req.sampling;
-  // 3D: the pattern lives on the ky–kz plane (ny rows × nz columns); multi-slice: on ky–kx.
-  const grid = acquisition === '3d' ? { nx: nz, ny } : { nx, ny };
-  const sampled = await resolveSampling(grid, sampling, limits);
+  const sampled = await resolveSampling(patternGrid(req.matrix, acquisition), sampling, limits);
   if (sampled.trajectory) {
     throw new ValidationError({
       field: 'sampling.trajectory',

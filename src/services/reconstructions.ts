@@ -20,6 +20,8 @@ import { rawIdOf, rawNotFound, readRawKspace } from './raw-data.ts';
 import { resultArrays } from './result-arrays.ts';
 import { type ResultImageKey, resultImageNames, resultImageUrl } from './result-images.ts';
 import { psfSummary, psfSummarySchema, sampledSummary, sampledSummarySchema } from './sampled-summary.ts';
+import { uploadedVolume } from './uploaded-volume.ts';
+import { volumeSummary, volumeSummarySchema } from './volume-summary.ts';
 
 const metricValue = z.number().nullable().describe('null when not finite (PSNR of an exact reconstruction)');
 const metricSetSchema = z.object({
@@ -98,6 +100,7 @@ export const reconstructionSchema = z.object({
     .optional()
     .describe('1/(g·√R) over the object: the SNR kept against the fully sampled scan (beside gFactor)'),
   fidelity: fidelitySchema.optional(),
+  volume: volumeSummarySchema.optional(),
   createdAt: z.string(),
 });
 
@@ -131,7 +134,8 @@ export class ReconstructionService {
       const id = pipelineRequest.source.imageId;
       const pixels = store.getImagePixels(id, caller.scope);
       if (!pixels) return { missingImage: id };
-      image = { id, image: pixels };
+      const volume = (pipelineRequest.matrix.nz ?? 1) > 1 ? uploadedVolume(store, id, caller) : undefined;
+      image = { id, image: pixels, ...(volume ? { volume } : {}) };
     }
     const mapRefs = coilMapRefs(pipelineRequest);
     const coilMaps = loadNamedCoilMaps(store, mapRefs, caller);
@@ -259,6 +263,7 @@ function describe(id: string, { outcome, diagnostics, zeroFilledMetrics }: Score
     ...(outcome.gFactor ? { gFactor: outcome.gFactor } : {}),
     ...(outcome.snrRetained ? { snrRetained: outcome.snrRetained } : {}),
     ...(outcome.fidelity ? { fidelity: describeFidelity(outcome.fidelity) } : {}),
+    ...(outcome.volume ? { volume: volumeSummary(outcome.volume) } : {}),
     createdAt: new Date().toISOString(),
   };
 }
