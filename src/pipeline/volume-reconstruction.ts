@@ -12,7 +12,7 @@ import { resampleTrilinear } from '../volume/resample-volume.ts';
 import { acquireMultiSlice, acquireVolume3d, type PlaneStack } from '../volume/volume-acquisition.ts';
 import type { VolumeAcquisitionMode } from '../volume/volume-schema.ts';
 import { type SliceScores, scoreVolume } from '../volume/volume-scores.ts';
-import { unsupportedVolumePieces } from '../volume/volume-support.ts';
+import { nonCartesianVolume, unsupportedVolumePieces } from '../volume/volume-support.ts';
 import type { PipelineContext, ReconstructionOutcome, ReconstructionRequest } from './run-reconstruction.ts';
 
 /** What a volume adds to a reconstruction outcome (docs/design.md §2.4). */
@@ -112,11 +112,7 @@ export async function runVolumeReconstruction(
       : req.sampling;
   const sampled = await resolveSampling(patternGrid(req.matrix, acquisition), sampling, limits);
   if (sampled.trajectory) {
-    throw new ValidationError({
-      field: 'sampling.trajectory',
-      message: 'volumes are acquired on the Cartesian grid only; this trajectory is non-Cartesian',
-      allowed: "a Cartesian pattern, or trajectory: 'rasterised'",
-    });
+    throw new ValidationError(nonCartesianVolume);
   }
   const noiseSeed = noiseSeedFor(seed ?? sampled.seed ?? 0);
   const stack: PlaneStack =

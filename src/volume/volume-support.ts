@@ -1,5 +1,12 @@
 import type { FieldProblem } from '../core/errors.ts';
 
+/** A volume's mask drawn with a non-Cartesian trajectory. */
+export const nonCartesianVolume: FieldProblem = {
+  field: 'sampling.trajectory',
+  message: 'volumes are acquired on the Cartesian grid only; this trajectory is non-Cartesian',
+  allowed: "a Cartesian pattern, or trajectory: 'rasterised'",
+};
+
 /** The pieces of a reconstruction request or a plan that volumes may not carry. */
 export interface VolumeRequestPieces {
   source: object;
