@@ -1,0 +1,96 @@
+import { readFileSync } from 'node:fs';
+import { describe, expect, it } from 'vitest';
+import { VOLUME_FIXTURE } from '../volume/fixture.ts';
+import { expectDocumented, expectProblem, sharedTestApp, uploadFile } from './helpers.ts';
+
+// The volume: 32³ of Debian mricron-data's inia19-t1-brain.nii.gz (tests/volume/fixture.ts).
+const t = sharedTestApp();
+
+async function uploadVolume(): Promise<string> {
+  const res = await uploadFile(t, readFileSync(VOLUME_FIXTURE), 'brain.nii.gz', '/v1/images?slices=all');
+  expect(res.status).toBe(201);
+  expect(res.body.nz).toBe(32);
+  return res.body.id;
+}
+
+const sleep = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
+
+describe('volumes over HTTP', () => {
+  it('uploads a NIfTI volume, reconstructs it in 3D and answers per-plane scores (documented)', async () => {
+    const id = await uploadVolume();
+    const res = await t
+      .http()
+      .post('/v1/reconstructions')
+      .send({
+        source: { imageId: id },
+        matrix: { nx: 32, ny: 32, nz: 32 },
+        sampling: { pattern: 'poisson-disc', acceleration: 4, seed: 1 },
+        method: { name: 'zero-filled' },
+      });
+    expect(res.status).toBe(201);
+    await expectDocumented('POST', '/v1/reconstructions', res);
+    expect(res.body.volume.acquisition).toBe('3d');
+    expect(res.body.volume.slices.nrmse).toHaveLength(32);
+    expect(res.body.metrics.nrmse).toBeGreaterThan(0);
+    const png = await t.http().get(res.body.images.reconstruction);
+    expect(png.status).toBe(200);
+  });
+
+  it('a 2D upload cannot be a volume source: 422 naming source.imageId', async () => {
+    const flat = await uploadFile(t, readFileSync(VOLUME_FIXTURE), 'brain.nii.gz');
+    const res = await t
+      .http()
+      .post('/v1/reconstructions')
+      .send({
+        source: { imageId: flat.body.id },
+        matrix: { nx: 32, ny: 32, nz: 32 },
+        sampling: { pattern: 'poisson-disc', acceleration: 4 },
+        method: { name: 'zero-filled' },
+      });
+    expectProblem(res, 422, 'source.imageId');
+  });
+
+  it('refuses a receive array with a volume: 422 naming the field', async () => {
+    const id = await uploadVolume();
+    const res = await t
+      .http()
+      .post('/v1/reconstructions')
+      .send({
+        source: { imageId: id },
+        matrix: { nx: 32, ny: 32, nz: 32 },
+        sampling: { pattern: 'poisson-disc', acceleration: 4 },
+        method: { name: 'zero-filled' },
+        coils: { array: 'loops', count: 8, loopRadius: 0.35, ringRadius: 1.25, correlation: 0.1 },
+      });
+    expectProblem(res, 422, 'coils');
+  });
+
+  it('plans 3D and multi-slice in one table', async () => {
+    const id = await uploadVolume();
+    const res = await t
+      .http()
+      .post('/v1/plans')
+      .send({
+        source: { imageId: id },
+        matrix: { nx: 32, ny: 32, nz: 32 },
+        protocol: { trMs: 10 },
+        patterns: [{ pattern: 'poisson-disc' }],
+        accelerations: [4],
+        methods: [{ name: 'zero-filled' }],
+        seeds: 1,
+        acquisitions: ['3d', 'multi-slice'],
+      });
+    expect(res.status).toBe(202);
+    let body = res.body;
+    for (let i = 0; i < 2400 && !['done', 'failed', 'cancelled'].includes(body.status); i++) {
+      await sleep(25);
+      body = (await t.http().get(`/v1/plans/${res.body.id}`)).body;
+    }
+    expect(body.status).toBe('done');
+    expect(body.table.rows.map((r: { acquisition: string }) => r.acquisition)).toEqual([
+      '3d',
+      '3d',
+      'multi-slice',
+    ]);
+  });
+});
