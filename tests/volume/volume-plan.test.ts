@@ -61,9 +61,12 @@ describe('volume plans: 3D and multi-slice in one table', () => {
         (p) => p.field,
       );
     expect(fields({ source: { phantom: 'shepp-logan' } })).toEqual(['source.phantom']);
-    expect(fields({ coilArrays: [{ array: 'uniform' }, { array: 'loops', count: 4 }] })).toEqual([
-      'coilArrays[1]',
-    ]);
+    // A valid array (tests/api/coils.test.ts uses the same), refused only because the matrix is a volume.
+    const loops = { array: 'loops', count: 8, loopRadius: 0.35, ringRadius: 1.25, correlation: 0.1 };
+    expect(fields({ coilArrays: [{ array: 'uniform' }, loops] })).toEqual(['coilArrays[1]']);
+    const { acquisitions: _, ...flat } = plan;
+    const flatPlan = { ...flat, coilArrays: [{ array: 'uniform' }, loops], matrix: { nx: 32, ny: 32 } };
+    expect(() => validatePlan(flatPlan, { checkMasks: false })).not.toThrow();
     expect(fields({ matrix: { nx: 32, ny: 32 } })).toEqual(['acquisitions']);
     expect(fields({ acquisitions: ['3d', '3d'] })).toEqual(['acquisitions']);
     const radial = caughtValidationError(() => validatePlan({ ...plan, patterns: [{ pattern: 'radial' }] }));
