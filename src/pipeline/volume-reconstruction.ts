@@ -3,7 +3,7 @@ import { magnitude } from '../core/complex-image.ts';
 import { ValidationError } from '../core/errors.ts';
 import { defaultLimits } from '../core/limits.ts';
 import type { RealImage } from '../core/real-image.ts';
-import type { RealVolume } from '../core/real-volume.ts';
+import { type RealVolume, volumeSlice } from '../core/real-volume.ts';
 import type { MetricSet } from '../metrics/index.ts';
 import { patternGrid } from '../protocol/volume-scan-time.ts';
 import type { ReconInput } from '../recon/index.ts';
@@ -23,8 +23,6 @@ export interface VolumeOutcome {
   planeAxis: 'x' | 'z';
   /** Scores of every reconstructed plane, in planeAxis order. */
   slices: SliceScores;
-  /** The volume scores of the zero-filled planes. */
-  zeroFilledMetrics: MetricSet;
   /** Magnitudes as volumes (x fastest), for the float32 NIfTI download. */
   volumes: { reconstruction: RealVolume; zeroFilled: RealVolume; reference: RealVolume };
 }
@@ -59,10 +57,32 @@ function assemble(
   return { nx, ny, nz, data };
 }
 
+/** The planes of a stacked volume again: x-planes (ny × nz) or z-slices (ny × nx). */
+function planesOf(volume: RealVolume, axis: 'x' | 'z'): RealImage[] {
+  const { nx, ny, nz, data } = volume;
+  if (axis === 'z') return Array.from({ length: nz }, (_, z) => volumeSlice(volume, z));
+  return Array.from({ length: nx }, (_, x) => {
+    const plane = new Float64Array(ny * nz);
+    for (let y = 0; y < ny; y++) for (let z = 0; z < nz; z++) plane[y * nz + z] = data[(z * ny + y) * nx + x];
+    return { nx: nz, ny, data: plane };
+  });
+}
+
+/**
+ * The volume scores of the zero-filled planes, computed only when asked (a reconstruction's answer
+ * shows them; plan cells do not): scoring every plane costs as much as a cheap reconstruction.
+ * Plain zero-filling is its own comparison, so its scores are the reconstruction's.
+ */
+export function volumeZeroFilledMetrics(
+  outcome: ReconstructionOutcome & { volume: VolumeOutcome },
+): MetricSet {
+  const { volumes, planeAxis } = outcome.volume;
+  if (volumes.zeroFilled === volumes.reconstruction) return { ...outcome.metrics };
+  return scoreVolume(planesOf(volumes.zeroFilled, planeAxis), planesOf(volumes.reference, planeAxis)).volume;
+}
+
 function centralSlice(volume: RealVolume): RealImage {
-  const n = volume.nx * volume.ny;
-  const z = Math.floor(volume.nz / 2);
-  return { nx: volume.nx, ny: volume.ny, data: volume.data.slice(z * n, (z + 1) * n) };
+  return volumeSlice(volume, Math.floor(volume.nz / 2));
 }
 
 /**
@@ -135,13 +155,13 @@ export async function runVolumeReconstruction(
   const toReal = (images: typeof planes.images): RealImage[] =>
     images.map((image) => ({ nx: image.nx, ny: image.ny, data: magnitude(image) }));
   const estimates = toReal(planes.images);
-  const zeroFilledPlanes = toReal(planes.zeroFilled);
   const scored = scoreVolume(estimates, stack.references);
-  const zeroFilledScores = scoreVolume(zeroFilledPlanes, stack.references);
   const axis = acquisition === '3d' ? 'x' : 'z';
+  const reconstructionVolume = assemble(estimates, axis, nx, ny, nz);
+  const sameZeroFilled = planes.zeroFilled.every((image, i) => image === planes.images[i]);
   const volumes = {
-    reconstruction: assemble(estimates, axis, nx, ny, nz),
-    zeroFilled: assemble(zeroFilledPlanes, axis, nx, ny, nz),
+    reconstruction: reconstructionVolume,
+    zeroFilled: sameZeroFilled ? reconstructionVolume : assemble(toReal(planes.zeroFilled), axis, nx, ny, nz),
     reference: assemble(stack.references, axis, nx, ny, nz),
   };
   const reconstruction = centralSlice(volumes.reconstruction);
@@ -169,7 +189,6 @@ export async function runVolumeReconstruction(
       matrix: { nx, ny, nz },
       planeAxis: axis,
       slices: scored.slices,
-      zeroFilledMetrics: zeroFilledScores.volume,
       volumes,
     },
   };

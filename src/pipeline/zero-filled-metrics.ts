@@ -1,5 +1,6 @@
 import { type MetricSet, scoreAll } from '../metrics/index.ts';
 import type { ReconstructionOutcome } from './run-reconstruction.ts';
+import { volumeZeroFilledMetrics } from './volume-reconstruction.ts';
 
 /**
  * The four scores of the zero-filled image against the same reference, so a reconstruction's
@@ -8,7 +9,7 @@ import type { ReconstructionOutcome } from './run-reconstruction.ts';
  * over the whole volume (src/pipeline/volume-reconstruction.ts).
  */
 export function zeroFilledMetrics(outcome: ReconstructionOutcome): MetricSet {
-  if (outcome.volume) return outcome.volume.zeroFilledMetrics;
+  if (outcome.volume) return volumeZeroFilledMetrics({ ...outcome, volume: outcome.volume });
   const { zeroFilled, reconstruction, reference } = outcome.images;
   return zeroFilled === reconstruction ? { ...outcome.metrics } : scoreAll(zeroFilled, reference);
 }

@@ -37,7 +37,10 @@ export function reconstructPlanes(
     const output = reconstruct(input, method, options);
     const result = partialFourierStep(output, input, method, partialFourier, options.signal);
     images.push(result.image);
-    zeroFilled.push(zeroFilledImage(input).image);
+    // Plain zero-filling without density compensation is its own comparison image (as in 2D).
+    const same =
+      method.name === 'zero-filled' && !method.densityCompensation && result.image === output.image;
+    zeroFilled.push(same ? result.image : zeroFilledImage(input).image);
     if (i === 0) info = result.info;
   });
   return { images, zeroFilled, info, reconMs: performance.now() - started };

@@ -34,6 +34,7 @@ for (const [title, path, name] of [
   ['service', './service.bench.ts', 'benchService'],
   ['coil maps', './coil-maps.bench.ts', 'benchCoilMaps'],
   ['job queue', './queue.bench.ts', 'benchQueue'],
+  ['volumes', './volume.bench.ts', 'benchVolume'],
 ] as const) {
   const group = await optional(title, path, name);
   if (group) groups.push(group);
