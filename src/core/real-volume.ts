@@ -3,7 +3,7 @@ import type { RealImage } from './real-image.ts';
 /**
  * A real-valued 3D volume: nz slices of ny rows × nx columns, slice-major then row-major
  * (value at column x, row y, slice z is data[(z·ny + y)·nx + x]). Columns are the readout x, rows
- * the phase-encode y and slices the second phase-encode z of a 3D acquisition (docs/design.md §2.4).
+ * the phase-encode y and slices the second phase-encode z of a 3D acquisition (docs/design.md §2.5).
  */
 export interface RealVolume {
   readonly nx: number;

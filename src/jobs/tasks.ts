@@ -11,7 +11,9 @@ import type { DecodedImage, DecodeOptions } from '../io/decoded-image.ts';
 import type { ImportedRawKspace } from '../io/ismrmrd/import-raw-kspace.ts';
 import type { MetricSet } from '../metrics/index.ts';
 import type { ReconstructionOutcome, ReconstructionRequest } from '../pipeline/run-reconstruction.ts';
+import type { PreparedVolume } from '../pipeline/volume-reconstruction.ts';
 import type { CellResult, Plan, PlanCell } from '../plan/index.ts';
+import type { PlaneBatch, PlaneReconstructions } from '../volume/plane-reconstruction.ts';
 
 /** An uploaded image the task needs, sent along so workers never open the database. */
 export interface UploadedPixels {
@@ -67,6 +69,16 @@ export interface TaskMap {
       raw?: UploadedRawKspace;
       limits: Limits;
     };
+    output: ScoredOutcome;
+  };
+  /** A volume reconstruction in three steps, its planes spread over the pool (src/services/volume-runs.ts). */
+  'volume-prepare': {
+    input: { request: ReconstructionRequest; seed?: number; image: UploadedPixels; limits: Limits };
+    output: PreparedVolume;
+  };
+  'volume-planes': { input: { batch: PlaneBatch; limits: Limits }; output: PlaneReconstructions };
+  'volume-finish': {
+    input: { prepared: PreparedVolume; planes: PlaneReconstructions };
     output: ScoredOutcome;
   };
   /** Limits and one draw of every mask of a plan that already has the plan schema's shape. */

@@ -104,6 +104,19 @@ const handlers: { [K in TaskKind]: (input: TaskInput<K>) => Promise<TaskOutput<K
     const outcome = await runReconstruction(request, seed, ctx);
     return scored(outcome);
   },
+  async 'volume-prepare'({ request, seed, image, limits }) {
+    const { prepareVolume } = await import('../pipeline/volume-reconstruction.ts');
+    const { noiseSeedFor } = await import('../pipeline/run-reconstruction.ts');
+    return prepareVolume(request, seed, { loadVolume: volumeLoader(image), limits }, noiseSeedFor);
+  },
+  async 'volume-planes'({ batch, limits }) {
+    const { reconstructPlanes } = await import('../volume/plane-reconstruction.ts');
+    return reconstructPlanes(batch, { limits });
+  },
+  async 'volume-finish'({ prepared, planes }) {
+    const { finishVolume } = await import('../pipeline/volume-reconstruction.ts');
+    return scored(finishVolume(prepared, planes));
+  },
   async 'validate-plan'({ plan, limits }) {
     // Draws every pattern × R mask once: at large matrices that is real work, so not on the event loop.
     // The plan was parsed once at the edge (route or runPlan); here only what needs a computation.

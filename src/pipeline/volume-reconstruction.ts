@@ -1,21 +1,23 @@
-import { resolveSampling, type SamplingSpec } from '../../sampling/index.ts';
-import { magnitude } from '../core/complex-image.ts';
+import { resolveSampling, type SampledMask, type SamplingSpec } from '../../sampling/index.ts';
 import { ValidationError } from '../core/errors.ts';
 import { defaultLimits } from '../core/limits.ts';
 import type { RealImage } from '../core/real-image.ts';
 import { type RealVolume, volumeSlice } from '../core/real-volume.ts';
 import type { MetricSet } from '../metrics/index.ts';
 import { patternGrid } from '../protocol/volume-scan-time.ts';
-import type { ReconInput } from '../recon/index.ts';
-import { type PlaneReconstructions, reconstructPlanes } from '../volume/plane-reconstruction.ts';
+import {
+  type PlaneBatch,
+  type PlaneReconstructions,
+  reconstructPlanes,
+} from '../volume/plane-reconstruction.ts';
 import { resampleTrilinear } from '../volume/resample-volume.ts';
 import { acquireMultiSlice, acquireVolume3d, type PlaneStack } from '../volume/volume-acquisition.ts';
 import type { VolumeAcquisitionMode } from '../volume/volume-schema.ts';
-import { type SliceScores, scoreVolume } from '../volume/volume-scores.ts';
+import { type SliceScores, scoreVolume, volumeScores } from '../volume/volume-scores.ts';
 import { nonCartesianVolume, unsupportedVolumePieces } from '../volume/volume-support.ts';
 import type { PipelineContext, ReconstructionOutcome, ReconstructionRequest } from './run-reconstruction.ts';
 
-/** What a volume adds to a reconstruction outcome (docs/design.md §2.4). */
+/** What a volume adds to a reconstruction outcome (docs/design.md §2.5). */
 export interface VolumeOutcome {
   acquisition: VolumeAcquisitionMode;
   matrix: { nx: number; ny: number; nz: number };
@@ -27,13 +29,17 @@ export interface VolumeOutcome {
   volumes: { reconstruction: RealVolume; zeroFilled: RealVolume; reference: RealVolume };
 }
 
-/** Reconstructs a run of planes: in this thread by default, across the worker pool when the service says so. */
-export type PlaneRunner = (
-  inputs: ReconInput[],
-  request: Pick<ReconstructionRequest, 'method'>,
-  partialFourier: PlaneStackBand,
-) => Promise<PlaneReconstructions>;
-type PlaneStackBand = Parameters<typeof reconstructPlanes>[2];
+/**
+ * A volume acquired and split into planes, ready for the 2D reconstructions: plain data, so the
+ * service can spread `batch` over the worker pool (src/services/volume-runs.ts) and finish on a worker.
+ */
+export interface PreparedVolume {
+  acquisition: VolumeAcquisitionMode;
+  matrix: { nx: number; ny: number; nz: number };
+  batch: PlaneBatch;
+  sampled: SampledMask;
+  notes: string[];
+}
 
 /** Stacks planes back into a volume (x fastest), from x-planes (ny × nz) or z-slices (ny × nx). */
 function assemble(
@@ -86,16 +92,16 @@ function centralSlice(volume: RealVolume): RealImage {
 }
 
 /**
- * A volume request (matrix.nz > 1): the upload's volume, the acquisition (3D: ky–kz pattern, exact
- * readout transform, hybrid-space x-planes; multi-slice: the ky–kx pattern on every z-slice), the
- * 2D method on every plane, scores per plane and over the volume. Images: the central z-slice.
+ * The first half of a volume request (matrix.nz > 1): refusals, the upload's volume, the pattern
+ * (ky–kz for 3D, ky–kx for multi-slice), the acquisition (3D: exact readout transform, hybrid-space
+ * x-planes; multi-slice: every z-slice) and the batch of 2D problems.
  */
-export async function runVolumeReconstruction(
+export async function prepareVolume(
   req: ReconstructionRequest,
   seed: number | undefined,
-  ctx: PipelineContext & { runPlanes?: PlaneRunner },
+  ctx: PipelineContext,
   noiseSeedFor: (seed: number) => number,
-): Promise<ReconstructionOutcome> {
+): Promise<PreparedVolume> {
   const problems = unsupportedVolumePieces({
     source: req.source,
     coils: req.coils ? [{ field: 'coils', spec: req.coils }] : [],
@@ -131,9 +137,7 @@ export async function runVolumeReconstruction(
       ? ({ ...req.sampling, seed } as SamplingSpec)
       : req.sampling;
   const sampled = await resolveSampling(patternGrid(req.matrix, acquisition), sampling, limits);
-  if (sampled.trajectory) {
-    throw new ValidationError(nonCartesianVolume);
-  }
+  if (sampled.trajectory) throw new ValidationError(nonCartesianVolume);
   const noiseSeed = noiseSeedFor(seed ?? sampled.seed ?? 0);
   const stack: PlaneStack =
     acquisition === '3d'
@@ -146,23 +150,37 @@ export async function runVolumeReconstruction(
       ? `3D: readout x transformed exactly, ${nx} hybrid-space x-planes (ky × kz = ${ny}×${nz}) reconstructed`
       : `multi-slice: ${nz} z-slices (ky × kx = ${ny}×${nx}) acquired and reconstructed separately`,
   );
-  const runPlanes: PlaneRunner =
-    ctx.runPlanes ??
-    (async (inputs, { method }, band) =>
-      reconstructPlanes(inputs, method, band, { signal: ctx.signal, limits }));
-  const planes = await runPlanes(stack.inputs, req, sampled.partialFourier);
+  return {
+    acquisition,
+    matrix: { nx, ny, nz },
+    batch: {
+      inputs: stack.inputs,
+      references: stack.references,
+      method: req.method,
+      ...(sampled.partialFourier ? { partialFourier: sampled.partialFourier } : {}),
+    },
+    sampled,
+    notes,
+  };
+}
+
+/**
+ * The second half: the planes' reconstructions and scores (from reconstructPlanes, here or on the
+ * worker pool) stacked into volumes and scored over the volume. Images: the central z-slice.
+ */
+export function finishVolume(prepared: PreparedVolume, planes: PlaneReconstructions): ReconstructionOutcome {
+  const { acquisition, sampled, batch } = prepared;
+  const { nx, ny, nz } = prepared.matrix;
+  const notes = [...prepared.notes];
   if (planes.info.note) notes.push(String(planes.info.note));
-  const toReal = (images: typeof planes.images): RealImage[] =>
-    images.map((image) => ({ nx: image.nx, ny: image.ny, data: magnitude(image) }));
-  const estimates = toReal(planes.images);
-  const scored = scoreVolume(estimates, stack.references);
+  const scored = volumeScores(planes.scores, planes.images, batch.references);
   const axis = acquisition === '3d' ? 'x' : 'z';
-  const reconstructionVolume = assemble(estimates, axis, nx, ny, nz);
+  const reconstructionVolume = assemble(planes.images, axis, nx, ny, nz);
   const sameZeroFilled = planes.zeroFilled.every((image, i) => image === planes.images[i]);
   const volumes = {
     reconstruction: reconstructionVolume,
-    zeroFilled: sameZeroFilled ? reconstructionVolume : assemble(toReal(planes.zeroFilled), axis, nx, ny, nz),
-    reference: assemble(stack.references, axis, nx, ny, nz),
+    zeroFilled: sameZeroFilled ? reconstructionVolume : assemble(planes.zeroFilled, axis, nx, ny, nz),
+    reference: assemble(batch.references, axis, nx, ny, nz),
   };
   const reconstruction = centralSlice(volumes.reconstruction);
   const reference = centralSlice(volumes.reference);
@@ -184,12 +202,21 @@ export async function runVolumeReconstruction(
       errorMap: { nx, ny, data: errorMap },
     },
     sampled,
-    volume: {
-      acquisition,
-      matrix: { nx, ny, nz },
-      planeAxis: axis,
-      slices: scored.slices,
-      volumes,
-    },
+    volume: { acquisition, matrix: { nx, ny, nz }, planeAxis: axis, slices: scored.slices, volumes },
   };
+}
+
+/** A whole volume request in this thread (plan cells, scripts, tests): prepare, every plane, finish. */
+export async function runVolumeReconstruction(
+  req: ReconstructionRequest,
+  seed: number | undefined,
+  ctx: PipelineContext,
+  noiseSeedFor: (seed: number) => number,
+): Promise<ReconstructionOutcome> {
+  const prepared = await prepareVolume(req, seed, ctx, noiseSeedFor);
+  const planes = reconstructPlanes(prepared.batch, {
+    signal: ctx.signal,
+    limits: ctx.limits ?? defaultLimits,
+  });
+  return finishVolume(prepared, planes);
 }

@@ -15,7 +15,7 @@ export function patternGrid(matrix: Matrix, acquisition: VolumeAcquisitionMode |
 }
 
 /**
- * Scan time of a matrix that may be a volume (docs/design.md §2.2, §2.4). 2D matrices: scanTime as
+ * Scan time of a matrix that may be a volume (docs/design.md §2.2, §2.5). 2D matrices: scanTime as
  * the protocol says. Volumes, whatever protocol.dimensions and slices say:
  *   3D           TA = TR × ⌈ky–kz points / ETL⌉ × averages    (scanTime on the ny × nz grid, '3d')
  *   multi-slice  TA = the 2D model with slices = nz           (scanTime on ny × nx, '2d'): without the

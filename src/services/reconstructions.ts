@@ -21,6 +21,7 @@ import { resultArrays } from './result-arrays.ts';
 import { type ResultImageKey, resultImageNames, resultImageUrl } from './result-images.ts';
 import { psfSummary, psfSummarySchema, sampledSummary, sampledSummarySchema } from './sampled-summary.ts';
 import { uploadedVolume } from './uploaded-volume.ts';
+import { volumeOnPool } from './volume-runs.ts';
 import { volumeSummary, volumeSummarySchema } from './volume-summary.ts';
 
 const metricValue = z.number().nullable().describe('null when not finite (PSNR of an exact reconstruction)');
@@ -141,18 +142,25 @@ export class ReconstructionService {
     const coilMaps = loadNamedCoilMaps(store, mapRefs, caller);
     const rawId = rawIdOf(pipelineRequest);
     const raw = rawId === undefined ? undefined : { id: rawId, raw: readRawKspace(store, rawId, caller) };
-    const scored = await pool.runForRequest(
-      'reconstruction',
-      {
-        request: pipelineRequest,
-        ...(seed === undefined ? {} : { seed }),
-        ...(image ? { image } : {}),
-        ...(coilMaps.length > 0 ? { coilMaps } : {}),
-        ...(raw ? { raw } : {}),
-        limits,
-      },
-      signal,
-    );
+    const volumeRequest = image?.volume !== undefined;
+    const scored = volumeRequest
+      ? await volumeOnPool(
+          pool,
+          { request: pipelineRequest, ...(seed === undefined ? {} : { seed }), image: image!, limits },
+          signal,
+        )
+      : await pool.runForRequest(
+          'reconstruction',
+          {
+            request: pipelineRequest,
+            ...(seed === undefined ? {} : { seed }),
+            ...(image ? { image } : {}),
+            ...(coilMaps.length > 0 ? { coilMaps } : {}),
+            ...(raw ? { raw } : {}),
+            limits,
+          },
+          signal,
+        );
     // Linked to its upload, so deleting the upload deletes it; refused if the upload went meanwhile.
     const inputs = [
       ...(image ? [{ kind: 'image' as const, id: image.id }] : []),

@@ -6,7 +6,7 @@ const planeScores = z
   .array(z.number().nullable())
   .describe('one per reconstructed plane; null where the reference plane is empty (or PSNR is +∞)');
 
-/** What a reconstruction of a volume answers beside its volume scores (docs/design.md §2.4). */
+/** What a reconstruction of a volume answers beside its volume scores (docs/design.md §2.5). */
 export const volumeSummarySchema = z
   .object({
     acquisition: z.enum(['3d', 'multi-slice']),

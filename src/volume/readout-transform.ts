@@ -4,7 +4,7 @@ import { centeredLineTransform } from '../core/centered-fft.ts';
  * The centred orthonormal 1D DFT along the readout x of a complex volume (interleaved, x fastest:
  * element (x, y, z) at 2·((z·ny + y)·nx + x)), in place. sign −1 forward (x → kx), +1 inverse
  * (kx → x). Fully sampled along x, so the inverse is exact: it turns 3D k-space into the hybrid
- * space (x, ky, kz) whose x-planes are independent 2D problems (docs/design.md §2.4).
+ * space (x, ky, kz) whose x-planes are independent 2D problems (docs/design.md §2.5).
  */
 export function readoutTransform(data: Float64Array, nx: number, ny: number, nz: number, sign: -1 | 1): void {
   if (data.length !== 2 * nx * ny * nz) throw new RangeError('the volume must hold 2·nx·ny·nz numbers');

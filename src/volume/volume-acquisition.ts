@@ -38,7 +38,7 @@ function volumeSigma(volume: RealVolume, noise: NoiseSpec | undefined): number {
 }
 
 /**
- * 3D Cartesian acquisition (docs/design.md §2.4): k = F_x F_yz(volume) on the full grid, noise added
+ * 3D Cartesian acquisition (docs/design.md §2.5): k = F_x F_yz(volume) on the full grid, noise added
  * to every sample, the ky–kz mask (ny rows × nz columns, the same for every kx) applied, then the
  * exact inverse readout transform gives hybrid space; x-plane i is the 2D k-space (ky, kz) of
  * the y–z image at x = i, and its reference is that image.

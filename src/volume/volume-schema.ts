@@ -1,7 +1,7 @@
 import { z } from 'zod';
 
 /**
- * How a volume (matrix.nz > 1) is acquired (docs/design.md §2.4):
+ * How a volume (matrix.nz > 1) is acquired (docs/design.md §2.5):
  * - '3d': one 3D Cartesian acquisition, readout along x fully sampled, the pattern drawn on the
  *   ky–kz plane (ny rows × nz columns); each x-plane of hybrid space is reconstructed as a 2D problem.
  * - 'multi-slice': nz separate 2D acquisitions of the z-slices (ky rows × kx columns), one pattern

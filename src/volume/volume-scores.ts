@@ -23,37 +23,35 @@ function flat(planes: readonly RealImage[]): RealImage {
   return { nx: planes[0].nx, ny: planes[0].ny * planes.length, data };
 }
 
+/** The 2D scores of one plane (§3.6), the same a 2D request reports; null for an empty reference. */
+export function scorePlane(estimate: RealImage, reference: RealImage): MetricSet | null {
+  if (isEmpty(reference)) return null;
+  return {
+    nrmse: nrmse(estimate, reference),
+    psnr: psnr(estimate, reference),
+    ssim: ssim(estimate, reference),
+    hfen: hfen(estimate, reference),
+  };
+}
+
 /**
- * Scores of a reconstructed volume against its reference, plane by plane (the same 2D scores a 2D
- * request reports) and over the volume (docs/design.md §3.6, §2.4):
+ * Scores of a reconstructed volume against its reference from its planes' scores (scorePlane, which
+ * a worker may have computed) and the planes themselves (docs/design.md §3.6, §2.5):
  *   NRMSE = ‖x̂ − x‖₂ / ‖x‖₂ and PSNR = 10 log10(max|x|² / MSE) over every voxel;
  *   SSIM, HFEN = the mean of the planes' 2D SSIM (Wang et al. 2004 define it on 2D windows) and 2D
  *   HFEN over the planes whose reference is not empty (empty planes score null).
  */
-export function scoreVolume(
+export function volumeScores(
+  planeScores: readonly (MetricSet | null)[],
   estimates: readonly RealImage[],
   references: readonly RealImage[],
 ): { volume: MetricSet; slices: SliceScores } {
   const slices: SliceScores = { nrmse: [], psnr: [], ssim: [], hfen: [] };
-  const scored: MetricSet[] = [];
-  estimates.forEach((estimate, i) => {
-    const reference = references[i];
-    if (isEmpty(reference)) {
-      for (const list of Object.values(slices)) list.push(null);
-      return;
-    }
-    const plane = {
-      nrmse: nrmse(estimate, reference),
-      psnr: psnr(estimate, reference),
-      ssim: ssim(estimate, reference),
-      hfen: hfen(estimate, reference),
-    };
-    slices.nrmse.push(plane.nrmse);
-    slices.psnr.push(plane.psnr);
-    slices.ssim.push(plane.ssim);
-    slices.hfen.push(plane.hfen);
-    scored.push(plane);
-  });
+  for (const plane of planeScores) {
+    for (const metric of ['nrmse', 'psnr', 'ssim', 'hfen'] as const)
+      slices[metric].push(plane ? plane[metric] : null);
+  }
+  const scored = planeScores.filter((plane) => plane !== null);
   const mean = (metric: 'ssim' | 'hfen') =>
     scored.length > 0 ? scored.reduce((sum, plane) => sum + plane[metric], 0) / scored.length : Number.NaN;
   const estimate = flat(estimates);
@@ -67,4 +65,16 @@ export function scoreVolume(
     },
     slices,
   };
+}
+
+/** volumeScores with every plane scored here. */
+export function scoreVolume(
+  estimates: readonly RealImage[],
+  references: readonly RealImage[],
+): { volume: MetricSet; slices: SliceScores } {
+  return volumeScores(
+    estimates.map((estimate, i) => scorePlane(estimate, references[i])),
+    estimates,
+    references,
+  );
 }

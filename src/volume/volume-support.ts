@@ -18,7 +18,7 @@ export interface VolumeRequestPieces {
 }
 
 /**
- * What the volume pipeline does not model (docs/design.md §2.4), one problem per field: sources
+ * What the volume pipeline does not model (docs/design.md §2.5), one problem per field: sources
  * other than an uploaded volume, receive arrays, lesion studies, object phase, g-factors.
  * Non-Cartesian trajectories are refused once the mask is drawn (sampling.trajectory).
  */

@@ -1,10 +1,12 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { VOLUME_FIXTURE } from '../volume/fixture.ts';
+import { parseReconstructionRequest, runReconstruction } from '../../src/pipeline/run-reconstruction.ts';
+import { fixtureVolume, VOLUME_FIXTURE } from '../volume/fixture.ts';
 import { expectDocumented, expectProblem, sharedTestApp, uploadFile } from './helpers.ts';
 
 // The volume: 32³ of Debian mricron-data's inia19-t1-brain.nii.gz (tests/volume/fixture.ts).
-const t = sharedTestApp();
+// Two worker threads, so a volume's planes are split over the pool (src/services/volume-runs.ts).
+const t = sharedTestApp({ workers: 2 });
 
 async function uploadVolume(): Promise<string> {
   const res = await uploadFile(t, readFileSync(VOLUME_FIXTURE), 'brain.nii.gz', '/v1/images?slices=all');
@@ -32,6 +34,20 @@ describe('volumes over HTTP', () => {
     expect(res.body.volume.acquisition).toBe('3d');
     expect(res.body.volume.slices.nrmse).toHaveLength(32);
     expect(res.body.metrics.nrmse).toBeGreaterThan(0);
+    // The planes ran in two runs on two threads: the same numbers as the whole request in one thread.
+    const direct = await runReconstruction(
+      parseReconstructionRequest({
+        source: { imageId: id },
+        matrix: { nx: 32, ny: 32, nz: 32 },
+        sampling: { pattern: 'poisson-disc', acceleration: 4, seed: 1 },
+        method: { name: 'zero-filled' },
+      }),
+      undefined,
+      { loadVolume: fixtureVolume },
+    );
+    expect(res.body.metrics).toEqual(direct.metrics);
+    expect(res.body.volume.slices.ssim).toEqual(direct.volume?.slices.ssim);
+    expect(res.body.zeroFilledMetrics).toEqual(direct.metrics);
     const png = await t.http().get(res.body.images.reconstruction);
     expect(png.status).toBe(200);
   });
