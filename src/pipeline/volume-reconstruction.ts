@@ -11,7 +11,7 @@ import {
   reconstructPlanes,
 } from '../volume/plane-reconstruction.ts';
 import { resampleTrilinear } from '../volume/resample-volume.ts';
-import { acquireMultiSlice, acquireVolume3d, type PlaneStack } from '../volume/volume-acquisition.ts';
+import { acquireVolume } from '../volume/volume-acquisition.ts';
 import type { VolumeAcquisitionMode } from '../volume/volume-schema.ts';
 import { type SliceScores, scoreVolume, volumeScores } from '../volume/volume-scores.ts';
 import { nonCartesianVolume, unsupportedVolumePieces } from '../volume/volume-support.ts';
@@ -139,10 +139,7 @@ export async function prepareVolume(
   const sampled = await resolveSampling(patternGrid(req.matrix, acquisition), sampling, limits);
   if (sampled.trajectory) throw new ValidationError(nonCartesianVolume);
   const noiseSeed = noiseSeedFor(seed ?? sampled.seed ?? 0);
-  const stack: PlaneStack =
-    acquisition === '3d'
-      ? acquireVolume3d(volume, sampled, req.noise, noiseSeed)
-      : acquireMultiSlice(volume, sampled, req.noise, noiseSeed);
+  const stack = acquireVolume(acquisition, volume, sampled, req.noise, noiseSeed);
   if (stack.sigma > 0)
     notes.push(`complex Gaussian noise, σ = ${stack.sigma.toPrecision(4)} per real channel`);
   notes.push(

@@ -43,19 +43,13 @@ function volumeSigma(volume: RealVolume, noise: NoiseSpec | undefined): number {
  * exact inverse readout transform gives hybrid space; x-plane i is the 2D k-space (ky, kz) of
  * the y–z image at x = i, and its reference is that image.
  */
-export function acquireVolume3d(
-  volume: RealVolume,
-  sampled: SampledMask,
-  noise: NoiseSpec | undefined,
-  noiseSeed: number,
-): PlaneStack {
+function acquire3d(volume: RealVolume, sampled: SampledMask, sigma: number, noiseSeed: number): PlaneStack {
   const { nx, ny, nz } = volume;
   if (sampled.nx !== nz || sampled.ny !== ny) throw new RangeError('the ky–kz mask must be ny × nz');
   const kspace = new Float64Array(2 * nx * ny * nz);
   for (let i = 0; i < volume.data.length; i++) kspace[2 * i] = volume.data[i];
   phaseEncodeTransform(kspace, nx, ny, nz, -1);
   readoutTransform(kspace, nx, ny, nz, -1);
-  const sigma = volumeSigma(volume, noise);
   if (sigma > 0) addComplexNoise(kspace, sigma, noiseSeed);
   for (let z = 0; z < nz; z++) {
     for (let y = 0; y < ny; y++) {
@@ -88,10 +82,10 @@ export function acquireVolume3d(
  * Multi-slice 2D acquisition: every z-slice its own 2D acquisition (ky rows × kx columns) with the
  * same mask; noise added to the stacked slice k-spaces with one seeded stream.
  */
-export function acquireMultiSlice(
+function acquireSlices(
   volume: RealVolume,
   sampled: SampledMask,
-  noise: NoiseSpec | undefined,
+  sigma: number,
   noiseSeed: number,
 ): PlaneStack {
   const { nx, ny, nz } = volume;
@@ -102,7 +96,6 @@ export function acquireMultiSlice(
     const slice = complexFromReal(volume.data.subarray(z * n, (z + 1) * n), nx, ny);
     stacked.set(fft2c(slice).data, 2 * z * n);
   }
-  const sigma = volumeSigma(volume, noise);
   if (sigma > 0) addComplexNoise(stacked, sigma, noiseSeed);
   const inputs: ReconInput[] = [];
   const references: RealImage[] = [];
@@ -119,6 +112,20 @@ export function acquireMultiSlice(
     references.push({ nx, ny, data: reference });
   }
   return { mode: 'multi-slice', inputs, references, sigma };
+}
+
+/** The acquisition `mode` of a volume with the mask drawn for it (3D: ny × nz; multi-slice: ny × nx). */
+export function acquireVolume(
+  mode: VolumeAcquisitionMode,
+  volume: RealVolume,
+  sampled: SampledMask,
+  noise: NoiseSpec | undefined,
+  noiseSeed: number,
+): PlaneStack {
+  const sigma = volumeSigma(volume, noise);
+  return mode === '3d'
+    ? acquire3d(volume, sampled, sigma, noiseSeed)
+    : acquireSlices(volume, sampled, sigma, noiseSeed);
 }
 
 function planeInput(kspace: ComplexImage, sampled: SampledMask): ReconInput {

@@ -1,7 +1,7 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { parseReconstructionRequest, runReconstruction } from '../../src/pipeline/run-reconstruction.ts';
-import { fixtureVolume, VOLUME_FIXTURE } from '../volume/fixture.ts';
+import { fixtureVolume, VOLUME_FIXTURE, volumePlanBody } from '../volume/fixture.ts';
 import { expectDocumented, expectProblem, sharedTestApp, uploadFile } from './helpers.ts';
 
 // The volume: 32³ of Debian mricron-data's inia19-t1-brain.nii.gz (tests/volume/fixture.ts).
@@ -17,34 +17,28 @@ async function uploadVolume(): Promise<string> {
 
 const sleep = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
 
+/** A 3D reconstruction request on an uploaded volume: Poisson-disc R = 4, zero-filled. */
+const volumeRequest = (imageId: string, extra: Record<string, unknown> = {}) => ({
+  source: { imageId },
+  matrix: { nx: 32, ny: 32, nz: 32 },
+  sampling: { pattern: 'poisson-disc', acceleration: 4, seed: 1 },
+  method: { name: 'zero-filled' },
+  ...extra,
+});
+
 describe('volumes over HTTP', () => {
   it('uploads a NIfTI volume, reconstructs it in 3D and answers per-plane scores (documented)', async () => {
     const id = await uploadVolume();
-    const res = await t
-      .http()
-      .post('/v1/reconstructions')
-      .send({
-        source: { imageId: id },
-        matrix: { nx: 32, ny: 32, nz: 32 },
-        sampling: { pattern: 'poisson-disc', acceleration: 4, seed: 1 },
-        method: { name: 'zero-filled' },
-      });
+    const res = await t.http().post('/v1/reconstructions').send(volumeRequest(id));
     expect(res.status).toBe(201);
     await expectDocumented('POST', '/v1/reconstructions', res);
     expect(res.body.volume.acquisition).toBe('3d');
     expect(res.body.volume.slices.nrmse).toHaveLength(32);
     expect(res.body.metrics.nrmse).toBeGreaterThan(0);
     // The planes ran in two runs on two threads: the same numbers as the whole request in one thread.
-    const direct = await runReconstruction(
-      parseReconstructionRequest({
-        source: { imageId: id },
-        matrix: { nx: 32, ny: 32, nz: 32 },
-        sampling: { pattern: 'poisson-disc', acceleration: 4, seed: 1 },
-        method: { name: 'zero-filled' },
-      }),
-      undefined,
-      { loadVolume: fixtureVolume },
-    );
+    const direct = await runReconstruction(parseReconstructionRequest(volumeRequest(id)), undefined, {
+      loadVolume: fixtureVolume,
+    });
     expect(res.body.metrics).toEqual(direct.metrics);
     expect(res.body.volume.slices.ssim).toEqual(direct.volume?.slices.ssim);
     expect(res.body.zeroFilledMetrics).toEqual(direct.metrics);
@@ -54,48 +48,23 @@ describe('volumes over HTTP', () => {
 
   it('a 2D upload cannot be a volume source: 422 naming source.imageId', async () => {
     const flat = await uploadFile(t, readFileSync(VOLUME_FIXTURE), 'brain.nii.gz');
-    const res = await t
-      .http()
-      .post('/v1/reconstructions')
-      .send({
-        source: { imageId: flat.body.id },
-        matrix: { nx: 32, ny: 32, nz: 32 },
-        sampling: { pattern: 'poisson-disc', acceleration: 4 },
-        method: { name: 'zero-filled' },
-      });
+    const res = await t.http().post('/v1/reconstructions').send(volumeRequest(flat.body.id));
     expectProblem(res, 422, 'source.imageId');
   });
 
   it('refuses a receive array with a volume: 422 naming the field', async () => {
     const id = await uploadVolume();
+    const loops = { array: 'loops', count: 8, loopRadius: 0.35, ringRadius: 1.25, correlation: 0.1 };
     const res = await t
       .http()
       .post('/v1/reconstructions')
-      .send({
-        source: { imageId: id },
-        matrix: { nx: 32, ny: 32, nz: 32 },
-        sampling: { pattern: 'poisson-disc', acceleration: 4 },
-        method: { name: 'zero-filled' },
-        coils: { array: 'loops', count: 8, loopRadius: 0.35, ringRadius: 1.25, correlation: 0.1 },
-      });
+      .send(volumeRequest(id, { coils: loops }));
     expectProblem(res, 422, 'coils');
   });
 
   it('plans 3D and multi-slice in one table', async () => {
     const id = await uploadVolume();
-    const res = await t
-      .http()
-      .post('/v1/plans')
-      .send({
-        source: { imageId: id },
-        matrix: { nx: 32, ny: 32, nz: 32 },
-        protocol: { trMs: 10 },
-        patterns: [{ pattern: 'poisson-disc' }],
-        accelerations: [4],
-        methods: [{ name: 'zero-filled' }],
-        seeds: 1,
-        acquisitions: ['3d', 'multi-slice'],
-      });
+    const res = await t.http().post('/v1/plans').send(volumePlanBody(id));
     expect(res.status).toBe(202);
     let body = res.body;
     for (let i = 0; i < 2400 && !['done', 'failed', 'cancelled'].includes(body.status); i++) {

@@ -13,3 +13,17 @@ export async function fixtureVolume(): Promise<RealVolume> {
   if (!decoded.volume) throw new Error('the fixture decoded without its volume');
   return decoded.volume;
 }
+
+/** A plan body on the 32³ volume: Poisson-disc R = 4, zero-filled, TR 10 ms, 3D and multi-slice. */
+export function volumePlanBody(imageId: string) {
+  return {
+    source: { imageId },
+    matrix: { nx: 32, ny: 32, nz: 32 },
+    protocol: { trMs: 10 },
+    patterns: [{ pattern: 'poisson-disc' }],
+    accelerations: [4],
+    methods: [{ name: 'zero-filled' }],
+    seeds: 1,
+    acquisitions: ['3d', 'multi-slice'],
+  };
+}

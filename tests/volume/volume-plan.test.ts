@@ -4,7 +4,7 @@ import { planCells, runPlan, validatePlan } from '../../src/plan/index.ts';
 import { parseOrThrow, protocolSchema, scanTime } from '../../src/protocol/index.ts';
 import { acquisitionScanTime } from '../../src/protocol/volume-scan-time.ts';
 import { caughtValidationError } from '../core/caught-validation-error.ts';
-import { fixtureVolume } from './fixture.ts';
+import { fixtureVolume, volumePlanBody } from './fixture.ts';
 
 // The volume: 32³ of Debian mricron-data's inia19-t1-brain.nii.gz (tests/volume/fixture.ts).
 let volume: RealVolume;
@@ -12,16 +12,7 @@ beforeAll(async () => {
   volume = await fixtureVolume();
 });
 
-const plan = {
-  source: { imageId: 'brain' },
-  matrix: { nx: 32, ny: 32, nz: 32 },
-  protocol: { trMs: 10 },
-  patterns: [{ pattern: 'poisson-disc' }],
-  accelerations: [4],
-  methods: [{ name: 'zero-filled' }],
-  seeds: 1,
-  acquisitions: ['3d', 'multi-slice'],
-};
+const plan = volumePlanBody('brain');
 
 describe('volume plans: 3D and multi-slice in one table', () => {
   it('one row per acquisition, scan times from the two models, volume scores', async () => {
