@@ -189,7 +189,9 @@ function tableNotes(plan: TablePlan, rows: readonly PlanRow[], cellResults: read
       'better metric, then plan order.',
   ];
   const { partialFourier, dimensions } = plan.protocol;
-  if (dimensions === '2d' && cellResults.some((r) => r.mask?.unit === 'points')) {
+  // A volume's acquisition, not protocol.dimensions, decides how a mask is timed (design §2.5).
+  const volume = (plan.matrix.nz ?? 1) > 1;
+  if (!volume && dimensions === '2d' && cellResults.some((r) => r.mask?.unit === 'points')) {
     notes.push(
       'A point mask (e.g. poisson-disc) in a 2D protocol: every phase-encode row holding a sampled point ' +
         "costs a whole line, so it saves little time; plan it with dimensions '3d' as a ky–kz mask.",

@@ -32,6 +32,8 @@ describe('volume plans: 3D and multi-slice in one table', () => {
     expect(reference.metrics.nrmse.mean).toBeLessThan(1e-12);
     expect(threeD.metrics.nrmse.mean).toBeGreaterThan(0.01);
     expect(multiSlice.metrics.nrmse.mean).toBeGreaterThan(0.01);
+    // The 2D point-mask warning speaks of protocol.dimensions, which volumes do not read.
+    expect(table.notes.some((note) => note.includes('in a 2D protocol'))).toBe(false);
   });
 
   it('the volume scan-time model: 2D model × slices, or what slicesPerPass lets share a TR', () => {
