@@ -34,6 +34,13 @@ const uploadQuery = z.object({
     .min(0)
     .optional()
     .describe('NIfTI volume along the 4th axis (0-based, default 0)'),
+  slices: z
+    .enum(['one', 'all'])
+    .optional()
+    .describe(
+      "NIfTI: 'all' also keeps every slice of the chosen volume, a source for volume requests (matrix.nz); " +
+        "default 'one'",
+    ),
 });
 
 /**
@@ -68,6 +75,11 @@ export async function imageRoutes(app: FastifyInstance): Promise<void> {
               volume: {
                 type: 'integer',
                 minimum: 0,
+                description: 'as the query parameter; must precede the file part',
+              },
+              slices: {
+                type: 'string',
+                enum: ['one', 'all'],
                 description: 'as the query parameter; must precede the file part',
               },
               file: {
@@ -149,7 +161,7 @@ export async function imageRoutes(app: FastifyInstance): Promise<void> {
  */
 function formChoices(fields: Record<string, unknown>): z.infer<typeof uploadQuery> {
   const raw: Record<string, unknown> = {};
-  for (const name of ['frame', 'slice', 'volume'] as const) {
+  for (const name of ['frame', 'slice', 'volume', 'slices'] as const) {
     const field = fields[name] as { type?: string; value?: unknown } | undefined;
     if (field?.type === 'field') raw[name] = field.value;
   }
@@ -159,7 +171,7 @@ function formChoices(fields: Record<string, unknown>): z.infer<typeof uploadQuer
       parsed.error.issues.map((issue) => ({
         field: issue.path.join('.'),
         message: issue.message,
-        allowed: 'an integer ≥ 0',
+        allowed: issue.path[0] === 'slices' ? "'one' | 'all'" : 'an integer ≥ 0',
       })),
     );
   }

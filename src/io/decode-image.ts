@@ -29,7 +29,16 @@ function startsWith(bytes: Uint8Array, signature: number[]): boolean {
 export async function decodeImage(bytes: Buffer, options: DecodeOptions = {}): Promise<DecodedImage> {
   const decoded = await decodeByContent(bytes, options);
   // Float NIfTI may hold NaN or ±∞ (nifti1.h allows them); the simulation needs finite numbers.
-  const { data } = decoded.image;
+  const replaced = zeroNonFinite(decoded.image.data);
+  if (replaced > 0) decoded.notes.push(`${replaced} non-finite values (NaN, ±∞) replaced by 0`);
+  const replacedInVolume = decoded.volume ? zeroNonFinite(decoded.volume.data) : 0;
+  if (replacedInVolume > 0) {
+    decoded.notes.push(`${replacedInVolume} non-finite values (NaN, ±∞) in the volume replaced by 0`);
+  }
+  return decoded;
+}
+
+function zeroNonFinite(data: Float64Array): number {
   let replaced = 0;
   for (let i = 0; i < data.length; i++) {
     if (!Number.isFinite(data[i])) {
@@ -37,8 +46,7 @@ export async function decodeImage(bytes: Buffer, options: DecodeOptions = {}): P
       replaced++;
     }
   }
-  if (replaced > 0) decoded.notes.push(`${replaced} non-finite values (NaN, ±∞) replaced by 0`);
-  return decoded;
+  return replaced;
 }
 
 async function decodeByContent(bytes: Buffer, options: DecodeOptions): Promise<DecodedImage> {

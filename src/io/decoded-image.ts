@@ -1,4 +1,5 @@
 import type { RealImage } from '../core/real-image.ts';
+import type { RealVolume } from '../core/real-volume.ts';
 
 export type ImageFormat = 'png' | 'jpeg' | 'tiff' | 'dicom' | 'nifti';
 
@@ -10,6 +11,8 @@ export interface DecodeOptions {
   slice?: number;
   /** NIfTI volume along the fourth axis; default 0. */
   volume?: number;
+  /** NIfTI: also keep every slice of the chosen volume (for 3D and multi-slice plans). */
+  wholeVolume?: boolean;
   /** Largest accepted width/height in pixels. */
   maxSide?: number;
   /** Largest decompressed size in bytes (gzip NIfTI, deflated DICOM); the upload limit. */
@@ -24,4 +27,6 @@ export interface DecodedImage {
   meta: Record<string, string | number | boolean | number[] | null>;
   /** Human-readable notes on every transformation applied (rescale, inversion, luminance, flips). */
   notes: string[];
+  /** NIfTI with `wholeVolume`: all slices of the chosen volume, rows flipped like `image`. */
+  volume?: RealVolume;
 }

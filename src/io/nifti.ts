@@ -1,4 +1,5 @@
-import { DecodeError } from '../core/errors.ts';
+import { DecodeError, LimitError } from '../core/errors.ts';
+import { MAX_VOLUME_VOXELS } from '../core/matrix.ts';
 import type { DecodedImage, DecodeOptions } from './decoded-image.ts';
 import { checkIndex } from './image-size.ts';
 import { checkNiftiHeader, type NiftiHeaderOptions } from './nifti-header.ts';
@@ -119,17 +120,32 @@ export function decodeNifti(bytes: Uint8Array, options: DecodeOptions = {}): Dec
     );
   }
   const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
-  const start = voxOffset + (volume * nz + slice) * sliceVoxels * type.bytes;
   const slope = facts.sclSlope;
   const scaled = Number.isFinite(slope) && slope !== 0;
   const inter = scaled && Number.isFinite(facts.sclInter) ? facts.sclInter : 0;
-  const data = new Float64Array(sliceVoxels);
-  for (let j = 0; j < ny; j++) {
-    const row = ny - 1 - j;
-    for (let i = 0; i < nx; i++) {
-      const stored = type.read(view, start + (j * nx + i) * type.bytes, facts.littleEndian);
-      data[row * nx + i] = scaled ? slope * stored + inter : stored;
+  const readSlice = (data: Float64Array, k: number, at: number) => {
+    const start = voxOffset + (volume * nz + k) * sliceVoxels * type.bytes;
+    for (let j = 0; j < ny; j++) {
+      const row = ny - 1 - j;
+      for (let i = 0; i < nx; i++) {
+        const stored = type.read(view, start + (j * nx + i) * type.bytes, facts.littleEndian);
+        data[at + row * nx + i] = scaled ? slope * stored + inter : stored;
+      }
     }
+  };
+  const data = new Float64Array(sliceVoxels);
+  readSlice(data, slice, 0);
+  let whole: Float64Array | undefined;
+  if (options.wholeVolume) {
+    if (nx * ny * nz > MAX_VOLUME_VOXELS || (options.maxSide !== undefined && nz > options.maxSide)) {
+      throw new LimitError({
+        field: 'file.dim[3]',
+        message: `a ${nx}×${ny}×${nz} volume is larger than the configured limit`,
+        allowed: `nz ≤ ${options.maxSide ?? 'the matrix limit'} and nx·ny·nz ≤ ${MAX_VOLUME_VOXELS}`,
+      });
+    }
+    whole = new Float64Array(sliceVoxels * nz);
+    for (let k = 0; k < nz; k++) readSlice(whole, k, k * sliceVoxels);
   }
   const notes = ['rows flipped: image row 0 is voxel j = ny − 1 (j increases upward)'];
   if (scaled && (slope !== 1 || inter !== 0))
@@ -151,5 +167,6 @@ export function decodeNifti(bytes: Uint8Array, options: DecodeOptions = {}): Dec
       voxelSizeMm: [Math.abs(facts.pixdim[0]), Math.abs(facts.pixdim[1])],
     },
     notes,
+    ...(whole ? { volume: { nx, ny, nz, data: whole } } : {}),
   };
 }

@@ -251,7 +251,8 @@ export class PlanQueue extends EventEmitter {
     if (!image) {
       throw new ValidationError({ field: 'source.imageId', message: 'the uploaded image no longer exists' });
     }
-    return { id, image };
+    const volume = (plan.matrix.nz ?? 1) > 1 ? this.store.getImageVolume(id) : undefined;
+    return { id, image, ...(volume ? { volume } : {}) };
   }
 }
 

@@ -89,6 +89,14 @@ export class QueueCellRunner implements CellRunner {
         allowed: 'an image or phantom source with QUEUE_URL set, or a service without QUEUE_URL',
       });
     }
+    if (input.image?.volume) {
+      // Workers fetch an upload's 2D pixels only; volumes have no fetch route yet.
+      throw new ValidationError({
+        field: 'matrix.nz',
+        message: 'volume plans run on the embedded workers only: the job queue does not carry volumes yet',
+        allowed: 'no matrix.nz with QUEUE_URL set, or a service without QUEUE_URL',
+      });
+    }
     const spec: CellJobSpec = {
       plan: input.plan,
       cell: input.cell,

@@ -4,6 +4,7 @@ import Database from 'better-sqlite3';
 import { boundEcho, boundFieldProblems, MAX_DETAIL_CHARS } from '../core/echo-bound.ts';
 import type { FieldProblem } from '../core/errors.ts';
 import type { RealImage } from '../core/real-image.ts';
+import type { RealVolume } from '../core/real-volume.ts';
 import type { CoilMaps, MultiCoilKspace } from '../encoding/index.ts';
 import { type CellResult, cellResultSchema, type Plan, type PlanTable, planSchema } from '../plan/index.ts';
 
@@ -55,6 +56,8 @@ export interface StoredImage {
   meta: Record<string, unknown>;
   nx: number;
   ny: number;
+  /** Slices of the volume kept with the upload (slices=all); absent otherwise. */
+  nz?: number;
 }
 
 /** Why a plan failed, as stored with it and shown in its status (problem-like, bounded). */
@@ -109,10 +112,18 @@ interface ImageSqlRow {
   meta: string;
   nx: number;
   ny: number;
+  nz?: number | null;
 }
 
 function imageFromRow(row: ImageSqlRow): StoredImage {
-  return { id: row.id, createdAt: row.created_at, meta: JSON.parse(row.meta), nx: row.nx, ny: row.ny };
+  return {
+    id: row.id,
+    createdAt: row.created_at,
+    meta: JSON.parse(row.meta),
+    nx: row.nx,
+    ny: row.ny,
+    ...(row.nz ? { nz: row.nz } : {}),
+  };
 }
 
 /** One row of the plans table in SQLite, columns as stored (JSON in TEXT columns). */
@@ -167,6 +178,9 @@ const addedColumns: Array<{ table: string; column: string; type: string }> = [
   { table: 'plans', column: 'owner', type: 'TEXT' },
   // The plan a result belongs to (a row's representative seed-1 result), deleted with the plan.
   { table: 'results', column: 'plan_id', type: 'TEXT' },
+  // A NIfTI uploaded with slices=all keeps its whole volume (float64, x fastest) beside the slice.
+  { table: 'images', column: 'nz', type: 'INTEGER' },
+  { table: 'images', column: 'volume', type: 'BLOB' },
 ];
 
 interface InputKindSpec {
@@ -184,7 +198,7 @@ interface InputKindSpec {
  * one entry here plus the links written when a result or plan uses it.
  */
 export const inputKinds = {
-  image: { table: 'images', bytesSql: 'length(meta) + length(pixels)' },
+  image: { table: 'images', bytesSql: 'length(meta) + length(pixels) + coalesce(length(volume), 0)' },
   coilMaps: { table: 'coil_maps', bytesSql: 'length(meta) + length(planes)' },
   raw: {
     table: 'raw_kspace',
@@ -302,20 +316,45 @@ export class Store {
     image: RealImage,
     meta: Record<string, unknown>,
     owner: string | null = null,
+    volume?: RealVolume,
   ): StoredImage {
     const createdAt = new Date().toISOString();
-    const pixels = Buffer.from(image.data.buffer, image.data.byteOffset, image.data.byteLength);
+    const bytes = (data: Float64Array) => Buffer.from(data.buffer, data.byteOffset, data.byteLength);
     this.db
       .prepare(
-        'INSERT INTO images (id, created_at, meta, nx, ny, pixels, owner) VALUES (?, ?, ?, ?, ?, ?, ?)',
+        'INSERT INTO images (id, created_at, meta, nx, ny, pixels, owner, nz, volume) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)',
       )
-      .run(id, createdAt, JSON.stringify(meta), image.nx, image.ny, pixels, owner);
-    return { id, createdAt, meta, nx: image.nx, ny: image.ny };
+      .run(
+        id,
+        createdAt,
+        JSON.stringify(meta),
+        image.nx,
+        image.ny,
+        bytes(image.data),
+        owner,
+        volume ? volume.nz : null,
+        volume ? bytes(volume.data) : null,
+      );
+    return { id, createdAt, meta, nx: image.nx, ny: image.ny, ...(volume ? { nz: volume.nz } : {}) };
+  }
+
+  /** The whole volume of an upload made with slices=all; undefined when absent or not kept. */
+  getImageVolume(id: string, scope: Scope = 'all'): RealVolume | undefined {
+    const row = this.db
+      .prepare(`SELECT nx, ny, nz, volume FROM images WHERE id = @id AND ${visible}`)
+      .get({ id, ...scopeParams(scope) }) as
+      | { nx: number; ny: number; nz: number | null; volume: Buffer | null }
+      | undefined;
+    if (!row || row.nz === null || row.volume === null) return undefined;
+    // Copy into a fresh, aligned buffer: SQLite blobs need not be 8-byte aligned.
+    const data = new Float64Array(row.nx * row.ny * row.nz);
+    new Uint8Array(data.buffer).set(row.volume.subarray(0, data.byteLength));
+    return { nx: row.nx, ny: row.ny, nz: row.nz, data };
   }
 
   getImageInfo(id: string, scope: Scope = 'all'): StoredImage | undefined {
     const row = this.db
-      .prepare(`SELECT id, created_at, meta, nx, ny FROM images WHERE id = @id AND ${visible}`)
+      .prepare(`SELECT id, created_at, meta, nx, ny, nz FROM images WHERE id = @id AND ${visible}`)
       .get({ id, ...scopeParams(scope) }) as ImageSqlRow | undefined;
     return row && imageFromRow(row);
   }
@@ -647,7 +686,7 @@ export class Store {
   listImages(scope: Scope, options: { limit: number; after?: number }): ListPage<StoredImage> {
     const rows = this.db
       .prepare(
-        `SELECT rowid AS seq, id, created_at, meta, nx, ny FROM images
+        `SELECT rowid AS seq, id, created_at, meta, nx, ny, nz FROM images
          WHERE ${visible} AND (@after IS NULL OR rowid < @after) ORDER BY rowid DESC LIMIT @take`,
       )
       .all({ ...scopeParams(scope), after: options.after ?? null, take: options.limit + 1 }) as Array<

@@ -4,18 +4,23 @@ import type { WorkerFailure } from '../core/error-transport.ts';
 import type { Limits } from '../core/limits.ts';
 import type { Matrix } from '../core/matrix.ts';
 import type { RealImage } from '../core/real-image.ts';
+import type { RealVolume } from '../core/real-volume.ts';
 import type { CoilMaps } from '../encoding/index.ts';
 import type { CoilMapsUpload, DecodedCoilMaps } from '../io/decode-coil-maps.ts';
 import type { DecodedImage, DecodeOptions } from '../io/decoded-image.ts';
 import type { ImportedRawKspace } from '../io/ismrmrd/import-raw-kspace.ts';
 import type { MetricSet } from '../metrics/index.ts';
 import type { ReconstructionOutcome, ReconstructionRequest } from '../pipeline/run-reconstruction.ts';
+import type { PreparedVolume } from '../pipeline/volume-reconstruction.ts';
 import type { CellResult, Plan, PlanCell } from '../plan/index.ts';
+import type { PlaneBatch, PlaneReconstructions } from '../volume/plane-reconstruction.ts';
 
 /** An uploaded image the task needs, sent along so workers never open the database. */
 export interface UploadedPixels {
   id: string;
   image: RealImage;
+  /** The whole volume, for volume requests (matrix.nz > 1). */
+  volume?: RealVolume;
 }
 
 /** A reconstruction with what its answer shows beside it: mask diagnostics, zero-filled scores. */
@@ -64,6 +69,16 @@ export interface TaskMap {
       raw?: UploadedRawKspace;
       limits: Limits;
     };
+    output: ScoredOutcome;
+  };
+  /** A volume reconstruction in three steps, its planes spread over the pool (src/services/volume-runs.ts). */
+  'volume-prepare': {
+    input: { request: ReconstructionRequest; seed?: number; image: UploadedPixels; limits: Limits };
+    output: PreparedVolume;
+  };
+  'volume-planes': { input: { batch: PlaneBatch; limits: Limits }; output: PlaneReconstructions };
+  'volume-finish': {
+    input: { prepared: PreparedVolume; planes: PlaneReconstructions };
     output: ScoredOutcome;
   };
   /** Limits and one draw of every mask of a plan that already has the plan schema's shape. */

@@ -8,6 +8,7 @@ import type { RawKspace } from '../acquisition/index.ts';
 import { toWorkerFailure } from '../core/error-transport.ts';
 import { NotFoundError, ValidationError } from '../core/errors.ts';
 import type { RealImage } from '../core/real-image.ts';
+import type { RealVolume } from '../core/real-volume.ts';
 import type { CoilMaps } from '../encoding/index.ts';
 import type { ReconstructionOutcome } from '../pipeline/run-reconstruction.ts';
 import type {
@@ -26,6 +27,13 @@ function imageLoader(uploaded: UploadedPixels | undefined): (id: string) => Prom
   return async (id: string) => {
     if (uploaded && uploaded.id === id) return uploaded.image;
     throw new ValidationError({ field: 'source.imageId', message: `no uploaded image ${id}` });
+  };
+}
+
+function volumeLoader(uploaded: UploadedPixels | undefined): (id: string) => Promise<RealVolume> {
+  return async (id: string) => {
+    if (uploaded?.volume && uploaded.id === id) return uploaded.volume;
+    throw new ValidationError({ field: 'source.imageId', message: `no uploaded volume ${id}` });
   };
 }
 
@@ -88,12 +96,26 @@ const handlers: { [K in TaskKind]: (input: TaskInput<K>) => Promise<TaskOutput<K
     const { runReconstruction } = await import('../pipeline/run-reconstruction.ts');
     const ctx = {
       loadImage: imageLoader(image),
+      loadVolume: volumeLoader(image),
       loadCoilMaps: coilMapsLoader(coilMaps),
       loadRaw: rawLoader(raw),
       limits,
     };
     const outcome = await runReconstruction(request, seed, ctx);
     return scored(outcome);
+  },
+  async 'volume-prepare'({ request, seed, image, limits }) {
+    const { prepareVolume } = await import('../pipeline/volume-reconstruction.ts');
+    const { noiseSeedFor } = await import('../pipeline/run-reconstruction.ts');
+    return prepareVolume(request, seed, { loadVolume: volumeLoader(image), limits }, noiseSeedFor);
+  },
+  async 'volume-planes'({ batch, limits }) {
+    const { reconstructPlanes } = await import('../volume/plane-reconstruction.ts');
+    return reconstructPlanes(batch, { limits });
+  },
+  async 'volume-finish'({ prepared, planes }) {
+    const { finishVolume } = await import('../pipeline/volume-reconstruction.ts');
+    return scored(finishVolume(prepared, planes));
   },
   async 'validate-plan'({ plan, limits }) {
     // Draws every pattern × R mask once: at large matrices that is real work, so not on the event loop.
@@ -105,6 +127,7 @@ const handlers: { [K in TaskKind]: (input: TaskInput<K>) => Promise<TaskOutput<K
     const { runCellOutcome } = await import('../plan/index.ts');
     const ctx = {
       loadImage: imageLoader(image),
+      loadVolume: volumeLoader(image),
       loadCoilMaps: coilMapsLoader(coilMaps),
       loadRaw: rawLoader(raw),
       limits,

@@ -25,6 +25,7 @@ import { ValidationError } from '../core/errors.ts';
 import { defaultLimits, type Limits } from '../core/limits.ts';
 import { matrixSchemaFor } from '../core/matrix.ts';
 import type { RealImage } from '../core/real-image.ts';
+import type { RealVolume } from '../core/real-volume.ts';
 import { parseOrThrow } from '../core/zod-problems.ts';
 import type { CoilMaps, MultiCoilKspace } from '../encoding/index.ts';
 import { type LesionsRequest, lesionsSchema } from '../fidelity/index.ts';
@@ -43,6 +44,7 @@ import {
   zeroFilledCoilCombination,
   zeroFilledImage,
 } from '../recon/index.ts';
+import { type VolumeAcquisitionMode, volumeAcquisitionSchema } from '../volume/volume-schema.ts';
 import { type AcquiredData, type AcquiredNoise, acquiredDataOf } from './acquired-data.ts';
 import {
   arrayModel,
@@ -63,6 +65,7 @@ import {
 import { type FidelityOutcome, runLesionFidelity } from './lesion-run.ts';
 import { rawAcquisition } from './raw-acquisition.ts';
 import { resampleBilinear } from './resample.ts';
+import { runVolumeReconstruction, type VolumeOutcome } from './volume-reconstruction.ts';
 
 export const sourceSchema = z.union([
   z.strictObject({
@@ -91,7 +94,10 @@ export type SourceSpec = z.infer<typeof sourceSchema>;
 
 export interface ReconstructionRequest {
   source: SourceSpec;
-  matrix: { nx: number; ny: number };
+  /** nz > 1: a volume (src/pipeline/volume-reconstruction.ts). */
+  matrix: { nx: number; ny: number; nz?: number };
+  /** How a volume is acquired; volumes only (default '3d'). */
+  acquisition?: VolumeAcquisitionMode;
   sampling: SamplingSpec;
   noise?: NoiseSpec;
   method: MethodSpec;
@@ -142,12 +148,19 @@ export interface ReconstructionOutcome {
   snrRetained?: GFactorResult['snrRetained'];
   /** Feature-fidelity scores when the request has `lesions` (src/pipeline/lesion-run.ts). */
   fidelity?: FidelityOutcome;
-  /** The samples the method was given, kept with the result for export (acquired-data.ts). */
-  acquisition: AcquiredData;
+  /**
+   * The samples the method was given, kept with the result for export (acquired-data.ts); absent
+   * for volumes, whose export is not built.
+   */
+  acquisition?: AcquiredData;
+  /** Volumes (matrix.nz > 1): per-plane scores and the volumes; `metrics` are then the volume's. */
+  volume?: VolumeOutcome;
 }
 
 export interface PipelineContext {
   loadImage?: (id: string) => Promise<RealImage>;
+  /** An uploaded volume (NIfTI uploaded with slices=all) by id, for matrix.nz > 1. */
+  loadVolume?: (id: string) => Promise<RealVolume>;
   /** Uploaded sensitivity maps by id (POST /v1/coil-maps), for `coils: { mapsId }`. */
   loadCoilMaps?: (id: string) => Promise<CoilMaps>;
   /** Imported raw k-space by id (POST /v1/raw), for `source: { rawId }`. */
@@ -375,6 +388,7 @@ export function scoredMatrixSchemaFor(limits: Limits) {
     limits,
     MIN_SCORED_SIDE,
     `SSIM needs an ${MIN_SCORED_SIDE}×${MIN_SCORED_SIDE} window to score`,
+    true,
   );
 }
 
@@ -400,6 +414,7 @@ export function reconstructionRequestSchemaFor(limits: Limits) {
     phase: phaseSchema.optional(),
     gFactor: gFactorRequestSchema.optional(),
     lesions: lesionsSchema.optional(),
+    acquisition: volumeAcquisitionSchema.optional(),
   });
 }
 
@@ -415,6 +430,14 @@ export async function runReconstruction(
   seed: number | undefined,
   ctx: PipelineContext = {},
 ): Promise<ReconstructionOutcome> {
+  if ((req.matrix.nz ?? 1) > 1) return runVolumeReconstruction(req, seed, ctx, noiseSeedFor);
+  if (req.acquisition !== undefined) {
+    throw new ValidationError({
+      field: 'acquisition',
+      message: 'the acquisition mode applies to volumes only',
+      allowed: 'matrix.nz > 1 with acquisition, or no acquisition',
+    });
+  }
   const limits = ctx.limits ?? defaultLimits;
   // The request was checked once at the edge (reconstructionRequestSchemaFor): trusted here.
   const { nx, ny } = req.matrix;

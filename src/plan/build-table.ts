@@ -1,12 +1,12 @@
 import { ValidationError } from '../core/errors.ts';
-import { formatDuration, scanTime } from '../protocol/index.ts';
+import { acquisitionScanTime, formatDuration } from '../protocol/index.ts';
 import type { CellResult } from './cell-result.ts';
 import { fidelityGroup } from './fidelity-group.ts';
 import { specLabels } from './labels.ts';
 import { type MetricName, metricNames } from './metric-direction.ts';
 import { paretoFront } from './pareto.ts';
 import { patternSpecs } from './pattern-specs.ts';
-import { planCoilArrays } from './plan-cells.ts';
+import { planAcquisitions, planCoilArrays } from './plan-cells.ts';
 import type { PlanRow, PlanTable } from './plan-table.ts';
 import { meetsTargets, recommend } from './recommend.ts';
 import { type GridPosition, rowKey } from './row-key.ts';
@@ -24,6 +24,7 @@ export type TablePlan = Pick<
   Plan,
   'matrix' | 'protocol' | 'patterns' | 'accelerations' | 'methods' | 'seeds'
 > & {
+  acquisitions?: Plan['acquisitions'];
   target?: Plan['target'];
   targets?: Plan['targets'];
   coilArrays?: Plan['coilArrays'];
@@ -37,7 +38,8 @@ export type TablePlan = Pick<
  */
 export function buildTable(plan: TablePlan, cellResults: readonly CellResult[]): PlanTable {
   const groups = groupResults(cellResults);
-  const full = scanTime(plan.matrix, plan.protocol);
+  const acquisitions = planAcquisitions(plan);
+  const full = acquisitionScanTime(plan.matrix, plan.protocol, undefined, acquisitions[0]);
   const patternLabels = specLabels(plan.patterns, 'pattern');
   const methodLabels = specLabels(plan.methods as Record<string, unknown>[], 'name');
   const arrays = planCoilArrays(plan);
@@ -50,12 +52,15 @@ export function buildTable(plan: TablePlan, cellResults: readonly CellResult[]):
     for (const [accelerationIndex] of patternSpecs(pattern, plan.accelerations)) {
       plan.methods.forEach((_, methodIndex) => {
         arrays.forEach((_, coilIndex) => {
-          positions.push({
-            reference: false,
-            patternIndex,
-            accelerationIndex,
-            methodIndex,
-            ...(arrays.length > 1 || plan.coilArrays ? { coilIndex } : {}),
+          acquisitions.forEach((_, acquisitionIndex) => {
+            positions.push({
+              reference: false,
+              patternIndex,
+              accelerationIndex,
+              methodIndex,
+              ...(arrays.length > 1 || plan.coilArrays ? { coilIndex } : {}),
+              ...(acquisitions.length > 1 ? { acquisitionIndex } : {}),
+            });
           });
         });
       });
@@ -86,6 +91,7 @@ export function buildTable(plan: TablePlan, cellResults: readonly CellResult[]):
       method: position.reference ? referenceMethodLabel : methodLabels[position.methodIndex as number],
       coils: results[0].coils ?? coilLabels[position.coilIndex ?? 0],
       coilCount: results[0].coilCount ?? 1,
+      ...(acquisitions[0] ? { acquisition: acquisitions[position.acquisitionIndex ?? 0] } : {}),
       ...gFactorColumns(results),
       requestedR,
       actualR: mean(results.map((r) => r.actualR)),
@@ -183,7 +189,9 @@ function tableNotes(plan: TablePlan, rows: readonly PlanRow[], cellResults: read
       'better metric, then plan order.',
   ];
   const { partialFourier, dimensions } = plan.protocol;
-  if (dimensions === '2d' && cellResults.some((r) => r.mask?.unit === 'points')) {
+  // A volume's acquisition, not protocol.dimensions, decides how a mask is timed (design §2.5).
+  const volume = (plan.matrix.nz ?? 1) > 1;
+  if (!volume && dimensions === '2d' && cellResults.some((r) => r.mask?.unit === 'points')) {
     notes.push(
       'A point mask (e.g. poisson-disc) in a 2D protocol: every phase-encode row holding a sampled point ' +
         "costs a whole line, so it saves little time; plan it with dimensions '3d' as a ky–kz mask.",

@@ -23,6 +23,7 @@ export const cellResultSchema = z.object({
   accelerationIndex: z.int().nullable(),
   methodIndex: z.int().nullable(),
   coilIndex: z.int().optional().describe('index into the plan coilArrays; absent = 0'),
+  acquisitionIndex: z.int().optional().describe('index into a volume plan acquisitions; absent = 0'),
   coils: z.string().optional().describe('receive-array label; absent = "uniform"'),
   coilCount: z.int().optional().describe('number of coils; absent = 1'),
   gFactor: gFactorSummarySchema.optional().describe('g over the object, where one applies'),

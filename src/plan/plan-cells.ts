@@ -3,7 +3,7 @@ import { defaultLimits, type Limits } from '../core/limits.ts';
 import { patternSpecs, withProtocolPartialFourier } from './pattern-specs.ts';
 import type { GridPosition } from './row-key.ts';
 import type { Plan } from './schema.ts';
-import type { CoilsSpec, MethodSpec, SamplingSpec } from './upstream.ts';
+import type { CoilsSpec, MethodSpec, SamplingSpec, VolumeAcquisitionMode } from './upstream.ts';
 
 /** One simulated acquisition + reconstruction of a plan. Plain data, so it can cross to a worker thread. */
 export interface PlanCell extends GridPosition {
@@ -19,6 +19,8 @@ export interface PlanCell extends GridPosition {
   method: MethodSpec;
   /** The receive array of this cell (coilArrays[coilIndex]). */
   coils: CoilsSpec;
+  /** Volume plans: how this cell acquires the volume (acquisitions[acquisitionIndex]). */
+  acquisition?: VolumeAcquisitionMode;
   /** 1…seeds: seeds the mask draw and the noise draw of this repetition. */
   seed: number;
 }
@@ -27,17 +29,24 @@ export interface PlanCell extends GridPosition {
 export const referenceSampling: SamplingSpec = { pattern: 'cartesian-uniform', acceleration: 1 };
 export const referenceMethod: MethodSpec = { name: 'zero-filled' };
 
+/** The acquisitions a plan sweeps: a volume plan's acquisitions (default 3D); none for a 2D plan. */
+export function planAcquisitions(
+  plan: Pick<Plan, 'matrix'> & { acquisitions?: Plan['acquisitions'] },
+): readonly (VolumeAcquisitionMode | undefined)[] {
+  return (plan.matrix.nz ?? 1) > 1 ? (plan.acquisitions ?? ['3d']) : [undefined];
+}
+
 /** The receive arrays a plan sweeps: its coilArrays, or the uniform single coil. */
 export function planCoilArrays(plan: Pick<Plan, 'coilArrays'>): readonly CoilsSpec[] {
   return plan.coilArrays ?? [{ array: 'uniform' }];
 }
 
 type SizedPlan = Pick<Plan, 'patterns' | 'accelerations' | 'methods' | 'seeds'> &
-  Partial<Pick<Plan, 'coilArrays'>>;
+  Partial<Pick<Plan, 'coilArrays' | 'acquisitions'>>;
 
 /** Number of cells a plan expands to: (reference + Σ patterns' R counts × methods × coil arrays) × seeds. */
 export function planCellCount(plan: SizedPlan): number {
-  const arrays = planCoilArrays(plan).length;
+  const arrays = planCoilArrays(plan).length * (plan.acquisitions?.length ?? 1);
   let rows = 1;
   for (const pattern of plan.patterns)
     rows += patternSpecs(pattern, plan.accelerations).length * plan.methods.length * arrays;
@@ -52,6 +61,7 @@ export function planCellCount(plan: SizedPlan): number {
 export function planCells(plan: Plan, limits: Limits = defaultLimits): PlanCell[] {
   checkPlanSize(plan, limits);
   const arrays = planCoilArrays(plan);
+  const acquisitions = planAcquisitions(plan);
   const cells: PlanCell[] = [];
   const push = (
     position: GridPosition,
@@ -60,8 +70,18 @@ export function planCells(plan: Plan, limits: Limits = defaultLimits): PlanCell[
     method: MethodSpec,
   ) => {
     const coils = arrays[position.coilIndex ?? 0];
+    const acquisition = acquisitions[position.acquisitionIndex ?? 0];
     for (let seed = 1; seed <= plan.seeds; seed++) {
-      cells.push({ ...position, index: cells.length, sampling, acceleration, method, coils, seed });
+      cells.push({
+        ...position,
+        index: cells.length,
+        sampling,
+        acceleration,
+        method,
+        coils,
+        ...(acquisition ? { acquisition } : {}),
+        seed,
+      });
     }
   };
   push(
@@ -75,12 +95,21 @@ export function planCells(plan: Plan, limits: Limits = defaultLimits): PlanCell[
       const acceleration = accelerationIndex === null ? null : plan.accelerations[accelerationIndex];
       plan.methods.forEach((method, methodIndex) => {
         arrays.forEach((_, coilIndex) => {
-          push(
-            { reference: false, patternIndex, accelerationIndex, methodIndex, coilIndex },
-            withProtocolPartialFourier(sampling, plan.protocol.partialFourier),
-            acceleration,
-            method,
-          );
+          acquisitions.forEach((_, acquisitionIndex) => {
+            push(
+              {
+                reference: false,
+                patternIndex,
+                accelerationIndex,
+                methodIndex,
+                coilIndex,
+                ...(acquisitions.length > 1 ? { acquisitionIndex } : {}),
+              },
+              withProtocolPartialFourier(sampling, plan.protocol.partialFourier),
+              acceleration,
+              method,
+            );
+          });
         });
       });
     }

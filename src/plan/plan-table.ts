@@ -49,6 +49,10 @@ const gridPosition = {
     .describe(
       'index into the plan coilArrays (0 when the plan has none); the reference row uses coilArrays[0]',
     ),
+  acquisitionIndex: z
+    .int()
+    .optional()
+    .describe('index into a volume plan acquisitions (absent: 0); the reference row uses the first'),
 };
 
 /**
@@ -63,6 +67,10 @@ export const planRowSchema = z.object({
   method: z.string().describe('method label'),
   coils: z.string().describe('receive-array label: "uniform", "8 loops", "maps <id>"'),
   coilCount: z.int().describe('number of coils'),
+  acquisition: z
+    .enum(['3d', 'multi-slice'])
+    .optional()
+    .describe('volume plans: how the volume was acquired (3D ky–kz undersampling or multi-slice 2D)'),
   gFactorMean: z
     .number()
     .nullable()

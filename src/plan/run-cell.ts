@@ -1,4 +1,4 @@
-import { scanTime } from '../protocol/index.ts';
+import { acquisitionScanTime } from '../protocol/index.ts';
 import type { CellResult } from './cell-result.ts';
 import { jsonNumber } from './metric-direction.ts';
 import type { PlanCell } from './plan-cells.ts';
@@ -37,6 +37,7 @@ export async function runCellOutcome(
       ...(plan.phase === undefined ? {} : { phase: plan.phase }),
       ...(plan.gFactor === undefined ? {} : { gFactor: plan.gFactor }),
       ...(plan.lesions === undefined ? {} : { lesions: plan.lesions }),
+      ...(cell.acquisition === undefined ? {} : { acquisition: cell.acquisition }),
     },
     cell.seed,
     ctx,
@@ -80,7 +81,7 @@ export function cellScanColumns(
   cell: PlanCell,
   sampled: SampledMask,
 ): Omit<CellResult, 'metrics' | 'reconMs' | 'notes' | 'coils' | 'coilCount' | 'gFactor'> {
-  const time = scanTime(plan.matrix, plan.protocol, sampled);
+  const time = acquisitionScanTime(plan.matrix, plan.protocol, sampled, cell.acquisition);
   return {
     index: cell.index,
     reference: cell.reference,
@@ -88,6 +89,7 @@ export function cellScanColumns(
     accelerationIndex: cell.accelerationIndex,
     methodIndex: cell.methodIndex,
     ...(cell.coilIndex === undefined ? {} : { coilIndex: cell.coilIndex }),
+    ...(cell.acquisitionIndex === undefined ? {} : { acquisitionIndex: cell.acquisitionIndex }),
     seed: cell.seed,
     requestedR: cell.acceleration,
     actualR: sampled.acceleration.actual,

@@ -24,6 +24,8 @@ import {
   scoredMatrixSchemaFor,
   sourceSchema,
   spiralSchema,
+  unsupportedVolumePieces,
+  volumeAcquisitionSchema,
 } from './upstream.ts';
 
 type WithoutPlanKeys<T> = T extends unknown ? Omit<T, 'acceleration' | 'seed'> : never;
@@ -76,49 +78,59 @@ export function planSchemaFor(limits: Limits): ReturnType<typeof buildPlanSchema
   return schema;
 }
 
+/** The plan body's fields, before the checks across fields. */
+function planShape(limits: Limits) {
+  return z.strictObject({
+    source: sourceSchema,
+    matrix: scoredMatrixSchemaFor(limits),
+    protocol: protocolSchema,
+    patterns: z.array(planPatternSchema).min(1).max(16),
+    accelerations: z
+      .array(accelerationSchema)
+      .min(1)
+      .max(32)
+      .describe('acceleration factors R swept for every (non-custom) pattern'),
+    methods: z.array(methodSchemaFor(limits)).min(1).max(8),
+    seeds: z.int().min(1).max(100).describe('repetitions; repetition s uses seed s for mask and noise draws'),
+    noise: noiseSchema.optional(),
+    coilArrays: z
+      .array(coilsSchema)
+      .min(1)
+      .max(8)
+      .optional()
+      .describe(
+        'receive arrays swept for every pattern × R × method (default [{ "array": "uniform" }]); the reference row uses the first',
+      ),
+    phase: phaseSchema.optional(),
+    gFactor: gFactorRequestSchema.optional(),
+    target: targetSchema.optional(),
+    targets: z
+      .array(targetSchema)
+      .min(1)
+      .max(8)
+      .optional()
+      .describe(
+        'targets a recommended row must all meet, beside target (e.g. { "metric": "gFactorMax", "atMost": 1.5 })',
+      ),
+    lesions: lesionsSchema
+      .optional()
+      .describe('lesions inserted in every cell; rows gain the fidelity column group'),
+    acquisitions: z
+      .array(volumeAcquisitionSchema)
+      .min(1)
+      .max(2)
+      .optional()
+      .describe(
+        "volume plans (matrix.nz > 1): the acquisitions swept for every pattern × R × method (default ['3d']); " +
+          "['3d', 'multi-slice'] puts both in one table. The reference row uses the first",
+      ),
+  });
+}
+
 function buildPlanSchema(limits: Limits) {
-  return z
-    .strictObject({
-      source: sourceSchema,
-      matrix: scoredMatrixSchemaFor(limits),
-      protocol: protocolSchema,
-      patterns: z.array(planPatternSchema).min(1).max(16),
-      accelerations: z
-        .array(accelerationSchema)
-        .min(1)
-        .max(32)
-        .describe('acceleration factors R swept for every (non-custom) pattern'),
-      methods: z.array(methodSchemaFor(limits)).min(1).max(8),
-      seeds: z
-        .int()
-        .min(1)
-        .max(100)
-        .describe('repetitions; repetition s uses seed s for mask and noise draws'),
-      noise: noiseSchema.optional(),
-      coilArrays: z
-        .array(coilsSchema)
-        .min(1)
-        .max(8)
-        .optional()
-        .describe(
-          'receive arrays swept for every pattern × R × method (default [{ "array": "uniform" }]); the reference row uses the first',
-        ),
-      phase: phaseSchema.optional(),
-      gFactor: gFactorRequestSchema.optional(),
-      target: targetSchema.optional(),
-      targets: z
-        .array(targetSchema)
-        .min(1)
-        .max(8)
-        .optional()
-        .describe(
-          'targets a recommended row must all meet, beside target (e.g. { "metric": "gFactorMax", "atMost": 1.5 })',
-        ),
-      lesions: lesionsSchema
-        .optional()
-        .describe('lesions inserted in every cell; rows gain the fidelity column group'),
-    })
+  return planShape(limits)
     .superRefine((plan, ctx) => {
+      checkVolumePlan(plan, ctx);
       // A task score needs lesions to score it.
       const named = [plan.target, ...(Array.isArray(plan.targets) ? plan.targets : [])];
       named.forEach((t, i) => {
@@ -184,6 +196,51 @@ function buildPlanSchema(limits: Limits) {
       }
     })
     .describe('A sweep over patterns × accelerations × methods × coil arrays × seeds');
+}
+
+/**
+ * A volume plan (matrix.nz > 1) carries only what the volume pipeline models; `acquisitions` needs
+ * a volume and lists each mode once.
+ */
+function checkVolumePlan(plan: z.output<ReturnType<typeof planShape>>, ctx: z.RefinementCtx): void {
+  const volume = (plan.matrix?.nz ?? 1) > 1;
+  if (!volume) {
+    if (plan.acquisitions !== undefined) {
+      ctx.addIssue({
+        code: 'custom',
+        path: ['acquisitions'],
+        message: 'acquisitions apply to volumes only',
+        params: { allowed: 'matrix.nz > 1 with acquisitions, or no acquisitions' },
+      });
+    }
+    return;
+  }
+  if (Array.isArray(plan.acquisitions) && new Set(plan.acquisitions).size !== plan.acquisitions.length) {
+    ctx.addIssue({
+      code: 'custom',
+      path: ['acquisitions'],
+      message: 'an acquisition is listed twice',
+      params: { allowed: 'distinct values' },
+    });
+  }
+  // zod runs refinements on data that already has issues: only shapes this can read.
+  if (typeof plan.source !== 'object' || plan.source === null) return;
+  const problems = unsupportedVolumePieces({
+    source: plan.source,
+    coils: (Array.isArray(plan.coilArrays) ? plan.coilArrays : [])
+      .map((spec, i) => ({ field: `coilArrays[${i}]`, spec }))
+      .filter(({ spec }) => typeof spec === 'object' && spec !== null),
+    lesions: plan.lesions,
+    phase: plan.phase,
+    gFactor: plan.gFactor,
+  });
+  for (const problem of problems) {
+    const path = problem.field
+      .split(/[.[\]]/)
+      .filter(Boolean)
+      .map((part) => (/^\d+$/.test(part) ? Number(part) : part));
+    ctx.addIssue({ code: 'custom', path, message: problem.message, params: { allowed: problem.allowed } });
+  }
 }
 
 /** The plan schema with the default limits (types, scripts; the service uses planSchemaFor). */

@@ -38,3 +38,5 @@ export {
   sourceSchema,
 } from '../pipeline/run-reconstruction.ts';
 export { type MethodSpec, methodSchema, methodSchemaFor } from '../recon/index.ts';
+export { type VolumeAcquisitionMode, volumeAcquisitionSchema } from '../volume/volume-schema.ts';
+export { nonCartesianVolume, unsupportedVolumePieces } from '../volume/volume-support.ts';

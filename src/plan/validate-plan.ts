@@ -1,10 +1,17 @@
 import { type FieldProblem, ValidationError } from '../core/errors.ts';
 import { defaultLimits, type Limits } from '../core/limits.ts';
 import { parseOrThrow } from '../core/zod-problems.ts';
-import { scanTime } from '../protocol/index.ts';
+import { acquisitionScanTime, patternGrid } from '../protocol/index.ts';
 import { patternSpecs, withProtocolPartialFourier } from './pattern-specs.ts';
+import { planAcquisitions } from './plan-cells.ts';
 import { type Plan, planSchemaFor } from './schema.ts';
-import { generateMask, getPhantom, lesionSpecOf, phantomLesionPositions } from './upstream.ts';
+import {
+  generateMask,
+  getPhantom,
+  lesionSpecOf,
+  nonCartesianVolume,
+  phantomLesionPositions,
+} from './upstream.ts';
 
 export interface ValidatePlanOptions {
   limits?: Limits;
@@ -53,7 +60,13 @@ function checkMasks(plan: Plan, limits: Limits): void {
       try {
         // The scan-time model too: radial masks refuse 3D and partial Fourier.
         const sampling = withProtocolPartialFourier({ ...spec, seed: 1 }, plan.protocol.partialFourier);
-        scanTime(plan.matrix, plan.protocol, generateMask(plan.matrix, sampling, limits));
+        for (const acquisition of planAcquisitions(plan)) {
+          const mask = generateMask(patternGrid(plan.matrix, acquisition), sampling, limits);
+          if ((plan.matrix.nz ?? 1) > 1 && mask.trajectory) {
+            throw new ValidationError(nonCartesianVolume);
+          }
+          acquisitionScanTime(plan.matrix, plan.protocol, mask, acquisition);
+        }
       } catch (error) {
         if (!(error instanceof ValidationError)) throw error;
         for (const problem of error.problems) {

@@ -17,8 +17,9 @@ export function acquisitionUrls(id: string): { nifti: string; json: string } {
  * What is stored with a reconstruction: the header of acquisition.json (everything but the
  * result id), the complex64 samples, and the layout bytes (the Cartesian mask).
  */
-export function storedAcquisition(outcome: ReconstructionOutcome): StoredAcquisition {
+export function storedAcquisition(outcome: ReconstructionOutcome): StoredAcquisition | undefined {
   const data = outcome.acquisition;
+  if (data === undefined) return undefined;
   const table = sampleTable(outcome.sampled);
   const rows: number[][] = [];
   for (let i = 0; i < table.values.length; i += 3) {
@@ -55,7 +56,7 @@ export function storedAcquisition(outcome: ReconstructionOutcome): StoredAcquisi
       covariance: 'variancePerSample · I (coils independent, after prewhitening)',
       seed: data.noise.seed,
     },
-    zeroFilled: zeroFilledRule(outcome),
+    zeroFilled: zeroFilledRule(outcome, data),
     sampling: sampledSummary(outcome.sampled),
     ordering: table.ordering,
     table: { columns: [...table.columns], unit: table.unit, rows },
@@ -64,8 +65,8 @@ export function storedAcquisition(outcome: ReconstructionOutcome): StoredAcquisi
 }
 
 /** How the response's zero-filled image is formed from these samples. */
-function zeroFilledRule(outcome: ReconstructionOutcome): string {
-  if (outcome.acquisition.geometry === 'non-cartesian') {
+function zeroFilledRule(outcome: ReconstructionOutcome, data: AcquiredData): string {
+  if (data.geometry === 'non-cartesian') {
     return 'gridding: adjoint NUFFT of the density-weighted samples (not reproducible from this bundle alone)';
   }
   if (outcome.coils) {

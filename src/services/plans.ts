@@ -10,6 +10,7 @@ import { planLabel } from './plan-label.ts';
 import { checkRawMatrix, rawIdOf } from './raw-data.ts';
 import { reconstructionSchema } from './reconstructions.ts';
 import { type ResultImageKey, resultImageNames, resultImageUrl } from './result-images.ts';
+import { uploadedVolume } from './uploaded-volume.ts';
 
 export const planStatusNames = ['queued', 'running', 'done', 'failed', 'cancelled'] as const;
 
@@ -99,6 +100,8 @@ export class PlanService {
     if (source.imageId !== undefined && !store.getImageInfo(source.imageId, caller.scope)) {
       return { missingImage: source.imageId };
     }
+    if (source.imageId !== undefined && (plan.matrix.nz ?? 1) > 1)
+      uploadedVolume(store, source.imageId, caller);
     const mapInputs = checkPlanCoilMaps(store, plan, caller);
     const rawId = rawIdOf(plan);
     if (rawId !== undefined) checkRawMatrix(store.getRawKspaceInfo(rawId, caller.scope), rawId, plan.matrix);

@@ -21,6 +21,9 @@ import { rawIdOf, rawNotFound, readRawKspace } from './raw-data.ts';
 import { resultArrays } from './result-arrays.ts';
 import { type ResultImageKey, resultImageNames, resultImageUrl } from './result-images.ts';
 import { psfSummary, psfSummarySchema, sampledSummary, sampledSummarySchema } from './sampled-summary.ts';
+import { uploadedVolume } from './uploaded-volume.ts';
+import { volumeOnPool } from './volume-runs.ts';
+import { volumeSummary, volumeSummarySchema } from './volume-summary.ts';
 
 const metricValue = z.number().nullable().describe('null when not finite (PSNR of an exact reconstruction)');
 const metricSetSchema = z.object({
@@ -106,6 +109,7 @@ export const reconstructionSchema = z.object({
       'the acquired data the method was given, for your own pipeline: complex64 NIfTI and its JSON header ' +
         '(absent from results stored before acquisitions were kept)',
     ),
+  volume: volumeSummarySchema.optional(),
   createdAt: z.string(),
 });
 
@@ -139,24 +143,32 @@ export class ReconstructionService {
       const id = pipelineRequest.source.imageId;
       const pixels = store.getImagePixels(id, caller.scope);
       if (!pixels) return { missingImage: id };
-      image = { id, image: pixels };
+      const volume = (pipelineRequest.matrix.nz ?? 1) > 1 ? uploadedVolume(store, id, caller) : undefined;
+      image = { id, image: pixels, ...(volume ? { volume } : {}) };
     }
     const mapRefs = coilMapRefs(pipelineRequest);
     const coilMaps = loadNamedCoilMaps(store, mapRefs, caller);
     const rawId = rawIdOf(pipelineRequest);
     const raw = rawId === undefined ? undefined : { id: rawId, raw: readRawKspace(store, rawId, caller) };
-    const scored = await pool.runForRequest(
-      'reconstruction',
-      {
-        request: pipelineRequest,
-        ...(seed === undefined ? {} : { seed }),
-        ...(image ? { image } : {}),
-        ...(coilMaps.length > 0 ? { coilMaps } : {}),
-        ...(raw ? { raw } : {}),
-        limits,
-      },
-      signal,
-    );
+    const volumeRequest = image?.volume !== undefined;
+    const scored = volumeRequest
+      ? await volumeOnPool(
+          pool,
+          { request: pipelineRequest, ...(seed === undefined ? {} : { seed }), image: image!, limits },
+          signal,
+        )
+      : await pool.runForRequest(
+          'reconstruction',
+          {
+            request: pipelineRequest,
+            ...(seed === undefined ? {} : { seed }),
+            ...(image ? { image } : {}),
+            ...(coilMaps.length > 0 ? { coilMaps } : {}),
+            ...(raw ? { raw } : {}),
+            limits,
+          },
+          signal,
+        );
     // Linked to its upload, so deleting the upload deletes it; refused if the upload went meanwhile.
     const inputs = [
       ...(image ? [{ kind: 'image' as const, id: image.id }] : []),
@@ -270,7 +282,8 @@ function describe(id: string, { outcome, diagnostics, zeroFilledMetrics }: Score
     ...(outcome.gFactor ? { gFactor: outcome.gFactor } : {}),
     ...(outcome.snrRetained ? { snrRetained: outcome.snrRetained } : {}),
     ...(outcome.fidelity ? { fidelity: describeFidelity(outcome.fidelity) } : {}),
-    acquisition: acquisitionUrls(id),
+    ...(outcome.acquisition ? { acquisition: acquisitionUrls(id) } : {}),
+    ...(outcome.volume ? { volume: volumeSummary(outcome.volume) } : {}),
     createdAt: new Date().toISOString(),
   };
 }

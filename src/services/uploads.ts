@@ -1,5 +1,6 @@
 import { randomUUID } from 'node:crypto';
 import { z } from 'zod';
+import { ValidationError } from '../core/errors.ts';
 import type { Limits } from '../core/limits.ts';
 import type { Store, StoredImage } from '../jobs/store.ts';
 import type { WorkerPool } from '../jobs/worker-pool.ts';
@@ -12,6 +13,10 @@ export const imageInfoSchema = z.object({
   id: z.string(),
   nx: z.int().describe('columns'),
   ny: z.int().describe('rows'),
+  nz: z
+    .int()
+    .optional()
+    .describe('slices of the volume kept with the upload (NIfTI with slices=all), for matrix.nz'),
   format: z.enum(['png', 'jpeg', 'tiff', 'dicom', 'nifti']),
   details: z
     .record(z.string(), metaValue)
@@ -31,6 +36,8 @@ export interface PictureChoice {
   frame?: number;
   slice?: number;
   volume?: number;
+  /** NIfTI: 'all' keeps every slice of the chosen volume as well (volume sources, matrix.nz). */
+  slices?: 'one' | 'all';
 }
 
 function infoOf(stored: StoredImage): ImageInfo {
@@ -42,6 +49,7 @@ function infoOf(stored: StoredImage): ImageInfo {
     id: stored.id,
     nx: stored.nx,
     ny: stored.ny,
+    ...(stored.nz ? { nz: stored.nz } : {}),
     format,
     details,
     notes,
@@ -73,17 +81,30 @@ export class UploadService {
   /** Decodes (gunzip, DICOM/NIfTI parsing, sharp) on a worker: a 64 MB file never stalls the loop. */
   async upload(bytes: Buffer, choice: PictureChoice, caller: Caller): Promise<ImageInfo> {
     const { pool, store, limits } = this.deps;
+    const { slices, ...picture } = choice;
     const decoded = await pool.runForRequest('decode', {
       bytes,
-      options: { ...choice, maxSide: limits.maxMatrixSide, maxBytes: limits.maxUploadBytes },
+      options: {
+        ...picture,
+        ...(slices === 'all' ? { wholeVolume: true } : {}),
+        maxSide: limits.maxMatrixSide,
+        maxBytes: limits.maxUploadBytes,
+      },
     });
+    if (slices === 'all' && !decoded.volume) {
+      throw new ValidationError({
+        field: 'slices',
+        message: `a ${decoded.format} file holds one slice: slices=all needs a NIfTI volume`,
+        allowed: "'one', or a NIfTI file",
+      });
+    }
     const meta = {
       format: decoded.format,
       details: decoded.meta,
       notes: decoded.notes,
       stats: statistics(decoded.image.data),
     };
-    return infoOf(store.putImage(randomUUID(), decoded.image, meta, caller.owner));
+    return infoOf(store.putImage(randomUUID(), decoded.image, meta, caller.owner, decoded.volume));
   }
 
   /** The caller's uploads, newest first, `limit` per page after position `after`. */

@@ -35,6 +35,7 @@ for (const [title, path, name] of [
   ['coil maps', './coil-maps.bench.ts', 'benchCoilMaps'],
   ['raw import', './raw-import.bench.ts', 'benchRawImport'],
   ['job queue', './queue.bench.ts', 'benchQueue'],
+  ['volumes', './volume.bench.ts', 'benchVolume'],
 ] as const) {
   const group = await optional(title, path, name);
   if (group) groups.push(group);

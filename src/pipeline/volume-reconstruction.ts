@@ -1,0 +1,219 @@
+import { resolveSampling, type SampledMask, type SamplingSpec } from '../../sampling/index.ts';
+import { ValidationError } from '../core/errors.ts';
+import { defaultLimits } from '../core/limits.ts';
+import type { RealImage } from '../core/real-image.ts';
+import { type RealVolume, volumeSlice } from '../core/real-volume.ts';
+import type { MetricSet } from '../metrics/index.ts';
+import { patternGrid } from '../protocol/volume-scan-time.ts';
+import {
+  type PlaneBatch,
+  type PlaneReconstructions,
+  reconstructPlanes,
+} from '../volume/plane-reconstruction.ts';
+import { resampleTrilinear } from '../volume/resample-volume.ts';
+import { acquireVolume } from '../volume/volume-acquisition.ts';
+import type { VolumeAcquisitionMode } from '../volume/volume-schema.ts';
+import { type SliceScores, scoreVolume, volumeScores } from '../volume/volume-scores.ts';
+import { nonCartesianVolume, unsupportedVolumePieces } from '../volume/volume-support.ts';
+import type { PipelineContext, ReconstructionOutcome, ReconstructionRequest } from './run-reconstruction.ts';
+
+/** What a volume adds to a reconstruction outcome (docs/design.md §2.5). */
+export interface VolumeOutcome {
+  acquisition: VolumeAcquisitionMode;
+  matrix: { nx: number; ny: number; nz: number };
+  /** The axis the reconstructed planes are stacked along: x (3D hybrid space) or z (multi-slice). */
+  planeAxis: 'x' | 'z';
+  /** Scores of every reconstructed plane, in planeAxis order. */
+  slices: SliceScores;
+  /** Magnitudes as volumes (x fastest), for the float32 NIfTI download. */
+  volumes: { reconstruction: RealVolume; zeroFilled: RealVolume; reference: RealVolume };
+}
+
+/**
+ * A volume acquired and split into planes, ready for the 2D reconstructions: plain data, so the
+ * service can spread `batch` over the worker pool (src/services/volume-runs.ts) and finish on a worker.
+ */
+export interface PreparedVolume {
+  acquisition: VolumeAcquisitionMode;
+  matrix: { nx: number; ny: number; nz: number };
+  batch: PlaneBatch;
+  sampled: SampledMask;
+  notes: string[];
+}
+
+/** Stacks planes back into a volume (x fastest), from x-planes (ny × nz) or z-slices (ny × nx). */
+function assemble(
+  planes: readonly RealImage[],
+  axis: 'x' | 'z',
+  nx: number,
+  ny: number,
+  nz: number,
+): RealVolume {
+  const data = new Float64Array(nx * ny * nz);
+  if (axis === 'z') {
+    planes.forEach((plane, z) => {
+      data.set(plane.data, z * nx * ny);
+    });
+  } else {
+    planes.forEach((plane, x) => {
+      for (let y = 0; y < ny; y++)
+        for (let z = 0; z < nz; z++) data[(z * ny + y) * nx + x] = plane.data[y * nz + z];
+    });
+  }
+  return { nx, ny, nz, data };
+}
+
+/** The planes of a stacked volume again: x-planes (ny × nz) or z-slices (ny × nx). */
+function planesOf(volume: RealVolume, axis: 'x' | 'z'): RealImage[] {
+  const { nx, ny, nz, data } = volume;
+  if (axis === 'z') return Array.from({ length: nz }, (_, z) => volumeSlice(volume, z));
+  return Array.from({ length: nx }, (_, x) => {
+    const plane = new Float64Array(ny * nz);
+    for (let y = 0; y < ny; y++) for (let z = 0; z < nz; z++) plane[y * nz + z] = data[(z * ny + y) * nx + x];
+    return { nx: nz, ny, data: plane };
+  });
+}
+
+/**
+ * The volume scores of the zero-filled planes, computed only when asked (a reconstruction's answer
+ * shows them; plan cells do not): scoring every plane costs as much as a cheap reconstruction.
+ * Plain zero-filling is its own comparison, so its scores are the reconstruction's.
+ */
+export function volumeZeroFilledMetrics(
+  outcome: ReconstructionOutcome & { volume: VolumeOutcome },
+): MetricSet {
+  const { volumes, planeAxis } = outcome.volume;
+  if (volumes.zeroFilled === volumes.reconstruction) return { ...outcome.metrics };
+  return scoreVolume(planesOf(volumes.zeroFilled, planeAxis), planesOf(volumes.reference, planeAxis)).volume;
+}
+
+function centralSlice(volume: RealVolume): RealImage {
+  return volumeSlice(volume, Math.floor(volume.nz / 2));
+}
+
+/**
+ * The first half of a volume request (matrix.nz > 1): refusals, the upload's volume, the pattern
+ * (ky–kz for 3D, ky–kx for multi-slice), the acquisition (3D: exact readout transform, hybrid-space
+ * x-planes; multi-slice: every z-slice) and the batch of 2D problems.
+ */
+export async function prepareVolume(
+  req: ReconstructionRequest,
+  seed: number | undefined,
+  ctx: PipelineContext,
+  noiseSeedFor: (seed: number) => number,
+): Promise<PreparedVolume> {
+  const problems = unsupportedVolumePieces({
+    source: req.source,
+    coils: req.coils ? [{ field: 'coils', spec: req.coils }] : [],
+    lesions: req.lesions,
+    phase: req.phase,
+    gFactor: req.gFactor,
+  });
+  if (problems.length > 0) throw new ValidationError(problems);
+  const limits = ctx.limits ?? defaultLimits;
+  const { nx, ny } = req.matrix;
+  const nz = req.matrix.nz as number;
+  const acquisition = req.acquisition ?? '3d';
+  const notes: string[] = [];
+  const id = (req.source as { imageId: string }).imageId;
+  if (!ctx.loadVolume) {
+    throw new ValidationError({
+      field: 'source.imageId',
+      message: 'uploaded volumes are not available here',
+    });
+  }
+  const loaded = await ctx.loadVolume(id);
+  const volume = resampleTrilinear(loaded, nx, ny, nz);
+  if (volume !== loaded) {
+    notes.push(
+      `uploaded volume resampled from ${loaded.nz}×${loaded.ny}×${loaded.nx} to ${nz}×${ny}×${nx} (trilinear)`,
+    );
+  }
+  notes.push(
+    'uploaded volume: k-space is the DFT of the same voxels the reconstruction inverts (inverse crime)',
+  );
+  const sampling =
+    seed !== undefined && req.sampling.pattern !== 'custom'
+      ? ({ ...req.sampling, seed } as SamplingSpec)
+      : req.sampling;
+  const sampled = await resolveSampling(patternGrid(req.matrix, acquisition), sampling, limits);
+  if (sampled.trajectory) throw new ValidationError(nonCartesianVolume);
+  const noiseSeed = noiseSeedFor(seed ?? sampled.seed ?? 0);
+  const stack = acquireVolume(acquisition, volume, sampled, req.noise, noiseSeed);
+  if (stack.sigma > 0)
+    notes.push(`complex Gaussian noise, σ = ${stack.sigma.toPrecision(4)} per real channel`);
+  notes.push(
+    acquisition === '3d'
+      ? `3D: readout x transformed exactly, ${nx} hybrid-space x-planes (ky × kz = ${ny}×${nz}) reconstructed`
+      : `multi-slice: ${nz} z-slices (ky × kx = ${ny}×${nx}) acquired and reconstructed separately`,
+  );
+  return {
+    acquisition,
+    matrix: { nx, ny, nz },
+    batch: {
+      inputs: stack.inputs,
+      references: stack.references,
+      method: req.method,
+      ...(sampled.partialFourier ? { partialFourier: sampled.partialFourier } : {}),
+    },
+    sampled,
+    notes,
+  };
+}
+
+/**
+ * The second half: the planes' reconstructions and scores (from reconstructPlanes, here or on the
+ * worker pool) stacked into volumes and scored over the volume. Images: the central z-slice.
+ */
+export function finishVolume(prepared: PreparedVolume, planes: PlaneReconstructions): ReconstructionOutcome {
+  const { acquisition, sampled, batch } = prepared;
+  const { nx, ny, nz } = prepared.matrix;
+  const notes = [...prepared.notes];
+  if (planes.info.note) notes.push(String(planes.info.note));
+  const scored = volumeScores(planes.scores, planes.images, batch.references);
+  const axis = acquisition === '3d' ? 'x' : 'z';
+  const reconstructionVolume = assemble(planes.images, axis, nx, ny, nz);
+  const sameZeroFilled = planes.zeroFilled.every((image, i) => image === planes.images[i]);
+  const volumes = {
+    reconstruction: reconstructionVolume,
+    zeroFilled: sameZeroFilled ? reconstructionVolume : assemble(planes.zeroFilled, axis, nx, ny, nz),
+    reference: assemble(batch.references, axis, nx, ny, nz),
+  };
+  const reconstruction = centralSlice(volumes.reconstruction);
+  const reference = centralSlice(volumes.reference);
+  const errorMap = new Float64Array(nx * ny);
+  for (let i = 0; i < errorMap.length; i++)
+    errorMap[i] = Math.abs(reconstruction.data[i] - reference.data[i]);
+  return {
+    acceleration: sampled.acceleration,
+    acquired: sampled.acquired,
+    fraction: sampled.fraction,
+    metrics: scored.volume,
+    timing: { reconMs: planes.reconMs },
+    info: planes.info,
+    notes,
+    images: {
+      reconstruction,
+      zeroFilled: centralSlice(volumes.zeroFilled),
+      reference,
+      errorMap: { nx, ny, data: errorMap },
+    },
+    sampled,
+    volume: { acquisition, matrix: { nx, ny, nz }, planeAxis: axis, slices: scored.slices, volumes },
+  };
+}
+
+/** A whole volume request in this thread (plan cells, scripts, tests): prepare, every plane, finish. */
+export async function runVolumeReconstruction(
+  req: ReconstructionRequest,
+  seed: number | undefined,
+  ctx: PipelineContext,
+  noiseSeedFor: (seed: number) => number,
+): Promise<ReconstructionOutcome> {
+  const prepared = await prepareVolume(req, seed, ctx, noiseSeedFor);
+  const planes = reconstructPlanes(prepared.batch, {
+    signal: ctx.signal,
+    limits: ctx.limits ?? defaultLimits,
+  });
+  return finishVolume(prepared, planes);
+}

@@ -1,0 +1,43 @@
+import { execFileSync } from 'node:child_process';
+import { fileURLToPath } from 'node:url';
+import type { BenchRow } from './timing.ts';
+
+function median(values: number[]): number {
+  const sorted = [...values].sort((a, b) => a - b);
+  const mid = sorted.length >> 1;
+  return sorted.length % 2 ? sorted[mid] : (sorted[mid - 1] + sorted[mid]) / 2;
+}
+
+/**
+ * A 3D plan cell on a 128³ volume (Poisson-disc R = 4 on the 128×128 ky–kz plane, 128 hybrid-space
+ * x-planes reconstructed in one thread), each case in its own process so the peak RSS is the cell's:
+ * zero-filled (acquisition, readout transform, scoring: the fixed cost of a volume) and cs-tv at
+ * 20 iterations. Wall time is the median of the process's runs.
+ */
+export async function benchVolume(): Promise<BenchRow[]> {
+  const script = fileURLToPath(new URL('./volume-cell-process.ts', import.meta.url));
+  const cases = [
+    { label: 'zero-filled', method: { name: 'zero-filled' }, runs: 3 },
+    { label: 'cs-tv 20 it', method: { name: 'cs-tv', iterations: 20, tolerance: 0 }, runs: 1 },
+  ];
+  const rows: BenchRow[] = [];
+  for (const c of cases) {
+    const out = execFileSync(
+      process.execPath,
+      ['--import', 'tsx', script, JSON.stringify(c.method), String(c.runs)],
+      {
+        encoding: 'utf8',
+        maxBuffer: 1 << 20,
+      },
+    );
+    const { wallMs, baselineRssMiB, peakRssMiB, nrmse } = JSON.parse(out.trim().split('\n').pop() as string);
+    rows.push({
+      name: `3D cell 128³, ${c.label}`,
+      medianMs: median(wallMs),
+      note:
+        `runs ${wallMs.map((t: number) => t.toFixed(0)).join(', ')} ms; peak RSS ${peakRssMiB.toFixed(0)} MiB ` +
+        `(process before the cell ${baselineRssMiB.toFixed(0)} MiB); NRMSE ${nrmse.toFixed(4)}`,
+    });
+  }
+  return rows;
+}
