@@ -1,12 +1,12 @@
 import { z } from 'zod';
 import { fft2c, ifft2c } from '../core/centered-fft.ts';
 import { type ComplexImage, createComplexImage } from '../core/complex-image.ts';
-import { throwIfAborted, ValidationError } from '../core/errors.ts';
+import { throwIfAborted } from '../core/errors.ts';
 import type { CoilSamples } from '../encoding/encoding-operator.ts';
-import { CartesianEncoding, type EncodingOperator, NonCartesianEncoding } from '../encoding/index.ts';
-import { toeplitzFor } from '../nufft/plan-cache.ts';
+import type { EncodingOperator } from '../encoding/index.ts';
 import { backProjectionPeak, PROX_TOLERANCE, solveCsTvEncoding } from './cs-tv-encoding.ts';
-import type { CoilData, ReconInput, ReconMethod, ReconOutput } from './method.ts';
+import { encodingProblem } from './encoding-problem.ts';
+import type { ReconInput, ReconMethod, ReconOutput } from './method.ts';
 import { checkedNumber, checkedTolerance, iterationsToRun, type NumberRule } from './parameters.ts';
 import { extrapolate } from './primal-extrapolation.ts';
 import { totalVariation, tvDualAscent } from './total-variation.ts';
@@ -173,25 +173,11 @@ export const csTv: ReconMethod<CsTvSpec> = {
     const tolerance = checkedTolerance(spec.tolerance, CS_TV_DEFAULT_TOLERANCE);
     const lambdaSource = spec.lambda === undefined ? 'default from acquired fraction' : 'request';
     const params = { lambda, lambdaSource, iterations, tolerance };
-    if (input.trajectory) {
-      const { plan, trajectory, weights, weighting, samples } = input.trajectory;
-      // A density-weighted data term (W = the gridding weights) keeps EᴴE = AᴴWA near the identity,
-      // so the CG steps of the data prox converge fast; EᴴE runs through the Toeplitz kernel.
-      const kernel = toeplitzFor(trajectory, plan.nx, plan.ny, { name: weighting, values: weights });
-      const operator = new NonCartesianEncoding(plan, undefined, kernel, weights);
-      const weighted = operator.createData();
-      weighted.data.set(samples.data);
-      operator.weigh(weighted.data);
-      const output = runOnOperator(
-        operator,
-        weighted,
-        params,
-        'the trajectory (NUFFT, Toeplitz EᴴE)',
-        signal,
-      );
-      return { image: output.image, info: { ...output.info, dataWeighting: weighting } };
+    const problem = encodingProblem(input, 'cs-tv');
+    if (problem) {
+      const output = runOnOperator(problem.operator, problem.data, params, problem.operatorName, signal);
+      return { image: output.image, info: { ...output.info, ...problem.info } };
     }
-    if (input.coils) return runOnCoils(input, input.coils, params, signal);
     const peak = zeroFilledPeak(input);
     const result = solveCsTv(input, lambda * peak, iterations, tolerance, signal);
     return {
@@ -222,31 +208,6 @@ function solverInfo(
     objective: result.objective,
     totalVariation: result.tv,
   };
-}
-
-/**
- * Multi-coil cs-tv: SENSE with a TV penalty on the encoding operator built from the mask and the
- * known maps (solveCsTvEncoding). Without maps there is nothing to build E from: refused, since an
- * estimate from the calibration lines is not available to this method.
- */
-function runOnCoils(
-  input: ReconInput,
-  coils: CoilData,
-  params: { lambda: number; lambdaSource: string; iterations: number; tolerance: number },
-  signal?: AbortSignal,
-): ReconOutput {
-  const { maps, kspace } = coils;
-  if (!maps) {
-    throw new ValidationError({
-      field: 'method.name',
-      message:
-        'cs-tv on receive-array data needs coil sensitivity maps (known or uploaded); none are given for these data',
-      allowed: 'coil data with maps, or lowrank-hankel (needs no maps)',
-    });
-  }
-  const operator = new CartesianEncoding(kspace.nx, kspace.ny, input.mask, maps);
-  const output = runOnOperator(operator, kspace, params, 'the multi-coil encoding operator', signal);
-  return { image: output.image, info: { ...output.info, coils: kspace.coils, maps: 'given' } };
 }
 
 /**
