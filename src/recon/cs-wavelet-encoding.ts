@@ -4,7 +4,7 @@ import { SeededRandom } from '../core/random.ts';
 import { CartesianEncoding, type CoilSamples, type EncodingOperator } from '../encoding/index.ts';
 import type { WaveletFilters } from '../wavelets/daubechies-filters.ts';
 import { WaveletSteps } from '../wavelets/wavelet-steps.ts';
-import { PROX_MAX_STEPS, PROX_TOLERANCE } from './cs-tv-encoding.ts';
+import { dataTermFromNormal, PROX_MAX_STEPS, PROX_TOLERANCE } from './cs-tv-encoding.ts';
 import { NormalProxSolver } from './normal-prox.ts';
 import { extrapolate } from './primal-extrapolation.ts';
 import { StoppingRule } from './stopping-rule.ts';
@@ -73,16 +73,9 @@ interface Problem {
   options: CsWaveletEncodingOptions;
 }
 
-/** ½‖Ex − y‖² from x, EᴴEx, Eᴴy and ½‖y‖². */
+/** ½‖Ex − y‖² from x, EᴴEx and the problem's Eᴴy and ½‖y‖². */
 function dataTerm(x: Float64Array, normal: Float64Array, problem: Problem): number {
-  const b = problem.backProjection;
-  let quadratic = 0;
-  let cross = 0;
-  for (let i = 0; i < x.length; i++) {
-    quadratic += x[i] * normal[i];
-    cross += x[i] * b[i];
-  }
-  return Math.max(0, 0.5 * quadratic - cross + problem.halfDataNorm);
+  return dataTermFromNormal(x, normal, problem.backProjection, problem.halfDataNorm);
 }
 
 /**

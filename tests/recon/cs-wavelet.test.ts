@@ -5,9 +5,7 @@ import { fullKspaceFromPhantom } from '../../src/acquisition/phantom-source.ts';
 import { fft2c, ifft2c } from '../../src/core/centered-fft.ts';
 import { type ComplexImage, magnitude } from '../../src/core/complex-image.ts';
 import { ValidationError } from '../../src/core/errors.ts';
-import { defaultLimits } from '../../src/core/limits.ts';
 import { getPhantom } from '../../src/phantoms/index.ts';
-import { pinnedReconstruction } from '../../src/pipeline/pinned-method.ts';
 import { runReconstruction } from '../../src/pipeline/run-reconstruction.ts';
 import { type MethodSpec, reconstruct } from '../../src/recon/index.ts';
 import { defaultCsWaveletLambda } from '../../src/recon/parameters.ts';
@@ -163,23 +161,5 @@ describe('cs-wavelet parameters (typed errors naming the field)', () => {
     expect(defaultCsWaveletLambda(1)).toBe(0);
     expect(defaultCsWaveletLambda(0.25)).toBeCloseTo(0.00075, 15);
     expect(defaultCsWaveletLambda(0.001)).toBe(0.02);
-  });
-});
-
-describe('paired runs reuse the base run (pinned-method.ts)', () => {
-  it('the pinned cs-wavelet reproduces the base image on the base data: same λ, same shifts, the base iteration count', () => {
-    const n = 32;
-    const image = randomComplexImage(n, n, 9);
-    const mask = lineMask(n, 'cartesian-random', 2, 4);
-    const kspace = fft2c(image);
-    for (let i = 0; i < mask.length; i++) {
-      if (!mask[i]) kspace.data.fill(0, 2 * i, 2 * i + 2);
-    }
-    const spec: MethodSpec = { name: 'cs-wavelet', lambda: 0.01, iterations: 40 };
-    const base = reconstruct({ kspace, mask }, spec);
-    const pinned = pinnedReconstruction(spec, base.info, { limits: defaultLimits });
-    // λ goes through absolute and back (λ_abs / peak), so equal to rounding, not bit for bit.
-    expect(relativeError(pinned.reconstruct({ kspace, mask }).data, base.image.data)).toBeLessThan(1e-12);
-    expect(pinned.description).toContain(`${base.info.iterations} iterations, no early stop`);
   });
 });
