@@ -5,7 +5,7 @@ import { SeededRandom } from '../core/random.ts';
 import { daubechiesFilters, type WaveletName } from '../wavelets/daubechies-filters.ts';
 import { checkDwtShape } from '../wavelets/dwt2.ts';
 import { WaveletSteps } from '../wavelets/wavelet-steps.ts';
-import { zeroFilledPeak } from './cs-tv.ts';
+import { maskedResidual, zeroFilledPeak } from './cs-tv.ts';
 import type { ReconInput } from './method.ts';
 import { extrapolate } from './primal-extrapolation.ts';
 import { type ConvergenceReport, StoppingRule } from './stopping-rule.ts';
@@ -173,16 +173,7 @@ interface Run {
 
 /** ½‖M X − y‖² for k-space X. */
 function dataTerm(X: Float64Array, input: ReconInput): number {
-  const { mask } = input;
-  const y = input.kspace.data;
-  let residual = 0;
-  for (let i = 0; i < mask.length; i++) {
-    if (!mask[i]) continue;
-    const a = X[2 * i] - y[2 * i];
-    const b = X[2 * i + 1] - y[2 * i + 1];
-    residual += a * a + b * b;
-  }
-  return 0.5 * residual;
+  return maskedResidual(X, input.kspace.data, input.mask);
 }
 
 /** Φ(x) = ½‖M F x − y‖² + λ‖Ψx‖₁ (+ λ_TV TV(x)) for the image x and its k-space F x. */
