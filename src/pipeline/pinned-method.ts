@@ -35,6 +35,23 @@ const pinners: { [name: string]: (spec: MethodSpec, info: Info) => (input: Recon
       return { ...spec, lambda: peak > 0 ? lambdaAbsolute / peak : 0, iterations, tolerance: 0 };
     };
   },
+  'cs-wavelet': (spec, info) => {
+    const lambdaAbsolute = count(info, 'lambdaAbsolute') ?? 0;
+    const tvLambdaAbsolute = count(info, 'tvLambdaAbsolute') ?? 0;
+    const iterations = count(info, 'iterations');
+    // Both weights are relative to max |F_cᴴ y|, as cs-tv's; the cycle-spinning shifts are seeded.
+    return (input) => {
+      const peak = zeroFilledPeak(input);
+      const relative = (absolute: number) => (peak > 0 ? absolute / peak : 0);
+      return {
+        ...spec,
+        lambda: relative(lambdaAbsolute),
+        tvLambda: relative(tvLambdaAbsolute),
+        iterations,
+        tolerance: 0,
+      };
+    };
+  },
   'lowrank-hankel': (spec, info) => {
     const rank = count(info, 'rank');
     const iterations = count(info, 'iterations');
@@ -56,7 +73,9 @@ export function pinnedReconstruction(
     : spec.name === 'zero-filled'
       ? 'paired runs: zero-filled (linear; noise from the known σ)'
       : `paired runs and replicas: ${spec.name} with the base run's ${
-          spec.name === 'cs-tv' ? `absolute λ ${(count(info, 'lambdaAbsolute') ?? 0).toPrecision(4)}, ` : ''
+          spec.name === 'cs-tv' || spec.name === 'cs-wavelet'
+            ? `absolute λ ${(count(info, 'lambdaAbsolute') ?? 0).toPrecision(4)}, `
+            : ''
         }${spec.name === 'lowrank-hankel' ? `rank ${count(info, 'rank')}, ` : ''}${iterations} iterations, no early stop`;
   return {
     reconstruct: (input) => reconstruct(input, specFor(input), options).image,

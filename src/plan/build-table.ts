@@ -103,6 +103,7 @@ export function buildTable(plan: TablePlan, cellResults: readonly CellResult[]):
       effectiveTeMs: meanOrNull(results.map((r) => r.effectiveTeMs ?? null)),
       metrics,
       ...fidelityGroup(results),
+      ...solverStopColumns(results),
       reconMs: mean(results.map((r) => r.reconMs)),
       seeds: results.length,
       pareto: false,
@@ -128,6 +129,21 @@ export function buildTable(plan: TablePlan, cellResults: readonly CellResult[]):
     recommendation: recommend(rows, targets, methodLabels, paretoMetric),
     cells: { done: cellResults.length, total: positions.length * plan.seeds },
     notes: tableNotes(plan, rows, cellResults),
+  };
+}
+
+/** The iteration columns of a row: mean iterations run, the cap, and whether every seed converged. */
+function solverStopColumns(
+  results: readonly CellResult[],
+): Pick<PlanRow, 'iterationsRun' | 'iterationLimit' | 'converged'> {
+  const stops = results.map((r) => r.solverStop).filter((s) => s !== undefined);
+  if (stops.length === 0 || stops.length !== results.length) {
+    return { iterationsRun: null, iterationLimit: null, converged: null };
+  }
+  return {
+    iterationsRun: mean(stops.map((s) => s.iterations)),
+    iterationLimit: Math.max(...stops.map((s) => s.iterationLimit)),
+    converged: stops.every((s) => s.converged),
   };
 }
 

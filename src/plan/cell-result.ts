@@ -62,6 +62,14 @@ export const cellResultSchema = z.object({
     })
     .optional()
     .describe('task scores of the lesion study (plans with lesions)'),
+  solverStop: z
+    .object({
+      iterations: z.int().describe('iterations run'),
+      iterationLimit: z.int().describe('the cap (requested or default)'),
+      converged: z.boolean().describe('stopped by the convergence test before the cap'),
+    })
+    .optional()
+    .describe("an iterative method's stop (absent for zero-filled, GRAPPA and older results)"),
   reconMs: z.number(),
   notes: z.array(z.string()).describe('pipeline notes (inverse crime for uploads, rescaling, …)'),
   resultId: z

@@ -109,6 +109,21 @@ export const planRowSchema = z.object({
     .describe(
       'task scores of the inserted lesions (plans with lesions): contrast recovery, false lesions, …',
     ),
+  iterationsRun: z
+    .number()
+    .nullable()
+    .optional() // tables stored before the field existed are served as they were stored
+    .describe('mean over seeds of the iterations run; null for a non-iterative method'),
+  iterationLimit: z
+    .number()
+    .nullable()
+    .optional()
+    .describe('the iteration cap (requested or default); null for a non-iterative method'),
+  converged: z
+    .boolean()
+    .nullable()
+    .optional()
+    .describe('every seed stopped on the convergence test before the cap; null for a non-iterative method'),
   reconMs: z.number().describe('mean reconstruction wall time in ms (varies between runs)'),
   seeds: z.int().describe('seeds aggregated in this row'),
   pareto: z.boolean().describe('on the Pareto front of scan time vs paretoMetric'),

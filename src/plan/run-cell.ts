@@ -55,10 +55,24 @@ export async function runCellOutcome(
       hfen: jsonNumber(outcome.metrics.hfen),
     },
     ...(outcome.fidelity ? { fidelity: cellFidelity(outcome.fidelity) } : {}),
+    ...solverStopOf(outcome.info),
     reconMs: outcome.timing.reconMs,
     notes: [...outcome.notes],
   };
   return { result, outcome };
+}
+
+/** An iterative method's stop from its `info` (iterations, iterationLimit, converged), when it reports one. */
+export function solverStopOf(info: Record<string, unknown>): Pick<CellResult, 'solverStop'> {
+  const { iterations, iterationLimit, converged } = info;
+  if (
+    typeof iterations !== 'number' ||
+    typeof iterationLimit !== 'number' ||
+    typeof converged !== 'boolean'
+  ) {
+    return {};
+  }
+  return { solverStop: { iterations, iterationLimit, converged } };
 }
 
 /** The task scores of a cell's lesion study as plain numbers (src/plan/task-metrics.ts). */

@@ -3,6 +3,7 @@ import { throwIfAborted } from '../core/errors.ts';
 import type { CoilSamples, EncodingOperator } from '../encoding/index.ts';
 import { NormalProxSolver } from './normal-prox.ts';
 import { extrapolate } from './primal-extrapolation.ts';
+import { StoppingRule } from './stopping-rule.ts';
 import { totalVariation, tvDualAscent } from './total-variation.ts';
 
 // The same steps as the single-coil solver (cs-tv.ts): K = ∇ only, τσ‖∇‖² < 1 with ‖∇‖² ≤ 8.
@@ -18,6 +19,7 @@ export interface CsTvEncodingResult {
   iterations: number;
   objective: number;
   relativeChange: number;
+  objectiveChange: number;
   tv: number;
   /** CG steps summed over all iterations (each costs one EᴴE product). */
   proxSteps: number;
@@ -34,7 +36,7 @@ export interface CsTvEncodingResult {
  * exact on F⁻¹MF after two steps), λ, τ and the stopping rule keep their meaning, and the step
  * sizes need no estimate of ‖E‖. The price is 1 + (CG steps) EᴴE products per iteration, i.e.
  * coils × that many FFT pairs, against one pair per coil for the dual form.
- * Start x⁰ = Eᴴy, p⁰ = 0; stops after `iterations` or when ‖x_k − x_{k−1}‖/‖x_k‖ < tolerance.
+ * Start x⁰ = Eᴴy, p⁰ = 0; stops after `iterations` or by the StoppingRule (iterate and objective).
  */
 export function solveCsTvEncoding(
   operator: EncodingOperator<CoilSamples>,
@@ -57,20 +59,38 @@ export function solveCsTvEncoding(
   const gx = new Float64Array(2 * n);
   const gy = new Float64Array(2 * n);
   const div = new Float64Array(2 * n);
+  // EᴴE x and EᴴE x_old: the data term ½‖Ex − y‖² of the objective the stopping rule compares.
+  const normal = operator.normal(x).data;
+  const normalOld = new Float64Array(2 * n);
+  let halfDataNorm = 0;
+  for (let i = 0; i < y.data.length; i++) halfDataNorm += 0.5 * y.data[i] * y.data[i];
+  const objectiveAt = (image: Float64Array, normalImage: Float64Array) =>
+    dataTermFromNormal(image, normalImage, backProjection, halfDataNorm) +
+    lambdaAbs * totalVariation(image, nx, ny);
+  const rule = new StoppingRule(tolerance);
   let run = 0;
   let proxSteps = 0;
-  let change = Number.POSITIVE_INFINITY;
   for (let it = 0; it < iterations; it++) {
     throwIfAborted(signal);
     tvDualAscent(div, px, py, gx, gy, xBar, nx, ny, SIGMA, lambdaAbs);
     const xd = x.data;
     xOld.set(xd);
+    normalOld.set(normal);
     // b = v + τEᴴy with v = x + τ div p; the warm start is the current x.
     for (let i = 0; i < 2 * n; i++) rhs[i] = xd[i] + TAU * div[i] + TAU * backProjection[i];
     proxSteps += prox.solve(x, rhs, TAU, PROX_TOLERANCE, PROX_MAX_STEPS);
-    change = extrapolate(xBar, xd, xOld);
+    // (I + τEᴴE)x = rhs, so EᴴEx = (rhs − x)/τ to the CG tolerance: no extra product.
+    for (let i = 0; i < 2 * n; i++) normal[i] = (rhs[i] - xd[i]) / TAU;
+    const change = extrapolate(xBar, xd, xOld);
     run = it + 1;
-    if (change < tolerance) break;
+    if (
+      rule.converged(
+        change,
+        () => objectiveAt(xd, normal),
+        () => objectiveAt(xOld, normalOld),
+      )
+    )
+      break;
   }
   const ex = operator.forward(x);
   let residual = 0;
@@ -80,10 +100,30 @@ export function solveCsTvEncoding(
     image: x,
     iterations: run,
     objective: 0.5 * residual + lambdaAbs * tv,
-    relativeChange: change,
+    relativeChange: rule.relativeChange,
+    objectiveChange: rule.objectiveChange,
     tv,
     proxSteps,
   };
+}
+
+/**
+ * ½‖Ex − y‖² = ½⟨x, EᴴEx⟩ − Re⟨x, Eᴴy⟩ + ½‖y‖² from x, EᴴEx, Eᴴy and ½‖y‖² (interleaved real
+ * arrays: the real inner product of the re/im pairs is Re⟨·,·⟩); never below 0 (rounding).
+ */
+export function dataTermFromNormal(
+  x: Float64Array,
+  normal: Float64Array,
+  backProjection: Float64Array,
+  halfDataNorm: number,
+): number {
+  let quadratic = 0;
+  let cross = 0;
+  for (let i = 0; i < x.length; i++) {
+    quadratic += x[i] * normal[i];
+    cross += x[i] * backProjection[i];
+  }
+  return Math.max(0, 0.5 * quadratic - cross + halfDataNorm);
 }
 
 /** max |Eᴴy|: the scale the relative λ multiplies. */

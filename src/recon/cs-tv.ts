@@ -1,14 +1,15 @@
 import { z } from 'zod';
 import { fft2c, ifft2c } from '../core/centered-fft.ts';
 import { type ComplexImage, createComplexImage } from '../core/complex-image.ts';
-import { throwIfAborted, ValidationError } from '../core/errors.ts';
+import { throwIfAborted } from '../core/errors.ts';
 import type { CoilSamples } from '../encoding/encoding-operator.ts';
-import { CartesianEncoding, type EncodingOperator, NonCartesianEncoding } from '../encoding/index.ts';
-import { toeplitzFor } from '../nufft/plan-cache.ts';
+import type { EncodingOperator } from '../encoding/index.ts';
 import { backProjectionPeak, PROX_TOLERANCE, solveCsTvEncoding } from './cs-tv-encoding.ts';
-import type { CoilData, ReconInput, ReconMethod, ReconOutput } from './method.ts';
+import { encodingProblem } from './encoding-problem.ts';
+import type { ReconInput, ReconMethod, ReconOutput } from './method.ts';
 import { checkedNumber, checkedTolerance, iterationsToRun, type NumberRule } from './parameters.ts';
 import { extrapolate } from './primal-extrapolation.ts';
+import { StoppingRule } from './stopping-rule.ts';
 import { totalVariation, tvDualAscent } from './total-variation.ts';
 
 export const LAMBDA_RULE: NumberRule = { min: 0, max: 10 };
@@ -65,7 +66,8 @@ const SIGMA = 0.99 / Math.sqrt(8);
  * projection) and G = ½‖M F_c x − y‖², whose prox is exact in k-space:
  *   prox_τG(v) = F_cᴴ[(F_c v + τ M y) / (1 + τ M)]           (docs/references.md §5.2)
  * Step rule: τ = σ = 0.99/√8, so τσ‖∇‖² < 1. Start x⁰ = F_cᴴ y (zero-filled), p⁰ = 0.
- * λ_abs = λ_rel · max |F_cᴴ y|. Stops after `iterations` or when the relative change < tolerance.
+ * λ_abs = λ_rel · max |F_cᴴ y|. Stops after `iterations` or when the iterate and the objective both
+ * change by less than `tolerance`, relatively (StoppingRule); tolerance 0 runs every iteration.
  * With a full mask this is ROF denoising of F_cᴴ y with weight λ_abs.
  */
 export function solveCsTv(
@@ -74,7 +76,14 @@ export function solveCsTv(
   iterations: number,
   tolerance: number,
   signal?: AbortSignal,
-): { image: ComplexImage; iterations: number; objective: number; relativeChange: number; tv: number } {
+): {
+  image: ComplexImage;
+  iterations: number;
+  objective: number;
+  relativeChange: number;
+  objectiveChange: number;
+  tv: number;
+} {
   const { kspace, mask } = input;
   const { nx, ny } = kspace;
   const n = nx * ny;
@@ -98,8 +107,19 @@ export function solveCsTv(
   ifft2c(x, x);
   xBar.set(x.data);
   const damp = 1 / (1 + TAU);
+  // F x and F x_old: the data term of the objective the stopping rule compares.
+  const kspaceX = new Float64Array(2 * n);
+  const kspaceOld = new Float64Array(2 * n);
+  for (let i = 0; i < n; i++) {
+    if (mask[i]) {
+      kspaceX[2 * i] = y[2 * i];
+      kspaceX[2 * i + 1] = y[2 * i + 1];
+    }
+  }
+  const objectiveAt = (image: Float64Array, k: Float64Array) =>
+    maskedResidual(k, y, mask) + lambdaAbs * totalVariation(image, nx, ny);
+  const rule = new StoppingRule(tolerance);
   let run = 0;
-  let change = Number.POSITIVE_INFINITY;
   for (let it = 0; it < iterations; it++) {
     throwIfAborted(signal);
     // Dual ascent and projection onto the λ-ball per pixel (isotropic over both directions and re/im).
@@ -107,6 +127,7 @@ export function solveCsTv(
     // Primal step v = x − τ∇ᴴp = x + τ div p, then the exact data-term prox in k-space.
     const xd = x.data;
     xOld.set(xd);
+    kspaceOld.set(kspaceX);
     for (let i = 0; i < 2 * n; i++) work.data[i] = xd[i] + TAU * div[i];
     fft2c(work, work);
     const w = work.data;
@@ -116,28 +137,43 @@ export function solveCsTv(
         w[2 * i + 1] = (w[2 * i + 1] + TAU * y[2 * i + 1]) * damp;
       }
     }
+    kspaceX.set(w);
     ifft2c(work, x);
-    change = extrapolate(xBar, xd, xOld);
+    const change = extrapolate(xBar, xd, xOld);
     run = it + 1;
-    if (change < tolerance) break;
+    if (
+      rule.converged(
+        change,
+        () => objectiveAt(xd, kspaceX),
+        () => objectiveAt(xOld, kspaceOld),
+      )
+    )
+      break;
   }
-  // Final objective ½‖M F x − y‖² + λ TV(x).
+  // Final objective ½‖M F x − y‖² + λ TV(x), with F x recomputed from the returned image.
   fft2c(x, work);
-  let residual = 0;
-  for (let i = 0; i < n; i++) {
-    if (!mask[i]) continue;
-    const a = work.data[2 * i] - y[2 * i];
-    const b = work.data[2 * i + 1] - y[2 * i + 1];
-    residual += a * a + b * b;
-  }
+  const residual = maskedResidual(work.data, y, mask);
   const tv = totalVariation(x.data, nx, ny);
   return {
     image: x,
     iterations: run,
-    objective: 0.5 * residual + lambdaAbs * tv,
-    relativeChange: change,
+    objective: residual + lambdaAbs * tv,
+    relativeChange: rule.relativeChange,
+    objectiveChange: rule.objectiveChange,
     tv,
   };
+}
+
+/** ½‖M X − y‖² for k-space X. */
+export function maskedResidual(X: Float64Array, y: Float64Array, mask: Uint8Array): number {
+  let residual = 0;
+  for (let i = 0; i < mask.length; i++) {
+    if (!mask[i]) continue;
+    const a = X[2 * i] - y[2 * i];
+    const b = X[2 * i + 1] - y[2 * i + 1];
+    residual += a * a + b * b;
+  }
+  return 0.5 * residual;
 }
 
 /** max |F_cᴴ(M y)| — the scale λ is relative to. */
@@ -173,25 +209,11 @@ export const csTv: ReconMethod<CsTvSpec> = {
     const tolerance = checkedTolerance(spec.tolerance, CS_TV_DEFAULT_TOLERANCE);
     const lambdaSource = spec.lambda === undefined ? 'default from acquired fraction' : 'request';
     const params = { lambda, lambdaSource, iterations, tolerance };
-    if (input.trajectory) {
-      const { plan, trajectory, weights, weighting, samples } = input.trajectory;
-      // A density-weighted data term (W = the gridding weights) keeps EᴴE = AᴴWA near the identity,
-      // so the CG steps of the data prox converge fast; EᴴE runs through the Toeplitz kernel.
-      const kernel = toeplitzFor(trajectory, plan.nx, plan.ny, { name: weighting, values: weights });
-      const operator = new NonCartesianEncoding(plan, undefined, kernel, weights);
-      const weighted = operator.createData();
-      weighted.data.set(samples.data);
-      operator.weigh(weighted.data);
-      const output = runOnOperator(
-        operator,
-        weighted,
-        params,
-        'the trajectory (NUFFT, Toeplitz EᴴE)',
-        signal,
-      );
-      return { image: output.image, info: { ...output.info, dataWeighting: weighting } };
+    const problem = encodingProblem(input, 'cs-tv');
+    if (problem) {
+      const output = runOnOperator(problem.operator, problem.data, params, problem.operatorName, signal);
+      return { image: output.image, info: { ...output.info, ...problem.info } };
     }
-    if (input.coils) return runOnCoils(input, input.coils, params, signal);
     const peak = zeroFilledPeak(input);
     const result = solveCsTv(input, lambda * peak, iterations, tolerance, signal);
     return {
@@ -208,7 +230,13 @@ export const csTv: ReconMethod<CsTvSpec> = {
 function solverInfo(
   params: { lambda: number; lambdaSource: string; iterations: number; tolerance: number },
   lambdaAbsolute: number,
-  result: { iterations: number; relativeChange: number; objective: number; tv: number },
+  result: {
+    iterations: number;
+    relativeChange: number;
+    objectiveChange: number;
+    objective: number;
+    tv: number;
+  },
 ): Record<string, unknown> {
   return {
     lambda: params.lambda,
@@ -218,35 +246,11 @@ function solverInfo(
     iterationLimit: params.iterations,
     tolerance: params.tolerance,
     relativeChange: result.relativeChange,
-    converged: result.relativeChange < params.tolerance,
+    objectiveChange: result.objectiveChange,
+    converged: result.relativeChange < params.tolerance && result.objectiveChange < params.tolerance,
     objective: result.objective,
     totalVariation: result.tv,
   };
-}
-
-/**
- * Multi-coil cs-tv: SENSE with a TV penalty on the encoding operator built from the mask and the
- * known maps (solveCsTvEncoding). Without maps there is nothing to build E from: refused, since an
- * estimate from the calibration lines is not available to this method.
- */
-function runOnCoils(
-  input: ReconInput,
-  coils: CoilData,
-  params: { lambda: number; lambdaSource: string; iterations: number; tolerance: number },
-  signal?: AbortSignal,
-): ReconOutput {
-  const { maps, kspace } = coils;
-  if (!maps) {
-    throw new ValidationError({
-      field: 'method.name',
-      message:
-        'cs-tv on receive-array data needs coil sensitivity maps (known or uploaded); none are given for these data',
-      allowed: 'coil data with maps, or lowrank-hankel (needs no maps)',
-    });
-  }
-  const operator = new CartesianEncoding(kspace.nx, kspace.ny, input.mask, maps);
-  const output = runOnOperator(operator, kspace, params, 'the multi-coil encoding operator', signal);
-  return { image: output.image, info: { ...output.info, coils: kspace.coils, maps: 'given' } };
 }
 
 /**

@@ -2,17 +2,18 @@ import { fft2c, ifft2c } from '../core/centered-fft.ts';
 import { type ComplexImage, createComplexImage } from '../core/complex-image.ts';
 import { throwIfAborted } from '../core/errors.ts';
 import { SeededRandom } from '../core/random.ts';
-import { circularShift, randomShift } from '../wavelets/cycle-spin.ts';
-import { daubechiesFilters, type WaveletFilters, type WaveletName } from '../wavelets/daubechies-filters.ts';
-import { checkDwtShape, forwardDwt2, inverseDwt2 } from '../wavelets/dwt2.ts';
-import { detailL1, softThresholdDetails } from '../wavelets/soft-threshold.ts';
-import { zeroFilledPeak } from './cs-tv.ts';
+import { daubechiesFilters, type WaveletName } from '../wavelets/daubechies-filters.ts';
+import { checkDwtShape } from '../wavelets/dwt2.ts';
+import { WaveletSteps } from '../wavelets/wavelet-steps.ts';
+import { maskedResidual, zeroFilledPeak } from './cs-tv.ts';
 import type { ReconInput } from './method.ts';
-import { divergence, gradient, totalVariation, tvDualStep } from './total-variation.ts';
+import { extrapolate } from './primal-extrapolation.ts';
+import { type ConvergenceReport, StoppingRule } from './stopping-rule.ts';
+import { totalVariation, tvDualAscent } from './total-variation.ts';
 
 export const CS_WAVELET_DEFAULT_WAVELET: WaveletName = 'db4';
 export const CS_WAVELET_DEFAULT_LEVELS = 4;
-export const CS_WAVELET_DEFAULT_ITERATIONS = 100;
+export const CS_WAVELET_DEFAULT_ITERATIONS = 150;
 export const CS_WAVELET_DEFAULT_TOLERANCE = 1e-5;
 
 export interface CsWaveletOptions {
@@ -24,7 +25,7 @@ export interface CsWaveletOptions {
   /** DWT levels; nx and ny must be divisible by 2^levels (RangeError otherwise). */
   levels?: number;
   iterations?: number;
-  /** Stop when ‖x_k − x_{k−1}‖ / ‖x_k‖ < tolerance. */
+  /** Stop when the iterate and the objective change by less than this, relatively (StoppingRule). */
   tolerance?: number;
   /** A new random circular shift of the wavelet grid every iteration (FISTA only). */
   cycleSpinning?: boolean;
@@ -32,12 +33,18 @@ export interface CsWaveletOptions {
   seed?: number;
   /** Monotone FISTA (Beck & Teboulle 2009b): keep the previous iterate when the objective would rise. */
   monotone?: boolean;
+  /**
+   * Adaptive restart of FISTA's momentum (O'Donoghue & Candès 2015, gradient scheme): when
+   * ⟨z_k − x_k, x_k − x_{k−1}⟩ > 0 the momentum points uphill, so t is reset to 1. Default on for
+   * plain FISTA; ignored with cycle spinning (the shifted proxes make the test noise) and MFISTA.
+   */
+  restart?: boolean;
   /** Record the objective after every iteration in `info.objectiveHistory`. */
   recordObjective?: boolean;
   signal?: AbortSignal;
 }
 
-export interface CsWaveletInfo {
+export interface CsWaveletInfo extends ConvergenceReport {
   solver: string;
   wavelet: WaveletName;
   levels: number;
@@ -46,11 +53,6 @@ export interface CsWaveletInfo {
   lambdaTv: number;
   lambdaTvAbsolute: number;
   cycleSpinning: boolean;
-  iterations: number;
-  iterationLimit: number;
-  tolerance: number;
-  relativeChange: number;
-  converged: boolean;
   /** ½‖M F x − y‖² + λ_abs‖Ψx‖₁ (+ λ_TV,abs TV(x)) at the returned x, with the unshifted transform. */
   objective: number;
   /**
@@ -109,8 +111,7 @@ export function solveCsWavelet(
   const peak = zeroFilledPeak(input);
   const setup: Setup = {
     input,
-    filters: daubechiesFilters(wavelet),
-    levels,
+    steps: new WaveletSteps(nx, ny, daubechiesFilters(wavelet), levels),
     iterations,
     tolerance,
     lambdaAbs: options.lambda * peak,
@@ -121,15 +122,20 @@ export function solveCsWavelet(
   const run =
     lambdaTv > 0
       ? primalDual(setup)
-      : fista(setup, cycleSpinning ? new SeededRandom(options.seed ?? 1) : null, options.monotone ?? false);
-  const objective = finalObjective(setup, run.image, run.kspace);
+      : fista(
+          setup,
+          cycleSpinning ? new SeededRandom(options.seed ?? 1) : null,
+          options.monotone ?? false,
+          (options.restart ?? true) && !cycleSpinning && !options.monotone,
+        );
+  const objective = objectiveOf(setup, run.image.data, run.kspace);
   return {
     image: run.image,
     info: {
       solver:
         lambdaTv > 0
           ? 'Chambolle–Pock primal–dual, K = (∇, W), τ = σ = 0.99/3'
-          : `${options.monotone ? 'monotone ' : ''}FISTA, step 1 (L = 1)`,
+          : `${options.monotone ? 'monotone ' : ''}FISTA, step 1 (L = 1)${run.restarts > 0 ? `, ${run.restarts} adaptive restarts` : ''}`,
       wavelet,
       levels,
       lambda: options.lambda,
@@ -137,11 +143,7 @@ export function solveCsWavelet(
       lambdaTv,
       lambdaTvAbsolute: setup.lambdaTvAbs,
       cycleSpinning,
-      iterations: run.iterations,
-      iterationLimit: iterations,
-      tolerance,
-      relativeChange: run.change,
-      converged: run.change < tolerance,
+      ...run.rule.report(run.iterations, iterations),
       objective,
       ...(setup.history ? { objectiveHistory: setup.history } : {}),
     },
@@ -150,8 +152,7 @@ export function solveCsWavelet(
 
 interface Setup {
   input: ReconInput;
-  filters: WaveletFilters;
-  levels: number;
+  steps: WaveletSteps;
   iterations: number;
   tolerance: number;
   lambdaAbs: number;
@@ -165,30 +166,21 @@ interface Run {
   /** F_c of the image. */
   kspace: Float64Array;
   iterations: number;
-  change: number;
+  rule: StoppingRule;
+  /** Momentum restarts (FISTA with adaptive restart). */
+  restarts: number;
 }
 
 /** ½‖M X − y‖² for k-space X. */
 function dataTerm(X: Float64Array, input: ReconInput): number {
-  const { mask } = input;
-  const y = input.kspace.data;
-  let residual = 0;
-  for (let i = 0; i < mask.length; i++) {
-    if (!mask[i]) continue;
-    const a = X[2 * i] - y[2 * i];
-    const b = X[2 * i + 1] - y[2 * i + 1];
-    residual += a * a + b * b;
-  }
-  return 0.5 * residual;
+  return maskedResidual(X, input.kspace.data, input.mask);
 }
 
-function finalObjective(setup: Setup, image: ComplexImage, kspace: Float64Array): number {
-  const { nx, ny } = image;
-  const coefficients = new Float64Array(image.data.length);
-  forwardDwt2(coefficients, image.data, nx, ny, setup.filters, setup.levels);
-  let objective =
-    dataTerm(kspace, setup.input) + setup.lambdaAbs * detailL1(coefficients, nx, ny, setup.levels);
-  if (setup.lambdaTvAbs > 0) objective += setup.lambdaTvAbs * totalVariation(image.data, nx, ny);
+/** Φ(x) = ½‖M F x − y‖² + λ‖Ψx‖₁ (+ λ_TV TV(x)) for the image x and its k-space F x. */
+function objectiveOf(setup: Setup, image: Float64Array, kspace: Float64Array): number {
+  const { nx, ny } = setup.steps;
+  let objective = dataTerm(kspace, setup.input) + setup.lambdaAbs * setup.steps.detailL1(image);
+  if (setup.lambdaTvAbs > 0) objective += setup.lambdaTvAbs * totalVariation(image, nx, ny);
   return objective;
 }
 
@@ -205,8 +197,8 @@ function maskedData(input: ReconInput): Float64Array {
   return out;
 }
 
-function fista(setup: Setup, rng: SeededRandom | null, monotone: boolean): Run {
-  const { input, filters, levels, lambdaAbs, history, signal } = setup;
+function fista(setup: Setup, rng: SeededRandom | null, monotone: boolean, restart: boolean): Run {
+  const { input, lambdaAbs, history, signal, steps } = setup;
   const { nx, ny } = input.kspace;
   const { mask } = input;
   const y = input.kspace.data;
@@ -217,17 +209,13 @@ function fista(setup: Setup, rng: SeededRandom | null, monotone: boolean): Run {
   let U: Float64Array = new Float64Array(size);
   const image = ifft2c({ nx, ny, data: X.slice() });
   const v = createComplexImage(nx, ny);
-  const coefficients = new Float64Array(size);
-  const shifted = rng ? new Float64Array(size) : coefficients;
   const u = createComplexImage(nx, ny);
   let objective = Number.POSITIVE_INFINITY;
-  if (monotone) {
-    forwardDwt2(coefficients, image.data, nx, ny, filters, levels);
-    objective = dataTerm(X, input) + lambdaAbs * detailL1(coefficients, nx, ny, levels);
-  }
+  if (monotone) objective = dataTerm(X, input) + lambdaAbs * steps.detailL1(image.data);
+  const rule = new StoppingRule(setup.tolerance);
   let t = 1;
   let run = 0;
-  let change = Number.POSITIVE_INFINITY;
+  let restarts = 0;
   for (let it = 0; it < setup.iterations; it++) {
     throwIfAborted(signal);
     // Gradient step with step 1: F(z − Fᴴ(MFz − y)) = F z with the sampled points set to y.
@@ -243,19 +231,7 @@ function fista(setup: Setup, rng: SeededRandom | null, monotone: boolean): Run {
     }
     ifft2c(v, v);
     // Prox of λ‖Ψ S ·‖₁: soft-threshold the detail coefficients of the (shifted) image.
-    let l1: number;
-    if (rng) {
-      const { dy, dx } = randomShift(rng, levels);
-      circularShift(shifted, vd, nx, ny, dy, dx);
-      forwardDwt2(coefficients, shifted, nx, ny, filters, levels);
-      l1 = softThresholdDetails(coefficients, nx, ny, levels, lambdaAbs);
-      inverseDwt2(shifted, coefficients, nx, ny, filters, levels);
-      circularShift(u.data, shifted, nx, ny, -dy, -dx);
-    } else {
-      forwardDwt2(coefficients, vd, nx, ny, filters, levels);
-      l1 = softThresholdDetails(coefficients, nx, ny, levels, lambdaAbs);
-      inverseDwt2(u.data, coefficients, nx, ny, filters, levels);
-    }
+    const l1 = steps.shrink(u.data, vd, lambdaAbs, rng);
     U.set(u.data);
     fft2c({ nx, ny, data: U }, { nx, ny, data: U });
     const candidate = dataTerm(U, input) + lambdaAbs * l1;
@@ -267,9 +243,14 @@ function fista(setup: Setup, rng: SeededRandom | null, monotone: boolean): Run {
       diff += d * d;
       norm += U[i] * U[i];
     }
-    change = norm > 0 ? Math.sqrt(diff / norm) : Math.sqrt(diff);
+    const change = norm > 0 ? Math.sqrt(diff / norm) : Math.sqrt(diff);
+    if (restart && uphill(Z, U, X)) {
+      t = 1;
+      restarts++;
+    }
     const tNext = (1 + Math.sqrt(1 + 4 * t * t)) / 2;
     const accept = !monotone || candidate <= objective;
+    const before = objective;
     if (monotone) {
       // MFISTA: x_k = argmin{Φ(u_k), Φ(x_{k−1})}; z = x_k + (t/t')(u_k − x_k) + ((t − 1)/t')(x_k − x_{k−1}).
       const keep = accept ? U : X;
@@ -289,9 +270,23 @@ function fista(setup: Setup, rng: SeededRandom | null, monotone: boolean): Run {
     t = tNext;
     run = it + 1;
     history?.push(objective);
-    if (change < setup.tolerance) break;
+    if (
+      rule.converged(
+        change,
+        () => objective,
+        () => before,
+      )
+    )
+      break;
   }
-  return { image, kspace: X, iterations: run, change };
+  return { image, kspace: X, iterations: run, rule, restarts };
+}
+
+/** ⟨z − u, u − x⟩ > 0 (real part; F is unitary, so k-space copies give the image-domain value). */
+export function uphill(z: Float64Array, u: Float64Array, x: Float64Array): boolean {
+  let dot = 0;
+  for (let i = 0; i < z.length; i++) dot += (z[i] - u[i]) * (u[i] - x[i]);
+  return dot > 0;
 }
 
 // Primal–dual steps: τσ‖K‖² < 1 with ‖K‖² ≤ ‖∇‖² + ‖W‖² ≤ 8 + 1 (Chambolle & Pock 2011).
@@ -299,7 +294,7 @@ const PD_TAU = 0.99 / 3;
 const PD_SIGMA = 0.99 / 3;
 
 function primalDual(setup: Setup): Run {
-  const { input, filters, levels, lambdaAbs, lambdaTvAbs, history, signal } = setup;
+  const { input, lambdaAbs, lambdaTvAbs, history, signal, steps } = setup;
   const { nx, ny } = input.kspace;
   const { mask } = input;
   const y = input.kspace.data;
@@ -316,39 +311,21 @@ function primalDual(setup: Setup): Run {
   const gy = new Float64Array(size);
   const div = new Float64Array(size);
   const q = new Float64Array(size);
-  const coefficients = new Float64Array(size);
   const back = new Float64Array(size);
-  const kspace = new Float64Array(size);
-  const h0 = ny >> levels;
-  const w0 = nx >> levels;
-  const wl2 = lambdaAbs * lambdaAbs;
+  const kspace = maskedData(input);
+  const kspaceOld = new Float64Array(size);
   const damp = 1 / (1 + PD_TAU);
+  const rule = new StoppingRule(setup.tolerance);
   let run = 0;
-  let change = Number.POSITIVE_INFINITY;
   for (let it = 0; it < setup.iterations; it++) {
     throwIfAborted(signal);
-    // Dual ascent on p (TV): projection onto the λ_TV ball per pixel, as cs-tv.
-    gradient(gx, gy, xBar, nx, ny);
-    tvDualStep(px, py, gx, gy, PD_SIGMA, lambdaTvAbs);
-    // Dual ascent on q (wavelet): projection onto |q| ≤ λ per detail coefficient; the unpenalised
-    // approximation band has q = 0 (its conjugate is the indicator of {0}).
-    forwardDwt2(coefficients, xBar, nx, ny, filters, levels);
-    for (let row = 0; row < ny; row++) {
-      for (let col = 0; col < nx; col++) {
-        const k = 2 * (row * nx + col);
-        if (row < h0 && col < w0) continue;
-        const a = q[k] + PD_SIGMA * coefficients[k];
-        const b = q[k + 1] + PD_SIGMA * coefficients[k + 1];
-        const s = a * a + b * b;
-        const scale = s > wl2 ? lambdaAbs / Math.sqrt(s) : 1;
-        q[k] = a * scale;
-        q[k + 1] = b * scale;
-      }
-    }
-    inverseDwt2(back, q, nx, ny, filters, levels);
-    divergence(div, px, py, nx, ny);
+    // Dual ascent on p (TV): projection onto the λ_TV ball per pixel, as cs-tv; on q (wavelet):
+    // projection onto |q| ≤ λ per detail coefficient.
+    tvDualAscent(div, px, py, gx, gy, xBar, nx, ny, PD_SIGMA, lambdaTvAbs);
+    steps.dualStep(q, back, xBar, PD_SIGMA, lambdaAbs);
     // Primal step v = x − τKᴴ(p, q) = x + τ div p − τ Wᴴq, then the exact data prox in k-space.
     xOld.set(xd);
+    kspaceOld.set(kspace);
     for (let i = 0; i < size; i++) work.data[i] = xd[i] + PD_TAU * (div[i] - back[i]);
     fft2c(work, work);
     const w = work.data;
@@ -360,19 +337,15 @@ function primalDual(setup: Setup): Run {
     }
     kspace.set(w);
     ifft2c(work, x);
-    let diff = 0;
-    let norm = 0;
-    for (let i = 0; i < size; i++) {
-      const value = xd[i];
-      const d = value - xOld[i];
-      diff += d * d;
-      norm += value * value;
-      xBar[i] = value + d;
-    }
+    const change = extrapolate(xBar, xd, xOld);
     run = it + 1;
-    change = norm > 0 ? Math.sqrt(diff / norm) : Math.sqrt(diff);
-    if (history) history.push(finalObjective(setup, x, kspace));
-    if (change < setup.tolerance) break;
+    let objective: number | undefined;
+    const now = () => {
+      objective ??= objectiveOf(setup, xd, kspace);
+      return objective;
+    };
+    if (history) history.push(now());
+    if (rule.converged(change, now, () => objectiveOf(setup, xOld, kspaceOld))) break;
   }
-  return { image: x, kspace, iterations: run, change };
+  return { image: x, kspace, iterations: run, rule, restarts: 0 };
 }

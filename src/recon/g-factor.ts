@@ -3,6 +3,7 @@ import type { Limits } from '../core/limits.ts';
 import { createMultiCoilArray, type MultiCoilKspace } from '../encoding/index.ts';
 import { coilImages, combineCoilImages } from './coil-combination.ts';
 import { csTv } from './cs-tv.ts';
+import { csWavelet } from './cs-wavelet.ts';
 import { prepareGrappa } from './grappa.ts';
 import { lowrankHankel } from './lowrank-hankel.ts';
 import type { ReconInput } from './method.ts';
@@ -85,6 +86,12 @@ export function replicaReconstructor(
       const lambda = typeof baseInfo.lambda === 'number' ? baseInfo.lambda : method.lambda;
       const spec = { ...method, lambda, iterations: ran ?? method.iterations, tolerance: 0 };
       return (kspace, mask) => csTv.run(asInput(kspace, mask), spec, { limits }).image;
+    }
+    case 'cs-wavelet': {
+      const lambda = typeof baseInfo.lambda === 'number' ? baseInfo.lambda : method.lambda;
+      const tvLambda = typeof baseInfo.tvLambda === 'number' ? baseInfo.tvLambda : method.tvLambda;
+      const spec = { ...method, lambda, tvLambda, iterations: ran ?? method.iterations, tolerance: 0 };
+      return (kspace, mask) => csWavelet.run(asInput(kspace, mask), spec, { limits }).image;
     }
     case 'lowrank-hankel': {
       const spec = { ...method, iterations: ran ?? method.iterations, tolerance: 0 };

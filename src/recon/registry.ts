@@ -2,6 +2,7 @@ import { z } from 'zod';
 import type { Limits } from '../core/limits.ts';
 import { withinLimit } from '../core/zod-problems.ts';
 import { csTv, csTvSchema } from './cs-tv.ts';
+import { csWavelet, csWaveletSchema } from './cs-wavelet.ts';
 import { grappa, grappaSchema } from './grappa.ts';
 import { lowrankHankel, lowrankHankelSchema } from './lowrank-hankel.ts';
 import type { ReconInput, ReconMethod, ReconOutput } from './method.ts';
@@ -13,6 +14,7 @@ import { zeroFilled, zeroFilledSchema } from './zero-filled.ts';
 export const methodSchema = z.discriminatedUnion('name', [
   zeroFilledSchema.extend(pf),
   csTvSchema.extend(pf),
+  csWaveletSchema.extend(pf),
   lowrankHankelSchema.extend(pf),
   senseSchema.extend(pf),
   grappaSchema.extend(pf),
@@ -30,6 +32,7 @@ type SpecByName = { [S in MethodSpec as S['name']]: S };
 const methodByName: { readonly [N in MethodName]: ReconMethod<SpecByName[N]> } = {
   'zero-filled': zeroFilled,
   'cs-tv': csTv,
+  'cs-wavelet': csWavelet,
   'lowrank-hankel': lowrankHankel,
   sense,
   grappa,
@@ -67,6 +70,7 @@ export function methodSchemaFor(limits: Limits): typeof methodSchema {
     schema = z.discriminatedUnion('name', [
       zeroFilledSchema.extend(pf),
       csTvSchema.extend({ iterations: limitedIterations(csTvSchema.shape.iterations, max), ...pf }),
+      csWaveletSchema.extend({ iterations: limitedIterations(csWaveletSchema.shape.iterations, max), ...pf }),
       lowrankHankelSchema.extend({
         iterations: limitedIterations(lowrankHankelSchema.shape.iterations, max),
         ...pf,

@@ -233,6 +233,15 @@ export class SetupForm {
       if (lambda !== undefined) spec.lambda = lambda;
       return spec;
     }
+    if (name === 'cs-wavelet') {
+      const spec = { name, wavelet: byId('wavelet').value };
+      if (iterations !== undefined) spec.iterations = iterations;
+      const lambda = numberOf('lambda');
+      if (lambda !== undefined) spec.lambda = lambda;
+      const tvLambda = numberOf('tvLambda');
+      if (tvLambda !== undefined && tvLambda > 0) spec.tvLambda = tvLambda;
+      return spec;
+    }
     if (name === 'lowrank-hankel') {
       const spec = { name, kernel: numberOf('kernel'), weighting: byId('weighting').value };
       if (iterations !== undefined) spec.iterations = iterations;

@@ -20,6 +20,8 @@ const controls = [
   'angles',
   'method',
   'lambda',
+  'tvLambda',
+  'wavelet',
   'kernel',
   'rank',
   'weighting',

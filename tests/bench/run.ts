@@ -30,6 +30,7 @@ for (const [title, path, name] of [
   ['coil reconstruction', './coil-recon.bench.ts', 'benchCoilRecon'],
   ['fidelity', './fidelity.bench.ts', 'benchFidelity'],
   ['wavelets', './wavelet.bench.ts', 'benchWavelet'],
+  ['solver speed', './solver-speed.bench.ts', 'benchSolverSpeed'],
   ['planning', './plan.bench.ts', 'benchPlan'],
   ['service', './service.bench.ts', 'benchService'],
   ['coil maps', './coil-maps.bench.ts', 'benchCoilMaps'],

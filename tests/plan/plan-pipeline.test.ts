@@ -98,6 +98,39 @@ describe('plan through the real pipeline (32×32)', () => {
   });
 });
 
+describe('iteration columns: iterations run, the cap, converged (table and CSV)', () => {
+  it('zero-filled has none; a cap of 3 leaves cs-wavelet unconverged; cs-tv with tolerance 0.01 stops early', async () => {
+    const table = await runPlan(
+      smallPlanBody({
+        patterns: [{ pattern: 'cartesian-random', acs: 4 }],
+        accelerations: [2],
+        seeds: 2,
+        methods: [
+          { name: 'zero-filled' },
+          { name: 'cs-wavelet', iterations: 3 },
+          { name: 'cs-tv', iterations: 300, tolerance: 0.01 },
+        ],
+      }),
+    );
+    const [reference, zeroFilled, wavelet, tv] = table.rows;
+    for (const row of [reference, zeroFilled]) {
+      expect([row.iterationsRun, row.iterationLimit, row.converged]).toEqual([null, null, null]);
+    }
+    // 3 iterations cannot meet the default 1e-5 on both the iterate and the objective.
+    expect([wavelet.iterationsRun, wavelet.iterationLimit, wavelet.converged]).toEqual([3, 3, false]);
+    expect(tv.converged).toBe(true);
+    expect(tv.iterationLimit).toBe(300);
+    expect(tv.iterationsRun as number).toBeLessThan(300);
+    const records = parse(tableToCsv(table), { columns: true }) as Record<string, string>[];
+    expect(records.map((r) => [r.iterations_run, r.iteration_limit, r.converged])).toEqual([
+      ['', '', ''],
+      ['', '', ''],
+      ['3.0', '3', 'false'],
+      [(tv.iterationsRun as number).toFixed(1), '300', 'true'],
+    ]);
+  });
+});
+
 describe('a custom mask in a plan (32×32 PNG made with sharp)', () => {
   it('gives one row per method with requested R null and times the rows it samples', async () => {
     const { default: sharp } = await import('sharp');

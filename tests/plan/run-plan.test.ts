@@ -181,7 +181,7 @@ describe('plan validation names the field and the allowed range', () => {
     expect(list).toContainEqual(
       expect.objectContaining({
         field: 'methods[1].name',
-        allowed: 'one of "zero-filled", "cs-tv", "lowrank-hankel", "sense", "grappa"',
+        allowed: 'one of "zero-filled", "cs-tv", "cs-wavelet", "lowrank-hankel", "sense", "grappa"',
       }),
     );
   });

@@ -247,7 +247,7 @@ describe('cs-tv parameters (docs/design.md §4.1: typed errors naming the field 
   it('rejects an unknown method by name', () => {
     expect(problem(() => reconstruct(input, { name: 'magic' } as never))).toMatchObject({
       field: 'method.name',
-      allowed: 'zero-filled | cs-tv | lowrank-hankel | sense | grappa',
+      allowed: 'zero-filled | cs-tv | cs-wavelet | lowrank-hankel | sense | grappa',
     });
   });
 

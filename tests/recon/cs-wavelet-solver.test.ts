@@ -143,7 +143,8 @@ describe('cs-wavelet solver', () => {
     expect(history[0]).toBeLessThan(
       objectiveOf(ifft2c(kspace), kspace, sampled.mask, mono.info.lambdaAbsolute, 3),
     );
-    const plain = solveCsWavelet(input, options);
+    // Plain FISTA: no adaptive restart (which would itself cut the momentum that makes Φ rise).
+    const plain = solveCsWavelet(input, { ...options, restart: false });
     expect(rises(plain.info.objectiveHistory as number[])).toBeGreaterThan(0);
     expect(Math.abs(plain.info.objective - mono.info.objective)).toBeLessThan(1e-6 * mono.info.objective);
   });
@@ -203,6 +204,31 @@ describe('cs-wavelet solver', () => {
     const c = solveCsWavelet(input, { ...options, seed: 4 });
     expect(a.image.data).toEqual(b.image.data);
     expect(maxAbsDifference(a.image.data, c.image.data)).toBeGreaterThan(1e-6);
+  });
+});
+
+describe("FISTA with adaptive restart (O'Donoghue & Candès 2015)", () => {
+  it('reaches plain FISTA’s objective after 1500 iterations to 1e-6 relative, in no more iterations', () => {
+    // Same problem, same minimiser: restart changes the path only. Measured at 128² (λ = 0.001):
+    // 682 iterations against 776 to 1e-6; asserted here on 64² as "not more, and reached".
+    const { kspace, sampled } = poissonDiscAcquisition('shepp-logan-modified', 64, 8, 1);
+    const input = { kspace, mask: sampled.mask };
+    const run = (restart: boolean) =>
+      solveCsWavelet(input, {
+        lambda: 0.001,
+        iterations: 1500,
+        tolerance: 0,
+        restart,
+        recordObjective: true,
+      });
+    const plain = run(false);
+    const restarted = run(true);
+    const target = plain.info.objective;
+    const reach = (history: number[]) => history.findIndex((v) => v <= target * (1 + 1e-6)) + 1;
+    const restartedReach = reach(restarted.info.objectiveHistory as number[]);
+    expect(restartedReach).toBeGreaterThan(0);
+    expect(restartedReach).toBeLessThanOrEqual(reach(plain.info.objectiveHistory as number[]));
+    expect(Math.abs(restarted.info.objective - target)).toBeLessThan(1e-6 * target);
   });
 });
 

@@ -39,6 +39,7 @@ describe('methodSchema (the request piece, docs/design.md §4.3 "method")', () =
   it('every registered method has a schema member and vice versa', () => {
     expect([...reconMethods.keys()].sort()).toEqual([
       'cs-tv',
+      'cs-wavelet',
       'grappa',
       'lowrank-hankel',
       'sense',
