@@ -120,6 +120,30 @@ export function spanLinesAgreeingWithContains(
   return lines;
 }
 
+/**
+ * Frequencies (cycles per unit length) the primitive shapes are checked at: the origin, points on
+ * each axis, both quadrant signs, and far out where a shape's transform has decayed.
+ */
+export const SHAPE_FREQUENCIES: ReadonlyArray<readonly [number, number]> = [
+  [0, 0],
+  [1, 0],
+  [1.5, 0],
+  [0.7, -2.3],
+  [-3.1, 1.2],
+  [4, 4],
+  [5, 5],
+  [0, -6.5],
+  [0, -9.5],
+];
+
+/** A unit-intensity transform scaled by the intensity ρ (the transform is linear in ρ). */
+export function scaledTransform(intensity: number, unit: TransformAt): TransformAt {
+  return (kx, ky) => {
+    const [re, im] = unit(kx, ky);
+    return [intensity * re, intensity * im];
+  };
+}
+
 /** Two descriptions of the same object have the same transform at every frequency. */
 export function expectSameTransform(
   a: TransformAt,
