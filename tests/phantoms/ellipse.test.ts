@@ -6,7 +6,6 @@ import {
   expectSameTransform,
   SHAPE_FREQUENCIES as FREQUENCIES,
   itObeysTransformTheorems,
-  scaledTransform,
   shapeTransform,
   spanLinesAgreeingWithContains,
   transformAt,
@@ -28,20 +27,16 @@ describe('ellipse transform', () => {
     expect(value[1]).toBe(0);
   });
 
-  it('agrees with direct Gauss–Legendre × trapezoid integration over the ellipse (tests/phantoms/quadrature.ts, 1e-13)', () => {
-    for (const p of [ELLIPSE_3, TILTED]) {
-      const geometry = { x0: p.x0, y0: p.y0, a: p.a, b: p.b, theta: ((p.thetaDeg ?? 0) * Math.PI) / 180 };
-      const quadrature = scaledTransform(p.intensity, (kx, ky) =>
-        ellipseTransformByQuadrature(geometry, kx, ky),
-      );
-      expectSameTransform(shapeTransform(new Ellipse(p)), quadrature, FREQUENCIES, 1e-13);
-    }
-  });
-
   itObeysTransformTheorems({
     make: (p: EllipseParams) => new Ellipse(p),
+    quadrature: {
+      rule: 'direct Gauss–Legendre × trapezoid integration over the ellipse',
+      instances: [ELLIPSE_3, TILTED],
+      transform: ({ x0, y0, a, b }, theta, kx, ky) =>
+        ellipseTransformByQuadrature({ x0, y0, a, b, theta }, kx, ky),
+      tolerance: 1e-13,
+    },
     tilted: TILTED,
-    frequencies: FREQUENCIES,
     shift: [0.137, -0.41],
     shiftTolerance: 1e-13,
     rotationDeg: 23,

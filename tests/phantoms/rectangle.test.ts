@@ -6,7 +6,6 @@ import {
   expectSameTransform,
   SHAPE_FREQUENCIES as FREQUENCIES,
   itObeysTransformTheorems,
-  scaledTransform,
   shapeTransform,
   spanLinesAgreeingWithContains,
   transformAt,
@@ -42,20 +41,16 @@ describe('rectangle transform', () => {
     }
   });
 
-  it('agrees with direct 2D Gauss–Legendre integration over the rotated rectangle (tests/phantoms/quadrature.ts, 1e-13)', () => {
-    for (const p of [CHECK, TILTED]) {
-      const geometry = { x0: p.x0, y0: p.y0, wx: p.wx, wy: p.wy, theta: ((p.thetaDeg ?? 0) * Math.PI) / 180 };
-      const quadrature = scaledTransform(p.intensity, (kx, ky) =>
-        rectangleTransformByQuadrature(geometry, kx, ky),
-      );
-      expectSameTransform(shapeTransform(new Rectangle(p)), quadrature, FREQUENCIES, 1e-13);
-    }
-  });
-
   itObeysTransformTheorems({
     make: (p: RectangleParams) => new Rectangle(p),
+    quadrature: {
+      rule: 'direct 2D Gauss–Legendre integration over the rotated rectangle',
+      instances: [CHECK, TILTED],
+      transform: ({ x0, y0, wx, wy }, theta, kx, ky) =>
+        rectangleTransformByQuadrature({ x0, y0, wx, wy, theta }, kx, ky),
+      tolerance: 1e-13,
+    },
     tilted: TILTED,
-    frequencies: FREQUENCIES,
     shift: [-0.31, 0.077],
     shiftTolerance: 1e-14,
     rotationDeg: -41,

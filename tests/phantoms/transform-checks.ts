@@ -156,12 +156,20 @@ export function expectSameTransform(
   }
 }
 
-/** One kind of shape and the values its theorem checks use. */
+/** One kind of shape and the values its transform checks (at SHAPE_FREQUENCIES) use. */
 export interface ShapeTheoremCase<P extends Placement> {
   make: (params: P) => Shape;
+  /** The reference: a quadrature of the defining integral (tests/phantoms/quadrature.ts). */
+  quadrature: {
+    /** The quadrature rule, as the test's title names it. */
+    rule: string;
+    instances: P[];
+    /** The unit-intensity integral for `params` turned by `theta` radians. */
+    transform: (params: P, theta: number, kx: number, ky: number) => Complex;
+    tolerance: number;
+  };
   /** A rotated, off-centre instance. */
   tilted: P;
-  frequencies: ReadonlyArray<readonly [number, number]>;
   shift: readonly [number, number];
   shiftTolerance: number;
   rotationDeg: number;
@@ -170,11 +178,20 @@ export interface ShapeTheoremCase<P extends Placement> {
 }
 
 /**
- * The shift and rotation theorems and Hermitian symmetry for one kind of shape, as `it` blocks of
- * the caller's describe: the same three checks every primitive must pass.
+ * The quadrature reference, the shift and rotation theorems and Hermitian symmetry for one kind of
+ * shape, as `it` blocks of the caller's describe: the same four checks every primitive must pass.
  */
 export function itObeysTransformTheorems<P extends Placement>(c: ShapeTheoremCase<P>): void {
-  const { make, tilted, frequencies } = c;
+  const { make, tilted, quadrature } = c;
+  const frequencies = SHAPE_FREQUENCIES;
+  it(`agrees with ${quadrature.rule} (tests/phantoms/quadrature.ts, ${quadrature.tolerance})`, () => {
+    for (const p of quadrature.instances) {
+      const theta = ((p.thetaDeg ?? 0) * Math.PI) / 180;
+      const reference = scaledTransform(p.intensity, (kx, ky) => quadrature.transform(p, theta, kx, ky));
+      expectSameTransform(shapeTransform(make(p)), reference, frequencies, quadrature.tolerance);
+    }
+  });
+
   it(`obeys the shift theorem: moving the shape by d multiplies its transform by e^(−i2πk·d) (Bracewell, common practice; ${c.shiftTolerance})`, () => {
     const d = c.shift;
     const moved = make({ ...tilted, x0: tilted.x0 + d[0], y0: tilted.y0 + d[1] });
