@@ -18,6 +18,7 @@ import {
   type TestApp,
   testApp,
 } from './helpers.ts';
+import { byteRuns, foundInDataDir } from './stored-bytes.ts';
 
 // Source for the checks below: the project's data-lifecycle rules (DEVELOPERS.md "Data lifecycle"):
 // what a user deletes is gone, from the API and from every file under DATA_DIR; SQLite's documented
@@ -41,17 +42,7 @@ async function distinctivePng(seed: number): Promise<{ png: Buffer; values: Uint
 
 /** Runs of 4 consecutive stored pixels (32 bytes of float64) to look for in the data files. */
 function needles(pixels: Float64Array): Buffer[] {
-  const bytes = Buffer.from(pixels.buffer, pixels.byteOffset, pixels.byteLength);
-  const out: Buffer[] = [];
-  for (let offset = 0; offset + 32 <= bytes.length; offset += 32)
-    out.push(bytes.subarray(offset, offset + 32));
-  return out;
-}
-
-/** How many needles occur in any file of the data folder (db, -wal, -shm). */
-function foundInDataDir(dataDir: string, patterns: Buffer[]): number {
-  const files = readdirSync(dataDir).map((name) => readFileSync(join(dataDir, name)));
-  return patterns.filter((needle) => files.some((file) => file.includes(needle))).length;
+  return byteRuns(Buffer.from(pixels.buffer, pixels.byteOffset, pixels.byteLength), 32);
 }
 
 const sleep = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
