@@ -2,6 +2,7 @@ import { parse as parseCsv } from 'csv-parse/sync';
 import sharp from 'sharp';
 import { describe, expect, it } from 'vitest';
 import { csvColumns } from '../../src/plan/index.ts';
+import { smallPlanBody } from '../plan/small-plan.ts';
 import {
   expectDocumented,
   expectProblem,
@@ -180,15 +181,12 @@ describe('GET /v1/plans and GET /v1/images: paged lists', () => {
 
 describe('each plan row keeps its seed-1 reconstruction', () => {
   const t = sharedTestApp({ workers: 2 });
-  const twoSeeds = {
-    source: { phantom: 'shepp-logan-modified' },
-    matrix: { nx: 32, ny: 32 },
-    protocol: { trMs: 500 },
+  const twoSeeds = smallPlanBody({
     patterns: [{ pattern: 'cartesian-random', acs: 4 }],
     accelerations: [2, 4],
     methods: [{ name: 'zero-filled' }, { name: 'cs-tv', iterations: 12 }],
     seeds: 2,
-  };
+  });
 
   it('every row links a stored reconstruction equal to POST /v1/reconstructions of its seed-1 cell', async () => {
     const id = await donePlan(t, twoSeeds);

@@ -3,6 +3,7 @@ import { join } from 'node:path';
 import type { BrowserContext, Page } from 'playwright-core';
 import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { smallPlanBody } from '../plan/small-plan.ts';
 import { artifacts, openPlannerSession, type PlannerSession } from './browser-session.ts';
 
 /**
@@ -21,16 +22,13 @@ let page: Page;
 const apiKey = 'plans-page-key-41c2';
 
 /** 32×32 phantom, random lines at R 2 and 4, zero-filled and CS-TV (10 iterations), one seed. */
-const smallPlan = {
-  source: { phantom: 'shepp-logan-modified' },
-  matrix: { nx: 32, ny: 32 },
-  protocol: { trMs: 500 },
+const smallPlan = smallPlanBody({
   patterns: [{ pattern: 'cartesian-random', acs: 4 }],
   accelerations: [2, 4],
   methods: [{ name: 'zero-filled' }, { name: 'cs-tv', iterations: 10 }],
   seeds: 1,
   target: { metric: 'ssim', atLeast: 0.5 },
-};
+});
 
 /** Two cells: the reference and one uniform R 2 zero-filled row. */
 const tinyPlan = {
