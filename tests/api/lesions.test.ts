@@ -16,6 +16,8 @@ const base = {
 };
 const full = { pattern: 'cartesian-uniform', acceleration: 1 };
 const halved = { pattern: 'cartesian-uniform', acceleration: 2 };
+/** `count` faint lesions: 3 px across, contrast 0.05, placed by seed 1. */
+const faintLesions = (count: number) => ({ count, diameter: 3, contrast: 0.05, seed: 1 });
 
 describe('POST /v1/reconstructions with lesions', () => {
   const t = sharedTestApp({ limits: { maxIterations: 100, maxMatrixSide: 128 } });
@@ -24,7 +26,7 @@ describe('POST /v1/reconstructions with lesions', () => {
     const res = await postJson(t, '/v1/reconstructions', {
       ...base,
       sampling: full,
-      lesions: { count: 1, diameter: 3, contrast: 0.05, shape: 'disc', seed: 1 },
+      lesions: { ...faintLesions(1), shape: 'disc' },
     });
     expect(res.status).toBe(201);
     await expectDocumented('POST', '/v1/reconstructions', res);
@@ -51,7 +53,7 @@ describe('POST /v1/reconstructions with lesions', () => {
     const res = await postJson(t, '/v1/reconstructions', {
       ...base,
       sampling: full,
-      lesions: { count: 6, diameter: 3, contrast: 0.05, seed: 1 },
+      lesions: faintLesions(6),
     });
     expect(res.status).toBe(201);
     for (const lesion of res.body.fidelity.lesions) {
@@ -65,7 +67,7 @@ describe('POST /v1/reconstructions with lesions', () => {
     const res = await postJson(t, '/v1/reconstructions', {
       ...base,
       sampling: halved,
-      lesions: { count: 1, diameter: 3, contrast: 0.05, seed: 1 },
+      lesions: faintLesions(1),
     });
     expect(res.status).toBe(201);
     expect(res.body.fidelity.contrastRecovery.mean).toBeCloseTo(0.5, 4);
