@@ -3,7 +3,7 @@ import { SeededRandom } from '../src/core/random.ts';
 import { checkLineBudget, lineMask } from './cartesian-lines.ts';
 import { centredBlockStart, type SampledMask } from './sampled-mask.ts';
 import type { CartesianRandomSpec } from './schema.ts';
-import { requireSeed } from './seed.ts';
+import { seededPatternSettings } from './seed.ts';
 import { inclusionProbabilities, systematicSample } from './unequal-probability-sampling.ts';
 
 export const DEFAULT_DENSITY_POWER = 2;
@@ -30,10 +30,8 @@ export function lineDensityWeights(ny: number, power: number): Float64Array {
  */
 export function cartesianRandomMask(matrix: Matrix, spec: CartesianRandomSpec): SampledMask {
   const { nx, ny } = matrix;
-  const R = spec.acceleration;
-  const acs = spec.acs ?? 0;
-  const seed = requireSeed(spec.seed, 'cartesian-random');
-  const power = spec.density?.power ?? DEFAULT_DENSITY_POWER;
+  const settings = seededPatternSettings(spec, 'cartesian-random', DEFAULT_DENSITY_POWER);
+  const { acceleration: R, acs, seed, power } = settings;
   const budget = checkLineBudget(ny, R, acs, true);
   const toDraw = budget - acs;
   const acsStart = centredBlockStart(ny, acs);

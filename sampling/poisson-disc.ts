@@ -4,7 +4,7 @@ import { SeededRandom } from '../src/core/random.ts';
 import { formatBound } from './cartesian-lines.ts';
 import { centredBlockStart, type SampledMask } from './sampled-mask.ts';
 import type { PoissonDiscSpec } from './schema.ts';
-import { requireSeed } from './seed.ts';
+import { seededPatternSettings } from './seed.ts';
 import { inclusionProbabilities } from './unequal-probability-sampling.ts';
 
 export const DEFAULT_POISSON_POWER = 2;
@@ -248,10 +248,8 @@ function checkPoissonRequest(nx: number, ny: number, R: number, acs: number): nu
  */
 export function poissonDiscMask(matrix: Matrix, spec: PoissonDiscSpec, signal?: AbortSignal): SampledMask {
   const { nx, ny } = matrix;
-  const R = spec.acceleration;
-  const acs = spec.acs ?? 0;
-  const seed = requireSeed(spec.seed, 'poisson-disc');
-  const power = spec.density?.power ?? DEFAULT_POISSON_POWER;
+  const settings = seededPatternSettings(spec, 'poisson-disc', DEFAULT_POISSON_POWER);
+  const { acceleration: R, acs, seed, power } = settings;
   const target = checkPoissonRequest(nx, ny, R, acs);
   const total = nx * ny;
   const g = poissonRadiusProfile(nx, ny, power);

@@ -12,3 +12,25 @@ export function requireSeed(seed: number | undefined, pattern: string): number {
   }
   return seed;
 }
+
+/** What a seeded variable-density pattern reads from its spec, defaults applied. */
+export interface SeededPatternSettings {
+  acceleration: number;
+  /** Side of the fully sampled centre; 0 without one. */
+  acs: number;
+  seed: number;
+  power: number;
+}
+
+export function seededPatternSettings(
+  spec: { acceleration: number; acs?: number; seed?: number; density?: { power?: number } },
+  pattern: string,
+  defaultPower: number,
+): SeededPatternSettings {
+  return {
+    acceleration: spec.acceleration,
+    acs: spec.acs ?? 0,
+    seed: requireSeed(spec.seed, pattern),
+    power: spec.density?.power ?? defaultPower,
+  };
+}

@@ -4,32 +4,19 @@
  * Configuration in README "Configuration"; SIGTERM/SIGINT finish the running cells and stop.
  */
 import { pino } from 'pino';
-import { ConfigError, loadWorkerConfig } from '../src/http/worker-config.ts';
+import { closeOnSignals, configOrExit } from '../src/http/process-lifecycle.ts';
+import { loadWorkerConfig } from '../src/http/worker-config.ts';
 import { CellWorker } from '../src/jobs/cell-worker.ts';
 import { redactedQueueUrl } from '../src/jobs/queue-connection.ts';
 
 const log = pino({ level: process.env.LOG_LEVEL?.trim() || 'info' });
-let config: ReturnType<typeof loadWorkerConfig>;
-try {
-  config = loadWorkerConfig(process.env);
-} catch (error) {
-  if (error instanceof ConfigError) {
-    process.stderr.write(`configuration error: ${error.message}\n`);
-    process.exit(2);
-  }
-  throw error;
-}
+const config = configOrExit(() => loadWorkerConfig(process.env));
 
 const worker = await CellWorker.start({ ...config, log });
-for (const signal of ['SIGINT', 'SIGTERM'] as const) {
-  process.once(signal, () => {
-    log.info({ signal }, 'worker stopping');
-    worker.close().then(
-      () => process.exit(0),
-      () => process.exit(1),
-    );
-  });
-}
+closeOnSignals(
+  (signal) => log.info({ signal }, 'worker stopping'),
+  () => worker.close(),
+);
 log.info(
   { queue: redactedQueueUrl(config.queue.url), threads: config.threads, service: config.inputs?.serviceUrl },
   'k-space planner worker ready',

@@ -1,16 +1,8 @@
 import { buildApp } from './app.ts';
-import { ConfigError, loadConfig } from './http/config.ts';
+import { loadConfig } from './http/config.ts';
+import { closeOnSignals, configOrExit } from './http/process-lifecycle.ts';
 
-let config: ReturnType<typeof loadConfig>;
-try {
-  config = loadConfig(process.env);
-} catch (error) {
-  if (error instanceof ConfigError) {
-    process.stderr.write(`configuration error: ${error.message}\n`);
-    process.exit(2);
-  }
-  throw error;
-}
+const config = configOrExit(() => loadConfig(process.env));
 
 const app = await buildApp({
   dataDir: config.dataDir,
@@ -28,15 +20,10 @@ const app = await buildApp({
 });
 
 // Finish the request in flight and leave queued/running plans in the store to resume on restart.
-for (const signal of ['SIGINT', 'SIGTERM'] as const) {
-  process.once(signal, () => {
-    app.log.info({ signal }, 'shutting down');
-    app.close().then(
-      () => process.exit(0),
-      () => process.exit(1),
-    );
-  });
-}
+closeOnSignals(
+  (signal) => app.log.info({ signal }, 'shutting down'),
+  () => app.close(),
+);
 
 await app.listen({ port: config.port, host: config.host });
 app.log.info(

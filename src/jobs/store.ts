@@ -244,6 +244,12 @@ const visible = '(@everyone = 1 OR owner = @owner)';
 
 const activePlanStatuses = `('queued', 'running')`;
 
+/** Fills `into` from the blob and returns it: a fresh, aligned copy (SQLite blobs need not be aligned). */
+function alignedCopy<T extends Float32Array | Float64Array>(blob: Buffer, into: T): T {
+  new Uint8Array(into.buffer).set(blob.subarray(0, into.byteLength));
+  return into;
+}
+
 function planFromRow(row: PlanSqlRow): StoredPlan {
   return {
     id: row.id,
@@ -309,6 +315,13 @@ export class Store {
     return outcome?.busy === 0;
   }
 
+  /** `columns` of the row of `table` with this id, when the scope may see it. */
+  private visibleRow<Row>(table: string, columns: string, id: string, scope: Scope): Row | undefined {
+    return this.db
+      .prepare(`SELECT ${columns} FROM ${table} WHERE id = @id AND ${visible}`)
+      .get({ id, ...scopeParams(scope) }) as Row | undefined;
+  }
+
   // --- uploaded images -------------------------------------------------------------------
 
   putImage(
@@ -353,21 +366,19 @@ export class Store {
   }
 
   getImageInfo(id: string, scope: Scope = 'all'): StoredImage | undefined {
-    const row = this.db
-      .prepare(`SELECT id, created_at, meta, nx, ny, nz FROM images WHERE id = @id AND ${visible}`)
-      .get({ id, ...scopeParams(scope) }) as ImageSqlRow | undefined;
+    const row = this.visibleRow<ImageSqlRow>('images', 'id, created_at, meta, nx, ny, nz', id, scope);
     return row && imageFromRow(row);
   }
 
   getImagePixels(id: string, scope: Scope = 'all'): RealImage | undefined {
-    const row = this.db
-      .prepare(`SELECT nx, ny, pixels FROM images WHERE id = @id AND ${visible}`)
-      .get({ id, ...scopeParams(scope) }) as { nx: number; ny: number; pixels: Buffer } | undefined;
+    const row = this.visibleRow<{ nx: number; ny: number; pixels: Buffer }>(
+      'images',
+      'nx, ny, pixels',
+      id,
+      scope,
+    );
     if (!row) return undefined;
-    // Copy into a fresh, aligned buffer: SQLite blobs need not be 8-byte aligned.
-    const data = new Float64Array(row.nx * row.ny);
-    new Uint8Array(data.buffer).set(row.pixels.subarray(0, data.byteLength));
-    return { nx: row.nx, ny: row.ny, data };
+    return { nx: row.nx, ny: row.ny, data: alignedCopy(row.pixels, new Float64Array(row.nx * row.ny)) };
   }
 
   // --- uploaded coil maps -----------------------------------------------------------------
@@ -403,11 +414,14 @@ export class Store {
     id: string,
     scope: Scope,
   ): StoredCoilMaps | undefined {
-    const row = this.db
-      .prepare(`SELECT id, created_at, meta, nx, ny, coils FROM ${table} WHERE id = @id AND ${visible}`)
-      .get({ id, ...scopeParams(scope) }) as
-      | { id: string; created_at: string; meta: string; nx: number; ny: number; coils: number }
-      | undefined;
+    const row = this.visibleRow<{
+      id: string;
+      created_at: string;
+      meta: string;
+      nx: number;
+      ny: number;
+      coils: number;
+    }>(table, 'id, created_at, meta, nx, ny, coils', id, scope);
     return (
       row && {
         id: row.id,
@@ -421,15 +435,14 @@ export class Store {
   }
 
   getCoilMaps(id: string, scope: Scope = 'all'): CoilMaps | undefined {
-    const row = this.db
-      .prepare(`SELECT nx, ny, coils, planes FROM coil_maps WHERE id = @id AND ${visible}`)
-      .get({ id, ...scopeParams(scope) }) as
-      | { nx: number; ny: number; coils: number; planes: Buffer }
-      | undefined;
+    const row = this.visibleRow<{ nx: number; ny: number; coils: number; planes: Buffer }>(
+      'coil_maps',
+      'nx, ny, coils, planes',
+      id,
+      scope,
+    );
     if (!row) return undefined;
-    // Copy into a fresh, aligned buffer: SQLite blobs need not be 4-byte aligned.
-    const stored = new Float32Array(2 * row.coils * row.nx * row.ny);
-    new Uint8Array(stored.buffer).set(row.planes.subarray(0, stored.byteLength));
+    const stored = alignedCopy(row.planes, new Float32Array(2 * row.coils * row.nx * row.ny));
     return { coils: row.coils, nx: row.nx, ny: row.ny, data: Float64Array.from(stored) };
   }
 
@@ -466,22 +479,18 @@ export class Store {
     id: string,
     scope: Scope = 'all',
   ): { kspace: MultiCoilKspace; noiseCovariance: Float64Array | null } | undefined {
-    const row = this.db
-      .prepare(`SELECT nx, ny, coils, kspace, noise_covariance FROM raw_kspace WHERE id = @id AND ${visible}`)
-      .get({ id, ...scopeParams(scope) }) as
-      | { nx: number; ny: number; coils: number; kspace: Buffer; noise_covariance: Buffer | null }
-      | undefined;
+    const row = this.visibleRow<{
+      nx: number;
+      ny: number;
+      coils: number;
+      kspace: Buffer;
+      noise_covariance: Buffer | null;
+    }>('raw_kspace', 'nx, ny, coils, kspace, noise_covariance', id, scope);
     if (!row) return undefined;
-    // Copies into fresh, aligned buffers: SQLite blobs need not be aligned.
-    const samples = new Float32Array(2 * row.coils * row.nx * row.ny);
-    new Uint8Array(samples.buffer).set(row.kspace.subarray(0, samples.byteLength));
-    let noiseCovariance: Float64Array | null = null;
-    if (row.noise_covariance) {
-      noiseCovariance = new Float64Array(2 * row.coils * row.coils);
-      new Uint8Array(noiseCovariance.buffer).set(
-        row.noise_covariance.subarray(0, noiseCovariance.byteLength),
-      );
-    }
+    const samples = alignedCopy(row.kspace, new Float32Array(2 * row.coils * row.nx * row.ny));
+    const noiseCovariance = row.noise_covariance
+      ? alignedCopy(row.noise_covariance, new Float64Array(2 * row.coils * row.coils))
+      : null;
     const kspace = { coils: row.coils, nx: row.nx, ny: row.ny, data: Float64Array.from(samples) };
     return { kspace, noiseCovariance };
   }
@@ -573,9 +582,7 @@ export class Store {
     }>;
     const arrays = new Map<string, ResultArray>();
     for (const row of rows) {
-      // A fresh, aligned copy: SQLite blobs need not be 4-byte aligned.
-      const data = new Float32Array(row.nx * row.ny);
-      new Uint8Array(data.buffer).set(row.data.subarray(0, data.byteLength));
+      const data = alignedCopy(row.data, new Float32Array(row.nx * row.ny));
       arrays.set(row.name, { nx: row.nx, ny: row.ny, white: row.white, data });
     }
     return arrays;
@@ -585,9 +592,12 @@ export class Store {
     id: string,
     scope: Scope = 'all',
   ): { kind: string; body: unknown; createdAt: string } | undefined {
-    const row = this.db
-      .prepare(`SELECT kind, body, created_at FROM results WHERE id = @id AND ${visible}`)
-      .get({ id, ...scopeParams(scope) }) as { kind: string; body: string; created_at: string } | undefined;
+    const row = this.visibleRow<{ kind: string; body: string; created_at: string }>(
+      'results',
+      'kind, body, created_at',
+      id,
+      scope,
+    );
     return row && { kind: row.kind, body: JSON.parse(row.body), createdAt: row.created_at };
   }
 
@@ -623,9 +633,7 @@ export class Store {
   }
 
   getPlan(id: string, scope: Scope = 'all'): StoredPlan | undefined {
-    const row = this.db
-      .prepare(`SELECT * FROM plans WHERE id = @id AND ${visible}`)
-      .get({ id, ...scopeParams(scope) }) as PlanSqlRow | undefined;
+    const row = this.visibleRow<PlanSqlRow>('plans', '*', id, scope);
     return row && planFromRow(row);
   }
 
@@ -781,11 +789,7 @@ export class Store {
 
   /** Whether an entry exists and the scope may see it. */
   visible(kind: EntryKind, id: string, scope: Scope): boolean {
-    return (
-      this.db
-        .prepare(`SELECT 1 FROM ${tableOf(kind)} WHERE id = @id AND ${visible}`)
-        .get({ id, ...scopeParams(scope) }) !== undefined
-    );
+    return this.visibleRow(tableOf(kind), '1', id, scope) !== undefined;
   }
 
   /** The inputs a result or plan was made from (through input_links). */

@@ -42,6 +42,14 @@ export interface UploadedRawKspace {
   raw: RawKspace;
 }
 
+/** What a reconstruction or a plan cell may read besides its request: the caller's uploads, and the limits. */
+export interface TaskInputs {
+  image?: UploadedPixels;
+  coilMaps?: UploadedCoilMaps[];
+  raw?: UploadedRawKspace;
+  limits: Limits;
+}
+
 /**
  * Every task a worker thread runs: its input (typed values the HTTP edge or the plan schema already
  * validated; plain, structured-clonable data) and its output. The worker trusts its inputs and does
@@ -61,14 +69,7 @@ export interface TaskMap {
     output: { sampled: SampledMask; diagnostics: MaskDiagnostics | null };
   };
   reconstruction: {
-    input: {
-      request: ReconstructionRequest;
-      seed?: number;
-      image?: UploadedPixels;
-      coilMaps?: UploadedCoilMaps[];
-      raw?: UploadedRawKspace;
-      limits: Limits;
-    };
+    input: TaskInputs & { request: ReconstructionRequest; seed?: number };
     output: ScoredOutcome;
   };
   /** A volume reconstruction in three steps, its planes spread over the pool (src/services/volume-runs.ts). */
@@ -85,15 +86,7 @@ export interface TaskMap {
   'validate-plan': { input: { plan: Plan; limits: Limits }; output: Plan };
   /** With `keepOutcome`, a seed-1 cell also returns its outcome, to be stored as the row's result. */
   cell: {
-    input: {
-      plan: Plan;
-      cell: PlanCell;
-      image?: UploadedPixels;
-      coilMaps?: UploadedCoilMaps[];
-      raw?: UploadedRawKspace;
-      limits: Limits;
-      keepOutcome?: boolean;
-    };
+    input: TaskInputs & { plan: Plan; cell: PlanCell; keepOutcome?: boolean };
     output: { result: CellResult; outcome?: ScoredOutcome };
   };
 }

@@ -14,6 +14,7 @@ import type { ReconstructionOutcome } from '../pipeline/run-reconstruction.ts';
 import type {
   ScoredOutcome,
   TaskInput,
+  TaskInputs,
   TaskKind,
   TaskOutput,
   UploadedCoilMaps,
@@ -65,6 +66,17 @@ function rawLoader(uploaded: UploadedRawKspace | undefined): (id: string) => Pro
   };
 }
 
+/** The pipeline's context for a task: loaders that answer only the uploads loaded for it, and its limits. */
+function inputContext({ image, coilMaps, raw, limits }: TaskInputs) {
+  return {
+    loadImage: imageLoader(image),
+    loadVolume: volumeLoader(image),
+    loadCoilMaps: coilMapsLoader(coilMaps),
+    loadRaw: rawLoader(raw),
+    limits,
+  };
+}
+
 /** One handler per task kind; the mapped type keeps each input and output tied to its kind. */
 const handlers: { [K in TaskKind]: (input: TaskInput<K>) => Promise<TaskOutput<K>> } = {
   async decode({ bytes, options }) {
@@ -92,16 +104,9 @@ const handlers: { [K in TaskKind]: (input: TaskInput<K>) => Promise<TaskOutput<K
     const sampled = await resolveSampling(matrix, sampling, limits);
     return { sampled, diagnostics: diagnostics ? maskDiagnostics(sampled) : null };
   },
-  async reconstruction({ request, seed, image, coilMaps, raw, limits }) {
+  async reconstruction(input) {
     const { runReconstruction } = await import('../pipeline/run-reconstruction.ts');
-    const ctx = {
-      loadImage: imageLoader(image),
-      loadVolume: volumeLoader(image),
-      loadCoilMaps: coilMapsLoader(coilMaps),
-      loadRaw: rawLoader(raw),
-      limits,
-    };
-    const outcome = await runReconstruction(request, seed, ctx);
+    const outcome = await runReconstruction(input.request, input.seed, inputContext(input));
     return scored(outcome);
   },
   async 'volume-prepare'({ request, seed, image, limits }) {
@@ -123,16 +128,10 @@ const handlers: { [K in TaskKind]: (input: TaskInput<K>) => Promise<TaskOutput<K
     const { checkPlan } = await import('../plan/index.ts');
     return checkPlan(plan, { limits, checkMasks: true });
   },
-  async cell({ plan, cell, image, coilMaps, raw, limits, keepOutcome }) {
+  async cell(input) {
+    const { plan, cell, keepOutcome } = input;
     const { runCellOutcome } = await import('../plan/index.ts');
-    const ctx = {
-      loadImage: imageLoader(image),
-      loadVolume: volumeLoader(image),
-      loadCoilMaps: coilMapsLoader(coilMaps),
-      loadRaw: rawLoader(raw),
-      limits,
-    };
-    const { result, outcome } = await runCellOutcome(plan, cell, ctx);
+    const { result, outcome } = await runCellOutcome(plan, cell, inputContext(input));
     // Only the row's representative (seed 1) pays for diagnostics, zero-filled scores and the transfer.
     return keepOutcome && cell.seed === 1 ? { result, outcome: await scored(outcome) } : { result };
   },

@@ -7,7 +7,7 @@ import { offerResource } from './downloads.js';
 import { lesionsPiece, taskTargets } from './lesion-form.js';
 import { planPoints, renderPlanTable } from './plan-table.js';
 import { hideRowImages, showRowImages } from './row-images.js';
-import { showProblem, showStatus } from './status.js';
+import { runShowingProblems, showProblem, showStatus } from './status.js';
 import { offerTaskScores } from './task-scores.js';
 import { drawTradeoffPlot } from './tradeoff-plot.js';
 
@@ -128,16 +128,11 @@ export class PlanRun {
 
   /** Runs `task` from a clean slate with Run plan disabled; a problem clears the results and shows. */
   async guarded(task) {
-    this.problems.hidden = true;
-    this.setup.markProblems([]);
     this.stopFollowing();
     this.clearResults();
     this.setRunning(true);
     try {
-      await task();
-    } catch (error) {
-      this.clearResults();
-      showProblem(this.status, this.problems, error, this.setup);
+      await runShowingProblems(this, task, () => this.clearResults());
     } finally {
       this.stopFollowing();
       this.setRunning(false);

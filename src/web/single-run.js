@@ -14,7 +14,7 @@ import { lesionsPiece } from './lesion-form.js';
 import { markedPng } from './lesion-marks.js';
 import { hideFidelity, lesionMarks, showFidelity } from './lesion-view.js';
 import { drawPsfProfile } from './psf-profile.js';
-import { showProblem, showStatus } from './status.js';
+import { runShowingProblems, showStatus } from './status.js';
 import { steerZoom, ZoomGroup } from './zoom-group.js';
 
 const byId = (id) => document.getElementById(id);
@@ -179,13 +179,8 @@ export class SingleRun {
 
   async run(task) {
     for (const button of this.buttons) button.disabled = true;
-    this.problems.hidden = true;
-    this.setup.markProblems([]);
     try {
-      await task();
-    } catch (error) {
-      this.clear();
-      showProblem(this.status, this.problems, error, this.setup);
+      await runShowingProblems(this, task, () => this.clear());
     } finally {
       for (const button of this.buttons) button.disabled = false;
     }

@@ -19,3 +19,19 @@ export function showProblem(statusElement, listElement, error, setup) {
   );
   listElement.hidden = fieldErrors.length === 0;
 }
+
+/**
+ * Runs `task` for a section (its `status` line, `problems` list and the `setup` form) with the
+ * problems of an earlier run cleared; when it fails, `clear()` withdraws what it left and the
+ * problem is shown.
+ */
+export async function runShowingProblems(section, task, clear) {
+  section.problems.hidden = true;
+  section.setup.markProblems([]);
+  try {
+    await task();
+  } catch (error) {
+    clear();
+    showProblem(section.status, section.problems, error, section.setup);
+  }
+}

@@ -11,6 +11,7 @@ import { checkPlanCoilMaps, coilMapRefs } from '../../src/services/coil-map-refs
 import type { Caller } from '../../src/services/index.ts';
 import { float32Base64 } from '../io/float32-base64.ts';
 import { expectDocumented, expectProblem, oneCellPlan, sharedTestApp, type TestApp } from './helpers.ts';
+import { byteRuns, foundInDataDir } from './stored-bytes.ts';
 
 // Sources: the upload contract of POST /v1/coil-maps (docs/design.md §4.7): planes of
 // ny×nx little-endian float32 in base64 (RFC 4648 §4, docs/references.md §10.8), values kept as sent; errors as RFC 9457
@@ -176,16 +177,7 @@ describe('POST /v1/coil-maps (multipart NIfTI, coils along the last dimension)',
 
 /** Runs of 4 stored float32 values (16 bytes) to look for in the data files. */
 function needles(values: Float64Array): Buffer[] {
-  const bytes = Buffer.from(Float32Array.from(values).buffer);
-  const out: Buffer[] = [];
-  for (let offset = 0; offset + 16 <= bytes.length; offset += 16)
-    out.push(bytes.subarray(offset, offset + 16));
-  return out;
-}
-
-function foundInDataDir(dataDir: string, patterns: Buffer[]): number {
-  const files = readdirSync(dataDir).map((name) => readFileSync(join(dataDir, name)));
-  return patterns.filter((needle) => files.some((file) => file.includes(needle))).length;
+  return byteRuns(Buffer.from(Float32Array.from(values).buffer), 16);
 }
 
 describe('coil maps follow uploads: deletion cascades, retention, tenant isolation', () => {

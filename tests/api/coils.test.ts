@@ -4,6 +4,7 @@ import {
   binary,
   expectDocumented,
   oneCellPlan,
+  postJson,
   postProblem,
   sharedTestApp,
   type TestApp,
@@ -39,10 +40,7 @@ describe('receive arrays through the HTTP API', () => {
   const t = sharedTestApp({ limits: { maxMatrixSide: 128 } });
 
   it('8 loops, zero-filled: 201 with the array echoed, its fit error, and a coil-maps montage', async () => {
-    const res = await t
-      .http()
-      .post('/v1/reconstructions')
-      .send({ ...request, coils: loops });
+    const res = await postJson(t, '/v1/reconstructions', { ...request, coils: loops });
     expect(res.status).toBe(201);
     await expectDocumented('POST', '/v1/reconstructions', res);
     expect(res.body.coils).toMatchObject({ array: 'loops', count: 8, label: '8 loops' });
@@ -60,11 +58,8 @@ describe('receive arrays through the HTTP API', () => {
   });
 
   it('coils: { array: "uniform" } answers the same metrics as no coils piece (today’s single coil)', async () => {
-    const today = await t.http().post('/v1/reconstructions').send(request);
-    const uniform = await t
-      .http()
-      .post('/v1/reconstructions')
-      .send({ ...request, coils: { array: 'uniform' } });
+    const today = await postJson(t, '/v1/reconstructions', request);
+    const uniform = await postJson(t, '/v1/reconstructions', { ...request, coils: { array: 'uniform' } });
     expect(today.status).toBe(201);
     expect(uniform.status).toBe(201);
     expect(uniform.body.metrics).toEqual(today.body.metrics);
@@ -73,40 +68,31 @@ describe('receive arrays through the HTTP API', () => {
   });
 
   it('phase alone: one coil, a complex object; fully sampled zero-filled still equals the reference', async () => {
-    const res = await t
-      .http()
-      .post('/v1/reconstructions')
-      .send({
-        ...request,
-        sampling: { pattern: 'cartesian-uniform', acceleration: 1 },
-        noise: { snr: 'none' },
-        phase: { order: 2, seed: 3 },
-      });
+    const res = await postJson(t, '/v1/reconstructions', {
+      ...request,
+      sampling: { pattern: 'cartesian-uniform', acceleration: 1 },
+      noise: { snr: 'none' },
+      phase: { order: 2, seed: 3 },
+    });
     expect(res.status).toBe(201);
     await expectDocumented('POST', '/v1/reconstructions', res);
     expect(res.body.metrics.nrmse).toBeLessThan(1e-12); // |F⁻¹F x| = |x| (docs/design.md §3.6)
     expect(res.body.coils).toBeUndefined();
-    const plain = await t.http().post('/v1/reconstructions').send(request);
-    const phased = await t
-      .http()
-      .post('/v1/reconstructions')
-      .send({ ...request, phase: { order: 2, seed: 3 } });
+    const plain = await postJson(t, '/v1/reconstructions', request);
+    const phased = await postJson(t, '/v1/reconstructions', { ...request, phase: { order: 2, seed: 3 } });
     // The phase moves aliasing and ringing about, so undersampled scores differ from the real object's.
     expect(phased.body.metrics.nrmse).not.toBe(plain.body.metrics.nrmse);
   });
 
   it('GRAPPA with gFactor.replicas: a pseudo-replica g map over HTTP, with g-factor.png', async () => {
-    const res = await t
-      .http()
-      .post('/v1/reconstructions')
-      .send({
-        ...request,
-        sampling: { pattern: 'cartesian-uniform', acceleration: 2, acs: 16 },
-        noise: { snr: 40 },
-        method: { name: 'grappa' },
-        coils: loops,
-        gFactor: { replicas: 6 },
-      });
+    const res = await postJson(t, '/v1/reconstructions', {
+      ...request,
+      sampling: { pattern: 'cartesian-uniform', acceleration: 2, acs: 16 },
+      noise: { snr: 40 },
+      method: { name: 'grappa' },
+      coils: loops,
+      gFactor: { replicas: 6 },
+    });
     expect(res.status).toBe(201);
     await expectDocumented('POST', '/v1/reconstructions', res);
     expect(res.body.gFactor).toMatchObject({ method: 'pseudo-replica', replicas: 6 });
@@ -160,15 +146,12 @@ describe('receive arrays through the HTTP API', () => {
   });
 
   it('a plan over two arrays has rows per array with the coils and g-factor columns, in JSON and CSV', async () => {
-    const res = await t
-      .http()
-      .post('/v1/plans')
-      .send({
-        ...oneCellPlan,
-        coilArrays: [{ array: 'uniform' }, loops],
-        target: { metric: 'ssim', atLeast: 0.5 },
-        targets: [{ metric: 'nrmse', atMost: 1 }],
-      });
+    const res = await postJson(t, '/v1/plans', {
+      ...oneCellPlan,
+      coilArrays: [{ array: 'uniform' }, loops],
+      target: { metric: 'ssim', atLeast: 0.5 },
+      targets: [{ metric: 'nrmse', atMost: 1 }],
+    });
     expect(res.status).toBe(202);
     const done = await finishedPlan(t, res.body.id);
     expect(done.body.status).toBe('done');

@@ -1,6 +1,6 @@
 import { request as httpRequest } from 'node:http';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { type TestApp, testApp } from './helpers.ts';
+import { postJson, type TestApp, testApp } from './helpers.ts';
 
 // A client that goes away stops its computation: the request's AbortSignal reaches the pool task
 // (piscina ends the worker thread running it). Checked by the pool's in-flight count, and by a
@@ -51,15 +51,12 @@ describe('abandoned requests stop their work', () => {
     const health = await t.http().get('/health');
     expect(health.status).toBe(200);
     // The only worker thread takes new work: a small reconstruction completes.
-    const small = await t
-      .http()
-      .post('/v1/reconstructions')
-      .send({
-        ...longReconstruction,
-        matrix: { nx: 32, ny: 32 },
-        sampling: { pattern: 'cartesian-uniform', acceleration: 2 },
-        method: { name: 'zero-filled' },
-      });
+    const small = await postJson(t, '/v1/reconstructions', {
+      ...longReconstruction,
+      matrix: { nx: 32, ny: 32 },
+      sampling: { pattern: 'cartesian-uniform', acceleration: 2 },
+      method: { name: 'zero-filled' },
+    });
     expect(small.status).toBe(201);
     // The task left the pool because it was stopped, not because the request was refused.
     const lines = t.logs.map((line) => JSON.parse(line) as { msg: string; res?: { statusCode: number } });

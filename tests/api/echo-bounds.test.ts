@@ -2,7 +2,7 @@ import { readdirSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { MAX_DETAIL_CHARS, MAX_ECHO_CHARS } from '../../src/core/echo-bound.ts';
-import { expectProblem, oneCellPlan, postProblem, sharedTestApp } from './helpers.ts';
+import { expectProblem, oneCellPlan, postJson, postProblem, sharedTestApp } from './helpers.ts';
 
 // Problem details (RFC 9457) echo request parts; they are bounded, and request strings have
 // maximum lengths. Before: a 7 MiB phantom name came back twice (14.7 MB) and, in a plan, grew the
@@ -28,15 +28,12 @@ describe('bounded echoes and bounded request strings', () => {
   const t = sharedTestApp({ maxJsonBytes: 4 * 1024 * 1024 });
 
   it('a 1 MiB phantom name in a reconstruction: 422 naming source.phantom, a small answer', async () => {
-    const res = await t
-      .http()
-      .post('/v1/reconstructions')
-      .send({
-        source: { phantom: huge },
-        matrix: { nx: 32, ny: 32 },
-        sampling: { pattern: 'cartesian-uniform', acceleration: 2 },
-        method: { name: 'zero-filled' },
-      });
+    const res = await postJson(t, '/v1/reconstructions', {
+      source: { phantom: huge },
+      matrix: { nx: 32, ny: 32 },
+      sampling: { pattern: 'cartesian-uniform', acceleration: 2 },
+      method: { name: 'zero-filled' },
+    });
     const problem = expectProblem(res, 422, 'source.phantom');
     expectBounded(problem);
     expect(res.text.length).toBeLessThan(4096);
@@ -44,10 +41,7 @@ describe('bounded echoes and bounded request strings', () => {
 
   it('a 1 MiB phantom name in a plan: refused, nothing stored (data folder grows < 64 KiB)', async () => {
     const before = folderBytes(t.dataDir);
-    const res = await t
-      .http()
-      .post('/v1/plans')
-      .send({ ...plan, source: { phantom: huge } });
+    const res = await postJson(t, '/v1/plans', { ...plan, source: { phantom: huge } });
     expectBounded(expectProblem(res, 422, 'source.phantom'));
     expect(res.text.length).toBeLessThan(4096);
     expect(folderBytes(t.dataDir) - before).toBeLessThan(64 * 1024);
@@ -55,10 +49,11 @@ describe('bounded echoes and bounded request strings', () => {
 
   it('a 100 KiB unknown key: 400 whose field is cut with an ellipsis', async () => {
     const key = 'k'.repeat(100 * 1024);
-    const res = await t
-      .http()
-      .post('/v1/masks')
-      .send({ matrix: { nx: 32, ny: 32 }, sampling: { pattern: 'radial', acceleration: 2 }, [key]: 1 });
+    const res = await postJson(t, '/v1/masks', {
+      matrix: { nx: 32, ny: 32 },
+      sampling: { pattern: 'radial', acceleration: 2 },
+      [key]: 1,
+    });
     const problem = expectProblem(res, 400);
     expectBounded(problem);
     expect(problem.errors[0].field.endsWith('…')).toBe(true);

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { expectDocumented, expectProblem, postProblem, sharedTestApp, testApp } from './helpers.ts';
+import { expectDocumented, expectProblem, postJson, postProblem, sharedTestApp, testApp } from './helpers.ts';
 
 const scanTime = { matrix: { nx: 64, ny: 64 }, protocol: { trMs: 500 } };
 
@@ -29,10 +29,10 @@ describe('RFC 9457 problem details for every class of bad input (docs/references
   });
 
   it('422 values out of range, with the allowed range', async () => {
-    const res = await t
-      .http()
-      .post('/v1/scan-time')
-      .send({ matrix: { nx: 64, ny: 64 }, protocol: { trMs: -1, averages: 0 } });
+    const res = await postJson(t, '/v1/scan-time', {
+      matrix: { nx: 64, ny: 64 },
+      protocol: { trMs: -1, averages: 0 },
+    });
     const problem = expectProblem(res, 422);
     expect(problem.errors).toEqual(
       expect.arrayContaining([
@@ -76,10 +76,7 @@ describe('RFC 9457 problem details for every class of bad input (docs/references
   });
 
   it('413 JSON body above the configured size', async () => {
-    const res = await t
-      .http()
-      .post('/v1/scan-time')
-      .send({ ...scanTime, padding: 'x'.repeat(10_000) });
+    const res = await postJson(t, '/v1/scan-time', { ...scanTime, padding: 'x'.repeat(10_000) });
     expectProblem(res, 413);
     await expectDocumented('POST', '/v1/scan-time', res);
   });
@@ -155,7 +152,7 @@ describe('API keys (HOST not loopback ⇒ every /v1 request needs a valid key)',
   const t = sharedTestApp({ apiKeys: ['k-one', 'k-two'] });
 
   it('401 problem without a key or with a wrong one; WWW-Authenticate set (RFC 9110 11.6.1)', async () => {
-    const none = await t.http().post('/v1/scan-time').send(scanTime);
+    const none = await postJson(t, '/v1/scan-time', scanTime);
     expectProblem(none, 401, 'x-api-key');
     expect(none.headers['www-authenticate']).toMatch(/^Bearer/);
     expectProblem(await t.http().post('/v1/scan-time').set('x-api-key', 'k-three').send(scanTime), 401);
@@ -191,8 +188,8 @@ describe('bounded worker queue for request-driven work', () => {
         method: { name: 'cs-tv', iterations: 400 },
       };
       const [a, b] = await Promise.all([
-        t.http().post('/v1/reconstructions').send(slow),
-        t.http().post('/v1/reconstructions').send(slow),
+        postJson(t, '/v1/reconstructions', slow),
+        postJson(t, '/v1/reconstructions', slow),
       ]);
       const statuses = [a.status, b.status].sort();
       expect(statuses).toEqual([201, 429]);

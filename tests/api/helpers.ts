@@ -107,6 +107,11 @@ function specPathFor(spec: OpenApiDocument, url: string): string {
   throw new Error(`no spec path matches ${path}`);
 }
 
+/** POSTs `body` as JSON to `path`; the request can still be awaited or extended. */
+export function postJson(t: Pick<TestApp, 'http'>, path: string, body: string | object) {
+  return t.http().post(path).send(body);
+}
+
 /**
  * POSTs `file` under the multipart field "file" with the client's `filename` to an upload route
  * (default /v1/images); the request can still be awaited or extended.
@@ -203,12 +208,5 @@ export async function postProblem(
   status: number,
   field?: string,
 ): Promise<ReturnType<typeof expectProblem>> {
-  return expectProblem(
-    await t
-      .http()
-      .post(path)
-      .send(body as object),
-    status,
-    field,
-  );
+  return expectProblem(await postJson(t, path, body as object), status, field);
 }

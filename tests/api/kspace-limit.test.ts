@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { defaultLimits } from '../../src/core/limits.ts';
-import { expectDocumented, expectProblem, loadSpec, sharedTestApp } from './helpers.ts';
+import { expectDocumented, expectProblem, loadSpec, postJson, sharedTestApp } from './helpers.ts';
 
 // A bounded point count for POST /v1/phantoms/{name}/kspace (configurable as MAX_KSPACE_POINTS);
 // beyond it a 422 problem (RFC 9457; RFC 9110 §15.5.21) of type /problems/limit-exceeded naming `points`.
@@ -11,10 +11,7 @@ describe('k-space points limit', () => {
   const t = sharedTestApp({ limits: { maxKspacePoints: 1000 } });
 
   it('one point over the configured limit: 422 limit-exceeded naming points, with the limit', async () => {
-    const res = await t
-      .http()
-      .post('/v1/phantoms/shepp-logan/kspace')
-      .send({ points: points(1001) });
+    const res = await postJson(t, '/v1/phantoms/shepp-logan/kspace', { points: points(1001) });
     const problem = expectProblem(res, 422, 'points');
     expect(problem.type).toBe('/problems/limit-exceeded');
     expect(problem.errors[0].allowed).toBe('at most 1000 points');
@@ -22,10 +19,7 @@ describe('k-space points limit', () => {
   });
 
   it('exactly the limit is computed (on the worker pool) and answered in full', async () => {
-    const res = await t
-      .http()
-      .post('/v1/phantoms/shepp-logan/kspace')
-      .send({ points: points(1000) });
+    const res = await postJson(t, '/v1/phantoms/shepp-logan/kspace', { points: points(1000) });
     expect(res.status).toBe(200);
     expect(res.body.values).toHaveLength(1000);
     // K(0) of Shepp & Logan 1974 = Σ ρ·π·a·b over the ten ellipses, a real number.

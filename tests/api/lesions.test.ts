@@ -1,7 +1,7 @@
 import sharp from 'sharp';
 import { describe, expect, it } from 'vitest';
 import { debianFile } from '../io/debian-files.ts';
-import { binary, expectDocumented, postProblem, sharedTestApp } from './helpers.ts';
+import { binary, expectDocumented, postJson, postProblem, sharedTestApp } from './helpers.ts';
 
 // Lesions in POST /v1/reconstructions (DEVELOPERS.md "Feature fidelity"). Contrast recovery is
 // Re⟨r, t⟩/⟨t, t⟩ with t the lesion's own fully sampled noiseless response, so full sampling gives 1
@@ -16,19 +16,18 @@ const base = {
 };
 const full = { pattern: 'cartesian-uniform', acceleration: 1 };
 const halved = { pattern: 'cartesian-uniform', acceleration: 2 };
+/** `count` faint lesions: 3 px across, contrast 0.05, placed by seed 1. */
+const faintLesions = (count: number) => ({ count, diameter: 3, contrast: 0.05, seed: 1 });
 
 describe('POST /v1/reconstructions with lesions', () => {
   const t = sharedTestApp({ limits: { maxIterations: 100, maxMatrixSide: 128 } });
 
   it('phantom, full sampling, noiseless: contrast recovery 1 (one lesion within 1e-6), positions inside the object, lesions.png', async () => {
-    const res = await t
-      .http()
-      .post('/v1/reconstructions')
-      .send({
-        ...base,
-        sampling: full,
-        lesions: { count: 1, diameter: 3, contrast: 0.05, shape: 'disc', seed: 1 },
-      });
+    const res = await postJson(t, '/v1/reconstructions', {
+      ...base,
+      sampling: full,
+      lesions: { ...faintLesions(1), shape: 'disc' },
+    });
     expect(res.status).toBe(201);
     await expectDocumented('POST', '/v1/reconstructions', res);
     const f = res.body.fidelity;
@@ -51,10 +50,11 @@ describe('POST /v1/reconstructions with lesions', () => {
   });
 
   it('six lesions at full sampling: each 1 up to its neighbours’ ringing (measured 4.8e-5, asserted 2e-4)', async () => {
-    const res = await t
-      .http()
-      .post('/v1/reconstructions')
-      .send({ ...base, sampling: full, lesions: { count: 6, diameter: 3, contrast: 0.05, seed: 1 } });
+    const res = await postJson(t, '/v1/reconstructions', {
+      ...base,
+      sampling: full,
+      lesions: faintLesions(6),
+    });
     expect(res.status).toBe(201);
     for (const lesion of res.body.fidelity.lesions) {
       expect(Math.abs(lesion.contrastRecovery - 1)).toBeLessThan(2e-4);
@@ -64,26 +64,24 @@ describe('POST /v1/reconstructions with lesions', () => {
   });
 
   it('zero-filled uniform R = 2 without ACS: contrast recovery 1/2 from the PSF (measured 0.499992, asserted ±1e-4)', async () => {
-    const res = await t
-      .http()
-      .post('/v1/reconstructions')
-      .send({ ...base, sampling: halved, lesions: { count: 1, diameter: 3, contrast: 0.05, seed: 1 } });
+    const res = await postJson(t, '/v1/reconstructions', {
+      ...base,
+      sampling: halved,
+      lesions: faintLesions(1),
+    });
     expect(res.status).toBe(201);
     expect(res.body.fidelity.contrastRecovery.mean).toBeCloseTo(0.5, 4);
     expect(Math.abs(res.body.fidelity.lesions[0].contrastRecovery - 0.5)).toBeLessThan(1e-4);
   });
 
   it('noisy cs-tv: replicas as asked, CNR and detectability finite, notes say what was pinned', async () => {
-    const res = await t
-      .http()
-      .post('/v1/reconstructions')
-      .send({
-        ...base,
-        sampling: { pattern: 'cartesian-random', acceleration: 2, acs: 8, seed: 2 },
-        noise: { snr: 30 },
-        method: { name: 'cs-tv', iterations: 30 },
-        lesions: { count: 3, diameter: 3, contrast: 0.2, replicas: 4 },
-      });
+    const res = await postJson(t, '/v1/reconstructions', {
+      ...base,
+      sampling: { pattern: 'cartesian-random', acceleration: 2, acs: 8, seed: 2 },
+      noise: { snr: 30 },
+      method: { name: 'cs-tv', iterations: 30 },
+      lesions: { count: 3, diameter: 3, contrast: 0.2, replicas: 4 },
+    });
     expect(res.status).toBe(201);
     const f = res.body.fidelity;
     expect(f.detectability).toMatchObject({ method: 'replicas', replicas: 4 });
@@ -101,15 +99,12 @@ describe('POST /v1/reconstructions with lesions', () => {
       .post('/v1/images')
       .attach('file', debianFile('pydicom', 'MR_small.dcm'), 'm.dcm');
     expect(upload.status).toBe(201);
-    const res = await t
-      .http()
-      .post('/v1/reconstructions')
-      .send({
-        ...base,
-        source: { imageId: upload.body.id },
-        sampling: full,
-        lesions: { count: 2, diameter: 2, contrast: -0.2, shape: 'gaussian', seed: 4 },
-      });
+    const res = await postJson(t, '/v1/reconstructions', {
+      ...base,
+      source: { imageId: upload.body.id },
+      sampling: full,
+      lesions: { count: 2, diameter: 2, contrast: -0.2, shape: 'gaussian', seed: 4 },
+    });
     expect(res.status).toBe(201);
     expect(res.body.notes.join(' ')).toMatch(/lesions rasterised with 8×8 supersampled edges/);
     // The template is the lesion's raster, which the discrete forward model and full sampling return exactly, up to rounding.
@@ -136,23 +131,20 @@ describe('POST /v1/reconstructions with lesions', () => {
   });
 
   it('a plan with lesions and two task-score targets: 202, done, rows with fidelity, the recommendation honours both and names the deciding one', async () => {
-    const res = await t
-      .http()
-      .post('/v1/plans')
-      .send({
-        source: base.source,
-        matrix: base.matrix,
-        protocol: { trMs: 500 },
-        patterns: [{ pattern: 'cartesian-uniform' }, { pattern: 'cartesian-random', acs: 8 }],
-        accelerations: [2, 4],
-        methods: [{ name: 'zero-filled' }],
-        seeds: 1,
-        lesions: { count: 2, diameter: 3, contrast: 0.2, seed: 1 },
-        targets: [
-          { metric: 'contrastRecovery', atLeast: 0.6 },
-          { metric: 'falseLesions', atMost: 25 },
-        ],
-      });
+    const res = await postJson(t, '/v1/plans', {
+      source: base.source,
+      matrix: base.matrix,
+      protocol: { trMs: 500 },
+      patterns: [{ pattern: 'cartesian-uniform' }, { pattern: 'cartesian-random', acs: 8 }],
+      accelerations: [2, 4],
+      methods: [{ name: 'zero-filled' }],
+      seeds: 1,
+      lesions: { count: 2, diameter: 3, contrast: 0.2, seed: 1 },
+      targets: [
+        { metric: 'contrastRecovery', atLeast: 0.6 },
+        { metric: 'falseLesions', atMost: 25 },
+      ],
+    });
     expect(res.status).toBe(202);
     let done = await t.http().get(res.headers.location);
     for (let i = 0; i < 2400 && !['done', 'failed', 'cancelled'].includes(done.body.status); i++) {

@@ -9,7 +9,16 @@ import { buildApp } from '../../src/app.ts';
 import { SeededRandom } from '../../src/core/random.ts';
 import { DataLifecycle } from '../../src/jobs/lifecycle.ts';
 import { Store } from '../../src/jobs/store.ts';
-import { binary, expectDocumented, expectProblem, sharedTestApp, type TestApp, testApp } from './helpers.ts';
+import {
+  binary,
+  expectDocumented,
+  expectProblem,
+  postJson,
+  sharedTestApp,
+  type TestApp,
+  testApp,
+} from './helpers.ts';
+import { byteRuns, foundInDataDir } from './stored-bytes.ts';
 
 // Source for the checks below: the project's data-lifecycle rules (DEVELOPERS.md "Data lifecycle"):
 // what a user deletes is gone, from the API and from every file under DATA_DIR; SQLite's documented
@@ -33,17 +42,7 @@ async function distinctivePng(seed: number): Promise<{ png: Buffer; values: Uint
 
 /** Runs of 4 consecutive stored pixels (32 bytes of float64) to look for in the data files. */
 function needles(pixels: Float64Array): Buffer[] {
-  const bytes = Buffer.from(pixels.buffer, pixels.byteOffset, pixels.byteLength);
-  const out: Buffer[] = [];
-  for (let offset = 0; offset + 32 <= bytes.length; offset += 32)
-    out.push(bytes.subarray(offset, offset + 32));
-  return out;
-}
-
-/** How many needles occur in any file of the data folder (db, -wal, -shm). */
-function foundInDataDir(dataDir: string, patterns: Buffer[]): number {
-  const files = readdirSync(dataDir).map((name) => readFileSync(join(dataDir, name)));
-  return patterns.filter((needle) => files.some((file) => file.includes(needle))).length;
+  return byteRuns(Buffer.from(pixels.buffer, pixels.byteOffset, pixels.byteLength), 32);
 }
 
 const sleep = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
@@ -100,17 +99,18 @@ describe('deleting an upload deletes everything made from it, and its pixels lea
     expect(Array.from(stored.data)).toEqual(Array.from(values));
     const patterns = needles(stored.data);
 
-    const recon = await t.http().post('/v1/reconstructions').send(reconstructionFrom({ imageId }));
+    const recon = await postJson(t, '/v1/reconstructions', reconstructionFrom({ imageId }));
     expect(recon.status).toBe(201);
     const referenceUrl = `/v1/results/${recon.body.id}/reference.png`;
     expect((await t.http().get(referenceUrl)).status).toBe(200);
     // A reconstruction from a phantom must survive: the cascade follows links, not everything.
-    const unrelated = await t
-      .http()
-      .post('/v1/reconstructions')
-      .send(reconstructionFrom({ phantom: 'shepp-logan-modified' }));
+    const unrelated = await postJson(
+      t,
+      '/v1/reconstructions',
+      reconstructionFrom({ phantom: 'shepp-logan-modified' }),
+    );
     expect(unrelated.status).toBe(201);
-    const plan = await t.http().post('/v1/plans').send(slowPlanFrom(imageId));
+    const plan = await postJson(t, '/v1/plans', slowPlanFrom(imageId));
     expect(plan.status).toBe(202);
     await waitForStatus(t, plan.body.id, ['running']);
 
@@ -131,20 +131,24 @@ describe('deleting an upload deletes everything made from it, and its pixels lea
 
     expect(foundInDataDir(t.dataDir, patterns)).toBe(0);
     // The queue goes on: the worker lanes of the cancelled plan were released.
-    const next = await t
-      .http()
-      .post('/v1/plans')
-      .send({ ...slowPlanFrom('x'), source: { phantom: 'shepp-logan' }, accelerations: [2], seeds: 1 });
+    const next = await postJson(t, '/v1/plans', {
+      ...slowPlanFrom('x'),
+      source: { phantom: 'shepp-logan' },
+      accelerations: [2],
+      seeds: 1,
+    });
     expect((await waitForStatus(t, next.body.id, ['done', 'failed'])).body.status).toBe('done');
   });
 
   it('the rows of a finished plan (cells included) leave the database when its upload is deleted', async () => {
     const { png } = await distinctivePng(7);
     const imageId = await upload(t, png);
-    const plan = await t
-      .http()
-      .post('/v1/plans')
-      .send({ ...slowPlanFrom(imageId), accelerations: [2], methods: [{ name: 'zero-filled' }], seeds: 1 });
+    const plan = await postJson(t, '/v1/plans', {
+      ...slowPlanFrom(imageId),
+      accelerations: [2],
+      methods: [{ name: 'zero-filled' }],
+      seeds: 1,
+    });
     expect((await waitForStatus(t, plan.body.id, ['done'])).status).toBe(200);
     expect(t.app.services.store.planCells(plan.body.id).size).toBe(2);
     expect((await t.http().delete(`/v1/images/${imageId}`)).status).toBe(204);
@@ -157,14 +161,15 @@ describe('DELETE /v1/results/{id} and DELETE /v1/plans/{id}?purge=true', () => {
   const t = sharedTestApp({ workers: 2, limits: { maxIterations: 500 } });
 
   it('a reconstruction and a mask: 204, then their images and the result are 404; again 404', async () => {
-    const recon = await t
-      .http()
-      .post('/v1/reconstructions')
-      .send(reconstructionFrom({ phantom: 'shepp-logan-modified' }));
-    const mask = await t
-      .http()
-      .post('/v1/masks')
-      .send({ matrix: { nx: 32, ny: 32 }, sampling: { pattern: 'cartesian-uniform', acceleration: 2 } });
+    const recon = await postJson(
+      t,
+      '/v1/reconstructions',
+      reconstructionFrom({ phantom: 'shepp-logan-modified' }),
+    );
+    const mask = await postJson(t, '/v1/masks', {
+      matrix: { nx: 32, ny: 32 },
+      sampling: { pattern: 'cartesian-uniform', acceleration: 2 },
+    });
     expect(mask.status).toBe(200);
     for (const [id, image] of [
       [recon.body.id, 'reconstruction'],
@@ -186,7 +191,7 @@ describe('DELETE /v1/results/{id} and DELETE /v1/plans/{id}?purge=true', () => {
   it('purge removes a running plan (cancelled first) and a finished one; plain DELETE still cancels', async () => {
     const { png } = await distinctivePng(3);
     const imageId = await upload(t, png);
-    const running = await t.http().post('/v1/plans').send(slowPlanFrom(imageId));
+    const running = await postJson(t, '/v1/plans', slowPlanFrom(imageId));
     await waitForStatus(t, running.body.id, ['running']);
     const purge = await t.http().delete(`/v1/plans/${running.body.id}?purge=true`);
     expect(purge.status).toBe(204);
@@ -197,7 +202,7 @@ describe('DELETE /v1/results/{id} and DELETE /v1/plans/{id}?purge=true', () => {
     // The upload stays: purging a plan removes what it made, not what it read.
     expect((await t.http().get(`/v1/images/${imageId}`)).status).toBe(200);
 
-    const cancelled = await t.http().post('/v1/plans').send(slowPlanFrom(imageId));
+    const cancelled = await postJson(t, '/v1/plans', slowPlanFrom(imageId));
     await waitForStatus(t, cancelled.body.id, ['running']);
     const cancel = await t.http().delete(`/v1/plans/${cancelled.body.id}?purge=false`);
     expect(cancel.status).toBe(200);
@@ -227,11 +232,12 @@ describe('retention: oldest first, never what a queued or running plan needs', (
 
   it('age limit: nothing goes at the present time; everything 2 h later under a 1 h limit', async () => {
     const imageId = await upload(t, (await distinctivePng(11)).png);
-    const recon = await t.http().post('/v1/reconstructions').send(reconstructionFrom({ imageId }));
-    const phantomRecon = await t
-      .http()
-      .post('/v1/reconstructions')
-      .send(reconstructionFrom({ phantom: 'shepp-logan' }));
+    const recon = await postJson(t, '/v1/reconstructions', reconstructionFrom({ imageId }));
+    const phantomRecon = await postJson(
+      t,
+      '/v1/reconstructions',
+      reconstructionFrom({ phantom: 'shepp-logan' }),
+    );
     const lifecycle = policyOf(1, 0);
     expect(lifecycle.runRetention(new Date()).removed).toEqual([]);
     const later = lifecycle.runRetention(new Date(Date.now() + 2 * 3600_000));
@@ -268,9 +274,9 @@ describe('retention: oldest first, never what a queued or running plan needs', (
 
   it('a running plan and its upload are spared; once cancelled they age out like the rest', async () => {
     const imageId = await upload(t, (await distinctivePng(31)).png);
-    const plan = await t.http().post('/v1/plans').send(slowPlanFrom(imageId));
+    const plan = await postJson(t, '/v1/plans', slowPlanFrom(imageId));
     await waitForStatus(t, plan.body.id, ['running']);
-    const old = await t.http().post('/v1/reconstructions').send(reconstructionFrom({ imageId }));
+    const old = await postJson(t, '/v1/reconstructions', reconstructionFrom({ imageId }));
     const future = new Date(Date.now() + 1000 * 3600_000);
     const report = policyOf(1, 1).runRetention(future);
     expect(report.removed).toEqual([{ kind: 'result', id: old.body.id }]);

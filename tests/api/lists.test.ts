@@ -2,11 +2,13 @@ import { parse as parseCsv } from 'csv-parse/sync';
 import sharp from 'sharp';
 import { describe, expect, it } from 'vitest';
 import { csvColumns } from '../../src/plan/index.ts';
+import { smallPlanBody } from '../plan/small-plan.ts';
 import {
   binary,
   expectDocumented,
   expectProblem,
   oneCellPlan,
+  postJson,
   sharedTestApp,
   type TestApp,
 } from './helpers.ts';
@@ -120,7 +122,7 @@ describe('GET /v1/plans and GET /v1/images: paged lists', () => {
       methods: [{ name: 'cs-tv', iterations: 400 }],
       seeds: 4,
     };
-    const submitted = await t.http().post('/v1/plans').send(slow);
+    const submitted = await postJson(t, '/v1/plans', slow);
     expect((await t.http().delete(`/v1/plans/${submitted.body.id}`)).status).toBe(200);
     const cancelled = await allPages(t, '/v1/plans?status=cancelled', 5);
     expect(ids(cancelled)).toEqual([submitted.body.id]);
@@ -180,15 +182,12 @@ describe('GET /v1/plans and GET /v1/images: paged lists', () => {
 
 describe('each plan row keeps its seed-1 reconstruction', () => {
   const t = sharedTestApp({ workers: 2 });
-  const twoSeeds = {
-    source: { phantom: 'shepp-logan-modified' },
-    matrix: { nx: 32, ny: 32 },
-    protocol: { trMs: 500 },
+  const twoSeeds = smallPlanBody({
     patterns: [{ pattern: 'cartesian-random', acs: 4 }],
     accelerations: [2, 4],
     methods: [{ name: 'zero-filled' }, { name: 'cs-tv', iterations: 12 }],
     seeds: 2,
-  };
+  });
 
   it('every row links a stored reconstruction equal to POST /v1/reconstructions of its seed-1 cell', async () => {
     const id = await donePlan(t, twoSeeds);
@@ -214,16 +213,13 @@ describe('each plan row keeps its seed-1 reconstruction', () => {
       expect(stored.status).toBe(200);
       if (row.reference) continue;
       // The same cell run on its own: the plan's sampling at the row's R and its method, seed 1.
-      const single = await t
-        .http()
-        .post('/v1/reconstructions')
-        .send({
-          source: twoSeeds.source,
-          matrix: twoSeeds.matrix,
-          sampling: { ...twoSeeds.patterns[0], acceleration: row.requestedR },
-          method: twoSeeds.methods[row.methodIndex!],
-          seed: 1,
-        });
+      const single = await postJson(t, '/v1/reconstructions', {
+        source: twoSeeds.source,
+        matrix: twoSeeds.matrix,
+        sampling: { ...twoSeeds.patterns[0], acceleration: row.requestedR },
+        method: twoSeeds.methods[row.methodIndex!],
+        seed: 1,
+      });
       expect(single.status).toBe(201);
       expect(stored.body.metrics, row.key).toEqual(single.body.metrics);
       expect(stored.body.zeroFilledMetrics, row.key).toEqual(single.body.zeroFilledMetrics);
@@ -253,15 +249,12 @@ describe('each plan row keeps its seed-1 reconstruction', () => {
   });
 
   it('a zero-filled reconstruction reports its own scores as the zero-filled ones', async () => {
-    const res = await t
-      .http()
-      .post('/v1/reconstructions')
-      .send({
-        source: { phantom: 'shepp-logan' },
-        matrix: { nx: 32, ny: 32 },
-        sampling: { pattern: 'cartesian-uniform', acceleration: 2 },
-        method: { name: 'zero-filled' },
-      });
+    const res = await postJson(t, '/v1/reconstructions', {
+      source: { phantom: 'shepp-logan' },
+      matrix: { nx: 32, ny: 32 },
+      sampling: { pattern: 'cartesian-uniform', acceleration: 2 },
+      method: { name: 'zero-filled' },
+    });
     expect(res.status).toBe(201);
     await expectDocumented('POST', '/v1/reconstructions', res);
     expect(res.body.zeroFilledMetrics).toEqual(res.body.metrics);

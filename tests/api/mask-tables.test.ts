@@ -1,6 +1,6 @@
 import { parse } from 'csv-parse/sync';
 import { describe, expect, it } from 'vitest';
-import { expectDocumented, sharedTestApp } from './helpers.ts';
+import { expectDocumented, postJson, sharedTestApp } from './helpers.ts';
 
 /**
  * Sample tables (docs/design.md §4.10): every described mask can be downloaded as CSV (RFC 4180:
@@ -12,7 +12,7 @@ describe('GET /v1/masks/{id}/table.csv|.json', () => {
   const matrix = { nx: 32, ny: 32 };
 
   async function describeMask(sampling: object) {
-    const res = await t.http().post('/v1/masks').send({ matrix, sampling }).expect(200);
+    const res = await postJson(t, '/v1/masks', { matrix, sampling }).expect(200);
     return res.body as { id: string; acquired: { count: number }; tables: { csv: string; json: string } };
   }
 
@@ -65,28 +65,22 @@ describe('GET /v1/masks/{id}/table.csv|.json', () => {
     // Spoke 1 is the golden angle 180°/φ on: its direction has the angle 111.246°.
     const angle = (Math.atan2(rows[64 + 63].ky, rows[64 + 63].kx) * 180) / Math.PI;
     expect((angle + 360) % 180).toBeCloseTo(111.2461, 3);
-    const refused = await t
-      .http()
-      .post('/v1/masks')
-      .send({ matrix, sampling: { pattern: 'custom', table: csv } })
-      .expect(422);
+    const refused = await postJson(t, '/v1/masks', {
+      matrix,
+      sampling: { pattern: 'custom', table: csv },
+    }).expect(422);
     expect(refused.body.errors[0].field).toBe('sampling.table');
   });
 
   it('unknown ids are a 404 problem; a custom mask needs exactly one of maskPng and table', async () => {
     const res = await t.http().get('/v1/masks/mask-nothing/table.csv').expect(404);
     expect(res.headers['content-type']).toMatch(/problem\+json/);
-    const both = await t
-      .http()
-      .post('/v1/masks')
-      .send({ matrix, sampling: { pattern: 'custom' } })
-      .expect(422);
+    const both = await postJson(t, '/v1/masks', { matrix, sampling: { pattern: 'custom' } }).expect(422);
     expect(both.body.errors[0].field).toBe('sampling');
-    const bad = await t
-      .http()
-      .post('/v1/masks')
-      .send({ matrix, sampling: { pattern: 'custom', table: 'order,ky,kx\r\n0,40,0\r\n' } })
-      .expect(422);
+    const bad = await postJson(t, '/v1/masks', {
+      matrix,
+      sampling: { pattern: 'custom', table: 'order,ky,kx\r\n0,40,0\r\n' },
+    }).expect(422);
     expect(bad.body.errors[0]).toMatchObject({ field: 'sampling.table' });
   });
 

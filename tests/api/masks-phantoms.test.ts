@@ -1,7 +1,7 @@
 import sharp from 'sharp';
 import { describe, expect, it } from 'vitest';
 import { getPhantom } from '../../src/phantoms/index.ts';
-import { binary, expectDocumented, expectProblem, postProblem, sharedTestApp } from './helpers.ts';
+import { binary, expectDocumented, expectProblem, postJson, postProblem, sharedTestApp } from './helpers.ts';
 
 // Source for the checks below: the v1 HTTP contract of docs/design.md §4 (routes, status codes, 202 jobs,
 // persistence under DATA_DIR), problem bodies per RFC 9457 (docs/references.md §10.4) and every documented
@@ -59,7 +59,7 @@ describe('phantoms, masks and result images', () => {
       [3.2, 1.7],
       [0.5, 0],
     ];
-    const res = await t.http().post('/v1/phantoms/shepp-logan/kspace').send({ points });
+    const res = await postJson(t, '/v1/phantoms/shepp-logan/kspace', { points });
     expect(res.status).toBe(200);
     await expectDocumented('POST', '/v1/phantoms/shepp-logan/kspace', res);
     const expected = getPhantom('shepp-logan').kspaceAt(
@@ -79,13 +79,10 @@ describe('phantoms, masks and result images', () => {
   });
 
   it('POST /v1/masks: R = total / acquired (docs/design.md §3.4), PSF summary, PNGs under /v1/results/{id}', async () => {
-    const res = await t
-      .http()
-      .post('/v1/masks')
-      .send({
-        matrix: { nx: 64, ny: 64 },
-        sampling: { pattern: 'cartesian-uniform', acceleration: 4, acs: 8 },
-      });
+    const res = await postJson(t, '/v1/masks', {
+      matrix: { nx: 64, ny: 64 },
+      sampling: { pattern: 'cartesian-uniform', acceleration: 4, acs: 8 },
+    });
     expect(res.status).toBe(200);
     await expectDocumented('POST', '/v1/masks', res);
     const { acceleration, acquired, total, fraction } = res.body;
@@ -133,20 +130,19 @@ describe('phantoms, masks and result images', () => {
 
   it('POST /v1/masks: the same request gives the same bytes, a different seed another mask (docs/design.md §3.7)', async () => {
     const request = (seed: number, keyOrder: 'a' | 'b') =>
-      t
-        .http()
-        .post('/v1/masks')
-        .send(
-          keyOrder === 'a'
-            ? {
-                matrix: { nx: 64, ny: 64 },
-                sampling: { pattern: 'poisson-disc', acceleration: 3, acs: 8, seed },
-              }
-            : {
-                sampling: { seed, acs: 8, acceleration: 3, pattern: 'poisson-disc' },
-                matrix: { ny: 64, nx: 64 },
-              },
-        );
+      postJson(
+        t,
+        '/v1/masks',
+        keyOrder === 'a'
+          ? {
+              matrix: { nx: 64, ny: 64 },
+              sampling: { pattern: 'poisson-disc', acceleration: 3, acs: 8, seed },
+            }
+          : {
+              sampling: { seed, acs: 8, acceleration: 3, pattern: 'poisson-disc' },
+              matrix: { ny: 64, nx: 64 },
+            },
+      );
     const first = await request(5, 'a');
     const again = await request(5, 'b');
     const other = await request(6, 'a');
@@ -177,17 +173,17 @@ describe('phantoms, masks and result images', () => {
   });
 
   it('mask errors: R too high 422 naming sampling.acceleration; unknown result 404; unknown image name 404', async () => {
-    const res = await t
-      .http()
-      .post('/v1/masks')
-      .send({ matrix: { nx: 32, ny: 32 }, sampling: { pattern: 'cartesian-uniform', acceleration: 64 } });
+    const res = await postJson(t, '/v1/masks', {
+      matrix: { nx: 32, ny: 32 },
+      sampling: { pattern: 'cartesian-uniform', acceleration: 64 },
+    });
     expectProblem(res, 422, 'sampling.acceleration');
     await expectDocumented('POST', '/v1/masks', res);
     expectProblem(await t.http().get('/v1/results/nope/mask.png'), 404, 'id');
-    const ok = await t
-      .http()
-      .post('/v1/masks')
-      .send({ matrix: { nx: 32, ny: 32 }, sampling: { pattern: 'cartesian-uniform', acceleration: 2 } });
+    const ok = await postJson(t, '/v1/masks', {
+      matrix: { nx: 32, ny: 32 },
+      sampling: { pattern: 'cartesian-uniform', acceleration: 2 },
+    });
     expectProblem(await t.http().get(`/v1/results/${ok.body.id}/reconstruction.png`), 404, 'image');
     expectProblem(await t.http().get(`/v1/results/${ok.body.id}/secrets.png`), 404, 'image');
   });
@@ -198,10 +194,10 @@ describe('phantoms, masks and result images', () => {
     const png = await sharp(samples, { raw: { width: 32, height: 32, channels: 1 } })
       .png()
       .toBuffer();
-    const res = await t
-      .http()
-      .post('/v1/masks')
-      .send({ matrix: { nx: 32, ny: 32 }, sampling: { pattern: 'custom', maskPng: png.toString('base64') } });
+    const res = await postJson(t, '/v1/masks', {
+      matrix: { nx: 32, ny: 32 },
+      sampling: { pattern: 'custom', maskPng: png.toString('base64') },
+    });
     expect(res.status).toBe(200);
     expect(res.body.fraction).toBe(0.25); // 8·32 / 32² (INTERFACES.md: fraction definition)
     expect(res.body.acceleration.requested).toBeNull();

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { oneCellPlan, postProblem, sharedTestApp } from './helpers.ts';
+import { oneCellPlan, postJson, postProblem, sharedTestApp } from './helpers.ts';
 
 // noise.snr has a documented range, 0.1 ≤ snr ≤ 1e6 (reasons in the schema description); outside it
 // a 422 (RFC 9110 §15.5.21) RFC 9457 problem names noise.snr. Before, 1e-300 gave 201 with every
@@ -33,10 +33,7 @@ describe('noise.snr range', () => {
   });
 
   it('the lower end, snr 0.1, is accepted and scored with finite metrics', async () => {
-    const res = await t
-      .http()
-      .post('/v1/reconstructions')
-      .send({ ...reconstruction, noise: { snr: 0.1 } });
+    const res = await postJson(t, '/v1/reconstructions', { ...reconstruction, noise: { snr: 0.1 } });
     expect(res.status).toBe(201);
     for (const name of ['nrmse', 'psnr', 'ssim', 'hfen'])
       expect(Number.isFinite(res.body.metrics[name])).toBe(true);

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { oneCellPlan, postProblem, sharedTestApp } from './helpers.ts';
+import { oneCellPlan, postJson, postProblem, sharedTestApp } from './helpers.ts';
 
 // A plan's source is checked when it is submitted, as POST /v1/reconstructions checks it: an unknown
 // phantom is 422 (RFC 9110 §15.5.21) naming source.phantom; an unknown image id is 404 naming
@@ -46,7 +46,7 @@ describe('plan sources are validated at submit', () => {
   });
 
   it('a known phantom is still accepted (control)', async () => {
-    const res = await t.http().post('/v1/plans').send(plan);
+    const res = await postJson(t, '/v1/plans', plan);
     expect(res.status).toBe(202);
   });
 });

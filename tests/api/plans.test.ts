@@ -8,6 +8,7 @@ import { smallPlanBody } from '../plan/small-plan.ts';
 import {
   expectDocumented,
   expectProblem,
+  postJson,
   postProblem,
   sharedTestApp,
   type TestApp,
@@ -67,7 +68,7 @@ describe('plans as jobs', () => {
   const t = sharedTestApp({ workers: 2, limits: { maxPlanCells: 200, maxIterations: 500 } });
 
   it('POST answers 202 at once with Location; polling reaches done with the table and recommendation', async () => {
-    const res = await t.http().post('/v1/plans').send(smallPlan);
+    const res = await postJson(t, '/v1/plans', smallPlan);
     expect(res.status).toBe(202);
     await expectDocumented('POST', '/v1/plans', res);
     expect(res.headers.location).toBe(`/v1/plans/${res.body.id}`);
@@ -83,7 +84,7 @@ describe('plans as jobs', () => {
   });
 
   it('GET /health keeps answering while a plan runs (cells run in worker threads)', async () => {
-    const res = await t.http().post('/v1/plans').send(slowPlan);
+    const res = await postJson(t, '/v1/plans', slowPlan);
     await waitFor(t, res.body.id, (b) => b.status === 'running');
     let answered = 0;
     while ((await t.http().get(`/v1/plans/${res.body.id}`)).body.status === 'running' && answered < 20) {
@@ -97,7 +98,7 @@ describe('plans as jobs', () => {
   });
 
   it('table.csv is RFC 4180: header row, CRLF records, one record per table row, parsed back by csv-parse', async () => {
-    const res = await t.http().post('/v1/plans').send(smallPlan);
+    const res = await postJson(t, '/v1/plans', smallPlan);
     const done = await waitFor(t, res.body.id, finished);
     const csv = await t.http().get(`/v1/plans/${res.body.id}/table.csv`);
     expect(csv.status).toBe(200);
@@ -119,7 +120,7 @@ describe('plans as jobs', () => {
     await t.app.listen({ port: 0, host: '127.0.0.1' });
     const address = t.app.server.address();
     const port = typeof address === 'object' && address ? address.port : 0;
-    const res = await t.http().post('/v1/plans').send(smallPlan);
+    const res = await postJson(t, '/v1/plans', smallPlan);
     const stream = await fetch(`http://127.0.0.1:${port}/v1/plans/${res.body.id}/events`);
     expect(stream.status).toBe(200);
     expect(stream.headers.get('content-type')).toMatch(/^text\/event-stream/);
@@ -147,7 +148,7 @@ describe('plans as jobs', () => {
   });
 
   it('DELETE cancels a running plan; afterwards DELETE and table.csv answer 409, unknown ids 404', async () => {
-    const res = await t.http().post('/v1/plans').send(slowPlan);
+    const res = await postJson(t, '/v1/plans', slowPlan);
     await waitFor(t, res.body.id, (b) => b.status === 'running');
     const del = await t.http().delete(`/v1/plans/${res.body.id}`);
     expect(del.status).toBe(200);
@@ -161,7 +162,7 @@ describe('plans as jobs', () => {
     }
     expectProblem(await t.http().delete('/v1/plans/nope'), 404, 'id');
     // The service keeps working after a cancel (the worker thread was replaced).
-    const next = await t.http().post('/v1/plans').send(smallPlan);
+    const next = await postJson(t, '/v1/plans', smallPlan);
     expect((await waitFor(t, next.body.id, finished)).body.status).toBe('done');
   });
 
@@ -175,7 +176,7 @@ describe('plans as jobs', () => {
       methods: [{ name: 'zero-filled' }],
       seeds: 1,
     };
-    const res = await t.http().post('/v1/plans').send(plan);
+    const res = await postJson(t, '/v1/plans', plan);
     expect(res.status).toBe(202);
     const done = await waitFor(t, res.body.id, finished);
     expect(done.body.status).toBe('done');
@@ -203,14 +204,14 @@ describe('bounded queue', () => {
   it('answers 429 problem+json with an integer Retry-After when full (RFC 6585 §4, RFC 9110 10.2.3)', async () => {
     const t = await testApp({ workers: 1, maxQueuedPlans: 1, limits: { maxIterations: 500 } });
     try {
-      const first = await t.http().post('/v1/plans').send(slowPlan);
+      const first = await postJson(t, '/v1/plans', slowPlan);
       expect(first.status).toBe(202);
-      const second = await t.http().post('/v1/plans').send(smallPlan);
+      const second = await postJson(t, '/v1/plans', smallPlan);
       expectProblem(second, 429);
       await expectDocumented('POST', '/v1/plans', second);
       expect(second.headers['retry-after']).toMatch(/^[1-9]\d*$/);
       await t.http().delete(`/v1/plans/${first.body.id}`);
-      expect((await t.http().post('/v1/plans').send(smallPlan)).status).toBe(202);
+      expect((await postJson(t, '/v1/plans', smallPlan)).status).toBe(202);
     } finally {
       await t.close();
     }
@@ -222,7 +223,7 @@ describe('persistence: a restart resumes queued/running plans from their last fi
     const plan = { ...slowPlan, matrix: { nx: 40, ny: 40 }, methods: [{ name: 'cs-tv', iterations: 60 }] };
     const total = (1 + 3) * 3;
     const first = await testApp({ workers: 1, limits: { maxIterations: 500 } });
-    const res = await first.http().post('/v1/plans').send(plan);
+    const res = await postJson(first, '/v1/plans', plan);
     await waitFor(first, res.body.id, (b) => b.progress.done >= 3);
     await first.close();
     const doneAtClose = (await import('../../src/jobs/store.ts')).Store;
@@ -240,7 +241,7 @@ describe('persistence: a restart resumes queued/running plans from their last fi
       expect(resumed.body.progress.done).toBeGreaterThanOrEqual(kept.done);
       const resumedDone = await waitFor(second, res.body.id, finished);
       expect(resumedDone.body.status).toBe('done');
-      const fresh = await reference.http().post('/v1/plans').send(plan);
+      const fresh = await postJson(reference, '/v1/plans', plan);
       const freshDone = await waitFor(reference, fresh.body.id, finished);
       expect(withoutTiming(resumedDone.body.table)).toEqual(withoutTiming(freshDone.body.table));
       // A finished plan stays readable after yet another restart.

@@ -2,7 +2,14 @@ import { readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { runReconstruction } from '../../src/pipeline/run-reconstruction.ts';
-import { expectDocumented, expectProblem, expectStoredCopy, oneCellPlan, sharedTestApp } from './helpers.ts';
+import {
+  expectDocumented,
+  expectProblem,
+  expectStoredCopy,
+  oneCellPlan,
+  postJson,
+  sharedTestApp,
+} from './helpers.ts';
 
 /** Files made by Debian's ismrmrd-tools generator and derived by tests/reference/generate_ismrmrd_fixture.py. */
 const fixture = (name: string) => readFileSync(new URL(`../fixtures/ismrmrd/${name}`, import.meta.url));
@@ -93,7 +100,7 @@ describe('POST /v1/raw (ISMRMRD)', () => {
     expect(planted.every((word) => bytes.includes(word))).toBe(true);
     const res = await post('subject.h5');
     expect(res.status).toBe(201);
-    const recon = await t.http().post('/v1/reconstructions').send(rawRequest(res.body.id, 2));
+    const recon = await postJson(t, '/v1/reconstructions', rawRequest(res.body.id, 2));
     expect(recon.status).toBe(201);
     const answers = JSON.stringify([res.body, recon.body]);
     const files = readdirSync(t.dataDir).map((name) => readFileSync(join(t.dataDir, name)));
@@ -108,7 +115,7 @@ describe('POST /v1/raw (ISMRMRD)', () => {
 
   it('zero-filled at R = 2 over HTTP: scored against the RSS reference, images served', async () => {
     const id = (await post('shepp-logan-4coil.h5')).body.id as string;
-    const res = await t.http().post('/v1/reconstructions').send(rawRequest(id, 2));
+    const res = await postJson(t, '/v1/reconstructions', rawRequest(id, 2));
     expect(res.status).toBe(201);
     await expectDocumented('POST', '/v1/reconstructions', res);
     expect(res.body.acceleration.actual).toBeCloseTo(2, 10);
@@ -119,20 +126,17 @@ describe('POST /v1/raw (ISMRMRD)', () => {
     const png = await t.http().get(res.body.images.reconstruction);
     expect(png.status).toBe(200);
     // The data's own noise only: the same request gives the same scores.
-    const again = await t.http().post('/v1/reconstructions').send(rawRequest(id, 2));
+    const again = await postJson(t, '/v1/reconstructions', rawRequest(id, 2));
     expect(again.body.metrics).toEqual(res.body.metrics);
     // Added noise is seeded and makes the scores worse.
-    const noisy = await t
-      .http()
-      .post('/v1/reconstructions')
-      .send({ ...rawRequest(id, 2), noise: { snr: 5 } });
+    const noisy = await postJson(t, '/v1/reconstructions', { ...rawRequest(id, 2), noise: { snr: 5 } });
     expect(noisy.status).toBe(201);
     expect(noisy.body.metrics.nrmse).toBeGreaterThan(res.body.metrics.nrmse);
   });
 
   it('a wrong matrix, a coil array or an unknown id is refused naming the field', async () => {
     const id = (await post('shepp-logan-4coil.h5')).body.id as string;
-    const send = (body: object) => t.http().post('/v1/reconstructions').send(body);
+    const send = (body: object) => postJson(t, '/v1/reconstructions', body);
     expectProblem(await send({ ...rawRequest(id, 2), matrix: { nx: 32, ny: 32 } }), 422, 'matrix');
     expectProblem(
       await send({ ...rawRequest(id, 2), coils: { array: 'gaussian', count: 4, width: 0.5, ringRadius: 1 } }),

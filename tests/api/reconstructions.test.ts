@@ -8,6 +8,7 @@ import {
   expectDocumented,
   expectProblem,
   expectStoredCopy,
+  postJson,
   postProblem,
   sharedTestApp,
   testApp,
@@ -29,7 +30,7 @@ describe('POST /v1/reconstructions (runs on the worker pool)', () => {
   const t = sharedTestApp({ limits: { maxIterations: 100, maxMatrixSide: 128 } });
 
   it('201 with metrics, R, timing and six image URLs; the numbers are the engine’s for the same request', async () => {
-    const res = await t.http().post('/v1/reconstructions').send(request);
+    const res = await postJson(t, '/v1/reconstructions', request);
     expect(res.status).toBe(201);
     await expectDocumented('POST', '/v1/reconstructions', res);
     expect(res.headers.location).toBe(`/v1/reconstructions/${res.body.id}`);
@@ -54,14 +55,11 @@ describe('POST /v1/reconstructions (runs on the worker pool)', () => {
   });
 
   it('fully sampled zero-filled equals the reference: NRMSE 0, SSIM 1, PSNR not finite (null) — by definition (docs/design.md §3.6)', async () => {
-    const res = await t
-      .http()
-      .post('/v1/reconstructions')
-      .send({
-        ...request,
-        sampling: { pattern: 'cartesian-uniform', acceleration: 1 },
-        method: { name: 'zero-filled' },
-      });
+    const res = await postJson(t, '/v1/reconstructions', {
+      ...request,
+      sampling: { pattern: 'cartesian-uniform', acceleration: 1 },
+      method: { name: 'zero-filled' },
+    });
     expect(res.status).toBe(201);
     expect(res.body.metrics.nrmse).toBeCloseTo(0, 12);
     expect(res.body.metrics.ssim).toBeCloseTo(1, 12);
@@ -71,10 +69,11 @@ describe('POST /v1/reconstructions (runs on the worker pool)', () => {
 
   it('an uploaded DICOM (MR_small.dcm, 64×64) as source', async () => {
     const upload = await uploadFile(t, debianFile('pydicom', 'MR_small.dcm'), 'm.dcm');
-    const res = await t
-      .http()
-      .post('/v1/reconstructions')
-      .send({ ...request, source: { imageId: upload.body.id }, matrix: { nx: 64, ny: 64 } });
+    const res = await postJson(t, '/v1/reconstructions', {
+      ...request,
+      source: { imageId: upload.body.id },
+      matrix: { nx: 64, ny: 64 },
+    });
     expect(res.status).toBe(201);
     // The service's numbers are the engine's on the decoded pixels (the same request run directly).
     const pixels = (await decodeImage(debianFile('pydicom', 'MR_small.dcm'))).image;
@@ -107,10 +106,7 @@ describe('POST /v1/reconstructions (runs on the worker pool)', () => {
 describe('result images survive a restart (SQLite under DATA_DIR)', () => {
   it('GET /v1/results/{id}/reconstruction.png from a new app on the same DATA_DIR returns the same bytes', async () => {
     const first = await testApp();
-    const res = await first
-      .http()
-      .post('/v1/reconstructions')
-      .send({ ...request, method: { name: 'zero-filled' } });
+    const res = await postJson(first, '/v1/reconstructions', { ...request, method: { name: 'zero-filled' } });
     const before = await first.http().get(res.body.images.reconstruction).buffer(true).parse(binary);
     await first.close();
     const second = await testApp({ dataDir: first.dataDir });

@@ -1,7 +1,7 @@
 import { readFileSync } from 'node:fs';
 import sharp from 'sharp';
 import { describe, expect, it } from 'vitest';
-import { binary, expectDocumented, expectProblem, sharedTestApp } from './helpers.ts';
+import { binary, expectDocumented, expectProblem, postJson, sharedTestApp } from './helpers.ts';
 
 const volumeOrder = ['reconstruction', 'zero-filled', 'reference', 'error-map'];
 
@@ -40,15 +40,12 @@ describe('result images at full precision', () => {
   it('images.nii: float32 NIfTI-1 with the named images along the 4th dimension', async () => {
     const raw = readFileSync(new URL('../fixtures/ismrmrd/shepp-logan-4coil.h5', import.meta.url));
     const rawId = (await t.http().post('/v1/raw').attach('file', raw, 'a.h5')).body.id;
-    const recon = await t
-      .http()
-      .post('/v1/reconstructions')
-      .send({
-        source: { rawId },
-        matrix: { nx: 64, ny: 64 },
-        sampling: { pattern: 'cartesian-uniform', acceleration: 2 },
-        method: { name: 'zero-filled' },
-      });
+    const recon = await postJson(t, '/v1/reconstructions', {
+      source: { rawId },
+      matrix: { nx: 64, ny: 64 },
+      sampling: { pattern: 'cartesian-uniform', acceleration: 2 },
+      method: { name: 'zero-filled' },
+    });
     expect(recon.status).toBe(201);
     id = recon.body.id;
     const res = await get(`/v1/results/${id}/images.nii`);

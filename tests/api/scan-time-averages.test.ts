@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { expectDocumented, loadSpec, postProblem, sharedTestApp } from './helpers.ts';
+import { expectDocumented, loadSpec, postJson, postProblem, sharedTestApp } from './helpers.ts';
 
 // `protocol.averages` is DICOM Number of Averages (0018,0083); `nex` is its deprecated alias for one
 // version (docs/design.md §4.3). Expected times from the TA formula of docs/references.md §8:
@@ -14,7 +14,7 @@ describe('POST /v1/scan-time: averages and the deprecated alias nex', () => {
       { trMs: 1000, averages: 2 },
       { trMs: 1000, nex: 2 },
     ]) {
-      const res = await t.http().post('/v1/scan-time').send({ matrix, protocol });
+      const res = await postJson(t, '/v1/scan-time', { matrix, protocol });
       expect(res.status).toBe(200);
       expect(res.body.seconds).toBe(128);
       await expectDocumented('POST', '/v1/scan-time', res);

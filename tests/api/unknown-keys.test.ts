@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { expectProblem, postProblem, sharedTestApp } from './helpers.ts';
+import { expectProblem, postJson, postProblem, sharedTestApp } from './helpers.ts';
 
 // Unknown keys are refused everywhere the same way the rest of the API refuses them: 400
 // (a body of the wrong shape, RFC 9110 §15.5.1) as RFC 9457 problem+json naming the key's own path.
@@ -83,10 +83,10 @@ describe('unknown keys are refused with their path', () => {
   });
 
   it('the known spelling still works (control)', async () => {
-    const res = await t
-      .http()
-      .post('/v1/masks')
-      .send({ matrix: reconstruction.matrix, sampling: { ...reconstruction.sampling, angles: 'golden' } });
+    const res = await postJson(t, '/v1/masks', {
+      matrix: reconstruction.matrix,
+      sampling: { ...reconstruction.sampling, angles: 'golden' },
+    });
     expect(res.status).toBe(200);
   });
 });

@@ -3,7 +3,8 @@ import { tmpdir } from 'node:os';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { FastifyInstance } from 'fastify';
-import { type BrowserContext, chromium, type Page } from 'playwright-core';
+import { type BrowserContext, chromium, type Page, type Response } from 'playwright-core';
+import { buildApp } from '../../src/app.ts';
 
 /** What every browser test shares: Debian's chromium, its flags, the artifacts folder, a listener. */
 export const chromiumPath = '/usr/bin/chromium';
@@ -72,4 +73,161 @@ export async function launchBrowser(
       rmSync(userDataDir, { recursive: true, force: true });
     },
   };
+}
+
+/** A running service (and optionally a second one that demands an API key) with one chromium page on it. */
+export interface PlannerSession {
+  baseUrl: string;
+  /** Origin of the service that demands `apiKey`; undefined when none was asked for. */
+  keyedUrl: string | undefined;
+  context: BrowserContext;
+  page: Page;
+  /** Requests the page tried to send off the services' origins (aborted). */
+  offOrigin: string[];
+  /** Uncaught errors and console errors of the page. */
+  pageErrors: string[];
+  /**
+   * Loads `address` (a path on the main service, or a whole URL) in `on` (the session's page unless
+   * given) and waits until the planner page says it is ready (its data-ready mark).
+   */
+  open: (address: string, on?: Page) => Promise<void>;
+  /** The next response of the service to `method path` (and, when given, to a request accepting `accept`). */
+  waitForApi: (path: string, method?: string, accept?: string) => Promise<Response>;
+  /** Clicks `button` and answers the service's response to `method path` (see `waitForApi`) that follows. */
+  clickForApi: (button: string, path: string, method?: string, accept?: string) => Promise<Response>;
+  /** Fills the single-run sampling controls of `on` (the session's page unless given). */
+  fillSampling: (controls: SamplingControls, on?: Page) => Promise<void>;
+  /** Fills the plan controls of `on` (the session's page unless given). */
+  fillPlan: (controls: PlanControls, on?: Page) => Promise<void>;
+  /** Closes the browser and the services and removes their data folders. */
+  close: () => Promise<void>;
+}
+
+export interface PlannerSessionOptions {
+  /** Start of the temporary data folders' names. */
+  prefix: string;
+  /** Worker threads of the main service (the app's default when undefined). */
+  workers?: number;
+  /** Also start a service that demands this API key, with one worker. */
+  apiKey?: string;
+}
+
+/** Builds the service on a fresh data folder, listens on loopback, and opens chromium limited to it. */
+export async function openPlannerSession(options: PlannerSessionOptions): Promise<PlannerSession> {
+  const apps: FastifyInstance[] = [];
+  const dataDirs: string[] = [];
+  const closeServices = async (): Promise<void> => {
+    for (const app of apps) await app.close();
+    for (const dataDir of dataDirs) rmSync(dataDir, { recursive: true, force: true });
+  };
+  const start = async (suffix: string, config: { workers?: number; apiKeys?: string[] }): Promise<string> => {
+    const dataDir = mkdtempSync(join(tmpdir(), `${options.prefix}${suffix}`));
+    dataDirs.push(dataDir);
+    const app = await buildApp({ dataDir, ...config });
+    apps.push(app);
+    return listen(app);
+  };
+  const offOrigin: string[] = [];
+  const pageErrors: string[] = [];
+  try {
+    const baseUrl = await start('', options.workers === undefined ? {} : { workers: options.workers });
+    const keyedUrl =
+      options.apiKey === undefined
+        ? undefined
+        : await start('keyed-', { apiKeys: [options.apiKey], workers: 1 });
+    // Nothing leaves the services' origins: no CDN, no fonts, no telemetry.
+    const origins = keyedUrl === undefined ? [baseUrl] : [baseUrl, keyedUrl];
+    const browser = await launchBrowser(origins, offOrigin, pageErrors);
+    return {
+      baseUrl,
+      keyedUrl,
+      context: browser.context,
+      page: browser.page,
+      offOrigin,
+      pageErrors,
+      open: async (address, on = browser.page) => {
+        await on.goto(new URL(address, baseUrl).href);
+        await on.waitForSelector('body[data-ready="true"]');
+      },
+      waitForApi: (path, method, accept) => waitForApi(browser.page, path, method, accept),
+      clickForApi: async (button, path, method, accept) => {
+        const answer = waitForApi(browser.page, path, method, accept);
+        await browser.page.click(button);
+        return answer;
+      },
+      fillSampling: (controls, on = browser.page) => fillSampling(on, controls),
+      fillPlan: (controls, on = browser.page) => fillPlan(on, controls),
+      close: async () => {
+        await browser.close();
+        await closeServices();
+      },
+    };
+  } catch (error) {
+    // A session that failed to open leaves no service listening and no data folder behind.
+    await closeServices();
+    throw error;
+  }
+}
+
+function waitForApi(page: Page, path: string, method = 'POST', accept?: string): Promise<Response> {
+  return page.waitForResponse((r) => {
+    const request = r.request();
+    if (request.method() !== method || new URL(r.url()).pathname !== path) return false;
+    return accept === undefined || (request.headers().accept ?? '').includes(accept);
+  });
+}
+
+/** RGBA bytes of an <img> as decoded at its natural size, row by row. */
+export async function decodedImage(
+  page: Page,
+  selector: string,
+): Promise<{ width: number; height: number; rgba: number[] }> {
+  return page.$eval(selector, (img) => {
+    const image = img as HTMLImageElement;
+    const canvas = document.createElement('canvas');
+    canvas.width = image.naturalWidth;
+    canvas.height = image.naturalHeight;
+    const context = canvas.getContext('2d')!;
+    context.drawImage(image, 0, 0);
+    const rgba = Array.from(context.getImageData(0, 0, canvas.width, canvas.height).data);
+    return { width: canvas.width, height: canvas.height, rgba };
+  });
+}
+
+/** The single-run sampling controls: matrix nx × ny, the pattern (left as it is when undefined), R and ACS. */
+export interface SamplingControls {
+  nx: number;
+  ny: number;
+  pattern?: string;
+  acceleration: number;
+  acs: number;
+}
+
+async function fillSampling(page: Page, controls: SamplingControls): Promise<void> {
+  await page.fill('#nx', String(controls.nx));
+  await page.fill('#ny', String(controls.ny));
+  if (controls.pattern !== undefined) await page.selectOption('#pattern', controls.pattern);
+  await page.fill('#acceleration', String(controls.acceleration));
+  await page.fill('#acs', String(controls.acs));
+}
+
+/** Ticks exactly `values` in one of the plan's checkbox groups. */
+async function tickOnly(page: Page, group: 'planPattern' | 'planMethod', values: string[]): Promise<void> {
+  for (const box of await page.$$(`input[name="${group}"]`)) await box.setChecked(false);
+  for (const value of values) await page.check(`input[name="${group}"][value="${value}"]`);
+}
+
+/** The plan controls: accelerations (as typed, e.g. "2, 4"), seeds, and the patterns and methods ticked. */
+export interface PlanControls {
+  accelerations: string;
+  seeds: number;
+  patterns: string[];
+  methods: string[];
+}
+
+async function fillPlan(page: Page, controls: PlanControls): Promise<void> {
+  await page.fill('#planAccelerations', controls.accelerations);
+  await page.fill('#planSeeds', String(controls.seeds));
+  await tickOnly(page, 'planPattern', controls.patterns);
+  await tickOnly(page, 'planMethod', controls.methods);
 }

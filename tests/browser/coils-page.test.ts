@@ -1,11 +1,7 @@
-import { mkdtempSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import type { FastifyInstance } from 'fastify';
-import type { Page, Response } from 'playwright-core';
+import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { buildApp } from '../../src/app.ts';
-import { artifacts, launchBrowser, listen } from './browser-session.ts';
+import { artifacts, openPlannerSession, type PlannerSession } from './browser-session.ts';
 
 /**
  * The receive-array part of the planner page (docs/design.md §3.8, §4.3, §4.4) in Debian's chromium
@@ -18,17 +14,8 @@ import { artifacts, launchBrowser, listen } from './browser-session.ts';
  * the service's for a 201, the problem marked on the array control for a 422.
  */
 
-let app: FastifyInstance;
-let baseUrl: string;
+let session: PlannerSession;
 let page: Page;
-let closeBrowser: () => Promise<void>;
-let dataDir: string;
-const offOrigin: string[] = [];
-const pageErrors: string[] = [];
-
-function waitForApi(path: string, method = 'POST'): Promise<Response> {
-  return page.waitForResponse((r) => r.request().method() === method && new URL(r.url()).pathname === path);
-}
 
 async function chooseEightLoops(): Promise<void> {
   await page.selectOption('#coilArray', 'loops');
@@ -40,22 +27,15 @@ async function chooseEightLoops(): Promise<void> {
 }
 
 beforeAll(async () => {
-  dataDir = mkdtempSync(join(tmpdir(), 'kspace-planner-browser-coils-'));
-  app = await buildApp({ dataDir, workers: 1 });
-  baseUrl = await listen(app);
-  ({ page, close: closeBrowser } = await launchBrowser([baseUrl], offOrigin, pageErrors));
+  session = await openPlannerSession({ prefix: 'kspace-planner-browser-coils-', workers: 1 });
+  page = session.page;
 });
 
-afterAll(async () => {
-  await closeBrowser?.();
-  await app?.close();
-  if (dataDir) rmSync(dataDir, { recursive: true, force: true });
-});
+afterAll(() => session?.close());
 
 describe('receive arrays on the planner page', () => {
   it('draws 8 loops on their ring, each a segment of length 2a normal to its radius, around the FOV', async () => {
-    await page.goto(`${baseUrl}/`);
-    await page.waitForSelector('body[data-ready="true"]');
+    await session.open('/');
     // Uniform by default: no loop drawn, only the field of view.
     expect(await page.locator('#coilPicture .coil-loop').count()).toBe(0);
     expect(await page.locator('#coilPicture .coil-fov').count()).toBe(1);
@@ -98,16 +78,10 @@ describe('receive arrays on the planner page', () => {
   });
 
   it('sends the array with a CS-TV reconstruction and shows what the service answers', async () => {
-    await page.fill('#nx', '32');
-    await page.fill('#ny', '32');
-    await page.selectOption('#pattern', 'cartesian-uniform');
-    await page.fill('#acceleration', '2');
-    await page.fill('#acs', '4');
+    await session.fillSampling({ nx: 32, ny: 32, pattern: 'cartesian-uniform', acceleration: 2, acs: 4 });
     await page.selectOption('#method', 'cs-tv');
     await page.fill('#iterations', '10');
-    const answer = waitForApi('/v1/reconstructions');
-    await page.click('#reconButton');
-    const response = await answer;
+    const response = await session.clickForApi('#reconButton', '/v1/reconstructions');
     const body = response.request().postDataJSON();
     expect(body.coils).toEqual({
       array: 'loops',
@@ -162,8 +136,7 @@ describe('receive arrays on the planner page', () => {
     expect(params.get('coilRingRadius')).toBe('1.25');
     expect(params.get('coilCorrelation')).toBe('0.1');
     expect(params.get('coilTilt')).toBe('10');
-    await page.goto(page.url());
-    await page.waitForSelector('body[data-ready="true"]');
+    await session.open(page.url());
     expect(await page.inputValue('#coilArray')).toBe('loops');
     expect(await page.inputValue('#coilTilt')).toBe('10');
     expect(await page.locator('#coilPicture .coil-loop').count()).toBe(8);
@@ -172,18 +145,16 @@ describe('receive arrays on the planner page', () => {
   });
 
   it('plans over the setup array and uniform with a g target, and shows the coils column', async () => {
-    await page.fill('#planAccelerations', '2');
-    await page.fill('#planSeeds', '1');
-    for (const box of await page.$$('input[name="planPattern"]')) await box.setChecked(false);
-    await page.check('input[name="planPattern"][value="cartesian-uniform"]');
-    for (const box of await page.$$('input[name="planMethod"]')) await box.setChecked(false);
-    await page.check('input[name="planMethod"][value="zero-filled"]');
+    await session.fillPlan({
+      accelerations: '2',
+      seeds: 1,
+      patterns: ['cartesian-uniform'],
+      methods: ['zero-filled'],
+    });
     expect(await page.textContent('#planSetupArrayLabel')).toBe('8 loops');
     await page.check('#planCompareUniform');
     await page.fill('#targetGMax', '1.5');
-    const accepted = waitForApi('/v1/plans');
-    await page.click('#planButton');
-    const response = await accepted;
+    const response = await session.clickForApi('#planButton', '/v1/plans');
     const body = response.request().postDataJSON();
     expect(body.coilArrays).toEqual([
       { array: 'loops', count: 8, loopRadius: 0.35, ringRadius: 1.25, correlation: 0.1 },
@@ -195,7 +166,7 @@ describe('receive arrays on the planner page', () => {
     await page.waitForFunction(() => !(document.querySelector('#planButton') as HTMLButtonElement).disabled, {
       timeout: 60_000,
     });
-    const plan = await (await fetch(`${baseUrl}/v1/plans/${id}`)).json();
+    const plan = await (await fetch(`${session.baseUrl}/v1/plans/${id}`)).json();
     if (plan.status === 'done') {
       // One row per array and cell, and the reference: the Coils column is a key column here.
       const header = await page.$$eval('#planTable thead th', (ths) =>
@@ -228,8 +199,8 @@ describe('receive arrays on the planner page', () => {
   });
 
   it('made no request off the service origin and raised no page errors', () => {
-    expect(offOrigin).toEqual([]);
+    expect(session.offOrigin).toEqual([]);
     // A refused request is logged by chromium as a failed resource; nothing else may be.
-    expect(pageErrors.filter((e) => !/status of 422/.test(e))).toEqual([]);
+    expect(session.pageErrors.filter((e) => !/status of 422/.test(e))).toEqual([]);
   });
 });

@@ -1,11 +1,7 @@
-import { mkdtempSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import type { FastifyInstance } from 'fastify';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { buildApp } from '../../src/app.ts';
-import { artifacts, launchBrowser, listen } from './browser-session.ts';
+import { artifacts, decodedImage, openPlannerSession, type PlannerSession } from './browser-session.ts';
 
 /**
  * Feature fidelity on the planner page, in Debian's chromium driven by playwright-core against the
@@ -14,13 +10,8 @@ import { artifacts, launchBrowser, listen } from './browser-session.ts';
  * and plot axis.
  */
 
-let app: FastifyInstance;
-let baseUrl: string;
+let session: PlannerSession;
 let page: Page;
-let closeBrowser: (() => Promise<void>) | undefined;
-let dataDir: string;
-const pageErrors: string[] = [];
-const offOrigin: string[] = [];
 
 interface Circle {
   x: number;
@@ -28,45 +19,17 @@ interface Circle {
   radius: number;
 }
 
-/** RGB of the pixel (x, y) of an <img> as decoded (natural size). */
-async function pixelOf(selector: string, x: number, y: number): Promise<number[]> {
-  return page.$eval(
-    selector,
-    (img, [px, py]) => {
-      const image = img as HTMLImageElement;
-      const canvas = document.createElement('canvas');
-      canvas.width = image.naturalWidth;
-      canvas.height = image.naturalHeight;
-      const c = canvas.getContext('2d')!;
-      c.drawImage(image, 0, 0);
-      return [...c.getImageData(Math.round(px), Math.round(py), 1, 1).data.slice(0, 3)];
-    },
-    [x, y],
-  );
-}
-
 beforeAll(async () => {
-  dataDir = mkdtempSync(join(tmpdir(), 'kspace-planner-lesions-data-'));
-  app = await buildApp({ dataDir, workers: 1 });
-  baseUrl = await listen(app);
-  ({ page, close: closeBrowser } = await launchBrowser([baseUrl], offOrigin, pageErrors));
+  session = await openPlannerSession({ prefix: 'kspace-planner-lesions-data-', workers: 1 });
+  page = session.page;
 });
 
-afterAll(async () => {
-  await closeBrowser?.();
-  await app?.close();
-  if (dataDir) rmSync(dataDir, { recursive: true, force: true });
-});
+afterAll(() => session?.close());
 
 describe('lesions on the planner page', () => {
   it('circles the true lesion positions on the reconstruction with lesions and on the error map, lists the scores', async () => {
-    await page.goto(`${baseUrl}/`);
-    await page.waitForSelector('body[data-ready="true"]');
-    await page.fill('#nx', '64');
-    await page.fill('#ny', '64');
-    await page.selectOption('#pattern', 'cartesian-random');
-    await page.fill('#acceleration', '2');
-    await page.fill('#acs', '8');
+    await session.open('/');
+    await session.fillSampling({ nx: 64, ny: 64, pattern: 'cartesian-random', acceleration: 2, acs: 8 });
     await page.selectOption('#method', 'zero-filled');
     await page.check('#noiseOn');
     await page.fill('#snr', '30');
@@ -75,11 +38,7 @@ describe('lesions on the planner page', () => {
     await page.fill('#lesionDiameter', '3');
     await page.fill('#lesionContrast', '0.3');
     await page.selectOption('#lesionContrastDetail', 'yes');
-    const answer = page.waitForResponse(
-      (r) => r.request().method() === 'POST' && new URL(r.url()).pathname === '/v1/reconstructions',
-    );
-    await page.click('#reconButton');
-    const response = await answer;
+    const response = await session.clickForApi('#reconButton', '/v1/reconstructions');
     expect(response.status()).toBe(201);
     const outcome = (await response.json()) as {
       fidelity: {
@@ -100,8 +59,8 @@ describe('lesions on the planner page', () => {
       expect(circles[i].y).toBe((lesion.row + 0.5) * 8);
     });
     for (const selector of ['#imgLesions', '#imgErrorMap']) {
-      const size = await page.$eval(selector, (img) => (img as HTMLImageElement).naturalWidth);
-      expect(size, selector).toBe(512);
+      const image = await decodedImage(page, selector);
+      expect(image.width, selector).toBe(512);
       // On each circle, left, right, above and below its centre: the red of the marks.
       for (const { x, y, radius } of circles) {
         for (const [dx, dy] of [
@@ -110,7 +69,8 @@ describe('lesions on the planner page', () => {
           [0, radius],
           [0, -radius],
         ]) {
-          const [r, g, b] = await pixelOf(selector, x + dx, y + dy);
+          const at = 4 * (Math.round(y + dy) * image.width + Math.round(x + dx));
+          const [r, g, b] = image.rgba.slice(at, at + 3);
           expect([r > 200, g < 80, b < 80], `${selector} at (${x + dx}, ${y + dy})`).toEqual([
             true,
             true,
@@ -144,21 +104,17 @@ describe('lesions on the planner page', () => {
   });
 
   it('a plan with lesions: task-score columns, targets sent, contrast recovery on the plot axis', async () => {
-    await page.fill('#planAccelerations', '2, 4');
-    await page.fill('#planSeeds', '1');
-    for (const box of await page.$$('input[name="planPattern"]')) await box.setChecked(false);
-    await page.check('input[name="planPattern"][value="cartesian-uniform"]');
-    for (const box of await page.$$('input[name="planMethod"]')) await box.setChecked(false);
-    await page.check('input[name="planMethod"][value="zero-filled"]');
+    await session.fillPlan({
+      accelerations: '2, 4',
+      seeds: 1,
+      patterns: ['cartesian-uniform'],
+      methods: ['zero-filled'],
+    });
     await page.selectOption('#lesionContrastDetail', 'no');
     await page.fill('#targetValue', '0');
     await page.fill('#targetContrastRecovery', '0.3');
     await page.fill('#targetFalseLesions', '');
-    const accepted = page.waitForResponse(
-      (r) => r.request().method() === 'POST' && new URL(r.url()).pathname === '/v1/plans',
-    );
-    await page.click('#planButton');
-    const sent = (await accepted).request().postDataJSON();
+    const sent = (await session.clickForApi('#planButton', '/v1/plans')).request().postDataJSON();
     expect(sent.lesions).toMatchObject({ count: 4, diameter: 3, contrast: 0.3 });
     expect(sent.targets).toEqual([{ metric: 'contrastRecovery', atLeast: 0.3 }]);
     await page.waitForFunction(
@@ -198,6 +154,6 @@ describe('lesions on the planner page', () => {
   });
 
   it('raised no page errors', () => {
-    expect(pageErrors).toEqual([]);
+    expect(session.pageErrors).toEqual([]);
   });
 });

@@ -1,13 +1,9 @@
-import { mkdtempSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import type { FastifyInstance } from 'fastify';
-import type { BrowserContext, Page, Response } from 'playwright-core';
+import type { BrowserContext, Page } from 'playwright-core';
 import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { buildApp } from '../../src/app.ts';
 import { debianFile } from '../io/debian-files.ts';
-import { artifacts, launchBrowser, listen } from './browser-session.ts';
+import { artifacts, decodedImage, openPlannerSession, type PlannerSession } from './browser-session.ts';
 
 /**
  * The planner page in a real browser: Debian's chromium driven by playwright-core against the real
@@ -15,18 +11,13 @@ import { artifacts, launchBrowser, listen } from './browser-session.ts';
  * (the page keeps each exact value in data-value and shows a rounding of it).
  */
 
-let app: FastifyInstance;
+let session: PlannerSession;
 let baseUrl: string;
+let keyedUrl: string;
 let context: BrowserContext;
 let page: Page;
-let closeBrowser: () => Promise<void>;
-let dataDir: string;
-let keyedApp: FastifyInstance;
-let keyedUrl: string;
-let keyedDataDir: string;
+let pageErrors: string[];
 const apiKey = 'browser-test-key-7f3a';
-const offOrigin: string[] = [];
-const pageErrors: string[] = [];
 const requested: string[] = [];
 
 async function api(path: string, init: RequestInit = {}): Promise<globalThis.Response> {
@@ -81,16 +72,11 @@ async function inkedPixels(selector: string): Promise<number> {
 }
 
 /** Ticks exactly the named boxes of one checkbox group of the plan form (patterns or methods). */
-async function tickOnly(group: 'planPattern' | 'planMethod', values: string[]): Promise<void> {
-  for (const box of await page.$$(`input[name="${group}"]`)) await box.setChecked(false);
-  for (const value of values) await page.check(`input[name="${group}"][value="${value}"]`);
-}
 
 /** Presses "Run plan" and returns the id of the plan the service accepted. */
 async function submitPlan(): Promise<string> {
-  const accepted = waitForApi('/v1/plans');
-  await page.click('#planButton');
-  const { id } = (await (await accepted).json()) as { id: string };
+  const accepted = await session.clickForApi('#planButton', '/v1/plans');
+  const { id } = (await accepted.json()) as { id: string };
   return id;
 }
 
@@ -108,10 +94,7 @@ async function planEnded(timeout?: number): Promise<void> {
  * target of 0.5, waits until it is done and returns its id.
  */
 async function runPlanToDone(patterns: string[]): Promise<string> {
-  await page.fill('#planAccelerations', '2, 4');
-  await page.fill('#planSeeds', '1');
-  await tickOnly('planPattern', patterns);
-  await tickOnly('planMethod', ['zero-filled', 'cs-tv']);
+  await session.fillPlan({ accelerations: '2, 4', seeds: 1, patterns, methods: ['zero-filled', 'cs-tv'] });
   await page.selectOption('#targetMetric', 'ssim');
   await page.fill('#targetValue', '0.5');
   const id = await submitPlan();
@@ -120,48 +103,18 @@ async function runPlanToDone(patterns: string[]): Promise<string> {
   return id;
 }
 
-/** A 32×32 matrix and the pattern, R and ACS of the sampling controls. */
-async function fillSampling(pattern: string, acceleration: number, acs: number): Promise<void> {
-  await page.fill('#nx', '32');
-  await page.fill('#ny', '32');
-  await page.selectOption('#pattern', pattern);
-  await page.fill('#acceleration', String(acceleration));
-  await page.fill('#acs', String(acs));
-}
-
-function waitForApi(path: string, method = 'POST', accept?: string): Promise<Response> {
-  return page.waitForResponse((r) => {
-    const request = r.request();
-    if (request.method() !== method || new URL(r.url()).pathname !== path) return false;
-    return accept === undefined || (request.headers().accept ?? '').includes(accept);
-  });
-}
-
 beforeAll(async () => {
-  dataDir = mkdtempSync(join(tmpdir(), 'kspace-planner-browser-data-'));
-  app = await buildApp({ dataDir });
-  baseUrl = await listen(app);
-  keyedDataDir = mkdtempSync(join(tmpdir(), 'kspace-planner-browser-keyed-'));
-  keyedApp = await buildApp({ dataDir: keyedDataDir, apiKeys: [apiKey], workers: 1 });
-  keyedUrl = await listen(keyedApp);
-
-  // Nothing leaves the service's origin: no CDN, no fonts, no telemetry.
-  ({ context, page, close: closeBrowser } = await launchBrowser([baseUrl, keyedUrl], offOrigin, pageErrors));
+  session = await openPlannerSession({ prefix: 'kspace-planner-browser-', apiKey });
+  ({ baseUrl, context, page, pageErrors } = session);
+  keyedUrl = session.keyedUrl!;
   page.on('request', (request) => requested.push(request.url()));
 });
 
-afterAll(async () => {
-  await closeBrowser?.();
-  await app?.close();
-  await keyedApp?.close();
-  if (keyedDataDir) rmSync(keyedDataDir, { recursive: true, force: true });
-  if (dataDir) rmSync(dataDir, { recursive: true, force: true });
-});
+afterAll(() => session?.close());
 
 describe('planner page in Chromium', () => {
   it('loads with the cautions in view at 1280×800 and every control labelled', async () => {
-    await page.goto(`${baseUrl}/`);
-    await page.waitForSelector('body[data-ready="true"]');
+    await session.open('/');
     await page.screenshot({ path: join(artifacts, 'planner-first-load-1280x800.png') });
 
     // docs/references.md §11: the four cautions, readable without scrolling.
@@ -212,7 +165,7 @@ describe('planner page in Chromium', () => {
       .png()
       .toBuffer();
     await page.check('input[name="sourceKind"][value="upload"]');
-    const uploaded = waitForApi('/v1/images');
+    const uploaded = session.waitForApi('/v1/images');
     await page.setInputFiles('#uploadFile', { name: 'ramp.png', mimeType: 'image/png', buffer: png });
     const response = await uploaded;
     expect(response.status()).toBe(201);
@@ -274,7 +227,7 @@ describe('planner page in Chromium', () => {
   it('adapts the ACS to an uploaded 64×64 DICOM and runs it with the service’s default iterations', async () => {
     // MR_small.dcm: 64×64 MR slice from Debian's python3-pydicom test files (see tests/io/debian-files.ts).
     await page.check('input[name="sourceKind"][value="upload"]');
-    const uploaded = waitForApi('/v1/images');
+    const uploaded = session.waitForApi('/v1/images');
     await page.setInputFiles('#uploadFile', {
       name: 'MR_small.dcm',
       mimeType: 'application/dicom',
@@ -302,9 +255,7 @@ describe('planner page in Chromium', () => {
     expect(await page.locator('#acsHint').textContent()).toContain('ACS set to 8 for 64 rows at R 4');
 
     await page.selectOption('#method', 'cs-tv');
-    const reconResponse = waitForApi('/v1/reconstructions');
-    await page.click('#reconButton');
-    const response = await reconResponse;
+    const response = await session.clickForApi('#reconButton', '/v1/reconstructions');
     expect(response.status()).toBe(201);
     const sent = response.request().postDataJSON();
     expect(sent.sampling.acs).toBe(8);
@@ -328,20 +279,18 @@ describe('planner page in Chromium', () => {
     );
     // A count typed in is sent.
     await page.fill('#iterations', '15');
-    const again = waitForApi('/v1/reconstructions');
-    await page.click('#reconButton');
-    expect((await again).request().postDataJSON().method).toEqual({ name: 'cs-tv', iterations: 15 });
+    expect(
+      (await session.clickForApi('#reconButton', '/v1/reconstructions')).request().postDataJSON().method,
+    ).toEqual({ name: 'cs-tv', iterations: 15 });
     await page.waitForFunction(() => !(document.querySelector('#reconButton') as HTMLButtonElement).disabled);
     expect((await shown('[data-key="recon.iterations"]')).text).toMatch(/ of 15$/);
     await page.check('input[name="sourceKind"][value="phantom"]');
   });
 
   it('makes a mask and shows the service’s numbers', async () => {
-    await fillSampling('cartesian-random', 2, 6);
+    await session.fillSampling({ nx: 32, ny: 32, pattern: 'cartesian-random', acceleration: 2, acs: 6 });
     await page.fill('#iterations', '20');
-    const maskJson = waitForApi('/v1/masks', 'POST', 'application/json');
-    await page.click('#maskButton');
-    const response = await maskJson;
+    const response = await session.clickForApi('#maskButton', '/v1/masks', 'POST', 'application/json');
     const mask = (await response.json()) as {
       acceleration: { requested: number; actual: number };
       fraction: number;
@@ -375,9 +324,7 @@ describe('planner page in Chromium', () => {
   it('marks the control a service problem names', async () => {
     const errorsBefore = pageErrors.length;
     await page.fill('#acceleration', '0.5');
-    const refused = waitForApi('/v1/masks', 'POST', 'application/json');
-    await page.click('#maskButton');
-    const response = await refused;
+    const response = await session.clickForApi('#maskButton', '/v1/masks', 'POST', 'application/json');
     // R < 1 is a value out of range: 422 problem+json (RFC 9457; docs/design.md §4.1 error classes).
     expect(response.status()).toBe(422);
     const problem = (await response.json()) as { errors: Array<{ field: string }> };
@@ -393,9 +340,7 @@ describe('planner page in Chromium', () => {
 
   it('runs a reconstruction and shows its images, metrics and scan time', async () => {
     await page.selectOption('#method', 'cs-tv');
-    const reconResponse = waitForApi('/v1/reconstructions');
-    await page.click('#reconButton');
-    const response = await reconResponse;
+    const response = await session.clickForApi('#reconButton', '/v1/reconstructions');
     expect(response.status()).toBe(201);
     const outcome = (await response.json()) as {
       metrics: Record<string, number>;
@@ -462,9 +407,10 @@ describe('planner page in Chromium', () => {
 
   it('enlarges images, zooms the four together and keeps the error map on a fixed colour scale', async () => {
     await page.selectOption('#errorScaleMax', '0.05');
-    const reconResponse = waitForApi('/v1/reconstructions');
-    await page.click('#reconButton');
-    const outcome = (await (await reconResponse).json()) as { images: Record<string, string> };
+    const answered = await session.clickForApi('#reconButton', '/v1/reconstructions');
+    const outcome = (await answered.json()) as {
+      images: Record<string, string>;
+    };
     await page.waitForFunction(() => !(document.querySelector('#reconButton') as HTMLButtonElement).disabled);
 
     // Room for the images at 1280×800: each result tile is at least 190 px wide (it was 138 px).
@@ -495,15 +441,7 @@ describe('planner page in Chromium', () => {
     expect(await inkedPixels('#errorColourBar')).toBeGreaterThan(1000);
     // Pixels without error take viridis(0) = (68, 1, 84), pixels at or above the scale's end take
     // viridis(1) = (253, 231, 37): the end colours of matplotlib's viridis (Debian python3-matplotlib).
-    const shownMap = await page.$eval('#imgErrorMap', (img) => {
-      const el = img as HTMLImageElement;
-      const canvas = document.createElement('canvas');
-      canvas.width = el.naturalWidth;
-      canvas.height = el.naturalHeight;
-      const ctx = canvas.getContext('2d')!;
-      ctx.drawImage(el, 0, 0);
-      return Array.from(ctx.getImageData(0, 0, canvas.width, canvas.height).data);
-    });
+    const shownMap = (await decodedImage(page, '#imgErrorMap')).rgba;
     expect(shownMap.length).toBe(4 * diff.length);
     let zeros = 0;
     let saturated = 0;
@@ -567,9 +505,7 @@ describe('planner page in Chromium', () => {
     const errorsBefore = pageErrors.length;
     expect(await page.isVisible('#imgReconstruction')).toBe(true);
     await page.fill('#acceleration', '0.5');
-    const refused = waitForApi('/v1/reconstructions');
-    await page.click('#reconButton');
-    expect((await refused).status()).toBe(422);
+    expect((await session.clickForApi('#reconButton', '/v1/reconstructions')).status()).toBe(422);
     await page.waitForFunction(() => !(document.querySelector('#reconButton') as HTMLButtonElement).disabled);
     expect(await page.locator('#singleProblems').textContent()).toContain('sampling.acceleration');
     const visibleImages = await page.$$eval('#single img', (imgs) =>
@@ -889,14 +825,14 @@ describe('planner page in Chromium', () => {
     await page.fill('#nx', '64');
     await page.fill('#ny', '64');
     await page.fill('#iterations', '400');
-    await page.fill('#planAccelerations', '2, 3, 4, 5, 6, 8');
-    await page.fill('#planSeeds', '10');
-    await tickOnly('planPattern', ['cartesian-random']);
-    await tickOnly('planMethod', ['cs-tv']);
+    await session.fillPlan({
+      accelerations: '2, 3, 4, 5, 6, 8',
+      seeds: 10,
+      patterns: ['cartesian-random'],
+      methods: ['cs-tv'],
+    });
     const id = await submitPlan();
-    const cancelled = waitForApi(`/v1/plans/${id}`, 'DELETE');
-    await page.click('#cancelButton');
-    expect((await cancelled).status()).toBe(200);
+    expect((await session.clickForApi('#cancelButton', `/v1/plans/${id}`, 'DELETE')).status()).toBe(200);
     await planEnded();
     const plan = (await (await api(`/v1/plans/${id}`)).json()) as {
       status: string;
@@ -913,8 +849,7 @@ describe('planner page in Chromium', () => {
     const keyedRequests: string[] = [];
     keyed.on('pageerror', (error) => keyedErrors.push(String(error)));
     keyed.on('request', (request) => keyedRequests.push(request.url()));
-    await keyed.goto(`${keyedUrl}/`);
-    await keyed.waitForSelector('body[data-ready="true"]');
+    await session.open(`${keyedUrl}/`, keyed);
     // Without the key the service refuses, and the page says where to enter one.
     expect(await keyed.locator('#singleStatus').textContent()).toContain('Service access');
 
@@ -930,22 +865,22 @@ describe('planner page in Chromium', () => {
     expect(options).toEqual(phantoms.map((p) => p.name));
 
     // Images come through fetch with the key (an <img src> could not send it).
-    await keyed.fill('#nx', '32');
-    await keyed.fill('#ny', '32');
-    await keyed.fill('#acceleration', '2');
-    await keyed.fill('#acs', '4');
+    await session.fillSampling({ nx: 32, ny: 32, acceleration: 2, acs: 4 }, keyed);
     await keyed.click('#maskButton');
     await keyed.waitForFunction(() => !(document.querySelector('#maskButton') as HTMLButtonElement).disabled);
     expect(await keyed.locator('#singleStatus').textContent()).toContain('Mask ready');
     expect(await keyed.$eval('#imgPsf', (img) => (img as HTMLImageElement).naturalWidth)).toBe(32);
 
     // EventSource cannot send a key: the page follows the plan by polling its status instead.
-    for (const box of await keyed.$$('input[name="planPattern"]')) await box.setChecked(false);
-    await keyed.check('input[name="planPattern"][value="cartesian-random"]');
-    for (const box of await keyed.$$('input[name="planMethod"]')) await box.setChecked(false);
-    await keyed.check('input[name="planMethod"][value="zero-filled"]');
-    await keyed.fill('#planAccelerations', '2');
-    await keyed.fill('#planSeeds', '1');
+    await session.fillPlan(
+      {
+        accelerations: '2',
+        seeds: 1,
+        patterns: ['cartesian-random'],
+        methods: ['zero-filled'],
+      },
+      keyed,
+    );
     await keyed.click('#planButton');
     await keyed.waitForFunction(
       () => !(document.querySelector('#planButton') as HTMLButtonElement).disabled,
@@ -965,7 +900,7 @@ describe('planner page in Chromium', () => {
 
   it('shows passes, slices per TR and effective TE, and notes the saving from partial Fourier', async () => {
     await page.selectOption('#preset', '0'); // 2D draft A: TR 2800 ms, ETL 8, 28 slices
-    await fillSampling('cartesian-uniform', 2, 4);
+    await session.fillSampling({ nx: 32, ny: 32, pattern: 'cartesian-uniform', acceleration: 2, acs: 4 });
     await page.fill('#partialFourier', '0.625');
     await page.fill('#echoSpacingMs', '10');
     const scanTime = page.waitForResponse(
@@ -997,7 +932,7 @@ describe('planner page in Chromium', () => {
   });
 
   it('made no request off the service origin and raised no page errors', () => {
-    expect(offOrigin).toEqual([]);
+    expect(session.offOrigin).toEqual([]);
     expect(pageErrors).toEqual([]);
   });
 });

@@ -1,12 +1,10 @@
-import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import type { FastifyInstance } from 'fastify';
 import type { BrowserContext, Page } from 'playwright-core';
 import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { buildApp } from '../../src/app.ts';
-import { artifacts, launchBrowser, listen } from './browser-session.ts';
+import { smallPlanBody } from '../plan/small-plan.ts';
+import { artifacts, openPlannerSession, type PlannerSession } from './browser-session.ts';
 
 /**
  * Stored plans, addresses and downloads on the planner page, in Debian's chromium against the real
@@ -16,30 +14,21 @@ import { artifacts, launchBrowser, listen } from './browser-session.ts';
  * shows is compared with the service's own answer (data-value holds the exact number).
  */
 
-let app: FastifyInstance;
-let keyedApp: FastifyInstance;
+let session: PlannerSession;
 let baseUrl: string;
 let keyedUrl: string;
-let dataDir: string;
-let keyedDataDir: string;
 let context: BrowserContext;
-let closeBrowser: () => Promise<void>;
 let page: Page;
 const apiKey = 'plans-page-key-41c2';
-const offOrigin: string[] = [];
-const pageErrors: string[] = [];
 
 /** 32×32 phantom, random lines at R 2 and 4, zero-filled and CS-TV (10 iterations), one seed. */
-const smallPlan = {
-  source: { phantom: 'shepp-logan-modified' },
-  matrix: { nx: 32, ny: 32 },
-  protocol: { trMs: 500 },
+const smallPlan = smallPlanBody({
   patterns: [{ pattern: 'cartesian-random', acs: 4 }],
   accelerations: [2, 4],
   methods: [{ name: 'zero-filled' }, { name: 'cs-tv', iterations: 10 }],
   seeds: 1,
   target: { metric: 'ssim', atLeast: 0.5 },
-};
+});
 
 /** Two cells: the reference and one uniform R 2 zero-filled row. */
 const tinyPlan = {
@@ -110,9 +99,13 @@ async function fetchLink(selector: string, on: Page = page): Promise<{ type: str
 /** The PNG signature (ISO/IEC 15948 §5.2). */
 const pngSignature = Buffer.from([137, 80, 78, 71, 13, 10, 26, 10]);
 
-async function openPage(path: string, on: Page = page, origin = baseUrl): Promise<void> {
-  await on.goto(`${origin}${path}`);
-  await on.waitForSelector('body[data-ready="true"]');
+/** Each of the download links (element ids) gives a PNG: its content type and its signature. */
+async function expectPngDownloads(linkIds: string[], on: Page = page): Promise<void> {
+  for (const link of linkIds) {
+    const got = await fetchLink(`#${link}`, on);
+    expect(got.type, link).toBe('image/png');
+    expect(got.bytes.subarray(0, 8).equals(pngSignature), link).toBe(true);
+  }
 }
 
 async function planShownDone(on: Page = page): Promise<void> {
@@ -126,29 +119,19 @@ async function planShownDone(on: Page = page): Promise<void> {
 }
 
 beforeAll(async () => {
-  dataDir = mkdtempSync(join(tmpdir(), 'kspace-plans-page-'));
-  app = await buildApp({ dataDir, workers: 2 });
-  baseUrl = await listen(app);
-  keyedDataDir = mkdtempSync(join(tmpdir(), 'kspace-plans-page-keyed-'));
-  keyedApp = await buildApp({ dataDir: keyedDataDir, apiKeys: [apiKey], workers: 1 });
-  keyedUrl = await listen(keyedApp);
-  ({ context, page, close: closeBrowser } = await launchBrowser([baseUrl, keyedUrl], offOrigin, pageErrors));
+  session = await openPlannerSession({ prefix: 'kspace-plans-page-', workers: 2, apiKey });
+  ({ baseUrl, context, page } = session);
+  keyedUrl = session.keyedUrl!;
 }, 60_000);
 
-afterAll(async () => {
-  await closeBrowser?.();
-  await app?.close();
-  await keyedApp?.close();
-  if (dataDir) rmSync(dataDir, { recursive: true, force: true });
-  if (keyedDataDir) rmSync(keyedDataDir, { recursive: true, force: true });
-});
+afterAll(() => session?.close());
 
 describe('stored plans, addresses and downloads in Chromium', () => {
   let plan: PlanStatus;
 
   it('reopens a plan from /?plan=ID, lists it, and serves its CSV as text/csv', async () => {
     plan = await planDone(smallPlan);
-    await openPage(`/?plan=${plan.id}`);
+    await session.open(`/?plan=${plan.id}`);
     await planShownDone();
     const rows = plan.table!.rows;
     expect(await page.locator('#planTable tbody tr[data-row]').count()).toBe(rows.length);
@@ -194,16 +177,12 @@ describe('stored plans, addresses and downloads in Chromium', () => {
         stored.metrics[name],
       );
     }
-    for (const link of [
+    await expectPngDownloads([
       'rowDownloadReconstruction',
       'rowDownloadErrorMap',
       'rowDownloadZeroFilled',
       'rowDownloadMask',
-    ]) {
-      const got = await fetchLink(`#${link}`);
-      expect(got.type, link).toBe('image/png');
-      expect(got.bytes.subarray(0, 8).equals(pngSignature), link).toBe(true);
-    }
+    ]);
     await page.locator('#rowImages').scrollIntoViewIfNeeded();
     await page.screenshot({ path: join(artifacts, 'plans-row-images-1280x800.png') });
   });
@@ -248,7 +227,7 @@ describe('stored plans, addresses and downloads in Chromium', () => {
       'source=phantom&phantom=shepp-logan&phantomKspace=raster&nx=48&ny=40&pattern=poisson-disc&acceleration=3' +
       '&acs=10&densityPower=1.5&seed=11&method=lowrank-hankel&kernel=5&weighting=none&iterations=12&noise=on' +
       '&snr=25&preset=custom&dimensions=3d&trMs=9&averages=2&echoTrainLength=1&partialFourier=0.875';
-    await openPage(`/?${query}`);
+    await session.open(`/?${query}`);
     const values = await page.evaluate(() =>
       Object.fromEntries(
         Array.from(document.querySelectorAll('#setup input, #setup select')).map((el) => {
@@ -304,7 +283,7 @@ describe('stored plans, addresses and downloads in Chromium', () => {
     await page.waitForFunction(() => new URL(location.href).searchParams.get('nx') === '56');
     const address = page.url();
     const acsAfterEdit = await page.inputValue('#acs');
-    await openPage(new URL(address).pathname + new URL(address).search);
+    await session.open(new URL(address).pathname + new URL(address).search);
     expect(await page.inputValue('#nx')).toBe('56');
     expect(await page.inputValue('#acs')).toBe(acsAfterEdit);
     expect(await page.isChecked('#noiseOn')).toBe(true);
@@ -315,7 +294,7 @@ describe('stored plans, addresses and downloads in Chromium', () => {
     const query =
       'source=phantom&phantom=shepp-logan-modified&nx=32&ny=32&pattern=cartesian-random&acceleration=3&acs=4' +
       '&densityPower=2&seed=5&method=cs-tv&iterations=15&noise=off&preset=0';
-    await openPage(`/?${query}`);
+    await session.open(`/?${query}`);
     const answered = page.waitForResponse((r) => new URL(r.url()).pathname === '/v1/reconstructions');
     await page.click('#reconButton');
     const outcome = (await (await answered).json()) as {
@@ -349,16 +328,12 @@ describe('stored plans, addresses and downloads in Chromium', () => {
     }
     // CS-TV on 3× random lines beats zero-filling on NRMSE here (measured: see the report's numbers).
     expect(outcome.metrics.nrmse).toBeLessThan(outcome.zeroFilledMetrics.nrmse);
-    for (const link of [
+    await expectPngDownloads([
       'downloadReconstruction',
       'downloadZeroFilled',
       'downloadReference',
       'downloadErrorMap',
-    ]) {
-      const got = await fetchLink(`#${link}`);
-      expect(got.type, link).toBe('image/png');
-      expect(got.bytes.subarray(0, 8).equals(pngSignature), link).toBe(true);
-    }
+    ]);
     // The mask link holds what POST /v1/masks answers with Accept: image/png, byte for byte.
     const maskLink = await fetchLink('#downloadMask');
     expect(maskLink.type).toBe('image/png');
@@ -400,7 +375,7 @@ describe('stored plans, addresses and downloads in Chromium', () => {
   });
 
   it('fits 420 px: list, row images and downloads without sideways scrolling', async () => {
-    await openPage(`/?plan=${plan.id}`);
+    await session.open(`/?plan=${plan.id}`);
     await planShownDone();
     await page.setViewportSize({ width: 420, height: 900 });
     const row = plan.table!.rows.find((r) => r.key !== 'reference' && r.resultId)!;
@@ -422,7 +397,7 @@ describe('stored plans, addresses and downloads in Chromium', () => {
     const keyed = await context.newPage();
     const errors: string[] = [];
     keyed.on('pageerror', (error) => errors.push(String(error)));
-    await openPage(`/?plan=${keyedPlan.id}`, keyed, keyedUrl);
+    await session.open(`${keyedUrl}/?plan=${keyedPlan.id}`, keyed);
     // Refused without the key: nothing shown, and the page says where to enter one.
     expect(await keyed.locator('#planListStatusLine').textContent()).toContain('Service access');
     await keyed.click('.access summary');
@@ -438,15 +413,13 @@ describe('stored plans, addresses and downloads in Chromium', () => {
     await keyed.waitForFunction(
       () => !(document.querySelector('#rowImgErrorMap') as HTMLImageElement).hidden,
     );
-    const png = await fetchLink('#rowDownloadErrorMap', keyed);
-    expect(png.type).toBe('image/png');
-    expect(png.bytes.subarray(0, 8).equals(pngSignature)).toBe(true);
+    await expectPngDownloads(['rowDownloadErrorMap'], keyed);
     expect(errors).toEqual([]);
     await keyed.close();
   });
 
   it('made no request off the service origin and raised no page errors', () => {
-    expect(offOrigin).toEqual([]);
-    expect(pageErrors).toEqual([]);
+    expect(session.offOrigin).toEqual([]);
+    expect(session.pageErrors).toEqual([]);
   });
 });

@@ -120,6 +120,30 @@ export function spanLinesAgreeingWithContains(
   return lines;
 }
 
+/**
+ * Frequencies (cycles per unit length) the primitive shapes are checked at: the origin, points on
+ * each axis, both quadrant signs, and far out where a shape's transform has decayed.
+ */
+export const SHAPE_FREQUENCIES: ReadonlyArray<readonly [number, number]> = [
+  [0, 0],
+  [1, 0],
+  [1.5, 0],
+  [0.7, -2.3],
+  [-3.1, 1.2],
+  [4, 4],
+  [5, 5],
+  [0, -6.5],
+  [0, -9.5],
+];
+
+/** A unit-intensity transform scaled by the intensity ρ (the transform is linear in ρ). */
+export function scaledTransform(intensity: number, unit: TransformAt): TransformAt {
+  return (kx, ky) => {
+    const [re, im] = unit(kx, ky);
+    return [intensity * re, intensity * im];
+  };
+}
+
 /** Two descriptions of the same object have the same transform at every frequency. */
 export function expectSameTransform(
   a: TransformAt,
@@ -132,12 +156,20 @@ export function expectSameTransform(
   }
 }
 
-/** One kind of shape and the values its theorem checks use. */
+/** One kind of shape and the values its transform checks (at SHAPE_FREQUENCIES) use. */
 export interface ShapeTheoremCase<P extends Placement> {
   make: (params: P) => Shape;
+  /** The reference: a quadrature of the defining integral (tests/phantoms/quadrature.ts). */
+  quadrature: {
+    /** The quadrature rule, as the test's title names it. */
+    rule: string;
+    instances: P[];
+    /** The unit-intensity integral for `params` turned by `theta` radians. */
+    transform: (params: P, theta: number, kx: number, ky: number) => Complex;
+    tolerance: number;
+  };
   /** A rotated, off-centre instance. */
   tilted: P;
-  frequencies: ReadonlyArray<readonly [number, number]>;
   shift: readonly [number, number];
   shiftTolerance: number;
   rotationDeg: number;
@@ -146,11 +178,20 @@ export interface ShapeTheoremCase<P extends Placement> {
 }
 
 /**
- * The shift and rotation theorems and Hermitian symmetry for one kind of shape, as `it` blocks of
- * the caller's describe: the same three checks every primitive must pass.
+ * The quadrature reference, the shift and rotation theorems and Hermitian symmetry for one kind of
+ * shape, as `it` blocks of the caller's describe: the same four checks every primitive must pass.
  */
 export function itObeysTransformTheorems<P extends Placement>(c: ShapeTheoremCase<P>): void {
-  const { make, tilted, frequencies } = c;
+  const { make, tilted, quadrature } = c;
+  const frequencies = SHAPE_FREQUENCIES;
+  it(`agrees with ${quadrature.rule} (tests/phantoms/quadrature.ts, ${quadrature.tolerance})`, () => {
+    for (const p of quadrature.instances) {
+      const theta = ((p.thetaDeg ?? 0) * Math.PI) / 180;
+      const reference = scaledTransform(p.intensity, (kx, ky) => quadrature.transform(p, theta, kx, ky));
+      expectSameTransform(shapeTransform(make(p)), reference, frequencies, quadrature.tolerance);
+    }
+  });
+
   it(`obeys the shift theorem: moving the shape by d multiplies its transform by e^(−i2πk·d) (Bracewell, common practice; ${c.shiftTolerance})`, () => {
     const d = c.shift;
     const moved = make({ ...tilted, x0: tilted.x0 + d[0], y0: tilted.y0 + d[1] });
