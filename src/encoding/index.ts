@@ -9,3 +9,4 @@ export {
   type MultiCoilKspace,
 } from './multi-coil.ts';
 export { NonCartesianEncoding } from './non-cartesian-encoding.ts';
+export { addConjugateSensitivityProduct, sensitivityProduct } from './sensitivity-products.ts';
