@@ -10,6 +10,7 @@ import {
   acquire,
   acquireCoils,
   acquireTrajectory,
+  acquireTrajectoryCoils,
   type CoilSimulation,
   checkedSnr,
   type FullAcquisition,
@@ -26,14 +27,20 @@ import { defaultLimits, type Limits } from '../core/limits.ts';
 import { matrixSchemaFor } from '../core/matrix.ts';
 import type { RealImage } from '../core/real-image.ts';
 import { parseOrThrow } from '../core/zod-problems.ts';
-import type { CoilMaps, MultiCoilKspace } from '../encoding/index.ts';
+import {
+  type CoilMaps,
+  type CoilSamples,
+  type MultiCoilKspace,
+  transformPlaneInPlace,
+} from '../encoding/index.ts';
 import { type LesionsRequest, lesionsSchema } from '../fidelity/index.ts';
 import { type MetricSet, SSIM_RADIUS, scoreAll } from '../metrics/index.ts';
 import { densityWeightsFor, nufftPlanFor } from '../nufft/index.ts';
 import { getPhantom } from '../phantoms/index.ts';
-import { griddingImage } from '../recon/gridding-recon.ts';
+import { griddedCoilImages, griddingImage } from '../recon/gridding-recon.ts';
 import {
   type CoilData,
+  combineCoilImages,
   type MethodSpec,
   methodSchemaFor,
   partialFourierStep,
@@ -356,6 +363,55 @@ function trajectoryInput(
   return { input: { kspace: fft2c(gridded), mask: sampled.mask, trajectory: data }, sigma, gridded };
 }
 
+/**
+ * A receive-array acquisition on a non-Cartesian trajectory (docs/design.md §3.8): every coil's
+ * samples at the exact trajectory points (acquireTrajectoryCoils), prewhitened with the maps; each
+ * coil gridded, the coil images combined as on the grid (sensitivity-weighted with the maps).
+ * `coils.kspace` holds the gridded coil k-space (for scales and map calibration), `kspace` the
+ * combined image's.
+ */
+function trajectoryCoilInput(
+  simulation: CoilSimulation,
+  sampled: SampledMask,
+  noise: NoiseSpec | undefined,
+  noiseSeed: number,
+  notes: string[],
+): { input: ReconInput; sigma: number; coilSigma: number; gridded: ComplexImage; full: CoilSamples } {
+  const trajectory = sampled.trajectory as Trajectory;
+  const { nx, ny } = sampled;
+  const plan = nufftPlanFor(trajectory, nx, ny);
+  const acquired = acquireTrajectoryCoils(simulation, trajectory, plan, noise, noiseSeed);
+  if (acquired.inverseCrime) {
+    notes.push(
+      'non-Cartesian coil samples are the NUFFT of S_c times the same pixels the reconstruction inverts (inverse crime)',
+    );
+  }
+  if (acquired.sigma > 0) {
+    notes.push(
+      `complex Gaussian noise: σ = ${acquired.sigma.toPrecision(4)} per real channel in the optimally combined ` +
+        `fully sampled image, σ = ${acquired.coilSigma.toPrecision(4)} per coil and sample before prewhitening`,
+    );
+  }
+  const { weights, weighting } = densityWeightsFor(trajectory, nx, ny);
+  const data: TrajectoryData = { trajectory, plan, samples: acquired.samples, weights, weighting };
+  const images = griddedCoilImages(data);
+  const gridded = combineCoilImages(images, acquired.maps).image;
+  const kspace = { ...images, data: images.data.slice() };
+  for (let c = 0; c < kspace.coils; c++) transformPlaneInPlace(kspace.data, c * nx * ny, nx, ny, -1);
+  return {
+    input: {
+      kspace: fft2c(gridded),
+      mask: sampled.mask,
+      coils: { kspace, maps: acquired.maps },
+      trajectory: data,
+    },
+    sigma: acquired.sigma,
+    coilSigma: acquired.coilSigma,
+    gridded,
+    full: acquired.full,
+  };
+}
+
 function magnitudeImage(image: ComplexImage): RealImage {
   return { nx: image.nx, ny: image.ny, data: magnitude(image) };
 }
@@ -436,6 +492,8 @@ export async function runReconstruction(
   let objectMask: Uint8Array;
   let coilSigma = 0;
   let whitenedFull: MultiCoilKspace | undefined;
+  /** Receive arrays on a trajectory: the noiseless prewhitened samples (for noise replicas). */
+  let trajectoryFull: CoilSamples | undefined;
   let sigma = 0;
   const noiseSeed = noiseSeedFor(baseSeed);
   if (req.lesions && (simulation || raw || sampled.trajectory)) {
@@ -456,14 +514,16 @@ export async function runReconstruction(
     };
     referenceImage = acquired.reference;
     objectMask = acquired.objectMask;
+  } else if (simulation && sampled.trajectory) {
+    const acquired = trajectoryCoilInput(simulation, sampled, req.noise, noiseSeed, notes);
+    coilSigma = acquired.coilSigma;
+    sigma = acquired.sigma;
+    trajectoryFull = acquired.full;
+    input = acquired.input;
+    knownZeroFilled = acquired.gridded;
+    referenceImage = simulation.reference;
+    objectMask = simulation.objectMask;
   } else if (simulation) {
-    if (sampled.trajectory) {
-      throw new ValidationError({
-        field: 'sampling.trajectory',
-        message: 'receive arrays are simulated on the Cartesian grid only; this trajectory is non-Cartesian',
-        allowed: "trajectory: 'rasterised' with a receive array, or coils: { array: 'uniform' }",
-      });
-    }
     const acquired = acquireCoils(simulation, sampled.mask, req.noise, noiseSeed);
     if (acquired.sigma > 0) {
       notes.push(

@@ -3,13 +3,13 @@ import { fft2c, ifft2c } from '../core/centered-fft.ts';
 import { type ComplexImage, createComplexImage } from '../core/complex-image.ts';
 import { throwIfAborted, ValidationError } from '../core/errors.ts';
 import type { CoilSamples } from '../encoding/encoding-operator.ts';
-import { CartesianEncoding, type EncodingOperator, NonCartesianEncoding } from '../encoding/index.ts';
-import { toeplitzFor } from '../nufft/plan-cache.ts';
+import { CartesianEncoding, type CoilMaps, type EncodingOperator } from '../encoding/index.ts';
 import { backProjectionPeak, PROX_TOLERANCE, solveCsTvEncoding } from './cs-tv-encoding.ts';
 import type { CoilData, ReconInput, ReconMethod, ReconOutput } from './method.ts';
 import { checkedNumber, checkedTolerance, iterationsToRun, type NumberRule } from './parameters.ts';
 import { extrapolate } from './primal-extrapolation.ts';
 import { totalVariation, tvDualAscent } from './total-variation.ts';
+import { weighedSamples, weightedTrajectoryOperator } from './trajectory-operator.ts';
 
 export const LAMBDA_RULE: NumberRule = { min: 0, max: 10 };
 export { TOLERANCE_RULE } from './parameters.ts';
@@ -174,22 +174,28 @@ export const csTv: ReconMethod<CsTvSpec> = {
     const lambdaSource = spec.lambda === undefined ? 'default from acquired fraction' : 'request';
     const params = { lambda, lambdaSource, iterations, tolerance };
     if (input.trajectory) {
-      const { plan, trajectory, weights, weighting, samples } = input.trajectory;
       // A density-weighted data term (W = the gridding weights) keeps EᴴE = AᴴWA near the identity,
       // so the CG steps of the data prox converge fast; EᴴE runs through the Toeplitz kernel.
-      const kernel = toeplitzFor(trajectory, plan.nx, plan.ny, { name: weighting, values: weights });
-      const operator = new NonCartesianEncoding(plan, undefined, kernel, weights);
-      const weighted = operator.createData();
-      weighted.data.set(samples.data);
-      operator.weigh(weighted.data);
+      const maps = input.coils ? requiredMaps(input.coils) : undefined;
+      const operator = weightedTrajectoryOperator(input.trajectory, maps);
+      const weighted = weighedSamples(operator, input.trajectory.samples);
       const output = runOnOperator(
         operator,
         weighted,
         params,
-        'the trajectory (NUFFT, Toeplitz EᴴE)',
+        maps
+          ? 'the multi-coil trajectory operator (NUFFT · maps, Toeplitz EᴴE)'
+          : 'the trajectory (NUFFT, Toeplitz EᴴE)',
         signal,
       );
-      return { image: output.image, info: { ...output.info, dataWeighting: weighting } };
+      return {
+        image: output.image,
+        info: {
+          ...output.info,
+          dataWeighting: input.trajectory.weighting,
+          ...(maps ? { coils: input.trajectory.samples.coils, maps: 'given' } : {}),
+        },
+      };
     }
     if (input.coils) return runOnCoils(input, input.coils, params, signal);
     const peak = zeroFilledPeak(input);
@@ -235,8 +241,16 @@ function runOnCoils(
   params: { lambda: number; lambdaSource: string; iterations: number; tolerance: number },
   signal?: AbortSignal,
 ): ReconOutput {
-  const { maps, kspace } = coils;
-  if (!maps) {
+  const { kspace } = coils;
+  const maps = requiredMaps(coils);
+  const operator = new CartesianEncoding(kspace.nx, kspace.ny, input.mask, maps);
+  const output = runOnOperator(operator, kspace, params, 'the multi-coil encoding operator', signal);
+  return { image: output.image, info: { ...output.info, coils: kspace.coils, maps: 'given' } };
+}
+
+/** The maps cs-tv builds E from: without them it is refused, no estimate being available to it. */
+function requiredMaps(coils: CoilData): CoilMaps {
+  if (!coils.maps) {
     throw new ValidationError({
       field: 'method.name',
       message:
@@ -244,9 +258,7 @@ function runOnCoils(
       allowed: 'coil data with maps, or lowrank-hankel (needs no maps)',
     });
   }
-  const operator = new CartesianEncoding(kspace.nx, kspace.ny, input.mask, maps);
-  const output = runOnOperator(operator, kspace, params, 'the multi-coil encoding operator', signal);
-  return { image: output.image, info: { ...output.info, coils: kspace.coils, maps: 'given' } };
+  return coils.maps;
 }
 
 /**
