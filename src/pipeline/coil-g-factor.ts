@@ -9,6 +9,8 @@ import {
   gFactorFor,
   type MethodSpec,
   type ReconInput,
+  type TrajectoryData,
+  trajectoryGFactor,
   uniformCartesianAcceleration,
 } from '../recon/index.ts';
 
@@ -117,6 +119,58 @@ export function reconstructionGFactor(input: GFactorInput): GFactorResult | unde
     replicas: result.method === 'analytic' ? null : result.replicas,
     map,
     ...retained(map, input.objectMask, input.sampled.acceleration.actual),
+  };
+}
+
+/** What the g-factor of a receive-array reconstruction on a trajectory depends on. */
+export interface TrajectoryGFactorInput {
+  input: ReconInput & { trajectory: TrajectoryData };
+  method: MethodSpec;
+  baseInfo: Record<string, unknown>;
+  sampled: SampledMask;
+  objectMask: Uint8Array;
+  /** σ per coil after prewhitening; 0 for a noiseless run (then NOISELESS_REPLICA_SNR's). */
+  coilSigma: number;
+  reference: ComplexImage;
+  seed: number;
+  options: { signal?: AbortSignal; limits: Limits };
+  /** Replicas requested (`gFactor.replicas`); without it no estimate is made. */
+  count?: number;
+}
+
+/**
+ * The g-factor of a receive-array reconstruction on a non-Cartesian trajectory: no closed form
+ * applies, so only a pseudo-replica estimate (trajectoryGFactor) when the request asks for
+ * replicas, against the fully sampled Cartesian scan and R = the trajectory's acceleration.
+ */
+export function trajectoryReconstructionGFactor(request: TrajectoryGFactorInput): GFactorResult | undefined {
+  if (!request.count) return undefined;
+  const R = request.sampled.acceleration.actual;
+  const sigma =
+    request.coilSigma > 0
+      ? request.coilSigma
+      : sigmaForSnr(request.reference, request.objectMask, NOISELESS_REPLICA_SNR);
+  const result = trajectoryGFactor({
+    input: request.input,
+    method: request.method,
+    baseInfo: request.baseInfo,
+    sigma,
+    acceleration: R,
+    support: request.objectMask,
+    replicas: request.count,
+    seed: request.seed,
+    limits: request.options.limits,
+    signal: request.options.signal,
+  });
+  const { mean, p95, max, map } = result;
+  return {
+    mean,
+    p95,
+    max,
+    method: 'pseudo-replica',
+    replicas: result.replicas,
+    map,
+    ...retained(map, request.objectMask, R),
   };
 }
 

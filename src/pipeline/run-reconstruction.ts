@@ -27,12 +27,7 @@ import { defaultLimits, type Limits } from '../core/limits.ts';
 import { matrixSchemaFor } from '../core/matrix.ts';
 import type { RealImage } from '../core/real-image.ts';
 import { parseOrThrow } from '../core/zod-problems.ts';
-import {
-  type CoilMaps,
-  type CoilSamples,
-  type MultiCoilKspace,
-  transformPlaneInPlace,
-} from '../encoding/index.ts';
+import { type CoilMaps, type MultiCoilKspace, transformPlaneInPlace } from '../encoding/index.ts';
 import { type LesionsRequest, lesionsSchema } from '../fidelity/index.ts';
 import { type MetricSet, SSIM_RADIUS, scoreAll } from '../metrics/index.ts';
 import { densityWeightsFor, nufftPlanFor } from '../nufft/index.ts';
@@ -56,7 +51,11 @@ import {
   phantomCoilSimulation,
   phasedSingleCoil,
 } from './coil-acquisition.ts';
-import { type GFactorResult, reconstructionGFactor } from './coil-g-factor.ts';
+import {
+  type GFactorResult,
+  reconstructionGFactor,
+  trajectoryReconstructionGFactor,
+} from './coil-g-factor.ts';
 import {
   type CoilsSpec,
   coilsLabel,
@@ -376,7 +375,7 @@ function trajectoryCoilInput(
   noise: NoiseSpec | undefined,
   noiseSeed: number,
   notes: string[],
-): { input: ReconInput; sigma: number; coilSigma: number; gridded: ComplexImage; full: CoilSamples } {
+): { input: ReconInput; sigma: number; coilSigma: number; gridded: ComplexImage } {
   const trajectory = sampled.trajectory as Trajectory;
   const { nx, ny } = sampled;
   const plan = nufftPlanFor(trajectory, nx, ny);
@@ -408,7 +407,6 @@ function trajectoryCoilInput(
     sigma: acquired.sigma,
     coilSigma: acquired.coilSigma,
     gridded,
-    full: acquired.full,
   };
 }
 
@@ -492,8 +490,6 @@ export async function runReconstruction(
   let objectMask: Uint8Array;
   let coilSigma = 0;
   let whitenedFull: MultiCoilKspace | undefined;
-  /** Receive arrays on a trajectory: the noiseless prewhitened samples (for noise replicas). */
-  let trajectoryFull: CoilSamples | undefined;
   let sigma = 0;
   const noiseSeed = noiseSeedFor(baseSeed);
   if (req.lesions && (simulation || raw || sampled.trajectory)) {
@@ -518,7 +514,6 @@ export async function runReconstruction(
     const acquired = trajectoryCoilInput(simulation, sampled, req.noise, noiseSeed, notes);
     coilSigma = acquired.coilSigma;
     sigma = acquired.sigma;
-    trajectoryFull = acquired.full;
     input = acquired.input;
     knownZeroFilled = acquired.gridded;
     referenceImage = simulation.reference;
@@ -572,25 +567,38 @@ export async function runReconstruction(
   for (let i = 0; i < errorMap.length; i++)
     errorMap[i] = Math.abs(reconstruction.data[i] - reference.data[i]);
   const gFactor =
-    whitenedFull && input.coils?.maps
-      ? reconstructionGFactor({
-          method: req.method.name,
+    input.trajectory && input.coils?.maps
+      ? trajectoryReconstructionGFactor({
+          input: { ...input, trajectory: input.trajectory },
+          method: req.method,
+          baseInfo: methodOutput.info,
           sampled,
-          maps: input.coils.maps,
           objectMask,
-          replicas: {
-            input,
-            method: req.method,
-            coilSigma,
-            seed: noiseSeedFor(baseSeed),
-            options: { signal: ctx.signal, limits },
-            full: whitenedFull,
-            baseInfo: methodOutput.info,
-            reference: referenceImage,
-            ...(req.gFactor ? { count: req.gFactor.replicas } : {}),
-          },
+          coilSigma,
+          reference: referenceImage,
+          seed: noiseSeedFor(baseSeed),
+          options: { signal: ctx.signal, limits },
+          ...(req.gFactor ? { count: req.gFactor.replicas } : {}),
         })
-      : undefined;
+      : whitenedFull && input.coils?.maps
+        ? reconstructionGFactor({
+            method: req.method.name,
+            sampled,
+            maps: input.coils.maps,
+            objectMask,
+            replicas: {
+              input,
+              method: req.method,
+              coilSigma,
+              seed: noiseSeedFor(baseSeed),
+              options: { signal: ctx.signal, limits },
+              full: whitenedFull,
+              baseInfo: methodOutput.info,
+              reference: referenceImage,
+              ...(req.gFactor ? { count: req.gFactor.replicas } : {}),
+            },
+          })
+        : undefined;
   const coilFacts = simulation && coils ? coilsEcho(coils, simulation) : {};
   const gFactorFacts = gFactor ? gFactorEcho(gFactor, nx, ny) : { facts: {}, images: {} };
 
