@@ -134,6 +134,28 @@ export class NonCartesianEncoding implements EncodingOperator<CoilSamples> {
   }
 
   /**
+   * An upper bound of ‖EᴴE‖ as `normal` applies it, when a Toeplitz kernel is given (undefined
+   * otherwise): the kernel's bound times max over pixels of Σ_c |S_c|² (‖Σ_c S_cᴴ T S_c‖ ≤
+   * ‖T‖·‖Σ_c S_cᴴS_c‖, the latter diagonal).
+   */
+  normalBound(): number | undefined {
+    if (!this.toeplitz) return undefined;
+    const maps = this.sensitivities;
+    if (!maps) return this.toeplitz.normBound;
+    const n = maps.nx * maps.ny;
+    let peak = 0;
+    for (let i = 0; i < n; i++) {
+      let power = 0;
+      for (let c = 0; c < maps.coils; c++) {
+        const at = 2 * (c * n + i);
+        power += maps.data[at] ** 2 + maps.data[at + 1] ** 2;
+      }
+      peak = Math.max(peak, power);
+    }
+    return this.toeplitz.normBound * peak;
+  }
+
+  /**
    * block ⊙= √w (nothing without weights): what turns acquired samples of one coil into the data
    * of this operator's weighted data term.
    */

@@ -4,7 +4,13 @@ import { type ComplexImage, createComplexImage } from '../core/complex-image.ts'
 import { throwIfAborted, ValidationError } from '../core/errors.ts';
 import type { CoilSamples } from '../encoding/encoding-operator.ts';
 import { CartesianEncoding, type CoilMaps, type EncodingOperator } from '../encoding/index.ts';
-import { backProjectionPeak, PROX_TOLERANCE, solveCsTvEncoding } from './cs-tv-encoding.ts';
+import {
+  backProjectionPeak,
+  normalNormEstimate,
+  PROX_TOLERANCE,
+  solveCsTvEncoding,
+  solveCsTvLinearised,
+} from './cs-tv-encoding.ts';
 import type { CoilData, ReconInput, ReconMethod, ReconOutput } from './method.ts';
 import { checkedNumber, checkedTolerance, iterationsToRun, type NumberRule } from './parameters.ts';
 import { extrapolate } from './primal-extrapolation.ts';
@@ -182,7 +188,7 @@ export const csTv: ReconMethod<CsTvSpec> = {
       const output = runOnOperator(
         operator,
         weighted,
-        params,
+        { ...params, normBound: normalNormEstimate(operator, operator.normalBound()) },
         maps
           ? 'the multi-coil trajectory operator (NUFFT · maps, Toeplitz EᴴE)'
           : 'the trajectory (NUFFT, Toeplitz EᴴE)',
@@ -268,26 +274,40 @@ function requiredMaps(coils: CoilData): CoilMaps {
 function runOnOperator(
   operator: EncodingOperator<CoilSamples>,
   data: CoilSamples,
-  params: { lambda: number; lambdaSource: string; iterations: number; tolerance: number },
+  params: { lambda: number; lambdaSource: string; iterations: number; tolerance: number; normBound?: number },
   operatorName: string,
   signal?: AbortSignal,
 ): ReconOutput {
   const lambdaAbsolute = params.lambda * backProjectionPeak(operator, data);
-  const result = solveCsTvEncoding(
-    operator,
-    data,
-    lambdaAbsolute,
-    params.iterations,
-    params.tolerance,
-    signal,
-  );
+  const { normBound } = params;
+  // With a bound of ‖EᴴE‖ (a Toeplitz kernel) the data term is linearised: one EᴴE per iteration.
+  const result =
+    normBound === undefined
+      ? solveCsTvEncoding(operator, data, lambdaAbsolute, params.iterations, params.tolerance, signal)
+      : solveCsTvLinearised(
+          operator,
+          data,
+          lambdaAbsolute,
+          params.iterations,
+          params.tolerance,
+          normBound,
+          signal,
+        );
   return {
     image: result.image,
     info: {
-      solver: `Chambolle–Pock primal–dual on ${operatorName}, τ = σ = 0.99/√8; data prox (I + τEᴴE)⁻¹ by conjugate gradients`,
-      ...solverInfo(params, lambdaAbsolute, result),
-      proxTolerance: PROX_TOLERANCE,
-      meanProxSteps: result.iterations > 0 ? result.proxSteps / result.iterations : 0,
+      ...(normBound === undefined
+        ? {
+            solver: `Chambolle–Pock primal–dual on ${operatorName}, τ = σ = 0.99/√8; data prox (I + τEᴴE)⁻¹ by conjugate gradients`,
+            ...solverInfo(params, lambdaAbsolute, result),
+            proxTolerance: PROX_TOLERANCE,
+            meanProxSteps: result.iterations > 0 ? result.proxSteps / result.iterations : 0,
+          }
+        : {
+            solver: `Condat–Vũ primal–dual on ${operatorName}: gradient step on the data term, σ = 0.99/√8, τ = 0.99/(L/2 + 8σ)`,
+            ...solverInfo(params, lambdaAbsolute, result),
+            normalBound: normBound,
+          }),
     },
   };
 }
