@@ -98,7 +98,7 @@ function objectiveAt(
 
 /**
  * The same problem, min_x ½‖E x − y‖² + λ·TV_iso(x), with the data term linearised: the primal–dual
- * iteration of Condat (2013) and Vũ (2013) (docs/references.md §5.4), K = ∇, a gradient step on the
+ * iteration of Condat (2013) and Vũ (2013) (docs/references.md §5.7), K = ∇, a gradient step on the
  * smooth data term in place of its proximal step:
  *   p ← proj_{‖·‖≤λ}(p + σ∇x̄),   x⁺ = x − τ(EᴴE x − Eᴴy − div p),   x̄ = 2x⁺ − x,
  * convergent when 1/τ − σ‖∇‖² ≥ L/2, L ≥ ‖EᴴE‖ (Condat 2013, Theorem 3.1); here σ = 0.99/√8 as in the
