@@ -9,4 +9,8 @@ export {
   type MultiCoilKspace,
 } from './multi-coil.ts';
 export { NonCartesianEncoding } from './non-cartesian-encoding.ts';
-export { addConjugateSensitivityProduct, sensitivityProduct } from './sensitivity-products.ts';
+export {
+  addConjugateSensitivityProduct,
+  peakSensitivityPower,
+  sensitivityProduct,
+} from './sensitivity-products.ts';

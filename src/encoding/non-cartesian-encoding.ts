@@ -3,7 +3,11 @@ import type { NufftPlan } from '../nufft/nufft-plan.ts';
 import type { ToeplitzOperator } from '../nufft/toeplitz.ts';
 import type { CoilSamples, EncodingOperator, EncodingShapes } from './encoding-operator.ts';
 import { type CoilMaps, checkMultiCoilShape } from './multi-coil.ts';
-import { addConjugateSensitivityProduct, sensitivityProduct } from './sensitivity-products.ts';
+import {
+  addConjugateSensitivityProduct,
+  peakSensitivityPower,
+  sensitivityProduct,
+} from './sensitivity-products.ts';
 
 /**
  * Trajectory encoding E x = { A(S_c ⊙ x) }_c with A the type-2 NUFFT of a plan (src/nufft: exact
@@ -141,18 +145,7 @@ export class NonCartesianEncoding implements EncodingOperator<CoilSamples> {
   normalBound(): number | undefined {
     if (!this.toeplitz) return undefined;
     const maps = this.sensitivities;
-    if (!maps) return this.toeplitz.normBound;
-    const n = maps.nx * maps.ny;
-    let peak = 0;
-    for (let i = 0; i < n; i++) {
-      let power = 0;
-      for (let c = 0; c < maps.coils; c++) {
-        const at = 2 * (c * n + i);
-        power += maps.data[at] ** 2 + maps.data[at + 1] ** 2;
-      }
-      peak = Math.max(peak, power);
-    }
-    return this.toeplitz.normBound * peak;
+    return maps ? this.toeplitz.normBound * peakSensitivityPower(maps) : this.toeplitz.normBound;
   }
 
   /**

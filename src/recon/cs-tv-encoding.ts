@@ -50,13 +50,8 @@ export function solveCsTvEncoding(
   const backProjection = x.data.slice();
   const prox = new NormalProxSolver(operator);
   const rhs = new Float64Array(2 * n);
-  const xOld = new Float64Array(2 * n);
   const xBar = x.data.slice();
-  const px = new Float64Array(2 * n);
-  const py = new Float64Array(2 * n);
-  const gx = new Float64Array(2 * n);
-  const gy = new Float64Array(2 * n);
-  const div = new Float64Array(2 * n);
+  const { xOld, px, py, gx, gy, div } = primalDualScratch(n);
   let run = 0;
   let proxSteps = 0;
   let change = Number.POSITIVE_INFINITY;
@@ -79,6 +74,12 @@ export function solveCsTvEncoding(
     relativeChange: change,
     proxSteps,
   };
+}
+
+/** The previous iterate, the TV dual field (px, py), the gradient scratch and div p, n pixels each. */
+function primalDualScratch(n: number) {
+  const plane = () => new Float64Array(2 * n);
+  return { xOld: plane(), px: plane(), py: plane(), gx: plane(), gy: plane(), div: plane() };
 }
 
 /** ½‖E x − y‖² + λ·TV_iso(x) and the TV alone. */
@@ -124,13 +125,8 @@ export function solveCsTvLinearised(
   const x = operator.adjoint(y);
   const backProjection = x.data.slice();
   const normal = operator.createImage();
-  const xOld = new Float64Array(2 * n);
   const xBar = x.data.slice();
-  const px = new Float64Array(2 * n);
-  const py = new Float64Array(2 * n);
-  const gx = new Float64Array(2 * n);
-  const gy = new Float64Array(2 * n);
-  const div = new Float64Array(2 * n);
+  const { xOld, px, py, gx, gy, div } = primalDualScratch(n);
   let run = 0;
   let change = Number.POSITIVE_INFINITY;
   for (let it = 0; it < iterations; it++) {

@@ -8,6 +8,7 @@ import {
   type CoilSamples,
   type EncodingOperator,
   type MultiCoilKspace,
+  peakSensitivityPower,
 } from '../encoding/index.ts';
 import { ACS_MAP_METHOD, estimateAcsMaps } from './acs-maps.ts';
 import { type AcsBlock, requireAcsBlock } from './acs-region.ts';
@@ -169,21 +170,6 @@ export function senseSettings(spec: SenseSpec, maps: CoilMaps | undefined, limit
   const tikhonov = checkedNumber(spec.tikhonov, 'method.tikhonov', SENSE_TIKHONOV_RULE, 0);
   const tikhonovAbsolute = tikhonov * (maps ? peakSensitivityPower(maps) : 1);
   return { iterationLimit, tolerance, tikhonov, tikhonovAbsolute };
-}
-
-/** max over pixels of Σ_c |S_c|²: an upper bound of ‖EᴴE‖ (F unitary, 0/1 mask), so λ is scale-free. */
-function peakSensitivityPower(maps: CoilMaps): number {
-  const n = maps.nx * maps.ny;
-  let peak = 0;
-  for (let i = 0; i < n; i++) {
-    let sum = 0;
-    for (let c = 0; c < maps.coils; c++) {
-      const k = 2 * (c * n + i);
-      sum += maps.data[k] ** 2 + maps.data[k + 1] ** 2;
-    }
-    peak = Math.max(peak, sum);
-  }
-  return peak;
 }
 
 /**

@@ -22,6 +22,7 @@ import {
   imageCoilSimulation,
   phantomCoilSimulation,
 } from '../../src/pipeline/coil-acquisition.ts';
+import { relativeError } from '../error-measures.ts';
 import { directNdft } from '../nufft/direct-ndft.ts';
 
 // Receive-array samples on a non-Cartesian trajectory (docs/design.md §3.8). Independent checks:
@@ -31,16 +32,6 @@ import { directNdft } from '../nufft/direct-ndft.ts';
 const side = 48;
 const phantom = getPhantom('shepp-logan-modified');
 const loopsSpec = { array: 'loops', count: 8, loopRadius: 0.35, ringRadius: 1.25 } as const;
-
-function relativeError(a: Float64Array, b: Float64Array): number {
-  let diff = 0;
-  let norm = 0;
-  for (let i = 0; i < a.length; i++) {
-    diff += (a[i] - b[i]) ** 2;
-    norm += b[i] ** 2;
-  }
-  return Math.sqrt(diff / norm);
-}
 
 /** The points of a Nyquist radial trajectory within |k| ≤ radius cycles per FOV. */
 function centralPoints(radius: number) {
