@@ -41,12 +41,7 @@ export function acquireCoils(
   const { coils, nx, ny } = full;
   const n = nx * ny;
   if (mask.length !== n) throw new RangeError(`mask has ${mask.length} entries for a ${ny}×${nx} matrix`);
-  const maps = { ...simulation.maps, data: simulation.maps.data.slice() };
-  const white = whiteNoise(model);
-  if (!white) model.prewhiten(maps);
-  const snr = checkedSnr(noise);
-  const sigma = snr === null ? 0 : sigmaForSnr(simulation.reference, simulation.objectMask, snr);
-  const coilSigma = sigma > 0 ? sigma / Math.sqrt(meanInverseGain(maps, simulation.objectMask)) : 0;
+  const { maps, white, sigma, coilSigma } = coilNoiseLevels(simulation, noise);
   const noisy = { ...full, data: full.data.slice() };
   if (coilSigma > 0) model.addNoise(noisy, coilSigma, new SeededRandom(seed));
   const kspace = { coils, nx, ny, data: new Float64Array(noisy.data.length) };
@@ -64,6 +59,24 @@ export function acquireCoils(
     model.prewhiten(whitenedFull);
   }
   return { kspace, maps, full: whitenedFull, sigma, coilSigma, prewhitened: !white };
+}
+
+/**
+ * The noise levels of a receive-array acquisition (see acquireCoils): the maps prewhitened (a copy),
+ * whether Ψ = I exactly (prewhitening skipped), σ of the combined image and σ_c per coil.
+ */
+export function coilNoiseLevels(
+  simulation: CoilSimulation,
+  noise: NoiseSpec | undefined,
+): { maps: CoilMaps; white: boolean; sigma: number; coilSigma: number } {
+  const model = simulation.noise;
+  const maps = { ...simulation.maps, data: simulation.maps.data.slice() };
+  const white = whiteNoise(model);
+  if (!white) model.prewhiten(maps);
+  const snr = checkedSnr(noise);
+  const sigma = snr === null ? 0 : sigmaForSnr(simulation.reference, simulation.objectMask, snr);
+  const coilSigma = sigma > 0 ? sigma / Math.sqrt(meanInverseGain(maps, simulation.objectMask)) : 0;
+  return { maps, white, sigma, coilSigma };
 }
 
 /** Ψ = I exactly: prewhitening would divide by ones, so it is skipped. */

@@ -24,4 +24,12 @@ export interface CoilSimulation {
    * Gaussian) smooth factor and its trigonometric fit, which is the simulation's truth.
    */
   fitError?: number;
+  /**
+   * Phantoms in analytic mode: every coil's exact k-space at arbitrary points (kx, ky) in cycles per
+   * FOV, scaled like `kspace`, coil-major with kx.length samples per coil (the trajectory's
+   * samples; no gridding in the forward model).
+   */
+  kspaceAt?: (kx: Float64Array, ky: Float64Array) => Float64Array;
+  /** Pixel sources (uploads, rasters): the object S_c multiplies, whose NUFFT gives trajectory samples. */
+  object?: ComplexImage;
 }

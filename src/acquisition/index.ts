@@ -1,6 +1,7 @@
 export { acquire } from './acquire.ts';
 export { acquireCoils, type CoilAcquisition } from './acquire-coils.ts';
 export { acquireTrajectory } from './acquire-trajectory.ts';
+export { acquireTrajectoryCoils, type TrajectoryCoilAcquisition } from './acquire-trajectory-coils.ts';
 export type { CoilSimulation } from './coil-simulation.ts';
 export type { FullAcquisition } from './full-acquisition.ts';
 export { fullKspaceFromImage } from './image-source.ts';

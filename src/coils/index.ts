@@ -8,6 +8,7 @@ export {
   type UniformArraySpec,
 } from './coil-array.ts';
 export { analyticCoilKspace } from './coil-kspace.ts';
+export { analyticCoilSamplesAt } from './coil-samples-at.ts';
 export { gaussianArrayMaps } from './gaussian-array.ts';
 export { arrayLoops, loopArrayMaps } from './loop-array.ts';
 export { addLoopField, type CircularLoop } from './loop-field.ts';

@@ -9,3 +9,8 @@ export {
   type MultiCoilKspace,
 } from './multi-coil.ts';
 export { NonCartesianEncoding } from './non-cartesian-encoding.ts';
+export {
+  addConjugateSensitivityProduct,
+  peakSensitivityPower,
+  sensitivityProduct,
+} from './sensitivity-products.ts';

@@ -3,7 +3,11 @@ import type { NufftPlan } from '../nufft/nufft-plan.ts';
 import type { ToeplitzOperator } from '../nufft/toeplitz.ts';
 import type { CoilSamples, EncodingOperator, EncodingShapes } from './encoding-operator.ts';
 import { type CoilMaps, checkMultiCoilShape } from './multi-coil.ts';
-import { addConjugateSensitivityProduct, sensitivityProduct } from './sensitivity-products.ts';
+import {
+  addConjugateSensitivityProduct,
+  peakSensitivityPower,
+  sensitivityProduct,
+} from './sensitivity-products.ts';
 
 /**
  * Trajectory encoding E x = { A(S_c ⊙ x) }_c with A the type-2 NUFFT of a plan (src/nufft: exact
@@ -131,6 +135,17 @@ export class NonCartesianEncoding implements EncodingOperator<CoilSamples> {
     }
     out.data.set(sum);
     return out;
+  }
+
+  /**
+   * An upper bound of ‖EᴴE‖ as `normal` applies it, when a Toeplitz kernel is given (undefined
+   * otherwise): the kernel's bound times max over pixels of Σ_c |S_c|² (‖Σ_c S_cᴴ T S_c‖ ≤
+   * ‖T‖·‖Σ_c S_cᴴS_c‖, the latter diagonal).
+   */
+  normalBound(): number | undefined {
+    if (!this.toeplitz) return undefined;
+    const maps = this.sensitivities;
+    return maps ? this.toeplitz.normBound * peakSensitivityPower(maps) : this.toeplitz.normBound;
   }
 
   /**

@@ -44,3 +44,18 @@ export function addConjugateSensitivityProduct(
     target[i + 1] += sr * zi - si * zr;
   }
 }
+
+/** max over pixels of Σ_c |S_c|²: ‖x ↦ (S_c x)_c‖², the factor the maps add to a bound of ‖EᴴE‖. */
+export function peakSensitivityPower(maps: CoilMaps): number {
+  const n = maps.nx * maps.ny;
+  let peak = 0;
+  for (let i = 0; i < n; i++) {
+    let sum = 0;
+    for (let c = 0; c < maps.coils; c++) {
+      const k = 2 * (c * n + i);
+      sum += maps.data[k] ** 2 + maps.data[k + 1] ** 2;
+    }
+    peak = Math.max(peak, sum);
+  }
+  return peak;
+}

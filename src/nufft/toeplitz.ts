@@ -17,6 +17,11 @@ export interface ToeplitzOperator {
   readonly ny: number;
   /** AᴴWA x into `out` (a new image when absent); `out` may not be `image`. */
   apply(image: ComplexImage, out?: ComplexImage): ComplexImage;
+  /**
+   * max |ĥ| over the doubled grid: an upper bound of the applied operator's norm (crop · circulant ·
+   * pad, and the circulant's eigenvalues are ĥ), e.g. a safe step size for gradient methods.
+   */
+  readonly normBound: number;
 }
 
 export function toeplitzNormalOperator(
@@ -40,7 +45,12 @@ export function toeplitzNormalOperator(
   // The doubled plan scales by 1/√(4·nx·ny); h wants 1/(nx·ny), and the convolution theorem for the
   // orthonormal centred DFT of the 2n grid contributes √(4·nx·ny): together 4·nx·ny/(nx·ny) = 4.
   const spectrum = fft2c(doubled.adjoint(weighted));
-  for (let i = 0; i < spectrum.data.length; i++) spectrum.data[i] *= 4;
+  let normBound = 0;
+  for (let i = 0; i < spectrum.data.length; i += 2) {
+    spectrum.data[i] *= 4;
+    spectrum.data[i + 1] *= 4;
+    normBound = Math.max(normBound, Math.hypot(spectrum.data[i], spectrum.data[i + 1]));
+  }
   const padded = createComplexImage(mx, my);
   // Pixel (i, j) of the n grid sits at the same centred offset of the 2n grid.
   const rowShift = ny - Math.floor(ny / 2);
@@ -48,6 +58,7 @@ export function toeplitzNormalOperator(
   return {
     nx,
     ny,
+    normBound,
     apply(image, out) {
       if (image.nx !== nx || image.ny !== ny) {
         throw new RangeError(`operator is for ${ny}×${nx}, image is ${image.ny}×${image.nx}`);

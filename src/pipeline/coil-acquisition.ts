@@ -7,6 +7,7 @@ import {
 } from '../acquisition/index.ts';
 import {
   analyticCoilKspace,
+  analyticCoilSamplesAt,
   CoilNoise,
   coilArrayMaps,
   coilArrayNoise,
@@ -65,6 +66,8 @@ export function phantomCoilSimulation(source: PhantomCoilSource): CoilSimulation
   const reference = combineCoilImages(coilImages(kspace), truth).image;
   const objectMask = objectMaskOf(reference);
   const error = trigFitError(smooth, fitted, objectMask);
+  const kspaceAt = (kx: Float64Array, ky: Float64Array): Float64Array =>
+    analyticCoilSamplesAt(phantom, fit, kx, ky, nx, ny);
   return {
     kspace,
     maps: source.uploaded ? maps : truth,
@@ -73,6 +76,7 @@ export function phantomCoilSimulation(source: PhantomCoilSource): CoilSimulation
     objectMask,
     inverseCrime: false,
     fitError: Math.max(...error.relative),
+    kspaceAt,
   };
 }
 
@@ -92,7 +96,15 @@ function imageSimulation(object: ComplexImage, maps: CoilMaps, noise: CoilNoise)
   const kspace = multiplyPlanes(maps, object.data, false);
   for (let c = 0; c < maps.coils; c++) transformPlaneInPlace(kspace.data, c * nx * ny, nx, ny, -1);
   const reference = combineCoilImages(coilImages(kspace), maps).image;
-  return { kspace, maps, noise, reference, objectMask: objectMaskOf(reference), inverseCrime: true };
+  return {
+    kspace,
+    maps,
+    noise,
+    reference,
+    objectMask: objectMaskOf(reference),
+    inverseCrime: true,
+    object,
+  };
 }
 
 /**

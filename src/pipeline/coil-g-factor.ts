@@ -7,8 +7,11 @@ import type { Limits } from '../core/limits.ts';
 import type { CoilMaps, MultiCoilKspace } from '../encoding/index.ts';
 import {
   gFactorFor,
+  type GFactorResult as MethodGFactor,
   type MethodSpec,
   type ReconInput,
+  type TrajectoryData,
+  trajectoryGFactor,
   uniformCartesianAcceleration,
 } from '../recon/index.ts';
 
@@ -92,10 +95,7 @@ export function reconstructionGFactor(input: GFactorInput): GFactorResult | unde
   }
   const replicas = input.replicas;
   if (!replicas?.count) return undefined;
-  const sigma =
-    replicas.coilSigma > 0
-      ? replicas.coilSigma
-      : sigmaForSnr(replicas.reference, input.objectMask, NOISELESS_REPLICA_SNR);
+  const sigma = replicaSigma(replicas.coilSigma, replicas.reference, input.objectMask);
   const result = gFactorFor({
     input: replicas.input,
     method: replicas.method,
@@ -108,16 +108,47 @@ export function reconstructionGFactor(input: GFactorInput): GFactorResult | unde
     limits: replicas.options.limits,
     signal: replicas.options.signal,
   });
-  const { mean, p95, max, map } = result;
-  return {
-    mean,
-    p95,
-    max,
-    method: result.method,
-    replicas: result.method === 'analytic' ? null : result.replicas,
-    map,
-    ...retained(map, input.objectMask, input.sampled.acceleration.actual),
-  };
+  return summarised(result, input.objectMask, input.sampled.acceleration.actual);
+}
+
+/** What the g-factor of a receive-array reconstruction on a trajectory depends on. */
+export interface TrajectoryGFactorInput {
+  input: ReconInput & { trajectory: TrajectoryData };
+  method: MethodSpec;
+  baseInfo: Record<string, unknown>;
+  sampled: SampledMask;
+  objectMask: Uint8Array;
+  /** σ per coil after prewhitening; 0 for a noiseless run (then NOISELESS_REPLICA_SNR's). */
+  coilSigma: number;
+  reference: ComplexImage;
+  seed: number;
+  options: { signal?: AbortSignal; limits: Limits };
+  /** Replicas requested (`gFactor.replicas`); without it no estimate is made. */
+  count?: number;
+}
+
+/**
+ * The g-factor of a receive-array reconstruction on a non-Cartesian trajectory: no closed form
+ * applies, so only a pseudo-replica estimate (trajectoryGFactor) when the request asks for
+ * replicas, against the fully sampled Cartesian scan and R = the trajectory's acceleration.
+ */
+export function trajectoryReconstructionGFactor(request: TrajectoryGFactorInput): GFactorResult | undefined {
+  if (!request.count) return undefined;
+  const R = request.sampled.acceleration.actual;
+  const sigma = replicaSigma(request.coilSigma, request.reference, request.objectMask);
+  const result = trajectoryGFactor({
+    input: request.input,
+    method: request.method,
+    baseInfo: request.baseInfo,
+    sigma,
+    acceleration: R,
+    support: request.objectMask,
+    replicas: request.count,
+    seed: request.seed,
+    limits: request.options.limits,
+    signal: request.options.signal,
+  });
+  return summarised(result, request.objectMask, R);
 }
 
 /** R when the mask acquires exactly the rows ⌊ny/2⌋ + k·R (every column), R an integer dividing ny; else null. */
@@ -131,6 +162,25 @@ export function uniformLatticeStep(sampled: SampledMask): number | null {
     if (mask[i * nx] && (((i - centre) % R) + R) % R !== 0) return null;
   }
   return R;
+}
+
+/** The replicas' noise: the run's own σ per coil, or that of NOISELESS_REPLICA_SNR for a noiseless run. */
+function replicaSigma(coilSigma: number, reference: ComplexImage, objectMask: Uint8Array): number {
+  return coilSigma > 0 ? coilSigma : sigmaForSnr(reference, objectMask, NOISELESS_REPLICA_SNR);
+}
+
+/** A recon-side g result as the pipeline reports it, with the SNR retained at acceleration R. */
+function summarised(result: MethodGFactor, objectMask: Uint8Array, R: number): GFactorResult {
+  const { mean, p95, max, map } = result;
+  return {
+    mean,
+    p95,
+    max,
+    method: result.method,
+    replicas: result.method === 'analytic' ? null : result.replicas,
+    map,
+    ...retained(map, objectMask, R),
+  };
 }
 
 function retained(

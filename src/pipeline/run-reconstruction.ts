@@ -10,6 +10,7 @@ import {
   acquire,
   acquireCoils,
   acquireTrajectory,
+  acquireTrajectoryCoils,
   type CoilSimulation,
   checkedSnr,
   type FullAcquisition,
@@ -27,14 +28,15 @@ import { matrixSchemaFor } from '../core/matrix.ts';
 import type { RealImage } from '../core/real-image.ts';
 import type { RealVolume } from '../core/real-volume.ts';
 import { parseOrThrow } from '../core/zod-problems.ts';
-import type { CoilMaps, MultiCoilKspace } from '../encoding/index.ts';
+import { type CoilMaps, type MultiCoilKspace, transformPlaneInPlace } from '../encoding/index.ts';
 import { type LesionsRequest, lesionsSchema } from '../fidelity/index.ts';
 import { type MetricSet, SSIM_RADIUS, scoreAll } from '../metrics/index.ts';
 import { densityWeightsFor, nufftPlanFor } from '../nufft/index.ts';
 import { getPhantom } from '../phantoms/index.ts';
-import { griddingImage } from '../recon/gridding-recon.ts';
+import { griddedCoilImages, griddingImage } from '../recon/gridding-recon.ts';
 import {
   type CoilData,
+  combineCoilImages,
   type MethodSpec,
   methodSchemaFor,
   partialFourierStep,
@@ -52,7 +54,11 @@ import {
   phantomCoilSimulation,
   phasedSingleCoil,
 } from './coil-acquisition.ts';
-import { type GFactorResult, reconstructionGFactor } from './coil-g-factor.ts';
+import {
+  type GFactorResult,
+  reconstructionGFactor,
+  trajectoryReconstructionGFactor,
+} from './coil-g-factor.ts';
 import {
   type CoilsSpec,
   coilsLabel,
@@ -372,6 +378,55 @@ function trajectoryInput(
   return { input: { kspace: fft2c(gridded), mask: sampled.mask, trajectory: data }, sigma, gridded };
 }
 
+/**
+ * A receive-array acquisition on a non-Cartesian trajectory (docs/design.md §3.8): every coil's
+ * samples at the exact trajectory points (acquireTrajectoryCoils), prewhitened with the maps; each
+ * coil gridded, the coil images combined as on the grid (sensitivity-weighted with the maps).
+ * `coils.kspace` holds the gridded coil k-space (for scales and map calibration), `kspace` the
+ * combined image's.
+ */
+function trajectoryCoilInput(
+  simulation: CoilSimulation,
+  sampled: SampledMask,
+  noise: NoiseSpec | undefined,
+  noiseSeed: number,
+  notes: string[],
+): { input: ReconInput; sigma: number; coilSigma: number; prewhitened: boolean; gridded: ComplexImage } {
+  const trajectory = sampled.trajectory as Trajectory;
+  const { nx, ny } = sampled;
+  const plan = nufftPlanFor(trajectory, nx, ny);
+  const acquired = acquireTrajectoryCoils(simulation, trajectory, plan, noise, noiseSeed);
+  if (acquired.inverseCrime) {
+    notes.push(
+      'non-Cartesian coil samples are the NUFFT of S_c times the same pixels the reconstruction inverts (inverse crime)',
+    );
+  }
+  if (acquired.sigma > 0) {
+    notes.push(
+      `complex Gaussian noise: σ = ${acquired.sigma.toPrecision(4)} per real channel in the optimally combined ` +
+        `fully sampled image, σ = ${acquired.coilSigma.toPrecision(4)} per coil and sample before prewhitening`,
+    );
+  }
+  const { weights, weighting } = densityWeightsFor(trajectory, nx, ny);
+  const data: TrajectoryData = { trajectory, plan, samples: acquired.samples, weights, weighting };
+  const images = griddedCoilImages(data);
+  const gridded = combineCoilImages(images, acquired.maps).image;
+  const kspace = { ...images, data: images.data.slice() };
+  for (let c = 0; c < kspace.coils; c++) transformPlaneInPlace(kspace.data, c * nx * ny, nx, ny, -1);
+  return {
+    input: {
+      kspace: fft2c(gridded),
+      mask: sampled.mask,
+      coils: { kspace, maps: acquired.maps },
+      trajectory: data,
+    },
+    sigma: acquired.sigma,
+    coilSigma: acquired.coilSigma,
+    prewhitened: acquired.prewhitened,
+    gridded,
+  };
+}
+
 function magnitudeImage(image: ComplexImage): RealImage {
   return { nx: image.nx, ny: image.ny, data: magnitude(image) };
 }
@@ -486,14 +541,17 @@ export async function runReconstruction(
     // Prewhitened scan noise has unit variance per complex sample; the added noise 2σ² on top.
     const prewhitened = raw.noiseCovariance !== null;
     noise = { prewhitened, variance: prewhitened ? 1 + 2 * acquired.sigma ** 2 : null };
+  } else if (simulation && sampled.trajectory) {
+    const acquired = trajectoryCoilInput(simulation, sampled, req.noise, noiseSeed, notes);
+    coilSigma = acquired.coilSigma;
+    // CN(0, 2σ_c²Ψ) times L⁻¹ is CN(0, 2σ_c²·I).
+    noise = { prewhitened: acquired.prewhitened, variance: 2 * coilSigma ** 2 };
+    sigma = acquired.sigma;
+    input = acquired.input;
+    knownZeroFilled = acquired.gridded;
+    referenceImage = simulation.reference;
+    objectMask = simulation.objectMask;
   } else if (simulation) {
-    if (sampled.trajectory) {
-      throw new ValidationError({
-        field: 'sampling.trajectory',
-        message: 'receive arrays are simulated on the Cartesian grid only; this trajectory is non-Cartesian',
-        allowed: "trajectory: 'rasterised' with a receive array, or coils: { array: 'uniform' }",
-      });
-    }
     const acquired = acquireCoils(simulation, sampled.mask, req.noise, noiseSeed);
     if (acquired.sigma > 0) {
       notes.push(
@@ -545,25 +603,38 @@ export async function runReconstruction(
   for (let i = 0; i < errorMap.length; i++)
     errorMap[i] = Math.abs(reconstruction.data[i] - reference.data[i]);
   const gFactor =
-    whitenedFull && input.coils?.maps
-      ? reconstructionGFactor({
-          method: req.method.name,
+    input.trajectory && input.coils?.maps
+      ? trajectoryReconstructionGFactor({
+          input: { ...input, trajectory: input.trajectory },
+          method: req.method,
+          baseInfo: methodOutput.info,
           sampled,
-          maps: input.coils.maps,
           objectMask,
-          replicas: {
-            input,
-            method: req.method,
-            coilSigma,
-            seed: noiseSeedFor(baseSeed),
-            options: { signal: ctx.signal, limits },
-            full: whitenedFull,
-            baseInfo: methodOutput.info,
-            reference: referenceImage,
-            ...(req.gFactor ? { count: req.gFactor.replicas } : {}),
-          },
+          coilSigma,
+          reference: referenceImage,
+          seed: noiseSeedFor(baseSeed),
+          options: { signal: ctx.signal, limits },
+          ...(req.gFactor ? { count: req.gFactor.replicas } : {}),
         })
-      : undefined;
+      : whitenedFull && input.coils?.maps
+        ? reconstructionGFactor({
+            method: req.method.name,
+            sampled,
+            maps: input.coils.maps,
+            objectMask,
+            replicas: {
+              input,
+              method: req.method,
+              coilSigma,
+              seed: noiseSeedFor(baseSeed),
+              options: { signal: ctx.signal, limits },
+              full: whitenedFull,
+              baseInfo: methodOutput.info,
+              reference: referenceImage,
+              ...(req.gFactor ? { count: req.gFactor.replicas } : {}),
+            },
+          })
+        : undefined;
   const coilFacts = simulation && coils ? coilsEcho(coils, simulation) : {};
   const gFactorFacts = gFactor ? gFactorEcho(gFactor, nx, ny) : { facts: {}, images: {} };
 

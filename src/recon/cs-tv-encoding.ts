@@ -21,7 +21,7 @@ export interface CsTvEncodingResult {
   relativeChange: number;
   objectiveChange: number;
   tv: number;
-  /** CG steps summed over all iterations (each costs one EᴴE product). */
+  /** CG steps summed over all iterations (each costs one EᴴE product); 0 for the linearised solver. */
   proxSteps: number;
 }
 
@@ -92,19 +92,129 @@ export function solveCsTvEncoding(
     )
       break;
   }
+  return {
+    ...finalObjective(operator, x, y, lambdaAbs),
+    image: x,
+    iterations: run,
+    relativeChange: rule.relativeChange,
+    objectiveChange: rule.objectiveChange,
+    proxSteps,
+  };
+}
+
+/** ½‖E x − y‖² + λ·TV_iso(x) and the TV alone, from one forward product. */
+function finalObjective(
+  operator: EncodingOperator<CoilSamples>,
+  x: ComplexImage,
+  y: CoilSamples,
+  lambdaAbs: number,
+): { objective: number; tv: number } {
+  const { nx, ny } = operator.shapes;
   const ex = operator.forward(x);
   let residual = 0;
   for (let i = 0; i < ex.data.length; i++) residual += (ex.data[i] - y.data[i]) ** 2;
   const tv = totalVariation(x.data, nx, ny);
+  return { objective: 0.5 * residual + lambdaAbs * tv, tv };
+}
+
+/**
+ * The same problem, min_x ½‖E x − y‖² + λ·TV_iso(x), with the data term linearised: the primal–dual
+ * iteration of Condat (2013) and Vũ (2013) (docs/references.md §5.7), K = ∇, a gradient step on the
+ * smooth data term in place of its proximal step:
+ *   p ← proj_{‖·‖≤λ}(p + σ∇x̄),   x⁺ = x − τ(EᴴE x − Eᴴy − div p),   x̄ = 2x⁺ − x,
+ * convergent when 1/τ − σ‖∇‖² ≥ L/2, L ≥ ‖EᴴE‖ (Condat 2013, Theorem 3.1); here σ = 0.99/√8 as in the
+ * other solvers, ‖∇‖² ≤ 8 and τ = 0.99/(L/2 + 8σ). One EᴴE product per iteration (through a
+ * Toeplitz kernel: one FFT pair of the doubled grid per coil, no gridding) instead of the 1 + CG
+ * steps of solveCsTvEncoding; the fixed point is the same minimiser. `normBound` is L: an upper
+ * bound of ‖EᴴE‖ such as NonCartesianEncoding.normalBound() (a guess below ‖EᴴE‖ may diverge).
+ * Start x⁰ = Eᴴy, p⁰ = 0; stops after `iterations` or by the StoppingRule (iterate and objective:
+ * Φ(x_{k−1}) comes from the EᴴE x_{k−1} the step used, Φ(x_k) costs one more product, asked only
+ * once the iterate test passes).
+ */
+export function solveCsTvLinearised(
+  operator: EncodingOperator<CoilSamples>,
+  y: CoilSamples,
+  lambdaAbs: number,
+  iterations: number,
+  tolerance: number,
+  normBound: number,
+  signal?: AbortSignal,
+): CsTvEncodingResult {
+  if (!(normBound > 0) || !Number.isFinite(normBound)) throw new RangeError('normBound must be positive');
+  const { nx, ny } = operator.shapes;
+  const n = nx * ny;
+  const tau = 0.99 / (normBound / 2 + 8 * SIGMA);
+  const x = operator.adjoint(y);
+  const backProjection = x.data.slice();
+  const normal = operator.createImage();
+  const probe = operator.createImage();
+  const xBar = x.data.slice();
+  const xOld = new Float64Array(2 * n);
+  const px = new Float64Array(2 * n);
+  const py = new Float64Array(2 * n);
+  const gx = new Float64Array(2 * n);
+  const gy = new Float64Array(2 * n);
+  const div = new Float64Array(2 * n);
+  let halfDataNorm = 0;
+  for (let i = 0; i < y.data.length; i++) halfDataNorm += 0.5 * y.data[i] * y.data[i];
+  const objectiveAt = (image: Float64Array, normalImage: Float64Array) =>
+    dataTermFromNormal(image, normalImage, backProjection, halfDataNorm) +
+    lambdaAbs * totalVariation(image, nx, ny);
+  const rule = new StoppingRule(tolerance);
+  let run = 0;
+  for (let it = 0; it < iterations; it++) {
+    throwIfAborted(signal);
+    tvDualAscent(div, px, py, gx, gy, xBar, nx, ny, SIGMA, lambdaAbs);
+    const xd = x.data;
+    xOld.set(xd);
+    operator.normal(x, normal);
+    const nd = normal.data;
+    for (let i = 0; i < 2 * n; i++) xd[i] -= tau * (nd[i] - backProjection[i] - div[i]);
+    const change = extrapolate(xBar, xd, xOld);
+    run = it + 1;
+    const now = () => {
+      operator.normal(x, probe);
+      return objectiveAt(xd, probe.data);
+    };
+    if (rule.converged(change, now, () => objectiveAt(xOld, nd))) break;
+  }
   return {
+    ...finalObjective(operator, x, y, lambdaAbs),
     image: x,
     iterations: run,
-    objective: 0.5 * residual + lambdaAbs * tv,
     relativeChange: rule.relativeChange,
     objectiveChange: rule.objectiveChange,
-    tv,
-    proxSteps,
+    proxSteps: 0,
   };
+}
+
+/** Power-iteration steps of normalNormEstimate, and the margin its estimate is raised by. */
+export const NORM_ESTIMATE_STEPS = 30;
+export const NORM_ESTIMATE_MARGIN = 1.1;
+
+/**
+ * L for solveCsTvLinearised: the largest eigenvalue of EᴴE by power iteration (NORM_ESTIMATE_STEPS
+ * products from a fixed smooth-plus-oscillating start), raised by NORM_ESTIMATE_MARGIN since power
+ * iteration approaches it from below, and never above `bound` (a proven upper bound, when known).
+ * The proven Toeplitz bound alone is several times ‖EᴴE‖ on radial data and would shrink τ as much.
+ */
+export function normalNormEstimate(operator: EncodingOperator<CoilSamples>, bound?: number): number {
+  let v = operator.createImage();
+  let w = operator.createImage();
+  for (let i = 0; i < v.data.length; i++) v.data[i] = 1 + Math.sin(0.37 * i);
+  let estimate = 0;
+  for (let k = 0; k < NORM_ESTIMATE_STEPS; k++) {
+    let vv = 0;
+    for (const value of v.data) vv += value * value;
+    operator.normal(v, w);
+    let ww = 0;
+    for (const value of w.data) ww += value * value;
+    estimate = Math.sqrt(ww / vv);
+    if (!(estimate > 0)) return bound ?? 1;
+    [v, w] = [w, v];
+  }
+  const margined = NORM_ESTIMATE_MARGIN * estimate;
+  return bound === undefined ? margined : Math.min(bound, margined);
 }
 
 /**

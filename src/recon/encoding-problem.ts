@@ -1,8 +1,8 @@
 import { ValidationError } from '../core/errors.ts';
 import type { CoilSamples } from '../encoding/encoding-operator.ts';
-import { CartesianEncoding, type EncodingOperator, NonCartesianEncoding } from '../encoding/index.ts';
-import { toeplitzFor } from '../nufft/plan-cache.ts';
-import type { ReconInput } from './method.ts';
+import { CartesianEncoding, type CoilMaps, type EncodingOperator } from '../encoding/index.ts';
+import type { CoilData, ReconInput } from './method.ts';
+import { weighedSamples, weightedTrajectoryOperator } from './trajectory-operator.ts';
 
 /** The encoding operator E and data y a regularised least-squares method solves on. */
 export interface EncodingProblem {
@@ -12,6 +12,8 @@ export interface EncodingProblem {
   operatorName: string;
   /** What the response's `info` adds about the data (coils and maps, or the density weighting). */
   info: Record<string, unknown>;
+  /** Trajectories: a proven upper bound of ‖EᴴE‖ from the Toeplitz kernel (linearised solvers). */
+  normalBound?: number;
 }
 
 /**
@@ -23,32 +25,40 @@ export interface EncodingProblem {
  */
 export function encodingProblem(input: ReconInput, method: string): EncodingProblem | null {
   if (input.trajectory) {
-    const { plan, trajectory, weights, weighting, samples } = input.trajectory;
-    const kernel = toeplitzFor(trajectory, plan.nx, plan.ny, { name: weighting, values: weights });
-    const operator = new NonCartesianEncoding(plan, undefined, kernel, weights);
-    const weighted = operator.createData();
-    weighted.data.set(samples.data);
-    operator.weigh(weighted.data);
+    const maps = input.coils ? requiredMaps(input.coils, method) : undefined;
+    const operator = weightedTrajectoryOperator(input.trajectory, maps);
     return {
       operator,
-      data: weighted,
-      operatorName: 'the trajectory (NUFFT, Toeplitz EᴴE)',
-      info: { dataWeighting: weighting },
+      data: weighedSamples(operator, input.trajectory.samples),
+      operatorName: maps
+        ? 'the multi-coil trajectory operator (NUFFT · maps, Toeplitz EᴴE)'
+        : 'the trajectory (NUFFT, Toeplitz EᴴE)',
+      info: {
+        dataWeighting: input.trajectory.weighting,
+        ...(maps ? { coils: input.trajectory.samples.coils, maps: 'given' } : {}),
+      },
+      normalBound: operator.normalBound(),
     };
   }
   if (!input.coils) return null;
-  const { maps, kspace } = input.coils;
-  if (!maps) {
-    throw new ValidationError({
-      field: 'method.name',
-      message: `${method} on receive-array data needs coil sensitivity maps (known or uploaded); none are given for these data`,
-      allowed: 'coil data with maps, or lowrank-hankel (needs no maps)',
-    });
-  }
+  const { kspace } = input.coils;
+  const maps = requiredMaps(input.coils, method);
   return {
     operator: new CartesianEncoding(kspace.nx, kspace.ny, input.mask, maps),
     data: kspace,
     operatorName: 'the multi-coil encoding operator',
     info: { coils: kspace.coils, maps: 'given' },
   };
+}
+
+/** The maps E is built from: without them the method is refused, no estimate being made here. */
+function requiredMaps(coils: CoilData, method: string): CoilMaps {
+  if (!coils.maps) {
+    throw new ValidationError({
+      field: 'method.name',
+      message: `${method} on receive-array data needs coil sensitivity maps (known or uploaded); none are given for these data`,
+      allowed: 'coil data with maps, or lowrank-hankel (needs no maps)',
+    });
+  }
+  return coils.maps;
 }

@@ -11,7 +11,7 @@ import {
   kernelGeometryFor,
   MIN_TRAINING_ROWS,
 } from './grappa-kernel.ts';
-import type { ReconInput, ReconMethod, ReconOutput } from './method.ts';
+import { type ReconInput, type ReconMethod, type ReconOutput, refuseTrajectory } from './method.ts';
 import { checkedNumber, type NumberRule } from './parameters.ts';
 import { coilKspaceOf } from './sense.ts';
 
@@ -167,6 +167,7 @@ export const grappa: ReconMethod<GrappaSpec> = {
   name: 'grappa',
   schema: grappaSchema,
   run(input, spec, { signal }): ReconOutput {
+    refuseTrajectory(input, 'grappa');
     const prepared = prepareGrappa(input, spec);
     const filled = prepared.fill(coilKspaceOf(input), input.mask, signal);
     const maps = input.coils?.maps;

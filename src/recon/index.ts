@@ -43,6 +43,7 @@ export {
 } from './pseudo-replica.ts';
 export { type MethodName, type MethodSpec, methodSchema, methodSchemaFor, reconMethods } from './registry.ts';
 export { type PreparedSense, prepareSense, type SenseSpec } from './sense.ts';
+export { type TrajectoryGFactorRequest, trajectoryGFactor } from './trajectory-g-factor.ts';
 export { zeroFilledImage } from './zero-filled.ts';
 
 /**

@@ -93,13 +93,24 @@ export function refuseCoilArray(input: ReconInput, method: string): void {
   }
 }
 
-/** Refuses non-Cartesian samples in a method that needs a Cartesian grid (naming `sampling.trajectory`). */
+/**
+ * Refuses non-Cartesian samples in a method that needs a Cartesian grid: single-coil data name
+ * `sampling.trajectory`; receive-array data name `method.name` (the trajectory and the array are
+ * both fine, this method is not: it would have to grid the coils first, which the service does not
+ * do behind a method's back; docs/design.md §2.1).
+ */
 export function refuseTrajectory(input: ReconInput, method: string): void {
-  if (input.trajectory) {
+  if (!input.trajectory) return;
+  if (input.coils) {
     throw new ValidationError({
-      field: 'sampling.trajectory',
-      message: `${method} needs samples on the Cartesian grid; this acquisition is non-Cartesian`,
-      allowed: "trajectory: 'rasterised', or a method that works on trajectories (zero-filled, cs-tv)",
+      field: 'method.name',
+      message: `${method} works on Cartesian coil k-space; this receive-array acquisition is non-Cartesian`,
+      allowed: "zero-filled, cs-tv or sense with a non-Cartesian trajectory (or trajectory: 'rasterised')",
     });
   }
+  throw new ValidationError({
+    field: 'sampling.trajectory',
+    message: `${method} needs samples on the Cartesian grid; this acquisition is non-Cartesian`,
+    allowed: "trajectory: 'rasterised', or a method that works on trajectories (zero-filled, cs-tv, sense)",
+  });
 }

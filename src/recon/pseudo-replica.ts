@@ -3,6 +3,7 @@ import type { ComplexImage } from '../core/complex-image.ts';
 import { throwIfAborted, ValidationError } from '../core/errors.ts';
 import { SeededRandom } from '../core/random.ts';
 import { createMultiCoilArray, type MultiCoilKspace } from '../encoding/index.ts';
+import { PixelSpread } from './pixel-spread.ts';
 
 /** A reconstruction with everything but the data fixed (maps, λ, iteration count, kernels). */
 export type ReplicaReconstruction = (kspace: MultiCoilKspace, mask: Uint8Array) => ComplexImage;
@@ -87,9 +88,7 @@ export function pseudoReplicaGFactor(options: PseudoReplicaOptions): PseudoRepli
   const replica = createMultiCoilArray(coils, nx, ny);
 
   const spread = (data: MultiCoilKspace, sampled: Uint8Array): { sd: Float64Array; complex: boolean } => {
-    const mean = new Float64Array(2 * n);
-    const m2 = new Float64Array(n);
-    let complex = false;
+    const images = new PixelSpread(n);
     for (let k = 0; k < replicas; k++) {
       throwIfAborted(signal);
       replica.data.set(data.data);
@@ -108,22 +107,9 @@ export function pseudoReplicaGFactor(options: PseudoReplicaOptions): PseudoRepli
           }
         }
       }
-      const x = reconstruct(replica, sampled).data;
-      // Welford's running mean and sum of squared deviations, per complex pixel.
-      for (let i = 0; i < n; i++) {
-        const re = x[2 * i];
-        const im = x[2 * i + 1];
-        if (im !== 0) complex = true;
-        const dr = re - mean[2 * i];
-        const di = im - mean[2 * i + 1];
-        mean[2 * i] += dr / (k + 1);
-        mean[2 * i + 1] += di / (k + 1);
-        m2[i] += dr * (re - mean[2 * i]) + di * (im - mean[2 * i + 1]);
-      }
+      images.add(reconstruct(replica, sampled).data);
     }
-    const sd = new Float64Array(n);
-    for (let i = 0; i < n; i++) sd[i] = Math.sqrt(Math.max(0, m2[i]) / (replicas - 1));
-    return { sd, complex };
+    return { sd: images.standardDeviation(), complex: images.complex };
   };
 
   const accelerated = spread(acquired, mask);

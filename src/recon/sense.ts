@@ -1,10 +1,17 @@
 import { z } from 'zod';
-import { type ComplexImage, createComplexImage } from '../core/complex-image.ts';
+import type { ComplexImage } from '../core/complex-image.ts';
 import { ValidationError } from '../core/errors.ts';
 import type { Limits } from '../core/limits.ts';
-import { CartesianEncoding, type CoilMaps, type MultiCoilKspace } from '../encoding/index.ts';
+import {
+  CartesianEncoding,
+  type CoilMaps,
+  type CoilSamples,
+  type EncodingOperator,
+  type MultiCoilKspace,
+  peakSensitivityPower,
+} from '../encoding/index.ts';
 import { ACS_MAP_METHOD, estimateAcsMaps } from './acs-maps.ts';
-import { requireAcsBlock } from './acs-region.ts';
+import { type AcsBlock, requireAcsBlock } from './acs-region.ts';
 import { conjugateGradient } from './conjugate-gradient.ts';
 import type { ReconInput, ReconMethod, ReconOutput } from './method.ts';
 import {
@@ -14,6 +21,7 @@ import {
   iterationsToRun,
   type NumberRule,
 } from './parameters.ts';
+import { prepareTrajectorySense, TRAJECTORY_ACS_SIDE } from './sense-trajectory.ts';
 
 export const SENSE_DEFAULT_ITERATIONS = 50;
 export const SENSE_DEFAULT_TOLERANCE = 1e-6;
@@ -85,44 +93,10 @@ export interface PreparedSense {
 export function prepareSense(input: ReconInput, spec: SenseSpec, limits: Limits): PreparedSense {
   const kspace = coilKspaceOf(input);
   const { nx, ny } = kspace;
-  const known = input.coils ? input.coils.maps : undefined;
-  const singleCoil = !input.coils;
-  const requested = checkedChoice(
-    spec.maps,
-    'method.maps',
-    ['true', 'acs'] as const,
-    known || singleCoil ? 'true' : 'acs',
+  const { maps, mapsUsed } = senseMaps(input, spec, () =>
+    requireAcsBlock(input.mask, nx, ny, SENSE_MIN_ACS_ROWS, SENSE_MIN_ACS_ROWS, 'SENSE with maps "acs"'),
   );
-  let maps: CoilMaps | undefined;
-  let mapsUsed: PreparedSense['mapsUsed'];
-  if (requested === 'acs') {
-    const block = requireAcsBlock(
-      input.mask,
-      nx,
-      ny,
-      SENSE_MIN_ACS_ROWS,
-      SENSE_MIN_ACS_ROWS,
-      'SENSE with maps "acs"',
-    );
-    maps = estimateAcsMaps(kspace, block);
-    mapsUsed = 'acs';
-  } else if (singleCoil) {
-    maps = undefined;
-    mapsUsed = 'uniform';
-  } else if (known) {
-    maps = known;
-    mapsUsed = 'true';
-  } else {
-    throw new ValidationError({
-      field: 'method.maps',
-      message: 'no coil maps are known for these data (raw data without maps), so "true" maps cannot be used',
-      allowed: '"acs" (estimate the maps from the calibration lines)',
-    });
-  }
-  const iterationLimit = iterationsToRun(spec.iterations, SENSE_DEFAULT_ITERATIONS, limits);
-  const tolerance = checkedTolerance(spec.tolerance, SENSE_DEFAULT_TOLERANCE);
-  const tikhonov = checkedNumber(spec.tikhonov, 'method.tikhonov', SENSE_TIKHONOV_RULE, 0);
-  const tikhonovAbsolute = tikhonov * (maps ? peakSensitivityPower(maps) : 1);
+  const { iterationLimit, tolerance, tikhonov, tikhonovAbsolute } = senseSettings(spec, maps, limits);
   return {
     maps,
     mapsUsed,
@@ -132,38 +106,70 @@ export function prepareSense(input: ReconInput, spec: SenseSpec, limits: Limits)
     tikhonovAbsolute,
     solve(data, mask, overrides = {}) {
       const encoding = new CartesianEncoding(nx, ny, mask, maps);
-      const b = encoding.adjoint(data);
-      const x = createComplexImage(nx, ny);
-      const v = createComplexImage(nx, ny);
-      const out = createComplexImage(nx, ny);
-      const apply = (p: Float64Array, target: Float64Array): void => {
-        v.data.set(p);
-        encoding.normal(v, out);
-        for (let i = 0; i < target.length; i++) target[i] = out.data[i] + tikhonovAbsolute * p[i];
-      };
-      const result = conjugateGradient(apply, b.data, x.data, {
+      return solveSenseNormalEquations(encoding, data, tikhonovAbsolute, {
         iterations: overrides.iterations ?? iterationLimit,
         tolerance: overrides.tolerance ?? tolerance,
         signal: overrides.signal,
       });
-      return { image: x, ...result };
     },
   };
 }
 
-/** max over pixels of Σ_c |S_c|²: an upper bound of ‖EᴴE‖ (F unitary, 0/1 mask), so λ is scale-free. */
-function peakSensitivityPower(maps: CoilMaps): number {
-  const n = maps.nx * maps.ny;
-  let peak = 0;
-  for (let i = 0; i < n; i++) {
-    let sum = 0;
-    for (let c = 0; c < maps.coils; c++) {
-      const k = 2 * (c * n + i);
-      sum += maps.data[k] ** 2 + maps.data[k + 1] ** 2;
-    }
-    peak = Math.max(peak, sum);
-  }
-  return peak;
+/** CG on (EᴴE + λI)x = Eᴴy from x⁰ = 0, for any encoding operator (Cartesian or trajectory). */
+export function solveSenseNormalEquations(
+  encoding: EncodingOperator<CoilSamples>,
+  data: CoilSamples,
+  tikhonovAbsolute: number,
+  options: { iterations: number; tolerance: number; signal?: AbortSignal },
+): { image: ComplexImage; iterations: number; residual: number; converged: boolean } {
+  const b = encoding.adjoint(data);
+  const x = encoding.createImage();
+  const v = encoding.createImage();
+  const out = encoding.createImage();
+  const apply = (p: Float64Array, target: Float64Array): void => {
+    v.data.set(p);
+    encoding.normal(v, out);
+    for (let i = 0; i < target.length; i++) target[i] = out.data[i] + tikhonovAbsolute * p[i];
+  };
+  const result = conjugateGradient(apply, b.data, x.data, options);
+  return { image: x, ...result };
+}
+
+/**
+ * The maps of a SENSE spec on this input: 'true' uses `coils.maps` (a ValidationError naming
+ * `method.maps` when none are known); 'acs' estimates them (acs-maps.ts) from the block `acsBlock`
+ * gives, from `coils.kspace` (on a trajectory: the gridded coil k-space). Single coil: S = 1.
+ */
+export function senseMaps(
+  input: ReconInput,
+  spec: SenseSpec,
+  acsBlock: () => AcsBlock,
+): { maps: CoilMaps | undefined; mapsUsed: PreparedSense['mapsUsed'] } {
+  const known = input.coils ? input.coils.maps : undefined;
+  const singleCoil = !input.coils;
+  const requested = checkedChoice(
+    spec.maps,
+    'method.maps',
+    ['true', 'acs'] as const,
+    known || singleCoil ? 'true' : 'acs',
+  );
+  if (requested === 'acs') return { maps: estimateAcsMaps(coilKspaceOf(input), acsBlock()), mapsUsed: 'acs' };
+  if (singleCoil) return { maps: undefined, mapsUsed: 'uniform' };
+  if (known) return { maps: known, mapsUsed: 'true' };
+  throw new ValidationError({
+    field: 'method.maps',
+    message: 'no coil maps are known for these data (raw data without maps), so "true" maps cannot be used',
+    allowed: '"acs" (estimate the maps from the calibration lines)',
+  });
+}
+
+/** Iteration limit, tolerance and Tikhonov weight (relative and absolute) of a SENSE spec. */
+export function senseSettings(spec: SenseSpec, maps: CoilMaps | undefined, limits: Limits) {
+  const iterationLimit = iterationsToRun(spec.iterations, SENSE_DEFAULT_ITERATIONS, limits);
+  const tolerance = checkedTolerance(spec.tolerance, SENSE_DEFAULT_TOLERANCE);
+  const tikhonov = checkedNumber(spec.tikhonov, 'method.tikhonov', SENSE_TIKHONOV_RULE, 0);
+  const tikhonovAbsolute = tikhonov * (maps ? peakSensitivityPower(maps) : 1);
+  return { iterationLimit, tolerance, tikhonov, tikhonovAbsolute };
 }
 
 /**
@@ -176,32 +182,63 @@ export const sense: ReconMethod<SenseSpec> = {
   name: 'sense',
   schema: senseSchema,
   run(input, spec, { signal, limits }): ReconOutput {
+    if (input.trajectory) {
+      const prepared = prepareTrajectorySense(input, input.trajectory, spec, limits);
+      const result = prepared.solve(input.trajectory.samples, { signal });
+      return { image: result.image, info: senseInfo(input, prepared, result, true) };
+    }
     const prepared = prepareSense(input, spec, limits);
     const result = prepared.solve(coilKspaceOf(input), input.mask, { signal });
-    return {
-      image: result.image,
-      info: {
-        solver: 'conjugate gradient on (EᴴE + λI)x = Eᴴy, x⁰ = 0',
-        maps: prepared.mapsUsed,
-        ...(prepared.mapsUsed === 'true'
-          ? {
-              mapsNote:
-                'optimistic: the sensitivities the simulation used (or uploaded), not estimated from the data',
-            }
-          : {}),
-        ...(prepared.mapsUsed === 'acs' ? { mapsCalibration: ACS_MAP_METHOD } : {}),
-        ...(prepared.mapsUsed === 'uniform'
-          ? { mapsNote: 'single coil, S = 1: the zero-filled image up to the tolerance' }
-          : {}),
-        coils: input.coils ? input.coils.kspace.coils : 1,
-        tikhonov: prepared.tikhonov,
-        tikhonovAbsolute: prepared.tikhonovAbsolute,
-        iterations: result.iterations,
-        iterationLimit: prepared.iterationLimit,
-        tolerance: prepared.tolerance,
-        residual: result.residual,
-        converged: result.converged,
-      },
-    };
+    return { image: result.image, info: senseInfo(input, prepared, result, false) };
   },
 };
+
+/** What a SENSE run reports: solver, maps, λ, iterations and convergence. */
+function senseInfo(
+  input: ReconInput,
+  prepared: Omit<PreparedSense, 'solve'>,
+  result: { iterations: number; residual: number; converged: boolean },
+  trajectory: boolean,
+): Record<string, unknown> {
+  return {
+    ...(trajectory
+      ? {
+          solver:
+            'conjugate gradient on (EᴴWE + λI)x = EᴴWy, x⁰ = 0; E = NUFFT · maps, W the density compensation (Toeplitz EᴴWE)',
+          dataWeighting: input.trajectory?.weighting,
+        }
+      : { solver: 'conjugate gradient on (EᴴE + λI)x = Eᴴy, x⁰ = 0' }),
+    maps: prepared.mapsUsed,
+    ...(prepared.mapsUsed === 'true'
+      ? {
+          mapsNote:
+            'optimistic: the sensitivities the simulation used (or uploaded), not estimated from the data',
+        }
+      : {}),
+    ...(prepared.mapsUsed === 'acs'
+      ? {
+          mapsCalibration: ACS_MAP_METHOD,
+          ...(trajectory
+            ? {
+                mapsCalibrationRegion: `central ${TRAJECTORY_ACS_SIDE}×${TRAJECTORY_ACS_SIDE} of the gridded coil k-space`,
+              }
+            : {}),
+        }
+      : {}),
+    ...(prepared.mapsUsed === 'uniform'
+      ? {
+          mapsNote: trajectory
+            ? 'single coil, S = 1: the density-weighted least-squares image'
+            : 'single coil, S = 1: the zero-filled image up to the tolerance',
+        }
+      : {}),
+    coils: input.coils ? input.coils.kspace.coils : 1,
+    tikhonov: prepared.tikhonov,
+    tikhonovAbsolute: prepared.tikhonovAbsolute,
+    iterations: result.iterations,
+    iterationLimit: prepared.iterationLimit,
+    tolerance: prepared.tolerance,
+    residual: result.residual,
+    converged: result.converged,
+  };
+}

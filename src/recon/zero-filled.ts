@@ -26,7 +26,7 @@ export type ZeroFilledSpec = z.infer<typeof zeroFilledSchema>;
  * `info.combination` says which.
  */
 export function zeroFilledImage(input: ReconInput, densityCompensation = false): ReconOutput {
-  if (input.trajectory) return griddingImage(input.trajectory);
+  if (input.trajectory) return griddingImage(input.trajectory, input.coils?.maps);
   const { kspace, mask, density } = input;
   if (input.coils) return zeroFilledCoils(input, input.coils, densityCompensation);
   const n = kspace.nx * kspace.ny;

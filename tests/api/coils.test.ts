@@ -176,6 +176,54 @@ describe('receive arrays through the HTTP API', () => {
     expect(csv.text.split('\r\n')[3].split(',')[header.indexOf('coils')]).toBe('8 loops');
   });
 
+  it('receive arrays on a radial trajectory over HTTP: sense 201, grappa a 422 naming method.name, a plan with coilArrays × radial', async () => {
+    const radial = {
+      ...request,
+      sampling: { pattern: 'radial', acceleration: 2 },
+      method: { name: 'sense', iterations: 10 },
+      coils: loops,
+    };
+    const res = await t.http().post('/v1/reconstructions').send(radial);
+    expect(res.status).toBe(201);
+    await expectDocumented('POST', '/v1/reconstructions', res);
+    expect(res.body.coils).toMatchObject({ array: 'loops', count: 8 });
+    expect(res.body.info).toMatchObject({ maps: 'true', coils: 8, dataWeighting: 'radial-ramp' });
+    // SENSE with the true maps against the multi-coil gridding of the same samples (its zero-filled image).
+    const zf = await t
+      .http()
+      .post('/v1/reconstructions')
+      .send({ ...radial, method: { name: 'zero-filled' } });
+    expect(zf.status).toBe(201);
+    expect(res.body.metrics.nrmse).toBeLessThan(zf.body.metrics.nrmse);
+    const problem = await postProblem(
+      t,
+      '/v1/reconstructions',
+      { ...radial, method: { name: 'grappa' } },
+      422,
+      'method.name',
+    );
+    expect(problem.errors[0].message).toContain('grappa');
+    const plan = await t
+      .http()
+      .post('/v1/plans')
+      .send({
+        ...oneCellPlan,
+        patterns: [{ pattern: 'radial' }],
+        coilArrays: [{ array: 'uniform' }, loops],
+        methods: [{ name: 'zero-filled' }],
+      });
+    expect(plan.status).toBe(202);
+    const done = await finishedPlan(t, plan.body.id);
+    expect(done.body.status).toBe('done');
+    await expectDocumented('GET', `/v1/plans/${plan.body.id}`, done);
+    const rows = done.body.table.rows as { key: string; coils: string; nrmse: number }[];
+    expect(rows.map((r) => [r.key, r.coils])).toEqual([
+      ['reference', 'uniform'],
+      ['p0-r0-m0', 'uniform'],
+      ['p0-r0-m0-c1', '8 loops'],
+    ]);
+  });
+
   it('plan targets: a lesion task score in a plan without lesions is a 422 naming targets[0].metric', async () => {
     const problem = await postProblem(
       t,
