@@ -10,6 +10,13 @@ import type { CoilData, ReconInput, ReconMethod, ReconOutput } from './method.ts
 import { checkedNumber, checkedTolerance, iterationsToRun, type NumberRule } from './parameters.ts';
 import { extrapolate } from './primal-extrapolation.ts';
 import { totalVariation, tvDualAscent } from './total-variation.ts';
+import {
+  cartesianResidual,
+  chooseTvLambda,
+  dataNoiseEnergy,
+  type LambdaChoice,
+  operatorResidual,
+} from './tv-lambda.ts';
 
 export const LAMBDA_RULE: NumberRule = { min: 0, max: 10 };
 export { TOLERANCE_RULE } from './parameters.ts';
@@ -40,20 +47,6 @@ export const csTvSchema = z.strictObject({
     .describe(`stop when ‖x_k − x_{k−1}‖ / ‖x_k‖ < tolerance (default ${CS_TV_DEFAULT_TOLERANCE})`),
 });
 export type CsTvSpec = z.infer<typeof csTvSchema>;
-
-/**
- * Default relative λ from the acquired fraction f: λ = 0.002·(1/f − 1), at most 0.05. Fewer
- * samples need more regularisation and at full sampling λ vanishes (a fixed λ can lose to
- * zero-filled at R = 2). Measured on the 1974 Shepp–Logan and the resolution-contrast phantoms
- * (analytic k-space, 128², seed 11, 400 iterations; the tests assert on the modified phantom with
- * another seed): the best λ was 0.001–0.0025 at R = 2, 0.004–0.0075 at R = 4 and 0.009–0.035 at R = 8
- * for both random lines and Poisson-disc, i.e. proportional to R − 1 = 1/f − 1; 0.002 sits in
- * the middle of the phantoms' optima.
- */
-export function defaultTvLambda(fraction: number): number {
-  if (!(fraction > 0)) return 0.05;
-  return Math.min(0.05, 0.002 * (1 / Math.min(1, fraction) - 1));
-}
 
 // Chambolle–Pock steps: τσ‖∇‖² < 1 with ‖∇‖² ≤ 8 (Chambolle 2004; Chambolle & Pock 2011).
 const TAU = 0.99 / Math.sqrt(8);
@@ -167,12 +160,17 @@ export const csTv: ReconMethod<CsTvSpec> = {
   name: 'cs-tv',
   schema: csTvSchema,
   run(input, spec, { signal, limits }): ReconOutput {
-    const fraction = acquiredFraction(input.mask);
-    const lambda = checkedNumber(spec.lambda, 'method.lambda', LAMBDA_RULE, defaultTvLambda(fraction));
+    const requested =
+      spec.lambda === undefined ? undefined : checkedNumber(spec.lambda, 'method.lambda', LAMBDA_RULE, 0);
     const iterations = iterationsToRun(spec.iterations, CS_TV_DEFAULT_ITERATIONS, limits);
     const tolerance = checkedTolerance(spec.tolerance, CS_TV_DEFAULT_TOLERANCE);
-    const lambdaSource = spec.lambda === undefined ? 'default from acquired fraction' : 'request';
-    const params = { lambda, lambdaSource, iterations, tolerance };
+    const params: LambdaSettings = {
+      requested,
+      fraction: acquiredFraction(input.mask),
+      noiseEnergy: dataNoiseEnergy(input),
+      iterations,
+      tolerance,
+    };
     if (input.trajectory) {
       const { plan, trajectory, weights, weighting, samples } = input.trajectory;
       // A density-weighted data term (W = the gridding weights) keeps EᴴE = AᴴWA near the identity,
@@ -193,26 +191,51 @@ export const csTv: ReconMethod<CsTvSpec> = {
     }
     if (input.coils) return runOnCoils(input, input.coils, params, signal);
     const peak = zeroFilledPeak(input);
-    const result = solveCsTv(input, lambda * peak, iterations, tolerance, signal);
+    const choice = lambdaFor(params, (lambda, trialIterations) =>
+      cartesianResidual(input, solveCsTv(input, lambda * peak, trialIterations, tolerance, signal).image),
+    );
+    const result = solveCsTv(input, choice.lambda * peak, iterations, tolerance, signal);
     return {
       image: result.image,
       info: {
         solver: 'Chambolle–Pock primal–dual, τ = σ = 0.99/√8',
-        ...solverInfo({ lambda, lambdaSource, iterations, tolerance }, lambda * peak, result),
+        ...solverInfo(choice, params, choice.lambda * peak, result),
       },
     };
   },
 };
 
-/** The info every cs-tv run reports: λ (relative, its source, absolute), iterations, convergence, objective. */
+/** What picks a run's λ (tv-lambda.ts) and stops its solver. */
+interface LambdaSettings {
+  /** The request's relative λ, checked; undefined = choose one. */
+  requested: number | undefined;
+  fraction: number;
+  /** E‖n‖² of the data term; 0 = noiseless or unknown. */
+  noiseEnergy: number;
+  iterations: number;
+  tolerance: number;
+}
+
+/** The run's λ: explicit, discrepancy principle (known noise) or the anatomy default. */
+function lambdaFor(
+  params: LambdaSettings,
+  residualAt: (lambda: number, iterations: number) => number,
+): LambdaChoice {
+  const problem = params.noiseEnergy > 0 ? { noiseEnergy: params.noiseEnergy, residualAt } : undefined;
+  return chooseTvLambda(params.requested, params.fraction, params.iterations, problem);
+}
+
+/** The info every cs-tv run reports: λ (relative, its rule, absolute), iterations, convergence, objective. */
 function solverInfo(
-  params: { lambda: number; lambdaSource: string; iterations: number; tolerance: number },
+  choice: LambdaChoice,
+  params: LambdaSettings,
   lambdaAbsolute: number,
   result: { iterations: number; relativeChange: number; objective: number; tv: number },
 ): Record<string, unknown> {
   return {
-    lambda: params.lambda,
-    lambdaSource: params.lambdaSource,
+    lambda: choice.lambda,
+    lambdaRule: choice.rule,
+    ...(choice.discrepancy ? { discrepancy: choice.discrepancy } : {}),
     lambdaAbsolute,
     iterations: result.iterations,
     iterationLimit: params.iterations,
@@ -232,7 +255,7 @@ function solverInfo(
 function runOnCoils(
   input: ReconInput,
   coils: CoilData,
-  params: { lambda: number; lambdaSource: string; iterations: number; tolerance: number },
+  params: LambdaSettings,
   signal?: AbortSignal,
 ): ReconOutput {
   const { maps, kspace } = coils;
@@ -256,11 +279,16 @@ function runOnCoils(
 function runOnOperator(
   operator: EncodingOperator<CoilSamples>,
   data: CoilSamples,
-  params: { lambda: number; lambdaSource: string; iterations: number; tolerance: number },
+  params: LambdaSettings,
   operatorName: string,
   signal?: AbortSignal,
 ): ReconOutput {
-  const lambdaAbsolute = params.lambda * backProjectionPeak(operator, data);
+  const peak = backProjectionPeak(operator, data);
+  const choice = lambdaFor(params, (lambda, trialIterations) => {
+    const trial = solveCsTvEncoding(operator, data, lambda * peak, trialIterations, params.tolerance, signal);
+    return operatorResidual(operator, data, trial.image);
+  });
+  const lambdaAbsolute = choice.lambda * peak;
   const result = solveCsTvEncoding(
     operator,
     data,
@@ -273,7 +301,7 @@ function runOnOperator(
     image: result.image,
     info: {
       solver: `Chambolle–Pock primal–dual on ${operatorName}, τ = σ = 0.99/√8; data prox (I + τEᴴE)⁻¹ by conjugate gradients`,
-      ...solverInfo(params, lambdaAbsolute, result),
+      ...solverInfo(choice, params, lambdaAbsolute, result),
       proxTolerance: PROX_TOLERANCE,
       meanProxSteps: result.iterations > 0 ? result.proxSteps / result.iterations : 0,
     },
