@@ -31,7 +31,8 @@ export const csTvSchema = z.strictObject({
     .max(LAMBDA_RULE.max)
     .optional()
     .describe(
-      'TV weight relative to max |F_cᴴ y| (scale-free); default 0.002·(1/f − 1), f = acquired fraction',
+      'TV weight relative to max |F_cᴴ y| (scale-free); default: with known noise σ the discrepancy principle, ' +
+        'else 0.0009·(1/f − 1)^1.75 (at most 0.05), f = acquired fraction',
     ),
   iterations: z
     .number()

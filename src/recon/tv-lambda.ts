@@ -8,7 +8,7 @@ import { defaultTvLambda } from './parameters.ts';
 export type LambdaRule = 'explicit' | 'anatomy-default' | 'discrepancy';
 
 /**
- * Morozov's discrepancy principle (Morozov 1966; docs/references.md §5.5): the λ whose solution
+ * Morozov's discrepancy principle (Morozov 1966; docs/references.md §5.7): the λ whose solution
  * leaves a data residual equal to the noise the data carry, ‖E x_λ − y‖² = DISCREPANCY_FACTOR · E‖n‖²,
  * E‖n‖² = 2σ²·(weighted sample count) for complex noise of σ per real channel. Factor 1 is the
  * principle as published; it is known to regularise a little more than the error-optimal λ.

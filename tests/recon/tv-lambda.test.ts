@@ -12,7 +12,7 @@ import { cartesianResidual, dataNoiseEnergy, discrepancySearch } from '../../src
 import { relativeError } from '../error-measures.ts';
 import { fullMask } from './helpers.ts';
 
-describe('discrepancy search (Morozov 1966, docs/references.md §5.5)', () => {
+describe('discrepancy search (Morozov 1966, docs/references.md §5.7)', () => {
   it('finds the root of a monotone residual worked by hand: r(λ) = 3λ², target 0.12 → λ = 0.2', () => {
     // 3λ² = 0.12 ⇔ λ = √0.04 = 0.2, from either side of the start.
     for (const start of [0.001, 5]) {
