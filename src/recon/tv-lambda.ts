@@ -41,7 +41,12 @@ export interface DiscrepancyProblem {
 
 /**
  * The λ of a cs-tv run: the request's when given; else, with known noise (σ > 0), the discrepancy
- * principle; else the anatomy-tuned default of the acquired fraction (defaultTvLambda).
+ * principle, but never below the anatomy default; else the anatomy-tuned default of the acquired
+ * fraction (defaultTvLambda). Why the floor: on undersampled data the residual on the acquired
+ * samples measures the noise only, not the aliasing TV must also remove, so at high SNR the
+ * discrepancy λ alone is too weak (measured on the modified phantom, 128², lines R 4, SNR 40:
+ * λ 0.0040 and NRMSE 0.285 against 0.245 at the default 0.0062). The residual grows with λ, so
+ * when the default already leaves a residual at or above the target it is kept after one trial.
  */
 export function chooseTvLambda(
   requested: number | undefined,
@@ -54,15 +59,21 @@ export function chooseTvLambda(
   if (!problem || !(problem.noiseEnergy > 0)) return { lambda: start, rule: 'anatomy-default' };
   const trialIterations = Math.min(iterations, DISCREPANCY_ITERATIONS);
   const target = DISCREPANCY_FACTOR * problem.noiseEnergy;
-  const found = discrepancySearch(
-    (lambda) => problem.residualAt(lambda, trialIterations),
-    target,
-    Math.max(start, 1e-4),
-  );
+  const residualAt = (lambda: number) => problem.residualAt(lambda, trialIterations);
+  const searchStart = Math.max(start, 1e-4);
+  const startResidual = residualAt(searchStart);
+  if (start > 0 && startResidual >= target) {
+    return {
+      lambda: start,
+      rule: 'anatomy-default',
+      discrepancy: { target, residual: startResidual, trials: 1, trialIterations },
+    };
+  }
+  const found = discrepancySearch(residualAt, target, searchStart, startResidual);
   return {
     lambda: found.lambda,
     rule: 'discrepancy',
-    discrepancy: { target, residual: found.residual, trials: found.trials, trialIterations },
+    discrepancy: { target, residual: found.residual, trials: found.trials + 1, trialIterations },
   };
 }
 
@@ -75,6 +86,8 @@ export function discrepancySearch(
   residualAt: (lambda: number) => number,
   target: number,
   start: number,
+  /** residual(start) when the caller already has it (not counted in `trials`). */
+  startResidual?: number,
 ): { lambda: number; residual: number; trials: number } {
   let trials = 0;
   const evaluate = (lambda: number) => {
@@ -82,7 +95,7 @@ export function discrepancySearch(
     return residualAt(lambda);
   };
   let lo = start;
-  let rLo = evaluate(lo);
+  let rLo = startResidual ?? evaluate(lo);
   let hi = lo;
   let rHi = rLo;
   if (rLo < target) {

@@ -81,6 +81,35 @@ describe('cs-tv λ rules: explicit, discrepancy (σ > 0), anatomy default (σ = 
     expect(plain.info.lambda as number).toBeGreaterThan(0);
   });
 
+  it('undersampled: high SNR keeps the anatomy default after one trial; low SNR raises λ above it and lowers the error', () => {
+    const { mask, fraction } = generateMask(
+      { nx: n, ny: n },
+      { pattern: 'cartesian-random', acceleration: 4, acs: 8, seed: 2 },
+    );
+    const run = (snr: number, lambda?: number) => {
+      const { kspace, sigma } = acquire(full, mask, { snr }, 9);
+      const spec = lambda === undefined ? { name: 'cs-tv' as const } : { name: 'cs-tv' as const, lambda };
+      return reconstruct({ kspace, mask, noiseSigma: sigma }, spec, { limits: defaultLimits });
+    };
+    // High SNR: the residual of the default already exceeds 2σ²m (aliasing, not noise), and the
+    // residual grows with λ, so the discrepancy λ lies below the default: the default is kept.
+    const high = run(200);
+    expect(high.info.lambdaRule).toBe('anatomy-default');
+    expect(high.info.lambda).toBe(defaultTvLambda(fraction));
+    const check = high.info.discrepancy as { target: number; residual: number; trials: number };
+    expect(check.trials).toBe(1);
+    expect(check.residual).toBeGreaterThanOrEqual(check.target);
+    // Low SNR: the noise asks for more than the default.
+    const low = run(4);
+    expect(low.info.lambdaRule).toBe('discrepancy');
+    expect(low.info.lambda as number).toBeGreaterThan(defaultTvLambda(fraction));
+    const atDefault = run(4, defaultTvLambda(fraction));
+    const errorLow = relativeError(low.image.data, reference);
+    const errorDefault = relativeError(atDefault.image.data, reference);
+    // Measured at 64², lines R 4, SNR 4: λ 0.063, error 0.425 against 0.462 at the default.
+    expect(errorLow).toBeLessThan(errorDefault);
+  });
+
   it('paired runs and replicas reuse the base λ: the pinned run reproduces a discrepancy-chosen base run', () => {
     const { mask } = generateMask(
       { nx: n, ny: n },
