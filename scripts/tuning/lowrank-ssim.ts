@@ -5,6 +5,8 @@
  *   npx tsx scripts/tuning/lowrank-ssim.ts --n=96 --shard=0/2 --out=/tmp/lowrank-0.csv   (and 1/2)
  *   npx tsx scripts/tuning/lowrank-ssim.ts --accelerations=2,4,8 --ranks=18,25,32,38 \
  *     --slices=inia19-t1-brain:72,example4d:12 --out=/tmp/lowrank-ranks.csv   (fixed-rank sweep)
+ *   npx tsx scripts/tuning/lowrank-ssim.ts --accelerations=2,4,8 --ranks=25,default --shard=0/2 \
+ *     --out=/tmp/lowrank-before-after-0.csv   (the old fixed rank 25 against the rank rule)
  *
  * Rows join into docs/tuning/lowrank-hankel-ssim.csv; docs/design.md §3.12 reads them.
  */
@@ -18,10 +20,15 @@ import { scriptArguments, TUNING_MASKS } from './cases.ts';
 const args = scriptArguments(process.argv.slice(2));
 const n = Number(args.get('n') ?? 96);
 const accelerations = (args.get('accelerations') ?? '4').split(',').map(Number);
-const ranks = args.get('ranks')?.split(',').map(Number);
+/** `--ranks=25,default`: fixed ranks, or the method's default rank rule. */
+const ranks = args.get('ranks')?.split(',');
 const slices = args.get('slices')?.split(',');
 const METHODS: { label: string; spec: MethodSpec }[] = ranks
-  ? ranks.map((rank) => ({ label: `lowrank-hankel rank ${rank}`, spec: { name: 'lowrank-hankel', rank } }))
+  ? ranks.map((rank) =>
+      rank === 'default'
+        ? { label: 'lowrank-hankel default', spec: { name: 'lowrank-hankel' } }
+        : { label: `lowrank-hankel rank ${rank}`, spec: { name: 'lowrank-hankel', rank: Number(rank) } },
+    )
   : [
       { label: 'cs-tv default', spec: { name: 'cs-tv' } },
       { label: 'lowrank-hankel default', spec: { name: 'lowrank-hankel' } },
