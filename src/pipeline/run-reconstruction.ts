@@ -566,7 +566,14 @@ export async function runReconstruction(
     sigma = acquired.sigma;
     const coilData: CoilData = { kspace: acquired.kspace, maps: acquired.maps };
     knownZeroFilled = zeroFilledCoilCombination(coilData);
-    input = { kspace: fft2c(knownZeroFilled), mask: sampled.mask, density: sampled.density, coils: coilData };
+    input = {
+      kspace: fft2c(knownZeroFilled),
+      mask: sampled.mask,
+      density: sampled.density,
+      coils: coilData,
+      // Prewhitened coil noise: σ per real channel of every coil.
+      noiseSigma: coilSigma,
+    };
     referenceImage = simulation.reference;
     objectMask = simulation.objectMask;
   } else {
@@ -577,7 +584,7 @@ export async function runReconstruction(
     sigma = acquired.sigma;
     noise = { prewhitened: false, variance: 2 * sigma ** 2 };
     if (sigma > 0) notes.push(`complex Gaussian noise, σ = ${sigma.toPrecision(4)} per real channel`);
-    input = acquired.input;
+    input = { ...acquired.input, noiseSigma: sigma };
     // Non-Cartesian: the gridded image already made for `kspace` is the zero-filled comparison.
     knownZeroFilled = acquired.gridded;
     referenceImage = single.reference;

@@ -17,6 +17,13 @@ import { checkedNumber, checkedTolerance, iterationsToRun, type NumberRule } fro
 import { extrapolate } from './primal-extrapolation.ts';
 import { StoppingRule } from './stopping-rule.ts';
 import { totalVariation, tvDualAscent } from './total-variation.ts';
+import {
+  cartesianResidual,
+  chooseTvLambda,
+  dataNoiseEnergy,
+  type LambdaChoice,
+  operatorResidual,
+} from './tv-lambda.ts';
 
 export const LAMBDA_RULE: NumberRule = { min: 0, max: 10 };
 export { TOLERANCE_RULE } from './parameters.ts';
@@ -31,7 +38,8 @@ export const csTvSchema = z.strictObject({
     .max(LAMBDA_RULE.max)
     .optional()
     .describe(
-      'TV weight relative to max |F_cᴴ y| (scale-free); default 0.002·(1/f − 1), f = acquired fraction',
+      'TV weight relative to max |F_cᴴ y| (scale-free); default: with known noise σ the discrepancy principle, ' +
+        'else 0.0009·(1/f − 1)^1.75 (at most 0.05), f = acquired fraction',
     ),
   iterations: z
     .number()
@@ -47,20 +55,6 @@ export const csTvSchema = z.strictObject({
     .describe(`stop when ‖x_k − x_{k−1}‖ / ‖x_k‖ < tolerance (default ${CS_TV_DEFAULT_TOLERANCE})`),
 });
 export type CsTvSpec = z.infer<typeof csTvSchema>;
-
-/**
- * Default relative λ from the acquired fraction f: λ = 0.002·(1/f − 1), at most 0.05. Fewer
- * samples need more regularisation and at full sampling λ vanishes (a fixed λ can lose to
- * zero-filled at R = 2). Measured on the 1974 Shepp–Logan and the resolution-contrast phantoms
- * (analytic k-space, 128², seed 11, 400 iterations; the tests assert on the modified phantom with
- * another seed): the best λ was 0.001–0.0025 at R = 2, 0.004–0.0075 at R = 4 and 0.009–0.035 at R = 8
- * for both random lines and Poisson-disc, i.e. proportional to R − 1 = 1/f − 1; 0.002 sits in
- * the middle of the phantoms' optima.
- */
-export function defaultTvLambda(fraction: number): number {
-  if (!(fraction > 0)) return 0.05;
-  return Math.min(0.05, 0.002 * (1 / Math.min(1, fraction) - 1));
-}
 
 // Chambolle–Pock steps: τσ‖∇‖² < 1 with ‖∇‖² ≤ 8 (Chambolle 2004; Chambolle & Pock 2011).
 const TAU = 0.99 / Math.sqrt(8);
@@ -209,12 +203,17 @@ export const csTv: ReconMethod<CsTvSpec> = {
   name: 'cs-tv',
   schema: csTvSchema,
   run(input, spec, { signal, limits }): ReconOutput {
-    const fraction = acquiredFraction(input.mask);
-    const lambda = checkedNumber(spec.lambda, 'method.lambda', LAMBDA_RULE, defaultTvLambda(fraction));
+    const requested =
+      spec.lambda === undefined ? undefined : checkedNumber(spec.lambda, 'method.lambda', LAMBDA_RULE, 0);
     const iterations = iterationsToRun(spec.iterations, CS_TV_DEFAULT_ITERATIONS, limits);
     const tolerance = checkedTolerance(spec.tolerance, CS_TV_DEFAULT_TOLERANCE);
-    const lambdaSource = spec.lambda === undefined ? 'default from acquired fraction' : 'request';
-    const params = { lambda, lambdaSource, iterations, tolerance };
+    const params: LambdaSettings = {
+      requested,
+      fraction: acquiredFraction(input.mask),
+      noiseEnergy: dataNoiseEnergy(input),
+      iterations,
+      tolerance,
+    };
     const problem = encodingProblem(input, 'cs-tv');
     if (problem) {
       // With a bound of ‖EᴴE‖ (a trajectory's Toeplitz kernel) the data term is linearised: one EᴴE
@@ -233,20 +232,44 @@ export const csTv: ReconMethod<CsTvSpec> = {
       return { image: output.image, info: { ...output.info, ...problem.info } };
     }
     const peak = zeroFilledPeak(input);
-    const result = solveCsTv(input, lambda * peak, iterations, tolerance, signal);
+    const choice = lambdaFor(params, (lambda, trialIterations) =>
+      cartesianResidual(input, solveCsTv(input, lambda * peak, trialIterations, tolerance, signal).image),
+    );
+    const result = solveCsTv(input, choice.lambda * peak, iterations, tolerance, signal);
     return {
       image: result.image,
       info: {
         solver: 'Chambolle–Pock primal–dual, τ = σ = 0.99/√8',
-        ...solverInfo({ lambda, lambdaSource, iterations, tolerance }, lambda * peak, result),
+        ...solverInfo(choice, params, choice.lambda * peak, result),
       },
     };
   },
 };
 
-/** The info every cs-tv run reports: λ (relative, its source, absolute), iterations, convergence, objective. */
+/** What picks a run's λ (tv-lambda.ts) and stops its solver. */
+interface LambdaSettings {
+  /** The request's relative λ, checked; undefined = choose one. */
+  requested: number | undefined;
+  fraction: number;
+  /** E‖n‖² of the data term; 0 = noiseless or unknown. */
+  noiseEnergy: number;
+  iterations: number;
+  tolerance: number;
+}
+
+/** The run's λ: explicit, discrepancy principle (known noise) or the anatomy default. */
+function lambdaFor(
+  params: LambdaSettings,
+  residualAt: (lambda: number, iterations: number) => number,
+): LambdaChoice {
+  const problem = params.noiseEnergy > 0 ? { noiseEnergy: params.noiseEnergy, residualAt } : undefined;
+  return chooseTvLambda(params.requested, params.fraction, params.iterations, problem);
+}
+
+/** The info every cs-tv run reports: λ (relative, its rule, absolute), iterations, convergence, objective. */
 function solverInfo(
-  params: { lambda: number; lambdaSource: string; iterations: number; tolerance: number },
+  choice: LambdaChoice,
+  params: LambdaSettings,
   lambdaAbsolute: number,
   result: {
     iterations: number;
@@ -257,8 +280,9 @@ function solverInfo(
   },
 ): Record<string, unknown> {
   return {
-    lambda: params.lambda,
-    lambdaSource: params.lambdaSource,
+    lambda: choice.lambda,
+    lambdaRule: choice.rule,
+    ...(choice.discrepancy ? { discrepancy: choice.discrepancy } : {}),
     lambdaAbsolute,
     iterations: result.iterations,
     iterationLimit: params.iterations,
@@ -278,27 +302,27 @@ function solverInfo(
 function runOnOperator(
   operator: EncodingOperator<CoilSamples>,
   data: CoilSamples,
-  params: { lambda: number; lambdaSource: string; iterations: number; tolerance: number; normBound?: number },
+  params: LambdaSettings & { normBound?: number },
   operatorName: string,
   signal?: AbortSignal,
 ): ReconOutput {
-  const lambdaAbsolute = params.lambda * backProjectionPeak(operator, data);
+  const peak = backProjectionPeak(operator, data);
   const { normBound } = params;
+  const solve = (lambdaAbsolute: number, iterations: number) =>
+    normBound === undefined
+      ? solveCsTvEncoding(operator, data, lambdaAbsolute, iterations, params.tolerance, signal)
+      : solveCsTvLinearised(operator, data, lambdaAbsolute, iterations, params.tolerance, normBound, signal);
+  const choice = lambdaFor(params, (lambda, trialIterations) =>
+    operatorResidual(operator, data, solve(lambda * peak, trialIterations).image),
+  );
+  const lambdaAbsolute = choice.lambda * peak;
   if (normBound !== undefined) {
-    const result = solveCsTvLinearised(
-      operator,
-      data,
-      lambdaAbsolute,
-      params.iterations,
-      params.tolerance,
-      normBound,
-      signal,
-    );
+    const result = solve(lambdaAbsolute, params.iterations);
     return {
       image: result.image,
       info: {
         solver: `Condat–Vũ primal–dual on ${operatorName}: gradient step on the data term, σ = 0.99/√8, τ = 0.99/(L/2 + 8σ)`,
-        ...solverInfo(params, lambdaAbsolute, result),
+        ...solverInfo(choice, params, lambdaAbsolute, result),
         normalBound: normBound,
       },
     };
@@ -315,7 +339,7 @@ function runOnOperator(
     image: result.image,
     info: {
       solver: `Chambolle–Pock primal–dual on ${operatorName}, τ = σ = 0.99/√8; data prox (I + τEᴴE)⁻¹ by conjugate gradients`,
-      ...solverInfo(params, lambdaAbsolute, result),
+      ...solverInfo(choice, params, lambdaAbsolute, result),
       proxTolerance: PROX_TOLERANCE,
       meanProxSteps: result.iterations > 0 ? result.proxSteps / result.iterations : 0,
     },

@@ -6,6 +6,7 @@ import { checkMultiCoilShape, transformPlaneInPlace } from '../encoding/index.ts
 import { BlockHankel } from './block-hankel.ts';
 import { combineCoilImages } from './coil-combination.ts';
 import { derivativeWeights } from './derivative-weights.ts';
+import { defaultHankelRank } from './hankel-rank.ts';
 import { HermitianEigenSolver } from './hermitian-eigen.ts';
 import { STACKED_COLUMNS_MAX, solveLowrankHankelCoils } from './lowrank-hankel-coils.ts';
 import {
@@ -35,8 +36,7 @@ export type HankelWeighting = (typeof WEIGHTINGS)[number];
  */
 export const HANKEL_DEFAULTS = {
   kernel: [7, 7] as [number, number],
-  /** Default rank = round(rankFraction · window area) when neither rank nor energy is given. */
-  rankFraction: 0.5,
+  /** Default rank: defaultHankelRank (hankel-rank.ts) when neither rank nor energy is given. */
   weighting: 'gradient' as HankelWeighting,
   iterations: 100,
   tolerance: 1e-5,
@@ -58,7 +58,7 @@ export const lowrankHankelSchema = z.strictObject({
     .min(1)
     .optional()
     .describe(
-      'truncation rank ≤ window area (× coils for a coil array); default half the window area (twice it for a coil array) unless energy is given',
+      'truncation rank ≤ window area (× coils for a coil array); default 0.65 × window area when ≥ 30 % of k-space is acquired, else half of it (twice the area for a coil array), unless energy is given',
     ),
   energy: z
     .number()
@@ -315,7 +315,7 @@ export const lowrankHankel: ReconMethod<LowrankHankelSpec> = {
             { min: 1, max: columns, integer: true },
             input.coils
               ? Math.min(columns, Math.round(HANKEL_COIL_DEFAULTS.rankPerArea * area))
-              : Math.max(1, Math.round(HANKEL_DEFAULTS.rankFraction * area)),
+              : defaultHankelRank(area, input.mask),
           );
     const weighting = checkedChoice(
       spec.weighting,

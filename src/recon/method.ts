@@ -55,6 +55,12 @@ export interface ReconInput {
    * trajectory's picture (its nearest grid points) and `kspace` the gridded data, for scales.
    */
   trajectory?: TrajectoryData;
+  /**
+   * Noise σ per real channel of the data a method reconstructs (prewhitened coil data; trajectory
+   * samples before density weighting), when known; absent or 0: noiseless or unknown. Methods
+   * with an automatic λ use it (cs-tv: the discrepancy principle, tv-lambda.ts).
+   */
+  noiseSigma?: number;
 }
 
 export interface ReconOptions {

@@ -86,9 +86,32 @@ export function checkedChoice<T extends string>(
  * λ = 0.00025·(1/f − 1), at most 0.02, and 0 at full sampling. The coefficient was chosen at R = 4
  * on the 1974 Shepp–Logan and the resolution-contrast phantoms (analytic k-space, 128², seed 11,
  * db4, 4 levels, cycle spinning, 150–200 iterations), where the best λ was 0.0005–0.001; the growth
- * with 1/f − 1 is carried over from the cs-tv rule (defaultTvLambda), not measured again for wavelets.
+ * with 1/f − 1 is carried over from the earlier phantom-tuned cs-tv rule 0.002·(1/f − 1), not
+ * measured for wavelets (the anatomy tuning of docs/design.md §3.12 covers cs-tv only).
  */
 export function defaultCsWaveletLambda(fraction: number): number {
   if (!(fraction > 0)) return 0.02;
   return Math.min(0.02, 0.00025 * (1 / Math.min(1, fraction) - 1));
+}
+
+/** The anatomy rule λ = TV_LAMBDA_SCALE·(1/f − 1)^TV_LAMBDA_POWER (docs/design.md §3.12). */
+export const TV_LAMBDA_SCALE = 0.0009;
+export const TV_LAMBDA_POWER = 1.75;
+/** Upper end of the default: beyond the tuned range (best λ ≤ 0.043 down to f = 1/8). */
+export const TV_LAMBDA_DEFAULT_MAX = 0.05;
+
+/**
+ * Default relative cs-tv λ (noiseless, or σ unknown) from the acquired fraction f:
+ * λ = 0.0009·(1/f − 1)^1.75, at most 0.05; 0 at full sampling. Fitted (least squares in log λ
+ * against log(1/f − 1)) to the best-NRMSE λ of 48 noiseless cases on real anatomy: slices of the
+ * INIA19 macaque T1 template (Debian mricron-data) and of nibabel's example4d EPI (Debian
+ * python3-nibabel) at 96², 1D variable-density lines, Poisson-disc and rasterised golden-angle
+ * masks, R 2–8 (scripts/tune-defaults.ts, docs/tuning/cs-tv-defaults.csv). The earlier rule
+ * 0.002·(1/f − 1), tuned on piecewise-constant phantoms, was 2–3× too strong at R = 2 and half the
+ * anatomy optimum for Cartesian masks at R = 8.
+ */
+export function defaultTvLambda(fraction: number): number {
+  if (!(fraction > 0)) return TV_LAMBDA_DEFAULT_MAX;
+  const excess = 1 / Math.min(1, fraction) - 1;
+  return Math.min(TV_LAMBDA_DEFAULT_MAX, TV_LAMBDA_SCALE * excess ** TV_LAMBDA_POWER);
 }
