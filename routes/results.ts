@@ -221,7 +221,8 @@ export async function resultRoutes(app: FastifyInstance): Promise<void> {
           'What the reconstruction method was given (after noise and prewhitening), coil as the last ' +
           'dimension. Cartesian: dim = [4, nx, ny, 1, coils], voxel (u, v, 0, c) = k-space column u ' +
           '(kx = u − ⌊nx/2⌋), row v (ky = ⌊ny/2⌋ − v), zeros where not acquired; non-Cartesian: ' +
-          'dim = [4, samples per readout, readouts, 1, coils] in acquisition order. ' +
+          'dim = [4, samples per readout, readouts, 1, coils] in acquisition order. Volumes (one coil): ' +
+          'dim = [4, nx, ny, nz, 1], 3D k-space (kz = w − ⌊nz/2⌋) or the k-space of every z-slice (multi-slice). ' +
           'acquisition.json carries the header (mask table or trajectory, noise, seed, scaling).',
         tags: ['results'],
         params: idParams,

@@ -1,4 +1,7 @@
-import { readFileSync } from 'node:fs';
+import { execFileSync } from 'node:child_process';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { decodeImage } from '../../src/io/decode-image.ts';
 import { parseReconstructionRequest, runReconstruction } from '../../src/pipeline/run-reconstruction.ts';
@@ -100,6 +103,49 @@ describe('volumes over HTTP', () => {
     const centre = reference.subarray(16 * 32 * 32, 17 * 32 * 32);
     expect(Number(png.headers['x-grey-white'])).toBeCloseTo(Math.max(...centre), 3);
   });
+
+  // The bundle read outside the service: nibabel + numpy (tests/reference/volume_acquisition_check.py)
+  // rebuild the zero-filled volume from acquisition.nii and acquisition.json.
+  const checkScript = new URL('../reference/volume_acquisition_check.py', import.meta.url).pathname;
+  for (const acquisition of ['3d', 'multi-slice'] as const) {
+    it(`acquisition export of a ${acquisition} volume: numpy's zero-filled volume is the service's`, async () => {
+      const id = await uploadVolume();
+      const res = await t
+        .http()
+        .post('/v1/reconstructions')
+        .send(volumeRequest(id, { acquisition, noise: { snr: 30 } }));
+      expect(res.status).toBe(201);
+      const urls = res.body.acquisition as { nifti: string; json: string };
+      expect(urls.nifti).toBe(`/v1/results/${res.body.id}/acquisition.nii`);
+      const header = (await t.http().get(urls.json)).body;
+      const plane = 32 * 32; // the mask's grid: ky × kz (3D) or ky × kx (multi-slice)
+      expect(header).toMatchObject({
+        matrix: { nx: 32, ny: 32, nz: 32 },
+        volume: { acquisition },
+        coils: 1,
+        samples: { datatype: 'complex64', dims: [32, 32, 32, 1] },
+        noise: { prewhitened: false },
+        table: { columns: ['order', 'ky', acquisition === '3d' ? 'kz' : 'kx'], unit: 'grid index' },
+      });
+      // E|n|² = 2σ² per complex sample, σ from the response's note (4 significant digits, design §3.5).
+      const note = (res.body.notes as string[]).find((n) => n.includes('σ ='));
+      const sigma = Number(note?.match(/σ = ([\d.e+-]+)/)?.[1]);
+      expect(Math.abs(header.noise.variancePerSample / (2 * sigma ** 2) - 1)).toBeLessThan(1.5e-3);
+      const folder = mkdtempSync(join(tmpdir(), 'kspace-volume-acquisition-'));
+      for (const name of ['acquisition.nii', 'acquisition.json', 'images.nii']) {
+        const file = await t.http().get(`/v1/results/${res.body.id}/${name}`).buffer(true).parse(binary);
+        expect(file.status).toBe(200);
+        writeFileSync(join(folder, name), file.body as Buffer);
+      }
+      const facts = JSON.parse(execFileSync('/usr/bin/python3', [checkScript, folder], { encoding: 'utf8' }));
+      expect(facts).toMatchObject({ dtype: 'complex64', shape: [32, 32, 32, 1], datatype: 32 });
+      expect(facts.tableCount).toBe(Math.round(header.sampling.fraction * plane));
+      expect(facts.heldOutsideTable).toBe(0);
+      expect(facts.tableWithoutData).toBe(0);
+      // float32 storage of samples and volumes: agreement to about 1e-6 of the maximum.
+      expect(facts.maxRelativeDifference).toBeLessThan(1e-5);
+    });
+  }
 
   it('a 2D upload cannot be a volume source: 422 naming source.imageId', async () => {
     const flat = await uploadFile(t, readFileSync(VOLUME_FIXTURE), 'brain.nii.gz');
