@@ -9,17 +9,14 @@ of every slice. Prints one JSON object: the NIfTI facts nibabel reports, the tab
 grid points holding data outside the table, and the largest difference between numpy's zero-filled
 magnitude volume and the service's zero-filled volume of images.nii, relative to its maximum.
 """
-import json
-import os
 import sys
 
-import nibabel
 import numpy as np
 
+from bundle_io import print_facts, read_bundle, zero_filled_volume
+
 folder = sys.argv[1]
-header = json.load(open(os.path.join(folder, "acquisition.json")))
-kspace_file = nibabel.load(os.path.join(folder, "acquisition.nii"))
-grid = np.asanyarray(kspace_file.dataobj)  # [u, v, w, coil]
+header, kspace_file, grid, rows = read_bundle(folder)  # grid [u, v, w, coil]
 nx, ny, nz = (header["matrix"][k] for k in ("nx", "ny", "nz"))
 mode = header["volume"]["acquisition"]
 
@@ -29,17 +26,9 @@ if mode == "3d":
     volume = np.fft.fftshift(np.fft.ifftn(np.fft.ifftshift(k), norm="ortho"))
 else:
     volume = np.fft.fftshift(np.fft.ifft2(np.fft.ifftshift(k, axes=(1, 2)), norm="ortho"), axes=(1, 2))
-magnitude = np.abs(volume)  # [z, row, x]
-
-# images.nii: voxel (i, j, k) is column i, row ny − 1 − j of slice k; names in descrip.
-images_file = nibabel.load(os.path.join(folder, "images.nii"))
-images = np.asanyarray(images_file.dataobj)
-names = images_file.header["descrip"].tobytes().decode("latin1").rstrip("\x00").split(": ")[1].split(",")
-zero_filled = images[:, :, :, names.index("zero-filled")].T[:, ::-1, :]
 
 # The table's points (grid indices relative to the centre) as a mask on the ky–kz or ky–kx plane.
 columns = header["table"]["columns"]
-rows = np.array(header["table"]["rows"], dtype=np.int64).reshape(-1, 3)
 ky = rows[:, columns.index("ky")]
 if mode == "3d":
     kz = rows[:, columns.index("kz")]
@@ -52,13 +41,12 @@ else:
     table_mask[ny // 2 - ky, kx + nx // 2] = True
     held = np.any(k != 0, axis=0)  # [row, u]: some slice holds data there
 
-print(json.dumps({
-    "source": "nibabel " + nibabel.__version__ + ", numpy " + np.__version__,
-    "dtype": str(grid.dtype),
-    "shape": [int(v) for v in grid.shape],
-    "datatype": int(kspace_file.header["datatype"]),
-    "tableCount": int(rows.shape[0]),
-    "heldOutsideTable": int(np.count_nonzero(held & ~table_mask)),
-    "tableWithoutData": int(np.count_nonzero(table_mask & ~held)),
-    "maxRelativeDifference": float(np.max(np.abs(magnitude - zero_filled)) / np.max(zero_filled)),
-}))
+print_facts(
+    kspace_file,
+    grid,
+    rows,
+    np.abs(volume),  # [z, row, x]
+    zero_filled_volume(folder),
+    heldOutsideTable=np.count_nonzero(held & ~table_mask),
+    tableWithoutData=np.count_nonzero(table_mask & ~held),
+)
