@@ -5,6 +5,7 @@ import { sendBytes, sendPng } from '../src/http/png-reply.ts';
 import { formatUnavailableProblemKind, HttpProblem, problemResponses } from '../src/http/problem.ts';
 import { idParams } from '../src/http/schemas.ts';
 import { niftiFloat32Volumes } from '../src/io/nifti-writer.ts';
+import type { ResultArray } from '../src/jobs/store.ts';
 import { greyPng } from '../src/render/png.ts';
 import {
   acquisitionJson,
@@ -41,6 +42,13 @@ const imageParams = z.object({
     .max(40)
     .describe(`One of ${names.join(', ')}`),
 });
+
+/** The plane a PNG shows of a stored array: the image, or a volume's central z-slice as its PNGs show it. */
+function pngPlane(array: ResultArray): { nx: number; ny: number; data: Float64Array } {
+  const { nx, ny, nz = 1 } = array;
+  const start = Math.floor(nz / 2) * nx * ny;
+  return { nx, ny, data: Float64Array.from(array.data.subarray(start, start + nx * ny)) };
+}
 
 function notFound(id: string): HttpProblem {
   return new HttpProblem(404, `no result ${id}`, [{ field: 'id', message: 'unknown result id' }]);
@@ -120,10 +128,7 @@ export async function resultRoutes(app: FastifyInstance): Promise<void> {
             },
           ]);
         }
-        const png = await greyPng(
-          { nx: array.nx, ny: array.ny, data: Float64Array.from(array.data) },
-          { bits: 16, max: array.white },
-        );
+        const png = await greyPng(pngPlane(array), { bits: 16, max: array.white });
         reply.header('x-grey-white', String(array.white)).header('x-grey-scale', 'linear');
         return sendPng(reply.header('cache-control', 'private, max-age=86400, immutable'), png);
       }
@@ -146,7 +151,8 @@ export async function resultRoutes(app: FastifyInstance): Promise<void> {
       schema: {
         summary: 'A reconstruction’s images at full precision as one float32 NIfTI-1 file',
         description:
-          `Single-file NIfTI-1 (.nii), float32, dim = [4, nx, ny, 1, volumes]: the volumes along the 4th ` +
+          `Single-file NIfTI-1 (.nii), float32, dim = [4, nx, ny, nz, volumes] (nz = 1 for 2D results; a ` +
+          'volume result, matrix.nz > 1, has its whole nx × ny × nz volumes, k the slice index z): the volumes along the 4th ' +
           `dimension in the order ${fullPrecision.join(', ')} (g-factor only where one applies; the order is ` +
           'also in the X-Volumes header and the descrip field). Values in the reconstruction’s own units ' +
           '(magnitudes, no scaling: scl_slope 0); voxel (i, j) is image column i, row ny − 1 − j (j upward); ' +
@@ -215,7 +221,8 @@ export async function resultRoutes(app: FastifyInstance): Promise<void> {
           'What the reconstruction method was given (after noise and prewhitening), coil as the last ' +
           'dimension. Cartesian: dim = [4, nx, ny, 1, coils], voxel (u, v, 0, c) = k-space column u ' +
           '(kx = u − ⌊nx/2⌋), row v (ky = ⌊ny/2⌋ − v), zeros where not acquired; non-Cartesian: ' +
-          'dim = [4, samples per readout, readouts, 1, coils] in acquisition order. ' +
+          'dim = [4, samples per readout, readouts, 1, coils] in acquisition order. Volumes (one coil): ' +
+          'dim = [4, nx, ny, nz, 1], 3D k-space (kz = w − ⌊nz/2⌋) or the k-space of every z-slice (multi-slice). ' +
           'acquisition.json carries the header (mask table or trajectory, noise, seed, scaling).',
         tags: ['results'],
         params: idParams,

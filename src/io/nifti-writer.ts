@@ -2,35 +2,46 @@
 const HEADER_BYTES = 348;
 const VOXEL_OFFSET = 352;
 
-/** One volume of a 4D float32 NIfTI file: ny×nx values, row-major, row 0 at the top of the picture. */
+/**
+ * One volume of a 4D float32 NIfTI file: nz slices (absent: 1) of ny×nx values, slice-major then
+ * row-major, row 0 at the top of the picture (src/core/real-volume.ts).
+ */
 export interface NiftiVolume {
   nx: number;
   ny: number;
+  nz?: number;
   data: Float32Array;
 }
 
 /**
- * A single-file NIfTI-1 (".nii", magic "n+1") of float32 images (datatype 16, bitpix 32), one per
- * index of the 4th dimension: dim = [4, nx, ny, 1, volumes, 1, 1, 1], little-endian, no scaling
- * (scl_slope 0: values as stored), unit voxels (pixdim 1, xyzt_units 0: unknown), and no orientation
- * (qform_code = sform_code = 0), as nifti1.h lays the header out (docs/references.md §10.2).
- * Voxel (i, j) is image column i and row ny − 1 − j, so j runs upward as y does in the phantom frame
- * (the same flip the NIfTI decoders undo). `description` (≤ 79 ASCII characters) goes into `descrip`.
+ * A single-file NIfTI-1 (".nii", magic "n+1") of float32 volumes (datatype 16, bitpix 32), one per
+ * index of the 4th dimension: dim = [4, nx, ny, nz, volumes, 1, 1, 1] (nz = 1 for images),
+ * little-endian, no scaling (scl_slope 0: values as stored), unit voxels (pixdim 1, xyzt_units 0:
+ * unknown), and no orientation (qform_code = sform_code = 0), as nifti1.h lays the header out
+ * (docs/references.md §10.2). Voxel (i, j, k) is column i, row ny − 1 − j of slice k, so j runs
+ * upward as y does in the phantom frame (the same flip the NIfTI decoders undo: an uploaded volume
+ * written back keeps its voxel order). `description` (≤ 79 ASCII characters) goes into `descrip`.
  */
 export function niftiFloat32Volumes(volumes: readonly NiftiVolume[], description: string): Buffer {
   if (volumes.length < 1) throw new RangeError('at least one volume is needed');
   const { nx, ny } = volumes[0];
-  if (volumes.some((v) => v.nx !== nx || v.ny !== ny || v.data.length !== nx * ny)) {
-    throw new RangeError('every volume must hold nx·ny values of one size');
+  const nz = volumes[0].nz ?? 1;
+  if (
+    volumes.some((v) => v.nx !== nx || v.ny !== ny || (v.nz ?? 1) !== nz || v.data.length !== nx * ny * nz)
+  ) {
+    throw new RangeError('every volume must hold nx·ny·nz values of one size');
   }
-  const out = niftiWithHeader([nx, ny, 1, volumes.length], FLOAT32, description);
-  let at = VOXEL_OFFSET;
+  const out = niftiWithHeader([nx, ny, nz, volumes.length], FLOAT32, description);
+  // Row copies into a float32 view of the voxels (Buffer.alloc owns its memory from offset 0, so
+  // byte 352 is 4-aligned); the host order is little-endian, as niftiComplex64 assumes too.
+  const voxels = new Float32Array(out.buffer, out.byteOffset + VOXEL_OFFSET, nx * ny * nz * volumes.length);
+  let at = 0;
   for (const volume of volumes) {
-    for (let j = 0; j < ny; j++) {
-      const row = ny - 1 - j;
-      for (let i = 0; i < nx; i++) {
-        out.writeFloatLE(volume.data[row * nx + i], at);
-        at += 4;
+    for (let k = 0; k < nz; k++) {
+      for (let j = 0; j < ny; j++) {
+        const row = (k * ny + ny - 1 - j) * nx;
+        voxels.set(volume.data.subarray(row, row + nx), at);
+        at += nx;
       }
     }
   }

@@ -18,11 +18,13 @@ export type StoredRawKspace = StoredCoilMaps;
 
 /**
  * A result image at full precision: float32 values in the reconstruction's own units, row-major,
- * row 0 at the top, and the value its PNGs show as white.
+ * row 0 at the top, and the value its PNGs show as white. A volume result keeps nz such planes,
+ * slice-major (src/core/real-volume.ts); absent nz: one plane.
  */
 export interface ResultArray {
   nx: number;
   ny: number;
+  nz?: number;
   white: number;
   data: Float32Array;
 }
@@ -181,6 +183,8 @@ const addedColumns: Array<{ table: string; column: string; type: string }> = [
   // A NIfTI uploaded with slices=all keeps its whole volume (float64, x fastest) beside the slice.
   { table: 'images', column: 'nz', type: 'INTEGER' },
   { table: 'images', column: 'volume', type: 'BLOB' },
+  // A volume result keeps its images as whole volumes (nz slices; NULL: one plane).
+  { table: 'result_arrays', column: 'nz', type: 'INTEGER' },
 ];
 
 interface InputKindSpec {
@@ -513,7 +517,7 @@ export class Store {
     const createdAt = new Date().toISOString();
     const inputs = provenance.inputs ?? [];
     const insertArray = this.db.prepare(
-      'INSERT OR IGNORE INTO result_arrays (result_id, name, nx, ny, white, data) VALUES (?, ?, ?, ?, ?, ?)',
+      'INSERT OR IGNORE INTO result_arrays (result_id, name, nx, ny, nz, white, data) VALUES (?, ?, ?, ?, ?, ?, ?)',
     );
     // OR IGNORE: content-addressed results (equal requests, equal ids) may be stored twice by racing requests.
     const insertImage = this.db.prepare(
@@ -531,7 +535,7 @@ export class Store {
       for (const [name, png] of Object.entries(images)) insertImage.run(id, name, png);
       for (const [name, a] of Object.entries(arrays)) {
         const bytes = Buffer.from(a.data.buffer, a.data.byteOffset, a.data.byteLength);
-        insertArray.run(id, name, a.nx, a.ny, a.white, bytes);
+        insertArray.run(id, name, a.nx, a.ny, a.nz ?? null, a.white, bytes);
       }
       if (acquisition) {
         const { samples, layout } = acquisition;
@@ -570,20 +574,22 @@ export class Store {
   getResultArrays(id: string, scope: Scope = 'all'): Map<string, ResultArray> {
     const rows = this.db
       .prepare(
-        `SELECT name, nx, ny, white, data FROM result_arrays WHERE result_id = @id
+        `SELECT name, nx, ny, nz, white, data FROM result_arrays WHERE result_id = @id
          AND EXISTS (SELECT 1 FROM results WHERE id = @id AND ${visible}) ORDER BY rowid`,
       )
       .all({ id, ...scopeParams(scope) }) as Array<{
       name: string;
       nx: number;
       ny: number;
+      nz: number | null;
       white: number;
       data: Buffer;
     }>;
     const arrays = new Map<string, ResultArray>();
     for (const row of rows) {
-      const data = alignedCopy(row.data, new Float32Array(row.nx * row.ny));
-      arrays.set(row.name, { nx: row.nx, ny: row.ny, white: row.white, data });
+      const data = alignedCopy(row.data, new Float32Array(row.nx * row.ny * (row.nz ?? 1)));
+      const nz = row.nz === null ? {} : { nz: row.nz };
+      arrays.set(row.name, { nx: row.nx, ny: row.ny, ...nz, white: row.white, data });
     }
     return arrays;
   }

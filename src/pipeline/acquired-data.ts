@@ -1,4 +1,5 @@
 import type { ReconInput } from '../recon/index.ts';
+import type { VolumeAcquisitionMode } from '../volume/volume-schema.ts';
 
 /**
  * The data a reconstruction method was given, kept with the result so a user's own pipeline can
@@ -21,6 +22,12 @@ export interface AcquiredData {
   mask?: Uint8Array;
   /** Non-Cartesian: the readouts (their points are the mask's sample table, in the same order). */
   trajectory?: { readouts: number; samplesPerReadout: number };
+  /**
+   * Volumes (docs/design.md §2.5), one coil: 3D keeps the nx kx values of every acquired (ky, kz)
+   * line, the mask being the ny × nz ky–kz plane; multi-slice the acquired ky–kx points of every
+   * z-slice, the mask (ny × nx) shared by the slices. Samples z outer, then row-major.
+   */
+  volume?: { nz: number; acquisition: VolumeAcquisitionMode };
   /** The noise the data carry, as the method saw it (after prewhitening). */
   noise: AcquiredNoise;
 }

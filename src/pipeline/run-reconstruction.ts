@@ -155,8 +155,8 @@ export interface ReconstructionOutcome {
   /** Feature-fidelity scores when the request has `lesions` (src/pipeline/lesion-run.ts). */
   fidelity?: FidelityOutcome;
   /**
-   * The samples the method was given, kept with the result for export (acquired-data.ts); absent
-   * for volumes, whose export is not built.
+   * The samples the method was given, kept with the result for export (acquired-data.ts); for a
+   * 3D volume the 3D k-space lines, one exact inverse readout transform from the planes' input.
    */
   acquisition?: AcquiredData;
   /** Volumes (matrix.nz > 1): per-plane scores and the volumes; `metrics` are then the volume's. */

@@ -15,6 +15,7 @@ import { acquireVolume } from '../volume/volume-acquisition.ts';
 import type { VolumeAcquisitionMode } from '../volume/volume-schema.ts';
 import { type SliceScores, scoreVolume, volumeScores } from '../volume/volume-scores.ts';
 import { nonCartesianVolume, unsupportedVolumePieces } from '../volume/volume-support.ts';
+import type { AcquiredData } from './acquired-data.ts';
 import type { PipelineContext, ReconstructionOutcome, ReconstructionRequest } from './run-reconstruction.ts';
 
 /** What a volume adds to a reconstruction outcome (docs/design.md §2.5). */
@@ -39,6 +40,8 @@ export interface PreparedVolume {
   batch: PlaneBatch;
   sampled: SampledMask;
   notes: string[];
+  /** The acquired samples for the acquisition export (GET /v1/results/{id}/acquisition.nii). */
+  acquired: AcquiredData;
 }
 
 /** Stacks planes back into a volume (x fastest), from x-planes (ny × nz) or z-slices (ny × nx). */
@@ -158,6 +161,17 @@ export async function prepareVolume(
     },
     sampled,
     notes,
+    acquired: {
+      geometry: 'cartesian',
+      nx,
+      ny,
+      coils: 1,
+      samples: stack.samples,
+      mask: sampled.mask.slice(),
+      // σ per real channel: E|n|² = 2σ² per complex k-space sample, no prewhitening (one coil).
+      noise: { prewhitened: false, variance: 2 * stack.sigma ** 2, seed: noiseSeed },
+      volume: { nz, acquisition },
+    },
   };
 }
 
@@ -199,6 +213,7 @@ export function finishVolume(prepared: PreparedVolume, planes: PlaneReconstructi
       errorMap: { nx, ny, data: errorMap },
     },
     sampled,
+    acquisition: prepared.acquired,
     volume: { acquisition, matrix: { nx, ny, nz }, planeAxis: axis, slices: scored.slices, volumes },
   };
 }

@@ -69,6 +69,22 @@ export const fidelityCsvColumns: readonly Column[] = taskMetricNames.flatMap((m)
   ];
 });
 
+/**
+ * The acquisition column of a volume plan ('3d' or 'multi-slice', design §2.5), placed after
+ * coil_count. Only volume plans carry it, so a 2D plan's header stays as it was.
+ */
+export const acquisitionCsvColumn: Column = { name: 'acquisition', value: (r) => r.acquisition ?? '' };
+
+/** The columns of a table: the fixed ones, a volume plan's acquisition, a lesion plan's fidelity group. */
+function tableColumns(table: PlanTable): readonly Column[] {
+  const columns = [...csvColumns];
+  if (table.rows.some((r) => r.acquisition !== undefined)) {
+    columns.splice(columns.findIndex((c) => c.name === 'coil_count') + 1, 0, acquisitionCsvColumn);
+  }
+  if (table.rows.some((r) => r.fidelity)) columns.push(...fidelityCsvColumns);
+  return columns;
+}
+
 /** RFC 4180 field: quoted when it holds a comma, a double quote, CR or LF; inner quotes doubled. */
 export function csvField(text: string): string {
   return /[",\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
@@ -76,7 +92,7 @@ export function csvField(text: string): string {
 
 /** The tradeoff table as RFC 4180 CSV: header row, one record per table row, every record ends in CRLF. */
 export function tableToCsv(table: PlanTable): string {
-  const columns = table.rows.some((r) => r.fidelity) ? [...csvColumns, ...fidelityCsvColumns] : csvColumns;
+  const columns = tableColumns(table);
   const lines = [columns.map((c) => csvField(c.name)).join(',')];
   for (const row of table.rows) lines.push(columns.map((c) => csvField(c.value(row))).join(','));
   return `${lines.join('\r\n')}\r\n`;

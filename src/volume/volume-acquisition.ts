@@ -16,6 +16,12 @@ export interface PlaneStack {
   references: RealImage[];
   /** σ per real channel of the k-space noise (0 when noiseless). */
   sigma: number;
+  /**
+   * The acquired k-space samples, complex64 interleaved, for the acquisition export: 3D, the nx kx
+   * values of every acquired (ky, kz) line, z outer then y (x fastest); multi-slice, the acquired
+   * grid points of every z-slice in row-major order, slice after slice.
+   */
+  samples: Float32Array;
 }
 
 /**
@@ -51,10 +57,17 @@ function acquire3d(volume: RealVolume, sampled: SampledMask, sigma: number, nois
   phaseEncodeTransform(kspace, nx, ny, nz, -1);
   readoutTransform(kspace, nx, ny, nz, -1);
   if (sigma > 0) addComplexNoise(kspace, sigma, noiseSeed);
+  let lines = 0;
+  for (const m of sampled.mask) if (m) lines++;
+  const samples = new Float32Array(2 * nx * lines);
+  let at = 0;
   for (let z = 0; z < nz; z++) {
     for (let y = 0; y < ny; y++) {
-      if (sampled.mask[y * nz + z]) continue;
-      kspace.fill(0, 2 * (z * ny + y) * nx, 2 * (z * ny + y + 1) * nx);
+      const line = 2 * (z * ny + y) * nx;
+      if (sampled.mask[y * nz + z]) {
+        samples.set(kspace.subarray(line, line + 2 * nx), at);
+        at += 2 * nx;
+      } else kspace.fill(0, line, line + 2 * nx);
     }
   }
   readoutTransform(kspace, nx, ny, nz, 1);
@@ -75,7 +88,7 @@ function acquire3d(volume: RealVolume, sampled: SampledMask, sigma: number, nois
     inputs.push(planeInput(plane, sampled));
     references.push({ nx: nz, ny, data: reference });
   }
-  return { mode: '3d', inputs, references, sigma };
+  return { mode: '3d', inputs, references, sigma, samples };
 }
 
 /**
@@ -97,12 +110,20 @@ function acquireSlices(
     stacked.set(fft2c(slice).data, 2 * z * n);
   }
   if (sigma > 0) addComplexNoise(stacked, sigma, noiseSeed);
+  let points = 0;
+  for (const m of sampled.mask) if (m) points++;
+  const samples = new Float32Array(2 * points * nz);
+  let at = 0;
   const inputs: ReconInput[] = [];
   const references: RealImage[] = [];
   for (let z = 0; z < nz; z++) {
     const plane: ComplexImage = { nx, ny, data: stacked.slice(2 * z * n, 2 * (z + 1) * n) };
     for (let i = 0; i < n; i++) {
-      if (sampled.mask[i]) continue;
+      if (sampled.mask[i]) {
+        samples[at++] = plane.data[2 * i];
+        samples[at++] = plane.data[2 * i + 1];
+        continue;
+      }
       plane.data[2 * i] = 0;
       plane.data[2 * i + 1] = 0;
     }
@@ -111,7 +132,7 @@ function acquireSlices(
     inputs.push(planeInput(plane, sampled));
     references.push({ nx, ny, data: reference });
   }
-  return { mode: 'multi-slice', inputs, references, sigma };
+  return { mode: 'multi-slice', inputs, references, sigma, samples };
 }
 
 /** The acquisition `mode` of a volume with the mask drawn for it (3D: ny × nz; multi-slice: ny × nx). */

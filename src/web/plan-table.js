@@ -39,9 +39,20 @@ function columnsFor(targetMetric, rows = []) {
   // The array and g columns are key columns only when the plan has a receive array or a g-factor.
   const arrays = !rows.every((row) => (row.coils ?? 'uniform') === 'uniform');
   const withG = rows.some((row) => typeof row.gFactorMax === 'number');
+  // Volume plans only: how the row acquired the volume (3D or multi-slice); 2D tables keep their columns.
+  const volume = rows.some((row) => row.acquisition !== undefined);
   return [
     { label: 'Pattern', title: 'Sampling pattern', text: (row) => row.pattern, sticky: true },
     { label: 'Method', title: 'Reconstruction method', text: (row) => row.method },
+    ...(volume
+      ? [
+          {
+            label: 'Acquisition',
+            title: 'How the volume was acquired: 3D (ky–kz undersampling) or multi-slice 2D',
+            text: (row) => row.acquisition,
+          },
+        ]
+      : []),
     {
       label: 'Coils',
       title: 'Receive array of the row (its label and coil count)',
@@ -227,9 +238,9 @@ export function renderPlanTable(table, plan) {
 }
 
 /** One sentence per row for the plot's hover box and its list of points. */
-/** A row's name in the plot: pattern and method, and its array when the plan sweeps several. */
+/** A row's name in the plot: pattern and method, its array when the plan sweeps several, a volume's acquisition. */
 function seriesName(row, arrays) {
-  return `${row.pattern} · ${row.method}${arrays ? ` · ${row.coils}` : ''}`;
+  return `${row.pattern} · ${row.method}${arrays ? ` · ${row.coils}` : ''}${row.acquisition ? ` · ${row.acquisition}` : ''}`;
 }
 
 function describeRow(row, metric, picked, arrays) {

@@ -446,6 +446,34 @@ describe('a data folder from the previous version keeps working', () => {
     new Store(dataDir).close();
   });
 
+  it('full-precision images stored before volumes keep reading as planes; volumes keep their nz', () => {
+    const dataDir = mkdtempSync(join(tmpdir(), 'kspace-migrate-arrays-'));
+    const old = new Database(join(dataDir, 'service.sqlite'));
+    // result_arrays as src/jobs/store.ts wrote it before volume results (no nz column).
+    old.exec(`
+      CREATE TABLE results (id TEXT PRIMARY KEY, created_at TEXT NOT NULL, kind TEXT NOT NULL, body TEXT NOT NULL);
+      CREATE TABLE result_arrays (result_id TEXT NOT NULL, name TEXT NOT NULL, nx INTEGER NOT NULL,
+        ny INTEGER NOT NULL, white REAL NOT NULL, data BLOB NOT NULL, PRIMARY KEY (result_id, name));`);
+    old
+      .prepare(`INSERT INTO results VALUES ('r-old', '2026-01-01T00:00:00.000Z', 'reconstruction', '{}')`)
+      .run();
+    const plane = new Float32Array([1, 2, 3, 4, 5, 6]);
+    old
+      .prepare(`INSERT INTO result_arrays VALUES ('r-old', 'reference', 3, 2, 6, ?)`)
+      .run(Buffer.from(plane.buffer));
+    old.close();
+    const store = new Store(dataDir);
+    try {
+      const read = store.getResultArrays('r-old').get('reference');
+      expect(read).toEqual({ nx: 3, ny: 2, white: 6, data: plane });
+      const volume = { nx: 2, ny: 2, nz: 3, white: 11, data: Float32Array.from({ length: 12 }, (_, i) => i) };
+      expect(store.putResult('r-new', 'reconstruction', {}, {}, {}, { reference: volume })).toBe(true);
+      expect(store.getResultArrays('r-new').get('reference')).toEqual(volume);
+    } finally {
+      store.close();
+    }
+  });
+
   it('a result whose upload was deleted while it was computed is refused, not stored', () => {
     const store = new Store(mkdtempSync(join(tmpdir(), 'kspace-race-')));
     try {

@@ -4,6 +4,7 @@ import type { BrowserContext, Page } from 'playwright-core';
 import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { smallPlanBody } from '../plan/small-plan.ts';
+import { VOLUME_FIXTURE, volumePlanBody } from '../volume/fixture.ts';
 import { artifacts, openPlannerSession, type PlannerSession } from './browser-session.ts';
 
 /**
@@ -416,6 +417,31 @@ describe('stored plans, addresses and downloads in Chromium', () => {
     await expectPngDownloads(['rowDownloadErrorMap'], keyed);
     expect(errors).toEqual([]);
     await keyed.close();
+  });
+
+  it('a volume plan shows an Acquisition column (3d, multi-slice); a 2D plan has none', async () => {
+    const columnTexts = () =>
+      page.$$eval('#planTable thead th', (ths) => ths.map((th) => th.textContent?.trim() ?? ''));
+    await session.open(`/?plan=${plan.id}`);
+    await planShownDone();
+    expect(await columnTexts()).not.toContain('Acquisition');
+    // The 32³ mricron-data volume of tests/volume/fixture.ts, planned 3D against multi-slice.
+    const form = new FormData();
+    form.append('file', new Blob([readFileSync(VOLUME_FIXTURE)]), 'brain.nii.gz');
+    const upload = await apiOn(baseUrl, '/v1/images?slices=all', { method: 'POST', body: form });
+    const volumePlan = await planDone(volumePlanBody(((await upload.json()) as { id: string }).id));
+    await session.open(`/?plan=${volumePlan.id}`);
+    await planShownDone();
+    const column = (await columnTexts()).indexOf('Acquisition');
+    expect(column).toBeGreaterThan(-1);
+    const shown = await page.$$eval(
+      '#planTable tbody tr[data-row]',
+      (trs, at) => trs.map((tr) => tr.children[at].textContent),
+      column,
+    );
+    const rows = volumePlan.table!.rows as Array<PlanRow & { acquisition?: string }>;
+    expect(shown).toEqual(rows.map((r) => r.acquisition));
+    expect(shown).toEqual(['3d', '3d', 'multi-slice']);
   });
 
   it('made no request off the service origin and raised no page errors', () => {

@@ -2,7 +2,7 @@ import { parse } from 'csv-parse/sync';
 import { describe, expect, it } from 'vitest';
 import { buildTable } from '../../src/plan/build-table.ts';
 import { metricNames } from '../../src/plan/metric-direction.ts';
-import { csvField, tableToCsv } from '../../src/plan/table-csv.ts';
+import { csvColumns, csvField, tableToCsv } from '../../src/plan/table-csv.ts';
 import { at, cellResult, handPlan, referencePosition } from './hand-made.ts';
 
 function sampleTable() {
@@ -53,6 +53,12 @@ describe('tradeoff table as RFC 4180 CSV (docs/references.md §10.5)', () => {
     const records = parse(csv, { relax_column_count: false }) as string[][];
     expect(records.length).toBe(1 + sampleTable().rows.length);
     for (const record of records) expect(record.length).toBe(header.length);
+  });
+
+  it('a 2D plan has no acquisition column: its header is the fixed column list (volumes add one)', () => {
+    const header = (parse(tableToCsv(sampleTable()), { to_line: 1 }) as string[][])[0];
+    expect(header).toEqual(csvColumns.map((c) => c.name));
+    expect(header).not.toContain('acquisition');
   });
 
   it('csv-parse reads back the same numbers, to the decimals written', () => {

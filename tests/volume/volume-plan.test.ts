@@ -1,6 +1,7 @@
+import { parse } from 'csv-parse/sync';
 import { beforeAll, describe, expect, it } from 'vitest';
 import type { RealVolume } from '../../src/core/real-volume.ts';
-import { planCells, runPlan, validatePlan } from '../../src/plan/index.ts';
+import { planCells, runPlan, tableToCsv, validatePlan } from '../../src/plan/index.ts';
 import { parseOrThrow, protocolSchema, scanTime } from '../../src/protocol/index.ts';
 import { acquisitionScanTime } from '../../src/protocol/volume-scan-time.ts';
 import { caughtValidationError } from '../core/caught-validation-error.ts';
@@ -34,6 +35,19 @@ describe('volume plans: 3D and multi-slice in one table', () => {
     expect(multiSlice.metrics.nrmse.mean).toBeGreaterThan(0.01);
     // The 2D point-mask warning speaks of protocol.dimensions, which volumes do not read.
     expect(table.notes.some((note) => note.includes('in a 2D protocol'))).toBe(false);
+    // The CSV tells the two acquisitions apart: csv-parse (an RFC 4180 reader) finds an acquisition
+    // column after coil_count, and the 3D and multi-slice rows differ only there and in their numbers.
+    const csv = tableToCsv(table);
+    const header = (parse(csv, { to_line: 1 }) as string[][])[0];
+    expect(header.slice(header.indexOf('coil_count'), header.indexOf('coil_count') + 3)).toEqual([
+      'coil_count',
+      'acquisition',
+      'reference',
+    ]);
+    const records = parse(csv, { columns: true }) as Record<string, string>[];
+    expect(records.map((r) => r.acquisition)).toEqual(['3d', '3d', 'multi-slice']);
+    expect([records[1].pattern, records[1].method]).toEqual([records[2].pattern, records[2].method]);
+    expect(Number(records[2].scan_s)).toBeCloseTo(multiSlice.scanSeconds, 3);
   });
 
   it('the volume scan-time model: 2D model × slices, or what slicesPerPass lets share a TR', () => {
