@@ -106,22 +106,25 @@ function coilAxisOf(dims: number[]): number {
   return rank;
 }
 
-/** nifti1.h: scl_slope 0 (or not a number, as nibabel writes for float data) means no scaling. */
-function checkUnscaled(slope: number, inter: number): void {
+/**
+ * nifti1.h: scl_slope 0 (or not a number, as nibabel writes for float data) means no scaling; any
+ * other scaling is refused since `what` is used as given.
+ */
+export function checkUnscaled(slope: number, inter: number, what = 'the maps'): void {
   const scaled = Number.isFinite(slope) && slope !== 0;
   if (!scaled) return;
   if (slope !== 1) {
     throw new ValidationError({
       field: 'file.scl_slope',
-      message: `scl_slope ${slope} would rescale the maps`,
-      allowed: '0, 1 or NaN (maps are used as given)',
+      message: `scl_slope ${slope} would rescale ${what}`,
+      allowed: `0, 1 or NaN (${what} are used as given)`,
     });
   }
   if (Number.isFinite(inter) && inter !== 0) {
     throw new ValidationError({
       field: 'file.scl_inter',
-      message: `scl_inter ${inter} would shift the maps`,
-      allowed: '0 or NaN (maps are used as given)',
+      message: `scl_inter ${inter} would shift ${what}`,
+      allowed: `0 or NaN (${what} are used as given)`,
     });
   }
 }
