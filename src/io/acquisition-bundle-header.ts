@@ -52,7 +52,11 @@ export function parseAcquisitionBundleHeader(bytes: Uint8Array): AcquisitionBund
   try {
     json = JSON.parse(new TextDecoder('utf-8', { fatal: true }).decode(bytes));
   } catch {
-    throw refused('header', 'not UTF-8 JSON', 'acquisition.json as GET /v1/results/{id}/acquisition.json gives it');
+    throw refused(
+      'header',
+      'not UTF-8 JSON',
+      'acquisition.json as GET /v1/results/{id}/acquisition.json gives it',
+    );
   }
   const header = parseOrThrow(acquisitionBundleHeaderSchema, json, 'header');
   if (header.geometry !== 'cartesian') {

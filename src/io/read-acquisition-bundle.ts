@@ -112,7 +112,11 @@ function underNiftiPart<T>(read: () => T): T {
     return read();
   } catch (error) {
     if (error instanceof DecodeError) {
-      throw new ValidationError({ field: rename(error.field), message: error.message, allowed: 'acquisition.nii as exported' });
+      throw new ValidationError({
+        field: rename(error.field),
+        message: error.message,
+        allowed: 'acquisition.nii as exported',
+      });
     }
     if (error instanceof ValidationError) {
       const problems = error.problems.map((p) => ({ ...p, field: rename(p.field) }));
