@@ -73,7 +73,7 @@ export class RawDataService {
   constructor(private readonly deps: { pool: WorkerPool; store: Store; limits: Limits }) {}
 
   async upload(bytes: Buffer, caller: Caller, signal?: AbortSignal): Promise<RawInfo> {
-    const { pool, store, limits } = this.deps;
+    const { pool, limits } = this.deps;
     const view = new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength);
     const imported = await pool.runForRequest('read-raw-kspace', { bytes: view, limits }, signal);
     return this.keep(imported, caller);
