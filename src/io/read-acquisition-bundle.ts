@@ -1,7 +1,7 @@
 import { DecodeError, LimitError, ValidationError } from '../core/errors.ts';
 import type { Limits } from '../core/limits.ts';
 import { createMultiCoilArray } from '../encoding/index.ts';
-import type { AcquisitionBundleHeader } from './acquisition-bundle-header.ts';
+import { parseAcquisitionBundleHeader } from './acquisition-bundle-header.ts';
 import type { ImportedRawKspace } from './ismrmrd/import-raw-kspace.ts';
 import { singleFileNiftiKind } from './nifti.ts';
 import { checkUnscaled } from './nifti-coil-maps.ts';
@@ -13,16 +13,18 @@ const COMPLEX64 = 32;
  * The stored form of a fully sampled Cartesian acquisition bundle (docs/design.md §4.11): the
  * complex64 NIfTI of the `nifti` part, voxel (u, v, 0, c) = column u, row v (row 0 at the top) of
  * coil c in array order, copied sample for sample into the coil k-space, so an export imported
- * again holds exactly the exported numbers. `header` was checked at the HTTP edge
- * (parseAcquisitionBundleHeader). Noise: data whose variance per complex sample is known and
- * positive keep it as the covariance Ψ = v·I, so reconstructions prewhiten them to unit variance
- * as they do an ISMRMRD file with noise scans; unknown (or zero) variance keeps none.
+ * again holds exactly the exported numbers. The header (acquisition.json, the `header` part) is
+ * checked first (parseAcquisitionBundleHeader), so an undersampled bundle is refused unread.
+ * Noise: data whose variance per complex sample is known and positive keep it as the covariance
+ * Ψ = v·I, so reconstructions prewhiten them to unit variance as they do an ISMRMRD file with
+ * noise scans; unknown (or zero) variance keeps none.
  */
 export function readAcquisitionBundle(
   nifti: Uint8Array,
-  header: AcquisitionBundleHeader,
+  headerBytes: Uint8Array,
   limits: Limits,
 ): ImportedRawKspace {
+  const header = parseAcquisitionBundleHeader(headerBytes);
   const { nx, ny, coils, dims } = header;
   const facts = underNiftiPart(() => {
     singleFileNiftiKind(nifti);

@@ -6,7 +6,6 @@ import type { Matrix } from '../core/matrix.ts';
 import type { RealImage } from '../core/real-image.ts';
 import type { RealVolume } from '../core/real-volume.ts';
 import type { CoilMaps } from '../encoding/index.ts';
-import type { AcquisitionBundleHeader } from '../io/acquisition-bundle-header.ts';
 import type { CoilMapsUpload, DecodedCoilMaps } from '../io/decode-coil-maps.ts';
 import type { DecodedImage, DecodeOptions } from '../io/decoded-image.ts';
 import type { ImportedRawKspace } from '../io/ismrmrd/import-raw-kspace.ts';
@@ -61,7 +60,7 @@ export interface TaskMap {
   'decode-coil-maps': { input: CoilMapsUpload; output: DecodedCoilMaps };
   'read-raw-kspace': { input: { bytes: Uint8Array; limits: Limits }; output: ImportedRawKspace };
   'read-acquisition-bundle': {
-    input: { bytes: Uint8Array; header: AcquisitionBundleHeader; limits: Limits };
+    input: { nifti: Uint8Array; header: Uint8Array; limits: Limits };
     output: ImportedRawKspace;
   };
   'phantom-kspace': { input: { name: string; kx: Float64Array; ky: Float64Array }; output: Float64Array };

@@ -3,7 +3,6 @@ import { z } from 'zod';
 import type { RawKspace } from '../acquisition/index.ts';
 import { NotFoundError, ValidationError } from '../core/errors.ts';
 import type { Limits } from '../core/limits.ts';
-import { parseAcquisitionBundleHeader } from '../io/acquisition-bundle-header.ts';
 import type { ImportedRawKspace, RawKspaceFacts } from '../io/ismrmrd/import-raw-kspace.ts';
 import type { Store, StoredRawKspace } from '../jobs/store.ts';
 import type { WorkerPool } from '../jobs/worker-pool.ts';
@@ -81,13 +80,14 @@ export class RawDataService {
 
   /**
    * A fully sampled Cartesian acquisition bundle (acquisition.nii + acquisition.json, docs/design.md
-   * §4.11): the header is checked here, the samples are read on the worker pool.
+   * §4.11), header and samples checked and read on the worker pool (a 1024² header's sample table
+   * is some 18 MB of JSON).
    */
-  async uploadBundle(nifti: Buffer, json: Buffer, caller: Caller, signal?: AbortSignal): Promise<RawInfo> {
-    const header = parseAcquisitionBundleHeader(json);
-    const bytes = new Uint8Array(nifti.buffer, nifti.byteOffset, nifti.byteLength);
+  async uploadBundle(nifti: Buffer, header: Buffer, caller: Caller, signal?: AbortSignal): Promise<RawInfo> {
+    const view = (b: Buffer) => new Uint8Array(b.buffer, b.byteOffset, b.byteLength);
     const { pool, limits } = this.deps;
-    const imported = await pool.runForRequest('read-acquisition-bundle', { bytes, header, limits }, signal);
+    const input = { nifti: view(nifti), header: view(header), limits };
+    const imported = await pool.runForRequest('read-acquisition-bundle', input, signal);
     return this.keep(imported, caller);
   }
 
