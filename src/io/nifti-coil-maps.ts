@@ -1,9 +1,8 @@
 import { COIL_LIMITS } from '../coils/index.ts';
 import { DecodeError, LimitError, ValidationError } from '../core/errors.ts';
 import { type CoilMaps, createMultiCoilArray } from '../encoding/index.ts';
-import { gunzipBounded } from './bounded-inflate.ts';
 import { checkCoilMapValues } from './coil-map-values.ts';
-import { isGzip, niftiDeclaredLength, niftiHeaderBytes, singleFileNiftiKind } from './nifti.ts';
+import { inflatedNifti, singleFileNiftiKind } from './nifti.ts';
 import { checkNiftiHeader, type NiftiHeaderOptions } from './nifti-header.ts';
 
 /** nifti1.h codes read as coil maps: both carry float32 numbers, so the maps are stored unrounded. */
@@ -33,13 +32,7 @@ export async function decodeNiftiCoilMaps(
   options: { maxSide: number; maxBytes: number },
 ): Promise<NiftiCoilMaps> {
   const headerOptions: NiftiHeaderOptions = { ...options, datatypes: coilMapDatatypes };
-  const plain = isGzip(bytes)
-    ? await gunzipBounded(bytes, {
-        maxBytes: options.maxBytes,
-        headerBytes: niftiHeaderBytes,
-        declaredLength: (head) => niftiDeclaredLength(head, headerOptions),
-      })
-    : bytes;
+  const plain = await inflatedNifti(bytes, { ...headerOptions, maxBytes: options.maxBytes });
   const kind = singleFileNiftiKind(plain);
   const facts = checkNiftiHeader(plain, headerOptions);
   const { dims } = facts;

@@ -3,7 +3,7 @@ import type { Limits } from '../core/limits.ts';
 import { createMultiCoilArray } from '../encoding/index.ts';
 import { parseAcquisitionBundleHeader } from './acquisition-bundle-header.ts';
 import type { ImportedRawKspace } from './ismrmrd/import-raw-kspace.ts';
-import { singleFileNiftiKind } from './nifti.ts';
+import { inflatedNifti, singleFileNiftiKind } from './nifti.ts';
 import { checkUnscaled } from './nifti-coil-maps.ts';
 import { checkNiftiHeader } from './nifti-header.ts';
 
@@ -11,7 +11,7 @@ const COMPLEX64 = 32;
 
 /**
  * The stored form of a fully sampled Cartesian acquisition bundle (docs/design.md §4.11): the
- * complex64 NIfTI of the `nifti` part, voxel (u, v, 0, c) = column u, row v (row 0 at the top) of
+ * complex64 NIfTI of the `nifti` part (.nii, or .nii.gz inflated with the upload bound), voxel (u, v, 0, c) = column u, row v (row 0 at the top) of
  * coil c in array order, copied sample for sample into the coil k-space, so an export imported
  * again holds exactly the exported numbers. The header (acquisition.json, the `header` part) is
  * checked first (parseAcquisitionBundleHeader), so an undersampled bundle is refused unread.
@@ -19,22 +19,24 @@ const COMPLEX64 = 32;
  * Ψ = v·I, so reconstructions prewhiten them to unit variance as they do an ISMRMRD file with
  * noise scans; unknown (or zero) variance keeps none.
  */
-export function readAcquisitionBundle(
-  nifti: Uint8Array,
+export async function readAcquisitionBundle(
+  upload: Uint8Array,
   headerBytes: Uint8Array,
   limits: Limits,
-): ImportedRawKspace {
+): Promise<ImportedRawKspace> {
   const header = parseAcquisitionBundleHeader(headerBytes);
   const { nx, ny, coils, dims } = header;
-  const facts = underNiftiPart(() => {
-    singleFileNiftiKind(nifti);
-    const found = checkNiftiHeader(nifti, {
-      maxSide: limits.maxMatrixSide,
-      maxBytes: limits.maxUploadBytes,
-      datatypes: { codes: new Set([COMPLEX64]), described: 'acquisition.nii is complex64 (32)' },
-    });
+  const options = {
+    maxSide: limits.maxMatrixSide,
+    maxBytes: limits.maxUploadBytes,
+    datatypes: { codes: new Set([COMPLEX64]), described: 'acquisition.nii is complex64 (32)' },
+  };
+  const { nifti, facts } = await underNiftiPart(async () => {
+    const plain = await inflatedNifti(upload, options);
+    singleFileNiftiKind(plain);
+    const found = checkNiftiHeader(plain, options);
     checkUnscaled(found.sclSlope, found.sclInter, 'the samples');
-    return found;
+    return { nifti: plain, facts: found };
   });
   const niftiDims = [1, 2, 3, 4].map((d) => (d <= facts.dims[0] ? facts.dims[d] : 1));
   niftiDims.forEach((size, i) => {
@@ -108,10 +110,10 @@ function notFinite(index: number, plane: number, nx: number): ValidationError {
  * The NIfTI checks name their fields under `file` (the one part of other uploads); here the
  * samples come in the part `nifti`, and a file that is not the exported NIfTI is a bad bundle (422).
  */
-function underNiftiPart<T>(read: () => T): T {
+async function underNiftiPart<T>(read: () => Promise<T>): Promise<T> {
   const rename = (field: string) => field.replace(/^file/, 'nifti');
   try {
-    return read();
+    return await read();
   } catch (error) {
     if (error instanceof DecodeError) {
       throw new ValidationError({

@@ -1,4 +1,5 @@
 import { readFileSync } from 'node:fs';
+import { gzipSync } from 'node:zlib';
 import { describe, expect, it } from 'vitest';
 import { relativeMaxError } from '../error-measures.ts';
 import { download, reconstructWithBundle } from './acquisition-helpers.ts';
@@ -84,6 +85,11 @@ describe('POST /v1/raw (acquisition bundle)', () => {
     expect(stored).toBeDefined();
     expect(differing(Float32Array.from(stored!.kspace.data), voxels(bundle.nifti))).toBe(0);
     expect(Array.from(stored!.noiseCovariance!)).toEqual([variance, 0]);
+    // The same NIfTI gzipped (node:zlib, RFC 1952) reads the same samples.
+    const gzipped = await importBundle(t, gzipSync(bundle.nifti), bundle.header);
+    expect(gzipped.status).toBe(201);
+    const fromGzip = t.app.services.store.getRawKspace(gzipped.body.id)!;
+    expect(differing(Float32Array.from(fromGzip.kspace.data), voxels(bundle.nifti))).toBe(0);
 
     // A reconstruction of the imported data is prewhitened with Ψ: its samples are the exported ones
     // divided by √v, and its noise is then unit variance per complex sample.
