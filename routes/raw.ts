@@ -1,19 +1,20 @@
 import type { FastifyInstance } from 'fastify';
 import { disconnectSignal } from '../src/http/disconnect-signal.ts';
-import { fileOnlyMultipartBody, readFilePart } from '../src/http/multipart-file.ts';
 import { jsonResponse, problemResponses } from '../src/http/problem.ts';
+import { rawMultipartBody, readRawUpload } from '../src/http/raw-upload-parts.ts';
 import { storedInputRoutes } from '../src/http/stored-input-routes.ts';
 import { rawInfoSchema } from '../src/services/index.ts';
 
 const rawInfoResponse = rawInfoSchema.meta({
   id: 'RawInfo',
   description:
-    'Imported raw k-space: the fully sampled coil k-space and noise covariance are kept, the file and every header text are not',
+    'Imported raw k-space: the fully sampled coil k-space and noise covariance are kept, the files and every header text are not',
 });
 
 /**
- * POST /v1/raw (multipart ISMRMRD file), GET and DELETE /v1/raw/{id} (the deletion cascades to what
- * was made from the data: src/jobs/lifecycle.ts). Only numbers are read from the XML header.
+ * POST /v1/raw (multipart ISMRMRD file or acquisition bundle), GET and DELETE /v1/raw/{id} (the
+ * deletion cascades to what was made from the data: src/jobs/lifecycle.ts). Only numbers are read
+ * from the XML header and the bundle's JSON header.
  */
 export async function rawRoutes(app: FastifyInstance): Promise<void> {
   const { raw, tenancy } = app.services;
@@ -23,18 +24,18 @@ export async function rawRoutes(app: FastifyInstance): Promise<void> {
     {
       config: {
         openapi: {
-          multipartBody: fileOnlyMultipartBody(
-            'ISMRMRD HDF5 file (/dataset/xml and /dataset/data): one fully sampled Cartesian 2D slice, ' +
-              'any number of coils, optional noise-scan records',
-          ),
+          multipartBody: rawMultipartBody,
         },
       },
       schema: {
-        summary: 'Import raw multi-coil k-space (ISMRMRD)',
+        summary: 'Import raw multi-coil k-space (ISMRMRD or acquisition bundle)',
         description:
-          'multipart/form-data with the file in the part `file` (within the upload limit). Refused (422, naming ' +
-          'the field) when non-Cartesian, partially sampled, 3D, or with several slices, contrasts or repetitions. ' +
-          'Subject, study and free text of the header are never read, stored, logged or returned.',
+          'multipart/form-data (within the upload limit) with either an ISMRMRD file in the part `file`, or an ' +
+          'acquisition bundle as exported by GET /v1/results/{id}/acquisition.nii and .json in the parts `nifti` ' +
+          'and `header`. Refused (422, naming the field) when non-Cartesian, not fully sampled (a bundle: ' +
+          '`header.samples.count` with the acquired fraction), 3D, or with several slices, contrasts or ' +
+          'repetitions, or when the bundle’s NIfTI contradicts its header. Subject, study and free text of a ' +
+          'header are never read, stored, logged or returned.',
         tags: ['raw'],
         response: {
           201: jsonResponse('The imported data (Location: its URL)', rawInfoResponse),
@@ -45,8 +46,11 @@ export async function rawRoutes(app: FastifyInstance): Promise<void> {
     async (request, reply) => {
       const caller = tenancy(request);
       const signal = disconnectSignal(request, reply);
-      const { bytes } = await readFilePart(request, 'the ISMRMRD file');
-      const info = await raw.upload(bytes, caller, signal);
+      const upload = await readRawUpload(request);
+      const info =
+        upload.kind === 'ismrmrd'
+          ? await raw.upload(upload.file, caller, signal)
+          : await raw.uploadBundle(upload.nifti, upload.header, caller, signal);
       return reply.code(201).header('location', info.url).send(info);
     },
   );

@@ -250,7 +250,7 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
     await app.register(fastifySwagger, swaggerOptions);
     await app.register(fastifySwaggerUi, swaggerUiOptions);
     await app.register(fastifyMultipart, {
-      limits: { fileSize: limits.maxUploadBytes, files: 1, fields: 8, parts: 9, fieldSize: 1024 },
+      limits: { fileSize: limits.maxUploadBytes, files: 2, fields: 8, parts: 10, fieldSize: 1024 },
     });
     for (const plugin of openPlugins) await app.register(plugin);
     if (options.queue) {

@@ -1,3 +1,4 @@
+import type { MultipartFile } from '@fastify/multipart';
 import type { FastifyRequest } from 'fastify';
 import { HttpProblem } from './problem.ts';
 
@@ -15,15 +16,47 @@ export async function readFilePart(
       { field: 'file', message: 'missing' },
     ]);
   }
+  return { bytes: await partBytes(part), fields: part.fields };
+}
+
+/**
+ * The file parts of a multipart upload by name among `names` (a repeated part is a 400 naming it);
+ * plain form fields and file parts of other names are passed over, so that the caller's rule of
+ * which parts must be present names what is missing.
+ */
+export async function readFileParts<Name extends string>(
+  request: FastifyRequest,
+  names: readonly Name[],
+): Promise<Partial<Record<Name, Buffer>>> {
+  const found: Partial<Record<Name, Buffer>> = {};
+  const parts = request.parts();
+  while (true) {
+    const next = await parts.next().catch(malformedMultipart('body'));
+    if (next.done) return found;
+    const part = next.value;
+    if (part.type !== 'file') continue;
+    const bytes = await partBytes(part);
+    const name = part.fieldname as Name;
+    if (!names.includes(name)) continue;
+    if (found[name] !== undefined) {
+      throw new HttpProblem(400, `multipart part "${name}" was sent twice`, [
+        { field: name, message: 'sent twice', allowed: 'each part once' },
+      ]);
+    }
+    found[name] = bytes;
+  }
+}
+
+async function partBytes(part: MultipartFile): Promise<Buffer> {
   const bytes = await part.toBuffer().catch(malformedMultipart('file'));
   // busboy marks the stream truncated at the size limit; when the limit falls on the last chunk
   // the plugin's toBuffer returns the cut bytes without its 413, so a cut file is refused here.
   if (part.file.truncated) {
     throw new HttpProblem(413, 'the file is larger than the upload limit', [
-      { field: 'file', message: 'larger than the upload limit (MAX_UPLOAD_BYTES)' },
+      { field: part.fieldname, message: 'larger than the upload limit (MAX_UPLOAD_BYTES)' },
     ]);
   }
-  return { bytes, fields: part.fields };
+  return bytes;
 }
 
 /**

@@ -1,16 +1,8 @@
 import { DecodeError } from '../core/errors.ts';
 import { defaultLimits } from '../core/limits.ts';
-import { gunzipBounded } from './bounded-inflate.ts';
 import type { DecodedImage, DecodeOptions } from './decoded-image.ts';
 import { decodeDicom, isDicomPart10 } from './dicom.ts';
-import {
-  decodeNifti,
-  isGzip,
-  niftiDeclaredLength,
-  niftiHeaderBytes,
-  niftiKind,
-  unrecognisedFile,
-} from './nifti.ts';
+import { decodeNifti, inflatedNifti, isGzip, niftiKind, unrecognisedFile } from './nifti.ts';
 import { decodeRaster } from './raster.ts';
 
 export type { DecodedImage, DecodeOptions, ImageFormat } from './decoded-image.ts';
@@ -59,14 +51,7 @@ async function decodeByContent(bytes: Buffer, options: DecodeOptions): Promise<D
     return decodeRaster(bytes, 'tiff', options);
   }
   if (isGzip(bytes)) {
-    const bounded = { ...options, maxBytes: options.maxBytes ?? defaultMaxBytes };
-    // .nii.gz: the header is checked as soon as it is inflated, and inflation stops at the length it
-    // declares or at maxBytes, so a small upload cannot expand without limit.
-    const plain = await gunzipBounded(bytes, {
-      maxBytes: bounded.maxBytes,
-      headerBytes: niftiHeaderBytes,
-      declaredLength: (head) => niftiDeclaredLength(head, bounded),
-    });
+    const plain = await inflatedNifti(bytes, { ...options, maxBytes: options.maxBytes ?? defaultMaxBytes });
     return decodeNifti(plain, options);
   }
   if (niftiKind(bytes) !== null) return decodeNifti(bytes, options);

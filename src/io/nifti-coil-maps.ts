@@ -1,9 +1,8 @@
 import { COIL_LIMITS } from '../coils/index.ts';
 import { DecodeError, LimitError, ValidationError } from '../core/errors.ts';
 import { type CoilMaps, createMultiCoilArray } from '../encoding/index.ts';
-import { gunzipBounded } from './bounded-inflate.ts';
 import { checkCoilMapValues } from './coil-map-values.ts';
-import { isGzip, niftiDeclaredLength, niftiHeaderBytes, singleFileNiftiKind } from './nifti.ts';
+import { inflatedNifti, singleFileNiftiKind } from './nifti.ts';
 import { checkNiftiHeader, type NiftiHeaderOptions } from './nifti-header.ts';
 
 /** nifti1.h codes read as coil maps: both carry float32 numbers, so the maps are stored unrounded. */
@@ -33,13 +32,7 @@ export async function decodeNiftiCoilMaps(
   options: { maxSide: number; maxBytes: number },
 ): Promise<NiftiCoilMaps> {
   const headerOptions: NiftiHeaderOptions = { ...options, datatypes: coilMapDatatypes };
-  const plain = isGzip(bytes)
-    ? await gunzipBounded(bytes, {
-        maxBytes: options.maxBytes,
-        headerBytes: niftiHeaderBytes,
-        declaredLength: (head) => niftiDeclaredLength(head, headerOptions),
-      })
-    : bytes;
+  const plain = await inflatedNifti(bytes, { ...headerOptions, maxBytes: options.maxBytes });
   const kind = singleFileNiftiKind(plain);
   const facts = checkNiftiHeader(plain, headerOptions);
   const { dims } = facts;
@@ -106,22 +99,25 @@ function coilAxisOf(dims: number[]): number {
   return rank;
 }
 
-/** nifti1.h: scl_slope 0 (or not a number, as nibabel writes for float data) means no scaling. */
-function checkUnscaled(slope: number, inter: number): void {
+/**
+ * nifti1.h: scl_slope 0 (or not a number, as nibabel writes for float data) means no scaling; any
+ * other scaling is refused since `what` is used as given.
+ */
+export function checkUnscaled(slope: number, inter: number, what = 'the maps'): void {
   const scaled = Number.isFinite(slope) && slope !== 0;
   if (!scaled) return;
   if (slope !== 1) {
     throw new ValidationError({
       field: 'file.scl_slope',
-      message: `scl_slope ${slope} would rescale the maps`,
-      allowed: '0, 1 or NaN (maps are used as given)',
+      message: `scl_slope ${slope} would rescale ${what}`,
+      allowed: `0, 1 or NaN (${what} are used as given)`,
     });
   }
   if (Number.isFinite(inter) && inter !== 0) {
     throw new ValidationError({
       field: 'file.scl_inter',
-      message: `scl_inter ${inter} would shift the maps`,
-      allowed: '0 or NaN (maps are used as given)',
+      message: `scl_inter ${inter} would shift ${what}`,
+      allowed: `0 or NaN (${what} are used as given)`,
     });
   }
 }

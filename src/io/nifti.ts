@@ -1,5 +1,6 @@
 import { DecodeError, LimitError } from '../core/errors.ts';
 import { MAX_VOLUME_VOXELS } from '../core/matrix.ts';
+import { gunzipBounded } from './bounded-inflate.ts';
 import type { DecodedImage, DecodeOptions } from './decoded-image.ts';
 import { checkIndex } from './image-size.ts';
 import { checkNiftiHeader, type NiftiHeaderOptions } from './nifti-header.ts';
@@ -70,6 +71,23 @@ export function niftiDeclaredLength(
   if (kind === null) throw new DecodeError(unrecognisedFile);
   if (kind !== 'nifti-1' && kind !== 'nifti-2') return head.length;
   return checkNiftiHeader(head, options).end;
+}
+
+/**
+ * A single-file NIfTI as plain bytes: .nii.gz is inflated with the bound of uploads (the header is
+ * checked as soon as it is inflated, and inflation stops at the length it declares or at
+ * `maxBytes`, so a small upload cannot expand without limit); other bytes are returned as they are.
+ */
+export async function inflatedNifti(
+  bytes: Uint8Array,
+  options: DecodeOptions & NiftiHeaderOptions & { maxBytes: number },
+): Promise<Uint8Array> {
+  if (!isGzip(bytes)) return bytes;
+  return gunzipBounded(bytes, {
+    maxBytes: options.maxBytes,
+    headerBytes: niftiHeaderBytes,
+    declaredLength: (head) => niftiDeclaredLength(head, options),
+  });
 }
 
 export const unrecognisedFile =

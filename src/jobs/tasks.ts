@@ -59,6 +59,10 @@ export interface TaskMap {
   decode: { input: { bytes: Uint8Array; options: DecodeOptions }; output: DecodedImage };
   'decode-coil-maps': { input: CoilMapsUpload; output: DecodedCoilMaps };
   'read-raw-kspace': { input: { bytes: Uint8Array; limits: Limits }; output: ImportedRawKspace };
+  'read-acquisition-bundle': {
+    input: { nifti: Uint8Array; header: Uint8Array; limits: Limits };
+    output: ImportedRawKspace;
+  };
   'phantom-kspace': { input: { name: string; kx: Float64Array; ky: Float64Array }; output: Float64Array };
   'phantom-raster': {
     input: { name: string; nx: number; ny: number; supersample?: number };

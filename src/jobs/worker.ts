@@ -91,6 +91,10 @@ const handlers: { [K in TaskKind]: (input: TaskInput<K>) => Promise<TaskOutput<K
     const { importRawKspace } = await import('../io/ismrmrd/import-raw-kspace.ts');
     return importRawKspace(bytes, limits);
   },
+  async 'read-acquisition-bundle'({ nifti, header, limits }) {
+    const { readAcquisitionBundle } = await import('../io/read-acquisition-bundle.ts');
+    return readAcquisitionBundle(nifti, header, limits);
+  },
   async 'phantom-kspace'({ name, kx, ky }) {
     const { getPhantom } = await import('../phantoms/index.ts');
     return getPhantom(name).kspaceAt(kx, ky);

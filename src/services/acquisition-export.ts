@@ -1,12 +1,12 @@
 import { sampleTable } from '../../sampling/index.ts';
+import { ACQUISITION_FORMAT } from '../io/acquisition-bundle-header.ts';
 import { niftiComplex64 } from '../io/nifti-writer.ts';
 import type { StoredAcquisition } from '../jobs/store.ts';
 import type { AcquiredData } from '../pipeline/acquired-data.ts';
 import type { ReconstructionOutcome } from '../pipeline/run-reconstruction.ts';
 import { sampledSummary } from './sampled-summary.ts';
 
-/** Export format name and version written into acquisition.json (docs/design.md §4.11). */
-export const ACQUISITION_FORMAT = 'kspace-planner acquisition 1';
+export { ACQUISITION_FORMAT };
 
 /** The URLs of a reconstruction's acquisition bundle. */
 export function acquisitionUrls(id: string): { nifti: string; json: string } {

@@ -3,7 +3,7 @@ import { z } from 'zod';
 import type { RawKspace } from '../acquisition/index.ts';
 import { NotFoundError, ValidationError } from '../core/errors.ts';
 import type { Limits } from '../core/limits.ts';
-import type { RawKspaceFacts } from '../io/ismrmrd/import-raw-kspace.ts';
+import type { ImportedRawKspace, RawKspaceFacts } from '../io/ismrmrd/import-raw-kspace.ts';
 import type { Store, StoredRawKspace } from '../jobs/store.ts';
 import type { WorkerPool } from '../jobs/worker-pool.ts';
 import type { Caller } from './caller.ts';
@@ -23,8 +23,28 @@ const rawFactsSchema = z.object({
   imagingRecords: side('imaging records read'),
   repeatedLines: side('records of a line beyond its first (averaged into the line)'),
   skippedRecords: side('calibration, navigator and other non-imaging records left out'),
-  encodedFieldOfViewMm: z.array(z.number()).length(3).describe('encoded field of view x, y, z (mm)'),
-  reconFieldOfViewMm: z.array(z.number()).length(3).describe('reconstructed field of view x, y, z (mm)'),
+  encodedFieldOfViewMm: z
+    .array(z.number())
+    .length(3)
+    .nullable()
+    .describe('encoded field of view x, y, z (mm); null for an acquisition bundle (no physical size)'),
+  reconFieldOfViewMm: z
+    .array(z.number())
+    .length(3)
+    .nullable()
+    .describe('reconstructed field of view x, y, z (mm); null for an acquisition bundle'),
+  format: z
+    .enum(['ismrmrd', 'acquisition-bundle'])
+    .default('ismrmrd')
+    .describe('what was imported: an ISMRMRD file or an acquisition bundle (acquisition.nii + .json)'),
+  noiseVariancePerSample: z
+    .number()
+    .nullable()
+    .default(null)
+    .describe(
+      "an acquisition bundle's noise variance per complex sample, kept as the covariance v·I (reconstructions " +
+        'prewhiten with it); null when unknown and for ISMRMRD files (their noise scans give the covariance)',
+    ),
 });
 
 /** Imported raw k-space as answered: numbers of the file only (no header text is ever read). */
@@ -43,19 +63,37 @@ function infoOf(stored: StoredRawKspace): RawInfo {
 }
 
 /**
- * Raw multi-coil k-space imported from ISMRMRD files: read on the worker pool, stored as the fully
- * sampled coil k-space with its noise covariance and numeric facts (the file and its header text
- * are dropped), owned by the caller; deletion and retention as for uploads (inputKinds.raw).
+ * Raw multi-coil k-space imported from ISMRMRD files or acquisition bundles: read on the worker
+ * pool, stored as the fully sampled coil k-space with its noise covariance and numeric facts (the
+ * files and their header text are dropped), owned by the caller; deletion and retention as for
+ * uploads (inputKinds.raw).
  */
 export class RawDataService {
   constructor(private readonly deps: { pool: WorkerPool; store: Store; limits: Limits }) {}
 
   async upload(bytes: Buffer, caller: Caller, signal?: AbortSignal): Promise<RawInfo> {
-    const { pool, store, limits } = this.deps;
+    const { pool, limits } = this.deps;
     const view = new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength);
     const imported = await pool.runForRequest('read-raw-kspace', { bytes: view, limits }, signal);
+    return this.keep(imported, caller);
+  }
+
+  /**
+   * A fully sampled Cartesian acquisition bundle (acquisition.nii + acquisition.json, docs/design.md
+   * §4.11), header and samples checked and read on the worker pool (a 1024² header's sample table
+   * is some 18 MB of JSON).
+   */
+  async uploadBundle(nifti: Buffer, header: Buffer, caller: Caller, signal?: AbortSignal): Promise<RawInfo> {
+    const view = (b: Buffer) => new Uint8Array(b.buffer, b.byteOffset, b.byteLength);
+    const { pool, limits } = this.deps;
+    const input = { nifti: view(nifti), header: view(header), limits };
+    const imported = await pool.runForRequest('read-acquisition-bundle', input, signal);
+    return this.keep(imported, caller);
+  }
+
+  private keep(imported: ImportedRawKspace, caller: Caller): RawInfo {
     const meta: RawKspaceFacts = imported.facts;
-    return infoOf(store.putRawKspace(randomUUID(), imported, { ...meta }, caller.owner));
+    return infoOf(this.deps.store.putRawKspace(randomUUID(), imported, { ...meta }, caller.owner));
   }
 
   /** Imported raw data the caller may see. */

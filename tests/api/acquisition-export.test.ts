@@ -5,6 +5,7 @@ import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { whitenedRawKspace } from '../../src/acquisition/index.ts';
 import { readRawKspace } from '../../src/io/ismrmrd/read-raw-kspace.ts';
+import { download, reconstructWithBundle } from './acquisition-helpers.ts';
 import { binary, expectDocumented, expectProblem, sharedTestApp, type TestApp } from './helpers.ts';
 
 /**
@@ -14,25 +15,6 @@ import { binary, expectDocumented, expectProblem, sharedTestApp, type TestApp } 
  */
 const fixture = readFileSync(new URL('../fixtures/ismrmrd/shepp-logan-4coil.h5', import.meta.url));
 const checkScript = new URL('../reference/acquisition_bundle_check.py', import.meta.url).pathname;
-
-async function reconstruct(t: TestApp, body: Record<string, unknown>): Promise<string> {
-  const res = await t
-    .http()
-    .post('/v1/reconstructions')
-    .send({ method: { name: 'zero-filled' }, ...body });
-  expect(res.status).toBe(201);
-  expect(res.body.acquisition).toEqual({
-    nifti: `/v1/results/${res.body.id}/acquisition.nii`,
-    json: `/v1/results/${res.body.id}/acquisition.json`,
-  });
-  return res.body.id;
-}
-
-async function download(t: TestApp, path: string): Promise<Buffer> {
-  const res = await t.http().get(path).buffer(true).parse(binary);
-  expect(res.status).toBe(200);
-  return res.body as Buffer;
-}
 
 /** Writes a result's bundle and images.nii to a folder and runs the numpy check on it. */
 async function numpyCheck(t: TestApp, id: string) {
@@ -57,7 +39,7 @@ describe('acquisition export', () => {
 
   it('raw 4-coil data at R = 2: numpy’s zero-filled RSS of the exported k-space is the service’s zero-filled image', async () => {
     rawId = (await t.http().post('/v1/raw').attach('file', fixture, 'a.h5')).body.id;
-    const id = await reconstruct(t, {
+    const id = await reconstructWithBundle(t, {
       source: { rawId },
       matrix: { nx: 64, ny: 64 },
       sampling: { pattern: 'cartesian-uniform', acceleration: 2, acs: 8 },
@@ -84,7 +66,7 @@ describe('acquisition export', () => {
   });
 
   it('single coil phantom with noise: the same check, and the noise variance is 2σ² of the note', async () => {
-    const id = await reconstruct(t, {
+    const id = await reconstructWithBundle(t, {
       source: { phantom: 'shepp-logan' },
       matrix: { nx: 48, ny: 40 },
       sampling: { pattern: 'cartesian-random', acceleration: 3, acs: 6, seed: 5 },
@@ -104,7 +86,7 @@ describe('acquisition export', () => {
   });
 
   it('a fully sampled raw export holds the imported, prewhitened k-space sample for sample', async () => {
-    const id = await reconstruct(t, {
+    const id = await reconstructWithBundle(t, {
       source: { rawId },
       matrix: { nx: 64, ny: 64 },
       sampling: { pattern: 'cartesian-uniform', acceleration: 1 },
@@ -123,7 +105,7 @@ describe('acquisition export', () => {
   });
 
   it('radial samples: dims [samples per readout, readouts, 1, coils] and the trajectory table in cycles per FOV', async () => {
-    const id = await reconstruct(t, {
+    const id = await reconstructWithBundle(t, {
       source: { phantom: 'shepp-logan' },
       matrix: { nx: 32, ny: 32 },
       sampling: { pattern: 'radial', acceleration: 4, trajectory: 'non-cartesian' },
@@ -153,7 +135,7 @@ describe('acquisition export', () => {
   });
 
   it('acquisition.h5 is a documented 404 of type format-not-available with a Link to the bundle', async () => {
-    const id = await reconstruct(t, {
+    const id = await reconstructWithBundle(t, {
       source: { phantom: 'shepp-logan' },
       matrix: { nx: 16, ny: 16 },
       sampling: { pattern: 'cartesian-uniform', acceleration: 2 },
@@ -177,7 +159,7 @@ describe('acquisition export', () => {
   });
 
   it('deleting the result deletes its acquisition', async () => {
-    const id = await reconstruct(t, {
+    const id = await reconstructWithBundle(t, {
       source: { phantom: 'shepp-logan' },
       matrix: { nx: 16, ny: 16 },
       sampling: { pattern: 'cartesian-uniform', acceleration: 2 },

@@ -34,8 +34,13 @@ export interface RawKspaceFacts {
   repeatedLines: number;
   /** Calibration, navigator and other non-imaging records left out. */
   skippedRecords: number;
-  encodedFieldOfViewMm: [number, number, number];
-  reconFieldOfViewMm: [number, number, number];
+  /** null for an acquisition bundle, whose positions are in cycles per FOV with no physical size. */
+  encodedFieldOfViewMm: [number, number, number] | null;
+  reconFieldOfViewMm: [number, number, number] | null;
+  /** What was imported: an ISMRMRD file or an acquisition bundle (docs/design.md §4.11). */
+  format: 'ismrmrd' | 'acquisition-bundle';
+  /** A bundle's known noise variance per complex sample (kept as Ψ = v·I); null otherwise. */
+  noiseVariancePerSample: number | null;
 }
 
 /** Reads an uploaded ISMRMRD file into the stored form (refusals as readRawKspace gives them). */
@@ -61,6 +66,8 @@ export async function importRawKspace(bytes: Uint8Array, limits: Limits): Promis
       skippedRecords: records.skipped,
       encodedFieldOfViewMm: fov(raw.encodedFieldOfViewMm),
       reconFieldOfViewMm: fov(raw.reconFieldOfViewMm),
+      format: 'ismrmrd',
+      noiseVariancePerSample: null,
     },
   };
 }
