@@ -10,13 +10,17 @@ export const PROX_TOLERANCE = 1e-10;
 /** At most this many CG steps per proximal step (κ ≤ 1.35 for ‖E‖ ≤ 1 needs about 9 from a cold start). */
 export const PROX_MAX_STEPS = 30;
 
-export interface CsTvEncodingResult {
+/** What every cs-tv solver returns: the image, the run, its last changes and objective (with TV). */
+export interface CsTvResult {
   image: ComplexImage;
   iterations: number;
   objective: number;
   relativeChange: number;
   objectiveChange: number;
   tv: number;
+}
+
+export interface CsTvEncodingResult extends CsTvResult {
   /** CG steps summed over all iterations (each costs one EᴴE product); 0 for the linearised solver. */
   proxSteps: number;
 }
@@ -42,14 +46,8 @@ export function solveCsTvEncoding(
   tolerance: number,
   signal?: AbortSignal,
 ): CsTvEncodingResult {
-  const { x, backProjection, objectiveAt, loop } = operatorSetup(
-    operator,
-    y,
-    lambdaAbs,
-    iterations,
-    tolerance,
-    signal,
-  );
+  const setup = operatorSetup(operator, y, lambdaAbs, iterations, tolerance, signal);
+  const { x, backProjection, objectiveAt } = setup;
   const prox = new NormalProxSolver(operator);
   const rhs = new Float64Array(x.data.length);
   // EᴴE x and EᴴE x_old: the data term ½‖Ex − y‖² of the objective the stopping rule compares.
@@ -58,7 +56,7 @@ export function solveCsTvEncoding(
   const xd = x.data;
   let proxSteps = 0;
   const { iterations: run, rule } = runPrimalDual(xd, {
-    ...loop,
+    ...setup.loop,
     primalStep: (div) => {
       normalOld.set(normal);
       // b = v + τEᴴy with v = x + τ div p; the warm start is the current x.
@@ -157,20 +155,14 @@ export function solveCsTvLinearised(
 ): CsTvEncodingResult {
   if (!(normBound > 0) || !Number.isFinite(normBound)) throw new RangeError('normBound must be positive');
   const tau = 0.99 / (normBound / 2 + 8 * TV_STEP);
-  const { x, backProjection, objectiveAt, loop } = operatorSetup(
-    operator,
-    y,
-    lambdaAbs,
-    iterations,
-    tolerance,
-    signal,
-  );
+  const setup = operatorSetup(operator, y, lambdaAbs, iterations, tolerance, signal);
+  const { x, backProjection, objectiveAt } = setup;
   const normal = operator.createImage();
   const probe = operator.createImage();
   const xd = x.data;
   const nd = normal.data;
   const { iterations: run, rule } = runPrimalDual(xd, {
-    ...loop,
+    ...setup.loop,
     primalStep: (div) => {
       operator.normal(x, normal);
       for (let i = 0; i < xd.length; i++) xd[i] -= tau * (nd[i] - backProjection[i] - div[i]);

@@ -5,6 +5,7 @@ import type { CoilSamples } from '../encoding/encoding-operator.ts';
 import type { EncodingOperator } from '../encoding/index.ts';
 import {
   backProjectionPeak,
+  type CsTvResult,
   normalNormEstimate,
   PROX_TOLERANCE,
   solveCsTvEncoding,
@@ -14,6 +15,7 @@ import { encodingProblem } from './encoding-problem.ts';
 import type { ReconInput, ReconMethod, ReconOutput } from './method.ts';
 import { checkedNumber, checkedTolerance, iterationsToRun, type NumberRule } from './parameters.ts';
 import { runPrimalDual, TV_STEP } from './primal-dual-loop.ts';
+import { iterationLimitField, rangeField, toleranceField } from './schema-fields.ts';
 import { totalVariation } from './total-variation.ts';
 import {
   cartesianResidual,
@@ -30,27 +32,15 @@ export const CS_TV_DEFAULT_TOLERANCE = 1e-5;
 
 export const csTvSchema = z.strictObject({
   name: z.literal('cs-tv'),
-  lambda: z
-    .number()
-    .min(LAMBDA_RULE.min)
-    .max(LAMBDA_RULE.max)
-    .optional()
-    .describe(
-      'TV weight relative to max |F_cᴴ y| (scale-free); default: with known noise σ the discrepancy principle, ' +
-        'else 0.0009·(1/f − 1)^1.75 (at most 0.05), f = acquired fraction',
-    ),
-  iterations: z
-    .number()
-    .int()
-    .min(1)
-    .optional()
-    .describe(`iteration limit (default ${CS_TV_DEFAULT_ITERATIONS})`),
-  tolerance: z
-    .number()
-    .min(0)
-    .lt(1)
-    .optional()
-    .describe(`stop when ‖x_k − x_{k−1}‖ / ‖x_k‖ < tolerance (default ${CS_TV_DEFAULT_TOLERANCE})`),
+  lambda: rangeField(
+    LAMBDA_RULE,
+    'TV weight relative to max |F_cᴴ y| (scale-free); default: with known noise σ the discrepancy principle, ' +
+      'else 0.0009·(1/f − 1)^1.75 (at most 0.05), f = acquired fraction',
+  ),
+  iterations: iterationLimitField(`iteration limit (default ${CS_TV_DEFAULT_ITERATIONS})`),
+  tolerance: toleranceField(
+    `stop when ‖x_k − x_{k−1}‖ / ‖x_k‖ < tolerance (default ${CS_TV_DEFAULT_TOLERANCE})`,
+  ),
 });
 export type CsTvSpec = z.infer<typeof csTvSchema>;
 
@@ -70,14 +60,7 @@ export function solveCsTv(
   iterations: number,
   tolerance: number,
   signal?: AbortSignal,
-): {
-  image: ComplexImage;
-  iterations: number;
-  objective: number;
-  relativeChange: number;
-  objectiveChange: number;
-  tv: number;
-} {
+): CsTvResult {
   const { kspace, mask } = input;
   const { nx, ny } = kspace;
   const n = nx * ny;
@@ -91,7 +74,6 @@ export function solveCsTv(
     }
   }
   ifft2c(x, x);
-  const damp = 1 / (1 + TV_STEP);
   // F x and F x_old: the data term of the objective the stopping rule compares.
   const kspaceX = new Float64Array(2 * n);
   const kspaceOld = new Float64Array(2 * n);
@@ -116,16 +98,7 @@ export function solveCsTv(
     primalStep: (div) => {
       kspaceOld.set(kspaceX);
       for (let i = 0; i < 2 * n; i++) work.data[i] = xd[i] + TV_STEP * div[i];
-      fft2c(work, work);
-      const w = work.data;
-      for (let i = 0; i < n; i++) {
-        if (mask[i]) {
-          w[2 * i] = (w[2 * i] + TV_STEP * y[2 * i]) * damp;
-          w[2 * i + 1] = (w[2 * i + 1] + TV_STEP * y[2 * i + 1]) * damp;
-        }
-      }
-      kspaceX.set(w);
-      ifft2c(work, x);
+      maskedDataProx(work, x, kspaceX, input, TV_STEP);
     },
     objectiveNow: () => objectiveAt(xd, kspaceX),
     objectiveBefore: (xOld) => objectiveAt(xOld, kspaceOld),
@@ -142,6 +115,32 @@ export function solveCsTv(
     objectiveChange: rule.objectiveChange,
     tv,
   };
+}
+
+/**
+ * prox_τG(v) for G = ½‖M F_c x − y‖², exact in k-space: x = F_cᴴ[(F_c v + τ M y) / (1 + τ M)]
+ * (docs/references.md §5.2). `work` holds v and is overwritten; F_c x goes to `kspace`, x to `x`.
+ */
+export function maskedDataProx(
+  work: ComplexImage,
+  x: ComplexImage,
+  kspace: Float64Array,
+  input: ReconInput,
+  tau: number,
+): void {
+  const { mask } = input;
+  const y = input.kspace.data;
+  const damp = 1 / (1 + tau);
+  fft2c(work, work);
+  const w = work.data;
+  for (let i = 0; i < mask.length; i++) {
+    if (mask[i]) {
+      w[2 * i] = (w[2 * i] + tau * y[2 * i]) * damp;
+      w[2 * i + 1] = (w[2 * i + 1] + tau * y[2 * i + 1]) * damp;
+    }
+  }
+  kspace.set(w);
+  ifft2c(work, x);
 }
 
 /** ½‖M X − y‖² for k-space X. */

@@ -5,7 +5,7 @@ import { SeededRandom } from '../core/random.ts';
 import { daubechiesFilters, type WaveletName } from '../wavelets/daubechies-filters.ts';
 import { checkDwtShape } from '../wavelets/dwt2.ts';
 import { WaveletSteps } from '../wavelets/wavelet-steps.ts';
-import { maskedResidual, zeroFilledPeak } from './cs-tv.ts';
+import { maskedDataProx, maskedResidual, zeroFilledPeak } from './cs-tv.ts';
 import type { ReconInput } from './method.ts';
 import { runPrimalDual, TV_WAVELET_STEP } from './primal-dual-loop.ts';
 import { type ConvergenceReport, StoppingRule } from './stopping-rule.ts';
@@ -292,10 +292,7 @@ export function uphill(z: Float64Array, u: Float64Array, x: Float64Array): boole
 function primalDual(setup: Setup): Run {
   const { input, lambdaAbs, lambdaTvAbs, history, steps } = setup;
   const { nx, ny } = input.kspace;
-  const { mask } = input;
-  const y = input.kspace.data;
-  const n = nx * ny;
-  const size = 2 * n;
+  const size = 2 * nx * ny;
   const x = ifft2c({ nx, ny, data: maskedData(input) });
   const xd = x.data;
   const work = createComplexImage(nx, ny);
@@ -303,7 +300,6 @@ function primalDual(setup: Setup): Run {
   const back = new Float64Array(size);
   const kspace = maskedData(input);
   const kspaceOld = new Float64Array(size);
-  const damp = 1 / (1 + TV_WAVELET_STEP);
   const { iterations: run, rule } = runPrimalDual(xd, {
     nx,
     ny,
@@ -318,16 +314,7 @@ function primalDual(setup: Setup): Run {
     primalStep: (div) => {
       kspaceOld.set(kspace);
       for (let i = 0; i < size; i++) work.data[i] = xd[i] + TV_WAVELET_STEP * (div[i] - back[i]);
-      fft2c(work, work);
-      const w = work.data;
-      for (let i = 0; i < n; i++) {
-        if (mask[i]) {
-          w[2 * i] = (w[2 * i] + TV_WAVELET_STEP * y[2 * i]) * damp;
-          w[2 * i + 1] = (w[2 * i + 1] + TV_WAVELET_STEP * y[2 * i + 1]) * damp;
-        }
-      }
-      kspace.set(w);
-      ifft2c(work, x);
+      maskedDataProx(work, x, kspace, input, TV_WAVELET_STEP);
     },
     objectiveNow: () => objectiveOf(setup, xd, kspace),
     objectiveBefore: (xOld) => objectiveOf(setup, xOld, kspaceOld),
