@@ -221,65 +221,19 @@ export class BlockHankel {
    */
   private bandCorrelations(arrays: readonly Float64Array[], axis: 'rows' | 'columns'): void {
     const byRows = axis === 'rows';
-    const { nx, ny } = this;
-    const w = byRows ? this.wy : this.wx;
-    const other = byRows ? this.wx : this.wy;
-    const length = byRows ? nx : ny;
-    const lines = byRows ? ny : nx;
-    const start = lines - w + 1;
-    const band = byRows ? this.rowBand : this.columnBand;
+    const band = wrapBand(byRows, this, byRows ? this.planX : this.planY, byRows ? this.lineX : this.lineY);
+    const target = byRows ? this.rowBand : this.columnBand;
     const spectra = byRows ? this.rowSpectra : this.columnSpectra;
-    const plan = byRows ? this.planX : this.planY;
-    const line = byRows ? this.lineX : this.lineY;
-    const out = this.lineOut;
-    const lags = 2 * other - 1;
-    const count = 2 * w - 2;
-    band.fill(0);
-    if (count === 0) return;
-    for (let k = 0; k < arrays.length; k++) {
-      for (let i = 0; i < count; i++) {
-        const at = 2 * (k * count + i) * length;
-        transformLine(
-          spectra.subarray(at, at + 2 * length),
-          line,
-          arrays[k],
-          (start + i) % lines,
-          byRows,
-          nx,
-          plan,
-        );
-      }
-    }
-    for (let a = 0; a < w; a++) {
-      for (let b = a; b < w; b++) {
-        // line ← conj(Σ conj(Z_r) Z_s); forward DFT; conj again = inverse DFT of the cross-spectrum.
-        line.fill(0);
-        for (let k = 0; k < arrays.length; k++) {
-          for (let t = 0; t < w - 1; t++) {
-            addConjugatedCrossSpectrum(
-              line,
-              spectra,
-              2 * (k * count + t + a) * length,
-              2 * (k * count + t + b) * length,
-              length,
-            );
-          }
-        }
-        plan.forward(out, line);
-        for (let d = -(other - 1); d < other; d++) {
-          const m = 2 * (((d % length) + length) % length);
-          const re = out[m] / length;
-          const im = -out[m + 1] / length;
-          const o = 2 * ((a * w + b) * lags + d + other - 1);
-          band[o] = re;
-          band[o + 1] = im;
-          // band[b, a, −d] = conj(band[a, b, d]).
-          const oT = 2 * ((b * w + a) * lags - d + other - 1);
-          band[oT] = re;
-          band[oT + 1] = -im;
-        }
-      }
-    }
+    target.fill(0);
+    if (band.count === 0) return;
+    for (let k = 0; k < arrays.length; k++) transformBandLines(band, spectra, k, arrays[k], this.nx);
+    bandLags(band, target, spectra, this.lineOut, {
+      arrays: arrays.length,
+      coils: 1,
+      c: 0,
+      d: 0,
+      mirror: true,
+    });
   }
 
   /**
@@ -572,6 +526,118 @@ export function twiddles(n: number): Float64Array {
     t[2 * m + 1] = -Math.sin((2 * Math.PI * m) / n);
   }
   return t;
+}
+
+/**
+ * One wrap band of a wy×wx window on an ny×nx grid: the 2w−2 rows (byRows; w = wy, lines of length
+ * nx, lags |δ| < wx along them) or columns from `start` on, modulo the grid, where windows wrap.
+ */
+export interface WrapBand {
+  byRows: boolean;
+  w: number;
+  /** The window side along the lines: lags δ with |δ| < other. */
+  other: number;
+  length: number;
+  lines: number;
+  start: number;
+  count: number;
+  /** The line FFT (length `length`) and its scratch line. */
+  plan: FftPlan;
+  line: Float64Array;
+}
+
+export function wrapBand(
+  byRows: boolean,
+  grid: { nx: number; ny: number; wx: number; wy: number },
+  plan: FftPlan,
+  line: Float64Array,
+): WrapBand {
+  const w = byRows ? grid.wy : grid.wx;
+  const lines = byRows ? grid.ny : grid.nx;
+  return {
+    byRows,
+    w,
+    other: byRows ? grid.wx : grid.wy,
+    length: byRows ? grid.nx : grid.ny,
+    lines,
+    start: lines - w + 1,
+    count: 2 * w - 2,
+    plan,
+    line,
+  };
+}
+
+/** spectra block `block` ← the DFTs of the band's 2w−2 lines of z (block-major, `length` each). */
+export function transformBandLines(
+  band: WrapBand,
+  spectra: Float64Array,
+  block: number,
+  z: Float64Array,
+  nx: number,
+): void {
+  const { count, length, lines, start } = band;
+  for (let i = 0; i < count; i++) {
+    const at = 2 * (block * count + i) * length;
+    transformLine(
+      spectra.subarray(at, at + 2 * length),
+      band.line,
+      z,
+      (start + i) % lines,
+      band.byRows,
+      nx,
+      band.plan,
+    );
+  }
+}
+
+/**
+ * target[a, b, δ] = Σ_k Σ_{t<w−1} C(r_k(t+a), s_k(t+b))(δ), |δ| < other, from the line spectra of
+ * transformBandLines: r_k the lines of block k·coils + c, s_k those of block k·coils + d, and
+ * C(r, s)(δ) = Σ_e conj(r[e]) s[e + δ] the circular cross-correlation (one DFT of Σ conj(R)·S per
+ * (a, b)). With `mirror` (for c = d) only b ≥ a is summed and target[b, a, −δ] = conj(target[a, b, δ])
+ * gives the rest.
+ */
+export function bandLags(
+  band: WrapBand,
+  target: Float64Array,
+  spectra: Float64Array,
+  out: Float64Array,
+  blocks: { arrays: number; coils: number; c: number; d: number; mirror: boolean },
+): void {
+  const { w, other, length, count, line, plan } = band;
+  const { arrays, coils, c, d, mirror } = blocks;
+  const lags = 2 * other - 1;
+  for (let a = 0; a < w; a++) {
+    for (let b = mirror ? a : 0; b < w; b++) {
+      // line ← conj(Σ conj(Z_r) Z_s); forward DFT; conj again = inverse DFT of the cross-spectrum.
+      line.fill(0);
+      for (let k = 0; k < arrays; k++) {
+        for (let t = 0; t < w - 1; t++) {
+          addConjugatedCrossSpectrum(
+            line,
+            spectra,
+            2 * (((k * coils + c) * count + t + a) * length),
+            2 * (((k * coils + d) * count + t + b) * length),
+            length,
+          );
+        }
+      }
+      plan.forward(out, line);
+      for (let delta = -(other - 1); delta < other; delta++) {
+        const m = 2 * (((delta % length) + length) % length);
+        const re = out[m] / length;
+        const im = -out[m + 1] / length;
+        const o = 2 * ((a * w + b) * lags + delta + other - 1);
+        target[o] = re;
+        target[o + 1] = im;
+        if (mirror) {
+          const oT = 2 * ((b * w + a) * lags - delta + other - 1);
+          target[oT] = re;
+          target[oT + 1] = -im;
+        }
+      }
+    }
+  }
 }
 
 /**

@@ -1,15 +1,17 @@
 import { type FftPlan, fftPlan } from '../core/fft-plan.ts';
 import {
-  addConjugatedCrossSpectrum,
   addCornerCorrelation,
   addKernelSum,
+  bandLags,
   fullBoxOf,
   gatherCorner,
   lagsOverRows,
   offsetBoxes,
   rankProjector,
-  transformLine,
+  transformBandLines,
   twiddles,
+  type WrapBand,
+  wrapBand,
 } from './block-hankel.ts';
 import { Dft2 } from './uncentred-dft2.ts';
 
@@ -224,27 +226,20 @@ export class StackedBlockHankel {
     lagsOverRows(correlation, rowLags, nx, ny, wx, wy, twiddleY);
   }
 
-  /** Line DFTs of the 2w−2 band rows (or columns) (start + i) mod lines of every lifted array. */
-  private transformBandLines(axis: 'rows' | 'columns'): void {
+  /** The row or column wrap band of this grid and window, with its line FFT. */
+  private band(axis: 'rows' | 'columns'): WrapBand {
     const byRows = axis === 'rows';
-    const { nx, ny, coils } = this;
-    const w = byRows ? this.wy : this.wx;
-    const length = byRows ? nx : ny;
-    const lines = byRows ? ny : nx;
-    const count = 2 * w - 2;
-    const start = lines - w + 1;
-    const store = byRows ? this.rowLines : this.columnLines;
-    const line = byRows ? this.lineX : this.lineY;
-    const plan = byRows ? this.planX : this.planY;
+    return wrapBand(byRows, this, byRows ? this.planX : this.planY, byRows ? this.lineX : this.lineY);
+  }
+
+  /** Line DFTs of the 2w−2 band rows (or columns) of every lifted array, block k·C + c. */
+  private transformBandLines(axis: 'rows' | 'columns'): void {
+    const band = this.band(axis);
+    const store = axis === 'rows' ? this.rowLines : this.columnLines;
     const arrays = this.lifted ?? [];
     for (let k = 0; k < this.arrays; k++) {
-      for (let c = 0; c < coils; c++) {
-        const z = arrays[k][c];
-        for (let i = 0; i < count; i++) {
-          const at = 2 * (((k * coils + c) * count + i) * length);
-          transformLine(store.subarray(at, at + 2 * length), line, z, (start + i) % lines, byRows, nx, plan);
-        }
-      }
+      for (let c = 0; c < this.coils; c++)
+        transformBandLines(band, store, k * this.coils + c, arrays[k][c], this.nx);
     }
   }
 
@@ -253,44 +248,18 @@ export class StackedBlockHankel {
    * band[a, b, δ] = Σ_k Σ_{t<w−1} Σ_e conj(z_kc[ρ(t+a), e]) z_kd[ρ(t+b), e + δ] (rows; columns alike).
    */
   private bandCorrelation(c: number, d: number, axis: 'rows' | 'columns'): void {
-    const byRows = axis === 'rows';
-    const { coils } = this;
-    const w = byRows ? this.wy : this.wx;
-    const other = byRows ? this.wx : this.wy;
-    const length = byRows ? this.nx : this.ny;
-    const band = byRows ? this.rowBand : this.columnBand;
-    const store = byRows ? this.rowLines : this.columnLines;
-    const line = byRows ? this.lineX : this.lineY;
-    const plan = byRows ? this.planX : this.planY;
-    const out = this.lineOut;
-    const lags = 2 * other - 1;
-    const count = 2 * w - 2;
-    band.fill(0);
-    if (count === 0) return;
-    for (let a = 0; a < w; a++) {
-      for (let b = 0; b < w; b++) {
-        // line ← conj(Σ conj(Z_r) Z_s); forward DFT; conj again = inverse DFT of the cross-spectrum.
-        line.fill(0);
-        for (let k = 0; k < this.arrays; k++) {
-          for (let t = 0; t < w - 1; t++) {
-            addConjugatedCrossSpectrum(
-              line,
-              store,
-              2 * (((k * coils + c) * count + t + a) * length),
-              2 * (((k * coils + d) * count + t + b) * length),
-              length,
-            );
-          }
-        }
-        plan.forward(out, line);
-        for (let delta = -(other - 1); delta < other; delta++) {
-          const m = 2 * (((delta % length) + length) % length);
-          const o = 2 * ((a * w + b) * lags + delta + other - 1);
-          band[o] = out[m] / length;
-          band[o + 1] = -out[m + 1] / length;
-        }
-      }
-    }
+    const band = this.band(axis);
+    const target = axis === 'rows' ? this.rowBand : this.columnBand;
+    target.fill(0);
+    if (band.count === 0) return;
+    const store = axis === 'rows' ? this.rowLines : this.columnLines;
+    bandLags(band, target, store, this.lineOut, {
+      arrays: this.arrays,
+      coils: this.coils,
+      c,
+      d,
+      mirror: false,
+    });
   }
 
   /** corner_kc[i, j] = z_kc[(vy + i) mod ny, (vx + j) mod nx], i < 2wy−2, j < 2wx−2. */
