@@ -136,6 +136,17 @@ export interface HankelSolveParams {
   tolerance: number;
 }
 
+/** What the completion loops return: the completed k-space, the run, its last rank and spectrum. */
+export interface HankelSolution<K> {
+  kspace: K;
+  iterations: number;
+  /** The rank of the last iteration. */
+  rank: number;
+  relativeChange: number;
+  /** Eigenvalues of the last Gram matrix, descending. */
+  spectrum: Float64Array;
+}
+
 /** Smallest r whose leading eigenvalues keep `energy` of the trace (eigenvalues descending, ≥ 0). */
 export function rankForEnergy(values: Float64Array, energy: number): number {
   let total = 0;
@@ -172,13 +183,7 @@ export function solveLowrankHankel(
   input: ReconInput,
   params: HankelSolveParams,
   signal?: AbortSignal,
-): {
-  kspace: Float64Array;
-  iterations: number;
-  rank: number;
-  relativeChange: number;
-  spectrum: Float64Array;
-} {
+): HankelSolution<Float64Array> {
   const { kspace, mask } = input;
   const { nx, ny } = kspace;
   const n = nx * ny;
