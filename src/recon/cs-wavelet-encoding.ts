@@ -5,7 +5,7 @@ import { CartesianEncoding, type CoilSamples, type EncodingOperator } from '../e
 import type { WaveletFilters } from '../wavelets/daubechies-filters.ts';
 import { WaveletSteps } from '../wavelets/wavelet-steps.ts';
 import { dataTermFromNormal, PROX_MAX_STEPS, PROX_TOLERANCE } from './cs-tv-encoding.ts';
-import { uphill } from './cs-wavelet-solver.ts';
+import { nextMomentum, uphill } from './cs-wavelet-solver.ts';
 import { NormalProxSolver } from './normal-prox.ts';
 import { runPrimalDual, TV_WAVELET_STEP } from './primal-dual-loop.ts';
 import { StoppingRule } from './stopping-rule.ts';
@@ -160,7 +160,7 @@ function fista(problem: Problem): CsWaveletEncodingResult {
     run = it + 1;
     objective = dataTerm(xd, normalX.data, problem) + lambdaAbs * l1;
     if (restart && uphill(z, xd, xPrev)) t = 1;
-    const tNext = (1 + Math.sqrt(1 + 4 * t * t)) / 2;
+    const tNext = nextMomentum(t);
     beta = (t - 1) / tNext;
     t = tNext;
     const before = () =>

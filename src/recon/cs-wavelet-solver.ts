@@ -248,7 +248,7 @@ function fista(setup: Setup, rng: SeededRandom | null, monotone: boolean, restar
       t = 1;
       restarts++;
     }
-    const tNext = (1 + Math.sqrt(1 + 4 * t * t)) / 2;
+    const tNext = nextMomentum(t);
     const accept = !monotone || candidate <= objective;
     const before = objective;
     if (monotone) {
@@ -280,6 +280,11 @@ function fista(setup: Setup, rng: SeededRandom | null, monotone: boolean, restar
       break;
   }
   return { image, kspace: X, iterations: run, rule, restarts };
+}
+
+/** FISTA's momentum sequence t_{k+1} = (1 + √(1 + 4t_k²))/2 (Beck & Teboulle 2009), t_0 = 1. */
+export function nextMomentum(t: number): number {
+  return (1 + Math.sqrt(1 + 4 * t * t)) / 2;
 }
 
 /** ⟨z − u, u − x⟩ > 0 (real part; F is unitary, so k-space copies give the image-domain value). */
