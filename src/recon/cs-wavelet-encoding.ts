@@ -5,7 +5,7 @@ import { CartesianEncoding, type CoilSamples, type EncodingOperator } from '../e
 import type { WaveletFilters } from '../wavelets/daubechies-filters.ts';
 import { WaveletSteps } from '../wavelets/wavelet-steps.ts';
 import { dataTermFromNormal, PROX_MAX_STEPS, PROX_TOLERANCE } from './cs-tv-encoding.ts';
-import { nextMomentum, uphill } from './cs-wavelet-solver.ts';
+import { nextMomentum, uphill, waveletTvLoop } from './cs-wavelet-solver.ts';
 import { NormalProxSolver } from './normal-prox.ts';
 import { runPrimalDual, TV_WAVELET_STEP } from './primal-dual-loop.ts';
 import { StoppingRule } from './stopping-rule.ts';
@@ -180,8 +180,6 @@ function primalDual(problem: Problem): CsWaveletEncodingResult {
   const size = xd.length;
   const prox = new NormalProxSolver(operator);
   const rhs = new Float64Array(size);
-  const q = new Float64Array(size);
-  const back = new Float64Array(size);
   const normal = new Float64Array(size);
   const normalOld = new Float64Array(size);
   const objectiveAt = (image: Float64Array, normalImage: Float64Array): number =>
@@ -190,15 +188,9 @@ function primalDual(problem: Problem): CsWaveletEncodingResult {
     lambdaTvAbs * totalVariation(image, nx, ny);
   operator.normal(x, { nx, ny, data: normal });
   let proxSteps = 0;
+  const { back, loop } = waveletTvLoop(steps, lambdaAbs, lambdaTvAbs, options);
   const { iterations: run, rule } = runPrimalDual(xd, {
-    nx,
-    ny,
-    sigma: TV_WAVELET_STEP,
-    lambdaTv: lambdaTvAbs,
-    iterations: options.iterations,
-    tolerance: options.tolerance,
-    signal: options.signal,
-    dualStep: (xBar) => steps.dualStep(q, back, xBar, TV_WAVELET_STEP, lambdaAbs),
+    ...loop,
     primalStep: (div) => {
       normalOld.set(normal);
       // b = v + τEᴴy with v = x − τKᴴ(p, q) = x + τ div p − τ Wᴴq; warm start at the current x.

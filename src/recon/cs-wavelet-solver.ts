@@ -294,6 +294,33 @@ export function uphill(z: Float64Array, u: Float64Array, x: Float64Array): boole
   return dot > 0;
 }
 
+/**
+ * The primal–dual loop settings with K = (∇, W): τ = σ = TV_WAVELET_STEP, the TV dual of
+ * runPrimalDual and the wavelet dual q (projection onto |q| ≤ λ per detail coefficient), whose
+ * Wᴴq the primal step reads from `back`.
+ */
+export function waveletTvLoop(
+  steps: WaveletSteps,
+  lambdaAbs: number,
+  lambdaTvAbs: number,
+  run: { iterations: number; tolerance: number; signal?: AbortSignal | undefined },
+) {
+  const { nx, ny } = steps;
+  const q = new Float64Array(2 * nx * ny);
+  const back = new Float64Array(2 * nx * ny);
+  const loop = {
+    nx,
+    ny,
+    sigma: TV_WAVELET_STEP,
+    lambdaTv: lambdaTvAbs,
+    iterations: run.iterations,
+    tolerance: run.tolerance,
+    signal: run.signal,
+    dualStep: (xBar: Float64Array) => steps.dualStep(q, back, xBar, TV_WAVELET_STEP, lambdaAbs),
+  };
+  return { back, loop };
+}
+
 function primalDual(setup: Setup): Run {
   const { input, lambdaAbs, lambdaTvAbs, history, steps } = setup;
   const { nx, ny } = input.kspace;
@@ -301,20 +328,11 @@ function primalDual(setup: Setup): Run {
   const x = ifft2c({ nx, ny, data: maskedData(input) });
   const xd = x.data;
   const work = createComplexImage(nx, ny);
-  const q = new Float64Array(size);
-  const back = new Float64Array(size);
   const kspace = maskedData(input);
   const kspaceOld = new Float64Array(size);
+  const { back, loop } = waveletTvLoop(steps, lambdaAbs, lambdaTvAbs, setup);
   const { iterations: run, rule } = runPrimalDual(xd, {
-    nx,
-    ny,
-    sigma: TV_WAVELET_STEP,
-    lambdaTv: lambdaTvAbs,
-    iterations: setup.iterations,
-    tolerance: setup.tolerance,
-    signal: setup.signal,
-    // On q (wavelet): projection onto |q| ≤ λ per detail coefficient.
-    dualStep: (xBar) => steps.dualStep(q, back, xBar, TV_WAVELET_STEP, lambdaAbs),
+    ...loop,
     // Primal step v = x − τKᴴ(p, q) = x + τ div p − τ Wᴴq, then the exact data prox in k-space.
     primalStep: (div) => {
       kspaceOld.set(kspace);
