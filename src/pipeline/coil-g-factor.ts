@@ -10,7 +10,7 @@ import {
   type GFactorResult as MethodGFactor,
   type MethodSpec,
   type ReconInput,
-  type TrajectoryData,
+  type TrajectoryGFactorRequest,
   trajectoryGFactor,
   uniformCartesianAcceleration,
 } from '../recon/index.ts';
@@ -111,17 +111,18 @@ export function reconstructionGFactor(input: GFactorInput): GFactorResult | unde
   return summarised(result, input.objectMask, input.sampled.acceleration.actual);
 }
 
-/** What the g-factor of a receive-array reconstruction on a trajectory depends on. */
-export interface TrajectoryGFactorInput {
-  input: ReconInput & { trajectory: TrajectoryData };
-  method: MethodSpec;
-  baseInfo: Record<string, unknown>;
+/**
+ * What the g-factor of a receive-array reconstruction on a trajectory depends on: the base run
+ * (input, method, info) and seed as trajectoryGFactor takes them, and what its σ, R and support
+ * are found from.
+ */
+export interface TrajectoryGFactorInput
+  extends Pick<TrajectoryGFactorRequest, 'input' | 'method' | 'baseInfo' | 'seed'> {
   sampled: SampledMask;
   objectMask: Uint8Array;
   /** σ per coil after prewhitening; 0 for a noiseless run (then NOISELESS_REPLICA_SNR's). */
   coilSigma: number;
   reference: ComplexImage;
-  seed: number;
   options: { signal?: AbortSignal; limits: Limits };
   /** Replicas requested (`gFactor.replicas`); without it no estimate is made. */
   count?: number;

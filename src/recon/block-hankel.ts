@@ -100,15 +100,7 @@ export class BlockHankel {
     this.rowBoxes = rows.ranges;
     this.colBox = cols.boxOf;
     this.colBoxes = cols.ranges;
-    let ry = -1;
-    let rx = -1;
-    for (let i = 0; i < this.rowBoxes.length; i += 2) {
-      if (this.rowBoxes[i] === 0 && this.rowBoxes[i + 1] === wy - 1) ry = i / 2;
-    }
-    for (let i = 0; i < this.colBoxes.length; i += 2) {
-      if (this.colBoxes[i] === 0 && this.colBoxes[i + 1] === wx - 1) rx = i / 2;
-    }
-    this.fullBox = ry < 0 || rx < 0 ? null : { ry, rx };
+    this.fullBox = fullBoxOf(rows.ranges, cols.ranges, wy, wx);
     this.kernelImage = new Float64Array(2 * Math.min(ny, 2 * wy - 1) * nx);
     this.multiplier = new Float64Array(nx * ny);
     this.kernelRowSlot = new Int32Array(ny);
@@ -149,31 +141,8 @@ export class BlockHankel {
     // Corner windows, added back: Σ_{t ∈ [0,wy−1)×[0,wx−1)} conj(c[t+a]) c[t+b] over the corner block c.
     if (cy > 0 && cx > 0) {
       for (const z of arrays) {
-        this.gatherCorner(z);
-        for (let a = 0; a < size; a++) {
-          const ay = Math.floor(a / wx);
-          const ax = a - ay * wx;
-          for (let b = a; b < size; b++) {
-            const by = Math.floor(b / wx);
-            const bx = b - by * wx;
-            let re = 0;
-            let im = 0;
-            for (let ty = 0; ty < wy - 1; ty++) {
-              let i = 2 * ((ty + ay) * cx + ax);
-              let k = 2 * ((ty + by) * cx + bx);
-              for (let tx = 0; tx < wx - 1; tx++, i += 2, k += 2) {
-                const ar = corner[i];
-                const ai = corner[i + 1];
-                const br = corner[k];
-                const bi = corner[k + 1];
-                re += ar * br + ai * bi;
-                im += ar * bi - ai * br;
-              }
-            }
-            gram[2 * (a * size + b)] += re;
-            gram[2 * (a * size + b) + 1] += im;
-          }
-        }
+        gatherCorner(corner, z, this.nx, this.ny, wx, wy);
+        addCornerCorrelation(gram, corner, 0, 0, wx, wy, true);
       }
     }
     for (let a = 0; a < size; a++) {
@@ -252,80 +221,19 @@ export class BlockHankel {
    */
   private bandCorrelations(arrays: readonly Float64Array[], axis: 'rows' | 'columns'): void {
     const byRows = axis === 'rows';
-    const { nx, ny } = this;
-    const w = byRows ? this.wy : this.wx;
-    const other = byRows ? this.wx : this.wy;
-    const length = byRows ? nx : ny;
-    const lines = byRows ? ny : nx;
-    const start = lines - w + 1;
-    const band = byRows ? this.rowBand : this.columnBand;
+    const band = wrapBand(byRows, this, byRows ? this.planX : this.planY, byRows ? this.lineX : this.lineY);
+    const target = byRows ? this.rowBand : this.columnBand;
     const spectra = byRows ? this.rowSpectra : this.columnSpectra;
-    const plan = byRows ? this.planX : this.planY;
-    const line = byRows ? this.lineX : this.lineY;
-    const out = this.lineOut;
-    const lags = 2 * other - 1;
-    const count = 2 * w - 2;
-    band.fill(0);
-    if (count === 0) return;
-    for (let k = 0; k < arrays.length; k++) {
-      const z = arrays[k];
-      for (let i = 0; i < count; i++) {
-        const index = (start + i) % lines;
-        for (let c = 0; c < length; c++) {
-          const src = 2 * (byRows ? index * nx + c : c * nx + index);
-          line[2 * c] = z[src];
-          line[2 * c + 1] = z[src + 1];
-        }
-        plan.forward(spectra.subarray(2 * (k * count + i) * length, 2 * (k * count + i + 1) * length), line);
-      }
-    }
-    for (let a = 0; a < w; a++) {
-      for (let b = a; b < w; b++) {
-        // line ← conj(Σ conj(Z_r) Z_s); forward DFT; conj again = inverse DFT of the cross-spectrum.
-        line.fill(0);
-        for (let k = 0; k < arrays.length; k++) {
-          for (let t = 0; t < w - 1; t++) {
-            addConjugatedCrossSpectrum(
-              line,
-              spectra,
-              2 * (k * count + t + a) * length,
-              2 * (k * count + t + b) * length,
-              length,
-            );
-          }
-        }
-        plan.forward(out, line);
-        for (let d = -(other - 1); d < other; d++) {
-          const m = 2 * (((d % length) + length) % length);
-          const re = out[m] / length;
-          const im = -out[m + 1] / length;
-          const o = 2 * ((a * w + b) * lags + d + other - 1);
-          band[o] = re;
-          band[o + 1] = im;
-          // band[b, a, −d] = conj(band[a, b, d]).
-          const oT = 2 * ((b * w + a) * lags - d + other - 1);
-          band[oT] = re;
-          band[oT + 1] = -im;
-        }
-      }
-    }
-  }
-
-  /** corner[i, j] = z[(vy + i) mod ny, (vx + j) mod nx] for i < 2wy−2, j < 2wx−2. */
-  private gatherCorner(z: Float64Array): void {
-    const { nx, ny, wx, wy, corner } = this;
-    const cy = 2 * wy - 2;
-    const cx = 2 * wx - 2;
-    const vy = ny - wy + 1;
-    const vx = nx - wx + 1;
-    for (let i = 0; i < cy; i++) {
-      const row = (vy + i) % ny;
-      for (let j = 0; j < cx; j++) {
-        const src = 2 * (row * nx + ((vx + j) % nx));
-        corner[2 * (i * cx + j)] = z[src];
-        corner[2 * (i * cx + j) + 1] = z[src + 1];
-      }
-    }
+    target.fill(0);
+    if (band.count === 0) return;
+    for (let k = 0; k < arrays.length; k++) transformBandLines(band, spectra, k, arrays[k], this.nx);
+    bandLags(band, target, spectra, this.lineOut, {
+      arrays: arrays.length,
+      coils: 1,
+      c: 0,
+      d: 0,
+      mirror: true,
+    });
   }
 
   /**
@@ -480,14 +388,8 @@ export class BlockHankel {
       if (index >= 2 * w - 2 && index < lines - 2 * w + 2) continue;
       stripSlot[index] = slots;
       for (let k = 0; k < count; k++) {
-        const z = arrays[k];
-        for (let c = 0; c < length; c++) {
-          const src = 2 * (byRows ? index * nx + c : c * nx + index);
-          line[2 * c] = z[src];
-          line[2 * c + 1] = z[src + 1];
-        }
         const at = 2 * (slots * count + k) * length;
-        plan.forward(stripSpectra.subarray(at, at + 2 * length), line);
+        transformLine(stripSpectra.subarray(at, at + 2 * length), line, arrays[k], index, byRows, nx, plan);
       }
       slots++;
     }
@@ -624,6 +526,223 @@ export function twiddles(n: number): Float64Array {
     t[2 * m + 1] = -Math.sin((2 * Math.PI * m) / n);
   }
   return t;
+}
+
+/**
+ * One wrap band of a wy×wx window on an ny×nx grid: the 2w−2 rows (byRows; w = wy, lines of length
+ * nx, lags |δ| < wx along them) or columns from `start` on, modulo the grid, where windows wrap.
+ */
+export interface WrapBand {
+  byRows: boolean;
+  w: number;
+  /** The window side along the lines: lags δ with |δ| < other. */
+  other: number;
+  length: number;
+  lines: number;
+  start: number;
+  count: number;
+  /** The line FFT (length `length`) and its scratch line. */
+  plan: FftPlan;
+  line: Float64Array;
+}
+
+export function wrapBand(
+  byRows: boolean,
+  grid: { nx: number; ny: number; wx: number; wy: number },
+  plan: FftPlan,
+  line: Float64Array,
+): WrapBand {
+  const w = byRows ? grid.wy : grid.wx;
+  const lines = byRows ? grid.ny : grid.nx;
+  return {
+    byRows,
+    w,
+    other: byRows ? grid.wx : grid.wy,
+    length: byRows ? grid.nx : grid.ny,
+    lines,
+    start: lines - w + 1,
+    count: 2 * w - 2,
+    plan,
+    line,
+  };
+}
+
+/** spectra block `block` ← the DFTs of the band's 2w−2 lines of z (block-major, `length` each). */
+export function transformBandLines(
+  band: WrapBand,
+  spectra: Float64Array,
+  block: number,
+  z: Float64Array,
+  nx: number,
+): void {
+  const { count, length, lines, start } = band;
+  for (let i = 0; i < count; i++) {
+    const at = 2 * (block * count + i) * length;
+    transformLine(
+      spectra.subarray(at, at + 2 * length),
+      band.line,
+      z,
+      (start + i) % lines,
+      band.byRows,
+      nx,
+      band.plan,
+    );
+  }
+}
+
+/**
+ * target[a, b, δ] = Σ_k Σ_{t<w−1} C(r_k(t+a), s_k(t+b))(δ), |δ| < other, from the line spectra of
+ * transformBandLines: r_k the lines of block k·coils + c, s_k those of block k·coils + d, and
+ * C(r, s)(δ) = Σ_e conj(r[e]) s[e + δ] the circular cross-correlation (one DFT of Σ conj(R)·S per
+ * (a, b)). With `mirror` (for c = d) only b ≥ a is summed and target[b, a, −δ] = conj(target[a, b, δ])
+ * gives the rest.
+ */
+export function bandLags(
+  band: WrapBand,
+  target: Float64Array,
+  spectra: Float64Array,
+  out: Float64Array,
+  blocks: { arrays: number; coils: number; c: number; d: number; mirror: boolean },
+): void {
+  const { w, other, length, count, line, plan } = band;
+  const { arrays, coils, c, d, mirror } = blocks;
+  const lags = 2 * other - 1;
+  for (let a = 0; a < w; a++) {
+    for (let b = mirror ? a : 0; b < w; b++) {
+      // line ← conj(Σ conj(Z_r) Z_s); forward DFT; conj again = inverse DFT of the cross-spectrum.
+      line.fill(0);
+      for (let k = 0; k < arrays; k++) {
+        for (let t = 0; t < w - 1; t++) {
+          addConjugatedCrossSpectrum(
+            line,
+            spectra,
+            2 * (((k * coils + c) * count + t + a) * length),
+            2 * (((k * coils + d) * count + t + b) * length),
+            length,
+          );
+        }
+      }
+      plan.forward(out, line);
+      for (let delta = -(other - 1); delta < other; delta++) {
+        const m = 2 * (((delta % length) + length) % length);
+        const re = out[m] / length;
+        const im = -out[m + 1] / length;
+        const o = 2 * ((a * w + b) * lags + delta + other - 1);
+        target[o] = re;
+        target[o + 1] = im;
+        if (mirror) {
+          const oT = 2 * ((b * w + a) * lags - delta + other - 1);
+          target[oT] = re;
+          target[oT + 1] = -im;
+        }
+      }
+    }
+  }
+}
+
+/**
+ * The (row box, column box) in which every window offset fits, i.e. that of the interior samples,
+ * or null when no sample sees every window (offsetBoxes ranges; each range occurs once).
+ */
+export function fullBoxOf(
+  rowBoxes: Int32Array,
+  colBoxes: Int32Array,
+  wy: number,
+  wx: number,
+): { ry: number; rx: number } | null {
+  const full = (ranges: Int32Array, w: number) => {
+    for (let i = 0; i < ranges.length; i += 2) if (ranges[i] === 0 && ranges[i + 1] === w - 1) return i / 2;
+    return -1;
+  };
+  const ry = full(rowBoxes, wy);
+  const rx = full(colBoxes, wx);
+  return ry < 0 || rx < 0 ? null : { ry, rx };
+}
+
+/**
+ * spectrum ← the DFT of row `index` (byRows) or column `index` of the ny×nx array z, copied into
+ * `line` (the plan's length) first.
+ */
+export function transformLine(
+  spectrum: Float64Array,
+  line: Float64Array,
+  z: Float64Array,
+  index: number,
+  byRows: boolean,
+  nx: number,
+  plan: FftPlan,
+): void {
+  const length = line.length / 2;
+  for (let e = 0; e < length; e++) {
+    const src = 2 * (byRows ? index * nx + e : e * nx + index);
+    line[2 * e] = z[src];
+    line[2 * e + 1] = z[src + 1];
+  }
+  plan.forward(spectrum, line);
+}
+
+/**
+ * corner[i, j] = z[(vy + i) mod ny, (vx + j) mod nx] for i < 2wy−2, j < 2wx−2 (vy = ny − wy + 1,
+ * vx = nx − wx + 1): the block where the row and column wrap bands of z meet.
+ */
+export function gatherCorner(
+  corner: Float64Array,
+  z: Float64Array,
+  nx: number,
+  ny: number,
+  wx: number,
+  wy: number,
+): void {
+  const cy = 2 * wy - 2;
+  const cx = 2 * wx - 2;
+  const vy = ny - wy + 1;
+  const vx = nx - wx + 1;
+  for (let i = 0; i < cy; i++) {
+    const row = (vy + i) % ny;
+    for (let j = 0; j < cx; j++) {
+      const src = 2 * (row * nx + ((vx + j) % nx));
+      corner[2 * (i * cx + j)] = z[src];
+      corner[2 * (i * cx + j) + 1] = z[src + 1];
+    }
+  }
+}
+
+/**
+ * target[a, b] += Σ_{t∈[0,wy−1)×[0,wx−1)} conj(u[t+a]) v[t+b] over window offsets a, b (n×n, n = wy·wx),
+ * u and v the (2wy−2)×(2wx−2) corner blocks at `uAt` and `vAt` of `corners`; only b ≥ a when
+ * `upper` (a Hermitian gram's other half follows by symmetry).
+ */
+export function addCornerCorrelation(
+  target: Float64Array,
+  corners: Float64Array,
+  uAt: number,
+  vAt: number,
+  wx: number,
+  wy: number,
+  upper: boolean,
+): void {
+  const n = wx * wy;
+  const cx = 2 * wx - 2;
+  for (let a = 0; a < n; a++) {
+    const ay = Math.floor(a / wx);
+    const ax = a - ay * wx;
+    for (let b = upper ? a : 0; b < n; b++) {
+      const by = Math.floor(b / wx);
+      const bx = b - by * wx;
+      let re = 0;
+      let im = 0;
+      for (let ty = 0; ty < wy - 1; ty++) {
+        let i = uAt + 2 * ((ty + ay) * cx + ax);
+        let j = vAt + 2 * ((ty + by) * cx + bx);
+        for (let tx = 0; tx < wx - 1; tx++, i += 2, j += 2) {
+          re += corners[i] * corners[j] + corners[i + 1] * corners[j + 1];
+          im += corners[i] * corners[j + 1] - corners[i + 1] * corners[j];
+        }
+      }
+      target[2 * (a * n + b)] += re;
+      target[2 * (a * n + b) + 1] += im;
+    }
+  }
 }
 
 /**

@@ -1,26 +1,26 @@
 import type { ComplexImage } from '../core/complex-image.ts';
-import { throwIfAborted } from '../core/errors.ts';
 import type { CoilSamples, EncodingOperator } from '../encoding/index.ts';
 import { NormalProxSolver } from './normal-prox.ts';
-import { extrapolate } from './primal-extrapolation.ts';
-import { StoppingRule } from './stopping-rule.ts';
-import { totalVariation, tvDualAscent } from './total-variation.ts';
+import { runPrimalDual, TV_STEP } from './primal-dual-loop.ts';
+import type { StoppingRule } from './stopping-rule.ts';
+import { totalVariation } from './total-variation.ts';
 
-// The same steps as the single-coil solver (cs-tv.ts): K = ∇ only, τσ‖∇‖² < 1 with ‖∇‖² ≤ 8.
-const TAU = 0.99 / Math.sqrt(8);
-const SIGMA = 0.99 / Math.sqrt(8);
 /** CG stops at ‖r‖ ≤ 1e-10·‖b‖: far below the solver's own stopping tolerance (≥ 1e-7 in practice). */
 export const PROX_TOLERANCE = 1e-10;
 /** At most this many CG steps per proximal step (κ ≤ 1.35 for ‖E‖ ≤ 1 needs about 9 from a cold start). */
 export const PROX_MAX_STEPS = 30;
 
-export interface CsTvEncodingResult {
+/** What every cs-tv solver returns: the image, the run, its last changes and objective (with TV). */
+export interface CsTvResult {
   image: ComplexImage;
   iterations: number;
   objective: number;
   relativeChange: number;
   objectiveChange: number;
   tv: number;
+}
+
+export interface CsTvEncodingResult extends CsTvResult {
   /** CG steps summed over all iterations (each costs one EᴴE product); 0 for the linearised solver. */
   proxSteps: number;
 }
@@ -46,56 +46,69 @@ export function solveCsTvEncoding(
   tolerance: number,
   signal?: AbortSignal,
 ): CsTvEncodingResult {
-  const { nx, ny } = operator.shapes;
-  const n = nx * ny;
-  const x = operator.adjoint(y);
-  const backProjection = x.data.slice();
+  const setup = operatorSetup(operator, y, lambdaAbs, iterations, tolerance, signal);
+  const { x, backProjection, objectiveAt } = setup;
   const prox = new NormalProxSolver(operator);
-  const rhs = new Float64Array(2 * n);
-  const xOld = new Float64Array(2 * n);
-  const xBar = x.data.slice();
-  const px = new Float64Array(2 * n);
-  const py = new Float64Array(2 * n);
-  const gx = new Float64Array(2 * n);
-  const gy = new Float64Array(2 * n);
-  const div = new Float64Array(2 * n);
+  const rhs = new Float64Array(x.data.length);
   // EᴴE x and EᴴE x_old: the data term ½‖Ex − y‖² of the objective the stopping rule compares.
   const normal = operator.normal(x).data;
-  const normalOld = new Float64Array(2 * n);
+  const normalOld = new Float64Array(x.data.length);
+  const xd = x.data;
+  let proxSteps = 0;
+  const { iterations: run, rule } = runPrimalDual(xd, {
+    ...setup.loop,
+    primalStep: (div) => {
+      normalOld.set(normal);
+      // b = v + τEᴴy with v = x + τ div p; the warm start is the current x.
+      for (let i = 0; i < xd.length; i++) rhs[i] = xd[i] + TV_STEP * div[i] + TV_STEP * backProjection[i];
+      proxSteps += prox.solve(x, rhs, TV_STEP, PROX_TOLERANCE, PROX_MAX_STEPS);
+      // (I + τEᴴE)x = rhs, so EᴴEx = (rhs − x)/τ to the CG tolerance: no extra product.
+      for (let i = 0; i < xd.length; i++) normal[i] = (rhs[i] - xd[i]) / TV_STEP;
+    },
+    objectiveNow: () => objectiveAt(xd, normal),
+    objectiveBefore: (xOld) => objectiveAt(xOld, normalOld),
+  });
+  return operatorResult(operator, x, y, lambdaAbs, run, rule, proxSteps);
+}
+
+/**
+ * What both operator solvers start from: x⁰ = Eᴴy (also kept as Eᴴy for the data term), the
+ * objective Φ(x) from x and EᴴEx (dataTermFromNormal, no forward product), and the loop settings.
+ */
+function operatorSetup(
+  operator: EncodingOperator<CoilSamples>,
+  y: CoilSamples,
+  lambdaAbs: number,
+  iterations: number,
+  tolerance: number,
+  signal: AbortSignal | undefined,
+) {
+  const { nx, ny } = operator.shapes;
+  const x = operator.adjoint(y);
+  const backProjection = x.data.slice();
   let halfDataNorm = 0;
   for (let i = 0; i < y.data.length; i++) halfDataNorm += 0.5 * y.data[i] * y.data[i];
   const objectiveAt = (image: Float64Array, normalImage: Float64Array) =>
     dataTermFromNormal(image, normalImage, backProjection, halfDataNorm) +
     lambdaAbs * totalVariation(image, nx, ny);
-  const rule = new StoppingRule(tolerance);
-  let run = 0;
-  let proxSteps = 0;
-  for (let it = 0; it < iterations; it++) {
-    throwIfAborted(signal);
-    tvDualAscent(div, px, py, gx, gy, xBar, nx, ny, SIGMA, lambdaAbs);
-    const xd = x.data;
-    xOld.set(xd);
-    normalOld.set(normal);
-    // b = v + τEᴴy with v = x + τ div p; the warm start is the current x.
-    for (let i = 0; i < 2 * n; i++) rhs[i] = xd[i] + TAU * div[i] + TAU * backProjection[i];
-    proxSteps += prox.solve(x, rhs, TAU, PROX_TOLERANCE, PROX_MAX_STEPS);
-    // (I + τEᴴE)x = rhs, so EᴴEx = (rhs − x)/τ to the CG tolerance: no extra product.
-    for (let i = 0; i < 2 * n; i++) normal[i] = (rhs[i] - xd[i]) / TAU;
-    const change = extrapolate(xBar, xd, xOld);
-    run = it + 1;
-    if (
-      rule.converged(
-        change,
-        () => objectiveAt(xd, normal),
-        () => objectiveAt(xOld, normalOld),
-      )
-    )
-      break;
-  }
+  const loop = { nx, ny, sigma: TV_STEP, lambdaTv: lambdaAbs, iterations, tolerance, signal };
+  return { x, backProjection, objectiveAt, loop };
+}
+
+/** The result both operator solvers return, with the final objective from one forward product. */
+function operatorResult(
+  operator: EncodingOperator<CoilSamples>,
+  x: ComplexImage,
+  y: CoilSamples,
+  lambdaAbs: number,
+  iterations: number,
+  rule: StoppingRule,
+  proxSteps: number,
+): CsTvEncodingResult {
   return {
     ...finalObjective(operator, x, y, lambdaAbs),
     image: x,
-    iterations: run,
+    iterations,
     relativeChange: rule.relativeChange,
     objectiveChange: rule.objectiveChange,
     proxSteps,
@@ -141,51 +154,26 @@ export function solveCsTvLinearised(
   signal?: AbortSignal,
 ): CsTvEncodingResult {
   if (!(normBound > 0) || !Number.isFinite(normBound)) throw new RangeError('normBound must be positive');
-  const { nx, ny } = operator.shapes;
-  const n = nx * ny;
-  const tau = 0.99 / (normBound / 2 + 8 * SIGMA);
-  const x = operator.adjoint(y);
-  const backProjection = x.data.slice();
+  const tau = 0.99 / (normBound / 2 + 8 * TV_STEP);
+  const setup = operatorSetup(operator, y, lambdaAbs, iterations, tolerance, signal);
+  const { x, backProjection, objectiveAt } = setup;
   const normal = operator.createImage();
   const probe = operator.createImage();
-  const xBar = x.data.slice();
-  const xOld = new Float64Array(2 * n);
-  const px = new Float64Array(2 * n);
-  const py = new Float64Array(2 * n);
-  const gx = new Float64Array(2 * n);
-  const gy = new Float64Array(2 * n);
-  const div = new Float64Array(2 * n);
-  let halfDataNorm = 0;
-  for (let i = 0; i < y.data.length; i++) halfDataNorm += 0.5 * y.data[i] * y.data[i];
-  const objectiveAt = (image: Float64Array, normalImage: Float64Array) =>
-    dataTermFromNormal(image, normalImage, backProjection, halfDataNorm) +
-    lambdaAbs * totalVariation(image, nx, ny);
-  const rule = new StoppingRule(tolerance);
-  let run = 0;
-  for (let it = 0; it < iterations; it++) {
-    throwIfAborted(signal);
-    tvDualAscent(div, px, py, gx, gy, xBar, nx, ny, SIGMA, lambdaAbs);
-    const xd = x.data;
-    xOld.set(xd);
-    operator.normal(x, normal);
-    const nd = normal.data;
-    for (let i = 0; i < 2 * n; i++) xd[i] -= tau * (nd[i] - backProjection[i] - div[i]);
-    const change = extrapolate(xBar, xd, xOld);
-    run = it + 1;
-    const now = () => {
+  const xd = x.data;
+  const nd = normal.data;
+  const { iterations: run, rule } = runPrimalDual(xd, {
+    ...setup.loop,
+    primalStep: (div) => {
+      operator.normal(x, normal);
+      for (let i = 0; i < xd.length; i++) xd[i] -= tau * (nd[i] - backProjection[i] - div[i]);
+    },
+    objectiveNow: () => {
       operator.normal(x, probe);
       return objectiveAt(xd, probe.data);
-    };
-    if (rule.converged(change, now, () => objectiveAt(xOld, nd))) break;
-  }
-  return {
-    ...finalObjective(operator, x, y, lambdaAbs),
-    image: x,
-    iterations: run,
-    relativeChange: rule.relativeChange,
-    objectiveChange: rule.objectiveChange,
-    proxSteps: 0,
-  };
+    },
+    objectiveBefore: (xOld) => objectiveAt(xOld, nd),
+  });
+  return operatorResult(operator, x, y, lambdaAbs, run, rule, 0);
 }
 
 /** Power-iteration steps of normalNormEstimate, and the margin its estimate is raised by. */

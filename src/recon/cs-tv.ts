@@ -1,11 +1,11 @@
 import { z } from 'zod';
 import { fft2c, ifft2c } from '../core/centered-fft.ts';
 import { type ComplexImage, createComplexImage } from '../core/complex-image.ts';
-import { throwIfAborted } from '../core/errors.ts';
 import type { CoilSamples } from '../encoding/encoding-operator.ts';
 import type { EncodingOperator } from '../encoding/index.ts';
 import {
   backProjectionPeak,
+  type CsTvResult,
   normalNormEstimate,
   PROX_TOLERANCE,
   solveCsTvEncoding,
@@ -14,9 +14,9 @@ import {
 import { encodingProblem } from './encoding-problem.ts';
 import type { ReconInput, ReconMethod, ReconOutput } from './method.ts';
 import { checkedNumber, checkedTolerance, iterationsToRun, type NumberRule } from './parameters.ts';
-import { extrapolate } from './primal-extrapolation.ts';
-import { StoppingRule } from './stopping-rule.ts';
-import { totalVariation, tvDualAscent } from './total-variation.ts';
+import { runPrimalDual, TV_STEP } from './primal-dual-loop.ts';
+import { iterationLimitField, rangeField, toleranceField } from './schema-fields.ts';
+import { totalVariation } from './total-variation.ts';
 import {
   cartesianResidual,
   chooseTvLambda,
@@ -32,33 +32,17 @@ export const CS_TV_DEFAULT_TOLERANCE = 1e-5;
 
 export const csTvSchema = z.strictObject({
   name: z.literal('cs-tv'),
-  lambda: z
-    .number()
-    .min(LAMBDA_RULE.min)
-    .max(LAMBDA_RULE.max)
-    .optional()
-    .describe(
-      'TV weight relative to max |F_cᴴ y| (scale-free); default: with known noise σ the discrepancy principle, ' +
-        'else 0.0009·(1/f − 1)^1.75 (at most 0.05), f = acquired fraction',
-    ),
-  iterations: z
-    .number()
-    .int()
-    .min(1)
-    .optional()
-    .describe(`iteration limit (default ${CS_TV_DEFAULT_ITERATIONS})`),
-  tolerance: z
-    .number()
-    .min(0)
-    .lt(1)
-    .optional()
-    .describe(`stop when ‖x_k − x_{k−1}‖ / ‖x_k‖ < tolerance (default ${CS_TV_DEFAULT_TOLERANCE})`),
+  lambda: rangeField(
+    LAMBDA_RULE,
+    'TV weight relative to max |F_cᴴ y| (scale-free); default: with known noise σ the discrepancy principle, ' +
+      'else 0.0009·(1/f − 1)^1.75 (at most 0.05), f = acquired fraction',
+  ),
+  iterations: iterationLimitField(`iteration limit (default ${CS_TV_DEFAULT_ITERATIONS})`),
+  tolerance: toleranceField(
+    `stop when ‖x_k − x_{k−1}‖ / ‖x_k‖ < tolerance (default ${CS_TV_DEFAULT_TOLERANCE})`,
+  ),
 });
 export type CsTvSpec = z.infer<typeof csTvSchema>;
-
-// Chambolle–Pock steps: τσ‖∇‖² < 1 with ‖∇‖² ≤ 8 (Chambolle 2004; Chambolle & Pock 2011).
-const TAU = 0.99 / Math.sqrt(8);
-const SIGMA = 0.99 / Math.sqrt(8);
 
 /**
  * min_x ½‖M F_c x − y‖² + λ·TV_iso(x) over complex x, by the first-order primal–dual method of
@@ -76,28 +60,13 @@ export function solveCsTv(
   iterations: number,
   tolerance: number,
   signal?: AbortSignal,
-): {
-  image: ComplexImage;
-  iterations: number;
-  objective: number;
-  relativeChange: number;
-  objectiveChange: number;
-  tv: number;
-} {
+): CsTvResult {
   const { kspace, mask } = input;
   const { nx, ny } = kspace;
   const n = nx * ny;
   const y = kspace.data;
   const x = createComplexImage(nx, ny);
   const work = createComplexImage(nx, ny);
-  const xOld = new Float64Array(2 * n);
-  const xBar = new Float64Array(2 * n);
-  const px = new Float64Array(2 * n);
-  const py = new Float64Array(2 * n);
-  const gx = new Float64Array(2 * n);
-  const gy = new Float64Array(2 * n);
-  const div = new Float64Array(2 * n);
-
   for (let i = 0; i < n; i++) {
     if (mask[i]) {
       x.data[2 * i] = y[2 * i];
@@ -105,8 +74,6 @@ export function solveCsTv(
     }
   }
   ifft2c(x, x);
-  xBar.set(x.data);
-  const damp = 1 / (1 + TAU);
   // F x and F x_old: the data term of the objective the stopping rule compares.
   const kspaceX = new Float64Array(2 * n);
   const kspaceOld = new Float64Array(2 * n);
@@ -118,38 +85,24 @@ export function solveCsTv(
   }
   const objectiveAt = (image: Float64Array, k: Float64Array) =>
     maskedResidual(k, y, mask) + lambdaAbs * totalVariation(image, nx, ny);
-  const rule = new StoppingRule(tolerance);
-  let run = 0;
-  for (let it = 0; it < iterations; it++) {
-    throwIfAborted(signal);
-    // Dual ascent and projection onto the λ-ball per pixel (isotropic over both directions and re/im).
-    tvDualAscent(div, px, py, gx, gy, xBar, nx, ny, SIGMA, lambdaAbs);
+  const xd = x.data;
+  const { iterations: run, rule } = runPrimalDual(xd, {
+    nx,
+    ny,
+    sigma: TV_STEP,
+    lambdaTv: lambdaAbs,
+    iterations,
+    tolerance,
+    signal,
     // Primal step v = x − τ∇ᴴp = x + τ div p, then the exact data-term prox in k-space.
-    const xd = x.data;
-    xOld.set(xd);
-    kspaceOld.set(kspaceX);
-    for (let i = 0; i < 2 * n; i++) work.data[i] = xd[i] + TAU * div[i];
-    fft2c(work, work);
-    const w = work.data;
-    for (let i = 0; i < n; i++) {
-      if (mask[i]) {
-        w[2 * i] = (w[2 * i] + TAU * y[2 * i]) * damp;
-        w[2 * i + 1] = (w[2 * i + 1] + TAU * y[2 * i + 1]) * damp;
-      }
-    }
-    kspaceX.set(w);
-    ifft2c(work, x);
-    const change = extrapolate(xBar, xd, xOld);
-    run = it + 1;
-    if (
-      rule.converged(
-        change,
-        () => objectiveAt(xd, kspaceX),
-        () => objectiveAt(xOld, kspaceOld),
-      )
-    )
-      break;
-  }
+    primalStep: (div) => {
+      kspaceOld.set(kspaceX);
+      for (let i = 0; i < 2 * n; i++) work.data[i] = xd[i] + TV_STEP * div[i];
+      maskedDataProx(work, x, kspaceX, input, TV_STEP);
+    },
+    objectiveNow: () => objectiveAt(xd, kspaceX),
+    objectiveBefore: (xOld) => objectiveAt(xOld, kspaceOld),
+  });
   // Final objective ½‖M F x − y‖² + λ TV(x), with F x recomputed from the returned image.
   fft2c(x, work);
   const residual = maskedResidual(work.data, y, mask);
@@ -162,6 +115,32 @@ export function solveCsTv(
     objectiveChange: rule.objectiveChange,
     tv,
   };
+}
+
+/**
+ * prox_τG(v) for G = ½‖M F_c x − y‖², exact in k-space: x = F_cᴴ[(F_c v + τ M y) / (1 + τ M)]
+ * (docs/references.md §5.2). `work` holds v and is overwritten; F_c x goes to `kspace`, x to `x`.
+ */
+export function maskedDataProx(
+  work: ComplexImage,
+  x: ComplexImage,
+  kspace: Float64Array,
+  input: ReconInput,
+  tau: number,
+): void {
+  const { mask } = input;
+  const y = input.kspace.data;
+  const damp = 1 / (1 + tau);
+  fft2c(work, work);
+  const w = work.data;
+  for (let i = 0; i < mask.length; i++) {
+    if (mask[i]) {
+      w[2 * i] = (w[2 * i] + tau * y[2 * i]) * damp;
+      w[2 * i + 1] = (w[2 * i + 1] + tau * y[2 * i + 1]) * damp;
+    }
+  }
+  kspace.set(w);
+  ifft2c(work, x);
 }
 
 /** ½‖M X − y‖² for k-space X. */

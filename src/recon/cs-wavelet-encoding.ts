@@ -5,11 +5,11 @@ import { CartesianEncoding, type CoilSamples, type EncodingOperator } from '../e
 import type { WaveletFilters } from '../wavelets/daubechies-filters.ts';
 import { WaveletSteps } from '../wavelets/wavelet-steps.ts';
 import { dataTermFromNormal, PROX_MAX_STEPS, PROX_TOLERANCE } from './cs-tv-encoding.ts';
-import { uphill } from './cs-wavelet-solver.ts';
+import { nextMomentum, uphill, waveletTvLoop } from './cs-wavelet-solver.ts';
 import { NormalProxSolver } from './normal-prox.ts';
-import { extrapolate } from './primal-extrapolation.ts';
+import { runPrimalDual, TV_WAVELET_STEP } from './primal-dual-loop.ts';
 import { StoppingRule } from './stopping-rule.ts';
-import { totalVariation, tvDualAscent } from './total-variation.ts';
+import { totalVariation } from './total-variation.ts';
 
 export interface CsWaveletEncodingOptions {
   filters: WaveletFilters;
@@ -160,7 +160,7 @@ function fista(problem: Problem): CsWaveletEncodingResult {
     run = it + 1;
     objective = dataTerm(xd, normalX.data, problem) + lambdaAbs * l1;
     if (restart && uphill(z, xd, xPrev)) t = 1;
-    const tNext = (1 + Math.sqrt(1 + 4 * t * t)) / 2;
+    const tNext = nextMomentum(t);
     beta = (t - 1) / tNext;
     t = tNext;
     const before = () =>
@@ -170,67 +170,44 @@ function fista(problem: Problem): CsWaveletEncodingResult {
   return { image: x, iterations: run, rule, objective, lipschitz, proxSteps: 0 };
 }
 
-// Primal–dual steps: τσ‖K‖² < 1 with ‖K‖² ≤ ‖∇‖² + ‖W‖² ≤ 8 + 1 (Chambolle & Pock 2011).
-const PD_TAU = 0.99 / 3;
-const PD_SIGMA = 0.99 / 3;
-
 function primalDual(problem: Problem): CsWaveletEncodingResult {
   const { operator, backProjection: b, steps, options } = problem;
   const { nx, ny } = operator.shapes;
-  const { lambdaAbs, lambdaTvAbs, signal } = options;
+  const { lambdaAbs, lambdaTvAbs } = options;
   const x = operator.createImage();
   x.data.set(b);
-  const size = x.data.length;
+  const xd = x.data;
+  const size = xd.length;
   const prox = new NormalProxSolver(operator);
   const rhs = new Float64Array(size);
-  const xOld = new Float64Array(size);
-  const xBar = x.data.slice();
-  const px = new Float64Array(size);
-  const py = new Float64Array(size);
-  const gx = new Float64Array(size);
-  const gy = new Float64Array(size);
-  const div = new Float64Array(size);
-  const q = new Float64Array(size);
-  const back = new Float64Array(size);
   const normal = new Float64Array(size);
   const normalOld = new Float64Array(size);
-  const rule = new StoppingRule(options.tolerance);
   const objectiveAt = (image: Float64Array, normalImage: Float64Array): number =>
     dataTerm(image, normalImage, problem) +
     lambdaAbs * steps.detailL1(image) +
     lambdaTvAbs * totalVariation(image, nx, ny);
   operator.normal(x, { nx, ny, data: normal });
-  let run = 0;
   let proxSteps = 0;
-  for (let it = 0; it < options.iterations; it++) {
-    throwIfAborted(signal);
-    tvDualAscent(div, px, py, gx, gy, xBar, nx, ny, PD_SIGMA, lambdaTvAbs);
-    steps.dualStep(q, back, xBar, PD_SIGMA, lambdaAbs);
-    const xd = x.data;
-    xOld.set(xd);
-    normalOld.set(normal);
-    // b = v + τEᴴy with v = x − τKᴴ(p, q) = x + τ div p − τ Wᴴq; warm start at the current x.
-    for (let i = 0; i < size; i++) rhs[i] = xd[i] + PD_TAU * (div[i] - back[i] + b[i]);
-    proxSteps += prox.solve(x, rhs, PD_TAU, PROX_TOLERANCE, PROX_MAX_STEPS);
-    // (I + τEᴴE)x = rhs, so EᴴEx = (rhs − x)/τ to the CG tolerance.
-    for (let i = 0; i < size; i++) normal[i] = (rhs[i] - xd[i]) / PD_TAU;
-    const change = extrapolate(xBar, xd, xOld);
-    run = it + 1;
-    if (
-      rule.converged(
-        change,
-        () => objectiveAt(xd, normal),
-        () => objectiveAt(xOld, normalOld),
-      )
-    )
-      break;
-  }
+  const { back, loop } = waveletTvLoop(steps, lambdaAbs, lambdaTvAbs, options);
+  const { iterations: run, rule } = runPrimalDual(xd, {
+    ...loop,
+    primalStep: (div) => {
+      normalOld.set(normal);
+      // b = v + τEᴴy with v = x − τKᴴ(p, q) = x + τ div p − τ Wᴴq; warm start at the current x.
+      for (let i = 0; i < size; i++) rhs[i] = xd[i] + TV_WAVELET_STEP * (div[i] - back[i] + b[i]);
+      proxSteps += prox.solve(x, rhs, TV_WAVELET_STEP, PROX_TOLERANCE, PROX_MAX_STEPS);
+      // (I + τEᴴE)x = rhs, so EᴴEx = (rhs − x)/τ to the CG tolerance.
+      for (let i = 0; i < size; i++) normal[i] = (rhs[i] - xd[i]) / TV_WAVELET_STEP;
+    },
+    objectiveNow: () => objectiveAt(xd, normal),
+    objectiveBefore: (xOld) => objectiveAt(xOld, normalOld),
+  });
   operator.normal(x, { nx, ny, data: normal });
   return {
     image: x,
     iterations: run,
     rule,
-    objective: objectiveAt(x.data, normal),
+    objective: objectiveAt(xd, normal),
     lipschitz: 0,
     proxSteps,
   };

@@ -5,11 +5,11 @@ import { SeededRandom } from '../core/random.ts';
 import { daubechiesFilters, type WaveletName } from '../wavelets/daubechies-filters.ts';
 import { checkDwtShape } from '../wavelets/dwt2.ts';
 import { WaveletSteps } from '../wavelets/wavelet-steps.ts';
-import { maskedResidual, zeroFilledPeak } from './cs-tv.ts';
+import { maskedDataProx, maskedResidual, zeroFilledPeak } from './cs-tv.ts';
 import type { ReconInput } from './method.ts';
-import { extrapolate } from './primal-extrapolation.ts';
+import { runPrimalDual, TV_WAVELET_STEP } from './primal-dual-loop.ts';
 import { type ConvergenceReport, StoppingRule } from './stopping-rule.ts';
-import { totalVariation, tvDualAscent } from './total-variation.ts';
+import { totalVariation } from './total-variation.ts';
 
 export const CS_WAVELET_DEFAULT_WAVELET: WaveletName = 'db4';
 export const CS_WAVELET_DEFAULT_LEVELS = 4;
@@ -248,7 +248,7 @@ function fista(setup: Setup, rng: SeededRandom | null, monotone: boolean, restar
       t = 1;
       restarts++;
     }
-    const tNext = (1 + Math.sqrt(1 + 4 * t * t)) / 2;
+    const tNext = nextMomentum(t);
     const accept = !monotone || candidate <= objective;
     const before = objective;
     if (monotone) {
@@ -282,6 +282,11 @@ function fista(setup: Setup, rng: SeededRandom | null, monotone: boolean, restar
   return { image, kspace: X, iterations: run, rule, restarts };
 }
 
+/** FISTA's momentum sequence t_{k+1} = (1 + √(1 + 4t_k²))/2 (Beck & Teboulle 2009), t_0 = 1. */
+export function nextMomentum(t: number): number {
+  return (1 + Math.sqrt(1 + 4 * t * t)) / 2;
+}
+
 /** ⟨z − u, u − x⟩ > 0 (real part; F is unitary, so k-space copies give the image-domain value). */
 export function uphill(z: Float64Array, u: Float64Array, x: Float64Array): boolean {
   let dot = 0;
@@ -289,63 +294,54 @@ export function uphill(z: Float64Array, u: Float64Array, x: Float64Array): boole
   return dot > 0;
 }
 
-// Primal–dual steps: τσ‖K‖² < 1 with ‖K‖² ≤ ‖∇‖² + ‖W‖² ≤ 8 + 1 (Chambolle & Pock 2011).
-const PD_TAU = 0.99 / 3;
-const PD_SIGMA = 0.99 / 3;
+/**
+ * The primal–dual loop settings with K = (∇, W): τ = σ = TV_WAVELET_STEP, the TV dual of
+ * runPrimalDual and the wavelet dual q (projection onto |q| ≤ λ per detail coefficient), whose
+ * Wᴴq the primal step reads from `back`.
+ */
+export function waveletTvLoop(
+  steps: WaveletSteps,
+  lambdaAbs: number,
+  lambdaTvAbs: number,
+  run: { iterations: number; tolerance: number; signal?: AbortSignal | undefined },
+) {
+  const { nx, ny } = steps;
+  const q = new Float64Array(2 * nx * ny);
+  const back = new Float64Array(2 * nx * ny);
+  const loop = {
+    nx,
+    ny,
+    sigma: TV_WAVELET_STEP,
+    lambdaTv: lambdaTvAbs,
+    iterations: run.iterations,
+    tolerance: run.tolerance,
+    signal: run.signal,
+    dualStep: (xBar: Float64Array) => steps.dualStep(q, back, xBar, TV_WAVELET_STEP, lambdaAbs),
+  };
+  return { back, loop };
+}
 
 function primalDual(setup: Setup): Run {
-  const { input, lambdaAbs, lambdaTvAbs, history, signal, steps } = setup;
+  const { input, lambdaAbs, lambdaTvAbs, history, steps } = setup;
   const { nx, ny } = input.kspace;
-  const { mask } = input;
-  const y = input.kspace.data;
-  const n = nx * ny;
-  const size = 2 * n;
+  const size = 2 * nx * ny;
   const x = ifft2c({ nx, ny, data: maskedData(input) });
   const xd = x.data;
   const work = createComplexImage(nx, ny);
-  const xOld = new Float64Array(size);
-  const xBar = new Float64Array(xd);
-  const px = new Float64Array(size);
-  const py = new Float64Array(size);
-  const gx = new Float64Array(size);
-  const gy = new Float64Array(size);
-  const div = new Float64Array(size);
-  const q = new Float64Array(size);
-  const back = new Float64Array(size);
   const kspace = maskedData(input);
   const kspaceOld = new Float64Array(size);
-  const damp = 1 / (1 + PD_TAU);
-  const rule = new StoppingRule(setup.tolerance);
-  let run = 0;
-  for (let it = 0; it < setup.iterations; it++) {
-    throwIfAborted(signal);
-    // Dual ascent on p (TV): projection onto the λ_TV ball per pixel, as cs-tv; on q (wavelet):
-    // projection onto |q| ≤ λ per detail coefficient.
-    tvDualAscent(div, px, py, gx, gy, xBar, nx, ny, PD_SIGMA, lambdaTvAbs);
-    steps.dualStep(q, back, xBar, PD_SIGMA, lambdaAbs);
+  const { back, loop } = waveletTvLoop(steps, lambdaAbs, lambdaTvAbs, setup);
+  const { iterations: run, rule } = runPrimalDual(xd, {
+    ...loop,
     // Primal step v = x − τKᴴ(p, q) = x + τ div p − τ Wᴴq, then the exact data prox in k-space.
-    xOld.set(xd);
-    kspaceOld.set(kspace);
-    for (let i = 0; i < size; i++) work.data[i] = xd[i] + PD_TAU * (div[i] - back[i]);
-    fft2c(work, work);
-    const w = work.data;
-    for (let i = 0; i < n; i++) {
-      if (mask[i]) {
-        w[2 * i] = (w[2 * i] + PD_TAU * y[2 * i]) * damp;
-        w[2 * i + 1] = (w[2 * i + 1] + PD_TAU * y[2 * i + 1]) * damp;
-      }
-    }
-    kspace.set(w);
-    ifft2c(work, x);
-    const change = extrapolate(xBar, xd, xOld);
-    run = it + 1;
-    let objective: number | undefined;
-    const now = () => {
-      objective ??= objectiveOf(setup, xd, kspace);
-      return objective;
-    };
-    if (history) history.push(now());
-    if (rule.converged(change, now, () => objectiveOf(setup, xOld, kspaceOld))) break;
-  }
+    primalStep: (div) => {
+      kspaceOld.set(kspace);
+      for (let i = 0; i < size; i++) work.data[i] = xd[i] + TV_WAVELET_STEP * (div[i] - back[i]);
+      maskedDataProx(work, x, kspace, input, TV_WAVELET_STEP);
+    },
+    objectiveNow: () => objectiveOf(setup, xd, kspace),
+    objectiveBefore: (xOld) => objectiveOf(setup, xOld, kspaceOld),
+    ...(history ? { recordObjective: (objective: number) => history.push(objective) } : {}),
+  });
   return { image: x, kspace, iterations: run, rule, restarts: 0 };
 }

@@ -15,6 +15,7 @@ import {
 import { encodingProblem } from './encoding-problem.ts';
 import type { ReconInput, ReconMethod, ReconOutput } from './method.ts';
 import { checkedNumber, checkedTolerance, defaultCsWaveletLambda, iterationsToRun } from './parameters.ts';
+import { iterationLimitField, rangeField, toleranceField } from './schema-fields.ts';
 
 /** How the decimated transform's blocking is countered: a random grid shift per iteration, or none. */
 export const SHIFT_INVARIANCE = ['cycle-spinning', 'none'] as const;
@@ -24,20 +25,14 @@ const CYCLE_SPIN_SEED = 1;
 
 export const csWaveletSchema = z.strictObject({
   name: z.literal('cs-wavelet'),
-  lambda: z
-    .number()
-    .min(LAMBDA_RULE.min)
-    .max(LAMBDA_RULE.max)
-    .optional()
-    .describe(
-      'ℓ1-wavelet weight relative to max |Eᴴy| (scale-free); default 0.00025·(1/f − 1), f = acquired fraction, at most 0.02',
-    ),
-  tvLambda: z
-    .number()
-    .min(LAMBDA_RULE.min)
-    .max(LAMBDA_RULE.max)
-    .optional()
-    .describe('optional total-variation weight, relative like lambda (default 0: wavelet only)'),
+  lambda: rangeField(
+    LAMBDA_RULE,
+    'ℓ1-wavelet weight relative to max |Eᴴy| (scale-free); default 0.00025·(1/f − 1), f = acquired fraction, at most 0.02',
+  ),
+  tvLambda: rangeField(
+    LAMBDA_RULE,
+    'optional total-variation weight, relative like lambda (default 0: wavelet only)',
+  ),
   wavelet: z
     .enum(WAVELET_NAMES)
     .optional()
@@ -57,22 +52,12 @@ export const csWaveletSchema = z.strictObject({
     .describe(
       'against the blocking of the decimated transform: a random circular shift of the wavelet grid per iteration (cycle-spinning, the default without TV) or none (the default, and the only choice, with tvLambda > 0)',
     ),
-  iterations: z
-    .number()
-    .int()
-    .min(1)
-    .optional()
-    .describe(
-      `iteration limit (default ${CS_WAVELET_DEFAULT_ITERATIONS}); the solver stops earlier once converged`,
-    ),
-  tolerance: z
-    .number()
-    .min(0)
-    .lt(1)
-    .optional()
-    .describe(
-      `stop when the relative change of the iterate and of the objective are both below it (default ${CS_WAVELET_DEFAULT_TOLERANCE}; 0: run every iteration)`,
-    ),
+  iterations: iterationLimitField(
+    `iteration limit (default ${CS_WAVELET_DEFAULT_ITERATIONS}); the solver stops earlier once converged`,
+  ),
+  tolerance: toleranceField(
+    `stop when the relative change of the iterate and of the objective are both below it (default ${CS_WAVELET_DEFAULT_TOLERANCE}; 0: run every iteration)`,
+  ),
 });
 export type CsWaveletSpec = z.infer<typeof csWaveletSchema>;
 

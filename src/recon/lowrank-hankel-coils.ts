@@ -2,7 +2,7 @@ import { throwIfAborted } from '../core/errors.ts';
 import type { MultiCoilKspace } from '../encoding/index.ts';
 import { derivativeWeights } from './derivative-weights.ts';
 import { HermitianEigenSolver } from './hermitian-eigen.ts';
-import type { HankelSolveParams } from './lowrank-hankel.ts';
+import type { HankelSolution, HankelSolveParams } from './lowrank-hankel.ts';
 import { StackedBlockHankel } from './stacked-block-hankel.ts';
 
 /** Largest coils × window area (the Gram matrix is that square; its eigendecomposition grows as the cube). */
@@ -28,13 +28,7 @@ export function solveLowrankHankelCoils(
   mask: Uint8Array,
   params: CoilHankelParams,
   signal?: AbortSignal,
-): {
-  kspace: MultiCoilKspace;
-  iterations: number;
-  rank: number;
-  relativeChange: number;
-  spectrum: Float64Array;
-} {
+): HankelSolution<MultiCoilKspace> {
   const { nx, ny, coils } = kspace;
   const n = nx * ny;
   const [wy, wx] = params.kernel;

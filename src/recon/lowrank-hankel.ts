@@ -17,6 +17,7 @@ import {
   refuseTrajectory,
 } from './method.ts';
 import { checkedChoice, checkedNumber, iterationsToRun, type NumberRule } from './parameters.ts';
+import { iterationLimitField, rangeField, toleranceField } from './schema-fields.ts';
 
 export const KERNEL_SIDE_RULE: NumberRule = { min: 1, max: 64, integer: true };
 /** Largest window area w_y·w_x (the Gram matrix is area × area). */
@@ -60,27 +61,18 @@ export const lowrankHankelSchema = z.strictObject({
     .describe(
       'truncation rank ≤ window area (× coils for a coil array); default 0.65 × window area when ≥ 30 % of k-space is acquired, else half of it (twice the area for a coil array), unless energy is given',
     ),
-  energy: z
-    .number()
-    .gt(0)
-    .lt(1)
-    .optional()
-    .describe(
-      'choose the rank each iteration as the smallest keeping this fraction of Σσ² (instead of rank)',
-    ),
+  energy: rangeField(
+    ENERGY_RULE,
+    'choose the rank each iteration as the smallest keeping this fraction of Σσ² (instead of rank)',
+  ),
   weighting: z
     .enum(WEIGHTINGS)
     .optional()
     .describe(
       "'gradient' (default for one coil): lift k-space weighted by the derivative's spectral factor; 'none' (default for a coil array)",
     ),
-  iterations: z.number().int().min(1).optional().describe('iteration limit (default 100)'),
-  tolerance: z
-    .number()
-    .min(0)
-    .lt(1)
-    .optional()
-    .describe('stop when the relative change < tolerance (default 1e-5)'),
+  iterations: iterationLimitField('iteration limit (default 100)'),
+  tolerance: toleranceField('stop when the relative change < tolerance (default 1e-5)'),
 });
 export type LowrankHankelSpec = z.infer<typeof lowrankHankelSchema>;
 
@@ -144,6 +136,17 @@ export interface HankelSolveParams {
   tolerance: number;
 }
 
+/** What the completion loops return: the completed k-space, the run, its last rank and spectrum. */
+export interface HankelSolution<K> {
+  kspace: K;
+  iterations: number;
+  /** The rank of the last iteration. */
+  rank: number;
+  relativeChange: number;
+  /** Eigenvalues of the last Gram matrix, descending. */
+  spectrum: Float64Array;
+}
+
 /** Smallest r whose leading eigenvalues keep `energy` of the trace (eigenvalues descending, ≥ 0). */
 export function rankForEnergy(values: Float64Array, energy: number): number {
   let total = 0;
@@ -180,13 +183,7 @@ export function solveLowrankHankel(
   input: ReconInput,
   params: HankelSolveParams,
   signal?: AbortSignal,
-): {
-  kspace: Float64Array;
-  iterations: number;
-  rank: number;
-  relativeChange: number;
-  spectrum: Float64Array;
-} {
+): HankelSolution<Float64Array> {
   const { kspace, mask } = input;
   const { nx, ny } = kspace;
   const n = nx * ny;

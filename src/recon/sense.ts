@@ -21,6 +21,7 @@ import {
   iterationsToRun,
   type NumberRule,
 } from './parameters.ts';
+import { iterationLimitField, rangeField, toleranceField } from './schema-fields.ts';
 import { prepareTrajectorySense, TRAJECTORY_ACS_SIDE } from './sense-trajectory.ts';
 
 export const SENSE_DEFAULT_ITERATIONS = 50;
@@ -37,26 +38,14 @@ export const senseSchema = z.strictObject({
     .describe(
       "coil sensitivities: 'true' = the maps the simulation used or uploaded maps (optimistic), 'acs' = estimated from the fully sampled centred block (Hann-windowed low-resolution coil images over their root-sum-of-squares); default 'true' when maps are known, else 'acs'",
     ),
-  iterations: z
-    .number()
-    .int()
-    .min(1)
-    .optional()
-    .describe(`conjugate-gradient iteration limit (default ${SENSE_DEFAULT_ITERATIONS})`),
-  tikhonov: z
-    .number()
-    .min(SENSE_TIKHONOV_RULE.min)
-    .max(SENSE_TIKHONOV_RULE.max)
-    .optional()
-    .describe(
-      'Tikhonov weight λ of (EᴴE + λ·I)x = Eᴴy, relative to max over pixels of Σ_c |S_c|² (default 0)',
-    ),
-  tolerance: z
-    .number()
-    .min(0)
-    .lt(1)
-    .optional()
-    .describe(`stop when ‖Eᴴy − (EᴴE + λI)x‖ / ‖Eᴴy‖ ≤ tolerance (default ${SENSE_DEFAULT_TOLERANCE})`),
+  iterations: iterationLimitField(`conjugate-gradient iteration limit (default ${SENSE_DEFAULT_ITERATIONS})`),
+  tikhonov: rangeField(
+    SENSE_TIKHONOV_RULE,
+    'Tikhonov weight λ of (EᴴE + λ·I)x = Eᴴy, relative to max over pixels of Σ_c |S_c|² (default 0)',
+  ),
+  tolerance: toleranceField(
+    `stop when ‖Eᴴy − (EᴴE + λI)x‖ / ‖Eᴴy‖ ≤ tolerance (default ${SENSE_DEFAULT_TOLERANCE})`,
+  ),
 });
 export type SenseSpec = z.infer<typeof senseSchema>;
 

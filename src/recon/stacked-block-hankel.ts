@@ -1,11 +1,17 @@
 import { type FftPlan, fftPlan } from '../core/fft-plan.ts';
 import {
-  addConjugatedCrossSpectrum,
+  addCornerCorrelation,
   addKernelSum,
+  bandLags,
+  fullBoxOf,
+  gatherCorner,
   lagsOverRows,
   offsetBoxes,
   rankProjector,
+  transformBandLines,
   twiddles,
+  type WrapBand,
+  wrapBand,
 } from './block-hankel.ts';
 import { Dft2 } from './uncentred-dft2.ts';
 
@@ -140,13 +146,7 @@ export class StackedBlockHankel {
     const boxCount = (rows.ranges.length / 2) * (cols.ranges.length / 2);
     this.boxKernels = new Float64Array(2 * coils * boxCount * lx * ly);
     this.prefix = new Float64Array(2 * (wy + 1) * (wx + 1) * lx * ly);
-    const full = (ranges: Int32Array, w: number) => {
-      for (let i = 0; i < ranges.length; i += 2) if (ranges[i] === 0 && ranges[i + 1] === w - 1) return i / 2;
-      return -1;
-    };
-    const ry = full(this.rowBoxes, wy);
-    const rx = full(this.colBoxes, wx);
-    this.fullBox = ry < 0 || rx < 0 ? null : { ry, rx };
+    this.fullBox = fullBoxOf(rows.ranges, cols.ranges, wy, wx);
   }
 
   /**
@@ -226,33 +226,20 @@ export class StackedBlockHankel {
     lagsOverRows(correlation, rowLags, nx, ny, wx, wy, twiddleY);
   }
 
-  /** Line DFTs of the 2w−2 band rows (or columns) (start + i) mod lines of every lifted array. */
-  private transformBandLines(axis: 'rows' | 'columns'): void {
+  /** The row or column wrap band of this grid and window, with its line FFT. */
+  private band(axis: 'rows' | 'columns'): WrapBand {
     const byRows = axis === 'rows';
-    const { nx, ny, coils } = this;
-    const w = byRows ? this.wy : this.wx;
-    const length = byRows ? nx : ny;
-    const lines = byRows ? ny : nx;
-    const count = 2 * w - 2;
-    const start = lines - w + 1;
-    const store = byRows ? this.rowLines : this.columnLines;
-    const line = byRows ? this.lineX : this.lineY;
-    const plan = byRows ? this.planX : this.planY;
+    return wrapBand(byRows, this, byRows ? this.planX : this.planY, byRows ? this.lineX : this.lineY);
+  }
+
+  /** Line DFTs of the 2w−2 band rows (or columns) of every lifted array, block k·C + c. */
+  private transformBandLines(axis: 'rows' | 'columns'): void {
+    const band = this.band(axis);
+    const store = axis === 'rows' ? this.rowLines : this.columnLines;
     const arrays = this.lifted ?? [];
     for (let k = 0; k < this.arrays; k++) {
-      for (let c = 0; c < coils; c++) {
-        const z = arrays[k][c];
-        for (let i = 0; i < count; i++) {
-          const index = (start + i) % lines;
-          for (let e = 0; e < length; e++) {
-            const src = 2 * (byRows ? index * nx + e : e * nx + index);
-            line[2 * e] = z[src];
-            line[2 * e + 1] = z[src + 1];
-          }
-          const at = 2 * (((k * coils + c) * count + i) * length);
-          plan.forward(store.subarray(at, at + 2 * length), line);
-        }
-      }
+      for (let c = 0; c < this.coils; c++)
+        transformBandLines(band, store, k * this.coils + c, arrays[k][c], this.nx);
     }
   }
 
@@ -261,73 +248,36 @@ export class StackedBlockHankel {
    * band[a, b, δ] = Σ_k Σ_{t<w−1} Σ_e conj(z_kc[ρ(t+a), e]) z_kd[ρ(t+b), e + δ] (rows; columns alike).
    */
   private bandCorrelation(c: number, d: number, axis: 'rows' | 'columns'): void {
-    const byRows = axis === 'rows';
-    const { coils } = this;
-    const w = byRows ? this.wy : this.wx;
-    const other = byRows ? this.wx : this.wy;
-    const length = byRows ? this.nx : this.ny;
-    const band = byRows ? this.rowBand : this.columnBand;
-    const store = byRows ? this.rowLines : this.columnLines;
-    const line = byRows ? this.lineX : this.lineY;
-    const plan = byRows ? this.planX : this.planY;
-    const out = this.lineOut;
-    const lags = 2 * other - 1;
-    const count = 2 * w - 2;
-    band.fill(0);
-    if (count === 0) return;
-    for (let a = 0; a < w; a++) {
-      for (let b = 0; b < w; b++) {
-        // line ← conj(Σ conj(Z_r) Z_s); forward DFT; conj again = inverse DFT of the cross-spectrum.
-        line.fill(0);
-        for (let k = 0; k < this.arrays; k++) {
-          for (let t = 0; t < w - 1; t++) {
-            addConjugatedCrossSpectrum(
-              line,
-              store,
-              2 * (((k * coils + c) * count + t + a) * length),
-              2 * (((k * coils + d) * count + t + b) * length),
-              length,
-            );
-          }
-        }
-        plan.forward(out, line);
-        for (let delta = -(other - 1); delta < other; delta++) {
-          const m = 2 * (((delta % length) + length) % length);
-          const o = 2 * ((a * w + b) * lags + delta + other - 1);
-          band[o] = out[m] / length;
-          band[o + 1] = -out[m + 1] / length;
-        }
-      }
-    }
+    const band = this.band(axis);
+    const target = axis === 'rows' ? this.rowBand : this.columnBand;
+    target.fill(0);
+    if (band.count === 0) return;
+    const store = axis === 'rows' ? this.rowLines : this.columnLines;
+    bandLags(band, target, store, this.lineOut, {
+      arrays: this.arrays,
+      coils: this.coils,
+      c,
+      d,
+      mirror: false,
+    });
   }
 
   /** corner_kc[i, j] = z_kc[(vy + i) mod ny, (vx + j) mod nx], i < 2wy−2, j < 2wx−2. */
   private gatherCorners(): void {
     const { nx, ny, wx, wy, coils, corners } = this;
-    const cy = 2 * wy - 2;
-    const cx = 2 * wx - 2;
-    const vy = ny - wy + 1;
-    const vx = nx - wx + 1;
+    const size = 2 * (2 * wy - 2) * (2 * wx - 2);
     const arrays = this.lifted ?? [];
     for (let k = 0; k < this.arrays; k++) {
       for (let c = 0; c < coils; c++) {
-        const z = arrays[k][c];
-        const base = 2 * (k * coils + c) * cy * cx;
-        for (let i = 0; i < cy; i++) {
-          const row = (vy + i) % ny;
-          for (let j = 0; j < cx; j++) {
-            const src = 2 * (row * nx + ((vx + j) % nx));
-            corners[base + 2 * (i * cx + j)] = z[src];
-            corners[base + 2 * (i * cx + j) + 1] = z[src + 1];
-          }
-        }
+        const base = (k * coils + c) * size;
+        gatherCorner(corners.subarray(base, base + size), arrays[k][c], nx, ny, wx, wy);
       }
     }
   }
 
   /** cornerGram[a, b] = Σ_k Σ_{t∈[0,wy−1)×[0,wx−1)} conj(corner_kc[t+a]) corner_kd[t+b]. */
   private cornerCorrelation(c: number, d: number): void {
-    const { wx, wy, coils, corners, cornerGram, window: n } = this;
+    const { wx, wy, coils, corners, cornerGram } = this;
     const cy = 2 * wy - 2;
     const cx = 2 * wx - 2;
     cornerGram.fill(0);
@@ -335,26 +285,7 @@ export class StackedBlockHankel {
     for (let k = 0; k < this.arrays; k++) {
       const u = 2 * (k * coils + c) * cy * cx;
       const v = 2 * (k * coils + d) * cy * cx;
-      for (let a = 0; a < n; a++) {
-        const ay = Math.floor(a / wx);
-        const ax = a - ay * wx;
-        for (let b = 0; b < n; b++) {
-          const by = Math.floor(b / wx);
-          const bx = b - by * wx;
-          let re = 0;
-          let im = 0;
-          for (let ty = 0; ty < wy - 1; ty++) {
-            let i = u + 2 * ((ty + ay) * cx + ax);
-            let j = v + 2 * ((ty + by) * cx + bx);
-            for (let tx = 0; tx < wx - 1; tx++, i += 2, j += 2) {
-              re += corners[i] * corners[j] + corners[i + 1] * corners[j + 1];
-              im += corners[i] * corners[j + 1] - corners[i + 1] * corners[j];
-            }
-          }
-          cornerGram[2 * (a * n + b)] += re;
-          cornerGram[2 * (a * n + b) + 1] += im;
-        }
-      }
+      addCornerCorrelation(cornerGram, corners, u, v, wx, wy, false);
     }
   }
 
