@@ -1,5 +1,5 @@
 import { type FieldProblem, ValidationError } from '../src/core/errors.ts';
-import type { SampledMask } from './sampled-mask.ts';
+import { cartesianSampledMask, type SampledMask } from './sampled-mask.ts';
 
 /**
  * Matrix-dependent checks shared by the line patterns: at least one line (R ≤ ny), the ACS block
@@ -67,17 +67,15 @@ export function lineMask(
     lines++;
     mask.fill(1, r * nx, (r + 1) * nx);
   }
-  return {
+  return cartesianSampledMask({
     nx,
     ny,
     mask,
     pattern: info.pattern,
-    acceleration: { requested: info.requested, actual: ny / lines },
+    requested: info.requested,
     acquired: { count: lines, unit: 'lines' },
     total: ny,
-    fraction: lines / ny,
     acs: info.acs > 0 ? { lines: info.acs } : null,
-    representation: 'cartesian',
     seed: info.seed,
-  };
+  });
 }

@@ -2,7 +2,7 @@ import sharp, { type OutputInfo } from 'sharp';
 import { LimitError, ValidationError } from '../src/core/errors.ts';
 import { defaultLimits, type Limits } from '../src/core/limits.ts';
 import type { Matrix } from '../src/core/matrix.ts';
-import type { SampledMask } from './sampled-mask.ts';
+import { cartesianSampledMask, type SampledMask } from './sampled-mask.ts';
 import type { CustomSpec } from './schema.ts';
 
 const PNG_SIGNATURE = Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]);
@@ -100,24 +100,22 @@ export function customMaskFromArray(
   const unit = wholeLines ? 'lines' : 'points';
   const count = wholeLines ? lines : points;
   const total = wholeLines ? ny : nx * ny;
-  return {
+  return cartesianSampledMask({
     nx,
     ny,
     mask,
     pattern: 'custom',
-    acceleration: { requested: null, actual: total / count },
+    requested: null,
     acquired: { count, unit },
     total,
-    fraction: points / (nx * ny),
     acs: null,
-    representation: 'cartesian',
     seed: null,
     details: {
       accelerationBasis: wholeLines
         ? 'lines: every sampled row is sampled across all columns'
         : 'points: some sampled rows are partial',
     },
-  };
+  });
 }
 
 /**

@@ -1,6 +1,6 @@
 import { ValidationError } from '../src/core/errors.ts';
 import type { Matrix } from '../src/core/matrix.ts';
-import { centredBlockStart, countSampled, type SampledMask } from './sampled-mask.ts';
+import { cartesianSampledMask, centredBlockStart, countSampled, type SampledMask } from './sampled-mask.ts';
 import type { LatticeSpec } from './schema.ts';
 
 /**
@@ -30,20 +30,18 @@ export function latticeMask(matrix: Matrix, spec: LatticeSpec): SampledMask {
   const colStart = centredBlockStart(nx, acs);
   for (let v = rowStart; v < rowStart + acs; v++) mask.fill(1, v * nx + colStart, v * nx + colStart + acs);
   const count = countSampled(mask);
-  return {
+  return cartesianSampledMask({
     nx,
     ny,
     mask,
     pattern: 'lattice',
-    acceleration: { requested: spec.acceleration, actual: (nx * ny) / count },
+    requested: spec.acceleration,
     acquired: { count, unit: 'points' },
     total: nx * ny,
-    fraction: count / (nx * ny),
     acs: acs > 0 ? { size: [acs, acs] } : null,
-    representation: 'cartesian',
     seed: null,
     details: { rows, columnStep: step, shift },
-  };
+  });
 }
 
 /** Lattice steps checked against the matrix: R a multiple of rows, steps inside the grid, 0 ≤ shift < R/rows. */

@@ -2,7 +2,7 @@ import { type FieldProblem, throwIfAborted, ValidationError } from '../src/core/
 import type { Matrix } from '../src/core/matrix.ts';
 import { SeededRandom } from '../src/core/random.ts';
 import { formatBound } from './cartesian-lines.ts';
-import { centredBlockStart, type SampledMask } from './sampled-mask.ts';
+import { cartesianSampledMask, centredBlockStart, type SampledMask } from './sampled-mask.ts';
 import type { PoissonDiscSpec } from './schema.ts';
 import { seededPatternSettings } from './seed.ts';
 import { inclusionProbabilities } from './unequal-probability-sampling.ts';
@@ -319,19 +319,17 @@ export function poissonDiscMask(matrix: Matrix, spec: PoissonDiscSpec, signal?: 
   density.set(outerProbabilities);
   for (let v = acsRow; v < acsRow + acs; v++) density.fill(1, v * nx + acsCol, v * nx + acsCol + acs);
 
-  return {
+  return cartesianSampledMask({
     nx,
     ny,
     mask,
     pattern: 'poisson-disc',
-    acceleration: { requested: R, actual: total / count },
+    requested: R,
     acquired: { count, unit: 'points' },
     total,
-    fraction: count / total,
     acs: acs > 0 ? { size: [acs, acs] } : null,
-    representation: 'cartesian',
-    density,
     seed,
+    density,
     details: {
       radiusLaw: 'r = s*(1 + rho)^(p/2) grid units; rho = normalised |k|; min distance (r(a) + r(b))/2',
       radiusScale: scale,
@@ -339,5 +337,5 @@ export function poissonDiscMask(matrix: Matrix, spec: PoissonDiscSpec, signal?: 
       scaleSearchSteps: steps,
       relativeCountError: count / target - 1,
     },
-  };
+  });
 }

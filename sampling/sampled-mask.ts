@@ -38,6 +38,44 @@ export interface SampledMask {
   details?: Record<string, number | string>;
 }
 
+/** What a Cartesian mask's bookkeeping is built from; R, the fraction and the representation follow. */
+export interface CartesianMaskFacts {
+  nx: number;
+  ny: number;
+  mask: Uint8Array;
+  pattern: string;
+  requested: number | null;
+  acquired: { count: number; unit: AcquiredUnit };
+  total: number;
+  acs: SampledMask['acs'];
+  seed: number | null;
+  density?: Float64Array;
+  details?: Record<string, number | string>;
+}
+
+/**
+ * A Cartesian mask with its bookkeeping: R = total / acquired count and fraction = acquired count /
+ * total, which is the share of grid points in either unit (a line counts nx points, total ny lines).
+ */
+export function cartesianSampledMask(facts: CartesianMaskFacts): SampledMask {
+  const { nx, ny, mask, pattern, requested, acquired, total, acs, seed, density, details } = facts;
+  return {
+    nx,
+    ny,
+    mask,
+    pattern,
+    acceleration: { requested, actual: total / acquired.count },
+    acquired,
+    total,
+    fraction: acquired.count / total,
+    acs,
+    representation: 'cartesian',
+    ...(density ? { density } : {}),
+    seed,
+    ...(details ? { details } : {}),
+  };
+}
+
 /** Number of acquired grid points. */
 export function countSampled(mask: Uint8Array): number {
   let n = 0;

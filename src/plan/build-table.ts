@@ -136,10 +136,8 @@ export function buildTable(plan: TablePlan, cellResults: readonly CellResult[]):
 function solverStopColumns(
   results: readonly CellResult[],
 ): Pick<PlanRow, 'iterationsRun' | 'iterationLimit' | 'converged'> {
-  const stops = results.map((r) => r.solverStop).filter((s) => s !== undefined);
-  if (stops.length === 0 || stops.length !== results.length) {
-    return { iterationsRun: null, iterationLimit: null, converged: null };
-  }
+  const stops = fromEverySeed(results, (r) => r.solverStop);
+  if (stops === null) return { iterationsRun: null, iterationLimit: null, converged: null };
   return {
     iterationsRun: mean(stops.map((s) => s.iterations)),
     iterationLimit: Math.max(...stops.map((s) => s.iterationLimit)),
@@ -160,15 +158,22 @@ function representative(results: readonly CellResult[]): { resultId?: string } {
 function gFactorColumns(
   results: readonly CellResult[],
 ): Pick<PlanRow, 'gFactorMean' | 'gFactorMax' | 'gFactorMethod'> {
-  const known = results.map((r) => r.gFactor).filter((g) => g !== undefined);
-  if (known.length === 0 || known.length !== results.length) {
-    return { gFactorMean: null, gFactorMax: null, gFactorMethod: null };
-  }
+  const known = fromEverySeed(results, (r) => r.gFactor);
+  if (known === null) return { gFactorMean: null, gFactorMax: null, gFactorMethod: null };
   return {
     gFactorMean: mean(known.map((g) => g.mean)),
     gFactorMax: mean(known.map((g) => g.max)),
     gFactorMethod: known[0].method,
   };
+}
+
+/** One value per seed, or null unless every seed has one (a row never averages over some seeds only). */
+function fromEverySeed<T>(
+  results: readonly CellResult[],
+  pick: (r: CellResult) => T | undefined,
+): T[] | null {
+  const known = results.map(pick).filter((v): v is T => v !== undefined);
+  return known.length > 0 && known.length === results.length ? known : null;
 }
 
 /** Every target of a plan: `target` first, then `targets` (all must be met). */

@@ -1,6 +1,7 @@
 // Entry point of the planner page: wires the setup form, the single acquisition and the plan sections.
 
 import { apiKey, getJson, setApiKey } from './api.js';
+import { byId } from './dom.js';
 import { wireLesionForm } from './lesion-form.js';
 import { PlanList } from './plan-list.js';
 import { PlanRun } from './plan-run.js';
@@ -8,8 +9,6 @@ import { SetupForm } from './setup-form.js';
 import { planParam, restoreSetup, writeAddress } from './setup-url.js';
 import { SingleRun } from './single-run.js';
 import { showProblem, showStatus } from './status.js';
-
-const byId = (id) => document.getElementById(id);
 
 async function main() {
   const setup = new SetupForm(byId('setup'));

@@ -1,7 +1,7 @@
 // Showing a fetched PNG in an <img> through a blob URL (a plain src could not carry the API key),
 // releasing the blob URL it showed before.
 
-const byId = (id) => document.getElementById(id);
+import { byId } from './dom.js';
 
 /** Shows a PNG blob in the <img> with this id, once decoded. */
 export async function showBlob(id, blob) {

@@ -2,7 +2,8 @@
 // profiles on a ring, or uploaded maps by id. It builds the `coils` request piece and draws where the
 // coils sit around the phantom frame's field of view, computed here from the same definitions.
 
-const byId = (id) => document.getElementById(id);
+import { byId } from './dom.js';
+
 const svgNs = 'http://www.w3.org/2000/svg';
 
 /** Ids of the picker's controls, in the order the address restores them (the array first). */

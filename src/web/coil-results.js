@@ -4,9 +4,9 @@
 
 import { getBlob, pageRelative } from './api.js';
 import { hideImage, showBlob } from './blob-image.js';
+import { byId } from './dom.js';
 import { showNumber } from './format.js';
 
-const byId = (id) => document.getElementById(id);
 const numberCell = (key) => document.querySelector(`#coilNumbers [data-key="${key}"]`);
 
 async function showImage(id, url) {

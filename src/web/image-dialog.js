@@ -1,9 +1,8 @@
 // Click an image to see it large: a modal <dialog> with a copy of the image. Result images keep
 // zooming and panning together with their small copies; the mask and the PSF get a zoom of their own.
 
+import { byId } from './dom.js';
 import { steerZoom, ZoomGroup } from './zoom-group.js';
-
-const byId = (id) => document.getElementById(id);
 
 export class ImageDialog {
   constructor() {

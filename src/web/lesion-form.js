@@ -1,7 +1,8 @@
 // The lesion piece of the setup form: lesions for one reconstruction and for a plan, and the plan's
 // targets on task scores. Sent only when "Insert lesions" is ticked; a blank target is not sent.
 
-const byId = (id) => document.getElementById(id);
+import { byId } from './dom.js';
+
 const fields = [
   'lesionCount',
   'lesionDiameter',

@@ -4,10 +4,10 @@
 
 import { getBlob, pageRelative } from './api.js';
 import { drawContrastDetail } from './contrast-detail-plot.js';
+import { byId } from './dom.js';
 import { formatNumber, showNumber } from './format.js';
 import { markedPng } from './lesion-marks.js';
 
-const byId = (id) => document.getElementById(id);
 const numberCell = (key) => document.querySelector(`[data-key="${key}"]`);
 
 function cellWith(value, kind) {

@@ -3,9 +3,9 @@
 // cursors already used.
 
 import { getJson } from './api.js';
+import { byId } from './dom.js';
 import { showProblem, showStatus } from './status.js';
 
-const byId = (id) => document.getElementById(id);
 const pageSize = 10;
 
 function item(plan, onOpen) {

@@ -3,6 +3,7 @@
 
 import { apiKey, deleteResource, getJson, postJson } from './api.js';
 import { planCoilArrays } from './coil-array.js';
+import { byId } from './dom.js';
 import { offerResource } from './downloads.js';
 import { lesionsPiece, taskTargets } from './lesion-form.js';
 import { planPoints, renderPlanTable } from './plan-table.js';
@@ -11,7 +12,6 @@ import { runShowingProblems, showProblem, showStatus } from './status.js';
 import { offerTaskScores } from './task-scores.js';
 import { drawTradeoffPlot } from './tradeoff-plot.js';
 
-const byId = (id) => document.getElementById(id);
 const terminal = new Set(['done', 'failed', 'cancelled']);
 const higherIsBetter = { nrmse: false, psnr: true, ssim: true, hfen: false };
 

@@ -3,11 +3,10 @@
 // with a PNG link for each and the scores of that one cell.
 
 import { getBlob, getJson, pageRelative } from './api.js';
+import { byId } from './dom.js';
 import { offerResource, withdraw } from './downloads.js';
 import { formatNumber, showNumber } from './format.js';
 import { showProblem } from './status.js';
-
-const byId = (id) => document.getElementById(id);
 
 /** Image key in row.images → the <img> and the link that show it. */
 const shown = [

@@ -4,6 +4,7 @@
 import { largestSensibleAcs, suggestedAcs } from './acs-default.js';
 import { getJson, uploadImage } from './api.js';
 import { CoilPicker } from './coil-array.js';
+import { byId } from './dom.js';
 
 /** Draft protocols of the invented demo site (values are plausible, not taken from any real protocol). */
 export const protocolPresets = [
@@ -34,8 +35,6 @@ export const protocolPresets = [
     },
   },
 ];
-
-const byId = (id) => document.getElementById(id);
 
 function numberOf(id) {
   const raw = byId(id).value.trim();

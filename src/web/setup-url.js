@@ -3,8 +3,7 @@
 // beside them reopens a stored plan. The API key is never written to the address.
 
 import { coilControls } from './coil-array.js';
-
-const byId = (id) => document.getElementById(id);
+import { byId } from './dom.js';
 
 /** Controls kept in the address, in the order they are restored (the preset before its fields). */
 const controls = [

@@ -6,6 +6,7 @@ import { getBlob, pageRelative, postForBlob, postJson } from './api.js';
 import { hideImage, showBlob } from './blob-image.js';
 import { isUniform } from './coil-array.js';
 import { clearCoilResults, showCoilResults } from './coil-results.js';
+import { byId } from './dom.js';
 import { offerBlob, offerResource, withdraw } from './downloads.js';
 import { colouredErrorPng, drawColourBar, errorLevels } from './error-map.js';
 import { formatNumber, showNumber } from './format.js';
@@ -17,7 +18,6 @@ import { drawPsfProfile } from './psf-profile.js';
 import { runShowingProblems, showStatus } from './status.js';
 import { steerZoom, ZoomGroup } from './zoom-group.js';
 
-const byId = (id) => document.getElementById(id);
 const numberCell = (key) => document.querySelector(`[data-key="${key}"]`);
 
 /** <img> ids of the images that zoom and pan together (one matrix, one object). */

@@ -21,10 +21,12 @@ const faintLesions = (count: number) => ({ count, diameter: 3, contrast: 0.05, s
 
 describe('POST /v1/reconstructions with lesions', () => {
   const t = sharedTestApp({ limits: { maxIterations: 100, maxMatrixSide: 128 } });
+  /** POST /v1/reconstructions of `base` with `body`'s fields added or replaced. */
+  const reconstructBase = (body: Record<string, unknown>) =>
+    postJson(t, '/v1/reconstructions', { ...base, ...body });
 
   it('phantom, full sampling, noiseless: contrast recovery 1 (one lesion within 1e-6), positions inside the object, lesions.png', async () => {
-    const res = await postJson(t, '/v1/reconstructions', {
-      ...base,
+    const res = await reconstructBase({
       sampling: full,
       lesions: { ...faintLesions(1), shape: 'disc' },
     });
@@ -50,8 +52,7 @@ describe('POST /v1/reconstructions with lesions', () => {
   });
 
   it('six lesions at full sampling: each 1 up to its neighbours’ ringing (measured 4.8e-5, asserted 2e-4)', async () => {
-    const res = await postJson(t, '/v1/reconstructions', {
-      ...base,
+    const res = await reconstructBase({
       sampling: full,
       lesions: faintLesions(6),
     });
@@ -64,8 +65,7 @@ describe('POST /v1/reconstructions with lesions', () => {
   });
 
   it('zero-filled uniform R = 2 without ACS: contrast recovery 1/2 from the PSF (measured 0.499992, asserted ±1e-4)', async () => {
-    const res = await postJson(t, '/v1/reconstructions', {
-      ...base,
+    const res = await reconstructBase({
       sampling: halved,
       lesions: faintLesions(1),
     });
@@ -75,8 +75,7 @@ describe('POST /v1/reconstructions with lesions', () => {
   });
 
   it('noisy cs-tv: replicas as asked, CNR and detectability finite, notes say what was pinned', async () => {
-    const res = await postJson(t, '/v1/reconstructions', {
-      ...base,
+    const res = await reconstructBase({
       sampling: { pattern: 'cartesian-random', acceleration: 2, acs: 8, seed: 2 },
       noise: { snr: 30 },
       method: { name: 'cs-tv', iterations: 30 },
@@ -99,8 +98,7 @@ describe('POST /v1/reconstructions with lesions', () => {
       .post('/v1/images')
       .attach('file', debianFile('pydicom', 'MR_small.dcm'), 'm.dcm');
     expect(upload.status).toBe(201);
-    const res = await postJson(t, '/v1/reconstructions', {
-      ...base,
+    const res = await reconstructBase({
       source: { imageId: upload.body.id },
       sampling: full,
       lesions: { count: 2, diameter: 2, contrast: -0.2, shape: 'gaussian', seed: 4 },

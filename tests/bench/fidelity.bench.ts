@@ -1,12 +1,17 @@
-import { generateMask } from '../../sampling/index.ts';
 import { createComplexImage } from '../../src/core/complex-image.ts';
-import { DEFAULT_LESION_REPLICAS, phantomLesionSet, runLesionStudy } from '../../src/fidelity/index.ts';
+import {
+  DEFAULT_LESION_REPLICAS,
+  type LesionSpec,
+  phantomLesionSet,
+  runLesionStudy,
+} from '../../src/fidelity/index.ts';
 import { getPhantom } from '../../src/phantoms/index.ts';
 import { planCells } from '../../src/plan/plan-cells.ts';
 import { runCell } from '../../src/plan/run-cell.ts';
 import { validatePlan } from '../../src/plan/validate-plan.ts';
 import type { ReconInput } from '../../src/recon/method.ts';
 import { zeroFilledImage } from '../../src/recon/zero-filled.ts';
+import { sheppLoganLesionCase } from '../fidelity/lesion-case.ts';
 import { type BenchRow, medianMs, medianWallAndCpuMs } from './timing.ts';
 
 /**
@@ -18,18 +23,8 @@ import { type BenchRow, medianMs, medianWallAndCpuMs } from './timing.ts';
  */
 export async function benchFidelity(): Promise<BenchRow[]> {
   const n = 256;
-  const set = phantomLesionSet(getPhantom('shepp-logan-modified'), n, n, {
-    count: 6,
-    diameter: 4,
-    contrast: 0.05,
-    shape: 'disc',
-    seed: 1,
-  });
-  const { mask } = generateMask(
-    { nx: n, ny: n },
-    { pattern: 'cartesian-random', acceleration: 4, acs: 16, seed: 1 },
-  );
-  const sigma = set.meanIntensity / 30;
+  const lesions: LesionSpec = { count: 6, diameter: 4, contrast: 0.05, shape: 'disc', seed: 1 };
+  const { set, mask, sigma } = sheppLoganLesionCase(n, lesions, { acceleration: 4, acs: 16, seed: 1 });
   const reconstruct = (input: ReconInput) => zeroFilledImage(input).image;
   const kspace = createComplexImage(n, n);
   for (let i = 0; i < mask.length; i++) {
@@ -46,14 +41,7 @@ export async function benchFidelity(): Promise<BenchRow[]> {
   );
   const known = await medianMs(() => runLesionStudy({ ...base, noise: { kind: 'zero-filled' } }), 5, 1);
   const setup = await medianMs(
-    () =>
-      phantomLesionSet(getPhantom('shepp-logan-modified'), n, n, {
-        count: 6,
-        diameter: 4,
-        contrast: 0.05,
-        shape: 'disc',
-        seed: 1,
-      }),
+    () => phantomLesionSet(getPhantom('shepp-logan-modified'), n, n, lesions),
     3,
     1,
   );

@@ -1,13 +1,5 @@
-import { type ComplexImage, createComplexImage } from '../../src/core/complex-image.ts';
 import { SeededRandom } from '../../src/core/random.ts';
 import { createMultiCoilArray, type MultiCoilArray } from '../../src/encoding/multi-coil.ts';
-
-export function randomImage(nx: number, ny: number, seed: number): ComplexImage {
-  const rng = new SeededRandom(seed);
-  const image = createComplexImage(nx, ny);
-  for (let i = 0; i < image.data.length; i++) image.data[i] = rng.normal();
-  return image;
-}
 
 export function randomStack(coils: number, nx: number, ny: number, seed: number): MultiCoilArray {
   const rng = new SeededRandom(seed);

@@ -78,6 +78,19 @@ describe('plans on the Redis job queue with worker processes', () => {
     return t;
   }
 
+  /** The plan finished as the embedded run did: done, every cell counted, the same table. */
+  function expectEmbeddedTable(done: PlanBody) {
+    expect(done.status).toBe('done');
+    expect(done.progress).toMatchObject({ done: totalCells, total: totalCells });
+    expect(withoutTiming(done.table)).toEqual(embeddedTable);
+  }
+
+  /** Every cell of the plan computed exactly once, over all the workers. */
+  function expectEachCellOnce(workers: Child[], planId: string) {
+    const cells = workers.flatMap((w) => computedBy(w, planId)).sort((x, y) => x - y);
+    expect(cells).toEqual(Array.from({ length: totalCells }, (_, i) => i));
+  }
+
   async function worker(env: Record<string, string> = {}): Promise<Child> {
     const child = await startWorker({ QUEUE_URL: redis.url, ...env });
     started.push(child);
@@ -106,12 +119,9 @@ describe('plans on the Redis job queue with worker processes', () => {
       const progress = events.filter((e) => e.event === 'progress').map((e) => JSON.parse(e.data).done);
       expect(progress.at(-1)).toBe(totalCells);
       const done = await waitFor(t, res.body.id, finished);
-      expect(done.status).toBe('done');
-      expect(done.progress).toMatchObject({ done: totalCells, total: totalCells });
-      expect(withoutTiming(done.table)).toEqual(embeddedTable);
-      const cells = [...computedBy(a, res.body.id), ...computedBy(b, res.body.id)];
+      expectEmbeddedTable(done);
       // Every cell computed exactly once, and both processes took part.
-      expect(cells.sort((x, y) => x - y)).toEqual(Array.from({ length: totalCells }, (_, i) => i));
+      expectEachCellOnce([a, b], res.body.id);
       expect(computedBy(a, res.body.id).length).toBeGreaterThan(0);
       expect(computedBy(b, res.body.id).length).toBeGreaterThan(0);
       // The rows link their stored seed-1 results as in the embedded run.
@@ -132,10 +142,7 @@ describe('plans on the Redis job queue with worker processes', () => {
       // Kill `a` right after its first cell: it has already taken its next one (one thread, one cell).
       await a.line(new RegExp(`cell computed.*${id}|${id}.*cell computed`));
       await a.stop('SIGKILL');
-      const done = await waitFor(t, id, finished);
-      expect(done.status).toBe('done');
-      expect(done.progress).toMatchObject({ done: totalCells, total: totalCells });
-      expect(withoutTiming(done.table)).toEqual(embeddedTable);
+      expectEmbeddedTable(await waitFor(t, id, finished));
       // Every cell reached the table: those `a` finished before it died, the rest (its lost one too) by `b`.
       const byA = computedBy(a, id);
       const byB = computedBy(b, id);
@@ -158,11 +165,8 @@ describe('plans on the Redis job queue with worker processes', () => {
     await sleep(1000);
     const second = await service(first.dataDir);
     try {
-      const done = await waitFor(second, id, finished);
-      expect(done.status).toBe('done');
-      expect(withoutTiming(done.table)).toEqual(embeddedTable);
-      const cells = [...computedBy(a, id), ...computedBy(b, id)].sort((x, y) => x - y);
-      expect(cells).toEqual(Array.from({ length: totalCells }, (_, i) => i));
+      expectEmbeddedTable(await waitFor(second, id, finished));
+      expectEachCellOnce([a, b], id);
     } finally {
       await second.close();
       await a.stop();

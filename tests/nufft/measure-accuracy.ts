@@ -9,6 +9,7 @@ import { SeededRandom } from '../../src/core/random.ts';
 import { createNufftPlan } from '../../src/nufft/nufft-plan.ts';
 import { relativeError } from '../error-measures.ts';
 import { directNdft } from './direct-ndft.ts';
+import { uniformPoints } from './random-points.ts';
 
 const side = 64;
 const points = 2000;
@@ -19,12 +20,7 @@ for (const seed of [1, 2, 3]) {
   const rng = new SeededRandom(seed);
   const image = createComplexImage(side, side);
   for (let i = 0; i < image.data.length; i++) image.data[i] = rng.normal();
-  const kx = new Float64Array(points);
-  const ky = new Float64Array(points);
-  for (let p = 0; p < points; p++) {
-    kx[p] = (rng.uniform() - 0.5) * side;
-    ky[p] = (rng.uniform() - 0.5) * side;
-  }
+  const { kx, ky } = uniformPoints(points, side, side, rng);
   const exact = directNdft(image, kx, ky);
   for (const oversampling of ratios) {
     for (const width of widths) {

@@ -8,25 +8,14 @@ import { createNufftPlan, fastGridSize, MAX_PLAN_WEIGHTS } from '../../src/nufft
 import { validationFieldOf } from '../core/caught-validation-error.ts';
 import { inner } from '../encoding/helpers.ts';
 import { relativeError } from '../error-measures.ts';
+import { randomComplexImage } from '../recon/helpers.ts';
 import { directNdft } from './direct-ndft.ts';
 import { nufftFixture } from './nufft-fixture.ts';
+import { uniformPoints } from './random-points.ts';
 
-function randomImage(nx: number, ny: number, seed: number): ComplexImage {
-  const rng = new SeededRandom(seed);
-  const image = createComplexImage(nx, ny);
-  for (let i = 0; i < image.data.length; i++) image.data[i] = rng.normal();
-  return image;
-}
-
+/** `count` uniform points drawn from their own seed. */
 function randomPoints(count: number, spanX: number, spanY: number, seed: number) {
-  const rng = new SeededRandom(seed);
-  const kx = new Float64Array(count);
-  const ky = new Float64Array(count);
-  for (let p = 0; p < count; p++) {
-    kx[p] = (rng.uniform() - 0.5) * spanX;
-    ky[p] = (rng.uniform() - 0.5) * spanY;
-  }
-  return { kx, ky };
+  return uniformPoints(count, spanX, spanY, new SeededRandom(seed));
 }
 
 /** Cartesian grid points in the NUFFT's coordinates: column u ↔ kx = u − ⌊nx/2⌋, row v ↔ ky = −(v − ⌊ny/2⌋). */
@@ -79,7 +68,7 @@ describe('type-2 NUFFT against the direct non-uniform DFT', () => {
     [4, 1e-3],
     [6, 2e-5],
   ])('W = %i on 48×40 with 1500 random points below %f, within the tabulated expectation', (width, bound) => {
-    const img = randomImage(48, 40, 7);
+    const img = randomComplexImage(48, 40, 7);
     const pts = randomPoints(1500, 48, 40, 8);
     const plan = createNufftPlan(48, 40, pts.kx, pts.ky, { width });
     const error = relativeError(plan.forward(img), directNdft(img, pts.kx, pts.ky));
@@ -93,7 +82,7 @@ describe('type-2 NUFFT against the direct non-uniform DFT', () => {
     // Independent check of the error level: the fixture's 1D NUFFT (written in numpy, N = 128, 400
     // points) has 4.0e-4 (W = 4) and 4.6e-6 (W = 6); in 2D both axes add independent errors, so √2
     // times that is expected. Measured ratios 1.06 and 1.03; bound: within a factor 2 either way.
-    const img = randomImage(48, 40, 7);
+    const img = randomComplexImage(48, 40, 7);
     const pts = randomPoints(1500, 48, 40, 8);
     const exact = directNdft(img, pts.kx, pts.ky);
     for (const { width, relativeError: error1d } of nufftFixture.nufft1dErrors.filter((e) => e.width >= 4)) {
@@ -105,7 +94,7 @@ describe('type-2 NUFFT against the direct non-uniform DFT', () => {
   });
 
   it('α = 1.5 and 1.25 with wider kernels stay within the tabulated error', () => {
-    const img = randomImage(32, 32, 9);
+    const img = randomComplexImage(32, 32, 9);
     const pts = randomPoints(800, 32, 32, 10);
     const exact = directNdft(img, pts.kx, pts.ky);
     for (const [width, oversampling] of [
@@ -124,7 +113,7 @@ describe('type-2 NUFFT against the direct non-uniform DFT', () => {
       [33, 20],
       [15, 27],
     ]) {
-      const img = randomImage(nx, ny, nx * ny);
+      const img = randomComplexImage(nx, ny, nx * ny);
       const reference = fft2c(img).data;
       const { kx, ky } = gridPoints(nx, ny);
       // Grid points hit taps exactly on the kernel edge; the half-value edge rule keeps them as accurate
@@ -139,7 +128,7 @@ describe('type-2 NUFFT against the direct non-uniform DFT', () => {
   });
 
   it('is periodic in k with the image size (the DFT of samples on integer pixels)', () => {
-    const img = randomImage(20, 16, 3);
+    const img = randomComplexImage(20, 16, 3);
     const pts = randomPoints(100, 20, 16, 4);
     const shiftedX = pts.kx.map((k) => k + 20);
     const shiftedY = pts.ky.map((k) => k - 32);
@@ -155,7 +144,7 @@ describe('type-1 (adjoint) NUFFT', () => {
       [32, 24, 4, 2],
       [21, 17, 6, 1.5],
     ]) {
-      const x = randomImage(nx, ny, 11);
+      const x = randomComplexImage(nx, ny, 11);
       const pts = randomPoints(700, 1.3 * nx, 1.3 * ny, 12);
       const plan = createNufftPlan(nx, ny, pts.kx, pts.ky, { width, oversampling });
       const rng = new SeededRandom(13);
@@ -170,7 +159,7 @@ describe('type-1 (adjoint) NUFFT', () => {
   it('on the full Cartesian grid it equals ifft2c to the NUFFT accuracy', () => {
     const nx = 24;
     const ny = 19;
-    const x = randomImage(nx, ny, 5);
+    const x = randomComplexImage(nx, ny, 5);
     const { kx, ky } = gridPoints(nx, ny);
     const plan = createNufftPlan(nx, ny, kx, ky, { width: 6 });
     // Aᴴ on the grid is ifft2c, so Aᴴ(fft2c(x)) = x; measured 7.5e-6.

@@ -6,6 +6,7 @@ import type { Phantom } from '../../src/phantoms/phantom.ts';
 import { sinc } from '../../src/phantoms/rectangle.ts';
 import { resolutionContrast } from '../../src/phantoms/resolution-contrast.ts';
 import { sheppLogan, sheppLoganModified } from '../../src/phantoms/shepp-logan.ts';
+import { relativeError } from '../error-measures.ts';
 
 /**
  * Relative 2-norm error of fft2c(raster) against the analytic grid k-space over the central
@@ -38,14 +39,7 @@ function centralError(phantom: Phantom, nx: number, ny: number, ss: number, sinc
 
 function wholeGridError(phantom: Phantom, n: number): number {
   const dft = fft2c(complexFromReal(phantom.rasterize(n, n, { supersample: 8 }).data, n, n));
-  const analytic = phantomGridKspace(phantom, n, n);
-  let error = 0;
-  let norm = 0;
-  for (let i = 0; i < dft.data.length; i++) {
-    error += (dft.data[i] - analytic.data[i]) ** 2;
-    norm += analytic.data[i] ** 2;
-  }
-  return Math.sqrt(error / norm);
+  return relativeError(dft.data, phantomGridKspace(phantom, n, n).data);
 }
 
 describe('analytic grid k-space against the DFT of a fine raster (docs/references.md §1.3)', () => {

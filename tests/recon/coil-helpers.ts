@@ -9,6 +9,7 @@ import { type ComplexImage, complexFromReal } from '../../src/core/complex-image
 import { CartesianEncoding, type CoilMaps, type MultiCoilKspace } from '../../src/encoding/index.ts';
 import { getPhantom } from '../../src/phantoms/index.ts';
 import { coilImages, combineCoilImages, type ReconInput } from '../../src/recon/index.ts';
+import { relativeError } from '../error-measures.ts';
 
 /** The 8-loop array of the coil tests (loop radius 0.35, ring radius 1.25), normalised Σ|S_c|² = 1. */
 export function loopMaps(n: number, count = 8): CoilMaps {
@@ -43,13 +44,7 @@ export function coilInput(kspace: MultiCoilKspace, mask: Uint8Array, maps?: Coil
 
 /** NRMSE of complex images, ‖a − b‖ / ‖b‖. */
 export function nrmse(a: ComplexImage, b: ComplexImage): number {
-  let num = 0;
-  let den = 0;
-  for (let i = 0; i < b.data.length; i++) {
-    num += (a.data[i] - b.data[i]) ** 2;
-    den += b.data[i] ** 2;
-  }
-  return Math.sqrt(num / den);
+  return relativeError(a.data, b.data);
 }
 
 /** NRMSE of the magnitudes, ‖|a| − |b|‖ / ‖b‖ (the scores' comparison, docs/design.md §3.6). */

@@ -3,10 +3,10 @@ import { coilArrayMaps } from '../../src/coils/index.ts';
 import { ValidationError } from '../../src/core/errors.ts';
 import { CartesianEncoding } from '../../src/encoding/index.ts';
 import { reconstruct } from '../../src/recon/index.ts';
-import { inner, randomImage, randomStack } from '../encoding/helpers.ts';
+import { inner, randomStack } from '../encoding/helpers.ts';
 import { maxPixelDistance, relativeError } from '../error-measures.ts';
 import { coilInput, lineMask, loopCoilProblem, magnitudeNrmse } from './coil-problem.ts';
-import { blockObjectProblem, fullMask } from './helpers.ts';
+import { blockObjectProblem, fullMask, randomComplexImage } from './helpers.ts';
 
 const n = 64;
 
@@ -15,7 +15,7 @@ describe('cs-tv on the multi-coil encoding operator (SENSE with a TV penalty, Bl
     const mask = lineMask(n, 'cartesian-random', 4, 0);
     const { operator } = loopCoilProblem(n, mask);
     for (let trial = 0; trial < 3; trial++) {
-      const x = randomImage(n, n, 40 + trial);
+      const x = randomComplexImage(n, n, 40 + trial);
       const y = randomStack(8, n, n, 50 + trial);
       const [ar, ai] = inner(operator.forward(x).data, y.data);
       const [br, bi] = inner(x.data, operator.adjoint(y).data);
@@ -86,7 +86,7 @@ describe('cs-tv on the multi-coil encoding operator (SENSE with a TV penalty, Bl
   it('without maps it refuses with a ValidationError naming method.name', () => {
     const mask = lineMask(32, 'cartesian-uniform', 2, 8);
     const maps = coilArrayMaps({ array: 'loops', count: 4, loopRadius: 0.35, ringRadius: 1.25 }, 32, 32);
-    const kspace = new CartesianEncoding(32, 32, mask, maps).forward(randomImage(32, 32, 1));
+    const kspace = new CartesianEncoding(32, 32, mask, maps).forward(randomComplexImage(32, 32, 1));
     let caught: unknown;
     try {
       reconstruct(coilInput(mask, kspace), { name: 'cs-tv' });

@@ -22,9 +22,7 @@ import {
   fullMask,
   poissonDiscAcquisition,
   randomComplexImage,
-  randomPointMask,
   randomProblem,
-  sampledKspace,
   tvRofFixture,
 } from './helpers.ts';
 
@@ -195,9 +193,8 @@ describe('cs-wavelet solver', () => {
 
   it('cycle spinning is seeded: the same seed gives the same image, another seed another', () => {
     const n = 32;
-    const image = randomComplexImage(n, n, 4);
-    const mask = randomPointMask(n, n, 0.4, 4);
-    const input = { kspace: sampledKspace(image, mask), mask };
+    const { mask, kspace } = randomProblem(n, n, 4, 0.4, 4);
+    const input = { kspace, mask };
     const options = { lambda: 0.05, levels: 3, iterations: 10, cycleSpinning: true };
     const a = solveCsWavelet(input, { ...options, seed: 3 });
     const b = solveCsWavelet(input, { ...options, seed: 3 });

@@ -35,6 +35,23 @@ describe('g-factor maps: analytic SENSE (Pruessmann et al. 1999) and pseudo mult
   const support = objectOf(x);
   const full = encodedKspace(x, fullMask(n, n), maps);
 
+  /** gFactorFor on the phantom sampled by `mask`, after the method's base run (σ = 0.01, the object as support). */
+  const gFactorOf = (mask: Uint8Array, method: { name: 'sense' | 'grappa' }, replicas?: number) => {
+    const input = coilInput(encodedKspace(x, mask, maps), mask, maps);
+    const base = reconstruct(input, method);
+    return gFactorFor({
+      input,
+      method,
+      baseInfo: base.info,
+      full,
+      sigma: 0.01,
+      support,
+      replicas,
+      seed: 1,
+      limits,
+    });
+  };
+
   it('SENSE, 8 loops, uniform R = 4, 50 replicas: pseudo-replica g per pixel over analytic g, median over the object within 5 %', () => {
     const mask = uniformLines(n, 4, 0);
     const y = encodedKspace(x, mask, maps);
@@ -63,19 +80,7 @@ describe('g-factor maps: analytic SENSE (Pruessmann et al. 1999) and pseudo mult
   });
 
   it('R = 1 (any S, one pixel per fold): g = 1 (docs/references.md §5.5); GRAPPA through gFactorFor, 40 replicas, mean within 0.05', () => {
-    const input = coilInput(full, fullMask(n, n), maps);
-    const base = reconstruct(input, { name: 'grappa' });
-    const result = gFactorFor({
-      input,
-      method: { name: 'grappa' },
-      baseInfo: base.info,
-      full,
-      sigma: 0.01,
-      support,
-      replicas: 40,
-      seed: 1,
-      limits,
-    });
+    const result = gFactorOf(fullMask(n, n), { name: 'grappa' }, 40);
     expect(result.method).toBe('pseudo-replica');
     expect(result.replicas).toBe(40);
     // Two independent estimates of the same noise; the mean of their ratio is biased up by about the
@@ -110,37 +115,11 @@ describe('g-factor maps: analytic SENSE (Pruessmann et al. 1999) and pseudo mult
     const mask = uniformLines(n, 2, 0);
     expect(uniformCartesianAcceleration(mask, n, n)).toBe(2);
     expect(uniformCartesianAcceleration(uniformLines(n, 2, 8), n, n)).toBeNull();
-    const y = encodedKspace(x, mask, maps);
-    const input = coilInput(y, mask, maps);
-    const base = reconstruct(input, { name: 'sense' });
-    const analytic = gFactorFor({
-      input,
-      method: { name: 'sense' },
-      baseInfo: base.info,
-      full,
-      sigma: 0.01,
-      support,
-      seed: 1,
-      limits,
-    });
+    const analytic = gFactorOf(mask, { name: 'sense' });
     expect(analytic.method).toBe('analytic');
     expect(analytic.replicas).toBe(0);
     expect(Array.from(analytic.map)).toEqual(Array.from(senseGFactorMap(maps, 2)));
-    const withAcs = uniformLines(n, 2, 8);
-    const yAcs = encodedKspace(x, withAcs, maps);
-    const inputAcs = coilInput(yAcs, withAcs, maps);
-    const baseAcs = reconstruct(inputAcs, { name: 'sense' });
-    const replicas = gFactorFor({
-      input: inputAcs,
-      method: { name: 'sense' },
-      baseInfo: baseAcs.info,
-      full,
-      sigma: 0.01,
-      support,
-      replicas: 4,
-      seed: 1,
-      limits,
-    });
+    const replicas = gFactorOf(uniformLines(n, 2, 8), { name: 'sense' }, 4);
     expect(replicas.method).toBe('pseudo-replica');
     expect(replicas.replicas).toBe(4);
   });

@@ -7,7 +7,7 @@ import { combineCoilImages } from '../../src/recon/coil-combination.ts';
 import { reconstruct } from '../../src/recon/index.ts';
 import { relativeError } from '../error-measures.ts';
 import { coilInput, lineMask, loopCoilProblem, magnitudeNrmse } from './coil-problem.ts';
-import { fullMask, randomComplexImage, randomPointMask, sampledKspace } from './helpers.ts';
+import { fullMask, randomProblem } from './helpers.ts';
 
 /** Root-sum-of-squares of the coil images of coil k-space (the multi-coil reference without maps). */
 function rssImage(kspace: { coils: number; nx: number; ny: number; data: Float64Array }) {
@@ -59,9 +59,7 @@ describe('lowrank-hankel on the coils’ stacked block-Hankel matrices (Shin et 
   it('one coil with S = 1 follows the single-coil iterates (same algorithm, the stacked lifting with C = 1) to 1e-11', () => {
     const nx = 24;
     const ny = 20;
-    const image = randomComplexImage(nx, ny, 8);
-    const mask = randomPointMask(nx, ny, 0.5, 9);
-    const kspace = sampledKspace(image, mask);
+    const { mask, kspace } = randomProblem(nx, ny, 8, 0.5, 9);
     const maps = coilArrayMaps({ array: 'uniform' }, nx, ny);
     for (const weighting of ['none', 'gradient'] as const) {
       const spec = {

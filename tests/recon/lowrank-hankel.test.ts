@@ -14,6 +14,7 @@ import {
   pointSourceKspace,
   randomComplexImage,
   randomPointMask,
+  randomProblem,
 } from './helpers.ts';
 
 describe('lowrank-hankel completion', () => {
@@ -98,15 +99,7 @@ describe('lowrank-hankel completion', () => {
   it('full rank on an undersampled grid leaves the zero-filled k-space unchanged (Π = I)', () => {
     const nx = 16;
     const ny = 16;
-    const image = randomComplexImage(nx, ny, 8);
-    const mask = randomPointMask(nx, ny, 0.5, 2);
-    const k = fft2c(image);
-    for (let i = 0; i < mask.length; i++) {
-      if (!mask[i]) {
-        k.data[2 * i] = 0;
-        k.data[2 * i + 1] = 0;
-      }
-    }
+    const { mask, kspace: k } = randomProblem(nx, ny, 8, 0.5, 2);
     const out = reconstruct(
       { kspace: k, mask },
       { name: 'lowrank-hankel', kernel: [3, 4], rank: 12, weighting: 'none', iterations: 3, tolerance: 0 },

@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { CartesianEncoding } from '../../src/encoding/index.ts';
 import { NormalProxSolver } from '../../src/recon/normal-prox.ts';
-import { randomImage, randomMask, randomStack } from '../encoding/helpers.ts';
+import { randomMask, randomStack } from '../encoding/helpers.ts';
+import { randomComplexImage } from './helpers.ts';
 
 /** ‖b − (x + τEᴴE x)‖ / ‖b‖, the residual of the proximal system (its definition). */
 function relativeResidual(op: CartesianEncoding, x: Float64Array, b: Float64Array, tau: number): number {
@@ -22,7 +23,7 @@ describe('NormalProxSolver: (I + τEᴴE) x = b by conjugate gradients (Hestenes
     const nx = 16;
     const ny = 12;
     const op = new CartesianEncoding(nx, ny, randomMask(nx, ny, 0.4, 3), randomStack(4, nx, ny, 4));
-    const b = randomImage(nx, ny, 5).data;
+    const b = randomComplexImage(nx, ny, 5).data;
     const x = op.createImage();
     const steps = new NormalProxSolver(op).solve(x, b, tau, 1e-10, 100);
     expect(relativeResidual(op, x.data, b, tau)).toBeLessThan(1e-10);
@@ -36,8 +37,8 @@ describe('NormalProxSolver: (I + τEᴴE) x = b by conjugate gradients (Hestenes
     const nx = 10;
     const ny = 14;
     const op = new CartesianEncoding(nx, ny, randomMask(nx, ny, 0.5, 6));
-    const b = randomImage(nx, ny, 7).data;
-    const x = randomImage(nx, ny, 8); // warm start anywhere
+    const b = randomComplexImage(nx, ny, 7).data;
+    const x = randomComplexImage(nx, ny, 8); // warm start anywhere
     const steps = new NormalProxSolver(op).solve(x, b, tau, 1e-13, 10);
     expect(steps).toBe(2);
     expect(relativeResidual(op, x.data, b, tau)).toBeLessThan(1e-13);
