@@ -84,7 +84,8 @@ export const csWavelet: ReconMethod<CsWaveletSpec> = {
       wavelet,
       levels,
       lambda,
-      lambdaSource: spec.lambda === undefined ? 'default from acquired fraction' : 'request',
+      // The same field and words as cs-tv (docs/design.md §3.12); the wavelet default is a fraction rule.
+      lambdaRule: spec.lambda === undefined ? 'fraction-default' : 'explicit',
       tvLambda,
       shiftInvariance,
     };

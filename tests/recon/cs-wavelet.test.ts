@@ -35,7 +35,7 @@ describe('cs-wavelet at full sampling: the soft-threshold closed form (Donoho 19
     const image = randomComplexImage(nx, ny, 1);
     const out = reconstruct({ kspace: fft2c(image), mask: fullMask(nx, ny) }, { name: 'cs-wavelet' });
     expect(out.info.lambda).toBe(0);
-    expect(out.info.lambdaSource).toBe('default from acquired fraction');
+    expect(out.info.lambdaRule).toBe('fraction-default');
     expect(relativeError(out.image.data, image.data)).toBeLessThan(1e-12);
   });
 
