@@ -1,7 +1,12 @@
 import type { ComplexImage } from '../core/complex-image.ts';
 import { throwIfAborted } from '../core/errors.ts';
 import { SeededRandom } from '../core/random.ts';
-import { CartesianEncoding, type CoilSamples, type EncodingOperator } from '../encoding/index.ts';
+import {
+  CartesianEncoding,
+  type CoilSamples,
+  type EncodingOperator,
+  peakSensitivityPower,
+} from '../encoding/index.ts';
 import type { WaveletFilters } from '../wavelets/daubechies-filters.ts';
 import { WaveletSteps } from '../wavelets/wavelet-steps.ts';
 import { dataTermFromNormal, PROX_MAX_STEPS, PROX_TOLERANCE } from './cs-tv-encoding.ts';
@@ -87,18 +92,7 @@ function dataTerm(x: Float64Array, normal: Float64Array, problem: Problem): numb
 export function lipschitzBound(operator: EncodingOperator<CoilSamples>): number {
   if (operator instanceof CartesianEncoding) {
     const maps = operator.sensitivities;
-    if (!maps) return 1;
-    const n = operator.shapes.nx * operator.shapes.ny;
-    let bound = 0;
-    for (let i = 0; i < n; i++) {
-      let s = 0;
-      for (let c = 0; c < maps.coils; c++) {
-        const at = 2 * (c * n + i);
-        s += maps.data[at] * maps.data[at] + maps.data[at + 1] * maps.data[at + 1];
-      }
-      bound = Math.max(bound, s);
-    }
-    return bound;
+    return maps ? peakSensitivityPower(maps) : 1;
   }
   const rng = new SeededRandom(1);
   const x = operator.createImage();
