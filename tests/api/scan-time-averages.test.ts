@@ -1,37 +1,29 @@
 import { describe, expect, it } from 'vitest';
 import { expectDocumented, loadSpec, postJson, postProblem, sharedTestApp } from './helpers.ts';
 
-// `protocol.averages` is DICOM Number of Averages (0018,0083); `nex` is its deprecated alias for one
-// version (docs/design.md §4.3). Expected times from the TA formula of docs/references.md §8:
+// `protocol.averages` is DICOM Number of Averages (0018,0083); its former alias `nex` was removed
+// (docs/design.md §4.3). Expected times from the TA formula of docs/references.md §8:
 // TR 1000 ms × 64 lines × averages.
-describe('POST /v1/scan-time: averages and the deprecated alias nex', () => {
+describe('POST /v1/scan-time: averages', () => {
   const t = sharedTestApp();
 
   const matrix = { nx: 64, ny: 64 };
 
-  it('averages 2 → 128 s; the alias nex 2 gives the same answer', async () => {
-    for (const protocol of [
-      { trMs: 1000, averages: 2 },
-      { trMs: 1000, nex: 2 },
-    ]) {
-      const res = await postJson(t, '/v1/scan-time', { matrix, protocol });
-      expect(res.status).toBe(200);
-      expect(res.body.seconds).toBe(128);
-      await expectDocumented('POST', '/v1/scan-time', res);
-    }
+  it('averages 2 → 128 s', async () => {
+    const res = await postJson(t, '/v1/scan-time', { matrix, protocol: { trMs: 1000, averages: 2 } });
+    expect(res.status).toBe(200);
+    expect(res.body.seconds).toBe(128);
+    await expectDocumented('POST', '/v1/scan-time', res);
   });
 
-  it('averages and nex that disagree: 422 naming both fields', async () => {
-    const problem = await postProblem(
-      t,
-      '/v1/scan-time',
-      { matrix, protocol: { trMs: 1000, averages: 2, nex: 3 } },
-      422,
-    );
-    expect(problem.errors.map((e) => e.field).sort()).toEqual(['protocol.averages', 'protocol.nex']);
+  it('the removed alias nex is refused as an unknown field naming protocol.nex', async () => {
+    const problem = await postProblem(t, '/v1/scan-time', { matrix, protocol: { trMs: 1000, nex: 2 } }, 400);
+    expect(problem.errors).toEqual([
+      { field: 'protocol.nex', message: 'unknown field', allowed: 'the documented fields only' },
+    ]);
   });
 
-  it('plans take the alias too, and refuse a disagreement naming both fields', async () => {
+  it('plans refuse it the same way', async () => {
     const problem = await postProblem(
       t,
       '/v1/plans',
@@ -44,12 +36,12 @@ describe('POST /v1/scan-time: averages and the deprecated alias nex', () => {
         methods: [{ name: 'zero-filled' }],
         seeds: 1,
       },
-      422,
+      400,
     );
-    expect(problem.errors.map((e) => e.field).sort()).toEqual(['protocol.averages', 'protocol.nex']);
+    expect(problem.errors.map((e) => e.field)).toEqual(['protocol.nex']);
   });
 
-  it('openapi.yaml documents averages (default 1) and marks nex deprecated', async () => {
+  it('openapi.yaml documents averages (default 1) and no alias', async () => {
     const spec = (await loadSpec()) as unknown as {
       paths: Record<string, { post: { requestBody: { content: Record<string, { schema: unknown }> } } }>;
     };
@@ -59,6 +51,6 @@ describe('POST /v1/scan-time: averages and the deprecated alias nex', () => {
     const fields = body.properties.protocol.properties;
     expect(fields.averages.default).toBe(1);
     expect(fields.averages.deprecated).toBeUndefined();
-    expect(fields.nex.deprecated).toBe(true);
+    expect(Object.keys(fields)).not.toContain('nex');
   });
 });

@@ -13,7 +13,7 @@ function scanTime(matrix: { nx: number; ny: number }, protocol: ProtocolInput, s
 
 const tse = { trMs: 3000, echoTrainLength: 16, echoSpacingMs: 10, slices: 20 } as const;
 
-describe('turbo spin-echo timing, hand-worked (Bernstein, King & Zhou 2004, ch. 16 RARE; relations from memory)', () => {
+describe('spin-echo train (RARE) timing, hand-worked (Bernstein, King & Zhou 2004, ch. 16 RARE; relations from memory)', () => {
   it('TR 3000 ms, ETL 16, ES 10 ms, 20 slices, 256 lines → 18 slices per TR, 2 passes, 96 s, TE_eff 90 ms', () => {
     // One slice occupies its echo train: 16 × 10 ms = 160 ms; ⌊3000 / 160⌋ = ⌊18.75⌋ = 18 slices per TR.
     // Passes ⌈20 / 18⌉ = 2. Shots ⌈256 / 16⌉ = 16 TRs per pass. TA = 2 × 16 × 3000 ms × 1 = 96 000 ms = 96 s.

@@ -165,9 +165,6 @@ describe('scan time: validation names the field and the allowed range (TR > 0, a
     [{ trMs: -5 }, 'protocol.trMs', '> 0'],
     [{ trMs: 500, averages: 0 }, 'protocol.averages', '≥ 1'],
     [{ trMs: 500, averages: 1.5 }, 'protocol.averages', 'an integer'],
-    // The deprecated alias is checked as strictly, under its own name.
-    [{ trMs: 500, nex: 0 }, 'protocol.nex', '≥ 1'],
-    [{ trMs: 500, nex: 1.5 }, 'protocol.nex', 'an integer'],
     [{ trMs: 500, echoTrainLength: 2.5 }, 'protocol.echoTrainLength', 'an integer'],
     [{ trMs: 500, partialFourier: 0.4 }, 'protocol.partialFourier', '≥ 0.5'],
     [{ trMs: 500, partialFourier: 1.2 }, 'protocol.partialFourier', '≤ 1'],
@@ -221,40 +218,34 @@ describe('scan time: validation names the field and the allowed range (TR > 0, a
   });
 });
 
-// `averages` is DICOM Number of Averages (0018,0083); `nex` is its deprecated alias, kept for one
-// version. Source of the expected times: the TA formula of docs/references.md §8 (TR × lines × averages).
-describe('scan time: averages and the deprecated alias nex', () => {
+// `averages` is DICOM Number of Averages (0018,0083). Source of the expected times: the TA formula
+// of docs/references.md §8 (TR × lines × averages).
+describe('scan time: averages', () => {
   const matrix = { nx: 128, ny: 128 };
 
   it('averages defaults to 1: TR 1000 ms × 128 lines = 128 s', () => {
     expect(scanTime(matrix, { trMs: 1000 }).seconds).toBe(128);
   });
 
-  it('nex alone means the same as averages: 3 averages → 384 s either way', () => {
+  it('3 averages → 384 s', () => {
     expect(scanTime(matrix, { trMs: 1000, averages: 3 }).seconds).toBe(384);
-    expect(scanTime(matrix, { trMs: 1000, nex: 3 }).seconds).toBe(384);
   });
 
-  it('both given and equal is accepted', () => {
-    expect(scanTime(matrix, { trMs: 1000, averages: 2, nex: 2 }).seconds).toBe(256);
-  });
-
-  it('both given and different is refused naming both fields', () => {
+  it('the removed alias nex is an unknown field, named by its own path (docs/design.md §4.3)', () => {
     let problems: { field: string; allowed?: string }[] = [];
     try {
-      scanTime(matrix, { trMs: 1000, averages: 2, nex: 3 });
+      scanTime(matrix, { trMs: 1000, nex: 3 } as never);
     } catch (error) {
       expect(error).toBeInstanceOf(ValidationError);
       problems = (error as ValidationError).problems;
     }
-    expect(problems.map((p) => p.field).sort()).toEqual(['protocol.averages', 'protocol.nex']);
-    expect(problems[0].allowed).toBe('averages alone, or nex equal to averages');
+    expect(problems.map((p) => p.field)).toEqual(['protocol.nex']);
+    expect(problems[0].allowed).toBe('the documented fields only');
   });
 
-  it('the parsed protocol carries averages only, and parses again to itself', () => {
-    const parsed = protocolSchema.parse({ trMs: 1000, nex: 4 });
+  it('the parsed protocol carries averages, and parses again to itself', () => {
+    const parsed = protocolSchema.parse({ trMs: 1000, averages: 4 });
     expect(parsed.averages).toBe(4);
-    expect('nex' in parsed).toBe(false);
     expect(protocolSchema.parse(parsed)).toEqual(parsed);
   });
 });
