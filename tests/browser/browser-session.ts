@@ -4,6 +4,7 @@ import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { FastifyInstance } from 'fastify';
 import { type BrowserContext, chromium, type Page, type Response } from 'playwright-core';
+import { afterAll, beforeAll } from 'vitest';
 import { buildApp } from '../../src/app.ts';
 
 /** What every browser test shares: Debian's chromium, its flags, the artifacts folder, a listener. */
@@ -110,6 +111,23 @@ export interface PlannerSessionOptions {
   workers?: number;
   /** Also start a service that demands this API key, with one worker. */
   apiKey?: string;
+}
+
+/**
+ * The one session a test file runs on: opened before its tests (then handed to `onOpen`, which keeps
+ * what the file uses), closed after them. `timeoutMs` bounds the opening (vitest's hook default else).
+ */
+export function usePlannerSession(
+  options: PlannerSessionOptions,
+  onOpen: (session: PlannerSession) => void,
+  timeoutMs?: number,
+): void {
+  let session: PlannerSession | undefined;
+  beforeAll(async () => {
+    session = await openPlannerSession(options);
+    onOpen(session);
+  }, timeoutMs);
+  afterAll(() => session?.close());
 }
 
 /** Builds the service on a fresh data folder, listens on loopback, and opens chromium limited to it. */

@@ -1,7 +1,7 @@
 import { join } from 'node:path';
 import type { Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { artifacts, openPlannerSession, type PlannerSession } from './browser-session.ts';
+import { describe, expect, it } from 'vitest';
+import { artifacts, type PlannerSession, usePlannerSession } from './browser-session.ts';
 
 /**
  * The receive-array part of the planner page (docs/design.md §3.8, §4.3, §4.4) in Debian's chromium
@@ -26,12 +26,10 @@ async function chooseEightLoops(): Promise<void> {
   await page.locator('#coilCorrelation').dispatchEvent('change');
 }
 
-beforeAll(async () => {
-  session = await openPlannerSession({ prefix: 'kspace-planner-browser-coils-', workers: 1 });
-  page = session.page;
+usePlannerSession({ prefix: 'kspace-planner-browser-coils-', workers: 1 }, (opened) => {
+  session = opened;
+  page = opened.page;
 });
-
-afterAll(() => session?.close());
 
 describe('receive arrays on the planner page', () => {
   it('draws 8 loops on their ring, each a segment of length 2a normal to its radius, around the FOV', async () => {

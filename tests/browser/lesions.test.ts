@@ -1,7 +1,7 @@
 import { join } from 'node:path';
 import type { Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { artifacts, decodedImage, openPlannerSession, type PlannerSession } from './browser-session.ts';
+import { describe, expect, it } from 'vitest';
+import { artifacts, decodedImage, type PlannerSession, usePlannerSession } from './browser-session.ts';
 
 /**
  * Feature fidelity on the planner page, in Debian's chromium driven by playwright-core against the
@@ -19,12 +19,10 @@ interface Circle {
   radius: number;
 }
 
-beforeAll(async () => {
-  session = await openPlannerSession({ prefix: 'kspace-planner-lesions-data-', workers: 1 });
-  page = session.page;
+usePlannerSession({ prefix: 'kspace-planner-lesions-data-', workers: 1 }, (opened) => {
+  session = opened;
+  page = opened.page;
 });
-
-afterAll(() => session?.close());
 
 describe('lesions on the planner page', () => {
   it('circles the true lesion positions on the reconstruction with lesions and on the error map, lists the scores', async () => {

@@ -1,9 +1,9 @@
 import { join } from 'node:path';
 import type { BrowserContext, Page } from 'playwright-core';
 import sharp from 'sharp';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { debianFile } from '../io/debian-files.ts';
-import { artifacts, decodedImage, openPlannerSession, type PlannerSession } from './browser-session.ts';
+import { artifacts, decodedImage, type PlannerSession, usePlannerSession } from './browser-session.ts';
 
 /**
  * The planner page in a real browser: Debian's chromium driven by playwright-core against the real
@@ -103,14 +103,12 @@ async function runPlanToDone(patterns: string[]): Promise<string> {
   return id;
 }
 
-beforeAll(async () => {
-  session = await openPlannerSession({ prefix: 'kspace-planner-browser-', apiKey });
-  ({ baseUrl, context, page, pageErrors } = session);
-  keyedUrl = session.keyedUrl!;
+usePlannerSession({ prefix: 'kspace-planner-browser-', apiKey }, (opened) => {
+  session = opened;
+  ({ baseUrl, context, page, pageErrors } = opened);
+  keyedUrl = opened.keyedUrl!;
   page.on('request', (request) => requested.push(request.url()));
 });
-
-afterAll(() => session?.close());
 
 describe('planner page in Chromium', () => {
   it('loads with the cautions in view at 1280×800 and every control labelled', async () => {

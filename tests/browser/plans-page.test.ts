@@ -2,10 +2,10 @@ import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import type { BrowserContext, Page } from 'playwright-core';
 import sharp from 'sharp';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { smallPlanBody } from '../plan/small-plan.ts';
 import { VOLUME_FIXTURE, volumePlanBody } from '../volume/fixture.ts';
-import { artifacts, openPlannerSession, type PlannerSession } from './browser-session.ts';
+import { artifacts, type PlannerSession, usePlannerSession } from './browser-session.ts';
 
 /**
  * Stored plans, addresses and downloads on the planner page, in Debian's chromium against the real
@@ -119,13 +119,15 @@ async function planShownDone(on: Page = page): Promise<void> {
   );
 }
 
-beforeAll(async () => {
-  session = await openPlannerSession({ prefix: 'kspace-plans-page-', workers: 2, apiKey });
-  ({ baseUrl, context, page } = session);
-  keyedUrl = session.keyedUrl!;
-}, 60_000);
-
-afterAll(() => session?.close());
+usePlannerSession(
+  { prefix: 'kspace-plans-page-', workers: 2, apiKey },
+  (opened) => {
+    session = opened;
+    ({ baseUrl, context, page } = opened);
+    keyedUrl = opened.keyedUrl!;
+  },
+  60_000,
+);
 
 describe('stored plans, addresses and downloads in Chromium', () => {
   let plan: PlanStatus;
