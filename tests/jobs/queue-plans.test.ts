@@ -97,62 +97,76 @@ describe('plans on the Redis job queue with worker processes', () => {
     return child;
   }
 
-  it('two worker processes give the same table as the embedded threads; /health shows them', async () => {
+  /**
+   * `body` on the service `open` makes and two fresh worker processes; then the service is closed and
+   * both workers stopped (one the test killed is already stopped).
+   */
+  async function onTwoWorkers(
+    open: () => Promise<TestApp>,
+    body: (t: TestApp, a: Child, b: Child) => Promise<void>,
+  ): Promise<void> {
     const [a, b] = await Promise.all([worker(), worker()]);
-    const t = await service();
+    const t = await open();
     try {
-      const health = await t.http().get('/health');
-      expect(health.body.cellQueue).toMatchObject({ kind: 'redis', reachable: true, workerProcesses: 2 });
-      await t.app.listen({ port: 0, host: '127.0.0.1' });
-      const port = (t.app.server.address() as AddressInfo).port;
-      const res = await t.http().post('/v1/plans').send(plan);
-      expect(res.status).toBe(202);
-      // Progress reaches the event stream (WHATWG SSE, read with eventsource-parser) as cells come back.
-      const stream = await fetch(`http://127.0.0.1:${port}/v1/plans/${res.body.id}/events`);
-      const events: EventSourceMessage[] = [];
-      const parser = createParser({ onEvent: (event) => events.push(event) });
-      const decoder = new TextDecoder();
-      for await (const chunk of stream.body as unknown as AsyncIterable<Uint8Array>) {
-        parser.feed(decoder.decode(chunk, { stream: true }));
-      }
-      expect(events.at(-1)?.event).toBe('done');
-      const progress = events.filter((e) => e.event === 'progress').map((e) => JSON.parse(e.data).done);
-      expect(progress.at(-1)).toBe(totalCells);
-      const done = await waitFor(t, res.body.id, finished);
-      expectEmbeddedTable(done);
-      // Every cell computed exactly once, and both processes took part.
-      expectEachCellOnce([a, b], res.body.id);
-      expect(computedBy(a, res.body.id).length).toBeGreaterThan(0);
-      expect(computedBy(b, res.body.id).length).toBeGreaterThan(0);
-      // The rows link their stored seed-1 results as in the embedded run.
-      expect(done.table?.rows.every((row) => typeof row.resultId === 'string')).toBe(true);
+      await body(t, a, b);
     } finally {
       await t.close();
       await a.stop();
       await b.stop();
     }
-  }, 180_000);
+  }
 
-  it('a worker killed mid-plan: its cell goes back to the queue, the plan completes, no cell lost or doubled', async () => {
-    const [a, b] = await Promise.all([worker(), worker()]);
-    const t = await service();
-    try {
-      const res = await t.http().post('/v1/plans').send(plan);
-      const id = res.body.id as string;
-      // Kill `a` right after its first cell: it has already taken its next one (one thread, one cell).
-      await a.line(new RegExp(`cell computed.*${id}|${id}.*cell computed`));
-      await a.stop('SIGKILL');
-      expectEmbeddedTable(await waitFor(t, id, finished));
-      // Every cell reached the table: those `a` finished before it died, the rest (its lost one too) by `b`.
-      const byA = computedBy(a, id);
-      const byB = computedBy(b, id);
-      expect(new Set([...byA, ...byB]).size).toBe(totalCells);
-      expect(byB.length).toBeGreaterThan(0);
-    } finally {
-      await t.close();
-      await b.stop();
-    }
-  }, 180_000);
+  it(
+    'two worker processes give the same table as the embedded threads; /health shows them',
+    async () =>
+      onTwoWorkers(service, async (t, a, b) => {
+        const health = await t.http().get('/health');
+        expect(health.body.cellQueue).toMatchObject({ kind: 'redis', reachable: true, workerProcesses: 2 });
+        await t.app.listen({ port: 0, host: '127.0.0.1' });
+        const port = (t.app.server.address() as AddressInfo).port;
+        const res = await t.http().post('/v1/plans').send(plan);
+        expect(res.status).toBe(202);
+        // Progress reaches the event stream (WHATWG SSE, read with eventsource-parser) as cells come back.
+        const stream = await fetch(`http://127.0.0.1:${port}/v1/plans/${res.body.id}/events`);
+        const events: EventSourceMessage[] = [];
+        const parser = createParser({ onEvent: (event) => events.push(event) });
+        const decoder = new TextDecoder();
+        for await (const chunk of stream.body as unknown as AsyncIterable<Uint8Array>) {
+          parser.feed(decoder.decode(chunk, { stream: true }));
+        }
+        expect(events.at(-1)?.event).toBe('done');
+        const progress = events.filter((e) => e.event === 'progress').map((e) => JSON.parse(e.data).done);
+        expect(progress.at(-1)).toBe(totalCells);
+        const done = await waitFor(t, res.body.id, finished);
+        expectEmbeddedTable(done);
+        // Every cell computed exactly once, and both processes took part.
+        expectEachCellOnce([a, b], res.body.id);
+        expect(computedBy(a, res.body.id).length).toBeGreaterThan(0);
+        expect(computedBy(b, res.body.id).length).toBeGreaterThan(0);
+        // The rows link their stored seed-1 results as in the embedded run.
+        expect(done.table?.rows.every((row) => typeof row.resultId === 'string')).toBe(true);
+      }),
+    180_000,
+  );
+
+  it(
+    'a worker killed mid-plan: its cell goes back to the queue, the plan completes, no cell lost or doubled',
+    async () =>
+      onTwoWorkers(service, async (t, a, b) => {
+        const res = await t.http().post('/v1/plans').send(plan);
+        const id = res.body.id as string;
+        // Kill `a` right after its first cell: it has already taken its next one (one thread, one cell).
+        await a.line(new RegExp(`cell computed.*${id}|${id}.*cell computed`));
+        await a.stop('SIGKILL');
+        expectEmbeddedTable(await waitFor(t, id, finished));
+        // Every cell reached the table: those `a` finished before it died, the rest (its lost one too) by `b`.
+        const byA = computedBy(a, id);
+        const byB = computedBy(b, id);
+        expect(new Set([...byA, ...byB]).size).toBe(totalCells);
+        expect(byB.length).toBeGreaterThan(0);
+      }),
+    180_000,
+  );
 
   it('the service restarted mid-plan resumes: finished cells are collected, none computed twice', async () => {
     const [a, b] = await Promise.all([worker(), worker()]);
@@ -174,43 +188,52 @@ describe('plans on the Redis job queue with worker processes', () => {
     }
   }, 180_000);
 
-  it('cancel drops the waiting cells and stops the running ones within seconds', async () => {
-    const [a, b] = await Promise.all([worker(), worker()]);
-    const t = await testApp({
-      workers: 1,
-      limits: { maxIterations: 20_000 },
-      queue: { url: redis.url, planConcurrency: 4 },
-    });
-    try {
-      // Cells of many seconds each, so cancel meets them running.
-      const slow = { ...plan, matrix: { nx: 64, ny: 64 }, methods: [{ name: 'cs-tv', iterations: 20_000 }] };
-      const res = await t.http().post('/v1/plans').send(slow);
-      const id = res.body.id as string;
-      let health = await t.http().get('/health');
-      for (let i = 0; i < 200 && health.body.cellQueue.runningCells < 2; i++) {
-        await sleep(50);
-        health = await t.http().get('/health');
-      }
-      expect(health.body.cellQueue.runningCells).toBe(2);
-      expect(health.body.cellQueue.waitingCells).toBe(2);
-      const cancelled = await t.http().delete(`/v1/plans/${id}`);
-      expect(cancelled.status).toBe(200);
-      expect(cancelled.body.status).toBe('cancelled');
-      let emptied = false;
-      for (let i = 0; i < 100 && !emptied; i++) {
-        await sleep(50);
-        health = await t.http().get('/health');
-        emptied = health.body.cellQueue.runningCells === 0 && health.body.cellQueue.waitingCells === 0;
-      }
-      expect(health.body.cellQueue).toMatchObject({ runningCells: 0, waitingCells: 0, workerProcesses: 2 });
-      expect([...computedBy(a, id), ...computedBy(b, id)]).toEqual([]);
-      expect((await t.http().get(`/v1/plans/${id}`)).body.status).toBe('cancelled');
-    } finally {
-      await t.close();
-      await a.stop();
-      await b.stop();
-    }
-  }, 180_000);
+  it(
+    'cancel drops the waiting cells and stops the running ones within seconds',
+    async () =>
+      onTwoWorkers(
+        () =>
+          testApp({
+            workers: 1,
+            limits: { maxIterations: 20_000 },
+            queue: { url: redis.url, planConcurrency: 4 },
+          }),
+        async (t, a, b) => {
+          // Cells of many seconds each, so cancel meets them running.
+          const slow = {
+            ...plan,
+            matrix: { nx: 64, ny: 64 },
+            methods: [{ name: 'cs-tv', iterations: 20_000 }],
+          };
+          const res = await t.http().post('/v1/plans').send(slow);
+          const id = res.body.id as string;
+          let health = await t.http().get('/health');
+          for (let i = 0; i < 200 && health.body.cellQueue.runningCells < 2; i++) {
+            await sleep(50);
+            health = await t.http().get('/health');
+          }
+          expect(health.body.cellQueue.runningCells).toBe(2);
+          expect(health.body.cellQueue.waitingCells).toBe(2);
+          const cancelled = await t.http().delete(`/v1/plans/${id}`);
+          expect(cancelled.status).toBe(200);
+          expect(cancelled.body.status).toBe('cancelled');
+          let emptied = false;
+          for (let i = 0; i < 100 && !emptied; i++) {
+            await sleep(50);
+            health = await t.http().get('/health');
+            emptied = health.body.cellQueue.runningCells === 0 && health.body.cellQueue.waitingCells === 0;
+          }
+          expect(health.body.cellQueue).toMatchObject({
+            runningCells: 0,
+            waitingCells: 0,
+            workerProcesses: 2,
+          });
+          expect([...computedBy(a, id), ...computedBy(b, id)]).toEqual([]);
+          expect((await t.http().get(`/v1/plans/${id}`)).body.status).toBe('cancelled');
+        },
+      ),
+    180_000,
+  );
 
   describe('uploads reach the workers from the service, with the worker key', () => {
     const apiKey = 'portal-key-1';
