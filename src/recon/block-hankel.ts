@@ -133,8 +133,6 @@ export class BlockHankel {
     this.bandCorrelations(arrays, 'rows');
     this.bandCorrelations(arrays, 'columns');
     const { wx, wy, size, autocorrelation, rowBand, columnBand, corner } = this;
-    const lx = 2 * wx - 1;
-    const ly = 2 * wy - 1;
     const cy = 2 * wy - 2;
     const cx = 2 * wx - 2;
     gram.fill(0);
@@ -145,20 +143,12 @@ export class BlockHankel {
         addCornerCorrelation(gram, corner, 0, 0, wx, wy, true);
       }
     }
+    const entry = new Float64Array(2);
     for (let a = 0; a < size; a++) {
-      const ay = Math.floor(a / wx);
-      const ax = a - ay * wx;
       for (let b = a; b < size; b++) {
-        const by = Math.floor(b / wx);
-        const bx = b - by * wx;
-        const dy = by - ay;
-        const dx = bx - ax;
-        const r = 2 * ((dy + wy - 1) * lx + dx + wx - 1);
-        const rb = 2 * ((ay * wy + by) * lx + dx + wx - 1);
-        const cb = 2 * ((ax * wx + bx) * ly + dy + wy - 1);
-        const re = gram[2 * (a * size + b)] + autocorrelation[r] - rowBand[rb] - columnBand[cb];
-        const im =
-          gram[2 * (a * size + b) + 1] + autocorrelation[r + 1] - rowBand[rb + 1] - columnBand[cb + 1];
+        wrapCorrectedEntry(entry, autocorrelation, rowBand, columnBand, a, b, wx, wy);
+        const re = gram[2 * (a * size + b)] + entry[0];
+        const im = gram[2 * (a * size + b) + 1] + entry[1];
         gram[2 * (a * size + b)] = re;
         gram[2 * (a * size + b) + 1] = im;
         gram[2 * (b * size + a)] = re;
@@ -516,6 +506,36 @@ export function addKernelSum(
   }
   sum[0] = re;
   sum[1] = im;
+}
+
+/**
+ * entry ← R[b−a] − Rows[ay, by, bx−ax] − Columns[ax, bx, by−ay]: the part of the Gram entry of
+ * windows a and b (wy×wx, row-major) that the whole-torus correlation and the two wrapped bands
+ * give (BlockHankel.gram; the corner term is added by the caller). `correlation` holds the
+ * (2wy−1)×(2wx−1) lags, `rowBand` wy²×(2wx−1) and `columnBand` wx²×(2wy−1), interleaved complex.
+ */
+export function wrapCorrectedEntry(
+  entry: Float64Array,
+  correlation: Float64Array,
+  rowBand: Float64Array,
+  columnBand: Float64Array,
+  a: number,
+  b: number,
+  wx: number,
+  wy: number,
+): void {
+  const ay = Math.floor(a / wx);
+  const ax = a - ay * wx;
+  const by = Math.floor(b / wx);
+  const bx = b - by * wx;
+  const dy = by - ay;
+  const dx = bx - ax;
+  const lx = 2 * wx - 1;
+  const r = 2 * ((dy + wy - 1) * lx + dx + wx - 1);
+  const rb = 2 * ((ay * wy + by) * lx + dx + wx - 1);
+  const cb = 2 * ((ax * wx + bx) * (2 * wy - 1) + dy + wy - 1);
+  entry[0] = correlation[r] - rowBand[rb] - columnBand[cb];
+  entry[1] = correlation[r + 1] - rowBand[rb + 1] - columnBand[cb + 1];
 }
 
 /** e^(−i2πm/n) for m = 0…n−1, interleaved. */

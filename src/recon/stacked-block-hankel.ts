@@ -12,6 +12,7 @@ import {
   twiddles,
   type WrapBand,
   wrapBand,
+  wrapCorrectedEntry,
 } from './block-hankel.ts';
 import { Dft2 } from './uncentred-dft2.ts';
 
@@ -165,8 +166,7 @@ export class StackedBlockHankel {
     this.transformBandLines('rows');
     this.transformBandLines('columns');
     this.gatherCorners();
-    const lx = 2 * wx - 1;
-    const ly = 2 * wy - 1;
+    const entry = new Float64Array(2);
     for (let c = 0; c < coils; c++) {
       for (let d = c; d < coils; d++) {
         this.crossCorrelation(c, d);
@@ -174,19 +174,11 @@ export class StackedBlockHankel {
         this.bandCorrelation(c, d, 'columns');
         this.cornerCorrelation(c, d);
         for (let a = 0; a < n; a++) {
-          const ay = Math.floor(a / wx);
-          const ax = a - ay * wx;
           for (let b = c === d ? a : 0; b < n; b++) {
-            const by = Math.floor(b / wx);
-            const bx = b - by * wx;
-            const dy = by - ay;
-            const dx = bx - ax;
-            const r = 2 * ((dy + wy - 1) * lx + dx + wx - 1);
-            const rb = 2 * ((ay * wy + by) * lx + dx + wx - 1);
-            const cb = 2 * ((ax * wx + bx) * ly + dy + wy - 1);
+            wrapCorrectedEntry(entry, correlation, rowBand, columnBand, a, b, wx, wy);
             const g = 2 * (a * n + b);
-            const re = correlation[r] - rowBand[rb] - columnBand[cb] + cornerGram[g];
-            const im = correlation[r + 1] - rowBand[rb + 1] - columnBand[cb + 1] + cornerGram[g + 1];
+            const re = entry[0] + cornerGram[g];
+            const im = entry[1] + cornerGram[g + 1];
             const i = c * n + a;
             const j = d * n + b;
             gram[2 * (i * size + j)] = re;
