@@ -68,6 +68,7 @@ import {
   type PhaseSpec,
   phaseSchema,
 } from './coil-request.ts';
+import { loadFromContext } from './context-loader.ts';
 import { type FidelityOutcome, runLesionFidelity } from './lesion-run.ts';
 import { rawAcquisition } from './raw-acquisition.ts';
 import { resampleBilinear } from './resample.ts';
@@ -245,14 +246,11 @@ async function coilSimulation(
 ): Promise<CoilSimulation> {
   let uploadedMaps: CoilMaps | undefined;
   if ('mapsId' in coils) {
-    if (!ctx.loadCoilMaps) {
-      throw new ValidationError({
-        field: 'coils.mapsId',
-        message: 'uploaded coil maps are not available here',
-        allowed: 'an array: { array: "uniform" | "loops" | "gaussian", … }',
-      });
-    }
-    uploadedMaps = await ctx.loadCoilMaps(coils.mapsId);
+    uploadedMaps = await loadFromContext(ctx.loadCoilMaps, coils.mapsId, {
+      field: 'coils.mapsId',
+      message: 'uploaded coil maps are not available here',
+      allowed: 'an array: { array: "uniform" | "loops" | "gaussian", … }',
+    });
   }
   const build = (image?: RealImage): CoilSimulation => {
     const model = arrayModel(coils, nx, ny, uploadedMaps);
@@ -328,10 +326,10 @@ async function uploadedImage(
       allowed: 'phantom | imageId',
     });
   }
-  if (!ctx.loadImage) {
-    throw new ValidationError({ field: 'source.imageId', message: 'uploaded images are not available here' });
-  }
-  const loaded = await ctx.loadImage(source.imageId);
+  const loaded = await loadFromContext(ctx.loadImage, source.imageId, {
+    field: 'source.imageId',
+    message: 'uploaded images are not available here',
+  });
   let image = loaded;
   if (loaded.nx !== nx || loaded.ny !== ny) {
     image = resampleBilinear(loaded, nx, ny);
@@ -700,10 +698,10 @@ async function loadedRaw(id: string, phase: PhaseSpec | undefined, ctx: Pipeline
       allowed: 'no phase piece with source.rawId',
     });
   }
-  if (!ctx.loadRaw) {
-    throw new ValidationError({ field: 'source.rawId', message: 'raw data are not available here' });
-  }
-  return ctx.loadRaw(id);
+  return loadFromContext(ctx.loadRaw, id, {
+    field: 'source.rawId',
+    message: 'raw data are not available here',
+  });
 }
 
 function isUniform(spec: CoilsSpec): spec is { array: 'uniform' } {

@@ -16,6 +16,7 @@ import type { VolumeAcquisitionMode } from '../volume/volume-schema.ts';
 import { type SliceScores, scoreVolume, volumeScores } from '../volume/volume-scores.ts';
 import { nonCartesianVolume, unsupportedVolumePieces } from '../volume/volume-support.ts';
 import type { AcquiredData } from './acquired-data.ts';
+import { loadFromContext } from './context-loader.ts';
 import type { PipelineContext, ReconstructionOutcome, ReconstructionRequest } from './run-reconstruction.ts';
 
 /** What a volume adds to a reconstruction outcome (docs/design.md §2.5). */
@@ -119,13 +120,10 @@ export async function prepareVolume(
   const acquisition = req.acquisition ?? '3d';
   const notes: string[] = [];
   const id = (req.source as { imageId: string }).imageId;
-  if (!ctx.loadVolume) {
-    throw new ValidationError({
-      field: 'source.imageId',
-      message: 'uploaded volumes are not available here',
-    });
-  }
-  const loaded = await ctx.loadVolume(id);
+  const loaded = await loadFromContext(ctx.loadVolume, id, {
+    field: 'source.imageId',
+    message: 'uploaded volumes are not available here',
+  });
   const volume = resampleTrilinear(loaded, nx, ny, nz);
   if (volume !== loaded) {
     notes.push(
