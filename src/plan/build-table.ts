@@ -133,16 +133,17 @@ export function buildTable(plan: TablePlan, cellResults: readonly CellResult[]):
 }
 
 /** The iteration columns of a row: mean iterations run, the cap, and whether every seed converged. */
-function solverStopColumns(
-  results: readonly CellResult[],
-): Pick<PlanRow, 'iterationsRun' | 'iterationLimit' | 'converged'> {
-  const stops = fromEverySeed(results, (r) => r.solverStop);
-  if (stops === null) return { iterationsRun: null, iterationLimit: null, converged: null };
-  return {
-    iterationsRun: mean(stops.map((s) => s.iterations)),
-    iterationLimit: Math.max(...stops.map((s) => s.iterationLimit)),
-    converged: stops.every((s) => s.converged),
-  };
+function solverStopColumns(results: readonly CellResult[]) {
+  return columnsFromEverySeed(
+    results,
+    (r) => r.solverStop,
+    ['iterationsRun', 'iterationLimit', 'converged'],
+    (stops) => ({
+      iterationsRun: mean(stops.map((s) => s.iterations)),
+      iterationLimit: Math.max(...stops.map((s) => s.iterationLimit)),
+      converged: stops.every((s) => s.converged),
+    }),
+  );
 }
 
 /** The row's representative result: that of its seed-1 cell, when one was stored. */
@@ -155,25 +156,34 @@ function representative(results: readonly CellResult[]): { resultId?: string } {
  * The g-factor columns of a row: means over seeds of the mean and largest g, when every seed has one
  * (a g-factor is a property of the maps and the mask, so seeds differ only through a drawn mask).
  */
-function gFactorColumns(
-  results: readonly CellResult[],
-): Pick<PlanRow, 'gFactorMean' | 'gFactorMax' | 'gFactorMethod'> {
-  const known = fromEverySeed(results, (r) => r.gFactor);
-  if (known === null) return { gFactorMean: null, gFactorMax: null, gFactorMethod: null };
-  return {
-    gFactorMean: mean(known.map((g) => g.mean)),
-    gFactorMax: mean(known.map((g) => g.max)),
-    gFactorMethod: known[0].method,
-  };
+function gFactorColumns(results: readonly CellResult[]) {
+  return columnsFromEverySeed(
+    results,
+    (r) => r.gFactor,
+    ['gFactorMean', 'gFactorMax', 'gFactorMethod'],
+    (known) => ({
+      gFactorMean: mean(known.map((g) => g.mean)),
+      gFactorMax: mean(known.map((g) => g.max)),
+      gFactorMethod: known[0].method,
+    }),
+  );
 }
 
-/** One value per seed, or null unless every seed has one (a row never averages over some seeds only). */
-function fromEverySeed<T>(
+/**
+ * Row columns summarised from one value per seed, or every column null unless every seed has a
+ * value (a row never averages over some seeds only).
+ */
+function columnsFromEverySeed<T, K extends keyof PlanRow>(
   results: readonly CellResult[],
   pick: (r: CellResult) => T | undefined,
-): T[] | null {
+  columns: readonly K[],
+  summarise: (perSeed: T[]) => Pick<PlanRow, K>,
+): Pick<PlanRow, K> | Record<K, null> {
   const known = results.map(pick).filter((v): v is T => v !== undefined);
-  return known.length > 0 && known.length === results.length ? known : null;
+  if (known.length === 0 || known.length !== results.length) {
+    return Object.fromEntries(columns.map((column) => [column, null])) as Record<K, null>;
+  }
+  return summarise(known);
 }
 
 /** Every target of a plan: `target` first, then `targets` (all must be met). */
