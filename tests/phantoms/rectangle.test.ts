@@ -46,8 +46,7 @@ describe('rectangle transform', () => {
     quadrature: {
       rule: 'direct 2D Gauss–Legendre integration over the rotated rectangle',
       instances: [CHECK, TILTED],
-      transform: ({ x0, y0, wx, wy }, theta, kx, ky) =>
-        rectangleTransformByQuadrature({ x0, y0, wx, wy, theta }, kx, ky),
+      transform: rectangleTransformByQuadrature,
       tolerance: 1e-13,
     },
     tilted: TILTED,

@@ -164,8 +164,8 @@ export interface ShapeTheoremCase<P extends Placement> {
     /** The quadrature rule, as the test's title names it. */
     rule: string;
     instances: P[];
-    /** The unit-intensity integral for `params` turned by `theta` radians. */
-    transform: (params: P, theta: number, kx: number, ky: number) => Complex;
+    /** The unit-intensity integral for the shape of `params` turned by `theta` radians. */
+    transform: (shape: P & { theta: number }, kx: number, ky: number) => Complex;
     tolerance: number;
   };
   /** A rotated, off-centre instance. */
@@ -187,7 +187,9 @@ export function itObeysTransformTheorems<P extends Placement>(c: ShapeTheoremCas
   it(`agrees with ${quadrature.rule} (tests/phantoms/quadrature.ts, ${quadrature.tolerance})`, () => {
     for (const p of quadrature.instances) {
       const theta = ((p.thetaDeg ?? 0) * Math.PI) / 180;
-      const reference = scaledTransform(p.intensity, (kx, ky) => quadrature.transform(p, theta, kx, ky));
+      const reference = scaledTransform(p.intensity, (kx, ky) =>
+        quadrature.transform({ ...p, theta }, kx, ky),
+      );
       expectSameTransform(shapeTransform(make(p)), reference, frequencies, quadrature.tolerance);
     }
   });
