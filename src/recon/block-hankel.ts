@@ -146,9 +146,11 @@ export class BlockHankel {
     const entry = new Float64Array(2);
     for (let a = 0; a < size; a++) {
       for (let b = a; b < size; b++) {
-        wrapCorrectedEntry(entry, autocorrelation, rowBand, columnBand, a, b, wx, wy);
-        const re = gram[2 * (a * size + b)] + entry[0];
-        const im = gram[2 * (a * size + b) + 1] + entry[1];
+        entry[0] = gram[2 * (a * size + b)];
+        entry[1] = gram[2 * (a * size + b) + 1];
+        addWrapCorrectedEntry(entry, autocorrelation, rowBand, columnBand, a, b, wx, wy);
+        const re = entry[0];
+        const im = entry[1];
         gram[2 * (a * size + b)] = re;
         gram[2 * (a * size + b) + 1] = im;
         gram[2 * (b * size + a)] = re;
@@ -509,12 +511,12 @@ export function addKernelSum(
 }
 
 /**
- * entry ← R[b−a] − Rows[ay, by, bx−ax] − Columns[ax, bx, by−ay]: the part of the Gram entry of
- * windows a and b (wy×wx, row-major) that the whole-torus correlation and the two wrapped bands
- * give (BlockHankel.gram; the corner term is added by the caller). `correlation` holds the
- * (2wy−1)×(2wx−1) lags, `rowBand` wy²×(2wx−1) and `columnBand` wx²×(2wy−1), interleaved complex.
+ * entry += R[b−a] − Rows[ay, by, bx−ax] − Columns[ax, bx, by−ay] (added in that order): the part of
+ * the Gram entry of windows a and b (wy×wx, row-major) that the whole-torus correlation and the
+ * two wrapped bands give (BlockHankel.gram; the corner term is the caller's). `correlation` holds
+ * the (2wy−1)×(2wx−1) lags, `rowBand` wy²×(2wx−1) and `columnBand` wx²×(2wy−1), interleaved complex.
  */
-export function wrapCorrectedEntry(
+export function addWrapCorrectedEntry(
   entry: Float64Array,
   correlation: Float64Array,
   rowBand: Float64Array,
@@ -534,8 +536,8 @@ export function wrapCorrectedEntry(
   const r = 2 * ((dy + wy - 1) * lx + dx + wx - 1);
   const rb = 2 * ((ay * wy + by) * lx + dx + wx - 1);
   const cb = 2 * ((ax * wx + bx) * (2 * wy - 1) + dy + wy - 1);
-  entry[0] = correlation[r] - rowBand[rb] - columnBand[cb];
-  entry[1] = correlation[r + 1] - rowBand[rb + 1] - columnBand[cb + 1];
+  entry[0] = entry[0] + correlation[r] - rowBand[rb] - columnBand[cb];
+  entry[1] = entry[1] + correlation[r + 1] - rowBand[rb + 1] - columnBand[cb + 1];
 }
 
 /** e^(−i2πm/n) for m = 0…n−1, interleaved. */

@@ -2,6 +2,7 @@ import { type FftPlan, fftPlan } from '../core/fft-plan.ts';
 import {
   addCornerCorrelation,
   addKernelSum,
+  addWrapCorrectedEntry,
   bandLags,
   fullBoxOf,
   gatherCorner,
@@ -12,7 +13,6 @@ import {
   twiddles,
   type WrapBand,
   wrapBand,
-  wrapCorrectedEntry,
 } from './block-hankel.ts';
 import { Dft2 } from './uncentred-dft2.ts';
 
@@ -175,7 +175,8 @@ export class StackedBlockHankel {
         this.cornerCorrelation(c, d);
         for (let a = 0; a < n; a++) {
           for (let b = c === d ? a : 0; b < n; b++) {
-            wrapCorrectedEntry(entry, correlation, rowBand, columnBand, a, b, wx, wy);
+            entry.fill(0);
+            addWrapCorrectedEntry(entry, correlation, rowBand, columnBand, a, b, wx, wy);
             const g = 2 * (a * n + b);
             const re = entry[0] + cornerGram[g];
             const im = entry[1] + cornerGram[g + 1];
