@@ -9,6 +9,7 @@ import { buildApp } from '../../src/app.ts';
 import { SeededRandom } from '../../src/core/random.ts';
 import { DataLifecycle } from '../../src/jobs/lifecycle.ts';
 import { Store } from '../../src/jobs/store.ts';
+import { slowPlanBody } from '../plan/small-plan.ts';
 import {
   binary,
   expectDocumented,
@@ -64,17 +65,13 @@ function reconstructionFrom(source: object) {
   };
 }
 
-/** Slow cells, so a test can act while the plan runs. */
+/** Slow cells on the upload, so a test can act while the plan runs. */
 function slowPlanFrom(imageId: string) {
-  return {
+  return slowPlanBody({
     source: { imageId },
     matrix: { nx: side, ny: side },
-    protocol: { trMs: 500 },
-    patterns: [{ pattern: 'cartesian-random', acs: 4 }],
-    accelerations: [2, 3, 4],
     methods: [{ name: 'cs-tv', iterations: 400 }],
-    seeds: 3,
-  };
+  });
 }
 
 async function waitForStatus(t: TestApp, id: string, wanted: string[], key?: string) {

@@ -2,7 +2,7 @@ import { parse as parseCsv } from 'csv-parse/sync';
 import sharp from 'sharp';
 import { describe, expect, it } from 'vitest';
 import { csvColumns } from '../../src/plan/index.ts';
-import { smallPlanBody } from '../plan/small-plan.ts';
+import { slowPlanBody, smallPlanBody } from '../plan/small-plan.ts';
 import {
   binary,
   expectDocumented,
@@ -115,14 +115,7 @@ describe('GET /v1/plans and GET /v1/images: paged lists', () => {
   });
 
   it('filters by status: a cancelled plan is listed under cancelled only', async () => {
-    const slow = {
-      ...oneCellPlan,
-      matrix: { nx: 64, ny: 64 },
-      accelerations: [2, 3, 4],
-      methods: [{ name: 'cs-tv', iterations: 400 }],
-      seeds: 4,
-    };
-    const submitted = await postJson(t, '/v1/plans', slow);
+    const submitted = await postJson(t, '/v1/plans', slowPlanBody());
     expect((await t.http().delete(`/v1/plans/${submitted.body.id}`)).status).toBe(200);
     const cancelled = await allPages(t, '/v1/plans?status=cancelled', 5);
     expect(ids(cancelled)).toEqual([submitted.body.id]);

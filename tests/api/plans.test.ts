@@ -4,7 +4,7 @@ import { describe, expect, it } from 'vitest';
 import { decodeImage } from '../../src/io/decode-image.ts';
 import { runPlan } from '../../src/plan/run-plan.ts';
 import { debianFile } from '../io/debian-files.ts';
-import { smallPlanBody } from '../plan/small-plan.ts';
+import { slowPlanBody, smallPlanBody } from '../plan/small-plan.ts';
 import {
   expectDocumented,
   expectProblem,
@@ -27,14 +27,8 @@ const smallPlan = smallPlanBody({
   methods: [{ name: 'zero-filled' }, { name: 'cs-tv', iterations: 15 }],
 });
 
-/** Slower cells (more iterations, 48²) so a test can act while the plan runs. */
-const slowPlan = {
-  ...smallPlan,
-  matrix: { nx: 48, ny: 48 },
-  accelerations: [2, 3, 4],
-  methods: [{ name: 'cs-tv', iterations: 300 }],
-  seeds: 3,
-};
+/** Slower cells so a test can act while the plan runs (1 pattern × 3 R × 3 seeds + reference = 12 cells). */
+const slowPlan = slowPlanBody();
 
 const sleep = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
 

@@ -18,3 +18,17 @@ export function smallPlanBody(overrides: Record<string, unknown> = {}) {
     ...overrides,
   };
 }
+
+/**
+ * A plan whose cells are slow enough (cs-tv, 300 iterations on 48×48) that a test can act while it
+ * runs: 1 pattern × 3 R × 3 seeds + 3 reference cells = 12 cells. Tests override what they vary.
+ */
+export function slowPlanBody(overrides: Record<string, unknown> = {}) {
+  return smallPlanBody({
+    matrix: { nx: 48, ny: 48 },
+    patterns: [{ pattern: 'cartesian-random', acs: 4 }],
+    methods: [{ name: 'cs-tv', iterations: 300 }],
+    seeds: 3,
+    ...overrides,
+  });
+}
