@@ -1,7 +1,7 @@
 import sharp from 'sharp';
 import { describe, expect, it } from 'vitest';
 import { debianFile } from '../io/debian-files.ts';
-import { binary, expectDocumented, postJson, postProblem, sharedTestApp } from './helpers.ts';
+import { binary, expectDocumented, oneCellPlan, postJson, postProblem, sharedTestApp } from './helpers.ts';
 
 // Lesions in POST /v1/reconstructions (DEVELOPERS.md "Feature fidelity"). Contrast recovery is
 // Re⟨r, t⟩/⟨t, t⟩ with t the lesion's own fully sampled noiseless response, so full sampling gives 1
@@ -172,15 +172,7 @@ describe('POST /v1/reconstructions with lesions', () => {
   });
 
   it('plans: a task-score target without lesions is a 422 on targets[0].metric; lesions that do not fit, on lesions.count', async () => {
-    const plan = {
-      source: base.source,
-      matrix: base.matrix,
-      protocol: { trMs: 500 },
-      patterns: [{ pattern: 'cartesian-uniform' }],
-      accelerations: [2],
-      methods: [{ name: 'zero-filled' }],
-      seeds: 1,
-    };
+    const plan = { ...oneCellPlan, source: base.source, matrix: base.matrix };
     await postProblem(
       t,
       '/v1/plans',

@@ -100,6 +100,11 @@ export interface PlannerSession {
   fillSampling: (controls: SamplingControls, on?: Page) => Promise<void>;
   /** Fills the plan controls of `on` (the session's page unless given). */
   fillPlan: (controls: PlanControls, on?: Page) => Promise<void>;
+  /**
+   * Waits until `on` (the session's page unless given) re-enables "Run plan": the plan ended (done,
+   * failed or cancelled) or was refused. `timeoutMs` as playwright's (its default when undefined).
+   */
+  planEnded: (timeoutMs?: number, on?: Page) => Promise<void>;
   /** Closes the browser and the services and removes their data folders. */
   close: () => Promise<void>;
 }
@@ -175,6 +180,7 @@ export async function openPlannerSession(options: PlannerSessionOptions): Promis
       },
       fillSampling: (controls, on = browser.page) => fillSampling(on, controls),
       fillPlan: (controls, on = browser.page) => fillPlan(on, controls),
+      planEnded: (timeoutMs, on = browser.page) => planEnded(on, timeoutMs),
       close: async () => {
         await browser.close();
         await closeServices();
@@ -241,6 +247,14 @@ export interface PlanControls {
   seeds: number;
   patterns: string[];
   methods: string[];
+}
+
+async function planEnded(page: Page, timeoutMs: number | undefined): Promise<void> {
+  await page.waitForFunction(
+    () => !(document.querySelector('#planButton') as HTMLButtonElement).disabled,
+    undefined,
+    timeoutMs === undefined ? {} : { timeout: timeoutMs },
+  );
 }
 
 async function fillPlan(page: Page, controls: PlanControls): Promise<void> {

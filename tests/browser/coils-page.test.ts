@@ -161,9 +161,7 @@ describe('receive arrays on the planner page', () => {
     expect(body.targets).toEqual([{ metric: 'gFactorMax', atMost: 1.5 }]);
     expect(response.status()).toBe(202);
     const { id } = await response.json();
-    await page.waitForFunction(() => !(document.querySelector('#planButton') as HTMLButtonElement).disabled, {
-      timeout: 60_000,
-    });
+    await session.planEnded(60_000);
     const plan = await (await fetch(`${session.baseUrl}/v1/plans/${id}`)).json();
     if (plan.status === 'done') {
       // One row per array and cell, and the reference: the Coils column is a key column here.

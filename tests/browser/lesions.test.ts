@@ -115,13 +115,7 @@ describe('lesions on the planner page', () => {
     const sent = (await session.clickForApi('#planButton', '/v1/plans')).request().postDataJSON();
     expect(sent.lesions).toMatchObject({ count: 4, diameter: 3, contrast: 0.3 });
     expect(sent.targets).toEqual([{ metric: 'contrastRecovery', atLeast: 0.3 }]);
-    await page.waitForFunction(
-      () => !(document.querySelector('#planButton') as HTMLButtonElement).disabled,
-      undefined,
-      {
-        timeout: 60_000,
-      },
-    );
+    await session.planEnded(60_000);
     expect(await page.locator('#planStatus').textContent()).toContain('done');
     const headers = await page.$$eval('#planTable thead th', (ths) =>
       ths.map((th) => ({

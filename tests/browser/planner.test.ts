@@ -80,15 +80,6 @@ async function submitPlan(): Promise<string> {
   return id;
 }
 
-/** Waits until the page re-enables "Run plan": the plan ended (done, failed or cancelled) or was refused. */
-async function planEnded(timeout?: number): Promise<void> {
-  await page.waitForFunction(
-    () => !(document.querySelector('#planButton') as HTMLButtonElement).disabled,
-    undefined,
-    timeout === undefined ? {} : { timeout },
-  );
-}
-
 /**
  * Runs a plan of R 2 and 4, one seed, zero-filled and CS-TV over the given patterns with an SSIM
  * target of 0.5, waits until it is done and returns its id.
@@ -98,7 +89,7 @@ async function runPlanToDone(patterns: string[]): Promise<string> {
   await page.selectOption('#targetMetric', 'ssim');
   await page.fill('#targetValue', '0.5');
   const id = await submitPlan();
-  await planEnded(45_000);
+  await session.planEnded(45_000);
   expect(await page.locator('#planStatus').textContent()).toContain('done');
   return id;
 }
@@ -831,7 +822,7 @@ describe('planner page in Chromium', () => {
     });
     const id = await submitPlan();
     expect((await session.clickForApi('#cancelButton', `/v1/plans/${id}`, 'DELETE')).status()).toBe(200);
-    await planEnded();
+    await session.planEnded();
     const plan = (await (await api(`/v1/plans/${id}`)).json()) as {
       status: string;
       progress: { done: number; total: number };
@@ -880,13 +871,7 @@ describe('planner page in Chromium', () => {
       keyed,
     );
     await keyed.click('#planButton');
-    await keyed.waitForFunction(
-      () => !(document.querySelector('#planButton') as HTMLButtonElement).disabled,
-      undefined,
-      {
-        timeout: 30_000,
-      },
-    );
+    await session.planEnded(30_000, keyed);
     expect(await keyed.locator('#planStatus').textContent()).toContain('done');
     expect(await keyed.locator('#planTable tbody tr[data-row]').count()).toBe(2);
     expect(keyedRequests.some((url) => url.includes('/events'))).toBe(false);
