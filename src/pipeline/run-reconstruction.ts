@@ -69,7 +69,7 @@ import {
   phaseSchema,
 } from './coil-request.ts';
 import { type FidelityOutcome, runLesionFidelity } from './lesion-run.ts';
-import { rawAcquisition } from './raw-acquisition.ts';
+import { rawAcquisition, rawCoilInput } from './raw-acquisition.ts';
 import { resampleBilinear } from './resample.ts';
 import { runVolumeReconstruction, type VolumeOutcome } from './volume-reconstruction.ts';
 
@@ -529,13 +529,7 @@ export async function runReconstruction(
   }
   if (raw) {
     const acquired = rawAcquisition(raw, req, sampled, noiseSeed, notes);
-    knownZeroFilled = zeroFilledCoilCombination(acquired.coils);
-    input = {
-      kspace: fft2c(knownZeroFilled),
-      mask: sampled.mask,
-      density: sampled.density,
-      coils: acquired.coils,
-    };
+    ({ input, zeroFilled: knownZeroFilled } = rawCoilInput(acquired.coils.kspace, sampled));
     referenceImage = acquired.reference;
     objectMask = acquired.objectMask;
     // Prewhitened scan noise has unit variance per complex sample; the added noise 2σ² on top.
