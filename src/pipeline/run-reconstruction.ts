@@ -92,7 +92,8 @@ export const sourceSchema = z.union([
       .min(1)
       .max(200)
       .describe(
-        'id of imported raw k-space (POST /v1/raw): its fully sampled coil k-space is the data; the matrix must be its own',
+        'id of imported raw k-space (POST /v1/raw): its fully sampled coil k-space is the data; the matrix must be ' +
+          'its own (a 3D acquisition: matrix.nz its partitions, a volume acquired in 3D)',
       ),
   }),
 ]);
