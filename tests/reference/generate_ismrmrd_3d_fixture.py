@@ -26,17 +26,22 @@ Writes
     sqrt(Σ_c |ifftnc(k_c)|²) (z, y, x order, x fastest), the noise covariance (numpy.cov) and the
     RSS volume of the coil volumes prewhitened with it (L⁻¹, Ψ = L·Lᴴ, numpy's Cholesky).
 Run: /usr/bin/python3 tests/reference/generate_ismrmrd_3d_fixture.py
+Bench size (tests/bench/raw-3d.bench.ts; the full file only, no reference values):
+     /usr/bin/python3 tests/reference/generate_ismrmrd_3d_fixture.py --bench OUT COILS NX NY NZ
 """
 import json
 import os
+import sys
 
 import h5py
 import numpy as np
 
 NOISE_BIT = 1 << 18  # ACQ_IS_NOISE_MEASUREMENT = 19 in ismrmrd.h (bits numbered from 1)
-COILS = 4
+BENCH = len(sys.argv) == 7 and sys.argv[1] == "--bench"
+COILS = int(sys.argv[3]) if BENCH else 4
 OVERSAMPLING = 2
-NX, NY, NZ = 16, 16, 12  # reconstructed matrix (readout x after oversampling removal)
+# Reconstructed matrix (readout x after oversampling removal).
+NX, NY, NZ = (int(v) for v in sys.argv[4:7]) if BENCH else (16, 16, 12)
 SAMPLES = OVERSAMPLING * NX
 FOV_MM = (192.0, 192.0, 144.0)  # reconstructed field of view x, y, z
 NOISE_RECORDS = 4
@@ -71,7 +76,9 @@ for (cx, cy, cz), (ax, ay, az), value in [
 ]:
     scene += value * ((((x - cx) / ax) ** 2 + ((y - cy) / ay) ** 2 + ((z - cz) / az) ** 2) <= 1)
 
-centres = [(-0.9, -0.9, 0.0), (0.9, -0.9, 0.3), (-0.9, 0.9, -0.3), (0.9, 0.9, 0.0)]
+# Coil centres on a ring around the object (x, y), alternately above and below the centre in z.
+angles = 2 * np.pi * (np.arange(COILS) + 0.5) / COILS
+centres = [(1.27 * np.cos(a), 1.27 * np.sin(a), 0.3 * (-1) ** c) for c, a in enumerate(angles)]
 maps = np.stack(
     [
         np.exp(-((x - cx) ** 2 + (y - cy) ** 2 + (z - cz) ** 2) / 1.5)
@@ -82,8 +89,8 @@ maps = np.stack(
 kspace = centred(np.fft.fftn, maps * scene, axes=(1, 2, 3))
 
 # Receiver noise correlated across coils: n = A·w, w white complex, so Ψ ∝ A·Aᴴ.
-mixing = np.array(
-    [[1.0, 0, 0, 0], [0.3, 0.9, 0, 0], [0.1 + 0.2j, 0.2, 1.1, 0], [0, 0.1j, 0.25, 0.8]], dtype=np.complex128
+mixing = np.eye(COILS) + 0.25 * np.tril(
+    rng.standard_normal((COILS, COILS)) + 1j * rng.standard_normal((COILS, COILS)), -1
 )
 
 
@@ -169,6 +176,11 @@ def write(name, records):
         g.create_dataset("dataset/data", data=np.concatenate(records), dtype=record_dtype)
 
 
+if BENCH:
+    with h5py.File(sys.argv[2], "w") as g:
+        g.create_dataset("dataset/xml", data=[XML.encode()], dtype=h5py.string_dtype())
+        g.create_dataset("dataset/data", data=np.concatenate(noise_records + [r for _, r in imaging]))
+    sys.exit(0)
 write("volume-3d-4coil.h5", noise_records + [r for _, r in imaging])
 write("volume-3d-missing.h5", noise_records + [r for key, r in imaging if key != MISSING])
 
