@@ -10,7 +10,7 @@ import {
   raw3dMissingFileName,
   raw3dReference as reference,
 } from '../io/ismrmrd/raw-3d-fixture.ts';
-import { binary, expectDocumented, expectProblem, sharedTestApp } from './helpers.ts';
+import { binary, expectDocumented, expectProblem, finishedPlanBody, sharedTestApp } from './helpers.ts';
 
 // The 3D file of tests/reference/generate_ismrmrd_3d_fixture.py (h5py: 4 coils, 2× readout
 // oversampling, 16 × 16 × 12, noise scans, invented identifiers). Two worker threads, so the
@@ -25,7 +25,6 @@ const volumeRequest = (rawId: string, extra: Record<string, unknown> = {}) => ({
   method: { name: 'zero-filled' },
   ...extra,
 });
-const sleep = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
 
 describe('3D raw data over HTTP', () => {
   it('imports the 3D file with the coils, matrix, partitions and samples of its header (documented)', async () => {
@@ -148,11 +147,7 @@ describe('3D raw data over HTTP', () => {
     // A 3D plan runs, and its cell is the single reconstruction of the same pattern and seed.
     const submitted = await t.http().post('/v1/plans').send(plan);
     expect(submitted.status).toBe(202);
-    let body = submitted.body;
-    for (let i = 0; i < 2400 && !['done', 'failed', 'cancelled'].includes(body.status); i++) {
-      await sleep(25);
-      body = (await t.http().get(`/v1/plans/${submitted.body.id}`)).body;
-    }
+    const body = await finishedPlanBody(t, submitted.body.id);
     expect(body.status).toBe('done');
     const cell = body.table.rows.find((row: { reference: boolean }) => !row.reference);
     expect(cell.acquisition).toBe('3d');

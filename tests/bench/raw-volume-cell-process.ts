@@ -8,7 +8,8 @@
 import { readFileSync } from 'node:fs';
 import { defaultLimits } from '../../src/core/limits.ts';
 import { importRawKspace } from '../../src/io/ismrmrd/import-raw-kspace.ts';
-import { planCells, runCell, validatePlan } from '../../src/plan/index.ts';
+import { planCells, validatePlan } from '../../src/plan/index.ts';
+import { timedCellRuns } from './cell-runs.ts';
 
 const [path, methodJson, runsText] = process.argv.slice(2);
 const method = JSON.parse(methodJson ?? '{"name":"zero-filled"}');
@@ -33,15 +34,5 @@ const plan = validatePlan(
 );
 const cell = planCells(plan).find((c) => !c.reference);
 if (!cell) throw new Error('no 3D cell');
-const ctx = { loadRaw: async () => raw };
-const wallMs: number[] = [];
-let nrmse = 0;
-for (let i = 0; i < runs; i++) {
-  const started = performance.now();
-  const result = await runCell(plan, cell, ctx);
-  wallMs.push(performance.now() - started);
-  nrmse = result.metrics.nrmse ?? Number.NaN;
-}
-// maxRSS is in KiB (Node's process.resourceUsage).
-const peakRssMiB = process.resourceUsage().maxRSS / 1024;
+const { wallMs, peakRssMiB, nrmse } = await timedCellRuns(plan, cell, { loadRaw: async () => raw }, runs);
 console.log(JSON.stringify({ importMs, wallMs, baselineRssMiB, peakRssMiB, nrmse }));

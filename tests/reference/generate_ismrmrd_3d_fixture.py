@@ -29,12 +29,14 @@ Run: /usr/bin/python3 tests/reference/generate_ismrmrd_3d_fixture.py
 Bench size (tests/bench/raw-3d.bench.ts; the full file only, no reference values):
      /usr/bin/python3 tests/reference/generate_ismrmrd_3d_fixture.py --bench OUT COILS NX NY NZ
 """
-import json
 import os
 import sys
 
 import h5py
 import numpy as np
+
+from coil_rss import prewhitened_rss, rss
+from fixture_io import interleave, write as write_fixture
 
 NOISE_BIT = 1 << 18  # ACQ_IS_NOISE_MEASUREMENT = 19 in ismrmrd.h (bits numbered from 1)
 BENCH = len(sys.argv) == 7 and sys.argv[1] == "--bench"
@@ -190,18 +192,11 @@ kept = SAMPLES // OVERSAMPLING
 first = SAMPLES // 2 - kept // 2
 profile = centred(np.fft.ifftn, samples, axes=(3,))[..., first : first + kept]
 volume = centred(np.fft.ifftn, profile, axes=(1, 2))
-rss = np.sqrt(np.sum(np.abs(volume) ** 2, axis=0))
 noise = np.concatenate([n.astype(np.complex128) for n in noise_scans], axis=1)
-cov = np.cov(noise)
-lower = np.linalg.cholesky(cov)
-whitened = np.tensordot(np.linalg.inv(lower), volume, axes=(1, 0))
-rss_whitened = np.sqrt(np.sum(np.abs(whitened) ** 2, axis=0))
+cov, rss_whitened = prewhitened_rss(volume, noise)
 
 result = {
-    "source": "tests/reference/generate_ismrmrd_3d_fixture.py with h5py "
-    + h5py.__version__
-    + ", numpy "
-    + np.__version__,
+    "source": f"tests/reference/generate_ismrmrd_3d_fixture.py with h5py {h5py.__version__}, numpy {np.__version__}",
     "coils": COILS,
     "readoutSamples": SAMPLES,
     "readoutOversampling": OVERSAMPLING,
@@ -213,12 +208,9 @@ result = {
     "ny": NY,
     "nz": NZ,
     "identifiers": ["Marrowind", "INV-3D-0917", "1970-01-01", "STUDY-BRACKENFORD-3D", "Brackenford", "Fernholt"],
-    "rss": [float(v) for v in rss.ravel()],
+    "rss": rss(volume).ravel().tolist(),
     "noiseSamples": int(noise.shape[1]),
-    "noiseCovariance": [float(v) for z in cov.ravel() for v in (z.real, z.imag)],
-    "rssWhitened": [float(v) for v in rss_whitened.ravel()],
+    "noiseCovariance": interleave(cov).tolist(),
+    "rssWhitened": rss_whitened.ravel().tolist(),
 }
-with open(os.path.join(here, "fixtures", "ismrmrd-3d-rss.json"), "w") as out:
-    json.dump(result, out, indent=None, separators=(",", ":"))
-    out.write("\n")
-print("wrote volume-3d-4coil.h5, volume-3d-missing.h5, ismrmrd-3d-rss.json")
+write_fixture("ismrmrd-3d-rss.json", result)
