@@ -3,7 +3,8 @@
 Debian's ismrmrd-tools 1.8 generator (ismrmrd_generate_cartesian_shepp_logan, used for the 2D
 fixtures by generate_ismrmrd_fixture.sh) writes 2D acquisitions only: it has no option for a second
 phase-encode axis. This script therefore writes the 3D file itself, following the standard:
-  - the XML header after Debian's ismrmrd-schema 1.8 (/usr/share/ismrmrd/schema/ismrmrd.xsd):
+  - the XML header after Debian's ismrmrd-schema 1.8 (/usr/share/ismrmrd/schema/ismrmrd.xsd; the
+    script validates it against that schema with python3-lxml before writing):
     encodedSpace/matrixSize z > 1, encodingLimits kspace_encoding_step_1 and _2 with their centres,
     trajectory cartesian; plus invented subjectInformation and studyInformation, which the importer
     must drop;
@@ -34,6 +35,7 @@ import sys
 
 import h5py
 import numpy as np
+from lxml import etree
 
 from coil_rss import prewhitened_rss, rss
 from fixture_io import interleave, write as write_fixture
@@ -170,6 +172,11 @@ XML = f"""<?xml version="1.0"?>
   </encoding>
 </ismrmrdHeader>
 """
+
+
+# The header must follow the standard's schema (Debian ismrmrd-schema 1.8), checked with python3-lxml.
+SCHEMA = "/usr/share/ismrmrd/schema/ismrmrd.xsd"
+etree.XMLSchema(etree.parse(SCHEMA)).assertValid(etree.fromstring(XML.encode()))
 
 
 def write(name, records):
