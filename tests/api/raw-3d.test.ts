@@ -102,6 +102,11 @@ describe('3D raw data over HTTP', () => {
       samples: { dims: [reference.nx, reference.ny, reference.nz, reference.coils] },
       noise: { prewhitened: true },
     });
+    // Prewhitened scan noise (unit variance per complex sample) plus the added 2σ², σ from the note.
+    const note = (res.body.notes as string[]).find((n) => n.includes('σ ='));
+    const sigma = Number(note?.match(/σ = ([\d.e+-]+)/)?.[1]);
+    expect(sigma).toBeGreaterThan(0);
+    expect(Math.abs((header.noise.variancePerSample - 1) / (2 * sigma ** 2) - 1)).toBeLessThan(1.5e-3);
     const folder = mkdtempSync(join(tmpdir(), 'kspace-raw-3d-acquisition-'));
     for (const name of ['acquisition.nii', 'acquisition.json', 'images.nii']) {
       const file = await t.http().get(`/v1/results/${res.body.id}/${name}`).buffer(true).parse(binary);
@@ -130,6 +135,17 @@ describe('3D raw data over HTTP', () => {
     );
     expect(slices.errors[0].message).toMatch(/3D acquisition/);
     expectProblem(await send(volumeRequest(id, { matrix: { nx: 16, ny: 16 } })), 422, 'matrix');
+    // 2D raw data (the ismrmrd-tools file, 64×64) are no volume source: 422 naming matrix.
+    const flat = await t
+      .http()
+      .post('/v1/raw')
+      .attach(
+        'file',
+        readFileSync(new URL('../fixtures/ismrmrd/shepp-logan-4coil.h5', import.meta.url)),
+        'a.h5',
+      );
+    const flatVolume = volumeRequest(flat.body.id, { matrix: { nx: 64, ny: 64, nz: 12 } });
+    expect(expectProblem(await send(flatVolume), 422, 'matrix').errors[0].allowed).toBe('{ nx: 64, ny: 64 }');
     const plan = {
       source: { rawId: id },
       matrix,
