@@ -85,6 +85,11 @@ describe('3D raw data over HTTP', () => {
       expect(files.some((file) => file.includes(word))).toBe(false);
       expect(logs).not.toContain(word);
     }
+    // Deleting the data deletes the volume result made from it, as for 2D raw data.
+    expect(t.app.services.store.inputsOf('result', res.body.id)).toEqual([{ kind: 'raw', id }]);
+    expect((await t.http().delete(`/v1/raw/${id}`)).status).toBe(204);
+    expect(t.app.services.store.getRawKspace(id)).toBeUndefined();
+    expect(t.app.services.store.getResult(res.body.id)).toBeUndefined();
   });
 
   it("images.nii and the 4-coil acquisition export: numpy's zero-filled RSS volume is the service's", async () => {
