@@ -78,6 +78,15 @@ export function rawDataNote(raw: RawKspace): string {
   );
 }
 
+/**
+ * The noise the method sees in raw data: prewhitened scan noise has unit variance per complex
+ * sample, the added noise 2σ² on top; without noise scans the data's own noise is unknown (null).
+ */
+export function rawNoise(raw: RawKspace, sigma: number): { prewhitened: boolean; variance: number | null } {
+  const prewhitened = raw.noiseCovariance !== null;
+  return { prewhitened, variance: prewhitened ? 1 + 2 * sigma ** 2 : null };
+}
+
 /** Root-sum-of-squares of the fully sampled coil images (no maps are known for raw data). */
 export function rawReference(full: MultiCoilKspace): ComplexImage {
   return combineCoilImages(coilImages(full)).image;

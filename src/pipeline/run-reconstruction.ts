@@ -69,7 +69,7 @@ import {
   phaseSchema,
 } from './coil-request.ts';
 import { type FidelityOutcome, runLesionFidelity } from './lesion-run.ts';
-import { rawAcquisition, rawCoilInput } from './raw-acquisition.ts';
+import { rawAcquisition, rawCoilInput, rawNoise } from './raw-acquisition.ts';
 import { resampleBilinear } from './resample.ts';
 import { runVolumeReconstruction, type VolumeOutcome } from './volume-reconstruction.ts';
 
@@ -533,9 +533,7 @@ export async function runReconstruction(
     ({ input, zeroFilled: knownZeroFilled } = rawCoilInput(acquired.coils.kspace, sampled));
     referenceImage = acquired.reference;
     objectMask = acquired.objectMask;
-    // Prewhitened scan noise has unit variance per complex sample; the added noise 2σ² on top.
-    const prewhitened = raw.noiseCovariance !== null;
-    noise = { prewhitened, variance: prewhitened ? 1 + 2 * acquired.sigma ** 2 : null };
+    noise = rawNoise(raw, acquired.sigma);
   } else if (simulation && sampled.trajectory) {
     const acquired = trajectoryCoilInput(simulation, sampled, req.noise, noiseSeed, notes);
     coilSigma = acquired.coilSigma;

@@ -17,7 +17,7 @@ import type { VolumeAcquisitionMode } from '../volume/volume-schema.ts';
 import { type SliceScores, scoreVolume, volumeScores } from '../volume/volume-scores.ts';
 import { nonCartesianVolume, unsupportedVolumePieces } from '../volume/volume-support.ts';
 import type { AcquiredData } from './acquired-data.ts';
-import { checkRawMatrixSides, rawDataNote } from './raw-acquisition.ts';
+import { checkRawMatrixSides, rawDataNote, rawNoise } from './raw-acquisition.ts';
 import { acquireRawVolume } from './raw-volume.ts';
 import type { PipelineContext, ReconstructionOutcome, ReconstructionRequest } from './run-reconstruction.ts';
 
@@ -192,9 +192,6 @@ export async function prepareVolume(
       `complex Gaussian noise, σ = ${stack.sigma.toPrecision(4)} per real channel${raw ? ' in every coil' : ''}`,
     );
   }
-  // Raw data: prewhitened scan noise has unit variance per complex sample, the added noise 2σ² on top.
-  const prewhitened = raw !== undefined && raw.noiseCovariance !== null;
-  const variance = raw ? (prewhitened ? 1 + 2 * stack.sigma ** 2 : null) : 2 * stack.sigma ** 2;
   notes.push(
     acquisition === '3d'
       ? `3D: readout x transformed exactly, ${nx} hybrid-space x-planes (ky × kz = ${ny}×${nz}) reconstructed`
@@ -218,8 +215,11 @@ export async function prepareVolume(
       coils: raw?.kspace.coils ?? 1,
       samples: stack.samples,
       mask: sampled.mask.slice(),
-      // σ per real channel: E|n|² = 2σ² per complex k-space sample.
-      noise: { prewhitened, variance, seed: noiseSeed },
+      // σ per real channel: E|n|² = 2σ² per complex k-space sample (raw data: on top of their own).
+      noise: {
+        ...(raw ? rawNoise(raw, stack.sigma) : { prewhitened: false, variance: 2 * stack.sigma ** 2 }),
+        seed: noiseSeed,
+      },
       volume: { nz, acquisition },
     },
   };
