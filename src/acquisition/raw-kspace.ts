@@ -2,9 +2,15 @@ import { CoilNoise } from '../coils/index.ts';
 import { SeededRandom } from '../core/random.ts';
 import type { MultiCoilKspace } from '../encoding/index.ts';
 
-/** An imported raw acquisition (POST /v1/raw): fully sampled coil k-space and, when measured, Ψ. */
+/**
+ * An imported raw acquisition (POST /v1/raw): fully sampled coil k-space and, when measured, Ψ.
+ * A 3D acquisition (nz > 1) keeps nz partitions per coil in `kspace.data`, coil-major, then
+ * partition, row, column (2·coils·nz·ny·nx numbers); the 2D pieces below refuse it (rawAcquisition).
+ */
 export interface RawKspace {
   kspace: MultiCoilKspace;
+  /** Partitions (kz) of a 3D acquisition; absent or 1: one 2D slice. */
+  nz?: number;
   /** Noise covariance across coils from the file's noise scans (interleaved complex C×C), or null. */
   noiseCovariance: Float64Array | null;
 }
@@ -17,7 +23,9 @@ export interface RawKspace {
 export function whitenedRawKspace(raw: RawKspace): MultiCoilKspace {
   const { kspace, noiseCovariance } = raw;
   const out = { ...kspace, data: kspace.data.slice() };
-  if (noiseCovariance) new CoilNoise(noiseCovariance, kspace.coils, 'source.rawId').prewhiten(out);
+  // Prewhitening mixes coils sample by sample: a volume's partitions are rows of a taller plane.
+  const planes = { ...out, ny: out.ny * (raw.nz ?? 1) };
+  if (noiseCovariance) new CoilNoise(noiseCovariance, kspace.coils, 'source.rawId').prewhiten(planes);
   return out;
 }
 

@@ -54,8 +54,8 @@ export function matrixSchemaFor(
     )
       .optional()
       .describe(
-        'slices of a volume source (uploaded with slices=all): in 3D the second phase-encode axis kz; ' +
-          'absent or 1: 2D',
+        'slices of a volume source (uploaded with slices=all, or the partitions of 3D raw data): in 3D ' +
+          'the second phase-encode axis kz; absent or 1: 2D',
       );
     const object = volumes ? z.strictObject({ ...sides, nz: depth }) : z.strictObject(sides);
     schema = object

@@ -1,6 +1,7 @@
 import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import Database from 'better-sqlite3';
+import type { RawKspace } from '../acquisition/index.ts';
 import { boundEcho, boundFieldProblems, MAX_DETAIL_CHARS } from '../core/echo-bound.ts';
 import type { FieldProblem } from '../core/errors.ts';
 import type { RealImage } from '../core/real-image.ts';
@@ -185,6 +186,8 @@ const addedColumns: Array<{ table: string; column: string; type: string }> = [
   { table: 'images', column: 'volume', type: 'BLOB' },
   // A volume result keeps its images as whole volumes (nz slices; NULL: one plane).
   { table: 'result_arrays', column: 'nz', type: 'INTEGER' },
+  // Raw k-space of a 3D acquisition keeps nz partitions per coil (NULL: one 2D slice).
+  { table: 'raw_kspace', column: 'nz', type: 'INTEGER' },
 ];
 
 interface InputKindSpec {
@@ -455,10 +458,11 @@ export class Store {
   /**
    * Stores the fully sampled coil k-space as float32 (ISMRMRD carries float32 samples; the readout
    * crop in float64 is rounded back once) and the noise covariance as float64, both host byte order.
+   * A 3D acquisition keeps its nz partitions per coil (RawKspace); nz is NULL for a 2D slice.
    */
   putRawKspace(
     id: string,
-    raw: { kspace: MultiCoilKspace; noiseCovariance: Float64Array | null },
+    raw: { kspace: MultiCoilKspace; noiseCovariance: Float64Array | null; nz?: number },
     meta: Record<string, unknown>,
     owner: string | null = null,
   ): StoredRawKspace {
@@ -468,10 +472,21 @@ export class Store {
     const noise = noiseCovariance ? Buffer.from(Float64Array.from(noiseCovariance).buffer) : null;
     this.db
       .prepare(
-        `INSERT INTO raw_kspace (id, created_at, owner, meta, nx, ny, coils, kspace, noise_covariance)
-         VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+        `INSERT INTO raw_kspace (id, created_at, owner, meta, nx, ny, nz, coils, kspace, noise_covariance)
+         VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
       )
-      .run(id, createdAt, owner, JSON.stringify(meta), kspace.nx, kspace.ny, kspace.coils, samples, noise);
+      .run(
+        id,
+        createdAt,
+        owner,
+        JSON.stringify(meta),
+        kspace.nx,
+        kspace.ny,
+        (raw.nz ?? 1) > 1 ? raw.nz : null,
+        kspace.coils,
+        samples,
+        noise,
+      );
     return { id, createdAt, meta, nx: kspace.nx, ny: kspace.ny, coils: kspace.coils };
   }
 
@@ -479,24 +494,23 @@ export class Store {
     return this.coilInputInfo('raw_kspace', id, scope);
   }
 
-  getRawKspace(
-    id: string,
-    scope: Scope = 'all',
-  ): { kspace: MultiCoilKspace; noiseCovariance: Float64Array | null } | undefined {
+  getRawKspace(id: string, scope: Scope = 'all'): RawKspace | undefined {
     const row = this.visibleRow<{
       nx: number;
       ny: number;
+      nz: number | null;
       coils: number;
       kspace: Buffer;
       noise_covariance: Buffer | null;
-    }>('raw_kspace', 'nx, ny, coils, kspace, noise_covariance', id, scope);
+    }>('raw_kspace', 'nx, ny, nz, coils, kspace, noise_covariance', id, scope);
     if (!row) return undefined;
-    const samples = alignedCopy(row.kspace, new Float32Array(2 * row.coils * row.nx * row.ny));
+    const nz = row.nz ?? 1;
+    const samples = alignedCopy(row.kspace, new Float32Array(2 * row.coils * nz * row.nx * row.ny));
     const noiseCovariance = row.noise_covariance
       ? alignedCopy(row.noise_covariance, new Float64Array(2 * row.coils * row.coils))
       : null;
     const kspace = { coils: row.coils, nx: row.nx, ny: row.ny, data: Float64Array.from(samples) };
-    return { kspace, noiseCovariance };
+    return { kspace, noiseCovariance, ...(nz > 1 ? { nz } : {}) };
   }
 
   // --- single results (reconstructions, masks) ---------------------------------------------

@@ -50,6 +50,15 @@ export interface TaskInputs {
   limits: Limits;
 }
 
+/** A volume request with its source: an uploaded volume (image) or the raw data of a 3D acquisition. */
+export interface VolumeTaskInputs {
+  request: ReconstructionRequest;
+  seed?: number;
+  image?: UploadedPixels;
+  raw?: UploadedRawKspace;
+  limits: Limits;
+}
+
 /**
  * Every task a worker thread runs: its input (typed values the HTTP edge or the plan schema already
  * validated; plain, structured-clonable data) and its output. The worker trusts its inputs and does
@@ -78,7 +87,7 @@ export interface TaskMap {
   };
   /** A volume reconstruction in three steps, its planes spread over the pool (src/services/volume-runs.ts). */
   'volume-prepare': {
-    input: { request: ReconstructionRequest; seed?: number; image: UploadedPixels; limits: Limits };
+    input: VolumeTaskInputs;
     output: PreparedVolume;
   };
   'volume-planes': { input: { batch: PlaneBatch; limits: Limits }; output: PlaneReconstructions };

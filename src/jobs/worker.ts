@@ -113,10 +113,11 @@ const handlers: { [K in TaskKind]: (input: TaskInput<K>) => Promise<TaskOutput<K
     const outcome = await runReconstruction(input.request, input.seed, inputContext(input));
     return scored(outcome);
   },
-  async 'volume-prepare'({ request, seed, image, limits }) {
+  async 'volume-prepare'({ request, seed, image, raw, limits }) {
     const { prepareVolume } = await import('../pipeline/volume-reconstruction.ts');
     const { noiseSeedFor } = await import('../pipeline/run-reconstruction.ts');
-    return prepareVolume(request, seed, { loadVolume: volumeLoader(image), limits }, noiseSeedFor);
+    const ctx = { loadVolume: volumeLoader(image), loadRaw: rawLoader(raw), limits };
+    return prepareVolume(request, seed, ctx, noiseSeedFor);
   },
   async 'volume-planes'({ batch, limits }) {
     const { reconstructPlanes } = await import('../volume/plane-reconstruction.ts');

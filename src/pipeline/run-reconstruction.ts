@@ -70,7 +70,7 @@ import {
 } from './coil-request.ts';
 import { loadFromContext } from './context-loader.ts';
 import { type FidelityOutcome, runLesionFidelity } from './lesion-run.ts';
-import { rawAcquisition } from './raw-acquisition.ts';
+import { rawAcquisition, rawCoilInput, rawNoise } from './raw-acquisition.ts';
 import { resampleBilinear } from './resample.ts';
 import { runVolumeReconstruction, type VolumeOutcome } from './volume-reconstruction.ts';
 
@@ -93,7 +93,8 @@ export const sourceSchema = z.union([
       .min(1)
       .max(200)
       .describe(
-        'id of imported raw k-space (POST /v1/raw): its fully sampled coil k-space is the data; the matrix must be its own',
+        'id of imported raw k-space (POST /v1/raw): its fully sampled coil k-space is the data; the matrix must be ' +
+          'its own (a 3D acquisition: matrix.nz its partitions, a volume acquired in 3D)',
       ),
   }),
 ]);
@@ -527,18 +528,10 @@ export async function runReconstruction(
   }
   if (raw) {
     const acquired = rawAcquisition(raw, req, sampled, noiseSeed, notes);
-    knownZeroFilled = zeroFilledCoilCombination(acquired.coils);
-    input = {
-      kspace: fft2c(knownZeroFilled),
-      mask: sampled.mask,
-      density: sampled.density,
-      coils: acquired.coils,
-    };
+    ({ input, zeroFilled: knownZeroFilled } = rawCoilInput(acquired.coils.kspace, sampled));
     referenceImage = acquired.reference;
     objectMask = acquired.objectMask;
-    // Prewhitened scan noise has unit variance per complex sample; the added noise 2σ² on top.
-    const prewhitened = raw.noiseCovariance !== null;
-    noise = { prewhitened, variance: prewhitened ? 1 + 2 * acquired.sigma ** 2 : null };
+    noise = rawNoise(raw, acquired.sigma);
   } else if (simulation && sampled.trajectory) {
     const acquired = trajectoryCoilInput(simulation, sampled, req.noise, noiseSeed, notes);
     coilSigma = acquired.coilSigma;

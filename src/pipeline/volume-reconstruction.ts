@@ -1,4 +1,5 @@
 import { resolveSampling, type SampledMask, type SamplingSpec } from '../../sampling/index.ts';
+import type { RawKspace } from '../acquisition/index.ts';
 import { ValidationError } from '../core/errors.ts';
 import { defaultLimits } from '../core/limits.ts';
 import type { RealImage } from '../core/real-image.ts';
@@ -17,6 +18,8 @@ import { type SliceScores, scoreVolume, volumeScores } from '../volume/volume-sc
 import { nonCartesianVolume, unsupportedVolumePieces } from '../volume/volume-support.ts';
 import type { AcquiredData } from './acquired-data.ts';
 import { loadFromContext } from './context-loader.ts';
+import { checkRawMatrixSides, rawDataNote, rawNoise } from './raw-acquisition.ts';
+import { acquireRawVolume } from './raw-volume.ts';
 import type { PipelineContext, ReconstructionOutcome, ReconstructionRequest } from './run-reconstruction.ts';
 
 /** What a volume adds to a reconstruction outcome (docs/design.md §2.5). */
@@ -95,10 +98,59 @@ function centralSlice(volume: RealVolume): RealImage {
   return volumeSlice(volume, Math.floor(volume.nz / 2));
 }
 
+/** The raw data a volume request names: a 3D acquisition of the request's matrix, acquired in 3D. */
+async function rawVolume(
+  req: ReconstructionRequest,
+  id: string,
+  acquisition: VolumeAcquisitionMode,
+  ctx: PipelineContext,
+): Promise<RawKspace> {
+  if (acquisition !== '3d') {
+    throw new ValidationError({
+      field: 'acquisition',
+      message:
+        'raw data of a 3D acquisition cannot be re-planned as separate 2D slices: its partitions share one excitation and one ky–kz encoding',
+      allowed: "'3d' (the default for a raw source)",
+    });
+  }
+  const raw = await loadFromContext(ctx.loadRaw, id, {
+    field: 'source.rawId',
+    message: 'raw data are not available here',
+  });
+  const { nx, ny } = raw.kspace;
+  checkRawMatrixSides({ nx, ny, nz: raw.nz ?? 1 }, req.matrix);
+  return raw;
+}
+
+/** An uploaded volume (NIfTI with slices=all), resampled to the request's matrix. */
+async function uploadedVolume(
+  id: string,
+  matrix: { nx: number; ny: number; nz: number },
+  ctx: PipelineContext,
+  notes: string[],
+): Promise<RealVolume> {
+  const { nx, ny, nz } = matrix;
+  const loaded = await loadFromContext(ctx.loadVolume, id, {
+    field: 'source.imageId',
+    message: 'uploaded volumes are not available here',
+  });
+  const volume = resampleTrilinear(loaded, nx, ny, nz);
+  if (volume !== loaded) {
+    notes.push(
+      `uploaded volume resampled from ${loaded.nz}×${loaded.ny}×${loaded.nx} to ${nz}×${ny}×${nx} (trilinear)`,
+    );
+  }
+  notes.push(
+    'uploaded volume: k-space is the DFT of the same voxels the reconstruction inverts (inverse crime)',
+  );
+  return volume;
+}
+
 /**
- * The first half of a volume request (matrix.nz > 1): refusals, the upload's volume, the pattern
- * (ky–kz for 3D, ky–kx for multi-slice), the acquisition (3D: exact readout transform, hybrid-space
- * x-planes; multi-slice: every z-slice) and the batch of 2D problems.
+ * The first half of a volume request (matrix.nz > 1): refusals, the source (an uploaded volume, or
+ * the raw data of a 3D acquisition), the pattern (ky–kz for 3D, ky–kx for multi-slice), the
+ * acquisition (3D: exact readout transform, hybrid-space x-planes, one coil or the raw data's
+ * coils; multi-slice: every z-slice) and the batch of 2D problems.
  */
 export async function prepareVolume(
   req: ReconstructionRequest,
@@ -119,20 +171,10 @@ export async function prepareVolume(
   const nz = req.matrix.nz as number;
   const acquisition = req.acquisition ?? '3d';
   const notes: string[] = [];
-  const id = (req.source as { imageId: string }).imageId;
-  const loaded = await loadFromContext(ctx.loadVolume, id, {
-    field: 'source.imageId',
-    message: 'uploaded volumes are not available here',
-  });
-  const volume = resampleTrilinear(loaded, nx, ny, nz);
-  if (volume !== loaded) {
-    notes.push(
-      `uploaded volume resampled from ${loaded.nz}×${loaded.ny}×${loaded.nx} to ${nz}×${ny}×${nx} (trilinear)`,
-    );
-  }
-  notes.push(
-    'uploaded volume: k-space is the DFT of the same voxels the reconstruction inverts (inverse crime)',
-  );
+  const raw = 'rawId' in req.source ? await rawVolume(req, req.source.rawId, acquisition, ctx) : undefined;
+  const volume = raw
+    ? undefined
+    : await uploadedVolume((req.source as { imageId: string }).imageId, { nx, ny, nz }, ctx, notes);
   const sampling =
     seed !== undefined && req.sampling.pattern !== 'custom'
       ? ({ ...req.sampling, seed } as SamplingSpec)
@@ -140,9 +182,15 @@ export async function prepareVolume(
   const sampled = await resolveSampling(patternGrid(req.matrix, acquisition), sampling, limits);
   if (sampled.trajectory) throw new ValidationError(nonCartesianVolume);
   const noiseSeed = noiseSeedFor(seed ?? sampled.seed ?? 0);
-  const stack = acquireVolume(acquisition, volume, sampled, req.noise, noiseSeed);
-  if (stack.sigma > 0)
-    notes.push(`complex Gaussian noise, σ = ${stack.sigma.toPrecision(4)} per real channel`);
+  const stack = raw
+    ? acquireRawVolume(raw, sampled, req.noise, noiseSeed)
+    : acquireVolume(acquisition, volume as RealVolume, sampled, req.noise, noiseSeed);
+  if (raw) notes.push(rawDataNote(raw));
+  if (stack.sigma > 0) {
+    notes.push(
+      `complex Gaussian noise, σ = ${stack.sigma.toPrecision(4)} per real channel${raw ? ' in every coil' : ''}`,
+    );
+  }
   notes.push(
     acquisition === '3d'
       ? `3D: readout x transformed exactly, ${nx} hybrid-space x-planes (ky × kz = ${ny}×${nz}) reconstructed`
@@ -163,11 +211,14 @@ export async function prepareVolume(
       geometry: 'cartesian',
       nx,
       ny,
-      coils: 1,
+      coils: raw?.kspace.coils ?? 1,
       samples: stack.samples,
       mask: sampled.mask.slice(),
-      // σ per real channel: E|n|² = 2σ² per complex k-space sample, no prewhitening (one coil).
-      noise: { prewhitened: false, variance: 2 * stack.sigma ** 2, seed: noiseSeed },
+      // σ per real channel: E|n|² = 2σ² per complex k-space sample (raw data: on top of their own).
+      noise: {
+        ...(raw ? rawNoise(raw, stack.sigma) : { prewhitened: false, variance: 2 * stack.sigma ** 2 }),
+        seed: noiseSeed,
+      },
       volume: { nz, acquisition },
     },
   };

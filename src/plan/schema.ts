@@ -225,6 +225,18 @@ function checkVolumePlan(plan: z.output<ReturnType<typeof planShape>>, ctx: z.Re
   }
   // zod runs refinements on data that already has issues: only shapes this can read.
   if (typeof plan.source !== 'object' || plan.source === null) return;
+  // A raw volume is a 3D acquisition: it cannot be re-planned as separate 2D slices.
+  if ('rawId' in plan.source && Array.isArray(plan.acquisitions)) {
+    const slices = plan.acquisitions.indexOf('multi-slice');
+    if (slices >= 0) {
+      ctx.addIssue({
+        code: 'custom',
+        path: ['acquisitions', slices],
+        message: 'raw data of a 3D acquisition cannot be re-planned as separate 2D slices',
+        params: { allowed: "'3d' (the default for a raw source)" },
+      });
+    }
+  }
   const problems = unsupportedVolumePieces({
     source: plan.source,
     coils: (Array.isArray(plan.coilArrays) ? plan.coilArrays : [])

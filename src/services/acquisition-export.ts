@@ -106,7 +106,8 @@ function scalingRule(data: AcquiredData): string {
 /** How the response's zero-filled image is formed from these samples. */
 function zeroFilledRule(outcome: ReconstructionOutcome, data: AcquiredData): string {
   if (data.volume) {
-    return 'magnitude of the inverse DFT (3D: over kx, ky, kz; multi-slice: of every slice): the zero-filled volume of images.nii';
+    const combined = data.coils > 1 ? ', root-sum-of-squares over the coils' : '';
+    return `magnitude of the inverse DFT (3D: over kx, ky, kz; multi-slice: of every slice)${combined}: the zero-filled volume of images.nii`;
   }
   if (data.geometry === 'non-cartesian') {
     return 'gridding: adjoint NUFFT of the density-weighted samples (not reproducible from this bundle alone)';
@@ -142,13 +143,15 @@ export function acquisitionNifti(stored: StoredAcquisition): Buffer {
   const grid = new Float32Array(2 * n * nz * coils);
   const volume = stored.header.volume as { acquisition: string } | undefined;
   if (volume?.acquisition === '3d') {
-    // One coil; the mask is the ky–kz plane (ny × nz), each acquired line holds its nx kx values.
+    // The mask is the ky–kz plane (ny × nz), each acquired line holds its nx kx values; coil-major.
     let at = 0;
-    for (let z = 0; z < nz; z++) {
-      for (let y = 0; y < ny; y++) {
-        if (!mask[y * nz + z]) continue;
-        grid.set(stored.samples.subarray(at, at + 2 * nx), 2 * (z * ny + y) * nx);
-        at += 2 * nx;
+    for (let c = 0; c < coils; c++) {
+      for (let z = 0; z < nz; z++) {
+        for (let y = 0; y < ny; y++) {
+          if (!mask[y * nz + z]) continue;
+          grid.set(stored.samples.subarray(at, at + 2 * nx), 2 * ((c * nz + z) * ny + y) * nx);
+          at += 2 * nx;
+        }
       }
     }
     return niftiComplex64(dims, grid, 'kspace-planner acquisition: 3D k-space grid');

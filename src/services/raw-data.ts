@@ -1,11 +1,12 @@
 import { randomUUID } from 'node:crypto';
 import { z } from 'zod';
 import type { RawKspace } from '../acquisition/index.ts';
-import { NotFoundError, ValidationError } from '../core/errors.ts';
+import { NotFoundError } from '../core/errors.ts';
 import type { Limits } from '../core/limits.ts';
 import type { ImportedRawKspace, RawKspaceFacts } from '../io/ismrmrd/import-raw-kspace.ts';
 import type { Store, StoredRawKspace } from '../jobs/store.ts';
 import type { WorkerPool } from '../jobs/worker-pool.ts';
+import { checkRawMatrixSides } from '../pipeline/raw-acquisition.ts';
 import type { Caller } from './caller.ts';
 
 const side = (what: string) => z.int().describe(what);
@@ -132,14 +133,9 @@ export function rawIdOf(request: { source: unknown }): string | undefined {
 export function checkRawMatrix(
   stored: StoredRawKspace | undefined,
   id: string,
-  matrix: { nx: number; ny: number },
+  matrix: { nx: number; ny: number; nz?: number },
 ): void {
   if (!stored) throw rawNotFound(id);
-  if (stored.nx !== matrix.nx || stored.ny !== matrix.ny) {
-    throw new ValidationError({
-      field: 'matrix',
-      message: `the raw data's reconstructed matrix is nx = ${stored.nx}, ny = ${stored.ny}; raw data are not resampled`,
-      allowed: `{ nx: ${stored.nx}, ny: ${stored.ny} }`,
-    });
-  }
+  const nz = typeof stored.meta.nz === 'number' ? stored.meta.nz : 1;
+  checkRawMatrixSides({ nx: stored.nx, ny: stored.ny, nz }, matrix);
 }

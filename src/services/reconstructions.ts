@@ -150,11 +150,19 @@ export class ReconstructionService {
     const coilMaps = loadNamedCoilMaps(store, mapRefs, caller);
     const rawId = rawIdOf(pipelineRequest);
     const raw = rawId === undefined ? undefined : { id: rawId, raw: readRawKspace(store, rawId, caller) };
-    const volumeRequest = image?.volume !== undefined;
+    // Volumes (an uploaded volume or 3D raw data) spread their planes over the pool.
+    const volumeRequest =
+      image?.volume !== undefined || (raw !== undefined && (pipelineRequest.matrix.nz ?? 1) > 1);
     const scored = volumeRequest
       ? await volumeOnPool(
           pool,
-          { request: pipelineRequest, ...(seed === undefined ? {} : { seed }), image: image!, limits },
+          {
+            request: pipelineRequest,
+            ...(seed === undefined ? {} : { seed }),
+            ...(image ? { image } : {}),
+            ...(raw ? { raw } : {}),
+            limits,
+          },
           signal,
         )
       : await pool.runForRequest(

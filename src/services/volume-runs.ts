@@ -1,7 +1,5 @@
-import type { Limits } from '../core/limits.ts';
-import type { ScoredOutcome, UploadedPixels } from '../jobs/tasks.ts';
+import type { ScoredOutcome, VolumeTaskInputs } from '../jobs/tasks.ts';
 import type { WorkerPool } from '../jobs/worker-pool.ts';
-import type { ReconstructionRequest } from '../pipeline/run-reconstruction.ts';
 import { joinPlanes, splitPlanes } from '../volume/plane-reconstruction.ts';
 
 /**
@@ -12,7 +10,7 @@ import { joinPlanes, splitPlanes } from '../volume/plane-reconstruction.ts';
  */
 export async function volumeOnPool(
   pool: WorkerPool,
-  input: { request: ReconstructionRequest; seed?: number; image: UploadedPixels; limits: Limits },
+  input: VolumeTaskInputs,
   signal?: AbortSignal,
 ): Promise<ScoredOutcome> {
   const prepared = await pool.runForRequest('volume-prepare', input, signal);

@@ -26,16 +26,16 @@ export interface PlaneStack {
 
 /**
  * σ = mean |volume| over the object / SNR, the object being the voxels above OBJECT_THRESHOLD of
- * the peak: the 2D rule (src/acquisition/noise.ts) applied to the whole volume.
+ * the peak: the 2D rule (src/acquisition/noise.ts) applied to every voxel of the volume (in any order).
  */
-function volumeSigma(volume: RealVolume, noise: NoiseSpec | undefined): number {
+export function volumeSigma(voxels: Float64Array, noise: NoiseSpec | undefined): number {
   const snr = checkedSnr(noise);
   if (snr === null) return 0;
   let peak = 0;
-  for (const v of volume.data) peak = Math.max(peak, Math.abs(v));
+  for (const v of voxels) peak = Math.max(peak, Math.abs(v));
   let sum = 0;
   let count = 0;
-  for (const v of volume.data) {
+  for (const v of voxels) {
     if (Math.abs(v) <= OBJECT_THRESHOLD * peak) continue;
     sum += Math.abs(v);
     count++;
@@ -143,7 +143,7 @@ export function acquireVolume(
   noise: NoiseSpec | undefined,
   noiseSeed: number,
 ): PlaneStack {
-  const sigma = volumeSigma(volume, noise);
+  const sigma = volumeSigma(volume.data, noise);
   return mode === '3d'
     ? acquire3d(volume, sampled, sigma, noiseSeed)
     : acquireSlices(volume, sampled, sigma, noiseSeed);

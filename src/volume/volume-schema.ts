@@ -11,7 +11,8 @@ export const volumeAcquisitionSchema = z
   .enum(['3d', 'multi-slice'])
   .describe(
     "for a volume (matrix.nz > 1): '3d' undersamples the ky–kz plane of one 3D acquisition (default); " +
-      "'multi-slice' acquires each z-slice as its own 2D acquisition with the same ky–kx pattern",
+      "'multi-slice' acquires each z-slice as its own 2D acquisition with the same ky–kx pattern " +
+      "(not for 3D raw data, which are '3d' only)",
   );
 
 export type VolumeAcquisitionMode = z.infer<typeof volumeAcquisitionSchema>;

@@ -19,23 +19,27 @@ export interface VolumeRequestPieces {
 
 /**
  * What the volume pipeline does not model (docs/design.md §2.5), one problem per field: sources
- * other than an uploaded volume, receive arrays, lesion studies, object phase, g-factors.
- * Non-Cartesian trajectories are refused once the mask is drawn (sampling.trajectory).
+ * other than an uploaded volume or 3D raw data, simulated receive arrays (raw data bring their
+ * own), lesion studies, object phase, g-factors. Non-Cartesian trajectories are refused once the
+ * mask is drawn (sampling.trajectory); a raw source's matrix and acquisition once it is loaded.
  */
 export function unsupportedVolumePieces(pieces: VolumeRequestPieces): FieldProblem[] {
   const problems: FieldProblem[] = [];
-  if (!('imageId' in pieces.source)) {
+  const raw = 'rawId' in pieces.source;
+  if (!('imageId' in pieces.source) && !raw) {
     problems.push({
-      field: 'phantom' in pieces.source ? 'source.phantom' : 'source.rawId',
-      message: 'volumes (matrix.nz > 1) come from an uploaded NIfTI volume only, for now',
-      allowed: 'source: { imageId } of an image uploaded with slices=all',
+      field: 'source.phantom',
+      message: 'volumes (matrix.nz > 1) come from an uploaded NIfTI volume or 3D raw data only, for now',
+      allowed: 'source: { imageId } of an image uploaded with slices=all, or { rawId } of a 3D acquisition',
     });
   }
   for (const { field, spec } of pieces.coils) {
     if ('array' in spec && spec.array === 'uniform') continue;
     problems.push({
       field,
-      message: 'volumes are simulated with the uniform single coil only',
+      message: raw
+        ? 'raw data bring their own receive array; a simulated array or maps cannot be applied'
+        : 'volumes are simulated with the uniform single coil only',
       allowed: "{ array: 'uniform' }",
     });
   }
@@ -43,7 +47,13 @@ export function unsupportedVolumePieces(pieces: VolumeRequestPieces): FieldProbl
     if (value !== undefined) problems.push({ field, message, allowed: `no ${field} with matrix.nz > 1` });
   };
   absent('lesions', pieces.lesions, 'lesion studies run on 2D acquisitions only');
-  absent('phase', pieces.phase, 'a simulated object phase is not modelled for volumes');
-  absent('gFactor', pieces.gFactor, 'g-factors need a receive array; volumes use one coil');
+  absent(
+    'phase',
+    pieces.phase,
+    raw
+      ? 'raw data carry their own phase; a simulated object phase cannot be added'
+      : 'a simulated object phase is not modelled for volumes',
+  );
+  absent('gFactor', pieces.gFactor, 'g-factors are not computed for volumes');
   return problems;
 }

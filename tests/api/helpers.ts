@@ -210,3 +210,13 @@ export async function postProblem(
 ): Promise<ReturnType<typeof expectProblem>> {
   return expectProblem(await postJson(t, path, body as object), status, field);
 }
+
+/** The body of plan `id` once it is done, failed or cancelled (polled every 25 ms, a minute at most). */
+export async function finishedPlanBody(t: Pick<TestApp, 'http'>, id: string) {
+  for (let i = 0; i < 2400; i++) {
+    const res = await t.http().get(`/v1/plans/${id}`);
+    if (['done', 'failed', 'cancelled'].includes(res.body.status)) return res.body;
+    await new Promise((resolve) => setTimeout(resolve, 25));
+  }
+  throw new Error(`plan ${id} did not finish in time`);
+}

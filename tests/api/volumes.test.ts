@@ -6,7 +6,14 @@ import { describe, expect, it } from 'vitest';
 import { decodeImage } from '../../src/io/decode-image.ts';
 import { parseReconstructionRequest, runReconstruction } from '../../src/pipeline/run-reconstruction.ts';
 import { fixtureVolume, VOLUME_FIXTURE, volumePlanBody } from '../volume/fixture.ts';
-import { binary, expectDocumented, expectProblem, sharedTestApp, uploadFile } from './helpers.ts';
+import {
+  binary,
+  expectDocumented,
+  expectProblem,
+  finishedPlanBody,
+  sharedTestApp,
+  uploadFile,
+} from './helpers.ts';
 
 // The volume: 32³ of Debian mricron-data's inia19-t1-brain.nii.gz (tests/volume/fixture.ts).
 // Two worker threads, so a volume's planes are split over the pool (src/services/volume-runs.ts).
@@ -18,8 +25,6 @@ async function uploadVolume(): Promise<string> {
   expect(res.body.nz).toBe(32);
   return res.body.id;
 }
-
-const sleep = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
 
 /** A 3D reconstruction request on an uploaded volume: Poisson-disc R = 4, zero-filled. */
 const volumeRequest = (imageId: string, extra: Record<string, unknown> = {}) => ({
@@ -167,11 +172,7 @@ describe('volumes over HTTP', () => {
     const id = await uploadVolume();
     const res = await t.http().post('/v1/plans').send(volumePlanBody(id));
     expect(res.status).toBe(202);
-    let body = res.body;
-    for (let i = 0; i < 2400 && !['done', 'failed', 'cancelled'].includes(body.status); i++) {
-      await sleep(25);
-      body = (await t.http().get(`/v1/plans/${res.body.id}`)).body;
-    }
+    const body = await finishedPlanBody(t, res.body.id);
     expect(body.status).toBe('done');
     expect(body.table.rows.map((r: { acquisition: string }) => r.acquisition)).toEqual([
       '3d',

@@ -37,6 +37,7 @@ for (const [title, path, name] of [
   ['raw import', './raw-import.bench.ts', 'benchRawImport'],
   ['job queue', './queue.bench.ts', 'benchQueue'],
   ['volumes', './volume.bench.ts', 'benchVolume'],
+  ['3D raw data', './raw-3d.bench.ts', 'benchRaw3d'],
 ] as const) {
   const group = await optional(title, path, name);
   if (group) groups.push(group);

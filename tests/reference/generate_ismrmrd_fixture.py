@@ -26,6 +26,8 @@ import sys
 import h5py
 import numpy as np
 
+from coil_rss import prewhitened_rss, rss
+
 NOISE_BIT = 1 << 18  # ACQ_IS_NOISE_MEASUREMENT = 19 in ismrmrd.h (bits numbered from 1)
 
 source = sys.argv[1]
@@ -74,16 +76,12 @@ for rec in imaging:
 profile = ifftc(kspace, axis=2)
 first = samples // 2 - kept // 2
 image = ifftc(profile[:, :, first : first + kept], axis=1)
-rss = np.sqrt(np.sum(np.abs(image) ** 2, axis=0))
+rss_plain = rss(image)
 
 noise_samples = np.concatenate(
     [r["data"].astype(np.float64).view(np.complex128).reshape(coils, -1) for r in noise], axis=1
 )
-cov = np.cov(noise_samples)
-# Prewhitened coil images: L⁻¹ applied across coils at every pixel, Ψ = L·Lᴴ (numpy's Cholesky).
-lower = np.linalg.cholesky(cov)
-whitened = np.einsum("ab,bij->aij", np.linalg.inv(lower), image)
-rss_whitened = np.sqrt(np.sum(np.abs(whitened) ** 2, axis=0))
+cov, rss_whitened = prewhitened_rss(image, noise_samples)
 
 result = {
     "source": "ismrmrd_generate_cartesian_shepp_logan (Debian ismrmrd-tools 1.8) read with h5py "
@@ -98,7 +96,7 @@ result = {
     "records": {"total": int(len(records)), "imaging": int(len(imaging)), "noise": int(len(noise))},
     "nx": kept,
     "ny": enc_y,
-    "rss": [float(v) for v in rss.ravel()],
+    "rss": [float(v) for v in rss_plain.ravel()],
     "noiseSamples": int(noise_samples.shape[1]),
     "noiseCovariance": [float(v) for z in cov.ravel() for v in (z.real, z.imag)],
     "rssWhitened": [float(v) for v in rss_whitened.ravel()],

@@ -6,11 +6,14 @@ import { readRawKspace } from './read-raw-kspace.ts';
 
 /**
  * What `POST /v1/raw` keeps of an ISMRMRD file: the fully sampled coil k-space (readout
- * oversampling removed), the noise covariance when the file has noise scans, and numbers only.
- * Nothing of the XML header's text (subject, study, free text) is read, so nothing can be stored.
+ * oversampling removed; a 3D file's nz partitions per coil, RawKspace), the noise covariance when
+ * the file has noise scans, and numbers only. Nothing of the XML header's text (subject, study, free
+ * text) is read, so nothing can be stored.
  */
 export interface ImportedRawKspace {
   kspace: MultiCoilKspace;
+  /** Partitions of a 3D acquisition (absent: 1, a 2D slice). */
+  nz?: number;
   noiseCovariance: Float64Array | null;
   facts: RawKspaceFacts;
 }
@@ -51,11 +54,12 @@ export async function importRawKspace(bytes: Uint8Array, limits: Limits): Promis
   const fov = (s: { x: number; y: number; z: number }): [number, number, number] => [s.x, s.y, s.z];
   return {
     kspace,
+    ...(raw.nz > 1 ? { nz: raw.nz } : {}),
     noiseCovariance: noise?.covariance ?? null,
     facts: {
       nx: kspace.nx,
       ny: kspace.ny,
-      nz: 1,
+      nz: raw.nz,
       coils: raw.coils,
       readoutOversampling: raw.readoutOversampling,
       readoutSamples: raw.readoutSamples,

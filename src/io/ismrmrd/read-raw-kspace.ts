@@ -1,5 +1,6 @@
 import { LimitError, ValidationError } from '../../core/errors.ts';
 import { defaultLimits, type Limits } from '../../core/limits.ts';
+import { MAX_VOLUME_VOXELS } from '../../core/matrix.ts';
 import type { MultiCoilKspace } from '../../encoding/multi-coil.ts';
 import { acquisitionFlagBits, hasFlag, nonImagingFlagBits } from './acquisition-flags.ts';
 import { type AcquisitionRecords, readIsmrmrdContents } from './acquisition-records.ts';
@@ -11,7 +12,9 @@ import { cropReadoutLine } from './readout-oversampling.ts';
  * What an ISMRMRD raw-data file gives the planner: numbers only (no names, dates, free text).
  * `kspace` is the fully sampled Cartesian k-space, coil-major (DEVELOPERS.md "Encoding operator and
  * coil arrays"): row = phase-encode line (kspace_encode_step_1 − centre + ⌊ny/2⌋, so the header's
- * centre line is the DC row), column = readout sample after oversampling removal.
+ * centre line is the DC row), column = readout sample after oversampling removal. A 3D acquisition
+ * (nz > 1) holds nz partitions per coil, coil-major then partition (kspace_encode_step_2 − centre +
+ * ⌊nz/2⌋), row, column: element (c, z, y, x) at 2·(((c·nz + z)·ny + y)·nx + x).
  */
 export interface RawKspaceImport {
   coils: number;
@@ -23,11 +26,14 @@ export interface RawKspaceImport {
   reconMatrix: Sides;
   encodedFieldOfViewMm: Sides;
   reconFieldOfViewMm: Sides;
+  /** Partitions (kspace_encode_step_2) of a 3D acquisition; 1 for a 2D slice. */
+  nz: number;
   step1Limits: CounterLimits | null;
+  step2Limits: CounterLimits | null;
   /** kspace_encode_step_1 and _2 of each imaging record, in file order. */
   encodeCounters: { step1: Uint16Array; step2: Uint16Array };
   records: { total: number; imaging: number; noise: number; skipped: number };
-  /** Imaging records per line beyond the first (averages), which are averaged into the line. */
+  /** Imaging records per line (3D: per ky–kz point) beyond the first, averaged into the line. */
   repeatedLines: number;
   kspace: MultiCoilKspace;
   /** Noise covariance across coils from the noise-scan records (numpy.cov estimator), or null. */
@@ -47,9 +53,11 @@ function distinctValues(column: Uint16Array, rows: number[]): number {
 
 /**
  * Reads an uploaded ISMRMRD file (Inati et al. 2017) into a fully sampled multi-coil Cartesian
- * k-space. One 2D slice, one contrast, phase, repetition and set; Cartesian only; every phase-encode
- * line of the encoded matrix present. Readout oversampling is removed (src/io/ismrmrd/readout-oversampling.ts).
- * Anything else is a ValidationError naming the field; matrix sides beyond the limits a LimitError.
+ * k-space: one 2D slice, or one 3D acquisition (encodedSpace.matrixSize.z > 1, lines indexed by
+ * kspace_encode_step_1 and kspace_encode_step_2); one contrast, phase, repetition and set; Cartesian
+ * only; every phase-encode line (3D: every ky–kz point) of the encoded matrix present. Readout
+ * oversampling is removed (src/io/ismrmrd/readout-oversampling.ts). Anything else is a
+ * ValidationError naming the field; matrix sides beyond the limits a LimitError.
  */
 export async function readRawKspace(
   bytes: Uint8Array,
@@ -92,9 +100,11 @@ export async function readRawKspace(
     );
   }
   const ny = header.encodedMatrix.y;
+  const nz = header.encodedMatrix.z;
   const tooLarge = [
     { side: 'nx', value: nx, field: 'file.header.encoding.reconSpace.matrixSize.x' },
     { side: 'ny', value: ny, field: 'file.header.encoding.encodedSpace.matrixSize.y' },
+    { side: 'nz', value: nz, field: 'file.header.encoding.encodedSpace.matrixSize.z' },
   ].filter((s) => s.value > limits.maxMatrixSide);
   if (tooLarge.length > 0) {
     throw new LimitError(
@@ -105,48 +115,56 @@ export async function readRawKspace(
       })),
     );
   }
+  if (nz > 1 && nx * ny * nz > MAX_VOLUME_VOXELS) {
+    throw new LimitError({
+      field: 'file.header.encoding.encodedSpace.matrixSize.z',
+      message: `${nx}×${ny}×${nz} voxels is larger than the configured limit`,
+      allowed: `nx·ny·nz ≤ ${MAX_VOLUME_VOXELS}`,
+    });
+  }
 
   // Line positions and completeness, checked before the k-space is allocated.
-  const centre = header.step1Limits?.center ?? Math.floor(ny / 2);
-  const rowOf = (r: number): number => records.step1[r] - centre + Math.floor(ny / 2);
-  const perRow = new Uint32Array(ny);
-  for (const r of imaging) {
-    const row = rowOf(r);
-    if (row < 0 || row >= ny) {
-      refuse(
-        'file.data.head.idx.kspace_encode_step_1',
-        `line ${records.step1[r]} lies outside the encoded matrix of ${ny} lines (centre ${centre})`,
-      );
-    }
-    perRow[row] += 1;
-  }
-  const missing = perRow.reduce((n, count) => n + (count === 0 ? 1 : 0), 0);
-  if (missing > 0) {
+  const lineOf = lineIndex(records, imaging, header, ny, nz);
+  const lines = ny * nz;
+  const perLine = new Uint32Array(lines);
+  for (let i = 0; i < imaging.length; i++) perLine[lineOf[i]] += 1;
+  const missing = perLine.reduce((n, count) => n + (count === 0 ? 1 : 0), 0);
+  if (missing > 0 && nz === 1) {
     refuse(
       'file.data.head.idx.kspace_encode_step_1',
       `partially sampled: ${missing} of ${ny} phase-encode lines (kspace_encode_step_1) are missing; only fully sampled Cartesian data can be imported`,
       'every line of the encoded matrix',
     );
   }
+  if (missing > 0) {
+    const first = perLine.indexOf(0);
+    refuse(
+      'file.data.head.idx.kspace_encode_step_2',
+      `partially sampled: ${lines - missing} of ${lines} ky–kz points (kspace_encode_step_1 × kspace_encode_step_2, ` +
+        `${ny} × ${nz}) acquired, ${missing} missing (the first at row ${first % ny}, partition ${Math.floor(first / ny)} ` +
+        'of the encoded matrix); only fully sampled Cartesian data can be imported',
+      'every ky–kz point of the encoded matrix',
+    );
+  }
 
-  const data = new Float64Array(2 * coils * ny * nx);
+  // Coil-major, then partition, row, column; lines = nz·ny per coil.
+  const data = new Float64Array(2 * coils * lines * nx);
   const line = new Float64Array(2 * samples);
   const cropped = new Float64Array(2 * nx);
-  for (const r of imaging) {
+  imaging.forEach((r, i) => {
     const source = records.data[r];
-    const row = rowOf(r);
     for (let c = 0; c < coils; c++) {
       for (let k = 0; k < 2 * samples; k++) line[k] = source[2 * c * samples + k];
       cropReadoutLine(line, cropped, nx);
-      const offset = 2 * (c * ny * nx + row * nx);
+      const offset = 2 * (c * lines + lineOf[i]) * nx;
       for (let k = 0; k < 2 * nx; k++) data[offset + k] += cropped[k];
     }
-  }
-  for (let row = 0; row < ny; row++) {
-    if (perRow[row] === 1) continue;
+  });
+  for (let at = 0; at < lines; at++) {
+    if (perLine[at] === 1) continue;
     for (let c = 0; c < coils; c++) {
-      const offset = 2 * (c * ny * nx + row * nx);
-      for (let k = 0; k < 2 * nx; k++) data[offset + k] /= perRow[row];
+      const offset = 2 * (c * lines + at) * nx;
+      for (let k = 0; k < 2 * nx; k++) data[offset + k] /= perLine[at];
     }
   }
 
@@ -169,13 +187,15 @@ export async function readRawKspace(
     reconMatrix: header.reconMatrix,
     encodedFieldOfViewMm: header.encodedFieldOfViewMm,
     reconFieldOfViewMm: header.reconFieldOfViewMm,
+    nz,
     step1Limits: header.step1Limits,
+    step2Limits: header.step2Limits,
     encodeCounters: {
       step1: Uint16Array.from(imaging, (r) => records.step1[r]),
       step2: Uint16Array.from(imaging, (r) => records.step2[r]),
     },
     records: { total: records.count, imaging: imaging.length, noise: noise.length, skipped },
-    repeatedLines: imaging.length - ny,
+    repeatedLines: imaging.length - lines,
     kspace: { coils, nx, ny, data },
     noise: noiseRecords.length > 0 ? noiseCovariance(noiseRecords, coils) : null,
   };
@@ -193,7 +213,43 @@ function checkUniform(column: Uint16Array, rows: number[], field: string): numbe
   return first;
 }
 
-/** Refuses what a single fully sampled 2D Cartesian k-space cannot hold. */
+/**
+ * Each imaging record's line in the k-space, partition · ny + row: row = kspace_encode_step_1 −
+ * centre + ⌊ny/2⌋ and partition = kspace_encode_step_2 − centre + ⌊nz/2⌋ (centres from
+ * encodingLimits, else the middle), so the header's centre point is the DC line. Refuses counters
+ * outside the encoded matrix.
+ */
+function lineIndex(
+  records: AcquisitionRecords,
+  imaging: number[],
+  header: { step1Limits: CounterLimits | null; step2Limits: CounterLimits | null },
+  ny: number,
+  nz: number,
+): Uint32Array {
+  const centre1 = header.step1Limits?.center ?? Math.floor(ny / 2);
+  const centre2 = nz > 1 ? (header.step2Limits?.center ?? Math.floor(nz / 2)) : 0;
+  const index = new Uint32Array(imaging.length);
+  imaging.forEach((r, i) => {
+    const row = records.step1[r] - centre1 + Math.floor(ny / 2);
+    if (row < 0 || row >= ny) {
+      refuse(
+        'file.data.head.idx.kspace_encode_step_1',
+        `line ${records.step1[r]} lies outside the encoded matrix of ${ny} lines (centre ${centre1})`,
+      );
+    }
+    const partition = nz > 1 ? records.step2[r] - centre2 + Math.floor(nz / 2) : 0;
+    if (partition < 0 || partition >= nz) {
+      refuse(
+        'file.data.head.idx.kspace_encode_step_2',
+        `partition ${records.step2[r]} lies outside the encoded matrix of ${nz} partitions (centre ${centre2})`,
+      );
+    }
+    index[i] = partition * ny + row;
+  });
+  return index;
+}
+
+/** Refuses what a single fully sampled Cartesian k-space (2D slice or 3D volume) cannot hold. */
 function checkCartesianLines(
   records: AcquisitionRecords,
   imaging: number[],
@@ -215,21 +271,16 @@ function checkCartesianLines(
       `record ${reversed} is a reversed readout (ACQ_IS_REVERSE), which is not supported`,
     );
   }
-  if (encoded.z > 1) {
-    refuse(
-      'file.header.encoding.encodedSpace.matrixSize.z',
-      `3D encoding (${encoded.z} partitions) is not supported`,
-      '1',
-    );
-  }
-  for (const [name, column] of [
+  // A 2D slice has one kspace_encode_step_2; a 3D acquisition (z > 1) is indexed by it.
+  const counters = [
     ['slice', records.slice],
     ['contrast', records.contrast],
     ['phase', records.phase],
     ['repetition', records.repetition],
     ['set', records.set],
-    ['kspace_encode_step_2', records.step2],
-  ] as const) {
+    ...(encoded.z > 1 ? [] : ([['kspace_encode_step_2', records.step2]] as const)),
+  ] as const;
+  for (const [name, column] of counters) {
     const count = distinctValues(column, imaging);
     if (count > 1)
       refuse(`file.data.head.idx.${name}`, `${count} different values; only one is supported`, 'one');
