@@ -19,16 +19,40 @@
  * Needs Debian's mricron-data and python3-nibabel (apt-get install mricron-data python3-nibabel).
  */
 import { readFileSync, writeFileSync } from 'node:fs';
-import { defaultTvLambda } from '../src/recon/parameters.ts';
+import { defaultCsWaveletLambda, defaultTvLambda } from '../src/recon/parameters.ts';
 import { loadTuningSet } from './tuning/anatomy-set.ts';
 import { runCase, scriptArguments, TUNING_ACCELERATIONS, TUNING_MASKS } from './tuning/cases.ts';
 
-/** Factor-2 steps; the phantom rule gave 0.002 at R = 2 and 0.014 at R = 8. */
-export const LAMBDA_GRID = [0.0004, 0.0008, 0.0016, 0.0032, 0.0064, 0.0128, 0.0256];
+/** What each tuned method needs: its λ grid, its current default and the rule it replaced. */
+interface TunedMethod {
+  /** Factor-2 steps around the phantom rule's range. */
+  grid: number[];
+  defaultLambda: (fraction: number) => number;
+  /** The rule the phantoms gave, kept here only to compare against. */
+  phantomRule: (fraction: number) => number;
+}
 
-/** The rule the phantoms gave, kept here only to compare against. */
-function phantomRuleLambda(fraction: number): number {
-  return Math.min(0.05, 0.002 * (1 / Math.min(1, fraction) - 1));
+const excessOf = (fraction: number) => 1 / Math.min(1, fraction) - 1;
+
+export const TUNED_METHODS: { [name in 'cs-tv' | 'cs-wavelet']: TunedMethod } = {
+  // The phantom rule gave 0.002 at R = 2 and 0.014 at R = 8.
+  'cs-tv': {
+    grid: [0.0004, 0.0008, 0.0016, 0.0032, 0.0064, 0.0128, 0.0256],
+    defaultLambda: defaultTvLambda,
+    phantomRule: (fraction) => Math.min(0.05, 0.002 * excessOf(fraction)),
+  },
+  // The phantom rule gave 0.00025 at R = 2 and 0.00175 at R = 8 (db4, 4 levels, cycle spinning).
+  'cs-wavelet': {
+    grid: [0.0000625, 0.000125, 0.00025, 0.0005, 0.001, 0.002, 0.004, 0.008, 0.016],
+    defaultLambda: defaultCsWaveletLambda,
+    phantomRule: (fraction) => Math.min(0.02, 0.00025 * excessOf(fraction)),
+  },
+};
+
+function tunedMethod(args: Map<string, string>): { name: 'cs-tv' | 'cs-wavelet'; method: TunedMethod } {
+  const name = args.get('method') ?? 'cs-tv';
+  if (name !== 'cs-tv' && name !== 'cs-wavelet') throw new Error(`--method=${name}: cs-tv or cs-wavelet`);
+  return { name, method: TUNED_METHODS[name] };
 }
 
 interface SweepRow {
@@ -47,11 +71,12 @@ const SWEEP_HEADER = 'slice,mask,acceleration,fraction,lambda,nrmse,ssim,iterati
 async function sweep(args: Map<string, string>): Promise<void> {
   const n = Number(args.get('n') ?? 96);
   const [shard, shards] = (args.get('shard') ?? '0/1').split('/').map(Number);
-  const out = args.get('out') ?? '/tmp/cs-tv-sweep.csv';
+  const { name, method } = tunedMethod(args);
+  const out = args.get('out') ?? `/tmp/${name}-sweep.csv`;
   const list = (name: string) => args.get(name)?.split(',');
   const masks = list('masks') ?? Object.keys(TUNING_MASKS);
   const accelerations = list('accelerations')?.map(Number) ?? TUNING_ACCELERATIONS;
-  const lambdas = list('lambdas')?.map(Number) ?? LAMBDA_GRID;
+  const lambdas = list('lambdas')?.map(Number) ?? method.grid;
   const set = await loadTuningSet(n);
   const lines = [SWEEP_HEADER];
   let job = 0;
@@ -61,7 +86,7 @@ async function sweep(args: Map<string, string>): Promise<void> {
       for (const acceleration of accelerations) {
         if (job++ % shards !== shard) continue;
         for (const lambda of lambdas) {
-          const run = await runCase(slice.image, sampling(acceleration), { name: 'cs-tv', lambda });
+          const run = await runCase(slice.image, sampling(acceleration), { name, lambda });
           lines.push(
             [
               slice.label,
@@ -173,8 +198,9 @@ const geometricMean = (values: number[]) =>
   Math.exp(values.reduce((s, v) => s + Math.log(v), 0) / values.length);
 
 function fitRule(args: Map<string, string>): void {
-  const inputs = (args.get('in') ?? '/tmp/cs-tv-sweep.csv').split(',');
-  const out = args.get('out') ?? 'docs/tuning/cs-tv-defaults.csv';
+  const { name, method } = tunedMethod(args);
+  const inputs = (args.get('in') ?? `/tmp/${name}-sweep.csv`).split(',');
+  const out = args.get('out') ?? `docs/tuning/${name}-defaults.csv`;
   const excluded = new Set((args.get('exclude') ?? '').split(',').filter(Boolean));
   const cases = optima(readSweep(inputs)).filter((c) => !excluded.has(`${c.mask}:${c.acceleration}`));
   const xs = cases.map((c) => Math.log(1 / c.fraction - 1));
@@ -213,8 +239,8 @@ function fitRule(args: Map<string, string>): void {
           Math.min(...best).toPrecision(3),
           Math.max(...best).toPrecision(3),
           geometricMean(group.map((c) => c.lambdaSsim)).toPrecision(3),
-          defaultTvLambda(fraction).toPrecision(3),
-          phantomRuleLambda(fraction).toPrecision(3),
+          method.defaultLambda(fraction).toPrecision(3),
+          method.phantomRule(fraction).toPrecision(3),
         ].join(','),
       );
     }
@@ -225,7 +251,8 @@ function fitRule(args: Map<string, string>): void {
 
 async function compare(args: Map<string, string>): Promise<void> {
   const n = Number(args.get('n') ?? 96);
-  const out = args.get('out') ?? 'docs/tuning/cs-tv-before-after.csv';
+  const { name, method } = tunedMethod(args);
+  const out = args.get('out') ?? `docs/tuning/${name}-before-after.csv`;
   const [shard, shards] = (args.get('shard') ?? '0/1').split('/').map(Number);
   const set = (await loadTuningSet(n)).filter((_, i) => i % shards === shard);
   const lines = [
@@ -234,12 +261,9 @@ async function compare(args: Map<string, string>): Promise<void> {
   for (const slice of set) {
     for (const [mask, sampling] of Object.entries(TUNING_MASKS)) {
       for (const acceleration of TUNING_ACCELERATIONS) {
-        const after = await runCase(slice.image, sampling(acceleration), { name: 'cs-tv' });
-        const lambdaBefore = phantomRuleLambda(after.fraction);
-        const before = await runCase(slice.image, sampling(acceleration), {
-          name: 'cs-tv',
-          lambda: lambdaBefore,
-        });
+        const after = await runCase(slice.image, sampling(acceleration), { name });
+        const lambdaBefore = method.phantomRule(after.fraction);
+        const before = await runCase(slice.image, sampling(acceleration), { name, lambda: lambdaBefore });
         lines.push(
           [
             slice.label,
