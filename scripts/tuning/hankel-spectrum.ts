@@ -20,14 +20,10 @@ import { readFileSync, writeFileSync } from 'node:fs';
 import { fft2c } from '../../src/core/centered-fft.ts';
 import { complexFromReal } from '../../src/core/complex-image.ts';
 import { parseReconstructionRequest, runReconstruction } from '../../src/pipeline/run-reconstruction.ts';
-import {
-  acquiredHankelSpectrum,
-  defaultHankelRank,
-  hardThresholdRank,
-} from '../../src/recon/hankel-rank.ts';
+import { acquiredHankelSpectrum, defaultHankelRank, hardThresholdRank } from '../../src/recon/hankel-rank.ts';
 import { rankForEnergy } from '../../src/recon/lowrank-hankel.ts';
 import { loadTuningSet, type TuningSlice } from './anatomy-set.ts';
-import { scriptArguments, TUNING_ACCELERATIONS, TUNING_MASKS } from './cases.ts';
+import { runCase, scriptArguments, TUNING_ACCELERATIONS, TUNING_MASKS } from './cases.ts';
 import { loadHeldOutSet } from './held-out-set.ts';
 
 const KERNEL: [number, number] = [7, 7];
@@ -42,6 +38,33 @@ export async function loadSet(name: string, n: number): Promise<TuningSlice[]> {
   if (name === 'tuning') return loadTuningSet(n);
   if (name === 'held-out') return loadHeldOutSet(n);
   throw new Error(`--set=${name}: tuning or held-out`);
+}
+
+/** The rank every rule picks for the acquired samples of `full` (n×n k-space) under `mask`; null where a rule has too few complete windows. */
+export function ruleRanks(full: Float64Array, mask: Uint8Array, n: number): Record<string, number | null> {
+  const zeroFilled = full.map((v, i) => (mask[i >> 1] ? v : 0));
+  const complete = acquiredHankelSpectrum(full, mask, n, n, KERNEL, 'gradient');
+  const everyWindow = acquiredHankelSpectrum(
+    zeroFilled,
+    new Uint8Array(n * n).fill(1),
+    n,
+    n,
+    KERNEL,
+    'gradient',
+  );
+  const power = complete.singularValues.map((s) => s * s);
+  return {
+    fraction: defaultHankelRank(KERNEL[0] * KERNEL[1], mask),
+    'gd-complete': hardThresholdRank(complete),
+    'gd-zerofilled': hardThresholdRank(everyWindow),
+    ...Object.fromEntries(
+      ENERGIES.map((e) => [energyLabel(e), complete.rows > 0 ? rankForEnergy(power, e) : null]),
+    ),
+  };
+}
+
+function completeWindowCount(mask: Uint8Array, n: number): number {
+  return acquiredHankelSpectrum(new Float64Array(2 * n * n), mask, n, n, KERNEL, 'none').rows;
 }
 
 async function candidates(args: Map<string, string>): Promise<void> {
@@ -60,25 +83,72 @@ async function candidates(args: Map<string, string>): Promise<void> {
           method: { name: 'zero-filled' },
         });
         const outcome = await runReconstruction(request, undefined, { loadImage: async () => slice.image });
-        const mask = outcome.sampled.mask;
-        const zeroFilled = full.map((v, i) => (mask[i >> 1] ? v : 0));
-        const complete = acquiredHankelSpectrum(full, mask, n, n, KERNEL, 'gradient');
-        const everyWindow = acquiredHankelSpectrum(zeroFilled, new Uint8Array(n * n).fill(1), n, n, KERNEL, 'gradient');
-        const power = complete.singularValues.map((s) => s * s);
-        const ranks = [
-          defaultHankelRank(KERNEL[0] * KERNEL[1], mask),
-          hardThresholdRank(complete) ?? '',
-          hardThresholdRank(everyWindow) ?? '',
-          ...ENERGIES.map((e) => (complete.rows > 0 ? rankForEnergy(power, e) : '')),
-        ];
+        const ranks = ruleRanks(full, outcome.sampled.mask, n);
+        const complete = completeWindowCount(outcome.sampled.mask, n);
         lines.push(
-          [slice.label, maskName, acceleration, outcome.fraction.toFixed(4), complete.rows / 2, ...ranks].join(','),
+          [
+            slice.label,
+            maskName,
+            acceleration,
+            outcome.fraction.toFixed(4),
+            complete,
+            ...RULES.map((r) => ranks[r] ?? ''),
+          ].join(','),
         );
       }
     }
     writeFileSync(out, `${lines.join('\n')}\n`);
     console.log(`${slice.label} done`);
   }
+}
+
+/** Fixed ranks run for every case besides the rules' picks, for the best rank per case. */
+const COARSE_RANKS = [12, 18, 25, 32, 38];
+
+/**
+ * Every case of the set at the union of the rules' ranks and COARSE_RANKS (lowrank-hankel, 7×7,
+ * 'gradient', default iterations): one row per run; the candidates file beside it. Cases already in
+ * `--have` (rows of an earlier sweep) are left out.
+ */
+async function sweep(args: Map<string, string>): Promise<void> {
+  const n = Number(args.get('n') ?? 96);
+  const [shard, shards] = (args.get('shard') ?? '0/1').split('/').map(Number);
+  const set = (await loadSet(args.get('set') ?? 'tuning', n)).filter((_, i) => i % shards === shard);
+  const out = args.get('out') ?? '/tmp/spectrum-ranks.csv';
+  const have = new Set(
+    (args.get('have')?.split(',') ?? [])
+      .flatMap(readCsv)
+      .map((r) => `${r.slice}|${r.mask}|${r.acceleration}`),
+  );
+  const lines = ['slice,mask,acceleration,fraction,rank,nrmse,ssim'];
+  const picks = [`slice,mask,acceleration,fraction,complete_windows,${RULES.join(',')}`];
+  for (const slice of set) {
+    const full = fft2c(complexFromReal(slice.image.data, n, n)).data;
+    for (const [maskName, sampling] of Object.entries(TUNING_MASKS)) {
+      for (const acceleration of TUNING_ACCELERATIONS) {
+        const zeroFilled = await runCase(slice.image, sampling(acceleration), { name: 'zero-filled' });
+        const ranks = ruleRanks(full, zeroFilled.mask, n);
+        const fraction = zeroFilled.fraction.toFixed(4);
+        const head = [slice.label, maskName, acceleration, fraction];
+        picks.push(
+          [...head, completeWindowCount(zeroFilled.mask, n), ...RULES.map((r) => ranks[r] ?? '')].join(','),
+        );
+        if (have.has(`${slice.label}|${maskName}|${acceleration}`)) continue;
+        const toRun = new Set([
+          ...COARSE_RANKS,
+          ...Object.values(ranks).filter((r): r is number => r !== null),
+        ]);
+        for (const rank of [...toRun].sort((p, q) => p - q)) {
+          const run = await runCase(slice.image, sampling(acceleration), { name: 'lowrank-hankel', rank });
+          lines.push([...head, rank, run.metrics.nrmse.toFixed(5), run.metrics.ssim.toFixed(5)].join(','));
+        }
+        writeFileSync(out, `${lines.join('\n')}\n`);
+        writeFileSync(out.replace(/\.csv$/, '-candidates.csv'), `${picks.join('\n')}\n`);
+        console.log(`${slice.label} ${maskName} R ${acceleration} done`);
+      }
+    }
+  }
+  writeFileSync(out.replace(/\.csv$/, '-candidates.csv'), `${picks.join('\n')}\n`);
 }
 
 function readCsv(path: string): Record<string, string>[] {
@@ -148,5 +218,6 @@ function evaluate(args: Map<string, string>): void {
 const [command, ...rest] = process.argv.slice(2);
 const args = scriptArguments(rest);
 if (command === 'candidates') await candidates(args);
+else if (command === 'sweep') await sweep(args);
 else if (command === 'evaluate') evaluate(args);
 else console.error('usage: hankel-spectrum.ts candidates|evaluate [--set=tuning|held-out] [--out=…]');

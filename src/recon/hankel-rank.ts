@@ -33,7 +33,7 @@ export function defaultHankelRank(area: number, mask: Uint8Array): number {
 /**
  * ω(β) of the optimal hard threshold for singular values when the noise level is unknown,
  * τ = ω(β)·median(σ), β = (short side)/(long side) of the matrix: the cubic approximation
- * ω(β) ≈ 0.56β³ − 0.95β² + 1.82β + 1.43 given by Gavish & Donoho 2014 (docs/references.md §5.3 [D]);
+ * ω(β) ≈ 0.56β³ − 0.95β² + 1.82β + 1.43 given by Gavish & Donoho 2014 (docs/references.md §5.3);
  * tests/recon/hankel-rank.test.ts checks it against the exact λ*(β)/√μ_β computed with scipy.
  */
 export function hardThresholdCoefficient(beta: number): number {

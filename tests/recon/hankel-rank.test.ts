@@ -11,7 +11,7 @@ import { maxAbsDifference } from '../error-measures.ts';
  * The spectrum rank rule of lowrank-hankel against numpy and scipy (Debian python3-numpy,
  * python3-scipy): tests/reference/fixtures/hard-threshold.json, written by
  * tests/reference/generate_hard_threshold_fixture.py — the exact ω(β) = λ*(β)/√μ_β of Gavish &
- * Donoho 2014 (docs/references.md §5.3 [D]) and the singular values of explicit block-Hankel
+ * Donoho 2014 (docs/references.md §5.3) and the singular values of explicit block-Hankel
  * matrices of the complete windows of masked k-space.
  */
 interface SpectrumCase {
@@ -73,7 +73,14 @@ describe('acquiredHankelSpectrum: the complete windows of masked k-space against
     const ny = 12;
     const mask = new Uint8Array(nx * ny);
     for (let i = 0; i < mask.length; i += 2) mask[i] = 1; // no 2×2 window complete
-    const spectrum = acquiredHankelSpectrum(new Float64Array(2 * nx * ny).fill(1), mask, nx, ny, [3, 3], 'none');
+    const spectrum = acquiredHankelSpectrum(
+      new Float64Array(2 * nx * ny).fill(1),
+      mask,
+      nx,
+      ny,
+      [3, 3],
+      'none',
+    );
     expect(spectrum.rows).toBe(0);
     expect(hardThresholdRank(spectrum)).toBeNull();
   });
