@@ -2,37 +2,24 @@
  * Rank rules from the singular-value spectrum of lowrank-hankel against the acquired-fraction rule
  * and the best fixed rank per case (docs/design.md §3.12, docs/tuning/lowrank-hankel-spectrum.csv).
  *
- *   npx tsx scripts/tuning/hankel-spectrum.ts candidates --set=tuning --out=/tmp/spectrum-tuning.csv
- *   npx tsx scripts/tuning/lowrank-ssim.ts --accelerations=2,4,8 --ranks=8,9,…,44 --out=/tmp/ranks.csv
- *   npx tsx scripts/tuning/hankel-spectrum.ts evaluate --candidates=/tmp/spectrum-tuning.csv \
- *     --ranks=/tmp/ranks.csv --out=docs/tuning/lowrank-hankel-spectrum.csv
+ *   npx tsx scripts/tuning/hankel-spectrum.ts sweep --set=tuning --out=/tmp/spectrum-ranks.csv
+ *     (writes /tmp/spectrum-ranks-candidates.csv beside it; --have=a.csv,… skips cases already run)
+ *   npx tsx scripts/tuning/hankel-spectrum.ts evaluate --candidates=/tmp/spectrum-ranks-candidates.csv \
+ *     --ranks=/tmp/spectrum-ranks.csv,… --out=docs/tuning/lowrank-hankel-spectrum.csv
  *
- * candidates: per slice × mask × R of the set (tuning or held-out), the rank each rule picks at the
- * default 7×7 window and 'gradient' weighting, without reconstructing:
- *   fraction      the acquired-fraction rule (defaultHankelRank)
- *   gd-complete   optimal hard threshold (Gavish & Donoho 2014) on the rows of complete windows
- *   gd-zerofilled the same threshold on every window of the zero-filled k-space
- *   e90 … e999    smallest rank keeping 90 / 95 / 99 / 99.9 % of Σσ² of the complete windows
- * evaluate: joins the candidates with a fixed-rank sweep (lowrank-ssim.ts rows) and reports per
- * case NRMSE and SSIM at each rule's rank and at the best rank; a rank the sweep lacks is marked.
+ * sweep: per slice × mask × R of the set (tuning or held-out), the rank each rule of rank-rules.ts
+ * picks at the default 7×7 window and 'gradient' weighting, and lowrank-hankel run at those ranks
+ * and at a few fixed ones (rows of lowrank-ssim.ts's fixed-rank sweeps can be joined in).
+ * evaluate: per case NRMSE and SSIM at each rule's rank and at the best rank run; a rank not run is
+ * marked missing.
  */
 import { readFileSync, writeFileSync } from 'node:fs';
 import { fft2c } from '../../src/core/centered-fft.ts';
 import { complexFromReal } from '../../src/core/complex-image.ts';
-import { parseReconstructionRequest, runReconstruction } from '../../src/pipeline/run-reconstruction.ts';
-import { acquiredHankelSpectrum, defaultHankelRank, hardThresholdRank } from '../../src/recon/hankel-rank.ts';
-import { rankForEnergy } from '../../src/recon/lowrank-hankel.ts';
 import { loadTuningSet, type TuningSlice } from './anatomy-set.ts';
 import { runCase, scriptArguments, TUNING_ACCELERATIONS, TUNING_MASKS } from './cases.ts';
 import { loadHeldOutSet } from './held-out-set.ts';
-
-const KERNEL: [number, number] = [7, 7];
-const ENERGIES = [0.9, 0.95, 0.99, 0.999];
-export const RULES = ['fraction', 'gd-complete', 'gd-zerofilled', ...ENERGIES.map(energyLabel)];
-
-function energyLabel(energy: number): string {
-  return `e${String(energy).slice(2).padEnd(2, '0')}`;
-}
+import { completeWindowCount, RULES, ruleRanks } from './rank-rules.ts';
 
 export async function loadSet(name: string, n: number): Promise<TuningSlice[]> {
   if (name === 'tuning') return loadTuningSet(n);
@@ -40,70 +27,10 @@ export async function loadSet(name: string, n: number): Promise<TuningSlice[]> {
   throw new Error(`--set=${name}: tuning or held-out`);
 }
 
-/** The rank every rule picks for the acquired samples of `full` (n×n k-space) under `mask`; null where a rule has too few complete windows. */
-export function ruleRanks(full: Float64Array, mask: Uint8Array, n: number): Record<string, number | null> {
-  const zeroFilled = full.map((v, i) => (mask[i >> 1] ? v : 0));
-  const complete = acquiredHankelSpectrum(full, mask, n, n, KERNEL, 'gradient');
-  const everyWindow = acquiredHankelSpectrum(
-    zeroFilled,
-    new Uint8Array(n * n).fill(1),
-    n,
-    n,
-    KERNEL,
-    'gradient',
-  );
-  const power = complete.singularValues.map((s) => s * s);
-  return {
-    fraction: defaultHankelRank(KERNEL[0] * KERNEL[1], mask),
-    'gd-complete': hardThresholdRank(complete),
-    'gd-zerofilled': hardThresholdRank(everyWindow),
-    ...Object.fromEntries(
-      ENERGIES.map((e) => [energyLabel(e), complete.rows > 0 ? rankForEnergy(power, e) : null]),
-    ),
-  };
-}
-
-function completeWindowCount(mask: Uint8Array, n: number): number {
-  return acquiredHankelSpectrum(new Float64Array(2 * n * n), mask, n, n, KERNEL, 'none').rows;
-}
-
-async function candidates(args: Map<string, string>): Promise<void> {
-  const n = Number(args.get('n') ?? 96);
-  const set = await loadSet(args.get('set') ?? 'tuning', n);
-  const out = args.get('out') ?? '/tmp/spectrum-candidates.csv';
-  const lines = [`slice,mask,acceleration,fraction,complete_windows,${RULES.join(',')}`];
-  for (const slice of set) {
-    const full = fft2c(complexFromReal(slice.image.data, n, n)).data;
-    for (const [maskName, sampling] of Object.entries(TUNING_MASKS)) {
-      for (const acceleration of TUNING_ACCELERATIONS) {
-        const request = parseReconstructionRequest({
-          source: { imageId: 'tuning' },
-          matrix: { nx: n, ny: n },
-          sampling: sampling(acceleration),
-          method: { name: 'zero-filled' },
-        });
-        const outcome = await runReconstruction(request, undefined, { loadImage: async () => slice.image });
-        const ranks = ruleRanks(full, outcome.sampled.mask, n);
-        const complete = completeWindowCount(outcome.sampled.mask, n);
-        lines.push(
-          [
-            slice.label,
-            maskName,
-            acceleration,
-            outcome.fraction.toFixed(4),
-            complete,
-            ...RULES.map((r) => ranks[r] ?? ''),
-          ].join(','),
-        );
-      }
-    }
-    writeFileSync(out, `${lines.join('\n')}\n`);
-    console.log(`${slice.label} done`);
-  }
-}
-
 /** Fixed ranks run for every case besides the rules' picks, for the best rank per case. */
-const COARSE_RANKS = [12, 18, 25, 32, 38];
+const COARSE_RANKS = [18, 25, 32];
+/** The rules whose picks are run (the energy rules 90 % and 99.9 % are listed, not run). */
+const RUN_RULES = ['fraction', 'gd-complete', 'gd-zerofilled', 'e95', 'e99'];
 
 /**
  * Every case of the set at the union of the rules' ranks and COARSE_RANKS (lowrank-hankel, 7×7,
@@ -134,10 +61,8 @@ async function sweep(args: Map<string, string>): Promise<void> {
           [...head, completeWindowCount(zeroFilled.mask, n), ...RULES.map((r) => ranks[r] ?? '')].join(','),
         );
         if (have.has(`${slice.label}|${maskName}|${acceleration}`)) continue;
-        const toRun = new Set([
-          ...COARSE_RANKS,
-          ...Object.values(ranks).filter((r): r is number => r !== null),
-        ]);
+        const picked = RUN_RULES.map((rule) => ranks[rule]).filter((r): r is number => r != null);
+        const toRun = new Set([...COARSE_RANKS, ...picked]);
         for (const rank of [...toRun].sort((p, q) => p - q)) {
           const run = await runCase(slice.image, sampling(acceleration), { name: 'lowrank-hankel', rank });
           lines.push([...head, rank, run.metrics.nrmse.toFixed(5), run.metrics.ssim.toFixed(5)].join(','));
@@ -217,7 +142,6 @@ function evaluate(args: Map<string, string>): void {
 
 const [command, ...rest] = process.argv.slice(2);
 const args = scriptArguments(rest);
-if (command === 'candidates') await candidates(args);
-else if (command === 'sweep') await sweep(args);
+if (command === 'sweep') await sweep(args);
 else if (command === 'evaluate') evaluate(args);
-else console.error('usage: hankel-spectrum.ts candidates|evaluate [--set=tuning|held-out] [--out=…]');
+else console.error('usage: hankel-spectrum.ts sweep|evaluate [--set=tuning|held-out] [--out=…]');

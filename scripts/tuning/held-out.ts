@@ -14,8 +14,8 @@ import { readFileSync, writeFileSync } from 'node:fs';
 import { fft2c } from '../../src/core/centered-fft.ts';
 import { complexFromReal } from '../../src/core/complex-image.ts';
 import { runCase, scriptArguments, TUNING_ACCELERATIONS, TUNING_MASKS } from './cases.ts';
-import { ruleRanks } from './hankel-spectrum.ts';
 import { loadHeldOutSet } from './held-out-set.ts';
+import { ruleRanks } from './rank-rules.ts';
 import { TUNED_METHODS } from './tuned-methods.ts';
 
 const HEADER = 'slice,mask,acceleration,fraction,method,rule,parameter,nrmse,ssim';

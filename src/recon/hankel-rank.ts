@@ -14,6 +14,12 @@ import { HermitianEigenSolver } from './hermitian-eigen.ts';
  * 0.37), so half the area stays. Fixed steps, not a rule of the spectrum: energy thresholds of
  * the spectrum were unstable here (see HANKEL_DEFAULTS).
  */
+/**
+ * Where a lowrank-hankel run's rank came from (info.rankRule): the request's rank or energy, the
+ * acquired-fraction rule of one coil, or the coil-array default (HANKEL_COIL_DEFAULTS).
+ */
+export type HankelRankRule = 'explicit' | 'energy' | 'fraction-default' | 'coil-default';
+
 export const HANKEL_RANK_RULE = {
   /** Acquired fraction from which the larger rank is used. */
   fractionForLargerRank: 0.3,
