@@ -30,7 +30,7 @@ export async function loadSet(name: string, n: number): Promise<TuningSlice[]> {
 /** Fixed ranks run for every case besides the rules' picks, for the best rank per case. */
 const COARSE_RANKS = [18, 25, 32];
 /** The rules whose picks are run (the energy rules 90 % and 99.9 % are listed, not run). */
-const RUN_RULES = ['fraction', 'gd-complete', 'gd-zerofilled', 'e95', 'e99'];
+const RUN_RULES = ['fraction-default', 'gd-complete', 'gd-zerofilled', 'e95', 'e99'];
 
 /**
  * Every case of the set at the union of the rules' ranks and COARSE_RANKS (lowrank-hankel, 7×7,
@@ -82,11 +82,19 @@ function readCsv(path: string): Record<string, string>[] {
   return body.map((line) => Object.fromEntries(line.split(',').map((v, i) => [keys[i], v])));
 }
 
+type Run = { nrmse: number; ssim: number };
+
+/**
+ * Per case and rule: the rule's rank (the fraction rule's where the rule has no complete windows
+ * to work from, as the method would fall back) and its run; the best run of the case. Then per
+ * rule, over the cases where its rank was run: means against the fraction rule's, and wins.
+ */
 function evaluate(args: Map<string, string>): void {
   const picks = readCsv(args.get('candidates') ?? '/tmp/spectrum-candidates.csv');
   const sweep = (args.get('ranks') ?? '/tmp/ranks.csv').split(',').flatMap(readCsv);
   const out = args.get('out') ?? '/tmp/spectrum-evaluation.csv';
-  const runs = new Map<string, { nrmse: number; ssim: number }>();
+  const summaryOut = args.get('summary');
+  const runs = new Map<string, Run>();
   for (const row of sweep) {
     if (!row.rank) continue;
     runs.set(`${row.slice}|${row.mask}|${row.acceleration}|${row.rank}`, {
@@ -94,23 +102,25 @@ function evaluate(args: Map<string, string>): void {
       ssim: Number(row.ssim),
     });
   }
-  const lines = ['slice,mask,acceleration,fraction,rule,rank,nrmse,ssim'];
-  const totals = new Map<string, { nrmse: number; ssim: number; cases: number; missing: number }>();
+  const lines = ['slice,mask,acceleration,fraction,rule,rank,fallback,nrmse,ssim'];
+  const paired = new Map<string, [Run, Run][]>();
+  const missing = new Map<string, number>();
   for (const pick of picks) {
     const key = `${pick.slice}|${pick.mask}|${pick.acceleration}`;
     const swept = [...runs.entries()].filter(([k]) => k.startsWith(`${key}|`));
+    if (swept.length === 0) continue;
     const best = swept.reduce((p, q) => (q[1].nrmse < p[1].nrmse ? q : p));
     const bestSsim = swept.reduce((p, q) => (q[1].ssim > p[1].ssim ? q : p));
-    const entries: [string, string, { nrmse: number; ssim: number } | undefined][] = [
-      ...RULES.map((rule): [string, string, { nrmse: number; ssim: number } | undefined] => [
-        rule,
-        pick[rule],
-        runs.get(`${key}|${pick[rule]}`),
-      ]),
-      ['best-nrmse', best[0].split('|')[3], best[1]],
-      ['best-ssim', bestSsim[0].split('|')[3], bestSsim[1]],
+    const fractionRun = runs.get(`${key}|${pick['fraction-default']}`);
+    const entries: [string, string, boolean, Run | undefined][] = [
+      ...RULES.map((rule): [string, string, boolean, Run | undefined] => {
+        const rank = pick[rule] || pick['fraction-default'];
+        return [rule, rank, !pick[rule], runs.get(`${key}|${rank}`)];
+      }),
+      ['best-nrmse', best[0].split('|')[3], false, best[1]],
+      ['best-ssim', bestSsim[0].split('|')[3], false, bestSsim[1]],
     ];
-    for (const [rule, rank, run] of entries) {
+    for (const [rule, rank, fallback, run] of entries) {
       lines.push(
         [
           pick.slice,
@@ -119,25 +129,40 @@ function evaluate(args: Map<string, string>): void {
           pick.fraction,
           rule,
           rank,
+          fallback ? 'yes' : '',
           run ? run.nrmse.toFixed(5) : '',
           run ? run.ssim.toFixed(5) : '',
         ].join(','),
       );
-      const total = totals.get(rule) ?? { nrmse: 0, ssim: 0, cases: 0, missing: 0 };
-      if (run) {
-        total.nrmse += run.nrmse;
-        total.ssim += run.ssim;
-        total.cases++;
-      } else total.missing++;
-      totals.set(rule, total);
+      if (run && fractionRun) paired.set(rule, [...(paired.get(rule) ?? []), [fractionRun, run]]);
+      else missing.set(rule, (missing.get(rule) ?? 0) + 1);
     }
   }
   writeFileSync(out, `${lines.join('\n')}\n`);
-  for (const [rule, t] of totals) {
-    console.log(
-      `${rule.padEnd(14)} mean NRMSE ${(t.nrmse / t.cases).toFixed(5)}  mean SSIM ${(t.ssim / t.cases).toFixed(5)}  cases ${t.cases}  missing ${t.missing}`,
+  const summary = [
+    'rule,cases,not_run,nrmse_fraction_rule,nrmse_rule,ssim_fraction_rule,ssim_rule,nrmse_lower,nrmse_higher,ssim_higher,ssim_lower',
+  ];
+  for (const [rule, pairs] of paired) {
+    const mean = (pick: (pair: [Run, Run]) => number) =>
+      pairs.reduce((s, p) => s + pick(p), 0) / pairs.length;
+    summary.push(
+      [
+        rule,
+        pairs.length,
+        missing.get(rule) ?? 0,
+        mean((p) => p[0].nrmse).toFixed(5),
+        mean((p) => p[1].nrmse).toFixed(5),
+        mean((p) => p[0].ssim).toFixed(5),
+        mean((p) => p[1].ssim).toFixed(5),
+        pairs.filter((p) => p[1].nrmse < p[0].nrmse).length,
+        pairs.filter((p) => p[1].nrmse > p[0].nrmse).length,
+        pairs.filter((p) => p[1].ssim > p[0].ssim).length,
+        pairs.filter((p) => p[1].ssim < p[0].ssim).length,
+      ].join(','),
     );
   }
+  console.log(summary.join('\n'));
+  if (summaryOut) writeFileSync(summaryOut, `${summary.join('\n')}\n`);
 }
 
 const [command, ...rest] = process.argv.slice(2);

@@ -61,7 +61,7 @@ async function run(args: Map<string, string>): Promise<void> {
         // The rank rules see the mask the pipeline drew (the runs above share it: same seed).
         const zeroFilled = await runCase(slice.image, mask, { name: 'zero-filled' });
         const ranks = ruleRanks(full, zeroFilled.mask, n);
-        for (const rule of ['fraction', ...spectrumRules]) {
+        for (const rule of ['fraction-default', ...spectrumRules]) {
           const rank = ranks[rule];
           if (rank === null) continue;
           row(

@@ -3,14 +3,14 @@ import { rankForEnergy } from '../../src/recon/lowrank-hankel.ts';
 
 /**
  * The rank rules compared for lowrank-hankel (7×7, 'gradient'), evaluated without reconstructing:
- *   fraction      the acquired-fraction rule (defaultHankelRank)
+ *   fraction-default  the acquired-fraction rule (defaultHankelRank)
  *   gd-complete   optimal hard threshold (Gavish & Donoho 2014) on the rows of complete windows
  *   gd-zerofilled the same threshold on every window of the zero-filled k-space
  *   e90 … e999    smallest rank keeping 90 / 95 / 99 / 99.9 % of Σσ² of the complete windows
  */
 export const KERNEL: [number, number] = [7, 7];
 const ENERGIES = [0.9, 0.95, 0.99, 0.999];
-export const RULES = ['fraction', 'gd-complete', 'gd-zerofilled', ...ENERGIES.map(energyLabel)];
+export const RULES = ['fraction-default', 'gd-complete', 'gd-zerofilled', ...ENERGIES.map(energyLabel)];
 
 function energyLabel(energy: number): string {
   return `e${String(energy).slice(2).padEnd(2, '0')}`;
@@ -30,7 +30,7 @@ export function ruleRanks(full: Float64Array, mask: Uint8Array, n: number): Reco
   );
   const power = complete.singularValues.map((s) => s * s);
   return {
-    fraction: defaultHankelRank(KERNEL[0] * KERNEL[1], mask),
+    'fraction-default': defaultHankelRank(KERNEL[0] * KERNEL[1], mask),
     'gd-complete': hardThresholdRank(complete),
     'gd-zerofilled': hardThresholdRank(everyWindow),
     ...Object.fromEntries(
