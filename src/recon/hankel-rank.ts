@@ -36,6 +36,10 @@ export function defaultHankelRank(area: number, mask: Uint8Array): number {
   return Math.min(area, Math.max(1, Math.round(share * area)));
 }
 
+// The spectrum rules below were evaluated against the fraction rule (scripts/tuning/hankel-spectrum.ts,
+// docs/tuning/lowrank-hankel-spectrum*.csv, held-out.csv) and lost on both the tuning and the held-out
+// anatomy, so the default stays the fraction rule (docs/design.md §3.12); they remain for that evaluation.
+
 /**
  * ω(β) of the optimal hard threshold for singular values when the noise level is unknown,
  * τ = ω(β)·median(σ), β = (short side)/(long side) of the matrix: the cubic approximation
