@@ -97,7 +97,7 @@ function summary(args: Map<string, string>): void {
     };
   });
   const lines = [
-    'method,group,rule_before,rule_after,cases,nrmse_before,nrmse_after,ssim_before,ssim_after,nrmse_wins_after,ssim_wins_after',
+    'method,group,rule_before,rule_after,cases,nrmse_before,nrmse_after,ssim_before,ssim_after,nrmse_median_change_pct,nrmse_wins_after,ssim_wins_after',
   ];
   const groups: [string, (slice: string) => boolean][] = [
     ['all', () => true],
@@ -128,6 +128,7 @@ function summary(args: Map<string, string>): void {
             mean((p) => p[1].nrmse).toFixed(5),
             mean((p) => p[0].ssim).toFixed(5),
             mean((p) => p[1].ssim).toFixed(5),
+            medianChangePercent(pairs.map((p) => p[1].nrmse / p[0].nrmse - 1)),
             pairs.filter((p) => p[1].nrmse < p[0].nrmse).length,
             pairs.filter((p) => p[1].ssim > p[0].ssim).length,
           ].join(','),
@@ -136,6 +137,13 @@ function summary(args: Map<string, string>): void {
   }
   console.log(lines.join('\n'));
   if (out) writeFileSync(out, `${lines.join('\n')}\n`);
+}
+
+function medianChangePercent(changes: number[]): string {
+  const sorted = [...changes].sort((p, q) => p - q);
+  const k = sorted.length;
+  const median = k % 2 ? sorted[(k - 1) / 2] : 0.5 * (sorted[k / 2 - 1] + sorted[k / 2]);
+  return (100 * median).toFixed(1);
 }
 
 const [command, ...rest] = process.argv.slice(2);
