@@ -1,5 +1,6 @@
 /**
- * Tunes cs-tv's default λ on real anatomy (docs/design.md "Default λ from anatomy").
+ * Tunes the default λ of cs-tv and cs-wavelet on real anatomy (docs/design.md §3.12); `--method=cs-wavelet`
+ * for the wavelet method (default cs-tv), at its default wavelet, levels and iterations.
  *
  *   npx tsx scripts/tune-defaults.ts sweep --n=96 --shard=0/2 --out=/tmp/sweep-0.csv
  *   npx tsx scripts/tune-defaults.ts sweep --n=96 --masks=vd-lines,poisson-disc --accelerations=8 \
@@ -7,15 +8,16 @@
  *   npx tsx scripts/tune-defaults.ts fit --in=docs/tuning/cs-tv-sweep.csv (the sweeps joined) \
  *     --exclude=poisson-disc:8
  *   npx tsx scripts/tune-defaults.ts compare --n=96 --shard=0/2 --out=/tmp/compare-0.csv   (and 1/2; join the rows)
+ *   npx tsx scripts/tune-defaults.ts sweep --method=cs-wavelet --out=/tmp/cs-wavelet-sweep.csv   (and so on)
  *
  * sweep: every slice of the tuning set (scripts/tuning/anatomy-set.ts) × mask × R × λ on a log
  * grid, noiseless, through runReconstruction; one CSV row per run.
  * fit: the best-NRMSE (and best-SSIM) λ per case, refined by a parabola in log λ through the
  * grid minimum and its neighbours; the least-squares line log λ = log a + b·log(1/f − 1) over the
- * cases; writes docs/tuning/cs-tv-defaults.csv (one row per mask and R). `--exclude=mask:R,…`
+ * cases; writes docs/tuning/<method>-defaults.csv (one row per mask and R). `--exclude=mask:R,…`
  * leaves out failed acquisitions (at 96² the Poisson-disc mask of R 8 without a calibration square
  * gives NRMSE 0.5–0.7 at every λ: not a question of λ).
- * compare: the old rule 0.002·(1/f − 1) against the current default on every case.
+ * compare: the phantom rule (tuning/tuned-methods.ts) against the current default on every case.
  * Needs Debian's mricron-data and python3-nibabel (apt-get install mricron-data python3-nibabel).
  */
 import { readFileSync, writeFileSync } from 'node:fs';
