@@ -1,5 +1,6 @@
 /**
- * Tunes cs-tv's default λ on real anatomy (docs/design.md "Default λ from anatomy").
+ * Tunes the default λ of cs-tv and cs-wavelet on real anatomy (docs/design.md §3.12); `--method=cs-wavelet`
+ * for the wavelet method (default cs-tv), at its default wavelet, levels and iterations.
  *
  *   npx tsx scripts/tune-defaults.ts sweep --n=96 --shard=0/2 --out=/tmp/sweep-0.csv
  *   npx tsx scripts/tune-defaults.ts sweep --n=96 --masks=vd-lines,poisson-disc --accelerations=8 \
@@ -7,29 +8,22 @@
  *   npx tsx scripts/tune-defaults.ts fit --in=docs/tuning/cs-tv-sweep.csv (the sweeps joined) \
  *     --exclude=poisson-disc:8
  *   npx tsx scripts/tune-defaults.ts compare --n=96 --shard=0/2 --out=/tmp/compare-0.csv   (and 1/2; join the rows)
+ *   npx tsx scripts/tune-defaults.ts sweep --method=cs-wavelet --out=/tmp/cs-wavelet-sweep.csv   (and so on)
  *
  * sweep: every slice of the tuning set (scripts/tuning/anatomy-set.ts) × mask × R × λ on a log
  * grid, noiseless, through runReconstruction; one CSV row per run.
  * fit: the best-NRMSE (and best-SSIM) λ per case, refined by a parabola in log λ through the
  * grid minimum and its neighbours; the least-squares line log λ = log a + b·log(1/f − 1) over the
- * cases; writes docs/tuning/cs-tv-defaults.csv (one row per mask and R). `--exclude=mask:R,…`
+ * cases; writes docs/tuning/<method>-defaults.csv (one row per mask and R). `--exclude=mask:R,…`
  * leaves out failed acquisitions (at 96² the Poisson-disc mask of R 8 without a calibration square
  * gives NRMSE 0.5–0.7 at every λ: not a question of λ).
- * compare: the old rule 0.002·(1/f − 1) against the current default on every case.
+ * compare: the phantom rule (tuning/tuned-methods.ts) against the current default on every case.
  * Needs Debian's mricron-data and python3-nibabel (apt-get install mricron-data python3-nibabel).
  */
 import { readFileSync, writeFileSync } from 'node:fs';
-import { defaultTvLambda } from '../src/recon/parameters.ts';
 import { loadTuningSet } from './tuning/anatomy-set.ts';
 import { runCase, scriptArguments, TUNING_ACCELERATIONS, TUNING_MASKS } from './tuning/cases.ts';
-
-/** Factor-2 steps; the phantom rule gave 0.002 at R = 2 and 0.014 at R = 8. */
-export const LAMBDA_GRID = [0.0004, 0.0008, 0.0016, 0.0032, 0.0064, 0.0128, 0.0256];
-
-/** The rule the phantoms gave, kept here only to compare against. */
-function phantomRuleLambda(fraction: number): number {
-  return Math.min(0.05, 0.002 * (1 / Math.min(1, fraction) - 1));
-}
+import { tunedMethod } from './tuning/tuned-methods.ts';
 
 interface SweepRow {
   slice: string;
@@ -47,11 +41,12 @@ const SWEEP_HEADER = 'slice,mask,acceleration,fraction,lambda,nrmse,ssim,iterati
 async function sweep(args: Map<string, string>): Promise<void> {
   const n = Number(args.get('n') ?? 96);
   const [shard, shards] = (args.get('shard') ?? '0/1').split('/').map(Number);
-  const out = args.get('out') ?? '/tmp/cs-tv-sweep.csv';
+  const { name, method } = tunedMethod(args);
+  const out = args.get('out') ?? `/tmp/${name}-sweep.csv`;
   const list = (name: string) => args.get(name)?.split(',');
   const masks = list('masks') ?? Object.keys(TUNING_MASKS);
   const accelerations = list('accelerations')?.map(Number) ?? TUNING_ACCELERATIONS;
-  const lambdas = list('lambdas')?.map(Number) ?? LAMBDA_GRID;
+  const lambdas = list('lambdas')?.map(Number) ?? method.grid;
   const set = await loadTuningSet(n);
   const lines = [SWEEP_HEADER];
   let job = 0;
@@ -61,7 +56,7 @@ async function sweep(args: Map<string, string>): Promise<void> {
       for (const acceleration of accelerations) {
         if (job++ % shards !== shard) continue;
         for (const lambda of lambdas) {
-          const run = await runCase(slice.image, sampling(acceleration), { name: 'cs-tv', lambda });
+          const run = await runCase(slice.image, sampling(acceleration), { name, lambda });
           lines.push(
             [
               slice.label,
@@ -173,8 +168,9 @@ const geometricMean = (values: number[]) =>
   Math.exp(values.reduce((s, v) => s + Math.log(v), 0) / values.length);
 
 function fitRule(args: Map<string, string>): void {
-  const inputs = (args.get('in') ?? '/tmp/cs-tv-sweep.csv').split(',');
-  const out = args.get('out') ?? 'docs/tuning/cs-tv-defaults.csv';
+  const { name, method } = tunedMethod(args);
+  const inputs = (args.get('in') ?? `/tmp/${name}-sweep.csv`).split(',');
+  const out = args.get('out') ?? `docs/tuning/${name}-defaults.csv`;
   const excluded = new Set((args.get('exclude') ?? '').split(',').filter(Boolean));
   const cases = optima(readSweep(inputs)).filter((c) => !excluded.has(`${c.mask}:${c.acceleration}`));
   const xs = cases.map((c) => Math.log(1 / c.fraction - 1));
@@ -213,8 +209,8 @@ function fitRule(args: Map<string, string>): void {
           Math.min(...best).toPrecision(3),
           Math.max(...best).toPrecision(3),
           geometricMean(group.map((c) => c.lambdaSsim)).toPrecision(3),
-          defaultTvLambda(fraction).toPrecision(3),
-          phantomRuleLambda(fraction).toPrecision(3),
+          method.defaultLambda(fraction).toPrecision(3),
+          method.phantomRule(fraction).toPrecision(3),
         ].join(','),
       );
     }
@@ -225,7 +221,8 @@ function fitRule(args: Map<string, string>): void {
 
 async function compare(args: Map<string, string>): Promise<void> {
   const n = Number(args.get('n') ?? 96);
-  const out = args.get('out') ?? 'docs/tuning/cs-tv-before-after.csv';
+  const { name, method } = tunedMethod(args);
+  const out = args.get('out') ?? `docs/tuning/${name}-before-after.csv`;
   const [shard, shards] = (args.get('shard') ?? '0/1').split('/').map(Number);
   const set = (await loadTuningSet(n)).filter((_, i) => i % shards === shard);
   const lines = [
@@ -234,12 +231,9 @@ async function compare(args: Map<string, string>): Promise<void> {
   for (const slice of set) {
     for (const [mask, sampling] of Object.entries(TUNING_MASKS)) {
       for (const acceleration of TUNING_ACCELERATIONS) {
-        const after = await runCase(slice.image, sampling(acceleration), { name: 'cs-tv' });
-        const lambdaBefore = phantomRuleLambda(after.fraction);
-        const before = await runCase(slice.image, sampling(acceleration), {
-          name: 'cs-tv',
-          lambda: lambdaBefore,
-        });
+        const after = await runCase(slice.image, sampling(acceleration), { name });
+        const lambdaBefore = method.phantomRule(after.fraction);
+        const before = await runCase(slice.image, sampling(acceleration), { name, lambda: lambdaBefore });
         lines.push(
           [
             slice.label,

@@ -24,7 +24,15 @@ export interface TuningSlice {
 const MRICRON = '/usr/share/mricron/templates';
 const NIBABEL = '/usr/lib/python3/dist-packages/nibabel/tests/data';
 
-export const TUNING_FILES: { package: string; path: string; slices: number[]; volume?: number }[] = [
+/** Slices of one file of a Debian package. */
+export interface SliceSource {
+  package: string;
+  path: string;
+  slices: number[];
+  volume?: number;
+}
+
+export const TUNING_FILES: SliceSource[] = [
   { package: 'mricron-data', path: `${MRICRON}/inia19-t1-brain.nii.gz`, slices: [56, 72, 88] },
   { package: 'python3-nibabel', path: `${NIBABEL}/example4d.nii.gz`, slices: [6, 12, 18], volume: 0 },
 ];
@@ -36,9 +44,14 @@ function assertNotReserved(path: string): void {
 }
 
 /** Every slice of the tuning set, resampled (bilinear) to n×n and scaled to peak 1. */
-export async function loadTuningSet(n: number): Promise<TuningSlice[]> {
+export function loadTuningSet(n: number): Promise<TuningSlice[]> {
+  return loadSlices(TUNING_FILES, n);
+}
+
+/** The listed slices, resampled (bilinear) to n×n and scaled to peak 1; `volume` labels a 4D file's volume. */
+export async function loadSlices(files: SliceSource[], n: number): Promise<TuningSlice[]> {
   const slices: TuningSlice[] = [];
-  for (const file of TUNING_FILES) {
+  for (const file of files) {
     assertNotReserved(file.path);
     if (!existsSync(file.path)) {
       throw new Error(`${file.path} missing: apt-get install ${file.package}`);
@@ -50,8 +63,9 @@ export async function loadTuningSet(n: number): Promise<TuningSlice[]> {
       let peak = 0;
       for (const v of image.data) peak = Math.max(peak, v);
       for (let i = 0; i < image.data.length; i++) image.data[i] /= peak;
-      const stem = (file.path.split('/').pop() ?? '').replace(/\.nii(\.gz)?$/, '');
-      slices.push({ label: `${stem}:${slice}`, source: `${file.package} ${file.path}`, image });
+      const stem = (file.path.split('/').pop() ?? '').replace(/\.(nii(\.gz)?|dcm)$/, '');
+      const volume = file.volume ? `:v${file.volume}` : '';
+      slices.push({ label: `${stem}:${slice}${volume}`, source: `${file.package} ${file.path}`, image });
     }
   }
   return slices;

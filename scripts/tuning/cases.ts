@@ -23,6 +23,8 @@ export const TUNING_ACCELERATIONS = [2, 4, 8];
 
 export interface CaseResult {
   fraction: number;
+  /** The mask the pipeline drew (1 = acquired). */
+  mask: Uint8Array;
   metrics: MetricSet;
   info: Record<string, unknown>;
 }
@@ -42,7 +44,12 @@ export async function runCase(
     ...(noise ? { noise } : {}),
   });
   const outcome = await runReconstruction(request, undefined, { loadImage: async () => image });
-  return { fraction: outcome.fraction, metrics: outcome.metrics, info: outcome.info };
+  return {
+    fraction: outcome.fraction,
+    mask: outcome.sampled.mask,
+    metrics: outcome.metrics,
+    info: outcome.info,
+  };
 }
 
 /** `--name=value` arguments of a script. */

@@ -27,7 +27,7 @@ export const csWaveletSchema = z.strictObject({
   name: z.literal('cs-wavelet'),
   lambda: rangeField(
     LAMBDA_RULE,
-    'ℓ1-wavelet weight relative to max |Eᴴy| (scale-free); default 0.00025·(1/f − 1), f = acquired fraction, at most 0.02',
+    'ℓ1-wavelet weight relative to max |Eᴴy| (scale-free); default 0.00011·(1/f − 1)^1.2, f = acquired fraction, at most 0.02 (tuned on anatomy)',
   ),
   tvLambda: rangeField(
     LAMBDA_RULE,
@@ -84,8 +84,8 @@ export const csWavelet: ReconMethod<CsWaveletSpec> = {
       wavelet,
       levels,
       lambda,
-      // The same field and words as cs-tv (docs/design.md §3.12); the wavelet default is a fraction rule.
-      lambdaRule: spec.lambda === undefined ? 'fraction-default' : 'explicit',
+      // The same field and words as cs-tv (docs/design.md §3.12).
+      lambdaRule: spec.lambda === undefined ? 'anatomy-default' : 'explicit',
       tvLambda,
       shiftInvariance,
     };

@@ -6,7 +6,7 @@ import { checkMultiCoilShape, transformPlaneInPlace } from '../encoding/index.ts
 import { BlockHankel } from './block-hankel.ts';
 import { combineCoilImages } from './coil-combination.ts';
 import { derivativeWeights } from './derivative-weights.ts';
-import { defaultHankelRank } from './hankel-rank.ts';
+import { defaultHankelRank, type HankelRankRule } from './hankel-rank.ts';
 import { HermitianEigenSolver } from './hermitian-eigen.ts';
 import { STACKED_COLUMNS_MAX, solveLowrankHankelCoils } from './lowrank-hankel-coils.ts';
 import {
@@ -302,9 +302,16 @@ export const lowrankHankel: ReconMethod<LowrankHankelSpec> = {
         allowed: 'rank | energy',
       });
     }
-    const rankMode = spec.rank !== undefined ? 'given' : energy !== undefined ? 'energy' : 'default';
+    const rankRule: HankelRankRule =
+      spec.rank !== undefined
+        ? 'explicit'
+        : energy !== undefined
+          ? 'energy'
+          : input.coils
+            ? 'coil-default'
+            : 'fraction-default';
     const rank =
-      rankMode === 'energy'
+      rankRule === 'energy'
         ? undefined
         : checkedNumber(
             spec.rank,
@@ -338,7 +345,7 @@ export const lowrankHankel: ReconMethod<LowrankHankelSpec> = {
           weighting,
           iterations,
           tolerance,
-          rankMode,
+          rankRule,
         },
         signal,
       );
@@ -356,7 +363,7 @@ export const lowrankHankel: ReconMethod<LowrankHankelSpec> = {
       info: {
         solver:
           'alternating projections: block-Hankel rank truncation (Householder–QL eigendecomposition of the Gram matrix), averaging, data consistency',
-        ...runInfo({ kernel, weighting, rankMode, energy, iterations, tolerance }, result),
+        ...runInfo({ kernel, weighting, rankRule, energy, iterations, tolerance }, result),
       },
     };
   },
@@ -370,7 +377,7 @@ function runInfo(
   params: {
     kernel: [number, number];
     weighting: HankelWeighting;
-    rankMode: string;
+    rankRule: HankelRankRule;
     energy?: number;
     iterations: number;
     tolerance: number;
@@ -387,7 +394,7 @@ function runInfo(
   return {
     kernel: params.kernel,
     weighting: params.weighting,
-    rankMode: params.rankMode,
+    rankRule: params.rankRule,
     rank: result.rank,
     ...(params.energy !== undefined ? { energy: params.energy } : {}),
     energyKept: total > 0 ? kept / total : 1,
@@ -406,7 +413,7 @@ function runInfo(
 function runOnCoils(
   mask: Uint8Array,
   coils: CoilData,
-  params: HankelSolveParams & { rankMode: string },
+  params: HankelSolveParams & { rankRule: HankelRankRule },
   signal?: AbortSignal,
 ): ReconOutput {
   const { kspace, maps } = coils;
@@ -425,7 +432,7 @@ function runOnCoils(
       coils: kspace.coils,
       combination: maps ? 'sensitivity-weighted (given maps)' : 'root-sum-of-squares',
       columns: kspace.coils * params.kernel[0] * params.kernel[1],
-      ...runInfo({ ...params, energy: params.rankMode === 'energy' ? params.energy : undefined }, result),
+      ...runInfo({ ...params, energy: params.rankRule === 'energy' ? params.energy : undefined }, result),
     },
   };
 }

@@ -81,17 +81,26 @@ export function checkedChoice<T extends string>(
   return value as T;
 }
 
+/** The anatomy rule of cs-wavelet λ = WAVELET_LAMBDA_SCALE·(1/f − 1)^WAVELET_LAMBDA_POWER (docs/design.md §3.12). */
+export const WAVELET_LAMBDA_SCALE = 0.00011;
+export const WAVELET_LAMBDA_POWER = 1.2;
+/** Upper end of the default, kept from the phantom rule: beyond the tuned range (best λ ≤ 0.0016 down to f = 1/8). */
+export const WAVELET_LAMBDA_DEFAULT_MAX = 0.02;
+
 /**
- * Default relative wavelet weight of cs-wavelet from the acquired fraction f:
- * λ = 0.00025·(1/f − 1), at most 0.02, and 0 at full sampling. The coefficient was chosen at R = 4
- * on the 1974 Shepp–Logan and the resolution-contrast phantoms (analytic k-space, 128², seed 11,
- * db4, 4 levels, cycle spinning, 150–200 iterations), where the best λ was 0.0005–0.001; the growth
- * with 1/f − 1 is carried over from the earlier phantom-tuned cs-tv rule 0.002·(1/f − 1), not
- * measured for wavelets (the anatomy tuning of docs/design.md §3.12 covers cs-tv only).
+ * Default relative wavelet weight of cs-wavelet (db4, 4 levels, cycle spinning) from the acquired
+ * fraction f: λ = 0.00011·(1/f − 1)^1.2, at most 0.02; 0 at full sampling. Fitted (least squares in
+ * log λ against log(1/f − 1): 0.000114·(1/f − 1)^1.195, rounded) to the best-NRMSE λ of 48 noiseless
+ * cases of the anatomy tuning set of cs-tv (INIA19 T1 template, Debian mricron-data; nibabel's
+ * example4d EPI, Debian python3-nibabel; 96², lines, Poisson-disc and rasterised golden-angle masks,
+ * R 2–8 without Poisson-disc R 8, which fails at every λ): scripts/tune-defaults.ts --method=cs-wavelet,
+ * docs/tuning/cs-wavelet-defaults.csv. The earlier rule 0.00025·(1/f − 1), chosen at R = 4 on
+ * phantoms, was 2–3× the anatomy optimum at R = 2 and for radial masks.
  */
 export function defaultCsWaveletLambda(fraction: number): number {
-  if (!(fraction > 0)) return 0.02;
-  return Math.min(0.02, 0.00025 * (1 / Math.min(1, fraction) - 1));
+  if (!(fraction > 0)) return WAVELET_LAMBDA_DEFAULT_MAX;
+  const excess = 1 / Math.min(1, fraction) - 1;
+  return Math.min(WAVELET_LAMBDA_DEFAULT_MAX, WAVELET_LAMBDA_SCALE * excess ** WAVELET_LAMBDA_POWER);
 }
 
 /** The anatomy rule λ = TV_LAMBDA_SCALE·(1/f − 1)^TV_LAMBDA_POWER (docs/design.md §3.12). */

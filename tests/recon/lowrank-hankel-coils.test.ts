@@ -36,7 +36,7 @@ describe('lowrank-hankel on the coils’ stacked block-Hankel matrices (Shin et 
       combination: 'root-sum-of-squares',
       kernel: [3, 3],
       rank: 18,
-      rankMode: 'default',
+      rankRule: 'coil-default',
       weighting: 'none',
       columns: 72,
       iterations: 50,

@@ -38,7 +38,7 @@ describe('lowrank-hankel completion', () => {
       { kspace, mask },
       { name: 'lowrank-hankel', kernel: 6, rank: 4, weighting: 'none', iterations: 600, tolerance: 1e-13 },
     );
-    expect(out.info.rankMode).toBe('given');
+    expect(out.info.rankRule).toBe('explicit');
     expect(out.info.rank).toBe(4);
     const reference = ifft2c(truth);
     expect(relativeError(out.image.data, reference.data)).toBeLessThan(1e-6);
@@ -115,23 +115,28 @@ describe('lowrank-hankel completion', () => {
       { kspace: truth, mask: fullMask(nx, ny) },
       { name: 'lowrank-hankel', kernel: 6, energy: 0.999999, weighting: 'none', iterations: 2 },
     );
-    expect(out.info.rankMode).toBe('energy');
+    expect(out.info.rankRule).toBe('energy');
     expect(out.info.rank).toBe(3);
     expect(out.info.energyKept as number).toBeGreaterThan(0.999999);
   });
 
-  it('without rank or energy uses 0.65 × window area from f ≥ 0.3, else half of it, and reports rankMode default', () => {
+  it('without rank or energy uses 0.65 × window area from f ≥ 0.3, else half of it, and reports rankRule fraction-default', () => {
     // The rank rule of src/recon/hankel-rank.ts (tuned on anatomy, docs/design.md §3.12), worked
     // by hand for 7×7 = 49: round(0.65·49) = round(31.85) = 32 at full sampling; round(24.5) = 25 at f = ¼.
     const nx = 16;
     const ny = 16;
     const kspace = fft2c(randomComplexImage(nx, ny, 4));
     const full = reconstruct({ kspace, mask: fullMask(nx, ny) }, { name: 'lowrank-hankel', iterations: 1 });
-    expect(full.info).toMatchObject({ rankMode: 'default', rank: 32, kernel: [7, 7], weighting: 'gradient' });
+    expect(full.info).toMatchObject({
+      rankRule: 'fraction-default',
+      rank: 32,
+      kernel: [7, 7],
+      weighting: 'gradient',
+    });
     const quarter = new Uint8Array(nx * ny);
     for (let i = 0; i < nx * ny; i += 4) quarter[i] = 1;
     const sparse = reconstruct({ kspace, mask: quarter }, { name: 'lowrank-hankel', iterations: 1 });
-    expect(sparse.info).toMatchObject({ rankMode: 'default', rank: 25 });
+    expect(sparse.info).toMatchObject({ rankRule: 'fraction-default', rank: 25 });
   });
 });
 
