@@ -11,10 +11,12 @@ const COMPLEX64 = 32;
 
 /**
  * The stored form of a fully sampled Cartesian acquisition bundle (docs/design.md §4.11): the
- * complex64 NIfTI of the `nifti` part (.nii, or .nii.gz inflated with the upload bound), voxel (u, v, w, c) = column u, row v (row 0 at the top) and,
- * for a 3D volume, partition w (kz = w − ⌊nz/2⌋) of coil c in array order — the raw store's own
- * order (coil-major, then partition, row, column) — copied sample for sample into the coil k-space,
- * so an export imported again holds exactly the exported numbers (a volume as 3D raw data, nz > 1). The header (acquisition.json, the `header` part) is
+ * complex64 NIfTI of the `nifti` part (.nii, or .nii.gz inflated with the upload bound), voxel
+ * (u, v, w, c) = column u, row v (row 0 at the top) and, for a 3D volume, partition w
+ * (kz = w − ⌊nz/2⌋) of coil c in array order — the raw store's own order (coil-major, then
+ * partition, row, column) — copied sample for sample into the coil k-space, so an export imported
+ * again holds exactly the exported numbers (a volume as 3D raw data, nz > 1). The header
+ * (acquisition.json, the `header` part) is
  * checked first (parseAcquisitionBundleHeader), so an undersampled bundle is refused unread.
  * Noise: data whose variance per complex sample is known and positive keep it as the covariance
  * Ψ = v·I, so reconstructions prewhiten them to unit variance as they do an ISMRMRD file with
