@@ -33,8 +33,11 @@ export async function rawRoutes(app: FastifyInstance): Promise<void> {
           'multipart/form-data (within the upload limit) with either an ISMRMRD file in the part `file`, or an ' +
           'acquisition bundle as exported by GET /v1/results/{id}/acquisition.nii and .json in the parts `nifti` ' +
           'and `header`. Refused (422, naming the field) when non-Cartesian, not fully sampled (a bundle: ' +
-          '`header.samples.count` with the acquired fraction), 3D, or with several slices, contrasts or ' +
-          'repetitions, or when the bundle’s NIfTI contradicts its header. Subject, study and free text of a ' +
+          '`header.samples.count` with the acquired fraction; a 3D bundle: the ky–kz points acquired), a ' +
+          'multi-slice volume’s bundle (`header.volume.acquisition`: its slices are separate 2D acquisitions), ' +
+          'or with several slices, contrasts or repetitions, or when the bundle’s NIfTI contradicts its header. ' +
+          'A 3D acquisition (an ISMRMRD file or a 3D volume’s bundle) is stored with its partitions (nz > 1). ' +
+          'Subject, study and free text of a ' +
           'header are never read, stored, logged or returned.',
         tags: ['raw'],
         response: {

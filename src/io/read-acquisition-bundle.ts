@@ -11,9 +11,12 @@ const COMPLEX64 = 32;
 
 /**
  * The stored form of a fully sampled Cartesian acquisition bundle (docs/design.md §4.11): the
- * complex64 NIfTI of the `nifti` part (.nii, or .nii.gz inflated with the upload bound), voxel (u, v, 0, c) = column u, row v (row 0 at the top) of
- * coil c in array order, copied sample for sample into the coil k-space, so an export imported
- * again holds exactly the exported numbers. The header (acquisition.json, the `header` part) is
+ * complex64 NIfTI of the `nifti` part (.nii, or .nii.gz inflated with the upload bound), voxel
+ * (u, v, w, c) = column u, row v (row 0 at the top) and, for a 3D volume, partition w
+ * (kz = w − ⌊nz/2⌋) of coil c in array order — the raw store's own order (coil-major, then
+ * partition, row, column) — copied sample for sample into the coil k-space, so an export imported
+ * again holds exactly the exported numbers (a volume as 3D raw data, nz > 1). The header
+ * (acquisition.json, the `header` part) is
  * checked first (parseAcquisitionBundleHeader), so an undersampled bundle is refused unread.
  * Noise: data whose variance per complex sample is known and positive keep it as the covariance
  * Ψ = v·I, so reconstructions prewhiten them to unit variance as they do an ISMRMRD file with
@@ -24,8 +27,8 @@ export async function readAcquisitionBundle(
   headerBytes: Uint8Array,
   limits: Limits,
 ): Promise<ImportedRawKspace> {
-  const header = parseAcquisitionBundleHeader(headerBytes);
-  const { nx, ny, coils, dims } = header;
+  const header = parseAcquisitionBundleHeader(headerBytes, limits.maxMatrixSide);
+  const { nx, ny, nz, coils, dims } = header;
   const options = {
     maxSide: limits.maxMatrixSide,
     maxBytes: limits.maxUploadBytes,
@@ -55,22 +58,24 @@ export async function readAcquisitionBundle(
       allowed: 'acquisition.nii as exported',
     });
   }
-  const kspace = createMultiCoilArray(coils, nx, ny);
+  // A 3D volume's nz partitions per coil follow each other as the ISMRMRD reader stores them.
+  const kspace = createMultiCoilArray(coils * nz, nx, ny);
   const view = new DataView(nifti.buffer, nifti.byteOffset, nifti.byteLength);
   for (let i = 0; i < kspace.data.length; i++) {
     const value = view.getFloat32(facts.voxOffset + 4 * i, facts.littleEndian);
-    if (!Number.isFinite(value)) throw notFinite(i, nx * ny, nx);
+    if (!Number.isFinite(value)) throw notFinite(i, dims);
     kspace.data[i] = value;
   }
   const variance = header.noise.variancePerSample;
   const known = variance !== null && variance > 0;
   return {
-    kspace,
+    kspace: { ...kspace, coils },
+    ...(nz > 1 ? { nz } : {}),
     noiseCovariance: known ? identityCovariance(coils, variance) : null,
     facts: {
       nx,
       ny,
-      nz: 1,
+      nz,
       coils,
       readoutOversampling: 1,
       readoutSamples: nx,
@@ -94,14 +99,15 @@ function identityCovariance(coils: number, variance: number): Float64Array {
   return psi;
 }
 
-function notFinite(index: number, plane: number, nx: number): ValidationError {
+function notFinite(index: number, [nx, ny, nz]: readonly number[]): ValidationError {
   const voxel = index >> 1;
-  const c = Math.floor(voxel / plane);
-  const v = Math.floor((voxel % plane) / nx);
   const u = voxel % nx;
+  const v = Math.floor(voxel / nx) % ny;
+  const w = Math.floor(voxel / (nx * ny)) % nz;
+  const c = Math.floor(voxel / (nx * ny * nz));
   return new ValidationError({
     field: 'nifti',
-    message: `sample (u ${u}, v ${v}, coil ${c}) is not a finite number`,
+    message: `sample (u ${u}, v ${v}${nz > 1 ? `, w ${w}` : ''}, coil ${c}) is not a finite number`,
     allowed: 'finite complex64 samples',
   });
 }

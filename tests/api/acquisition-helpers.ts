@@ -24,3 +24,39 @@ export async function download(t: Pick<TestApp, 'http'>, path: string): Promise<
   expect(res.status).toBe(200);
   return res.body as Buffer;
 }
+
+/** Bytes of the NIfTI-1 header and extension flag the export writes before the voxels (nifti1.h). */
+export const VOXELS_AT = 352;
+
+// biome-ignore lint/suspicious/noExplicitAny: acquisition.json as parsed; the test reads a few of its fields
+export type BundleJson = Record<string, any>;
+export type Bundle = { nifti: Buffer; header: Buffer; json: BundleJson };
+
+/** A result's acquisition bundle as GET /v1/results/{id}/acquisition.nii and .json give it. */
+export async function exported(t: Pick<TestApp, 'http'>, id: string): Promise<Bundle> {
+  const nifti = await download(t, `/v1/results/${id}/acquisition.nii`);
+  const header = await download(t, `/v1/results/${id}/acquisition.json`);
+  return { nifti, header, json: JSON.parse(header.toString('utf8')) };
+}
+
+/** POST /v1/raw with the bundle's two parts, `nifti` and `header`. */
+export function importBundle(t: Pick<TestApp, 'http'>, nifti: Buffer, header: Buffer | string) {
+  return t
+    .http()
+    .post('/v1/raw')
+    .attach('nifti', nifti, 'acquisition.nii')
+    .attach('header', Buffer.from(header), 'acquisition.json');
+}
+
+/** The exported voxels as float32 (little-endian, as the export writes them). */
+export function voxels(nifti: Buffer): Float32Array {
+  return new Float32Array(nifti.buffer.slice(nifti.byteOffset + VOXELS_AT, nifti.byteOffset + nifti.length));
+}
+
+/** How many values differ in their bits (Object.is: −0 and NaN count); the lengths must agree. */
+export function differing(a: ArrayLike<number>, b: ArrayLike<number>): number {
+  expect(a.length).toBe(b.length);
+  let count = 0;
+  for (let i = 0; i < a.length; i++) if (!Object.is(a[i], b[i])) count++;
+  return count;
+}

@@ -2,8 +2,17 @@ import { readFileSync } from 'node:fs';
 import { gzipSync } from 'node:zlib';
 import { describe, expect, it } from 'vitest';
 import { relativeMaxError } from '../error-measures.ts';
-import { download, reconstructWithBundle } from './acquisition-helpers.ts';
-import { expectDocumented, expectProblem, sharedTestApp, type TestApp } from './helpers.ts';
+import {
+  differing,
+  download,
+  exported,
+  importBundle,
+  type BundleJson as Json,
+  reconstructWithBundle,
+  VOXELS_AT,
+  voxels,
+} from './acquisition-helpers.ts';
+import { expectDocumented, expectProblem, sharedTestApp } from './helpers.ts';
 
 /**
  * POST /v1/raw with an acquisition bundle (docs/design.md §4.8, §4.11): what GET
@@ -13,39 +22,6 @@ import { expectDocumented, expectProblem, sharedTestApp, type TestApp } from './
  * bundle's samples are float32 and the raw store keeps float32.
  */
 const fixture = readFileSync(new URL('../fixtures/ismrmrd/shepp-logan-4coil.h5', import.meta.url));
-
-/** Bytes of the NIfTI-1 header and extension flag the export writes before the voxels (nifti1.h). */
-const VOXELS_AT = 352;
-
-// biome-ignore lint/suspicious/noExplicitAny: acquisition.json as parsed; the test reads a few of its fields
-type Json = Record<string, any>;
-type Bundle = { nifti: Buffer; header: Buffer; json: Json };
-
-async function exported(t: TestApp, id: string): Promise<Bundle> {
-  const nifti = await download(t, `/v1/results/${id}/acquisition.nii`);
-  const header = await download(t, `/v1/results/${id}/acquisition.json`);
-  return { nifti, header, json: JSON.parse(header.toString('utf8')) };
-}
-
-function importBundle(t: TestApp, nifti: Buffer, header: Buffer | string) {
-  return t
-    .http()
-    .post('/v1/raw')
-    .attach('nifti', nifti, 'acquisition.nii')
-    .attach('header', Buffer.from(header), 'acquisition.json');
-}
-
-/** The exported voxels as float32 (little-endian, as the export writes them). */
-function voxels(nifti: Buffer): Float32Array {
-  return new Float32Array(nifti.buffer.slice(nifti.byteOffset + VOXELS_AT, nifti.byteOffset + nifti.length));
-}
-
-function differing(a: ArrayLike<number>, b: ArrayLike<number>): number {
-  expect(a.length).toBe(b.length);
-  let count = 0;
-  for (let i = 0; i < a.length; i++) if (!Object.is(a[i], b[i])) count++;
-  return count;
-}
 
 const fullySampled = { pattern: 'cartesian-uniform', acceleration: 1 };
 

@@ -1,4 +1,5 @@
 import { readFileSync } from 'node:fs';
+import { ifft2c } from '../../../src/core/centered-fft.ts';
 import type { MultiCoilKspace } from '../../../src/encoding/index.ts';
 import { maxAbsDifference } from '../../error-measures.ts';
 
@@ -71,4 +72,27 @@ export function hybridPlane(kspace: MultiCoilKspace, nz: number, x: number): Mul
     }
   }
   return { coils, nx: nz, ny, data };
+}
+
+/**
+ * The root-sum-of-squares volume (x fastest) of a 3D coil k-space, independently of the service's
+ * readout transform: the written-out inverse DFT along kx gives each x-plane (ky × kz) of every
+ * coil (hybridPlane); ifft2c of that plane is the coil image's y–z plane.
+ */
+export function rssVolume(kspace: MultiCoilKspace, nz: number): Float64Array {
+  const { coils, nx, ny } = kspace;
+  const rss = new Float64Array(nx * ny * nz);
+  for (let x = 0; x < nx; x++) {
+    const plane = hybridPlane(kspace, nz, x);
+    for (let c = 0; c < coils; c++) {
+      const image = ifft2c({ nx: nz, ny, data: plane.data.slice(2 * c * ny * nz, 2 * (c + 1) * ny * nz) });
+      for (let y = 0; y < ny; y++) {
+        for (let z = 0; z < nz; z++) {
+          const at = 2 * (y * nz + z);
+          rss[(z * ny + y) * nx + x] += image.data[at] ** 2 + image.data[at + 1] ** 2;
+        }
+      }
+    }
+  }
+  return rss.map(Math.sqrt);
 }
