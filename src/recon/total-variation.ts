@@ -71,34 +71,6 @@ export function divergence(
   }
 }
 
-/**
- * One dual step of isotropic TV in a primal–dual scheme (Chambolle & Pock 2011): p ← p + σ∇x̄, then
- * the projection onto the λ-ball per pixel, |p| taken over both directions and re/im. `gx`, `gy`
- * hold ∇x̄ (from `gradient`); all arrays are interleaved complex of the same length.
- */
-export function tvDualStep(
-  px: Float64Array,
-  py: Float64Array,
-  gx: Float64Array,
-  gy: Float64Array,
-  sigma: number,
-  lambda: number,
-): void {
-  const lambda2 = lambda * lambda;
-  for (let i = 0; i < px.length; i += 2) {
-    const a = px[i] + sigma * gx[i];
-    const b = px[i + 1] + sigma * gx[i + 1];
-    const c = py[i] + sigma * gy[i];
-    const d = py[i + 1] + sigma * gy[i + 1];
-    const s = a * a + b * b + c * c + d * d;
-    const scale = s > lambda2 ? lambda / Math.sqrt(s) : 1;
-    px[i] = a * scale;
-    px[i + 1] = b * scale;
-    py[i] = c * scale;
-    py[i + 1] = d * scale;
-  }
-}
-
 /** Isotropic TV of a complex image: Σ sqrt(|(∇x)₁|² + |(∇x)₂|²), complex moduli (docs/references.md §5.2). */
 export function totalVariation(x: Float64Array, nx: number, ny: number): number {
   let tv = 0;
@@ -154,21 +126,69 @@ export function gradientNormSquared(nx: number, ny: number, iterations = 500, se
 
 /**
  * One dual step of the TV term in Chambolle–Pock (K = ∇): p ← proj_{‖·‖≤λ}(p + σ∇x̄), then
- * div ← div p for the primal step x − τ∇ᴴp = x + τ div p. gx, gy are scratch.
+ * div ← div p for the primal step x − τ∇ᴴp = x + τ div p. One pass over the arrays: at pixel
+ * (i, j) the gradient of x̄ is formed on the fly and div p needs p at (i, j−1) and (i−1, j), which
+ * the row-major sweep has already updated; the arithmetic is that of `gradient`, the per-pixel projection onto the λ-ball (|p|
+ * over both directions and re/im, isotropic TV) and `divergence` in turn, so the results agree
+ * with three separate passes bit for bit.
  */
 export function tvDualAscent(
   div: Float64Array,
   px: Float64Array,
   py: Float64Array,
-  gx: Float64Array,
-  gy: Float64Array,
   xBar: Float64Array,
   nx: number,
   ny: number,
   sigma: number,
   lambda: number,
 ): void {
-  gradient(gx, gy, xBar, nx, ny);
-  tvDualStep(px, py, gx, gy, sigma, lambda);
-  divergence(div, px, py, nx, ny);
+  const lambda2 = lambda * lambda;
+  const rowStep = 2 * nx;
+  for (let i = 0; i < ny; i++) {
+    const lastRow = i === ny - 1;
+    for (let j = 0; j < nx; j++) {
+      const k = 2 * (i * nx + j);
+      const re = xBar[k];
+      const im = xBar[k + 1];
+      const lastColumn = j === nx - 1;
+      const g1 = lastColumn ? 0 : xBar[k + 2] - re;
+      const g2 = lastColumn ? 0 : xBar[k + 3] - im;
+      const g3 = lastRow ? 0 : xBar[k + rowStep] - re;
+      const g4 = lastRow ? 0 : xBar[k + rowStep + 1] - im;
+      const a = px[k] + sigma * g1;
+      const b = px[k + 1] + sigma * g2;
+      const c = py[k] + sigma * g3;
+      const d = py[k + 1] + sigma * g4;
+      const s = a * a + b * b + c * c + d * d;
+      const scale = s > lambda2 ? lambda / Math.sqrt(s) : 1;
+      const pa = a * scale;
+      const pb = b * scale;
+      const pc = c * scale;
+      const pd = d * scale;
+      px[k] = pa;
+      px[k + 1] = pb;
+      py[k] = pc;
+      py[k + 1] = pd;
+      let dr = 0;
+      let di = 0;
+      if (!lastColumn) {
+        dr += pa;
+        di += pb;
+      }
+      if (j > 0) {
+        dr -= px[k - 2];
+        di -= px[k - 1];
+      }
+      if (!lastRow) {
+        dr += pc;
+        di += pd;
+      }
+      if (i > 0) {
+        dr -= py[k - rowStep];
+        di -= py[k - rowStep + 1];
+      }
+      div[k] = dr;
+      div[k + 1] = di;
+    }
+  }
 }
