@@ -54,7 +54,7 @@ export interface PreconditionedOptions {
  * frequencies the mask misses take large steps, which a scalar τ ≤ 1/(σ‖∇‖²) cannot.
  * Per iteration: one pass for the dual ascent at x̄ = 2x_k − x_{k−1}, the projection, div p and the
  * iterate change; fft2c(div p); one pass over k-space; ifft2c into the buffer of x_{k−1}. No copies,
- * no allocation. Start x⁰ = F_cᴴ(M y), p⁰ = 0; stops after `iterations` or by the StoppingRule, whose
+ * no allocation. Start x⁰ = F_cᴴ(M y), p⁰ = proj(σ∇x⁰); stops after `iterations` or by the StoppingRule, whose
  * objective takes the data term from the k-space pass and TV only when the iterate test passes.
  */
 export function solveCsTvPreconditioned(
@@ -82,11 +82,15 @@ export function solveCsTvPreconditioned(
   }
   let current = ifft2c(spectrum);
   let next: ComplexImage = { nx, ny, data: new Float64Array(2 * n) };
-  // div p (zero for p⁰ = 0), then its spectrum and the primal step's.
+  // div p, then its spectrum and the primal step's.
   const work: ComplexImage = { nx, ny, data: new Float64Array(2 * n) };
   const px = new Float64Array(2 * n);
   const py = new Float64Array(2 * n);
   const metric = { eigenX: laplacianEigenvalues(nx), eigenY: laplacianEigenvalues(ny), sigma, delta, rho };
+  // p⁰ = proj(σ∇x⁰), not 0: from p = 0 the first primal step would return x⁰ itself (x⁰ already
+  // fits the data and div 0 = 0) and the stopping rule would see no change.
+  next.data.set(current.data);
+  dualPass(work.data, px, py, next.data, current.data, nx, ny, { ...metric, rho: 1 }, lambdaAbs);
   const rule = new StoppingRule(tolerance);
   // ½‖M F x − y‖² of x_k and x_{k−1}: x⁰ fits the data exactly.
   let residual = 0;

@@ -6,12 +6,13 @@ Both minimise, over complex x (ny x nx),
     1/2 ||M F_c x - y||^2 + lam * TV_iso(x)
 
 with F_c = fftshift . fft2(norm='ortho') . ifftshift, TV_iso from forward differences whose last
-difference is zero (Neumann), lam absolute, and start from x0 = F_c^H(M y), p0 = 0:
+difference is zero (Neumann), lam absolute, and start from x0 = F_c^H(M y):
 
 * plain: Chambolle & Pock 2011 (theta = 1), K = grad, tau = sigma = 0.99/sqrt(8), the data prox
-  exact in k-space: prox(v) = F_c^H[(F_c v + tau M y) / (1 + tau M)];
+  exact in k-space: prox(v) = F_c^H[(F_c v + tau M y) / (1 + tau M)], p0 = 0;
 * preconditioned: the same iteration with the primal metric T^-1 = sigma grad_p^H grad_p + delta I
-  (grad_p periodic, diagonal under F_c; Pock & Chambolle 2011) and relaxation rho, primal half first:
+  (grad_p periodic, diagonal under F_c; Pock & Chambolle 2011) and relaxation rho, primal half first
+  from p0 = proj(sigma grad x0) (p0 = 0 would make the first step return x0):
   X~ = (F_c div p + t X + M y)/(M + t), t = sigma(4sin^2(pi u/nx) + 4sin^2(pi v/ny)) + delta,
   p~ = proj(p + sigma grad(2x~ - x)), (x, p) <- rho (x~, p~) + (1 - rho)(x, p).
 
@@ -99,9 +100,9 @@ def preconditioned(y, mask, lam, iterations, sigma, delta, rho):
     t = sigma * (ey[:, None] + ex[None, :]) + delta
     X = np.where(mask, y, 0)
     x = ifft2c(X)
-    px = np.zeros_like(x)
-    py = np.zeros_like(x)
-    div = np.zeros_like(x)
+    gx, gy = gradient(x)
+    px, py = project(sigma * gx, sigma * gy, lam)
+    div = divergence(px, py)
     for _ in range(iterations):
         D = fft2c(div)
         Xt = np.where(mask, (D + t * X + y) / (1 + t), (D + t * X) / t)
