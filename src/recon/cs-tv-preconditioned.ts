@@ -23,7 +23,7 @@ export const DELTA_PER_SIGMA = 1e-3;
  * relaxed proximal-point step in the metric of the primal–dual iteration; He & Yuan 2012,
  * Chambolle & Pock 2016). Measured below.
  */
-export const RELAXATION = 1;
+export const RELAXATION = 1.5;
 
 /** The dual step of a run with relative TV weight λ_rel. */
 export function preconditionedSigma(lambdaRelative: number): number {
