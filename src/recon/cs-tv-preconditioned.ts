@@ -80,13 +80,18 @@ export function solveCsTvPreconditioned(
       X[2 * i + 1] = y[2 * i + 1];
     }
   }
+  // M y, zero off the mask whatever the input holds there (the k-space pass multiplies by it).
+  const data = X.slice();
   let current = ifft2c(spectrum);
   let next: ComplexImage = { nx, ny, data: new Float64Array(2 * n) };
   // div p, then its spectrum and the primal step's.
   const work: ComplexImage = { nx, ny, data: new Float64Array(2 * n) };
   const px = new Float64Array(2 * n);
   const py = new Float64Array(2 * n);
-  const metric = { eigenX: laplacianEigenvalues(nx), eigenY: laplacianEigenvalues(ny), sigma, delta, rho };
+  const eigenX = laplacianEigenvalues(nx);
+  const eigenY = laplacianEigenvalues(ny);
+  const gain = metricGain(mask, eigenX, eigenY, sigma, delta);
+  const metric: Metric = { eigenX, eigenY, sigma, delta, rho, gain };
   // p⁰ = proj(σ∇x⁰), not 0: from p = 0 the first primal step would return x⁰ itself (x⁰ already
   // fits the data and div 0 = 0) and the stopping rule would see no change.
   next.data.set(current.data);
@@ -102,7 +107,7 @@ export function solveCsTvPreconditioned(
     throwIfAborted(signal);
     fft2c(work, work);
     residualBefore = residual;
-    residual = primalSpectrum(X, work.data, y, mask, metric);
+    residual = primalSpectrum(X, work.data, data, mask, metric);
     ifft2c(work, next);
     // `next` holds x̃; the pass turns it into x_{k+1} = ρx̃ + (1 − ρ)x_k, `current` keeps x_k.
     const change = dualPass(work.data, px, py, next.data, current.data, nx, ny, metric, lambdaAbs);
@@ -140,6 +145,8 @@ interface Metric {
   sigma: number;
   delta: number;
   rho: number;
+  /** 1/(M + t) per sample. */
+  gain: Float64Array;
 }
 
 /** 4sin²(π(a − ⌊n/2⌋)/n): the periodic second difference's eigenvalue at centred index a. */
@@ -251,18 +258,12 @@ function dualPass(
 }
 
 /**
- * The primal half in k-space: X̃ = (D + t·X + M y)/(M + t) into `D` (which held D = F_c div p),
- * t = σ(λ_u + λ_v) + δ, and X ← ρX̃ + (1 − ρ)X, the spectrum of x_{k+1}; returns ½‖M X − y‖² of the
- * new X.
+ * The primal half in k-space: X̃ = (D + t·X + M y)·g into `D` (which held D = F_c div p), with
+ * t = σ(λ_u + λ_v) + δ and g = 1/(M + t) from `metric.gain`, and X ← ρX̃ + (1 − ρ)X, the spectrum
+ * of x_{k+1}; returns ½‖M X − y‖² of the new X. Branch-free: y is zero off the mask.
  */
-function primalSpectrum(
-  X: Float64Array,
-  D: Float64Array,
-  y: Float64Array,
-  mask: Uint8Array,
-  metric: Metric,
-): number {
-  const { eigenX, eigenY, sigma, delta, rho } = metric;
+function primalSpectrum(X: Float64Array, D: Float64Array, y: Float64Array, mask: Uint8Array, metric: Metric): number {
+  const { eigenX, eigenY, sigma, delta, rho, gain } = metric;
   const keep = 1 - rho;
   const nx = eigenX.length;
   const ny = eigenY.length;
@@ -271,31 +272,42 @@ function primalSpectrum(
     const rowShare = sigma * eigenY[r] + delta;
     for (let c = 0, i = r * nx, k = 2 * r * nx; c < nx; c++, i++, k += 2) {
       const t = rowShare + sigma * eigenX[c];
+      const g = gain[i];
       const xr = X[k];
       const xi = X[k + 1];
-      if (mask[i]) {
-        const gain = 1 / (1 + t);
-        const tr = (D[k] + t * xr + y[k]) * gain;
-        const ti = (D[k + 1] + t * xi + y[k + 1]) * gain;
-        D[k] = tr;
-        D[k + 1] = ti;
-        const nr = rho * tr + keep * xr;
-        const ni = rho * ti + keep * xi;
-        X[k] = nr;
-        X[k + 1] = ni;
-        const a = nr - y[k];
-        const b = ni - y[k + 1];
-        residual += a * a + b * b;
-      } else {
-        const gain = 1 / t;
-        const tr = (D[k] + t * xr) * gain;
-        const ti = (D[k + 1] + t * xi) * gain;
-        D[k] = tr;
-        D[k + 1] = ti;
-        X[k] = rho * tr + keep * xr;
-        X[k + 1] = rho * ti + keep * xi;
-      }
+      const yr = y[k];
+      const yi = y[k + 1];
+      const tr = (D[k] + t * xr + yr) * g;
+      const ti = (D[k + 1] + t * xi + yi) * g;
+      D[k] = tr;
+      D[k + 1] = ti;
+      const nr = rho * tr + keep * xr;
+      const ni = rho * ti + keep * xi;
+      X[k] = nr;
+      X[k + 1] = ni;
+      const a = nr - yr;
+      const b = ni - yi;
+      residual += mask[i] * (a * a + b * b);
     }
   }
   return 0.5 * residual;
+}
+
+/** g = 1/(M + t) per k-space sample, t = σ(λ_u + λ_v) + δ. */
+function metricGain(
+  mask: Uint8Array,
+  eigenX: Float64Array,
+  eigenY: Float64Array,
+  sigma: number,
+  delta: number,
+): Float64Array {
+  const nx = eigenX.length;
+  const gain = new Float64Array(mask.length);
+  for (let r = 0; r < eigenY.length; r++) {
+    for (let c = 0; c < nx; c++) {
+      const i = r * nx + c;
+      gain[i] = 1 / (mask[i] + sigma * (eigenY[r] + eigenX[c]) + delta);
+    }
+  }
+  return gain;
 }
