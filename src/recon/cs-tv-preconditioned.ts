@@ -262,7 +262,13 @@ function dualPass(
  * t = σ(λ_u + λ_v) + δ and g = 1/(M + t) from `metric.gain`, and X ← ρX̃ + (1 − ρ)X, the spectrum
  * of x_{k+1}; returns ½‖M X − y‖² of the new X. Branch-free: y is zero off the mask.
  */
-function primalSpectrum(X: Float64Array, D: Float64Array, y: Float64Array, mask: Uint8Array, metric: Metric): number {
+function primalSpectrum(
+  X: Float64Array,
+  D: Float64Array,
+  y: Float64Array,
+  mask: Uint8Array,
+  metric: Metric,
+): number {
   const { eigenX, eigenY, sigma, delta, rho, gain } = metric;
   const keep = 1 - rho;
   const nx = eigenX.length;
