@@ -4,7 +4,7 @@ import { throwIfAborted } from '../core/errors.ts';
 import type { CsTvResult } from './cs-tv-encoding.ts';
 import type { ReconInput } from './method.ts';
 import { StoppingRule } from './stopping-rule.ts';
-import { totalVariation } from './total-variation.ts';
+import { relaxedTvDualPass, totalVariation } from './total-variation.ts';
 
 /**
  * σ = SIGMA_PER_LAMBDA · λ_rel: the dual step, which is also the weight of the primal metric (the
@@ -95,7 +95,7 @@ export function solveCsTvPreconditioned(
   // p⁰ = proj(σ∇x⁰), not 0: from p = 0 the first primal step would return x⁰ itself (x⁰ already
   // fits the data and div 0 = 0) and the stopping rule would see no change.
   next.data.set(current.data);
-  dualPass(work.data, px, py, next.data, current.data, nx, ny, { ...metric, rho: 1 }, lambdaAbs);
+  relaxedTvDualPass(work.data, px, py, next.data, current.data, nx, ny, sigma, lambdaAbs, 1);
   const rule = new StoppingRule(tolerance);
   // ½‖M F x − y‖² of x_k and x_{k−1}: x⁰ fits the data exactly.
   let residual = 0;
@@ -110,7 +110,18 @@ export function solveCsTvPreconditioned(
     residual = primalSpectrum(X, work.data, data, mask, metric);
     ifft2c(work, next);
     // `next` holds x̃; the pass turns it into x_{k+1} = ρx̃ + (1 − ρ)x_k, `current` keeps x_k.
-    const change = dualPass(work.data, px, py, next.data, current.data, nx, ny, metric, lambdaAbs);
+    const change = relaxedTvDualPass(
+      work.data,
+      px,
+      py,
+      next.data,
+      current.data,
+      nx,
+      ny,
+      sigma,
+      lambdaAbs,
+      rho,
+    );
     [current, next] = [next, current];
     run = it + 1;
     let objective: number | undefined;
@@ -153,108 +164,6 @@ interface Metric {
 function laplacianEigenvalues(n: number): Float64Array {
   const half = Math.floor(n / 2);
   return Float64Array.from({ length: n }, (_, a) => 4 * Math.sin((Math.PI * (a - half)) / n) ** 2);
-}
-
-/**
- * The dual half and the relaxation in one pass, given x̃ (in `xt`) and x_k: x̄ = 2x̃ − x_k formed on
- * the fly, p̃ = proj_{‖·‖≤λ}(p + σ∇x̄) (the ∇, projection and divergence of tvDualAscent),
- * p ← ρp̃ + (1 − ρ)p, div p into `div`, and x_{k+1} = ρx̃ + (1 − ρ)x_k written over x̃ (each pixel
- * reads x̃ only at itself and ahead of it). Returns ‖x_{k+1} − x_k‖/‖x_{k+1}‖ (the numerator alone
- * when x_{k+1} = 0), summed in the same pass.
- */
-function dualPass(
-  div: Float64Array,
-  px: Float64Array,
-  py: Float64Array,
-  xt: Float64Array,
-  x: Float64Array,
-  nx: number,
-  ny: number,
-  metric: Metric,
-  lambda: number,
-): number {
-  const { sigma, rho } = metric;
-  const keep = 1 - rho;
-  const lambda2 = lambda * lambda;
-  const rowStep = 2 * nx;
-  let diff = 0;
-  let norm = 0;
-  for (let i = 0; i < ny; i++) {
-    const lastRow = i === ny - 1;
-    let k = 2 * i * nx;
-    let re = 2 * xt[k] - x[k];
-    let im = 2 * xt[k + 1] - x[k + 1];
-    for (let j = 0; j < nx; j++, k += 2) {
-      const lastColumn = j === nx - 1;
-      let g1 = 0;
-      let g2 = 0;
-      let nextRe = 0;
-      let nextIm = 0;
-      if (!lastColumn) {
-        nextRe = 2 * xt[k + 2] - x[k + 2];
-        nextIm = 2 * xt[k + 3] - x[k + 3];
-        g1 = nextRe - re;
-        g2 = nextIm - im;
-      }
-      let g3 = 0;
-      let g4 = 0;
-      if (!lastRow) {
-        g3 = 2 * xt[k + rowStep] - x[k + rowStep] - re;
-        g4 = 2 * xt[k + rowStep + 1] - x[k + rowStep + 1] - im;
-      }
-      const oa = px[k];
-      const ob = px[k + 1];
-      const oc = py[k];
-      const od = py[k + 1];
-      const a = oa + sigma * g1;
-      const b = ob + sigma * g2;
-      const c = oc + sigma * g3;
-      const d = od + sigma * g4;
-      const s = a * a + b * b + c * c + d * d;
-      const scale = (s > lambda2 ? lambda / Math.sqrt(s) : 1) * rho;
-      const pa = a * scale + keep * oa;
-      const pb = b * scale + keep * ob;
-      const pc = c * scale + keep * oc;
-      const pd = d * scale + keep * od;
-      px[k] = pa;
-      px[k + 1] = pb;
-      py[k] = pc;
-      py[k + 1] = pd;
-      let vr = 0;
-      let vi = 0;
-      if (!lastColumn) {
-        vr += pa;
-        vi += pb;
-      }
-      if (j > 0) {
-        vr -= px[k - 2];
-        vi -= px[k - 1];
-      }
-      if (!lastRow) {
-        vr += pc;
-        vi += pd;
-      }
-      if (i > 0) {
-        vr -= py[k - rowStep];
-        vi -= py[k - rowStep + 1];
-      }
-      div[k] = vr;
-      div[k + 1] = vi;
-      const xr = x[k];
-      const xi = x[k + 1];
-      const nr = rho * xt[k] + keep * xr;
-      const ni = rho * xt[k + 1] + keep * xi;
-      xt[k] = nr;
-      xt[k + 1] = ni;
-      const dr = nr - xr;
-      const di = ni - xi;
-      diff += dr * dr + di * di;
-      norm += nr * nr + ni * ni;
-      re = nextRe;
-      im = nextIm;
-    }
-  }
-  return norm > 0 ? Math.sqrt(diff / norm) : Math.sqrt(diff);
 }
 
 /**

@@ -9,7 +9,7 @@ import { preconditionedSigma, solveCsTvPreconditioned } from '../../src/recon/cs
 import { reconstruct } from '../../src/recon/index.ts';
 import { defaultTvLambda } from '../../src/recon/parameters.ts';
 import { poissonDiscAcquisition } from '../recon/helpers.ts';
-import type { BenchRow } from './timing.ts';
+import { type BenchRow, cpuMs, median } from './timing.ts';
 
 const PYTHON = '/usr/bin/python3';
 const REFERENCE_SCRIPT = new URL('../reference/cs_tv_reference.py', import.meta.url).pathname;
@@ -19,17 +19,6 @@ const REFERENCE_ITERATIONS = 200;
 const HISTORY_CAP = 1500;
 /** Iterations of the run that fixes Φ*. */
 const OPTIMUM_ITERATIONS = 3000;
-
-function cpuMs(): number {
-  const { user, system } = process.cpuUsage();
-  return (user + system) / 1000;
-}
-
-function median(values: number[]): number {
-  const sorted = [...values].sort((a, b) => a - b);
-  const mid = sorted.length >> 1;
-  return sorted.length % 2 ? sorted[mid] : (sorted[mid - 1] + sorted[mid]) / 2;
-}
 
 /** Wall and CPU ms of one call. */
 function timed(fn: () => unknown): { wall: number; cpu: number } {
