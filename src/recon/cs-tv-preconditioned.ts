@@ -50,12 +50,16 @@ export interface PreconditionedOptions {
  * circulant, hence diagonal under F_c with eigenvalue 4sin²(πu/nx) + 4sin²(πv/ny) at frequency
  * (u, v), and the primal step (T⁻¹ + FᴴMF)x = T⁻¹x_k + div p + FᴴMy is one division per k-space
  * sample:  X = (F_c div p + t·X_k + M y) / (M + t),  t = σ(4sin²(πu/nx) + 4sin²(πv/ny)) + δ.
- * With δ → 0 this is ADMM on z = ∇x up to the wrap rows (Chambolle & Pock 2011 §4.3): low
- * frequencies the mask misses take large steps, which a scalar τ ≤ 1/(σ‖∇‖²) cannot.
- * Per iteration: one pass for the dual ascent at x̄ = 2x_k − x_{k−1}, the projection, div p and the
- * iterate change; fft2c(div p); one pass over k-space; ifft2c into the buffer of x_{k−1}. No copies,
- * no allocation. Start x⁰ = F_cᴴ(M y), p⁰ = proj(σ∇x⁰); stops after `iterations` or by the StoppingRule, whose
- * objective takes the data term from the k-space pass and TV only when the iterate test passes.
+ * With δ → 0 this is ADMM on z = ∇x up to the wrap rows (Chambolle & Pock 2011, their section on
+ * ADMM): low frequencies the mask misses take large steps, which a scalar τ ≤ 1/(σ‖∇‖²) cannot.
+ * Both halves are relaxed by ρ (RELAXATION), primal half first:
+ *   x̃ = (T⁻¹ + ∂G)⁻¹(T⁻¹x_k + div p_k),  p̃ = proj_{‖·‖≤λ}(p_k + σ∇(2x̃ − x_k)),
+ *   (x_{k+1}, p_{k+1}) = ρ(x̃, p̃) + (1 − ρ)(x_k, p_k).
+ * Per iteration: fft2c(div p_k); one k-space pass (x̃'s spectrum, the relaxed spectrum X kept, the
+ * data residual); ifft2c of x̃; one image pass (relaxedTvDualPass: x̄ on the fly, dual ascent,
+ * projection, relaxation of p and x, div p, the iterate change). No copies, no allocation. Start
+ * x⁰ = F_cᴴ(M y), p⁰ = proj(σ∇x⁰); stops after `iterations` or by the StoppingRule, whose objective
+ * takes the data term from the k-space pass and TV only when the iterate test passes.
  */
 export function solveCsTvPreconditioned(
   input: ReconInput,
