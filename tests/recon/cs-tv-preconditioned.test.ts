@@ -18,6 +18,7 @@ describe('cs-tv: Fourier-preconditioned Chambolle–Pock against the plain schem
 
   it('reaches the plain solver’s converged objective to 1e-6 relative (modified phantom 64², Poisson-disc R 4)', () => {
     // Plain: 4000 iterations; measured 1.23234956 against 1.23234955 after 16 000 (5e-9 apart).
+    // Measured gap of the preconditioned run: 1.1e-8 (TV 3.4e-8).
     const plain = solveCsTv(input, lambda, 4000, 0);
     const fast = solveCsTvPreconditioned(input, lambda, 800, 0, {
       sigma: preconditionedSigma(lambdaRelative),
@@ -34,7 +35,8 @@ describe('cs-tv: Fourier-preconditioned Chambolle–Pock against the plain schem
     });
     const plain = solveCsTv(input, lambda, 300, 1e-5);
     const gap = (r: { objective: number }) => (r.objective - reference) / reference;
-    // Measured: preconditioned 4.8e-4 after 300 iterations, plain 2.9e-2 after 300.
+    // Measured: both run into the 300-iteration cap here; preconditioned 2.1e-5 above the minimum,
+    // plain 2.9e-2.
     expect(gap(fast)).toBeLessThan(0.1 * gap(plain));
     expect(fast.iterations).toBeLessThanOrEqual(plain.iterations);
   });
