@@ -51,8 +51,6 @@ export function runPrimalDual(
   const xBar = x.slice();
   const px = new Float64Array(size);
   const py = new Float64Array(size);
-  const gx = new Float64Array(size);
-  const gy = new Float64Array(size);
   const div = new Float64Array(size);
   const rule = new StoppingRule(steps.tolerance);
   const before = () => steps.objectiveBefore(xOld);
@@ -60,7 +58,7 @@ export function runPrimalDual(
   for (let it = 0; it < steps.iterations; it++) {
     throwIfAborted(signal);
     // Dual ascent and projection onto the λ-ball per pixel (isotropic over both directions and re/im).
-    tvDualAscent(div, px, py, gx, gy, xBar, nx, ny, sigma, lambdaTv);
+    tvDualAscent(div, px, py, xBar, nx, ny, sigma, lambdaTv);
     steps.dualStep?.(xBar);
     xOld.set(x);
     steps.primalStep(div, xOld);

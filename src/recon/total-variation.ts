@@ -71,34 +71,6 @@ export function divergence(
   }
 }
 
-/**
- * One dual step of isotropic TV in a primal–dual scheme (Chambolle & Pock 2011): p ← p + σ∇x̄, then
- * the projection onto the λ-ball per pixel, |p| taken over both directions and re/im. `gx`, `gy`
- * hold ∇x̄ (from `gradient`); all arrays are interleaved complex of the same length.
- */
-export function tvDualStep(
-  px: Float64Array,
-  py: Float64Array,
-  gx: Float64Array,
-  gy: Float64Array,
-  sigma: number,
-  lambda: number,
-): void {
-  const lambda2 = lambda * lambda;
-  for (let i = 0; i < px.length; i += 2) {
-    const a = px[i] + sigma * gx[i];
-    const b = px[i + 1] + sigma * gx[i + 1];
-    const c = py[i] + sigma * gy[i];
-    const d = py[i + 1] + sigma * gy[i + 1];
-    const s = a * a + b * b + c * c + d * d;
-    const scale = s > lambda2 ? lambda / Math.sqrt(s) : 1;
-    px[i] = a * scale;
-    px[i + 1] = b * scale;
-    py[i] = c * scale;
-    py[i + 1] = d * scale;
-  }
-}
-
 /** Isotropic TV of a complex image: Σ sqrt(|(∇x)₁|² + |(∇x)₂|²), complex moduli (docs/references.md §5.2). */
 export function totalVariation(x: Float64Array, nx: number, ny: number): number {
   let tv = 0;
@@ -154,21 +126,121 @@ export function gradientNormSquared(nx: number, ny: number, iterations = 500, se
 
 /**
  * One dual step of the TV term in Chambolle–Pock (K = ∇): p ← proj_{‖·‖≤λ}(p + σ∇x̄), then
- * div ← div p for the primal step x − τ∇ᴴp = x + τ div p. gx, gy are scratch.
+ * div ← div p for the primal step x − τ∇ᴴp = x + τ div p, in one pass (relaxedTvDualPass with
+ * x̃ = x = x̄, where 2x̄ − x̄ = x̄ exactly, and ρ = 1, which leaves x̄ and the projected p as they are).
  */
 export function tvDualAscent(
   div: Float64Array,
   px: Float64Array,
   py: Float64Array,
-  gx: Float64Array,
-  gy: Float64Array,
   xBar: Float64Array,
   nx: number,
   ny: number,
   sigma: number,
   lambda: number,
 ): void {
-  gradient(gx, gy, xBar, nx, ny);
-  tvDualStep(px, py, gx, gy, sigma, lambda);
-  divergence(div, px, py, nx, ny);
+  relaxedTvDualPass(div, px, py, xBar, xBar, nx, ny, sigma, lambda, 1);
+}
+
+/**
+ * The TV dual half of a relaxed Chambolle–Pock step in one pass, given x̃ (in `xt`) and x_k (in `x`):
+ * x̄ = 2x̃ − x_k formed on the fly, p̃ = proj_{‖·‖≤λ}(p + σ∇x̄) (per pixel, |p| over both directions
+ * and re/im: isotropic TV),
+ * p ← ρp̃ + (1 − ρ)p, div p into `div`, and x_{k+1} = ρx̃ + (1 − ρ)x_k written over x̃ (each pixel
+ * reads x̃ only at itself and ahead of it). Returns ‖x_{k+1} − x_k‖/‖x_{k+1}‖ (the numerator alone
+ * when x_{k+1} = 0), summed in the same pass.
+ */
+export function relaxedTvDualPass(
+  div: Float64Array,
+  px: Float64Array,
+  py: Float64Array,
+  xt: Float64Array,
+  x: Float64Array,
+  nx: number,
+  ny: number,
+  sigma: number,
+  lambda: number,
+  rho: number,
+): number {
+  const keep = 1 - rho;
+  const lambda2 = lambda * lambda;
+  const rowStep = 2 * nx;
+  let diff = 0;
+  let norm = 0;
+  for (let i = 0; i < ny; i++) {
+    const lastRow = i === ny - 1;
+    let k = 2 * i * nx;
+    let re = 2 * xt[k] - x[k];
+    let im = 2 * xt[k + 1] - x[k + 1];
+    for (let j = 0; j < nx; j++, k += 2) {
+      const lastColumn = j === nx - 1;
+      let g1 = 0;
+      let g2 = 0;
+      let nextRe = 0;
+      let nextIm = 0;
+      if (!lastColumn) {
+        nextRe = 2 * xt[k + 2] - x[k + 2];
+        nextIm = 2 * xt[k + 3] - x[k + 3];
+        g1 = nextRe - re;
+        g2 = nextIm - im;
+      }
+      let g3 = 0;
+      let g4 = 0;
+      if (!lastRow) {
+        g3 = 2 * xt[k + rowStep] - x[k + rowStep] - re;
+        g4 = 2 * xt[k + rowStep + 1] - x[k + rowStep + 1] - im;
+      }
+      const oa = px[k];
+      const ob = px[k + 1];
+      const oc = py[k];
+      const od = py[k + 1];
+      const a = oa + sigma * g1;
+      const b = ob + sigma * g2;
+      const c = oc + sigma * g3;
+      const d = od + sigma * g4;
+      const s = a * a + b * b + c * c + d * d;
+      const scale = (s > lambda2 ? lambda / Math.sqrt(s) : 1) * rho;
+      const pa = a * scale + keep * oa;
+      const pb = b * scale + keep * ob;
+      const pc = c * scale + keep * oc;
+      const pd = d * scale + keep * od;
+      px[k] = pa;
+      px[k + 1] = pb;
+      py[k] = pc;
+      py[k + 1] = pd;
+      let vr = 0;
+      let vi = 0;
+      if (!lastColumn) {
+        vr += pa;
+        vi += pb;
+      }
+      if (j > 0) {
+        vr -= px[k - 2];
+        vi -= px[k - 1];
+      }
+      if (!lastRow) {
+        vr += pc;
+        vi += pd;
+      }
+      if (i > 0) {
+        vr -= py[k - rowStep];
+        vi -= py[k - rowStep + 1];
+      }
+      div[k] = vr;
+      div[k + 1] = vi;
+      const xr = x[k];
+      const xi = x[k + 1];
+      const nr = rho * xt[k] + keep * xr;
+      const ni = rho * xt[k + 1] + keep * xi;
+      xt[k] = nr;
+      xt[k + 1] = ni;
+      const dr = nr - xr;
+      const di = ni - xi;
+      diff += dr * dr + di * di;
+      norm += nr * nr + ni * ni;
+      re = nextRe;
+      im = nextIm;
+    }
+  }
+  return norm > 0 ? Math.sqrt(diff / norm) : Math.sqrt(diff);
 }

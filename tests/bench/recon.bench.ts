@@ -2,20 +2,9 @@ import { fft2c, ifft2c } from '../../src/core/centered-fft.ts';
 import { createComplexImage } from '../../src/core/complex-image.ts';
 import { reconstruct } from '../../src/recon/index.ts';
 import { poissonDiscAcquisition } from '../recon/helpers.ts';
-import type { BenchRow } from './timing.ts';
+import { type BenchRow, cpuMs, median } from './timing.ts';
 
 /** This process's CPU time in ms (user + system). */
-function cpuMs(): number {
-  const { user, system } = process.cpuUsage();
-  return (user + system) / 1000;
-}
-
-function median(values: number[]): number {
-  const sorted = [...values].sort((a, b) => a - b);
-  const mid = sorted.length >> 1;
-  return sorted.length % 2 ? sorted[mid] : (sorted[mid - 1] + sorted[mid]) / 2;
-}
-
 /**
  * Reconstruction cost at 256×256 (modified Shepp–Logan, analytic k-space, Poisson-disc R = 4):
  * cs-tv 100 iterations and lowrank-hankel (7×7 window, default rank and weighting) 50 iterations,

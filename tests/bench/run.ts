@@ -31,6 +31,7 @@ for (const [title, path, name] of [
   ['fidelity', './fidelity.bench.ts', 'benchFidelity'],
   ['wavelets', './wavelet.bench.ts', 'benchWavelet'],
   ['solver speed', './solver-speed.bench.ts', 'benchSolverSpeed'],
+  ['cs-tv speed', './cs-tv-speed.bench.ts', 'benchCsTvSpeed'],
   ['planning', './plan.bench.ts', 'benchPlan'],
   ['service', './service.bench.ts', 'benchService'],
   ['coil maps', './coil-maps.bench.ts', 'benchCoilMaps'],

@@ -13,10 +13,17 @@ export async function medianMs(fn: () => unknown | Promise<unknown>, runs = 7, w
   return (await medianWallAndCpuMs(fn, runs, warmup)).wallMs;
 }
 
-function median(values: number[]): number {
+/** Median of `values` (the mean of the middle two for an even count). */
+export function median(values: number[]): number {
   const sorted = [...values].sort((a, b) => a - b);
   const mid = sorted.length >> 1;
   return sorted.length % 2 ? sorted[mid] : (sorted[mid - 1] + sorted[mid]) / 2;
+}
+
+/** This process's CPU time in ms (user + system, all threads). */
+export function cpuMs(): number {
+  const { user, system } = process.cpuUsage();
+  return (user + system) / 1000;
 }
 
 /**
