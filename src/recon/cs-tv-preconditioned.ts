@@ -1,6 +1,6 @@
-import { fft2c, ifft2c } from '../core/centered-fft.ts';
 import type { ComplexImage } from '../core/complex-image.ts';
 import { throwIfAborted } from '../core/errors.ts';
+import { dcFirstOrder, dcFirstSpectrum, plainFft2d } from '../core/plain-fft-2d.ts';
 import type { CsTvResult } from './cs-tv-encoding.ts';
 import type { ReconInput } from './method.ts';
 import { StoppingRule } from './stopping-rule.ts';
@@ -68,28 +68,21 @@ export function solveCsTvPreconditioned(
   tolerance: number,
   options: PreconditionedOptions,
 ): CsTvResult {
-  const { kspace, mask } = input;
-  const { nx, ny } = kspace;
+  const { nx, ny } = input.kspace;
   const n = nx * ny;
-  const y = kspace.data;
   const { sigma, signal } = options;
   const rho = options.relaxation ?? RELAXATION;
   const delta = DELTA_PER_SIGMA * sigma;
-  // X = F_c x_k, kept across iterations; x⁰ = F_cᴴ(M y).
-  const spectrum: ComplexImage = { nx, ny, data: new Float64Array(2 * n) };
-  const X = spectrum.data;
-  for (let i = 0; i < n; i++) {
-    if (mask[i]) {
-      X[2 * i] = y[2 * i];
-      X[2 * i + 1] = y[2 * i + 1];
-    }
-  }
-  // M y, zero off the mask whatever the input holds there (the k-space pass multiplies by it).
-  const data = X.slice();
-  let current = ifft2c(spectrum);
+  // The loop runs in DC-first k-space with the un-centred DFT (uncentredProblem): Y = √N·(M y),
+  // X = √N·F x_k kept across iterations, x⁰ = Fᴴ(M y).
+  const { mask, data } = uncentredProblem(input);
+  const X = data.slice();
+  const scratch = new Float64Array(2 * n);
+  let current: ComplexImage = { nx, ny, data: new Float64Array(2 * n) };
+  inverseFromConjugate(current.data, conjugated(X), scratch, nx, ny);
   let next: ComplexImage = { nx, ny, data: new Float64Array(2 * n) };
-  // div p, then its spectrum and the primal step's.
-  const work: ComplexImage = { nx, ny, data: new Float64Array(2 * n) };
+  // div p, then its spectrum and the (conjugated) primal step's.
+  const work = new Float64Array(2 * n);
   const px = new Float64Array(2 * n);
   const py = new Float64Array(2 * n);
   const eigenX = laplacianEigenvalues(nx);
@@ -99,7 +92,7 @@ export function solveCsTvPreconditioned(
   // p⁰ = proj(σ∇x⁰), not 0: from p = 0 the first primal step would return x⁰ itself (x⁰ already
   // fits the data and div 0 = 0) and the stopping rule would see no change.
   next.data.set(current.data);
-  relaxedTvDualPass(work.data, px, py, next.data, current.data, nx, ny, sigma, lambdaAbs, 1);
+  relaxedTvDualPass(work, px, py, next.data, current.data, nx, ny, sigma, lambdaAbs, 1);
   const rule = new StoppingRule(tolerance);
   // ½‖M F x − y‖² of x_k and x_{k−1}: x⁰ fits the data exactly.
   let residual = 0;
@@ -109,23 +102,12 @@ export function solveCsTvPreconditioned(
   let run = 0;
   for (let it = 0; it < iterations; it++) {
     throwIfAborted(signal);
-    fft2c(work, work);
+    plainFft2d(work, work, scratch, nx, ny, 1, false);
     residualBefore = residual;
-    residual = primalSpectrum(X, work.data, data, mask, metric);
-    ifft2c(work, next);
+    residual = primalSpectrum(X, work, data, mask, metric) / n;
+    inverseFromConjugate(next.data, work, scratch, nx, ny);
     // `next` holds x̃; the pass turns it into x_{k+1} = ρx̃ + (1 − ρ)x_k, `current` keeps x_k.
-    const change = relaxedTvDualPass(
-      work.data,
-      px,
-      py,
-      next.data,
-      current.data,
-      nx,
-      ny,
-      sigma,
-      lambdaAbs,
-      rho,
-    );
+    const change = relaxedTvDualPass(work, px, py, next.data, current.data, nx, ny, sigma, lambdaAbs, rho);
     [current, next] = [next, current];
     run = it + 1;
     let objective: number | undefined;
@@ -137,20 +119,39 @@ export function solveCsTvPreconditioned(
     if (rule.converged(change, measured, before)) break;
   }
   const tv = totalVariation(current.data, nx, ny);
-  const check = fft2c(current);
+  plainFft2d(work, current.data, scratch, nx, ny, 1, false);
   let fit = 0;
   for (let i = 0; i < n; i++) {
-    if (!mask[i]) continue;
-    fit += (check.data[2 * i] - y[2 * i]) ** 2 + (check.data[2 * i + 1] - y[2 * i + 1]) ** 2;
+    fit += mask[i] * ((work[2 * i] - data[2 * i]) ** 2 + (work[2 * i + 1] - data[2 * i + 1]) ** 2);
   }
   return {
     image: current,
     iterations: run,
-    objective: 0.5 * fit + lambdaAbs * tv,
+    objective: (0.5 * fit) / n + lambdaAbs * tv,
     relativeChange: rule.relativeChange,
     objectiveChange: rule.objectiveChange,
     tv,
   };
+}
+
+/**
+ * x = Fᴴ X from conj(√N·X) (in `conjugateSpectrum`): the un-centred forward DFT of the conjugate,
+ * conjugated and divided by N, written into `target`.
+ */
+function inverseFromConjugate(
+  target: Float64Array,
+  conjugateSpectrum: Float64Array,
+  scratch: Float64Array,
+  nx: number,
+  ny: number,
+): void {
+  plainFft2d(target, conjugateSpectrum, scratch, nx, ny, 1 / (nx * ny), true);
+}
+
+function conjugated(data: Float64Array): Float64Array {
+  const out = data.slice();
+  for (let k = 1; k < out.length; k += 2) out[k] = -out[k];
+  return out;
 }
 
 /** The metric's diagonal (eigenvalues per axis, σ, δ) and the relaxation ρ. */
@@ -164,16 +165,31 @@ interface Metric {
   gain: Float64Array;
 }
 
-/** 4sin²(π(a − ⌊n/2⌋)/n): the periodic second difference's eigenvalue at centred index a. */
+/** 4sin²(πu/n): the periodic second difference's eigenvalue at DC-first index u. */
 function laplacianEigenvalues(n: number): Float64Array {
-  const half = Math.floor(n / 2);
-  return Float64Array.from({ length: n }, (_, a) => 4 * Math.sin((Math.PI * (a - half)) / n) ** 2);
+  return Float64Array.from({ length: n }, (_, u) => 4 * Math.sin((Math.PI * u) / n) ** 2);
 }
 
 /**
- * The primal half in k-space: X̃ = (D + t·X + M y)·g into `D` (which held D = F_c div p), with
+ * The problem in the loop's order and units: the mask in DC-first order and Y = √N·(M y) as the
+ * un-centred DFT's spectrum (dcFirstSpectrum), so the loop runs on plainFft2d without centring
+ * shifts or normalisation passes; ½‖M F x − y‖² = ½‖M(√N·F x) − Y‖²/N.
+ */
+function uncentredProblem(input: ReconInput): { mask: Uint8Array; data: Float64Array } {
+  const { kspace, mask } = input;
+  const { nx, ny } = kspace;
+  return {
+    mask: dcFirstOrder(mask, nx, ny),
+    data: dcFirstSpectrum(kspace.data, nx, ny, Math.sqrt(nx * ny), mask),
+  };
+}
+
+/**
+ * The primal half in k-space (DC-first, all spectra √N·F of their images): X̃ = (D + t·X + M y)·g,
+ * written conjugated into `D` (which held D = √N·F div p) for inverseFromConjugate, with
  * t = σ(λ_u + λ_v) + δ and g = 1/(M + t) from `metric.gain`, and X ← ρX̃ + (1 − ρ)X, the spectrum
- * of x_{k+1}; returns ½‖M X − y‖² of the new X. Branch-free: y is zero off the mask.
+ * of x_{k+1}; returns ½‖M X − y‖² of the new X (N times the data term). Branch-free: y is zero off
+ * the mask.
  */
 function primalSpectrum(
   X: Float64Array,
@@ -199,7 +215,7 @@ function primalSpectrum(
       const tr = (D[k] + t * xr + yr) * g;
       const ti = (D[k + 1] + t * xi + yi) * g;
       D[k] = tr;
-      D[k + 1] = ti;
+      D[k + 1] = -ti;
       const nr = rho * tr + keep * xr;
       const ni = rho * ti + keep * xi;
       X[k] = nr;
