@@ -1,65 +1,74 @@
 import { fftPlan } from './fft-plan.ts';
 
-/** Columns gathered per tile: four complex doubles fill one 64-byte cache line of a row. */
-const TILE = 4;
-
-const tiles = new Map<number, { input: Float64Array[]; output: Float64Array[] }>();
-function columnTile(size: number): { input: Float64Array[]; output: Float64Array[] } {
-  let t = tiles.get(size);
-  if (!t) {
-    const make = () => Array.from({ length: TILE }, () => new Float64Array(2 * size));
-    t = { input: make(), output: make() };
-    tiles.set(size, t);
+// Row views per buffer and row length, made once: fft.js indexes its buffers from 0, and a fresh
+// subarray per row and call costs allocation on every transform.
+const views = new WeakMap<Float64Array, Map<number, Float64Array[]>>();
+function rowViews(buffer: Float64Array, rowLength: number): Float64Array[] {
+  let byLength = views.get(buffer);
+  if (!byLength) {
+    byLength = new Map();
+    views.set(buffer, byLength);
   }
-  return t;
+  let rows = byLength.get(rowLength);
+  if (!rows) {
+    rows = Array.from({ length: buffer.length / rowLength }, (_, r) =>
+      buffer.subarray(r * rowLength, (r + 1) * rowLength),
+    );
+    byLength.set(rowLength, rows);
+  }
+  return rows;
 }
 
+/** Transpose tile edge (complex samples): 32² of them is 16 KiB, a quarter of L1. */
+const BLOCK = 32;
+
 /**
- * Un-centred, unnormalised forward 2D DFT of an ny×nx interleaved complex image (row-major),
- *   target[v, u] = s · Σ_{y,x} source[y, x] e^(−i2π(ux/nx + vy/ny)),
- * with the output multiplied by `scale` and conjugated when `conjugate` is set, so that
- * conj ∘ (1/N) ∘ forward ∘ conj is the inverse DFT (N = nx·ny). No fftshift/ifftshift: the caller
- * keeps its k-space in DC-first order. Rows go straight from `source` into `scratch` (no copies);
- * columns are gathered TILE at a time (one cache line per row) from `scratch`, transformed, and
- * scattered into `target` with the scale and conjugation applied in the scatter. `target` may be
- * `source`; `scratch` (2·nx·ny numbers) must differ from both.
+ * Un-centred, unnormalised 2D DFT of an interleaved complex buffer of `rows` rows × `columns`
+ * columns, returned TRANSPOSED (`columns` rows × `rows` columns) in `target`:
+ *   target[u, v] = scale · Σ_{r,c} source[r, c] e^(−i2π(uc/columns + vr/rows)).
+ * Row transforms straight from `source` into `target`, one cache-blocked transpose into `scratch`
+ * (scale applied there), row transforms back into `target`: no fftshift/ifftshift, no column
+ * gathers. Applied twice it returns the original layout, so an image (ny×nx) goes to a k-space
+ * kept as nx×ny and back. With `reverse`, the transpose also mirrors both frequency indices
+ * (u → −u mod n): since F⁻¹X = (1/N)·F(X[−u]) and the mirror commutes with the DFT, this with
+ * scale 1/N is the inverse DFT done by forward plans only. The three buffers must differ.
  */
 export function plainFft2d(
   target: Float64Array,
   source: Float64Array,
   scratch: Float64Array,
-  nx: number,
-  ny: number,
+  rows: number,
+  columns: number,
   scale: number,
-  conjugate: boolean,
+  reverse: boolean,
 ): void {
-  if (scratch === source || scratch === target) throw new RangeError('scratch must differ from source and target');
-  const rowPlan = fftPlan(nx);
-  const rowLength = 2 * nx;
-  for (let r = 0, o = 0; r < ny; r++, o += rowLength) {
-    rowPlan.forward(scratch.subarray(o, o + rowLength), source.subarray(o, o + rowLength));
+  if (scratch === source || scratch === target || target === source) {
+    throw new RangeError('plainFft2d needs three distinct buffers');
   }
-  const columnPlan = fftPlan(ny);
-  const { input, output } = columnTile(ny);
-  const imagScale = conjugate ? -scale : scale;
-  for (let c = 0; c < nx; c += TILE) {
-    const width = Math.min(TILE, nx - c);
-    for (let r = 0; r < ny; r++) {
-      const base = r * rowLength + 2 * c;
-      for (let w = 0; w < width; w++) {
-        input[w][2 * r] = scratch[base + 2 * w];
-        input[w][2 * r + 1] = scratch[base + 2 * w + 1];
-      }
-    }
-    for (let w = 0; w < width; w++) columnPlan.forward(output[w], input[w]);
-    for (let r = 0; r < ny; r++) {
-      const base = r * rowLength + 2 * c;
-      for (let w = 0; w < width; w++) {
-        target[base + 2 * w] = output[w][2 * r] * scale;
-        target[base + 2 * w + 1] = output[w][2 * r + 1] * imagScale;
+  const first = fftPlan(columns);
+  const into = rowViews(target, 2 * columns);
+  const from = rowViews(source, 2 * columns);
+  for (let r = 0; r < rows; r++) first.forward(into[r], from[r]);
+  for (let r0 = 0; r0 < rows; r0 += BLOCK) {
+    const r1 = Math.min(rows, r0 + BLOCK);
+    for (let c0 = 0; c0 < columns; c0 += BLOCK) {
+      const c1 = Math.min(columns, c0 + BLOCK);
+      for (let r = r0; r < r1; r++) {
+        const outColumn = reverse && r > 0 ? rows - r : r;
+        for (let c = c0; c < c1; c++) {
+          const outRow = reverse && c > 0 ? columns - c : c;
+          const s = 2 * (r * columns + c);
+          const d = 2 * (outRow * rows + outColumn);
+          scratch[d] = target[s] * scale;
+          scratch[d + 1] = target[s + 1] * scale;
+        }
       }
     }
   }
+  const second = fftPlan(rows);
+  const back = rowViews(target, 2 * rows);
+  const transposed = rowViews(scratch, 2 * rows);
+  for (let c = 0; c < columns; c++) second.forward(back[c], transposed[c]);
 }
 
 /**
@@ -88,7 +97,8 @@ function centringPhase(n: number): { cos: Float64Array; sin: Float64Array } {
  * gives  F x [v, u] = e^(−i2π(h_x·u/nx + h_y·v/ny)) · fft2c(x)[(v + h_y) mod ny, (u + h_x) mod nx]
  * (the shift theorem), for odd and even sizes; for even sizes the phase is (−1)^(u+v). And
  * ifft2c(X) = Fᴴ of this DC-first spectrum, so an image kept in natural order never needs a shift.
- * `weight` (centred order, e.g. a sampling mask) multiplies each sample when given.
+ * Written in plainFft2d's transposed layout, [u, v] at u·ny + v. `weight` (centred order, e.g. a
+ * sampling mask) multiplies each sample when given.
  */
 export function dcFirstSpectrum(
   centred: Float64Array,
@@ -111,7 +121,7 @@ export function dcFirstSpectrum(
       const ci = px.cos[u] * py.sin[v] + px.sin[u] * py.cos[v];
       const re = centred[2 * s] * w;
       const im = centred[2 * s + 1] * w;
-      const t = 2 * (v * nx + u);
+      const t = 2 * (u * ny + v);
       out[t] = re * cr - im * ci;
       out[t + 1] = re * ci + im * cr;
     }
@@ -119,14 +129,17 @@ export function dcFirstSpectrum(
   return out;
 }
 
-/** A centred-order per-sample map (e.g. a sampling mask) in DC-first order: a permutation only. */
+/**
+ * A centred-order per-sample map (e.g. a sampling mask) in DC-first order and plainFft2d's
+ * transposed layout ([u, v] at u·ny + v): a permutation only.
+ */
 export function dcFirstOrder(centred: Uint8Array, nx: number, ny: number): Uint8Array {
   const hx = Math.floor(nx / 2);
   const hy = Math.floor(ny / 2);
   const out = new Uint8Array(nx * ny);
   for (let v = 0; v < ny; v++) {
     const sourceRow = ((v + hy) % ny) * nx;
-    for (let u = 0; u < nx; u++) out[v * nx + u] = centred[sourceRow + ((u + hx) % nx)];
+    for (let u = 0; u < nx; u++) out[u * ny + v] = centred[sourceRow + ((u + hx) % nx)];
   }
   return out;
 }

@@ -78,10 +78,12 @@ export function solveCsTvPreconditioned(
   const { mask, data } = uncentredProblem(input);
   const X = data.slice();
   const scratch = new Float64Array(2 * n);
+  // √N·F div p, then the primal step's spectrum X̃ (transposed layout, nx rows of ny).
+  const spectrum = new Float64Array(2 * n);
   let current: ComplexImage = { nx, ny, data: new Float64Array(2 * n) };
-  inverseFromConjugate(current.data, conjugated(X), scratch, nx, ny);
+  inverseSpectrum(current.data, X, scratch, nx, ny);
   let next: ComplexImage = { nx, ny, data: new Float64Array(2 * n) };
-  // div p, then its spectrum and the (conjugated) primal step's.
+  // div p.
   const work = new Float64Array(2 * n);
   const px = new Float64Array(2 * n);
   const py = new Float64Array(2 * n);
@@ -102,10 +104,10 @@ export function solveCsTvPreconditioned(
   let run = 0;
   for (let it = 0; it < iterations; it++) {
     throwIfAborted(signal);
-    plainFft2d(work, work, scratch, nx, ny, 1, false);
+    plainFft2d(spectrum, work, scratch, ny, nx, 1, false);
     residualBefore = residual;
-    residual = primalSpectrum(X, work, data, mask, metric) / n;
-    inverseFromConjugate(next.data, work, scratch, nx, ny);
+    residual = primalSpectrum(X, spectrum, data, mask, metric) / n;
+    inverseSpectrum(next.data, spectrum, scratch, nx, ny);
     // `next` holds x̃; the pass turns it into x_{k+1} = ρx̃ + (1 − ρ)x_k, `current` keeps x_k.
     const change = relaxedTvDualPass(work, px, py, next.data, current.data, nx, ny, sigma, lambdaAbs, rho);
     [current, next] = [next, current];
@@ -119,10 +121,12 @@ export function solveCsTvPreconditioned(
     if (rule.converged(change, measured, before)) break;
   }
   const tv = totalVariation(current.data, nx, ny);
-  plainFft2d(work, current.data, scratch, nx, ny, 1, false);
+  plainFft2d(spectrum, current.data, scratch, ny, nx, 1, false);
   let fit = 0;
   for (let i = 0; i < n; i++) {
-    fit += mask[i] * ((work[2 * i] - data[2 * i]) ** 2 + (work[2 * i + 1] - data[2 * i + 1]) ** 2);
+    const re = spectrum[2 * i] - data[2 * i];
+    const im = spectrum[2 * i + 1] - data[2 * i + 1];
+    fit += mask[i] * (re * re + im * im);
   }
   return {
     image: current,
@@ -134,24 +138,15 @@ export function solveCsTvPreconditioned(
   };
 }
 
-/**
- * x = Fᴴ X from conj(√N·X) (in `conjugateSpectrum`): the un-centred forward DFT of the conjugate,
- * conjugated and divided by N, written into `target`.
- */
-function inverseFromConjugate(
+/** x = Fᴴ X into `target` (ny×nx) from √N·X in the transposed DC-first layout (nx×ny). */
+function inverseSpectrum(
   target: Float64Array,
-  conjugateSpectrum: Float64Array,
+  spectrum: Float64Array,
   scratch: Float64Array,
   nx: number,
   ny: number,
 ): void {
-  plainFft2d(target, conjugateSpectrum, scratch, nx, ny, 1 / (nx * ny), true);
-}
-
-function conjugated(data: Float64Array): Float64Array {
-  const out = data.slice();
-  for (let k = 1; k < out.length; k += 2) out[k] = -out[k];
-  return out;
+  plainFft2d(target, spectrum, scratch, nx, ny, 1 / (nx * ny), true);
 }
 
 /** The metric's diagonal (eigenvalues per axis, σ, δ) and the relaxation ρ. */
@@ -185,8 +180,8 @@ function uncentredProblem(input: ReconInput): { mask: Uint8Array; data: Float64A
 }
 
 /**
- * The primal half in k-space (DC-first, all spectra √N·F of their images): X̃ = (D + t·X + M y)·g,
- * written conjugated into `D` (which held D = √N·F div p) for inverseFromConjugate, with
+ * The primal half in k-space (DC-first, transposed: row u, column v; all spectra √N·F of their
+ * images): X̃ = (D + t·X + M y)·g into `D` (which held D = √N·F div p), with
  * t = σ(λ_u + λ_v) + δ and g = 1/(M + t) from `metric.gain`, and X ← ρX̃ + (1 − ρ)X, the spectrum
  * of x_{k+1}; returns ½‖M X − y‖² of the new X (N times the data term). Branch-free: y is zero off
  * the mask.
@@ -200,13 +195,14 @@ function primalSpectrum(
 ): number {
   const { eigenX, eigenY, sigma, delta, rho, gain } = metric;
   const keep = 1 - rho;
-  const nx = eigenX.length;
-  const ny = eigenY.length;
+  // Transposed layout: row u (eigenX), column v (eigenY).
+  const rows = eigenX.length;
+  const columns = eigenY.length;
   let residual = 0;
-  for (let r = 0; r < ny; r++) {
-    const rowShare = sigma * eigenY[r] + delta;
-    for (let c = 0, i = r * nx, k = 2 * r * nx; c < nx; c++, i++, k += 2) {
-      const t = rowShare + sigma * eigenX[c];
+  for (let r = 0; r < rows; r++) {
+    const rowShare = sigma * eigenX[r] + delta;
+    for (let c = 0, i = r * columns, k = 2 * r * columns; c < columns; c++, i++, k += 2) {
+      const t = rowShare + sigma * eigenY[c];
       const g = gain[i];
       const xr = X[k];
       const xi = X[k + 1];
@@ -215,7 +211,7 @@ function primalSpectrum(
       const tr = (D[k] + t * xr + yr) * g;
       const ti = (D[k + 1] + t * xi + yi) * g;
       D[k] = tr;
-      D[k + 1] = -ti;
+      D[k + 1] = ti;
       const nr = rho * tr + keep * xr;
       const ni = rho * ti + keep * xi;
       X[k] = nr;
@@ -228,7 +224,7 @@ function primalSpectrum(
   return 0.5 * residual;
 }
 
-/** g = 1/(M + t) per k-space sample, t = σ(λ_u + λ_v) + δ. */
+/** g = 1/(M + t) per k-space sample (transposed layout: row u, column v), t = σ(λ_u + λ_v) + δ. */
 function metricGain(
   mask: Uint8Array,
   eigenX: Float64Array,
@@ -236,12 +232,12 @@ function metricGain(
   sigma: number,
   delta: number,
 ): Float64Array {
-  const nx = eigenX.length;
+  const columns = eigenY.length;
   const gain = new Float64Array(mask.length);
-  for (let r = 0; r < eigenY.length; r++) {
-    for (let c = 0; c < nx; c++) {
-      const i = r * nx + c;
-      gain[i] = 1 / (mask[i] + sigma * (eigenY[r] + eigenX[c]) + delta);
+  for (let r = 0; r < eigenX.length; r++) {
+    for (let c = 0; c < columns; c++) {
+      const i = r * columns + c;
+      gain[i] = 1 / (mask[i] + sigma * (eigenX[r] + eigenY[c]) + delta);
     }
   }
   return gain;
