@@ -55,11 +55,14 @@ export interface PreconditionedOptions {
  * Both halves are relaxed by ρ (RELAXATION), primal half first:
  *   x̃ = (T⁻¹ + ∂G)⁻¹(T⁻¹x_k + div p_k),  p̃ = proj_{‖·‖≤λ}(p_k + σ∇(2x̃ − x_k)),
  *   (x_{k+1}, p_{k+1}) = ρ(x̃, p̃) + (1 − ρ)(x_k, p_k).
- * Per iteration: fft2c(div p_k); one k-space pass (x̃'s spectrum, the relaxed spectrum X kept, the
- * data residual); ifft2c of x̃; one image pass (relaxedTvDualPass: x̄ on the fly, dual ascent,
+ * Per iteration: the DFT of div p_k; one k-space pass (x̃'s spectrum, the relaxed spectrum X kept,
+ * the data residual); the inverse DFT to x̃; one image pass (relaxedTvDualPass: x̄ on the fly, dual ascent,
  * projection, relaxation of p and x, div p, the iterate change). No copies, no allocation. Start
  * x⁰ = F_cᴴ(M y), p⁰ = proj(σ∇x⁰); stops after `iterations` or by the StoppingRule, whose objective
  * takes the data term from the k-space pass and TV only when the iterate test passes.
+ * The loop never centres: the image stays in natural order and k-space DC first (and transposed),
+ * on the un-centred plainFft2d; by the shift theorem this is the F_c iteration above exactly
+ * (docs/design.md §3.13; tests/recon/cs-tv-preconditioned-layout.test.ts).
  */
 export function solveCsTvPreconditioned(
   input: ReconInput,
