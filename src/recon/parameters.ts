@@ -98,9 +98,7 @@ export const WAVELET_LAMBDA_DEFAULT_MAX = 0.02;
  * phantoms, was 2–3× the anatomy optimum at R = 2 and for radial masks.
  */
 export function defaultCsWaveletLambda(fraction: number): number {
-  if (!(fraction > 0)) return WAVELET_LAMBDA_DEFAULT_MAX;
-  const excess = 1 / Math.min(1, fraction) - 1;
-  return Math.min(WAVELET_LAMBDA_DEFAULT_MAX, WAVELET_LAMBDA_SCALE * excess ** WAVELET_LAMBDA_POWER);
+  return fractionPowerRule(fraction, WAVELET_LAMBDA_SCALE, WAVELET_LAMBDA_POWER, WAVELET_LAMBDA_DEFAULT_MAX);
 }
 
 /** The anatomy rule λ = TV_LAMBDA_SCALE·(1/f − 1)^TV_LAMBDA_POWER (docs/design.md §3.12). */
@@ -120,7 +118,15 @@ export const TV_LAMBDA_DEFAULT_MAX = 0.05;
  * anatomy optimum for Cartesian masks at R = 8.
  */
 export function defaultTvLambda(fraction: number): number {
-  if (!(fraction > 0)) return TV_LAMBDA_DEFAULT_MAX;
+  return fractionPowerRule(fraction, TV_LAMBDA_SCALE, TV_LAMBDA_POWER, TV_LAMBDA_DEFAULT_MAX);
+}
+
+/**
+ * The shape both tuned λ rules share: scale·(1/f − 1)^power of the acquired fraction f, at most
+ * max (also for a fraction that is not positive); 0 at full sampling.
+ */
+function fractionPowerRule(fraction: number, scale: number, power: number, max: number): number {
+  if (!(fraction > 0)) return max;
   const excess = 1 / Math.min(1, fraction) - 1;
-  return Math.min(TV_LAMBDA_DEFAULT_MAX, TV_LAMBDA_SCALE * excess ** TV_LAMBDA_POWER);
+  return Math.min(max, scale * excess ** power);
 }
