@@ -1,7 +1,11 @@
 import { describe, expect, it } from 'vitest';
 import { fft2c, ifft2c } from '../../src/core/centered-fft.ts';
 import type { ComplexImage } from '../../src/core/complex-image.ts';
-import { DELTA_PER_SIGMA, RELAXATION, solveCsTvPreconditioned } from '../../src/recon/cs-tv-preconditioned.ts';
+import {
+  DELTA_PER_SIGMA,
+  RELAXATION,
+  solveCsTvPreconditioned,
+} from '../../src/recon/cs-tv-preconditioned.ts';
 import { relaxedTvDualPass } from '../../src/recon/total-variation.ts';
 import { relativeMaxError } from '../error-measures.ts';
 import { randomProblem } from './helpers.ts';
