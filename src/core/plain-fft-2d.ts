@@ -55,10 +55,18 @@ export function plainFft2d(
       const c1 = Math.min(columns, c0 + BLOCK);
       for (let r = r0; r < r1; r++) {
         const outColumn = reverse && r > 0 ? rows - r : r;
-        for (let c = c0; c < c1; c++) {
-          const outRow = reverse && c > 0 ? columns - c : c;
-          const s = 2 * (r * columns + c);
-          const d = 2 * (outRow * rows + outColumn);
+        let c = c0;
+        let s = 2 * (r * columns + c);
+        if (reverse && c === 0) {
+          // Column 0 stays row 0; the mirror walks the rest backwards from the last row.
+          scratch[2 * outColumn] = target[s] * scale;
+          scratch[2 * outColumn + 1] = target[s + 1] * scale;
+          c++;
+          s += 2;
+        }
+        let d = 2 * ((reverse ? columns - c : c) * rows + outColumn);
+        const step = reverse ? -2 * rows : 2 * rows;
+        for (; c < c1; c++, s += 2, d += step) {
           scratch[d] = target[s] * scale;
           scratch[d + 1] = target[s + 1] * scale;
         }

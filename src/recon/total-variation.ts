@@ -168,36 +168,35 @@ export function relaxedTvDualPass(
   let diff = 0;
   let norm = 0;
   for (let i = 0; i < ny; i++) {
-    const lastRow = i === ny - 1;
+    // Row boundaries as 0/1 weights and offsets rather than branches per pixel: on the last row the
+    // vertical difference gets weight 0 (its offset 0 keeps the read in bounds), on the first row
+    // the term of the row above does.
+    const hasBelow = i < ny - 1 ? 1 : 0;
+    const hasAbove = i > 0 ? 1 : 0;
+    const below = hasBelow * rowStep;
+    const above = hasAbove * rowStep;
+    const sigmaBelow = sigma * hasBelow;
     let k = 2 * i * nx;
+    const lastColumn = k + 2 * (nx - 1);
     let re = 2 * xt[k] - x[k];
     let im = 2 * xt[k + 1] - x[k + 1];
-    for (let j = 0; j < nx; j++, k += 2) {
-      const lastColumn = j === nx - 1;
-      let g1 = 0;
-      let g2 = 0;
-      let nextRe = 0;
-      let nextIm = 0;
-      if (!lastColumn) {
-        nextRe = 2 * xt[k + 2] - x[k + 2];
-        nextIm = 2 * xt[k + 3] - x[k + 3];
-        g1 = nextRe - re;
-        g2 = nextIm - im;
-      }
-      let g3 = 0;
-      let g4 = 0;
-      if (!lastRow) {
-        g3 = 2 * xt[k + rowStep] - x[k + rowStep] - re;
-        g4 = 2 * xt[k + rowStep + 1] - x[k + rowStep + 1] - im;
-      }
+    // p of the pixel to the left, carried instead of read back.
+    let leftA = 0;
+    let leftB = 0;
+    for (; k <= lastColumn; k += 2) {
+      // The last column has no horizontal difference: weight 0, and its own x̄ as the neighbour.
+      const inner = k < lastColumn ? 1 : 0;
+      const right = k + 2 * inner;
+      const nextRe = 2 * xt[right] - x[right];
+      const nextIm = 2 * xt[right + 1] - x[right + 1];
       const oa = px[k];
       const ob = px[k + 1];
       const oc = py[k];
       const od = py[k + 1];
-      const a = oa + sigma * g1;
-      const b = ob + sigma * g2;
-      const c = oc + sigma * g3;
-      const d = od + sigma * g4;
+      const a = oa + sigma * (nextRe - re);
+      const b = ob + sigma * (nextIm - im);
+      const c = oc + sigmaBelow * (2 * xt[k + below] - x[k + below] - re);
+      const d = od + sigmaBelow * (2 * xt[k + below + 1] - x[k + below + 1] - im);
       const s = a * a + b * b + c * c + d * d;
       const scale = (s > lambda2 ? lambda / Math.sqrt(s) : 1) * rho;
       const pa = a * scale + keep * oa;
@@ -208,26 +207,10 @@ export function relaxedTvDualPass(
       px[k + 1] = pb;
       py[k] = pc;
       py[k + 1] = pd;
-      let vr = 0;
-      let vi = 0;
-      if (!lastColumn) {
-        vr += pa;
-        vi += pb;
-      }
-      if (j > 0) {
-        vr -= px[k - 2];
-        vi -= px[k - 1];
-      }
-      if (!lastRow) {
-        vr += pc;
-        vi += pd;
-      }
-      if (i > 0) {
-        vr -= py[k - rowStep];
-        vi -= py[k - rowStep + 1];
-      }
-      div[k] = vr;
-      div[k + 1] = vi;
+      div[k] = inner * pa - leftA + hasBelow * pc - hasAbove * py[k - above];
+      div[k + 1] = inner * pb - leftB + hasBelow * pd - hasAbove * py[k - above + 1];
+      leftA = pa;
+      leftB = pb;
       const xr = x[k];
       const xi = x[k + 1];
       const nr = rho * xt[k] + keep * xr;

@@ -1,7 +1,11 @@
 import { describe, expect, it } from 'vitest';
 import { fft2c, ifft2c } from '../../src/core/centered-fft.ts';
 import type { ComplexImage } from '../../src/core/complex-image.ts';
-import { DELTA_PER_SIGMA, solveCsTvPreconditioned } from '../../src/recon/cs-tv-preconditioned.ts';
+import {
+  DELTA_PER_SIGMA,
+  RELAXATION,
+  solveCsTvPreconditioned,
+} from '../../src/recon/cs-tv-preconditioned.ts';
 import { relaxedTvDualPass } from '../../src/recon/total-variation.ts';
 import { relativeMaxError } from '../error-measures.ts';
 import { randomProblem } from './helpers.ts';
@@ -62,7 +66,7 @@ describe('cs-tv preconditioned: the un-centred loop equals the centred formulati
       const sigma = 2;
       const solved = solveCsTvPreconditioned({ kspace, mask }, lambda, 30, 0, { sigma });
       expect(solved.iterations).toBe(30);
-      const expected = centredIterates(kspace, mask, lambda, sigma, 1.5, 30);
+      const expected = centredIterates(kspace, mask, lambda, sigma, RELAXATION, 30);
       expect(relativeMaxError(solved.image.data, expected)).toBeLessThan(1e-12);
       // The iterates moved: the check compares 30 steps, not the common start.
       const start = ifft2c(kspace).data;
