@@ -73,7 +73,7 @@ export function checkRawPieces(request: { coils?: CoilsSpec }, sampled: SampledM
 /** The note every raw reconstruction carries: coils, prewhitening, and what the reference is. */
 export function rawDataNote(raw: RawKspace): string {
   return (
-    `raw data, ${raw.kspace.coils} coils${raw.noiseCovariance ? ', prewhitened with the noise covariance of its noise scans' : ' (no noise scans: not prewhitened)'}; ` +
+    `raw data, ${raw.kspace.coils} coils${raw.noiseCovariance ? ', prewhitened with its noise covariance (from noise scans, or as an imported acquisition bundle states it)' : ' (noise covariance unknown: not prewhitened)'}; ` +
     'reference: root-sum-of-squares of the fully sampled coil images, which carry the scan’s own noise'
   );
 }
