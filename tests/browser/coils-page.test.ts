@@ -185,8 +185,13 @@ describe('receive arrays on the planner page', () => {
 
   it('keeps the coil fields usable at 420 px wide', async () => {
     await page.setViewportSize({ width: 420, height: 900 });
-    const overflow = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth);
-    expect(overflow).toBeLessThanOrEqual(0);
+    // The trade-off plot redraws to its new width from a ResizeObserver callback, after the resize
+    // itself: the page must fit once it has reacted, so the overflow is polled, not read once.
+    await expect
+      .poll(() => page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth), {
+        timeout: 5_000,
+      })
+      .toBeLessThanOrEqual(0);
     const picture = await page.locator('#coilPicture').boundingBox();
     expect(picture!.x + picture!.width).toBeLessThanOrEqual(420);
     await page.locator('#coilPicture').scrollIntoViewIfNeeded();

@@ -386,8 +386,12 @@ describe('stored plans, addresses and downloads in Chromium', () => {
     await page.waitForFunction(
       () => !(document.querySelector('#rowImgReconstruction') as HTMLImageElement).hidden,
     );
-    const overflow = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth);
-    expect(overflow).toBeLessThanOrEqual(0);
+    // The plot redraws to the new width from a ResizeObserver callback: poll until the page has reacted.
+    await expect
+      .poll(() => page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth), {
+        timeout: 5_000,
+      })
+      .toBeLessThanOrEqual(0);
     await page.locator('#rowImages').scrollIntoViewIfNeeded();
     await page.screenshot({ path: join(artifacts, 'plans-row-images-420.png') });
     await page.locator('#plans').scrollIntoViewIfNeeded();
