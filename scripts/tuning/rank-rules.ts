@@ -1,5 +1,6 @@
-import { acquiredHankelSpectrum, defaultHankelRank, hardThresholdRank } from '../../src/recon/hankel-rank.ts';
+import { defaultHankelRank } from '../../src/recon/hankel-rank.ts';
 import { rankForEnergy } from '../../src/recon/lowrank-hankel.ts';
+import { acquiredHankelSpectrum, hardThresholdRank } from './rank-spectrum.ts';
 
 /**
  * The rank rules compared for lowrank-hankel (7×7, 'gradient'), evaluated without reconstructing:

@@ -4,7 +4,7 @@ import {
   acquiredHankelSpectrum,
   hardThresholdCoefficient,
   hardThresholdRank,
-} from '../../src/recon/hankel-rank.ts';
+} from '../../scripts/tuning/rank-spectrum.ts';
 import { maxAbsDifference } from '../error-measures.ts';
 
 /**

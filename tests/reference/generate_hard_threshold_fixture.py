@@ -1,5 +1,5 @@
 #!/usr/bin/python3
-"""Reference fixture for lowrank-hankel's spectrum rank rule (src/recon/hankel-rank.ts).
+"""Reference fixture for lowrank-hankel's spectrum rank rule (scripts/tuning/rank-spectrum.ts).
 
 Run with Debian's interpreter, numpy and scipy (python3-numpy, python3-scipy):
 
