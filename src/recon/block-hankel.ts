@@ -44,13 +44,7 @@ export class BlockHankel {
   private readonly planY: FftPlan;
   /** The (2wy−2)×(2wx−2) wrapped corner block of one array. */
   private readonly corner: Float64Array;
-  /** Window-offset boxes per row / column position (see offsetBoxes). */
-  private readonly rowBox: Int32Array;
-  private readonly rowBoxes: Int32Array;
-  private readonly colBox: Int32Array;
-  private readonly colBoxes: Int32Array;
-  /** The (row box, column box) of interior samples, or null when no sample sees every window. */
-  private readonly fullBox: { ry: number; rx: number } | null;
+  private readonly boxes: WindowBoxes;
   /** Rows of the interior kernel placed circularly (complex; slot per grid row, −1 for zero rows)
    * and its DFT-domain multiplier (real). */
   private readonly kernelImage: Float64Array;
@@ -94,13 +88,8 @@ export class BlockHankel {
     this.planX = fftPlan(nx);
     this.planY = fftPlan(ny);
     this.corner = new Float64Array(2 * Math.max(0, 2 * wy - 2) * Math.max(0, 2 * wx - 2));
-    const rows = offsetBoxes(ny, wy);
-    const cols = offsetBoxes(nx, wx);
-    this.rowBox = rows.boxOf;
-    this.rowBoxes = rows.ranges;
-    this.colBox = cols.boxOf;
-    this.colBoxes = cols.ranges;
-    this.fullBox = fullBoxOf(rows.ranges, cols.ranges, wy, wx);
+    const boxes = windowBoxes(nx, ny, wx, wy);
+    this.boxes = boxes;
     this.kernelImage = new Float64Array(2 * Math.min(ny, 2 * wy - 1) * nx);
     this.multiplier = new Float64Array(nx * ny);
     this.kernelRowSlot = new Int32Array(ny);
@@ -111,7 +100,7 @@ export class BlockHankel {
     this.stripSums = new Float64Array(2 * 2 * Math.max(nx, ny));
     this.rowPrefix = new Float64Array(2 * (2 * wx - 1) * (2 * wy - 1) * (wy + 1));
     this.kernels = new Float64Array(
-      2 * (2 * wx - 1) * (2 * wy - 1) * (rows.ranges.length / 2) * (cols.ranges.length / 2),
+      2 * (2 * wx - 1) * (2 * wy - 1) * (boxes.rowBoxes.length / 2) * (boxes.colBoxes.length / 2),
     );
   }
 
@@ -238,7 +227,8 @@ export class BlockHankel {
    * (2wy−1)(2wx−1) multiply-adds. `projector` is scratch of n×n complex numbers.
    */
   setProjector(projector: Float64Array, vectors: Float64Array, rank: number): void {
-    const { size: n, wx, wy, kernels, rowBoxes, colBoxes } = this;
+    const { size: n, wx, wy, kernels } = this;
+    const { rowBoxes, colBoxes } = this.boxes;
     rankProjector(projector, vectors, n, rank);
     // Per column box: the kernel of each window row by (prefix-summed over by), then every row
     // box [b0, b1] as a difference of two prefix sums.
@@ -284,7 +274,7 @@ export class BlockHankel {
    */
   projectAverage(out: Float64Array, z: Float64Array, out2?: Float64Array, z2?: Float64Array): void {
     const arrays = out2 !== undefined && z2 !== undefined ? [z, z2] : [z];
-    if (this.fullBox !== null) this.transformArrays(arrays);
+    if (this.boxes.fullBox !== null) this.transformArrays(arrays);
     this.liftedArrays = arrays;
     this.projectLifted(out, out2);
   }
@@ -297,7 +287,7 @@ export class BlockHankel {
     const arrays = this.liftedArrays;
     if (arrays.length === 0) throw new Error('projectLifted needs a preceding gram or projectAverage');
     const outs = arrays.length > 1 && out2 !== undefined ? [out, out2] : [out];
-    if (this.fullBox === null) {
+    if (this.boxes.fullBox === null) {
       for (let i = 0; i < outs.length; i++) this.averageBorder(outs[i], arrays[i], 'all');
     } else {
       for (let i = 0; i < outs.length; i++) this.convolveInterior(outs[i], this.spectra[i]);
@@ -315,8 +305,8 @@ export class BlockHankel {
    * b → b − d in K[d] = Σ_b Π[b+d, b]) and M is real: two columns share one complex FFT.
    */
   private prepareMultiplier(): void {
-    const { nx, ny, wx, wy, kernels, colBoxes, kernelImage, multiplier, kernelRowSlot } = this;
-    const box = this.fullBox;
+    const { nx, ny, wx, wy, kernels, kernelImage, multiplier, kernelRowSlot } = this;
+    const { colBoxes, fullBox: box } = this.boxes;
     if (box === null) return;
     const kw = 2 * wx - 1;
     const kernelSize = 2 * kw * (2 * wy - 1);
@@ -358,7 +348,8 @@ export class BlockHankel {
     axis: 'rows' | 'columns',
   ): void {
     const byRows = axis === 'rows';
-    const { nx, ny, wx, wy, kernels, rowBoxes, colBoxes, rowBox, colBox, fullBox } = this;
+    const { nx, ny, wx, wy, kernels } = this;
+    const { rowBoxes, colBoxes, rowBox, colBox, fullBox } = this.boxes;
     if (fullBox === null) return;
     const { stripSpectra, stripSlot, kernelLine, stripSums, lineOut } = this;
     const plan = byRows ? this.planX : this.planY;
@@ -442,7 +433,8 @@ export class BlockHankel {
    */
   private averageBorder(out: Float64Array, z: Float64Array, which: 'all' | 'corners'): void {
     const all = which === 'all';
-    const { nx, ny, wx, wy, kernels, rowBoxes, colBoxes, rowBox, colBox } = this;
+    const { nx, ny, wx, wy, kernels } = this;
+    const { rowBoxes, colBoxes, rowBox, colBox } = this.boxes;
     const kw = 2 * wx - 1;
     const kernelSize = 2 * kw * (2 * wy - 1);
     const nCol = colBoxes.length / 2;
@@ -663,10 +655,37 @@ export function bandLags(
 }
 
 /**
+ * The window-offset boxes of a wy×wx window sliding over an ny×nx grid: per row and per column
+ * position the box of offsets whose window fits (offsetBoxes), and the (row box, column box) of the
+ * interior samples, which every window offset fits, or null when no sample sees every window.
+ * Shared by BlockHankel and StackedBlockHankel, which average back over the same windows.
+ */
+export interface WindowBoxes {
+  readonly rowBox: Int32Array;
+  readonly rowBoxes: Int32Array;
+  readonly colBox: Int32Array;
+  readonly colBoxes: Int32Array;
+  readonly fullBox: { ry: number; rx: number } | null;
+}
+
+/** The WindowBoxes of a wy×wx window over an ny×nx grid. */
+export function windowBoxes(nx: number, ny: number, wx: number, wy: number): WindowBoxes {
+  const rows = offsetBoxes(ny, wy);
+  const cols = offsetBoxes(nx, wx);
+  return {
+    rowBox: rows.boxOf,
+    rowBoxes: rows.ranges,
+    colBox: cols.boxOf,
+    colBoxes: cols.ranges,
+    fullBox: fullBoxOf(rows.ranges, cols.ranges, wy, wx),
+  };
+}
+
+/**
  * The (row box, column box) in which every window offset fits, i.e. that of the interior samples,
  * or null when no sample sees every window (offsetBoxes ranges; each range occurs once).
  */
-export function fullBoxOf(
+function fullBoxOf(
   rowBoxes: Int32Array,
   colBoxes: Int32Array,
   wy: number,
@@ -771,7 +790,7 @@ export function addCornerCorrelation(
  * For each position along one axis of length `length` (window `w`), the range [b0, b1] of window
  * offsets whose window still fits; positions with the same range share one box index.
  */
-export function offsetBoxes(length: number, w: number): { boxOf: Int32Array; ranges: Int32Array } {
+function offsetBoxes(length: number, w: number): { boxOf: Int32Array; ranges: Int32Array } {
   const boxOf = new Int32Array(length);
   const found: number[] = [];
   for (let q = 0; q < length; q++) {

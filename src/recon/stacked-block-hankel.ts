@@ -4,14 +4,14 @@ import {
   addKernelSum,
   addWrapCorrectedEntry,
   bandLags,
-  fullBoxOf,
   gatherCorner,
   lagsOverRows,
-  offsetBoxes,
   rankProjector,
   transformBandLines,
   twiddles,
+  type WindowBoxes,
   type WrapBand,
+  windowBoxes,
   wrapBand,
 } from './block-hankel.ts';
 import { Dft2 } from './uncentred-dft2.ts';
@@ -89,11 +89,7 @@ export class StackedBlockHankel {
   /** Box kernels of one output coil d for every input coil c: [c][box][δ]. */
   private readonly boxKernels: Float64Array;
   private readonly prefix: Float64Array;
-  private readonly rowBox: Int32Array;
-  private readonly rowBoxes: Int32Array;
-  private readonly colBox: Int32Array;
-  private readonly colBoxes: Int32Array;
-  private readonly fullBox: { ry: number; rx: number } | null;
+  private readonly boxes: WindowBoxes;
   /** One sample's running kernel sum (re, im). */
   private readonly sampleSum = new Float64Array(2);
 
@@ -138,16 +134,11 @@ export class StackedBlockHankel {
     this.kernelRowSpectra = new Float64Array(2 * ly * nx);
     this.multiplier = new Float64Array(2 * n);
     this.kernel = new Float64Array(2 * lx * ly);
-    const rows = offsetBoxes(ny, wy);
-    const cols = offsetBoxes(nx, wx);
-    this.rowBox = rows.boxOf;
-    this.rowBoxes = rows.ranges;
-    this.colBox = cols.boxOf;
-    this.colBoxes = cols.ranges;
-    const boxCount = (rows.ranges.length / 2) * (cols.ranges.length / 2);
+    const boxes = windowBoxes(nx, ny, wx, wy);
+    this.boxes = boxes;
+    const boxCount = (boxes.rowBoxes.length / 2) * (boxes.colBoxes.length / 2);
     this.boxKernels = new Float64Array(2 * coils * boxCount * lx * ly);
     this.prefix = new Float64Array(2 * (wy + 1) * (wx + 1) * lx * ly);
-    this.fullBox = fullBoxOf(rows.ranges, cols.ranges, wy, wx);
   }
 
   /**
@@ -299,7 +290,7 @@ export class StackedBlockHankel {
     if (arrays === null) throw new Error('project needs a preceding gram');
     const { coils, nx, ny } = this;
     const n = nx * ny;
-    if (this.fullBox !== null) {
+    if (this.boxes.fullBox !== null) {
       for (let k = 0; k < this.arrays; k++) for (let d = 0; d < coils; d++) this.projected[k][d].fill(0);
       for (let c = 0; c < coils; c++) {
         for (let d = c; d < coils; d++) {
@@ -401,7 +392,8 @@ export class StackedBlockHankel {
    * once from 2D prefix sums over the window offsets b.
    */
   private boxKernelsOf(c: number, d: number): void {
-    const { wx, wy, window: n, size, projector, prefix, rowBoxes, colBoxes, boxKernels } = this;
+    const { wx, wy, window: n, size, projector, prefix, boxKernels } = this;
+    const { rowBoxes, colBoxes } = this.boxes;
     const lx = 2 * wx - 1;
     const kernelSize = 2 * lx * (2 * wy - 1);
     const stride = wx + 1;
@@ -454,7 +446,8 @@ export class StackedBlockHankel {
    * or every sample when no full box exists, are summed sample by sample.
    */
   private averageBorder(out: Float64Array, inputs: readonly Float64Array[]): void {
-    const { nx, ny, rowBox, colBox, fullBox } = this;
+    const { nx, ny } = this;
+    const { rowBox, colBox, fullBox } = this.boxes;
     if (fullBox === null) {
       for (let qy = 0; qy < ny; qy++) for (let qx = 0; qx < nx; qx++) this.averageSample(out, inputs, qy, qx);
       return;
@@ -483,8 +476,9 @@ export class StackedBlockHankel {
     line: number,
     axis: 'row' | 'column',
   ): void {
-    const { nx, ny, wx, wy, coils, rowBox, colBox, rowBoxes, colBoxes, boxKernels } = this;
-    const fullBox = this.fullBox as { ry: number; rx: number };
+    const { nx, ny, wx, wy, coils, boxKernels } = this;
+    const { rowBox, colBox, rowBoxes, colBoxes } = this.boxes;
+    const fullBox = this.boxes.fullBox as { ry: number; rx: number };
     const byRow = axis === 'row';
     const lx = 2 * wx - 1;
     const kernelSize = 2 * lx * (2 * wy - 1);
@@ -536,7 +530,8 @@ export class StackedBlockHankel {
 
   /** One sample q = (qy, qx) by the direct sum over its box kernels, coil by coil. */
   private averageSample(out: Float64Array, inputs: readonly Float64Array[], qy: number, qx: number): void {
-    const { nx, ny, wx, wy, coils, rowBox, colBox, rowBoxes, colBoxes, boxKernels, sampleSum: sum } = this;
+    const { nx, ny, wx, wy, coils, boxKernels, sampleSum: sum } = this;
+    const { rowBox, colBox, rowBoxes, colBoxes } = this.boxes;
     const kernelSize = 2 * (2 * wx - 1) * (2 * wy - 1);
     const nCol = colBoxes.length / 2;
     const boxCount = (rowBoxes.length / 2) * nCol;
