@@ -1,5 +1,5 @@
+import { rankForEnergy } from '../../src/recon/hankel-iterations.ts';
 import { defaultHankelRank } from '../../src/recon/hankel-rank.ts';
-import { rankForEnergy } from '../../src/recon/lowrank-hankel.ts';
 import { acquiredHankelSpectrum, hardThresholdRank } from './rank-spectrum.ts';
 
 /**

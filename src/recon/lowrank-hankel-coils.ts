@@ -1,17 +1,11 @@
-import { throwIfAborted } from '../core/errors.ts';
 import type { MultiCoilKspace } from '../encoding/index.ts';
 import { derivativeWeights } from './derivative-weights.ts';
-import { HermitianEigenSolver } from './hermitian-eigen.ts';
+import { runHankelIterations } from './hankel-iterations.ts';
 import type { HankelSolution, HankelSolveParams } from './lowrank-hankel.ts';
 import { StackedBlockHankel } from './stacked-block-hankel.ts';
 
 /** Largest coils × window area (the Gram matrix is that square; its eigendecomposition grows as the cube). */
 export const STACKED_COLUMNS_MAX = 400;
-
-/** The single-coil parameters plus the energy rule (passed in: lowrank-hankel.ts imports this file). */
-export interface CoilHankelParams extends HankelSolveParams {
-  rankForEnergy: (values: Float64Array, energy: number) => number;
-}
 
 /**
  * Calibrationless structured low-rank completion of multi-coil k-space (SAKE, Shin et al. 2014,
@@ -26,7 +20,7 @@ export interface CoilHankelParams extends HankelSolveParams {
 export function solveLowrankHankelCoils(
   kspace: MultiCoilKspace,
   mask: Uint8Array,
-  params: CoilHankelParams,
+  params: HankelSolveParams,
   signal?: AbortSignal,
 ): HankelSolution<MultiCoilKspace> {
   const { nx, ny, coils } = kspace;
@@ -34,9 +28,6 @@ export function solveLowrankHankelCoils(
   const [wy, wx] = params.kernel;
   const gradientWeighting = params.weighting === 'gradient';
   const lift = new StackedBlockHankel(nx, ny, wx, wy, coils, gradientWeighting ? 2 : 1);
-  const size = lift.size;
-  const eigen = new HermitianEigenSolver(size);
-  const gram = new Float64Array(2 * size * size);
   const x = kspace.data.slice();
   for (let c = 0; c < coils; c++) {
     for (let i = 0; i < n; i++) {
@@ -64,15 +55,8 @@ export function solveLowrankHankelCoils(
       for (let i = 0; i < n; i++) setWeighted(c, i, z[2 * i], z[2 * i + 1]);
     }
   }
-  let run = 0;
-  let rank = params.rank ?? size;
-  let change = Number.POSITIVE_INFINITY;
-  for (let it = 0; it < params.iterations; it++) {
-    throwIfAborted(signal);
-    lift.gram(gram, lifted);
-    eigen.solve(gram);
-    rank = params.rank ?? params.rankForEnergy(eigen.values, params.energy);
-    lift.setProjector(eigen.vectors, rank);
+  const update = (vectors: Float64Array, rank: number) => {
+    lift.setProjector(vectors, rank);
     lift.project(projected);
     let diff = 0;
     let norm = 0;
@@ -104,15 +88,11 @@ export function solveLowrankHankelCoils(
         norm += nr * nr + ni * ni;
       }
     }
-    run = it + 1;
-    change = norm > 0 ? Math.sqrt(diff / norm) : 0;
-    if (change < params.tolerance) break;
-  }
+    return { diff, norm };
+  };
+  const gram = (target: Float64Array) => lift.gram(target, lifted);
   return {
     kspace: { coils, nx, ny, data: x },
-    iterations: run,
-    rank,
-    relativeChange: change,
-    spectrum: eigen.values.slice(),
+    ...runHankelIterations(lift.size, params, { gram, update }, signal),
   };
 }

@@ -1,13 +1,13 @@
 import { z } from 'zod';
 import { ifft2c } from '../core/centered-fft.ts';
 import { createComplexImage } from '../core/complex-image.ts';
-import { throwIfAborted, ValidationError } from '../core/errors.ts';
+import { ValidationError } from '../core/errors.ts';
 import { checkMultiCoilShape, transformPlaneInPlace } from '../encoding/index.ts';
 import { BlockHankel } from './block-hankel.ts';
 import { combineCoilImages } from './coil-combination.ts';
 import { derivativeWeights } from './derivative-weights.ts';
+import { runHankelIterations } from './hankel-iterations.ts';
 import { defaultHankelRank, type HankelRankRule } from './hankel-rank.ts';
-import { HermitianEigenSolver } from './hermitian-eigen.ts';
 import { STACKED_COLUMNS_MAX, solveLowrankHankelCoils } from './lowrank-hankel-coils.ts';
 import {
   type CoilData,
@@ -147,19 +147,6 @@ export interface HankelSolution<K> {
   spectrum: Float64Array;
 }
 
-/** Smallest r whose leading eigenvalues keep `energy` of the trace (eigenvalues descending, ≥ 0). */
-export function rankForEnergy(values: Float64Array, energy: number): number {
-  let total = 0;
-  for (let i = 0; i < values.length; i++) total += Math.max(0, values[i]);
-  if (total === 0) return 1;
-  let kept = 0;
-  for (let r = 0; r < values.length; r++) {
-    kept += Math.max(0, values[r]);
-    if (kept >= energy * total) return r + 1;
-  }
-  return values.length;
-}
-
 /**
  * Structured low-rank completion of single-channel k-space by alternating projections
  * (the SAKE-style loop of Shin et al. 2014, docs/references.md §5.3):
@@ -190,8 +177,6 @@ export function solveLowrankHankel(
   const [wy, wx] = params.kernel;
   const lift = new BlockHankel(nx, ny, wx, wy);
   const size = lift.size;
-  const eigen = new HermitianEigenSolver(size);
-  const gram = new Float64Array(2 * size * size);
   const projector = new Float64Array(2 * size * size);
   const x = new Float64Array(2 * n);
   const y = kspace.data;
@@ -218,15 +203,8 @@ export function solveLowrankHankel(
       zy[2 * i + 1] = weightY[i] * x[2 * i + 1];
     }
   }
-  let run = 0;
-  let rank = params.rank ?? size;
-  let change = Number.POSITIVE_INFINITY;
-  for (let it = 0; it < params.iterations; it++) {
-    throwIfAborted(signal);
-    lift.gram(gram, lifted);
-    eigen.solve(gram);
-    rank = params.rank ?? rankForEnergy(eigen.values, params.energy);
-    lift.setProjector(projector, eigen.vectors, rank);
+  const update = (vectors: Float64Array, rank: number) => {
+    lift.setProjector(projector, vectors, rank);
     // Data consistency: acquired samples are skipped (x = y there throughout). The relative change
     // is summed in the same pass, in the same order as over the whole interleaved array.
     let diff = 0;
@@ -264,11 +242,10 @@ export function solveLowrankHankel(
       diff += di * di;
       norm += ni * ni;
     }
-    run = it + 1;
-    change = norm > 0 ? Math.sqrt(diff / norm) : 0;
-    if (change < params.tolerance) break;
-  }
-  return { kspace: x, iterations: run, rank, relativeChange: change, spectrum: eigen.values.slice() };
+    return { diff, norm };
+  };
+  const gram = (target: Float64Array) => lift.gram(target, lifted);
+  return { kspace: x, ...runHankelIterations(size, params, { gram, update }, signal) };
 }
 
 export const lowrankHankel: ReconMethod<LowrankHankelSpec> = {
@@ -420,7 +397,7 @@ function runOnCoils(
   const { nx, ny } = kspace;
   if (mask.length !== nx * ny) throw new RangeError(`mask must cover the ${ny}×${nx} coil k-space`);
   if (maps) checkMultiCoilShape(maps, kspace.coils, nx, ny, 'coils.maps');
-  const result = solveLowrankHankelCoils(kspace, mask, { ...params, rankForEnergy }, signal);
+  const result = solveLowrankHankelCoils(kspace, mask, params, signal);
   const images = result.kspace;
   for (let c = 0; c < images.coils; c++) transformPlaneInPlace(images.data, c * nx * ny, nx, ny, 1);
   const image = combineCoilImages(images, maps).image;
