@@ -2,7 +2,7 @@ import { fft2c, ifft2c } from '../../src/core/centered-fft.ts';
 import { createComplexImage } from '../../src/core/complex-image.ts';
 import { reconstruct } from '../../src/recon/index.ts';
 import { coilInput, lineMask, loopCoilProblem } from '../recon/coil-problem.ts';
-import { type BenchRow, medianMs } from './timing.ts';
+import { type BenchRow, median, medianMs } from './timing.ts';
 
 /**
  * The multi-coil iterative reconstructions at 128² with the 8 loop coils, one iteration against the
@@ -82,10 +82,4 @@ export async function benchCoilRecon(): Promise<BenchRow[]> {
     });
   }
   return [{ name: `${coils}×(fft2c+ifft2c) ${n}² (floor per iteration)`, medianMs: median(floors) }, ...rows];
-}
-
-function median(values: number[]): number {
-  const sorted = [...values].sort((a, b) => a - b);
-  const mid = sorted.length >> 1;
-  return sorted.length % 2 ? sorted[mid] : (sorted[mid - 1] + sorted[mid]) / 2;
 }

@@ -10,7 +10,7 @@ import {
   pseudoReplicaGFactor,
   replicaReconstructor,
 } from '../../src/recon/index.ts';
-import { type BenchRow, medianMs } from './timing.ts';
+import { type BenchRow, median, medianMs } from './timing.ts';
 
 /**
  * Parallel imaging at 256² with 8 loop coils on the modified Shepp–Logan raster (data from the
@@ -25,10 +25,6 @@ function timed(fn: () => unknown): { wall: number; cpu: number } {
   fn();
   const c = process.cpuUsage(c0);
   return { wall: performance.now() - w0, cpu: (c.user + c.system) / 1000 };
-}
-
-function middle(values: number[]): number {
-  return [...values].sort((a, b) => a - b)[values.length >> 1];
 }
 
 export async function benchParallelImaging(): Promise<BenchRow[]> {
@@ -68,7 +64,7 @@ export async function benchParallelImaging(): Promise<BenchRow[]> {
     cpuRatios.push(solve.cpu / (pair.cpu * floorScale));
     senseRuns.push(solve.wall);
   }
-  const senseMs = middle(senseRuns);
+  const senseMs = median(senseRuns);
 
   const firstFillMs = await medianMs(() => prepareGrappa(input, { name: 'grappa' }).fill(y, mask), 3, 0);
   const grappa = prepareGrappa(input, { name: 'grappa' });
@@ -97,7 +93,7 @@ export async function benchParallelImaging(): Promise<BenchRow[]> {
     {
       name: `CG-SENSE ${coils} coils ${n}², ${iterations} iterations`,
       medianMs: senseMs,
-      note: `${middle(wallRatios).toFixed(2)}× its FFT floor of 2·${coils}·${iterations} fft2c in wall time, ${middle(cpuRatios).toFixed(2)}× in CPU time (medians of 3)`,
+      note: `${median(wallRatios).toFixed(2)}× its FFT floor of 2·${coils}·${iterations} fft2c in wall time, ${median(cpuRatios).toFixed(2)}× in CPU time (medians of 3)`,
     },
     { name: `GRAPPA [4, 5] ${coils} coils ${n}², R = 4 + 24 ACS: calibrate + fill`, medianMs: firstFillMs },
     { name: 'GRAPPA: fill with the kernels calibrated', medianMs: refillMs },

@@ -4,7 +4,7 @@ import { planCells } from '../../src/plan/plan-cells.ts';
 import { runPlan } from '../../src/plan/run-plan.ts';
 import { validatePlan } from '../../src/plan/validate-plan.ts';
 import { smallPlanBody } from '../plan/small-plan.ts';
-import { type BenchRow, medianMs } from './timing.ts';
+import { type BenchRow, median, medianMs } from './timing.ts';
 
 /**
  * The issue's benchmark plan: 3 patterns × 5 accelerations × 3 methods × 3 seeds on 256×256, plus the
@@ -92,12 +92,10 @@ export async function benchPlan(): Promise<BenchRow[]> {
     note: 'what POST /v1/plans pays before queueing',
   });
   for (const [index, times] of [...perMethodMs.entries()].sort((a, b) => a[0] - b[0])) {
-    const sorted = [...times].sort((a, b) => a - b);
-    const mid = sorted.length >> 1;
     rows.push({
       name: `  reconstruction per cell: ${names[index + 1]}`,
-      medianMs: sorted.length % 2 ? sorted[mid] : (sorted[mid - 1] + sorted[mid]) / 2,
-      note: `median of ${sorted.length} cells`,
+      medianMs: median(times),
+      note: `median of ${times.length} cells`,
     });
   }
   return rows;

@@ -3,17 +3,11 @@ import { mkdtempSync, rmSync, statSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import type { BenchRow } from './timing.ts';
+import { type BenchRow, median } from './timing.ts';
 
 const coils = 8;
 const [nx, ny, nz] = [64, 64, 32];
 const size = `${coils} coils ${nx}×${ny}×${nz}`;
-
-function median(values: number[]): number {
-  const sorted = [...values].sort((a, b) => a - b);
-  const mid = sorted.length >> 1;
-  return sorted.length % 2 ? sorted[mid] : (sorted[mid - 1] + sorted[mid]) / 2;
-}
 
 /**
  * 3D raw data: a fully sampled 8-coil 64×64×32 ISMRMRD file (2× readout oversampling, 4 noise

@@ -1,10 +1,5 @@
 import { generateMask, maskDiagnostics } from '../../sampling/index.ts';
-
-export interface BenchResult {
-  name: string;
-  medianMs: number;
-  note?: string;
-}
+import { type BenchRow, median } from './timing.ts';
 
 /** Median wall time of `runs` calls after one warm-up call. */
 function medianMs(runs: number, fn: () => unknown): number {
@@ -15,14 +10,12 @@ function medianMs(runs: number, fn: () => unknown): number {
     fn();
     times.push(performance.now() - t0);
   }
-  times.sort((a, b) => a - b);
-  const mid = Math.floor(times.length / 2);
-  return times.length % 2 ? times[mid] : (times[mid - 1] + times[mid]) / 2;
+  return median(times);
 }
 
 /** Sampling benchmarks for `npm run bench`: mask generation and the PSF diagnostics. */
-export async function benchSampling(): Promise<BenchResult[]> {
-  const results: BenchResult[] = [];
+export async function benchSampling(): Promise<BenchRow[]> {
+  const results: BenchRow[] = [];
   let seed = 0;
 
   const poisson = generateMask({ nx: 256, ny: 256 }, { pattern: 'poisson-disc', acceleration: 6, seed: 1 });

@@ -1,13 +1,7 @@
 import { execFileSync } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
 import { niftiFloat32Volumes } from '../../src/io/nifti-writer.ts';
-import { type BenchRow, medianMs } from './timing.ts';
-
-function median(values: number[]): number {
-  const sorted = [...values].sort((a, b) => a - b);
-  const mid = sorted.length >> 1;
-  return sorted.length % 2 ? sorted[mid] : (sorted[mid - 1] + sorted[mid]) / 2;
-}
+import { type BenchRow, median, medianMs } from './timing.ts';
 
 /**
  * A 3D plan cell on a 128³ volume (Poisson-disc R = 4 on the 128×128 ky–kz plane, 128 hybrid-space
