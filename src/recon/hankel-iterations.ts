@@ -1,6 +1,6 @@
 import { throwIfAborted } from '../core/errors.ts';
 import { HermitianEigenSolver } from './hermitian-eigen.ts';
-import type { HankelSolveParams } from './lowrank-hankel.ts';
+import type { HankelSolution, HankelSolveParams } from './lowrank-hankel.ts';
 
 /** Smallest r whose leading eigenvalues keep `energy` of the trace (eigenvalues descending, ≥ 0). */
 export function rankForEnergy(values: Float64Array, energy: number): number {
@@ -26,14 +26,8 @@ export interface HankelStep {
   update(vectors: Float64Array, rank: number): { diff: number; norm: number };
 }
 
-/** The run of the loop: iterations, the last rank, the last relative change and the last spectrum. */
-export interface HankelRun {
-  iterations: number;
-  rank: number;
-  relativeChange: number;
-  /** Eigenvalues of the last Gram matrix, descending. */
-  spectrum: Float64Array;
-}
+/** The run of the loop: what a solver returns beside its completed k-space. */
+export type HankelRun = Omit<HankelSolution<unknown>, 'kspace'>;
 
 /**
  * The alternating-projection loop of structured low-rank completion (Shin et al. 2014,

@@ -55,6 +55,7 @@ export function solveLowrankHankelCoils(
       for (let i = 0; i < n; i++) setWeighted(c, i, z[2 * i], z[2 * i + 1]);
     }
   }
+  // One iteration's truncation and data consistency; the loop around it is runHankelIterations.
   const update = (vectors: Float64Array, rank: number) => {
     lift.setProjector(vectors, rank);
     lift.project(projected);

@@ -203,6 +203,7 @@ export function solveLowrankHankel(
       zy[2 * i + 1] = weightY[i] * x[2 * i + 1];
     }
   }
+  // One iteration's truncation and data consistency; the loop around it is runHankelIterations.
   const update = (vectors: Float64Array, rank: number) => {
     lift.setProjector(projector, vectors, rank);
     // Data consistency: acquired samples are skipped (x = y there throughout). The relative change
