@@ -2,6 +2,7 @@ import { join } from 'node:path';
 import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
 import { artifacts, type PlannerSession, usePlannerSession } from './browser-session.ts';
+import { expectNoSidewaysScroll } from './page-layout.ts';
 
 /**
  * The receive-array part of the planner page (docs/design.md §3.8, §4.3, §4.4) in Debian's chromium
@@ -185,13 +186,7 @@ describe('receive arrays on the planner page', () => {
 
   it('keeps the coil fields usable at 420 px wide', async () => {
     await page.setViewportSize({ width: 420, height: 900 });
-    // The trade-off plot redraws to its new width from a ResizeObserver callback, after the resize
-    // itself: the page must fit once it has reacted, so the overflow is polled, not read once.
-    await expect
-      .poll(() => page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth), {
-        timeout: 5_000,
-      })
-      .toBeLessThanOrEqual(0);
+    await expectNoSidewaysScroll(page);
     const picture = await page.locator('#coilPicture').boundingBox();
     expect(picture!.x + picture!.width).toBeLessThanOrEqual(420);
     await page.locator('#coilPicture').scrollIntoViewIfNeeded();

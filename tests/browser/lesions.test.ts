@@ -2,6 +2,7 @@ import { join } from 'node:path';
 import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
 import { artifacts, decodedImage, type PlannerSession, usePlannerSession } from './browser-session.ts';
+import { planTableHeaders } from './page-layout.ts';
 
 /**
  * Feature fidelity on the planner page, in Debian's chromium driven by playwright-core against the
@@ -117,13 +118,7 @@ describe('lesions on the planner page', () => {
     expect(sent.targets).toEqual([{ metric: 'contrastRecovery', atLeast: 0.3 }]);
     await session.planEnded(60_000);
     expect(await page.locator('#planStatus').textContent()).toContain('done');
-    const headers = await page.$$eval('#planTable thead th', (ths) =>
-      ths.map((th) => ({
-        text: th.textContent,
-        visible: (th as HTMLElement).offsetParent !== null,
-        right: th.getBoundingClientRect().right,
-      })),
-    );
+    const headers = await planTableHeaders(page);
     // The two task scores a target usually names show beside the key columns without sideways
     // scrolling at 1280 px; detectability and the resolved fraction come with "All columns".
     const wrapRight = await page.$eval(

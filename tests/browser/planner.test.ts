@@ -4,6 +4,7 @@ import sharp from 'sharp';
 import { describe, expect, it } from 'vitest';
 import { debianFile } from '../io/debian-files.ts';
 import { artifacts, decodedImage, type PlannerSession, usePlannerSession } from './browser-session.ts';
+import { planTableHeaders } from './page-layout.ts';
 
 /**
  * The planner page in a real browser: Debian's chromium driven by playwright-core against the real
@@ -728,13 +729,7 @@ describe('planner page in Chromium', () => {
       right: el.getBoundingClientRect().right,
     }));
     expect(wrap.scroll).toBeLessThanOrEqual(wrap.client);
-    const headers = await page.$$eval('#planTable thead th', (ths) =>
-      ths.map((th) => ({
-        text: th.textContent,
-        visible: (th as HTMLElement).offsetParent !== null,
-        right: th.getBoundingClientRect().right,
-      })),
-    );
+    const headers = await planTableHeaders(page);
     for (const name of ['SSIM mean ± sd', 'Pareto', 'Meets target']) {
       const header = headers.find((h) => h.text === name);
       expect(header?.visible, name).toBe(true);

@@ -6,6 +6,7 @@ import { describe, expect, it } from 'vitest';
 import { smallPlanBody } from '../plan/small-plan.ts';
 import { VOLUME_FIXTURE, volumePlanBody } from '../volume/fixture.ts';
 import { artifacts, type PlannerSession, usePlannerSession } from './browser-session.ts';
+import { expectNoSidewaysScroll } from './page-layout.ts';
 
 /**
  * Stored plans, addresses and downloads on the planner page, in Debian's chromium against the real
@@ -386,12 +387,7 @@ describe('stored plans, addresses and downloads in Chromium', () => {
     await page.waitForFunction(
       () => !(document.querySelector('#rowImgReconstruction') as HTMLImageElement).hidden,
     );
-    // The plot redraws to the new width from a ResizeObserver callback: poll until the page has reacted.
-    await expect
-      .poll(() => page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth), {
-        timeout: 5_000,
-      })
-      .toBeLessThanOrEqual(0);
+    await expectNoSidewaysScroll(page);
     await page.locator('#rowImages').scrollIntoViewIfNeeded();
     await page.screenshot({ path: join(artifacts, 'plans-row-images-420.png') });
     await page.locator('#plans').scrollIntoViewIfNeeded();
