@@ -2,7 +2,14 @@ import { readdirSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { MAX_DETAIL_CHARS, MAX_ECHO_CHARS } from '../../src/core/echo-bound.ts';
-import { expectProblem, oneCellPlan, postJson, postProblem, sharedTestApp } from './helpers.ts';
+import {
+  expectProblem,
+  oneCellPlan,
+  oneReconstruction,
+  postJson,
+  postProblem,
+  sharedTestApp,
+} from './helpers.ts';
 
 // Problem details (RFC 9457) echo request parts; they are bounded, and request strings have
 // maximum lengths. Before: a 7 MiB phantom name came back twice (14.7 MB) and, in a plan, grew the
@@ -28,12 +35,7 @@ describe('bounded echoes and bounded request strings', () => {
   const t = sharedTestApp({ maxJsonBytes: 4 * 1024 * 1024 });
 
   it('a 1 MiB phantom name in a reconstruction: 422 naming source.phantom, a small answer', async () => {
-    const res = await postJson(t, '/v1/reconstructions', {
-      source: { phantom: huge },
-      matrix: { nx: 32, ny: 32 },
-      sampling: { pattern: 'cartesian-uniform', acceleration: 2 },
-      method: { name: 'zero-filled' },
-    });
+    const res = await postJson(t, '/v1/reconstructions', { ...oneReconstruction, source: { phantom: huge } });
     const problem = expectProblem(res, 422, 'source.phantom');
     expectBounded(problem);
     expect(res.text.length).toBeLessThan(4096);

@@ -63,6 +63,14 @@ export function sharedTestApp(options: AppOptions = {}): TestApp {
   };
 }
 
+/** The smallest valid reconstruction request: 32×32 Shepp–Logan, uniform lines at R 2, zero-filled. */
+export const oneReconstruction = {
+  source: { phantom: 'shepp-logan' },
+  matrix: { nx: 32, ny: 32 },
+  sampling: { pattern: 'cartesian-uniform', acceleration: 2 },
+  method: { name: 'zero-filled' },
+};
+
 /** The smallest valid plan: 32×32 Shepp–Logan, one uniform pattern at R 2, zero-filled, one seed. */
 export const oneCellPlan = {
   source: { phantom: 'shepp-logan' },

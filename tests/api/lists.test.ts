@@ -8,6 +8,7 @@ import {
   expectDocumented,
   expectProblem,
   oneCellPlan,
+  oneReconstruction,
   postJson,
   sharedTestApp,
   type TestApp,
@@ -242,12 +243,7 @@ describe('each plan row keeps its seed-1 reconstruction', () => {
   });
 
   it('a zero-filled reconstruction reports its own scores as the zero-filled ones', async () => {
-    const res = await postJson(t, '/v1/reconstructions', {
-      source: { phantom: 'shepp-logan' },
-      matrix: { nx: 32, ny: 32 },
-      sampling: { pattern: 'cartesian-uniform', acceleration: 2 },
-      method: { name: 'zero-filled' },
-    });
+    const res = await postJson(t, '/v1/reconstructions', oneReconstruction);
     expect(res.status).toBe(201);
     await expectDocumented('POST', '/v1/reconstructions', res);
     expect(res.body.zeroFilledMetrics).toEqual(res.body.metrics);

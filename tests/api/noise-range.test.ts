@@ -1,17 +1,11 @@
 import { describe, expect, it } from 'vitest';
-import { oneCellPlan, postJson, postProblem, sharedTestApp } from './helpers.ts';
+import { oneCellPlan, oneReconstruction, postJson, postProblem, sharedTestApp } from './helpers.ts';
 
 // noise.snr has a documented range, 0.1 ≤ snr ≤ 1e6 (reasons in the schema description); outside it
 // a 422 (RFC 9110 §15.5.21) RFC 9457 problem names noise.snr. Before, 1e-300 gave 201 with every
 // metric null and 1e-320 a 422 naming an internal field.
 
-const reconstruction = {
-  source: { phantom: 'shepp-logan' },
-  matrix: { nx: 32, ny: 32 },
-  sampling: { pattern: 'cartesian-uniform', acceleration: 2 },
-  method: { name: 'zero-filled' },
-  seed: 1,
-};
+const reconstruction = { ...oneReconstruction, seed: 1 };
 
 describe('noise.snr range', () => {
   const t = sharedTestApp();

@@ -1,17 +1,12 @@
 import { describe, expect, it } from 'vitest';
-import { oneCellPlan, postJson, postProblem, sharedTestApp } from './helpers.ts';
+import { oneCellPlan, oneReconstruction, postJson, postProblem, sharedTestApp } from './helpers.ts';
 
 // A plan's source is checked when it is submitted, as POST /v1/reconstructions checks it: an unknown
 // phantom is 422 (RFC 9110 §15.5.21) naming source.phantom; an unknown image id is 404 naming
 // source.imageId on both routes. Problems per RFC 9457.
 
 const plan = oneCellPlan;
-const reconstruction = {
-  source: { phantom: 'shepp-logan' },
-  matrix: { nx: 32, ny: 32 },
-  sampling: { pattern: 'cartesian-uniform', acceleration: 2 },
-  method: { name: 'zero-filled' },
-};
+const reconstruction = oneReconstruction;
 const missingImage = '00000000-0000-0000-0000-000000000000';
 
 describe('plan sources are validated at submit', () => {
