@@ -1,5 +1,5 @@
 import { ValidationError } from '../core/errors.ts';
-import type { CoilMaps } from '../encoding/index.ts';
+import { type CoilMaps, scalePixels, sumOfSquaresOverCoils } from '../encoding/index.ts';
 
 /**
  * Scales the maps in place so that Σ_c |S_c|² = 1 at every pixel: S_c ← S_c / √(Σ_c′ |S_c′|²).
@@ -9,15 +9,10 @@ import type { CoilMaps } from '../encoding/index.ts';
  * fully sampled coil images returns the object itself (common practice).
  */
 export function normaliseSumOfSquares(maps: CoilMaps): CoilMaps {
-  const { coils } = maps;
-  const n = maps.nx * maps.ny;
-  const d = maps.data;
-  for (let i = 0; i < n; i++) {
-    let sum = 0;
-    for (let c = 0; c < coils; c++) {
-      const k = 2 * (c * n + i);
-      sum += d[k] * d[k] + d[k + 1] * d[k + 1];
-    }
+  const power = sumOfSquaresOverCoils(maps);
+  const scale = new Float64Array(power.length);
+  for (let i = 0; i < power.length; i++) {
+    const sum = power[i];
     if (!(sum > 0) || !Number.isFinite(sum)) {
       throw new ValidationError({
         field: 'coils',
@@ -25,12 +20,8 @@ export function normaliseSumOfSquares(maps: CoilMaps): CoilMaps {
         allowed: 'arrays whose coils together see every pixel of the field of view',
       });
     }
-    const scale = 1 / Math.sqrt(sum);
-    for (let c = 0; c < coils; c++) {
-      const k = 2 * (c * n + i);
-      d[k] *= scale;
-      d[k + 1] *= scale;
-    }
+    scale[i] = 1 / Math.sqrt(sum);
   }
+  scalePixels(maps, scale);
   return maps;
 }

@@ -7,6 +7,8 @@ export {
   createMultiCoilArray,
   type MultiCoilArray,
   type MultiCoilKspace,
+  scalePixels,
+  sumOfSquaresOverCoils,
 } from './multi-coil.ts';
 export { NonCartesianEncoding } from './non-cartesian-encoding.ts';
 export {

@@ -43,3 +43,33 @@ export function checkMultiCoilShape(
     throw new RangeError(`${name}.data must hold 2·coils·ny·nx = ${2 * coils * nx * ny} numbers`);
   }
 }
+
+/** Σ_c |z_c|² at every pixel (ny·nx values, summed over the coils in order): the squared root-sum-of-squares. */
+export function sumOfSquaresOverCoils(array: MultiCoilArray): Float64Array {
+  const { coils } = array;
+  const n = array.nx * array.ny;
+  const d = array.data;
+  const out = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    let sum = 0;
+    for (let c = 0; c < coils; c++) {
+      const k = 2 * (c * n + i);
+      sum += d[k] * d[k] + d[k + 1] * d[k + 1];
+    }
+    out[i] = sum;
+  }
+  return out;
+}
+
+/** z_c ← scale[i]·z_c at every pixel i, in place: one real factor per pixel, the same for every coil. */
+export function scalePixels(array: MultiCoilArray, scale: Float64Array): void {
+  const n = array.nx * array.ny;
+  const d = array.data;
+  for (let c = 0; c < array.coils; c++) {
+    const base = 2 * c * n;
+    for (let i = 0; i < n; i++) {
+      d[base + 2 * i] *= scale[i];
+      d[base + 2 * i + 1] *= scale[i];
+    }
+  }
+}

@@ -2,6 +2,8 @@ import {
   type CoilMaps,
   createMultiCoilArray,
   type MultiCoilKspace,
+  scalePixels,
+  sumOfSquaresOverCoils,
   transformPlaneInPlace,
 } from '../encoding/index.ts';
 import type { AcsBlock } from './acs-region.ts';
@@ -52,26 +54,14 @@ export function estimateAcsMaps(kspace: MultiCoilKspace, block: AcsBlock): CoilM
     }
     transformPlaneInPlace(d, c * n, nx, ny, 1);
   }
-  const rss = new Float64Array(n);
+  const rss = sumOfSquaresOverCoils(maps);
   let peak = 0;
   for (let i = 0; i < n; i++) {
-    let sum = 0;
-    for (let c = 0; c < coils; c++) {
-      const k = 2 * (c * n + i);
-      sum += d[k] * d[k] + d[k + 1] * d[k + 1];
-    }
-    rss[i] = Math.sqrt(sum);
+    rss[i] = Math.sqrt(rss[i]);
     peak = Math.max(peak, rss[i]);
   }
   const floor = ACS_MAP_SUPPORT_THRESHOLD * peak;
-  for (let i = 0; i < n; i++) {
-    const keep = rss[i] >= floor && rss[i] > 0;
-    const scale = keep ? 1 / rss[i] : 0;
-    for (let c = 0; c < coils; c++) {
-      const k = 2 * (c * n + i);
-      d[k] *= scale;
-      d[k + 1] *= scale;
-    }
-  }
+  const scale = rss.map((r) => (r >= floor && r > 0 ? 1 / r : 0));
+  scalePixels(maps, scale);
   return maps;
 }

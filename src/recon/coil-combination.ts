@@ -3,6 +3,7 @@ import {
   type CoilMaps,
   createMultiCoilArray,
   type MultiCoilArray,
+  sumOfSquaresOverCoils,
   transformPlaneInPlace,
 } from '../encoding/index.ts';
 import type { CoilData } from './method.ts';
@@ -56,14 +57,8 @@ export function combineCoilImages(
   const out = image.data;
   const d = images.data;
   if (!maps) {
-    for (let i = 0; i < n; i++) {
-      let sum = 0;
-      for (let c = 0; c < coils; c++) {
-        const k = 2 * (c * n + i);
-        sum += d[k] * d[k] + d[k + 1] * d[k + 1];
-      }
-      out[2 * i] = Math.sqrt(sum);
-    }
+    const power = sumOfSquaresOverCoils(images);
+    for (let i = 0; i < n; i++) out[2 * i] = Math.sqrt(power[i]);
     return { image, combination: 'root-sum-of-squares' };
   }
   if (maps.coils !== coils || maps.nx !== nx || maps.ny !== ny) {
