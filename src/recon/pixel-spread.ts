@@ -1,3 +1,5 @@
+import { ValidationError } from '../core/errors.ts';
+
 /**
  * The per-pixel standard deviation of a series of complex images (noise replicas), by Welford's
  * running mean and sum of squared deviations: σ² = Σ_k |x_k − x̄|² / (M − 1).
@@ -34,5 +36,16 @@ export class PixelSpread {
     const dof = Math.max(1, this.count - 1);
     for (let i = 0; i < sd.length; i++) sd[i] = Math.sqrt(Math.max(0, this.m2[i]) / dof);
     return sd;
+  }
+}
+
+/** The replica count a spread can be measured from (`gFactor.replicas`): an integer of at least 2. */
+export function checkReplicaCount(replicas: number): void {
+  if (!Number.isInteger(replicas) || replicas < 2) {
+    throw new ValidationError({
+      field: 'gFactor.replicas',
+      message: `a standard deviation needs at least 2 replicas, got ${replicas}`,
+      allowed: 'integer ≥ 2',
+    });
   }
 }

@@ -3,7 +3,7 @@ import type { ComplexImage } from '../core/complex-image.ts';
 import { throwIfAborted, ValidationError } from '../core/errors.ts';
 import { SeededRandom } from '../core/random.ts';
 import { createMultiCoilArray, type MultiCoilKspace } from '../encoding/index.ts';
-import { PixelSpread } from './pixel-spread.ts';
+import { checkReplicaCount, PixelSpread } from './pixel-spread.ts';
 
 /** A reconstruction with everything but the data fixed (maps, λ, iteration count, kernels). */
 export type ReplicaReconstruction = (kspace: MultiCoilKspace, mask: Uint8Array) => ComplexImage;
@@ -61,13 +61,7 @@ export function pseudoReplicaGFactor(options: PseudoReplicaOptions): PseudoRepli
   const { acquired, mask, full, reconstruct, sigma, noise, replicas, seed, support, signal } = options;
   const { coils, nx, ny } = acquired;
   const n = nx * ny;
-  if (!Number.isInteger(replicas) || replicas < 2) {
-    throw new ValidationError({
-      field: 'gFactor.replicas',
-      message: `a standard deviation needs at least 2 replicas, got ${replicas}`,
-      allowed: 'integer ≥ 2',
-    });
-  }
+  checkReplicaCount(replicas);
   if (!(sigma > 0) || !Number.isFinite(sigma)) {
     throw new ValidationError({
       field: 'noise.snr',

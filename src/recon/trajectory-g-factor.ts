@@ -1,6 +1,6 @@
 import { summariseGFactor } from '../coils/index.ts';
 import type { ComplexImage } from '../core/complex-image.ts';
-import { throwIfAborted, ValidationError } from '../core/errors.ts';
+import { throwIfAborted } from '../core/errors.ts';
 import type { Limits } from '../core/limits.ts';
 import { SeededRandom } from '../core/random.ts';
 import type { CoilMaps, CoilSamples } from '../encoding/index.ts';
@@ -8,7 +8,7 @@ import { csTv } from './cs-tv.ts';
 import type { GFactorResult } from './g-factor.ts';
 import { griddingImage } from './gridding-recon.ts';
 import type { ReconInput, TrajectoryData } from './method.ts';
-import { PixelSpread } from './pixel-spread.ts';
+import { checkReplicaCount, PixelSpread } from './pixel-spread.ts';
 import type { MethodSpec } from './registry.ts';
 import { prepareTrajectorySense } from './sense-trajectory.ts';
 
@@ -45,13 +45,7 @@ export function trajectoryGFactor(request: TrajectoryGFactorRequest): GFactorRes
   const { input, sigma, replicas, seed, support, signal, acceleration } = request;
   const maps = input.coils?.maps;
   if (!maps) throw new RangeError('a trajectory g-factor needs the maps of the data');
-  if (!Number.isInteger(replicas) || replicas < 2) {
-    throw new ValidationError({
-      field: 'gFactor.replicas',
-      message: `a standard deviation needs at least 2 replicas, got ${replicas}`,
-      allowed: 'integer ≥ 2',
-    });
-  }
+  checkReplicaCount(replicas);
   const reconstruct = trajectoryReplicaReconstructor(request);
   const { nx, ny } = input.trajectory.plan;
   const n = nx * ny;
