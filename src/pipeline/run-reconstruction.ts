@@ -27,6 +27,7 @@ import { defaultLimits, type Limits } from '../core/limits.ts';
 import { matrixSchemaFor } from '../core/matrix.ts';
 import type { RealImage } from '../core/real-image.ts';
 import type { RealVolume } from '../core/real-volume.ts';
+import { RecentCache } from '../core/recent-cache.ts';
 import { parseOrThrow } from '../core/zod-problems.ts';
 import { type CoilMaps, type MultiCoilKspace, transformPlaneInPlace } from '../encoding/index.ts';
 import { type LesionsRequest, lesionsSchema } from '../fidelity/index.ts';
@@ -192,8 +193,7 @@ export function noiseSeedFor(seed: number): number {
  * far more than one cheap reconstruction, so the last few are kept (per thread) for the cells of a
  * plan. Entries are shared read-only: acquire() copies k-space before adding noise.
  */
-const PHANTOM_CACHE_SIZE = 4;
-const phantomCache = new Map<string, FullAcquisition>();
+const phantomCache = new RecentCache<FullAcquisition>(4);
 
 function cachedPhantomAcquisition(
   name: string,
@@ -201,17 +201,9 @@ function cachedPhantomAcquisition(
   ny: number,
   mode: 'analytic' | 'raster',
 ): FullAcquisition {
-  const key = `${name}|${nx}|${ny}|${mode}`;
-  const hit = phantomCache.get(key);
-  if (hit) {
-    phantomCache.delete(key);
-    phantomCache.set(key, hit);
-    return hit;
-  }
-  const full = fullKspaceFromPhantom(getPhantom(name), nx, ny, mode);
-  phantomCache.set(key, full);
-  if (phantomCache.size > PHANTOM_CACHE_SIZE) phantomCache.delete(phantomCache.keys().next().value as string);
-  return full;
+  return phantomCache.get(`${name}|${nx}|${ny}|${mode}`, () =>
+    fullKspaceFromPhantom(getPhantom(name), nx, ny, mode),
+  );
 }
 
 /**
@@ -219,21 +211,7 @@ function cachedPhantomAcquisition(
  * reconstruction, so the last two are kept per thread like the phantom acquisitions. Entries are
  * shared read-only: acquireCoils copies k-space and maps before adding noise and prewhitening.
  */
-const COIL_CACHE_SIZE = 2;
-const coilCache = new Map<string, CoilSimulation>();
-
-function cachedCoilSimulation(key: string, build: () => CoilSimulation): CoilSimulation {
-  const hit = coilCache.get(key);
-  if (hit) {
-    coilCache.delete(key);
-    coilCache.set(key, hit);
-    return hit;
-  }
-  const simulation = build();
-  coilCache.set(key, simulation);
-  if (coilCache.size > COIL_CACHE_SIZE) coilCache.delete(coilCache.keys().next().value as string);
-  return simulation;
-}
+const coilCache = new RecentCache<CoilSimulation>(2);
 
 /** The simulation of a receive array (not `uniform`): phantoms through the fit, uploads through F(S_c·x). */
 async function coilSimulation(
@@ -270,9 +248,7 @@ async function coilSimulation(
     const mode = source.kspace ?? 'analytic';
     const simulation =
       uploadedMaps === undefined
-        ? cachedCoilSimulation(JSON.stringify([source.phantom, nx, ny, mode, coils, phase ?? null]), () =>
-            build(),
-          )
+        ? coilCache.get(JSON.stringify([source.phantom, nx, ny, mode, coils, phase ?? null]), () => build())
         : build();
     if (simulation.inverseCrime) {
       notes.push('k-space is the DFT of the phantom raster (inverse crime): errors are optimistic');
