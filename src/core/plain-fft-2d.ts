@@ -22,7 +22,7 @@ function rowViews(buffer: Float64Array, rowLength: number): Float64Array[] {
 const isPowerOfTwo = (n: number): boolean => (n & (n - 1)) === 0;
 
 /** Per column length: where row r goes before the column pass, plain and mirrored, and twiddles. */
-interface ColumnPlan {
+export interface ColumnPlan {
   /** Row r's place: its bit reversal for powers of two (the order radix-2 DIT reads), else r. */
   place: Int32Array;
   /** Row r's place when the rows are also mirrored (r → −r mod n first). */
@@ -34,7 +34,8 @@ interface ColumnPlan {
   gather?: { plan: FftPlan; input: Float64Array; output: Float64Array };
 }
 const columnPlans = new Map<number, ColumnPlan>();
-function columnPlan(n: number): ColumnPlan {
+/** The cached column plan of length n (rows of a 2D array). */
+export function columnPlan(n: number): ColumnPlan {
   let plan = columnPlans.get(n);
   if (plan) return plan;
   const bits = Math.round(Math.log2(n));
@@ -83,8 +84,17 @@ export function plainFft2d(
   if (target === source) throw new RangeError('plainFft2d needs two distinct buffers');
   const column = columnPlan(rows);
   rowPass(target, source, rows, columns, inverse ? column.mirroredPlace : column.place, scale, inverse);
-  if (column.gather) gatheredColumns(target, rows, columns, column.gather);
-  else batchedColumns(target, rows, columns, column.cos, column.sin);
+  transformColumns(target, rows, columns, column);
+}
+
+/**
+ * In-place forward DFTs of the columns of `a` (`rows` × `columns`, interleaved), whose row r must
+ * already sit at `plan.place[r]` (`plan` = columnPlan(rows)): batched radix-2 stages for powers of
+ * two, gathered columns otherwise. Row transforms written to those places first make a 2D DFT.
+ */
+export function transformColumns(a: Float64Array, rows: number, columns: number, plan: ColumnPlan): void {
+  if (plan.gather) gatheredColumns(a, rows, columns, plan.gather);
+  else batchedColumns(a, rows, columns, plan.cos, plan.sin);
 }
 
 const rowScratch = new Map<number, Float64Array>();
