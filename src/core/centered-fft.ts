@@ -1,5 +1,6 @@
 import { type ComplexImage, createComplexImage } from './complex-image.ts';
 import { fftPlan } from './fft-plan.ts';
+import { plainFft2d } from './plain-fft-2d.ts';
 
 /**
  * Centred orthonormal 1D DFT along one line of an interleaved complex buffer:
@@ -52,9 +53,88 @@ function transform2d(target: ComplexImage, source: ComplexImage, sign: -1 | 1): 
   if (target.nx !== nx || target.ny !== ny) {
     throw new RangeError(`target is ${target.ny}×${target.nx} but source is ${ny}×${nx}`);
   }
-  for (let row = 0; row < ny; row++) centeredLineTransform(target.data, source.data, row * nx, nx, 1, sign);
-  for (let col = 0; col < nx; col++) centeredLineTransform(target.data, target.data, col, ny, nx, sign);
+  centredTransform2d(target.data, 0, source.data, 0, nx, ny, sign);
   return target;
+}
+
+/**
+ * The centred orthonormal 2D DFT (sign −1, fft2c) or its inverse (+1, ifft2c) of the ny×nx plane at
+ * complex offset `sourceOffset` of `source`, written to the plane at `targetOffset` of `target`
+ * (the two may be the same plane): ifftshift into a scratch plane, the un-centred plainFft2d (rows
+ * through fft.js, all columns at once in batched radix-2 passes), fftshift out with the 1/√N scale.
+ * The inverse is conj ∘ forward ∘ conj, the conjugations riding on the two shifts. The shifts are
+ * block copies, cheaper than shifting by index arithmetic inside line gathers (docs/design.md §3.2).
+ */
+export function centredTransform2d(
+  target: Float64Array,
+  targetOffset: number,
+  source: Float64Array,
+  sourceOffset: number,
+  nx: number,
+  ny: number,
+  sign: -1 | 1,
+): void {
+  const { shifted, spectrum } = planeScratch(nx * ny);
+  const hx = Math.floor(nx / 2);
+  const hy = Math.floor(ny / 2);
+  const conj = sign === 1 ? -1 : 1;
+  // ifftshift: out[j] = in[(j + h) mod n], i.e. a rotation by n − h.
+  rotatePlane(shifted, 0, source, sourceOffset, nx, ny, (nx - hx) % nx, (ny - hy) % ny, 1, conj);
+  plainFft2d(spectrum, shifted, ny, nx, 1, false);
+  const scale = 1 / Math.sqrt(nx * ny);
+  rotatePlane(target, targetOffset, spectrum, 0, nx, ny, hx, hy, scale, conj * scale);
+}
+
+/**
+ * out[(r + sy) mod ny, (c + sx) mod nx] = in[r, c] for the planes at the two complex offsets, real
+ * parts times `re`, imaginary parts times `im`.
+ */
+function rotatePlane(
+  out: Float64Array,
+  outOffset: number,
+  input: Float64Array,
+  inOffset: number,
+  nx: number,
+  ny: number,
+  sx: number,
+  sy: number,
+  re: number,
+  im: number,
+): void {
+  const width = 2 * nx;
+  const split = 2 * (nx - sx);
+  const copy = re === 1 && im === 1;
+  for (let r = 0; r < ny; r++) {
+    const from = 2 * inOffset + r * width;
+    const to = 2 * outOffset + ((r + sy) % ny) * width;
+    // Columns [0, nx − sx) move right by sx, the rest wrap to the start of the row. Unscaled, as
+    // block copies (measured 0.07 against 0.24 ms for a 256² plane with the multiplying loops).
+    if (copy) {
+      out.set(input.subarray(from, from + split), to + 2 * sx);
+      out.set(input.subarray(from + split, from + width), to);
+      continue;
+    }
+    for (let k = 0, t = to + 2 * sx; k < split; k += 2, t += 2) {
+      out[t] = input[from + k] * re;
+      out[t + 1] = input[from + k + 1] * im;
+    }
+    for (let k = split, t = to; k < width; k += 2, t += 2) {
+      out[t] = input[from + k] * re;
+      out[t + 1] = input[from + k + 1] * im;
+    }
+  }
+}
+
+const planes = new Map<number, { shifted: Float64Array; spectrum: Float64Array }>();
+/** Two scratch planes per size; a handful of sizes are live at a time, so the cache is small. */
+function planeScratch(n: number): { shifted: Float64Array; spectrum: Float64Array } {
+  let s = planes.get(n);
+  if (!s) {
+    if (planes.size >= 8) planes.clear();
+    s = { shifted: new Float64Array(2 * n), spectrum: new Float64Array(2 * n) };
+    planes.set(n, s);
+  }
+  return s;
 }
 
 /**

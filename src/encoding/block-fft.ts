@@ -1,10 +1,10 @@
-import { centeredLineTransform } from '../core/centered-fft.ts';
+import { centredTransform2d } from '../core/centered-fft.ts';
 
 /**
  * The centred orthonormal 2D DFT (sign −1, as fft2c) or its inverse (sign +1, as ifft2c) of one
- * ny×nx plane stored at complex offset `offset` of a flat interleaved array, in place. Rows first,
- * then columns, through the same 1D line transform as fft2c, so a plane transformed here equals
- * fft2c of the same values bit for bit, and nothing is allocated (plans and line buffers are cached).
+ * ny×nx plane stored at complex offset `offset` of a flat interleaved array, in place, through the
+ * same centredTransform2d as fft2c: a plane transformed here equals fft2c of the same values bit
+ * for bit, and nothing is allocated once the size's scratch planes exist.
  */
 export function transformPlaneInPlace(
   data: Float64Array,
@@ -13,6 +13,5 @@ export function transformPlaneInPlace(
   ny: number,
   sign: -1 | 1,
 ): void {
-  for (let row = 0; row < ny; row++) centeredLineTransform(data, data, offset + row * nx, nx, 1, sign);
-  for (let col = 0; col < nx; col++) centeredLineTransform(data, data, offset + col, ny, nx, sign);
+  centredTransform2d(data, offset, data, offset, nx, ny, sign);
 }

@@ -57,13 +57,13 @@ export interface PreconditionedOptions {
  * Both halves are relaxed by ρ (RELAXATION), primal half first:
  *   x̃ = (T⁻¹ + ∂G)⁻¹(T⁻¹x_k + div p_k),  p̃ = proj_{‖·‖≤λ}(p_k + σ∇(2x̃ − x_k)),
  *   (x_{k+1}, p_{k+1}) = ρ(x̃, p̃) + (1 − ρ)(x_k, p_k).
- * Per iteration: the DFT of div p_k; one k-space pass (x̃'s spectrum, the relaxed spectrum X kept,
- * the data residual); the inverse DFT to x̃; one image pass (relaxedTvDualPass: x̄ on the fly, dual ascent,
+ * Per iteration: the DFT of div p_k; one k-space pass (x̃'s spectrum, mirrored and scaled so that
+ * a forward DFT inverts it, the relaxed spectrum X kept, the data residual); that DFT to x̃; one image pass (relaxedTvDualPass: x̄ on the fly, dual ascent,
  * projection, relaxation of p and x, div p, the iterate change). No copies, no allocation. Start
  * x⁰ = F_cᴴ(M y), p⁰ = proj(σ∇x⁰); stops after `iterations` or by the StoppingRule, whose objective
  * takes the data term from the k-space pass and TV only when the iterate test passes (the returned
  * objective too: no transform after the loop).
- * The loop never centres: the image stays in natural order and k-space DC first (and transposed),
+ * The loop never centres: the image stays in natural order and k-space DC first,
  * on the un-centred plainFft2d; by the shift theorem this is the F_c iteration above exactly
  * (docs/design.md §3.13; tests/recon/cs-tv-preconditioned-layout.test.ts).
  */
@@ -83,11 +83,12 @@ export function solveCsTvPreconditioned(
   // X = √N·F x_k kept across iterations, x⁰ = Fᴴ(M y).
   const { mask, data } = uncentredProblem(input);
   const X = data.slice();
-  const scratch = new Float64Array(2 * n);
-  // √N·F div p, then the primal step's spectrum X̃ (transposed layout, nx rows of ny).
+  // √N·F div p (DC first, ny rows of nx), and the primal step's spectrum X̃/N mirrored, whose
+  // forward DFT is x̃ (F⁻¹X = (1/N)·F(X[−v, −u])): the inverse runs as a plain forward transform.
   const spectrum = new Float64Array(2 * n);
+  const mirrored = new Float64Array(2 * n);
   let current: ComplexImage = { nx, ny, data: new Float64Array(2 * n) };
-  inverseSpectrum(current.data, X, scratch, nx, ny);
+  inverseSpectrum(current.data, X, nx, ny);
   let next: ComplexImage = { nx, ny, data: new Float64Array(2 * n) };
   // div p.
   const work = new Float64Array(2 * n);
@@ -96,7 +97,7 @@ export function solveCsTvPreconditioned(
   const eigenX = laplacianEigenvalues(nx);
   const eigenY = laplacianEigenvalues(ny);
   const gain = metricGain(mask, eigenX, eigenY, sigma, delta);
-  const metric: Metric = { eigenX, eigenY, sigma, delta, rho, gain };
+  const metric: Metric = { eigenX, eigenY, sigma, delta, rho, gain, mirrorColumn: mirrorOffsets(nx) };
   // p⁰ = proj(σ∇x⁰), not 0: from p = 0 the first primal step would return x⁰ itself (x⁰ already
   // fits the data and div 0 = 0) and the stopping rule would see no change.
   next.data.set(current.data);
@@ -115,10 +116,10 @@ export function solveCsTvPreconditioned(
   let run = 0;
   for (let it = 0; it < iterations; it++) {
     throwIfAborted(signal);
-    plainFft2d(spectrum, work, scratch, ny, nx, 1, false);
+    plainFft2d(spectrum, work, ny, nx, 1, false);
     residualBefore = residual;
-    residual = primalSpectrum(X, spectrum, data, mask, metric) / n;
-    inverseSpectrum(next.data, spectrum, scratch, nx, ny);
+    residual = primalSpectrum(X, spectrum, mirrored, data, mask, metric) / n;
+    plainFft2d(next.data, mirrored, ny, nx, 1, false);
     // `next` holds x̃; the pass turns it into x_{k+1} = ρx̃ + (1 − ρ)x_k, `current` keeps x_k.
     const change = relaxedTvDualPass(work, px, py, next.data, current.data, nx, ny, sigma, lambdaAbs, rho);
     [current, next] = [next, current];
@@ -145,15 +146,9 @@ export function solveCsTvPreconditioned(
   };
 }
 
-/** x = Fᴴ X into `target` (ny×nx) from √N·X in the transposed DC-first layout (nx×ny). */
-function inverseSpectrum(
-  target: Float64Array,
-  spectrum: Float64Array,
-  scratch: Float64Array,
-  nx: number,
-  ny: number,
-): void {
-  plainFft2d(target, spectrum, scratch, nx, ny, 1 / (nx * ny), true);
+/** x = Fᴴ X into `target` (ny×nx) from √N·X in DC-first order (ny×nx). */
+function inverseSpectrum(target: Float64Array, spectrum: Float64Array, nx: number, ny: number): void {
+  plainFft2d(target, spectrum, ny, nx, 1 / (nx * ny), true);
 }
 
 /** The metric's diagonal (eigenvalues per axis, σ, δ) and the relaxation ρ. */
@@ -165,6 +160,12 @@ interface Metric {
   rho: number;
   /** 1/(M + t) per sample. */
   gain: Float64Array;
+  /** 2·((nx − u) mod nx): the interleaved offset of column −u. */
+  mirrorColumn: Int32Array;
+}
+
+function mirrorOffsets(n: number): Int32Array {
+  return Int32Array.from({ length: n }, (_, u) => 2 * ((n - u) % n));
 }
 
 /** 4sin²(πu/n): the periodic second difference's eigenvalue at DC-first index u. */
@@ -187,29 +188,32 @@ function uncentredProblem(input: ReconInput): { mask: Uint8Array; data: Float64A
 }
 
 /**
- * The primal half in k-space (DC-first, transposed: row u, column v; all spectra √N·F of their
- * images): X̃ = (D + t·X + M y)·g into `D` (which held D = √N·F div p), with
- * t = σ(λ_u + λ_v) + δ and g = 1/(M + t) from `metric.gain`, and X ← ρX̃ + (1 − ρ)X, the spectrum
- * of x_{k+1}; returns ½‖M X − y‖² of the new X (N times the data term). Branch-free: y is zero off
- * the mask.
+ * The primal half in k-space (DC-first: row v, column u; all spectra √N·F of their
+ * images): X̃ = (D + t·X + M y)·g from D = √N·F div p, with t = σ(λ_u + λ_v) + δ and
+ * g = 1/(M + t) from `metric.gain`, written as X̃/N at (−v, −u) into `out` (whose forward DFT is
+ * then x̃), and X ← ρX̃ + (1 − ρ)X, the spectrum of x_{k+1}; returns ½‖M X − y‖² of the new X
+ * (N times the data term). Branch-free: y is zero off the mask.
  */
 function primalSpectrum(
   X: Float64Array,
   D: Float64Array,
+  out: Float64Array,
   y: Float64Array,
   mask: Uint8Array,
   metric: Metric,
 ): number {
-  const { eigenX, eigenY, sigma, delta, rho, gain } = metric;
+  const { eigenX, eigenY, sigma, delta, rho, gain, mirrorColumn } = metric;
   const keep = 1 - rho;
-  // Transposed layout: row u (eigenX), column v (eigenY).
-  const rows = eigenX.length;
-  const columns = eigenY.length;
+  const inverseN = 1 / (eigenX.length * eigenY.length);
+  // Row v (eigenY), column u (eigenX).
+  const rows = eigenY.length;
+  const columns = eigenX.length;
   let residual = 0;
   for (let r = 0; r < rows; r++) {
-    const rowShare = sigma * eigenX[r] + delta;
+    const rowShare = sigma * eigenY[r] + delta;
+    const mirroredRow = 2 * ((rows - r) % rows) * columns;
     for (let c = 0, i = r * columns, k = 2 * r * columns; c < columns; c++, i++, k += 2) {
-      const t = rowShare + sigma * eigenY[c];
+      const t = rowShare + sigma * eigenX[c];
       const g = gain[i];
       const xr = X[k];
       const xi = X[k + 1];
@@ -217,8 +221,9 @@ function primalSpectrum(
       const yi = y[k + 1];
       const tr = (D[k] + t * xr + yr) * g;
       const ti = (D[k + 1] + t * xi + yi) * g;
-      D[k] = tr;
-      D[k + 1] = ti;
+      const m = mirroredRow + mirrorColumn[c];
+      out[m] = tr * inverseN;
+      out[m + 1] = ti * inverseN;
       const nr = rho * tr + keep * xr;
       const ni = rho * ti + keep * xi;
       X[k] = nr;
@@ -231,7 +236,7 @@ function primalSpectrum(
   return 0.5 * residual;
 }
 
-/** g = 1/(M + t) per k-space sample (transposed layout: row u, column v), t = σ(λ_u + λ_v) + δ. */
+/** g = 1/(M + t) per k-space sample (DC first: row v, column u), t = σ(λ_u + λ_v) + δ. */
 function metricGain(
   mask: Uint8Array,
   eigenX: Float64Array,
@@ -239,12 +244,12 @@ function metricGain(
   sigma: number,
   delta: number,
 ): Float64Array {
-  const columns = eigenY.length;
+  const columns = eigenX.length;
   const gain = new Float64Array(mask.length);
-  for (let r = 0; r < eigenX.length; r++) {
+  for (let r = 0; r < eigenY.length; r++) {
     for (let c = 0; c < columns; c++) {
       const i = r * columns + c;
-      gain[i] = 1 / (mask[i] + sigma * (eigenX[r] + eigenY[c]) + delta);
+      gain[i] = 1 / (mask[i] + sigma * (eigenY[r] + eigenX[c]) + delta);
     }
   }
   return gain;

@@ -1,17 +1,21 @@
 import { type FftPlan, fftPlan } from '../core/fft-plan.ts';
+import { type ColumnPlan, columnPlan, transformColumns } from '../core/plain-fft-2d.ts';
 
 /**
  * Unnormalised 2D DFT, X[k] = Σ_m x[m] e^(−i2π(ky·my/ny + kx·mx/nx)), of interleaved ny×nx arrays:
- * rows into a scratch array, then columns (gathered into a plain line buffer, which fft.js runs
- * faster on than on views) into the target. Options fold the pointwise steps of a convolution into the passes: the input
- * rows can be taken as conj(source · m) for a real m, the output conjugated. Source and target
- * may be the same array.
+ * rows to their places (bit-reversed for power-of-two heights), then the columns in place, all
+ * columns at once by batched radix-2 stages (plainFft2d's column pass; gathered for other heights).
+ * Options fold the pointwise steps of a convolution into the passes: the input rows can be taken
+ * as conj(source · m) for a real m, the output conjugated. Source and target may be the same
+ * array (the rows then go through a scratch array).
  */
 export class Dft2 {
   private readonly nx: number;
   private readonly ny: number;
   private readonly planX: FftPlan;
   private readonly planY: FftPlan;
+  /** Row places and twiddles of the column pass. */
+  private readonly columns: ColumnPlan;
   private readonly scratch: Float64Array;
   private readonly scratchRows: Float64Array[];
   private readonly rowIn: Float64Array;
@@ -25,6 +29,7 @@ export class Dft2 {
     this.ny = ny;
     this.planX = fftPlan(nx);
     this.planY = fftPlan(ny);
+    this.columns = columnPlan(ny);
     this.scratch = new Float64Array(2 * nx * ny);
     this.scratchRows = rowViews(this.scratch, nx, ny);
     this.rowIn = new Float64Array(2 * nx);
@@ -37,36 +42,40 @@ export class Dft2 {
     target: Float64Array,
     options: { multiplyConj?: Float64Array; conjugateOutput?: boolean } = {},
   ): void {
-    const { nx, ny, planX, planY, scratch, scratchRows, rowIn, columnIn, columnOut } = this;
+    const { nx, ny, planX, columns, rowIn } = this;
     const { multiplyConj: m, conjugateOutput } = options;
-    let sourceRows = this.views.get(source);
-    if (sourceRows === undefined) {
-      sourceRows = rowViews(source, nx, ny);
-      this.views.set(source, sourceRows);
-    }
+    const sourceRows = this.rowsOf(source);
+    // In place, the rows' bit-reversed places would overwrite rows not yet read.
+    const work = source === target ? this.scratch : target;
+    const workRows = this.rowsOf(work);
     for (let r = 0; r < ny; r++) {
+      const into = workRows[columns.place[r]];
       if (m === undefined) {
-        planX.forward(scratchRows[r], sourceRows[r]);
+        planX.forward(into, sourceRows[r]);
         continue;
       }
       for (let c = 0, i = r * nx; c < nx; c++, i++) {
         rowIn[2 * c] = source[2 * i] * m[i];
         rowIn[2 * c + 1] = -source[2 * i + 1] * m[i];
       }
-      planX.forward(scratchRows[r], rowIn);
+      planX.forward(into, rowIn);
     }
+    transformColumns(work, ny, nx, columns);
+    if (work === target && !conjugateOutput) return;
     const sign = conjugateOutput ? -1 : 1;
-    for (let c = 0; c < nx; c++) {
-      for (let r = 0, i = 2 * c; r < ny; r++, i += 2 * nx) {
-        columnIn[2 * r] = scratch[i];
-        columnIn[2 * r + 1] = scratch[i + 1];
-      }
-      planY.forward(columnOut, columnIn);
-      for (let r = 0, i = 2 * c; r < ny; r++, i += 2 * nx) {
-        target[i] = columnOut[2 * r];
-        target[i + 1] = sign * columnOut[2 * r + 1];
-      }
+    for (let k = 0; k < 2 * nx * ny; k += 2) {
+      target[k] = work[k];
+      target[k + 1] = sign * work[k + 1];
     }
+  }
+
+  private rowsOf(data: Float64Array): Float64Array[] {
+    let rows = this.views.get(data);
+    if (rows === undefined) {
+      rows = rowViews(data, this.nx, data.length / (2 * this.nx));
+      this.views.set(data, rows);
+    }
+    return rows;
   }
 
   /**
@@ -77,11 +86,7 @@ export class Dft2 {
    */
   forwardToReal(rows: Float64Array, slotOfRow: Int32Array, target: Float64Array): void {
     const { nx, ny, planX, planY, scratch, scratchRows } = this;
-    let sourceRows = this.views.get(rows);
-    if (sourceRows === undefined) {
-      sourceRows = rowViews(rows, nx, rows.length / (2 * nx));
-      this.views.set(rows, sourceRows);
-    }
+    const sourceRows = this.rowsOf(rows);
     for (let r = 0; r < ny; r++) {
       if (slotOfRow[r] < 0) scratch.fill(0, 2 * r * nx, 2 * (r + 1) * nx);
       else planX.forward(scratchRows[r], sourceRows[slotOfRow[r]]);

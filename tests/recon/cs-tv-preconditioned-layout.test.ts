@@ -11,10 +11,12 @@ import { relativeMaxError } from '../error-measures.ts';
 import { randomProblem } from './helpers.ts';
 
 /**
- * The solver runs in DC-first, transposed k-space on an un-centred DFT. The same iteration written
+ * The solver runs in DC-first k-space on an un-centred DFT (batched column passes for power-of-two
+ * heights, gathered columns otherwise). The same iteration written
  * directly in the centred formulation of its doc comment (fft2c / ifft2c, centred frequencies,
  * X̃ = (F_c div p + t·X + M y)/(M + t), t = σ(4sin²(π(c − ⌊nx/2⌋)/nx) + 4sin²(π(r − ⌊ny/2⌋)/ny)) + δ)
- * must give the same iterates to rounding, for odd and even sizes.
+ * must give the same iterates to rounding, for odd and even sizes and power-of-two heights with an
+ * odd (8, 32) and an even (16) number of radix-2 stages.
  */
 function centredIterates(
   kspace: ComplexImage,
@@ -59,6 +61,9 @@ describe('cs-tv preconditioned: the un-centred loop equals the centred formulati
     [16, 12],
     [15, 21],
     [20, 9],
+    [12, 8],
+    [16, 16],
+    [9, 32],
   ]) {
     it(`${ny}×${nx}: 30 iterates agree to 1e-12 relative`, () => {
       const { kspace, mask } = randomProblem(nx, ny, 3, 0.4, 5);
