@@ -1,29 +1,16 @@
-import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { fft2c, ifft2c } from '../../src/core/centered-fft.ts';
 import type { ComplexImage } from '../../src/core/complex-image.ts';
 import { relativeMaxError } from '../error-measures.ts';
+import { type FftCase, fftFixture as fixture, fixtureInput } from './fft-numpy-fixture.ts';
 
 /**
- * fft2c / ifft2c against numpy.fft (Debian python3-numpy): tests/reference/fixtures/fft-numpy.json,
- * written by tests/reference/generate_fixtures.py as
- *   forward = fftshift(fft2(ifftshift(x), norm='ortho')),  inverse = fftshift(ifft2(ifftshift(x), norm='ortho'))
- * of seeded random complex arrays (integers times inputScale, exact in float64), interleaved re/im.
+ * fft2c / ifft2c against numpy.fft (Debian python3-numpy): tests/reference/fixtures/fft-numpy.json
+ * (see fft-numpy-fixture.ts), forward = fftshift(fft2(ifftshift(x), norm='ortho')) and the inverse
+ * likewise.
  */
-interface FftCase {
-  ny: number;
-  nx: number;
-  input: number[];
-  forward: number[];
-  inverse: number[];
-}
-
-const fixture: { inputScale: number; cases: FftCase[] } = JSON.parse(
-  readFileSync(new URL('../reference/fixtures/fft-numpy.json', import.meta.url), 'utf8'),
-);
-
 function inputImage(c: FftCase): ComplexImage {
-  return { nx: c.nx, ny: c.ny, data: Float64Array.from(c.input, (v) => v * fixture.inputScale) };
+  return { nx: c.nx, ny: c.ny, data: fixtureInput(c) };
 }
 
 // Tolerance: measured ≤ 1.2e-15 on every case (both are float64 FFTs, rounding O(ε·log N)); 1e-13

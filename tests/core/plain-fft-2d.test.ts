@@ -1,7 +1,7 @@
-import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { dcFirstOrder, dcFirstSpectrum, plainFft2d } from '../../src/core/plain-fft-2d.ts';
 import { relativeMaxError } from '../error-measures.ts';
+import { fftFixture, fixtureInput, fixtureUncentredSpectrum } from './fft-numpy-fixture.ts';
 
 /**
  * The un-centred 2D DFT the cs-tv loop runs on, against numpy.fft (Debian python3-numpy):
@@ -9,24 +9,15 @@ import { relativeMaxError } from '../error-measures.ts';
  * (tests/reference/generate_fixtures.py). The shift theorem turns that into numpy's fft2(x) DC
  * first, which plainFft2d (√N·fft2, natural layout) must match; mirrored with 1/N it must invert it.
  */
-interface FftCase {
-  ny: number;
-  nx: number;
-  input: number[];
-  forward: number[];
-}
-const fixture: { inputScale: number; cases: FftCase[] } = JSON.parse(
-  readFileSync(new URL('../reference/fixtures/fft-numpy.json', import.meta.url), 'utf8'),
-);
 
 // Tolerance as in tests/core/fft-numpy.test.ts: float64 FFTs agree to ~1e-15; a wrong shift,
 // phase, mirror or scale is an O(1) error.
 describe('plainFft2d: un-centred DFT against numpy.fft (fixture, odd and even sizes)', () => {
-  for (const c of fixture.cases) {
+  for (const c of fftFixture.cases) {
     const { nx, ny } = c;
     const n = nx * ny;
-    const image = Float64Array.from(c.input, (v) => v * fixture.inputScale);
-    const expected = dcFirstSpectrum(Float64Array.from(c.forward), nx, ny, Math.sqrt(n));
+    const image = fixtureInput(c);
+    const expected = fixtureUncentredSpectrum(c);
     it(`${ny}×${nx}: forward equals √N·fft2 (DC first) to 1e-13`, () => {
       const out = new Float64Array(2 * n);
       plainFft2d(out, image, ny, nx, 1, false);

@@ -1,7 +1,6 @@
-import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { dcFirstSpectrum } from '../../src/core/plain-fft-2d.ts';
 import { Dft2 } from '../../src/recon/uncentred-dft2.ts';
+import { fftFixture, fixtureInput, fixtureUncentredSpectrum } from '../core/fft-numpy-fixture.ts';
 import { relativeMaxError } from '../error-measures.ts';
 
 /**
@@ -11,15 +10,6 @@ import { relativeMaxError } from '../error-measures.ts';
  * numpy's fft2(x), DC first. Heights 8 and 64 run the batched radix-2 column pass (odd and even
  * stage counts), the others the gathered columns. Tolerance as in tests/core/plain-fft-2d.test.ts.
  */
-interface FftCase {
-  ny: number;
-  nx: number;
-  input: number[];
-  forward: number[];
-}
-const fixture: { inputScale: number; cases: FftCase[] } = JSON.parse(
-  readFileSync(new URL('../reference/fixtures/fft-numpy.json', import.meta.url), 'utf8'),
-);
 
 /** X[−v, −u] of a DC-first ny×nx spectrum. */
 function mirrored(spectrum: Float64Array, nx: number, ny: number): Float64Array {
@@ -35,11 +25,11 @@ function mirrored(spectrum: Float64Array, nx: number, ny: number): Float64Array 
 }
 
 describe('Dft2: the Hankel solvers’ DFT against numpy.fft.fft2 (fixture, odd and even sizes)', () => {
-  for (const c of fixture.cases) {
+  for (const c of fftFixture.cases) {
     const { nx, ny } = c;
     const n = nx * ny;
-    const image = Float64Array.from(c.input, (v) => v * fixture.inputScale);
-    const expected = dcFirstSpectrum(Float64Array.from(c.forward), nx, ny, Math.sqrt(n));
+    const image = fixtureInput(c);
+    const expected = fixtureUncentredSpectrum(c);
     it(`${ny}×${nx}: forward equals fft2 to 1e-13, into another array and in place`, () => {
       const dft = new Dft2(nx, ny);
       const out = new Float64Array(2 * n);
