@@ -50,8 +50,10 @@ export function runHankelIterations(
   for (let it = 0; it < params.iterations; it++) {
     throwIfAborted(signal);
     step.gram(gram);
-    eigen.solve(gram);
+    eigen.decompose(gram);
     rank = params.rank ?? rankForEnergy(eigen.values, params.energy);
+    // Only the leading `rank` eigenvectors enter the projection; the rest are never formed.
+    eigen.leadingVectors(rank);
     const { diff, norm } = step.update(eigen.vectors, rank);
     run = it + 1;
     change = norm > 0 ? Math.sqrt(diff / norm) : 0;

@@ -6,13 +6,15 @@
  * Written here because the well-kept npm linear-algebra packages offer real symmetric
  * decompositions only; n is small (the Hankel window size, ≤ a few hundred).
  *
- * Reduction: for k = 0…n−3 the reflector H = I − τ v vᴴ maps column k below the diagonal onto
+ * Reduction: for k = 0…n−3 the reflector H_k = I − τ v vᴴ maps column k below the diagonal onto
  * β e₁ (β = −phase(x₀)·‖x‖, so v₀ = x₀ − β never cancels); A ← H A H by the rank-2 update
- * A − v wᴴ − w vᴴ with p = τ A v, w = p − (τ/2)(vᴴp) v; Q ← Q H. The complex sub-diagonal e_k of
- * T = Qᴴ A Q is made real by the diagonal phase D, φ_{k+1} = φ_k e_k/|e_k|: Dᴴ T D is real
- * symmetric tridiagonal with off-diagonal |e_k|, and its real plane rotations accumulate on Z = Q D.
- * About (8/3)n³ complex multiply-adds for the reduction and Q, against ~10 sweeps of 2n³ for the
- * cyclic Jacobi method this replaced.
+ * A − v wᴴ − w vᴴ with p = τ A v, w = p − (τ/2)(vᴴp) v. The complex sub-diagonal e_k of
+ * T = Qᴴ A Q (Q = H_0 H_1 ⋯) is made real by the diagonal phase D, φ_{k+1} = φ_k e_k/|e_k|:
+ * Dᴴ T D is real symmetric tridiagonal with off-diagonal |e_k|, and its real plane rotations
+ * accumulate on a real matrix W, so A = (Q D W) Λ (Q D W)ᴴ.
+ * The eigenvectors are formed only on request (leadingVectors), for as many columns as asked:
+ * v_k = H_0(H_1(⋯(D w_k))) by the kept reflectors, about n² complex multiply-adds each — the
+ * Hankel solvers need the leading `rank` of them, not all n, and never the complex n×n Q itself.
  * Storage: interleaved complex, row-major, a[2(i·n + j)] = Re a_ij.
  */
 export class HermitianEigenSolver {
@@ -21,15 +23,21 @@ export class HermitianEigenSolver {
   private readonly a: Float64Array;
   /** Eigenvectors as columns, interleaved complex row-major: v[2(i·n + k)] = Re (v_k)_i. */
   readonly vectors: Float64Array;
-  /** Eigenvalues in descending order after `solve`. */
+  /** Eigenvalues in descending order after `decompose` (or `solve`). */
   readonly values: Float64Array;
   private readonly order: Int32Array;
-  /** Z = Q D, then the eigenvectors in QL order. */
-  private readonly z: Float64Array;
+  /** Householder vector of step k in row k (entries k+1…n−1), and its τ (0 when skipped). */
+  private readonly reflectors: Float64Array;
+  private readonly tau: Float64Array;
+  /** φ_k of D (interleaved complex). */
+  private readonly phase: Float64Array;
+  /** Wᵀ: row j holds the tridiagonal's eigenvector j in QL order (rotations act on two rows). */
+  private readonly rotated: Float64Array;
   private readonly diagonal: Float64Array;
   private readonly offDiagonal: Float64Array;
-  private readonly householder: Float64Array;
   private readonly product: Float64Array;
+  /** One eigenvector while it is formed. */
+  private readonly column: Float64Array;
   /** QL iterations used by the last solve (all eigenvalues together). */
   iterations = 0;
 
@@ -40,11 +48,14 @@ export class HermitianEigenSolver {
     this.vectors = new Float64Array(2 * n * n);
     this.values = new Float64Array(n);
     this.order = new Int32Array(n);
-    this.z = new Float64Array(2 * n * n);
+    this.reflectors = new Float64Array(2 * n * n);
+    this.tau = new Float64Array(n);
+    this.phase = new Float64Array(2 * n);
+    this.rotated = new Float64Array(n * n);
     this.diagonal = new Float64Array(n);
     this.offDiagonal = new Float64Array(n);
-    this.householder = new Float64Array(2 * n);
     this.product = new Float64Array(2 * n);
+    this.column = new Float64Array(2 * n);
   }
 
   /**
@@ -52,6 +63,15 @@ export class HermitianEigenSolver {
    * afterwards `values[k]` (descending) and column k of `vectors` satisfy A v_k = λ_k v_k.
    */
   solve(matrix: Float64Array): void {
+    this.decompose(matrix);
+    this.leadingVectors(this.n);
+  }
+
+  /**
+   * The eigenvalues of `matrix` (into `values`, descending) and what leadingVectors needs; the
+   * columns of `vectors` are left as they were.
+   */
+  decompose(matrix: Float64Array): void {
     const { n, a } = this;
     if (matrix.length !== 2 * n * n) throw new RangeError(`matrix must hold 2·n² = ${2 * n * n} numbers`);
     // Symmetrise from the upper triangle so tiny asymmetries from summation order do not matter.
@@ -70,7 +90,7 @@ export class HermitianEigenSolver {
     this.tridiagonalize();
     this.implicitQl();
     // Sort descending (insertion sort of indices; n is small, no allocation).
-    const { order, diagonal, z } = this;
+    const { order, diagonal } = this;
     for (let i = 0; i < n; i++) order[i] = i;
     for (let i = 1; i < n; i++) {
       const key = order[i];
@@ -82,23 +102,61 @@ export class HermitianEigenSolver {
       }
       order[j + 1] = key;
     }
-    for (let k = 0; k < n; k++) {
-      const src = order[k];
-      this.values[k] = diagonal[src];
+    for (let k = 0; k < n; k++) this.values[k] = diagonal[order[k]];
+  }
+
+  /**
+   * Columns 0…count−1 of `vectors` ← the eigenvectors of the leading `count` eigenvalues of the
+   * last decompose: v = H_0 H_1 ⋯ H_{n−3} D w, the reflectors applied last to first.
+   */
+  leadingVectors(count: number): void {
+    const { n, reflectors: v, tau, phase, rotated, order, vectors } = this;
+    const x = this.column;
+    if (!Number.isInteger(count) || count < 0 || count > n)
+      throw new RangeError(`count must be in [0, ${n}]`);
+    for (let k = 0; k < count; k++) {
+      const row = order[k] * n;
+      for (let j = 0; j < n; j++) {
+        x[2 * j] = phase[2 * j] * rotated[row + j];
+        x[2 * j + 1] = phase[2 * j + 1] * rotated[row + j];
+      }
+      for (let h = n - 3; h >= 0; h--) {
+        const t = tau[h];
+        if (t === 0) continue;
+        // x ← x − τ v (vᴴ x), v in row h from h + 1 on.
+        const base = 2 * h * n;
+        let re = 0;
+        let im = 0;
+        for (let j = h + 1; j < n; j++) {
+          const vr = v[base + 2 * j];
+          const vi = v[base + 2 * j + 1];
+          re += vr * x[2 * j] + vi * x[2 * j + 1];
+          im += vr * x[2 * j + 1] - vi * x[2 * j];
+        }
+        re *= t;
+        im *= t;
+        for (let j = h + 1; j < n; j++) {
+          const vr = v[base + 2 * j];
+          const vi = v[base + 2 * j + 1];
+          x[2 * j] -= re * vr - im * vi;
+          x[2 * j + 1] -= re * vi + im * vr;
+        }
+      }
       for (let i = 0; i < n; i++) {
-        this.vectors[2 * (i * n + k)] = z[2 * (i * n + src)];
-        this.vectors[2 * (i * n + k) + 1] = z[2 * (i * n + src) + 1];
+        vectors[2 * (i * n + k)] = x[2 * i];
+        vectors[2 * (i * n + k) + 1] = x[2 * i + 1];
       }
     }
   }
 
-  /** a → Qᴴ a Q tridiagonal; diagonal / offDiagonal (real, e_k between k and k+1) and z = Q D. */
+  /**
+   * a → Qᴴ a Q tridiagonal; diagonal / offDiagonal (real, e_k between k and k+1), the reflectors
+   * of Q and the phases of D.
+   */
   private tridiagonalize(): void {
-    const { n, a, z, diagonal, offDiagonal } = this;
-    const v = this.householder;
+    const { n, a, diagonal, offDiagonal, reflectors, tau, phase } = this;
     const p = this.product;
-    z.fill(0);
-    for (let i = 0; i < n; i++) z[2 * (i * n + i)] = 1;
+    tau.fill(0);
     for (let k = 0; k + 2 < n; k++) {
       const k1 = k + 1;
       let tail = 0;
@@ -110,14 +168,16 @@ export class HermitianEigenSolver {
       const norm = Math.sqrt(x0 * x0 + tail);
       const phr = x0 > 0 ? x0r / x0 : 1;
       const phi = x0 > 0 ? x0i / x0 : 0;
-      // v = x − β e₁ with β = −phase·norm; vᴴv = (x0 + norm)² + tail.
+      // v = x − β e₁ with β = −phase·norm; vᴴv = (x0 + norm)² + tail. Kept in row k.
+      const v = reflectors.subarray(2 * k * n, 2 * (k + 1) * n);
       v[2 * k1] = phr * (x0 + norm);
       v[2 * k1 + 1] = phi * (x0 + norm);
       for (let i = k + 2; i < n; i++) {
         v[2 * i] = a[2 * (i * n + k)];
         v[2 * i + 1] = a[2 * (i * n + k) + 1];
       }
-      const tau = 2 / ((x0 + norm) ** 2 + tail);
+      const t = 2 / ((x0 + norm) ** 2 + tail);
+      tau[k] = t;
       // p = τ B v over the trailing block, and vᴴ p.
       let vp = 0;
       for (let i = k1; i < n; i++) {
@@ -130,11 +190,11 @@ export class HermitianEigenSolver {
           re += br * v[2 * j] - bi * v[2 * j + 1];
           im += br * v[2 * j + 1] + bi * v[2 * j];
         }
-        p[2 * i] = tau * re;
-        p[2 * i + 1] = tau * im;
+        p[2 * i] = t * re;
+        p[2 * i + 1] = t * im;
         vp += v[2 * i] * p[2 * i] + v[2 * i + 1] * p[2 * i + 1];
       }
-      const half = (tau / 2) * vp;
+      const half = (t / 2) * vp;
       for (let i = k1; i < n; i++) {
         p[2 * i] -= half * v[2 * i];
         p[2 * i + 1] -= half * v[2 * i + 1];
@@ -161,30 +221,12 @@ export class HermitianEigenSolver {
         a[2 * (i * n + k)] = 0;
         a[2 * (i * n + k) + 1] = 0;
       }
-      // Z ← Z H: each row r of Z loses τ (Z_r · v) vᴴ.
-      for (let r = 0; r < n; r++) {
-        const row = 2 * r * n;
-        let re = 0;
-        let im = 0;
-        for (let j = k1; j < n; j++) {
-          const zr = z[row + 2 * j];
-          const zi = z[row + 2 * j + 1];
-          re += zr * v[2 * j] - zi * v[2 * j + 1];
-          im += zr * v[2 * j + 1] + zi * v[2 * j];
-        }
-        re *= tau;
-        im *= tau;
-        for (let j = k1; j < n; j++) {
-          const vr = v[2 * j];
-          const vi = -v[2 * j + 1];
-          z[row + 2 * j] -= re * vr - im * vi;
-          z[row + 2 * j + 1] -= re * vi + im * vr;
-        }
-      }
     }
-    // Real tridiagonal through the phases φ: column k of Z is multiplied by φ_k.
+    // Real tridiagonal through the phases φ (φ_0 = 1).
     let fr = 1;
     let fi = 0;
+    phase[0] = 1;
+    phase[1] = 0;
     for (let k = 0; k < n; k++) {
       diagonal[k] = a[2 * (k * n + k)];
       if (k > 0) {
@@ -198,21 +240,18 @@ export class HermitianEigenSolver {
           fr = nr;
           fi = ni;
         }
-        for (let r = 0; r < n; r++) {
-          const i = 2 * (r * n + k);
-          const zr = z[i];
-          const zi = z[i + 1];
-          z[i] = zr * fr - zi * fi;
-          z[i + 1] = zr * fi + zi * fr;
-        }
+        phase[2 * k] = fr;
+        phase[2 * k + 1] = fi;
       }
     }
     offDiagonal[n - 1] = 0;
   }
 
-  /** Implicit QL with shifts on (diagonal, offDiagonal); rotations accumulate on the columns of z. */
+  /** Implicit QL with shifts on (diagonal, offDiagonal); rotations accumulate on the rows of Wᵀ. */
   private implicitQl(): void {
-    const { n, z, diagonal: d, offDiagonal: e } = this;
+    const { n, rotated: w, diagonal: d, offDiagonal: e } = this;
+    w.fill(0);
+    for (let i = 0; i < n; i++) w[i * n + i] = 1;
     let total = 0;
     for (let l = 0; l < n; l++) {
       let iter = 0;
@@ -253,15 +292,10 @@ export class HermitianEigenSolver {
           p = s * r;
           d[i + 1] = g + p;
           g = c * r - b;
-          for (let k = 0; k < n; k++) {
-            const i0 = 2 * (k * n + i);
-            const i1 = i0 + 2;
-            f = z[i1];
-            z[i1] = s * z[i0] + c * f;
-            z[i0] = c * z[i0] - s * f;
-            f = z[i1 + 1];
-            z[i1 + 1] = s * z[i0 + 1] + c * f;
-            z[i0 + 1] = c * z[i0 + 1] - s * f;
+          for (let i0 = i * n, i1 = i0 + n, end = i1; i0 < end; i0++, i1++) {
+            f = w[i1];
+            w[i1] = s * w[i0] + c * f;
+            w[i0] = c * w[i0] - s * f;
           }
         }
         if (underflow) continue;

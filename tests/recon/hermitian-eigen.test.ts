@@ -47,6 +47,40 @@ describe('Hermitian eigendecomposition (Householder tridiagonalisation, implicit
     expect(orth).toBeLessThan(1e-13);
   });
 
+  it('decompose + leadingVectors(3): the three leading columns are eigenvectors, the others untouched (construction, common practice)', () => {
+    const values = [5, -1, 2.5, 0.25, 4, 1.5, 0, 3];
+    const n = values.length;
+    const a = withSpectrum(randomUnitary(n, 5), values);
+    const solver = new HermitianEigenSolver(n);
+    solver.vectors.fill(7);
+    solver.decompose(a);
+    solver.leadingVectors(3);
+    const v = rowMajor(solver.vectors, n);
+    const av = multiply(rowMajor(a, n), v, n, n, n);
+    for (let k = 0; k < n; k++) {
+      let residual = 0;
+      let norm = 0;
+      for (let i = 0; i < n; i++) {
+        const at = 2 * (i * n + k);
+        if (k < 3) {
+          const lambda = solver.values[k];
+          residual = Math.max(
+            residual,
+            Math.hypot(av[at] - lambda * v.data[at], av[at + 1] - lambda * v.data[at + 1]),
+          );
+          norm += v.data[at] ** 2 + v.data[at + 1] ** 2;
+        } else {
+          expect(v.data[at]).toBe(7);
+        }
+      }
+      if (k < 3) {
+        expect(Math.abs(solver.values[k] - [5, 4, 3][k])).toBeLessThan(1e-13 * 5);
+        expect(residual).toBeLessThan(1e-13 * 5);
+        expect(Math.abs(norm - 1)).toBeLessThan(1e-13);
+      }
+    }
+  });
+
   it('tridiagonal Toeplitz with complex off-diagonals: λ_k = α + 2|β| cos(kπ/(n+1)) (handbook closed form, from memory)', () => {
     // Diagonal unitary similarity removes the off-diagonal phases, leaving the real Toeplitz case.
     const n = 20;
