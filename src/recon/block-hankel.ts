@@ -325,9 +325,7 @@ export class BlockHankel {
         kernelImage[2 * (slot * nx + col) + 1] += kernels[k + 1];
       }
     }
-    this.dft.forwardToReal(kernelImage, kernelRowSlot, multiplier);
-    const scale = 1 / (nx * ny * wx * wy);
-    for (let i = 0; i < multiplier.length; i++) multiplier[i] *= scale;
+    this.dft.forwardToReal(kernelImage, kernelRowSlot, multiplier, 1 / (nx * ny * wx * wy));
   }
 
   /** out ← IDFT(spectrum · multiplier) = conj(DFT(conj(spectrum · multiplier))). */

@@ -21,6 +21,8 @@ export class Dft2 {
   private readonly rowIn: Float64Array;
   private readonly columnIn: Float64Array;
   private readonly columnOut: Float64Array;
+  /** forwardToReal: the grid row of each transformed non-zero row. */
+  private readonly rowOfSlot: Int32Array;
   /** Row views of the arrays transformed so far (a handful of fixed buffers). */
   private readonly views = new Map<Float64Array, Float64Array[]>();
 
@@ -35,6 +37,7 @@ export class Dft2 {
     this.rowIn = new Float64Array(2 * nx);
     this.columnIn = new Float64Array(2 * ny);
     this.columnOut = new Float64Array(2 * ny);
+    this.rowOfSlot = new Int32Array(ny);
   }
 
   forward(
@@ -79,31 +82,37 @@ export class Dft2 {
   }
 
   /**
-   * target (real, ny×nx) ← DFT(x) for an x whose DFT is known to be real (Hermitian symmetric
-   * about the origin) and whose non-zero rows are given compactly: grid row r is rows[slotOfRow[r]]
-   * (zero where the slot is −1). Columns c and c + 1 go through one complex FFT as
+   * target (real, ny×nx) ← scale · DFT(x) for an x whose DFT is known to be real (Hermitian
+   * symmetric about the origin) and whose non-zero rows are given compactly: grid row r is
+   * rows[slotOfRow[r]] (zero where the slot is −1). Only the non-zero rows are transformed and
+   * gathered into the columns; columns c and c + 1 go through one complex FFT as
    * col_c + i·col_{c+1}, whose real and imaginary parts are then the two real transforms.
    */
-  forwardToReal(rows: Float64Array, slotOfRow: Int32Array, target: Float64Array): void {
-    const { nx, ny, planX, planY, scratch, scratchRows } = this;
+  forwardToReal(rows: Float64Array, slotOfRow: Int32Array, target: Float64Array, scale = 1): void {
+    const { nx, ny, planX, planY, scratchRows } = this;
     const sourceRows = this.rowsOf(rows);
-    for (let r = 0; r < ny; r++) {
-      if (slotOfRow[r] < 0) scratch.fill(0, 2 * r * nx, 2 * (r + 1) * nx);
-      else planX.forward(scratchRows[r], sourceRows[slotOfRow[r]]);
-    }
     const input = this.columnIn;
     const output = this.columnOut;
+    input.fill(0);
+    let slots = 0;
+    for (let r = 0; r < ny; r++) {
+      if (slotOfRow[r] < 0) continue;
+      planX.forward(scratchRows[slots], sourceRows[slotOfRow[r]]);
+      this.rowOfSlot[slots++] = r;
+    }
+    const spectra = this.scratch;
     for (let c = 0; c < nx; c += 2) {
       const pair = c + 1 < nx;
-      for (let r = 0; r < ny; r++) {
-        const i = 2 * (r * nx + c);
-        input[2 * r] = pair ? scratch[i] - scratch[i + 3] : scratch[i];
-        input[2 * r + 1] = pair ? scratch[i + 1] + scratch[i + 2] : scratch[i + 1];
+      for (let k = 0; k < slots; k++) {
+        const r = this.rowOfSlot[k];
+        const i = 2 * (k * nx + c);
+        input[2 * r] = pair ? spectra[i] - spectra[i + 3] : spectra[i];
+        input[2 * r + 1] = pair ? spectra[i + 1] + spectra[i + 2] : spectra[i + 1];
       }
       planY.forward(output, input);
       for (let r = 0; r < ny; r++) {
-        target[r * nx + c] = output[2 * r];
-        if (pair) target[r * nx + c + 1] = output[2 * r + 1];
+        target[r * nx + c] = output[2 * r] * scale;
+        if (pair) target[r * nx + c + 1] = output[2 * r + 1] * scale;
       }
     }
   }
