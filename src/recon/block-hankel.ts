@@ -24,8 +24,6 @@ export class BlockHankel {
   /** Row-and-column 2D DFT with the plans and scratch of this size. */
   private readonly dft: Dft2;
   private liftedArrays: readonly Float64Array[] = [];
-  /** Σ |spectrum|² over the lifted arrays (real, N). */
-  private readonly power: Float64Array;
   /** e^(−i2πm/ny), m = 0…ny−1. */
   private readonly twiddleY: Float64Array;
   /** Row-wise DFT of the power at lags dx ∈ (−wx, wx): ny × (2wx−1), then the circular autocorrelation. */
@@ -74,7 +72,6 @@ export class BlockHankel {
     const ly = 2 * wy - 1;
     this.spectra = [new Float64Array(2 * nx * ny), new Float64Array(2 * nx * ny)];
     this.dft = new Dft2(nx, ny);
-    this.power = new Float64Array(nx * ny);
     this.twiddleY = twiddles(ny);
     this.rowLags = new Float64Array(2 * ny * lx);
     this.autocorrelation = new Float64Array(2 * ly * lx);
@@ -162,21 +159,27 @@ export class BlockHankel {
    * one complex FFT; the column direction is a direct sum over the 2wy−1 lags.
    */
   private circularAutocorrelation(count: number): void {
-    const { nx, ny, wx, wy, power, twiddleY, rowLags, autocorrelation, lineX, lineOut, planX } = this;
+    const { nx, ny, wx, wy, twiddleY, rowLags, autocorrelation, lineX, lineOut, planX } = this;
     const lx = 2 * wx - 1;
     const s0 = this.spectra[0];
     const s1 = this.spectra[1];
-    for (let j = 0; j < nx * ny; j++) {
-      let p = s0[2 * j] * s0[2 * j] + s0[2 * j + 1] * s0[2 * j + 1];
-      if (count > 1) p += s1[2 * j] * s1[2 * j] + s1[2 * j + 1] * s1[2 * j + 1];
-      power[j] = p;
-    }
-    // rowLags[row, dx] = Σ_kx P[row, kx] e^(+i2π kx·dx/nx) = X[−dx], X the row's forward DFT.
+    const two = count > 1;
+    // rowLags[row, dx] = Σ_kx P[row, kx] e^(+i2π kx·dx/nx) = X[−dx], X the row's forward DFT. The
+    // power rows go straight from the spectra into the line (no N-sized power array).
     for (let row = 0; row < ny; row += 2) {
       const pair = row + 1 < ny;
-      for (let c = 0; c < nx; c++) {
-        lineX[2 * c] = power[row * nx + c];
-        lineX[2 * c + 1] = pair ? power[(row + 1) * nx + c] : 0;
+      for (let c = 0, j = 2 * row * nx; c < nx; c++, j += 2) {
+        let p = s0[j] * s0[j] + s0[j + 1] * s0[j + 1];
+        if (two) p += s1[j] * s1[j] + s1[j + 1] * s1[j + 1];
+        lineX[2 * c] = p;
+        if (!pair) {
+          lineX[2 * c + 1] = 0;
+          continue;
+        }
+        const k = j + 2 * nx;
+        let q = s0[k] * s0[k] + s0[k + 1] * s0[k + 1];
+        if (two) q += s1[k] * s1[k] + s1[k + 1] * s1[k + 1];
+        lineX[2 * c + 1] = q;
       }
       planX.forward(lineOut, lineX);
       for (let dx = -(wx - 1); dx < wx; dx++) {
