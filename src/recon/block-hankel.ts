@@ -48,6 +48,13 @@ export class BlockHankel {
   private readonly kernelImage: Float64Array;
   private readonly multiplier: Float64Array;
   private readonly kernelRowSlot: Int32Array;
+  /**
+   * Border rows (those the row strips read, [0, 2wy−2) and [ny−2wy+2, ny), which hold the row wrap
+   * band): slot per grid row (−1 elsewhere), and their row DFTs per lifted array, kept from the row
+   * pass of transformArrays (slot-major, then array): the row strips and band need no line DFTs.
+   */
+  private readonly borderRowSlot: Int32Array;
+  private readonly borderRowSpectra: Float64Array;
   /** Border strips: spectra of the k-space lines they read (slot per line), kernel line, sums. */
   private readonly stripSpectra: Float64Array;
   private readonly stripSlot: Int32Array;
@@ -93,6 +100,11 @@ export class BlockHankel {
     const stripLines = Math.max(Math.min(ny, 4 * wy - 4) * nx, Math.min(nx, 4 * wx - 4) * ny);
     this.stripSpectra = new Float64Array(2 * 2 * stripLines);
     this.stripSlot = new Int32Array(Math.max(nx, ny));
+    this.borderRowSlot = new Int32Array(ny).fill(-1);
+    let borderRows = 0;
+    for (let r = 0; r < ny; r++)
+      if (r < 2 * wy - 2 || r >= ny - 2 * wy + 2) this.borderRowSlot[r] = borderRows++;
+    this.borderRowSpectra = new Float64Array(2 * 2 * borderRows * nx);
     this.kernelLine = new Float64Array(2 * Math.max(nx, ny));
     this.stripSums = new Float64Array(2 * 2 * Math.max(nx, ny));
     this.rowPrefix = new Float64Array(2 * (2 * wx - 1) * (2 * wy - 1) * (wy + 1));
@@ -145,10 +157,17 @@ export class BlockHankel {
     }
   }
 
-  /** spectra[i] ← DFT(arrays[i]); remembers the arrays for projectLifted. */
+  /** spectra[i] ← DFT(arrays[i]) and the border rows' DFTs; remembers the arrays for projectLifted. */
   private transformArrays(arrays: readonly Float64Array[]): void {
+    const stride = 2 * arrays.length * this.nx;
     for (let i = 0; i < arrays.length; i++) {
-      this.dft.forward(arrays[i], this.spectra[i]);
+      const keepRows = {
+        slotOfRow: this.borderRowSlot,
+        into: this.borderRowSpectra,
+        offset: 2 * i * this.nx,
+        stride,
+      };
+      this.dft.forward(arrays[i], this.spectra[i], { keepRows });
     }
     this.liftedArrays = arrays;
   }
@@ -210,7 +229,18 @@ export class BlockHankel {
     const spectra = byRows ? this.rowSpectra : this.columnSpectra;
     target.fill(0);
     if (band.count === 0) return;
-    for (let k = 0; k < arrays.length; k++) transformBandLines(band, spectra, k, arrays[k], this.nx);
+    if (byRows) {
+      // The band rows are border rows: their DFTs were kept by transformArrays.
+      const { nx, borderRowSlot, borderRowSpectra } = this;
+      for (let k = 0; k < arrays.length; k++) {
+        for (let i = 0; i < band.count; i++) {
+          const from = 2 * (borderRowSlot[(band.start + i) % band.lines] * arrays.length + k) * nx;
+          spectra.set(borderRowSpectra.subarray(from, from + 2 * nx), 2 * (k * band.count + i) * nx);
+        }
+      }
+    } else {
+      for (let k = 0; k < arrays.length; k++) transformBandLines(band, spectra, k, arrays[k], this.nx);
+    }
     bandLags(band, target, spectra, this.lineOut, {
       arrays: arrays.length,
       coils: 1,
@@ -352,7 +382,7 @@ export class BlockHankel {
     const { nx, ny, wx, wy, kernels } = this;
     const { rowBoxes, colBoxes, rowBox, colBox, fullBox } = this.boxes;
     if (fullBox === null) return;
-    const { stripSpectra, stripSlot, kernelLine, stripSums, lineOut } = this;
+    const { kernelLine, stripSums, lineOut } = this;
     const plan = byRows ? this.planX : this.planY;
     const line = byRows ? this.lineX : this.lineY;
     const length = byRows ? nx : ny;
@@ -365,17 +395,22 @@ export class BlockHankel {
     const kernelSize = 2 * kw * (2 * wy - 1);
     const nCol = colBoxes.length / 2;
     const count = arrays.length;
-    // Spectra of every line a border line reads: lines [0, 2w−2) and [lines−2w+2, lines).
-    stripSlot.fill(-1);
-    let slots = 0;
-    for (let index = 0; index < lines; index++) {
-      if (index >= 2 * w - 2 && index < lines - 2 * w + 2) continue;
-      stripSlot[index] = slots;
-      for (let k = 0; k < count; k++) {
-        const at = 2 * (slots * count + k) * length;
-        transformLine(stripSpectra.subarray(at, at + 2 * length), line, arrays[k], index, byRows, nx, plan);
+    // Spectra of every line a border line reads: lines [0, 2w−2) and [lines−2w+2, lines); the
+    // rows' were kept by transformArrays.
+    const stripSpectra = byRows ? this.borderRowSpectra : this.stripSpectra;
+    const stripSlot = byRows ? this.borderRowSlot : this.stripSlot;
+    if (!byRows) {
+      stripSlot.fill(-1);
+      let slots = 0;
+      for (let index = 0; index < lines; index++) {
+        if (index >= 2 * w - 2 && index < lines - 2 * w + 2) continue;
+        stripSlot[index] = slots;
+        for (let k = 0; k < count; k++) {
+          const at = 2 * (slots * count + k) * length;
+          transformLine(stripSpectra.subarray(at, at + 2 * length), line, arrays[k], index, false, nx, plan);
+        }
+        slots++;
       }
-      slots++;
     }
     for (let q = 0; q < lines; q++) {
       if (q >= w - 1 && q <= lines - w) continue;

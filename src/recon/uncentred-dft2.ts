@@ -2,12 +2,24 @@ import { type FftPlan, fftPlan } from '../core/fft-plan.ts';
 import { type ColumnPlan, columnPlan, transformColumns } from '../core/plain-fft-2d.ts';
 
 /**
+ * Where Dft2.forward copies the row transforms of some rows (taken before the column pass): row r
+ * with slotOfRow[r] ≥ 0 goes to into[offset + slot·stride …] (2·nx numbers).
+ */
+export interface RowCopies {
+  slotOfRow: Int32Array;
+  into: Float64Array;
+  offset: number;
+  stride: number;
+}
+
+/**
  * Unnormalised 2D DFT, X[k] = Σ_m x[m] e^(−i2π(ky·my/ny + kx·mx/nx)), of interleaved ny×nx arrays:
  * rows to their places (bit-reversed for power-of-two heights), then the columns in place, all
  * columns at once by batched radix-2 stages (plainFft2d's column pass; gathered for other heights).
  * Options fold the pointwise steps of a convolution into the passes: the input rows can be taken
- * as conj(source · m) for a real m, the output conjugated. Source and target may be the same
- * array (the rows then go through a scratch array).
+ * as conj(source · m) for a real m, the output conjugated; and the row transforms of chosen rows
+ * can be kept (keepRows, without multiplyConj): the line DFTs of those rows at no extra transform.
+ * Source and target may be the same array (the rows then go through a scratch array).
  */
 export class Dft2 {
   private readonly nx: number;
@@ -43,10 +55,10 @@ export class Dft2 {
   forward(
     source: Float64Array,
     target: Float64Array,
-    options: { multiplyConj?: Float64Array; conjugateOutput?: boolean } = {},
+    options: { multiplyConj?: Float64Array; conjugateOutput?: boolean; keepRows?: RowCopies } = {},
   ): void {
     const { nx, ny, planX, columns, rowIn } = this;
-    const { multiplyConj: m, conjugateOutput } = options;
+    const { multiplyConj: m, conjugateOutput, keepRows } = options;
     const sourceRows = this.rowsOf(source);
     // In place, the rows' bit-reversed places would overwrite rows not yet read.
     const work = source === target ? this.scratch : target;
@@ -55,6 +67,9 @@ export class Dft2 {
       const into = workRows[columns.place[r]];
       if (m === undefined) {
         planX.forward(into, sourceRows[r]);
+        if (keepRows !== undefined && keepRows.slotOfRow[r] >= 0) {
+          keepRows.into.set(into, keepRows.offset + keepRows.slotOfRow[r] * keepRows.stride);
+        }
         continue;
       }
       for (let c = 0, i = r * nx; c < nx; c++, i++) {
