@@ -180,26 +180,12 @@ export class BlockHankel {
   private circularAutocorrelation(count: number): void {
     const { nx, ny, wx, wy, twiddleY, rowLags, autocorrelation, lineX, lineOut, planX } = this;
     const lx = 2 * wx - 1;
-    const s0 = this.spectra[0];
-    const s1 = this.spectra[1];
-    const two = count > 1;
+    const [s0, s1] = this.spectra;
     // rowLags[row, dx] = Σ_kx P[row, kx] e^(+i2π kx·dx/nx) = X[−dx], X the row's forward DFT. The
     // power rows go straight from the spectra into the line (no N-sized power array).
     for (let row = 0; row < ny; row += 2) {
       const pair = row + 1 < ny;
-      for (let c = 0, j = 2 * row * nx; c < nx; c++, j += 2) {
-        let p = s0[j] * s0[j] + s0[j + 1] * s0[j + 1];
-        if (two) p += s1[j] * s1[j] + s1[j + 1] * s1[j + 1];
-        lineX[2 * c] = p;
-        if (!pair) {
-          lineX[2 * c + 1] = 0;
-          continue;
-        }
-        const k = j + 2 * nx;
-        let q = s0[k] * s0[k] + s0[k + 1] * s0[k + 1];
-        if (two) q += s1[k] * s1[k] + s1[k + 1] * s1[k + 1];
-        lineX[2 * c + 1] = q;
-      }
+      powerRows(lineX, s0, count > 1 ? s1 : null, row, pair, nx);
       planX.forward(lineOut, lineX);
       for (let dx = -(wx - 1); dx < wx; dx++) {
         const k = (((-dx % nx) + nx) % nx) * 2;
@@ -315,18 +301,22 @@ export class BlockHankel {
   /**
    * projectAverage of the arrays last given to gram (which must be unchanged since), reusing
    * their transforms: one inverse transform per array. Consumes the stored transforms.
+   * With `conjugated` the outputs hold the complex conjugates instead, for a caller that folds the
+   * conjugation into its next pass: the inverse DFT is conj ∘ DFT ∘ conj, and leaving out the outer
+   * conj saves a pass over each array.
    */
-  projectLifted(out: Float64Array, out2?: Float64Array): void {
+  projectLifted(out: Float64Array, out2?: Float64Array, conjugated = false): void {
     const arrays = this.liftedArrays;
     if (arrays.length === 0) throw new Error('projectLifted needs a preceding gram or projectAverage');
     const outs = arrays.length > 1 && out2 !== undefined ? [out, out2] : [out];
+    const sign = conjugated ? -1 : 1;
     if (this.boxes.fullBox === null) {
-      for (let i = 0; i < outs.length; i++) this.averageBorder(outs[i], arrays[i], 'all');
+      for (let i = 0; i < outs.length; i++) this.averageBorder(outs[i], arrays[i], 'all', sign);
     } else {
-      for (let i = 0; i < outs.length; i++) this.convolveInterior(outs[i], this.spectra[i]);
-      this.averageStrips(outs, arrays, 'rows');
-      this.averageStrips(outs, arrays, 'columns');
-      for (let i = 0; i < outs.length; i++) this.averageBorder(outs[i], arrays[i], 'corners');
+      for (let i = 0; i < outs.length; i++) this.convolveInterior(outs[i], this.spectra[i], conjugated);
+      this.averageStrips(outs, arrays, 'rows', sign);
+      this.averageStrips(outs, arrays, 'columns', sign);
+      for (let i = 0; i < outs.length; i++) this.averageBorder(outs[i], arrays[i], 'corners', sign);
     }
     this.liftedArrays = [];
   }
@@ -361,9 +351,9 @@ export class BlockHankel {
     this.dft.forwardToReal(kernelImage, kernelRowSlot, multiplier, 1 / (nx * ny * wx * wy));
   }
 
-  /** out ← IDFT(spectrum · multiplier) = conj(DFT(conj(spectrum · multiplier))). */
-  private convolveInterior(out: Float64Array, spectrum: Float64Array): void {
-    this.dft.forward(spectrum, out, { multiplyConj: this.multiplier, conjugateOutput: true });
+  /** out ← IDFT(spectrum · multiplier) = conj(DFT(conj(spectrum · multiplier))), or its conjugate. */
+  private convolveInterior(out: Float64Array, spectrum: Float64Array, conjugated: boolean): void {
+    this.dft.forward(spectrum, out, { multiplyConj: this.multiplier, conjugateOutput: !conjugated });
   }
 
   /**
@@ -377,6 +367,7 @@ export class BlockHankel {
     outs: Float64Array[],
     arrays: readonly Float64Array[],
     axis: 'rows' | 'columns',
+    sign: number,
   ): void {
     const byRows = axis === 'rows';
     const { nx, ny, wx, wy, kernels } = this;
@@ -457,7 +448,7 @@ export class BlockHankel {
         for (let c = wAlong - 1; c <= length - wAlong; c++) {
           const o = 2 * (byRows ? q * nx + c : c * nx + q);
           out[o] = lineOut[2 * c] * scale;
-          out[o + 1] = -lineOut[2 * c + 1] * scale;
+          out[o + 1] = -sign * lineOut[2 * c + 1] * scale;
         }
       }
     }
@@ -465,9 +456,9 @@ export class BlockHankel {
 
   /**
    * Direct box-kernel sums: every sample ('all', when no sample sees every window) or the corner
-   * samples, within w − 1 of two edges ('corners').
+   * samples, within w − 1 of two edges ('corners'); imaginary parts times `sign`.
    */
-  private averageBorder(out: Float64Array, z: Float64Array, which: 'all' | 'corners'): void {
+  private averageBorder(out: Float64Array, z: Float64Array, which: 'all' | 'corners', sign: number): void {
     const all = which === 'all';
     const { nx, ny, wx, wy, kernels } = this;
     const { rowBoxes, colBoxes, rowBox, colBox } = this.boxes;
@@ -493,9 +484,35 @@ export class BlockHankel {
         addKernelSum(sum, kernels, base, z, nx, ny, wx, wy, qy, qx);
         const o = 2 * (qy * nx + qx);
         out[o] = sum[0] / count;
-        out[o + 1] = sum[1] / count;
+        out[o + 1] = (sign * sum[1]) / count;
       }
     }
+  }
+}
+
+/**
+ * line ← P[row] + i·P[row + 1] (P[row + 1] = 0 without `pair`), P = |s0|² + |s1|² the power of the
+ * spectra (s1 omitted when null), rows of nx.
+ */
+function powerRows(
+  line: Float64Array,
+  s0: Float64Array,
+  s1: Float64Array | null,
+  row: number,
+  pair: boolean,
+  nx: number,
+): void {
+  for (let c = 0, j = 2 * row * nx, k = j + 2 * nx; c < nx; c++, j += 2, k += 2) {
+    let p = s0[j] * s0[j] + s0[j + 1] * s0[j + 1];
+    if (s1 !== null) p += s1[j] * s1[j] + s1[j + 1] * s1[j + 1];
+    line[2 * c] = p;
+    if (!pair) {
+      line[2 * c + 1] = 0;
+      continue;
+    }
+    let q = s0[k] * s0[k] + s0[k + 1] * s0[k + 1];
+    if (s1 !== null) q += s1[k] * s1[k] + s1[k + 1] * s1[k + 1];
+    line[2 * c + 1] = q;
   }
 }
 

@@ -210,8 +210,9 @@ export function solveLowrankHankel(
     // is summed in the same pass, in the same order as over the whole interleaved array.
     let diff = 0;
     let norm = 0;
-    if (gradientWeighting) lift.projectLifted(px, py);
-    else lift.projectLifted(px);
+    // px, py come back conjugated (one pass fewer each); the imaginary parts are negated on reading.
+    if (gradientWeighting) lift.projectLifted(px, py, true);
+    else lift.projectLifted(px, undefined, true);
     for (let i = 0; i < n; i++) {
       const re = x[2 * i];
       const im = x[2 * i + 1];
@@ -225,14 +226,14 @@ export function solveLowrankHankel(
       if (gradientWeighting) {
         const s = inverseWeight[i];
         nr = (weightX[i] * px[2 * i] + weightY[i] * py[2 * i]) * s;
-        ni = (weightX[i] * px[2 * i + 1] + weightY[i] * py[2 * i + 1]) * s;
+        ni = -((weightX[i] * px[2 * i + 1] + weightY[i] * py[2 * i + 1]) * s);
         zx[2 * i] = weightX[i] * nr;
         zx[2 * i + 1] = weightX[i] * ni;
         zy[2 * i] = weightY[i] * nr;
         zy[2 * i + 1] = weightY[i] * ni;
       } else {
         nr = px[2 * i];
-        ni = px[2 * i + 1];
+        ni = -px[2 * i + 1];
       }
       x[2 * i] = nr;
       x[2 * i + 1] = ni;

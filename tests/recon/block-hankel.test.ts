@@ -202,7 +202,7 @@ describe.each([
       }
     });
 
-    it('projection and averaging, alone and after gram (shared transforms), equal the definition to 1e-10 relative', () => {
+    it('projection and averaging, alone, after gram (shared transforms) and conjugated, equal the definition to 1e-10 relative', () => {
       const lift = new BlockHankel(nx, ny, wx, wy);
       const gram = new Float64Array(2 * n * n);
       lift.gram(gram, [z1, z2]);
@@ -221,6 +221,12 @@ describe.each([
         lift.projectLifted(out1, out2);
         expect(relativeError(out1, expected1)).toBeLessThan(1e-10);
         expect(relativeError(out2, expected2)).toBeLessThan(1e-10);
+        // conjugated: the same samples, complex conjugated (every sample: interior, strips, corners).
+        lift.gram(gram, [z1, z2]);
+        lift.projectLifted(out1, out2, true);
+        const conj = (v: Float64Array) => v.map((x, i) => (i % 2 === 1 ? -x : x));
+        expect(relativeError(out1, conj(expected1))).toBeLessThan(1e-10);
+        expect(relativeError(out2, conj(expected2))).toBeLessThan(1e-10);
       }
     });
   },
