@@ -6,7 +6,14 @@
 export function derivativeWeights(
   nx: number,
   ny: number,
-): { weightX: Float64Array; weightY: Float64Array; inverseWeight: Float64Array } {
+): {
+  weightX: Float64Array;
+  weightY: Float64Array;
+  inverseWeight: Float64Array;
+  /** weightX along one row (it depends on the column u only) and weightY down one column (row v only). */
+  columnWeight: Float64Array;
+  rowWeight: Float64Array;
+} {
   const n = nx * ny;
   const weightX = new Float64Array(n);
   const weightY = new Float64Array(n);
@@ -22,5 +29,11 @@ export function derivativeWeights(
       inverseWeight[i] = w2 > 0 ? 1 / w2 : 0;
     }
   }
-  return { weightX, weightY, inverseWeight };
+  return {
+    weightX,
+    weightY,
+    inverseWeight,
+    columnWeight: weightX.slice(0, nx),
+    rowWeight: Float64Array.from({ length: ny }, (_, v) => weightY[v * nx]),
+  };
 }

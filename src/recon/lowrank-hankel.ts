@@ -187,7 +187,7 @@ export function solveLowrankHankel(
     }
   }
   const gradientWeighting = params.weighting === 'gradient';
-  const { weightX, weightY, inverseWeight } = derivativeWeights(nx, ny);
+  const { weightX, weightY, inverseWeight, columnWeight, rowWeight } = derivativeWeights(nx, ny);
   const zx = gradientWeighting ? new Float64Array(2 * n) : x;
   const zy = gradientWeighting ? new Float64Array(2 * n) : x;
   const px = new Float64Array(2 * n);
@@ -203,7 +203,7 @@ export function solveLowrankHankel(
       zy[2 * i + 1] = weightY[i] * x[2 * i + 1];
     }
   }
-  const consistency = { x, px, py, zx, zy, mask, weightX, weightY, inverseWeight, gradientWeighting };
+  const consistency = { x, px, py, zx, zy, mask, columnWeight, rowWeight, inverseWeight, gradientWeighting };
   // One iteration's truncation and data consistency; the loop around it is runHankelIterations.
   const update = (vectors: Float64Array, rank: number) => {
     lift.setProjector(projector, vectors, rank);
@@ -231,45 +231,50 @@ function dataConsistency(arrays: {
   zx: Float64Array;
   zy: Float64Array;
   mask: Uint8Array;
-  weightX: Float64Array;
-  weightY: Float64Array;
+  columnWeight: Float64Array;
+  rowWeight: Float64Array;
   inverseWeight: Float64Array;
   gradientWeighting: boolean;
 }): { diff: number; norm: number } {
-  const { x, px, py, zx, zy, mask, weightX, weightY, inverseWeight, gradientWeighting } = arrays;
-  const n = mask.length;
+  const { x, px, py, zx, zy, mask, columnWeight, rowWeight, inverseWeight, gradientWeighting } = arrays;
+  const nx = columnWeight.length;
+  const ny = rowWeight.length;
   let diff = 0;
   let norm = 0;
-  for (let i = 0; i < n; i++) {
-    const re = x[2 * i];
-    const im = x[2 * i + 1];
-    if (mask[i] || (gradientWeighting && inverseWeight[i] === 0)) {
-      norm += re * re;
-      norm += im * im;
-      continue;
+  for (let v = 0, i = 0; v < ny; v++) {
+    const wy = rowWeight[v];
+    for (let u = 0; u < nx; u++, i++) {
+      const re = x[2 * i];
+      const im = x[2 * i + 1];
+      if (mask[i] || (gradientWeighting && inverseWeight[i] === 0)) {
+        norm += re * re;
+        norm += im * im;
+        continue;
+      }
+      let nr: number;
+      let ni: number;
+      if (gradientWeighting) {
+        const wx = columnWeight[u];
+        const s = inverseWeight[i];
+        nr = (wx * px[2 * i] + wy * py[2 * i]) * s;
+        ni = -((wx * px[2 * i + 1] + wy * py[2 * i + 1]) * s);
+        zx[2 * i] = wx * nr;
+        zx[2 * i + 1] = wx * ni;
+        zy[2 * i] = wy * nr;
+        zy[2 * i + 1] = wy * ni;
+      } else {
+        nr = px[2 * i];
+        ni = -px[2 * i + 1];
+      }
+      x[2 * i] = nr;
+      x[2 * i + 1] = ni;
+      const dr = nr - re;
+      const di = ni - im;
+      diff += dr * dr;
+      norm += nr * nr;
+      diff += di * di;
+      norm += ni * ni;
     }
-    let nr: number;
-    let ni: number;
-    if (gradientWeighting) {
-      const s = inverseWeight[i];
-      nr = (weightX[i] * px[2 * i] + weightY[i] * py[2 * i]) * s;
-      ni = -((weightX[i] * px[2 * i + 1] + weightY[i] * py[2 * i + 1]) * s);
-      zx[2 * i] = weightX[i] * nr;
-      zx[2 * i + 1] = weightX[i] * ni;
-      zy[2 * i] = weightY[i] * nr;
-      zy[2 * i + 1] = weightY[i] * ni;
-    } else {
-      nr = px[2 * i];
-      ni = -px[2 * i + 1];
-    }
-    x[2 * i] = nr;
-    x[2 * i + 1] = ni;
-    const dr = nr - re;
-    const di = ni - im;
-    diff += dr * dr;
-    norm += nr * nr;
-    diff += di * di;
-    norm += ni * ni;
   }
   return { diff, norm };
 }
