@@ -8,7 +8,7 @@
  *
  * Reduction: for k = 0…n−3 the reflector H_k = I − τ v vᴴ maps column k below the diagonal onto
  * β e₁ (β = −phase(x₀)·‖x‖, so v₀ = x₀ − β never cancels); A ← H A H by the rank-2 update
- * A − v wᴴ − w vᴴ with p = τ A v, w = p − (τ/2)(vᴴp) v. The complex sub-diagonal e_k of
+ * A − v wᴴ − w vᴴ with p = τ A v, w = p − (τ/2)(vᴴp) v, both on the lower triangle only. The complex sub-diagonal e_k of
  * T = Qᴴ A Q (Q = H_0 H_1 ⋯) is made real by the diagonal phase D, φ_{k+1} = φ_k e_k/|e_k|:
  * Dᴴ T D is real symmetric tridiagonal with off-diagonal |e_k|, and its real plane rotations
  * accumulate on a real matrix W, so A = (Q D W) Λ (Q D W)ᴴ.
@@ -178,20 +178,32 @@ export class HermitianEigenSolver {
       }
       const t = 2 / ((x0 + norm) ** 2 + tail);
       tau[k] = t;
-      // p = τ B v over the trailing block, and vᴴ p.
-      let vp = 0;
+      // p = τ B v over the trailing block from its lower triangle (B Hermitian), and vᴴ p.
+      p.fill(0, 2 * k1, 2 * n);
       for (let i = k1; i < n; i++) {
+        const row = 2 * i * n;
+        const vr = v[2 * i];
+        const vi = v[2 * i + 1];
         let re = 0;
         let im = 0;
-        const row = 2 * i * n;
-        for (let j = k1; j < n; j++) {
+        for (let j = k1; j < i; j++) {
           const br = a[row + 2 * j];
           const bi = a[row + 2 * j + 1];
           re += br * v[2 * j] - bi * v[2 * j + 1];
           im += br * v[2 * j + 1] + bi * v[2 * j];
+          // B_ji = conj(B_ij) contributes to p_j.
+          p[2 * j] += br * vr + bi * vi;
+          p[2 * j + 1] += br * vi - bi * vr;
         }
-        p[2 * i] = t * re;
-        p[2 * i + 1] = t * im;
+        const dr = a[row + 2 * i];
+        const di = a[row + 2 * i + 1];
+        p[2 * i] += re + dr * vr - di * vi;
+        p[2 * i + 1] += im + dr * vi + di * vr;
+      }
+      let vp = 0;
+      for (let i = k1; i < n; i++) {
+        p[2 * i] *= t;
+        p[2 * i + 1] *= t;
         vp += v[2 * i] * p[2 * i] + v[2 * i + 1] * p[2 * i + 1];
       }
       const half = (t / 2) * vp;
@@ -199,14 +211,14 @@ export class HermitianEigenSolver {
         p[2 * i] -= half * v[2 * i];
         p[2 * i + 1] -= half * v[2 * i + 1];
       }
-      // B ← B − v wᴴ − w vᴴ (w in p).
+      // B ← B − v wᴴ − w vᴴ (w in p), lower triangle only: nothing reads the upper one again.
       for (let i = k1; i < n; i++) {
         const vr = v[2 * i];
         const vi = v[2 * i + 1];
         const wr = p[2 * i];
         const wi = p[2 * i + 1];
         const row = 2 * i * n;
-        for (let j = k1; j < n; j++) {
+        for (let j = k1; j <= i; j++) {
           const wjr = p[2 * j];
           const wji = -p[2 * j + 1];
           const vjr = v[2 * j];
