@@ -162,8 +162,9 @@ export interface HankelSolution<K> {
  * Memory: a few N-sized arrays and n×n matrices (O(N + n²)); time per iteration: one 2D DFT pair
  * per lifted array (shared by the Gram matrix and the projection, see BlockHankel), O(N) and
  * O((nx + ny)·w) line DFTs for the autocorrelation, wrap bands and border strips, half a DFT for
- * the interior multiplier, O(n³) for the eigensolver. Measured at 256², 7×7, 'gradient': about
- * 3 fft2c+ifft2c pairs per iteration (2.9–3.4 in `npm run bench` on a shared 2-core machine).
+ * the interior multiplier, O(n³) for the eigensolver (which forms only the leading `rank`
+ * eigenvectors). Measured at 256², 7×7, 'gradient': just under 4 fft2c+ifft2c pairs per iteration
+ * (`npm run bench` on a shared 2-core machine, docs/design.md §3.14).
  * A sample the mask misses at the k-space centre stays 0 under 'gradient' (both weights vanish).
  */
 export function solveLowrankHankel(
