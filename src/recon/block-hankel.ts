@@ -49,15 +49,16 @@ export class BlockHankel {
   private readonly multiplier: Float64Array;
   private readonly kernelRowSlot: Int32Array;
   /**
-   * Border rows (those the row strips read, [0, 2wy−2) and [ny−2wy+2, ny), which hold the row wrap
-   * band): slot per grid row (−1 elsewhere), and their row DFTs per lifted array, kept from the row
-   * pass of transformArrays (slot-major, then array): the row strips and band need no line DFTs.
+   * Border lines: the rows the row strips read, [0, 2wy−2) and [ny−2wy+2, ny), which hold the row
+   * wrap band, and likewise the columns. Slot per grid line (−1 elsewhere) and the lines' DFTs per
+   * lifted array (slot-major, then array), made once per lifting by transformArrays — the rows'
+   * kept from the row pass of the 2D DFT — and shared by the wrap bands and the border strips.
    */
   private readonly borderRowSlot: Int32Array;
   private readonly borderRowSpectra: Float64Array;
-  /** Border strips: spectra of the k-space lines they read (slot per line), kernel line, sums. */
-  private readonly stripSpectra: Float64Array;
-  private readonly stripSlot: Int32Array;
+  private readonly borderColumnSlot: Int32Array;
+  private readonly borderColumnSpectra: Float64Array;
+  /** Border strips: kernel line, sums. */
   private readonly kernelLine: Float64Array;
   private readonly stripSums: Float64Array;
   /** Prefix sums over window rows of the per-row kernels (setProjector scratch). */
@@ -97,14 +98,14 @@ export class BlockHankel {
     this.kernelImage = new Float64Array(2 * Math.min(ny, 2 * wy - 1) * nx);
     this.multiplier = new Float64Array(nx * ny);
     this.kernelRowSlot = new Int32Array(ny);
-    const stripLines = Math.max(Math.min(ny, 4 * wy - 4) * nx, Math.min(nx, 4 * wx - 4) * ny);
-    this.stripSpectra = new Float64Array(2 * 2 * stripLines);
-    this.stripSlot = new Int32Array(Math.max(nx, ny));
-    this.borderRowSlot = new Int32Array(ny).fill(-1);
-    let borderRows = 0;
-    for (let r = 0; r < ny; r++)
-      if (r < 2 * wy - 2 || r >= ny - 2 * wy + 2) this.borderRowSlot[r] = borderRows++;
-    this.borderRowSpectra = new Float64Array(2 * 2 * borderRows * nx);
+    this.borderRowSlot = borderSlots(ny, wy);
+    this.borderRowSpectra = new Float64Array(
+      2 * 2 * nx * this.borderRowSlot.reduce((m, s) => Math.max(m, s + 1), 0),
+    );
+    this.borderColumnSlot = borderSlots(nx, wx);
+    this.borderColumnSpectra = new Float64Array(
+      2 * 2 * ny * this.borderColumnSlot.reduce((m, s) => Math.max(m, s + 1), 0),
+    );
     this.kernelLine = new Float64Array(2 * Math.max(nx, ny));
     this.stripSums = new Float64Array(2 * 2 * Math.max(nx, ny));
     this.rowPrefix = new Float64Array(2 * (2 * wx - 1) * (2 * wy - 1) * (wy + 1));
@@ -157,7 +158,7 @@ export class BlockHankel {
     }
   }
 
-  /** spectra[i] ← DFT(arrays[i]) and the border rows' DFTs; remembers the arrays for projectLifted. */
+  /** spectra[i] ← DFT(arrays[i]) and the border lines' DFTs; remembers the arrays for projectLifted. */
   private transformArrays(arrays: readonly Float64Array[]): void {
     const stride = 2 * arrays.length * this.nx;
     for (let i = 0; i < arrays.length; i++) {
@@ -168,6 +169,15 @@ export class BlockHankel {
         stride,
       };
       this.dft.forward(arrays[i], this.spectra[i], { keepRows });
+    }
+    const { nx, ny, borderColumnSlot, borderColumnSpectra, lineY, planY } = this;
+    for (let c = 0; c < nx; c++) {
+      const slot = borderColumnSlot[c];
+      if (slot < 0) continue;
+      for (let k = 0; k < arrays.length; k++) {
+        const at = 2 * (slot * arrays.length + k) * ny;
+        transformLine(borderColumnSpectra.subarray(at, at + 2 * ny), lineY, arrays[k], c, false, nx, planY);
+      }
     }
     this.liftedArrays = arrays;
   }
@@ -215,17 +225,15 @@ export class BlockHankel {
     const spectra = byRows ? this.rowSpectra : this.columnSpectra;
     target.fill(0);
     if (band.count === 0) return;
-    if (byRows) {
-      // The band rows are border rows: their DFTs were kept by transformArrays.
-      const { nx, borderRowSlot, borderRowSpectra } = this;
-      for (let k = 0; k < arrays.length; k++) {
-        for (let i = 0; i < band.count; i++) {
-          const from = 2 * (borderRowSlot[(band.start + i) % band.lines] * arrays.length + k) * nx;
-          spectra.set(borderRowSpectra.subarray(from, from + 2 * nx), 2 * (k * band.count + i) * nx);
-        }
+    // The band's lines are border lines: copy their DFTs into bandLags' layout.
+    const slotOf = byRows ? this.borderRowSlot : this.borderColumnSlot;
+    const border = byRows ? this.borderRowSpectra : this.borderColumnSpectra;
+    const length = band.length;
+    for (let k = 0; k < arrays.length; k++) {
+      for (let i = 0; i < band.count; i++) {
+        const from = 2 * (slotOf[(band.start + i) % band.lines] * arrays.length + k) * length;
+        spectra.set(border.subarray(from, from + 2 * length), 2 * (k * band.count + i) * length);
       }
-    } else {
-      for (let k = 0; k < arrays.length; k++) transformBandLines(band, spectra, k, arrays[k], this.nx);
     }
     bandLags(band, target, spectra, this.lineOut, {
       arrays: arrays.length,
@@ -386,23 +394,9 @@ export class BlockHankel {
     const kernelSize = 2 * kw * (2 * wy - 1);
     const nCol = colBoxes.length / 2;
     const count = arrays.length;
-    // Spectra of every line a border line reads: lines [0, 2w−2) and [lines−2w+2, lines); the
-    // rows' were kept by transformArrays.
-    const stripSpectra = byRows ? this.borderRowSpectra : this.stripSpectra;
-    const stripSlot = byRows ? this.borderRowSlot : this.stripSlot;
-    if (!byRows) {
-      stripSlot.fill(-1);
-      let slots = 0;
-      for (let index = 0; index < lines; index++) {
-        if (index >= 2 * w - 2 && index < lines - 2 * w + 2) continue;
-        stripSlot[index] = slots;
-        for (let k = 0; k < count; k++) {
-          const at = 2 * (slots * count + k) * length;
-          transformLine(stripSpectra.subarray(at, at + 2 * length), line, arrays[k], index, false, nx, plan);
-        }
-        slots++;
-      }
-    }
+    // Spectra of every line a border line reads (border lines, made by transformArrays).
+    const stripSpectra = byRows ? this.borderRowSpectra : this.borderColumnSpectra;
+    const stripSlot = byRows ? this.borderRowSlot : this.borderColumnSlot;
     for (let q = 0; q < lines; q++) {
       if (q >= w - 1 && q <= lines - w) continue;
       const box = boxOf[q];
@@ -488,6 +482,17 @@ export class BlockHankel {
       }
     }
   }
+}
+
+/**
+ * Slot per line of an axis of `lines` lines (window `w`) for the border lines [0, 2w−2) and
+ * [lines−2w+2, lines) (each once where they overlap), −1 for the others.
+ */
+function borderSlots(lines: number, w: number): Int32Array {
+  const slot = new Int32Array(lines).fill(-1);
+  let slots = 0;
+  for (let i = 0; i < lines; i++) if (i < 2 * w - 2 || i >= lines - 2 * w + 2) slot[i] = slots++;
+  return slot;
 }
 
 /**
