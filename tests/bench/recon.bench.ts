@@ -4,7 +4,6 @@ import { reconstruct } from '../../src/recon/index.ts';
 import { poissonDiscAcquisition } from '../recon/helpers.ts';
 import { type BenchRow, cpuMs, median } from './timing.ts';
 
-/** This process's CPU time in ms (user + system). */
 /**
  * Reconstruction cost at 256×256 (modified Shepp–Logan, analytic k-space, Poisson-disc R = 4):
  * cs-tv 100 iterations and lowrank-hankel (7×7 window, default rank and weighting) 50 iterations,
