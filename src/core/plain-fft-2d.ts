@@ -3,7 +3,8 @@ import { type FftPlan, fftPlan } from './fft-plan.ts';
 // Row views per buffer and row length, made once: fft.js indexes its buffers from 0, and a fresh
 // subarray per row and call costs allocation on every transform.
 const views = new WeakMap<Float64Array, Map<number, Float64Array[]>>();
-function rowViews(buffer: Float64Array, rowLength: number): Float64Array[] {
+/** Cached views of consecutive rows of `rowLength` numbers each (interleaved: 2 per sample). */
+export function rowViews(buffer: Float64Array, rowLength: number): Float64Array[] {
   let byLength = views.get(buffer);
   if (!byLength) {
     byLength = new Map();

@@ -1,5 +1,5 @@
 import { type FftPlan, fftPlan } from '../core/fft-plan.ts';
-import { type ColumnPlan, columnPlan, transformColumns } from '../core/plain-fft-2d.ts';
+import { type ColumnPlan, columnPlan, rowViews, transformColumns } from '../core/plain-fft-2d.ts';
 
 /**
  * Where Dft2.forward copies the row transforms of some rows (taken before the column pass): row r
@@ -35,8 +35,6 @@ export class Dft2 {
   private readonly columnOut: Float64Array;
   /** forwardToReal: the grid row of each transformed non-zero row. */
   private readonly rowOfSlot: Int32Array;
-  /** Row views of the arrays transformed so far (a handful of fixed buffers). */
-  private readonly views = new Map<Float64Array, Float64Array[]>();
 
   constructor(nx: number, ny: number) {
     this.nx = nx;
@@ -45,7 +43,7 @@ export class Dft2 {
     this.planY = fftPlan(ny);
     this.columns = columnPlan(ny);
     this.scratch = new Float64Array(2 * nx * ny);
-    this.scratchRows = rowViews(this.scratch, nx, ny);
+    this.scratchRows = rowViews(this.scratch, 2 * nx);
     this.rowIn = new Float64Array(2 * nx);
     this.columnIn = new Float64Array(2 * ny);
     this.columnOut = new Float64Array(2 * ny);
@@ -88,12 +86,7 @@ export class Dft2 {
   }
 
   private rowsOf(data: Float64Array): Float64Array[] {
-    let rows = this.views.get(data);
-    if (rows === undefined) {
-      rows = rowViews(data, this.nx, data.length / (2 * this.nx));
-      this.views.set(data, rows);
-    }
-    return rows;
+    return rowViews(data, 2 * this.nx);
   }
 
   /**
@@ -131,10 +124,4 @@ export class Dft2 {
       }
     }
   }
-}
-
-function rowViews(data: Float64Array, nx: number, ny: number): Float64Array[] {
-  const views: Float64Array[] = [];
-  for (let r = 0; r < ny; r++) views.push(data.subarray(2 * r * nx, 2 * (r + 1) * nx));
-  return views;
 }
